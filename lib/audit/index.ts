@@ -1,0 +1,29 @@
+import 'server-only';
+import type { Transaction } from 'sequelize';
+import { AuditEvent } from '@/models';
+
+export interface AuditInput {
+  coopId: number;
+  actorUserId: number | null;
+  action: string;
+  entityType: string;
+  entityId?: string | number | null;
+  before?: unknown;
+  after?: unknown;
+}
+
+/** Appends one audit event (who, what, when, before/after) inside the caller's transaction. */
+export async function audit(e: AuditInput, transaction?: Transaction): Promise<void> {
+  await AuditEvent.create(
+    {
+      coopId: e.coopId,
+      actorUserId: e.actorUserId,
+      action: e.action,
+      entityType: e.entityType,
+      entityId: e.entityId == null ? null : String(e.entityId),
+      before: e.before ?? null,
+      after: e.after ?? null,
+    },
+    { transaction },
+  );
+}

@@ -1,0 +1,129 @@
+#!/usr/bin/env node
+// `npm start`: prepares everything on a fresh machine and serves Tallyvat with demo data.
+//  1. the embedded PostgreSQL (.data/pg), unless DATABASE_URL is set;
+//  2. migrations and the demo seeders (each runs once);
+//  3. the local fakes: SMTP catcher with an inbox page, and the payments fake;
+//  4. `next build` when the build is missing or older than the sources, then `next start`.
+// Ctrl-C stops the app, the fakes and the database it started.
+import { spawn } from 'node:child_process';
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { startEmbeddedPg, portInUse } from './lib/pg.mjs';
+import { migrate } from './lib/db-setup.mjs';
+import { buildIfNeeded } from './lib/build.mjs';
+import { startMailCatcher, startPaymentsFake } from './lib/fakes.mjs';
+
+const dev = process.argv.includes('--dev');
+const PORT = Number(process.env.PORT ?? 3000);
+const offset = PORT - 3000; // side-by-side checkouts: every helper port moves with PORT
+const PG_PORT = Number(process.env.PG_PORT ?? 54329 + offset);
+const SMTP_PORT = Number(process.env.SMTP_PORT ?? 2525 + offset);
+const MAIL_UI_PORT = Number(process.env.MAIL_UI_PORT ?? 1080 + offset);
+const PAYMENTS_PORT = Number(process.env.PAYMENTS_PORT ?? 12111 + offset);
+const DATA = path.resolve('.data');
+const LOCK = path.join(DATA, 'app.lock');
+
+const log = (...a) => console.log('[tallyvat]', ...a);
+const fail = (msg) => {
+  console.error(`\n[tallyvat] ${msg}\n`);
+  process.exit(1);
+};
+
+fs.mkdirSync(DATA, { recursive: true });
+if (fs.existsSync(LOCK)) {
+  const { pid, port } = JSON.parse(fs.readFileSync(LOCK, 'utf8'));
+  let alive = false;
+  try {
+    process.kill(pid, 0);
+    alive = true;
+  } catch {
+    /* stale lock */
+  }
+  if (alive) fail(`Tallyvat is already running from this folder (pid ${pid}) on http://localhost:${port}. Stop it with Ctrl-C in its terminal first.`);
+}
+for (const [name, p] of [['PORT', PORT], ['SMTP_PORT', SMTP_PORT], ['MAIL_UI_PORT', MAIL_UI_PORT], ['PAYMENTS_PORT', PAYMENTS_PORT]]) {
+  if (await portInUse(p)) fail(`Port ${p} (${name}) is already in use. Free it or set ${name}=<another port>.`);
+}
+fs.writeFileSync(LOCK, JSON.stringify({ pid: process.pid, port: PORT }));
+
+const cleanups = [];
+let stopping = false;
+async function shutdown(code = 0) {
+  if (stopping) return;
+  stopping = true;
+  log('stopping…');
+  for (const fn of cleanups.reverse()) {
+    try {
+      await fn();
+    } catch (e) {
+      console.error(e);
+    }
+  }
+  fs.rmSync(LOCK, { force: true });
+  log('stopped.');
+  process.exit(code);
+}
+process.on('SIGINT', () => shutdown(0));
+process.on('SIGTERM', () => shutdown(0));
+
+try {
+  let databaseUrl = process.env.DATABASE_URL;
+  if (databaseUrl) {
+    log('Using DATABASE_URL (the embedded PostgreSQL is not started)');
+  } else {
+    const pg = await startEmbeddedPg({ dataDir: path.join(DATA, 'pg'), port: PG_PORT, dbName: 'tallyvat', log });
+    databaseUrl = pg.url;
+    if (pg.started) cleanups.push(pg.stop);
+    log(`PostgreSQL on 127.0.0.1:${PG_PORT} (data in .data/pg)`);
+  }
+  log('Applying migrations and demo data…');
+  migrate({ databaseUrl, seed: true });
+
+  const mail = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_UI_PORT, log });
+  cleanups.push(mail.stop);
+  const pay = await startPaymentsFake({ port: PAYMENTS_PORT, log });
+  cleanups.push(pay.stop);
+
+  const secretFile = path.join(DATA, 'nextauth-secret');
+  if (!process.env.NEXTAUTH_SECRET && !fs.existsSync(secretFile)) {
+    fs.writeFileSync(secretFile, crypto.randomBytes(32).toString('base64url'), { mode: 0o600 });
+  }
+  const env = {
+    ...process.env,
+    NEXT_TELEMETRY_DISABLED: '1',
+    DATABASE_URL: databaseUrl,
+    APP_URL: process.env.APP_URL ?? `http://localhost:${PORT}`,
+    NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? process.env.APP_URL ?? `http://localhost:${PORT}`,
+    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? fs.readFileSync(secretFile, 'utf8').trim(),
+    SMTP_HOST: '127.0.0.1',
+    SMTP_PORT: String(SMTP_PORT),
+    MAIL_FROM: process.env.MAIL_FROM ?? 'Tallyvat <no-reply@tallyvat.localhost>',
+    MAIL_UI_URL: `http://127.0.0.1:${MAIL_UI_PORT}/`,
+    STRIPE_SECRET_KEY: process.env.STRIPE_SECRET_KEY ?? 'sk_test_tallyvat_local',
+    STRIPE_API_HOST: '127.0.0.1',
+    STRIPE_API_PORT: String(PAYMENTS_PORT),
+    STRIPE_API_PROTOCOL: 'http',
+    STORAGE_DIR: process.env.STORAGE_DIR ?? path.join(DATA, 'uploads'),
+  };
+
+  const nextBin = path.resolve('node_modules', 'next', 'dist', 'bin', 'next');
+  if (!dev) buildIfNeeded({ env, log });
+  const child = spawn(process.execPath, [nextBin, dev ? 'dev' : 'start', '-p', String(PORT)], { env, stdio: 'inherit' });
+  cleanups.push(
+    () =>
+      new Promise((resolve) => {
+        if (child.exitCode !== null) return resolve();
+        child.once('exit', resolve);
+        child.kill('SIGTERM');
+      }),
+  );
+  child.on('exit', (code) => {
+    if (!stopping) shutdown(code ?? 1);
+  });
+  log(`Tallyvat: http://localhost:${PORT}   caught e-mail: http://127.0.0.1:${MAIL_UI_PORT}/`);
+  log('Demo sign-ins (password tallyvat-demo-2026): marisol.admin@example.org, tobias.treasurer@example.org, juniper.brewer@example.org, dale.member@example.org');
+} catch (e) {
+  console.error(`\n[tallyvat] ${e.message}\n`);
+  await shutdown(1);
+}

@@ -1,0 +1,113 @@
+// Helpers for integration tests: supertest against the running server, direct database
+// access for setting up and checking rows, factories, and the caught e-mail.
+import bcrypt from 'bcryptjs';
+import pg from 'pg';
+import request from 'supertest';
+import { inject } from 'vitest';
+
+export const TEST_PASSWORD = 'correct-horse-tallyvat';
+export const DEMO_PASSWORD = 'tallyvat-demo-2026';
+const HASH = bcrypt.hashSync(TEST_PASSWORD, 10);
+
+export const baseUrl = () => inject('baseUrl');
+export const api = () => request(inject('baseUrl'));
+
+let pool: pg.Pool | null = null;
+/** A direct connection to the test database (for arranging and asserting rows). */
+export function db(): pg.Pool {
+  pool ??= new pg.Pool({ connectionString: inject('databaseUrl'), max: 4 });
+  return pool;
+}
+export async function sql<T = Record<string, unknown>>(text: string, params: unknown[] = []): Promise<T[]> {
+  return (await db().query(text, params)).rows as T[];
+}
+
+/** A supertest agent holding a signed-in session cookie. */
+export async function signIn(email: string, password = TEST_PASSWORD) {
+  const agent = request.agent(inject('baseUrl'));
+  const csrf = await agent.get('/api/auth/csrf').expect(200);
+  const res = await agent
+    .post('/api/auth/callback/credentials')
+    .type('form')
+    .send({ csrfToken: csrf.body.csrfToken, email, password, json: 'true' });
+  if (res.status !== 200 || String(res.body?.url ?? '').includes('error=')) {
+    throw new Error(`sign-in failed for ${email}: ${res.status} ${JSON.stringify(res.body)}`);
+  }
+  return agent;
+}
+
+let seq = 0;
+const uniq = () => `${Date.now().toString(36)}${(seq++).toString(36)}${Math.random().toString(36).slice(2, 6)}`;
+
+export type Role = 'admin' | 'treasurer' | 'brewer' | 'member';
+
+/** Inserts a co-op and returns { id, slug }. */
+export async function makeCoop(overrides: { units?: 'us' | 'metric'; settings?: object; name?: string } = {}) {
+  const slug = `t-${uniq()}`;
+  const [row] = await sql<{ id: number; slug: string }>(
+    `INSERT INTO coops (name, slug, units, settings) VALUES ($1, $2, $3, $4) RETURNING id, slug`,
+    [overrides.name ?? `Test Co-op ${slug}`, slug, overrides.units ?? 'us', JSON.stringify(overrides.settings ?? {})],
+  );
+  return row!;
+}
+
+/** Inserts a user (password TEST_PASSWORD), optionally with a membership. */
+export async function makeUser(opts: { coopId?: number; role?: Role; status?: 'active' | 'suspended'; name?: string } = {}) {
+  const email = `u-${uniq()}@example.test`;
+  const [u] = await sql<{ id: number }>(`INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`, [email, opts.name ?? 'Test Person', HASH]);
+  let membershipId: number | undefined;
+  if (opts.coopId) {
+    const [m] = await sql<{ id: number }>(
+      `INSERT INTO memberships (coop_id, user_id, role, status) VALUES ($1, $2, $3, $4) RETURNING id`,
+      [opts.coopId, u!.id, opts.role ?? 'member', opts.status ?? 'active'],
+    );
+    membershipId = m!.id;
+  }
+  return { id: u!.id, email, membershipId };
+}
+
+/** A co-op with one signed-in agent per role, plus an outsider who belongs to another co-op. */
+export async function makeCoopWithRoles() {
+  const coop = await makeCoop();
+  const other = await makeCoop();
+  const users = {
+    admin: await makeUser({ coopId: coop.id, role: 'admin' }),
+    treasurer: await makeUser({ coopId: coop.id, role: 'treasurer' }),
+    brewer: await makeUser({ coopId: coop.id, role: 'brewer' }),
+    member: await makeUser({ coopId: coop.id, role: 'member' }),
+    outsider: await makeUser({ coopId: other.id, role: 'admin' }),
+  };
+  const agents = {
+    admin: await signIn(users.admin.email),
+    treasurer: await signIn(users.treasurer.email),
+    brewer: await signIn(users.brewer.email),
+    member: await signIn(users.member.email),
+    outsider: await signIn(users.outsider.email),
+  };
+  return { coop, other, users, agents };
+}
+
+export interface CaughtMail { id: number; to: string; from: string; subject: string; text: string; attachments: { filename: string; contentType: string; size: number }[] }
+
+/** Messages caught by the local SMTP catcher, newest first. */
+export async function caughtMail(to?: string): Promise<CaughtMail[]> {
+  const all = (await (await fetch(`${inject('mailUrl')}/api/messages`)).json()) as CaughtMail[];
+  return to ? all.filter((m) => m.to.toLowerCase().includes(to.toLowerCase())) : all;
+}
+
+/** Waits until a message to `to` arrives (mail is sent asynchronously in some flows). */
+export async function waitForMail(to: string, match: (m: CaughtMail) => boolean = () => true, timeoutMs = 10_000): Promise<CaughtMail> {
+  const end = Date.now() + timeoutMs;
+  for (;;) {
+    const m = (await caughtMail(to)).find(match);
+    if (m) return m;
+    if (Date.now() > end) throw new Error(`no e-mail to ${to} within ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+/** Counts rows of a table (for "nothing written" checks). */
+export async function countRows(table: string, where = 'true', params: unknown[] = []): Promise<number> {
+  const [r] = await sql<{ n: string }>(`SELECT count(*)::text AS n FROM ${table} WHERE ${where}`, params);
+  return Number(r!.n);
+}

@@ -1,0 +1,46 @@
+// Headless Chromium (Debian's package) driven by playwright-core, with axe-core checks.
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import AxeBuilder from '@axe-core/playwright';
+import { chromium, type Page } from 'playwright-core';
+import { expect } from 'vitest';
+import { baseUrl } from './api';
+
+export const SHOTS = path.resolve('tests', 'output', 'screenshots');
+fs.mkdirSync(SHOTS, { recursive: true });
+
+const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'];
+
+/** Runs fn with a page in a fresh browser profile; closes everything afterwards. */
+export async function withBrowser(fn: (page: Page) => Promise<void>) {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tallyvat-chromium-'));
+  const context = await chromium.launchPersistentContext(dir, {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: ARGS,
+    viewport: { width: 1280, height: 800 },
+  });
+  try {
+    const page = context.pages()[0] ?? (await context.newPage());
+    await fn(page);
+  } finally {
+    await context.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/** Signs in through the real form. */
+export async function signInUi(page: Page, email: string, password: string) {
+  await page.goto(`${baseUrl()}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await Promise.all([page.waitForURL((u) => !u.pathname.startsWith('/sign-in')), page.getByRole('button', { name: 'Sign in' }).click()]);
+}
+
+/** Fails on any WCAG 2.x A/AA violation axe-core finds on the page. */
+export async function checkA11y(page: Page) {
+  const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
+  const summary = result.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`);
+  expect(summary).toEqual([]);
+}
