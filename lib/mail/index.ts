@@ -1,0 +1,48 @@
+import 'server-only';
+import nodemailer, { type Transporter } from 'nodemailer';
+
+declare global {
+  // eslint-disable-next-line no-var
+  var __tallyvatMail: Transporter | undefined;
+}
+
+function transport(): Transporter {
+  return (globalThis.__tallyvatMail ??= nodemailer.createTransport({
+    host: process.env.SMTP_HOST ?? '127.0.0.1',
+    port: Number(process.env.SMTP_PORT ?? 2525),
+    secure: false,
+    ignoreTLS: process.env.SMTP_TLS !== '1',
+    auth: process.env.SMTP_USER ? { user: process.env.SMTP_USER, pass: process.env.SMTP_PASSWORD ?? '' } : undefined,
+    connectionTimeout: 5_000,
+    greetingTimeout: 5_000,
+    socketTimeout: 10_000,
+  }));
+}
+
+export interface OutgoingMail {
+  to: string;
+  subject: string;
+  /** Plain text body; e-mails are plain and readable in any client. */
+  text: string;
+  attachments?: { filename: string; content: Buffer; contentType: string }[];
+}
+
+/**
+ * Sends one e-mail. Returns true when the SMTP server accepted it, false when it could not be
+ * reached or refused it (the caller records "not sent" and offers a resend); never throws.
+ */
+export async function sendMail(mail: OutgoingMail): Promise<boolean> {
+  try {
+    await transport().sendMail({ from: process.env.MAIL_FROM ?? 'Tallyvat <no-reply@tallyvat.localhost>', ...mail });
+    return true;
+  } catch (e) {
+    console.error('[mail] not sent:', (e as Error).message);
+    return false;
+  }
+}
+
+/** An absolute link into the app for e-mails. */
+export function appUrl(path: string): string {
+  const base = (process.env.APP_URL ?? process.env.NEXTAUTH_URL ?? 'http://localhost:3000').replace(/\/$/, '');
+  return `${base}${path}`;
+}

@@ -1,0 +1,9 @@
+import type { RouteSpec } from './types';
+
+export const routes: RouteSpec[] = [
+  { method: 'GET', path: '/api/health', scope: 'public' },
+  { method: 'GET', path: '/api/auth/[...nextauth]', scope: 'public', params: { '...nextauth': 'csrf' } },
+  { method: 'POST', path: '/api/auth/[...nextauth]', scope: 'public', params: { '...nextauth': 'signout' } },
+  { method: 'GET', path: '/api/coops', scope: 'user' },
+  { method: 'POST', path: '/api/coops', scope: 'user', body: {} },
+];
