@@ -49,9 +49,17 @@ export function DataTable<Row extends RowData>({
     return `${pathname}?${p.toString()}`;
   };
 
+  if (data.length === 0) {
+    return (
+      <div role="status" className="rounded-xl border border-dashed border-stone-300 bg-white px-4 py-8 text-center text-stone-600">
+        {empty ?? 'Nothing here yet.'}
+      </div>
+    );
+  }
   return (
     <div className="overflow-hidden rounded-xl border border-stone-200 bg-white shadow-sm">
-      <div className="overflow-x-auto">
+      {/* Focusable so keyboard users can scroll a wide table sideways on a phone. */}
+      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
         <table className="w-full min-w-[36rem] border-collapse text-left text-sm">
           <caption className="sr-only">{caption}</caption>
           <thead className="bg-stone-100 text-xs uppercase tracking-wide text-stone-700">
@@ -78,12 +86,7 @@ export function DataTable<Row extends RowData>({
             ))}
           </thead>
           <tbody>
-            {table.getRowModel().rows.length === 0 ? (
-              <tr>
-                <td colSpan={columns.length} className="px-3 py-8 text-center text-stone-600">{empty ?? 'Nothing here yet.'}</td>
-              </tr>
-            ) : (
-              table.getRowModel().rows.map((row) => (
+            {table.getRowModel().rows.map((row) => (
                 <tr key={row.id} className="border-t border-stone-100 hover:bg-stone-50">
                   {row.getAllCells().map((cell) => (
                     <td key={cell.id} className="px-3 py-2 align-top">
@@ -91,8 +94,7 @@ export function DataTable<Row extends RowData>({
                     </td>
                   ))}
                 </tr>
-              ))
-            )}
+              ))}
           </tbody>
         </table>
       </div>

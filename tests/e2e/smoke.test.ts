@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { baseUrl } from '../support/api';
-import { withBrowser, checkA11y, SHOTS } from '../support/browser';
+import { withBrowser, checkA11y, signInUi, SHOTS } from '../support/browser';
 
 describe('landing page in headless Chromium', () => {
   it('says what Tallyvat is, passes axe, and is saved as a screenshot at phone and desktop widths', async () => {
@@ -18,6 +18,28 @@ describe('landing page in headless Chromium', () => {
         const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
         expect(overflow).toBeLessThanOrEqual(0);
       }
+      await checkA11y(page);
+    });
+  });
+});
+
+describe('app shell in headless Chromium', () => {
+  it('an admin signs in, sees the co-op overview and the audit log; both pass axe at 360 and 1280 px', async () => {
+    await withBrowser(async (page) => {
+      await signInUi(page, 'marisol.admin@example.org', 'tallyvat-demo-2026');
+      expect(new URL(page.url()).pathname).toBe('/coops');
+      await page.getByRole('link', { name: 'Prairie Lantern Fuel Co-op' }).click();
+      await page.waitForURL('**/c/prairie-lantern');
+      await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Prairie Lantern Fuel Co-op');
+      for (const width of [360, 1280]) {
+        await page.setViewportSize({ width, height: 800 });
+        await page.goto(`${baseUrl()}/c/prairie-lantern/audit`);
+        await page.getByRole('heading', { name: 'Audit log' }).waitFor();
+        await page.screenshot({ path: path.join(SHOTS, `audit-${width}.png`), fullPage: true });
+        await checkA11y(page);
+      }
+      await page.goto(`${baseUrl()}/c/prairie-lantern`);
+      await page.screenshot({ path: path.join(SHOTS, 'overview-admin-1280.png'), fullPage: true });
       await checkA11y(page);
     });
   });

@@ -1,0 +1,10 @@
+import { requireMember } from '@/lib/auth';
+import { listAuditEvents } from '@/lib/audit/queries';
+import { handler, parseQuery } from '@/lib/http';
+import { auditQuerySchema } from '@/lib/validation/audit';
+
+/** GET: the co-op's audit log (admins), filtered by ?actor=&action=&from=&to=&page=. */
+export const GET = handler<{ coop: string }>(async (req, { coop }) => {
+  const actor = await requireMember(coop, 'audit:read');
+  return listAuditEvents(actor, parseQuery(req, auditQuerySchema));
+});

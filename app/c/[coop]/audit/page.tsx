@@ -1,0 +1,46 @@
+import type { Metadata } from 'next';
+import { AuditTable } from '@/components/audit/audit-table';
+import { Button } from '@/components/ui/button';
+import { SelectField, TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { requireMember } from '@/lib/auth';
+import { listAuditActors, listAuditEvents } from '@/lib/audit/queries';
+import { fieldErrors } from '@/lib/http';
+import { auditQuerySchema } from '@/lib/validation/audit';
+
+export const metadata: Metadata = { title: 'Audit log' };
+
+export default async function AuditPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
+  const { coop } = await params;
+  const sp = await searchParams;
+  const actor = await requireMember(coop, 'audit:read');
+  const parsed = auditQuerySchema.safeParse(Object.fromEntries(Object.entries(sp).filter(([, v]) => v !== '')));
+  const errors = parsed.success ? {} : fieldErrors(parsed.error);
+  const [data, people] = await Promise.all([
+    parsed.success ? listAuditEvents(actor, parsed.data) : null,
+    listAuditActors(actor),
+  ]);
+  return (
+    <div className="flex flex-col gap-5">
+      <div>
+        <h1>Audit log</h1>
+        <p className="text-stone-600">Every change made in this co-op: who, what, when, and the record before and after.</p>
+      </div>
+      <form method="get" className="grid gap-3 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-5 sm:items-end">
+        <SelectField label="Who" name="actor" defaultValue={sp.actor ?? ''} errors={errors.actor}>
+          <option value="">Anyone</option>
+          {people.map((p) => <option key={p.id} value={p.id}>{p.name}</option>)}
+        </SelectField>
+        <TextField label="What" name="action" defaultValue={sp.action ?? ''} placeholder="e.g. member, batch." errors={errors.action} />
+        <TextField label="From" name="from" type="date" defaultValue={sp.from ?? ''} errors={errors.from} />
+        <TextField label="To" name="to" type="date" defaultValue={sp.to ?? ''} errors={errors.to} />
+        <Button type="submit" variant="secondary">Filter</Button>
+      </form>
+      {data ? (
+        <AuditTable rows={data.rows} pageInfo={{ page: data.page, pageSize: data.pageSize, total: data.total }} />
+      ) : (
+        <Notice tone="danger">Check the filters above.</Notice>
+      )}
+    </div>
+  );
+}

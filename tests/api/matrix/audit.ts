@@ -1,0 +1,3 @@
+import { ADMINS, type RouteSpec } from './types';
+
+export const routes: RouteSpec[] = [{ method: 'GET', path: '/api/coops/[coop]/audit', scope: 'coop', allow: ADMINS }];
