@@ -13,6 +13,8 @@ export interface CoopSettings {
     purityPct?: number;
     methanolPct?: number;
   };
+  /** Fuel-quality standard batches are judged against. */
+  qualityStandard?: 'ASTM D6751' | 'EN 14214';
   monthlyDuesCents?: number;
 }
 

@@ -11,4 +11,5 @@ export const NAV_ITEMS: { href: string; label: string; action: Action }[] = [
   { href: '/reports', label: 'Reports', action: 'reports:read' },
   { href: '/members', label: 'Members', action: 'members:manage' },
   { href: '/audit', label: 'Audit log', action: 'audit:read' },
+  { href: '/settings', label: 'Settings', action: 'settings:manage' },
 ];

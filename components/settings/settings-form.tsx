@@ -1,0 +1,62 @@
+'use client';
+
+import { Button } from '@/components/ui/button';
+import { SelectField, TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { useApiForm } from '@/components/forms/use-api-form';
+import type { CoopSettingsDto } from '@/lib/coops/settings-types';
+
+export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
+  const { busy, fields, message, submit } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const f = new FormData(e.currentTarget);
+    const body = {
+      name: String(f.get('name') ?? ''),
+      units: String(f.get('units') ?? ''),
+      timezone: String(f.get('timezone') ?? ''),
+      monthlyDues: String(f.get('monthlyDues') ?? ''),
+      selfServeDraws: f.get('selfServeDraws') === 'on',
+      catalyst: String(f.get('catalyst') ?? ''),
+      baseGramsPerLiter: String(f.get('baseGramsPerLiter') ?? ''),
+      purityPct: String(f.get('purityPct') ?? ''),
+      methanolPct: String(f.get('methanolPct') ?? ''),
+      qualityStandard: String(f.get('qualityStandard') ?? ''),
+    };
+    if (await submit(`/api/coops/${initial.slug}/settings`, 'PUT', body, 'Settings saved.')) window.location.reload();
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-6">
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+      <fieldset className="grid gap-4 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-2">
+        <legend className="px-1 font-semibold text-fir-900">Co-op</legend>
+        <TextField label="Name" name="name" defaultValue={initial.name} errors={fields.name} />
+        <SelectField label="Units" name="units" defaultValue={initial.units} errors={fields.units} hint="Changes how volumes and temperatures are shown; stored figures do not change.">
+          <option value="us">US gallons and °F</option>
+          <option value="metric">Litres and °C</option>
+        </SelectField>
+        <TextField label="Time zone" name="timezone" defaultValue={initial.timezone} errors={fields.timezone} hint="Months and quarters follow this zone." />
+        <TextField label={`Monthly dues (${initial.currency})`} name="monthlyDues" inputMode="decimal" defaultValue={(initial.monthlyDuesCents / 100).toFixed(2)} errors={fields.monthlyDues} />
+        <div className="flex items-center gap-3 sm:col-span-2">
+          <input id="selfServeDraws" name="selfServeDraws" type="checkbox" defaultChecked={initial.selfServeDraws} className="h-5 w-5 accent-fir-700" />
+          <label htmlFor="selfServeDraws" className="text-sm">Members may record their own draws at a self-serve pump</label>
+        </div>
+      </fieldset>
+      <fieldset className="grid gap-4 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-2">
+        <legend className="px-1 font-semibold text-fir-900">Recipe defaults for the planner</legend>
+        <SelectField label="Catalyst" name="catalyst" defaultValue={initial.catalyst} errors={fields.catalyst}>
+          <option value="NaOH">NaOH (sodium hydroxide)</option>
+          <option value="KOH">KOH (potassium hydroxide)</option>
+        </SelectField>
+        <TextField label="Base amount (g per litre of oil, as pure catalyst)" name="baseGramsPerLiter" inputMode="decimal" defaultValue={String(initial.baseGramsPerLiter)} errors={fields.baseGramsPerLiter} hint="Common practice: NaOH 3.5 g/L; KOH 4.91 g/L pure equivalent." />
+        <TextField label="Catalyst purity (%)" name="purityPct" inputMode="decimal" defaultValue={String(initial.purityPct)} errors={fields.purityPct} hint="Flake KOH is often about 90 %; NaOH 97–99 % (common practice)." />
+        <TextField label="Methanol (% of oil volume)" name="methanolPct" inputMode="decimal" defaultValue={String(initial.methanolPct)} errors={fields.methanolPct} hint="20 % is common practice." />
+        <SelectField label="Fuel-quality standard" name="qualityStandard" defaultValue={initial.qualityStandard} errors={fields.qualityStandard}>
+          <option value="ASTM D6751">ASTM D6751 (North America)</option>
+          <option value="EN 14214">EN 14214 (Europe)</option>
+        </SelectField>
+      </fieldset>
+      <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save settings'}</Button></div>
+    </form>
+  );
+}

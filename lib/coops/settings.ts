@@ -1,0 +1,56 @@
+import 'server-only';
+import { audit } from '@/lib/audit';
+import type { Actor } from '@/lib/auth';
+import { requireCan } from '@/lib/auth/require';
+import { notFound } from '@/lib/http';
+import type { CoopSettingsUpdate } from '@/lib/validation/settings';
+import { Coop, sequelize } from '@/models';
+import type { CoopSettings } from '@/models/Coop';
+import type { CoopSettingsDto } from './settings-types';
+
+export type { CoopSettingsDto };
+
+/** Recipe defaults when a co-op has set none: NaOH 3.5 g/L fresh-oil base, 20 % methanol (common practice). */
+const DEFAULTS = { catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 98, methanolPct: 20, qualityStandard: 'ASTM D6751' } as const;
+
+function toDto(c: Coop): CoopSettingsDto {
+  const s: CoopSettings = c.settings ?? {};
+  return {
+    name: c.name, slug: c.slug, units: c.units, timezone: c.timezone, currency: c.currency,
+    monthlyDuesCents: s.monthlyDuesCents ?? 0,
+    selfServeDraws: s.selfServeDraws ?? false,
+    catalyst: s.recipe?.catalyst ?? DEFAULTS.catalyst,
+    baseGramsPerLiter: s.recipe?.baseGramsPerLiter ?? DEFAULTS.baseGramsPerLiter,
+    purityPct: s.recipe?.purityPct ?? DEFAULTS.purityPct,
+    methanolPct: s.recipe?.methanolPct ?? DEFAULTS.methanolPct,
+    qualityStandard: s.qualityStandard ?? DEFAULTS.qualityStandard,
+  };
+}
+
+export async function getCoopSettings(actor: Actor): Promise<CoopSettingsDto> {
+  requireCan(actor, 'settings:manage');
+  const coop = await Coop.findByPk(actor.coop.id);
+  if (!coop) throw notFound();
+  return toDto(coop);
+}
+
+/** Updates the co-op's settings (admins); audited with before and after. Units change only how figures are shown. */
+export async function updateCoopSettings(actor: Actor, input: CoopSettingsUpdate): Promise<CoopSettingsDto> {
+  requireCan(actor, 'settings:manage');
+  return sequelize.transaction(async (transaction) => {
+    const coop = await Coop.findByPk(actor.coop.id, { transaction, lock: transaction.LOCK.UPDATE });
+    if (!coop) throw notFound();
+    const before = toDto(coop);
+    const settings: CoopSettings = {
+      ...(coop.settings ?? {}),
+      monthlyDuesCents: input.monthlyDues,
+      selfServeDraws: input.selfServeDraws,
+      qualityStandard: input.qualityStandard,
+      recipe: { ...(coop.settings?.recipe ?? {}), catalyst: input.catalyst, baseGramsPerLiter: input.baseGramsPerLiter, purityPct: input.purityPct, methanolPct: input.methanolPct },
+    };
+    await coop.update({ name: input.name, units: input.units, timezone: input.timezone, settings }, { transaction });
+    const after = toDto(coop);
+    await audit({ coopId: coop.id, actorUserId: actor.user.id, action: 'coop.settings', entityType: 'coop', entityId: coop.id, before, after }, transaction);
+    return after;
+  });
+}
