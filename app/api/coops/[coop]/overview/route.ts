@@ -1,0 +1,6 @@
+import { requireMember } from '@/lib/auth';
+import { handler } from '@/lib/http';
+import { getOverview } from '@/lib/overview';
+
+/** GET: the co-op's first screen for the signed-in member's role (tank, price, charts, role sections). */
+export const GET = handler<{ coop: string }>(async (_req, { coop }) => getOverview(await requireMember(coop, 'coop:read')));

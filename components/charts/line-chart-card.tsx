@@ -1,0 +1,66 @@
+'use client';
+
+import { useState } from 'react';
+import { CartesianGrid, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { SERIES_COLORS } from './palette';
+
+/** A labelled line chart (one series) with a table view of the same numbers. */
+export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, format = (v: number) => v.toLocaleString('en-US', { maximumFractionDigits: 1 }) }: {
+  title: string;
+  data: Record<string, string | number>[];
+  xKey: string;
+  yKey: string;
+  yLabel: string;
+  seriesLabel: string;
+  format?: (v: number) => string;
+}) {
+  const [view, setView] = useState<'chart' | 'table'>('chart');
+  return (
+    <section className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm" aria-label={title}>
+      <div className="mb-2 flex items-center justify-between gap-2">
+        <h2 className="text-base">{title}</h2>
+        <div role="group" aria-label={`${title}: view`} className="flex overflow-hidden rounded-md border border-stone-300 text-xs">
+          {(['chart', 'table'] as const).map((v) => (
+            <button key={v} type="button" aria-pressed={view === v} onClick={() => setView(v)} className={`min-h-9 px-3 ${view === v ? 'bg-fir-700 text-white' : 'bg-white text-stone-800'}`}>
+              {v === 'chart' ? 'Chart' : 'Table'}
+            </button>
+          ))}
+        </div>
+      </div>
+      {data.length === 0 ? (
+        <p className="py-8 text-center text-sm text-stone-600">No data for this period yet.</p>
+      ) : view === 'chart' ? (
+        <div className="h-56 w-full" aria-hidden="true">
+          <ResponsiveContainer width="100%" height="100%">
+            <LineChart data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
+              <CartesianGrid strokeDasharray="3 3" stroke="#e7e5e4" />
+              <XAxis dataKey={xKey} tick={{ fontSize: 11, fill: '#44403c' }} minTickGap={24} />
+              <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />
+              <Tooltip formatter={(v) => format(Number(v))} />
+              <Line type="stepAfter" dataKey={yKey} name={seriesLabel} stroke={SERIES_COLORS[0]} strokeWidth={2} dot={false} />
+            </LineChart>
+          </ResponsiveContainer>
+        </div>
+      ) : null}
+      <div className={view === 'table' ? 'max-h-64 overflow-auto' : 'sr-only'} tabIndex={view === 'table' ? 0 : -1}>
+        <table className="w-full text-left text-sm">
+          <caption className="sr-only">{title} ({yLabel})</caption>
+          <thead>
+            <tr className="border-b border-stone-200 text-xs uppercase text-stone-700">
+              <th scope="col" className="py-1 pr-3">Date</th>
+              <th scope="col" className="py-1 pr-3 text-right">{seriesLabel} ({yLabel})</th>
+            </tr>
+          </thead>
+          <tbody>
+            {data.map((d) => (
+              <tr key={String(d[xKey])} className="border-b border-stone-100">
+                <th scope="row" className="py-1 pr-3 font-medium">{d[xKey]}</th>
+                <td className="py-1 pr-3 text-right tabular-nums">{format(Number(d[yKey] ?? 0))}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </section>
+  );
+}
