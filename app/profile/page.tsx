@@ -32,17 +32,6 @@ export default async function ProfilePage() {
           <h1>My profile</h1>
           <p className="text-stone-600">{profile.name} · {profile.email}</p>
         </div>
-        <div className="grid gap-6 md:grid-cols-2">
-          <Card title="Name"><NameForm name={profile.name} /></Card>
-          <Card title="E-mail address"><EmailForm email={profile.email} pendingEmail={profile.pendingEmail} /></Card>
-          <Card title="Password"><PasswordForm email={profile.email} /></Card>
-          <Card title="Sessions">
-            <p className="mb-3 text-sm text-stone-700">
-              Signed in on a shared or lost device? End every session of yours, on every device, this one included.
-            </p>
-            <SignOutEverywhere />
-          </Card>
-        </div>
         <Card title="My co-ops">
           {profile.coops.length === 0 ? (
             <EmptyState title="You are not a member of any co-op yet">
@@ -55,13 +44,24 @@ export default async function ProfilePage() {
                   {c.status === 'active' ? <Link href={`/c/${c.slug}`} className="font-semibold">{c.name}</Link> : <span className="font-semibold text-stone-700">{c.name}</span>}
                   <span className="text-sm text-stone-600">
                     {c.role}
-                    {c.status === 'suspended' ? ' · suspended' : ''} · joined {formatDay(c.joinedAt)}
+                    {c.status === 'suspended' ? ' · suspended' : ''} · joined {formatDay(c.joinedAt, c.timezone)}
                   </span>
                 </li>
               ))}
             </ul>
           )}
         </Card>
+        <div className="grid gap-6 md:grid-cols-2">
+          <Card title="Name"><NameForm name={profile.name} /></Card>
+          <Card title="E-mail address"><EmailForm email={profile.email} pendingEmail={profile.pendingEmail} /></Card>
+          <Card title="Password"><PasswordForm email={profile.email} /></Card>
+          <Card title="Sessions">
+            <p className="mb-3 text-sm text-stone-700">
+              Signed in on a shared or lost device? End every session of yours, on every device, this one included.
+            </p>
+            <SignOutEverywhere />
+          </Card>
+        </div>
       </main>
     </div>
   );

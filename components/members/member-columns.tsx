@@ -45,7 +45,7 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
         </span>
       ),
     }),
-    h.accessor('email', { header: 'E-mail', cell: ({ row }) => <span className="break-all">{row.original.email}</span> }),
+    h.accessor('email', { header: 'E-mail', cell: ({ row }) => <span className="whitespace-nowrap">{row.original.email}</span> }),
     h.accessor('role', {
       header: 'Role',
       cell: ({ row }) => {
@@ -70,7 +70,9 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
     h.accessor('joinedLabel', { id: 'joined', header: 'Joined', cell: ({ row }) => <span className="whitespace-nowrap">{row.original.joinedLabel}</span> }),
     h.display({
       id: 'actions',
-      header: () => <span className="sr-only">Actions</span>,
+      // No visually-hidden text in here: absolutely positioned sr-only spans escape the table's
+      // sideways-scrolling box and widen the page on phones. Buttons carry aria-labels instead.
+      header: 'Actions',
       cell: ({ row }) => {
         const r = row.original;
         const busy = a.busyId === r.id;
@@ -91,16 +93,16 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
         return (
           <span className="flex flex-wrap gap-2">
             {r.status === 'active' ? (
-              <button type="button" className="min-h-10 rounded-md border border-stone-300 bg-white px-3 text-xs font-semibold text-stone-900 hover:bg-stone-100" disabled={busy} onClick={() => a.setStatus(r, 'suspended')}>
-                Suspend<span className="sr-only"> {r.name}</span>
+              <button type="button" className="min-h-10 rounded-md border border-stone-300 bg-white px-3 text-xs font-semibold text-stone-900 hover:bg-stone-100" disabled={busy} aria-label={`Suspend ${r.name}`} onClick={() => a.setStatus(r, 'suspended')}>
+                Suspend
               </button>
             ) : (
-              <button type="button" className="min-h-10 rounded-md border border-stone-300 bg-white px-3 text-xs font-semibold text-stone-900 hover:bg-stone-100" disabled={busy} onClick={() => a.setStatus(r, 'active')}>
-                Reinstate<span className="sr-only"> {r.name}</span>
+              <button type="button" className="min-h-10 rounded-md border border-stone-300 bg-white px-3 text-xs font-semibold text-stone-900 hover:bg-stone-100" disabled={busy} aria-label={`Reinstate ${r.name}`} onClick={() => a.setStatus(r, 'active')}>
+                Reinstate
               </button>
             )}
-            <button type="button" className="min-h-10 rounded-md px-3 text-xs font-semibold text-danger-700 hover:bg-danger-50" disabled={busy} onClick={() => a.askRemove(r)}>
-              Remove<span className="sr-only"> {r.name}</span>
+            <button type="button" className="min-h-10 rounded-md px-3 text-xs font-semibold text-danger-700 hover:bg-danger-50" disabled={busy} aria-label={`Remove ${r.name}`} onClick={() => a.askRemove(r)}>
+              Remove
             </button>
           </span>
         );

@@ -24,7 +24,7 @@ export interface ProfileDto {
   email: string;
   /** A change of address waiting for its confirmation link, if any. */
   pendingEmail: string | null;
-  coops: { slug: string; name: string; role: Role; status: 'active' | 'suspended'; joinedAt: string }[];
+  coops: { slug: string; name: string; role: Role; status: 'active' | 'suspended'; joinedAt: string; timezone: string }[];
 }
 
 const invalidFields = (fields: Record<string, string[]>) => new HttpError(422, 'Some fields need attention.', fields);
@@ -33,8 +33,8 @@ const COMMON = 'That password is on a list of commonly used passwords. Choose an
 /** The profile page's data: name, e-mail, any pending e-mail change, co-ops with role. */
 export async function getProfile(user: SessionUser): Promise<ProfileDto> {
   const [coops, pending] = await Promise.all([
-    sequelize.query<{ slug: string; name: string; role: Role; status: 'active' | 'suspended'; joined_at: Date | string }>(
-      `SELECT c.slug, c.name, m.role, m.status, m.joined_at FROM memberships m JOIN coops c ON c.id = m.coop_id
+    sequelize.query<{ slug: string; name: string; role: Role; status: 'active' | 'suspended'; joined_at: Date | string; timezone: string }>(
+      `SELECT c.slug, c.name, m.role, m.status, m.joined_at, c.timezone FROM memberships m JOIN coops c ON c.id = m.coop_id
        WHERE m.user_id = :userId ORDER BY c.name`,
       { replacements: { userId: user.id }, type: QueryTypes.SELECT },
     ),
@@ -49,7 +49,7 @@ export async function getProfile(user: SessionUser): Promise<ProfileDto> {
     name: user.name,
     email: user.email,
     pendingEmail: pending[0]?.new_email ?? null,
-    coops: coops.map((c) => ({ slug: c.slug, name: c.name, role: c.role, status: c.status, joinedAt: new Date(c.joined_at).toISOString() })),
+    coops: coops.map((c) => ({ slug: c.slug, name: c.name, role: c.role, status: c.status, joinedAt: new Date(c.joined_at).toISOString(), timezone: c.timezone })),
   };
 }
 

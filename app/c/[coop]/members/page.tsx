@@ -62,14 +62,14 @@ export default async function MembersPage({ params, searchParams }: { params: Pr
         <h2 id="members-heading">Members ({page.total}{filtered ? ' matching' : ''})</h2>
         {!parsed.success ? <Notice tone="warn">Some filters in the address were not understood and were ignored.</Notice> : null}
         <form method="get" className="grid gap-3 rounded-xl border border-stone-200 bg-white p-4 shadow-sm sm:grid-cols-[1fr_10rem_10rem_auto] sm:items-end">
-          <TextField label="Search name or e-mail" name="q" type="search" defaultValue={query.q ?? ''} />
-          <SelectField label="Role" name="role" defaultValue={query.role ?? ''}>
+          <TextField label="Search name or e-mail" id="filter-q" name="q" type="search" defaultValue={query.q ?? ''} />
+          <SelectField label="Role" id="filter-role" name="role" defaultValue={query.role ?? ''}>
             <option value="">Any role</option>
             {ROLES.map((r) => (
               <option key={r} value={r}>{r}</option>
             ))}
           </SelectField>
-          <SelectField label="Status" name="status" defaultValue={query.status ?? ''}>
+          <SelectField label="Status" id="filter-status" name="status" defaultValue={query.status ?? ''}>
             <option value="">Any status</option>
             <option value="active">Active</option>
             <option value="suspended">Suspended</option>
