@@ -53,7 +53,7 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
         <dl className="mt-2 grid gap-1">
           {ROLES.map((r) => (
             <div key={r}>
-              <dt className="inline font-semibold">{r}: </dt>
+              <dt className="inline font-semibold">{r} can </dt>
               <dd className="inline">{ROLE_SUMMARY[r]}.</dd>
             </div>
           ))}

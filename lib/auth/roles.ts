@@ -2,12 +2,12 @@
 export const ROLES = ['admin', 'treasurer', 'brewer', 'member'] as const;
 export type Role = (typeof ROLES)[number];
 
-/** One line per role, as shown on invitations and the members screen (follows the product's roles table). */
+/** What each role may do, worded to follow "you can …" (follows the product's roles table). */
 export const ROLE_SUMMARY: Record<Role, string> = {
-  member: 'reserve and draw fuel, see and pay their own invoices, see released batches',
-  brewer: 'everything a member can, plus supplies, batches, the tank ledger and recording draws',
-  treasurer: 'everything a member can, plus prices, dues, invoices, payments, month close and reports',
-  admin: 'everything, plus invitations, roles, suspensions and co-op settings',
+  member: 'reserve and draw fuel, see and pay the invoices for it, and see the quality of released batches',
+  brewer: 'do everything a member can, plus keep supplies, batches and the tank ledger, and record draws',
+  treasurer: 'do everything a member can, plus set prices and dues, and handle invoices, payments, the month close and reports',
+  admin: 'do everything, including invitations, roles, suspensions and co-op settings',
 };
 
 /** "an admin", "a brewer" … for sentences. */
