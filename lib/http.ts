@@ -26,6 +26,11 @@ export const conflict = (why: string, extra?: Record<string, unknown>) => new Ht
 export function fieldErrors(error: z.ZodError): FieldErrors {
   const out: FieldErrors = {};
   for (const issue of error.issues) {
+    // A key the schema does not accept (a smuggled coopId, role …) is reported under its own name.
+    if (issue.code === 'unrecognized_keys') {
+      for (const k of issue.keys) (out[[...issue.path, k].join('.')] ??= []).push('This field is not accepted here.');
+      continue;
+    }
     const key = issue.path.length ? issue.path.join('.') : '_form';
     (out[key] ??= []).push(issue.message);
   }

@@ -1,0 +1,10 @@
+import { requireMember } from '@/lib/auth';
+import { handler } from '@/lib/http';
+import { revokeInvitation } from '@/lib/invitations';
+import { idParam } from '@/lib/members';
+
+/** DELETE: revoke a pending invitation; its link then says it was withdrawn. */
+export const DELETE = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
+  const actor = await requireMember(coop, 'members:manage');
+  return revokeInvitation(actor, idParam(id));
+});

@@ -1,0 +1,6 @@
+import { signOutEverywhere } from '@/lib/account';
+import { requireUser } from '@/lib/auth';
+import { handler } from '@/lib/http';
+
+/** POST: end every session of mine on every device, this one included. */
+export const POST = handler(async () => signOutEverywhere(await requireUser()));

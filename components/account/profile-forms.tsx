@@ -1,0 +1,141 @@
+'use client';
+
+import { signOut } from 'next-auth/react';
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { signInWithPassword } from '@/components/auth/credentials';
+import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-form';
+import { Button } from '@/components/ui/button';
+import { TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+
+/** Rename. */
+export function NameForm({ name }: { name: string }) {
+  const router = useRouter();
+  const { busy, fields, message, submit } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    if (await submit('/api/me', 'PATCH', { name: new FormData(e.currentTarget).get('name') ?? '' }, 'Name saved.')) router.refresh();
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+      <TextField label="Name" name="name" autoComplete="name" defaultValue={name} required errors={fields.name} hint="As other members of your co-ops see it." />
+      <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save name'}</Button></div>
+    </form>
+  );
+}
+
+/** New address + current password → a confirmation link goes to the new address. */
+export function EmailForm({ email, pendingEmail }: { email: string; pendingEmail: string | null }) {
+  const router = useRouter();
+  const { busy, fields, message, submit, setMessage } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    const r = await submit<{ pendingEmail: string; sent: boolean }>('/api/me/email', 'POST', formObject(form));
+    if (!r) return;
+    form.reset();
+    setMessage(
+      r.sent
+        ? { tone: 'ok', text: `We sent a confirmation link to ${r.pendingEmail}. Your address changes when you open it (within 24 hours).` }
+        : { tone: 'danger', text: `The confirmation e-mail to ${r.pendingEmail} could not be sent just now. Try again in a few minutes.` },
+    );
+    router.refresh();
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
+      <p className="text-sm text-stone-700">You sign in with <strong>{email}</strong>.</p>
+      {pendingEmail ? <Notice tone="info">A change to <strong>{pendingEmail}</strong> is waiting for you to open the link sent there.</Notice> : null}
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+      <TextField label="New e-mail address" name="email" type="email" autoComplete="email" required errors={fields.email} />
+      <TextField label="Current password" id="email-current-password" name="currentPassword" type="password" autoComplete="current-password" required errors={fields.currentPassword} />
+      <div><Button type="submit" disabled={busy}>{busy ? 'Sending…' : 'Send confirmation link'}</Button></div>
+    </form>
+  );
+}
+
+/**
+ * Password change. The server ends every session (this one too); the form signs this browser
+ * straight back in with the new password, so only the OTHER devices are signed out.
+ */
+export function PasswordForm({ email }: { email: string }) {
+  const { busy, fields, message, submit, setFields, setMessage } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    const data = formObject(form);
+    if ((data.newPassword ?? '') !== (data.confirm ?? '')) {
+      setFields({ confirm: ['The two passwords differ.'] });
+      return;
+    }
+    const r = await submit('/api/me/password', 'POST', { currentPassword: data.currentPassword ?? '', newPassword: data.newPassword ?? '' });
+    if (!r) return;
+    form.reset();
+    const again = await signInWithPassword(email, data.newPassword ?? '');
+    if (!again.ok) {
+      window.location.assign('/sign-in?next=/profile');
+      return;
+    }
+    setMessage({ tone: 'ok', text: 'Password changed. Your other devices were signed out.' });
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+      <input type="hidden" name="username" autoComplete="username" value={email} readOnly />
+      <TextField label="Current password" name="currentPassword" type="password" autoComplete="current-password" required errors={fields.currentPassword} />
+      <TextField label="New password" name="newPassword" type="password" autoComplete="new-password" required errors={fields.newPassword} hint="12 to 128 characters. A few unrelated words make a strong one." />
+      <TextField label="New password again" name="confirm" type="password" autoComplete="new-password" required errors={fields.confirm} />
+      <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Change password'}</Button></div>
+    </form>
+  );
+}
+
+/** Ends every session on every device, then goes to the sign-in page. */
+export function SignOutEverywhere() {
+  const [confirming, setConfirming] = useState(false);
+  const [busy, setBusy] = useState(false);
+  const [error, setError] = useState<string | null>(null);
+  async function go() {
+    setBusy(true);
+    const r = await sendJson('/api/me/sign-out-everywhere', 'POST');
+    if (!r.ok) {
+      setBusy(false);
+      setError(r.error);
+      return;
+    }
+    await signOut({ callbackUrl: '/sign-in' });
+  }
+  return (
+    <div className="flex flex-col gap-3">
+      {error ? <Notice tone="danger">{error}</Notice> : null}
+      {confirming ? (
+        <div className="flex flex-wrap gap-2">
+          <Button type="button" variant="danger" onClick={go} disabled={busy}>{busy ? 'Signing out…' : 'Yes, sign out everywhere'}</Button>
+          <Button type="button" variant="secondary" onClick={() => setConfirming(false)} disabled={busy}>Cancel</Button>
+        </div>
+      ) : (
+        <div><Button type="button" variant="secondary" onClick={() => setConfirming(true)}>Sign out everywhere</Button></div>
+      )}
+    </div>
+  );
+}
+
+/** The button on the e-mail confirmation page. */
+export function ConfirmEmailButton({ token, newEmail }: { token: string; newEmail: string }) {
+  const [state, setState] = useState<{ busy: boolean; error: string | null; done: boolean }>({ busy: false, error: null, done: false });
+  async function confirm() {
+    setState({ busy: true, error: null, done: false });
+    const r = await sendJson('/api/me/email/confirm', 'POST', { token });
+    setState({ busy: false, error: r.ok ? null : r.error, done: r.ok });
+  }
+  if (state.done) {
+    return <Notice tone="ok" title="E-mail address changed">From now on, sign in with {newEmail}. <a href="/profile">Go to your profile</a>.</Notice>;
+  }
+  return (
+    <div className="flex flex-col gap-3">
+      {state.error ? <Notice tone="danger">{state.error}</Notice> : null}
+      <Button type="button" onClick={confirm} disabled={state.busy}>{state.busy ? 'Confirming…' : `Use ${newEmail}`}</Button>
+    </div>
+  );
+}

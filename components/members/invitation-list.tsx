@@ -1,0 +1,92 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { sendJson } from '@/components/forms/use-api-form';
+import { EmptyState, Notice } from '@/components/ui/notice';
+
+export interface InvitationRow {
+  id: number;
+  email: string;
+  role: string;
+  delivery: 'sent' | 'not-sent';
+  expired: boolean;
+  expiresLabel: string;
+  invitedBy: string | null;
+}
+
+/** Pending invitations with resend (a new link) and revoke. */
+export function InvitationList({ coopSlug, invitations }: { coopSlug: string; invitations: InvitationRow[] }) {
+  const router = useRouter();
+  const [busyId, setBusyId] = useState<number | null>(null);
+  const [confirming, setConfirming] = useState<number | null>(null);
+  const [message, setMessage] = useState<{ tone: 'ok' | 'warn' | 'danger'; text: string } | null>(null);
+
+  async function resend(inv: InvitationRow) {
+    setBusyId(inv.id);
+    setMessage(null);
+    const r = await sendJson<{ sent: boolean }>(`/api/coops/${coopSlug}/invitations/${inv.id}/resend`, 'POST');
+    setBusyId(null);
+    if (!r.ok) return setMessage({ tone: 'danger', text: r.error });
+    setMessage(r.data.sent ? { tone: 'ok', text: `Sent again to ${inv.email} with a new link; the old link no longer works.` } : { tone: 'warn', text: `The e-mail to ${inv.email} could not be sent just now. Try again in a few minutes.` });
+    router.refresh();
+  }
+
+  async function revoke(inv: InvitationRow) {
+    setBusyId(inv.id);
+    setMessage(null);
+    const r = await sendJson(`/api/coops/${coopSlug}/invitations/${inv.id}`, 'DELETE');
+    setBusyId(null);
+    setConfirming(null);
+    if (!r.ok) return setMessage({ tone: 'danger', text: r.error });
+    setMessage({ tone: 'ok', text: `The invitation to ${inv.email} was withdrawn.` });
+    router.refresh();
+  }
+
+  return (
+    <div className="flex flex-col gap-3">
+      <div aria-live="polite">{message ? <Notice tone={message.tone}>{message.text}</Notice> : null}</div>
+      {invitations.length === 0 ? (
+        <EmptyState title="No invitations waiting">Invitations you send appear here until they are accepted.</EmptyState>
+      ) : (
+        <ul className="divide-y divide-stone-100">
+          {invitations.map((inv) => (
+            <li key={inv.id} className="flex flex-col gap-2 py-3 sm:flex-row sm:items-center sm:justify-between">
+              <div className="min-w-0">
+                <p className="break-all font-medium text-stone-900">{inv.email}</p>
+                <p className="text-sm text-stone-600">
+                  {inv.role}
+                  {inv.invitedBy ? ` · invited by ${inv.invitedBy}` : ''} · {inv.expired ? <span className="font-semibold text-warn-700">link expired {inv.expiresLabel}</span> : `link works until ${inv.expiresLabel}`}
+                </p>
+                {inv.delivery === 'not-sent' ? (
+                  <p className="mt-1 inline-block rounded-full bg-warn-50 px-2 py-0.5 text-xs font-semibold text-warn-700">E-mail not sent</p>
+                ) : null}
+              </div>
+              <div className="flex shrink-0 flex-wrap gap-2">
+                {confirming === inv.id ? (
+                  <>
+                    <button type="button" className="min-h-10 rounded-md bg-danger-600 px-3 text-xs font-semibold text-white hover:bg-danger-700" disabled={busyId === inv.id} onClick={() => revoke(inv)}>
+                      Yes, revoke
+                    </button>
+                    <button type="button" className="min-h-10 rounded-md border border-stone-300 px-3 text-xs font-semibold" onClick={() => setConfirming(null)}>
+                      Cancel
+                    </button>
+                  </>
+                ) : (
+                  <>
+                    <button type="button" className="min-h-10 rounded-md border border-stone-300 bg-white px-3 text-xs font-semibold text-stone-900 hover:bg-stone-100" disabled={busyId === inv.id} onClick={() => resend(inv)}>
+                      Resend<span className="sr-only"> to {inv.email}</span>
+                    </button>
+                    <button type="button" className="min-h-10 rounded-md px-3 text-xs font-semibold text-danger-700 hover:bg-danger-50" disabled={busyId === inv.id} onClick={() => setConfirming(inv.id)}>
+                      Revoke<span className="sr-only"> invitation to {inv.email}</span>
+                    </button>
+                  </>
+                )}
+              </div>
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
+  );
+}

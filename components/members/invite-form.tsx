@@ -1,0 +1,65 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { formObject, sendJson } from '@/components/forms/use-api-form';
+import { Button } from '@/components/ui/button';
+import { SelectField, TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { ROLES, ROLE_SUMMARY } from '@/lib/auth/roles';
+
+/** Invite by e-mail with a role. When the mail server cannot take the e-mail the invitation is kept, marked "not sent". */
+export function InviteForm({ coopSlug }: { coopSlug: string }) {
+  const router = useRouter();
+  const [busy, setBusy] = useState(false);
+  const [fields, setFields] = useState<Record<string, string[]>>({});
+  const [message, setMessage] = useState<{ tone: 'ok' | 'warn' | 'danger'; text: string } | null>(null);
+
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    setBusy(true);
+    setMessage(null);
+    const r = await sendJson<{ invitation: { email: string }; sent: boolean }>(`/api/coops/${coopSlug}/invitations`, 'POST', formObject(form));
+    setBusy(false);
+    if (!r.ok) {
+      setFields(r.fields);
+      setMessage({ tone: 'danger', text: r.error });
+      return;
+    }
+    setFields({});
+    form.reset();
+    setMessage(
+      r.data.sent
+        ? { tone: 'ok', text: `Invitation e-mailed to ${r.data.invitation.email}. The link works for 7 days.` }
+        : { tone: 'warn', text: `The invitation to ${r.data.invitation.email} is saved, but the e-mail could not be sent just now. Resend it from the list below.` },
+    );
+    router.refresh();
+  }
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
+      <div aria-live="polite">{message ? <Notice tone={message.tone}>{message.text}</Notice> : null}</div>
+      <div className="grid gap-3 sm:grid-cols-[1fr_11rem]">
+        <TextField label="E-mail address" name="email" type="email" autoComplete="off" required errors={fields.email} />
+        <SelectField label="Role" name="role" defaultValue="member" errors={fields.role}>
+          {ROLES.map((r) => (
+            <option key={r} value={r}>{r}</option>
+          ))}
+        </SelectField>
+      </div>
+      <details className="text-sm text-stone-700">
+        <summary className="cursor-pointer">What each role may do</summary>
+        <dl className="mt-2 grid gap-1">
+          {ROLES.map((r) => (
+            <div key={r}>
+              <dt className="inline font-semibold">{r} can </dt>
+              <dd className="inline">{ROLE_SUMMARY[r]}.</dd>
+            </div>
+          ))}
+        </dl>
+      </details>
+      <div><Button type="submit" disabled={busy}>{busy ? 'Sending…' : 'Send invitation'}</Button></div>
+    </form>
+  );
+}
