@@ -65,13 +65,17 @@ export async function getOverview(actor: Actor): Promise<Overview> {
     q<{ month: string; released: string; drawn: string }>(
       `WITH months AS (
          SELECT generate_series(date_trunc('month', now() AT TIME ZONE :tz) - interval '11 months', date_trunc('month', now() AT TIME ZONE :tz), interval '1 month') AS m
+       ), since AS (SELECT (MIN(m) AT TIME ZONE :tz) AS lo FROM months),
+       rel AS (
+         SELECT date_trunc('month', t.occurred_at AT TIME ZONE :tz) AS m, SUM(t.quantity_liters) AS q
+         FROM tank_movements t, since WHERE t.coop_id = :c AND t.kind = 'release' AND t.occurred_at >= since.lo GROUP BY 1
+       ),
+       dr AS (
+         SELECT date_trunc('month', d.occurred_at AT TIME ZONE :tz) AS m, SUM(d.quantity_liters) AS q
+         FROM draws d, since WHERE d.coop_id = :c AND d.occurred_at >= since.lo GROUP BY 1
        )
-       SELECT to_char(m.m, 'YYYY-MM') AS month,
-         (SELECT COALESCE(SUM(quantity_liters),0) FROM tank_movements t WHERE t.coop_id = :c AND t.kind = 'release'
-            AND t.occurred_at >= (m.m AT TIME ZONE :tz) AND t.occurred_at < ((m.m + interval '1 month') AT TIME ZONE :tz)) AS released,
-         (SELECT COALESCE(SUM(quantity_liters),0) FROM draws d WHERE d.coop_id = :c
-            AND d.occurred_at >= (m.m AT TIME ZONE :tz) AND d.occurred_at < ((m.m + interval '1 month') AT TIME ZONE :tz)) AS drawn
-       FROM months m ORDER BY m.m`,
+       SELECT to_char(months.m, 'YYYY-MM') AS month, COALESCE(rel.q, 0) AS released, COALESCE(dr.q, 0) AS drawn
+       FROM months LEFT JOIN rel ON rel.m = months.m LEFT JOIN dr ON dr.m = months.m ORDER BY months.m`,
       { c, tz },
     ),
     q<{ day: string; on_hand: string }>(

@@ -1,0 +1,97 @@
+// Shared benchmark harness: a throw-away PostgreSQL (fsync off), migrations, `next start` from
+// the production build, sign-in, and autocannon runs reported side by side with /api/health.
+// Benchmarks are run on demand (`npm run bench`), never as part of `npm test`.
+import { spawn } from 'node:child_process';
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import autocannon from 'autocannon';
+import bcrypt from 'bcryptjs';
+import pg from 'pg';
+import { startEmbeddedPg, freePort } from '../scripts/lib/pg.mjs';
+import { migrate } from '../scripts/lib/db-setup.mjs';
+import { buildIfNeeded } from '../scripts/lib/build.mjs';
+import { startMailCatcher, startPaymentsFake } from '../scripts/lib/fakes.mjs';
+
+export const PASSWORD = 'bench-password-2026';
+
+/** Starts everything; returns { baseUrl, pool, stop }. */
+export async function startStack({ name }) {
+  buildIfNeeded({ log: (m) => console.log('[bench]', m) });
+  const root = path.resolve('.data', `bench-${name}`);
+  fs.rmSync(root, { recursive: true, force: true });
+  const stops = [];
+  const pgSrv = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'bench', fast: true, log: () => {} });
+  stops.push(pgSrv.stop);
+  migrate({ databaseUrl: pgSrv.url, seed: false });
+  const smtpPort = await freePort();
+  const mail = await startMailCatcher({ smtpPort, httpPort: await freePort(), log: () => {} });
+  stops.push(mail.stop);
+  const paymentsPort = await freePort();
+  const pay = await startPaymentsFake({ port: paymentsPort, log: () => {} });
+  stops.push(pay.stop);
+  const port = await freePort();
+  const baseUrl = `http://127.0.0.1:${port}`;
+  const next = spawn(process.execPath, [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], {
+    env: {
+      ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: pgSrv.url, APP_URL: baseUrl, NEXTAUTH_URL: baseUrl,
+      NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtpPort),
+      STRIPE_SECRET_KEY: 'sk_test_bench', STRIPE_API_HOST: '127.0.0.1', STRIPE_API_PORT: String(paymentsPort), STRIPE_API_PROTOCOL: 'http',
+      STRIPE_WEBHOOK_SECRET: 'whsec_bench', STORAGE_DIR: path.join(root, 'uploads'), DB_POOL_MAX: '20',
+    },
+    stdio: ['ignore', 'ignore', 'inherit'],
+  });
+  stops.unshift(() => new Promise((r) => (next.exitCode !== null ? r() : (next.once('exit', r), next.kill('SIGTERM')))));
+  for (let i = 0; ; i++) {
+    try {
+      if ((await fetch(`${baseUrl}/api/health`)).ok) break;
+    } catch {}
+    if (i > 240) throw new Error('next start did not come up');
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  const pool = new pg.Pool({ connectionString: pgSrv.url, max: 4 });
+  stops.unshift(() => pool.end());
+  return { baseUrl, pool, databaseUrl: pgSrv.url, stop: async () => { for (const s of stops) await s(); } };
+}
+
+/** Inserts a co-op with one user per role (same password); returns ids and e-mails. */
+export async function makeCoop(pool, slug) {
+  const hash = bcrypt.hashSync(PASSWORD, 10);
+  const { rows: [coop] } = await pool.query(`INSERT INTO coops (name, slug) VALUES ($1, $2) RETURNING id`, [`Bench ${slug}`, slug]);
+  const people = {};
+  for (const role of ['admin', 'treasurer', 'brewer', 'member']) {
+    const email = `${role}@${slug}.bench`;
+    const { rows: [u] } = await pool.query(`INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`, [email, `Bench ${role}`, hash]);
+    const { rows: [m] } = await pool.query(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, $3) RETURNING id`, [coop.id, u.id, role]);
+    people[role] = { userId: u.id, membershipId: m.id, email };
+  }
+  return { coopId: coop.id, slug, people };
+}
+
+/** Signs in and returns the Cookie header value for the session. */
+export async function signInCookie(baseUrl, email, password = PASSWORD) {
+  const csrf = await fetch(`${baseUrl}/api/auth/csrf`);
+  const { csrfToken } = await csrf.json();
+  const jar = csrf.headers.getSetCookie().map((c) => c.split(';')[0]);
+  const res = await fetch(`${baseUrl}/api/auth/callback/credentials`, {
+    method: 'POST', redirect: 'manual',
+    headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: jar.join('; ') },
+    body: new URLSearchParams({ csrfToken, email, password, json: 'true' }),
+  });
+  const session = res.headers.getSetCookie().map((c) => c.split(';')[0]).find((c) => c.includes('session-token'));
+  if (!session) throw new Error(`sign-in failed for ${email}: ${res.status}`);
+  return session;
+}
+
+/** Runs autocannon; returns { rps, p97_5, p50, errors, non2xx }. */
+export async function load({ url, connections = 10, duration = 10, headers = {}, method = 'GET', body, requests }) {
+  const r = await autocannon({ url, connections, duration, headers, method, body, requests });
+  return { rps: Math.round(r.requests.average), p50: r.latency.p50, p97_5: r.latency.p97_5, errors: r.errors, non2xx: r.non2xx };
+}
+
+/** Prints a result line and returns it. */
+export function report(label, r, reference) {
+  const ratio = reference ? ` (${Math.round((r.rps / reference.rps) * 100)} % of /api/health)` : '';
+  console.log(`${label.padEnd(40)} ${String(r.rps).padStart(6)} req/s  p50 ${r.p50} ms  p97.5 ${r.p97_5} ms  errors ${r.errors}  non-2xx ${r.non2xx}${ratio}`);
+  return r;
+}
