@@ -8,7 +8,7 @@ import path from 'node:path';
 import autocannon from 'autocannon';
 import bcrypt from 'bcryptjs';
 import pg from 'pg';
-import { startEmbeddedPg, freePort } from '../scripts/lib/pg.mjs';
+import { startEmbeddedPg, freePort, stopLeftover } from '../scripts/lib/pg.mjs';
 import { migrate } from '../scripts/lib/db-setup.mjs';
 import { buildIfNeeded } from '../scripts/lib/build.mjs';
 import { startMailCatcher, startPaymentsFake } from '../scripts/lib/fakes.mjs';
@@ -19,6 +19,7 @@ export const PASSWORD = 'bench-password-2026';
 export async function startStack({ name }) {
   buildIfNeeded({ log: (m) => console.log('[bench]', m) });
   const root = path.resolve('.data', `bench-${name}`);
+  stopLeftover(path.join(root, 'pg'));
   fs.rmSync(root, { recursive: true, force: true });
   const stops = [];
   const pgSrv = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'bench', fast: true, log: () => {} });

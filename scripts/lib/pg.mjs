@@ -134,3 +134,16 @@ function pgIsRunning(bin, clusterDir) {
     return false;
   }
 }
+
+/** Stops a cluster left running in dataDir by an interrupted run (before the folder is wiped). */
+export function stopLeftover(dataDir) {
+  const clusterDir = path.join(path.resolve(dataDir), 'cluster');
+  if (!fs.existsSync(path.join(clusterDir, 'postmaster.pid'))) return;
+  const bin = findBinDir();
+  if (!bin) return;
+  try {
+    runPg(path.join(bin, 'pg_ctl'), ['-D', clusterDir, '-m', 'immediate', '-w', 'stop']);
+  } catch {
+    /* not running */
+  }
+}

@@ -7,7 +7,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 // @ts-expect-error plain ESM helpers shared with the start script
-import { startEmbeddedPg, freePort } from '../../scripts/lib/pg.mjs';
+import { startEmbeddedPg, freePort, stopLeftover } from '../../scripts/lib/pg.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { migrate } from '../../scripts/lib/db-setup.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
@@ -27,6 +27,7 @@ const quiet = () => {};
 
 export default async function setup(project: TestProject) {
   const root = path.resolve('.data', 'test');
+  stopLeftover(path.join(root, 'pg'));
   fs.rmSync(root, { recursive: true, force: true });
   fs.mkdirSync(root, { recursive: true });
   const stops: (() => unknown)[] = [];
