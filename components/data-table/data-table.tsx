@@ -51,7 +51,8 @@ export function DataTable<Row extends RowData>({
 
   return (
     <div className="overflow-hidden rounded-xl border border-stone-200 bg-white shadow-sm">
-      <div className="overflow-x-auto">
+      {/* relative: visually hidden (absolute) header text stays inside the scroll box instead of widening the page */}
+      <div className="relative overflow-x-auto">
         <table className="w-full min-w-[36rem] border-collapse text-left text-sm">
           <caption className="sr-only">{caption}</caption>
           <thead className="bg-stone-100 text-xs uppercase tracking-wide text-stone-700">
