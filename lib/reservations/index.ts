@@ -58,41 +58,55 @@ export async function createReservation(actor: Actor, input: z.infer<typeof rese
   if (!window.ok) throw new HttpError(422, 'Some fields need attention.', window.fields);
   const qMl = milliUnitsToMl(input.quantity, units);
   if (qMl <= 0) throw new HttpError(422, 'Some fields need attention.', { quantity: ['Enter a quantity greater than zero.'] });
-  const id = await inTransaction(async (transaction) => {
-    await expireLapsedReservations(actor.coop.id, transaction);
-    // The guard: one statement locks the tank row (waiting for any other reservation in flight,
-    // then seeing its result), and adds the quantity only if on hand − reserved still covers it.
-    // A request over by no more than the rounding crumb is trimmed to exactly what is left.
-    const [granted] = await sequelize.query<{ liters: string }>(
-      `WITH cur AS (
-         SELECT id, on_hand_liters - reserved_liters AS avail FROM tanks
-         WHERE id = :tankId AND coop_id = :coopId AND active FOR UPDATE
-       )
-       UPDATE tanks t SET reserved_liters = t.reserved_liters + LEAST(:q, cur.avail), updated_at = now()
+  await expireLapsedReservations(actor.coop.id);
+  // One statement, so it is atomic by itself and the tank row is locked only while it runs and
+  // commits: lock the tank (waiting for any reservation in flight, then seeing its result), add
+  // the quantity only if on hand − reserved still covers it (a request over by no more than the
+  // rounding crumb is trimmed to exactly what is left), then write the reservation and its
+  // audit event from the update's result. When the guard fails nothing at all is written.
+  const [row] = await sequelize.query<{ id: number; liters: string; name: string; created_at: Date }>(
+    `WITH cur AS (
+       SELECT id, name, on_hand_liters - reserved_liters AS avail FROM tanks
+       WHERE id = :tankId AND coop_id = :coopId AND active FOR UPDATE
+     ),
+     guarded AS (
+       UPDATE tanks t SET reserved_liters = t.reserved_liters + LEAST(:q::numeric, cur.avail), updated_at = now()
        FROM cur WHERE t.id = cur.id AND cur.avail >= :floor
-       RETURNING LEAST(:q, cur.avail)::text AS liters`,
-      { replacements: { tankId: input.tankId, coopId: actor.coop.id, q: mlToLiters(qMl), floor: mlToLiters(Math.max(1, qMl - roundingCrumbMl(units))) }, type: QueryTypes.SELECT, transaction },
+       RETURNING t.id, cur.name, LEAST(:q::numeric, cur.avail) AS liters
+     ),
+     created AS (
+       INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
+       SELECT :coopId, g.id, :membershipId, g.liters, :ws, :we FROM guarded g
+       RETURNING id, tank_id, quantity_liters, window_start, window_end, created_at
+     ),
+     audited AS (
+       INSERT INTO audit_events (coop_id, actor_user_id, action, entity_type, entity_id, after)
+       SELECT :coopId, :userId, 'reservation.create', 'reservation', c.id::text,
+              jsonb_build_object('tankId', c.tank_id, 'membershipId', :membershipId, 'quantityLiters', c.quantity_liters, 'windowStart', c.window_start, 'windowEnd', c.window_end)
+       FROM created c RETURNING 1
+     )
+     SELECT c.id, c.quantity_liters::text AS liters, g.name, c.created_at, (SELECT count(*) FROM audited) AS audited
+     FROM created c, guarded g`,
+    {
+      replacements: {
+        tankId: input.tankId, coopId: actor.coop.id, membershipId: actor.membershipId, userId: actor.user.id, ws: window.start.toISOString(), we: window.end.toISOString(),
+        q: mlToLiters(qMl), floor: mlToLiters(Math.max(1, qMl - roundingCrumbMl(units))),
+      },
+      type: QueryTypes.SELECT,
+    },
+  );
+  if (!row) {
+    const [t] = await sequelize.query<{ name: string; active: boolean; available: string }>(
+      `SELECT name, active, (on_hand_liters - reserved_liters)::text AS available FROM tanks WHERE id = :tankId AND coop_id = :coopId`,
+      { replacements: { tankId: input.tankId, coopId: actor.coop.id }, type: QueryTypes.SELECT },
     );
-    if (!granted) {
-      const [t] = await sequelize.query<{ name: string; active: boolean; available: string }>(
-        `SELECT name, active, (on_hand_liters - reserved_liters)::text AS available FROM tanks WHERE id = :tankId AND coop_id = :coopId`,
-        { replacements: { tankId: input.tankId, coopId: actor.coop.id }, type: QueryTypes.SELECT, transaction },
-      );
-      if (!t || !t.active) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s tanks that is in service.'] });
-      throw notEnough(actor, t.name, qMl, litersToMl(t.available));
-    }
-    const [res] = await sequelize.query<{ id: number }>(
-      `INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
-       VALUES (:coopId, :tankId, :membershipId, :q, :ws, :we) RETURNING id`,
-      { replacements: { coopId: actor.coop.id, membershipId: actor.membershipId, q: granted.liters, ws: window.start, we: window.end, tankId: input.tankId }, type: QueryTypes.SELECT, transaction },
-    );
-    await audit({
-      coopId: actor.coop.id, actorUserId: actor.user.id, action: 'reservation.create', entityType: 'reservation', entityId: res!.id,
-      after: { tankId: input.tankId, membershipId: actor.membershipId, quantityLiters: granted.liters, windowStart: window.start, windowEnd: window.end },
-    }, transaction);
-    return res!.id;
-  });
-  return getReservation(actor, id);
+    if (!t || !t.active) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s tanks that is in service.'] });
+    throw notEnough(actor, t.name, qMl, litersToMl(t.available));
+  }
+  return resDto({
+    id: row.id, tank_id: input.tankId, tank_name: row.name, membership_id: actor.membershipId, member_name: actor.user.name, quantity_liters: row.liters,
+    window_start: window.start, window_end: window.end, status: 'open', closed_at: null, created_at: row.created_at, draw_id: null,
+  }, actor);
 }
 
 /**

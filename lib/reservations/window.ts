@@ -15,11 +15,21 @@ export const MAX_WINDOW_DAYS = 60;
 const DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 const LOCAL = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2})(?:\.\d{1,3})?)?$/;
 
+// Building an Intl.DateTimeFormat is costly (it showed in the reservation benchmark's profile);
+// one per time zone is kept.
+const zoneFormats = new Map<string, Intl.DateTimeFormat>();
+function zoneFormat(timeZone: string): Intl.DateTimeFormat {
+  let f = zoneFormats.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit' });
+    zoneFormats.set(timeZone, f);
+  }
+  return f;
+}
+
 /** Milliseconds the zone is ahead of UTC at the instant `at`. */
 function zoneOffsetMs(at: Date, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat('en-US', {
-    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
-  }).formatToParts(at);
+  const parts = zoneFormat(timeZone).formatToParts(at);
   const n = (t: string) => Number(parts.find((p) => p.type === t)?.value);
   return Date.UTC(n('year'), n('month') - 1, n('day'), n('hour'), n('minute'), n('second')) - at.getTime();
 }
@@ -37,7 +47,9 @@ export function zonedToUtc(y: number, month: number, d: number, h: number, min: 
 
 /** Today's date (YYYY-MM-DD) in a time zone. */
 export function todayInZone(timeZone: string, now = new Date()): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(now);
+  const parts = zoneFormat(timeZone).formatToParts(now);
+  const p = (t: string) => parts.find((x) => x.type === t)?.value;
+  return `${p('year')}-${p('month')}-${p('day')}`;
 }
 
 function validDay(y: number, m: number, d: number) {

@@ -58,7 +58,7 @@ export function mlToUnitsFloor(ml: number, units: UnitSystem, digits = 3): numbe
   if (ml <= 0) return 0;
   const f = 10 ** digits;
   const limit = ml + roundingCrumbMl(units);
-  let steps = Math.round(mlToUnits(ml, units) * f);
+  let steps = Math.round(mlToUnits(ml, units) * f) + 1; // the crumb allows at most one step above the nearest
   while (steps > 0 && milliUnitsToMl(Math.round((steps * 1000) / f), units) > limit) steps -= 1;
   return steps / f;
 }

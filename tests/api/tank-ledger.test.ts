@@ -64,7 +64,9 @@ describe('tank ledger after a long random sequence', () => {
         }
         case 'loss': {
           const b = await book(tankId);
-          res = await ctx.agents.brewer.post(`${P()}/tanks/${tankId}/dips`).send({ measured: Math.max(0, b.onHand - Number(qty(0.1, 8))).toFixed(3), reason: 'Evaporation' });
+          // A reading can't exceed the tank (a reversal may have put the book over it).
+          const measured = Math.min(b.capacity, Math.max(0, b.onHand - Number(qty(0.1, 8))));
+          res = await ctx.agents.brewer.post(`${P()}/tanks/${tankId}/dips`).send({ measured: measured.toFixed(3), reason: 'Evaporation' });
           break;
         }
         case 'reserve': {

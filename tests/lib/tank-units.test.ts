@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { milliUnitsToMl, mlToUnits, mlToUnitsFloor, formatMl } from '@/lib/tank/volume';
+import { milliUnitsToMl, mlToUnits, mlToUnitsFloor, formatMl, roundingCrumbMl } from '@/lib/tank/volume';
 import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { reservationWindow, parseWindowEdge, zonedToUtc } from '@/lib/reservations/window';
 import { drawQuantityMilli, drawCreateSchema, quantitySchema, reservationCreateSchema } from '@/lib/validation/tank';
@@ -15,18 +15,23 @@ describe('co-op units ↔ stored millilitres', () => {
     expect(mlToLiters(milliUnitsToMl(1_000_000, 'us'))).toBe('3785.412'); // 1,000 gal tank
   });
 
-  it('shows as available exactly what a member can then reserve', () => {
+  it('shows as available exactly what a member can then reserve (up to the 3 mL rounding crumb)', () => {
     // 75 708 mL is 19.99999 gal, but a request for 20.000 gal (75 708 mL) fits, so 20 is shown.
     expect(mlToUnitsFloor(75_708, 'us')).toBe(20);
     expect(mlToUnitsFloor(75_708, 'us', 1)).toBe(20);
-    // One millilitre less and 20 gal no longer fits: 19.999 gal = 75 704.45 → 75 704 mL fits.
-    expect(mlToUnitsFloor(75_707, 'us')).toBe(19.999);
+    // 20 gal is trimmed to what is left when it is over by ≤ 3 mL: still 20 at 75 705 mL ...
+    expect(roundingCrumbMl('us')).toBe(3);
+    expect(mlToUnitsFloor(75_705, 'us')).toBe(20);
+    // ... but not at 75 704 mL, where 19.999 gal (75 704.45 → 75 704 mL) is the most that fits.
+    expect(mlToUnitsFloor(75_704, 'us')).toBe(19.999);
     for (const ml of [1, 999, 3785, 3786, 123_456, 378_541, 999_999]) {
-      const shown = mlToUnitsFloor(ml, 'us');
-      expect(milliUnitsToMl(Math.round(shown * 1000), 'us')).toBeLessThanOrEqual(ml);
-      expect(milliUnitsToMl(Math.round(shown * 1000) + 1, 'us')).toBeGreaterThan(ml);
+      const shown = Math.round(mlToUnitsFloor(ml, 'us') * 1000);
+      expect(milliUnitsToMl(shown, 'us')).toBeLessThanOrEqual(ml + 3);
+      expect(milliUnitsToMl(shown + 1, 'us')).toBeGreaterThan(ml + 3);
     }
     expect(mlToUnitsFloor(-5, 'metric')).toBe(0);
+    expect(roundingCrumbMl('metric')).toBe(0);
+    expect(mlToUnitsFloor(40_000, 'metric')).toBe(40);
   });
 
   it('formats in the co-op unit, with an optional sign', () => {

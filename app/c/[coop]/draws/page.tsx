@@ -83,7 +83,7 @@ export default async function DrawsPage({ params, searchParams }: { params: Prom
       </div>
       {mayRecord ? (
         <Card title="Record a draw">
-          {!policy ? <Notice tone="warn">No member price is set yet; the treasurer sets it on the <Link href={`/c/${slug}/tank/pricing`}>pricing page</Link> first.</Notice> : null}
+          {!policy ? <Notice tone="warn">No member price is set yet; the treasurer sets it on the <Link className="underline" href={`/c/${slug}/tank/pricing`}>pricing page</Link> first.</Notice> : null}
           {tanks.some((t) => t.active) ? (
             <RecordDrawForm coopSlug={slug} units={units} currency={currency} tanks={tanks.filter((t) => t.active)} members={members}
               reservations={(openRes?.items ?? []).map((r) => ({ id: r.id, membershipId: r.membershipId, memberName: r.memberName, tankId: r.tankId, tankName: r.tankName, quantityLiters: r.quantityLiters }))} />

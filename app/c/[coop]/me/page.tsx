@@ -69,7 +69,7 @@ export default async function MyFuelPage({ params, searchParams }: { params: Pro
         <h2 id="my-draws">My draws</h2>
         <DrawsTable caption="My draws" rows={draws.items} units={units} timeZone={timezone} currency={currency} coopSlug={slug} showMember={false} canReverse={false}
           sortable={['occurred_at', 'quantity', 'total']} pageInfo={{ page: draws.page, pageSize: draws.pageSize, total: draws.total }} />
-        <p className="text-sm text-stone-600">Draws are billed on your monthly invoice. Something wrong with a draw? Ask a brewer: they correct it with a reversing entry. <Link href={`/c/${slug}/tank`}>See the tank</Link>.</p>
+        <p className="text-sm text-stone-600">Draws are billed on your monthly invoice. Something wrong with a draw? Ask a brewer: they correct it with a reversing entry. <Link className="underline" href={`/c/${slug}/tank`}>See the tank</Link>.</p>
       </section>
     </div>
   );

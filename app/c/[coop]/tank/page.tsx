@@ -50,9 +50,9 @@ export default async function TankPage({ params, searchParams }: { params: Promi
 
       <Card title="Member price">
         {policy ? (
-          <p>{policy.description}. <Link href={`/c/${slug}/tank/pricing`}>See the history</Link>.</p>
+          <p>{policy.description}. <Link className="underline" href={`/c/${slug}/tank/pricing`}>See the history</Link>.</p>
         ) : (
-          <p className="text-stone-700">No price set yet{can(actor.role, 'pricing:write') ? <>: <Link href={`/c/${slug}/tank/pricing`}>set the pricing policy</Link> before draws are recorded</> : '; the treasurer sets it'}.</p>
+          <p className="text-stone-700">No price set yet{can(actor.role, 'pricing:write') ? <>: <Link className="underline" href={`/c/${slug}/tank/pricing`}>set the pricing policy</Link> before draws are recorded</> : '; the treasurer sets it'}.</p>
         )}
       </Card>
 
