@@ -86,5 +86,25 @@ describe('reserve → draw → see it', () => {
       await shoot(page, 'tank-me-drawn');
       await checkA11y(page);
     });
+
+    // 4. The treasurer sets a new price; it is in force for the next draw and the old one is history.
+    await withBrowser(async (page) => {
+      await signInUi(page, ctx.users.treasurer.email, TEST_PASSWORD);
+      await page.goto(`${baseUrl()}/c/${slug}/tank/pricing`);
+      const form = page.getByRole('form', { name: 'Set the member price' });
+      await form.getByLabel('How the price is set').selectOption('cost-plus-amount');
+      await form.getByLabel('Amount added (USD per gal)').fill('0.405');
+      await form.getByRole('button', { name: 'Save new price' }).click();
+      await form.getByText('Use at most 2 decimals.').waitFor();
+      await form.getByLabel('Amount added (USD per gal)').fill('0.40');
+      await form.getByLabel('Road-fuel tax (cents per gal, optional)').fill('24.4');
+      await form.getByRole('button', { name: 'Save new price' }).click();
+      await page.getByText('Average cost + $0.40/gal · road tax 24.4¢/gal (road use only)', { exact: true }).first().waitFor();
+      const history = page.getByRole('table', { name: 'Pricing history' });
+      await history.getByText('in force').waitFor();
+      await history.getByText('past').waitFor();
+      await shoot(page, 'tank-pricing-treasurer');
+      await checkA11y(page);
+    });
   });
 });
