@@ -7,6 +7,13 @@ import { Invitation } from './Invitation';
 import { Membership } from './Membership';
 import { SignInAttempt } from './SignInAttempt';
 import { User } from './User';
+// tank & draws
+import { DipReading } from './DipReading';
+import { Draw } from './Draw';
+import { PricePolicy } from './PricePolicy';
+import { Reservation } from './Reservation';
+import { Tank } from './Tank';
+import { TankMovement } from './TankMovement';
 
 // Explicit wiring: every model is initialised here, once, and associations are declared in one place.
 Coop.initModel(sequelize);
@@ -27,5 +34,18 @@ AuthToken.belongsTo(User, { foreignKey: 'userId', as: 'user' });
 AuditEvent.belongsTo(User, { foreignKey: 'actorUserId', as: 'actor' });
 AuditEvent.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
 
+// tank & draws
+for (const m of [Tank, TankMovement, PricePolicy, Reservation, Draw, DipReading]) m.initModel(sequelize);
+Tank.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
+TankMovement.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
+TankMovement.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
+PricePolicy.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
+Reservation.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
+Reservation.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
+Draw.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
+Draw.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
+DipReading.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
+
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
+export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };

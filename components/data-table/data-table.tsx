@@ -58,7 +58,8 @@ export function DataTable<Row extends RowData>({
   }
   return (
     <div className="overflow-hidden rounded-xl border border-stone-200 bg-white shadow-sm">
-      {/* Focusable so keyboard users can scroll a wide table sideways on a phone. */}
+      {/* Focusable so keyboard users can scroll a wide table sideways on a phone; relative keeps
+          visually hidden (absolute) header text inside the scroll box. */}
       <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
         <table className="w-full min-w-[36rem] border-collapse text-left text-sm">
           <caption className="sr-only">{caption}</caption>

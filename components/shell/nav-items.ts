@@ -4,6 +4,8 @@ import type { Action } from '@/lib/auth/policies';
 export const NAV_ITEMS: { href: string; label: string; action: Action }[] = [
   { href: '', label: 'Overview', action: 'coop:read' },
   { href: '/tank', label: 'Tank', action: 'tank:read' },
+  { href: '/me', label: 'My fuel', action: 'reservations:own' },
+  { href: '/draws', label: 'Draws', action: 'draws:read-all' },
   { href: '/batches', label: 'Batches', action: 'batches:read-released' },
   { href: '/planner', label: 'Planner', action: 'batches:write' },
   { href: '/supplies', label: 'Supplies', action: 'supplies:read' },

@@ -1,0 +1,61 @@
+'use client';
+
+import { createColumnHelper } from '@tanstack/react-table';
+import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
+import { formatCents } from '@/lib/money';
+import { formatWhen } from '@/lib/tank/format';
+import { formatMl } from '@/lib/tank/volume';
+import type { UnitSystem } from '@/lib/units';
+import { ReverseDrawButton } from './reverse-draw-button';
+import { StatusBadge } from './status-badge';
+
+export interface DrawRow {
+  id: number; tankName: string; memberName: string; quantityLiters: number; declaredUse: string; vehicle: string | null;
+  fuelCents: number; surchargeCents: number; taxCents: number; totalCents: number; occurredAt: string; status: 'recorded' | 'reversed' | 'reversal';
+  reversesDrawId: number | null; reversedByDrawId: number | null; reason: string | null; recordedBy: string | null;
+}
+
+const col = createColumnHelper<Features, DrawRow>();
+
+/** Draws with their locked amounts; brewers get a reverse action on draws not yet reversed. */
+export function DrawsTable({ rows, units, timeZone, currency, coopSlug, showMember, canReverse, pageInfo, sortable, caption = 'Draws' }: {
+  rows: DrawRow[]; units: UnitSystem; timeZone: string; currency: string; coopSlug: string; showMember: boolean; canReverse: boolean; pageInfo?: PageInfo; sortable?: string[]; caption?: string;
+}) {
+  const money = (c: number) => formatCents(c, currency);
+  const columns: DataColumn<DrawRow>[] = [
+    col.accessor('occurredAt', { id: 'occurred_at', header: 'When', cell: (c) => <span className="whitespace-nowrap">{formatWhen(c.getValue(), timeZone)}</span> }),
+    col.accessor('id', { header: '#', cell: (c) => c.getValue() }),
+    ...(showMember ? [col.accessor('memberName', { header: 'Member', cell: (c) => c.getValue() })] : []),
+    col.accessor('tankName', { header: 'Tank', cell: (c) => c.getValue() }),
+    col.accessor('quantityLiters', { id: 'quantity', header: 'Quantity', cell: (c) => <span className="tabular-nums whitespace-nowrap">{formatMl(Math.round(c.getValue() * 1000), units)}</span> }),
+    col.accessor('declaredUse', { header: 'Use', cell: (c) => <>{c.getValue()}{c.row.original.vehicle ? <span className="block text-xs text-stone-600">{c.row.original.vehicle}</span> : null}</> }),
+    col.accessor('totalCents', {
+      id: 'total', header: 'Amount',
+      cell: (c) => {
+        const r = c.row.original;
+        return (
+          <span className="tabular-nums whitespace-nowrap">
+            <strong>{money(r.totalCents)}</strong>
+            <span className="block text-xs text-stone-600">fuel {money(r.fuelCents)}{r.surchargeCents ? ` · reserve ${money(r.surchargeCents)}` : ''}{r.taxCents ? ` · road tax ${money(r.taxCents)}` : ''}</span>
+          </span>
+        );
+      },
+    }),
+    col.accessor('status', {
+      header: 'Status',
+      cell: (c) => {
+        const r = c.row.original;
+        return (
+          <>
+            <StatusBadge status={r.status} label={r.status === 'reversal' ? `reverses #${r.reversesDrawId}` : r.status === 'reversed' ? `reversed by #${r.reversedByDrawId}` : 'recorded'} />
+            {r.reason ? <span className="block text-xs text-stone-600">{r.reason}</span> : null}
+          </>
+        );
+      },
+    }),
+    ...(canReverse
+      ? [col.display({ id: 'actions', header: () => <span className="sr-only">Actions</span>, cell: (c) => (c.row.original.status === 'recorded' ? <ReverseDrawButton coopSlug={coopSlug} drawId={c.row.original.id} /> : null) })]
+      : []),
+  ];
+  return <DataTable columns={columns} data={rows} caption={caption} sortable={sortable} pageInfo={pageInfo} getRowId={(r) => String(r.id)} empty="No draws match." />;
+}

@@ -1,0 +1,34 @@
+'use client';
+
+import { useEffect, useState } from 'react';
+
+/**
+ * FormData → plain object for a form whose inputs are named `${prefix}-${field}` (so two forms
+ * on one page never share an element id); empty strings are dropped.
+ */
+export function prefixedObject(form: HTMLFormElement, prefix: string): Record<string, string> {
+  const out: Record<string, string> = {};
+  new FormData(form).forEach((v, k) => {
+    if (typeof v === 'string' && v.trim() !== '' && k.startsWith(`${prefix}-`)) out[k.slice(prefix.length + 1)] = v.trim();
+  });
+  return out;
+}
+
+/** Field errors keyed by API field → keyed by the prefixed input name. */
+export function prefixedErrors(fields: Record<string, string[]>, prefix: string): Record<string, string[]> {
+  return Object.fromEntries(Object.entries(fields).map(([k, v]) => [`${prefix}-${k}`, v]));
+}
+
+/** Fetcher for SWR: JSON or a thrown error with the status. */
+export async function jsonFetcher<T>(url: string): Promise<T> {
+  const res = await fetch(url, { headers: { accept: 'application/json' } });
+  if (!res.ok) throw Object.assign(new Error(`Request failed (${res.status})`), { status: res.status });
+  return res.json() as Promise<T>;
+}
+
+/** True after the first client render (for "updated at" stamps that must not differ from the server HTML). */
+export function useMounted() {
+  const [m, setM] = useState(false);
+  useEffect(() => setM(true), []);
+  return m;
+}

@@ -1,0 +1,53 @@
+'use client';
+
+import { createColumnHelper } from '@tanstack/react-table';
+import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
+import { formatCents } from '@/lib/money';
+import { formatWhen } from '@/lib/tank/format';
+import { formatMl } from '@/lib/tank/volume';
+import type { UnitSystem } from '@/lib/units';
+
+export interface LedgerRow {
+  id: string; kind: string; quantityLiters: number; valueCents: number; onHandAfterLiters: number; valueAfterCents: number;
+  reason: string | null; batchId: number | null; drawId: number | null; memberName: string | null; transferTankName: string | null; byName: string | null; occurredAt: string;
+}
+
+const KIND_LABEL: Record<string, string> = {
+  release: 'Batch released', draw: 'Draw', 'draw-reversal': 'Draw reversed', 'dip-adjustment': 'Dip adjustment', 'transfer-in': 'Transfer in', 'transfer-out': 'Transfer out',
+};
+
+const col = createColumnHelper<Features, LedgerRow>();
+
+/** The tank ledger: every movement with its signed quantity and value and the running totals after it. */
+export function LedgerTable({ rows, units, timeZone, currency, pageInfo }: { rows: LedgerRow[]; units: UnitSystem; timeZone: string; currency: string; pageInfo: PageInfo }) {
+  const money = (c: number) => formatCents(c, currency);
+  const columns: DataColumn<LedgerRow>[] = [
+    col.accessor('id', { id: 'recorded', header: '#', cell: (c) => c.getValue() }),
+    col.accessor('occurredAt', { id: 'occurred_at', header: 'When', cell: (c) => <span className="whitespace-nowrap">{formatWhen(c.getValue(), timeZone)}</span> }),
+    col.accessor('kind', {
+      id: 'kind', header: 'Movement',
+      cell: (c) => {
+        const r = c.row.original;
+        const detail = r.memberName ? r.memberName : r.transferTankName ? (r.kind === 'transfer-in' ? `from ${r.transferTankName}` : `to ${r.transferTankName}`) : r.batchId ? `batch #${r.batchId}` : null;
+        return (
+          <>
+            <span className="font-medium">{KIND_LABEL[r.kind] ?? r.kind}</span>
+            {detail ? <span className="block text-xs text-stone-600">{detail}{r.drawId ? ` · draw #${r.drawId}` : ''}</span> : null}
+            {r.reason ? <span className="block text-xs text-stone-600">{r.reason}</span> : null}
+          </>
+        );
+      },
+    }),
+    col.accessor('quantityLiters', {
+      id: 'quantity', header: 'Quantity',
+      cell: (c) => <span className={`tabular-nums whitespace-nowrap font-semibold ${c.getValue() < 0 ? 'text-danger-700' : 'text-ok-700'}`}>{formatMl(Math.round(c.getValue() * 1000), units, { signed: true })}</span>,
+    }),
+    col.accessor('valueCents', { header: 'Value', cell: (c) => <span className="tabular-nums whitespace-nowrap">{c.getValue() > 0 ? '+' : ''}{money(c.getValue())}</span> }),
+    col.accessor('onHandAfterLiters', {
+      header: 'On hand after',
+      cell: (c) => <span className="tabular-nums whitespace-nowrap">{formatMl(Math.round(c.getValue() * 1000), units)}<span className="block text-xs text-stone-600">{money(c.row.original.valueAfterCents)}</span></span>,
+    }),
+    col.accessor('byName', { header: 'By', cell: (c) => c.getValue() ?? '—' }),
+  ];
+  return <DataTable columns={columns} data={rows} caption="Tank ledger" sortable={['recorded', 'occurred_at', 'quantity', 'kind']} pageInfo={pageInfo} getRowId={(r) => r.id} empty="No movements yet." />;
+}

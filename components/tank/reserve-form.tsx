@@ -1,0 +1,64 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import useSWR, { useSWRConfig } from 'swr';
+import { Button } from '@/components/ui/button';
+import { SelectField, TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { useApiForm } from '@/components/forms/use-api-form';
+import { formatMl, unitWord } from '@/lib/tank/volume';
+import { volumeLabel, type UnitSystem } from '@/lib/units';
+import { jsonFetcher, prefixedErrors, prefixedObject } from './form-utils';
+import { tanksKey, TANKS_REFRESH_MS, type TanksResponse } from './live-tanks';
+
+/**
+ * A member reserves fuel for themself. The selected tank's available quantity is shown live
+ * (the same SWR data as the gauges); the server has the last word, and a 409 says how much is
+ * available now.
+ */
+export function ReserveForm({ coopSlug, initial, today, defaultEnd }: { coopSlug: string; initial: TanksResponse; today: string; defaultEnd: string }) {
+  const router = useRouter();
+  const { mutate } = useSWRConfig();
+  const { busy, fields, message, submit } = useApiForm();
+  const { data } = useSWR<TanksResponse>(tanksKey(coopSlug), jsonFetcher, { fallbackData: initial, refreshInterval: TANKS_REFRESH_MS, revalidateOnMount: false });
+  const units: UnitSystem = (data ?? initial).units;
+  const tanks = (data ?? initial).tanks.filter((t) => t.active);
+  const [tankId, setTankId] = useState<number | null>(tanks[0]?.id ?? null);
+  const tank = tanks.find((t) => t.id === tankId) ?? tanks[0];
+  const errors = prefixedErrors(fields, 'res');
+
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    const ok = await submit('/api/coops/' + coopSlug + '/reservations', 'POST', prefixedObject(form, 'res'), 'Reserved. Bring your container during the window; a brewer records the draw.');
+    await mutate(tanksKey(coopSlug));
+    if (ok) {
+      form.reset();
+      router.refresh();
+    }
+  }
+
+  if (tanks.length === 0) return <Notice tone="info">No tank is in service right now, so there is nothing to reserve.</Notice>;
+  return (
+    <form onSubmit={onSubmit} noValidate aria-label="Reserve fuel" className="grid gap-4 sm:grid-cols-2">
+      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
+      <SelectField label="Tank" name="res-tankId" value={tank?.id ?? ''} onChange={(e) => setTankId(Number(e.target.value))} errors={errors['res-tankId']}>
+        {tanks.map((t) => <option key={t.id} value={t.id}>{t.name}</option>)}
+      </SelectField>
+      <TextField
+        label={`Quantity (${unitWord(units)})`}
+        name="res-quantity"
+        inputMode="decimal"
+        autoComplete="off"
+        required
+        errors={errors['res-quantity']}
+        hint={tank ? <span>Available now in {tank.name}: <strong data-testid="reserve-available">{formatMl(Math.round(tank.availableLiters * 1000), units, { floor: true })}</strong> (updates every few seconds)</span> : null}
+        placeholder={`e.g. 10 ${volumeLabel(units)}`}
+      />
+      <TextField label="From" name="res-windowStart" type="date" required defaultValue={today} min={today} errors={errors['res-windowStart']} />
+      <TextField label="Until (last day)" name="res-windowEnd" type="date" required defaultValue={defaultEnd} min={today} errors={errors['res-windowEnd']} hint="The reservation expires after this day and the fuel goes back to everyone." />
+      <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Reserving…' : 'Reserve fuel'}</Button></div>
+    </form>
+  );
+}
