@@ -1,14 +1,12 @@
 import 'server-only';
-import { QueryTypes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, energyCostCents, estimateHeatingKwh, type FifoLotByTotal } from '@/lib/costing';
 import { roundHalfUp } from '@/lib/money';
-import { stockSummary } from '@/lib/supplies';
+import { batchNeeds, heldLots, summarizeStock } from '@/lib/supplies';
 import { fToC, litersToGallons, volumeToLiters } from '@/lib/units';
 import type { PlannerInput } from '@/lib/validation/brewing';
-import { sequelize } from '@/models';
 import { computePlan, type ComputedPlan } from './plan';
-import { feedstockShareCents, nextLotPurity, resolveTitration } from './records';
+import { feedstockShareCents, resolveTitration } from './records';
 
 /** Stock check and projected cost of one chemical for a planned batch. */
 export interface ChemicalCoverage {
@@ -50,32 +48,6 @@ const REACTION_TARGET_C = fToC(131); // common practice (130–135 °F)
 /** Starting oil temperature assumed by the heating estimate, °C (room temperature; an assumption). */
 const ASSUMED_START_C = 20;
 
-/**
- * FIFO lots of one chemical with stock, oldest first, fetched a page at a time until they hold
- * `need` (never all lots when a few suffice). Read-only: nothing is locked or written.
- */
-async function lotsCovering(coopId: number, kind: string, need: number): Promise<FifoLotByTotal[]> {
-  const out: FifoLotByTotal[] = [];
-  let held = 0;
-  let after: { d: string; id: number } | null = null;
-  while (held < need) {
-    const page: { id: number; received_on: string; quantity: string; remaining_quantity: string; total_cost_cents: string }[] = await sequelize.query(
-      `SELECT id, received_on, quantity, remaining_quantity, total_cost_cents FROM chemical_lots
-        WHERE coop_id = :coopId AND kind = :kind AND remaining_quantity > 0 ${after ? 'AND (received_on, id) > (:d, :id)' : ''}
-        ORDER BY received_on, id LIMIT 25`,
-      { replacements: { coopId, kind, d: after?.d ?? null, id: after?.id ?? null }, type: QueryTypes.SELECT },
-    );
-    if (!page.length) break;
-    for (const l of page) {
-      out.push({ id: l.id, receivedAt: l.received_on, qty: Number(l.quantity), remainingQty: Number(l.remaining_quantity), totalCostCents: Number(l.total_cost_cents) });
-      held += Number(l.remaining_quantity);
-    }
-    const last = page[page.length - 1]!;
-    after = { d: last.received_on, id: last.id };
-  }
-  return out;
-}
-
 /** Prices `need` after `committed` has been taken from the same lots (batches under way go first). */
 function projectCost(lots: FifoLotByTotal[], committed: number, need: number): { cents: number; shortBy: number } {
   const first = consumeFifo(lots, Math.max(0, committed));
@@ -97,22 +69,27 @@ function projectCost(lots: FifoLotByTotal[], committed: number, need: number): {
 export async function planBatch(actor: Actor, input: PlannerInput): Promise<PlannerResult> {
   const units = actor.coop.units;
   const oilLiters = volumeToLiters(input.oilVolume, units);
-  const { titration, lot } = await resolveTitration(actor, input);
   const catalyst = input.catalyst ?? actor.coop.settings.recipe?.catalyst ?? 'KOH';
-  const plan = computePlan(
-    { ...input, oilLiters, titration, nextLotPurityPct: input.purityPct === undefined ? await nextLotPurity(actor.coop.id, catalyst) : null },
-    actor.coop.settings.recipe,
-  );
-  const stock = await stockSummary(actor);
+  // Independent reads in parallel: the titration's oil lot (when one is chosen), the lots holding
+  // stock (FIFO order; also gives the next lot's purity) and what batches under way have committed.
+  const [{ titration, lot }, lots, needs] = await Promise.all([
+    resolveTitration(actor, input),
+    heldLots(actor.coop.id, ['methanol', 'KOH', 'NaOH']),
+    batchNeeds(actor.coop.id),
+  ]);
+  const stock = summarizeStock(lots, needs);
+  const purity = input.purityPct === undefined ? (lots.find((l) => l.kind === catalyst)?.purityPct ?? null) : null;
+  const plan = computePlan({ ...input, oilLiters, titration, nextLotPurityPct: purity }, actor.coop.settings.recipe);
   const notes: string[] = [];
 
-  const coverage: ChemicalCoverage[] = [];
-  for (const [kind, needed, unit] of [['methanol', plan.methanol.liters, 'L'], [catalyst, plan.catalystResult.totalGrams, 'g']] as const) {
+  const coverage: ChemicalCoverage[] = ([['methanol', plan.methanol.liters, 'L'], [catalyst, plan.catalystResult.totalGrams, 'g']] as const).map(([kind, needed, unit]) => {
     const line = stock.lines.find((l) => l.kind === kind)!;
-    const lots = await lotsCovering(actor.coop.id, kind, line.committed + needed);
-    const { cents, shortBy } = projectCost(lots, line.committed, Math.round(needed * 1000) / 1000);
-    coverage.push({ kind, unit, needed, available: line.available, covered: shortBy <= 0, shortBy, projectedCents: cents });
-  }
+    const fifo: FifoLotByTotal[] = lots
+      .filter((l) => l.kind === kind)
+      .map((l) => ({ id: l.id, receivedAt: l.receivedOn, qty: l.quantity, remainingQty: l.remaining, totalCostCents: l.totalCostCents }));
+    const { cents, shortBy } = projectCost(fifo, line.committed, Math.round(needed * 1000) / 1000);
+    return { kind, unit, needed, available: line.available, covered: shortBy <= 0, shortBy, projectedCents: cents };
+  });
 
   let energyCents = 0;
   let energySource: PlannerResult['projected']['energySource'] = 'none';

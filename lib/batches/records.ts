@@ -630,22 +630,25 @@ export async function listBatches(
   const all = can(actor.role, 'batches:read-all');
   if (!all && q.status && q.status !== 'released') return { rows: [], total: 0, page: q.page, pageSize: q.pageSize };
   const statuses = !all ? ['released'] : q.status === 'in-progress' ? IN_PROGRESS : q.status ? [q.status] : null;
+  // NOT NULL sort columns need no NULLS LAST, so the (coop_id, number) and (coop_id, batch_date, number) indexes give the order.
+  const order = col === 'number' ? `number ${dir}` : col === 'batch_date' || col === 'status' ? `${col} ${dir}, number ${dir}` : `${col} ${dir} NULLS LAST, number ${dir}`;
+  const where = `coop_id = :coopId ${statuses ? 'AND status IN (:statuses)' : ''}`;
+  const replacements = { coopId: actor.coop.id, statuses, limit: q.pageSize, offset: (q.page - 1) * q.pageSize };
+  // One round trip: the page by an index on (coop_id, number) or (coop_id, batch_date, number), and the count as a
+  // scalar subquery (an index-only scan); a window count(*) OVER () would read every row of the co-op instead.
   const rows = await sequelize.query<{
     id: number; number: number; status: BatchStatus; batch_date: string; oil_liters: string; released_liters: string | null;
     total_cost_cents: string | null; cost_per_gallon_cents: string | null; quality_standard: FuelStandard;
     quality_verdict: 'pass' | 'fail' | 'incomplete'; screening_verdict: 'looks-good' | 'needs-attention' | 'incomplete'; total: string;
   }>(
     `SELECT id, number, status, batch_date, oil_liters, released_liters, total_cost_cents, cost_per_gallon_cents, quality_standard,
-            quality_verdict, screening_verdict, count(*) OVER () AS total
-       FROM batches WHERE coop_id = :coopId ${statuses ? 'AND status IN (:statuses)' : ''}
-      ORDER BY ${col} ${dir} NULLS LAST, number ${dir} LIMIT :limit OFFSET :offset`,
-    { replacements: { coopId: actor.coop.id, statuses, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }, type: QueryTypes.SELECT },
+            quality_verdict, screening_verdict, (SELECT count(*) FROM batches WHERE ${where}) AS total
+       FROM batches WHERE ${where} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
+    { replacements, type: QueryTypes.SELECT },
   );
   let total = rows[0] ? Number(rows[0].total) : 0;
   if (!rows[0] && q.page > 1) {
-    const [c] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM batches WHERE coop_id = :coopId ${statuses ? 'AND status IN (:statuses)' : ''}`, {
-      replacements: { coopId: actor.coop.id, statuses }, type: QueryTypes.SELECT,
-    });
+    const [c] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM batches WHERE ${where}`, { replacements, type: QueryTypes.SELECT });
     total = Number(c?.n ?? 0);
   }
   return {

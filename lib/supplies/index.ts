@@ -316,53 +316,74 @@ const NEED_CATALYST = 'COALESCE(actual_catalyst_grams, computed_catalyst_grams)'
  * 'planned').
  */
 export async function stockSummary(actor: Actor, transaction?: Transaction): Promise<StockSummary> {
-  const [row] = await sequelize.query<Record<string, string | number | null>>(
-    `SELECT
-       (SELECT COALESCE(sum(remaining_quantity), 0) FROM chemical_lots WHERE coop_id = :c AND kind = 'methanol') AS methanol_on_hand,
-       (SELECT COALESCE(sum(remaining_quantity), 0) FROM chemical_lots WHERE coop_id = :c AND kind = 'KOH') AS koh_on_hand,
-       (SELECT COALESCE(sum(remaining_quantity), 0) FROM chemical_lots WHERE coop_id = :c AND kind = 'NaOH') AS naoh_on_hand,
-       (SELECT count(*) FROM chemical_lots WHERE coop_id = :c AND kind = 'methanol' AND remaining_quantity > 0) AS methanol_lots,
-       (SELECT count(*) FROM chemical_lots WHERE coop_id = :c AND kind = 'KOH' AND remaining_quantity > 0) AS koh_lots,
-       (SELECT count(*) FROM chemical_lots WHERE coop_id = :c AND kind = 'NaOH' AND remaining_quantity > 0) AS naoh_lots,
-       w.methanol_committed, w.koh_committed, w.naoh_committed,
-       n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams
-     FROM (SELECT COALESCE(sum(${NEED_METHANOL}), 0) AS methanol_committed,
-                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'KOH'), 0) AS koh_committed,
-                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'NaOH'), 0) AS naoh_committed
-             FROM batches WHERE coop_id = :c AND status IN ('reacting','settling','draining','washing','drying','testing')) w
-     LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams
-             FROM batches WHERE coop_id = :c AND status = 'planned' ORDER BY batch_date, number LIMIT 1) n ON true`,
-    { replacements: { c: actor.coop.id }, type: QueryTypes.SELECT, transaction },
+  const [lots, needs] = await Promise.all([heldLots(actor.coop.id, ['methanol', 'KOH', 'NaOH'], transaction), batchNeeds(actor.coop.id, transaction)]);
+  return summarizeStock(lots, needs);
+}
+
+/** A chemical lot that still holds stock. */
+export interface HeldLot { id: number; kind: 'methanol' | 'KOH' | 'NaOH'; receivedOn: string; quantity: number; remaining: number; totalCostCents: number; purityPct: number | null }
+
+/**
+ * The co-op's lots of these chemicals that still hold stock, oldest first (FIFO order), from the
+ * partial index on lots with remaining stock — a co-op has a handful of these at any time.
+ */
+export async function heldLots(coopId: number, kinds: HeldLot['kind'][], transaction?: Transaction): Promise<HeldLot[]> {
+  const rows = await sequelize.query<{ id: number; kind: HeldLot['kind']; received_on: string; quantity: string; remaining_quantity: string; total_cost_cents: string; purity_pct: string | null }>(
+    `SELECT id, kind, received_on, quantity, remaining_quantity, total_cost_cents, purity_pct FROM chemical_lots
+      WHERE coop_id = :coopId AND kind IN (:kinds) AND remaining_quantity > 0 ORDER BY kind, received_on, id`,
+    { replacements: { coopId, kinds }, type: QueryTypes.SELECT, transaction },
   );
-  const r = row ?? {};
-  const next = r.next_id ? { id: Number(r.next_id), number: Number(r.next_number), catalyst: r.next_catalyst as 'KOH' | 'NaOH' } : null;
-  const line = (kind: StockLine['kind'], prefix: string, unit: 'L' | 'g', need: number | null): StockLine => {
-    const onHand = Number(r[`${prefix}_on_hand`] ?? 0);
-    const committed = Number(r[`${prefix}_committed`] ?? 0);
-    const available = Number((onHand - committed).toFixed(3));
-    return { kind, unit, onHand, committed, available, lotsWithStock: Number(r[`${prefix}_lots`] ?? 0), nextPlannedNeed: need, low: need !== null && available < need };
-  };
+  return rows.map((r) => ({
+    id: r.id, kind: r.kind, receivedOn: r.received_on, quantity: Number(r.quantity), remaining: Number(r.remaining_quantity),
+    totalCostCents: Number(r.total_cost_cents), purityPct: r.purity_pct === null ? null : Number(r.purity_pct),
+  }));
+}
+
+/** What batches under way have committed of each chemical, and the next planned batch with its needs. */
+export interface BatchNeeds {
+  committed: Record<'methanol' | 'KOH' | 'NaOH', number>;
+  next: { id: number; number: number; catalyst: 'KOH' | 'NaOH'; methanolLiters: number; catalystGrams: number } | null;
+}
+
+export async function batchNeeds(coopId: number, transaction?: Transaction): Promise<BatchNeeds> {
+  const [r] = await sequelize.query<Record<string, string | number | null>>(
+    `SELECT w.methanol_committed, w.koh_committed, w.naoh_committed,
+            n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams
+       FROM (SELECT COALESCE(sum(${NEED_METHANOL}), 0) AS methanol_committed,
+                    COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'KOH'), 0) AS koh_committed,
+                    COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'NaOH'), 0) AS naoh_committed
+               FROM batches WHERE coop_id = :c AND status IN ('reacting','settling','draining','washing','drying','testing')) w
+       LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams
+               FROM batches WHERE coop_id = :c AND status = 'planned' ORDER BY batch_date, number LIMIT 1) n ON true`,
+    { replacements: { c: coopId }, type: QueryTypes.SELECT, transaction },
+  );
+  const row = r ?? {};
   return {
-    nextPlannedBatch: next,
-    lines: [
-      line('methanol', 'methanol', 'L', next ? Number(r.next_methanol) : null),
-      line('KOH', 'koh', 'g', next?.catalyst === 'KOH' ? Number(r.next_catalyst_grams) : null),
-      line('NaOH', 'naoh', 'g', next?.catalyst === 'NaOH' ? Number(r.next_catalyst_grams) : null),
-    ],
+    committed: { methanol: Number(row.methanol_committed ?? 0), KOH: Number(row.koh_committed ?? 0), NaOH: Number(row.naoh_committed ?? 0) },
+    next: row.next_id
+      ? { id: Number(row.next_id), number: Number(row.next_number), catalyst: row.next_catalyst as 'KOH' | 'NaOH', methanolLiters: Number(row.next_methanol), catalystGrams: Number(row.next_catalyst_grams) }
+      : null,
   };
 }
 
-/** FIFO lots of one chemical still holding stock, oldest first (read-only; for projections). */
-export async function stockLots(actor: Actor, kind: 'methanol' | 'KOH' | 'NaOH'): Promise<{ id: number; receivedOn: string; quantity: number; remaining: number; totalCostCents: number; purityPct: number | null }[]> {
-  const rows = await sequelize.query<{ id: number; received_on: string; quantity: string; remaining_quantity: string; total_cost_cents: string; purity_pct: string | null }>(
-    `SELECT id, received_on, quantity, remaining_quantity, total_cost_cents, purity_pct FROM chemical_lots
-      WHERE coop_id = :coopId AND kind = :kind AND remaining_quantity > 0 ORDER BY received_on, id LIMIT 500`,
-    { replacements: { coopId: actor.coop.id, kind }, type: QueryTypes.SELECT },
-  );
-  return rows.map((r) => ({
-    id: r.id, receivedOn: r.received_on, quantity: Number(r.quantity), remaining: Number(r.remaining_quantity),
-    totalCostCents: Number(r.total_cost_cents), purityPct: r.purity_pct === null ? null : Number(r.purity_pct),
-  }));
+/** Stock lines from the lots holding stock and the batches' needs (pure). */
+export function summarizeStock(lots: HeldLot[], needs: BatchNeeds): StockSummary {
+  const next = needs.next;
+  const line = (kind: StockLine['kind'], unit: 'L' | 'g', need: number | null): StockLine => {
+    const mine = lots.filter((l) => l.kind === kind);
+    const onHand = Number(mine.reduce((a, l) => a + l.remaining, 0).toFixed(3));
+    const committed = needs.committed[kind];
+    const available = Number((onHand - committed).toFixed(3));
+    return { kind, unit, onHand, committed, available, lotsWithStock: mine.length, nextPlannedNeed: need, low: need !== null && available < need };
+  };
+  return {
+    nextPlannedBatch: next ? { id: next.id, number: next.number, catalyst: next.catalyst } : null,
+    lines: [
+      line('methanol', 'L', next ? next.methanolLiters : null),
+      line('KOH', 'g', next?.catalyst === 'KOH' ? next.catalystGrams : null),
+      line('NaOH', 'g', next?.catalyst === 'NaOH' ? next.catalystGrams : null),
+    ],
+  };
 }
 
 /** Active tanks of the co-op, for the release form. */
