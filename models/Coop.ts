@@ -14,6 +14,8 @@ export interface CoopSettings {
     methanolPct?: number;
   };
   monthlyDuesCents?: number;
+  /** Fuel standard batch quality is compared with (default ASTM D6751). */
+  qualityStandard?: 'ASTM D6751' | 'EN 14214';
 }
 
 export class Coop extends Model<InferAttributes<Coop>, InferCreationAttributes<Coop>> {

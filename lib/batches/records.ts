@@ -209,6 +209,7 @@ export async function createBatch(actor: Actor, input: BatchCreateInput): Promis
     const batch = await Batch.create(
       {
         coopId: actor.coop.id, number: Number(next!.n), ...planColumns(plan), batchDate: input.batchDate ?? todayIn(actor.coop.timezone),
+        qualityStandard: actor.coop.settings.qualityStandard === 'EN 14214' ? 'EN 14214' : 'ASTM D6751',
         notes: input.notes ?? null, createdByUserId: actor.user.id,
       },
       { transaction: t },

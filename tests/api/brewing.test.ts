@@ -456,3 +456,17 @@ describe('brewing: US units, FIFO across lots, stock shortfall and the low-stock
     expect(rel.body.release.releasedLiters).toBeCloseTo(28 * 3.785411784, 3);
   });
 });
+
+describe('brewing: the co-op’s chosen standard', () => {
+  it('new batches are judged against the standard in the co-op’s settings (EN 14214 here), ASTM D6751 otherwise', async () => {
+    const ctx = await makeCoopWithRoles();
+    await sql(`UPDATE coops SET settings = '{"qualityStandard":"EN 14214"}'::jsonb WHERE id = $1`, [ctx.coop.id]);
+    const b = await ctx.agents.brewer.post(`${api(ctx.coop.slug)}/batches`).send({ oilVolume: 20, titrationTrials: [2] }).expect(201);
+    expect(b.body.quality.standard).toBe('EN 14214');
+    // EN 14214 flash point ≥ 101 °C: 95 °C fails there (it would pass ASTM D6751's ≥ 93 °C).
+    const r = await ctx.agents.brewer.patch(`${api(ctx.coop.slug)}/batches/${b.body.id}`).send({ labResults: { flashPoint: 95 } }).expect(200);
+    expect(r.body.qualityVerdict).toBe('fail');
+    const astm = await ctx.agents.brewer.patch(`${api(ctx.coop.slug)}/batches/${b.body.id}`).send({ qualityStandard: 'ASTM D6751' }).expect(200);
+    expect(astm.body.qualityVerdict).toBe('pass');
+  });
+});

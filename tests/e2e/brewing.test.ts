@@ -148,6 +148,10 @@ describe('brewing in the browser', () => {
       await expect(page.getByRole('button', { name: /Move to/ }).count()).resolves.toBe(0);
       await shoot(page, 'member-batch');
       await checkA11y(page);
+      // Pages check the role on the server too: the planner is not for members.
+      await page.goto(`${baseUrl()}/c/prairie-lantern/planner`);
+      await page.getByText('Not available to your role').waitFor();
+      await expect(page.getByLabel('Oil volume (gal)').count()).resolves.toBe(0);
     });
   });
 });
