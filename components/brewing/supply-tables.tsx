@@ -22,7 +22,7 @@ export function ChemicalTable({ rows, slug, units, currency, pageInfo, canWrite 
   const amount = (r: ChemicalRow, q: number) => (r.unit === 'L' ? vol(q, units, 2) : grams(q));
   const columns: DataColumn<ChemicalRow>[] = [
     chem.accessor('receivedOn', { id: 'receivedOn', header: 'Received', cell: (c) => dateText(c.getValue()) }),
-    chem.accessor('kind', { id: 'kind', header: 'Chemical', cell: (c) => `${c.getValue() === 'other' ? c.row.original.description : c.getValue()}${c.row.original.purityPct !== null ? ` (${c.row.original.purityPct} %)` : ''}` }),
+    chem.accessor('kind', { id: 'kind', header: 'Chemical', cell: (c) => `${c.getValue() === 'other' ? c.row.original.description : c.getValue() === 'methanol' ? 'Methanol' : c.getValue()}${c.row.original.purityPct !== null ? ` (${c.row.original.purityPct} %)` : ''}` }),
     chem.accessor('supplier', { id: 'supplier', header: 'Supplier' }),
     chem.accessor('quantity', { id: 'quantity', header: 'Bought', cell: (c) => amount(c.row.original, c.getValue()) }),
     chem.accessor('remaining', { id: 'remaining', header: 'Left', cell: (c) => amount(c.row.original, c.getValue()) }),
