@@ -1,4 +1,5 @@
 import 'server-only';
+import type { Model, ModelStatic } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import { AuditEvent } from './AuditEvent';
 import { AuthToken } from './AuthToken';
@@ -14,6 +15,14 @@ import { PricePolicy } from './PricePolicy';
 import { Reservation } from './Reservation';
 import { Tank } from './Tank';
 import { TankMovement } from './TankMovement';
+// brewing (supplies and batches)
+import { Batch } from './Batch';
+import { BatchFile } from './BatchFile';
+import { BatchOilLot } from './BatchOilLot';
+import { BatchTemperature } from './BatchTemperature';
+import { ChemicalConsumption } from './ChemicalConsumption';
+import { ChemicalLot } from './ChemicalLot';
+import { OilLot } from './OilLot';
 
 // Explicit wiring: every model is initialised here, once, and associations are declared in one place.
 Coop.initModel(sequelize);
@@ -46,6 +55,21 @@ Draw.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
 Draw.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
 DipReading.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
 
+// brewing: supplies and batches (child rows are read with explicit queries; no eager loading)
+for (const m of [ChemicalLot, OilLot, Batch, BatchOilLot, BatchTemperature, ChemicalConsumption, BatchFile]) m.initModel(sequelize);
+for (const m of [ChemicalLot, OilLot, Batch, BatchOilLot, BatchTemperature, ChemicalConsumption, BatchFile] as ModelStatic<Model>[]) {
+  m.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
+}
+for (const m of [ChemicalLot, OilLot, Batch, BatchTemperature] as ModelStatic<Model>[]) m.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
+BatchFile.belongsTo(User, { foreignKey: 'uploadedByUserId', as: 'uploadedBy' });
+ChemicalConsumption.belongsTo(ChemicalLot, { foreignKey: 'chemicalLotId', as: 'lot' });
+BatchOilLot.belongsTo(OilLot, { foreignKey: 'oilLotId', as: 'oilLot' });
+Batch.hasMany(BatchTemperature, { foreignKey: 'batchId', as: 'temperatures' });
+Batch.hasMany(BatchOilLot, { foreignKey: 'batchId', as: 'oilLots' });
+Batch.hasMany(ChemicalConsumption, { foreignKey: 'batchId', as: 'consumptions' });
+Batch.hasMany(BatchFile, { foreignKey: 'batchId', as: 'files' });
+
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
+export { Batch, BatchFile, BatchOilLot, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot };

@@ -1,0 +1,12 @@
+import { requireMember } from '@/lib/auth';
+import { advanceBatch, idParam } from '@/lib/batches';
+import { handler, parseBody } from '@/lib/http';
+import { batchAdvanceSchema } from '@/lib/validation/brewing';
+
+/** POST {to}: move the batch forward to a later step. */
+export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
+  const actor = await requireMember(coop, 'batches:write');
+  const batchId = idParam(id);
+  const { to } = await parseBody(req, batchAdvanceSchema);
+  return advanceBatch(actor, batchId, to);
+});

@@ -1,0 +1,10 @@
+import { requireMember } from '@/lib/auth';
+import { fileResponse, getBatchFile, idParam } from '@/lib/batches';
+import { handler } from '@/lib/http';
+
+/** GET: download a batch's photo or lab report (checked against the co-op and the batch). */
+export const GET = handler<{ coop: string; id: string; fileId: string }>(async (_req, { coop, id, fileId }) => {
+  const actor = await requireMember(coop, 'batches:read-all');
+  const file = await getBatchFile(actor, idParam(id), idParam(fileId));
+  return fileResponse(file.bytes, file.kind, file.name);
+});

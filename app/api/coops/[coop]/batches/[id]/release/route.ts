@@ -1,0 +1,12 @@
+import { requireMember } from '@/lib/auth';
+import { idParam, releaseBatch } from '@/lib/batches';
+import { handler, parseBody } from '@/lib/http';
+import { batchReleaseSchema } from '@/lib/validation/brewing';
+
+/** POST {tankId, volume}: release a tested batch into a tank (consumes chemical lots, prices the batch). */
+export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
+  const actor = await requireMember(coop, 'batches:write');
+  const batchId = idParam(id);
+  const input = await parseBody(req, batchReleaseSchema);
+  return releaseBatch(actor, batchId, input);
+});

@@ -1,0 +1,12 @@
+import { requireMember } from '@/lib/auth';
+import { addTemperature, idParam } from '@/lib/batches';
+import { handler, parseBody } from '@/lib/http';
+import { temperatureCreateSchema } from '@/lib/validation/brewing';
+
+/** POST {temp, measuredAt?}: add a reaction temperature reading (co-op units); answers with its check. */
+export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
+  const actor = await requireMember(coop, 'batches:write');
+  const batchId = idParam(id);
+  const input = await parseBody(req, temperatureCreateSchema);
+  return Response.json(await addTemperature(actor, batchId, input), { status: 201 });
+});

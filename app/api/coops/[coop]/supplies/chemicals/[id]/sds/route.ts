@@ -1,0 +1,18 @@
+import { requireMember } from '@/lib/auth';
+import { fileResponse, idParam, readUpload } from '@/lib/batches';
+import { handler } from '@/lib/http';
+import { attachSafetyDataSheet, getSafetyDataSheet } from '@/lib/supplies';
+
+/** GET: download the lot's safety data sheet. POST: upload it (multipart, field "file", PDF only). */
+export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
+  const actor = await requireMember(coop, 'supplies:read');
+  const file = await getSafetyDataSheet(actor, idParam(id));
+  return fileResponse(file.bytes, 'pdf', file.name);
+});
+
+export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
+  const actor = await requireMember(coop, 'supplies:write');
+  const lotId = idParam(id);
+  const upload = await readUpload(req, ['pdf']);
+  return Response.json(await attachSafetyDataSheet(actor, lotId, upload), { status: 201 });
+});

@@ -1,0 +1,297 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import type { ReactNode } from 'react';
+import { StatusBadge } from '@/components/brewing/badges';
+import { BatchActions } from '@/components/brewing/batch-actions';
+import { dateText, grams, money, perUnit, STATUS_LABELS, STEP_ORDER, vol } from '@/components/brewing/format';
+import { QualityForm } from '@/components/brewing/quality-form';
+import { QualityTables } from '@/components/brewing/quality-table';
+import { ReleaseForm } from '@/components/brewing/release-form';
+import { SafetyNote } from '@/components/brewing/safety-note';
+import { StepForm, type StepField } from '@/components/brewing/step-form';
+import { TemperatureLog } from '@/components/brewing/temperature-log';
+import { UploadForm } from '@/components/brewing/upload-form';
+import { Card, Notice } from '@/components/ui/notice';
+import { Denied } from '@/components/brewing/denied';
+import { findActor } from '@/lib/auth';
+import { getBatch, idParam, type BatchDto, type BatchSummaryDto } from '@/lib/batches';
+import { HttpError } from '@/lib/http';
+import { listTanks } from '@/lib/supplies';
+import { volumeFromLiters, volumeLabel, type UnitSystem } from '@/lib/units';
+
+export const metadata: Metadata = { title: 'Batch' };
+
+const fixed = (v: number | null, digits: number) => (v === null ? '' : String(Number(v.toFixed(digits))));
+const volIn = (liters: number | null, units: UnitSystem) => (liters === null ? '' : String(Number(volumeFromLiters(liters, units).toFixed(2))));
+const cents = (c: number | null) => (c === null ? '' : (c / 100).toFixed(2));
+
+export default async function BatchPage({ params }: { params: Promise<{ coop: string; id: string }> }) {
+  const { coop, id } = await params;
+  const actor = await findActor(coop, 'batches:read-released');
+  if (actor instanceof HttpError) return <Denied error={actor} why="Ask the co-op’s admin about your membership." next={`/c/${coop}/batches/${id}`} />;
+  let batch: BatchDto | BatchSummaryDto;
+  try {
+    batch = await getBatch(actor, idParam(id), { allowSummary: true });
+  } catch (e) {
+    if (e instanceof HttpError && e.status === 404) notFound();
+    throw e;
+  }
+  const base = `/c/${actor.coop.slug}`;
+  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} />;
+  const tanks = batch.status === 'testing' ? await listTanks(actor) : [];
+  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} />;
+}
+
+function Header({ number, status, batchDate, base, id, children }: { number: number; status: string; batchDate: string; base: string; id: number; children?: ReactNode }) {
+  return (
+    <div className="flex flex-col gap-2">
+      <Link href={`${base}/batches`} className="text-sm">← All batches</Link>
+      <div className="flex flex-wrap items-center gap-3">
+        <h1>Batch {number}</h1>
+        <StatusBadge status={status} />
+        <span className="text-sm text-stone-600">{dateText(batchDate)}</span>
+        {status === 'released' ? (
+          <a className="ml-auto inline-flex min-h-11 items-center rounded-lg border border-stone-300 bg-white px-4 py-2 text-sm font-semibold text-stone-900 no-underline hover:bg-stone-100" href={`/api/coops/${base.slice(3)}/batches/${id}/certificate`}>
+            Download certificate (PDF)
+          </a>
+        ) : null}
+      </div>
+      {children}
+    </div>
+  );
+}
+
+function BatchSummary({ batch, base, units, currency }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string }) {
+  return (
+    <div className="flex flex-col gap-4">
+      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} />
+      <Card title="In the tank">
+        <dl className="grid grid-cols-1 gap-2 text-sm sm:grid-cols-3">
+          <div><dt className="text-stone-600">Released</dt><dd className="font-semibold">{vol(batch.release?.releasedLiters, units)}{batch.release?.tankName ? ` into ${batch.release.tankName}` : ''}</dd></div>
+          <div><dt className="text-stone-600">On</dt><dd className="font-semibold">{dateText(batch.release?.releasedAt)}</dd></div>
+          <div><dt className="text-stone-600">Cost</dt><dd className="font-semibold">{perUnit(batch.costPerGallonCents, batch.costPerLiterCents, units, currency)}</dd></div>
+        </dl>
+      </Card>
+      <Card title="Quality">
+        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} />
+      </Card>
+    </div>
+  );
+}
+
+function Steps({ status }: { status: string }) {
+  const current = STEP_ORDER.indexOf(status as (typeof STEP_ORDER)[number]);
+  const done = status === 'released' ? STEP_ORDER.length : current;
+  return (
+    <ol aria-label="Steps" className="flex gap-1 overflow-x-auto pb-1 text-xs">
+      {[...STEP_ORDER, status === 'rejected' ? 'rejected' : 'released'].map((s, i) => {
+        const state = s === status ? 'current' : i < done || (status === 'released' && s === 'released') ? 'done' : 'todo';
+        return (
+          <li key={s} aria-current={state === 'current' ? 'step' : undefined}
+            className={`whitespace-nowrap rounded-full border px-2.5 py-1 font-semibold ${state === 'current' ? (s === 'rejected' ? 'border-danger-600 bg-danger-600 text-white' : 'border-fir-700 bg-fir-700 text-white') : state === 'done' ? 'border-fir-200 bg-fir-50 text-fir-900' : 'border-stone-300 bg-white text-stone-700'}`}>
+            {i + 1}. {STATUS_LABELS[s]}
+          </li>
+        );
+      })}
+    </ol>
+  );
+}
+
+function Figure({ label, value, sub }: { label: string; value: ReactNode; sub?: ReactNode }) {
+  return (
+    <div className="rounded-lg border border-stone-200 bg-stone-50 p-3">
+      <dt className="text-xs uppercase tracking-wide text-stone-600">{label}</dt>
+      <dd className="text-lg font-bold text-fir-900">{value}</dd>
+      {sub ? <dd className="text-xs text-stone-700">{sub}</dd> : null}
+    </div>
+  );
+}
+
+function BatchRecord({ batch, base, units, currency, tanks }: {
+  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>;
+}) {
+  const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
+  const final = batch.status === 'released' || batch.status === 'rejected';
+  const planned = batch.status === 'planned';
+  const { plan } = batch;
+  const v = volumeLabel(units);
+  const methanolPlanned = vol(batch.computedMethanolLiters, units, 2);
+
+  const planFields: StepField[] = [
+    { name: 'oilVolume', label: `Oil (${v})`, kind: 'number', defaultValue: volIn(batch.oilLiters, units), omitEmpty: true },
+    { name: 'titrationTrials', label: 'Titration trials (mL)', kind: 'list', defaultValue: plan.titration.trials.join(', '), omitEmpty: true, hint: 'Separate trials with commas, e.g. 4.9, 5.1, 5.2' },
+    { name: 'catalyst', label: 'Catalyst', kind: 'select', defaultValue: plan.catalyst, omitEmpty: true, options: [{ value: 'KOH', label: 'KOH' }, { value: 'NaOH', label: 'NaOH' }] },
+    { name: 'purityPct', label: 'Purity (%)', kind: 'number', defaultValue: String(plan.purityPct), omitEmpty: true },
+    { name: 'baseGramsPerLiter', label: 'Base amount (g per L of oil, pure)', kind: 'number', defaultValue: fixed(plan.baseGramsPerLiter, 3), omitEmpty: true },
+    { name: 'methanolPct', label: 'Methanol (% of oil volume)', kind: 'number', defaultValue: plan.methanol.pct === null ? '' : String(plan.methanol.pct), omitEmpty: true },
+  ];
+  const reactionFields: StepField[] = [
+    { name: 'actualCatalystGrams', label: `${plan.catalyst} weighed out (g)`, kind: 'number', defaultValue: fixed(batch.actualCatalystGrams, 1), aside: <>Planned: <strong>{grams(batch.computedCatalystGrams)}</strong></> },
+    { name: 'actualMethanol', label: `Methanol measured (${v})`, kind: 'number', defaultValue: volIn(batch.actualMethanolLiters, units), aside: <>Planned: <strong>{methanolPlanned}</strong></> },
+    { name: 'mixingMinutes', label: 'Mixing time (minutes)', kind: 'number', defaultValue: batch.mixingMinutes?.toString() ?? '', hint: 'About an hour is usual.' },
+  ];
+  const costFields: StepField[] = [
+    { name: 'energyKwh', label: 'Metered energy (kWh)', kind: 'number', defaultValue: fixed(batch.energy.kwh, 3), hint: 'Or give heater power and hours instead.' },
+    { name: 'tariffCentsPerKwh', label: 'Electricity tariff (¢ per kWh)', kind: 'number', defaultValue: fixed(batch.energy.tariffCentsPerKwh, 4),
+      aside: batch.energy.costCents !== null ? <>Energy cost: <strong>{money(batch.energy.costCents, currency)}</strong></> : <span className="text-stone-600">Energy is not counted until a tariff and an amount are given.</span> },
+    { name: 'heaterKw', label: 'Heater power (kW)', kind: 'number', defaultValue: fixed(batch.energy.heaterKw, 3) },
+    { name: 'heaterHours', label: 'Heating time (hours)', kind: 'number', defaultValue: fixed(batch.energy.heaterHours, 2) },
+    { name: 'feedstockCost', label: 'Feedstock cost ($), if not the oil lots’ cost', kind: 'number', defaultValue: cents(batch.feedstockCentsOverride),
+      aside: <>From the oil lots: <strong>{money(batch.feedstockFromLotsCents, currency)}</strong></> },
+    { name: 'otherCost', label: 'Other costs ($)', kind: 'number', defaultValue: cents(batch.otherCents), omitEmpty: true, hint: 'Water, filters, acid for washing…' },
+    { name: 'otherNotes', label: 'What the other costs were', kind: 'textarea', defaultValue: batch.otherNotes ?? '' },
+  ];
+
+  return (
+    <div className="flex flex-col gap-4">
+      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id}>
+        <Steps status={batch.status} />
+      </Header>
+
+      {!final ? (
+        <Card title="Next step">
+          <BatchActions key={batch.status} url={url} status={batch.status} />
+        </Card>
+      ) : null}
+
+      {batch.status === 'rejected' ? (
+        <Notice tone="danger" title={`Rejected ${dateText(batch.rejectedAt)}`}>
+          <p>{batch.rejectReason}</p>
+          {batch.costs ? <p className="mt-1">Inputs written off: {money(batch.costs.totalCents, currency)}.</p> : null}
+        </Notice>
+      ) : null}
+
+      {batch.status === 'released' && batch.costs && batch.release ? (
+        <Card title="Released">
+          <dl className="grid grid-cols-1 gap-3 sm:grid-cols-3">
+            <Figure label="Into the tank" value={vol(batch.release.releasedLiters, units)} sub={`${batch.release.tankName ?? 'Tank'} · ${dateText(batch.release.releasedAt)}`} />
+            <Figure label={`Cost per ${units === 'us' ? 'gallon' : 'litre'}`} value={perUnit(batch.costs.costPerGallonCents, batch.costs.costPerLiterCents, units, currency)} />
+            <Figure label="Batch cost" value={money(batch.costs.totalCents, currency)} />
+          </dl>
+          <CostBreakdown costs={batch.costs} currency={currency} />
+        </Card>
+      ) : null}
+
+      <Card title="1. Plan">
+        <dl className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
+          <Figure label="Oil" value={vol(batch.oilLiters, units)} sub={units === 'us' ? `${batch.oilLiters.toFixed(1)} L` : undefined} />
+          <Figure label="Titration average" value={`${plan.titration.averageMl.toFixed(2)} mL`} sub={`${plan.titration.source === 'oil-lot' ? 'From the oil lot' : 'Trials'}: ${plan.titration.trials.join(', ')} mL (${plan.titration.titrant})`} />
+          <Figure label={`${plan.catalyst} to weigh`} value={grams(batch.computedCatalystGrams)} sub={`${plan.catalystResult.gramsPerLiter.toFixed(2)} g/L at ${plan.purityPct} % purity`} />
+          <Figure label="Methanol" value={methanolPlanned} sub={plan.methanol.mode === 'percent' ? `${plan.methanol.pct} % of oil (≈ ${plan.methanol.equivalentMolarRatio.toFixed(1)}:1 molar)` : `${plan.methanol.molarRatio}:1 molar (${plan.methanol.equivalentPct.toFixed(1)} % of oil)`} />
+        </dl>
+        <p className="mt-3 text-sm text-stone-700"><span className="font-semibold">How the catalyst was worked out:</span> {plan.catalystResult.explanation}</p>
+        <p className="mt-1 text-sm text-stone-700">
+          Oil acidity: acid number {plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids {plan.oil.ffaPercent.toFixed(2)} % (as oleic acid). Expected: about {vol(plan.yields.fuelLiters, units)} of fuel and {vol(plan.yields.glycerolLiters, units)} of glycerol (the crude glycerin layer is larger).
+        </p>
+        {plan.oil.needsAcidPretreatment ? <div className="mt-2"><Notice tone="warn">{plan.oil.message}</Notice></div> : null}
+        {plan.titration.outlierIndexes.length ? (
+          <div className="mt-2"><Notice tone="warn">Trial {plan.titration.outlierIndexes.map((i) => i + 1).join(' and ')} differs from the others; consider titrating again.</Notice></div>
+        ) : null}
+        {batch.oilLots.length ? (
+          <p className="mt-2 text-sm">Oil lots: {batch.oilLots.map((o) => `${vol(o.liters, units)} from ${o.collectedFrom} (${dateText(o.collectedOn)})`).join('; ')}.</p>
+        ) : <p className="mt-2 text-sm text-stone-600">No oil lots linked to this batch.</p>}
+        {planned ? (
+          <details className="mt-3 rounded-lg border border-stone-200 p-3">
+            <summary className="cursor-pointer font-semibold text-fir-800">Change the plan</summary>
+            <div className="mt-3"><StepForm url={url} fields={planFields} submitLabel="Recompute and save" okText="Plan updated." /></div>
+          </details>
+        ) : null}
+        <div className="mt-3"><SafetyNote topics={['methanol', 'lye', 'protective-equipment']} title="Before handling methanol and lye" /></div>
+      </Card>
+
+      <Card title="2. Reaction">
+        <StepForm url={url} fields={reactionFields} disabled={final} />
+        <h3 className="mb-2 mt-4 font-semibold text-fir-900">Temperature</h3>
+        <TemperatureLog url={url} readings={batch.temperatures} units={units} readOnly={final} />
+        <div className="mt-3"><SafetyNote topics={['methanol']} title="Heating methanol and oil" /></div>
+      </Card>
+
+      <Card title="3. Settling and draining">
+        <StepForm url={url} disabled={final} fields={[
+          { name: 'settlingHours', label: 'Settling time (hours)', kind: 'number', defaultValue: fixed(batch.settlingHours, 2), hint: 'Overnight, 8–24 hours, is usual.' },
+          { name: 'glycerinDrained', label: `Glycerin drained (${v})`, kind: 'number', defaultValue: volIn(batch.glycerinLiters, units), aside: <>Pure glycerol expected: about {vol(plan.yields.glycerolLiters, units)}; the crude layer holds methanol, catalyst and soap too.</> },
+        ]} />
+        <div className="mt-3"><SafetyNote topics={['waste']} title="Glycerin" /></div>
+      </Card>
+
+      <Card title="4. Washing">
+        <StepForm url={url} disabled={final} fields={[
+          { name: 'washCycles', label: 'Wash cycles', kind: 'number', defaultValue: batch.washCycles?.toString() ?? '', hint: 'Until the water runs clear and near pH 7.' },
+          { name: 'washWater', label: `Wash water used (${v})`, kind: 'number', defaultValue: volIn(batch.washWaterLiters, units) },
+        ]} />
+        <div className="mt-3"><SafetyNote topics={['waste']} title="Wash water" /></div>
+      </Card>
+
+      <Card title="5. Drying">
+        <StepForm url={url} disabled={final} fields={[
+          { name: 'dryingMethod', label: 'Drying method', kind: 'select', defaultValue: batch.dryingMethod ?? '', options: [
+            { value: '', label: 'Not recorded' }, { value: 'air', label: 'Open air' }, { value: 'bubble', label: 'Bubble drying' }, { value: 'heat', label: 'Heating' },
+            { value: 'vacuum', label: 'Vacuum' }, { value: 'settle', label: 'Settling' }, { value: 'other', label: 'Other' },
+          ] },
+          { name: 'dryingNotes', label: 'Drying notes', kind: 'textarea', defaultValue: batch.dryingNotes ?? '', hint: 'Dry until the fuel is clear (target ≤ 500 ppm water).' },
+        ]} />
+        <div className="mt-3"><SafetyNote topics={['rags']} title="Fuel-soaked rags" /></div>
+      </Card>
+
+      <Card title="6. Testing">
+        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} />
+        {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults as Record<string, number>} standard={batch.quality.standard} /></div> : null}
+      </Card>
+
+      <Card title="Costs">
+        <StepForm url={url} fields={costFields} disabled={final} />
+      </Card>
+
+      {batch.status === 'testing' ? (
+        <Card title="7. Release to the tank">
+          <ReleaseForm url={url} tanks={tanks} units={units} />
+        </Card>
+      ) : null}
+
+      {batch.consumptions.length ? (
+        <Card title="Chemicals taken from stock">
+          <ul className="text-sm">
+            {batch.consumptions.map((c) => (
+              <li key={c.chemicalLotId} className="border-b border-stone-100 py-1">
+                {c.unit === 'L' ? vol(c.quantity, units, 2) : grams(c.quantity)} {c.kind} from the lot received {dateText(c.receivedOn)} ({c.supplier}) — {money(c.costCents, currency)}
+              </li>
+            ))}
+          </ul>
+        </Card>
+      ) : null}
+
+      <Card title="Photos and lab reports">
+        {batch.files.length ? (
+          <ul className="mb-3 text-sm">
+            {batch.files.map((f) => (
+              <li key={f.id} className="border-b border-stone-100 py-1">
+                <a className="underline" href={`${url}/files/${f.id}`}>{f.name}</a> <span className="text-stone-600">— {f.purpose === 'photo' ? 'photo' : 'lab report'}, {Math.max(1, Math.round(f.sizeBytes / 1024))} KB</span>
+              </li>
+            ))}
+          </ul>
+        ) : <p className="mb-3 text-sm text-stone-600">Nothing attached yet.</p>}
+        <UploadForm url={`${url}/files`} accept="application/pdf,image/jpeg,image/png" label="PDF, JPEG or PNG" purposes={[{ value: 'lab-report', label: 'Lab report' }, { value: 'photo', label: 'Photo' }]} />
+      </Card>
+
+      <Card title="Notes">
+        <StepForm url={url} disabled={final} fields={[{ name: 'notes', label: 'Notes on this batch', kind: 'textarea', defaultValue: batch.notes ?? '' }]} />
+      </Card>
+    </div>
+  );
+}
+
+function CostBreakdown({ costs, currency }: { costs: NonNullable<BatchDto['costs']>; currency: string }) {
+  const rows: [string, number][] = [
+    ['Methanol', costs.methanolCents], ['Catalyst', costs.catalystCents], ['Energy', costs.energyCents], ['Feedstock', costs.feedstockCents], ['Other', costs.otherCents],
+  ];
+  return (
+    <table className="mt-3 w-full max-w-sm text-sm">
+      <caption className="sr-only">Cost breakdown</caption>
+      <tbody>
+        {rows.map(([k, c]) => <tr key={k} className="border-b border-stone-100"><th scope="row" className="py-1 text-left font-normal">{k}</th><td className="py-1 text-right">{money(c, currency)}</td></tr>)}
+        <tr><th scope="row" className="py-1 text-left">Total</th><td className="py-1 text-right font-semibold">{money(costs.totalCents, currency)}</td></tr>
+      </tbody>
+    </table>
+  );
+}

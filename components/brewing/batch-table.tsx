@@ -1,0 +1,68 @@
+'use client';
+
+import Link from 'next/link';
+import { createColumnHelper } from '@tanstack/react-table';
+import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
+import type { UnitSystem } from '@/lib/units';
+import { StatusBadge, VerdictBadge } from './badges';
+import { dateText, perUnit, vol } from './format';
+
+export interface BatchTableRow {
+  id: number;
+  number: number;
+  status: string;
+  batchDate: string;
+  oilLiters: number;
+  releasedLiters: number | null;
+  costPerGallonCents: number | null;
+  costPerLiterCents: number | null;
+  qualityStandard: string;
+  qualityVerdict: string;
+  screeningVerdict: string;
+}
+
+const col = createColumnHelper<Features, BatchTableRow>();
+
+/** The batch list: number, date, status, volume released, cost per gallon/litre, quality. */
+export function BatchTable({ rows, slug, units, currency, pageInfo }: { rows: BatchTableRow[]; slug: string; units: UnitSystem; currency: string; pageInfo: PageInfo }) {
+  const columns: DataColumn<BatchTableRow>[] = [
+    col.accessor('number', {
+      id: 'number',
+      header: 'Batch',
+      cell: (c) => <Link className="font-semibold" href={`/c/${slug}/batches/${c.row.original.id}`}>Batch {c.getValue()}</Link>,
+    }),
+    col.accessor('batchDate', { id: 'date', header: 'Date', cell: (c) => dateText(c.getValue()) }),
+    col.accessor('status', { id: 'status', header: 'Status', cell: (c) => <StatusBadge status={c.getValue()} /> }),
+    col.accessor('releasedLiters', {
+      id: 'volume',
+      header: 'Released',
+      cell: (c) => (c.getValue() == null ? <span className="text-stone-600">— ({vol(c.row.original.oilLiters, units)} oil)</span> : vol(c.getValue(), units)),
+    }),
+    col.accessor('costPerGallonCents', {
+      id: 'costPerGallon',
+      header: units === 'us' ? 'Cost per gal' : 'Cost per L',
+      cell: (c) => perUnit(c.row.original.costPerGallonCents, c.row.original.costPerLiterCents, units, currency),
+    }),
+    col.accessor('qualityVerdict', {
+      id: 'quality',
+      header: 'Quality',
+      cell: (c) => (
+        <span className="flex flex-wrap gap-1">
+          {c.getValue() !== 'incomplete' ? <VerdictBadge verdict={c.getValue()} prefix={c.row.original.qualityStandard} /> : null}
+          <VerdictBadge verdict={c.row.original.screeningVerdict === 'incomplete' ? 'not tested' : c.row.original.screeningVerdict} prefix="Quick tests" />
+        </span>
+      ),
+    }),
+  ];
+  return (
+    <DataTable
+      columns={columns}
+      data={rows}
+      caption="Batches"
+      sortable={['number', 'date', 'status', 'volume', 'costPerGallon']}
+      pageInfo={pageInfo}
+      getRowId={(r) => String(r.id)}
+      empty="No batches match this filter."
+    />
+  );
+}

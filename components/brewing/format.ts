@@ -1,0 +1,49 @@
+// Display helpers for the brewing screens (pure: safe in server and client components).
+import { formatCents } from '@/lib/money';
+import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
+
+export const STATUS_LABELS: Record<string, string> = {
+  planned: 'Planned', reacting: 'Reacting', settling: 'Settling', draining: 'Draining', washing: 'Washing', drying: 'Drying',
+  testing: 'Testing', released: 'Released', rejected: 'Rejected', 'in-progress': 'In progress',
+};
+
+export const STEP_ORDER = ['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing'] as const;
+
+/** Badge colours (WCAG AA text on tinted backgrounds from the palette). */
+export function statusTone(status: string): string {
+  if (status === 'released') return 'bg-ok-50 text-ok-700 border-ok-600/30';
+  if (status === 'rejected') return 'bg-danger-50 text-danger-700 border-danger-600/30';
+  if (status === 'planned') return 'bg-stone-100 text-stone-800 border-stone-300';
+  return 'bg-amber-50 text-amber-800 border-amber-300';
+}
+
+export function verdictTone(v: string): string {
+  if (v === 'pass' || v === 'looks-good') return 'bg-ok-50 text-ok-700 border-ok-600/30';
+  if (v === 'fail' || v === 'needs-attention') return 'bg-danger-50 text-danger-700 border-danger-600/30';
+  return 'bg-stone-100 text-stone-800 border-stone-300';
+}
+
+export const VERDICT_LABELS: Record<string, string> = {
+  pass: 'Pass', fail: 'Fail', incomplete: 'No lab results', 'not tested': 'Not tested', reported: 'Reported',
+  'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded',
+};
+
+export const vol = (liters: number | null | undefined, units: UnitSystem, digits = 1) => (liters == null ? '—' : formatVolume(liters, units, digits));
+export const money = (cents: number | null | undefined, currency = 'USD') => (cents == null ? '—' : formatCents(cents, currency));
+
+/** Cost per gallon (US co-ops) or per litre (metric co-ops), e.g. "$2.30/gal". */
+export function perUnit(perGallonCents: number | null, perLiterCents: number | null, units: UnitSystem, currency = 'USD'): string {
+  const cents = units === 'us' ? perGallonCents : perLiterCents;
+  return cents == null ? '—' : `${formatCents(cents, currency)}/${volumeLabel(units)}`;
+}
+
+export function grams(g: number | null | undefined): string {
+  if (g == null) return '—';
+  return g >= 1000 ? `${(g / 1000).toLocaleString('en-US', { maximumFractionDigits: 3 })} kg` : `${g.toLocaleString('en-US', { maximumFractionDigits: 1 })} g`;
+}
+
+export function dateText(iso: string | null | undefined): string {
+  if (!iso) return '—';
+  const d = iso.length === 10 ? new Date(`${iso}T12:00:00Z`) : new Date(iso);
+  return new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', timeZone: iso.length === 10 ? 'UTC' : undefined }).format(d);
+}

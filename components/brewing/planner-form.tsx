@@ -1,0 +1,232 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useEffect, useRef, useState } from 'react';
+import { Button } from '@/components/ui/button';
+import { FieldErrors, SelectField, TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { sendJson } from '@/components/forms/use-api-form';
+import { volumeLabel, type UnitSystem } from '@/lib/units';
+import { grams, money, perUnit, vol } from './format';
+
+export interface PlannerOilLot { id: number; label: string; remainingLiters: number; titrationMl: number | null; titrant: string | null }
+interface Recipe { catalyst: 'KOH' | 'NaOH'; baseGramsPerLiter: number | null; purityPct: number | null; methanolPct: number | null }
+
+/** What the planner route answers (see lib/batches/planner.ts). */
+interface PlannerResult {
+  plan: {
+    oilLiters: number; catalyst: string; purityPct: number; puritySource: string; baseGramsPerLiter: number; baseSource: string;
+    titration: { averageMl: number; trials: number[]; outlierIndexes: number[]; source: string; titrant: string };
+    catalystResult: { gramsPerLiter: number; totalGrams: number; rule: string; explanation: string };
+    methanol: { mode: string; pct: number | null; molarRatio: number | null; liters: number; equivalentPct: number; equivalentMolarRatio: number };
+    oil: { acidNumber: number; ffaPercent: number; band: string; needsAcidPretreatment: boolean; reject: boolean; message: string };
+    yields: { fuelLiters: number; glycerolLiters: number };
+  };
+  coverage: { kind: string; unit: 'L' | 'g'; needed: number; available: number; covered: boolean; shortBy: number; projectedCents: number }[];
+  projected: { methanolCents: number; catalystCents: number; energyCents: number; energySource: string; feedstockCents: number; totalCents: number; costPerGallonCents: number | null; costPerLiterCents: number | null; incomplete: boolean };
+  notes: string[];
+}
+
+const PURITY_SOURCE: Record<string, string> = { typed: 'as typed', 'next-lot': 'from the lot in stock that is used next', recipe: 'from the co-op’s recipe', typical: 'typical for flake (common practice)' };
+const TRIALS = ['trial1', 'trial2', 'trial3', 'trial4'];
+const ENERGY = ['tariffCentsPerKwh', 'heaterKw', 'heaterHours'];
+
+/**
+ * The batch planner: inputs on the left, the computed figures beside them (recomputed by the
+ * planner route as you type), then "Create batch" to start a batch record in status planned.
+ */
+export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: string; units: UnitSystem; currency: string; recipe: Recipe; oilLots: PlannerOilLot[] }) {
+  const router = useRouter();
+  const formRef = useRef<HTMLFormElement>(null);
+  const [result, setResult] = useState<PlannerResult | null>(null);
+  const [errors, setErrors] = useState<Record<string, string[]>>({});
+  const [message, setMessage] = useState<string | null>(null);
+  const [computing, setComputing] = useState(false);
+  const [creating, setCreating] = useState(false);
+  const [mode, setMode] = useState<'percent' | 'molar-ratio'>('percent');
+  const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
+  const seq = useRef(0);
+
+  function body(forCreate: boolean): Record<string, unknown> {
+    const d = new FormData(formRef.current!);
+    const s = (k: string) => String(d.get(k) ?? '').trim();
+    const out: Record<string, unknown> = {};
+    for (const k of ['oilVolume', 'oilLotId', 'catalyst', 'baseGramsPerLiter', 'purityPct', 'titrantFrom', 'titrationBlankMl', 'methanolMode', ...(forCreate ? [] : ENERGY)]) {
+      if (s(k) !== '') out[k] = s(k);
+    }
+    if (mode === 'percent' && s('methanolPct')) out.methanolPct = s('methanolPct');
+    if (mode === 'molar-ratio' && s('molarRatio')) out.molarRatio = s('molarRatio');
+    const trials = TRIALS.map(s).filter(Boolean);
+    if (trials.length) out.titrationTrials = trials;
+    return out;
+  }
+
+  async function compute() {
+    const b = body(false);
+    if (!b.oilVolume || (!b.titrationTrials && !b.oilLotId)) {
+      setResult(null);
+      return;
+    }
+    const mine = ++seq.current;
+    setComputing(true);
+    const r = await sendJson<PlannerResult>(`/api/coops/${slug}/planner`, 'POST', b);
+    if (mine !== seq.current) return;
+    setComputing(false);
+    if (r.ok) {
+      setResult(r.data);
+      setErrors({});
+      setMessage(null);
+    } else {
+      setErrors(r.fields);
+      setMessage(r.error);
+    }
+  }
+
+  function schedule() {
+    if (timer.current) clearTimeout(timer.current);
+    timer.current = setTimeout(compute, 450);
+  }
+  useEffect(() => () => { if (timer.current) clearTimeout(timer.current); }, []);
+
+  async function create() {
+    setCreating(true);
+    const r = await sendJson<{ id: number }>(`/api/coops/${slug}/batches`, 'POST', body(true));
+    setCreating(false);
+    if (r.ok) router.push(`/c/${slug}/batches/${r.data.id}`);
+    else {
+      setErrors(r.fields);
+      setMessage(r.error);
+    }
+  }
+
+  const v = volumeLabel(units);
+  const trialErrors = Object.entries(errors).filter(([k]) => k.startsWith('titrationTrials')).flatMap(([, e]) => e);
+  return (
+    <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1.1fr)]">
+      <form ref={formRef} noValidate onChange={schedule} onSubmit={(e) => { e.preventDefault(); compute(); }} className="flex min-w-0 flex-col gap-4 rounded-xl border border-stone-200 bg-white p-4 shadow-sm">
+        <h2>Oil and titration</h2>
+        <TextField label={`Oil volume (${v})`} name="oilVolume" inputMode="decimal" errors={errors.oilVolume} autoComplete="off" />
+        <div className="flex min-w-0 flex-col gap-1">
+          <label htmlFor="oilLotId" className="text-sm font-medium text-stone-800">Oil lot (optional)</label>
+          <select id="oilLotId" name="oilLotId" defaultValue="" aria-describedby={errors.oilLotId ? 'oilLotId-hint oilLotId-error' : 'oilLotId-hint'} aria-invalid={errors.oilLotId ? true : undefined}
+            className={`min-h-11 w-full min-w-0 rounded-lg border bg-white px-3 py-2 text-base ${errors.oilLotId ? 'border-danger-600' : 'border-stone-300'}`}>
+            <option value="">None</option>
+            {oilLots.map((o) => <option key={o.id} value={o.id}>{o.label}</option>)}
+          </select>
+          <p id="oilLotId-hint" className="text-xs text-stone-600">Its titration is used when you type no trials, and its cost counts as feedstock.</p>
+          <FieldErrors id="oilLotId-error" errors={errors.oilLotId} />
+        </div>
+        <fieldset>
+          <legend className="text-sm font-medium text-stone-800">Titration trials (mL of 1 g/L solution per mL of oil)</legend>
+          <div className="mt-1 grid grid-cols-2 gap-2 sm:grid-cols-4">
+            {TRIALS.map((t, i) => (
+              <div key={t} className="flex flex-col gap-1">
+                <label htmlFor={t} className="text-xs text-stone-700">Trial {i + 1}</label>
+                <input id={t} name={t} inputMode="decimal" autoComplete="off" aria-invalid={trialErrors.length ? true : undefined} aria-describedby={trialErrors.length ? 'trials-error' : undefined}
+                  className={`min-h-11 w-full rounded-lg border bg-white px-3 py-2 text-base ${trialErrors.length ? 'border-danger-600' : 'border-stone-300'}`} />
+              </div>
+            ))}
+          </div>
+          {trialErrors.length ? <p id="trials-error" role="alert" className="mt-1 text-sm font-medium text-danger-700">{trialErrors.join(' ')}</p> : null}
+        </fieldset>
+        <TextField label="Blank (mL, optional)" name="titrationBlankMl" inputMode="decimal" errors={errors.titrationBlankMl} hint="Titrant used by the alcohol alone." autoComplete="off" />
+
+        <h2 className="mt-2">Recipe</h2>
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
+          <SelectField label="Catalyst" name="catalyst" defaultValue={recipe.catalyst} errors={errors.catalyst}>
+            <option value="KOH">KOH (potassium hydroxide)</option>
+            <option value="NaOH">NaOH (sodium hydroxide)</option>
+          </SelectField>
+          <TextField label="Purity (%)" name="purityPct" inputMode="decimal" errors={errors.purityPct} placeholder={recipe.purityPct ? String(recipe.purityPct) : ''} hint="Leave empty to use the lot in stock." autoComplete="off" />
+          <TextField label="Base amount (g/L, pure)" name="baseGramsPerLiter" inputMode="decimal" errors={errors.baseGramsPerLiter} placeholder={recipe.baseGramsPerLiter ? String(recipe.baseGramsPerLiter) : ''} hint="Leave empty for the co-op’s recipe." autoComplete="off" />
+          <SelectField label="Titrant made from" name="titrantFrom" defaultValue="same-catalyst" errors={errors.titrantFrom}>
+            <option value="same-catalyst">The same catalyst</option>
+            <option value="pure-reagent">Pure reagent</option>
+          </SelectField>
+          <SelectField label="Methanol by" name="methanolMode" value={mode} onChange={(e) => setMode(e.target.value as 'percent' | 'molar-ratio')} errors={errors.methanolMode}>
+            <option value="percent">% of oil volume</option>
+            <option value="molar-ratio">Molar ratio</option>
+          </SelectField>
+          {mode === 'percent' ? (
+            <TextField key="pct" label="Methanol (% of oil)" name="methanolPct" inputMode="decimal" errors={errors.methanolPct} placeholder={String(recipe.methanolPct ?? 20)} autoComplete="off" />
+          ) : (
+            <TextField key="ratio" label="Molar ratio (methanol : oil)" name="molarRatio" inputMode="decimal" errors={errors.molarRatio} placeholder="6" autoComplete="off" />
+          )}
+        </div>
+        <details className="rounded-lg border border-stone-200 p-3">
+          <summary className="cursor-pointer text-sm font-semibold text-fir-800">Energy (optional, for the cost)</summary>
+          <div className="mt-3 grid gap-3 sm:grid-cols-3">
+            <TextField label="Tariff (¢/kWh)" name="tariffCentsPerKwh" inputMode="decimal" errors={errors.tariffCentsPerKwh} autoComplete="off" />
+            <TextField label="Heater (kW)" name="heaterKw" inputMode="decimal" errors={errors.heaterKw} autoComplete="off" />
+            <TextField label="Hours" name="heaterHours" inputMode="decimal" errors={errors.heaterHours} autoComplete="off" />
+          </div>
+        </details>
+        <div className="flex flex-wrap gap-3">
+          <Button type="submit" variant="secondary" disabled={computing}>{computing ? 'Working it out…' : 'Work it out'}</Button>
+          <Button type="button" disabled={!result || creating} onClick={create}>{creating ? 'Creating…' : 'Create batch'}</Button>
+        </div>
+      </form>
+
+      <section aria-live="polite" aria-label="Plan" className="flex min-w-0 flex-col gap-4">
+        {message ? <Notice tone="danger">{message}</Notice> : null}
+        {!result ? (
+          <div className="rounded-xl border border-dashed border-stone-300 bg-white p-6 text-sm text-stone-600">
+            Type the oil volume and at least one titration trial (or choose an oil lot with a titration): the catalyst, methanol, stock check and cost appear here.
+          </div>
+        ) : <PlanResult r={result} units={units} currency={currency} />}
+      </section>
+    </div>
+  );
+}
+
+function Big({ label, value, sub }: { label: string; value: string; sub?: string }) {
+  return (
+    <div className="rounded-lg border border-stone-200 bg-white p-3 shadow-sm">
+      <p className="text-xs uppercase tracking-wide text-stone-600">{label}</p>
+      <p className="text-2xl font-bold text-fir-900">{value}</p>
+      {sub ? <p className="text-xs text-stone-700">{sub}</p> : null}
+    </div>
+  );
+}
+
+function PlanResult({ r, units, currency }: { r: PlannerResult; units: UnitSystem; currency: string }) {
+  const { plan, coverage, projected } = r;
+  return (
+    <>
+      <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
+        <Big label={`${plan.catalyst} to weigh`} value={grams(plan.catalystResult.totalGrams)} sub={`${plan.catalystResult.gramsPerLiter.toFixed(2)} g/L · purity ${plan.purityPct} % ${PURITY_SOURCE[plan.puritySource] ?? ''}`} />
+        <Big label="Methanol" value={vol(plan.methanol.liters, units, 2)} sub={plan.methanol.mode === 'percent' ? `${plan.methanol.pct} % of the oil ≈ ${plan.methanol.equivalentMolarRatio.toFixed(1)}:1 molar` : `${plan.methanol.molarRatio}:1 molar = ${plan.methanol.equivalentPct.toFixed(1)} % of the oil`} />
+      </div>
+      <p className="text-sm text-stone-700"><span className="font-semibold">Rule applied:</span> {plan.catalystResult.explanation}</p>
+      <div className="rounded-lg border border-stone-200 bg-white p-3 text-sm">
+        <p>Titration average <strong>{plan.titration.averageMl.toFixed(2)} mL</strong> ({plan.titration.source === 'oil-lot' ? 'from the oil lot' : `${plan.titration.trials.length} trial${plan.titration.trials.length === 1 ? '' : 's'}`}, {plan.titration.titrant} titrant).</p>
+        <p>Acid number <strong>{plan.oil.acidNumber.toFixed(2)} mg KOH/g</strong>, free fatty acids <strong>{plan.oil.ffaPercent.toFixed(2)} %</strong> as oleic acid.</p>
+        {plan.titration.outlierIndexes.length ? <p className="mt-1 text-warn-700">Trial {plan.titration.outlierIndexes.map((i) => i + 1).join(' and ')} differs from the others: titrate again before relying on the average.</p> : null}
+      </div>
+      <Notice tone={plan.oil.needsAcidPretreatment ? 'warn' : 'info'} title={plan.oil.needsAcidPretreatment ? 'Acid pre-treatment advised' : undefined}>{plan.oil.message}</Notice>
+
+      <div className="overflow-x-auto rounded-lg border border-stone-200 bg-white">
+        <table className="w-full min-w-[28rem] text-left text-sm">
+          <caption className="px-3 pt-2 text-left font-semibold text-fir-900">Stock</caption>
+          <thead className="text-xs uppercase tracking-wide text-stone-700"><tr><th scope="col" className="px-3 py-1">Chemical</th><th scope="col" className="px-3 py-1">Needed</th><th scope="col" className="px-3 py-1">Available</th><th scope="col" className="px-3 py-1">At lot prices</th></tr></thead>
+          <tbody>
+            {coverage.map((c) => (
+              <tr key={c.kind} className="border-t border-stone-100">
+                <th scope="row" className="px-3 py-1.5">{c.kind}</th>
+                <td className="px-3 py-1.5">{c.unit === 'L' ? vol(c.needed, units, 2) : grams(c.needed)}</td>
+                <td className={`px-3 py-1.5 ${c.covered ? '' : 'font-semibold text-danger-700'}`}>{c.unit === 'L' ? vol(c.available, units, 2) : grams(c.available)}{c.covered ? '' : ` — short by ${c.unit === 'L' ? vol(c.shortBy, units, 2) : grams(c.shortBy)}`}</td>
+                <td className="px-3 py-1.5">{money(c.projectedCents, currency)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+
+      <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
+        <Big label={`Projected cost per ${units === 'us' ? 'gallon' : 'litre'}`} value={perUnit(projected.costPerGallonCents, projected.costPerLiterCents, units, currency)} sub={`${money(projected.totalCents, currency)} for the batch: methanol ${money(projected.methanolCents, currency)}, catalyst ${money(projected.catalystCents, currency)}, energy ${money(projected.energyCents, currency)}, feedstock ${money(projected.feedstockCents, currency)}`} />
+        <Big label="Expected" value={`${vol(plan.yields.fuelLiters, units)} fuel`} sub={`and about ${vol(plan.yields.glycerolLiters, units)} of glycerol, before washing losses`} />
+      </div>
+      {r.notes.length ? <ul className="list-disc pl-5 text-sm text-stone-700">{r.notes.map((n) => <li key={n}>{n}</li>)}</ul> : null}
+    </>
+  );
+}

@@ -1,0 +1,69 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { Button } from '@/components/ui/button';
+import { FieldErrors, SelectField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+
+/** Uploads one file (multipart) with optional purpose; the server checks its type from its content. */
+export function UploadForm({ url, accept, label, purposes, id = 'file' }: {
+  url: string; accept: string; label: string; purposes?: { value: string; label: string }[]; id?: string;
+}) {
+  const router = useRouter();
+  const [busy, setBusy] = useState(false);
+  const [errors, setErrors] = useState<Record<string, string[]>>({});
+  const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
+
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    const data = new FormData(form);
+    const file = data.get('file');
+    if (!(file instanceof File) || file.size === 0) {
+      setErrors({ file: ['Choose a file to upload.'] });
+      return;
+    }
+    setBusy(true);
+    setMessage(null);
+    try {
+      const res = await fetch(url, { method: 'POST', body: data });
+      const body = await res.json().catch(() => ({}));
+      if (res.ok) {
+        setErrors({});
+        setMessage({ tone: 'ok', text: 'Uploaded.' });
+        form.reset();
+        router.refresh();
+      } else {
+        setErrors(body.fields ?? {});
+        setMessage({ tone: 'danger', text: body.error ?? `Upload failed (${res.status}).` });
+      }
+    } catch {
+      setMessage({ tone: 'danger', text: 'Could not reach Tallyvat. Check your connection and try again.' });
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  const errId = `${id}-error`;
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2">
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+      <div className="flex flex-wrap items-end gap-3">
+        {purposes ? (
+          <SelectField label="Kind" name="purpose" id={`${id}-purpose`} defaultValue={purposes[0]?.value} errors={errors.purpose}>
+            {purposes.map((p) => <option key={p.value} value={p.value}>{p.label}</option>)}
+          </SelectField>
+        ) : null}
+        <div className="flex min-w-0 max-w-full flex-col gap-1">
+          <label htmlFor={id} className="text-sm font-medium text-stone-800">{label}</label>
+          <input id={id} name="file" type="file" accept={accept} aria-describedby={errors.file?.length ? errId : undefined}
+            className="min-h-11 w-full min-w-0 max-w-full rounded-lg border border-stone-300 bg-white px-2 py-2 text-sm" />
+        </div>
+        <Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Uploading…' : 'Upload'}</Button>
+      </div>
+      <FieldErrors id={errId} errors={errors.file} />
+      <p className="text-xs text-stone-600">Up to 10 MB. The type is checked from the file itself.</p>
+    </form>
+  );
+}

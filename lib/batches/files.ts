@@ -1,0 +1,56 @@
+import 'server-only';
+import { QueryTypes } from 'sequelize';
+import { audit } from '@/lib/audit';
+import type { Actor } from '@/lib/auth';
+import { HttpError, notFound } from '@/lib/http';
+import { deleteFile, getFile, putFile, type StoredKind } from '@/lib/storage';
+import { BatchFile, sequelize } from '@/models';
+import { loadBatchRow } from './records';
+import type { CheckedUpload } from './upload';
+
+/** Kinds a batch accepts (checked from content): photos as JPEG/PNG, lab reports also as PDF. */
+export const BATCH_FILE_KINDS: readonly StoredKind[] = ['pdf', 'jpeg', 'png'];
+
+/**
+ * Attaches a photo or lab report to a batch. The bytes are stored under a server-made name; the
+ * browser's file name is kept for display only. Documents may be added to any batch, including
+ * released ones (lab reports often arrive after the fuel is in the tank).
+ * @param actor brewer or admin
+ * @param batchId batch id (another co-op's → 404)
+ * @param upload checked upload; its `purpose` field must be 'photo' or 'lab-report'
+ */
+export async function addBatchFile(actor: Actor, batchId: number, upload: CheckedUpload) {
+  const purpose = upload.fields.purpose ?? 'lab-report';
+  if (purpose !== 'photo' && purpose !== 'lab-report') {
+    throw new HttpError(422, 'Some fields need attention.', { purpose: ['Choose photo or lab report.'] });
+  }
+  await loadBatchRow(actor.coop.id, batchId);
+  const key = await putFile(actor.coop.id, upload.kind, upload.bytes);
+  try {
+    return await sequelize.transaction(async (t) => {
+      await loadBatchRow(actor.coop.id, batchId, t, true);
+      const file = await BatchFile.create(
+        { coopId: actor.coop.id, batchId, purpose, fileKind: upload.kind, storageKey: key, originalName: upload.name, sizeBytes: upload.bytes.length, uploadedByUserId: actor.user.id },
+        { transaction: t },
+      );
+      const dto = { id: file.id, purpose, kind: upload.kind, name: upload.name, sizeBytes: upload.bytes.length, createdAt: file.createdAt.toISOString() };
+      await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'batch.file', entityType: 'batch', entityId: batchId, after: dto }, t);
+      return dto;
+    });
+  } catch (e) {
+    await deleteFile(actor.coop.id, key);
+    throw e;
+  }
+}
+
+/** A batch file's bytes; the file must belong to that batch of the actor's co-op (404 otherwise). */
+export async function getBatchFile(actor: Actor, batchId: number, fileId: number): Promise<{ bytes: Buffer; kind: StoredKind; name: string }> {
+  if (!Number.isSafeInteger(fileId) || fileId <= 0 || !Number.isSafeInteger(batchId) || batchId <= 0) throw notFound('File not found.');
+  const [row] = await sequelize.query<{ storage_key: string; file_kind: StoredKind; original_name: string }>(
+    `SELECT f.storage_key, f.file_kind, f.original_name FROM batch_files f
+      WHERE f.id = :fileId AND f.batch_id = :batchId AND f.coop_id = :coopId`,
+    { replacements: { fileId, batchId, coopId: actor.coop.id }, type: QueryTypes.SELECT },
+  );
+  if (!row) throw notFound('File not found.');
+  return { bytes: await getFile(actor.coop.id, row.storage_key), kind: row.file_kind, name: row.original_name };
+}
