@@ -28,7 +28,7 @@ export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coo
     const r = await sendJson<{ status: string }>(`/api/coops/${coop}/invoices/${invoiceId}/pay`, 'POST', { card });
     setBusy(false);
     if (r.ok) {
-      setResult({ tone: 'ok', text: 'Payment received — thank you. A receipt is on this page.' });
+      setResult({ tone: 'ok', text: 'Payment received — thank you.' });
       router.refresh();
       return;
     }

@@ -30,6 +30,16 @@ export function PeriodProgress({ coop, period, initial, currency }: { coop: stri
   const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
   const moving = Boolean(data && (data.run?.status === 'running' || data.email.queued + data.email.sending > 0));
   const wasMoving = useRef(moving);
+  // A server refresh (after closing, voiding, recording…) re-renders this widget with newer
+  // figures: take them, then check again. (Not on mount: SWR fetches by itself then.)
+  const mounted = useRef(false);
+  useEffect(() => {
+    if (!mounted.current) {
+      mounted.current = true;
+      return;
+    }
+    void mutate(initial, { revalidate: true });
+  }, [initial, mutate]);
   useEffect(() => {
     if (wasMoving.current && !moving) router.refresh();
     wasMoving.current = moving;

@@ -119,7 +119,7 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
   if (isCredit) {
     doc.text('This credit note cancels the invoice named above. Anything you had paid on it is held as credit on your account and applied to your next invoice, or refunded on request.', { width });
   } else {
-    doc.text(`By card: sign in and open ${appUrl(`/c/${coop.slug}/invoices/${inv.id}`)} , then choose “Pay by card”.`, { width });
+    doc.text(`By card: sign in at ${appUrl(`/c/${coop.slug}/invoices/${inv.id}`)} and choose “Pay by card”.`, { width });
     doc.text(`By cash or cheque: hand it to the co-op's treasurer, or make the cheque payable to ${coop.name}, and write ${inv.label ?? 'the invoice number'} on it.`, { width });
     doc.text('Credit on your account (for example from an earlier overpayment) has already been deducted above.', { width });
   }

@@ -64,7 +64,7 @@ export default async function BillingMonthPage({ params, searchParams }: { param
 
       <section aria-labelledby="recon-h" className="flex flex-col gap-4">
         <h2 id="recon-h">Reconciliation</h2>
-        <div className="grid gap-4 md:grid-cols-2">
+        <div className="grid gap-4 *:min-w-0 md:grid-cols-2">
           <Card title="Invoices of the month">
             <dl className="grid grid-cols-2 gap-y-1 text-sm">
               <dt>Invoiced ({recon.invoices.issuedCount})</dt><dd className="text-right tabular-nums">{money(recon.invoices.invoicedCents)}</dd>
@@ -76,7 +76,9 @@ export default async function BillingMonthPage({ params, searchParams }: { param
           <Card title="Money received this month">
             <dl className="grid grid-cols-2 gap-y-1 text-sm">
               <dt>Received</dt><dd className="text-right font-semibold tabular-nums">{money(recon.payments.receivedCents)}</dd>
-              <dt className="pl-3 text-stone-600">card · cash · cheque</dt><dd className="text-right text-stone-600 tabular-nums">{money(recon.payments.byMethod.card)} · {money(recon.payments.byMethod.cash)} · {money(recon.payments.byMethod.cheque)}</dd>
+              <dt className="pl-3 text-stone-600">by card</dt><dd className="text-right text-stone-600 tabular-nums">{money(recon.payments.byMethod.card)}</dd>
+              <dt className="pl-3 text-stone-600">in cash</dt><dd className="text-right text-stone-600 tabular-nums">{money(recon.payments.byMethod.cash)}</dd>
+              <dt className="pl-3 text-stone-600">by cheque</dt><dd className="text-right text-stone-600 tabular-nums">{money(recon.payments.byMethod.cheque)}</dd>
               <dt>Applied to invoices</dt><dd className="text-right tabular-nums">{money(recon.payments.appliedCents)}</dd>
               <dt className="pl-3 text-stone-600">of which to other months</dt><dd className="text-right text-stone-600 tabular-nums">{money(recon.payments.appliedElsewhereCents)}</dd>
               <dt>Held as member credit</dt><dd className="text-right tabular-nums">{money(recon.payments.creditedCents)}</dd>

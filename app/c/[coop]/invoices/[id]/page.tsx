@@ -28,7 +28,7 @@ export default async function MyInvoicePage({ params }: { params: Promise<{ coop
     <div className="flex flex-col gap-6">
       <Link href={`/c/${coop}/invoices`} className="text-sm">← My invoices</Link>
       <InvoiceSummaryView inv={inv} coop={actor.coop} />
-      <div className="grid gap-4 lg:grid-cols-2">
+      <div className="grid gap-4 *:min-w-0 lg:grid-cols-2">
         <Card title={payable ? 'Pay this invoice' : inv.status === 'paid' ? 'Paid' : 'Payment'}>
           {payable && inv.pendingAttempt ? (
             <Notice tone="warn" title="A card payment is on its way">We are waiting for the payment service to confirm your payment from {formatDateIn(inv.pendingAttempt.createdAt, actor.coop.timezone)}. Reload this page in a minute; if it has not gone through you can try again without being charged twice.</Notice>

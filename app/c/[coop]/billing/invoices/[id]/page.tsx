@@ -33,7 +33,7 @@ export default async function BillingInvoicePage({ params }: { params: Promise<{
       {inv.periodClosed ? <Notice title="This month is closed">This invoice can no longer be changed or voided. Correct it with an adjustment on the member’s next invoice.</Notice> : null}
       {inv.pendingAttempt ? <Notice tone="warn">A card payment started {formatDateIn(inv.pendingAttempt.createdAt, actor.coop.timezone)} is waiting for the payment service.</Notice> : null}
 
-      <div className="grid gap-4 lg:grid-cols-2">
+      <div className="grid gap-4 *:min-w-0 lg:grid-cols-2">
         <Card title="Document">
           <div className="flex flex-col gap-3 text-sm">
             <a className="font-semibold" href={`/api/coops/${coop}/billing/invoices/${inv.id}/pdf`}>Download PDF</a>
