@@ -18,10 +18,19 @@ export function dateToPeriod(date: string | Date): string {
   return s.slice(0, 7);
 }
 
+// Intl formatters are costly to build; keep one per option set (PDFs format dozens of dates).
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function dateFormat(locale: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
+  const key = `${locale}|${JSON.stringify(options)}`;
+  let f = formatters.get(key);
+  if (!f) formatters.set(key, (f = new Intl.DateTimeFormat(locale, options)));
+  return f;
+}
+
 /** 'November 2026'. */
 export function periodLabel(period: string): string {
   const [y, m] = period.split('-').map(Number) as [number, number];
-  return new Intl.DateTimeFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(Date.UTC(y, m - 1, 1)));
+  return dateFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(Date.UTC(y, m - 1, 1)));
 }
 
 /** The month after (or before, with a negative step). */
@@ -33,7 +42,7 @@ export function shiftPeriod(period: string, months: number): string {
 
 /** Today's date 'YYYY-MM-DD' in a time zone. */
 export function todayIn(timeZone: string, now = new Date()): string {
-  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
+  const parts = dateFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
   const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
   return `${get('year')}-${get('month')}-${get('day')}`;
 }
@@ -63,5 +72,5 @@ export function invoiceLabel(kind: 'invoice' | 'credit-note', number: number | n
 export function formatDateIn(value: string | Date, timeZone: string): string {
   const d = typeof value === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(value) ? new Date(`${value}T12:00:00Z`) : new Date(value);
   const tz = typeof value === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(value) ? 'UTC' : timeZone;
-  return new Intl.DateTimeFormat('en-US', { dateStyle: 'medium', timeZone: tz }).format(d);
+  return dateFormat('en-US', { dateStyle: 'medium', timeZone: tz }).format(d);
 }
