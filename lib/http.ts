@@ -81,7 +81,12 @@ export function handler<P = Record<string, string>>(fn: (req: Request, params: P
   };
 }
 
+/** SQLSTATE raised by the database's lock triggers (e.g. a closed billing month). */
+const LOCKED_SQLSTATE = 'TV409';
+
 export function errorResponse(e: unknown): Response {
+  const db = (e as { original?: { code?: string; message?: string } } | null)?.original;
+  if (db?.code === LOCKED_SQLSTATE) return Response.json({ error: db.message, code: 'locked' }, { status: 409 });
   if (e instanceof HttpError) {
     return Response.json({ error: e.message, ...(e.fields ? { fields: e.fields } : {}), ...(e.extra ?? {}) }, { status: e.status });
   }

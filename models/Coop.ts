@@ -16,8 +16,6 @@ export interface CoopSettings {
   /** Fuel-quality standard batches are judged against. */
   qualityStandard?: 'ASTM D6751' | 'EN 14214';
   monthlyDuesCents?: number;
-  /** Fuel standard batch quality is compared with (default ASTM D6751). */
-  qualityStandard?: 'ASTM D6751' | 'EN 14214';
 }
 
 export class Coop extends Model<InferAttributes<Coop>, InferCreationAttributes<Coop>> {

@@ -23,6 +23,17 @@ import { BatchTemperature } from './BatchTemperature';
 import { ChemicalConsumption } from './ChemicalConsumption';
 import { ChemicalLot } from './ChemicalLot';
 import { OilLot } from './OilLot';
+// Billing
+import { BillingAdjustment } from './BillingAdjustment';
+import { BillingPeriod } from './BillingPeriod';
+import { BillingRun } from './BillingRun';
+import { Invoice } from './Invoice';
+import { InvoiceLine } from './InvoiceLine';
+import { MemberCredit } from './MemberCredit';
+import { Payment } from './Payment';
+import { PaymentAttempt } from './PaymentAttempt';
+import { PaymentWebhookEvent } from './PaymentWebhookEvent';
+import { Refund } from './Refund';
 
 // Explicit wiring: every model is initialised here, once, and associations are declared in one place.
 Coop.initModel(sequelize);
@@ -69,7 +80,16 @@ Batch.hasMany(BatchOilLot, { foreignKey: 'batchId', as: 'oilLots' });
 Batch.hasMany(ChemicalConsumption, { foreignKey: 'batchId', as: 'consumptions' });
 Batch.hasMany(BatchFile, { foreignKey: 'batchId', as: 'files' });
 
+// Billing: invoices, lines, payments, refunds, credit, adjustments, runs, months, provider events.
+for (const m of [BillingPeriod, BillingRun, BillingAdjustment, Invoice, InvoiceLine, PaymentAttempt, Payment, Refund, MemberCredit, PaymentWebhookEvent]) m.initModel(sequelize);
+Invoice.hasMany(InvoiceLine, { foreignKey: 'invoiceId', as: 'lines' });
+InvoiceLine.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
+Invoice.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
+Payment.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
+Payment.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
+Refund.belongsTo(Payment, { foreignKey: 'paymentId', as: 'payment' });
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
 export { Batch, BatchFile, BatchOilLot, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot };
+export { BillingAdjustment, BillingPeriod, BillingRun, Invoice, InvoiceLine, MemberCredit, Payment, PaymentAttempt, PaymentWebhookEvent, Refund };

@@ -82,7 +82,13 @@ try {
 
   const mail = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_UI_PORT, log });
   cleanups.push(mail.stop);
-  const pay = await startPaymentsFake({ port: PAYMENTS_PORT, log });
+  // The fake signs its webhook events with this secret and the app verifies them with it.
+  const webhookSecretFile = path.join(DATA, 'stripe-webhook-secret');
+  if (!process.env.STRIPE_WEBHOOK_SECRET && !fs.existsSync(webhookSecretFile)) {
+    fs.writeFileSync(webhookSecretFile, `whsec_${crypto.randomBytes(24).toString('base64url')}`, { mode: 0o600 });
+  }
+  const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET ?? fs.readFileSync(webhookSecretFile, 'utf8').trim();
+  const pay = await startPaymentsFake({ port: PAYMENTS_PORT, webhookUrl: `http://127.0.0.1:${PORT}/api/payments/webhook`, webhookSecret, log });
   cleanups.push(pay.stop);
 
   const secretFile = path.join(DATA, 'nextauth-secret');
@@ -104,6 +110,7 @@ try {
     STRIPE_API_HOST: '127.0.0.1',
     STRIPE_API_PORT: String(PAYMENTS_PORT),
     STRIPE_API_PROTOCOL: 'http',
+    STRIPE_WEBHOOK_SECRET: webhookSecret,
     STORAGE_DIR: process.env.STORAGE_DIR ?? path.join(DATA, 'uploads'),
   };
 

@@ -9,6 +9,7 @@ export const NAV_ITEMS: { href: string; label: string; action: Action }[] = [
   { href: '/batches', label: 'Batches', action: 'batches:read-released' },
   { href: '/planner', label: 'Planner', action: 'batches:write' },
   { href: '/supplies', label: 'Supplies', action: 'supplies:read' },
+  { href: '/invoices', label: 'My invoices', action: 'invoices:own' },
   { href: '/billing', label: 'Billing', action: 'billing:manage' },
   { href: '/reports', label: 'Reports', action: 'reports:read' },
   { href: '/members', label: 'Members', action: 'members:manage' },

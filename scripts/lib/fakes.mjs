@@ -102,20 +102,139 @@ function linkify(s) {
 
 /**
  * Starts the payments fake on port. stripe-stateful-mock answers the Stripe API (customers,
- * charges, refunds); its last route is a catch-all 404, so our own routes go on an outer
- * express app in front of it.
+ * charges, refunds; no payment intents or checkout); its last route is a catch-all 404, so our
+ * own routes go on an outer express app in front of it. The outer app adds what Tallyvat needs:
+ *
+ *  - webhooks: after a successful charge (charge.succeeded), a declined one (charge.failed) or a
+ *    refund (charge.refunded) it POSTs a signed event, like the real service, to webhookUrl
+ *    (signature scheme of the SDK's generateTestHeaderString with webhookSecret), retrying a few
+ *    times while the app is not up. Idempotent replays send no new event.
+ *  - test controls under /__fake (loopback only, never part of the real API):
+ *      POST /__fake/outage {down: true, mode: '503' | 'lose-response'} / {down: false}
+ *           '503': every /v1 call answers 503 before reaching the mock (nothing happens);
+ *           'lose-response': the call is processed (the card IS charged) but the connection is
+ *           dropped before the answer, as when a network fails mid-request.
+ *      POST /__fake/webhooks {hold: true|false}   hold events instead of delivering (false delivers the held ones)
+ *      GET  /__fake/webhooks/held                  held events: [{id, type, payload, signature}]
+ *      DELETE /__fake/webhooks/held                forget held events
+ *      GET  /__fake/charges                        charges actually created: [{id, amount, status, metadata, idempotencyKey}]
+ *      GET  /__fake/deliveries                     webhook deliveries: [{id, type, status}]
  */
-export async function startPaymentsFake({ port, log = console.log }) {
+export async function startPaymentsFake({ port, webhookUrl = null, webhookSecret = null, log = console.log }) {
   process.env.LOG_LEVEL ??= 'silent';
   const express = require('express');
   const { createExpressApp } = require('stripe-stateful-mock');
+  const { charges: mockCharges } = require('stripe-stateful-mock/dist/api/charges');
+  const StripeSdk = require('stripe');
+  const Stripe = StripeSdk.default ?? StripeSdk;
+  const signer = new Stripe('sk_test_fake_signer', { telemetry: false });
+  const state = { outage: null, hold: false, held: [], deliveries: [], charges: [] };
+  const rand = (n) => Array.from({ length: n }, () => 'abcdefghijklmnopqrstuvwxyz0123456789'[Math.floor(Math.random() * 36)]).join('');
+
+  async function deliver(ev) {
+    const rec = { id: ev.id, type: ev.type, status: 'pending' };
+    state.deliveries.push(rec);
+    for (let i = 0; i < 6; i++) {
+      try {
+        const r = await fetch(webhookUrl, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': ev.signature }, body: ev.payload });
+        rec.status = r.status;
+        if (r.status < 500) return;
+      } catch {
+        rec.status = 'unreachable';
+      }
+      await new Promise((res) => setTimeout(res, 250 * 2 ** i));
+    }
+  }
+
+  function emit(type, object, idempotencyKey) {
+    if (!webhookUrl || !webhookSecret) return;
+    const event = {
+      id: `evt_${rand(24)}`, object: 'event', api_version: Stripe.API_VERSION ?? null, created: Math.floor(Date.now() / 1000),
+      data: { object: JSON.parse(JSON.stringify(object)) }, livemode: false, pending_webhooks: 1,
+      request: { id: `req_${rand(14)}`, idempotency_key: idempotencyKey ?? null }, type,
+    };
+    const payload = JSON.stringify(event, null, 2);
+    const ev = { id: event.id, type, payload, signature: signer.webhooks.generateTestHeaderString({ payload, secret: webhookSecret }) };
+    if (state.hold) state.held.push(ev);
+    else void deliver(ev);
+  }
+
+  function observe(req, status, body) {
+    const key = req.header('idempotency-key') ?? null;
+    if (req.method === 'POST' && req.path === '/v1/charges') {
+      if (status === 200 && body?.object === 'charge') {
+        state.charges.push({ id: body.id, amount: body.amount, status: body.status, metadata: body.metadata, idempotencyKey: key });
+        emit('charge.succeeded', body, key);
+      } else if (status === 402 && body?.error?.charge) {
+        let charge;
+        try {
+          charge = mockCharges.retrieve('acct_default', body.error.charge, 'id');
+        } catch {
+          charge = { id: body.error.charge, object: 'charge', status: 'failed', paid: false, amount: Number(req.body?.amount), currency: req.body?.currency, metadata: req.body?.metadata ?? {} };
+        }
+        emit('charge.failed', charge, key);
+      }
+    } else if (req.method === 'POST' && req.path === '/v1/refunds' && status === 200 && body?.object === 'refund') {
+      try {
+        emit('charge.refunded', mockCharges.retrieve('acct_default', body.charge, 'charge'), key);
+      } catch {
+        /* charge unknown: nothing to tell */
+      }
+    }
+  }
+
   const outer = express();
   outer.get('/__health', (_req, res) => res.json({ status: 'ok' }));
+  outer.use('/__fake', express.json());
+  outer.post('/__fake/outage', (req, res) => {
+    state.outage = req.body?.down ? (req.body.mode === 'lose-response' ? 'lose-response' : '503') : null;
+    res.json({ outage: state.outage });
+  });
+  outer.post('/__fake/webhooks', (req, res) => {
+    state.hold = Boolean(req.body?.hold);
+    if (!state.hold) for (const ev of state.held.splice(0)) void deliver(ev);
+    res.json({ hold: state.hold });
+  });
+  outer.get('/__fake/webhooks/held', (_req, res) => res.json(state.held));
+  outer.delete('/__fake/webhooks/held', (_req, res) => {
+    state.held.length = 0;
+    res.status(204).end();
+  });
+  outer.get('/__fake/charges', (_req, res) => res.json(state.charges));
+  outer.get('/__fake/deliveries', (_req, res) => res.json(state.deliveries));
+  outer.use('/v1', (_req, res, next) => {
+    if (state.outage !== '503') return next();
+    res.status(503).json({ error: { type: 'api_error', message: 'The payments service is unavailable (simulated outage).' } });
+  });
+  outer.use((req, res, next) => {
+    if (!req.path.startsWith('/v1/')) return next();
+    const send = res.send;
+    let seen = false;
+    res.send = function (body) {
+      if (seen) return send.call(this, body);
+      seen = true;
+      let parsed = body;
+      if (typeof body === 'string' || Buffer.isBuffer(body)) {
+        try {
+          parsed = JSON.parse(String(body));
+        } catch {
+          parsed = null;
+        }
+      }
+      if (res.get('idempotent-replayed') !== 'true') observe(req, res.statusCode, parsed);
+      if (state.outage === 'lose-response') {
+        req.socket.destroy();
+        return this;
+      }
+      return send.call(this, body);
+    };
+    next();
+  });
   outer.use(createExpressApp());
   const server = await new Promise((resolve, reject) => {
     const s = outer.listen(port, '127.0.0.1', () => resolve(s));
     s.once('error', reject);
   });
-  log(`Payments fake (Stripe API) on http://127.0.0.1:${port}`);
-  return { stop: () => new Promise((r) => server.close(r)) };
+  log(`Payments fake (Stripe API) on http://127.0.0.1:${port}${webhookUrl ? `, webhooks to ${webhookUrl}` : ''}`);
+  return { stop: () => new Promise((r) => { server.closeAllConnections?.(); server.close(r); }) };
 }

@@ -43,13 +43,13 @@ export default async function setup(project: TestProject) {
   const smtpPort = await freePort();
   const mailPort = await freePort();
   const paymentsPort = await freePort();
-  const mail = await startMailCatcher({ smtpPort, httpPort: mailPort, log: quiet });
-  stops.push(mail.stop);
-  const pay = await startPaymentsFake({ port: paymentsPort, log: quiet });
-  stops.push(pay.stop);
-
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
+  const mail = await startMailCatcher({ smtpPort, httpPort: mailPort, log: quiet });
+  stops.push(mail.stop);
+  const pay = await startPaymentsFake({ port: paymentsPort, webhookUrl: `${baseUrl}/api/payments/webhook`, webhookSecret: 'whsec_tallyvat_test', log: quiet });
+  stops.push(pay.stop);
+
   const storageDir = path.join(root, 'uploads');
   const env = {
     ...process.env,

@@ -1,0 +1,13 @@
+import { requireMember } from '@/lib/auth';
+import { getInvoiceDetail } from '@/lib/billing/invoices';
+import { idParam } from '@/lib/billing/params';
+import { invoiceFileName, renderInvoicePdf } from '@/lib/billing/pdf';
+import { handler } from '@/lib/http';
+import { pdfResponse } from '@/lib/pdf';
+
+/** GET: one of my invoices as a PDF download. */
+export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
+  const actor = await requireMember(coop, 'invoices:own');
+  const inv = await getInvoiceDetail(actor.coop.id, idParam(id), { membershipId: actor.membershipId, includeDrafts: false });
+  return pdfResponse(await renderInvoicePdf(inv, actor.coop), invoiceFileName(actor.coop.slug, inv));
+});

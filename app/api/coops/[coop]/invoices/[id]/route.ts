@@ -1,0 +1,10 @@
+import { requireMember } from '@/lib/auth';
+import { getInvoiceDetail } from '@/lib/billing/invoices';
+import { idParam } from '@/lib/billing/params';
+import { handler } from '@/lib/http';
+
+/** GET: one of my invoices (someone else's is a 404). */
+export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
+  const actor = await requireMember(coop, 'invoices:own');
+  return getInvoiceDetail(actor.coop.id, idParam(id), { membershipId: actor.membershipId, includeDrafts: false });
+});

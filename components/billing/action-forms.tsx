@@ -1,0 +1,234 @@
+'use client';
+
+import { useState } from 'react';
+import { useRouter } from 'next/navigation';
+import { Button } from '@/components/ui/button';
+import { SelectField, TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-form';
+import { formatCents } from '@/lib/money/format';
+
+/** Voids an issued invoice by a credit note; asks for the reason. */
+export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invoiceId: number; label: string }) {
+  const router = useRouter();
+  const { busy, fields, message, submit } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const out = await submit<{ creditNoteLabel: string }>(`/api/coops/${coop}/billing/invoices/${invoiceId}/void`, 'POST', { reason: formObject(e.currentTarget).reason ?? '' });
+    if (out) router.refresh();
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
+      <p className="text-sm text-stone-700">Voiding issues a credit note that cancels {label}. Its draws and adjustments can then be invoiced again; anything paid on it becomes the member’s credit.</p>
+      <TextField label="Reason" name="reason" required maxLength={240} errors={fields.reason} />
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+      <div><Button type="submit" variant="danger" disabled={busy}>{busy ? 'Voiding…' : `Void ${label}`}</Button></div>
+    </form>
+  );
+}
+
+/** Sends the invoice e-mail again, now. */
+export function ResendButton({ coop, invoiceId }: { coop: string; invoiceId: number }) {
+  const router = useRouter();
+  const { busy, message, submit } = useApiForm();
+  return (
+    <div className="flex flex-col gap-2">
+      <Button
+        variant="secondary"
+        disabled={busy}
+        onClick={async () => {
+          const out = await submit<{ emailStatus: string }>(`/api/coops/${coop}/billing/invoices/${invoiceId}/send`, 'POST', {});
+          if (out) router.refresh();
+        }}
+      >
+        {busy ? 'Sending…' : 'E-mail it again'}
+      </Button>
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+    </div>
+  );
+}
+
+export interface MemberOption { id: number; name: string }
+export interface OpenInvoiceOption { id: number; memberId: number; label: string; outstandingCents: number }
+
+/** Records cash or a cheque; the invoice is optional (without one the payment waits unmatched). */
+export function RecordPaymentForm({ coop, members, invoices, currency, today, fixed }: {
+  coop: string; members: MemberOption[]; invoices: OpenInvoiceOption[]; currency: string; today: string; fixed?: { memberId: number; invoiceId: number };
+}) {
+  const router = useRouter();
+  const { busy, fields, message, submit } = useApiForm();
+  const [memberId, setMemberId] = useState<number | null>(fixed?.memberId ?? null);
+  const mine = invoices.filter((i) => i.memberId === memberId);
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    const f = formObject(form);
+    const body: Record<string, unknown> = { memberId: f.memberId, method: f.method, amount: f.amount ?? '', receivedOn: f.receivedOn ?? '' };
+    if (f.invoiceId) body.invoiceId = f.invoiceId;
+    if (f.reference) body.reference = f.reference;
+    if (f.note) body.note = f.note;
+    const out = await submit(`/api/coops/${coop}/billing/payments`, 'POST', body, 'Payment recorded.');
+    if (out) {
+      form.reset();
+      setMemberId(fixed?.memberId ?? null);
+      router.refresh();
+    }
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="grid gap-4 sm:grid-cols-2">
+      {fixed ? (
+        <>
+          <input type="hidden" name="memberId" value={fixed.memberId} />
+          <input type="hidden" name="invoiceId" value={fixed.invoiceId} />
+        </>
+      ) : (
+        <>
+          <SelectField label="Member" name="memberId" required errors={fields.memberId} defaultValue="" onChange={(e) => setMemberId(e.target.value ? Number(e.target.value) : null)}>
+            <option value="">Choose a member…</option>
+            {members.map((m) => <option key={m.id} value={m.id}>{m.name}</option>)}
+          </SelectField>
+          <SelectField label="Apply to invoice" name="invoiceId" errors={fields.invoiceId} hint="Leave unmatched to decide later on the month’s reconciliation." defaultValue="">
+            <option value="">Not matched yet</option>
+            {mine.map((i) => <option key={i.id} value={i.id}>{i.label} — {formatCents(i.outstandingCents, currency)} due</option>)}
+          </SelectField>
+        </>
+      )}
+      <SelectField label="Method" name="method" defaultValue="cash" errors={fields.method}>
+        <option value="cash">Cash</option>
+        <option value="cheque">Cheque</option>
+      </SelectField>
+      <TextField label={`Amount (${currency})`} name="amount" inputMode="decimal" placeholder="0.00" required errors={fields.amount} />
+      <TextField label="Received on" name="receivedOn" type="date" max={today} defaultValue={today} required errors={fields.receivedOn} />
+      <TextField label="Reference (optional)" name="reference" maxLength={60} errors={fields.reference} hint="Cheque number, receipt number…" />
+      <div className="sm:col-span-2"><TextField label="Note (optional)" name="note" maxLength={240} errors={fields.note} /></div>
+      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
+      <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Record payment'}</Button></div>
+    </form>
+  );
+}
+
+/** Matches an unmatched payment to one of the payer's invoices, or holds it as credit. */
+export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop: string; paymentId: number; invoices: OpenInvoiceOption[]; currency: string }) {
+  const router = useRouter();
+  const { busy, fields, message, submit } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const target = formObject(e.currentTarget).target ?? '';
+    const out = await submit(`/api/coops/${coop}/billing/payments/${paymentId}/match`, 'POST', { invoiceId: target === 'credit' ? null : Number(target) });
+    if (out) router.refresh();
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2 sm:flex-row sm:items-end">
+      <SelectField label="Match to" name="target" id={`target-${paymentId}`} errors={fields.invoiceId} defaultValue={invoices[0] ? String(invoices[0].id) : 'credit'}>
+        {invoices.map((i) => <option key={i.id} value={i.id}>{i.label} — {formatCents(i.outstandingCents, currency)} due</option>)}
+        <option value="credit">Hold as the member’s credit</option>
+      </SelectField>
+      <Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Matching…' : 'Match'}</Button>
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+    </form>
+  );
+}
+
+/** Refunds money held for the member from one payment (card ones through the payment service). */
+export function RefundForm({ coop, paymentId, refundableCents, method, currency }: { coop: string; paymentId: number; refundableCents: number; method: string; currency: string }) {
+  const router = useRouter();
+  const { busy, fields, message, submit } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const f = formObject(e.currentTarget);
+    const out = await submit(`/api/coops/${coop}/billing/payments/${paymentId}/refunds`, 'POST', { amount: f.amount ?? '', reason: f.reason ?? '' }, 'Refund recorded.');
+    if (out) router.refresh();
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2">
+      <p className="text-xs text-stone-600">
+        Up to {formatCents(refundableCents, currency)} can be given back{method === 'card' ? ' to the card' : ' in cash'}.
+      </p>
+      <TextField label="Amount to refund" id={`refund-amount-${paymentId}`} name="amount" inputMode="decimal" required errors={fields.amount} />
+      <TextField label="Reason" id={`refund-reason-${paymentId}`} name="reason" required maxLength={240} errors={fields.reason} />
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+      <div><Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Refunding…' : 'Refund'}</Button></div>
+    </form>
+  );
+}
+
+/** A pending card refund that the payment service did not confirm: send it again. */
+export function RetryRefundButton({ coop, refundId }: { coop: string; refundId: number }) {
+  const router = useRouter();
+  const { busy, message, submit } = useApiForm();
+  return (
+    <span className="inline-flex flex-col gap-1">
+      <Button variant="ghost" disabled={busy} onClick={async () => (await submit(`/api/coops/${coop}/billing/refunds/${refundId}/retry`, 'POST', undefined)) && router.refresh()}>
+        {busy ? 'Retrying…' : 'Retry refund'}
+      </Button>
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
+    </span>
+  );
+}
+
+/** A charge (positive) or credit (negative) for a member's next invoice. */
+export function AdjustmentForm({ coop, members, currency, currentPeriod }: { coop: string; members: MemberOption[]; currency: string; currentPeriod: string }) {
+  const router = useRouter();
+  const { busy, fields, message, submit } = useApiForm();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    const f = formObject(form);
+    const out = await submit(`/api/coops/${coop}/billing/adjustments`, 'POST', { memberId: f.memberId, amount: f.amount ?? '', description: f.description ?? '', period: f.period }, 'Adjustment added; it goes on the member’s next invoice.');
+    if (out) {
+      form.reset();
+      router.refresh();
+    }
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="grid gap-4 sm:grid-cols-2">
+      <SelectField label="Member" name="memberId" id="adj-member" required errors={fields.memberId} defaultValue="">
+        <option value="">Choose a member…</option>
+        {members.map((m) => <option key={m.id} value={m.id}>{m.name}</option>)}
+      </SelectField>
+      <TextField label={`Amount (${currency})`} name="amount" id="adj-amount" inputMode="decimal" required errors={fields.amount} hint="Positive charges the member; negative (e.g. -5.00) credits them." />
+      <TextField label="Description" name="description" id="adj-description" required maxLength={200} errors={fields.description} hint="Shown on the invoice." />
+      <TextField label="From the invoice of" name="period" id="adj-period" type="month" defaultValue={currentPeriod} errors={fields.period} />
+      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
+      <div className="sm:col-span-2"><Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Adding…' : 'Add adjustment'}</Button></div>
+    </form>
+  );
+}
+
+/** Closes and locks the month after an explicit confirmation; lists what blocks it if refused. */
+export function CloseMonthForm({ coop, period, label }: { coop: string; period: string; label: string }) {
+  const router = useRouter();
+  const [busy, setBusy] = useState(false);
+  const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string; blockers: string[] } | null>(null);
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    setBusy(true);
+    setMessage(null);
+    const confirmed = formObject(e.currentTarget).confirm === 'yes';
+    const r = await sendJson<unknown>(`/api/coops/${coop}/billing/periods/${period}/close`, 'POST', confirmed ? { confirm: true } : {});
+    setBusy(false);
+    if (r.ok) {
+      setMessage({ tone: 'ok', text: `${label} is closed.`, blockers: [] });
+      router.refresh();
+      return;
+    }
+    const blockers = Array.isArray(r.body.blockers) ? (r.body.blockers as string[]) : [];
+    setMessage({ tone: 'danger', text: r.fields.confirm?.[0] ?? r.error, blockers });
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
+      <label className="flex items-start gap-2 text-sm">
+        <input type="checkbox" name="confirm" value="yes" className="mt-0.5 h-5 w-5 accent-fir-700" aria-describedby="close-help" />
+        <span>I have checked this month. Lock its draws, invoices and payments.</span>
+      </label>
+      <p id="close-help" className="text-xs text-stone-600">After closing, nothing in {label} can change. Unpaid invoices stay payable; corrections become adjustments in an open month.</p>
+      {message ? (
+        <Notice tone={message.tone}>
+          {message.text}
+          {message.blockers.length ? <ul className="mt-1 list-disc pl-5">{message.blockers.map((b) => <li key={b}>{b}</li>)}</ul> : null}
+        </Notice>
+      ) : null}
+      <div><Button type="submit" disabled={busy}>{busy ? 'Closing…' : `Close ${label}`}</Button></div>
+    </form>
+  );
+}

@@ -1,0 +1,53 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { Button } from '@/components/ui/button';
+import { SelectField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { sendJson } from '@/components/forms/use-api-form';
+import { formatCents } from '@/lib/money/format';
+import { TEST_CARDS } from '@/lib/payments/test-cards';
+
+/**
+ * Pay by card. In this development build the member picks one of the payment fake's test
+ * cards; no card number is ever typed into Tallyvat. The button stays disabled while a payment
+ * is on its way, and the server charges at most once however often it is pressed.
+ */
+export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coop: string; invoiceId: number; amountCents: number; currency: string }) {
+  const router = useRouter();
+  const [busy, setBusy] = useState(false);
+  const [result, setResult] = useState<{ tone: 'ok' | 'danger' | 'warn'; text: string } | null>(null);
+  const [fieldErrors, setFieldErrors] = useState<string[] | undefined>();
+  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    if (busy) return;
+    setBusy(true);
+    setResult(null);
+    const card = new FormData(e.currentTarget).get('card');
+    const r = await sendJson<{ status: string }>(`/api/coops/${coop}/invoices/${invoiceId}/pay`, 'POST', { card });
+    setBusy(false);
+    if (r.ok) {
+      setResult({ tone: 'ok', text: 'Payment received — thank you.' });
+      router.refresh();
+      return;
+    }
+    setFieldErrors(r.fields.card);
+    setResult({ tone: r.status === 503 ? 'warn' : 'danger', text: r.error });
+    if (r.status === 409) router.refresh();
+  }
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
+      <Notice title="Development build: test cards only">
+        Choose one of the payment service’s test cards. No real card details are ever entered or stored here; a live installation would show the payment provider’s own secure card field (Stripe Elements) instead.
+      </Notice>
+      <SelectField label="Card" name="card" defaultValue={TEST_CARDS[0].token} errors={fieldErrors}>
+        {TEST_CARDS.map((c) => <option key={c.token} value={c.token}>{c.label}</option>)}
+      </SelectField>
+      {result ? <Notice tone={result.tone}>{result.text}</Notice> : null}
+      <div>
+        <Button type="submit" disabled={busy} aria-busy={busy}>{busy ? 'Paying…' : `Pay ${formatCents(amountCents, currency)} by card`}</Button>
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,49 @@
+import 'server-only';
+import { QueryTypes, type Transaction } from 'sequelize';
+import { HttpError } from '@/lib/http';
+import { sequelize } from '@/models';
+import { periodLabel } from './periods';
+
+/** Advisory-lock namespace for a co-op's money writes (any constant that no other module uses). */
+const BILLING_LOCK_NAMESPACE = 73_051;
+
+/**
+ * Serialises the money writes of one co-op (runs, issue, payments, refunds, void, close) inside
+ * the caller's transaction. A co-op has at most a few hundred members and one treasurer, so one
+ * lock per co-op costs nothing and rules out every double-spend race between these paths.
+ */
+export async function lockCoopBilling(t: Transaction, coopId: number): Promise<void> {
+  await sequelize.query('SELECT pg_advisory_xact_lock(:ns, :coopId)', { replacements: { ns: BILLING_LOCK_NAMESPACE, coopId }, transaction: t });
+}
+
+/** True when the month ('YYYY-MM-01') is closed for the co-op. */
+export async function isPeriodClosed(coopId: number, periodDate: string, t?: Transaction): Promise<boolean> {
+  const rows = await sequelize.query<{ one: number }>(
+    `SELECT 1 AS one FROM billing_periods WHERE coop_id = :coopId AND period = :periodDate AND status = 'closed'`,
+    { replacements: { coopId, periodDate }, type: QueryTypes.SELECT, transaction: t },
+  );
+  return rows.length > 0;
+}
+
+/** The 409 every closed-month refusal answers with (services and the database triggers agree). */
+export function periodClosedError(periodDate: string): HttpError {
+  const label = periodLabel(periodDate.slice(0, 7));
+  return new HttpError(409, `${label} is closed: its draws, invoices and payments can no longer change. Record the correction as an adjustment in an open month.`, undefined, {
+    code: 'period-closed',
+    period: periodDate.slice(0, 7),
+  });
+}
+
+/** Refuses (409) when the month is closed. */
+export async function assertPeriodOpen(coopId: number, periodDate: string, t?: Transaction): Promise<void> {
+  if (await isPeriodClosed(coopId, periodDate, t)) throw periodClosedError(periodDate);
+}
+
+/** The month's first and next-month's first instants in the co-op's time zone. */
+export async function periodBounds(periodDate: string, timeZone: string, t?: Transaction): Promise<{ start: Date; end: Date }> {
+  const [row] = await sequelize.query<{ start: Date; end: Date }>(
+    `SELECT (:p::date)::timestamp AT TIME ZONE :tz AS start, ((:p::date + interval '1 month')::timestamp) AT TIME ZONE :tz AS "end"`,
+    { replacements: { p: periodDate, tz: timeZone }, type: QueryTypes.SELECT, transaction: t },
+  );
+  return { start: new Date(row!.start), end: new Date(row!.end) };
+}

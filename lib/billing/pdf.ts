@@ -1,0 +1,129 @@
+import 'server-only';
+import { appUrl } from '@/lib/mail';
+import { formatCents, formatRateCents } from '@/lib/money';
+import { newPdf, pdfToBuffer } from '@/lib/pdf';
+import { formatVolume, perGallonToPerLiter, type UnitSystem } from '@/lib/units';
+import { formatDateIn, invoiceLabel, periodLabel } from './periods';
+import { INVOICE_STATUS_LABEL } from './status';
+import type { InvoiceDetail } from './types';
+
+export interface PdfCoop {
+  name: string;
+  slug: string;
+  units: UnitSystem;
+  currency: string;
+  timezone: string;
+}
+
+/** The rounding rule, stated once on every invoice (lib/money: half away from zero, per line). */
+export const ROUNDING_NOTE =
+  'Each draw was priced when it was recorded, at the co-op price then in force, and every line amount was rounded to the cent (half away from zero). The total is the exact sum of the lines.';
+
+/** The file name for downloads and attachments, e.g. prairie-lantern-INV-000012.pdf. */
+export function invoiceFileName(coopSlug: string, inv: Pick<InvoiceDetail, 'label' | 'id' | 'period'>): string {
+  return `${coopSlug}-${inv.label ?? `draft-${inv.period}-${inv.id}`}.pdf`;
+}
+
+/**
+ * Renders an invoice or credit note with pdfkit and the shipped fonts: the co-op, the member,
+ * the month, every line (quantities in the co-op's units, rates per gallon or litre), totals, and
+ * how to pay. Drafts are marked DRAFT.
+ */
+export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promise<Buffer> {
+  const isCredit = inv.kind === 'credit-note';
+  const title = isCredit ? 'Credit note' : 'Invoice';
+  const doc = newPdf({ title: `${coop.name} ${title} ${inv.label ?? 'draft'}` });
+  const money = (c: number) => formatCents(c, coop.currency);
+  const left = 50;
+  const right = doc.page.width - 50;
+  const width = right - left;
+
+  if (inv.status === 'draft') {
+    doc.save().font('bold').fontSize(90).fillColor('#e7e5e4').rotate(-30, { origin: [300, 420] }).text('DRAFT', 120, 380, { lineBreak: false }).restore();
+    doc.fillColor('#1c1917');
+  }
+
+  // Header: co-op and document
+  doc.font('bold').fontSize(18).fillColor('#16322a').text(coop.name, left, 50, { width: width * 0.6 });
+  doc.font('regular').fontSize(9).fillColor('#57534e').text(`Community biodiesel co-op · ${appUrl(`/c/${coop.slug}`)}`, { width: width * 0.6 });
+  doc.font('bold').fontSize(16).fillColor('#1c1917').text(title, left, 50, { width, align: 'right' });
+  doc.font('regular').fontSize(10).text(inv.label ?? 'DRAFT — not yet issued', { width, align: 'right' });
+  doc.text(`Status: ${INVOICE_STATUS_LABEL[inv.status] ?? inv.status}`, { width, align: 'right' });
+
+  doc.moveDown(2);
+  const metaTop = Math.max(doc.y, 120);
+  doc.font('bold').fontSize(10).fillColor('#1c1917').text('Bill to', left, metaTop);
+  doc.font('regular').text(inv.memberName).text(inv.memberEmail);
+  const col2 = left + width / 2;
+  doc.font('bold').text('Billing month', col2, metaTop);
+  doc.font('regular').text(periodLabel(inv.period), col2);
+  if (inv.issuedAt) doc.text(`Issued ${formatDateIn(inv.issuedAt, coop.timezone)}`, col2);
+  if (inv.dueOn && !isCredit) doc.text(`Due ${formatDateIn(inv.dueOn, coop.timezone)}`, col2);
+  if (isCredit && inv.original) doc.text(`Cancels invoice ${inv.original.label ?? ''}`, col2);
+
+  // Lines
+  doc.moveDown(2);
+  const cols = { date: left, desc: left + 72, qty: left + 290, rate: left + 370, amount: left + 440 };
+  const amountW = right - cols.amount;
+  let y = Math.max(doc.y, metaTop + 80);
+  const header = () => {
+    doc.font('bold').fontSize(9).fillColor('#44403c');
+    doc.text('Date', cols.date, y, { width: 70 });
+    doc.text('Description', cols.desc, y, { width: 215 });
+    doc.text('Quantity', cols.qty, y, { width: 75, align: 'right' });
+    doc.text('Rate', cols.rate, y, { width: 65, align: 'right' });
+    doc.text('Amount', cols.amount, y, { width: amountW, align: 'right' });
+    y += 14;
+    doc.moveTo(left, y).lineTo(right, y).strokeColor('#a8a29e').lineWidth(0.5).stroke();
+    y += 5;
+    doc.font('regular').fillColor('#1c1917');
+  };
+  header();
+  const rateUnit = coop.units === 'us' ? '/gal' : '/L';
+  for (const l of inv.lines) {
+    const rate = l.unitPriceCentsPerGallon === null ? '' : `${formatRateCents(coop.units === 'us' ? l.unitPriceCentsPerGallon : perGallonToPerLiter(l.unitPriceCentsPerGallon), coop.currency)}${rateUnit}`;
+    const h = Math.max(12, doc.heightOfString(l.description, { width: 215 }));
+    if (y + h > doc.page.height - 150) {
+      doc.addPage();
+      y = 50;
+      header();
+    }
+    doc.fontSize(9);
+    doc.text(l.occurredAt ? formatDateIn(l.occurredAt, coop.timezone) : '', cols.date, y, { width: 70 });
+    doc.text(l.description, cols.desc, y, { width: 215 });
+    doc.text(l.quantityLiters === null ? '' : formatVolume(l.quantityLiters, coop.units, 2), cols.qty, y, { width: 75, align: 'right' });
+    doc.text(rate, cols.rate, y, { width: 65, align: 'right' });
+    doc.text(money(l.amountCents), cols.amount, y, { width: amountW, align: 'right' });
+    y += h + 4;
+  }
+  doc.moveTo(left, y).lineTo(right, y).strokeColor('#a8a29e').lineWidth(0.5).stroke();
+  y += 8;
+
+  // Totals
+  const totalRow = (label: string, cents: number, bold = false) => {
+    doc.font(bold ? 'bold' : 'regular').fontSize(bold ? 11 : 10);
+    doc.text(label, cols.qty - 60, y, { width: cols.amount - cols.qty + 50, align: 'right' });
+    doc.text(money(cents), cols.amount, y, { width: amountW, align: 'right' });
+    y += bold ? 17 : 14;
+  };
+  totalRow(isCredit ? 'Total credited' : 'Total', inv.totalCents, true);
+  if (!isCredit && inv.status !== 'draft') {
+    if (inv.paidCents > 0) totalRow('Paid', inv.paidCents);
+    if (inv.status !== 'void') totalRow('Amount due', inv.outstandingCents, true);
+  }
+
+  // How to pay
+  y += 12;
+  doc.font('bold').fontSize(10).fillColor('#16322a').text(isCredit ? 'About this credit note' : 'How to pay', left, y);
+  doc.font('regular').fontSize(9).fillColor('#1c1917');
+  if (isCredit) {
+    doc.text('This credit note cancels the invoice named above. Anything you had paid on it is held as credit on your account and applied to your next invoice, or refunded on request.', { width });
+  } else {
+    doc.text(`By card: sign in at ${appUrl(`/c/${coop.slug}/invoices/${inv.id}`)} and choose “Pay by card”.`, { width });
+    doc.text(`By cash or cheque: hand it to the co-op's treasurer, or make the cheque payable to ${coop.name}, and write ${inv.label ?? 'the invoice number'} on it.`, { width });
+    doc.text('Credit on your account (for example from an earlier overpayment) has already been deducted above.', { width });
+  }
+  doc.moveDown();
+  doc.fontSize(8).fillColor('#57534e').text(`Amounts in ${coop.currency}. ${ROUNDING_NOTE}`, { width });
+  return pdfToBuffer(doc);
+}

@@ -1,0 +1,28 @@
+/** Words for statuses, shared by pages, PDFs and CSVs (pure). */
+export const INVOICE_STATUS_LABEL: Record<string, string> = {
+  draft: 'Draft',
+  issued: 'Unpaid',
+  'partly-paid': 'Partly paid',
+  paid: 'Paid',
+  void: 'Void',
+};
+
+export const EMAIL_STATUS_LABEL: Record<string, string> = {
+  'not-sent': 'Not sent',
+  queued: 'Queued',
+  sending: 'Sending',
+  sent: 'Sent',
+  failed: 'Not delivered',
+};
+
+export const METHOD_LABEL: Record<string, string> = { card: 'Card', cash: 'Cash', cheque: 'Cheque' };
+
+export const LINE_KIND_LABEL: Record<string, string> = {
+  draw: 'Fuel',
+  'draw-reversal': 'Fuel (reversal)',
+  dues: 'Dues',
+  surcharge: 'Surcharge',
+  'road-tax': 'Road-fuel tax',
+  adjustment: 'Adjustment',
+  credit: 'Credit',
+};

@@ -1,0 +1,72 @@
+import 'server-only';
+import { HttpError } from '@/lib/http';
+import { verifyWebhook, type ProviderEvent } from '@/lib/payments';
+import { sequelize } from '@/models';
+import { completeAttemptSucceeded, markAttemptFailed } from './card';
+import { exec, select } from './db';
+import { lockCoopBilling } from './locks';
+import { confirmRefund } from './payments';
+
+const positiveInt = (s: string | undefined): number | null => (s && /^[1-9]\d{0,9}$/.test(s) ? Number(s) : null);
+
+/**
+ * Handles one webhook delivery: verifies the signature over the raw body (400 and nothing stored
+ * when it fails), stores the event id once (UNIQUE; a repeat is acknowledged and ignored), and
+ * applies it in the same transaction, so a crash mid-way leaves nothing half-applied and the
+ * provider's retry processes it again. Applying is itself idempotent and order-independent:
+ *  - charge.succeeded → the attempt named in its metadata succeeds, one payment is recorded;
+ *  - charge.failed → a still-open attempt is marked failed (a success is never undone);
+ *  - charge.refunded → our refunds named in the refunds' metadata are confirmed.
+ */
+export async function receiveWebhook(rawBody: string, signature: string | null): Promise<{ received: true; duplicate: boolean; outcome: string }> {
+  const event = verifyWebhook(rawBody, signature);
+  if (!event) throw new HttpError(400, 'The webhook signature is not valid.');
+  let payload: unknown;
+  try {
+    payload = JSON.parse(rawBody);
+  } catch {
+    throw new HttpError(400, 'The webhook body is not JSON.');
+  }
+  const named = positiveInt(event.charge?.metadata.coop_id);
+  const [coop] = named ? await select<{ id: number }>('SELECT id FROM coops WHERE id = $id', { id: named }) : [];
+  const coopId = coop?.id ?? null;
+
+  return sequelize.transaction(async (t) => {
+    const [stored] = await select<{ id: string }>(
+      `INSERT INTO payment_webhook_events (stripe_event_id, type, coop_id, object_id, outcome, payload)
+       VALUES ($eventId, $type, $coopId, $objectId, 'received', $payload::jsonb) ON CONFLICT (stripe_event_id) DO NOTHING RETURNING id`,
+      { eventId: event.id, type: event.type, coopId, objectId: event.charge?.id ?? null, payload: JSON.stringify(payload) },
+      t,
+    );
+    if (!stored) return { received: true as const, duplicate: true, outcome: 'duplicate' };
+    const outcome = coopId ? await apply(event, coopId, t) : 'ignored';
+    await exec('UPDATE payment_webhook_events SET outcome = $outcome WHERE id = $id', { outcome, id: stored.id }, t);
+    return { received: true as const, duplicate: false, outcome };
+  });
+}
+
+async function apply(event: ProviderEvent, coopId: number, t: Parameters<typeof completeAttemptSucceeded>[0]): Promise<string> {
+  const charge = event.charge;
+  if (!charge) return 'ignored';
+  const attemptId = positiveInt(charge.metadata.payment_attempt_id);
+  switch (event.type) {
+    case 'charge.succeeded':
+      if (!attemptId || !charge.succeeded) return 'ignored';
+      return completeAttemptSucceeded(t, coopId, attemptId, charge, null);
+    case 'charge.failed':
+      if (!attemptId) return 'ignored';
+      await lockCoopBilling(t, coopId);
+      return markAttemptFailed(t, coopId, attemptId, 'card_declined', 'The card was declined.');
+    case 'charge.refunded': {
+      await lockCoopBilling(t, coopId);
+      let applied = false;
+      for (const r of charge.refunds) {
+        const refundId = positiveInt(r.metadata.refund_id);
+        if (refundId && r.succeeded && (await confirmRefund(t, coopId, refundId, r.id)) === 'applied') applied = true;
+      }
+      return applied ? 'applied' : 'no-change';
+    }
+    default:
+      return 'ignored';
+  }
+}
