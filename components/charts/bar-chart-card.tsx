@@ -54,7 +54,7 @@ export function BarChartCard({
       ) : view === 'chart' ? (
         <div className="h-64 w-full" aria-hidden="true">
           <ResponsiveContainer width="100%" height="100%">
-            <BarChart data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
+            <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
               <CartesianGrid strokeDasharray="3 3" stroke="#e7e5e4" />
               <XAxis dataKey={xKey} tick={{ fontSize: 12, fill: '#44403c' }} />
               <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />

@@ -32,7 +32,7 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
       ) : view === 'chart' ? (
         <div className="h-56 w-full" aria-hidden="true">
           <ResponsiveContainer width="100%" height="100%">
-            <LineChart data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
+            <LineChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
               <CartesianGrid strokeDasharray="3 3" stroke="#e7e5e4" />
               <XAxis dataKey={xKey} tick={{ fontSize: 11, fill: '#44403c' }} minTickGap={24} />
               <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />

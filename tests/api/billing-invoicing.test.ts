@@ -215,7 +215,7 @@ describe('invoicing runs: bad input, concurrency and a crash in the middle', () 
       [{ period: '2026-13' }, 'period'],
       [{}, 'period'],
       [{ period: '2999-01' }, 'period'],
-      [{ period: monthsAgo(1), coopId: 1 }, '_form'],
+      [{ period: monthsAgo(1), coopId: 1 }, 'coopId'],
       [{ period: monthsAgo(1), memberIds: [999999999] }, 'memberIds'],
     ];
     for (const [body, field] of cases) {

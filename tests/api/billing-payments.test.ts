@@ -197,7 +197,7 @@ describe('paying invoices', () => {
       [{ memberId: m, method: 'cash', amount: '5', receivedOn: `${P}-31x` }, 'receivedOn'],
       [{ memberId: 999999999, method: 'cash', amount: '5', receivedOn: `${P}-10` }, 'memberId'],
       [{ memberId: m, invoiceId: inv['Wyn Wrong'], method: 'cash', amount: '5', receivedOn: `${P}-10` }, 'invoiceId'],
-      [{ memberId: m, method: 'cash', amount: '5', receivedOn: `${P}-10`, coopId: 1 }, '_form'],
+      [{ memberId: m, method: 'cash', amount: '5', receivedOn: `${P}-10`, coopId: 1 }, 'coopId'],
     ];
     for (const [body, field] of bad) {
       const res = await record(body);

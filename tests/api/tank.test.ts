@@ -57,7 +57,7 @@ describe('tanks', () => {
     const r2 = await ctx.agents.admin.post(`${P(ctx.coop.slug)}/tanks`).send({ name: 'Shed tank', capacity: '100' }).expect(422);
     expect(r2.body.fields.name[0]).toMatch(/already has that name/);
     const r3 = await ctx.agents.admin.post(`${P(ctx.coop.slug)}/tanks`).send({ name: 'X', capacity: '10', coopId: ctx.other.id }).expect(422);
-    expect(r3.body.fields._form[0]).toMatch(/coopId/);
+    expect(r3.body.fields.coopId[0]).toMatch(/not accepted/);
     expect(await snapshot(ctx.coop.id)).toEqual(before);
   });
 
