@@ -1,12 +1,11 @@
 import 'server-only';
 import { cache } from 'react';
-import { getServerSession } from 'next-auth';
 import { QueryTypes } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import { forbidden, HttpError, notFound, unauthorized } from '@/lib/http';
 import type { Role } from '@/lib/auth/roles';
 import type { UnitSystem, CoopSettings } from '@/models/Coop';
-import { authOptions } from './options';
+import { readSessionCookie } from './jwt';
 import { can, type Action } from './policies';
 
 export interface SessionUser {
@@ -27,13 +26,14 @@ export interface Actor {
  * The signed-in user, re-read from the database on every request: a JWT whose session
  * version no longer matches (password changed, signed out everywhere) counts as signed out.
  */
+const readSession = cache(readSessionCookie);
+
 export const getSessionUser = cache(async (): Promise<SessionUser | null> => {
-  const session = (await getServerSession(authOptions)) as { uid?: number; sv?: number } | null;
-  const uid = session?.uid;
-  if (!uid) return null;
+  const session = await readSession();
+  if (!session) return null;
   const rows = await sequelize.query<{ id: number; email: string; name: string; session_version: number }>(
     'SELECT id, email, name, session_version FROM users WHERE id = :uid',
-    { replacements: { uid }, type: QueryTypes.SELECT },
+    { replacements: { uid: session.uid }, type: QueryTypes.SELECT },
   );
   const u = rows[0];
   if (!u || session.sv !== u.session_version) return null;
@@ -56,13 +56,18 @@ export const listMyCoops = cache(async (userId: number) => {
   );
 });
 
+/** The user and their membership in the co-op of the URL, in one query (null membership fields when not a member). */
 const loadActor = cache(async (userId: number, coopSlug: string) => {
   const rows = await sequelize.query<{
-    membership_id: number; role: Role; status: string; coop_id: number; slug: string; name: string;
+    user_id: number; email: string; user_name: string; session_version: number;
+    membership_id: number | null; role: Role; status: string; coop_id: number; slug: string; name: string;
     units: UnitSystem; currency: string; timezone: string; settings: CoopSettings;
   }>(
-    `SELECT m.id AS membership_id, m.role, m.status, c.id AS coop_id, c.slug, c.name, c.units, c.currency, c.timezone, c.settings
-     FROM memberships m JOIN coops c ON c.id = m.coop_id WHERE c.slug = :coopSlug AND m.user_id = :userId`,
+    `SELECT u.id AS user_id, u.email, u.name AS user_name, u.session_version,
+            m.id AS membership_id, m.role, m.status, c.id AS coop_id, c.slug, c.name, c.units, c.currency, c.timezone, c.settings
+     FROM users u
+     LEFT JOIN (memberships m JOIN coops c ON c.id = m.coop_id AND c.slug = :coopSlug) ON m.user_id = u.id
+     WHERE u.id = :userId`,
     { replacements: { userId, coopSlug }, type: QueryTypes.SELECT },
   );
   return rows[0] ?? null;
@@ -74,9 +79,12 @@ const loadActor = cache(async (userId: number, coopSlug: string) => {
  * existence is not revealed); 403 when suspended or the role may not.
  */
 export async function requireMember(coopSlug: string, action: Action): Promise<Actor> {
-  const user = await requireUser();
-  const row = await loadActor(user.id, String(coopSlug).slice(0, 60));
-  if (!row) throw notFound('Co-op not found.');
+  const session = await readSession();
+  if (!session) throw unauthorized();
+  const row = await loadActor(session.uid, String(coopSlug).slice(0, 60));
+  if (!row || row.session_version !== session.sv) throw unauthorized();
+  const user: SessionUser = { id: row.user_id, email: row.email, name: row.user_name };
+  if (row.membership_id === null) throw notFound('Co-op not found.');
   if (row.status !== 'active') throw forbidden('Your membership in this co-op is suspended.');
   if (!can(row.role, action)) throw forbidden();
   return {

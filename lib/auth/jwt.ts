@@ -1,0 +1,50 @@
+import 'server-only';
+import hkdf from '@panva/hkdf';
+import { jwtDecrypt } from 'jose';
+import { cookies } from 'next/headers';
+
+/**
+ * Reads next-auth's session cookie without next-auth's per-request work: the encryption key
+ * (HKDF of NEXTAUTH_SECRET, exactly as next-auth derives it) is computed once per process, and
+ * the cookie is only decrypted, not re-issued. Sign-in and sign-out still go through next-auth.
+ */
+let cached: { secret: string; key: Promise<Uint8Array> } | null = null;
+
+function encryptionKey(secret: string): Promise<Uint8Array> {
+  if (cached?.secret !== secret) {
+    cached = { secret, key: hkdf('sha256', secret, '', 'NextAuth.js Generated Encryption Key', 32) };
+  }
+  return cached.key;
+}
+
+function cookieName(): string {
+  return (process.env.NEXTAUTH_URL ?? '').startsWith('https://') ? '__Secure-next-auth.session-token' : 'next-auth.session-token';
+}
+
+export interface SessionClaims {
+  uid: number;
+  sv: number;
+}
+
+/** The user id and session version from the signed-in cookie, or null. */
+export async function readSessionCookie(): Promise<SessionClaims | null> {
+  const secret = process.env.NEXTAUTH_SECRET ?? process.env.AUTH_SECRET;
+  if (!secret) return null;
+  const jar = await cookies();
+  const name = cookieName();
+  // next-auth splits cookies over 4 KB into name.0, name.1, …
+  let token = jar.get(name)?.value;
+  if (!token) {
+    const chunks = jar.getAll().filter((c) => c.name.startsWith(`${name}.`)).sort((a, b) => Number(a.name.split('.').pop()) - Number(b.name.split('.').pop()));
+    token = chunks.map((c) => c.value).join('') || undefined;
+  }
+  if (!token) return null;
+  try {
+    const { payload } = await jwtDecrypt(token, await encryptionKey(secret), { clockTolerance: 15 });
+    const uid = Number(payload.uid);
+    const sv = Number(payload.sv);
+    return Number.isInteger(uid) && uid > 0 && Number.isInteger(sv) ? { uid, sv } : null;
+  } catch {
+    return null;
+  }
+}
