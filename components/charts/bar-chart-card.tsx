@@ -17,6 +17,7 @@ export function BarChartCard({
   title,
   data,
   xKey,
+  xLabel,
   series,
   yLabel,
   stacked = false,
@@ -25,6 +26,8 @@ export function BarChartCard({
   title: string;
   data: Record<string, string | number>[];
   xKey: string;
+  /** Header of the table's first column (defaults to "Period"). */
+  xLabel?: string;
   series: Series[];
   yLabel: string;
   stacked?: boolean;
@@ -73,7 +76,7 @@ export function BarChartCard({
           <caption className="sr-only">{title} ({yLabel})</caption>
           <thead>
             <tr className="border-b border-stone-200 text-xs uppercase text-stone-700">
-              <th scope="col" className="py-1 pr-3">{xKey === 'period' ? 'Period' : xKey}</th>
+              <th scope="col" className="py-1 pr-3">{xLabel ?? (xKey === 'period' ? 'Period' : xKey)}</th>
               {series.map((s) => <th key={s.key} scope="col" className="py-1 pr-3 text-right">{s.label}</th>)}
             </tr>
           </thead>
