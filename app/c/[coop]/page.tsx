@@ -161,7 +161,9 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
           {o.balances ? (
             <div className="flex flex-col gap-2">
               <BalancesChart currency={actor.coop.currency} rows={o.balances.topOwing} />
-              <p className="text-sm text-stone-600">{o.balances.membersOwing} member{o.balances.membersOwing === 1 ? '' : 's'} owe {money(o.balances.totalOutstandingCents)} in all.</p>
+              <p className="text-sm text-stone-600">
+                {o.balances.membersOwing === 0 ? 'No member owes anything on issued invoices.' : `${o.balances.membersOwing} member${o.balances.membersOwing === 1 ? ' owes' : 's owe'} ${money(o.balances.totalOutstandingCents)} in all.`}
+              </p>
             </div>
           ) : null}
         </div>
