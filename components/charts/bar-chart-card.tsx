@@ -17,6 +17,7 @@ export function BarChartCard({
   title,
   data,
   xKey,
+  xLabel,
   series,
   yLabel,
   stacked = false,
@@ -25,6 +26,8 @@ export function BarChartCard({
   title: string;
   data: Record<string, string | number>[];
   xKey: string;
+  /** Header of the table's first column (defaults to "Period"). */
+  xLabel?: string;
   series: Series[];
   yLabel: string;
   stacked?: boolean;
@@ -33,7 +36,7 @@ export function BarChartCard({
   const [view, setView] = useState<'chart' | 'table'>('chart');
   return (
     <section className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm" aria-label={title}>
-      <div className="mb-2 flex items-center justify-between gap-2">
+      <div className="mb-2 flex flex-wrap items-center justify-between gap-2">
         <h2 className="text-base">{title}</h2>
         <div role="group" aria-label={`${title}: view`} className="flex overflow-hidden rounded-md border border-stone-300 text-xs">
           {(['chart', 'table'] as const).map((v) => (
@@ -73,7 +76,7 @@ export function BarChartCard({
           <caption className="sr-only">{title} ({yLabel})</caption>
           <thead>
             <tr className="border-b border-stone-200 text-xs uppercase text-stone-700">
-              <th scope="col" className="py-1 pr-3">{xKey === 'period' ? 'Period' : xKey}</th>
+              <th scope="col" className="py-1 pr-3">{xLabel ?? (xKey === 'period' ? 'Period' : xKey)}</th>
               {series.map((s) => <th key={s.key} scope="col" className="py-1 pr-3 text-right">{s.label}</th>)}
             </tr>
           </thead>

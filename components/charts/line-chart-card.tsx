@@ -17,7 +17,7 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
   const [view, setView] = useState<'chart' | 'table'>('chart');
   return (
     <section className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm" aria-label={title}>
-      <div className="mb-2 flex items-center justify-between gap-2">
+      <div className="mb-2 flex flex-wrap items-center justify-between gap-2">
         <h2 className="text-base">{title}</h2>
         <div role="group" aria-label={`${title}: view`} className="flex overflow-hidden rounded-md border border-stone-300 text-xs">
           {(['chart', 'table'] as const).map((v) => (

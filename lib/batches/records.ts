@@ -8,6 +8,7 @@ import { conflict, HttpError, notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
 import { evaluateQuality, evaluateQuickTests, type FuelStandard, type QualityEvaluation, type QuickTestEvaluation, type QuickTestInput, type QualityResults } from '@/lib/quality';
 import { getOilLot } from '@/lib/supplies';
+import { checkLowStock } from '@/lib/supplies/low-stock';
 import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { tempToC, volumeToLiters } from '@/lib/units';
 import type { BatchCreateInput, BatchUpdateInput } from '@/lib/validation/brewing';
@@ -221,6 +222,7 @@ export async function createBatch(actor: Actor, input: BatchCreateInput): Promis
     }, t);
     return batch.id;
   });
+  await checkLowStock(actor.coop.id);
   return getBatch(actor, id);
 }
 
@@ -345,6 +347,7 @@ export async function updateBatch(actor: Actor, id: number, input: BatchUpdateIn
     await Batch.update(changes, { where: { id, coopId: actor.coop.id }, transaction: t });
     await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'batch.update', entityType: 'batch', entityId: id, before, after: changes }, t);
   });
+  await checkLowStock(actor.coop.id);
   return getBatch(actor, id);
 }
 
@@ -374,6 +377,7 @@ export async function advanceBatch(actor: Actor, id: number, to: (typeof STEPS)[
     await Batch.update(changes, { where: { id, coopId: actor.coop.id }, transaction: t });
     await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'batch.advance', entityType: 'batch', entityId: id, before: { status: row.status }, after: { status: to } }, t);
   });
+  await checkLowStock(actor.coop.id);
   return getBatch(actor, id);
 }
 

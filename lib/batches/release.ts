@@ -1,4 +1,5 @@
 import 'server-only';
+import { checkLowStock } from '@/lib/supplies/low-stock';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
@@ -167,6 +168,7 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
     );
     await audit({ coopId, actorUserId: actor.user.id, action: 'batch.release', entityType: 'batch', entityId: id, before: { status: row.status }, after }, t);
   });
+  await checkLowStock(actor.coop.id);
   return getBatch(actor, id);
 }
 
@@ -199,5 +201,6 @@ export async function rejectBatch(actor: Actor, id: number, reason: string): Pro
     );
     await audit({ coopId, actorUserId: actor.user.id, action: 'batch.reject', entityType: 'batch', entityId: id, before: { status: row.status }, after: { status: 'rejected', reason, ...costs } }, t);
   });
+  await checkLowStock(actor.coop.id);
   return getBatch(actor, id);
 }

@@ -6,9 +6,12 @@ import { sequelize } from '@/lib/db';
 import { memberPriceCentsPerGallon, type PricingPolicy } from '@/lib/pricing';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 
-import type { MonthVolume, Overview, PriceSummary, TankSummary } from './types';
+import { memberBalance } from '@/lib/billing/invoices';
+import { currentPeriod, periodToDate } from '@/lib/billing/periods';
+import { batchNeeds, heldLots, summarizeStock } from '@/lib/supplies';
+import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
 
-export type { MonthVolume, Overview, PriceSummary, TankSummary };
+export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
 
 const q = <T extends object>(sql: string, replacements: Record<string, unknown>) => sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
 
@@ -51,6 +54,94 @@ export async function getPriceSummary(coopId: number, avgCostCentsPerGallon: num
   return { kind: p.kind, centsPerGallon: b.totalCents, roadTaxCentsPerGallon: Number(p.tax) };
 }
 
+const WORKING = `('reacting','settling','draining','washing','drying','testing')`;
+
+/** Batches under way, the next planned batch, and whether the chemicals it uses are covered. */
+export async function getBrewerSection(coopId: number): Promise<BrewerSection> {
+  const [working, lots, needs] = await Promise.all([
+    q<{ id: number; number: number; status: string; oil_liters: string; status_changed_at: Date }>(
+      `SELECT id, number, status, oil_liters, status_changed_at FROM batches WHERE coop_id = :c AND status IN ${WORKING} ORDER BY number LIMIT 10`,
+      { c: coopId },
+    ),
+    heldLots(coopId, ['methanol', 'KOH', 'NaOH']),
+    batchNeeds(coopId),
+  ]);
+  const summary = summarizeStock(lots, needs);
+  let nextPlanned: BrewerSection['nextPlanned'] = null;
+  if (needs.next) {
+    const [n] = await q<{ batch_date: string; oil_liters: string }>(`SELECT to_char(batch_date, 'YYYY-MM-DD') AS batch_date, oil_liters FROM batches WHERE id = :id AND coop_id = :c`, { id: needs.next.id, c: coopId });
+    nextPlanned = { id: needs.next.id, number: needs.next.number, batchDate: n?.batch_date ?? '', oilLiters: Number(n?.oil_liters ?? 0), catalyst: needs.next.catalyst };
+  }
+  return {
+    inProgress: working.map((b) => ({ id: b.id, number: b.number, status: b.status, oilLiters: Number(b.oil_liters), since: new Date(b.status_changed_at).toISOString() })),
+    nextPlanned,
+    stock: summary.lines.filter((l) => l.nextPlannedNeed !== null).map((l) => ({ kind: l.kind, unit: l.unit, available: l.available, need: l.nextPlannedNeed!, low: l.low })),
+  };
+}
+
+/** This month's invoiced / paid / outstanding (issued invoices) and payments waiting to be matched. */
+export async function getTreasurerSection(coopId: number, timeZone: string): Promise<TreasurerSection> {
+  const period = currentPeriod(timeZone);
+  const [r] = await q<Record<string, string>>(
+    `SELECT
+       COALESCE(SUM(total_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS invoiced,
+       COALESCE(SUM(paid_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS paid,
+       COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)) FILTER (WHERE kind = 'invoice' AND status IN ('issued','partly-paid')), 0) AS outstanding,
+       COUNT(*) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')) AS invoices,
+       COUNT(*) FILTER (WHERE kind = 'invoice' AND status = 'draft') AS drafts,
+       (SELECT COUNT(*) FROM payments p WHERE p.coop_id = :c AND p.unallocated_cents > 0) AS unmatched,
+       (SELECT COALESCE(SUM(p.unallocated_cents), 0) FROM payments p WHERE p.coop_id = :c AND p.unallocated_cents > 0) AS unmatched_cents
+     FROM invoices WHERE coop_id = :c AND period = CAST(:period AS date)`,
+    { c: coopId, period: periodToDate(period) },
+  );
+  const n = (k: string) => Number(r?.[k] ?? 0);
+  return {
+    period, invoicedCents: n('invoiced'), paidCents: n('paid'), outstandingCents: n('outstanding'), invoices: n('invoices'), drafts: n('drafts'),
+    unmatchedPayments: n('unmatched'), unmatchedCents: n('unmatched_cents'),
+  };
+}
+
+/**
+ * The last 12 released batches' cost per US gallon by kind, from the costs stored at release
+ * (cents ÷ gallons released), oldest first.
+ */
+export async function getBatchCosts(coopId: number, timeZone: string): Promise<BatchCost[]> {
+  const rows = await q<Record<string, string | number>>(
+    `SELECT number, to_char(released_at AT TIME ZONE :tz, 'YYYY-MM-DD') AS released_on, released_liters,
+            cost_methanol_cents * :lpg / released_liters AS methanol, cost_catalyst_cents * :lpg / released_liters AS catalyst,
+            cost_energy_cents * :lpg / released_liters AS energy, cost_feedstock_cents * :lpg / released_liters AS feedstock,
+            cost_other_cents * :lpg / released_liters AS other, total_cost_cents * :lpg / released_liters AS total
+     FROM batches WHERE coop_id = :c AND status = 'released' ORDER BY number DESC LIMIT 12`,
+    { c: coopId, tz: timeZone, lpg: LITERS_PER_US_GALLON },
+  );
+  const r2 = (v: unknown) => Math.round(Number(v) * 100) / 100;
+  return rows.reverse().map((b) => ({
+    number: Number(b.number), releasedOn: String(b.released_on), releasedLiters: Number(b.released_liters),
+    methanol: r2(b.methanol), catalyst: r2(b.catalyst), energy: r2(b.energy), feedstock: r2(b.feedstock), other: r2(b.other), totalCentsPerGallon: r2(b.total),
+  }));
+}
+
+/** Members owing the most on issued invoices (top 10), how many owe anything, and the total. */
+export async function getBalances(coopId: number): Promise<NonNullable<Overview['balances']>> {
+  const rows = await q<{ membership_id: number; name: string; outstanding: string; members: string; total: string }>(
+    `WITH owing AS (
+       SELECT membership_id, SUM(GREATEST(total_cents - paid_cents, 0)) AS outstanding FROM invoices
+       WHERE coop_id = :c AND kind = 'invoice' AND status IN ('issued','partly-paid') GROUP BY membership_id HAVING SUM(GREATEST(total_cents - paid_cents, 0)) > 0
+     ), totals AS (SELECT COUNT(*) AS members, COALESCE(SUM(outstanding), 0) AS total FROM owing)
+     SELECT o.membership_id, u.name, o.outstanding, totals.members, totals.total
+     FROM totals LEFT JOIN LATERAL (SELECT * FROM owing ORDER BY outstanding DESC, membership_id LIMIT 10) o ON true
+     LEFT JOIN memberships m ON m.id = o.membership_id AND m.coop_id = :c LEFT JOIN users u ON u.id = m.user_id
+     ORDER BY o.outstanding DESC NULLS LAST, o.membership_id`,
+    { c: coopId },
+  );
+  const first = rows[0];
+  return {
+    topOwing: rows.filter((r) => r.membership_id !== null).map((r) => ({ membershipId: r.membership_id, name: r.name ?? 'Former member', outstandingCents: Number(r.outstanding) })),
+    membersOwing: Number(first?.members ?? 0),
+    totalOutstandingCents: Number(first?.total ?? 0),
+  };
+}
+
 /**
  * The first screen of a co-op, different by role: everyone sees the tank and the price; members
  * their open reservations; admins pending invitations and recent changes. Chart series are SQL
@@ -60,7 +151,9 @@ export async function getOverview(actor: Actor): Promise<Overview> {
   const c = actor.coop.id;
   const tz = actor.coop.timezone;
   const tank = await getTankSummary(c);
-  const [price, volumes, level, reservations, admin] = await Promise.all([
+  const isBrewer = can(actor.role, 'batches:read-all');
+  const isTreasurer = can(actor.role, 'billing:manage');
+  const [price, volumes, level, reservations, admin, account, brewer, treasurer, batchCosts, balances] = await Promise.all([
     getPriceSummary(c, tank.avgCostCentsPerGallon),
     q<{ month: string; released: string; drawn: string }>(
       `WITH months AS (
@@ -113,6 +206,11 @@ export async function getOverview(actor: Actor): Promise<Overview> {
           ),
         ])
       : null,
+    memberBalance(c, actor.membershipId),
+    isBrewer ? getBrewerSection(c) : null,
+    isTreasurer ? getTreasurerSection(c, tz) : null,
+    isBrewer || can(actor.role, 'reports:read') ? getBatchCosts(c, tz) : null,
+    isTreasurer ? getBalances(c) : null,
   ]);
   return {
     role: actor.role,
@@ -123,6 +221,11 @@ export async function getOverview(actor: Actor): Promise<Overview> {
     member: {
       openReservations: reservations.map((r) => ({ id: r.id, tankName: r.tank_name, quantityLiters: r.quantity_liters, windowEnd: new Date(r.window_end).toISOString() })),
     },
+    account,
+    ...(brewer ? { brewer } : {}),
+    ...(treasurer ? { treasurer } : {}),
+    ...(batchCosts ? { batchCosts } : {}),
+    ...(balances ? { balances } : {}),
     ...(admin
       ? {
           admin: {

@@ -30,5 +30,49 @@ export interface Overview {
   volumes: MonthVolume[];
   tankLevel: { day: string; onHandLiters: number }[];
   member: { openReservations: { id: number; tankName: string; quantityLiters: string; windowEnd: string }[] };
+  /** My own account: unpaid balance of issued invoices and credit held (everyone is a member). */
+  account: { outstandingCents: number; creditCents: number; unallocatedCents: number };
+  /** Brewers and admins. */
+  brewer?: BrewerSection;
+  /** Treasurers and admins. */
+  treasurer?: TreasurerSection;
+  /** Brewers, treasurers and admins: the last released batches' cost per gallon, oldest first. */
+  batchCosts?: BatchCost[];
+  /** Treasurers and admins: who owes the most. */
+  balances?: { topOwing: { membershipId: number; name: string; outstandingCents: number }[]; membersOwing: number; totalOutstandingCents: number };
   admin?: { pendingInvitations: number; notSentInvitations: number; recentEvents: { at: string; who: string | null; action: string }[] };
+}
+
+export interface BrewerSection {
+  inProgress: { id: number; number: number; status: string; oilLiters: number; since: string }[];
+  nextPlanned: { id: number; number: number; batchDate: string; oilLiters: number; catalyst: 'KOH' | 'NaOH' } | null;
+  /** Stock of the chemicals the next planned batch uses: methanol in litres, catalyst in grams. */
+  stock: { kind: 'methanol' | 'KOH' | 'NaOH'; unit: 'L' | 'g'; available: number; need: number; low: boolean }[];
+}
+
+export interface TreasurerSection {
+  /** YYYY-MM in the co-op's time zone. */
+  period: string;
+  invoicedCents: number;
+  paidCents: number;
+  outstandingCents: number;
+  /** Issued invoices of the month, and drafts not issued yet. */
+  invoices: number;
+  drafts: number;
+  /** Payments (any month) with money not yet matched to an invoice. */
+  unmatchedPayments: number;
+  unmatchedCents: number;
+}
+
+/** One released batch's cost per US gallon, split by kind (cents, may carry fractions). */
+export interface BatchCost {
+  number: number;
+  releasedOn: string;
+  releasedLiters: number;
+  methanol: number;
+  catalyst: number;
+  energy: number;
+  feedstock: number;
+  other: number;
+  totalCentsPerGallon: number;
 }

@@ -56,6 +56,11 @@ export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarter
        FROM bounds b LEFT JOIN tank_movements t ON t.coop_id = :coopId AND t.kind = 'release' AND t.occurred_at >= b.lo AND t.occurred_at < b.hi
        GROUP BY b.m
      ),
+     prod AS (
+       SELECT b.m, COALESCE(SUM(x.released_liters), 0) AS produced
+       FROM bounds b LEFT JOIN batches x ON x.coop_id = :coopId AND x.status = 'released' AND x.released_at >= b.lo AND x.released_at < b.hi
+       GROUP BY b.m
+     ),
      dr AS (
        SELECT b.m,
          COALESCE(SUM(d.quantity_liters) FILTER (WHERE d.declared_use = 'road'), 0) AS road,
@@ -67,7 +72,7 @@ export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarter
        GROUP BY b.m
      )
      SELECT to_char(b.m, 'YYYY-MM') AS month, ${PRODUCED_SQL} AS produced, rel.released, dr.road, dr.off_road, dr.heating, dr.road_tax, dr.draws
-     FROM bounds b JOIN rel ON rel.m = b.m JOIN dr ON dr.m = b.m ORDER BY b.m`,
+     FROM bounds b JOIN rel ON rel.m = b.m JOIN prod ON prod.m = b.m JOIN dr ON dr.m = b.m ORDER BY b.m`,
     { replacements: { coopId: actor.coop.id, tz: actor.coop.timezone, start }, type: QueryTypes.SELECT },
   );
   const months = rows.map<VolumeRow>((r) => ({
@@ -108,7 +113,12 @@ export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarter
   };
 }
 
-/** Produced = fuel released into tanks by batches finished in the month (same as released until batch records land). */
-const PRODUCED_SQL = 'rel.released';
+/**
+ * Produced = the finished fuel of batches completed in the month: the volume of batches released
+ * then (by their release time). A rejected batch records no fuel volume (the batches table keeps
+ * released_liters for released batches only), so it adds nothing. "Released" is every release
+ * movement into a tank, so the two differ when fuel enters a tank other than from a batch record.
+ */
+const PRODUCED_SQL = 'prod.produced';
 
 const fixed = (v: string | number) => Number(v).toFixed(3);

@@ -8,6 +8,7 @@ import { gallonsToLiters, volumeToLiters } from '@/lib/units';
 import type { ChemicalLotCreateInput, OilLotCreateInput } from '@/lib/validation/brewing';
 import { ChemicalLot, OilLot, sequelize } from '@/models';
 import type { CheckedUpload } from '@/lib/batches/upload';
+import { checkLowStock } from './low-stock';
 
 export type ChemicalKind = 'methanol' | 'KOH' | 'NaOH' | 'other';
 
@@ -129,7 +130,7 @@ export async function createChemicalLot(actor: Actor, input: ChemicalLotCreateIn
   const stored = toStoredQuantity(input.quantity, input.unit);
   const qty = stored.quantity.toFixed(3);
   if (Number(qty) <= 0) throw new HttpError(422, 'Some fields need attention.', { quantity: ['Quantity is too small to record.'] });
-  return sequelize.transaction(async (transaction) => {
+  const created = await sequelize.transaction(async (transaction) => {
     const lot = await ChemicalLot.create(
       {
         coopId: actor.coop.id, kind: input.kind, description: input.description ?? null, supplier: input.supplier,
@@ -143,6 +144,8 @@ export async function createChemicalLot(actor: Actor, input: ChemicalLotCreateIn
     await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'chemical-lot.create', entityType: 'chemical_lot', entityId: lot.id, after: dto }, transaction);
     return dto;
   });
+  await checkLowStock(actor.coop.id);
+  return created;
 }
 
 async function readChemical(coopId: number, id: number, transaction?: Transaction): Promise<ChemicalLotDto> {

@@ -1,9 +1,10 @@
 import Link from 'next/link';
+import { BalancesChart, BatchCostChart } from '@/components/overview/cost-charts';
 import { TankLevelCard } from '@/components/overview/tank-level-card';
 import { VolumeCharts } from '@/components/overview/volume-charts';
 import { Card, EmptyState } from '@/components/ui/notice';
 import { requireMember } from '@/lib/auth';
-import { formatRateCents } from '@/lib/money';
+import { formatCents, formatRateCents } from '@/lib/money';
 import { getOverview } from '@/lib/overview';
 import { formatVolume } from '@/lib/units';
 
@@ -16,6 +17,8 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
   const units = actor.coop.units;
   const base = `/c/${actor.coop.slug}`;
   const perUnit = units === 'us' ? 'gal' : 'L';
+  const money = (cents: number) => formatCents(cents, actor.coop.currency);
+  const chem = (kind: string, v: number) => (kind === 'methanol' ? formatVolume(Math.max(v, 0), units, 1) : `${Math.round(Math.max(v, 0)).toLocaleString('en-US')} g`);
   const rate = (centsPerGallon: number) => formatRateCents(units === 'us' ? centsPerGallon : centsPerGallon / 3.785411784, actor.coop.currency);
   return (
     <div className="flex flex-col gap-5">
@@ -55,6 +58,78 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
         )}
       </Card>
 
+      <Card title="My account">
+        {o.account.outstandingCents > 0 ? (
+          <p className="text-sm"><strong className="text-2xl text-fir-800 tabular-nums">{money(o.account.outstandingCents)}</strong> unpaid on your invoices.</p>
+        ) : (
+          <p className="text-sm">Nothing unpaid — you are all square.</p>
+        )}
+        {o.account.creditCents > 0 ? <p className="mt-1 text-sm text-stone-600">You have {money(o.account.creditCents)} in credit, applied to your next invoice.</p> : null}
+        {o.account.unallocatedCents > 0 ? <p className="mt-1 text-sm text-stone-600">{money(o.account.unallocatedCents)} of your payments is waiting for the treasurer to match it.</p> : null}
+        <p className="mt-2 text-sm"><Link href={`${base}/invoices`}>See and pay my invoices</Link></p>
+      </Card>
+
+      {o.brewer ? (
+        <section aria-labelledby="brewing-heading" className="flex flex-col gap-3">
+          <h2 id="brewing-heading">Brewing</h2>
+          <div className="grid gap-4 md:grid-cols-2">
+            <Card title="Batches under way">
+              {o.brewer.inProgress.length === 0 ? (
+                <p className="text-sm text-stone-600">No batch is under way.</p>
+              ) : (
+                <ul className="divide-y divide-stone-100">
+                  {o.brewer.inProgress.map((b) => (
+                    <li key={b.id} className="flex justify-between gap-2 py-2 text-sm">
+                      <Link href={`${base}/batches/${b.id}`}>Batch {b.number}</Link>
+                      <span className="text-stone-600">{b.status}, {formatVolume(b.oilLiters, units, 0)} of oil</span>
+                    </li>
+                  ))}
+                </ul>
+              )}
+              <p className="mt-2 text-sm"><Link href={`${base}/batches`}>All batches</Link></p>
+            </Card>
+            <Card title="Next planned batch">
+              {o.brewer.nextPlanned ? (
+                <>
+                  <p className="text-sm">
+                    <Link href={`${base}/batches/${o.brewer.nextPlanned.id}`}>Batch {o.brewer.nextPlanned.number}</Link>: {formatVolume(o.brewer.nextPlanned.oilLiters, units, 0)} of oil with {o.brewer.nextPlanned.catalyst}, planned for {o.brewer.nextPlanned.batchDate}.
+                  </p>
+                  <ul className="mt-2 flex flex-col gap-1 text-sm">
+                    {o.brewer.stock.map((s) => (
+                      <li key={s.kind} className={s.low ? 'font-medium text-danger-700' : 'text-stone-700'}>
+                        {s.low ? 'Short: ' : 'Covered: '}{s.kind} — {chem(s.kind, s.available)} available, needs {chem(s.kind, s.need)}
+                      </li>
+                    ))}
+                  </ul>
+                  <p className="mt-2 text-sm"><Link href={`${base}/supplies`}>Supplies and stock</Link></p>
+                </>
+              ) : (
+                <p className="text-sm text-stone-600">No batch is planned. <Link href={`${base}/planner`}>Plan one</Link> to check the chemicals it needs.</p>
+              )}
+            </Card>
+          </div>
+        </section>
+      ) : null}
+
+      {o.treasurer ? (
+        <section aria-labelledby="billing-heading" className="flex flex-col gap-3">
+          <h2 id="billing-heading">Billing this month</h2>
+          <Card>
+            <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4">
+              <div><dt className="text-sm text-stone-600">Invoiced ({o.treasurer.period})</dt><dd className="text-xl font-bold tabular-nums">{money(o.treasurer.invoicedCents)}</dd></div>
+              <div><dt className="text-sm text-stone-600">Paid</dt><dd className="text-xl font-bold tabular-nums">{money(o.treasurer.paidCents)}</dd></div>
+              <div><dt className="text-sm text-stone-600">Outstanding</dt><dd className="text-xl font-bold tabular-nums">{money(o.treasurer.outstandingCents)}</dd></div>
+              <div><dt className="text-sm text-stone-600">Unmatched payments</dt><dd className="text-xl font-bold tabular-nums">{o.treasurer.unmatchedPayments}</dd></div>
+            </dl>
+            <p className="mt-2 text-sm text-stone-600">
+              {o.treasurer.invoices} invoice{o.treasurer.invoices === 1 ? '' : 's'} issued{o.treasurer.drafts ? `, ${o.treasurer.drafts} draft${o.treasurer.drafts === 1 ? '' : 's'} waiting` : ''}
+              {o.treasurer.unmatchedPayments ? `; ${money(o.treasurer.unmatchedCents)} received but not matched to an invoice` : ''}.
+            </p>
+            <p className="mt-2 text-sm"><Link href={`${base}/billing`}>Open billing</Link></p>
+          </Card>
+        </section>
+      ) : null}
+
       {o.admin ? (
         <div className="grid gap-4 md:grid-cols-2">
           <Card title="Invitations">
@@ -80,6 +155,19 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
       ) : null}
 
       <VolumeCharts units={units} volumes={o.volumes} level={o.tankLevel} />
+      {o.batchCosts || o.balances ? (
+        <div className="grid gap-4 lg:grid-cols-2">
+          {o.batchCosts ? <BatchCostChart units={units} currency={actor.coop.currency} costs={o.batchCosts} /> : null}
+          {o.balances ? (
+            <div className="flex flex-col gap-2">
+              <BalancesChart currency={actor.coop.currency} rows={o.balances.topOwing} />
+              <p className="text-sm text-stone-600">
+                {o.balances.membersOwing === 0 ? 'No member owes anything on issued invoices.' : `${o.balances.membersOwing} member${o.balances.membersOwing === 1 ? ' owes' : 's owe'} ${money(o.balances.totalOutstandingCents)} in all.`}
+              </p>
+            </div>
+          ) : null}
+        </div>
+      ) : null}
     </div>
   );
 }
