@@ -1,4 +1,4 @@
-import { makeCoop, startStack } from '/work/main/bench/lib.mjs';
+import { makeCoop, startStack } from './lib.mjs';
 const stack = await startStack({ name: 'explain' });
 const { pool } = stack;
 const coop = await makeCoop(pool, 'ex');
@@ -15,11 +15,10 @@ await pool.query(`WITH m AS (SELECT array_agg(id) ids FROM memberships WHERE coo
 await pool.query('ANALYZE');
 const tz = 'America/Chicago';
 const qs = {
- volumes: `WITH months AS (SELECT generate_series(date_trunc('month', now() AT TIME ZONE '${tz}') - interval '11 months', date_trunc('month', now() AT TIME ZONE '${tz}'), interval '1 month') AS m)
-       SELECT to_char(m.m, 'YYYY-MM') AS month,
-         (SELECT COALESCE(SUM(quantity_liters),0) FROM tank_movements t WHERE t.coop_id = ${c} AND t.kind = 'release' AND t.occurred_at >= (m.m AT TIME ZONE '${tz}') AND t.occurred_at < ((m.m + interval '1 month') AT TIME ZONE '${tz}')) AS released,
-         (SELECT COALESCE(SUM(quantity_liters),0) FROM draws d WHERE d.coop_id = ${c} AND d.occurred_at >= (m.m AT TIME ZONE '${tz}') AND d.occurred_at < ((m.m + interval '1 month') AT TIME ZONE '${tz}')) AS drawn
-       FROM months m ORDER BY m.m`,
+ volumes: `WITH months AS (SELECT generate_series(date_trunc('month', now() AT TIME ZONE '${tz}') - interval '11 months', date_trunc('month', now() AT TIME ZONE '${tz}'), interval '1 month') AS m), since AS (SELECT (MIN(m) AT TIME ZONE '${tz}') AS lo FROM months),
+       rel AS (SELECT date_trunc('month', t.occurred_at AT TIME ZONE '${tz}') AS m, SUM(t.quantity_liters) AS q FROM tank_movements t, since WHERE t.coop_id = ${c} AND t.kind = 'release' AND t.occurred_at >= since.lo GROUP BY 1),
+       dr AS (SELECT date_trunc('month', d.occurred_at AT TIME ZONE '${tz}') AS m, SUM(d.quantity_liters) AS q FROM draws d, since WHERE d.coop_id = ${c} AND d.occurred_at >= since.lo GROUP BY 1)
+       SELECT to_char(months.m, 'YYYY-MM') AS month, COALESCE(rel.q, 0) AS released, COALESCE(dr.q, 0) AS drawn FROM months LEFT JOIN rel ON rel.m = months.m LEFT JOIN dr ON dr.m = months.m ORDER BY months.m`,
  level: `WITH days AS (SELECT generate_series((now() AT TIME ZONE '${tz}')::date - 89, (now() AT TIME ZONE '${tz}')::date, interval '1 day')::date AS d)
        SELECT to_char(days.d, 'YYYY-MM-DD') AS day, COALESCE(SUM(x.on_hand_after_liters), 0) AS on_hand FROM days CROSS JOIN tanks t
        LEFT JOIN LATERAL (SELECT m.on_hand_after_liters FROM tank_movements m WHERE m.coop_id = ${c} AND m.tank_id = t.id AND m.occurred_at < ((days.d + 1)::timestamp AT TIME ZONE '${tz}') ORDER BY m.occurred_at DESC, m.id DESC LIMIT 1) x ON true

@@ -16,7 +16,7 @@ import { startMailCatcher, startPaymentsFake } from '../scripts/lib/fakes.mjs';
 export const PASSWORD = 'bench-password-2026';
 
 /** Starts everything; returns { baseUrl, pool, stop }. */
-export async function startStack({ name }) {
+export async function startStack({ name, databaseUrlSuffix = '' }) {
   buildIfNeeded({ log: (m) => console.log('[bench]', m) });
   const root = path.resolve('.data', `bench-${name}`);
   stopLeftover(path.join(root, 'pg'));
@@ -35,7 +35,7 @@ export async function startStack({ name }) {
   const baseUrl = `http://127.0.0.1:${port}`;
   const next = spawn(process.execPath, [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], {
     env: {
-      ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: pgSrv.url, APP_URL: baseUrl, NEXTAUTH_URL: baseUrl,
+      ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: pgSrv.url + databaseUrlSuffix, APP_URL: baseUrl, NEXTAUTH_URL: baseUrl,
       NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtpPort),
       STRIPE_SECRET_KEY: 'sk_test_bench', STRIPE_API_HOST: '127.0.0.1', STRIPE_API_PORT: String(paymentsPort), STRIPE_API_PROTOCOL: 'http',
       STRIPE_WEBHOOK_SECRET: 'whsec_bench', STORAGE_DIR: path.join(root, 'uploads'), DB_POOL_MAX: '20',
@@ -52,7 +52,7 @@ export async function startStack({ name }) {
   }
   const pool = new pg.Pool({ connectionString: pgSrv.url, max: 4 });
   stops.unshift(() => pool.end());
-  return { baseUrl, pool, databaseUrl: pgSrv.url, stop: async () => { for (const s of stops) await s(); } };
+  return { baseUrl, pool, databaseUrl: pgSrv.url, root, stop: async () => { for (const s of stops) await s(); } };
 }
 
 /** Inserts a co-op with one user per role (same password); returns ids and e-mails. */

@@ -8,7 +8,7 @@ import { LITERS_PER_US_GALLON } from '@/lib/units';
 
 import { memberBalance } from '@/lib/billing/invoices';
 import { currentPeriod, periodToDate } from '@/lib/billing/periods';
-import { batchNeeds, heldLots, summarizeStock } from '@/lib/supplies';
+import { batchNeeds, stockTotals, summarizeStock } from '@/lib/supplies';
 import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
 
 export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
@@ -63,7 +63,7 @@ export async function getBrewerSection(coopId: number): Promise<BrewerSection> {
       `SELECT id, number, status, oil_liters, status_changed_at FROM batches WHERE coop_id = :c AND status IN ${WORKING} ORDER BY number LIMIT 10`,
       { c: coopId },
     ),
-    heldLots(coopId, ['methanol', 'KOH', 'NaOH']),
+    stockTotals(coopId, ['methanol', 'KOH', 'NaOH']),
     batchNeeds(coopId),
   ]);
   const summary = summarizeStock(lots, needs);
@@ -143,6 +143,24 @@ export async function getBalances(coopId: number): Promise<NonNullable<Overview[
 }
 
 /**
+ * The 12-month and 90-day chart series aggregate tens of thousands of rows (≈30 ms of database
+ * time on the benchmark co-op), so each co-op's series are kept for CHART_TTL_MS in this process.
+ * Only a speed-up: figures on cards (tank, price, balances) are always read fresh, and a chart
+ * is at most a minute behind. Each app instance keeps its own copy; nothing depends on it.
+ */
+const CHART_TTL_MS = 60_000;
+const chartMemo = new Map<string, { at: number; value: Promise<unknown> }>();
+function chartCache<T>(key: string, load: () => Promise<T>): Promise<T> {
+  const hit = chartMemo.get(key);
+  if (hit && Date.now() - hit.at < CHART_TTL_MS) return hit.value as Promise<T>;
+  const value = load();
+  chartMemo.set(key, { at: Date.now(), value });
+  value.catch(() => chartMemo.delete(key));
+  if (chartMemo.size > 5_000) chartMemo.delete(chartMemo.keys().next().value!);
+  return value;
+}
+
+/**
  * The first screen of a co-op, different by role: everyone sees the tank and the price; members
  * their open reservations; admins pending invitations and recent changes. Chart series are SQL
  * aggregates (months in the co-op's time zone), never rows loaded into JavaScript.
@@ -155,7 +173,7 @@ export async function getOverview(actor: Actor): Promise<Overview> {
   const isTreasurer = can(actor.role, 'billing:manage');
   const [price, volumes, level, reservations, admin, account, brewer, treasurer, batchCosts, balances] = await Promise.all([
     getPriceSummary(c, tank.avgCostCentsPerGallon),
-    q<{ month: string; released: string; drawn: string }>(
+    chartCache(`volumes:${c}:${tz}`, () => q<{ month: string; released: string; drawn: string }>(
       `WITH months AS (
          SELECT generate_series(date_trunc('month', now() AT TIME ZONE :tz) - interval '11 months', date_trunc('month', now() AT TIME ZONE :tz), interval '1 month') AS m
        ), since AS (SELECT (MIN(m) AT TIME ZONE :tz) AS lo FROM months),
@@ -170,8 +188,8 @@ export async function getOverview(actor: Actor): Promise<Overview> {
        SELECT to_char(months.m, 'YYYY-MM') AS month, COALESCE(rel.q, 0) AS released, COALESCE(dr.q, 0) AS drawn
        FROM months LEFT JOIN rel ON rel.m = months.m LEFT JOIN dr ON dr.m = months.m ORDER BY months.m`,
       { c, tz },
-    ),
-    q<{ day: string; on_hand: string }>(
+    )),
+    chartCache(`level:${c}:${tz}`, () => q<{ day: string; on_hand: string }>(
       `WITH days AS (
          SELECT generate_series((now() AT TIME ZONE :tz)::date - 89, (now() AT TIME ZONE :tz)::date, interval '1 day')::date AS d
        )
@@ -185,7 +203,7 @@ export async function getOverview(actor: Actor): Promise<Overview> {
        WHERE t.coop_id = :c AND t.active
        GROUP BY days.d ORDER BY days.d`,
       { c, tz },
-    ),
+    )),
     q<{ id: number; tank_name: string; quantity_liters: string; window_end: Date }>(
       `SELECT r.id, t.name AS tank_name, r.quantity_liters, r.window_end FROM reservations r JOIN tanks t ON t.id = r.tank_id AND t.coop_id = r.coop_id
        WHERE r.coop_id = :c AND r.membership_id = :m AND r.status = 'open' AND r.window_end >= now() ORDER BY r.window_end LIMIT 10`,

@@ -342,6 +342,22 @@ export async function heldLots(coopId: number, kinds: HeldLot['kind'][], transac
   }));
 }
 
+/**
+ * Stock on hand per chemical as one aggregated entry per kind (summed in SQL), for summaries
+ * that need totals only — e.g. the overview — instead of every lot with stock.
+ */
+export async function stockTotals(coopId: number, kinds: HeldLot['kind'][]): Promise<HeldLot[]> {
+  const rows = await sequelize.query<{ kind: HeldLot['kind']; remaining: string; quantity: string; cost: string }>(
+    `SELECT kind, SUM(remaining_quantity) AS remaining, SUM(quantity) AS quantity, SUM(total_cost_cents) AS cost FROM chemical_lots
+      WHERE coop_id = :coopId AND kind IN (:kinds) AND remaining_quantity > 0 GROUP BY kind`,
+    { replacements: { coopId, kinds }, type: QueryTypes.SELECT },
+  );
+  return rows.map((r, i) => ({
+    id: -(i + 1), kind: r.kind, receivedOn: '', quantity: Number(r.quantity), remaining: Number(r.remaining),
+    totalCostCents: Number(r.cost), purityPct: null,
+  }));
+}
+
 /** What batches under way have committed of each chemical, and the next planned batch with its needs. */
 export interface BatchNeeds {
   committed: Record<'methanol' | 'KOH' | 'NaOH', number>;
