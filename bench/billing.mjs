@@ -44,6 +44,19 @@ try {
   const client = new pg.Client(db.url);
   await client.connect();
   const q = (sql, params) => client.query(sql, params);
+  if (process.env.BENCH_LOG_SLOW) {
+    // Log every statement slower than BENCH_LOG_SLOW ms to the cluster's server.log.
+    await q(`ALTER SYSTEM SET log_min_duration_statement = ${Number(process.env.BENCH_LOG_SLOW)}`);
+    if (process.env.BENCH_EXPLAIN) {
+      // …and their plans (auto_explain, with actual row counts).
+      await q(`LOAD 'auto_explain'`);
+      await q(`ALTER SYSTEM SET session_preload_libraries = 'auto_explain'`);
+      await q(`ALTER SYSTEM SET auto_explain.log_min_duration = ${Number(process.env.BENCH_LOG_SLOW)}`);
+      await q(`ALTER SYSTEM SET auto_explain.log_analyze = on`);
+      await q(`ALTER SYSTEM SET auto_explain.log_nested_statements = on`);
+    }
+    await q('SELECT pg_reload_conf()');
+  }
 
   // Last month in Chicago, the co-op's time zone.
   const now = new Intl.DateTimeFormat('en-CA', { timeZone: 'America/Chicago', year: 'numeric', month: '2-digit' }).format(new Date());
@@ -192,4 +205,5 @@ try {
   await client.end();
 } finally {
   await stopAll();
+  if (process.env.BENCH_LOG_SLOW) log(`slow statements: ${path.join(root, 'pg')}/**/server.log`);
 }

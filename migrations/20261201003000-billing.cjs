@@ -122,8 +122,12 @@ module.exports = {
       await q(`
         CREATE TABLE invoice_lines (
           id BIGSERIAL PRIMARY KEY,
-          coop_id INTEGER NOT NULL REFERENCES coops(id) ON DELETE CASCADE,
-          invoice_id INTEGER NOT NULL,
+          -- The line's co-op must be its invoice's co-op: checked by the statement trigger below with
+          -- primary-key lookups. (A composite foreign key to invoices (coop_id, id) lets the planner
+          -- cache a plan on the (coop_id, period, status) index for its per-row check, which turns a
+          -- 10,000-member run quadratic.)
+          coop_id INTEGER NOT NULL,
+          invoice_id INTEGER NOT NULL REFERENCES invoices(id) ON DELETE CASCADE,
           sort_key INTEGER NOT NULL,
           kind VARCHAR(16) NOT NULL CHECK (kind IN ('draw','draw-reversal','dues','surcharge','road-tax','adjustment','credit')),
           description VARCHAR(240) NOT NULL,
@@ -135,7 +139,6 @@ module.exports = {
           adjustment_id INTEGER REFERENCES billing_adjustments(id),
           released BOOLEAN NOT NULL DEFAULT false,
           created_at TIMESTAMPTZ NOT NULL DEFAULT now(),
-          FOREIGN KEY (coop_id, invoice_id) REFERENCES invoices (coop_id, id) ON DELETE CASCADE,
           CHECK (draw_id IS NULL OR kind IN ('draw','draw-reversal')),
           CHECK (adjustment_id IS NULL OR kind = 'adjustment'),
           CHECK (kind <> 'credit' OR amount_cents <= 0)
@@ -169,6 +172,7 @@ module.exports = {
           CHECK (status <> 'succeeded' OR stripe_charge_id IS NOT NULL)
         )`);
       await q(`CREATE INDEX payment_attempts_coop_id ON payment_attempts (coop_id, status)`);
+      await q(`CREATE INDEX payment_attempts_invoice ON payment_attempts (coop_id, invoice_id)`);
       await q(`CREATE UNIQUE INDEX payment_attempts_one_open_per_invoice ON payment_attempts (invoice_id) WHERE status = 'pending'`);
 
       await q(`
@@ -243,6 +247,7 @@ module.exports = {
           created_at TIMESTAMPTZ NOT NULL DEFAULT now()
         )`);
       await q(`CREATE INDEX member_credits_coop_member ON member_credits (coop_id, membership_id)`);
+      await q(`CREATE INDEX member_credits_invoice ON member_credits (invoice_id) WHERE invoice_id IS NOT NULL`);
 
       // Events from the payments provider. Not owned by one co-op until we recognise it: coop_id
       // is filled from the event's metadata when it names one of ours (NULL for foreign events).
@@ -286,6 +291,8 @@ module.exports = {
 
       // Invoices: issued ones keep their content; a closed month's invoices change only in what
       // later payments and e-mails touch (paid amount, paid status, sending status).
+      // Inserts and deletes are checked once per statement; updates row by row (comparing OLD with
+      // NEW needs no join, which the planner would do as a nested loop over two transition tables).
       await q(`
         CREATE FUNCTION billing_lock_invoices() RETURNS trigger LANGUAGE plpgsql AS $$
         DECLARE hit DATE;
@@ -294,88 +301,106 @@ module.exports = {
             SELECT n.period INTO hit FROM new_rows n JOIN billing_periods bp
               ON bp.coop_id = n.coop_id AND bp.period = n.period AND bp.status = 'closed' LIMIT 1;
             IF hit IS NOT NULL THEN RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = ${CLOSED_MSG}; END IF;
-          ELSIF TG_OP = 'DELETE' THEN
+          ELSE
             IF EXISTS (SELECT 1 FROM old_rows WHERE status <> 'draft') THEN
               RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Issued invoices are never deleted; void them with a credit note.';
             END IF;
             SELECT o.period INTO hit FROM old_rows o JOIN billing_periods bp
               ON bp.coop_id = o.coop_id AND bp.period = o.period AND bp.status = 'closed' LIMIT 1;
             IF hit IS NOT NULL THEN RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = ${CLOSED_MSG}; END IF;
-          ELSE
-            IF EXISTS (SELECT 1 FROM old_rows o JOIN new_rows n ON n.id = o.id
-                WHERE o.status <> 'draft' AND (n.status = 'draft' OR n.number IS DISTINCT FROM o.number
-                  OR n.total_cents <> o.total_cents OR n.membership_id <> o.membership_id OR n.period <> o.period
-                  OR n.kind <> o.kind OR n.coop_id <> o.coop_id OR n.issued_at IS DISTINCT FROM o.issued_at
-                  OR n.credit_note_for_id IS DISTINCT FROM o.credit_note_for_id
-                  OR (o.status = 'void' AND n.status <> 'void'))) THEN
-              RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'An issued invoice cannot be edited; void it with a credit note and invoice again.';
-            END IF;
-            SELECT o.period INTO hit FROM old_rows o JOIN new_rows n ON n.id = o.id
-              JOIN billing_periods bp ON bp.coop_id = o.coop_id AND bp.period = o.period AND bp.status = 'closed'
-              WHERE o.status = 'draft' OR (n.status = 'void' AND o.status <> 'void') OR n.voided_at IS DISTINCT FROM o.voided_at
-                 OR n.due_on IS DISTINCT FROM o.due_on OR n.void_reason IS DISTINCT FROM o.void_reason
-              LIMIT 1;
-            IF hit IS NOT NULL THEN RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = ${CLOSED_MSG}; END IF;
           END IF;
           RETURN NULL;
         END $$`);
       await q(`CREATE TRIGGER billing_lock_invoices_ins AFTER INSERT ON invoices REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoices()`);
-      await q(`CREATE TRIGGER billing_lock_invoices_upd AFTER UPDATE ON invoices REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoices()`);
       await q(`CREATE TRIGGER billing_lock_invoices_del AFTER DELETE ON invoices REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoices()`);
+      await q(`
+        CREATE FUNCTION billing_lock_invoice_update() RETURNS trigger LANGUAGE plpgsql AS $$
+        DECLARE hit DATE := OLD.period;
+        BEGIN
+          IF OLD.status <> 'draft' AND (NEW.status = 'draft' OR NEW.number IS DISTINCT FROM OLD.number
+              OR NEW.total_cents <> OLD.total_cents OR NEW.membership_id <> OLD.membership_id OR NEW.period <> OLD.period
+              OR NEW.kind <> OLD.kind OR NEW.coop_id <> OLD.coop_id OR NEW.issued_at IS DISTINCT FROM OLD.issued_at
+              OR NEW.credit_note_for_id IS DISTINCT FROM OLD.credit_note_for_id OR (OLD.status = 'void' AND NEW.status <> 'void')) THEN
+            RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'An issued invoice cannot be edited; void it with a credit note and invoice again.';
+          END IF;
+          IF (OLD.status = 'draft' OR (NEW.status = 'void' AND OLD.status <> 'void') OR NEW.voided_at IS DISTINCT FROM OLD.voided_at
+              OR NEW.due_on IS DISTINCT FROM OLD.due_on OR NEW.void_reason IS DISTINCT FROM OLD.void_reason)
+             AND EXISTS (SELECT 1 FROM billing_periods bp WHERE bp.coop_id = OLD.coop_id AND bp.period = OLD.period AND bp.status = 'closed') THEN
+            RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = ${CLOSED_MSG};
+          END IF;
+          RETURN NEW;
+        END $$`);
+      await q(`CREATE TRIGGER billing_lock_invoices_upd BEFORE UPDATE ON invoices FOR EACH ROW EXECUTE FUNCTION billing_lock_invoice_update()`);
 
-      // Lines change only while their invoice is a draft; voiding only flips "released".
+      // Lines change only while their invoice is a draft; voiding only flips "released". The
+      // statement checks look invoices up by primary key (id = ANY(...)), never by a join.
       await q(`
         CREATE FUNCTION billing_lock_invoice_lines() RETURNS trigger LANGUAGE plpgsql AS $$
+        DECLARE r RECORD; inv_coop INTEGER; inv_status VARCHAR;
         BEGIN
           IF TG_OP = 'INSERT' THEN
-            IF EXISTS (SELECT 1 FROM new_rows n JOIN invoices i ON i.id = n.invoice_id
-                WHERE i.status <> 'draft') THEN
-              RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Lines of an issued invoice cannot change.';
-            END IF;
-          ELSIF TG_OP = 'DELETE' THEN
-            IF EXISTS (SELECT 1 FROM old_rows o JOIN invoices i ON i.id = o.invoice_id WHERE i.status <> 'draft') THEN
-              RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Lines of an issued invoice cannot change.';
-            END IF;
+            FOR r IN SELECT DISTINCT invoice_id, coop_id FROM new_rows LOOP
+              SELECT coop_id, status INTO inv_coop, inv_status FROM invoices WHERE id = r.invoice_id;
+              IF inv_coop IS DISTINCT FROM r.coop_id THEN
+                RAISE EXCEPTION USING ERRCODE = '23503', MESSAGE = 'An invoice line must belong to its invoice''s co-op.';
+              END IF;
+              IF inv_status <> 'draft' THEN
+                RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Lines of an issued invoice cannot change.';
+              END IF;
+            END LOOP;
           ELSE
-            IF EXISTS (SELECT 1 FROM old_rows o JOIN new_rows n ON n.id = o.id JOIN invoices i ON i.id = o.invoice_id
-                WHERE i.status <> 'draft' AND NOT (i.status = 'void' AND o.released = false AND n.released = true
-                  AND n.amount_cents = o.amount_cents AND n.invoice_id = o.invoice_id AND n.kind = o.kind
-                  AND n.description = o.description AND n.draw_id IS NOT DISTINCT FROM o.draw_id
-                  AND n.adjustment_id IS NOT DISTINCT FROM o.adjustment_id)) THEN
+            IF EXISTS (SELECT 1 FROM invoices i WHERE i.id = ANY (ARRAY(SELECT DISTINCT invoice_id FROM old_rows)) AND i.status <> 'draft') THEN
               RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Lines of an issued invoice cannot change.';
             END IF;
           END IF;
           RETURN NULL;
         END $$`);
       await q(`CREATE TRIGGER billing_lock_invoice_lines_ins AFTER INSERT ON invoice_lines REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoice_lines()`);
-      await q(`CREATE TRIGGER billing_lock_invoice_lines_upd AFTER UPDATE ON invoice_lines REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoice_lines()`);
       await q(`CREATE TRIGGER billing_lock_invoice_lines_del AFTER DELETE ON invoice_lines REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoice_lines()`);
+      await q(`
+        CREATE FUNCTION billing_lock_invoice_line_update() RETURNS trigger LANGUAGE plpgsql AS $$
+        DECLARE st VARCHAR;
+        BEGIN
+          SELECT status INTO st FROM invoices WHERE id = OLD.invoice_id;
+          IF st IS DISTINCT FROM 'draft' AND NOT (st = 'void' AND OLD.released = false AND NEW.released = true
+              AND NEW.amount_cents = OLD.amount_cents AND NEW.invoice_id = OLD.invoice_id AND NEW.kind = OLD.kind
+              AND NEW.description = OLD.description AND NEW.draw_id IS NOT DISTINCT FROM OLD.draw_id
+              AND NEW.adjustment_id IS NOT DISTINCT FROM OLD.adjustment_id AND NEW.coop_id = OLD.coop_id) THEN
+            RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Lines of an issued invoice cannot change.';
+          END IF;
+          RETURN NEW;
+        END $$`);
+      await q(`CREATE TRIGGER billing_lock_invoice_lines_upd BEFORE UPDATE ON invoice_lines FOR EACH ROW EXECUTE FUNCTION billing_lock_invoice_line_update()`);
 
       // Payments received in a closed month: only a later refund's bookkeeping may change.
       await q(`
         CREATE FUNCTION billing_lock_payments() RETURNS trigger LANGUAGE plpgsql AS $$
         DECLARE hit DATE;
         BEGIN
-          IF TG_OP = 'INSERT' THEN
-            SELECT n.period INTO hit FROM new_rows n JOIN billing_periods bp
-              ON bp.coop_id = n.coop_id AND bp.period = n.period AND bp.status = 'closed' LIMIT 1;
-          ELSIF TG_OP = 'DELETE' THEN
+          IF TG_OP = 'DELETE' THEN
             RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Payments are never deleted; refund them instead.';
-          ELSE
-            SELECT o.period INTO hit FROM old_rows o JOIN new_rows n ON n.id = o.id
-              JOIN billing_periods bp ON bp.coop_id = o.coop_id AND bp.period = o.period AND bp.status = 'closed'
-              WHERE n.amount_cents <> o.amount_cents OR n.received_on <> o.received_on OR n.method <> o.method
-                 OR n.membership_id <> o.membership_id OR n.invoice_id IS DISTINCT FROM o.invoice_id
-                 OR n.applied_cents <> o.applied_cents OR n.reference IS DISTINCT FROM o.reference
-                 OR n.coop_id <> o.coop_id OR n.period <> o.period
-              LIMIT 1;
           END IF;
+          SELECT n.period INTO hit FROM new_rows n JOIN billing_periods bp
+            ON bp.coop_id = n.coop_id AND bp.period = n.period AND bp.status = 'closed' LIMIT 1;
           IF hit IS NOT NULL THEN RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = ${CLOSED_MSG}; END IF;
           RETURN NULL;
         END $$`);
       await q(`CREATE TRIGGER billing_lock_payments_ins AFTER INSERT ON payments REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_payments()`);
-      await q(`CREATE TRIGGER billing_lock_payments_upd AFTER UPDATE ON payments REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_payments()`);
       await q(`CREATE TRIGGER billing_lock_payments_del AFTER DELETE ON payments REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_payments()`);
+      await q(`
+        CREATE FUNCTION billing_lock_payment_update() RETURNS trigger LANGUAGE plpgsql AS $$
+        DECLARE hit DATE := OLD.period;
+        BEGIN
+          IF (NEW.amount_cents <> OLD.amount_cents OR NEW.received_on <> OLD.received_on OR NEW.method <> OLD.method
+              OR NEW.membership_id <> OLD.membership_id OR NEW.invoice_id IS DISTINCT FROM OLD.invoice_id
+              OR NEW.applied_cents <> OLD.applied_cents OR NEW.reference IS DISTINCT FROM OLD.reference
+              OR NEW.coop_id <> OLD.coop_id OR NEW.period <> OLD.period)
+             AND EXISTS (SELECT 1 FROM billing_periods bp WHERE bp.coop_id = OLD.coop_id AND bp.period = OLD.period AND bp.status = 'closed') THEN
+            RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = ${CLOSED_MSG};
+          END IF;
+          RETURN NEW;
+        END $$`);
+      await q(`CREATE TRIGGER billing_lock_payments_upd BEFORE UPDATE ON payments FOR EACH ROW EXECUTE FUNCTION billing_lock_payment_update()`);
 
       // A closed month stays closed; the credit ledger is append-only.
       await q(`
@@ -401,7 +426,7 @@ module.exports = {
       for (const t of ['payment_webhook_events', 'member_credits', 'refunds', 'payments', 'payment_attempts', 'invoice_lines', 'invoices', 'billing_adjustments', 'billing_runs', 'invoice_counters', 'billing_periods']) {
         await q(`DROP TABLE ${t}`);
       }
-      for (const f of ['billing_refuse_change()', 'billing_lock_payments()', 'billing_lock_invoice_lines()', 'billing_lock_invoices()', 'billing_lock_draws()']) {
+      for (const f of ['billing_refuse_change()', 'billing_lock_payment_update()', 'billing_lock_payments()', 'billing_lock_invoice_line_update()', 'billing_lock_invoice_lines()', 'billing_lock_invoice_update()', 'billing_lock_invoices()', 'billing_lock_draws()']) {
         await q(`DROP FUNCTION ${f}`);
       }
     });

@@ -8,7 +8,7 @@ import { sequelize } from '@/models';
 import { exec, int, select } from './db';
 import { assertPeriodOpen, isPeriodClosed, lockCoopBilling } from './locks';
 import { addDays, invoiceLabel, PAYMENT_TERMS_DAYS, periodLabel, periodToDate, todayIn } from './periods';
-import { CREDIT_LINES_SQL, latestRun, TOTALS_SQL, type RunDTO } from './run';
+import { creditLinesSql, latestRun, totalsSql, type RunDTO } from './run';
 import type { EmailStatus, InvoiceDetail, InvoiceLineDTO, InvoiceStatus, InvoiceSummary, MemberBalance, PageOf, PaymentDTO } from './types';
 import { listPaymentsWhere } from './payments-read';
 
@@ -202,11 +202,11 @@ export async function issueDrafts(actor: Actor, period: string): Promise<{ issue
       t,
     );
     if (drafts.length === 0) throw conflict(`There are no draft invoices for ${periodLabel(period)} to issue.`);
-    const b = { coopId, period: periodDate, ids: drafts.map((d) => d.membership_id) };
+    const b = { coopId, period: periodDate };
     const isDraft = "i.coop_id = $coopId AND i.period = $period::date AND i.kind = 'invoice' AND i.status = 'draft'";
     await exec(`DELETE FROM invoice_lines l USING invoices i WHERE l.invoice_id = i.id AND ${isDraft} AND l.kind = 'credit'`, b, t);
-    await exec(CREDIT_LINES_SQL, b, t);
-    await exec(TOTALS_SQL, b, t);
+    await exec(creditLinesSql(isDraft), b, t);
+    await exec(totalsSql(isDraft.replaceAll('i.', 'i2.')), b, t);
     await exec(
       `INSERT INTO member_credits (coop_id, membership_id, amount_cents, kind, invoice_id, created_by_user_id)
        SELECT $coopId, i.membership_id, l.amount_cents, 'applied', i.id, $userId

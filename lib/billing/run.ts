@@ -77,28 +77,30 @@ const MEMBERS_SQL = (count: boolean) => `
 
 const scopeBind = (s: Scope) => ({ coopId: s.coopId, period: s.period, end: s.end, dues: s.duesCents, only: s.only });
 
-/** The credit line: a member's credit balance applied up to the invoice's subtotal. */
-export const CREDIT_LINES_SQL = `
+/**
+ * The credit line of each draft matched by `where` (on alias i): the member's credit balance
+ * applied up to the invoice's subtotal.
+ */
+export const creditLinesSql = (where: string) => `
   WITH sub AS (
     SELECT i.id, i.membership_id, SUM(l.amount_cents) AS s
     FROM invoices i JOIN invoice_lines l ON l.invoice_id = i.id AND l.kind <> 'credit'
-    WHERE i.coop_id = $coopId AND i.period = $period::date AND i.kind = 'invoice' AND i.status = 'draft' AND i.membership_id = ANY($ids::int[])
+    WHERE ${where}
     GROUP BY i.id, i.membership_id
   ), bal AS (
-    SELECT membership_id, SUM(amount_cents) AS b FROM member_credits
-    WHERE coop_id = $coopId AND membership_id = ANY($ids::int[]) GROUP BY membership_id
+    SELECT mc.membership_id, SUM(mc.amount_cents) AS b FROM member_credits mc
+    WHERE mc.coop_id = $coopId AND mc.membership_id IN (SELECT membership_id FROM sub) GROUP BY mc.membership_id
   )
   INSERT INTO invoice_lines (coop_id, invoice_id, sort_key, kind, description, amount_cents)
   SELECT $coopId, sub.id, 990000, 'credit', 'Credit on your account applied', -LEAST(bal.b, sub.s)
   FROM sub JOIN bal ON bal.membership_id = sub.membership_id
   WHERE bal.b > 0 AND sub.s > 0`;
 
-/** Sets each draft's total to the exact sum of its lines. */
-export const TOTALS_SQL = `
+/** Sets each draft matched by `where` (on alias i2) to the exact sum of its lines. */
+export const totalsSql = (where: string) => `
   UPDATE invoices i SET total_cents = s.total, updated_at = now()
   FROM (SELECT l.invoice_id, SUM(l.amount_cents) AS total FROM invoice_lines l JOIN invoices i2 ON i2.id = l.invoice_id
-        WHERE i2.coop_id = $coopId AND i2.period = $period::date AND i2.kind = 'invoice' AND i2.status = 'draft' AND i2.membership_id = ANY($ids::int[])
-        GROUP BY l.invoice_id) s
+        WHERE ${where} GROUP BY l.invoice_id) s
   WHERE i.id = s.invoice_id AND i.total_cents IS DISTINCT FROM s.total`;
 
 /**
@@ -111,17 +113,26 @@ export const TOTALS_SQL = `
  */
 async function buildDrafts(t: Transaction, s: Scope, runId: number, ids: number[]): Promise<number> {
   const b = { coopId: s.coopId, period: s.period, ids };
-  const inChunk = `i.coop_id = $coopId AND i.period = $period::date AND i.kind = 'invoice' AND i.status = 'draft' AND i.membership_id = ANY($ids::int[])`;
-
-  await exec(`DELETE FROM invoices i WHERE ${inChunk}`, b, t);
   await exec(
+    `DELETE FROM invoices i USING unnest($ids::int[]) AS m(id)
+     WHERE i.coop_id = $coopId AND i.membership_id = m.id AND i.period = $period::date AND i.kind = 'invoice' AND i.status = 'draft'`,
+    b,
+    t,
+  );
+  const created = await select<{ id: number }>(
     `INSERT INTO invoices (coop_id, membership_id, period, billing_run_id, created_at, updated_at)
      SELECT $coopId, m.id, $period::date, $runId, now(), now() FROM unnest($ids::int[]) AS m(id)
      WHERE NOT EXISTS (SELECT 1 FROM invoices i WHERE i.coop_id = $coopId AND i.membership_id = m.id AND i.period = $period::date
-                       AND i.kind = 'invoice' AND i.status <> 'void')`,
+                       AND i.kind = 'invoice' AND i.status <> 'void')
+     RETURNING id`,
     { ...b, runId },
     t,
   );
+  if (created.length === 0) return 0;
+  // Every statement below finds this chunk's drafts by primary key.
+  const inv = { coopId: s.coopId, period: s.period, inv: created.map((r) => r.id) };
+  const inChunk = `i.id = ANY($inv::int[]) AND i.coop_id = $coopId`;
+
   // A line per draw up to the month's end that is not on a live invoice yet, at its locked price.
   await exec(
     `INSERT INTO invoice_lines (coop_id, invoice_id, sort_key, kind, description, occurred_at, quantity_liters, unit_price_cents_per_gallon, amount_cents, draw_id)
@@ -135,7 +146,7 @@ async function buildDrafts(t: Transaction, s: Scope, runId: number, ids: number[
      JOIN draws d ON d.coop_id = $coopId AND d.membership_id = i.membership_id AND d.occurred_at < $end::timestamptz
      LEFT JOIN draws o ON o.id = d.reverses_draw_id
      WHERE ${inChunk} AND NOT EXISTS (SELECT 1 FROM invoice_lines l WHERE l.draw_id = d.id AND NOT l.released)`,
-    { ...b, end: s.end },
+    { ...inv, end: s.end },
     t,
   );
   // Surcharge and road-fuel tax: the sums of the draws' locked amounts (never recomputed).
@@ -158,7 +169,7 @@ async function buildDrafts(t: Transaction, s: Scope, runId: number, ids: number[
        FROM invoice_lines l JOIN draws d ON d.id = l.draw_id JOIN invoices i ON i.id = l.invoice_id
        WHERE ${inChunk} GROUP BY l.invoice_id
      ) x WHERE x.amount <> 0`,
-    b,
+    inv,
     t,
   );
   if (s.duesCents > 0) {
@@ -167,7 +178,7 @@ async function buildDrafts(t: Transaction, s: Scope, runId: number, ids: number[
        SELECT $coopId, i.id, 900000, 'dues', 'Membership dues for ' || to_char($period::date, 'FMMonth YYYY'), $dues::bigint
        FROM invoices i JOIN memberships m ON m.id = i.membership_id
        WHERE ${inChunk} AND m.status = 'active' AND m.joined_at < $end::timestamptz`,
-      { ...b, dues: s.duesCents, end: s.end },
+      { ...inv, dues: s.duesCents, end: s.end },
       t,
     );
   }
@@ -176,15 +187,14 @@ async function buildDrafts(t: Transaction, s: Scope, runId: number, ids: number[
      SELECT $coopId, i.id, 910000 + row_number() OVER (PARTITION BY i.id ORDER BY a.id), 'adjustment', a.description, a.created_at, a.amount_cents, a.id
      FROM invoices i JOIN billing_adjustments a ON a.coop_id = $coopId AND a.membership_id = i.membership_id AND a.period <= $period::date
      WHERE ${inChunk} AND NOT EXISTS (SELECT 1 FROM invoice_lines l WHERE l.adjustment_id = a.id AND NOT l.released)`,
-    b,
+    inv,
     t,
   );
-  await exec(CREDIT_LINES_SQL, b, t);
+  await exec(creditLinesSql(inChunk), inv, t);
   // A member with nothing left to bill (e.g. their draws went onto another month's draft) gets no invoice.
-  await exec(`DELETE FROM invoices i WHERE ${inChunk} AND NOT EXISTS (SELECT 1 FROM invoice_lines l WHERE l.invoice_id = i.id)`, b, t);
-  await exec(TOTALS_SQL, b, t);
-  const [n] = await select<{ n: number }>(`SELECT count(*)::int AS n FROM invoices i WHERE ${inChunk}`, b, t);
-  return n?.n ?? 0;
+  const empty = await exec(`DELETE FROM invoices i WHERE ${inChunk} AND NOT EXISTS (SELECT 1 FROM invoice_lines l WHERE l.invoice_id = i.id)`, inv, t);
+  await exec(totalsSql('i2.id = ANY($inv::int[]) AND i2.coop_id = $coopId'), inv, t);
+  return created.length - empty;
 }
 
 async function loadScope(coopId: number, periodDate: string, only: number[] | null, t?: Transaction): Promise<Scope> {

@@ -138,6 +138,11 @@ describe('monthly invoicing', () => {
     const ada = next.body.rows.find((r: { memberName: string }) => r.memberName === 'Ada Archer');
     // Ada next month: the 1-gal draw of that month 389 + surcharge 10 + dues 1500 = 1899.
     expect(ada.totalCents).toBe(1899);
+    // A line can never be filed under another co-op than its invoice's (database check).
+    const [stranger] = await sql<{ id: number }>(`SELECT id FROM coops WHERE id <> $1 LIMIT 1`, [c.coop.id]);
+    await expect(
+      sql(`INSERT INTO invoice_lines (coop_id, invoice_id, sort_key, kind, description, amount_cents) VALUES ($1, $2, 1, 'adjustment', 'x', 1)`, [stranger!.id, ada.id]),
+    ).rejects.toThrow(/its invoice's co-op/);
   });
 
   it('the PDF names the member, the lines and the total; members download only their own', async () => {
