@@ -1,7 +1,7 @@
 'use client';
 
-import { useState } from 'react';
 import { CartesianGrid, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { ChartFrame } from './chart-frame';
 import { SERIES_COLORS } from './palette';
 
 /** A labelled line chart (one series) with a table view of the same numbers. */
@@ -14,22 +14,12 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
   seriesLabel: string;
   format?: (v: number) => string;
 }) {
-  const [view, setView] = useState<'chart' | 'table'>('chart');
   return (
-    <section className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm" aria-label={title}>
-      <div className="mb-2 flex flex-wrap items-center justify-between gap-2">
-        <h2 className="text-base">{title}</h2>
-        <div role="group" aria-label={`${title}: view`} className="flex overflow-hidden rounded-md border border-stone-300 text-xs">
-          {(['chart', 'table'] as const).map((v) => (
-            <button key={v} type="button" aria-pressed={view === v} onClick={() => setView(v)} className={`min-h-9 px-3 ${view === v ? 'bg-fir-700 text-white' : 'bg-white text-stone-800'}`}>
-              {v === 'chart' ? 'Chart' : 'Table'}
-            </button>
-          ))}
-        </div>
-      </div>
-      {data.length === 0 ? (
-        <p className="py-8 text-center text-sm text-stone-600">No data for this period yet.</p>
-      ) : view === 'chart' ? (
+    <ChartFrame
+      title={title}
+      empty={data.length === 0}
+      tableClassName="max-h-64 overflow-auto"
+      chart={
         <div className="h-56 w-full" aria-hidden="true">
           <ResponsiveContainer width="100%" height="100%">
             <LineChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
@@ -41,8 +31,8 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
             </LineChart>
           </ResponsiveContainer>
         </div>
-      ) : null}
-      <div className={view === 'table' ? 'max-h-64 overflow-auto' : 'sr-only'} tabIndex={view === 'table' ? 0 : -1}>
+      }
+      table={
         <table className="w-full text-left text-sm">
           <caption className="sr-only">{title} ({yLabel})</caption>
           <thead>
@@ -60,7 +50,7 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
             ))}
           </tbody>
         </table>
-      </div>
-    </section>
+      }
+    />
   );
 }
