@@ -47,7 +47,7 @@ export function BarChartCard({
               <Tooltip formatter={(v) => format(Number(v))} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
               {series.map((s, i) => (
-                <Bar key={s.key} dataKey={s.key} name={s.label} fill={SERIES_COLORS[i % SERIES_COLORS.length]} stackId={stacked ? 'a' : undefined} />
+                <Bar isAnimationActive={false} key={s.key} dataKey={s.key} name={s.label} fill={SERIES_COLORS[i % SERIES_COLORS.length]} stackId={stacked ? 'a' : undefined} />
               ))}
             </BarChart>
           </ResponsiveContainer>

@@ -27,7 +27,7 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
               <XAxis dataKey={xKey} tick={{ fontSize: 11, fill: '#44403c' }} minTickGap={24} />
               <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />
               <Tooltip formatter={(v) => format(Number(v))} />
-              <Line type="stepAfter" dataKey={yKey} name={seriesLabel} stroke={SERIES_COLORS[0]} strokeWidth={2} dot={false} />
+              <Line isAnimationActive={false} type="stepAfter" dataKey={yKey} name={seriesLabel} stroke={SERIES_COLORS[0]} strokeWidth={2} dot={false} />
             </LineChart>
           </ResponsiveContainer>
         </div>
