@@ -33,7 +33,9 @@ export async function startStack({ name, databaseUrlSuffix = '' }) {
   stops.push(pay.stop);
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
-  const next = spawn(process.execPath, [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], {
+  // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server when it stops.
+  const profile = process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)] : [];
+  const next = spawn(process.execPath, [...profile, path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], {
     env: {
       ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: pgSrv.url + databaseUrlSuffix, APP_URL: baseUrl, NEXTAUTH_URL: baseUrl,
       NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtpPort),
