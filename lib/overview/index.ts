@@ -2,6 +2,7 @@ import 'server-only';
 import { QueryTypes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
+import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { sequelize } from '@/lib/db';
 import { memberPriceCentsPerGallon, type PricingPolicy } from '@/lib/pricing';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
@@ -143,22 +144,15 @@ export async function getBalances(coopId: number): Promise<NonNullable<Overview[
 }
 
 /**
- * The 12-month and 90-day chart series aggregate tens of thousands of rows (≈30 ms of database
- * time on the benchmark co-op), so each co-op's series are kept for CHART_TTL_MS in this process.
- * Only a speed-up: figures on cards (tank, price, balances) are always read fresh, and a chart
- * is at most a minute behind. Each app instance keeps its own copy; nothing depends on it.
+ * The chart series (12-month volumes, 90-day tank level, batch costs, balances owed) aggregate
+ * tens of thousands of rows (≈30 ms of database time on the benchmark co-op), so each co-op's
+ * series are kept for CHART_TTL_MS in this process. Only a speed-up: figures on cards (tank,
+ * price, my balance, the month's billing) are always read fresh, and a chart is at most a
+ * minute behind. Each app instance keeps its own copy; nothing depends on it.
  */
-const CHART_TTL_MS = 60_000;
-const chartMemo = new Map<string, { at: number; value: Promise<unknown> }>();
-function chartCache<T>(key: string, load: () => Promise<T>): Promise<T> {
-  const hit = chartMemo.get(key);
-  if (hit && Date.now() - hit.at < CHART_TTL_MS) return hit.value as Promise<T>;
-  const value = load();
-  chartMemo.set(key, { at: Date.now(), value });
-  value.catch(() => chartMemo.delete(key));
-  if (chartMemo.size > 5_000) chartMemo.delete(chartMemo.keys().next().value!);
-  return value;
-}
+/** OVERVIEW_CACHE_SECONDS (default 60; the tests set 0 so every read is exact). */
+const CHART_TTL_MS = Number(process.env.OVERVIEW_CACHE_SECONDS ?? 60) * 1000;
+const chartCache = ttlMemo(CHART_TTL_MS);
 
 /**
  * The first screen of a co-op, different by role: everyone sees the tank and the price; members
@@ -227,8 +221,8 @@ export async function getOverview(actor: Actor): Promise<Overview> {
     memberBalance(c, actor.membershipId),
     isBrewer ? getBrewerSection(c) : null,
     isTreasurer ? getTreasurerSection(c, tz) : null,
-    isBrewer || can(actor.role, 'reports:read') ? getBatchCosts(c, tz) : null,
-    isTreasurer ? getBalances(c) : null,
+    isBrewer || can(actor.role, 'reports:read') ? chartCache(`costs:${c}:${tz}`, () => getBatchCosts(c, tz)) : null,
+    isTreasurer ? chartCache(`balances:${c}`, () => getBalances(c)) : null,
   ]);
   return {
     role: actor.role,

@@ -68,6 +68,8 @@ export default async function setup(project: TestProject) {
     STRIPE_API_PROTOCOL: 'http',
     STRIPE_WEBHOOK_SECRET: 'whsec_tallyvat_test',
     STORAGE_DIR: storageDir,
+    // Overview charts are cached for a minute in production; tests read every figure fresh.
+    OVERVIEW_CACHE_SECONDS: '0',
   };
   const log = fs.createWriteStream(path.join(root, 'next.log'));
   const next: ChildProcess = spawn(process.execPath, [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], { env, stdio: ['ignore', 'pipe', 'pipe'] });
