@@ -10,16 +10,11 @@
 // Targets (issue 4): batch list ≥ 70 % of /api/health's throughput with p97.5 < 60 ms; the
 // planner p97.5 < 40 ms. Options: DURATION=seconds per run (5), ROUNDS (3), CONNECTIONS (10),
 // ONLY=<part of an endpoint name> to measure one endpoint (with /api/health), PROFILE=1.
-import { spawn } from 'node:child_process';
-import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import bcrypt from 'bcryptjs';
-import pg from 'pg';
-import { startEmbeddedPg, freePort } from '../scripts/lib/pg.mjs';
-import { migrate } from '../scripts/lib/db-setup.mjs';
-import { buildIfNeeded } from '../scripts/lib/build.mjs';
+import { signInCookie, startStack } from './lib.mjs';
 
 const DURATION = Number(process.env.DURATION ?? 5);
 const ROUNDS = Number(process.env.ROUNDS ?? 3);
@@ -31,33 +26,22 @@ const EMAIL = 'bench.brewer@example.org';
 const PASSWORD = 'bench-brewing-password-2026';
 const log = (...a) => console.log('[bench]', ...a);
 
-const root = path.resolve('.data', 'bench');
-fs.rmSync(root, { recursive: true, force: true });
-fs.mkdirSync(root, { recursive: true });
-const stops = [];
-const stopAll = async () => {
-  for (const s of stops.reverse()) {
-    try {
-      await s();
-    } catch {
-      /* already stopped */
-    }
-  }
-};
+let stack;
+const stopAll = async () => stack?.stop();
 process.on('SIGINT', async () => {
   await stopAll();
   process.exit(130);
 });
 
 try {
-  const db = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'tallyvat_bench', fast: true, log: () => {} });
-  stops.push(db.stop);
+  // PROFILE=1 writes a CPU profile of the server to .data/bench-profile (open it in Chrome DevTools).
+  if (process.env.PROFILE) process.env.BENCH_CPU_PROF ??= path.resolve('.data', 'bench-profile');
   log('migrating and seeding the demo data…');
-  migrate({ databaseUrl: db.url, seed: true });
+  stack = await startStack({ name: 'brewing', seed: true, log });
+  const base = stack.baseUrl;
 
   log(`seeding ${BATCHES} batches and ${LOTS} chemical lots in one co-op…`);
-  const client = new pg.Client({ connectionString: db.url });
-  await client.connect();
+  const client = stack.pool;
   const one = async (sql, params) => (await client.query(sql, params)).rows[0];
   const coop = await one(`INSERT INTO coops (name, slug, units, settings) VALUES ('Bench Brewing Co-op', $1, 'us', $2) RETURNING id`, [
     SLUG, JSON.stringify({ recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } }),
@@ -103,50 +87,10 @@ try {
   await client.query('ANALYZE');
   const counts = await one(`SELECT (SELECT count(*) FROM batches WHERE coop_id = $1) AS batches, (SELECT count(*) FROM chemical_lots WHERE coop_id = $1) AS lots`, [coop.id]);
   log(`co-op ${SLUG}: ${counts.batches} batches, ${counts.lots} chemical lots`);
-  await client.end();
 
-  buildIfNeeded({ log });
-  const port = await freePort();
-  const base = `http://127.0.0.1:${port}`;
-  const env = {
-    ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: db.url, APP_URL: base, NEXTAUTH_URL: base,
-    NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', STORAGE_DIR: path.join(root, 'uploads'),
-  };
-  // PROFILE=1 writes a CPU profile of the server to .data/bench/profile (open it in Chrome DevTools).
-  const profile = process.env.PROFILE ? ['--cpu-prof', '--cpu-prof-dir', path.join(root, 'profile')] : [];
-  const next = spawn(process.execPath, [...profile, path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], { env, stdio: ['ignore', 'pipe', 'pipe'] });
-  const serverLog = fs.createWriteStream(path.join(root, 'next.log'));
-  next.stdout.pipe(serverLog);
-  next.stderr.pipe(serverLog);
-  stops.push(() => new Promise((resolve) => { if (next.exitCode !== null) return resolve(); next.once('exit', resolve); next.kill('SIGTERM'); }));
-  for (let i = 0; ; i++) {
-    try {
-      if ((await fetch(`${base}/api/health`)).ok) break;
-    } catch {
-      /* not up yet */
-    }
-    if (i > 240) throw new Error('next start did not come up; see .data/bench/next.log');
-    await new Promise((r) => setTimeout(r, 250));
-  }
-
-  // Sign in like a browser: CSRF token, then the credentials callback; keep the cookies.
-  const jar = new Map();
-  const keep = (res) => {
-    for (const c of res.headers.getSetCookie()) {
-      const [pair] = c.split(';');
-      const i = pair.indexOf('=');
-      jar.set(pair.slice(0, i), pair.slice(i + 1));
-    }
-  };
-  const cookie = () => [...jar].map(([k, v]) => `${k}=${v}`).join('; ');
-  const csrfRes = await fetch(`${base}/api/auth/csrf`);
-  keep(csrfRes);
-  const { csrfToken } = await csrfRes.json();
-  const signin = await fetch(`${base}/api/auth/callback/credentials`, {
-    method: 'POST', redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: cookie() },
-    body: new URLSearchParams({ csrfToken, email: EMAIL, password: PASSWORD, json: 'true' }),
-  });
-  keep(signin);
+  // Sign in like a browser: CSRF token, then the credentials callback.
+  const session = await signInCookie(base, EMAIL, PASSWORD);
+  const cookie = () => session;
   const check = await fetch(`${base}/api/coops/${SLUG}/batches?pageSize=25`, { headers: { cookie: cookie() } });
   if (!check.ok) throw new Error(`signed-in batch list answered ${check.status}`);
   const listBody = await check.json();

@@ -1,7 +1,6 @@
 // Shared benchmark harness: a throw-away PostgreSQL (fsync off), migrations, `next start` from
 // the production build, sign-in, and autocannon runs reported side by side with /api/health.
 // Benchmarks are run on demand (`npm run bench`), never as part of `npm test`.
-import { spawn } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -11,20 +10,21 @@ import pg from 'pg';
 import { startEmbeddedPg, freePort, stopLeftover } from '../scripts/lib/pg.mjs';
 import { migrate } from '../scripts/lib/db-setup.mjs';
 import { buildIfNeeded } from '../scripts/lib/build.mjs';
+import { appEnv, startNext, waitForHealth } from '../scripts/lib/app.mjs';
 import { startMailCatcher, startPaymentsFake } from '../scripts/lib/fakes.mjs';
 
 export const PASSWORD = 'bench-password-2026';
 
 /** Starts everything; returns { baseUrl, pool, stop }. */
-export async function startStack({ name, databaseUrlSuffix = '' }) {
-  buildIfNeeded({ log: (m) => console.log('[bench]', m) });
+export async function startStack({ name, databaseUrlSuffix = '', fast = true, seed = false, log = (m) => console.log('[bench]', m) }) {
+  buildIfNeeded({ log });
   const root = path.resolve('.data', `bench-${name}`);
   stopLeftover(path.join(root, 'pg'));
   fs.rmSync(root, { recursive: true, force: true });
   const stops = [];
-  const pgSrv = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'bench', fast: true, log: () => {} });
+  const pgSrv = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'bench', fast, log: () => {} });
   stops.push(pgSrv.stop);
-  migrate({ databaseUrl: pgSrv.url, seed: false });
+  migrate({ databaseUrl: pgSrv.url, seed });
   const smtpPort = await freePort();
   const mail = await startMailCatcher({ smtpPort, httpPort: await freePort(), log: () => {} });
   stops.push(mail.stop);
@@ -34,27 +34,18 @@ export async function startStack({ name, databaseUrlSuffix = '' }) {
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server when it stops.
-  const profile = process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)] : [];
-  const next = spawn(process.execPath, [...profile, path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], {
-    env: {
-      ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: pgSrv.url + databaseUrlSuffix, APP_URL: baseUrl, NEXTAUTH_URL: baseUrl,
-      NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtpPort),
-      STRIPE_SECRET_KEY: 'sk_test_bench', STRIPE_API_HOST: '127.0.0.1', STRIPE_API_PORT: String(paymentsPort), STRIPE_API_PROTOCOL: 'http',
-      STRIPE_WEBHOOK_SECRET: 'whsec_bench', STORAGE_DIR: path.join(root, 'uploads'), DB_POOL_MAX: '20',
-    },
-    stdio: ['ignore', 'ignore', 'inherit'],
+  const nodeArgs = process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)] : [];
+  const env = appEnv({
+    databaseUrl: pgSrv.url + databaseUrlSuffix, appUrl: baseUrl, secret: crypto.randomBytes(32).toString('base64url'),
+    smtpPort, paymentsPort, webhookSecret: 'whsec_bench', storageDir: path.join(root, 'uploads'),
+    extra: { NODE_ENV: 'production', DB_POOL_MAX: '20' },
   });
-  stops.unshift(() => new Promise((r) => (next.exitCode !== null ? r() : (next.once('exit', r), next.kill('SIGTERM')))));
-  for (let i = 0; ; i++) {
-    try {
-      if ((await fetch(`${baseUrl}/api/health`)).ok) break;
-    } catch {}
-    if (i > 240) throw new Error('next start did not come up');
-    await new Promise((r) => setTimeout(r, 250));
-  }
+  const next = startNext({ env, port, host: '127.0.0.1', nodeArgs, stdio: ['ignore', 'ignore', 'inherit'] });
+  stops.unshift(next.stop);
+  await waitForHealth(baseUrl, next.child);
   const pool = new pg.Pool({ connectionString: pgSrv.url, max: 4 });
   stops.unshift(() => pool.end());
-  return { baseUrl, pool, databaseUrl: pgSrv.url, root, stop: async () => { for (const s of stops) await s(); } };
+  return { baseUrl, pool, databaseUrl: pgSrv.url, root, next: next.child, stop: async () => { for (const s of stops) await s(); } };
 }
 
 /** Inserts a co-op with one user per role (same password); returns ids and e-mails. */

@@ -12,16 +12,11 @@
 //      is verified in the database;
 //   3. POST reservations at 10 connections → p97.5.
 // Results print as a table and are saved to bench/output/tank-<timestamp>.json.
-import { spawn } from 'node:child_process';
-import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import bcrypt from 'bcryptjs';
-import pg from 'pg';
-import { startEmbeddedPg, freePort } from '../scripts/lib/pg.mjs';
-import { migrate } from '../scripts/lib/db-setup.mjs';
-import { buildIfNeeded } from '../scripts/lib/build.mjs';
+import { signInCookie, startStack } from './lib.mjs';
 
 const DURATION = Number(process.env.BENCH_SECONDS ?? 10);
 const MEMBERS = 300;
@@ -31,24 +26,13 @@ const SESSIONS = 40; // signed-in members whose cookies the load rotates through
 const L_PER_GAL = 3.785411784; // NIST Handbook 44
 const log = (...a) => console.log('[bench]', ...a);
 
-const root = path.resolve('.data', 'bench');
-fs.rmSync(root, { recursive: true, force: true });
-fs.mkdirSync(root, { recursive: true });
-const stops = [];
-const stopAll = async () => {
-  for (const s of stops.reverse()) {
-    try { await s(); } catch { /* already gone */ }
-  }
-};
+let stack;
+const stopAll = async () => stack?.stop();
 process.on('SIGINT', async () => { await stopAll(); process.exit(130); });
 
 try {
-  buildIfNeeded({ log });
-  const db = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'tallyvat_bench', fast: process.env.BENCH_FAST === '1', log });
-  stops.push(db.stop);
-  migrate({ databaseUrl: db.url, seed: false });
-  const pool = new pg.Pool({ connectionString: db.url, max: 4 });
-  stops.push(() => pool.end());
+  stack = await startStack({ name: 'tank', fast: process.env.BENCH_FAST === '1', log });
+  const { pool, baseUrl: base } = stack;
   const q = (text, params = []) => pool.query(text, params).then((r) => r.rows);
 
   log(`seeding ${MEMBERS} members, ${TANKS} tanks, ${DRAWS.toLocaleString()} draws…`);
@@ -100,39 +84,7 @@ try {
   const [{ n: memberCount }] = await q(`SELECT count(*)::int AS n FROM memberships WHERE coop_id = $1 AND role = 'member'`, [coop.id]);
   log(`seeded: ${memberCount} members, ${drawCount} draws, ${tanks.length} tanks`);
 
-  const port = await freePort();
-  const base = `http://127.0.0.1:${port}`;
-  const env = {
-    ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: db.url, APP_URL: base, NEXTAUTH_URL: base,
-    NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: '1', STORAGE_DIR: path.join(root, 'uploads'),
-  };
-  const next = spawn(process.execPath, [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], { env, stdio: ['ignore', 'pipe', 'pipe'] });
-  const nextLog = fs.createWriteStream(path.join(root, 'next.log'));
-  next.stdout.pipe(nextLog);
-  next.stderr.pipe(nextLog);
-  stops.push(() => new Promise((resolve) => { if (next.exitCode !== null) return resolve(); next.once('exit', resolve); next.kill('SIGTERM'); }));
-  for (const deadline = Date.now() + 60_000; ;) {
-    try { if ((await fetch(`${base}/api/health`)).ok) break; } catch { /* starting */ }
-    if (Date.now() > deadline) throw new Error('next start did not come up');
-    await new Promise((r) => setTimeout(r, 250));
-  }
-
-  /** Signs in through next-auth's credentials flow and returns the Cookie header. */
-  async function signIn(email) {
-    const jar = new Map();
-    const keep = (res) => { for (const c of res.headers.getSetCookie()) { const [kv] = c.split(';'); const i = kv.indexOf('='); jar.set(kv.slice(0, i), kv.slice(i + 1)); } };
-    const cookie = () => [...jar].map(([k, v]) => `${k}=${v}`).join('; ');
-    const csrfRes = await fetch(`${base}/api/auth/csrf`);
-    keep(csrfRes);
-    const { csrfToken } = await csrfRes.json();
-    const res = await fetch(`${base}/api/auth/callback/credentials`, {
-      method: 'POST', redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: cookie() },
-      body: new URLSearchParams({ csrfToken, email, password, json: 'true' }),
-    });
-    keep(res);
-    if (![...jar.keys()].some((k) => k.includes('session-token'))) throw new Error(`sign-in failed for ${email}: ${res.status}`);
-    return cookie();
-  }
+  const signIn = (email) => signInCookie(base, email, password);
   const cookies = [];
   for (let i = 1; i <= SESSIONS; i++) cookies.push(await signIn(`member${i}@bench.example.org`));
   log(`${cookies.length} members signed in`);

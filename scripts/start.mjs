@@ -5,13 +5,13 @@
 //  3. the local fakes: SMTP catcher with an inbox page, and the payments fake;
 //  4. `next build` when the build is missing or older than the sources, then `next start`.
 // Ctrl-C stops the app, the fakes and the database it started.
-import { spawn } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { startEmbeddedPg, portInUse } from './lib/pg.mjs';
 import { migrate } from './lib/db-setup.mjs';
 import { buildIfNeeded } from './lib/build.mjs';
+import { appEnv, startNext } from './lib/app.mjs';
 import { startMailCatcher, startPaymentsFake } from './lib/fakes.mjs';
 
 const dev = process.argv.includes('--dev');
@@ -95,36 +95,20 @@ try {
   if (!process.env.NEXTAUTH_SECRET && !fs.existsSync(secretFile)) {
     fs.writeFileSync(secretFile, crypto.randomBytes(32).toString('base64url'), { mode: 0o600 });
   }
-  const env = {
-    ...process.env,
-    NEXT_TELEMETRY_DISABLED: '1',
-    DATABASE_URL: databaseUrl,
-    APP_URL: process.env.APP_URL ?? `http://localhost:${PORT}`,
-    NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? process.env.APP_URL ?? `http://localhost:${PORT}`,
-    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? fs.readFileSync(secretFile, 'utf8').trim(),
-    SMTP_HOST: '127.0.0.1',
-    SMTP_PORT: String(SMTP_PORT),
-    MAIL_FROM: process.env.MAIL_FROM ?? 'Tallyvat <no-reply@tallyvat.localhost>',
-    MAIL_UI_URL: `http://127.0.0.1:${MAIL_UI_PORT}/`,
-    STRIPE_SECRET_KEY: process.env.STRIPE_SECRET_KEY ?? 'sk_test_tallyvat_local',
-    STRIPE_API_HOST: '127.0.0.1',
-    STRIPE_API_PORT: String(PAYMENTS_PORT),
-    STRIPE_API_PROTOCOL: 'http',
-    STRIPE_WEBHOOK_SECRET: webhookSecret,
-    STORAGE_DIR: process.env.STORAGE_DIR ?? path.join(DATA, 'uploads'),
-  };
+  const env = appEnv({
+    databaseUrl,
+    appUrl: process.env.APP_URL ?? `http://localhost:${PORT}`,
+    secret: process.env.NEXTAUTH_SECRET ?? fs.readFileSync(secretFile, 'utf8').trim(),
+    smtpPort: SMTP_PORT,
+    paymentsPort: PAYMENTS_PORT,
+    webhookSecret,
+    storageDir: process.env.STORAGE_DIR ?? path.join(DATA, 'uploads'),
+    extra: { MAIL_UI_URL: `http://127.0.0.1:${MAIL_UI_PORT}/` },
+  });
 
-  const nextBin = path.resolve('node_modules', 'next', 'dist', 'bin', 'next');
   if (!dev) buildIfNeeded({ env, log });
-  const child = spawn(process.execPath, [nextBin, dev ? 'dev' : 'start', '-p', String(PORT)], { env, stdio: 'inherit' });
-  cleanups.push(
-    () =>
-      new Promise((resolve) => {
-        if (child.exitCode !== null) return resolve();
-        child.once('exit', resolve);
-        child.kill('SIGTERM');
-      }),
-  );
+  const { child, stop: stopNext } = startNext({ env, port: PORT, dev });
+  cleanups.push(stopNext);
   child.on('exit', (code) => {
     if (!stopping) shutdown(code ?? 1);
   });

@@ -4,7 +4,9 @@ import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { sequelize } from '@/lib/db';
-import { memberPriceCentsPerGallon, type PricingPolicy } from '@/lib/pricing';
+import { memberPriceCentsPerGallon } from '@/lib/pricing';
+import { policyInForce } from '@/lib/pricing-policy';
+import { policyInUnits } from '@/lib/pricing-policy/convert';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 
 import { memberBalance } from '@/lib/billing/invoices';
@@ -38,21 +40,12 @@ export async function getTankSummary(coopId: number): Promise<TankSummary> {
 
 /** The member price in force now, from the latest policy and the tanks' average cost. */
 export async function getPriceSummary(coopId: number, avgCostCentsPerGallon: number | null): Promise<PriceSummary | null> {
-  const [p] = await q<{ kind: PricingPolicy['kind']; price: string | null; margin: string | null; pct: string | null; surcharge: string; tax: string }>(
-    `SELECT kind, price_cents_per_gallon AS price, margin_cents_per_gallon AS margin, margin_pct AS pct,
-            surcharge_cents_per_gallon AS surcharge, road_tax_cents_per_gallon AS tax
-     FROM price_policies WHERE coop_id = :coopId AND effective_from <= now() ORDER BY effective_from DESC, id DESC LIMIT 1`,
-    { coopId },
-  );
-  if (!p) return null;
-  const extra = { surchargeCentsPerGallon: Number(p.surcharge), roadTaxCentsPerGallon: Number(p.tax) };
-  const policy: PricingPolicy =
-    p.kind === 'fixed' ? { kind: 'fixed', priceCents: Math.round(Number(p.price)), ...extra }
-    : p.kind === 'cost-plus-amount' ? { kind: 'cost-plus-amount', marginCents: Math.round(Number(p.margin)), ...extra }
-    : { kind: 'cost-plus-percent', marginPct: Number(p.pct), ...extra };
+  const row = await policyInForce(coopId);
+  if (!row) return null;
+  const policy = policyInUnits(row, 'us');
   if (policy.kind !== 'fixed' && avgCostCentsPerGallon === null) return null;
   const b = memberPriceCentsPerGallon(policy, avgCostCentsPerGallon, 'off-road');
-  return { kind: p.kind, centsPerGallon: b.totalCents, roadTaxCentsPerGallon: Number(p.tax) };
+  return { kind: policy.kind, centsPerGallon: b.totalCents, roadTaxCentsPerGallon: policy.roadTaxCentsPerGallon ?? 0 };
 }
 
 const WORKING = `('reacting','settling','draining','washing','drying','testing')`;

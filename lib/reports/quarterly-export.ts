@@ -2,26 +2,18 @@ import 'server-only';
 import { formatCents } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
 import { formatVolume, volumeFromLiters, volumeLabel } from '@/lib/units';
-import type { QuarterlyReport, VolumeRow } from './quarterly';
+import { VOLUME_COLUMNS, type QuarterlyReport, type VolumeRow } from './quarterly';
 
-const COLUMNS: { key: keyof VolumeRow; label: string }[] = [
-  { key: 'producedLiters', label: 'produced' },
-  { key: 'releasedLiters', label: 'released' },
-  { key: 'drawnRoadLiters', label: 'drawn_road' },
-  { key: 'drawnOffRoadLiters', label: 'drawn_off_road' },
-  { key: 'drawnHeatingLiters', label: 'drawn_heating' },
-  { key: 'drawnTotalLiters', label: 'drawn_total' },
-];
 
 const csvCell = (v: string | number) => (/[",\n]/.test(String(v)) ? `"${String(v).replace(/"/g, '""')}"` : String(v));
 
 /** CSV: one row per month and a total row; volumes in the co-op's unit (3 decimals), money in dollars. */
 export function quarterlyCsv(r: QuarterlyReport): string {
   const unit = volumeLabel(r.coop.units) === 'gal' ? 'us_gal' : 'l';
-  const header = ['period', ...COLUMNS.map((c) => `${c.label}_${unit}`), 'road_tax_collected', 'draws'];
+  const header = ['period', ...VOLUME_COLUMNS.map((c) => `${c.csv}_${unit}`), 'road_tax_collected', 'draws'];
   const line = (row: VolumeRow) => [
     row.period,
-    ...COLUMNS.map((c) => volumeFromLiters(Number(row[c.key]), r.coop.units).toFixed(3)),
+    ...VOLUME_COLUMNS.map((c) => volumeFromLiters(Number(row[c.key]), r.coop.units).toFixed(3)),
     (row.roadTaxCents / 100).toFixed(2),
     row.draws,
   ];
@@ -34,11 +26,11 @@ export async function quarterlyPdf(r: QuarterlyReport): Promise<Buffer> {
   doc.font('bold').fontSize(18).text(`Fuel volumes — ${r.year} Q${r.quarter}`);
   doc.font('regular').fontSize(11).fillColor('#444').text(r.coop.name).moveDown();
   const unit = volumeLabel(r.coop.units);
-  const headers = ['Month', `Produced`, `Released`, `Road`, `Off-road`, `Heating`, `Drawn`, 'Road tax'];
+  const headers = ['Month', ...VOLUME_COLUMNS.map((c) => c.short), 'Road tax'];
   const widths = [70, 62, 62, 58, 58, 58, 62, 70];
   const rows = [...r.months, r.total].map((m) => [
     m.period,
-    ...COLUMNS.map((c) => formatVolume(Number(m[c.key]), r.coop.units, 1)),
+    ...VOLUME_COLUMNS.map((c) => formatVolume(Number(m[c.key]), r.coop.units, 1)),
     formatCents(m.roadTaxCents),
   ]);
   let y = doc.y;

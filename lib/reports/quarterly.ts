@@ -4,6 +4,7 @@ import type { z } from 'zod';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
 import { sequelize } from '@/lib/db';
+import { policyInForce } from '@/lib/pricing-policy';
 import type { quarterQuerySchema } from '@/lib/validation/reports';
 
 export const REPORT_DISCLAIMER =
@@ -22,6 +23,16 @@ export interface VolumeRow {
   roadTaxCents: number;
   draws: number;
 }
+
+/** The report's volume columns, once: CSV name, PDF header and screen label. */
+export const VOLUME_COLUMNS: { key: keyof VolumeRow; csv: string; short: string; label: string }[] = [
+  { key: 'producedLiters', csv: 'produced', short: 'Produced', label: 'Produced' },
+  { key: 'releasedLiters', csv: 'released', short: 'Released', label: 'Released to tanks' },
+  { key: 'drawnRoadLiters', csv: 'drawn_road', short: 'Road', label: 'Drawn: road' },
+  { key: 'drawnOffRoadLiters', csv: 'drawn_off_road', short: 'Off-road', label: 'Drawn: off-road' },
+  { key: 'drawnHeatingLiters', csv: 'drawn_heating', short: 'Heating', label: 'Drawn: heating' },
+  { key: 'drawnTotalLiters', csv: 'drawn_total', short: 'Drawn', label: 'Drawn: total' },
+];
 
 export interface QuarterlyReport {
   coop: { name: string; units: 'us' | 'metric'; timezone: string };
@@ -98,17 +109,14 @@ export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarter
     roadTaxCents: months.reduce((a, m) => a + m.roadTaxCents, 0),
     draws: months.reduce((a, m) => a + m.draws, 0),
   };
-  const [policy] = await sequelize.query<{ road_tax_cents_per_gallon: string }>(
-    `SELECT road_tax_cents_per_gallon FROM price_policies WHERE coop_id = :coopId AND effective_from <= now() ORDER BY effective_from DESC, id DESC LIMIT 1`,
-    { replacements: { coopId: actor.coop.id }, type: QueryTypes.SELECT },
-  );
+  const policy = await policyInForce(actor.coop.id);
   return {
     coop: { name: actor.coop.name, units: actor.coop.units, timezone: actor.coop.timezone },
     year: q.year,
     quarter: q.quarter,
     months,
     total,
-    roadTaxCentsPerGallon: policy && Number(policy.road_tax_cents_per_gallon) > 0 ? policy.road_tax_cents_per_gallon : null,
+    roadTaxCentsPerGallon: policy && Number(policy.road_tax_cents_per_gallon) > 0 ? String(policy.road_tax_cents_per_gallon) : null,
     disclaimer: REPORT_DISCLAIMER,
   };
 }

@@ -6,7 +6,7 @@ import { Card, Notice } from '@/components/ui/notice';
 import { requireMember } from '@/lib/auth';
 import { fieldErrors } from '@/lib/http';
 import { formatCents } from '@/lib/money';
-import { getQuarterlyReport, type VolumeRow } from '@/lib/reports/quarterly';
+import { getQuarterlyReport, VOLUME_COLUMNS } from '@/lib/reports/quarterly';
 import { formatVolume, volumeFromLiters, volumeLabel } from '@/lib/units';
 import { quarterQuerySchema } from '@/lib/validation/reports';
 
@@ -23,14 +23,7 @@ export default async function ReportsPage({ params, searchParams }: { params: Pr
   const units = actor.coop.units;
   const unit = volumeLabel(units);
   const v = (l: string) => formatVolume(Number(l), units, 1);
-  const cols: { key: keyof VolumeRow; label: string }[] = [
-    { key: 'producedLiters', label: 'Produced' },
-    { key: 'releasedLiters', label: 'Released to tanks' },
-    { key: 'drawnRoadLiters', label: 'Drawn: road' },
-    { key: 'drawnOffRoadLiters', label: 'Drawn: off-road' },
-    { key: 'drawnHeatingLiters', label: 'Drawn: heating' },
-    { key: 'drawnTotalLiters', label: 'Drawn: total' },
-  ];
+  const cols = VOLUME_COLUMNS;
   const base = `/api/coops/${actor.coop.slug}/reports/quarterly?year=${parsed.data?.year ?? ''}&quarter=${parsed.data?.quarter ?? ''}`;
   return (
     <div className="flex flex-col gap-5">
