@@ -6,6 +6,8 @@ import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { sequelize } from '@/lib/db';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
 import { policyInForce } from '@/lib/pricing-policy';
+import { listTanks } from '@/lib/tank';
+import { mlToLiters } from '@/lib/tank/quantity';
 import { policyInUnits } from '@/lib/pricing-policy/convert';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 
@@ -19,22 +21,24 @@ export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, Tan
 const q = <T extends object>(sql: string, replacements: Record<string, unknown>) => sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
 
 
-/** Tank totals across the co-op's active tanks, with the moving-average cost per gallon. */
-export async function getTankSummary(coopId: number): Promise<TankSummary> {
-  const [t] = await q<{ on_hand: string; reserved: string; capacity: string; value: string; n: string }>(
-    `SELECT COALESCE(SUM(on_hand_liters),0) AS on_hand, COALESCE(SUM(reserved_liters),0) AS reserved,
-            COALESCE(SUM(capacity_liters),0) AS capacity, COALESCE(SUM(value_cents),0) AS value, COUNT(*) AS n
-     FROM tanks WHERE coop_id = :coopId AND active`,
-    { coopId },
-  );
-  const onHand = Number(t!.on_hand);
+/**
+ * Tank totals across the co-op's active tanks, with the moving-average cost per gallon. Reads
+ * through lib/tank's listTanks so lapsed reservations are released first, exactly as on the
+ * tank page; sums are taken in whole millilitres.
+ */
+export async function getTankSummary(actor: Actor): Promise<TankSummary> {
+  const tanks = await listTanks(actor, { activeOnly: true });
+  const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'capacityLiters') => tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
+  const onHandMl = sumMl('onHandLiters');
+  const reservedMl = sumMl('reservedLiters');
+  const valueCents = tanks.reduce((a, t) => a + t.valueCents, 0);
   return {
-    onHandLiters: onHand.toFixed(3),
-    reservedLiters: Number(t!.reserved).toFixed(3),
-    availableLiters: (onHand - Number(t!.reserved)).toFixed(3),
-    capacityLiters: Number(t!.capacity).toFixed(3),
-    avgCostCentsPerGallon: onHand > 0 ? Math.round((Number(t!.value) / onHand) * LITERS_PER_US_GALLON) : null,
-    tanks: Number(t!.n),
+    onHandLiters: mlToLiters(onHandMl),
+    reservedLiters: mlToLiters(reservedMl),
+    availableLiters: mlToLiters(onHandMl - reservedMl),
+    capacityLiters: mlToLiters(sumMl('capacityLiters')),
+    avgCostCentsPerGallon: onHandMl > 0 ? Math.round((valueCents / (onHandMl / 1000)) * LITERS_PER_US_GALLON) : null,
+    tanks: tanks.length,
   };
 }
 
@@ -155,7 +159,7 @@ const chartCache = ttlMemo(CHART_TTL_MS);
 export async function getOverview(actor: Actor): Promise<Overview> {
   const c = actor.coop.id;
   const tz = actor.coop.timezone;
-  const tank = await getTankSummary(c);
+  const tank = await getTankSummary(actor);
   const isBrewer = can(actor.role, 'batches:read-all');
   const isTreasurer = can(actor.role, 'billing:manage');
   const [price, volumes, level, reservations, admin, account, brewer, treasurer, batchCosts, balances] = await Promise.all([
