@@ -14,7 +14,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import bcrypt from 'bcryptjs';
-import { signInCookie, startStack } from './lib.mjs';
+import { postgresCpuMs, serverCpuMs, signInCookie, startStack } from './lib.mjs';
 
 const DURATION = Number(process.env.DURATION ?? 5);
 const ROUNDS = Number(process.env.ROUNDS ?? 3);
@@ -84,7 +84,9 @@ try {
        FROM generate_series($2 - 9, $2) g`,
     [coop.id, BATCHES],
   );
-  await client.query('ANALYZE');
+  // What autovacuum would have done by the time a co-op has this history: statistics, and the visibility map
+  // that lets counts use index-only scans.
+  await client.query('VACUUM ANALYZE');
   const counts = await one(`SELECT (SELECT count(*) FROM batches WHERE coop_id = $1) AS batches, (SELECT count(*) FROM chemical_lots WHERE coop_id = $1) AS lots`, [coop.id]);
   log(`co-op ${SLUG}: ${counts.batches} batches, ${counts.lots} chemical lots`);
 
@@ -101,9 +103,13 @@ try {
 
   const run = (name, opts, duration) =>
     new Promise((resolve, reject) => {
+      const cpu0 = serverCpuMs(stack.next.pid);
+      const pg0 = postgresCpuMs(stack.pgClusterDir);
       autocannon({ connections: CONNECTIONS, duration, ...opts }, (err, r) => {
         if (err) return reject(err);
-        resolve({ name, reqPerSec: r.requests.average, p50: r.latency.p50, p97_5: r.latency.p97_5, p99: r.latency.p99, requests: r.requests.total, failures: r.non2xx + r.errors + r.timeouts });
+        const cpu = cpu0 === null ? null : (serverCpuMs(stack.next.pid) - cpu0) / r.requests.total;
+        const pgCpu = pg0 === null ? null : (postgresCpuMs(stack.pgClusterDir) - pg0) / r.requests.total;
+        resolve({ name, reqPerSec: r.requests.average, p50: r.latency.p50, p97_5: r.latency.p97_5, p99: r.latency.p99, requests: r.requests.total, failures: r.non2xx + r.errors + r.timeouts, cpuMsPerRequest: cpu, pgCpuMsPerRequest: pgCpu });
       });
     });
   const targets = [
@@ -138,14 +144,19 @@ try {
       p97_5: median(runs.map((r) => r.p97_5)),
       p99: median(runs.map((r) => r.p99)),
       ratioToHealth: median(rounds.map((r) => r[j].reqPerSec / r[0].reqPerSec)),
+      // Server CPU per request, and /api/health's over this endpoint's (the throughput ratio the server's CPU alone would give).
+      cpuMsPerRequest: runs[0].cpuMsPerRequest === null ? null : median(runs.map((r) => r.cpuMsPerRequest)),
+      cpuRatioToHealth: runs[0].cpuMsPerRequest === null ? null : median(rounds.map((r) => r[0].cpuMsPerRequest / r[j].cpuMsPerRequest)),
+      pgCpuMsPerRequest: runs[0].pgCpuMsPerRequest === null ? null : median(runs.map((r) => r.pgCpuMsPerRequest)),
       failures: runs.reduce((a, r) => a + r.failures, 0),
-      rounds: runs.map((r) => ({ reqPerSec: r.reqPerSec, p97_5: r.p97_5 })),
+      rounds: runs.map((r) => ({ reqPerSec: r.reqPerSec, p97_5: r.p97_5, cpuMsPerRequest: r.cpuMsPerRequest, pgCpuMsPerRequest: r.pgCpuMsPerRequest })),
     };
   });
   console.log(`\nmedians of ${ROUNDS} interleaved rounds, ${CONNECTIONS} connections, ${DURATION} s each`);
-  console.log('| endpoint | req/s | p50 ms | p97.5 ms | p99 ms | vs /api/health | failures |\n|---|---|---|---|---|---|---|');
+  console.log('| endpoint | req/s | p50 ms | p97.5 ms | p99 ms | vs /api/health | server CPU ms/req | CPU: health ÷ this | PostgreSQL CPU ms/req | failures |\n|---|---|---|---|---|---|---|---|---|---|');
+  const pct = (x) => (x === null ? '–' : `${(x * 100).toFixed(0)} %`);
   for (const r of results) {
-    console.log(`| ${r.name} | ${r.reqPerSec.toFixed(0)} | ${r.p50} | ${r.p97_5} | ${r.p99} | ${(r.ratioToHealth * 100).toFixed(0)} % | ${r.failures} |`);
+    console.log(`| ${r.name} | ${r.reqPerSec.toFixed(0)} | ${r.p50} | ${r.p97_5} | ${r.p99} | ${pct(r.ratioToHealth)} | ${r.cpuMsPerRequest?.toFixed(2) ?? '–'} | ${pct(r.cpuRatioToHealth)} | ${r.pgCpuMsPerRequest?.toFixed(2) ?? '–'} | ${r.failures} |`);
   }
   const list = results.find((r) => r.name.startsWith('GET batch list (page 1'));
   const planner = results.find((r) => r.name === 'POST planner');

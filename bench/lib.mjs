@@ -35,6 +35,8 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   const baseUrl = `http://127.0.0.1:${port}`;
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server when it stops.
   const nodeArgs = process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)] : [];
+  // BENCH_NODE_ARGS="--flag …" adds Node.js flags to the server (to try runtime settings).
+  if (process.env.BENCH_NODE_ARGS) nodeArgs.push(...process.env.BENCH_NODE_ARGS.split(/\s+/).filter(Boolean));
   const env = appEnv({
     databaseUrl: pgSrv.url + databaseUrlSuffix, appUrl: baseUrl, secret: crypto.randomBytes(32).toString('base64url'),
     smtpPort, paymentsPort, webhookSecret: 'whsec_bench', storageDir: path.join(root, 'uploads'),
@@ -45,7 +47,7 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   await waitForHealth(baseUrl, next.child);
   const pool = new pg.Pool({ connectionString: pgSrv.url, max: 4 });
   stops.unshift(() => pool.end());
-  return { baseUrl, pool, databaseUrl: pgSrv.url, root, next: next.child, stop: async () => { for (const s of stops) await s(); } };
+  return { baseUrl, pool, databaseUrl: pgSrv.url, root, pgClusterDir: path.join(root, 'pg', 'cluster'), next: next.child, stop: async () => { for (const s of stops) await s(); } };
 }
 
 /** Inserts a co-op with one user per role (same password); returns ids and e-mails. */
@@ -75,6 +77,44 @@ export async function signInCookie(baseUrl, email, password = PASSWORD) {
   const session = res.headers.getSetCookie().map((c) => c.split(';')[0]).find((c) => c.includes('session-token'));
   if (!session) throw new Error(`sign-in failed for ${email}: ${res.status}`);
   return session;
+}
+
+/**
+ * CPU time the server process has used so far, in ms (Linux /proc; null elsewhere). Taken around a
+ * load run it gives the server's CPU per request, a steadier measure than req/s on a shared machine.
+ */
+export function serverCpuMs(pid) {
+  try {
+    const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    return ((Number(f[11]) + Number(f[12])) * 1000) / 100; // utime + stime, in clock ticks of 1/100 s (USER_HZ)
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * CPU time PostgreSQL's processes (the postmaster of `clusterDir` and its children, i.e. the
+ * connections' backends) have used so far, in ms; null when it cannot be read.
+ */
+export function postgresCpuMs(clusterDir) {
+  try {
+    const postmaster = Number(fs.readFileSync(path.join(clusterDir, 'postmaster.pid'), 'utf8').split('\n')[0]);
+    let total = 0;
+    for (const pid of fs.readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
+      let stat;
+      try {
+        stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
+      } catch {
+        continue;
+      }
+      const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+      if (Number(pid) === postmaster || Number(f[1]) === postmaster) total += ((Number(f[11]) + Number(f[12])) * 1000) / 100;
+    }
+    return total;
+  } catch {
+    return null;
+  }
 }
 
 /** Runs autocannon; returns { rps, p97_5, p50, errors, non2xx }. */

@@ -44,15 +44,24 @@ export function parseWith<S extends z.ZodType>(schema: S, value: unknown): z.inf
   return r.data;
 }
 
+/**
+ * Reads a JSON body without judging it yet: the returned function gives the value, or throws the
+ * 400 when the body is not JSON (so a route can answer the session check first).
+ */
+export async function readJson(req: Request): Promise<() => unknown> {
+  try {
+    const value: unknown = await req.json();
+    return () => value;
+  } catch {
+    return () => {
+      throw new HttpError(400, 'The request body must be JSON.');
+    };
+  }
+}
+
 /** Reads a JSON body (400 when it is not JSON) and validates it (422 with fields). */
 export async function parseBody<S extends z.ZodType>(req: Request, schema: S): Promise<z.infer<S>> {
-  let body: unknown;
-  try {
-    body = await req.json();
-  } catch {
-    throw new HttpError(400, 'The request body must be JSON.');
-  }
-  return parseWith(schema, body);
+  return parseWith(schema, (await readJson(req))());
 }
 
 /** Validates the query string with a schema (422 with fields). */

@@ -21,6 +21,16 @@ function cookieName(): string {
   return (process.env.NEXTAUTH_URL ?? '').startsWith('https://') ? '__Secure-next-auth.session-token' : 'next-auth.session-token';
 }
 
+const CLOCK_TOLERANCE_S = 15;
+
+/**
+ * Cookies already decrypted in this process → their claims and expiry. Decryption is a pure
+ * function of the cookie and the secret, so a signed-in user's next requests skip it; the
+ * session version and membership are still read from the database on every request.
+ */
+const decrypted = new Map<string, { secret: string; claims: SessionClaims; exp: number }>();
+const DECRYPTED_MAX = 10_000;
+
 export interface SessionClaims {
   uid: number;
   sv: number;
@@ -39,11 +49,19 @@ export async function readSessionCookie(): Promise<SessionClaims | null> {
     token = chunks.map((c) => c.value).join('') || undefined;
   }
   if (!token) return null;
+  const now = Date.now() / 1000;
+  const known = decrypted.get(token);
+  if (known && known.secret === secret) return known.exp + CLOCK_TOLERANCE_S > now ? known.claims : null;
   try {
-    const { payload } = await jwtDecrypt(token, await encryptionKey(secret), { clockTolerance: 15 });
+    const { payload } = await jwtDecrypt(token, await encryptionKey(secret), { clockTolerance: CLOCK_TOLERANCE_S });
     const uid = Number(payload.uid);
     const sv = Number(payload.sv);
-    return Number.isInteger(uid) && uid > 0 && Number.isInteger(sv) ? { uid, sv } : null;
+    const claims = Number.isInteger(uid) && uid > 0 && Number.isInteger(sv) ? { uid, sv } : null;
+    if (claims && typeof payload.exp === 'number') {
+      if (decrypted.size >= DECRYPTED_MAX) decrypted.clear();
+      decrypted.set(token, { secret, claims, exp: payload.exp });
+    }
+    return claims;
   } catch {
     return null;
   }

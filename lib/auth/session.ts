@@ -1,11 +1,11 @@
 import 'server-only';
 import { cache } from 'react';
 import { QueryTypes } from 'sequelize';
-import { sequelize } from '@/lib/db';
+import { queryRows, queryRowSets, runReadPlan, sequelize, statement, type ReadPlan } from '@/lib/db';
 import { forbidden, HttpError, notFound, unauthorized } from '@/lib/http';
 import type { Role } from '@/lib/auth/roles';
 import type { UnitSystem, CoopSettings } from '@/models/Coop';
-import { readSessionCookie } from './jwt';
+import { readSessionCookie, type SessionClaims } from './jwt';
 import { can, type Action } from './policies';
 
 export interface SessionUser {
@@ -28,13 +28,12 @@ export interface Actor {
  */
 const readSession = cache(readSessionCookie);
 
+const SESSION_USER = statement('SELECT id, email, name, session_version FROM users WHERE id = $1', 'tv_session_user');
+
 export const getSessionUser = cache(async (): Promise<SessionUser | null> => {
   const session = await readSession();
   if (!session) return null;
-  const rows = await sequelize.query<{ id: number; email: string; name: string; session_version: number }>(
-    'SELECT id, email, name, session_version FROM users WHERE id = :uid',
-    { replacements: { uid: session.uid }, type: QueryTypes.SELECT },
-  );
+  const rows = await queryRows<{ id: number; email: string; name: string; session_version: number }>(SESSION_USER, [session.uid]);
   const u = rows[0];
   if (!u || session.sv !== u.session_version) return null;
   return { id: u.id, email: u.email, name: u.name };
@@ -57,21 +56,61 @@ export const listMyCoops = cache(async (userId: number) => {
 });
 
 /** The user and their membership in the co-op of the URL, in one query (null membership fields when not a member). */
-const loadActor = cache(async (userId: number, coopSlug: string) => {
-  const rows = await sequelize.query<{
-    user_id: number; email: string; user_name: string; session_version: number;
-    membership_id: number | null; role: Role; status: string; coop_id: number; slug: string; name: string;
-    units: UnitSystem; currency: string; timezone: string; settings: CoopSettings;
-  }>(
-    `SELECT u.id AS user_id, u.email, u.name AS user_name, u.session_version,
-            m.id AS membership_id, m.role, m.status, c.id AS coop_id, c.slug, c.name, c.units, c.currency, c.timezone, c.settings
+const ACTOR = statement(
+  `SELECT u.id AS user_id, u.email, u.name AS user_name, u.session_version,
+          m.id AS membership_id, m.role, m.status, c.id AS coop_id, c.slug, c.name, c.units, c.currency, c.timezone, c.settings
      FROM users u
-     LEFT JOIN (memberships m JOIN coops c ON c.id = m.coop_id AND c.slug = :coopSlug) ON m.user_id = u.id
-     WHERE u.id = :userId`,
-    { replacements: { userId, coopSlug }, type: QueryTypes.SELECT },
-  );
-  return rows[0] ?? null;
-});
+     LEFT JOIN (memberships m JOIN coops c ON c.id = m.coop_id AND c.slug = $2) ON m.user_id = u.id
+    WHERE u.id = $1`,
+  'tv_session_actor',
+);
+
+type ActorRow = {
+  user_id: number; email: string; user_name: string; session_version: number;
+  membership_id: number | null; role: Role; status: string; coop_id: number; slug: string; name: string;
+  units: UnitSystem; currency: string; timezone: string; settings: CoopSettings;
+};
+
+const loadActor = cache(async (userId: number, coopSlug: string) => (await queryRows<ActorRow>(ACTOR, [userId, coopSlug]))[0]);
+
+/** The actor of a fresh ACTOR row: 401 when the session is stale, 404 when not a member, 403 when suspended. */
+function actorOf(row: ActorRow | undefined, session: SessionClaims): Actor {
+  if (!row || row.session_version !== session.sv) throw unauthorized();
+  if (row.membership_id === null) throw notFound('Co-op not found.');
+  if (row.status !== 'active') throw forbidden('Your membership in this co-op is suspended.');
+  return {
+    user: { id: row.user_id, email: row.email, name: row.user_name },
+    role: row.role,
+    membershipId: row.membership_id,
+    coop: { id: row.coop_id, slug: row.slug, name: row.name, units: row.units, currency: row.currency, timezone: row.timezone, settings: row.settings ?? {} },
+  };
+}
+
+/**
+ * The actor each user last had in each co-op in this process: the guess {@link requireMemberAnd}
+ * builds its reads from. Never trusted on its own: every request reads the fresh row.
+ */
+const lastActors = new Map<string, { actor: Actor; json: string }>();
+const LAST_ACTORS_MAX = 10_000;
+const actorKey = (uid: number, slug: string) => `${uid}/${slug}`;
+
+function remember(key: string, actor: Actor): void {
+  if (lastActors.size >= LAST_ACTORS_MAX) lastActors.clear();
+  lastActors.set(key, { actor, json: JSON.stringify(actor) });
+}
+
+/** The actor of the fresh row, or the error it earns (forgetting the guess then). */
+function checkedActor(key: string, row: ActorRow | undefined, session: SessionClaims, action: Action): Actor {
+  let actor: Actor;
+  try {
+    actor = actorOf(row, session);
+  } catch (e) {
+    lastActors.delete(key);
+    throw e;
+  }
+  if (!can(actor.role, action)) throw forbidden();
+  return actor;
+}
 
 /**
  * The one authorization entry point: session → membership in the co-op of the URL → may this
@@ -81,18 +120,43 @@ const loadActor = cache(async (userId: number, coopSlug: string) => {
 export async function requireMember(coopSlug: string, action: Action): Promise<Actor> {
   const session = await readSession();
   if (!session) throw unauthorized();
-  const row = await loadActor(session.uid, String(coopSlug).slice(0, 60));
-  if (!row || row.session_version !== session.sv) throw unauthorized();
-  const user: SessionUser = { id: row.user_id, email: row.email, name: row.user_name };
-  if (row.membership_id === null) throw notFound('Co-op not found.');
-  if (row.status !== 'active') throw forbidden('Your membership in this co-op is suspended.');
-  if (!can(row.role, action)) throw forbidden();
-  return {
-    user,
-    role: row.role,
-    membershipId: row.membership_id,
-    coop: { id: row.coop_id, slug: row.slug, name: row.name, units: row.units, currency: row.currency, timezone: row.timezone, settings: row.settings ?? {} },
-  };
+  const slug = String(coopSlug).slice(0, 60);
+  const key = actorKey(session.uid, slug);
+  const actor = checkedActor(key, await loadActor(session.uid, slug), session, action);
+  remember(key, actor);
+  return actor;
+}
+
+/**
+ * {@link requireMember} and a read-only plan in one round trip, for the busiest read routes.
+ * The plan's statements are built from the actor this user last had in this co-op and sent in
+ * the same message as the session check. The fresh row is checked first (401/403/404 exactly as
+ * requireMember), and the rows are used only when the fresh actor is the same as the guess;
+ * otherwise they are discarded and the plan is read again for the fresh actor. Without a guess
+ * (or when building the plan from it fails) it is requireMember, then the plan. So a demotion,
+ * suspension or sign-out everywhere still counts from the very next request.
+ */
+export async function requireMemberAnd<R>(coopSlug: string, action: Action, build: (actor: Actor) => ReadPlan<R>): Promise<{ actor: Actor; result: R }> {
+  const session = await readSession();
+  if (!session) throw unauthorized();
+  const slug = String(coopSlug).slice(0, 60);
+  const key = actorKey(session.uid, slug);
+  const guess = lastActors.get(key);
+  let plan: ReadPlan<R> | null = null;
+  try {
+    plan = guess ? build(guess.actor) : null;
+  } catch {
+    plan = null; // e.g. a query string that does not validate: answered after the session check, below
+  }
+  if (guess && plan) {
+    const [actorRows, ...rowSets] = await queryRowSets<unknown[][]>([[ACTOR, [session.uid, slug]], ...plan.reads]);
+    const actor = checkedActor(key, actorRows![0] as ActorRow | undefined, session, action);
+    if (JSON.stringify(actor) === guess.json) return { actor, result: await plan.finish(rowSets) };
+    remember(key, actor);
+    return { actor, result: await runReadPlan(build(actor)) };
+  }
+  const actor = await requireMember(coopSlug, action);
+  return { actor, result: await runReadPlan(build(actor)) };
 }
 
 /** For pages: the actor or null instead of throwing on 401/403/404. */

@@ -2,7 +2,8 @@ import 'server-only';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, energyCostCents, estimateHeatingKwh, type FifoLotByTotal } from '@/lib/costing';
 import { roundHalfUp } from '@/lib/money';
-import { batchNeeds, heldLots, summarizeStock } from '@/lib/supplies';
+import { stockStatePlan, summarizeStock, type BatchNeeds, type HeldLot } from '@/lib/supplies';
+import type { ReadPlan } from '@/lib/db';
 import { fToC, litersToGallons, volumeToLiters } from '@/lib/units';
 import type { PlannerInput } from '@/lib/validation/brewing';
 import { computePlan, type ComputedPlan } from './plan';
@@ -66,17 +67,19 @@ function projectCost(lots: FifoLotByTotal[], committed: number, need: number): {
  * @param actor brewer or admin
  * @param input validated plannerSchema (volumes in the co-op's units)
  */
-export async function planBatch(actor: Actor, input: PlannerInput): Promise<PlannerResult> {
+export function plannerPlan(actor: Actor, input: PlannerInput): ReadPlan<PlannerResult> {
+  // The lots holding stock (FIFO order; also gives the next lot's purity) and what batches under
+  // way have committed, in one round trip (with the session check when the route sends them together).
+  const stock = stockStatePlan(actor.coop.id);
+  return { reads: stock.reads, finish: async (rowSets) => planWith(actor, input, await stock.finish(rowSets)) };
+}
+
+async function planWith(actor: Actor, input: PlannerInput, { lots, needs }: { lots: HeldLot[]; needs: BatchNeeds }): Promise<PlannerResult> {
   const units = actor.coop.units;
   const oilLiters = volumeToLiters(input.oilVolume, units);
   const catalyst = input.catalyst ?? actor.coop.settings.recipe?.catalyst ?? 'KOH';
-  // Independent reads in parallel: the titration's oil lot (when one is chosen), the lots holding
-  // stock (FIFO order; also gives the next lot's purity) and what batches under way have committed.
-  const [{ titration, lot }, lots, needs] = await Promise.all([
-    resolveTitration(actor, input),
-    heldLots(actor.coop.id, ['methanol', 'KOH', 'NaOH']),
-    batchNeeds(actor.coop.id),
-  ]);
+  // The titration: the trials given, or the chosen oil lot's (one more read only when a lot is chosen).
+  const { titration, lot } = await resolveTitration(actor, input);
   const stock = summarizeStock(lots, needs);
   const purity = input.purityPct === undefined ? (lots.find((l) => l.kind === catalyst)?.purityPct ?? null) : null;
   const plan = computePlan({ ...input, oilLiters, titration, nextLotPurityPct: purity }, actor.coop.settings.recipe);
@@ -86,7 +89,7 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
     const line = stock.lines.find((l) => l.kind === kind)!;
     const fifo: FifoLotByTotal[] = lots
       .filter((l) => l.kind === kind)
-      .map((l) => ({ id: l.id, receivedAt: l.receivedOn, qty: l.quantity, remainingQty: l.remaining, totalCostCents: l.totalCostCents }));
+      .map((l) => ({ id: l.id, receivedAt: l.receivedAtMs, qty: l.quantity, remainingQty: l.remaining, totalCostCents: l.totalCostCents }));
     const { cents, shortBy } = projectCost(fifo, line.committed, Math.round(needed * 1000) / 1000);
     return { kind, unit, needed, available: line.available, covered: shortBy <= 0, shortBy, projectedCents: cents };
   });

@@ -13,6 +13,7 @@ import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { tempToC, volumeToLiters } from '@/lib/units';
 import type { BatchCreateInput, BatchUpdateInput } from '@/lib/validation/brewing';
 import { Batch, BatchOilLot, BatchTemperature, sequelize } from '@/models';
+import { queryRows, runReadPlan, statement, type ReadPlan } from '@/lib/db';
 import type { BatchStatus } from '@/models/Batch';
 import { computePlan, type Catalyst, type ComputedPlan, type PlanInput } from './plan';
 
@@ -622,47 +623,61 @@ const LIST_SORT: Record<string, string> = {
 };
 const IN_PROGRESS = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
 
+type BatchListQuery = { page: number; pageSize: number; sort: string; dir: 'asc' | 'desc'; status?: string };
+type BatchListPage = { rows: BatchListRow[]; total: number; page: number; pageSize: number };
+type BatchListDbRow = {
+  id: number; number: number; status: BatchStatus; batch_date: string; oil_liters: string; released_liters: string | null;
+  total_cost_cents: string | null; cost_per_gallon_cents: string | null; quality_standard: FuelStandard;
+  quality_verdict: 'pass' | 'fail' | 'incomplete'; screening_verdict: 'looks-good' | 'needs-attention' | 'incomplete'; total: string;
+};
+
 /**
- * A page of the co-op's batches, sorted and filtered in SQL (one query, indexed by co-op).
+ * A page of the co-op's batches, sorted and filtered in SQL (one query, indexed by co-op), as a
+ * plan the batch list route sends together with the session check.
  * Members and treasurers see released batches only.
  */
-export async function listBatches(
-  actor: Actor,
-  q: { page: number; pageSize: number; sort: string; dir: 'asc' | 'desc'; status?: string },
-): Promise<{ rows: BatchListRow[]; total: number; page: number; pageSize: number }> {
+export function batchListPlan(actor: Actor, q: BatchListQuery): ReadPlan<BatchListPage> {
   const col = LIST_SORT[q.sort] ?? 'number';
   const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
   const all = can(actor.role, 'batches:read-all');
-  if (!all && q.status && q.status !== 'released') return { rows: [], total: 0, page: q.page, pageSize: q.pageSize };
+  if (!all && q.status && q.status !== 'released') return { reads: [], finish: () => ({ rows: [], total: 0, page: q.page, pageSize: q.pageSize }) };
   const statuses = !all ? ['released'] : q.status === 'in-progress' ? IN_PROGRESS : q.status ? [q.status] : null;
   // NOT NULL sort columns need no NULLS LAST, so the (coop_id, number) and (coop_id, batch_date, number) indexes give the order.
   const order = col === 'number' ? `number ${dir}` : col === 'batch_date' || col === 'status' ? `${col} ${dir}, number ${dir}` : `${col} ${dir} NULLS LAST, number ${dir}`;
-  const where = `coop_id = :coopId ${statuses ? 'AND status IN (:statuses)' : ''}`;
-  const replacements = { coopId: actor.coop.id, statuses, limit: q.pageSize, offset: (q.page - 1) * q.pageSize };
-  // One round trip: the page by an index on (coop_id, number) or (coop_id, batch_date, number), and the count as a
-  // scalar subquery (an index-only scan); a window count(*) OVER () would read every row of the co-op instead.
-  const rows = await sequelize.query<{
-    id: number; number: number; status: BatchStatus; batch_date: string; oil_liters: string; released_liters: string | null;
-    total_cost_cents: string | null; cost_per_gallon_cents: string | null; quality_standard: FuelStandard;
-    quality_verdict: 'pass' | 'fail' | 'incomplete'; screening_verdict: 'looks-good' | 'needs-attention' | 'incomplete'; total: string;
-  }>(
+  const where = `coop_id = $1 ${statuses ? 'AND status = ANY($2)' : ''}`;
+  const values: unknown[] = statuses ? [actor.coop.id, statuses] : [actor.coop.id];
+  const n0 = values.length;
+  // The page by an index on (coop_id, number) or (coop_id, batch_date, number), and the count as a scalar
+  // subquery (an index-only scan); a window count(*) OVER () would read every row of the co-op instead.
+  const page = statement(
     `SELECT id, number, status, batch_date, oil_liters, released_liters, total_cost_cents, cost_per_gallon_cents, quality_standard,
             quality_verdict, screening_verdict, (SELECT count(*) FROM batches WHERE ${where}) AS total
-       FROM batches WHERE ${where} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
-    { replacements, type: QueryTypes.SELECT },
+       FROM batches WHERE ${where} ORDER BY ${order} LIMIT $${n0 + 1} OFFSET $${n0 + 2}`,
+    `tv_batch_list_${col}_${dir.toLowerCase()}_${statuses ? 'by_status' : 'all'}`,
   );
-  let total = rows[0] ? Number(rows[0].total) : 0;
-  if (!rows[0] && q.page > 1) {
-    const [c] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM batches WHERE ${where}`, { replacements, type: QueryTypes.SELECT });
-    total = Number(c?.n ?? 0);
-  }
   return {
-    rows: rows.map((r) => ({
-      id: r.id, number: r.number, status: r.status, batchDate: r.batch_date, oilLiters: Number(r.oil_liters),
-      releasedLiters: n(r.released_liters), costPerGallonCents: n(r.cost_per_gallon_cents),
-      costPerLiterCents: r.total_cost_cents !== null && r.released_liters ? roundHalfUp(Number(r.total_cost_cents) / Number(r.released_liters)) : null,
-      qualityStandard: r.quality_standard, qualityVerdict: r.quality_verdict, screeningVerdict: r.screening_verdict,
-    })),
-    total, page: q.page, pageSize: q.pageSize,
+    reads: [[page, [...values, q.pageSize, (q.page - 1) * q.pageSize]]],
+    finish: async ([found]) => {
+      const rows = found as BatchListDbRow[];
+      let total = rows[0] ? Number(rows[0].total) : 0;
+      if (!rows[0] && q.page > 1) {
+        const [c] = await queryRows<{ n: string }>(statement(`SELECT count(*) AS n FROM batches WHERE ${where}`), values);
+        total = Number(c?.n ?? 0);
+      }
+      return {
+        rows: rows.map((r) => ({
+          id: r.id, number: r.number, status: r.status, batchDate: r.batch_date, oilLiters: Number(r.oil_liters),
+          releasedLiters: n(r.released_liters), costPerGallonCents: n(r.cost_per_gallon_cents),
+          costPerLiterCents: r.total_cost_cents !== null && r.released_liters ? roundHalfUp(Number(r.total_cost_cents) / Number(r.released_liters)) : null,
+          qualityStandard: r.quality_standard, qualityVerdict: r.quality_verdict, screeningVerdict: r.screening_verdict,
+        })),
+        total, page: q.page, pageSize: q.pageSize,
+      };
+    },
   };
+}
+
+/** A page of the co-op's batches (see {@link batchListPlan}). */
+export function listBatches(actor: Actor, q: BatchListQuery): Promise<BatchListPage> {
+  return runReadPlan(batchListPlan(actor, q));
 }

@@ -3,8 +3,8 @@ import { assertCents, roundHalfUp } from '../money';
 /** Fields common to every lot offered to {@link consumeFifo}. */
 interface FifoLotBase {
   id: string | number;
-  /** When the lot was received; oldest is consumed first. ISO string or Date. */
-  receivedAt: Date | string;
+  /** When the lot was received; oldest is consumed first. ISO string, Date or epoch milliseconds. */
+  receivedAt: Date | string | number;
   /** Quantity still on hand, in the lot's unit (L, kg …). */
   remainingQty: number;
 }
@@ -56,7 +56,8 @@ function cleanQty(qty: number): number {
 }
 
 function receivedTime(lot: FifoLot): number {
-  const time = (lot.receivedAt instanceof Date ? lot.receivedAt : new Date(lot.receivedAt)).getTime();
+  const r = lot.receivedAt;
+  const time = typeof r === 'number' ? r : (r instanceof Date ? r : new Date(r)).getTime();
   if (Number.isNaN(time)) throw new RangeError(`Lot ${String(lot.id)} has an invalid receivedAt`);
   return time;
 }

@@ -3,6 +3,7 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
+import { queryRows, runReadPlan, statement, type ReadPlan } from '@/lib/db';
 import { deleteFile, getFile, putFile } from '@/lib/storage';
 import { gallonsToLiters, volumeToLiters } from '@/lib/units';
 import type { ChemicalLotCreateInput, OilLotCreateInput } from '@/lib/validation/brewing';
@@ -319,28 +320,31 @@ const NEED_CATALYST = 'COALESCE(actual_catalyst_grams, computed_catalyst_grams)'
  * 'planned').
  */
 export async function stockSummary(actor: Actor, transaction?: Transaction): Promise<StockSummary> {
-  const [lots, needs] = await Promise.all([heldLots(actor.coop.id, ['methanol', 'KOH', 'NaOH'], transaction), batchNeeds(actor.coop.id, transaction)]);
+  const { lots, needs } = await stockState(actor.coop.id, transaction);
   return summarizeStock(lots, needs);
 }
 
-/** A chemical lot that still holds stock. */
-export interface HeldLot { id: number; kind: 'methanol' | 'KOH' | 'NaOH'; receivedOn: string; quantity: number; remaining: number; totalCostCents: number; purityPct: number | null }
+/** A chemical lot that still holds stock. `receivedAtMs` is the day received (UTC midnight, ms), the FIFO key. */
+export interface HeldLot { id: number; kind: 'methanol' | 'KOH' | 'NaOH'; receivedAtMs: number; quantity: number; remaining: number; totalCostCents: number; purityPct: number | null }
 
 /**
  * The co-op's lots of these chemicals that still hold stock, oldest first (FIFO order), from the
- * partial index on lots with remaining stock — a co-op has a handful of these at any time.
+ * partial index on lots with remaining stock. One row per kind carrying its lots as one JSON
+ * array, so the app parses one value per kind instead of seven columns per lot.
  */
-export async function heldLots(coopId: number, kinds: HeldLot['kind'][], transaction?: Transaction): Promise<HeldLot[]> {
-  const rows = await sequelize.query<{ id: number; kind: HeldLot['kind']; received_on: string; quantity: string; remaining_quantity: string; total_cost_cents: string; purity_pct: string | null }>(
-    `SELECT id, kind, received_on, quantity, remaining_quantity, total_cost_cents, purity_pct FROM chemical_lots
-      WHERE coop_id = :coopId AND kind IN (:kinds) AND remaining_quantity > 0 ORDER BY kind, received_on, id`,
-    { replacements: { coopId, kinds }, type: QueryTypes.SELECT, transaction },
+const HELD_LOTS = statement(
+  `SELECT kind, json_agg(json_build_array(id, (extract(epoch FROM received_on) * 1000)::bigint, quantity, remaining_quantity, total_cost_cents, purity_pct)
+                         ORDER BY received_on, id) AS lots
+     FROM chemical_lots WHERE coop_id = $1 AND kind = ANY($2) AND remaining_quantity > 0 GROUP BY kind`,
+  'tv_held_lots',
+);
+
+type HeldLotsRow = { kind: HeldLot['kind']; lots: [number, number, number, number, number, number | null][] };
+
+const heldLots = (rows: HeldLotsRow[]): HeldLot[] =>
+  rows.flatMap(({ kind, lots }) =>
+    lots.map(([id, receivedAtMs, quantity, remaining, totalCostCents, purityPct]) => ({ id, kind, receivedAtMs, quantity, remaining, totalCostCents, purityPct })),
   );
-  return rows.map((r) => ({
-    id: r.id, kind: r.kind, receivedOn: r.received_on, quantity: Number(r.quantity), remaining: Number(r.remaining_quantity),
-    totalCostCents: Number(r.total_cost_cents), purityPct: r.purity_pct === null ? null : Number(r.purity_pct),
-  }));
-}
 
 /**
  * Stock on hand per chemical as one aggregated entry per kind (summed in SQL), for summaries
@@ -353,7 +357,7 @@ export async function stockTotals(coopId: number, kinds: HeldLot['kind'][]): Pro
     { replacements: { coopId, kinds }, type: QueryTypes.SELECT },
   );
   return rows.map((r, i) => ({
-    id: -(i + 1), kind: r.kind, receivedOn: '', quantity: Number(r.quantity), remaining: Number(r.remaining),
+    id: -(i + 1), kind: r.kind, receivedAtMs: 0, quantity: Number(r.quantity), remaining: Number(r.remaining),
     totalCostCents: Number(r.cost), purityPct: null,
   }));
 }
@@ -364,18 +368,25 @@ export interface BatchNeeds {
   next: { id: number; number: number; catalyst: 'KOH' | 'NaOH'; methanolLiters: number; catalystGrams: number } | null;
 }
 
+const BATCH_NEEDS = statement(
+  `SELECT w.methanol_committed, w.koh_committed, w.naoh_committed,
+          n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams
+     FROM (SELECT COALESCE(sum(${NEED_METHANOL}), 0) AS methanol_committed,
+                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'KOH'), 0) AS koh_committed,
+                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'NaOH'), 0) AS naoh_committed
+             FROM batches WHERE coop_id = $1 AND status IN ('reacting','settling','draining','washing','drying','testing')) w
+     LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams
+             FROM batches WHERE coop_id = $1 AND status = 'planned' ORDER BY batch_date, number LIMIT 1) n ON true`,
+  'tv_batch_needs',
+);
+
+type BatchNeedsRow = Record<string, string | number | null>;
+
 export async function batchNeeds(coopId: number, transaction?: Transaction): Promise<BatchNeeds> {
-  const [r] = await sequelize.query<Record<string, string | number | null>>(
-    `SELECT w.methanol_committed, w.koh_committed, w.naoh_committed,
-            n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams
-       FROM (SELECT COALESCE(sum(${NEED_METHANOL}), 0) AS methanol_committed,
-                    COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'KOH'), 0) AS koh_committed,
-                    COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'NaOH'), 0) AS naoh_committed
-               FROM batches WHERE coop_id = :c AND status IN ('reacting','settling','draining','washing','drying','testing')) w
-       LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams
-               FROM batches WHERE coop_id = :c AND status = 'planned' ORDER BY batch_date, number LIMIT 1) n ON true`,
-    { replacements: { c: coopId }, type: QueryTypes.SELECT, transaction },
-  );
+  return batchNeedsOf((await queryRows<BatchNeedsRow>(BATCH_NEEDS, [coopId], transaction))[0]);
+}
+
+function batchNeedsOf(r: BatchNeedsRow | undefined): BatchNeeds {
   const row = r ?? {};
   return {
     committed: { methanol: Number(row.methanol_committed ?? 0), KOH: Number(row.koh_committed ?? 0), NaOH: Number(row.naoh_committed ?? 0) },
@@ -383,6 +394,18 @@ export async function batchNeeds(coopId: number, transaction?: Transaction): Pro
       ? { id: Number(row.next_id), number: Number(row.next_number), catalyst: row.next_catalyst as 'KOH' | 'NaOH', methanolLiters: Number(row.next_methanol), catalystGrams: Number(row.next_catalyst_grams) }
       : null,
   };
+}
+
+/** The lots holding methanol, KOH or NaOH (FIFO order) and the batches' needs, read in one round trip. */
+export function stockStatePlan(coopId: number): ReadPlan<{ lots: HeldLot[]; needs: BatchNeeds }> {
+  return {
+    reads: [[HELD_LOTS, [coopId, ['methanol', 'KOH', 'NaOH']]], [BATCH_NEEDS, [coopId]]],
+    finish: ([lots, needs]) => ({ lots: heldLots(lots as HeldLotsRow[]), needs: batchNeedsOf((needs as BatchNeedsRow[])[0]) }),
+  };
+}
+
+export function stockState(coopId: number, transaction?: Transaction): Promise<{ lots: HeldLot[]; needs: BatchNeeds }> {
+  return runReadPlan(stockStatePlan(coopId), transaction);
 }
 
 /** Stock lines from the lots holding stock and the batches' needs (pure). */

@@ -3,7 +3,7 @@ import { QueryTypes } from 'sequelize';
 import { appUrl, sendMail } from '@/lib/mail';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { sequelize } from '@/models';
-import { batchNeeds, heldLots, summarizeStock, type StockLine } from './index';
+import { stockState, summarizeStock, type StockLine } from './index';
 
 const q = <T extends object>(sql: string, replacements: Record<string, unknown>) => sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
 
@@ -24,7 +24,7 @@ function amount(line: Pick<StockLine, 'kind'>, value: number, units: UnitSystem)
  */
 export async function checkLowStock(coopId: number): Promise<StockLine['kind'][]> {
   try {
-    const [lots, needs] = await Promise.all([heldLots(coopId, ['methanol', 'KOH', 'NaOH']), batchNeeds(coopId)]);
+    const { lots, needs } = await stockState(coopId);
     const summary = summarizeStock(lots, needs);
     const crossed: StockLine[] = [];
     for (const line of summary.lines) {

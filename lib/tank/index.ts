@@ -3,10 +3,10 @@ import { QueryTypes, UniqueConstraintError } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { sequelize } from '@/lib/db';
+import { runReadPlan, sequelize, statement, type ReadPlan } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
-import { EXPIRE_CTES, expireLapsedReservations } from '@/lib/reservations/expire';
+import { expireCtes, expireLapsedReservations } from '@/lib/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { dipCreateSchema, movementListSchema, tankCreateSchema, tankUpdateSchema, transferCreateSchema } from '@/lib/validation/tank';
 import { DipReading, Tank } from '@/models';
@@ -66,21 +66,35 @@ function tankDto(r: TankRow, units: UnitSystem): TankDto {
 const TANK_COLUMNS = `t.id, t.name, t.active, t.capacity_liters, t.on_hand_liters, t.value_cents,
   (SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = t.coop_id AND d.tank_id = t.id) AS last_dip_at`;
 
-/**
- * The co-op's tanks with on hand, reserved, available and average cost. One statement: it
- * first expires lapsed reservations (lazy expiry) and reports reserved net of them.
- * @param actor any member (tank:read)
- */
-export async function listTanks(actor: Actor, opts: { activeOnly?: boolean } = {}): Promise<TankDto[]> {
-  const rows = await sequelize.query<TankRow>(
-    `WITH ${EXPIRE_CTES}
+const listTanksStatement = (activeOnly: boolean) =>
+  statement(
+    `WITH ${expireCtes('$1')}
      SELECT ${TANK_COLUMNS}, (t.reserved_liters - coalesce(p.liters, 0))::text AS reserved_liters
      FROM tanks t LEFT JOIN expired_per_tank p ON p.tank_id = t.id
-     WHERE t.coop_id = :coopId ${opts.activeOnly ? 'AND t.active' : ''}
+     WHERE t.coop_id = $1 ${activeOnly ? 'AND t.active' : ''}
      ORDER BY t.active DESC, t.id`,
-    { replacements: { coopId: actor.coop.id }, type: QueryTypes.SELECT },
+    activeOnly ? 'tv_list_active_tanks' : 'tv_list_tanks',
   );
-  return rows.map((r) => tankDto(r, actor.coop.units));
+const LIST_TANKS = listTanksStatement(false);
+const LIST_ACTIVE_TANKS = listTanksStatement(true);
+
+/**
+ * The co-op's tanks with on hand, reserved, available and average cost. One statement: it
+ * first expires lapsed reservations (lazy expiry) and reports reserved net of them. The tank
+ * route sends it with the session check; the expiry is housekeeping that any read of the co-op's
+ * tanks does, whoever asks.
+ * @param actor any member (tank:read)
+ */
+export function listTanksPlan(actor: Actor, opts: { activeOnly?: boolean } = {}): ReadPlan<TankDto[]> {
+  return {
+    reads: [[opts.activeOnly ? LIST_ACTIVE_TANKS : LIST_TANKS, [actor.coop.id]]],
+    finish: ([rows]) => (rows as TankRow[]).map((r) => tankDto(r, actor.coop.units)),
+  };
+}
+
+/** The co-op's tanks (see {@link listTanksPlan}). */
+export function listTanks(actor: Actor, opts: { activeOnly?: boolean } = {}): Promise<TankDto[]> {
+  return runReadPlan(listTanksPlan(actor, opts));
 }
 
 /** One tank of the actor's co-op (404 for another co-op's or a missing id). */

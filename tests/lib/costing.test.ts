@@ -35,6 +35,12 @@ describe('consumeFifo', () => {
     expect(r.allocatedQty).toBe(22.6);
   });
 
+  it('orders lots received as epoch milliseconds exactly as the same days given as dates', () => {
+    const asMs = drums.map((d) => ({ ...d, receivedAt: new Date(d.receivedAt).getTime() }));
+    expect(consumeFifo(asMs, 22.6)).toEqual(consumeFifo(drums, 22.6));
+    expect(consumeFifo(asMs, 250).allocations.map((a) => a.lotId)).toEqual(['a', 'b', 'c']);
+  });
+
   it('spans several lots and reports a shortfall when stock runs out', () => {
     const r = consumeFifo(drums, 250);
     expect(r.allocations.map((a) => [a.lotId, a.qty])).toEqual([
