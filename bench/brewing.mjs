@@ -14,7 +14,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import bcrypt from 'bcryptjs';
-import { postgresCpuMs, serverCpuMs, signInCookie, startStack } from './lib.mjs';
+import { postgresCpuMeter, serverCpuMs, signInCookie, startStack } from './lib.mjs';
 
 const DURATION = Number(process.env.DURATION ?? 5);
 const ROUNDS = Number(process.env.ROUNDS ?? 3);
@@ -104,11 +104,12 @@ try {
   const run = (name, opts, duration) =>
     new Promise((resolve, reject) => {
       const cpu0 = serverCpuMs(stack.next.pid);
-      const pg0 = postgresCpuMs(stack.pgClusterDir);
+      const pgUsed = postgresCpuMeter(stack.pgClusterDir);
       autocannon({ connections: CONNECTIONS, duration, ...opts }, (err, r) => {
         if (err) return reject(err);
         const cpu = cpu0 === null ? null : (serverCpuMs(stack.next.pid) - cpu0) / r.requests.total;
-        const pgCpu = pg0 === null ? null : (postgresCpuMs(stack.pgClusterDir) - pg0) / r.requests.total;
+        const pgMs = pgUsed();
+        const pgCpu = pgMs === null ? null : pgMs / r.requests.total;
         resolve({ name, reqPerSec: r.requests.average, p50: r.latency.p50, p97_5: r.latency.p97_5, p99: r.latency.p99, requests: r.requests.total, failures: r.non2xx + r.errors + r.timeouts, cpuMsPerRequest: cpu, pgCpuMsPerRequest: pgCpu });
       });
     });

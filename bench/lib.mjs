@@ -93,14 +93,11 @@ export function serverCpuMs(pid) {
   }
 }
 
-/**
- * CPU time PostgreSQL's processes (the postmaster of `clusterDir` and its children, i.e. the
- * connections' backends) have used so far, in ms; null when it cannot be read.
- */
-export function postgresCpuMs(clusterDir) {
+/** CPU time used so far by each of PostgreSQL's processes (the postmaster of `clusterDir` and its children), ms by pid; null when unreadable. */
+function postgresCpuByPid(clusterDir) {
   try {
     const postmaster = Number(fs.readFileSync(path.join(clusterDir, 'postmaster.pid'), 'utf8').split('\n')[0]);
-    let total = 0;
+    const byPid = new Map();
     for (const pid of fs.readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
       let stat;
       try {
@@ -109,12 +106,27 @@ export function postgresCpuMs(clusterDir) {
         continue;
       }
       const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
-      if (Number(pid) === postmaster || Number(f[1]) === postmaster) total += ((Number(f[11]) + Number(f[12])) * 1000) / 100;
+      if (Number(pid) === postmaster || Number(f[1]) === postmaster) byPid.set(pid, ((Number(f[11]) + Number(f[12])) * 1000) / 100);
     }
-    return total;
+    return byPid;
   } catch {
     return null;
   }
+}
+
+/**
+ * Starts counting PostgreSQL's CPU time; the returned function gives the ms used since, by the
+ * processes alive then (an autovacuum worker that exits in between does not make it negative).
+ */
+export function postgresCpuMeter(clusterDir) {
+  const before = postgresCpuByPid(clusterDir);
+  return () => {
+    const now = postgresCpuByPid(clusterDir);
+    if (!before || !now) return null;
+    let used = 0;
+    for (const [pid, ms] of now) used += Math.max(0, ms - (before.get(pid) ?? 0));
+    return used;
+  };
 }
 
 /** Runs autocannon; returns { rps, p97_5, p50, errors, non2xx }. */

@@ -16,7 +16,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import bcrypt from 'bcryptjs';
-import { signInCookie, startStack } from './lib.mjs';
+import { postgresCpuMeter, serverCpuMs, signInCookie, startStack } from './lib.mjs';
 
 const DURATION = Number(process.env.BENCH_SECONDS ?? 10);
 const MEMBERS = 300;
@@ -90,9 +90,19 @@ try {
   for (let i = 1; i <= SESSIONS; i++) cookies.push(await signIn(`member${i}@bench.example.org`));
   log(`${cookies.length} members signed in`);
 
-  const run = (opts) => new Promise((resolve, reject) => autocannon({ duration: DURATION, ...opts }, (e, r) => (e ? reject(e) : resolve(r))));
+  // Each run also notes the server's and PostgreSQL's CPU per request (steadier than req/s on a shared machine).
+  const run = (opts) => new Promise((resolve, reject) => {
+    const [cpu0, pgUsed] = [serverCpuMs(stack.next.pid), postgresCpuMeter(stack.pgClusterDir)];
+    autocannon({ duration: DURATION, ...opts }, (e, r) => {
+      if (e) return reject(e);
+      const per = (ms) => (ms === null ? null : Number((ms / r.requests.total).toFixed(2)));
+      const cpu1 = serverCpuMs(stack.next.pid);
+      resolve({ ...r, serverCpuMs: per(cpu0 === null || cpu1 === null ? null : cpu1 - cpu0), postgresCpuMs: per(pgUsed()) });
+    });
+  });
   const summary = (r) => ({
     rps: Math.round(r.requests.average), p50: r.latency.p50, p97_5: r.latency.p97_5, p99: r.latency.p99, total: r.requests.total,
+    serverCpuMsPerRequest: r.serverCpuMs, postgresCpuMsPerRequest: r.postgresCpuMs,
     errors: r.errors, timeouts: r.timeouts, status: Object.fromEntries(Object.entries(r.statusCodeStats ?? {}).map(([k, v]) => [k, v.count])),
   });
   const tanksUrl = `${base}/api/coops/bench-coop/tanks`;
@@ -155,12 +165,13 @@ try {
   const out = path.resolve('bench', 'output', `tank-${result.at.replace(/[:.]/g, '-')}.json`);
   fs.writeFileSync(out, JSON.stringify(result, null, 2));
 
+  const cpu = (r) => ({ 'server CPU ms/req': r.serverCpuMsPerRequest, 'PostgreSQL CPU ms/req': r.postgresCpuMsPerRequest });
   console.table({
-    'GET /api/health (10 conn)': { 'req/s': result.health.rps, 'p97.5 ms': result.health.p97_5, status: JSON.stringify(health[0].status) },
-    'GET tanks API (10 conn)': { 'req/s': result.tankApi.rps, 'p97.5 ms': result.tankApi.p97_5, status: JSON.stringify(tankApi[0].status) },
-    'GET /api/coops, signed in (10 conn)': { 'req/s': result.signedInReference.rps, 'p97.5 ms': result.signedInReference.p97_5, status: JSON.stringify(signedIn[0].status) },
-    'POST reservations (50 conn)': { 'req/s': res50.rps, 'p97.5 ms': res50.p97_5, status: JSON.stringify(res50.status) },
-    'POST reservations (10 conn)': { 'req/s': res10.rps, 'p97.5 ms': res10.p97_5, status: JSON.stringify(res10.status) },
+    'GET /api/health (10 conn)': { 'req/s': result.health.rps, 'p97.5 ms': result.health.p97_5, ...cpu(health[1]), status: JSON.stringify(health[0].status) },
+    'GET tanks API (10 conn)': { 'req/s': result.tankApi.rps, 'p97.5 ms': result.tankApi.p97_5, ...cpu(tankApi[1]), status: JSON.stringify(tankApi[0].status) },
+    'GET /api/coops, signed in (10 conn)': { 'req/s': result.signedInReference.rps, 'p97.5 ms': result.signedInReference.p97_5, ...cpu(signedIn[1]), status: JSON.stringify(signedIn[0].status) },
+    'POST reservations (50 conn)': { 'req/s': res50.rps, 'p97.5 ms': res50.p97_5, ...cpu(res50), status: JSON.stringify(res50.status) },
+    'POST reservations (10 conn)': { 'req/s': res10.rps, 'p97.5 ms': res10.p97_5, ...cpu(res10), status: JSON.stringify(res10.status) },
   });
   log(`tank API / health throughput: ${(result.tankVsHealth * 100).toFixed(1)} %; tank API / signed-in reference: ${(result.tankVsSignedInReference * 100).toFixed(1)} %`);
   log(`oversell check: ${result.oversell.ok ? 'none' : 'VIOLATION'} (tight tank: ${result.oversell.tightTankReservedLiters} L reserved of ${result.oversell.tightTankAvailableBeforeLiters} L available)`);

@@ -242,6 +242,12 @@ describe('brewing: a batch from supplies to the tank (metric co-op)', () => {
     const page = await b.get(`${api(slug)}/batches?sort=number&dir=asc&pageSize=2&page=2`).expect(200);
     expect(page.body).toMatchObject({ total: 3, page: 2, pageSize: 2 });
     expect(page.body.rows.map((r: { number: number }) => r.number)).toEqual([3]);
+    const pastTheEnd = await b.get(`${api(slug)}/batches?sort=number&dir=asc&pageSize=2&page=9`).expect(200);
+    expect(pastTheEnd.body).toMatchObject({ rows: [], total: 3, page: 9 });
+    const byCost = await b.get(`${api(slug)}/batches?sort=costPerGallon&dir=desc`).expect(200);
+    const costs = byCost.body.rows.map((r: { costPerGallonCents: number | null }) => r.costPerGallonCents);
+    const priced = costs.filter((c: number | null) => c !== null);
+    expect(costs.slice(0, priced.length)).toEqual([...priced].sort((x: number, y: number) => y - x)); // unpriced batches last
     const badSort = await b.get(`${api(slug)}/batches?sort=secret`).expect(422);
     expect(badSort.body.fields.sort).toBeDefined();
   });
