@@ -26,7 +26,7 @@ function create(): Sequelize {
 export const sequelize: Sequelize = globalThis.__tallyvatSequelize ?? (globalThis.__tallyvatSequelize = create());
 
 /**
- * A read statement with positional parameters ($1, $2, …; an array binds as a PostgreSQL array,
+ * A statement with positional parameters ($1, $2, …; an array binds as a PostgreSQL array,
  * for `= ANY($n)`). A named statement is prepared once per pooled connection (PREPARE) and then
  * run with EXECUTE, so PostgreSQL parses and plans it once per connection instead of per request.
  */
@@ -154,15 +154,16 @@ async function run(client: Tracked, prepare: boolean, stmts: readonly Read[], re
 }
 
 /**
- * Runs one read statement on a connection of Sequelize's pool (or the transaction's own
- * connection) and returns its rows. For the hot read paths (the session check, list pages): it
- * skips Sequelize's query pipeline (hooks, logging, result shaping).
+ * Runs one statement on a connection of Sequelize's pool (or the transaction's own connection)
+ * and returns its rows. For the hot paths (the session check, list pages, reserving fuel): it
+ * skips Sequelize's query pipeline (hooks, logging, result shaping). A write sent this way is one
+ * statement or one message, so it is atomic without an explicit transaction.
  */
 export async function queryRows<T>(stmt: Statement, values: readonly unknown[], transaction?: Transaction | null): Promise<T[]> {
   return (await send([[stmt, values]], transaction))[0] as T[];
 }
 
-/** Runs several read statements in one round trip and returns each one's rows. */
+/** Runs several statements in one round trip, as one implicit transaction, and returns each one's rows. */
 export async function queryRowSets<T extends unknown[][]>(stmts: { [K in keyof T]: Read }, transaction?: Transaction | null): Promise<T> {
   return (await send(stmts as readonly Read[], transaction)) as T;
 }

@@ -1,6 +1,6 @@
 import 'server-only';
-import { QueryTypes, type Transaction } from 'sequelize';
-import { sequelize } from '@/lib/db';
+import type { Transaction } from 'sequelize';
+import { queryRows, statement } from '@/lib/db';
 
 /**
  * The lazy expiry, as SQL shared by the statements that need it. Marks the co-op's open
@@ -31,15 +31,18 @@ export const expireCtes = (coopParam: string) => `
     RETURNING 1
   )`;
 
+/** The expiry on its own, answering how many reservations it expired. */
+export const EXPIRE_STATEMENT = statement(
+  `WITH ${expireCtes('$1')} SELECT (SELECT count(*) FROM expired)::text AS n, (SELECT count(*) FROM expired_tanks) AS t, (SELECT count(*) FROM expired_audit) AS a`,
+  'tv_expire_reservations',
+);
+
 /**
  * Expires lapsed reservations of a co-op (inside the caller's transaction, before it takes any
  * tank lock, so the lock order stays reservations → tanks everywhere).
  * @returns how many reservations expired
  */
 export async function expireLapsedReservations(coopId: number, transaction?: Transaction): Promise<number> {
-  const [row] = await sequelize.query<{ n: string }>(
-    `WITH ${expireCtes(':coopId')} SELECT (SELECT count(*) FROM expired)::text AS n, (SELECT count(*) FROM expired_tanks) AS t, (SELECT count(*) FROM expired_audit) AS a`,
-    { replacements: { coopId }, type: QueryTypes.SELECT, transaction },
-  );
+  const [row] = await queryRows<{ n: string }>(EXPIRE_STATEMENT, [coopId], transaction);
   return Number(row?.n ?? 0);
 }

@@ -3,13 +3,13 @@ import { QueryTypes } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
-import { sequelize } from '@/lib/db';
+import { queryRowSets, sequelize, statement } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { inTransaction } from '@/lib/tank/tx';
 import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
 import type { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
-import { expireLapsedReservations } from './expire';
+import { EXPIRE_STATEMENT, expireLapsedReservations } from './expire';
 import { parseWindowEdge, reservationWindow } from './window';
 
 export type ReservationStatus = 'open' | 'drawn' | 'cancelled' | 'expired';
@@ -45,6 +45,40 @@ function notEnough(actor: Actor, tankName: string, requestedMl: number, availabl
 }
 
 /**
+ * One statement, so it is atomic by itself and the tank row is locked only while it runs and
+ * commits: lock the tank (waiting for any reservation in flight, then seeing its result), add
+ * the quantity only if on hand − reserved still covers it (a request over by no more than the
+ * rounding crumb is trimmed to exactly what is left), then write the reservation and its audit
+ * event from the update's result. When the guard fails nothing at all is written.
+ * $1 tank, $2 co-op, $3 litres asked, $4 the least litres accepted, $5 membership, $6–$7 window, $8 user.
+ */
+const RESERVE = statement(
+  `WITH cur AS (
+     SELECT id, name, on_hand_liters - reserved_liters AS avail FROM tanks
+     WHERE id = $1::int AND coop_id = $2::int AND active FOR UPDATE
+   ),
+   guarded AS (
+     UPDATE tanks t SET reserved_liters = t.reserved_liters + LEAST($3::numeric, cur.avail), updated_at = now()
+     FROM cur WHERE t.id = cur.id AND cur.avail >= $4::numeric
+     RETURNING t.id, cur.name, LEAST($3::numeric, cur.avail) AS liters
+   ),
+   created AS (
+     INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
+     SELECT $2::int, g.id, $5::int, g.liters, $6::timestamptz, $7::timestamptz FROM guarded g
+     RETURNING id, tank_id, quantity_liters, window_start, window_end, created_at
+   ),
+   audited AS (
+     INSERT INTO audit_events (coop_id, actor_user_id, action, entity_type, entity_id, after)
+     SELECT $2::int, $8::int, 'reservation.create', 'reservation', c.id::text,
+            jsonb_build_object('tankId', c.tank_id, 'membershipId', $5::int, 'quantityLiters', c.quantity_liters, 'windowStart', c.window_start, 'windowEnd', c.window_end)
+     FROM created c RETURNING 1
+   )
+   SELECT c.id, c.quantity_liters::text AS liters, g.name, c.created_at, (SELECT count(*) FROM audited) AS audited
+   FROM created c, guarded g`,
+  'tv_reserve',
+);
+
+/**
  * Reserves fuel for the signed-in member (never for anyone else: the body has no member field).
  * The tank can never be oversold: the quantity is added to the tank's reserved total by one
  * guarded UPDATE that succeeds only while on hand − reserved still covers it; the row lock
@@ -58,43 +92,15 @@ export async function createReservation(actor: Actor, input: z.infer<typeof rese
   if (!window.ok) throw new HttpError(422, 'Some fields need attention.', window.fields);
   const qMl = milliUnitsToMl(input.quantity, units);
   if (qMl <= 0) throw new HttpError(422, 'Some fields need attention.', { quantity: ['Enter a quantity greater than zero.'] });
-  await expireLapsedReservations(actor.coop.id);
-  // One statement, so it is atomic by itself and the tank row is locked only while it runs and
-  // commits: lock the tank (waiting for any reservation in flight, then seeing its result), add
-  // the quantity only if on hand − reserved still covers it (a request over by no more than the
-  // rounding crumb is trimmed to exactly what is left), then write the reservation and its
-  // audit event from the update's result. When the guard fails nothing at all is written.
-  const [row] = await sequelize.query<{ id: number; liters: string; name: string; created_at: Date }>(
-    `WITH cur AS (
-       SELECT id, name, on_hand_liters - reserved_liters AS avail FROM tanks
-       WHERE id = :tankId AND coop_id = :coopId AND active FOR UPDATE
-     ),
-     guarded AS (
-       UPDATE tanks t SET reserved_liters = t.reserved_liters + LEAST(:q::numeric, cur.avail), updated_at = now()
-       FROM cur WHERE t.id = cur.id AND cur.avail >= :floor
-       RETURNING t.id, cur.name, LEAST(:q::numeric, cur.avail) AS liters
-     ),
-     created AS (
-       INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
-       SELECT :coopId, g.id, :membershipId, g.liters, :ws, :we FROM guarded g
-       RETURNING id, tank_id, quantity_liters, window_start, window_end, created_at
-     ),
-     audited AS (
-       INSERT INTO audit_events (coop_id, actor_user_id, action, entity_type, entity_id, after)
-       SELECT :coopId, :userId, 'reservation.create', 'reservation', c.id::text,
-              jsonb_build_object('tankId', c.tank_id, 'membershipId', :membershipId, 'quantityLiters', c.quantity_liters, 'windowStart', c.window_start, 'windowEnd', c.window_end)
-       FROM created c RETURNING 1
-     )
-     SELECT c.id, c.quantity_liters::text AS liters, g.name, c.created_at, (SELECT count(*) FROM audited) AS audited
-     FROM created c, guarded g`,
-    {
-      replacements: {
-        tankId: input.tankId, coopId: actor.coop.id, membershipId: actor.membershipId, userId: actor.user.id, ws: window.start.toISOString(), we: window.end.toISOString(),
-        q: mlToLiters(qMl), floor: mlToLiters(Math.max(1, qMl - roundingCrumbMl(units))),
-      },
-      type: QueryTypes.SELECT,
-    },
-  );
+  // Sent in one message with the expiry of lapsed reservations, which runs first (so the lock order
+  // stays reservations → tanks); the two run as one implicit transaction.
+  const [, [row]] = await queryRowSets<[unknown[], { id: number; liters: string; name: string; created_at: Date }[]]>([
+    [EXPIRE_STATEMENT, [actor.coop.id]],
+    [RESERVE, [
+      input.tankId, actor.coop.id, mlToLiters(qMl), mlToLiters(Math.max(1, qMl - roundingCrumbMl(units))), actor.membershipId,
+      window.start.toISOString(), window.end.toISOString(), actor.user.id,
+    ]],
+  ]);
   if (!row) {
     const [t] = await sequelize.query<{ name: string; active: boolean; available: string }>(
       `SELECT name, active, (on_hand_liters - reserved_liters)::text AS available FROM tanks WHERE id = :tankId AND coop_id = :coopId`,
