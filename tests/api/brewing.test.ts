@@ -476,3 +476,30 @@ describe('brewing: the co-op’s chosen standard', () => {
     expect(astm.body.qualityVerdict).toBe('pass');
   });
 });
+
+describe('brewing: the per-status batch counts behind the list totals', () => {
+  // One statement, so it compares one snapshot even while other test files change batches.
+  const mismatches = async () =>
+    (await sql<{ coop_id: number; status: string; counted: number | null; kept: number | null }>(
+      `SELECT coop_id, status, b.n AS counted, c.n AS kept
+         FROM (SELECT coop_id, status, count(*)::int AS n FROM batches GROUP BY coop_id, status) b
+         FULL JOIN (SELECT coop_id, status, n FROM batch_status_counts WHERE n > 0) c USING (coop_id, status)
+        WHERE b.n IS DISTINCT FROM c.n`,
+    ));
+
+  it('follow every insert, status change, move and delete, and match a count of the batches', async () => {
+    const ctx = await makeCoopWithRoles();
+    const b = ctx.agents.brewer;
+    const made = [];
+    for (let i = 0; i < 3; i++) made.push((await b.post(`${api(ctx.coop.slug)}/batches`).send({ oilVolume: 10, titrationTrials: [2] }).expect(201)).body.id);
+    await b.post(`${api(ctx.coop.slug)}/batches/${made[0]}/advance`).send({ to: 'reacting' }).expect(200);
+    await b.post(`${api(ctx.coop.slug)}/batches/${made[1]}/reject`).send({ reason: 'Oil too wet' }).expect(200);
+    const totals = async (q = '') => (await b.get(`${api(ctx.coop.slug)}/batches${q}`).expect(200)).body.total;
+    expect([await totals(), await totals('?status=planned'), await totals('?status=in-progress'), await totals('?status=rejected')]).toEqual([3, 1, 1, 1]);
+    // Rows changed outside the app (a move between co-ops, a delete) are counted too.
+    await sql(`UPDATE batches SET coop_id = $1 WHERE id = $2`, [ctx.other.id, made[2]]);
+    expect(await totals('?status=planned')).toBe(0);
+    await sql(`DELETE FROM batches WHERE id = $1`, [made[2]]);
+    expect(await mismatches()).toEqual([]);
+  });
+});

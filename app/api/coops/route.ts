@@ -3,6 +3,8 @@ import { createCoop } from '@/lib/coops';
 import { handler, parseBody } from '@/lib/http';
 import { coopCreateSchema } from '@/lib/validation/auth';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: the signed-in user's co-ops. POST: create a co-op; its creator becomes admin. */
 export const GET = handler(async () => {
   const user = await requireUser();

@@ -3,6 +3,8 @@ import { requireUser } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
 import { profileUpdateSchema } from '@/lib/validation/auth';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: my name, e-mail, any pending e-mail change and my co-ops with role. */
 export const GET = handler(async () => getProfile(await requireUser()));
 

@@ -4,6 +4,8 @@ import { handler, parseBody } from '@/lib/http';
 import { sendMail } from '@/lib/mail';
 import { passwordResetRequestSchema } from '@/lib/validation/auth';
 
+export const dynamic = 'force-dynamic';
+
 /**
  * POST {email}: always the same 202 answer, whether or not an account uses the address. The
  * e-mail is sent after the answer, so the timing does not tell either.

@@ -2,6 +2,8 @@ import NextAuth from 'next-auth';
 import { authOptions } from '@/lib/auth/options';
 import { clientAddress, signInLimited, SIGN_IN_WINDOW_MINUTES } from '@/lib/auth/rate-limit';
 
+export const dynamic = 'force-dynamic';
+
 const nextAuth = NextAuth(authOptions);
 
 export const GET = nextAuth;

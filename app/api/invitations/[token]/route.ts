@@ -3,6 +3,8 @@ import { handler, parseBody } from '@/lib/http';
 import { acceptInvitation, invitationError, lookupInvitation } from '@/lib/invitations';
 import { invitationAcceptSchema } from '@/lib/validation/auth';
 
+export const dynamic = 'force-dynamic';
+
 // Public: the token in the URL is the credential. Unknown link → 404; used, withdrawn or
 // expired → 410 with `reason`.
 

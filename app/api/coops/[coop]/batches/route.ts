@@ -3,6 +3,8 @@ import { batchListPlan, createBatch } from '@/lib/batches';
 import { handler, parseBody, parseQuery } from '@/lib/http';
 import { batchCreateSchema, batchListSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: batches, one page (?status, page, pageSize, sort, dir); members see released ones. POST: create a planned batch. */
 export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   // The session check and the page in one round trip; the query string is validated after the session check.

@@ -3,6 +3,8 @@ import { handler, parseBody } from '@/lib/http';
 import { createInvitation, listPendingInvitations } from '@/lib/invitations';
 import { invitationCreateSchema } from '@/lib/validation/auth';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: pending invitations (expired ones included). Admins only. */
 export const GET = handler<{ coop: string }>(async (_req, { coop }) => {
   const actor = await requireMember(coop, 'members:manage');

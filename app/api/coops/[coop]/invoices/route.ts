@@ -3,6 +3,8 @@ import { listInvoices, memberBalance } from '@/lib/billing/invoices';
 import { handler, parseQuery } from '@/lib/http';
 import { invoiceListQuerySchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: my own issued invoices and my balance and credit. */
 export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'invoices:own');

@@ -3,6 +3,8 @@ import { plannerPlan } from '@/lib/batches';
 import { handler, parseWith, readJson } from '@/lib/http';
 import { plannerSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST: compute a batch plan (chemistry, stock coverage, projected cost). Writes nothing. */
 export const POST = handler<{ coop: string }>(async (req, { coop }) => {
   const body = await readJson(req);

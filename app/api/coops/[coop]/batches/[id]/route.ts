@@ -3,6 +3,8 @@ import { getBatch, idParam, updateBatch } from '@/lib/batches';
 import { handler, parseBody } from '@/lib/http';
 import { batchUpdateSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: the batch record (members: a released batch's quality summary). PATCH: record step data. */
 export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'batches:read-released');

@@ -3,6 +3,8 @@ import { createAdjustment, listAdjustments } from '@/lib/billing/adjustments';
 import { handler, parseBody } from '@/lib/http';
 import { adjustmentCreateSchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: adjustments not billed yet. POST {memberId, amount, description, period?}: a charge or credit for the next invoice. */
 export const GET = handler<{ coop: string }>(async (_req, { coop }) => {
   const actor = await requireMember(coop, 'billing:manage');

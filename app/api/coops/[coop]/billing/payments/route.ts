@@ -4,6 +4,8 @@ import { listPayments } from '@/lib/billing/payments-read';
 import { handler, parseBody, parseQuery } from '@/lib/http';
 import { paymentListQuerySchema, paymentRecordSchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** GET ?period=&unmatched=1&page=: payments received. POST: record cash or a cheque. */
 export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'billing:manage');

@@ -3,6 +3,8 @@ import { startRun } from '@/lib/billing/run';
 import { handler, parseBody } from '@/lib/http';
 import { billingRunCreateSchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST: start (or join) the invoicing run for a month → 202 with the run; poll GET runs/[id]. */
 export const POST = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'billing:manage');

@@ -3,6 +3,8 @@ import { handler } from '@/lib/http';
 import { revokeInvitation } from '@/lib/invitations';
 import { idParam } from '@/lib/members';
 
+export const dynamic = 'force-dynamic';
+
 /** DELETE: revoke a pending invitation; its link then says it was withdrawn. */
 export const DELETE = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'members:manage');

@@ -3,6 +3,8 @@ import { handler, parseBody } from '@/lib/http';
 import { idParam, removeMembership, updateMembership } from '@/lib/members';
 import { membershipUpdateSchema } from '@/lib/validation/auth';
 
+export const dynamic = 'force-dynamic';
+
 /** PATCH {role?, status?}: change a member's role, suspend or reinstate. 409 for the last active admin. */
 export const PATCH = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'members:manage');

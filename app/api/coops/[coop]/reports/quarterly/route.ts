@@ -6,6 +6,8 @@ import { quarterlyCsv, quarterlyPdf } from '@/lib/reports/quarterly-export';
 import { quarterQuerySchema } from '@/lib/validation/reports';
 import { z } from 'zod';
 
+export const dynamic = 'force-dynamic';
+
 const schema = quarterQuerySchema.extend({ format: z.enum(['json', 'csv', 'pdf']).default('json') });
 
 /** GET ?year=&quarter=&format=json|csv|pdf — the quarterly fuel-volume report (treasurers, admins). */

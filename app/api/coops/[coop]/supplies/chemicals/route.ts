@@ -3,6 +3,8 @@ import { handler, parseBody, parseQuery } from '@/lib/http';
 import { createChemicalLot, listChemicalLots } from '@/lib/supplies';
 import { chemicalLotCreateSchema, chemicalLotListSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: chemical lots, one page (?page, pageSize, sort, dir, kind). POST: record a purchase. */
 export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'supplies:read');

@@ -3,6 +3,8 @@ import { handler, parseBody, parseQuery } from '@/lib/http';
 import { createOilLot, listOilLots } from '@/lib/supplies';
 import { oilLotCreateSchema, oilLotListSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: oil lots, one page, with litres used by batches. POST: record collected oil (volume in co-op units). */
 export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'supplies:read');

@@ -3,6 +3,8 @@ import { handler, parseBody } from '@/lib/http';
 import { transferFuel } from '@/lib/tank';
 import { transferCreateSchema } from '@/lib/validation/tank';
 
+export const dynamic = 'force-dynamic';
+
 /** POST: move available fuel from one tank to another at average cost (brewer/admin). */
 export const POST = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'tank:write');

@@ -3,6 +3,8 @@ import { advanceBatch, idParam } from '@/lib/batches';
 import { handler, parseBody } from '@/lib/http';
 import { batchAdvanceSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {to}: move the batch forward to a later step. */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'batches:write');

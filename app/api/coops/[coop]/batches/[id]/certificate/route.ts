@@ -3,6 +3,8 @@ import { batchCertificate, idParam } from '@/lib/batches';
 import { handler } from '@/lib/http';
 import { pdfResponse } from '@/lib/pdf';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: the batch certificate PDF (released batches; members may download). */
 export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'batches:read-released');

@@ -2,6 +2,8 @@ import { requireMember } from '@/lib/auth';
 import { addBatchFile, BATCH_FILE_KINDS, idParam, readUpload } from '@/lib/batches';
 import { handler } from '@/lib/http';
 
+export const dynamic = 'force-dynamic';
+
 /** POST (multipart: file, purpose=photo|lab-report): attach a PDF, JPEG or PNG to the batch. */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'batches:write');

@@ -3,6 +3,8 @@ import { idParam, rejectBatch } from '@/lib/batches';
 import { handler, parseBody } from '@/lib/http';
 import { batchRejectSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {reason}: reject the batch (from any step that is not final). */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'batches:write');

@@ -3,6 +3,8 @@ import { idParam, releaseBatch } from '@/lib/batches';
 import { handler, parseBody } from '@/lib/http';
 import { batchReleaseSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {tankId, volume}: release a tested batch into a tank (consumes chemical lots, prices the batch). */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'batches:write');

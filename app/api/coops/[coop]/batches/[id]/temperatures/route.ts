@@ -3,6 +3,8 @@ import { addTemperature, idParam } from '@/lib/batches';
 import { handler, parseBody } from '@/lib/http';
 import { temperatureCreateSchema } from '@/lib/validation/brewing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {temp, measuredAt?}: add a reaction temperature reading (co-op units); answers with its check. */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'batches:write');

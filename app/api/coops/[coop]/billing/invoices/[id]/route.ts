@@ -3,6 +3,8 @@ import { getInvoiceDetail } from '@/lib/billing/invoices';
 import { idParam } from '@/lib/billing/params';
 import { handler } from '@/lib/http';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: one invoice with lines, payments and card-attempt state. */
 export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'billing:manage');

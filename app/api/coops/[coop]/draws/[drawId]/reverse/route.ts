@@ -4,6 +4,8 @@ import { handler, parseBody } from '@/lib/http';
 import { idParam } from '@/lib/tank/id-param';
 import { drawReverseSchema } from '@/lib/validation/tank';
 
+export const dynamic = 'force-dynamic';
+
 /** POST: reverse a draw with a reason (brewer/admin) — a new negative entry; the original is never edited. */
 export const POST = handler<{ coop: string; drawId: string }>(async (req, { coop, drawId }) => {
   const actor = await requireMember(coop, 'draws:record');

@@ -3,6 +3,8 @@ import { handler } from '@/lib/http';
 import { resendInvitation } from '@/lib/invitations';
 import { idParam } from '@/lib/members';
 
+export const dynamic = 'force-dynamic';
+
 /** POST: send a pending invitation again with a new 7-day link (the old link stops working). */
 export const POST = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'members:manage');

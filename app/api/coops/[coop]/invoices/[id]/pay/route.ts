@@ -4,6 +4,8 @@ import { idParam } from '@/lib/billing/params';
 import { handler, parseBody } from '@/lib/http';
 import { cardPaySchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {card}: pay my invoice by card (charged once however often it is sent). */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'invoices:own');

@@ -4,6 +4,8 @@ import { idParam } from '@/lib/tank/id-param';
 import { recordDip } from '@/lib/tank';
 import { dipCreateSchema } from '@/lib/validation/tank';
 
+export const dynamic = 'force-dynamic';
+
 /** POST: a dip reading; a difference from the book becomes a gain/loss ledger row (brewer/admin). */
 export const POST = handler<{ coop: string; tankId: string }>(async (req, { coop, tankId }) => {
   const actor = await requireMember(coop, 'tank:write');

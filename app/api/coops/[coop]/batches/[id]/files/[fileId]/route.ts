@@ -2,6 +2,8 @@ import { requireMember } from '@/lib/auth';
 import { fileResponse, getBatchFile, idParam } from '@/lib/batches';
 import { handler } from '@/lib/http';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: download a batch's photo or lab report (checked against the co-op and the batch). */
 export const GET = handler<{ coop: string; id: string; fileId: string }>(async (_req, { coop, id, fileId }) => {
   const actor = await requireMember(coop, 'batches:read-all');

@@ -5,6 +5,8 @@ import { invoiceFileName, renderInvoicePdf } from '@/lib/billing/pdf';
 import { handler } from '@/lib/http';
 import { pdfResponse } from '@/lib/pdf';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: the invoice (or draft, marked DRAFT) as a PDF download. */
 export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'billing:manage');

@@ -6,6 +6,8 @@ import { handler, parseBody } from '@/lib/http';
 import { invoicesIssueSchema } from '@/lib/validation/billing';
 import { audit } from '@/lib/audit';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {}: e-mail an issued invoice or credit note to its member again, now. */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'billing:manage');

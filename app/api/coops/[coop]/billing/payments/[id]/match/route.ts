@@ -4,6 +4,8 @@ import { matchPayment } from '@/lib/billing/payments';
 import { handler, parseBody } from '@/lib/http';
 import { paymentMatchSchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {invoiceId|null}: match an unmatched payment to the payer's invoice, or hold it as credit. */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'billing:manage');

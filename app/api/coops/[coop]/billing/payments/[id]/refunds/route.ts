@@ -4,6 +4,8 @@ import { refundPayment } from '@/lib/billing/payments';
 import { handler, parseBody } from '@/lib/http';
 import { refundCreateSchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {amount, reason}: refund money held for the member (card: through the payment service). */
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
   const actor = await requireMember(coop, 'billing:manage');

@@ -6,6 +6,8 @@ import { periodToDate } from '@/lib/billing/periods';
 import { handler, parseBody } from '@/lib/http';
 import { invoicesIssueSchema } from '@/lib/validation/billing';
 
+export const dynamic = 'force-dynamic';
+
 /** POST {}: e-mail again every issued invoice of the month that was not sent or not delivered. */
 export const POST = handler<{ coop: string; period: string }>(async (req, { coop, period }) => {
   const actor = await requireMember(coop, 'billing:manage');

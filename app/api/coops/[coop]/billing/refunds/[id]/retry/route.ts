@@ -3,6 +3,8 @@ import { idParam } from '@/lib/billing/params';
 import { retryRefund } from '@/lib/billing/payments';
 import { handler } from '@/lib/http';
 
+export const dynamic = 'force-dynamic';
+
 /** POST: send a pending card refund to the payment service again (same idempotency key). */
 export const POST = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'billing:manage');

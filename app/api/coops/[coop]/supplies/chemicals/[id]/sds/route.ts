@@ -3,6 +3,8 @@ import { fileResponse, idParam, readUpload } from '@/lib/batches';
 import { handler } from '@/lib/http';
 import { attachSafetyDataSheet, getSafetyDataSheet } from '@/lib/supplies';
 
+export const dynamic = 'force-dynamic';
+
 /** GET: download the lot's safety data sheet. POST: upload it (multipart, field "file", PDF only). */
 export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'supplies:read');
