@@ -2,6 +2,7 @@ import 'server-only';
 import { after } from 'next/server';
 import type { Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
+import { queryRows, statement } from '@/lib/db';
 import type { Actor } from '@/lib/auth';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { sequelize } from '@/models';
@@ -158,17 +159,22 @@ export async function getInvoiceDetail(coopId: number, id: number, opts: { membe
 }
 
 /** Outstanding, credit and unmatched money of one member. */
-export async function memberBalance(coopId: number, membershipId: number, t?: Transaction): Promise<MemberBalance> {
-  const [r] = await select<{ outstanding: string; credit: string; unallocated: string }>(
-    `SELECT
-       (SELECT COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)), 0) FROM invoices
-         WHERE coop_id = $coopId AND membership_id = $m AND kind = 'invoice' AND status IN ('issued','partly-paid')) AS outstanding,
-       (SELECT COALESCE(SUM(amount_cents), 0) FROM member_credits WHERE coop_id = $coopId AND membership_id = $m) AS credit,
-       (SELECT COALESCE(SUM(unallocated_cents), 0) FROM payments WHERE coop_id = $coopId AND membership_id = $m) AS unallocated`,
-    { coopId, m: membershipId },
-    t,
-  );
+export const MEMBER_BALANCE = statement(
+  `SELECT
+     (SELECT COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)), 0) FROM invoices
+       WHERE coop_id = $1 AND membership_id = $2 AND kind = 'invoice' AND status IN ('issued','partly-paid')) AS outstanding,
+     (SELECT COALESCE(SUM(amount_cents), 0) FROM member_credits WHERE coop_id = $1 AND membership_id = $2) AS credit,
+     (SELECT COALESCE(SUM(unallocated_cents), 0) FROM payments WHERE coop_id = $1 AND membership_id = $2) AS unallocated`,
+  'tv_member_balance',
+);
+
+/** A member's balance from the MEMBER_BALANCE row. */
+export function memberBalanceOf(r: { outstanding: string; credit: string; unallocated: string } | undefined): MemberBalance {
   return { outstandingCents: int(r?.outstanding), creditCents: int(r?.credit), unallocatedCents: int(r?.unallocated) };
+}
+
+export async function memberBalance(coopId: number, membershipId: number, t?: Transaction): Promise<MemberBalance> {
+  return memberBalanceOf((await queryRows<{ outstanding: string; credit: string; unallocated: string }>(MEMBER_BALANCE, [coopId, membershipId], t))[0]);
 }
 
 /** Takes the next `count` numbers from the co-op's counter (row locked until the transaction ends). */

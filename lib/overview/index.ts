@@ -3,17 +3,18 @@ import { QueryTypes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
-import { sequelize } from '@/lib/db';
+import { runReadPlan, sequelize, statement, type Read, type ReadPlan } from '@/lib/db';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
-import { policyInForce } from '@/lib/pricing-policy';
-import { listTanks } from '@/lib/tank';
+import { POLICY_IN_FORCE } from '@/lib/pricing-policy';
+import type { PolicyRow } from '@/lib/pricing-policy/convert';
+import { listTanksPlan, type TankDto } from '@/lib/tank';
 import { mlToLiters } from '@/lib/tank/quantity';
 import { policyInUnits } from '@/lib/pricing-policy/convert';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 
-import { memberBalance } from '@/lib/billing/invoices';
+import { MEMBER_BALANCE, memberBalanceOf } from '@/lib/billing/invoices';
 import { currentPeriod, periodToDate } from '@/lib/billing/periods';
-import { batchNeeds, stockTotals, summarizeStock } from '@/lib/supplies';
+import { BATCH_NEEDS, batchNeedsOf, STOCK_TOTALS, stockTotalsOf, summarizeStock, type BatchNeedsRow, type StockTotalsRow } from '@/lib/supplies';
 import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
 
 export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
@@ -22,12 +23,11 @@ const q = <T extends object>(sql: string, replacements: Record<string, unknown>)
 
 
 /**
- * Tank totals across the co-op's active tanks, with the moving-average cost per gallon. Reads
- * through lib/tank's listTanks so lapsed reservations are released first, exactly as on the
- * tank page; sums are taken in whole millilitres.
+ * Tank totals across the co-op's active tanks, with the moving-average cost per gallon, from
+ * lib/tank's list (read with its statement, so lapsed reservations are released first, exactly
+ * as on the tank page); sums are taken in whole millilitres.
  */
-export async function getTankSummary(actor: Actor): Promise<TankSummary> {
-  const tanks = await listTanks(actor, { activeOnly: true });
+export function tankSummaryOf(tanks: TankDto[]): TankSummary {
   const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'capacityLiters') => tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
   const onHandMl = sumMl('onHandLiters');
   const reservedMl = sumMl('reservedLiters');
@@ -43,8 +43,7 @@ export async function getTankSummary(actor: Actor): Promise<TankSummary> {
 }
 
 /** The member price in force now, from the latest policy and the tanks' average cost. */
-export async function getPriceSummary(coopId: number, avgCostCentsPerGallon: number | null): Promise<PriceSummary | null> {
-  const row = await policyInForce(coopId);
+export function priceSummaryOf(row: (PolicyRow & { id: number }) | undefined, avgCostCentsPerGallon: number | null): PriceSummary | null {
   if (!row) return null;
   const policy = policyInUnits(row, 'us');
   if (policy.kind !== 'fixed' && avgCostCentsPerGallon === null) return null;
@@ -54,44 +53,39 @@ export async function getPriceSummary(coopId: number, avgCostCentsPerGallon: num
 
 const WORKING = `('reacting','settling','draining','washing','drying','testing')`;
 
+type WorkingRow = { id: number; number: number; status: string; oil_liters: string; status_changed_at: Date };
+const WORKING_BATCHES = statement(
+  `SELECT id, number, status, oil_liters, status_changed_at FROM batches WHERE coop_id = $1 AND status IN ${WORKING} ORDER BY number LIMIT 10`,
+  'tv_overview_working',
+);
+
 /** Batches under way, the next planned batch, and whether the chemicals it uses are covered. */
-export async function getBrewerSection(coopId: number): Promise<BrewerSection> {
-  const [working, lots, needs] = await Promise.all([
-    q<{ id: number; number: number; status: string; oil_liters: string; status_changed_at: Date }>(
-      `SELECT id, number, status, oil_liters, status_changed_at FROM batches WHERE coop_id = :c AND status IN ${WORKING} ORDER BY number LIMIT 10`,
-      { c: coopId },
-    ),
-    stockTotals(coopId, ['methanol', 'KOH', 'NaOH']),
-    batchNeeds(coopId),
-  ]);
-  const summary = summarizeStock(lots, needs);
-  let nextPlanned: BrewerSection['nextPlanned'] = null;
-  if (needs.next) {
-    const [n] = await q<{ batch_date: string; oil_liters: string }>(`SELECT to_char(batch_date, 'YYYY-MM-DD') AS batch_date, oil_liters FROM batches WHERE id = :id AND coop_id = :c`, { id: needs.next.id, c: coopId });
-    nextPlanned = { id: needs.next.id, number: needs.next.number, batchDate: n?.batch_date ?? '', oilLiters: Number(n?.oil_liters ?? 0), catalyst: needs.next.catalyst };
-  }
+function brewerSectionOf(working: WorkingRow[], totals: StockTotalsRow[], needsRow: BatchNeedsRow | undefined): BrewerSection {
+  const needs = batchNeedsOf(needsRow);
+  const summary = summarizeStock(stockTotalsOf(totals), needs);
+  const next = needs.next;
   return {
     inProgress: working.map((b) => ({ id: b.id, number: b.number, status: b.status, oilLiters: Number(b.oil_liters), since: new Date(b.status_changed_at).toISOString() })),
-    nextPlanned,
+    nextPlanned: next ? { id: next.id, number: next.number, batchDate: next.batchDate, oilLiters: next.oilLiters, catalyst: next.catalyst } : null,
     stock: summary.lines.filter((l) => l.nextPlannedNeed !== null).map((l) => ({ kind: l.kind, unit: l.unit, available: l.available, need: l.nextPlannedNeed!, low: l.low })),
   };
 }
 
-/** This month's invoiced / paid / outstanding (issued invoices) and payments waiting to be matched. */
-export async function getTreasurerSection(coopId: number, timeZone: string): Promise<TreasurerSection> {
-  const period = currentPeriod(timeZone);
-  const [r] = await q<Record<string, string>>(
-    `SELECT
-       COALESCE(SUM(total_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS invoiced,
-       COALESCE(SUM(paid_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS paid,
-       COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)) FILTER (WHERE kind = 'invoice' AND status IN ('issued','partly-paid')), 0) AS outstanding,
-       COUNT(*) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')) AS invoices,
-       COUNT(*) FILTER (WHERE kind = 'invoice' AND status = 'draft') AS drafts,
-       (SELECT COUNT(*) FROM payments p WHERE p.coop_id = :c AND p.unallocated_cents > 0) AS unmatched,
-       (SELECT COALESCE(SUM(p.unallocated_cents), 0) FROM payments p WHERE p.coop_id = :c AND p.unallocated_cents > 0) AS unmatched_cents
-     FROM invoices WHERE coop_id = :c AND period = CAST(:period AS date)`,
-    { c: coopId, period: periodToDate(period) },
-  );
+/** This month's invoiced / paid / outstanding (issued invoices) and payments waiting to be matched. $2 = the month's first day. */
+const MONTH_BILLING = statement(
+  `SELECT
+     COALESCE(SUM(total_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS invoiced,
+     COALESCE(SUM(paid_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS paid,
+     COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)) FILTER (WHERE kind = 'invoice' AND status IN ('issued','partly-paid')), 0) AS outstanding,
+     COUNT(*) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')) AS invoices,
+     COUNT(*) FILTER (WHERE kind = 'invoice' AND status = 'draft') AS drafts,
+     (SELECT COUNT(*) FROM payments p WHERE p.coop_id = $1 AND p.unallocated_cents > 0) AS unmatched,
+     (SELECT COALESCE(SUM(p.unallocated_cents), 0) FROM payments p WHERE p.coop_id = $1 AND p.unallocated_cents > 0) AS unmatched_cents
+   FROM invoices WHERE coop_id = $1 AND period = $2::date`,
+  'tv_overview_month_billing',
+);
+
+function treasurerSectionOf(period: string, r: Record<string, string> | undefined): TreasurerSection {
   const n = (k: string) => Number(r?.[k] ?? 0);
   return {
     period, invoicedCents: n('invoiced'), paidCents: n('paid'), outstandingCents: n('outstanding'), invoices: n('invoices'), drafts: n('drafts'),
@@ -151,19 +145,30 @@ export async function getBalances(coopId: number): Promise<NonNullable<Overview[
 const CHART_TTL_MS = Number(process.env.OVERVIEW_CACHE_SECONDS ?? 60) * 1000;
 const chartCache = ttlMemo(CHART_TTL_MS);
 
-/**
- * The first screen of a co-op, different by role: everyone sees the tank and the price; members
- * their open reservations; admins pending invitations and recent changes. Chart series are SQL
- * aggregates (months in the co-op's time zone), never rows loaded into JavaScript.
- */
-export async function getOverview(actor: Actor): Promise<Overview> {
+const MY_RESERVATIONS = statement(
+  `SELECT r.id, t.name AS tank_name, r.quantity_liters, r.window_end FROM reservations r JOIN tanks t ON t.id = r.tank_id AND t.coop_id = r.coop_id
+   WHERE r.coop_id = $1 AND r.membership_id = $2 AND r.status = 'open' AND r.window_end >= now() ORDER BY r.window_end LIMIT 10`,
+  'tv_overview_my_reservations',
+);
+const INVITATIONS = statement(
+  `SELECT COUNT(*) FILTER (WHERE status = 'pending' AND expires_at > now()) AS pending,
+          COUNT(*) FILTER (WHERE status = 'pending' AND expires_at > now() AND delivery = 'not-sent') AS not_sent
+   FROM invitations WHERE coop_id = $1`,
+  'tv_overview_invitations',
+);
+const RECENT_EVENTS = statement(
+  `SELECT e.created_at, u.name, e.action FROM audit_events e LEFT JOIN users u ON u.id = e.actor_user_id
+   WHERE e.coop_id = $1 ORDER BY e.created_at DESC, e.id DESC LIMIT 8`,
+  'tv_overview_recent_events',
+);
+
+/** The chart series, from the per-process cache (read on a miss). */
+function charts(actor: Actor) {
   const c = actor.coop.id;
   const tz = actor.coop.timezone;
-  const tank = await getTankSummary(actor);
   const isBrewer = can(actor.role, 'batches:read-all');
   const isTreasurer = can(actor.role, 'billing:manage');
-  const [price, volumes, level, reservations, admin, account, brewer, treasurer, batchCosts, balances] = await Promise.all([
-    getPriceSummary(c, tank.avgCostCentsPerGallon),
+  return Promise.all([
     chartCache(`volumes:${c}:${tz}`, () => q<{ month: string; released: string; drawn: string }>(
       `WITH months AS (
          SELECT generate_series(date_trunc('month', now() AT TIME ZONE :tz) - interval '11 months', date_trunc('month', now() AT TIME ZONE :tz), interval '1 month') AS m
@@ -195,54 +200,78 @@ export async function getOverview(actor: Actor): Promise<Overview> {
        GROUP BY days.d ORDER BY days.d`,
       { c, tz },
     )),
-    q<{ id: number; tank_name: string; quantity_liters: string; window_end: Date }>(
-      `SELECT r.id, t.name AS tank_name, r.quantity_liters, r.window_end FROM reservations r JOIN tanks t ON t.id = r.tank_id AND t.coop_id = r.coop_id
-       WHERE r.coop_id = :c AND r.membership_id = :m AND r.status = 'open' AND r.window_end >= now() ORDER BY r.window_end LIMIT 10`,
-      { c, m: actor.membershipId },
-    ),
-    can(actor.role, 'members:manage')
-      ? Promise.all([
-          q<{ pending: string; not_sent: string }>(
-            `SELECT COUNT(*) FILTER (WHERE status = 'pending' AND expires_at > now()) AS pending,
-                    COUNT(*) FILTER (WHERE status = 'pending' AND expires_at > now() AND delivery = 'not-sent') AS not_sent
-             FROM invitations WHERE coop_id = :c`,
-            { c },
-          ),
-          q<{ created_at: Date; name: string | null; action: string }>(
-            `SELECT e.created_at, u.name, e.action FROM audit_events e LEFT JOIN users u ON u.id = e.actor_user_id
-             WHERE e.coop_id = :c ORDER BY e.created_at DESC, e.id DESC LIMIT 8`,
-            { c },
-          ),
-        ])
-      : null,
-    memberBalance(c, actor.membershipId),
-    isBrewer ? getBrewerSection(c) : null,
-    isTreasurer ? getTreasurerSection(c, tz) : null,
     isBrewer || can(actor.role, 'reports:read') ? chartCache(`costs:${c}:${tz}`, () => getBatchCosts(c, tz)) : null,
     isTreasurer ? chartCache(`balances:${c}`, () => getBalances(c)) : null,
   ]);
+}
+
+/**
+ * The first screen of a co-op, different by role: everyone sees the tank and the price; members
+ * their open reservations; admins pending invitations and recent changes. The figures on its
+ * cards are read fresh on every request, in one message (the route sends it with the session
+ * check); chart series are SQL aggregates (months in the co-op's time zone), never rows loaded
+ * into JavaScript, kept per process for a minute.
+ */
+export function overviewPlan(actor: Actor): ReadPlan<Overview> {
+  const c = actor.coop.id;
+  const isBrewer = can(actor.role, 'batches:read-all');
+  const isTreasurer = can(actor.role, 'billing:manage');
+  const isAdmin = can(actor.role, 'members:manage');
+  const period = currentPeriod(actor.coop.timezone);
+  const tanks = listTanksPlan(actor, { activeOnly: true });
+  const reads: Read[] = [
+    ...tanks.reads,
+    [POLICY_IN_FORCE, [c]],
+    [MY_RESERVATIONS, [c, actor.membershipId]],
+    [MEMBER_BALANCE, [c, actor.membershipId]],
+    ...(isAdmin ? ([[INVITATIONS, [c]], [RECENT_EVENTS, [c]]] as Read[]) : []),
+    ...(isBrewer ? ([[WORKING_BATCHES, [c]], [STOCK_TOTALS, [c, ['methanol', 'KOH', 'NaOH']]], [BATCH_NEEDS, [c]]] as Read[]) : []),
+    ...(isTreasurer ? ([[MONTH_BILLING, [c, periodToDate(period)]]] as Read[]) : []),
+  ];
   return {
-    role: actor.role,
-    tank,
-    price,
-    volumes: volumes.map((v) => ({ month: v.month, releasedLiters: Number(v.released), drawnLiters: Number(v.drawn) })),
-    tankLevel: level.map((l) => ({ day: l.day, onHandLiters: Number(l.on_hand) })),
-    member: {
-      openReservations: reservations.map((r) => ({ id: r.id, tankName: r.tank_name, quantityLiters: r.quantity_liters, windowEnd: new Date(r.window_end).toISOString() })),
+    reads,
+    finish: async (sets) => {
+      const [tankRows, [policy], reservations, [balance], ...rest] = sets as [unknown[], [(PolicyRow & { id: number }) | undefined], ReservationRow[], [BalanceRow | undefined], ...unknown[][]];
+      const take = <T>() => rest.shift() as T;
+      const admin = isAdmin ? { invitations: take<InvitationRow[]>(), events: take<EventRow[]>() } : null;
+      const brewer = isBrewer ? brewerSectionOf(take<WorkingRow[]>(), take<StockTotalsRow[]>(), take<BatchNeedsRow[]>()[0]) : null;
+      const treasurer = isTreasurer ? treasurerSectionOf(period, take<Record<string, string>[]>()[0]) : null;
+      const tank = tankSummaryOf(await tanks.finish([tankRows!]));
+      const [volumes, level, batchCosts, balances] = await charts(actor);
+      return {
+        role: actor.role,
+        tank,
+        price: priceSummaryOf(policy, tank.avgCostCentsPerGallon),
+        volumes: volumes.map((v) => ({ month: v.month, releasedLiters: Number(v.released), drawnLiters: Number(v.drawn) })),
+        tankLevel: level.map((l) => ({ day: l.day, onHandLiters: Number(l.on_hand) })),
+        member: {
+          openReservations: reservations.map((r) => ({ id: r.id, tankName: r.tank_name, quantityLiters: r.quantity_liters, windowEnd: new Date(r.window_end).toISOString() })),
+        },
+        account: memberBalanceOf(balance),
+        ...(brewer ? { brewer } : {}),
+        ...(treasurer ? { treasurer } : {}),
+        ...(batchCosts ? { batchCosts } : {}),
+        ...(balances ? { balances } : {}),
+        ...(admin
+          ? {
+              admin: {
+                pendingInvitations: Number(admin.invitations[0]?.pending ?? 0),
+                notSentInvitations: Number(admin.invitations[0]?.not_sent ?? 0),
+                recentEvents: admin.events.map((e) => ({ at: new Date(e.created_at).toISOString(), who: e.name, action: e.action })),
+              },
+            }
+          : {}),
+      };
     },
-    account,
-    ...(brewer ? { brewer } : {}),
-    ...(treasurer ? { treasurer } : {}),
-    ...(batchCosts ? { batchCosts } : {}),
-    ...(balances ? { balances } : {}),
-    ...(admin
-      ? {
-          admin: {
-            pendingInvitations: Number(admin[0][0]?.pending ?? 0),
-            notSentInvitations: Number(admin[0][0]?.not_sent ?? 0),
-            recentEvents: admin[1].map((e) => ({ at: new Date(e.created_at).toISOString(), who: e.name, action: e.action })),
-          },
-        }
-      : {}),
   };
+}
+
+type ReservationRow = { id: number; tank_name: string; quantity_liters: string; window_end: Date };
+type BalanceRow = { outstanding: string; credit: string; unallocated: string };
+type InvitationRow = { pending: string; not_sent: string };
+type EventRow = { created_at: Date; name: string | null; action: string };
+
+/** The overview on its own (for the page; see {@link overviewPlan}). */
+export function getOverview(actor: Actor): Promise<Overview> {
+  return runReadPlan(overviewPlan(actor));
 }

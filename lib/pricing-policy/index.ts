@@ -3,7 +3,7 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { sequelize } from '@/lib/db';
+import { queryRows, sequelize, statement } from '@/lib/db';
 import { HttpError } from '@/lib/http';
 import type { PricingPolicy } from '@/lib/pricing';
 import { parseInstant } from '@/lib/reservations/window';
@@ -50,12 +50,14 @@ const POLICY_COLUMNS = `p.id, p.kind, p.price_cents_per_gallon, p.margin_cents_p
  * The policy in force for a co-op right now: the newest row whose effective_from has come
  * (ties go to the later insert). Null when the co-op has never set one.
  */
+export const POLICY_IN_FORCE = statement(
+  `SELECT ${POLICY_COLUMNS} FROM price_policies p WHERE p.coop_id = $1 AND p.effective_from <= now()
+   ORDER BY p.effective_from DESC, p.id DESC LIMIT 1`,
+  'tv_policy_in_force',
+);
+
 export async function policyInForce(coopId: number, transaction?: Transaction): Promise<(PolicyRow & { id: number }) | null> {
-  const [row] = await sequelize.query<PolicyRow & { id: number }>(
-    `SELECT ${POLICY_COLUMNS} FROM price_policies p WHERE p.coop_id = :coopId AND p.effective_from <= now()
-     ORDER BY p.effective_from DESC, p.id DESC LIMIT 1`,
-    { replacements: { coopId }, type: QueryTypes.SELECT, transaction },
-  );
+  const [row] = await queryRows<PolicyRow & { id: number }>(POLICY_IN_FORCE, [coopId], transaction);
   return row ?? null;
 }
 

@@ -350,48 +350,60 @@ const heldLots = (rows: HeldLotsRow[]): HeldLot[] =>
  * Stock on hand per chemical as one aggregated entry per kind (summed in SQL), for summaries
  * that need totals only — e.g. the overview — instead of every lot with stock.
  */
-export async function stockTotals(coopId: number, kinds: HeldLot['kind'][]): Promise<HeldLot[]> {
-  const rows = await sequelize.query<{ kind: HeldLot['kind']; remaining: string; quantity: string; cost: string }>(
-    `SELECT kind, SUM(remaining_quantity) AS remaining, SUM(quantity) AS quantity, SUM(total_cost_cents) AS cost FROM chemical_lots
-      WHERE coop_id = :coopId AND kind IN (:kinds) AND remaining_quantity > 0 GROUP BY kind`,
-    { replacements: { coopId, kinds }, type: QueryTypes.SELECT },
-  );
-  return rows.map((r, i) => ({
+export const STOCK_TOTALS = statement(
+  `SELECT kind, SUM(remaining_quantity) AS remaining, SUM(quantity) AS quantity, SUM(total_cost_cents) AS cost FROM chemical_lots
+    WHERE coop_id = $1 AND kind = ANY($2) AND remaining_quantity > 0 GROUP BY kind`,
+  'tv_stock_totals',
+);
+
+export type StockTotalsRow = { kind: HeldLot['kind']; remaining: string; quantity: string; cost: string };
+
+/** The STOCK_TOTALS rows as one held "lot" per kind. */
+export const stockTotalsOf = (rows: StockTotalsRow[]): HeldLot[] =>
+  rows.map((r, i) => ({
     id: -(i + 1), kind: r.kind, receivedAtMs: 0, quantity: Number(r.quantity), remaining: Number(r.remaining),
     totalCostCents: Number(r.cost), purityPct: null,
   }));
+
+export async function stockTotals(coopId: number, kinds: HeldLot['kind'][]): Promise<HeldLot[]> {
+  return stockTotalsOf(await queryRows<StockTotalsRow>(STOCK_TOTALS, [coopId, kinds]));
 }
 
 /** What batches under way have committed of each chemical, and the next planned batch with its needs. */
 export interface BatchNeeds {
   committed: Record<'methanol' | 'KOH' | 'NaOH', number>;
-  next: { id: number; number: number; catalyst: 'KOH' | 'NaOH'; methanolLiters: number; catalystGrams: number } | null;
+  next: { id: number; number: number; catalyst: 'KOH' | 'NaOH'; methanolLiters: number; catalystGrams: number; batchDate: string; oilLiters: number } | null;
 }
 
-const BATCH_NEEDS = statement(
+export const BATCH_NEEDS = statement(
   `SELECT w.methanol_committed, w.koh_committed, w.naoh_committed,
-          n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams
+          n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams,
+          n.batch_date AS next_batch_date, n.oil_liters AS next_oil_liters
      FROM (SELECT COALESCE(sum(${NEED_METHANOL}), 0) AS methanol_committed,
                   COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'KOH'), 0) AS koh_committed,
                   COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'NaOH'), 0) AS naoh_committed
              FROM batches WHERE coop_id = $1 AND status IN ('reacting','settling','draining','washing','drying','testing')) w
-     LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams
+     LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams,
+                               to_char(batch_date, 'YYYY-MM-DD') AS batch_date, oil_liters
              FROM batches WHERE coop_id = $1 AND status = 'planned' ORDER BY batch_date, number LIMIT 1) n ON true`,
   'tv_batch_needs',
 );
 
-type BatchNeedsRow = Record<string, string | number | null>;
+export type BatchNeedsRow = Record<string, string | number | null>;
 
 export async function batchNeeds(coopId: number, transaction?: Transaction): Promise<BatchNeeds> {
   return batchNeedsOf((await queryRows<BatchNeedsRow>(BATCH_NEEDS, [coopId], transaction))[0]);
 }
 
-function batchNeedsOf(r: BatchNeedsRow | undefined): BatchNeeds {
+export function batchNeedsOf(r: BatchNeedsRow | undefined): BatchNeeds {
   const row = r ?? {};
   return {
     committed: { methanol: Number(row.methanol_committed ?? 0), KOH: Number(row.koh_committed ?? 0), NaOH: Number(row.naoh_committed ?? 0) },
     next: row.next_id
-      ? { id: Number(row.next_id), number: Number(row.next_number), catalyst: row.next_catalyst as 'KOH' | 'NaOH', methanolLiters: Number(row.next_methanol), catalystGrams: Number(row.next_catalyst_grams) }
+      ? {
+          id: Number(row.next_id), number: Number(row.next_number), catalyst: row.next_catalyst as 'KOH' | 'NaOH', methanolLiters: Number(row.next_methanol),
+          catalystGrams: Number(row.next_catalyst_grams), batchDate: String(row.next_batch_date), oilLiters: Number(row.next_oil_liters),
+        }
       : null,
   };
 }
