@@ -40,6 +40,9 @@ export async function signInUi(page: Page, email: string, password: string) {
 
 /** Fails on any WCAG 2.x A/AA violation axe-core finds on the page. */
 export async function checkA11y(page: Page) {
+  // Next.js streams a dynamic page's metadata after its content, so after a client-side navigation the
+  // <title> can arrive a moment after the content the test waited for: judge the page once it has one.
+  await page.waitForFunction(() => document.title.trim().length > 0);
   const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
   const summary = result.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`);
   expect(summary).toEqual([]);
