@@ -96,13 +96,13 @@ function batchSql(client: Tracked | null, stmts: readonly Read[], fresh: string[
       sql.push(bindStatement(stmt, values));
       continue;
     }
+    const count = Math.max(0, ...stmt.slots.map((s) => s + 1));
+    if (count > values.length) throw new RangeError(`No value for $${count}`);
     if (!known.has(stmt.name)) {
       sql.push(`PREPARE ${stmt.name} AS ${stmt.text}`);
       known.add(stmt.name);
       fresh.push(stmt.name);
     }
-    const count = Math.max(0, ...stmt.slots.map((s) => s + 1));
-    if (count > values.length) throw new RangeError(`No value for $${count}`);
     sql.push(count ? `EXECUTE ${stmt.name}(${values.slice(0, count).map(literal).join(', ')})` : `EXECUTE ${stmt.name}`);
   }
   return sql.join(';\n');

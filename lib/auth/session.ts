@@ -1,7 +1,6 @@
 import 'server-only';
 import { cache } from 'react';
-import { QueryTypes } from 'sequelize';
-import { queryRows, queryRowSets, runReadPlan, sequelize, statement, type ReadPlan } from '@/lib/db';
+import { queryRows, queryRowSets, runReadPlan, statement, type ReadPlan } from '@/lib/db';
 import { forbidden, HttpError, notFound, unauthorized } from '@/lib/http';
 import type { Role } from '@/lib/auth/roles';
 import type { UnitSystem, CoopSettings } from '@/models/Coop';
@@ -46,14 +45,16 @@ export async function requireUser(): Promise<SessionUser> {
   return user;
 }
 
-/** Memberships of a user, active and suspended, for the co-op switcher and profile. */
-export const listMyCoops = cache(async (userId: number) => {
-  return sequelize.query<{ slug: string; name: string; role: Role; status: string }>(
-    `SELECT c.slug, c.name, m.role, m.status FROM memberships m JOIN coops c ON c.id = m.coop_id
-     WHERE m.user_id = :userId ORDER BY c.name`,
-    { replacements: { userId }, type: QueryTypes.SELECT },
-  );
-});
+const MY_COOPS = statement(
+  `SELECT c.slug, c.name, m.role, m.status FROM memberships m JOIN coops c ON c.id = m.coop_id
+   WHERE m.user_id = $1 ORDER BY c.name`,
+  'tv_my_coops',
+);
+
+/** Memberships of a user, active and suspended, for the co-op switcher (on every page) and profile. */
+export const listMyCoops = cache(async (userId: number) =>
+  queryRows<{ slug: string; name: string; role: Role; status: string }>(MY_COOPS, [userId]),
+);
 
 /** The user and their membership in the co-op of the URL, in one query (null membership fields when not a member). */
 const ACTOR = statement(

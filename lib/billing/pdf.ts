@@ -3,7 +3,7 @@ import { appUrl } from '@/lib/mail';
 import { formatCents, formatRateCents } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
 import { formatVolume, perGallonToPerLiter, type UnitSystem } from '@/lib/units';
-import { formatDateIn, invoiceLabel, periodLabel } from './periods';
+import { formatDateIn, periodLabel } from './periods';
 import { INVOICE_STATUS_LABEL } from './status';
 import type { InvoiceDetail } from './types';
 
