@@ -59,6 +59,15 @@ export async function readJson(req: Request): Promise<() => unknown> {
   }
 }
 
+/**
+ * The request's JSON body, read on the first call only, so a route can answer the session check
+ * before reading anything; the call throws the 400 when the body is not JSON.
+ */
+export function lazyJsonBody(req: Request): () => Promise<unknown> {
+  let read: Promise<() => unknown> | null = null;
+  return async () => (await (read ??= readJson(req)))();
+}
+
 /** Reads a JSON body (400 when it is not JSON) and validates it (422 with fields). */
 export async function parseBody<S extends z.ZodType>(req: Request, schema: S): Promise<z.infer<S>> {
   return parseWith(schema, (await readJson(req))());

@@ -137,7 +137,11 @@ export async function requireMember(coopSlug: string, action: Action): Promise<A
  * (or when building the plan from it fails) it is requireMember, then the plan. So a demotion,
  * suspension or sign-out everywhere still counts from the very next request.
  */
-export async function requireMemberAnd<R>(coopSlug: string, action: Action, build: (actor: Actor) => ReadPlan<R>): Promise<{ actor: Actor; result: R }> {
+export async function requireMemberAnd<R>(
+  coopSlug: string,
+  action: Action,
+  build: (actor: Actor) => ReadPlan<R> | Promise<ReadPlan<R>>,
+): Promise<{ actor: Actor; result: R }> {
   const session = await readSession();
   if (!session) throw unauthorized();
   const slug = String(coopSlug).slice(0, 60);
@@ -145,7 +149,7 @@ export async function requireMemberAnd<R>(coopSlug: string, action: Action, buil
   const guess = lastActors.get(key);
   let plan: ReadPlan<R> | null = null;
   try {
-    plan = guess ? build(guess.actor) : null;
+    plan = guess ? await build(guess.actor) : null;
   } catch {
     plan = null; // e.g. a query string that does not validate: answered after the session check, below
   }
@@ -154,10 +158,10 @@ export async function requireMemberAnd<R>(coopSlug: string, action: Action, buil
     const actor = checkedActor(key, actorRows![0] as ActorRow | undefined, session, action);
     if (JSON.stringify(actor) === guess.json) return { actor, result: await plan.finish(rowSets) };
     remember(key, actor);
-    return { actor, result: await runReadPlan(build(actor)) };
+    return { actor, result: await runReadPlan(await build(actor)) };
   }
   const actor = await requireMember(coopSlug, action);
-  return { actor, result: await runReadPlan(build(actor)) };
+  return { actor, result: await runReadPlan(await build(actor)) };
 }
 
 /** For pages: the actor or null instead of throwing on 401/403/404. */
