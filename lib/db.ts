@@ -36,6 +36,8 @@ export interface Statement {
   text: string;
   parts: string[];
   slots: number[];
+  /** How many values it takes (its highest $n). */
+  params: number;
 }
 
 /**
@@ -53,7 +55,7 @@ export function statement(text: string, name: string | null = null): Statement {
     last = m.index + m[0].length;
   }
   parts.push(text.slice(last));
-  return { name, text, parts, slots };
+  return { name, text, parts, slots, params: Math.max(0, ...slots.map((s) => s + 1)) };
 }
 
 /** One value as a SQL literal, escaped by Sequelize's own escaping (as `replacements` are). */
@@ -66,13 +68,9 @@ function literal(v: unknown): string {
 }
 
 /** The SQL of a statement with its values bound as literals (the statement's text, ready to send). */
-export function bindStatement(stmt: Statement, values: readonly unknown[]): string {
+function bindStatement(stmt: Statement, values: readonly unknown[]): string {
   let sql = stmt.parts[0]!;
-  for (let i = 0; i < stmt.slots.length; i++) {
-    const slot = stmt.slots[i]!;
-    if (slot >= values.length) throw new RangeError(`No value for $${slot + 1}`);
-    sql += literal(values[slot]) + stmt.parts[i + 1];
-  }
+  for (let i = 0; i < stmt.slots.length; i++) sql += literal(values[stmt.slots[i]!]) + stmt.parts[i + 1];
   return sql;
 }
 
@@ -92,18 +90,17 @@ function batchSql(client: Tracked | null, stmts: readonly Read[], fresh: string[
   const known = client ? (client[PREPARED] ??= new Set<string>()) : null;
   const sql: string[] = [];
   for (const [stmt, values] of stmts) {
+    if (stmt.params > values.length) throw new RangeError(`No value for $${stmt.params}`);
     if (!known || stmt.name === null) {
       sql.push(bindStatement(stmt, values));
       continue;
     }
-    const count = Math.max(0, ...stmt.slots.map((s) => s + 1));
-    if (count > values.length) throw new RangeError(`No value for $${count}`);
     if (!known.has(stmt.name)) {
       sql.push(`PREPARE ${stmt.name} AS ${stmt.text}`);
       known.add(stmt.name);
       fresh.push(stmt.name);
     }
-    sql.push(count ? `EXECUTE ${stmt.name}(${values.slice(0, count).map(literal).join(', ')})` : `EXECUTE ${stmt.name}`);
+    sql.push(stmt.params ? `EXECUTE ${stmt.name}(${values.slice(0, stmt.params).map(literal).join(', ')})` : `EXECUTE ${stmt.name}`);
   }
   return sql.join(';\n');
 }

@@ -48,7 +48,7 @@ export function parseWith<S extends z.ZodType>(schema: S, value: unknown): z.inf
  * Reads a JSON body without judging it yet: the returned function gives the value, or throws the
  * 400 when the body is not JSON (so a route can answer the session check first).
  */
-export async function readJson(req: Request): Promise<() => unknown> {
+async function readJson(req: Request): Promise<() => unknown> {
   try {
     const value: unknown = await req.json();
     return () => value;

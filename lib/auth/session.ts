@@ -93,7 +93,14 @@ function actorOf(row: ActorRow | undefined, session: SessionClaims): Actor {
  */
 const lastActors = new Map<string, { actor: Actor; json: string }>();
 const LAST_ACTORS_MAX = 10_000;
-const actorKey = (uid: number, slug: string) => `${uid}/${slug}`;
+
+/** The session's claims (401 without one), the co-op slug as looked up, and the key of the remembered actor. */
+async function sessionFor(coopSlug: string): Promise<{ session: SessionClaims; slug: string; key: string }> {
+  const session = await readSession();
+  if (!session) throw unauthorized();
+  const slug = String(coopSlug).slice(0, 60);
+  return { session, slug, key: `${session.uid}/${slug}` };
+}
 
 function remember(key: string, actor: Actor): void {
   if (lastActors.size >= LAST_ACTORS_MAX) lastActors.clear();
@@ -119,10 +126,7 @@ function checkedActor(key: string, row: ActorRow | undefined, session: SessionCl
  * existence is not revealed); 403 when suspended or the role may not.
  */
 export async function requireMember(coopSlug: string, action: Action): Promise<Actor> {
-  const session = await readSession();
-  if (!session) throw unauthorized();
-  const slug = String(coopSlug).slice(0, 60);
-  const key = actorKey(session.uid, slug);
+  const { session, slug, key } = await sessionFor(coopSlug);
   const actor = checkedActor(key, await loadActor(session.uid, slug), session, action);
   remember(key, actor);
   return actor;
@@ -142,10 +146,7 @@ export async function requireMemberAnd<R>(
   action: Action,
   build: (actor: Actor) => ReadPlan<R> | Promise<ReadPlan<R>>,
 ): Promise<{ actor: Actor; result: R }> {
-  const session = await readSession();
-  if (!session) throw unauthorized();
-  const slug = String(coopSlug).slice(0, 60);
-  const key = actorKey(session.uid, slug);
+  const { session, slug, key } = await sessionFor(coopSlug);
   const guess = lastActors.get(key);
   let plan: ReadPlan<R> | null = null;
   try {

@@ -13,7 +13,7 @@ import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { tempToC, volumeToLiters } from '@/lib/units';
 import type { BatchCreateInput, BatchUpdateInput } from '@/lib/validation/brewing';
 import { Batch, BatchOilLot, BatchTemperature, sequelize } from '@/models';
-import { runReadPlan, statement, type ReadPlan } from '@/lib/db';
+import { runReadPlan, statement, type ReadPlan, type Statement } from '@/lib/db';
 import type { BatchStatus } from '@/models/Batch';
 import { computePlan, type Catalyst, type ComputedPlan, type PlanInput } from './plan';
 
@@ -623,6 +623,8 @@ const LIST_SORT: Record<string, string> = {
 };
 const LIST_COLUMNS = `id, number, status, batch_date, oil_liters, released_liters, total_cost_cents, cost_per_gallon_cents,
   quality_standard, quality_verdict, screening_verdict`;
+/** The list's statements, one per sort and filter shape (at most 20), declared on first use. */
+const LIST_STATEMENTS = new Map<string, Statement>();
 const IN_PROGRESS = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
 
 type BatchListQuery = { page: number; pageSize: number; sort: string; dir: 'asc' | 'desc'; status?: string };
@@ -654,12 +656,17 @@ export function batchListPlan(actor: Actor, q: BatchListQuery): ReadPlan<BatchLi
   // counts the batches' triggers keep (a few rows, instead of counting the co-op's batches on every page). The
   // page comes back as one JSON array (one value to parse instead of eleven columns per batch), and the one
   // row always carries the total, also for a page past the end.
-  const page = statement(
-    `SELECT (SELECT coalesce(sum(n), 0) FROM batch_status_counts WHERE ${where}) AS total,
-            (SELECT coalesce(json_agg(json_build_array(${LIST_COLUMNS}) ORDER BY ${order}), '[]')
-               FROM (SELECT ${LIST_COLUMNS} FROM batches WHERE ${where} ORDER BY ${order} LIMIT $${n0 + 1} OFFSET $${n0 + 2}) b) AS rows`,
-    `tv_batch_list_${col}_${dir.toLowerCase()}_${statuses ? 'by_status' : 'all'}`,
-  );
+  const name = `tv_batch_list_${col}_${dir.toLowerCase()}_${statuses ? 'by_status' : 'all'}`;
+  let page = LIST_STATEMENTS.get(name);
+  if (!page) {
+    page = statement(
+      `SELECT (SELECT coalesce(sum(n), 0) FROM batch_status_counts WHERE ${where}) AS total,
+              (SELECT coalesce(json_agg(json_build_array(${LIST_COLUMNS}) ORDER BY ${order}), '[]')
+                 FROM (SELECT ${LIST_COLUMNS} FROM batches WHERE ${where} ORDER BY ${order} LIMIT $${n0 + 1} OFFSET $${n0 + 2}) b) AS rows`,
+      name,
+    );
+    LIST_STATEMENTS.set(name, page);
+  }
   return {
     reads: [[page, [...values, q.pageSize, (q.page - 1) * q.pageSize]]],
     finish: ([found]) => {

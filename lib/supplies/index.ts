@@ -3,7 +3,7 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
-import { queryRows, runReadPlan, statement, type ReadPlan } from '@/lib/db';
+import { runReadPlan, statement, type ReadPlan } from '@/lib/db';
 import { deleteFile, getFile, putFile } from '@/lib/storage';
 import { gallonsToLiters, volumeToLiters } from '@/lib/units';
 import type { ChemicalLotCreateInput, OilLotCreateInput } from '@/lib/validation/brewing';
@@ -365,10 +365,6 @@ export const stockTotalsOf = (rows: StockTotalsRow[]): HeldLot[] =>
     totalCostCents: Number(r.cost), purityPct: null,
   }));
 
-export async function stockTotals(coopId: number, kinds: HeldLot['kind'][]): Promise<HeldLot[]> {
-  return stockTotalsOf(await queryRows<StockTotalsRow>(STOCK_TOTALS, [coopId, kinds]));
-}
-
 /** What batches under way have committed of each chemical, and the next planned batch with its needs. */
 export interface BatchNeeds {
   committed: Record<'methanol' | 'KOH' | 'NaOH', number>;
@@ -390,10 +386,6 @@ export const BATCH_NEEDS = statement(
 );
 
 export type BatchNeedsRow = Record<string, string | number | null>;
-
-export async function batchNeeds(coopId: number, transaction?: Transaction): Promise<BatchNeeds> {
-  return batchNeedsOf((await queryRows<BatchNeedsRow>(BATCH_NEEDS, [coopId], transaction))[0]);
-}
 
 export function batchNeedsOf(r: BatchNeedsRow | undefined): BatchNeeds {
   const row = r ?? {};

@@ -6,7 +6,7 @@ import type { Actor } from '@/lib/auth';
 import { runReadPlan, sequelize, statement, type ReadPlan } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
-import { expireCtes, expireLapsedReservations } from '@/lib/reservations/expire';
+import { EXPIRE_CTES, expireLapsedReservations } from '@/lib/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { dipCreateSchema, movementListSchema, tankCreateSchema, tankUpdateSchema, transferCreateSchema } from '@/lib/validation/tank';
 import { DipReading, Tank } from '@/models';
@@ -68,7 +68,7 @@ const TANK_COLUMNS = `t.id, t.name, t.active, t.capacity_liters, t.on_hand_liter
 
 const listTanksStatement = (activeOnly: boolean) =>
   statement(
-    `WITH ${expireCtes('$1')}
+    `WITH ${EXPIRE_CTES}
      SELECT ${TANK_COLUMNS}, (t.reserved_liters - coalesce(p.liters, 0))::text AS reserved_liters
      FROM tanks t LEFT JOIN expired_per_tank p ON p.tank_id = t.id
      WHERE t.coop_id = $1 ${activeOnly ? 'AND t.active' : ''}
