@@ -25,6 +25,32 @@ function create(): Sequelize {
 /** The one Sequelize instance of this process (cached on globalThis so dev reloads reuse it). */
 export const sequelize: Sequelize = globalThis.__tallyvatSequelize ?? (globalThis.__tallyvatSequelize = create());
 
+/** SQLSTATEs worth another try: deadlock detected, serialization failure. */
+const RETRYABLE = new Set(['40P01', '40001']);
+
+/** The SQLSTATE of a database error (Sequelize wraps pg's error as `original`/`parent`), e.g. '23505'. */
+export function sqlState(e: unknown): string | undefined {
+  const err = e as { original?: { code?: string }; parent?: { code?: string }; code?: string } | null;
+  return err?.original?.code ?? err?.parent?.code ?? err?.code;
+}
+
+/**
+ * The one transaction helper: runs fn in a READ COMMITTED transaction (guarded updates and row
+ * locks rely on it) and runs it again, up to three times in all, when PostgreSQL aborts it to
+ * resolve a deadlock or a serialization failure. Everything fn wrote is rolled back when it throws,
+ * so fn must not have effects outside the database (send e-mail after it returns).
+ */
+export async function inTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise<T> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await sequelize.transaction(fn);
+    } catch (e) {
+      if (attempt < 3 && RETRYABLE.has(sqlState(e) ?? '')) continue;
+      throw e;
+    }
+  }
+}
+
 /**
  * A statement with positional parameters ($1, $2, …; an array binds as a PostgreSQL array,
  * for `= ANY($n)`). A named statement is prepared once per pooled connection (PREPARE) and then

@@ -102,12 +102,54 @@ export function handler<P = Record<string, string>>(fn: (req: Request, params: P
 /** SQLSTATE raised by the database's lock triggers (e.g. a closed billing month). */
 const LOCKED_SQLSTATE = 'TV409';
 
+/**
+ * Readable reasons for the database's named constraints, where the constraint's name alone would
+ * mean nothing to a person. Unlisted constraints get the generic wording of their kind.
+ */
+const CONSTRAINT_REASONS: Record<string, string> = {
+  tanks_reserved_within_on_hand: 'The tank no longer holds enough fuel for that; the figures changed while you were working. Reload and try again.',
+  tanks_on_hand_nonnegative: 'That would take the tank below empty.',
+};
+
+/**
+ * The one mapping from database errors to answers a person understands, wherever they are
+ * raised: the closed-month trigger and unique, check and foreign-key violations are 409;
+ * values the column can't hold (bad number, out of range, too long) are 422; a deadlock or
+ * serialization failure that outlived the transaction helper's retries is 503 (try again).
+ * Returns null for anything else.
+ */
+export function databaseErrorResponse(e: unknown): Response | null {
+  const db = (e as { original?: { code?: string; message?: string; constraint?: string } } | null)?.original;
+  const code = db?.code;
+  if (!code) return null;
+  const constraint = db.constraint ?? '';
+  const reason = CONSTRAINT_REASONS[constraint];
+  switch (true) {
+    case code === LOCKED_SQLSTATE:
+      return Response.json({ error: db.message, code: 'locked' }, { status: 409 });
+    case code === '23505':
+      return Response.json({ error: reason ?? 'That already exists.', code: 'duplicate', constraint }, { status: 409 });
+    case code === '23514':
+      return Response.json({ error: reason ?? 'That change breaks one of the co-op\'s rules and was not made.', code: 'check', constraint }, { status: 409 });
+    case code === '23503':
+      return Response.json({ error: reason ?? 'That refers to something that does not exist or is still in use.', code: 'reference', constraint }, { status: 409 });
+    case code === '23502':
+      return Response.json({ error: 'A required value is missing.', code: 'required' }, { status: 422 });
+    case code.startsWith('22'):
+      return Response.json({ error: 'A value is not one the database can store (too long, out of range or malformed).', code: 'value' }, { status: 422 });
+    case code === '40001' || code === '40P01' || code === '55P03':
+      return Response.json({ error: 'The co-op was busy with the same records; please try again.', code: 'busy' }, { status: 503, headers: { 'Retry-After': '1' } });
+    default:
+      return null;
+  }
+}
+
 export function errorResponse(e: unknown): Response {
-  const db = (e as { original?: { code?: string; message?: string } } | null)?.original;
-  if (db?.code === LOCKED_SQLSTATE) return Response.json({ error: db.message, code: 'locked' }, { status: 409 });
   if (e instanceof HttpError) {
     return Response.json({ error: e.message, ...(e.fields ? { fields: e.fields } : {}), ...(e.extra ?? {}) }, { status: e.status });
   }
+  const mapped = databaseErrorResponse(e);
+  if (mapped) return mapped;
   const requestId = crypto.randomUUID();
   console.error(`[request ${requestId}]`, e);
   return Response.json({ error: 'Something went wrong on our side.', requestId }, { status: 500 });

@@ -19,15 +19,18 @@ import { TankMovement } from './TankMovement';
 import { Batch } from './Batch';
 import { BatchFile } from './BatchFile';
 import { BatchOilLot } from './BatchOilLot';
+import { BatchStatusCount } from './BatchStatusCount';
 import { BatchTemperature } from './BatchTemperature';
 import { ChemicalConsumption } from './ChemicalConsumption';
 import { ChemicalLot } from './ChemicalLot';
+import { LowStockAlert } from './LowStockAlert';
 import { OilLot } from './OilLot';
 // Billing
 import { BillingAdjustment } from './BillingAdjustment';
 import { BillingPeriod } from './BillingPeriod';
 import { BillingRun } from './BillingRun';
 import { Invoice } from './Invoice';
+import { InvoiceCounter } from './InvoiceCounter';
 import { InvoiceLine } from './InvoiceLine';
 import { MemberCredit } from './MemberCredit';
 import { Payment } from './Payment';
@@ -79,8 +82,10 @@ Batch.hasMany(BatchTemperature, { foreignKey: 'batchId', as: 'temperatures' });
 Batch.hasMany(BatchOilLot, { foreignKey: 'batchId', as: 'oilLots' });
 Batch.hasMany(ChemicalConsumption, { foreignKey: 'batchId', as: 'consumptions' });
 Batch.hasMany(BatchFile, { foreignKey: 'batchId', as: 'files' });
+for (const m of [BatchStatusCount, LowStockAlert]) m.initModel(sequelize);
 
 // Billing: invoices, lines, payments, refunds, credit, adjustments, runs, months, provider events.
+InvoiceCounter.initModel(sequelize);
 for (const m of [BillingPeriod, BillingRun, BillingAdjustment, Invoice, InvoiceLine, PaymentAttempt, Payment, Refund, MemberCredit, PaymentWebhookEvent]) m.initModel(sequelize);
 Invoice.hasMany(InvoiceLine, { foreignKey: 'invoiceId', as: 'lines' });
 InvoiceLine.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
@@ -91,5 +96,5 @@ Refund.belongsTo(Payment, { foreignKey: 'paymentId', as: 'payment' });
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
-export { Batch, BatchFile, BatchOilLot, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot };
-export { BillingAdjustment, BillingPeriod, BillingRun, Invoice, InvoiceLine, MemberCredit, Payment, PaymentAttempt, PaymentWebhookEvent, Refund };
+export { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, LowStockAlert, OilLot };
+export { BillingAdjustment, BillingPeriod, BillingRun, Invoice, InvoiceCounter, InvoiceLine, MemberCredit, Payment, PaymentAttempt, PaymentWebhookEvent, Refund };
