@@ -1,8 +1,8 @@
 // Reads never write: a removed member, a suspended member and a signed-out person (who keeps the
 // cookie of a session that "sign out everywhere" ended) ask for the busiest reads and pages, and
 // the database is exactly as it was: the row count of every table, the latest updated_at of every
-// table that has one, and the audit log. The co-op holds an open reservation whose window has
-// ended, the kind a read must not quietly expire.
+// table that has one, and the audit log. Before each case the co-op gets an open reservation whose
+// window has ended, the kind a read must not quietly expire.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { api, makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
 import { insertBatch } from '../support/batches';
@@ -32,7 +32,7 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
   let slug: string;
   let paths: string[];
   let pages: string[];
-  let lapsedId: number;
+  let tankId: number;
   const people: Record<'removed' | 'suspended' | 'signedOut', { id: number; membershipId: number; agent: Agent }> = {} as never;
 
   beforeAll(async () => {
@@ -49,6 +49,7 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
        VALUES ($1, $2, date_trunc('month', now())::date, 1, 'issued', 1500, now()) RETURNING id`,
       [ctx.coop.id, ctx.users.member.membershipId],
     );
+    tankId = tank!.id;
     const co = `/api/coops/${slug}`;
     paths = [
       `${co}/tanks`, `${co}/tanks/${tank!.id}`, `${co}/tanks/${tank!.id}/movements`, `${co}/reservations`, `${co}/draws`, `${co}/pricing`,
@@ -67,20 +68,23 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
       }
     }
 
-    // A reservation whose window ended yesterday and that nothing has expired yet.
-    const [r] = await sql<{ id: number }>(
-      `INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
-       VALUES ($1, $2, $3, 10, now() - interval '3 days', now() - interval '1 day') RETURNING id`,
-      [ctx.coop.id, tank!.id, ctx.users.member.membershipId],
-    );
-    await sql('UPDATE tanks SET reserved_liters = reserved_liters + 10 WHERE id = $1', [tank!.id]);
-    lapsedId = r!.id;
 
     const admin = ctx.agents.admin;
     await admin.delete(`${co}/members/${people.removed.membershipId}`).expect(200);
     await admin.patch(`${co}/members/${people.suspended.membershipId}`).send({ status: 'suspended' }).expect(200);
     await people.signedOut.agent.post('/api/me/sign-out-everywhere').expect(200);
   });
+
+  /** A reservation whose window ended yesterday, not expired yet (as no write has come since). */
+  async function lapsedReservation(): Promise<number> {
+    const [r] = await sql<{ id: number }>(
+      `INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
+       VALUES ($1, $2, $3, 10, now() - interval '3 days', now() - interval '1 day') RETURNING id`,
+      [ctx.coop.id, tankId, ctx.users.member.membershipId],
+    );
+    await sql('UPDATE tanks SET reserved_liters = reserved_liters + 10 WHERE id = $1', [tankId]);
+    return r!.id;
+  }
 
   const cases = [
     { who: 'removed', status: 404 },
@@ -90,6 +94,7 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
 
   for (const { who, status } of cases) {
     it(`${who}: ${status} on every read, and no row changes`, async () => {
+      const lapsedId = await lapsedReservation();
       const before = await snapshot();
       const agent = people[who].agent;
       for (const p of paths) {
@@ -105,6 +110,7 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
   }
 
   it('without any session: 401 on every read, and no row changes', async () => {
+    await lapsedReservation();
     const before = await snapshot();
     for (const p of paths) expect((await api().get(p)).status, p).toBe(401);
     for (const p of pages) expect((await api().get(p)).status, p).toBeLessThan(500);
