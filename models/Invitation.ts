@@ -24,6 +24,7 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare coop?: NonAttribute<Coop>;
+  declare invitedBy?: NonAttribute<User>;
 
   static initModel(sequelize: Sequelize) {
     Invitation.init(

@@ -4,7 +4,7 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { requireMember } from '@/lib/auth';
-import { listAuditActors, listAuditEvents } from '@/lib/audit/queries';
+import { listAuditActors, listAuditEvents } from '@/lib/audit/events';
 import { fieldErrors } from '@/lib/http';
 import { auditQuerySchema } from '@/lib/validation/audit';
 
