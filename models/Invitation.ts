@@ -40,7 +40,7 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'invitations', underscored: true },
+      { sequelize, modelName: 'Invitation', tableName: 'invitations', underscored: true },
     );
   }
 }
