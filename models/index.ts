@@ -56,6 +56,7 @@ Invitation.belongsTo(User, { foreignKey: 'invitedByUserId', as: 'invitedBy' });
 AuthToken.belongsTo(User, { foreignKey: 'userId', as: 'user' });
 AuditEvent.belongsTo(User, { foreignKey: 'actorUserId', as: 'actor' });
 AuditEvent.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
+User.hasMany(AuditEvent, { foreignKey: 'actorUserId', as: 'auditEvents' });
 
 // tank & draws
 for (const m of [Tank, TankMovement, PricePolicy, Reservation, Draw, DipReading]) m.initModel(sequelize);
