@@ -302,9 +302,10 @@ export async function listDraws(actor: Actor, q: z.infer<typeof drawListSchema>,
     }) as unknown as Promise<DrawListRow[]>,
     Draw.findOne({
       attributes: [
-        [fn('count', col('Draw.id')), 'n'],
-        [fn('coalesce', fn('sum', col('Draw.quantity_liters')), 0), 'liters'],
-        [fn('coalesce', fn('sum', col('Draw.total_cents')), 0), 'total'],
+        // The main table's alias is the model's name (minified in the production build).
+        [fn('count', col(`${Draw.name}.id`)), 'n'],
+        [fn('coalesce', fn('sum', col(`${Draw.name}.quantity_liters`)), 0), 'liters'],
+        [fn('coalesce', fn('sum', col(`${Draw.name}.total_cents`)), 0), 'total'],
       ],
       where, include: drawInclude(coopId, false), raw: true,
     }) as unknown as Promise<{ n: string; liters: string; total: string } | null>,

@@ -50,12 +50,14 @@ export type TankListRow = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' |
   lastDipAt: Date | null;
 };
 
-// Correlated subqueries on the row of "Tank" (the alias Sequelize gives the table); both are
+// Correlated subqueries on the tank row. The main table's alias is the model's name, which the
+// production build minifies, so it is taken from the class rather than written out. Both are
 // index scans: reservations_open_window (coop_id, window_end) WHERE status = 'open', and
 // dip_readings_coop_tank (coop_id, tank_id, measured_at DESC).
+const T = `"${Tank.name}"`;
 const LAPSED_LITERS = literal(`(SELECT coalesce(sum(r.quantity_liters), 0) FROM reservations r
-  WHERE r.coop_id = "Tank".coop_id AND r.status = 'open' AND r.window_end < now() AND r.tank_id = "Tank".id)`);
-const LAST_DIP_AT = literal(`(SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = "Tank".coop_id AND d.tank_id = "Tank".id)`);
+  WHERE r.coop_id = ${T}.coop_id AND r.status = 'open' AND r.window_end < now() AND r.tank_id = ${T}.id)`);
+const LAST_DIP_AT = literal(`(SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = ${T}.coop_id AND d.tank_id = ${T}.id)`);
 const TANK_ORDER: Order = [['active', 'DESC'], ['id', 'ASC']];
 
 /**
