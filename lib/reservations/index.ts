@@ -9,10 +9,10 @@ import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
 import type { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Reservation, Tank, User } from '@/models';
+import type { ReservationStatus } from '@/models/Reservation';
 import { expireLapsedReservations } from './expire';
 import { addReservedLiters } from './queries';
 import { parseWindowEdge, reservationWindow } from './window';
-import type { ReservationStatus } from '@/models/Reservation';
 
 export { expireLapsedReservations };
 
