@@ -5,9 +5,9 @@ import { can } from '@/lib/auth';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { runReadPlan, sequelize, statement, type Read, type ReadPlan } from '@/lib/db';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
-import { POLICY_IN_FORCE } from '@/lib/pricing-policy';
+import { policyInForce } from '@/lib/pricing-policy';
 import type { PolicyRow } from '@/lib/pricing-policy/convert';
-import { listTanksPlan, type TankDto } from '@/lib/tank';
+import { listTanks, type TankDto } from '@/lib/tank';
 import { mlToLiters } from '@/lib/tank/quantity';
 import { policyInUnits } from '@/lib/pricing-policy/convert';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
@@ -218,10 +218,7 @@ export function overviewPlan(actor: Actor): ReadPlan<Overview> {
   const isTreasurer = can(actor.role, 'billing:manage');
   const isAdmin = can(actor.role, 'members:manage');
   const period = currentPeriod(actor.coop.timezone);
-  const tanks = listTanksPlan(actor, { activeOnly: true });
   const reads: Read[] = [
-    ...tanks.reads,
-    [POLICY_IN_FORCE, [c]],
     [MY_RESERVATIONS, [c, actor.membershipId]],
     [MEMBER_BALANCE, [c, actor.membershipId]],
     ...(isAdmin ? ([[INVITATIONS, [c]], [RECENT_EVENTS, [c]]] as Read[]) : []),
@@ -231,17 +228,18 @@ export function overviewPlan(actor: Actor): ReadPlan<Overview> {
   return {
     reads,
     finish: async (sets) => {
-      const [tankRows, [policy], reservations, [balance], ...rest] = sets as [unknown[], [(PolicyRow & { id: number }) | undefined], ReservationRow[], [BalanceRow | undefined], ...unknown[][]];
+      const [reservations, [balance], ...rest] = sets as [ReservationRow[], [BalanceRow | undefined], ...unknown[][]];
+      const [tanks, policy] = await Promise.all([listTanks(actor, { activeOnly: true }), policyInForce(c)]);
       const take = <T>() => rest.shift() as T;
       const admin = isAdmin ? { invitations: take<InvitationRow[]>(), events: take<EventRow[]>() } : null;
       const brewer = isBrewer ? brewerSectionOf(take<WorkingRow[]>(), take<StockTotalsRow[]>(), take<BatchNeedsRow[]>()[0]) : null;
       const treasurer = isTreasurer ? treasurerSectionOf(period, take<Record<string, string>[]>()[0]) : null;
-      const tank = tankSummaryOf(await tanks.finish([tankRows!]));
+      const tank = tankSummaryOf(tanks);
       const [volumes, level, batchCosts, balances] = await charts(actor);
       return {
         role: actor.role,
         tank,
-        price: priceSummaryOf(policy, tank.avgCostCentsPerGallon),
+        price: priceSummaryOf(policy ?? undefined, tank.avgCostCentsPerGallon),
         volumes: volumes.map((v) => ({ month: v.month, releasedLiters: Number(v.released), drawnLiters: Number(v.drawn) })),
         tankLevel: level.map((l) => ({ day: l.day, onHandLiters: Number(l.on_hand) })),
         member: {
