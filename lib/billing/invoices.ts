@@ -68,13 +68,21 @@ export async function findInvoiceSummaries(coopId: number, where: InvoiceWhere, 
 }
 
 const dirOf = (dir: 'asc' | 'desc') => (dir === 'asc' ? 'ASC' : 'DESC');
+/**
+ * The main table's alias in SQL is the model's class name, which a production build minifies:
+ * expressions that must name it take it from the class at run time.
+ */
+const invoiceAlias = () => `"${Invoice.name}"`;
 const SORTS = {
-  number: () => col('Invoice.number'),
+  number: () => 'number',
   member: () => fn('lower', col('membership->user.name')),
-  total: () => col('Invoice.total_cents'),
-  outstanding: () => literal(`CASE WHEN "Invoice"."status" IN ('issued','partly-paid') THEN GREATEST("Invoice"."total_cents" - "Invoice"."paid_cents", 0) ELSE 0 END`),
-  status: () => col('Invoice.status'),
-  period: () => col('Invoice.period'),
+  total: () => 'totalCents',
+  outstanding: () => {
+    const i = invoiceAlias();
+    return literal(`CASE WHEN ${i}.status IN ('issued','partly-paid') THEN GREATEST(${i}.total_cents - ${i}.paid_cents, 0) ELSE 0 END`);
+  },
+  status: () => 'status',
+  period: () => 'period',
 } as const;
 export type InvoiceSort = keyof typeof SORTS;
 

@@ -121,15 +121,9 @@ export async function voidInvoice(actor: Actor, id: number, reason: string): Pro
       const bal = await memberBalance(coopId, membershipId, t);
       if (bal.creditCents < -total) throw conflict('The credit this invoice gave the member has already been used or refunded, so it cannot be voided. Add an adjustment instead.');
     }
+    // The credit note is built as a draft (lines change only on drafts), then issued with the next number.
     const lines = await InvoiceLine.findAll({ where: { invoiceId: id, coopId }, order: [['sortKey', 'ASC'], ['id', 'ASC']], raw: true, transaction: t });
-    const last = await takeNumbers(t, coopId, 1);
-    const cn = await Invoice.create(
-      {
-        coopId, membershipId, period: inv.period, kind: 'credit-note', status: 'issued', creditNoteForId: id, totalCents: String(-total),
-        number: last + 1, issuedAt: new Date(), emailStatus: 'queued',
-      },
-      { transaction: t },
-    );
+    const cn = await Invoice.create({ coopId, membershipId, period: inv.period, kind: 'credit-note', status: 'draft', creditNoteForId: id, totalCents: String(-total) }, { transaction: t });
     await InvoiceLine.bulkCreate(
       lines.map((l) => ({
         coopId, invoiceId: cn.id, sortKey: l.sortKey, kind: l.kind, description: l.description, occurredAt: l.occurredAt,
@@ -137,6 +131,8 @@ export async function voidInvoice(actor: Actor, id: number, reason: string): Pro
       })),
       { transaction: t },
     );
+    const last = await takeNumbers(t, coopId, 1);
+    await cn.update({ number: last + 1, status: 'issued', issuedAt: new Date(), emailStatus: 'queued' }, { transaction: t });
     await inv.update({ status: 'void', voidedAt: new Date(), voidReason: reason, paidCents: '0' }, { transaction: t });
     await InvoiceLine.update({ released: true }, { where: { invoiceId: id, coopId, [Op.or]: [{ drawId: { [Op.ne]: null } }, { adjustmentId: { [Op.ne]: null } }] }, transaction: t });
     // Money the invoice held goes back to the member's credit: the credit it used, then payments applied to it.
