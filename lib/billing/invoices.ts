@@ -1,5 +1,5 @@
 import 'server-only';
-import { col, fn, literal, Op, type Includeable, type InferAttributes, type Order, type Transaction, type WhereOptions } from 'sequelize';
+import { col, fn, literal, Op, type Includeable, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import { statement } from '@/lib/db';
 import { HttpError, notFound } from '@/lib/http';
 import { BillingPeriod, BillingRun, Coop, Invoice, InvoiceLine, MemberCredit, Membership, Payment, PaymentAttempt, User } from '@/models';
@@ -29,7 +29,7 @@ const SUMMARY_INCLUDE: Includeable[] = [
   { model: Invoice, as: 'creditNote', attributes: ['id', 'number'] },
 ];
 
-/** An invoice row as read with {@link SUMMARY_ATTRIBUTES} and {@link SUMMARY_INCLUDE}. */
+/** An invoice read with {@link SUMMARY_ATTRIBUTES} and {@link SUMMARY_INCLUDE}, as the lists show it. */
 export function summaryOf(inv: Invoice): InvoiceSummary {
   const total = cents(inv.totalCents);
   const paid = cents(inv.paidCents);
@@ -56,15 +56,6 @@ export function summaryOf(inv: Invoice): InvoiceSummary {
     creditNoteForId: inv.creditNoteForId,
     creditNoteId: inv.creditNote?.id ?? null,
   };
-}
-
-/**
- * Invoice summaries of the co-op matching `where` (always scoped to the co-op), in `order`.
- * For lists that are not paged (a month's reconciliation, exports).
- */
-export async function findInvoiceSummaries(coopId: number, where: InvoiceWhere, order: Order, t?: Transaction): Promise<InvoiceSummary[]> {
-  const rows = await Invoice.findAll({ where: { [Op.and]: [{ coopId }, where] }, attributes: [...SUMMARY_ATTRIBUTES], include: SUMMARY_INCLUDE, order, transaction: t });
-  return rows.map(summaryOf);
 }
 
 const dirOf = (dir: 'asc' | 'desc') => (dir === 'asc' ? 'ASC' : 'DESC');
@@ -326,7 +317,7 @@ export function memberBalanceOf(r: { outstanding: string | number; credit: strin
   return { outstandingCents: cents(r?.outstanding), creditCents: cents(r?.credit), unallocatedCents: cents(r?.unallocated) };
 }
 
-/** @deprecated use {@link findInvoiceSummaries}. */
+/** @deprecated use {@link listInvoices}. */
 export interface InvoiceRow {
   id: number; kind: 'invoice' | 'credit-note'; number: number | null; status: InvoiceStatus; period: string; membership_id: number;
   member_name: string; member_email: string; total_cents: string; paid_cents: string; issued_at: Date | null; due_on: string | null;
@@ -335,7 +326,7 @@ export interface InvoiceRow {
   today: string;
 }
 
-/** @deprecated use {@link findInvoiceSummaries}. */
+/** @deprecated use {@link listInvoices}. */
 export const INVOICE_SELECT = `
   SELECT i.id, i.kind, i.number, i.status, to_char(i.period, 'YYYY-MM') AS period, i.membership_id, u.name AS member_name, u.email AS member_email,
          i.total_cents, i.paid_cents, i.issued_at, to_char(i.due_on, 'YYYY-MM-DD') AS due_on, i.email_status, i.credit_note_for_id,
@@ -348,7 +339,7 @@ export const INVOICE_SELECT = `
   LEFT JOIN invoices cn ON cn.credit_note_for_id = i.id
   LEFT JOIN invoices orig ON orig.id = i.credit_note_for_id`;
 
-/** @deprecated use {@link findInvoiceSummaries}. */
+/** @deprecated use {@link listInvoices}. */
 export function toSummary(r: InvoiceRow): InvoiceSummary {
   const total = cents(r.total_cents);
   const paid = cents(r.paid_cents);
