@@ -1,5 +1,6 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type NonAttribute, type Sequelize } from 'sequelize';
 import type { Coop } from './Coop';
+import type { InvoiceLine } from './InvoiceLine';
 import type { Membership } from './Membership';
 
 export type InvoiceKind = 'invoice' | 'credit-note';
@@ -32,6 +33,13 @@ export class Invoice extends Model<InferAttributes<Invoice>, InferCreationAttrib
   declare emailedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
+  declare membership?: NonAttribute<Membership>;
+  declare coop?: NonAttribute<Coop>;
+  declare lines?: NonAttribute<InvoiceLine[]>;
+  /** The credit note that voids this invoice, if any. */
+  declare creditNote?: NonAttribute<Invoice | null>;
+  /** The invoice a credit note voids. */
+  declare original?: NonAttribute<Invoice | null>;
 
   static initModel(sequelize: Sequelize) {
     Invoice.init(

@@ -100,6 +100,9 @@ Invoice.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
 Payment.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
 Payment.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
 Refund.belongsTo(Payment, { foreignKey: 'paymentId', as: 'payment' });
+Invoice.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
+Invoice.hasOne(Invoice, { foreignKey: 'creditNoteForId', as: 'creditNote' });
+Invoice.belongsTo(Invoice, { foreignKey: 'creditNoteForId', as: 'original' });
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };

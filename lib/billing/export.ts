@@ -1,76 +1,104 @@
 import 'server-only';
+import { col, fn, literal, Op, type InferAttributes } from 'sequelize';
+import { Invoice, MemberCredit, Membership, Payment, User } from '@/models';
+import { cents } from './cents';
 import { centsToDecimal, csvCell } from './csv';
-import { int, select } from './db';
+import { OPEN_STATUSES } from './invoices';
 import { invoiceLabel, periodToDate } from './periods';
 import { INVOICE_STATUS_LABEL, METHOD_LABEL } from './status';
+import type { InvoiceKind } from './types';
 
 export type ExportKind = 'invoices' | 'payments' | 'balances';
 
 const line = (cells: string[]) => `${cells.join(',')}\r\n`;
+const isoDay = (d: Date | null) => (d ? new Date(d).toISOString().slice(0, 10) : null);
+
+/** A payment row of the export, as read raw and nested. */
+type PaymentExportRow = Pick<
+  InferAttributes<Payment>,
+  'id' | 'receivedOn' | 'method' | 'reference' | 'amountCents' | 'appliedCents' | 'creditedCents' | 'unallocatedCents' | 'refundedCents' | 'stripeChargeId' | 'note'
+> & { membership: { user: Pick<InferAttributes<User>, 'name'> }; invoice: { number: number | null; kind: InvoiceKind | null } };
+
+/** Sums per member, keyed by membership id (raw grouped rows). */
+async function sumsByMember(rows: Promise<unknown[]>): Promise<Map<number, number>> {
+  return new Map(((await rows) as { membershipId: number; s: string | null }[]).map((r) => [r.membershipId, cents(r.s)]));
+}
 
 /**
  * The accountant's exports for a month: invoices (with credit notes), payments received, or a
  * balance summary per member. Amounts are decimals in the co-op's currency.
  */
 export async function buildCsv(coopId: number, kind: ExportKind, period: string): Promise<string> {
-  const b = { coopId, period: periodToDate(period) };
+  const periodDate = periodToDate(period);
   if (kind === 'invoices') {
-    const rows = await select<Record<string, string | number | null>>(
-      `SELECT i.kind, i.number, to_char(i.period, 'YYYY-MM') AS period, u.name, u.email, i.status, to_char(i.issued_at, 'YYYY-MM-DD') AS issued_on,
-              to_char(i.due_on, 'YYYY-MM-DD') AS due_on, i.total_cents, i.paid_cents,
-              CASE WHEN i.kind = 'invoice' AND i.status IN ('issued','partly-paid') THEN GREATEST(i.total_cents - i.paid_cents, 0) ELSE 0 END AS outstanding,
-              o.number AS original_number, i.email_status
-       FROM invoices i JOIN memberships m ON m.id = i.membership_id JOIN users u ON u.id = m.user_id LEFT JOIN invoices o ON o.id = i.credit_note_for_id
-       WHERE i.coop_id = $coopId AND i.period = $period::date AND i.status <> 'draft' ORDER BY i.number`,
-      b,
-    );
+    const rows = await Invoice.findAll({
+      where: { coopId, period: periodDate, status: { [Op.ne]: 'draft' } },
+      attributes: ['kind', 'number', 'period', 'status', 'issuedAt', 'dueOn', 'totalCents', 'paidCents', 'emailStatus'],
+      include: [
+        { model: Membership, as: 'membership', attributes: ['id'], include: [{ model: User, as: 'user', attributes: ['name', 'email'] }] },
+        { model: Invoice, as: 'original', attributes: ['number'] },
+      ],
+      order: [['number', 'ASC']],
+    });
     let out = line(['number', 'type', 'month', 'member', 'email', 'status', 'issued_on', 'due_on', 'total', 'paid', 'outstanding', 'cancels', 'email_status']);
     for (const r of rows) {
-      const k = r.kind as 'invoice' | 'credit-note';
+      const total = cents(r.totalCents);
+      const paid = cents(r.paidCents);
+      const outstanding = r.kind === 'invoice' && OPEN_STATUSES.includes(r.status) ? Math.max(total - paid, 0) : 0;
       out += line([
-        csvCell(invoiceLabel(k, Number(r.number))), k === 'invoice' ? 'invoice' : 'credit note', csvCell(r.period as string), csvCell(r.name as string), csvCell(r.email as string),
-        csvCell(INVOICE_STATUS_LABEL[String(r.status)] ?? String(r.status)), csvCell(r.issued_on as string), csvCell(r.due_on as string),
-        centsToDecimal(int(r.total_cents)), centsToDecimal(int(r.paid_cents)), centsToDecimal(int(r.outstanding)),
-        csvCell(r.original_number ? invoiceLabel('invoice', Number(r.original_number)) : ''), csvCell(r.email_status as string),
+        csvCell(invoiceLabel(r.kind, r.number)), r.kind === 'invoice' ? 'invoice' : 'credit note', csvCell(String(r.period).slice(0, 7)),
+        csvCell(r.membership!.user!.name), csvCell(r.membership!.user!.email),
+        csvCell(INVOICE_STATUS_LABEL[r.status] ?? r.status), csvCell(isoDay(r.issuedAt)), csvCell(r.dueOn),
+        centsToDecimal(total), centsToDecimal(paid), centsToDecimal(outstanding),
+        csvCell(r.original?.number ? invoiceLabel('invoice', r.original.number) : ''), csvCell(r.emailStatus),
       ]);
     }
     return out;
   }
   if (kind === 'payments') {
-    const rows = await select<Record<string, string | number | null>>(
-      `SELECT p.id, to_char(p.received_on, 'YYYY-MM-DD') AS received_on, u.name, p.method, p.reference, i.number AS inv_number, i.kind AS inv_kind,
-              p.amount_cents, p.applied_cents, p.credited_cents, p.unallocated_cents, p.refunded_cents, p.stripe_charge_id, p.note
-       FROM payments p JOIN memberships m ON m.id = p.membership_id JOIN users u ON u.id = m.user_id LEFT JOIN invoices i ON i.id = p.invoice_id
-       WHERE p.coop_id = $coopId AND p.period = $period::date ORDER BY p.received_on, p.id`,
-      b,
-    );
+    const rows = (await Payment.findAll({
+      where: { coopId, period: periodDate },
+      attributes: ['id', 'receivedOn', 'method', 'reference', 'amountCents', 'appliedCents', 'creditedCents', 'unallocatedCents', 'refundedCents', 'stripeChargeId', 'note'],
+      include: [
+        { model: Membership, as: 'membership', attributes: [], include: [{ model: User, as: 'user', attributes: ['name'] }] },
+        { model: Invoice, as: 'invoice', attributes: ['number', 'kind'] },
+      ],
+      order: [['receivedOn', 'ASC'], ['id', 'ASC']],
+      raw: true,
+      nest: true,
+    })) as unknown as PaymentExportRow[];
     let out = line(['payment_id', 'received_on', 'member', 'method', 'reference', 'invoice', 'amount', 'applied', 'held_as_credit', 'unmatched', 'refunded', 'card_charge', 'note']);
     for (const r of rows) {
       out += line([
-        String(r.id), csvCell(r.received_on as string), csvCell(r.name as string), METHOD_LABEL[String(r.method)] ?? String(r.method), csvCell(r.reference as string | null),
-        csvCell(r.inv_number ? invoiceLabel(r.inv_kind as 'invoice', Number(r.inv_number)) : ''),
-        centsToDecimal(int(r.amount_cents)), centsToDecimal(int(r.applied_cents)), centsToDecimal(int(r.credited_cents)),
-        centsToDecimal(int(r.unallocated_cents)), centsToDecimal(int(r.refunded_cents)), csvCell(r.stripe_charge_id as string | null), csvCell(r.note as string | null),
+        String(r.id), csvCell(r.receivedOn), csvCell(r.membership.user.name), METHOD_LABEL[r.method] ?? r.method, csvCell(r.reference),
+        csvCell(r.invoice.kind && r.invoice.number ? invoiceLabel(r.invoice.kind, r.invoice.number) : ''),
+        centsToDecimal(cents(r.amountCents)), centsToDecimal(cents(r.appliedCents)), centsToDecimal(cents(r.creditedCents)),
+        centsToDecimal(cents(r.unallocatedCents)), centsToDecimal(cents(r.refundedCents)), csvCell(r.stripeChargeId), csvCell(r.note),
       ]);
     }
     return out;
   }
-  const rows = await select<Record<string, string | number | null>>(
-    `SELECT u.name, u.email, m.status,
-       (SELECT COALESCE(SUM(total_cents), 0) FROM invoices i WHERE i.membership_id = m.id AND i.coop_id = $coopId AND i.period = $period::date AND i.kind = 'invoice' AND i.status NOT IN ('draft','void')) AS invoiced,
-       (SELECT COALESCE(SUM(paid_cents), 0) FROM invoices i WHERE i.membership_id = m.id AND i.coop_id = $coopId AND i.period = $period::date AND i.kind = 'invoice' AND i.status NOT IN ('draft','void')) AS paid,
-       (SELECT COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)), 0) FROM invoices i WHERE i.membership_id = m.id AND i.coop_id = $coopId AND i.kind = 'invoice' AND i.status IN ('issued','partly-paid')) AS outstanding,
-       (SELECT COALESCE(SUM(amount_cents), 0) FROM member_credits c WHERE c.membership_id = m.id AND c.coop_id = $coopId) AS credit,
-       (SELECT COALESCE(SUM(unallocated_cents), 0) FROM payments p WHERE p.membership_id = m.id AND p.coop_id = $coopId) AS unmatched
-     FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.coop_id = $coopId ORDER BY lower(u.name), m.id`,
-    b,
-  );
+  const billed = { coopId, kind: 'invoice' as const };
+  const byMember = { group: ['membershipId'], raw: true as const };
+  const [members, invoiced, paid, outstanding, credit, unmatched] = await Promise.all([
+    Membership.findAll({
+      where: { coopId },
+      attributes: ['id', 'status'],
+      include: [{ model: User, as: 'user', attributes: ['name', 'email'] }],
+      order: [[fn('lower', col('user.name')), 'ASC'], ['id', 'ASC']],
+    }),
+    sumsByMember(Invoice.findAll({ ...byMember, attributes: ['membershipId', [fn('SUM', col('total_cents')), 's']], where: { ...billed, period: periodDate, status: { [Op.notIn]: ['draft', 'void'] } } })),
+    sumsByMember(Invoice.findAll({ ...byMember, attributes: ['membershipId', [fn('SUM', col('paid_cents')), 's']], where: { ...billed, period: periodDate, status: { [Op.notIn]: ['draft', 'void'] } } })),
+    sumsByMember(Invoice.findAll({ ...byMember, attributes: ['membershipId', [fn('SUM', literal('GREATEST(total_cents - paid_cents, 0)')), 's']], where: { ...billed, status: OPEN_STATUSES } })),
+    sumsByMember(MemberCredit.findAll({ ...byMember, attributes: ['membershipId', [fn('SUM', col('amount_cents')), 's']], where: { coopId } })),
+    sumsByMember(Payment.findAll({ ...byMember, attributes: ['membershipId', [fn('SUM', col('unallocated_cents')), 's']], where: { coopId } })),
+  ]);
   let out = line(['member', 'email', 'membership', 'invoiced_this_month', 'paid_on_this_month', 'outstanding_all_months', 'credit', 'unmatched_payments', 'balance_owed']);
-  for (const r of rows) {
-    const owed = int(r.outstanding) - int(r.credit) - int(r.unmatched);
+  for (const m of members) {
+    const [inv, pd, os, cr, un] = [invoiced, paid, outstanding, credit, unmatched].map((sums) => sums.get(m.id) ?? 0) as [number, number, number, number, number];
     out += line([
-      csvCell(r.name as string), csvCell(r.email as string), csvCell(r.status as string), centsToDecimal(int(r.invoiced)), centsToDecimal(int(r.paid)),
-      centsToDecimal(int(r.outstanding)), centsToDecimal(int(r.credit)), centsToDecimal(int(r.unmatched)), centsToDecimal(owed),
+      csvCell(m.user!.name), csvCell(m.user!.email), csvCell(m.status), centsToDecimal(inv), centsToDecimal(pd),
+      centsToDecimal(os), centsToDecimal(cr), centsToDecimal(un), centsToDecimal(os - cr - un),
     ]);
   }
   return out;

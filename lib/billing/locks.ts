@@ -1,11 +1,9 @@
 import 'server-only';
-import { QueryTypes, type Transaction } from 'sequelize';
+import type { Transaction } from 'sequelize';
 import { HttpError } from '@/lib/http';
-import { sequelize } from '@/models';
+import { BillingPeriod } from '@/models';
 import { periodLabel } from './periods';
-
-/** Advisory-lock namespace for a co-op's money writes (any constant that no other module uses). */
-const BILLING_LOCK_NAMESPACE = 73_051;
+import { advisoryLockCoopBilling, monthInstants } from './queries/locks';
 
 /**
  * Serialises the money writes of one co-op (runs, issue, payments, refunds, void, close) inside
@@ -13,18 +11,13 @@ const BILLING_LOCK_NAMESPACE = 73_051;
  * lock per co-op costs nothing and rules out every double-spend race between these paths.
  */
 export async function lockCoopBilling(t: Transaction, coopId: number): Promise<void> {
-  await sequelize.query('SELECT pg_advisory_xact_lock(:ns, :coopId)', { replacements: { ns: BILLING_LOCK_NAMESPACE, coopId }, transaction: t });
+  await advisoryLockCoopBilling(t, coopId);
 }
 
 /** True when the month ('YYYY-MM-01') is closed for the co-op. */
 export async function isPeriodClosed(coopId: number, periodDate: string, t?: Transaction): Promise<boolean> {
-  const rows = await sequelize.query<{ one: number }>(
-    `SELECT 1 AS one FROM billing_periods WHERE coop_id = :coopId AND period = :periodDate AND status = 'closed'`,
-    { replacements: { coopId, periodDate }, type: QueryTypes.SELECT, transaction: t },
-  );
-  return rows.length > 0;
+  return (await BillingPeriod.count({ where: { coopId, period: periodDate, status: 'closed' }, transaction: t })) > 0;
 }
-
 /** The 409 every closed-month refusal answers with (services and the database triggers agree). */
 export function periodClosedError(periodDate: string): HttpError {
   const label = periodLabel(periodDate.slice(0, 7));
@@ -41,9 +34,5 @@ export async function assertPeriodOpen(coopId: number, periodDate: string, t?: T
 
 /** The month's first and next-month's first instants in the co-op's time zone. */
 export async function periodBounds(periodDate: string, timeZone: string, t?: Transaction): Promise<{ start: Date; end: Date }> {
-  const [row] = await sequelize.query<{ start: Date; end: Date }>(
-    `SELECT (:p::date)::timestamp AT TIME ZONE :tz AS start, ((:p::date + interval '1 month')::timestamp) AT TIME ZONE :tz AS "end"`,
-    { replacements: { p: periodDate, tz: timeZone }, type: QueryTypes.SELECT, transaction: t },
-  );
-  return { start: new Date(row!.start), end: new Date(row!.end) };
+  return monthInstants(periodDate, timeZone, t);
 }

@@ -1,15 +1,45 @@
 import 'server-only';
+import { literal, Op } from 'sequelize';
+import { inTransaction } from '@/lib/db';
 import { appUrl, sendMail } from '@/lib/mail';
 import { formatCents } from '@/lib/money';
-import { exec, select } from './db';
+import { Coop, Invoice } from '@/models';
 import { getInvoiceDetail } from './invoices';
 import { invoiceFileName, renderInvoicePdf, type PdfCoop } from './pdf';
 import { formatDateIn, periodLabel } from './periods';
 import type { EmailStatus } from './types';
 
 async function loadCoop(coopId: number): Promise<PdfCoop> {
-  const [c] = await select<PdfCoop>('SELECT name, slug, units, currency, timezone FROM coops WHERE id = $id', { id: coopId });
+  const c = await Coop.findByPk(coopId, { attributes: ['name', 'slug', 'units', 'currency', 'timezone'], raw: true });
   return c!;
+}
+
+/** One more sending attempt, counted in the database (concurrent senders never lose one). */
+const ATTEMPT = literal('email_attempts + 1');
+
+/**
+ * Claims up to ten queued e-mails of a co-op (queued → sending, FOR UPDATE SKIP LOCKED), so two
+ * senders never mail the same invoice; a claim left "sending" by a crashed server is taken again
+ * after five minutes.
+ */
+async function claimBatch(coopId: number): Promise<{ id: number }[]> {
+  return inTransaction(async (t) => {
+    const batch = await Invoice.findAll({
+      where: {
+        coopId,
+        [Op.or]: [{ emailStatus: 'queued' }, { emailStatus: 'sending', updatedAt: { [Op.lt]: literal("now() - interval '5 minutes'") } }],
+      },
+      attributes: ['id'],
+      order: [['number', 'ASC']],
+      limit: 10,
+      lock: t.LOCK.UPDATE,
+      skipLocked: true,
+      raw: true,
+      transaction: t,
+    });
+    if (batch.length > 0) await Invoice.update({ emailStatus: 'sending' }, { where: { id: batch.map((b) => b.id), coopId }, transaction: t });
+    return batch;
+  });
 }
 
 /**
@@ -33,11 +63,7 @@ export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?:
     attachments: [{ filename: invoiceFileName(c.slug, inv), content: pdf, contentType: 'application/pdf' }],
   });
   const status: EmailStatus = ok ? 'sent' : 'failed';
-  await exec(
-    `UPDATE invoices SET email_status = $status, email_attempts = email_attempts + 1, emailed_at = CASE WHEN $status::varchar = 'sent' THEN now() ELSE emailed_at END, updated_at = now()
-     WHERE id = $id AND coop_id = $coopId`,
-    { status, id: invoiceId, coopId },
-  );
+  await Invoice.update({ emailStatus: status, emailAttempts: ATTEMPT, ...(ok ? { emailedAt: new Date() } : {}) }, { where: { id: invoiceId, coopId } });
   return status;
 }
 
@@ -51,14 +77,7 @@ export async function sendQueuedInvoiceEmails(coopId: number): Promise<{ sent: n
   let sent = 0;
   let failed = 0;
   for (;;) {
-    const batch = await select<{ id: number }>(
-      `UPDATE invoices SET email_status = 'sending', updated_at = now()
-       WHERE id IN (SELECT id FROM invoices WHERE coop_id = $coopId
-                      AND (email_status = 'queued' OR (email_status = 'sending' AND updated_at < now() - interval '5 minutes'))
-                    ORDER BY number LIMIT 10 FOR UPDATE SKIP LOCKED)
-       RETURNING id`,
-      { coopId },
-    );
+    const batch = await claimBatch(coopId);
     if (batch.length === 0) break;
     for (const { id } of batch) {
       try {
@@ -66,7 +85,7 @@ export async function sendQueuedInvoiceEmails(coopId: number): Promise<{ sent: n
         else failed++;
       } catch (e) {
         console.error(`[billing] e-mail for invoice ${id} failed:`, e);
-        await exec(`UPDATE invoices SET email_status = 'failed', email_attempts = email_attempts + 1, updated_at = now() WHERE id = $id`, { id });
+        await Invoice.update({ emailStatus: 'failed', emailAttempts: ATTEMPT }, { where: { id, coopId } });
         failed++;
       }
     }
@@ -76,9 +95,9 @@ export async function sendQueuedInvoiceEmails(coopId: number): Promise<{ sent: n
 
 /** Queues the month's unsent or failed e-mails again (treasurer's "send now"). */
 export async function requeueEmails(coopId: number, periodDate: string): Promise<number> {
-  return exec(
-    `UPDATE invoices SET email_status = 'queued', updated_at = now()
-     WHERE coop_id = $coopId AND period = $period::date AND status <> 'draft' AND email_status IN ('not-sent','failed')`,
-    { coopId, period: periodDate },
+  const [n] = await Invoice.update(
+    { emailStatus: 'queued' },
+    { where: { coopId, period: periodDate, status: { [Op.ne]: 'draft' }, emailStatus: ['not-sent', 'failed'] } },
   );
+  return n;
 }

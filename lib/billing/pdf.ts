@@ -1,19 +1,16 @@
 import 'server-only';
+import type { InferAttributes } from 'sequelize';
 import { appUrl } from '@/lib/mail';
 import { formatCents, formatRateCents } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
-import { formatVolume, perGallonToPerLiter, type UnitSystem } from '@/lib/units';
+import { formatVolume, perGallonToPerLiter } from '@/lib/units';
+import type { Coop } from '@/models';
 import { formatDateIn, periodLabel } from './periods';
 import { INVOICE_STATUS_LABEL } from './status';
 import type { InvoiceDetail } from './types';
 
-export interface PdfCoop {
-  name: string;
-  slug: string;
-  units: UnitSystem;
-  currency: string;
-  timezone: string;
-}
+/** What an invoice PDF shows of its co-op. */
+export type PdfCoop = Pick<InferAttributes<Coop>, 'name' | 'slug' | 'units' | 'currency' | 'timezone'>;
 
 /** The rounding rule, stated once on every invoice (lib/money: half away from zero, per line). */
 export const ROUNDING_NOTE =

@@ -1,11 +1,13 @@
 /** Plain shapes the billing services return (types only: safe to import from client components). */
+import type { InvoiceEmailStatus, InvoiceKind, InvoiceStatus } from '@/models/Invoice';
+import type { InvoiceLineKind } from '@/models/InvoiceLine';
 
-export type InvoiceStatus = 'draft' | 'issued' | 'partly-paid' | 'paid' | 'void';
-export type EmailStatus = 'not-sent' | 'queued' | 'sending' | 'sent' | 'failed';
+export type { InvoiceKind, InvoiceStatus };
+export type EmailStatus = InvoiceEmailStatus;
 
 export interface InvoiceSummary {
   id: number;
-  kind: 'invoice' | 'credit-note';
+  kind: InvoiceKind;
   number: number | null;
   /** 'INV-000012', 'CN-000013', or null for a draft. */
   label: string | null;
@@ -28,7 +30,7 @@ export interface InvoiceSummary {
 
 export interface InvoiceLineDTO {
   id: string;
-  kind: 'draw' | 'draw-reversal' | 'dues' | 'surcharge' | 'road-tax' | 'adjustment' | 'credit';
+  kind: InvoiceLineKind;
   description: string;
   occurredAt: string | null;
   /** Litres (negative on reversals); shown in the co-op's units. */

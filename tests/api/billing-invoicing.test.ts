@@ -73,6 +73,14 @@ describe('monthly invoicing', () => {
       expect(r.number).toBeNull();
       ids[r.memberName] = r.id;
     }
+    // Every sort the list offers works on the server (a production build minifies the model's alias).
+    for (const sort of ['number', 'member', 'total', 'outstanding', 'status', 'period']) {
+      const sorted = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices?period=${P}&sort=${sort}&dir=desc`);
+      expect(sorted.status, `sort=${sort}`).toBe(200);
+      expect(sorted.body.rows).toHaveLength(4);
+    }
+    const byTotal = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices?period=${P}&sort=total&dir=desc`).expect(200);
+    expect(byTotal.body.rows.map((r: { totalCents: number }) => r.totalCents)).toEqual([7929, 1500, 1500, 1298]);
 
     const ada = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices/${ids['Ada Archer']}`).expect(200);
     expect(ada.body.lines.map((l: { kind: string; amountCents: number }) => [l.kind, l.amountCents])).toEqual([

@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { voidInvoice } from '@/lib/billing/invoices';
+import { voidInvoice } from '@/lib/billing/issue';
 import { idParam } from '@/lib/billing/params';
 import { handler, parseBody } from '@/lib/http';
 import { invoiceVoidSchema } from '@/lib/validation/billing';

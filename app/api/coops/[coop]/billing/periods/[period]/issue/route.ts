@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { issueDrafts } from '@/lib/billing/invoices';
+import { issueDrafts } from '@/lib/billing/issue';
 import { periodParam } from '@/lib/billing/params';
 import { handler, parseBody } from '@/lib/http';
 import { invoicesIssueSchema } from '@/lib/validation/billing';
