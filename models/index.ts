@@ -93,6 +93,9 @@ Invoice.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
 Payment.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
 Payment.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
 Refund.belongsTo(Payment, { foreignKey: 'paymentId', as: 'payment' });
+PaymentAttempt.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
+BillingAdjustment.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
+BillingAdjustment.hasOne(InvoiceLine, { foreignKey: 'adjustmentId', as: 'billedLine' });
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
