@@ -33,10 +33,8 @@ const leaseUntil = (): Date => new Date(Date.now() + LEASE_SECONDS * 1000);
  */
 export async function completeAttemptSucceeded(t: Transaction, coopId: number, attemptId: number, charge: ProviderCharge, userId: number | null): Promise<'applied' | 'no-change' | 'unknown'> {
   await lockCoopBilling(t, coopId);
-  const [a, coop] = await Promise.all([
-    PaymentAttempt.findOne({ attributes: ['id', 'invoiceId', 'membershipId', 'status'], where: { id: attemptId, coopId }, lock: t.LOCK.UPDATE, raw: true, transaction: t }),
-    Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, transaction: t }),
-  ]);
+  const a = await PaymentAttempt.findOne({ attributes: ['id', 'invoiceId', 'membershipId', 'status'], where: { id: attemptId, coopId }, lock: t.LOCK.UPDATE, raw: true, transaction: t });
+  const coop = a ? await Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, transaction: t }) : null;
   if (!a || !coop) return 'unknown';
   if (a.status === 'succeeded') return 'no-change';
   await PaymentAttempt.update(

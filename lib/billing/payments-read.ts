@@ -7,6 +7,21 @@ import type { PageOf, PaymentDTO } from './types';
 /** BIGINT cents arrive from PostgreSQL as strings: parsed on purpose (cents stay well inside 2^53). */
 export const cents = (v: string | number | null | undefined): number => (v == null ? 0 : Number(v));
 
+/**
+ * Runs independent reads in parallel on the pool, or one after another inside a transaction (its
+ * one connection runs one statement at a time; pg would only queue them, and pg 9 refuses that).
+ */
+export async function readTogether<const R extends readonly (() => Promise<unknown>)[]>(
+  t: Transaction | undefined,
+  reads: R,
+): Promise<{ -readonly [K in keyof R]: Awaited<ReturnType<R[K]>> }> {
+  type Out = { -readonly [K in keyof R]: Awaited<ReturnType<R[K]>> };
+  if (!t) return (await Promise.all(reads.map((read) => read()))) as Out;
+  const out: unknown[] = [];
+  for (const read of reads) out.push(await read());
+  return out as Out;
+}
+
 /** A condition on payments (their attributes), e.g. `{ period: '2026-11-01', unallocatedCents: { [Op.gt]: 0 } }`. */
 export type PaymentWhere = WhereOptions<InferAttributes<Payment>>;
 
@@ -19,9 +34,13 @@ export function refundableCents(p: { unallocated: number; credited: number; memb
   return p.unallocated + Math.max(0, Math.min(p.credited, p.memberCredit));
 }
 
+/** What a payment row gives its DTO. */
+const PAYMENT_ATTRIBUTES: (keyof InferAttributes<Payment>)[] = [
+  'id', 'method', 'membershipId', 'invoiceId', 'amountCents', 'appliedCents', 'creditedCents', 'unallocatedCents', 'refundedCents', 'receivedOn', 'period', 'reference', 'note',
+];
 /** The payer's name and the invoice paid, joined to each payment in the same query. */
 const PAYMENT_INCLUDE = [
-  { model: Membership, as: 'membership', attributes: ['id'], required: true, include: [{ model: User, as: 'user', attributes: ['name'] }] },
+  { model: Membership, as: 'membership', attributes: ['id'], required: true, include: [{ model: User, as: 'user', attributes: ['name'], required: true }] },
   { model: Invoice, as: 'invoice', attributes: ['id', 'number', 'kind', 'period'], required: false },
 ];
 const PAYMENT_ORDER: [string, string][] = [
@@ -38,22 +57,22 @@ async function toPaymentDTOs(coopId: number, rows: Payment[], t?: Transaction): 
   const ids = rows.map((p) => p.id);
   const members = [...new Set(rows.map((p) => p.membershipId))];
   const periods = [...new Set(rows.map((p) => p.period))];
-  const [refunds, credits, closed] = await Promise.all([
-    Refund.findAll({
+  const [refunds, credits, closed] = await readTogether(t, [
+    () => Refund.findAll({
       attributes: ['id', 'paymentId', 'amountCents', 'status', 'reason', 'refundedOn', 'failureMessage'],
       where: { coopId, paymentId: ids },
       order: [['id', 'ASC']],
       raw: true,
       transaction: t,
     }),
-    MemberCredit.findAll({
+    () => MemberCredit.findAll({
       attributes: ['membershipId', [fn('SUM', col('amount_cents')), 'balance']],
       where: { coopId, membershipId: members },
       group: ['membership_id'],
       raw: true,
       transaction: t,
     }) as unknown as Promise<{ membershipId: number; balance: string }[]>,
-    BillingPeriod.findAll({ attributes: ['period'], where: { coopId, period: periods, status: 'closed' }, raw: true, transaction: t }),
+    () => BillingPeriod.findAll({ attributes: ['period'], where: { coopId, period: periods, status: 'closed' }, raw: true, transaction: t }),
   ]);
   const creditOf = new Map(credits.map((c) => [c.membershipId, cents(c.balance)]));
   const closedPeriods = new Set(closed.map((c) => c.period));
@@ -89,7 +108,7 @@ async function toPaymentDTOs(coopId: number, rows: Payment[], t?: Transaction): 
 
 /** Payments of the co-op matching a condition on their attributes, newest first. */
 export async function findPayments(coopId: number, where: PaymentWhere, t?: Transaction): Promise<PaymentDTO[]> {
-  const rows = await Payment.findAll({ where: { [Op.and]: [{ coopId }, where] }, include: PAYMENT_INCLUDE, order: PAYMENT_ORDER, transaction: t });
+  const rows = await Payment.findAll({ attributes: PAYMENT_ATTRIBUTES, where: { [Op.and]: [{ coopId }, where] }, include: PAYMENT_INCLUDE, order: PAYMENT_ORDER, transaction: t });
   return toPaymentDTOs(coopId, rows, t);
 }
 
@@ -120,7 +139,7 @@ export async function listPayments(coopId: number, f: { period?: string; unmatch
     ...(f.unmatched ? { unallocatedCents: { [Op.gt]: 0 } } : {}),
   };
   const [rows, total] = await Promise.all([
-    Payment.findAll({ where, include: PAYMENT_INCLUDE, order: PAYMENT_ORDER, limit: f.pageSize, offset: (f.page - 1) * f.pageSize }),
+    Payment.findAll({ attributes: PAYMENT_ATTRIBUTES, where, include: PAYMENT_INCLUDE, order: PAYMENT_ORDER, limit: f.pageSize, offset: (f.page - 1) * f.pageSize }),
     Payment.count({ where }),
   ]);
   return { rows: await toPaymentDTOs(coopId, rows), total, page: f.page, pageSize: f.pageSize };
@@ -133,10 +152,8 @@ export async function listPayments(coopId: number, f: { period?: string; unmatch
  * Inside the caller's transaction, under the co-op's billing lock.
  */
 export async function refreshInvoicePaid(t: Transaction, coopId: number, invoiceId: number): Promise<void> {
-  const [inv, paidSum] = await Promise.all([
-    Invoice.findOne({ attributes: ['id', 'kind', 'status', 'totalCents', 'paidCents'], where: { id: invoiceId, coopId }, lock: t.LOCK.UPDATE, transaction: t }),
-    Payment.sum('appliedCents', { where: { invoiceId, coopId }, transaction: t }),
-  ]);
+  const inv = await Invoice.findOne({ attributes: ['id', 'kind', 'status', 'totalCents', 'paidCents'], where: { id: invoiceId, coopId }, lock: t.LOCK.UPDATE, raw: true, transaction: t });
+  const paidSum = await Payment.sum('appliedCents', { where: { invoiceId, coopId }, transaction: t });
   if (!inv || inv.kind !== 'invoice' || !(inv.status === 'issued' || inv.status === 'partly-paid' || inv.status === 'paid')) return;
   const paid = paidSum ?? 0;
   const status = paid >= cents(inv.totalCents) ? 'paid' : paid > 0 ? 'partly-paid' : 'issued';

@@ -7,7 +7,7 @@ import { conflict } from '@/lib/http';
 import { BillingPeriod, BillingRun, Coop, Invoice, InvoiceLine, Payment, PaymentAttempt, Refund, User } from '@/models';
 import { listInvoices } from './invoices';
 import { lockCoopBilling, periodBounds } from './locks';
-import { findPayments } from './payments-read';
+import { findPayments, readTogether } from './payments-read';
 import { currentPeriod, periodLabel, periodToDate, shiftPeriod } from './periods';
 import { periodInvoiceTotals, periodPaymentTotals, unbilledDrawTotals } from './queries/payments';
 import type { InvoiceSummary, PaymentDTO } from './types';
@@ -64,8 +64,8 @@ type SumOptions<M extends Model> = AggregateOptions<unknown, InferAttributes<M>>
 type Books = Omit<Reconciliation, 'invoices'> & { invoices: Omit<Reconciliation['invoices'], 'rows'> };
 
 /**
- * The month's totals, checks and blockers, read in parallel (inside the caller's transaction when
- * it has one: closing reads them under the co-op's billing lock).
+ * The month's totals, checks and blockers (read inside the caller's transaction when it has one:
+ * closing reads them under the co-op's billing lock).
  */
 async function readBooks(coopId: number, period: string, t?: Transaction): Promise<Books> {
   const periodDate = periodToDate(period);
@@ -81,19 +81,19 @@ async function readBooks(coopId: number, period: string, t?: Transaction): Promi
     include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate, status: { [Op.ne]: 'void' } } }],
     transaction: t,
   };
-  const [inv, pay, linesCents, appliedToMonthCents, unmatched, pendingAttempts, pendingRefunds, coop, closed, running] = await Promise.all([
-    periodInvoiceTotals(coopId, periodDate, t),
-    periodPaymentTotals(coopId, periodDate, t),
-    InvoiceLine.sum('amountCents', issuedLinesOf),
-    Payment.sum('appliedCents', appliedToInvoicesOf),
-    findPayments(coopId, { period: periodDate, unallocatedCents: { [Op.gt]: 0 } }, t),
-    PaymentAttempt.count({
+  const [inv, pay, linesCents, appliedToMonthCents, unmatched, pendingAttempts, pendingRefunds, coop, closed, running] = await readTogether(t, [
+    () => periodInvoiceTotals(coopId, periodDate, t),
+    () => periodPaymentTotals(coopId, periodDate, t),
+    () => InvoiceLine.sum('amountCents', issuedLinesOf),
+    () => Payment.sum('appliedCents', appliedToInvoicesOf),
+    () => findPayments(coopId, { period: periodDate, unallocatedCents: { [Op.gt]: 0 } }, t),
+    () => PaymentAttempt.count({
       where: { coopId, status: 'pending' },
       include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate } }],
       transaction: t,
     }),
     // A pending refund holds the month it gives money back from, and the month it was made in.
-    Refund.count({
+    () => Refund.count({
       where: {
         coopId,
         status: 'pending',
@@ -102,14 +102,14 @@ async function readBooks(coopId: number, period: string, t?: Transaction): Promi
       include: [{ model: Payment, as: 'payment', attributes: [], required: true }],
       transaction: t,
     }),
-    Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, rejectOnEmpty: true, transaction: t }),
-    BillingPeriod.findOne({ attributes: ['closedAt', 'closedByUserId'], where: { coopId, period: periodDate, status: 'closed' }, raw: true, transaction: t }),
-    BillingRun.count({ where: { coopId, period: periodDate, status: 'running' }, transaction: t }),
+    () => Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, rejectOnEmpty: true, transaction: t }),
+    () => BillingPeriod.findOne({ attributes: ['closedAt', 'closedByUserId'], where: { coopId, period: periodDate, status: 'closed' }, raw: true, transaction: t }),
+    () => BillingRun.count({ where: { coopId, period: periodDate, status: 'running' }, transaction: t }),
   ]);
   const { start, end } = await periodBounds(periodDate, coop.timezone, t);
-  const [unbilledDraws, closedBy] = await Promise.all([
-    unbilledDrawTotals(coopId, start, end, t),
-    closed?.closedByUserId ? User.findByPk(closed.closedByUserId, { attributes: ['name'], raw: true, transaction: t }) : null,
+  const [unbilledDraws, closedBy] = await readTogether(t, [
+    () => unbilledDrawTotals(coopId, start, end, t),
+    async () => (closed?.closedByUserId ? User.findByPk(closed.closedByUserId, { attributes: ['name'], raw: true, transaction: t }) : null),
   ]);
 
   const monthOver = period < currentPeriod(coop.timezone);
