@@ -308,4 +308,30 @@ describe('paying invoices', () => {
     const wyn = (await invoicesOf(c.coop.id, NOW)).find((r) => r.membership_id === m)!;
     expect(Number(wyn.total_cents)).toBe(2000 + 325);
   });
+  it('a card refund while the payment service is down stays pending, blocks the close, and a retry refunds once', async () => {
+    const wynInvoice = (await invoicesOf(c.coop.id, NOW)).find((r) => r.membership_id === c.members['Wyn Wrong']!.membershipId)!;
+    expect((await pay('Wyn Wrong', 'tok_visa', wynInvoice.id)).status).toBe(200);
+    await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${wynInvoice.id}/void`).send({ reason: 'Billed in error' }).expect(200);
+    const [p] = await sql<{ id: number }>(`SELECT id FROM payments WHERE invoice_id = $1`, [wynInvoice.id]);
+
+    await setOutage(true, '503');
+    const down = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments/${p!.id}/refunds`).send({ amount: '3.00', reason: 'Jerry can returned' });
+    await setOutage(false);
+    expect(down.status).toBe(503);
+    expect(down.body.code).toBe('provider-unavailable');
+    const [r] = await sql<{ id: number; status: string; idempotency_key: string }>(`SELECT id, status, idempotency_key FROM refunds WHERE payment_id = $1`, [p!.id]);
+    expect(r).toMatchObject({ status: 'pending' });
+    const recon = (await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200)).body;
+    expect(recon.pendingRefunds).toBe(1);
+    expect(recon.blockers).toContain('1 card refund(s) are still waiting for the payment service.');
+
+    const retried = await c.treasurerAgent.post(`/api/coops/${slug}/billing/refunds/${r!.id}/retry`).send({});
+    expect(retried.status, JSON.stringify(retried.body)).toBe(200);
+    expect(retried.body).toMatchObject({ id: p!.id, refundedCents: 300, refunds: [expect.objectContaining({ id: r!.id, amountCents: 300, status: 'succeeded' })] });
+    expect((await c.treasurerAgent.post(`/api/coops/${slug}/billing/refunds/${r!.id}/retry`).send({})).status).toBe(409);
+    expect(await countRows('refunds', 'payment_id = $1', [p!.id])).toBe(1);
+    const [again] = await sql<{ idempotency_key: string }>(`SELECT idempotency_key FROM refunds WHERE id = $1`, [r!.id]);
+    expect(again!.idempotency_key).toBe(r!.idempotency_key);
+    expect((await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200)).body.pendingRefunds).toBe(0);
+  });
 });
