@@ -50,7 +50,8 @@ const PAYMENT_ORDER: [string, string][] = [
 
 /**
  * Payments as the screens show them: with their refunds, whether their month is closed and the
- * payer's credit balance — three reads for the whole list (in parallel), never one per payment.
+ * payer's credit balance — three reads for the whole list (in parallel outside a transaction),
+ * never one per payment.
  */
 async function toPaymentDTOs(coopId: number, rows: Payment[], t?: Transaction): Promise<PaymentDTO[]> {
   if (rows.length === 0) return [];
@@ -75,6 +76,12 @@ async function toPaymentDTOs(coopId: number, rows: Payment[], t?: Transaction): 
     () => BillingPeriod.findAll({ attributes: ['period'], where: { coopId, period: periods, status: 'closed' }, raw: true, transaction: t }),
   ]);
   const creditOf = new Map(credits.map((c) => [c.membershipId, cents(c.balance)]));
+  const refundsOf = new Map<number, PaymentDTO['refunds']>();
+  for (const r of refunds) {
+    const list = refundsOf.get(r.paymentId) ?? [];
+    list.push({ id: r.id, amountCents: cents(r.amountCents), status: r.status, reason: r.reason, refundedOn: r.refundedOn, failureMessage: r.failureMessage });
+    refundsOf.set(r.paymentId, list);
+  }
   const closedPeriods = new Set(closed.map((c) => c.period));
   return rows.map((p) => {
     const inv = p.invoice ?? null;
@@ -99,9 +106,7 @@ async function toPaymentDTOs(coopId: number, rows: Payment[], t?: Transaction): 
       reference: p.reference,
       note: p.note,
       periodClosed: closedPeriods.has(p.period),
-      refunds: refunds
-        .filter((r) => r.paymentId === p.id)
-        .map((r) => ({ id: r.id, amountCents: cents(r.amountCents), status: r.status, reason: r.reason, refundedOn: r.refundedOn, failureMessage: r.failureMessage })),
+      refunds: refundsOf.get(p.id) ?? [],
     };
   });
 }

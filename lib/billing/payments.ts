@@ -61,7 +61,7 @@ export async function allocatePayment(t: Transaction, coopId: number, paymentId:
   // One UPDATE moves the money between the parts, so amount = applied + credited + unallocated + refunded holds throughout.
   await Payment.update(
     {
-      invoiceId: invoiceId ?? p.invoiceId,
+      ...(invoiceId === null ? {} : { invoiceId }),
       appliedCents: cents(p.appliedCents) + applied,
       creditedCents: cents(p.creditedCents) + credited,
       unallocatedCents: 0,

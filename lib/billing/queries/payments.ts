@@ -2,15 +2,14 @@ import 'server-only';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { Draw, Payment } from '@/models';
+import { cents } from '../payments-read';
 
 /**
  * The statements of the payments side of billing that a model query cannot say: taking a row id
  * before its row exists, and the month's reconciliation totals (aggregates with FILTER, and an
- * anti-join). Each one is bound ($1, $2 …), never built from values. Sums are BIGINT cents and
- * arrive as strings; they are parsed here, once, into numbers (cents stay well inside 2^53).
+ * anti-join). Each one is bound ($1, $2 …), never built from values. Counts and sums arrive as
+ * BIGINT strings; they are parsed here, once, into numbers (cents stay well inside 2^53).
  */
-
-const cents = (v: string | null | undefined): number => (v == null ? 0 : Number(v));
 
 /** Tables whose ids are taken before the row is written, so that a key can name its row. */
 type KeyedTable = 'payment_attempts' | 'refunds';
