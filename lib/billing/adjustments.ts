@@ -6,7 +6,7 @@ import { inTransaction } from '@/lib/db';
 import { BillingAdjustment, Invoice, InvoiceLine, Membership, User } from '@/models';
 import { assertMember } from './invoices';
 import { assertPeriodOpen, lockCoopBilling } from './locks';
-import { cents } from './payments-read';
+import { cents } from './cents';
 import { currentPeriod, dateToPeriod, periodToDate } from './periods';
 
 export interface AdjustmentDTO {

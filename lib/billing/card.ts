@@ -11,7 +11,7 @@ import { Coop, Invoice, Payment, PaymentAttempt } from '@/models';
 import { getInvoiceDetail } from './invoices';
 import { lockCoopBilling } from './locks';
 import { allocatePayment } from './payments';
-import { cents } from './payments-read';
+import { cents } from './cents';
 import { invoiceLabel, todayIn } from './periods';
 import { takeNextId } from './queries/payments';
 import type { InvoiceDetail } from './types';

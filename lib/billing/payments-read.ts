@@ -4,8 +4,7 @@ import { BillingPeriod, Invoice, MemberCredit, Membership, Payment, Refund, User
 import { dateToPeriod, invoiceLabel, periodToDate } from './periods';
 import type { PageOf, PaymentDTO } from './types';
 
-/** BIGINT cents arrive from PostgreSQL as strings: parsed on purpose (cents stay well inside 2^53). */
-export const cents = (v: string | number | null | undefined): number => (v == null ? 0 : Number(v));
+import { cents } from './cents';
 
 /**
  * Runs independent reads in parallel on the pool, or one after another inside a transaction (its
@@ -120,14 +119,6 @@ export async function findPayments(coopId: number, where: PaymentWhere, t?: Tran
 /** The payments applied to (or matched with) one invoice of the co-op, newest first. */
 export async function paymentsOfInvoice(coopId: number, invoiceId: number, t?: Transaction): Promise<PaymentDTO[]> {
   return findPayments(coopId, { invoiceId }, t);
-}
-
-/**
- * @deprecated The SQL-text form lib/billing/invoices.ts still calls; use {@link paymentsOfInvoice}
- * (or {@link findPayments}). Kept, without SQL, so that caller builds until it moves.
- */
-export async function listPaymentsWhere(coopId: number, _where: 'p.invoice_id = $invoiceId', bind: { invoiceId: number }): Promise<PaymentDTO[]> {
-  return paymentsOfInvoice(coopId, bind.invoiceId);
 }
 
 /** One payment of the co-op (null when it is not theirs). */

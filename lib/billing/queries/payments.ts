@@ -2,7 +2,7 @@ import 'server-only';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { Draw, Payment } from '@/models';
-import { cents } from '../payments-read';
+import { cents } from '../cents';
 
 /**
  * The statements of the payments side of billing that a model query cannot say: taking a row id
