@@ -6,7 +6,7 @@ import { evaluateQuality, evaluateQuickTests, SCREENING_CAUTION } from '@/lib/qu
 import { SAFETY_DEFERENCE } from '@/lib/safety';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { computePlan } from './plan';
-import { batchOilLotShares, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, tankName, todayIn } from './records';
+import { batchOilLotShares, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, tankName, todayIn } from './read';
 
 const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported' } as const;
 const SCREEN_TEXT = { 'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded', 'not tested': 'Not tested' } as const;

@@ -5,7 +5,7 @@ import { HttpError, notFound } from '@/lib/http';
 import { deleteFile, getFile, putFile, type StoredKind } from '@/lib/storage';
 import { inTransaction } from '@/lib/db';
 import { BatchFile } from '@/models';
-import { loadBatch } from './records';
+import { loadBatch } from './read';
 import type { CheckedUpload } from './upload';
 
 /** Kinds a batch accepts (checked from content): photos as JPEG/PNG, lab reports also as PDF. */

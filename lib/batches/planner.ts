@@ -6,7 +6,8 @@ import { stockState, summarizeStock } from '@/lib/supplies';
 import { fToC, litersToGallons, volumeToLiters } from '@/lib/units';
 import type { PlannerInput } from '@/lib/validation/brewing';
 import { computePlan, type ComputedPlan } from './plan';
-import { feedstockShareCents, resolveTitration } from './records';
+import { feedstockShareCents } from './read';
+import { resolveTitration } from './records';
 
 /** Stock check and projected cost of one chemical for a planned batch. */
 export interface ChemicalCoverage {

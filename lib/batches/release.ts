@@ -10,7 +10,7 @@ import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { formatVolume, litersToGallons, volumeToLiters } from '@/lib/units';
 import { inTransaction } from '@/lib/db';
 import { Batch, ChemicalConsumption, ChemicalLot, Tank } from '@/models';
-import { batchOilLotShares, energyCentsOf, feedstockShareCents, getBatch, loadBatch, type BatchDto, type BatchRecord } from './records';
+import { batchOilLotShares, energyCentsOf, feedstockShareCents, getBatch, loadBatch, type BatchDto, type BatchRecord } from './read';
 
 type BatchCreation = InferCreationAttributes<Batch>;
 type LotRow = Pick<InferAttributes<ChemicalLot>, 'id' | 'receivedOn' | 'quantity' | 'remainingQuantity' | 'totalCostCents'>;

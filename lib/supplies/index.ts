@@ -205,12 +205,15 @@ function oilDto(r: OilLotRow): OilLotDto {
   };
 }
 
-/** Litres of the lot that batches have taken (a correlated sum over batch_oil_lots, by its primary key). */
-const USED_LITERS = literal(
-  `(SELECT COALESCE(sum(bol.liters), 0) FROM batch_oil_lots bol WHERE bol.oil_lot_id = "OilLot"."id" AND bol.coop_id = "OilLot"."coop_id")`,
-);
-const OIL_ATTRIBUTES: FindAttributeOptions = [
-  'id', 'collectedFrom', 'collectedOn', 'volumeLiters', 'costCents', 'waterNotes', 'solidsNotes', 'titrationMl', 'titrant', [USED_LITERS, 'usedLiters'],
+/**
+ * Litres of the lot that batches have taken: a correlated sum over batch_oil_lots (by its primary
+ * key). The outer table goes by the model's name, which the production bundle shortens, so it is
+ * read at run time.
+ */
+const usedLiters = () =>
+  literal(`(SELECT COALESCE(sum(bol.liters), 0) FROM batch_oil_lots bol WHERE bol.oil_lot_id = "${OilLot.name}"."id" AND bol.coop_id = "${OilLot.name}"."coop_id")`);
+const oilAttributes = (): FindAttributeOptions => [
+  'id', 'collectedFrom', 'collectedOn', 'volumeLiters', 'costCents', 'waterNotes', 'solidsNotes', 'titrationMl', 'titrant', [usedLiters(), 'usedLiters'],
 ];
 
 const OIL_SORT: Record<string, string | ReturnType<typeof fn>> = {
@@ -223,7 +226,7 @@ export async function listOilLots(actor: Actor, q: { page: number; pageSize: num
   const where = { coopId: actor.coop.id };
   const [rows, total] = await Promise.all([
     OilLot.findAll({
-      attributes: OIL_ATTRIBUTES, where, raw: true,
+      attributes: oilAttributes(), where, raw: true,
       order: [[OIL_SORT[q.sort] ?? 'collectedOn', `${dir} NULLS LAST`], ['id', dir]], limit: q.pageSize, offset: (q.page - 1) * q.pageSize,
     }) as unknown as Promise<OilLotRow[]>,
     OilLot.count({ where }),
@@ -234,8 +237,8 @@ export async function listOilLots(actor: Actor, q: { page: number; pageSize: num
 /** Oil lots that still hold oil (for the planner and batch forms), oldest first. */
 export async function listOilLotsWithOil(actor: Actor): Promise<OilLotDto[]> {
   const rows = (await OilLot.findAll({
-    attributes: OIL_ATTRIBUTES,
-    where: { coopId: actor.coop.id, [Op.and]: [where(col('OilLot.volume_liters'), { [Op.gt]: USED_LITERS })] },
+    attributes: oilAttributes(),
+    where: { coopId: actor.coop.id, [Op.and]: [where(col(`${OilLot.name}.volume_liters`), { [Op.gt]: usedLiters() })] },
     order: [['collectedOn', 'ASC'], ['id', 'ASC']], limit: 200, raw: true,
   })) as unknown as OilLotRow[];
   return rows.map(oilDto);
@@ -244,7 +247,7 @@ export async function listOilLotsWithOil(actor: Actor): Promise<OilLotDto[]> {
 /** One oil lot of the actor's co-op (404 otherwise), locked FOR UPDATE when read in the caller's transaction. */
 export async function getOilLot(actor: Actor, id: number, transaction?: Transaction): Promise<OilLotDto> {
   const row = (await OilLot.findOne({
-    attributes: OIL_ATTRIBUTES, where: { id, coopId: actor.coop.id }, raw: true, transaction, ...(transaction ? { lock: transaction.LOCK.UPDATE } : {}),
+    attributes: oilAttributes(), where: { id, coopId: actor.coop.id }, raw: true, transaction, ...(transaction ? { lock: transaction.LOCK.UPDATE } : {}),
   })) as unknown as OilLotRow | null;
   if (!row) throw notFound('Oil lot not found.');
   return oilDto(row);
