@@ -28,7 +28,8 @@ export function db(): Sequelize {
  * as PostgreSQL arrays, objects as JSON, undefined as NULL.
  */
 export async function sql<T = Record<string, unknown>>(text: string, params: unknown[] = []): Promise<T[]> {
-  return db().query<T>(text, { bind: params.length ? params.map((v) => (v === undefined ? null : v)) : undefined, type: QueryTypes.SELECT });
+  const bind = params.length ? params.map((v) => (v === undefined ? null : v)) : undefined;
+  return (await db().query(text, { bind, type: QueryTypes.SELECT })) as T[];
 }
 
 /** A supertest agent holding a signed-in session cookie. */
