@@ -23,10 +23,10 @@ export const PASSWORD = 'bench-password-2026';
  * `VACUUM ANALYZE`, several statements in one string).
  */
 export function dbPool(databaseUrl) {
-  const sequelize = new Sequelize(databaseUrl, { logging: false, pool: { max: 4, min: 0 } });
+  const db = new Sequelize(databaseUrl, { logging: false, pool: { max: 4, min: 0 } });
   const sql = (text, params = []) =>
-    sequelize.query(text, { bind: params.length ? params.map((v) => (v === undefined ? null : v)) : undefined, type: QueryTypes.SELECT });
-  return { sequelize, sql, query: async (text, params = []) => ({ rows: await sql(text, params) }), end: () => sequelize.close() };
+    db.query(text, { bind: params.length ? params.map((v) => (v === undefined ? null : v)) : undefined, type: QueryTypes.SELECT });
+  return { sequelize: db, sql, query: async (text, params = []) => ({ rows: await sql(text, params) }), end: () => db.close() };
 }
 
 /** Starts everything; returns { baseUrl, pool (see dbPool), stop }. */
