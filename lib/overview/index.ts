@@ -1,5 +1,5 @@
 import 'server-only';
-import { fn, col, literal, Op } from 'sequelize';
+import { col, fn, literal, Op, type InferAttributes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
 import { memberBalance } from '@/lib/billing/invoices';
@@ -7,8 +7,7 @@ import { currentPeriod, periodToDate } from '@/lib/billing/periods';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
 import { policyInForce } from '@/lib/pricing-policy';
-import type { PolicyRow } from '@/lib/pricing-policy/convert';
-import { policyInUnits } from '@/lib/pricing-policy/convert';
+import { policyInUnits, type PolicyRow } from '@/lib/pricing-policy/convert';
 import { stockState, summarizeStock } from '@/lib/supplies';
 import { listTanks, type TankDto } from '@/lib/tank';
 import { mlToLiters } from '@/lib/tank/quantity';
@@ -18,7 +17,6 @@ import { dailyTankLevel, monthlyVolumes, topOwing } from './queries';
 import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
 
 export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
-
 
 /**
  * Tank totals across the co-op's active tanks, with the moving-average cost per gallon, from
@@ -74,7 +72,7 @@ async function getBrewerSection(coopId: number): Promise<BrewerSection> {
 }
 
 /** Invoices of a month summed per kind and status (a handful of rows); BIGINT sums arrive as strings. */
-type InvoiceSums = Pick<Invoice, 'kind' | 'status'> & { count: string; total: string | null; paid: string | null; owed: string | null };
+type InvoiceSums = Pick<InferAttributes<Invoice>, 'kind' | 'status'> & { count: string; total: string | null; paid: string | null; owed: string | null };
 
 /**
  * This month's invoiced / paid / outstanding (issued invoices: not draft, not void; outstanding
@@ -127,7 +125,7 @@ async function getAdminSection(coopId: number): Promise<NonNullable<Overview['ad
       where: { coopId, status: 'pending', expiresAt: { [Op.gt]: fn('now') } },
       group: ['delivery'],
       raw: true,
-    }) as unknown as Promise<(Pick<Invitation, 'delivery'> & { count: string })[]>,
+    }) as unknown as Promise<(Pick<InferAttributes<Invitation>, 'delivery'> & { count: string })[]>,
     AuditEvent.findAll({
       attributes: ['createdAt', 'action'],
       where: { coopId },
@@ -182,7 +180,7 @@ export async function getBatchCosts(coopId: number, timeZone: string): Promise<B
     order: [['number', 'DESC']],
     limit: 12,
     raw: true,
-  })) as unknown as (Pick<Batch, 'number' | 'releasedLiters'> & Record<'releasedOn' | 'methanol' | 'catalyst' | 'energy' | 'feedstock' | 'other' | 'total', string>)[];
+  })) as unknown as (Pick<InferAttributes<Batch>, 'number' | 'releasedLiters'> & Record<'releasedOn' | 'methanol' | 'catalyst' | 'energy' | 'feedstock' | 'other' | 'total', string>)[];
   const r2 = (v: unknown) => Math.round(Number(v) * 100) / 100;
   return rows.reverse().map((b) => ({
     number: b.number, releasedOn: b.releasedOn, releasedLiters: Number(b.releasedLiters),
