@@ -54,7 +54,7 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   const env = appEnv({
     databaseUrl: pgSrv.url + databaseUrlSuffix, appUrl: baseUrl, secret: crypto.randomBytes(32).toString('base64url'),
     smtpPort, paymentsPort, webhookSecret: 'whsec_bench', storageDir: path.join(root, 'uploads'),
-    extra: { NODE_ENV: 'production', DB_POOL_MAX: '20' },
+    extra: { NODE_ENV: 'production', DB_POOL_MAX: '20', TALLYVAT_BENCH: '1' },
   });
   const next = startNext({ env, port, host: '127.0.0.1', nodeArgs, stdio: ['ignore', 'ignore', 'inherit'] });
   stops.unshift(next.stop);

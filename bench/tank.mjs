@@ -5,8 +5,10 @@
 // migrations, then a co-op with 300 members, 5 tanks and 50,000 historical draws (each with its
 // ledger row, tank totals equal to the ledger). `next start` from the current build (built when
 // stale). Then, with autocannon against signed-in members:
-//   1. GET /api/health and GET the tank page's API (/api/coops/:coop/tanks), 10 connections,
-//      back to back (twice, alternating) → throughput ratio and p97.5;
+//   1. GET /api/health, the bench-only route that runs the tank list's Sequelize query with no
+//      session (/api/bench/tank-query, answered only because bench/lib.mjs sets TALLYVAT_BENCH=1)
+//      and the tank page's API (/api/coops/:coop/tanks), 10 connections, back to back (twice,
+//      alternating) → each one's throughput as a ratio to the bench route, and p97.5;
 //   2. POST reservations at 50 connections (several members' sessions, mixed tanks, one tank
 //      with only 100 gal available so it runs out mid-run) → reservations/s; then zero oversell
 //      is verified in the database;
@@ -106,13 +108,18 @@ try {
     errors: r.errors, timeouts: r.timeouts, status: Object.fromEntries(Object.entries(r.statusCodeStats ?? {}).map(([k, v]) => [k, v.count])),
   });
   const tanksUrl = `${base}/api/coops/bench-coop/tanks`;
+  const queryUrl = `${base}/api/bench/tank-query?coop=${coop.id}`;
+  const probe = await fetch(queryUrl);
+  if (probe.status !== 200) throw new Error(`${queryUrl} answered ${probe.status}: is TALLYVAT_BENCH=1 set by bench/lib.mjs?`);
   await run({ url: `${base}/api/health`, connections: 10, duration: 3 });
+  await run({ url: queryUrl, connections: 10, duration: 3 });
   await run({ url: tanksUrl, connections: 10, duration: 3, headers: { cookie: cookies[0] } });
 
-  log(`health vs tank API, 10 connections, ${DURATION} s each, twice alternating…`);
-  const health = [], tankApi = [], signedIn = [];
+  log(`health, bench tank query and tank API, 10 connections, ${DURATION} s each, twice alternating…`);
+  const health = [], tankQuery = [], tankApi = [], signedIn = [];
   for (let i = 0; i < 2; i++) {
     health.push(summary(await run({ url: `${base}/api/health`, connections: 10 })));
+    tankQuery.push(summary(await run({ url: queryUrl, connections: 10 })));
     tankApi.push(summary(await run({ url: tanksUrl, connections: 10, headers: { cookie: cookies[i % cookies.length] } })));
     // Reference: the cheapest signed-in route (session + one query), to separate sign-in cost from the tank query's.
     signedIn.push(summary(await run({ url: `${base}/api/coops`, connections: 10, headers: { cookie: cookies[i % cookies.length] } })));
@@ -155,7 +162,9 @@ try {
     health: { runs: health, rps: Math.round(avg(health, 'rps')), p97_5: avg(health, 'p97_5') },
     tankApi: { runs: tankApi, rps: Math.round(avg(tankApi, 'rps')), p97_5: avg(tankApi, 'p97_5') },
     signedInReference: { runs: signedIn, rps: Math.round(avg(signedIn, 'rps')), p97_5: avg(signedIn, 'p97_5') },
+    benchTankQuery: { runs: tankQuery, rps: Math.round(avg(tankQuery, 'rps')), p97_5: avg(tankQuery, 'p97_5') },
     tankVsHealth: Number((avg(tankApi, 'rps') / avg(health, 'rps')).toFixed(3)),
+    tankVsBenchQuery: Number((avg(tankApi, 'rps') / avg(tankQuery, 'rps')).toFixed(3)),
     tankVsSignedInReference: Number((avg(tankApi, 'rps') / avg(signedIn, 'rps')).toFixed(3)),
     reservations50: res50, reservations10: res10,
     oversell: { violations: oversold, tightTankAvailableBeforeLiters: Number(before.avail), tightTankReservedLiters: Number(tightRow.reserved), ok: oversold.length === 0 && tightOk },
@@ -166,14 +175,17 @@ try {
   fs.writeFileSync(out, JSON.stringify(result, null, 2));
 
   const cpu = (r) => ({ 'server CPU ms/req': r.serverCpuMsPerRequest, 'PostgreSQL CPU ms/req': r.postgresCpuMsPerRequest });
+  // Every row's throughput as a ratio to the bench route (the same tank query, no session), same run.
+  const ratio = (rps) => Number((rps / result.benchTankQuery.rps).toFixed(3));
   console.table({
-    'GET /api/health (10 conn)': { 'req/s': result.health.rps, 'p97.5 ms': result.health.p97_5, ...cpu(health[1]), status: JSON.stringify(health[0].status) },
-    'GET tanks API (10 conn)': { 'req/s': result.tankApi.rps, 'p97.5 ms': result.tankApi.p97_5, ...cpu(tankApi[1]), status: JSON.stringify(tankApi[0].status) },
-    'GET /api/coops, signed in (10 conn)': { 'req/s': result.signedInReference.rps, 'p97.5 ms': result.signedInReference.p97_5, ...cpu(signedIn[1]), status: JSON.stringify(signedIn[0].status) },
-    'POST reservations (50 conn)': { 'req/s': res50.rps, 'p97.5 ms': res50.p97_5, ...cpu(res50), status: JSON.stringify(res50.status) },
-    'POST reservations (10 conn)': { 'req/s': res10.rps, 'p97.5 ms': res10.p97_5, ...cpu(res10), status: JSON.stringify(res10.status) },
+    'GET /api/health (10 conn)': { 'req/s': result.health.rps, '÷ bench query': ratio(result.health.rps), 'p97.5 ms': result.health.p97_5, ...cpu(health[1]), status: JSON.stringify(health[0].status) },
+    'GET bench tank query, no session (10 conn)': { 'req/s': result.benchTankQuery.rps, '÷ bench query': 1, 'p97.5 ms': result.benchTankQuery.p97_5, ...cpu(tankQuery[1]), status: JSON.stringify(tankQuery[0].status) },
+    'GET tanks API (10 conn)': { 'req/s': result.tankApi.rps, '÷ bench query': ratio(result.tankApi.rps), 'p97.5 ms': result.tankApi.p97_5, ...cpu(tankApi[1]), status: JSON.stringify(tankApi[0].status) },
+    'GET /api/coops, signed in (10 conn)': { 'req/s': result.signedInReference.rps, '÷ bench query': ratio(result.signedInReference.rps), 'p97.5 ms': result.signedInReference.p97_5, ...cpu(signedIn[1]), status: JSON.stringify(signedIn[0].status) },
+    'POST reservations (50 conn)': { 'req/s': res50.rps, '÷ bench query': ratio(res50.rps), 'p97.5 ms': res50.p97_5, ...cpu(res50), status: JSON.stringify(res50.status) },
+    'POST reservations (10 conn)': { 'req/s': res10.rps, '÷ bench query': ratio(res10.rps), 'p97.5 ms': res10.p97_5, ...cpu(res10), status: JSON.stringify(res10.status) },
   });
-  log(`tank API / health throughput: ${(result.tankVsHealth * 100).toFixed(1)} %; tank API / signed-in reference: ${(result.tankVsSignedInReference * 100).toFixed(1)} %`);
+  log(`tank API / bench tank query throughput: ${(result.tankVsBenchQuery * 100).toFixed(1)} %; tank API / health: ${(result.tankVsHealth * 100).toFixed(1)} %; tank API / signed-in reference: ${(result.tankVsSignedInReference * 100).toFixed(1)} %`);
   log(`oversell check: ${result.oversell.ok ? 'none' : 'VIOLATION'} (tight tank: ${result.oversell.tightTankReservedLiters} L reserved of ${result.oversell.tightTankAvailableBeforeLiters} L available)`);
   log(`saved ${path.relative(process.cwd(), out)}`);
   await stopAll();

@@ -29,7 +29,7 @@ export class AuditEvent extends Model<InferAttributes<AuditEvent>, InferCreation
         after: { type: DataTypes.JSONB, allowNull: true },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'audit_events', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'AuditEvent', tableName: 'audit_events', underscored: true, updatedAt: false },
     );
   }
 }

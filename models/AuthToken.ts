@@ -27,7 +27,7 @@ export class AuthToken extends Model<InferAttributes<AuthToken>, InferCreationAt
         usedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'auth_tokens', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'AuthToken', tableName: 'auth_tokens', underscored: true, updatedAt: false },
     );
   }
 }

@@ -138,7 +138,7 @@ export class Batch extends Model<InferAttributes<Batch>, InferCreationAttributes
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'batches', underscored: true },
+      { sequelize, modelName: 'Batch', tableName: 'batches', underscored: true },
     );
   }
 }

@@ -30,7 +30,7 @@ export class BatchFile extends Model<InferAttributes<BatchFile>, InferCreationAt
         sizeBytes: { type: DataTypes.INTEGER, allowNull: false },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'batch_files', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'BatchFile', tableName: 'batch_files', underscored: true, updatedAt: false },
     );
   }
 }

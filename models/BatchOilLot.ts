@@ -20,7 +20,7 @@ export class BatchOilLot extends Model<InferAttributes<BatchOilLot>, InferCreati
         oilLotId: { type: DataTypes.INTEGER, primaryKey: true },
         liters: { type: DataTypes.DECIMAL(14, 3), allowNull: false },
       },
-      { sequelize, tableName: 'batch_oil_lots', underscored: true, timestamps: false },
+      { sequelize, modelName: 'BatchOilLot', tableName: 'batch_oil_lots', underscored: true, timestamps: false },
     );
   }
 }

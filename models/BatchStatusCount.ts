@@ -19,7 +19,7 @@ export class BatchStatusCount extends Model<InferAttributes<BatchStatusCount>, I
         status: { type: DataTypes.STRING(20), allowNull: false, primaryKey: true },
         n: { type: DataTypes.INTEGER, allowNull: false },
       },
-      { sequelize, tableName: 'batch_status_counts', underscored: true, timestamps: false },
+      { sequelize, modelName: 'BatchStatusCount', tableName: 'batch_status_counts', underscored: true, timestamps: false },
     );
   }
 }

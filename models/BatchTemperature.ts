@@ -26,7 +26,7 @@ export class BatchTemperature extends Model<InferAttributes<BatchTemperature>, I
         level: { type: DataTypes.STRING(8), allowNull: false },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'batch_temperatures', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'BatchTemperature', tableName: 'batch_temperatures', underscored: true, updatedAt: false },
     );
   }
 }

@@ -25,7 +25,7 @@ export class BillingAdjustment extends Model<InferAttributes<BillingAdjustment>,
         createdByUserId: { type: DataTypes.INTEGER, allowNull: true },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'billing_adjustments', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'BillingAdjustment', tableName: 'billing_adjustments', underscored: true, updatedAt: false },
     );
   }
 }

@@ -27,7 +27,7 @@ export class BillingPeriod extends Model<InferAttributes<BillingPeriod>, InferCr
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'billing_periods', underscored: true },
+      { sequelize, modelName: 'BillingPeriod', tableName: 'billing_periods', underscored: true },
     );
   }
 }

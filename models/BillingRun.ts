@@ -39,7 +39,7 @@ export class BillingRun extends Model<InferAttributes<BillingRun>, InferCreation
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'billing_runs', underscored: true },
+      { sequelize, modelName: 'BillingRun', tableName: 'billing_runs', underscored: true },
     );
   }
 }

@@ -24,7 +24,7 @@ export class ChemicalConsumption extends Model<InferAttributes<ChemicalConsumpti
         costCents: { type: DataTypes.BIGINT, allowNull: false },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'chemical_consumptions', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'ChemicalConsumption', tableName: 'chemical_consumptions', underscored: true, updatedAt: false },
     );
   }
 }

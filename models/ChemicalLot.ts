@@ -46,7 +46,7 @@ export class ChemicalLot extends Model<InferAttributes<ChemicalLot>, InferCreati
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'chemical_lots', underscored: true },
+      { sequelize, modelName: 'ChemicalLot', tableName: 'chemical_lots', underscored: true },
     );
   }
 }

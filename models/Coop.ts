@@ -42,7 +42,7 @@ export class Coop extends Model<InferAttributes<Coop>, InferCreationAttributes<C
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'coops', underscored: true },
+      { sequelize, modelName: 'Coop', tableName: 'coops', underscored: true },
     );
   }
 }

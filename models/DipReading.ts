@@ -38,7 +38,7 @@ export class DipReading extends Model<InferAttributes<DipReading>, InferCreation
         measuredAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'dip_readings', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'DipReading', tableName: 'dip_readings', underscored: true, updatedAt: false },
     );
   }
 }

@@ -72,7 +72,7 @@ export class Draw extends Model<InferAttributes<Draw>, InferCreationAttributes<D
         occurredAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'draws', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'Draw', tableName: 'draws', underscored: true, updatedAt: false },
     );
   }
 }

@@ -24,6 +24,7 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare coop?: NonAttribute<Coop>;
+  declare invitedBy?: NonAttribute<User>;
 
   static initModel(sequelize: Sequelize) {
     Invitation.init(
@@ -39,7 +40,7 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'invitations', underscored: true },
+      { sequelize, modelName: 'Invitation', tableName: 'invitations', underscored: true },
     );
   }
 }

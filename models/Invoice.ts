@@ -57,7 +57,7 @@ export class Invoice extends Model<InferAttributes<Invoice>, InferCreationAttrib
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'invoices', underscored: true },
+      { sequelize, modelName: 'Invoice', tableName: 'invoices', underscored: true },
     );
   }
 }

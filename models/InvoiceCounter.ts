@@ -17,7 +17,7 @@ export class InvoiceCounter extends Model<InferAttributes<InvoiceCounter>, Infer
         lastNumber: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'invoice_counters', underscored: true, createdAt: false },
+      { sequelize, modelName: 'InvoiceCounter', tableName: 'invoice_counters', underscored: true, createdAt: false },
     );
   }
 }

@@ -40,7 +40,7 @@ export class InvoiceLine extends Model<InferAttributes<InvoiceLine>, InferCreati
         released: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'invoice_lines', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'InvoiceLine', tableName: 'invoice_lines', underscored: true, updatedAt: false },
     );
   }
 }

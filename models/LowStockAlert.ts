@@ -25,7 +25,7 @@ export class LowStockAlert extends Model<InferAttributes<LowStockAlert>, InferCr
         changedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
         lastSentAt: { type: DataTypes.DATE, allowNull: true },
       },
-      { sequelize, tableName: 'low_stock_alerts', underscored: true, timestamps: false },
+      { sequelize, modelName: 'LowStockAlert', tableName: 'low_stock_alerts', underscored: true, timestamps: false },
     );
   }
 }

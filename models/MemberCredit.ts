@@ -31,7 +31,7 @@ export class MemberCredit extends Model<InferAttributes<MemberCredit>, InferCrea
         createdByUserId: { type: DataTypes.INTEGER, allowNull: true },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'member_credits', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'MemberCredit', tableName: 'member_credits', underscored: true, updatedAt: false },
     );
   }
 }

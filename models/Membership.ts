@@ -32,7 +32,7 @@ export class Membership extends Model<InferAttributes<Membership>, InferCreation
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'memberships', underscored: true },
+      { sequelize, modelName: 'Membership', tableName: 'memberships', underscored: true },
     );
   }
 }

@@ -36,7 +36,7 @@ export class OilLot extends Model<InferAttributes<OilLot>, InferCreationAttribut
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'oil_lots', underscored: true },
+      { sequelize, modelName: 'OilLot', tableName: 'oil_lots', underscored: true },
     );
   }
 }

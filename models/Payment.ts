@@ -52,7 +52,7 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'payments', underscored: true },
+      { sequelize, modelName: 'Payment', tableName: 'payments', underscored: true },
     );
   }
 }

@@ -50,7 +50,7 @@ export class PaymentAttempt extends Model<InferAttributes<PaymentAttempt>, Infer
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'payment_attempts', underscored: true },
+      { sequelize, modelName: 'PaymentAttempt', tableName: 'payment_attempts', underscored: true },
     );
   }
 }

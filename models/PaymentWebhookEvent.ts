@@ -24,7 +24,7 @@ export class PaymentWebhookEvent extends Model<InferAttributes<PaymentWebhookEve
         payload: { type: DataTypes.JSONB, allowNull: false },
         receivedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
       },
-      { sequelize, tableName: 'payment_webhook_events', underscored: true, timestamps: false },
+      { sequelize, modelName: 'PaymentWebhookEvent', tableName: 'payment_webhook_events', underscored: true, timestamps: false },
     );
   }
 }

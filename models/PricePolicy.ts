@@ -41,7 +41,7 @@ export class PricePolicy extends Model<InferAttributes<PricePolicy>, InferCreati
         effectiveFrom: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'price_policies', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'PricePolicy', tableName: 'price_policies', underscored: true, updatedAt: false },
     );
   }
 }

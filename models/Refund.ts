@@ -46,7 +46,7 @@ export class Refund extends Model<InferAttributes<Refund>, InferCreationAttribut
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'refunds', underscored: true },
+      { sequelize, modelName: 'Refund', tableName: 'refunds', underscored: true },
     );
   }
 }

@@ -43,7 +43,7 @@ export class Reservation extends Model<InferAttributes<Reservation>, InferCreati
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'reservations', underscored: true },
+      { sequelize, modelName: 'Reservation', tableName: 'reservations', underscored: true },
     );
   }
 }

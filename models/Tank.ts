@@ -37,7 +37,7 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'tanks', underscored: true },
+      { sequelize, modelName: 'Tank', tableName: 'tanks', underscored: true },
     );
   }
 }

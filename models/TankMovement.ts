@@ -52,7 +52,7 @@ export class TankMovement extends Model<InferAttributes<TankMovement>, InferCrea
         occurredAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'tank_movements', underscored: true, updatedAt: false },
+      { sequelize, modelName: 'TankMovement', tableName: 'tank_movements', underscored: true, updatedAt: false },
     );
   }
 }

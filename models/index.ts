@@ -56,6 +56,7 @@ Invitation.belongsTo(User, { foreignKey: 'invitedByUserId', as: 'invitedBy' });
 AuthToken.belongsTo(User, { foreignKey: 'userId', as: 'user' });
 AuditEvent.belongsTo(User, { foreignKey: 'actorUserId', as: 'actor' });
 AuditEvent.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
+User.hasMany(AuditEvent, { foreignKey: 'actorUserId', as: 'auditEvents' });
 
 // tank & draws
 for (const m of [Tank, TankMovement, PricePolicy, Reservation, Draw, DipReading]) m.initModel(sequelize);
@@ -68,6 +69,12 @@ Reservation.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership'
 Draw.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
 Draw.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
 DipReading.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
+// tank & draws: joins of the ledger, draw and reservation lists
+TankMovement.belongsTo(Tank, { foreignKey: 'transferTankId', as: 'transferTank' });
+TankMovement.belongsTo(Draw, { foreignKey: 'drawId', as: 'draw' });
+Draw.hasOne(Draw, { foreignKey: 'reversesDrawId', as: 'reversal' });
+Draw.belongsTo(User, { foreignKey: 'recordedByUserId', as: 'recordedBy' });
+Reservation.hasOne(Draw, { foreignKey: 'reservationId', as: 'draw' });
 
 // brewing: supplies and batches (child rows are read with explicit queries; no eager loading)
 for (const m of [ChemicalLot, OilLot, Batch, BatchOilLot, BatchTemperature, ChemicalConsumption, BatchFile]) m.initModel(sequelize);

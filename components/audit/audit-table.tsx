@@ -2,9 +2,9 @@
 
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type Features, type PageInfo } from '@/components/data-table/data-table';
-import type { AuditRow } from '@/lib/audit/types';
+import type { AuditEventDto } from '@/lib/audit/types';
 
-const col = createColumnHelper<Features, AuditRow>();
+const col = createColumnHelper<Features, AuditEventDto>();
 
 /** Shows only the fields that changed between before and after. */
 function Changes({ before, after }: { before: unknown; after: unknown }) {
@@ -37,6 +37,6 @@ const columns = [
   col.display({ id: 'changes', header: 'Before → after', cell: (c) => <Changes before={c.row.original.before} after={c.row.original.after} /> }),
 ];
 
-export function AuditTable({ rows, pageInfo }: { rows: AuditRow[]; pageInfo: PageInfo }) {
+export function AuditTable({ rows, pageInfo }: { rows: AuditEventDto[]; pageInfo: PageInfo }) {
   return <DataTable caption="Audit events, newest first" columns={columns} data={rows} pageInfo={pageInfo} getRowId={(r) => r.id} empty="No events match these filters." />;
 }

@@ -4,16 +4,10 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { sendJson } from '@/components/forms/use-api-form';
 import { EmptyState, Notice } from '@/components/ui/notice';
+import type { InvitationDto } from '@/lib/invitations';
 
-export interface InvitationRow {
-  id: number;
-  email: string;
-  role: string;
-  delivery: 'sent' | 'not-sent';
-  expired: boolean;
-  expiresLabel: string;
-  invitedBy: string | null;
-}
+/** A pending invitation as the page hands it to the client (expiry already worded in the co-op's zone). */
+export type InvitationRow = Pick<InvitationDto, 'id' | 'email' | 'role' | 'delivery' | 'expired' | 'invitedBy'> & { expiresLabel: string };
 
 /** Pending invitations with resend (a new link) and revoke. */
 export function InvitationList({ coopSlug, invitations }: { coopSlug: string; invitations: InvitationRow[] }) {

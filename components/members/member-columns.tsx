@@ -1,19 +1,14 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import type { DataColumn, Features } from '@/components/data-table/data-table';
 import { ROLES, type Role } from '@/lib/auth/roles';
+import type { MemberDto } from '@/lib/members';
 
 /** A members-table row as the page hands it to the client (dates already worded in the co-op's zone). */
-export interface MemberRow {
-  id: number;
-  name: string;
-  email: string;
-  role: Role;
-  status: 'active' | 'suspended';
+export type MemberRow = Pick<MemberDto, 'id' | 'name' | 'email' | 'role' | 'status' | 'isYou'> & {
   joinedLabel: string;
-  isYou: boolean;
   /** The co-op's only active admin: cannot be demoted, suspended or removed. */
   lastAdmin: boolean;
-}
+};
 
 export interface MemberActions {
   busyId: number | null;

@@ -6,14 +6,14 @@ import { formatCents } from '@/lib/money';
 import { formatWhen } from '@/lib/tank/format';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
+import type { DrawDto } from '@/lib/draws';
 import { ReverseDrawButton } from './reverse-draw-button';
 import { StatusBadge } from './status-badge';
 
-export interface DrawRow {
-  id: number; tankName: string; memberName: string; quantityLiters: number; declaredUse: string; vehicle: string | null;
-  fuelCents: number; surchargeCents: number; taxCents: number; totalCents: number; occurredAt: string; status: 'recorded' | 'reversed' | 'reversal';
-  reversesDrawId: number | null; reversedByDrawId: number | null; reason: string | null; recordedBy: string | null;
-}
+/** A draw row as the pages pass it (the lib DTO's fields the table shows). */
+export type DrawRow = Pick<DrawDto,
+  'id' | 'tankName' | 'memberName' | 'quantityLiters' | 'declaredUse' | 'vehicle' | 'fuelCents' | 'surchargeCents' | 'taxCents' | 'totalCents' | 'occurredAt' | 'status'
+  | 'reversesDrawId' | 'reversedByDrawId' | 'reason' | 'recordedBy'>;
 
 const col = createColumnHelper<Features, DrawRow>();
 

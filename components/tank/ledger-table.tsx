@@ -6,11 +6,11 @@ import { formatCents } from '@/lib/money';
 import { formatWhen } from '@/lib/tank/format';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
+import type { MovementDto } from '@/lib/tank';
 
-export interface LedgerRow {
-  id: string; kind: string; quantityLiters: number; valueCents: number; onHandAfterLiters: number; valueAfterCents: number;
-  reason: string | null; batchId: number | null; drawId: number | null; memberName: string | null; transferTankName: string | null; byName: string | null; occurredAt: string;
-}
+/** A ledger row as the page passes it (the lib DTO's fields the table shows). */
+export type LedgerRow = Pick<MovementDto,
+  'id' | 'kind' | 'quantityLiters' | 'valueCents' | 'onHandAfterLiters' | 'valueAfterCents' | 'reason' | 'batchId' | 'drawId' | 'memberName' | 'transferTankName' | 'byName' | 'occurredAt'>;
 
 const KIND_LABEL: Record<string, string> = {
   release: 'Batch released', draw: 'Draw', 'draw-reversal': 'Draw reversed', 'dip-adjustment': 'Dip adjustment', 'transfer-in': 'Transfer in', 'transfer-out': 'Transfer out',

@@ -5,14 +5,12 @@ import { DataTable, type DataColumn, type Features, type PageInfo } from '@/comp
 import { formatWhen } from '@/lib/tank/format';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
+import type { ReservationDto } from '@/lib/reservations';
 import { CancelReservationButton } from './cancel-reservation-button';
 import { StatusBadge } from './status-badge';
 
 /** A reservation row as the pages pass it (the lib DTO's fields the table shows). */
-export interface ReservationRow {
-  id: number; tankName: string; memberName: string; quantityLiters: number; windowStart: string; windowEnd: string;
-  status: 'open' | 'drawn' | 'cancelled' | 'expired'; drawId: number | null; canCancel: boolean;
-}
+export type ReservationRow = Pick<ReservationDto, 'id' | 'tankName' | 'memberName' | 'quantityLiters' | 'windowStart' | 'windowEnd' | 'status' | 'drawId'> & { canCancel: boolean };
 
 const col = createColumnHelper<Features, ReservationRow>();
 

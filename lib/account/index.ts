@@ -1,18 +1,22 @@
 import 'server-only';
-import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
+import { fn, literal, Op, UniqueConstraintError, type InferAttributes, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
+import { emailIs } from '@/lib/auth/email';
 import { hashPassword, isCommonPassword, verifyPassword } from '@/lib/auth/passwords';
 import type { Role } from '@/lib/auth/roles';
 import { EMAIL_CHANGE_TTL_MS, hashLinkToken, isLinkTokenShape, newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
+import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { appUrl, sendMail } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import type {
   emailChangeSchema, passwordChangeSchema, passwordResetSchema, profileUpdateSchema,
 } from '@/lib/validation/auth';
-import { sequelize } from '@/models';
+import { AuthToken, Coop, Membership, SignInAttempt, User } from '@/models';
+import type { AuthTokenKind } from '@/models/AuthToken';
+import type { MembershipStatus } from '@/models/Membership';
 
 // The signed-in person's own account: profile, password, e-mail address, sessions, and the
 // password-reset links. These belong to no single co-op; changes other members can see (name,
@@ -24,8 +28,13 @@ export interface ProfileDto {
   email: string;
   /** A change of address waiting for its confirmation link, if any. */
   pendingEmail: string | null;
-  coops: { slug: string; name: string; role: Role; status: 'active' | 'suspended'; joinedAt: string; timezone: string }[];
+  coops: { slug: string; name: string; role: Role; status: MembershipStatus; joinedAt: string; timezone: string }[];
 }
+
+/** Bumps the session version: every session of the person ends (each request re-reads it). */
+const NEXT_SESSION_VERSION = literal('session_version + 1');
+
+type MyMembership = Pick<InferAttributes<Membership>, 'role' | 'status' | 'joinedAt'> & { coop: Pick<InferAttributes<Coop>, 'slug' | 'name' | 'timezone'> };
 
 const invalidFields = (fields: Record<string, string[]>) => new HttpError(422, 'Some fields need attention.', fields);
 const COMMON = 'That password is on a list of commonly used passwords. Choose another.';
@@ -33,54 +42,53 @@ const COMMON = 'That password is on a list of commonly used passwords. Choose an
 /** The profile page's data: name, e-mail, any pending e-mail change, co-ops with role. */
 export async function getProfile(user: SessionUser): Promise<ProfileDto> {
   const [coops, pending] = await Promise.all([
-    sequelize.query<{ slug: string; name: string; role: Role; status: 'active' | 'suspended'; joined_at: Date | string; timezone: string }>(
-      `SELECT c.slug, c.name, m.role, m.status, m.joined_at, c.timezone FROM memberships m JOIN coops c ON c.id = m.coop_id
-       WHERE m.user_id = :userId ORDER BY c.name`,
-      { replacements: { userId: user.id }, type: QueryTypes.SELECT },
-    ),
-    sequelize.query<{ new_email: string }>(
-      `SELECT new_email FROM auth_tokens WHERE user_id = :userId AND kind = 'email-change' AND used_at IS NULL AND expires_at > now()
-       ORDER BY created_at DESC LIMIT 1`,
-      { replacements: { userId: user.id }, type: QueryTypes.SELECT },
-    ),
+    Membership.findAll({
+      where: { userId: user.id },
+      attributes: ['role', 'status', 'joinedAt'],
+      include: [{ model: Coop, as: 'coop', required: true, attributes: ['slug', 'name', 'timezone'] }],
+      order: [[{ model: Coop, as: 'coop' }, 'name', 'ASC']],
+      raw: true,
+      nest: true,
+    }) as unknown as Promise<MyMembership[]>,
+    AuthToken.findOne({
+      where: { userId: user.id, kind: 'email-change', usedAt: null, expiresAt: { [Op.gt]: fn('now') } },
+      attributes: ['newEmail'],
+      order: [['createdAt', 'DESC']],
+      raw: true,
+    }),
   ]);
   return {
     id: user.id,
     name: user.name,
     email: user.email,
-    pendingEmail: pending[0]?.new_email ?? null,
-    coops: coops.map((c) => ({ slug: c.slug, name: c.name, role: c.role, status: c.status, joinedAt: new Date(c.joined_at).toISOString(), timezone: c.timezone })),
+    pendingEmail: pending?.newEmail ?? null,
+    coops: coops.map((m) => ({
+      slug: m.coop.slug, name: m.coop.name, role: m.role, status: m.status, joinedAt: new Date(m.joinedAt).toISOString(), timezone: m.coop.timezone,
+    })),
   };
 }
 
 /** Writes one audit event into each co-op the person belongs to (their name and e-mail show there). */
 async function auditInMyCoops(userId: number, action: string, before: unknown, after: unknown, transaction: Transaction) {
-  const coops = await sequelize.query<{ coop_id: number }>('SELECT coop_id FROM memberships WHERE user_id = :userId', {
-    replacements: { userId },
-    transaction,
-    type: QueryTypes.SELECT,
-  });
-  for (const c of coops) {
-    await audit({ coopId: c.coop_id, actorUserId: userId, action, entityType: 'user', entityId: userId, before, after }, transaction);
+  const memberships = await Membership.findAll({ where: { userId }, attributes: ['coopId'], raw: true, transaction });
+  for (const m of memberships) {
+    await audit({ coopId: m.coopId, actorUserId: userId, action, entityType: 'user', entityId: userId, before, after }, transaction);
   }
 }
 
 /** Renames the signed-in person. */
 export async function updateProfile(user: SessionUser, input: z.infer<typeof profileUpdateSchema>): Promise<{ name: string }> {
   if (input.name === user.name) return { name: user.name };
-  await sequelize.transaction(async (transaction) => {
-    await sequelize.query('UPDATE users SET name = :name, updated_at = now() WHERE id = :id', { replacements: { name: input.name, id: user.id }, transaction });
+  await inTransaction(async (transaction) => {
+    await User.update({ name: input.name }, { where: { id: user.id }, transaction });
     await auditInMyCoops(user.id, 'user.rename', { name: user.name }, { name: input.name }, transaction);
   });
   return { name: input.name };
 }
 
 async function checkCurrentPassword(userId: number, plain: string, field: string) {
-  const [row] = await sequelize.query<{ password_hash: string | null }>('SELECT password_hash FROM users WHERE id = :id', {
-    replacements: { id: userId },
-    type: QueryTypes.SELECT,
-  });
-  if (!(await verifyPassword(plain, row?.password_hash))) throw invalidFields({ [field]: ['That is not your current password.'] });
+  const row = await User.findByPk(userId, { attributes: ['passwordHash'], raw: true });
+  if (!(await verifyPassword(plain, row?.passwordHash))) throw invalidFields({ [field]: ['That is not your current password.'] });
 }
 
 /**
@@ -93,26 +101,18 @@ export async function changePassword(user: SessionUser, input: z.infer<typeof pa
   if (input.newPassword === input.currentPassword) throw invalidFields({ newPassword: ['Choose a password different from the current one.'] });
   await checkCurrentPassword(user.id, input.currentPassword, 'currentPassword');
   const hash = await hashPassword(input.newPassword);
-  await sequelize.query('UPDATE users SET password_hash = :hash, session_version = session_version + 1, updated_at = now() WHERE id = :id', {
-    replacements: { hash, id: user.id },
-  });
+  await User.update({ passwordHash: hash, sessionVersion: NEXT_SESSION_VERSION }, { where: { id: user.id } });
   return { changed: true };
 }
 
 /** Ends every session of this person on every device (this one too). */
 export async function signOutEverywhere(user: SessionUser): Promise<{ signedOut: true }> {
-  await sequelize.query('UPDATE users SET session_version = session_version + 1, updated_at = now() WHERE id = :id', { replacements: { id: user.id } });
+  await User.update({ sessionVersion: NEXT_SESSION_VERSION }, { where: { id: user.id } });
   return { signedOut: true };
 }
 
 const emailTaken = async (email: string, exceptUserId: number, transaction?: Transaction) =>
-  (
-    await sequelize.query('SELECT id FROM users WHERE lower(email) = :email AND id <> :id', {
-      replacements: { email: email.toLowerCase(), id: exceptUserId },
-      transaction,
-      type: QueryTypes.SELECT,
-    })
-  ).length > 0;
+  (await User.count({ where: { [Op.and]: [emailIs(email), { id: { [Op.ne]: exceptUserId } }] }, transaction })) > 0;
 
 /**
  * Starts a change of e-mail address: after checking the current password, a single-use link
@@ -125,15 +125,9 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
   if (await emailTaken(input.email, user.id)) throw conflict('Another account already uses that e-mail address.');
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + EMAIL_CHANGE_TTL_MS);
-  await sequelize.transaction(async (transaction) => {
-    await sequelize.query(
-      `UPDATE auth_tokens SET used_at = now() WHERE user_id = :userId AND kind = 'email-change' AND used_at IS NULL`,
-      { replacements: { userId: user.id }, transaction },
-    );
-    await sequelize.query(
-      `INSERT INTO auth_tokens (user_id, kind, token_hash, new_email, expires_at) VALUES (:userId, 'email-change', :hash, :email, :expiresAt)`,
-      { replacements: { userId: user.id, hash, email: input.email, expiresAt }, transaction },
-    );
+  await inTransaction(async (transaction) => {
+    await AuthToken.update({ usedAt: fn('now') }, { where: { userId: user.id, kind: 'email-change', usedAt: null }, transaction });
+    await AuthToken.create({ userId: user.id, kind: 'email-change', tokenHash: hash, newEmail: input.email, expiresAt, usedAt: null }, { transaction });
   });
   const sent = await sendMail({
     to: input.email,
@@ -156,25 +150,27 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
   return { pendingEmail: input.email, sent };
 }
 
-type TokenRow = { id: number; user_id: number; new_email: string | null; expires_at: Date | string; used_at: Date | string | null; email: string; name: string };
+type TokenRow = Pick<InferAttributes<AuthToken>, 'id' | 'userId' | 'newEmail' | 'expiresAt' | 'usedAt'> & { user: Pick<InferAttributes<User>, 'email' | 'name'> };
 
-async function findToken(kind: 'password-reset' | 'email-change', token: string, transaction?: Transaction): Promise<TokenRow | null> {
+/** A link's token row with its person; inside a transaction both rows are locked (FOR UPDATE). */
+async function findToken(kind: AuthTokenKind, token: string, transaction?: Transaction): Promise<TokenRow | null> {
   if (!isLinkTokenShape(token)) return null;
-  const [row] = await sequelize.query<TokenRow>(
-    `SELECT t.id, t.user_id, t.new_email, t.expires_at, t.used_at, u.email, u.name
-     FROM auth_tokens t JOIN users u ON u.id = t.user_id
-     WHERE t.token_hash = :hash AND t.kind = :kind ${transaction ? 'FOR UPDATE OF t, u' : ''}`,
-    { replacements: { hash: hashLinkToken(token), kind }, transaction, type: QueryTypes.SELECT },
-  );
-  return row ?? null;
+  return (await AuthToken.findOne({
+    where: { tokenHash: hashLinkToken(token), kind },
+    attributes: ['id', 'userId', 'newEmail', 'expiresAt', 'usedAt'],
+    include: [{ model: User, as: 'user', required: true, attributes: ['email', 'name'] }],
+    ...(transaction && { transaction, lock: transaction.LOCK.UPDATE }),
+    raw: true,
+    nest: true,
+  })) as unknown as TokenRow | null;
 }
 
 export type LinkState = 'ok' | 'invalid' | 'used' | 'expired';
 
 function linkState(row: TokenRow | null): LinkState {
   if (!row) return 'invalid';
-  if (row.used_at) return 'used';
-  return new Date(row.expires_at).getTime() <= Date.now() ? 'expired' : 'ok';
+  if (row.usedAt) return 'used';
+  return new Date(row.expiresAt).getTime() <= Date.now() ? 'expired' : 'ok';
 }
 
 const RESET_MESSAGES: Record<Exclude<LinkState, 'ok'>, string> = {
@@ -197,7 +193,7 @@ export async function lookupEmailChange(token: string): Promise<{ state: 'ok'; n
   const row = await findToken('email-change', token);
   const state = linkState(row);
   if (state !== 'ok' || !row) return { state: state === 'ok' ? 'invalid' : state, message: EMAIL_MESSAGES[state === 'ok' ? 'invalid' : state] };
-  return { state: 'ok', newEmail: row.new_email!, oldEmail: row.email };
+  return { state: 'ok', newEmail: row.newEmail!, oldEmail: row.user.email };
 }
 
 /**
@@ -207,15 +203,16 @@ export async function lookupEmailChange(token: string): Promise<{ state: 'ok'; n
 export async function confirmEmailChange(token: string): Promise<{ email: string }> {
   const result = await (async () => {
     try {
-      return await sequelize.transaction(async (transaction) => {
+      return await inTransaction(async (transaction) => {
         const row = await findToken('email-change', token, transaction);
         const state = linkState(row);
         if (state !== 'ok' || !row) throw linkError(state === 'ok' ? 'invalid' : state, EMAIL_MESSAGES);
-        if (await emailTaken(row.new_email!, row.user_id, transaction)) throw conflict('Another account started using that e-mail address in the meantime.');
-        await sequelize.query('UPDATE users SET email = :email, updated_at = now() WHERE id = :id', { replacements: { email: row.new_email, id: row.user_id }, transaction });
-        await sequelize.query('UPDATE auth_tokens SET used_at = now() WHERE id = :id', { replacements: { id: row.id }, transaction });
-        await auditInMyCoops(row.user_id, 'user.email-change', { email: row.email }, { email: row.new_email }, transaction);
-        return { oldEmail: row.email, email: row.new_email!, name: row.name };
+        const email = row.newEmail!;
+        if (await emailTaken(email, row.userId, transaction)) throw conflict('Another account started using that e-mail address in the meantime.');
+        await User.update({ email }, { where: { id: row.userId }, transaction });
+        await AuthToken.update({ usedAt: fn('now') }, { where: { id: row.id }, transaction });
+        await auditInMyCoops(row.userId, 'user.email-change', { email: row.user.email }, { email }, transaction);
+        return { oldEmail: row.user.email, email, name: row.user.name };
       });
     } catch (e) {
       if (e instanceof UniqueConstraintError) throw conflict('Another account started using that e-mail address in the meantime.');
@@ -253,18 +250,14 @@ export const RESET_REQUESTS_PER_HOUR = 3;
  * route sends it after answering, so both cases take the same time).
  */
 export async function requestPasswordReset(email: string): Promise<{ to: string; subject: string; text: string } | null> {
-  const [user] = await sequelize.query<{ id: number; name: string; email: string; recent: string }>(
-    `SELECT u.id, u.name, u.email,
-            (SELECT count(*) FROM auth_tokens t WHERE t.user_id = u.id AND t.kind = 'password-reset' AND t.created_at > now() - interval '1 hour') AS recent
-     FROM users u WHERE lower(u.email) = :email`,
-    { replacements: { email: email.toLowerCase() }, type: QueryTypes.SELECT },
-  );
-  if (!user || Number(user.recent) >= RESET_REQUESTS_PER_HOUR) return null;
+  const user = await User.findOne({ where: emailIs(email), attributes: ['id', 'name', 'email'], raw: true });
+  if (!user) return null;
+  const hourAgo = new Date(Date.now() - 60 * 60 * 1000);
+  const recent = await AuthToken.count({ where: { userId: user.id, kind: 'password-reset', createdAt: { [Op.gt]: hourAgo } } });
+  if (recent >= RESET_REQUESTS_PER_HOUR) return null;
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
-  await sequelize.query(`INSERT INTO auth_tokens (user_id, kind, token_hash, expires_at) VALUES (:userId, 'password-reset', :hash, :expiresAt)`, {
-    replacements: { userId: user.id, hash, expiresAt },
-  });
+  await AuthToken.create({ userId: user.id, kind: 'password-reset', tokenHash: hash, newEmail: null, expiresAt, usedAt: null });
   return {
     to: user.email,
     subject: 'Reset your Tallyvat password',
@@ -291,7 +284,7 @@ export async function lookupPasswordReset(token: string): Promise<{ state: 'ok';
   const row = await findToken('password-reset', token);
   const state = linkState(row);
   if (state !== 'ok' || !row) return { state: state === 'ok' ? 'invalid' : state, message: RESET_MESSAGES[state === 'ok' ? 'invalid' : state] };
-  return { state: 'ok', email: row.email };
+  return { state: 'ok', email: row.user.email };
 }
 
 /** The link's state as an HTTP answer (for GET /api/password-reset/[token]). */
@@ -311,24 +304,15 @@ export async function resetPassword(token: string, input: z.infer<typeof passwor
   if (preState !== 'ok') throw linkError(preState, RESET_MESSAGES);
   if (isCommonPassword(input.password)) throw invalidFields({ password: [COMMON] });
   const hash = await hashPassword(input.password);
-  return sequelize.transaction(async (transaction) => {
+  return inTransaction(async (transaction) => {
     const row = await findToken('password-reset', token, transaction);
     const state = linkState(row);
     if (state !== 'ok' || !row) throw linkError(state === 'ok' ? 'invalid' : state, RESET_MESSAGES);
-    await sequelize.query('UPDATE users SET password_hash = :hash, session_version = session_version + 1, updated_at = now() WHERE id = :id', {
-      replacements: { hash, id: row.user_id },
-      transaction,
-    });
-    await sequelize.query(`UPDATE auth_tokens SET used_at = now() WHERE user_id = :userId AND kind = 'password-reset' AND used_at IS NULL`, {
-      replacements: { userId: row.user_id },
-      transaction,
-    });
+    await User.update({ passwordHash: hash, sessionVersion: NEXT_SESSION_VERSION }, { where: { id: row.userId }, transaction });
+    await AuthToken.update({ usedAt: fn('now') }, { where: { userId: row.userId, kind: 'password-reset', usedAt: null }, transaction });
     // The sign-in limit tells a locked-out person to reset their password: doing so lifts the
     // account's lock (failures counted per address still apply).
-    await sequelize.query('DELETE FROM sign_in_attempts WHERE lower(email) = lower(:email) AND NOT succeeded', {
-      replacements: { email: row.email },
-      transaction,
-    });
-    return { email: row.email };
+    await SignInAttempt.destroy({ where: { [Op.and]: [emailIs(row.user.email), { succeeded: false }] }, transaction });
+    return { email: row.user.email };
   });
 }

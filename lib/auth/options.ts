@@ -4,8 +4,8 @@ import CredentialsProvider from 'next-auth/providers/credentials';
 import { User } from '@/models';
 import { signInSchema } from '@/lib/validation/auth';
 import { verifyPassword } from './passwords';
+import { emailIs } from './email';
 import { clientAddress, recordSignInAttempt, signInLimited } from './rate-limit';
-import { sequelize } from '@/lib/db';
 
 /**
  * next-auth configuration: e-mail + password, sessions as signed JWT cookies (stateless app
@@ -25,7 +25,7 @@ export const authOptions: NextAuthOptions = {
         const { email, password } = parsed.data;
         const address = clientAddress(new Headers((req?.headers ?? {}) as Record<string, string>));
         if (await signInLimited(email, address)) throw new Error('RATE_LIMITED');
-        const user = await User.findOne({ where: sequelize.where(sequelize.fn('lower', sequelize.col('email')), email) });
+        const user = await User.findOne({ where: emailIs(email), attributes: ['id', 'email', 'name', 'passwordHash', 'sessionVersion'], raw: true });
         const ok = await verifyPassword(password, user?.passwordHash);
         await recordSignInAttempt(email, address, ok && !!user);
         if (!user || !ok) return null;

@@ -1,6 +1,7 @@
 import 'server-only';
 import { Op } from 'sequelize';
 import { SignInAttempt } from '@/models';
+import { emailIs } from './email';
 
 /** Failed sign-ins allowed per account and per address in the window (common practice). */
 export const SIGN_IN_MAX_FAILURES = 10;
@@ -27,7 +28,7 @@ export function clientAddress(headers: Headers): string | null {
 export async function signInLimited(email: string, address: string | null): Promise<boolean> {
   const since = new Date(Date.now() - SIGN_IN_WINDOW_MINUTES * 60_000);
   const [byEmail, byAddress] = await Promise.all([
-    SignInAttempt.count({ where: { email: email.toLowerCase(), succeeded: false, createdAt: { [Op.gte]: since } } }),
+    SignInAttempt.count({ where: { [Op.and]: [emailIs(email), { succeeded: false, createdAt: { [Op.gte]: since } }] } }),
     address ? SignInAttempt.count({ where: { address, succeeded: false, createdAt: { [Op.gte]: since } } }) : Promise.resolve(0),
   ]);
   return byEmail >= SIGN_IN_MAX_FAILURES || byAddress >= SIGN_IN_MAX_FAILURES;

@@ -5,12 +5,13 @@ import type { SessionUser } from '@/lib/auth';
 import { HttpError } from '@/lib/http';
 import type { z } from 'zod';
 import type { coopCreateSchema } from '@/lib/validation/auth';
-import { Coop, Membership, sequelize } from '@/models';
+import { inTransaction } from '@/lib/db';
+import { Coop, Membership } from '@/models';
 
 /** Creates a co-op with its creator as the first admin (one transaction). */
 export async function createCoop(user: SessionUser, input: z.infer<typeof coopCreateSchema>) {
   try {
-    return await sequelize.transaction(async (transaction) => {
+    return await inTransaction(async (transaction) => {
       const coop = await Coop.create({ name: input.name, slug: input.slug, units: input.units, timezone: input.timezone }, { transaction });
       await Membership.create({ coopId: coop.id, userId: user.id, role: 'admin' }, { transaction });
       await audit({ coopId: coop.id, actorUserId: user.id, action: 'coop.create', entityType: 'coop', entityId: coop.id, after: { name: coop.name, slug: coop.slug, units: coop.units } }, transaction);

@@ -1,15 +1,15 @@
-/** What the settings form shows. */
-export interface CoopSettingsDto {
-  name: string;
-  slug: string;
-  units: 'us' | 'metric';
-  timezone: string;
-  currency: string;
+import type { InferAttributes } from 'sequelize';
+import type { Coop, CoopSettings } from '@/models/Coop';
+
+type Recipe = NonNullable<CoopSettings['recipe']>;
+
+/** What the settings form shows: the co-op's columns plus its settings with defaults filled in. */
+export type CoopSettingsDto = Pick<InferAttributes<Coop>, 'name' | 'slug' | 'units' | 'timezone' | 'currency'> & {
   monthlyDuesCents: number;
   selfServeDraws: boolean;
-  catalyst: 'KOH' | 'NaOH';
+  catalyst: NonNullable<Recipe['catalyst']>;
   baseGramsPerLiter: number;
   purityPct: number;
   methanolPct: number;
-  qualityStandard: 'ASTM D6751' | 'EN 14214';
-}
+  qualityStandard: NonNullable<CoopSettings['qualityStandard']>;
+};

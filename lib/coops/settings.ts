@@ -4,7 +4,8 @@ import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
 import { notFound } from '@/lib/http';
 import type { CoopSettingsUpdate } from '@/lib/validation/settings';
-import { Coop, sequelize } from '@/models';
+import { inTransaction } from '@/lib/db';
+import { Coop } from '@/models';
 import type { CoopSettings } from '@/models/Coop';
 import type { CoopSettingsDto } from './settings-types';
 
@@ -37,7 +38,7 @@ export async function getCoopSettings(actor: Actor): Promise<CoopSettingsDto> {
 /** Updates the co-op's settings (admins); audited with before and after. Units change only how figures are shown. */
 export async function updateCoopSettings(actor: Actor, input: CoopSettingsUpdate): Promise<CoopSettingsDto> {
   requireCan(actor, 'settings:manage');
-  return sequelize.transaction(async (transaction) => {
+  return inTransaction(async (transaction) => {
     const coop = await Coop.findByPk(actor.coop.id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!coop) throw notFound();
     const before = toDto(coop);

@@ -1,66 +1,67 @@
 import 'server-only';
-import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
+import { col, fn, Op, UniqueConstraintError, where, type IncludeOptions, type InferAttributes, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor, SessionUser } from '@/lib/auth';
 import { hashPassword, isCommonPassword } from '@/lib/auth/passwords';
 import { ROLE_SUMMARY, withArticle, type Role } from '@/lib/auth/roles';
 import { hashLinkToken, INVITATION_TTL_MS, isLinkTokenShape, newLinkToken } from '@/lib/auth/tokens';
+import { inTransaction } from '@/lib/db';
 import { conflict, forbidden, HttpError, notFound } from '@/lib/http';
 import { appUrl, sendMail } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import type { invitationAcceptSchema, invitationCreateSchema } from '@/lib/validation/auth';
-import { sequelize } from '@/models';
+import { Invitation, Membership, User } from '@/models';
+import type { InvitationDelivery } from '@/models/Invitation';
 
-export type InvitationDelivery = 'sent' | 'not-sent';
+export type { InvitationDelivery };
 
 /** A pending invitation as the members screen lists it. */
-export interface InvitationDto {
-  id: number;
-  email: string;
-  role: Role;
-  delivery: InvitationDelivery;
+export type InvitationDto = Pick<InferAttributes<Invitation>, 'id' | 'email' | 'role' | 'delivery'> & {
   expiresAt: string;
   createdAt: string;
   invitedBy: string | null;
   /** Past its expiry: the link no longer works; resending makes a new one. */
   expired: boolean;
-}
-
-type InvitationRow = {
-  id: number; coop_id: number; email: string; role: Role; status: 'pending' | 'accepted' | 'revoked'; delivery: InvitationDelivery;
-  expires_at: Date | string; created_at: Date | string; invited_by: string | null;
 };
 
-const toDto = (r: InvitationRow): InvitationDto => ({
-  id: r.id,
-  email: r.email,
-  role: r.role,
-  delivery: r.delivery,
-  expiresAt: new Date(r.expires_at).toISOString(),
-  createdAt: new Date(r.created_at).toISOString(),
-  invitedBy: r.invited_by,
-  expired: new Date(r.expires_at).getTime() <= Date.now(),
-});
+/** The columns every invitation read needs (never the token hash). */
+const INVITATION_ATTRIBUTES = ['id', 'coopId', 'email', 'role', 'status', 'delivery', 'expiresAt', 'createdAt'] as const satisfies (keyof InferAttributes<Invitation>)[];
 
-const SELECT_INVITATION = `
-  SELECT i.id, i.coop_id, i.email, i.role, i.status, i.delivery, i.expires_at, i.created_at, u.name AS invited_by
-  FROM invitations i LEFT JOIN users u ON u.id = i.invited_by_user_id`;
+/** The inviter's name, joined in the same query. */
+const INVITED_BY: IncludeOptions = { association: 'invitedBy', attributes: ['name'] };
+
+const isPast = (at: Date) => at.getTime() <= Date.now();
+
+const toDto = (i: Invitation): InvitationDto => ({
+  id: i.id,
+  email: i.email,
+  role: i.role,
+  delivery: i.delivery,
+  expiresAt: i.expiresAt.toISOString(),
+  createdAt: i.createdAt.toISOString(),
+  invitedBy: i.invitedBy?.name ?? null,
+  expired: isPast(i.expiresAt),
+});
 
 /** Pending invitations of the co-op (expired ones too, so they can be resent), newest first. */
 export async function listPendingInvitations(actor: Actor): Promise<InvitationDto[]> {
-  const rows = await sequelize.query<InvitationRow>(`${SELECT_INVITATION} WHERE i.coop_id = :coopId AND i.status = 'pending' ORDER BY i.created_at DESC, i.id DESC`, {
-    replacements: { coopId: actor.coop.id },
-    type: QueryTypes.SELECT,
+  const rows = await Invitation.findAll({
+    attributes: [...INVITATION_ATTRIBUTES],
+    where: { coopId: actor.coop.id, status: 'pending' },
+    include: [INVITED_BY],
+    order: [['createdAt', 'DESC'], ['id', 'DESC']],
   });
   return rows.map(toDto);
 }
 
-async function findInvitation(actor: Actor, id: number, transaction: Transaction): Promise<InvitationRow> {
-  const [row] = await sequelize.query<InvitationRow>(`${SELECT_INVITATION} WHERE i.id = :id AND i.coop_id = :coopId FOR UPDATE OF i`, {
-    replacements: { id, coopId: actor.coop.id },
+/** The invitation (id AND co-op in one query) locked for the rest of the transaction, or a 404. */
+async function lockInvitation(actor: Actor, id: number, transaction: Transaction): Promise<Invitation> {
+  const row = await Invitation.findOne({
+    attributes: [...INVITATION_ATTRIBUTES],
+    where: { id, coopId: actor.coop.id },
+    lock: transaction.LOCK.UPDATE,
     transaction,
-    type: QueryTypes.SELECT,
   });
   if (!row) throw notFound('That invitation is not in this co-op.');
   return row;
@@ -100,21 +101,18 @@ async function deliver(actor: Actor, id: number, email: string, role: Role, toke
   const mail = invitationMail({ coopName: actor.coop.name, inviter: actor.user.name, role, token, expiresAt, timezone: actor.coop.timezone });
   const sent = await sendMail({ to: email, ...mail });
   const delivery: InvitationDelivery = sent ? 'sent' : 'not-sent';
-  await sequelize.query(
-    `UPDATE invitations SET delivery = :delivery, updated_at = now() WHERE id = :id AND coop_id = :coopId AND token_hash = :hash`,
-    { replacements: { delivery, id, coopId: actor.coop.id, hash: hashLinkToken(token) } },
-  );
+  await Invitation.update({ delivery }, { where: { id, coopId: actor.coop.id, tokenHash: hashLinkToken(token) } });
   return delivery;
 }
 
 async function reloadDto(actor: Actor, id: number): Promise<InvitationDto> {
-  const [row] = await sequelize.query<InvitationRow>(`${SELECT_INVITATION} WHERE i.id = :id AND i.coop_id = :coopId`, {
-    replacements: { id, coopId: actor.coop.id },
-    type: QueryTypes.SELECT,
-  });
+  const row = await Invitation.findOne({ attributes: [...INVITATION_ATTRIBUTES], where: { id, coopId: actor.coop.id }, include: [INVITED_BY] });
   if (!row) throw notFound('That invitation is not in this co-op.');
   return toDto(row);
 }
+
+/** Case-insensitive match on an e-mail column (served by the lower(email) indexes). */
+const emailIs = (column: string, email: string) => where(fn('lower', col(column)), fn('lower', email));
 
 /**
  * Invites a person by e-mail with a role. The link's token is 32 random bytes; only its
@@ -126,51 +124,50 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   let id: number;
   try {
-    id = await sequelize.transaction(async (transaction) => {
-      const member = await sequelize.query(
-        `SELECT m.id FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.coop_id = :coopId AND lower(u.email) = :email`,
-        { replacements: { coopId: actor.coop.id, email: input.email }, transaction, type: QueryTypes.SELECT },
-      );
-      if (member.length) throw conflict(`${input.email} is already a member of this co-op.`);
-      const [pending] = await sequelize.query<InvitationRow>(
-        `${SELECT_INVITATION} WHERE i.coop_id = :coopId AND lower(i.email) = :email AND i.status = 'pending' FOR UPDATE OF i`,
-        { replacements: { coopId: actor.coop.id, email: input.email }, transaction, type: QueryTypes.SELECT },
-      );
-      if (pending && new Date(pending.expires_at).getTime() > Date.now()) {
+    id = await inTransaction(async (transaction) => {
+      const member = await Membership.findOne({
+        attributes: ['id'],
+        where: { coopId: actor.coop.id },
+        include: [{ association: 'user', attributes: [], required: true, where: emailIs('user.email', input.email) }],
+        transaction,
+      });
+      if (member) throw conflict(`${input.email} is already a member of this co-op.`);
+      const pending = await Invitation.findOne({
+        attributes: [...INVITATION_ATTRIBUTES],
+        where: { coopId: actor.coop.id, status: 'pending', [Op.and]: [emailIs('email', input.email)] },
+        lock: transaction.LOCK.UPDATE,
+        transaction,
+      });
+      if (pending && !isPast(pending.expiresAt)) {
         throw conflict(`An invitation to ${input.email} is already waiting to be accepted. Resend it or revoke it from the list of invitations.`, {
           invitationId: pending.id,
         });
       }
       if (pending) {
         // The old link has expired: renew the same invitation with a new link and the chosen role.
-        await sequelize.query(
-          `UPDATE invitations SET role = :role, token_hash = :hash, expires_at = :expiresAt, delivery = 'not-sent',
-             invited_by_user_id = :userId, updated_at = now() WHERE id = :id AND coop_id = :coopId`,
-          { replacements: { role: input.role, hash, expiresAt, userId: actor.user.id, id: pending.id, coopId: actor.coop.id }, transaction },
-        );
+        const before = { email: pending.email, role: pending.role, expiresAt: pending.expiresAt.toISOString() };
+        await pending.update({ role: input.role, tokenHash: hash, expiresAt, delivery: 'not-sent', invitedByUserId: actor.user.id }, { transaction });
         await audit(
           {
             coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.renew', entityType: 'invitation', entityId: pending.id,
-            before: { email: pending.email, role: pending.role, expiresAt: new Date(pending.expires_at).toISOString() },
-            after: { email: pending.email, role: input.role, expiresAt: expiresAt.toISOString() },
+            before, after: { email: pending.email, role: input.role, expiresAt: expiresAt.toISOString() },
           },
           transaction,
         );
         return pending.id;
       }
-      const [created] = await sequelize.query<{ id: number }>(
-        `INSERT INTO invitations (coop_id, email, role, token_hash, status, delivery, invited_by_user_id, expires_at)
-         VALUES (:coopId, :email, :role, :hash, 'pending', 'not-sent', :userId, :expiresAt) RETURNING id`,
-        { replacements: { coopId: actor.coop.id, email: input.email, role: input.role, hash, userId: actor.user.id, expiresAt }, transaction, type: QueryTypes.SELECT },
+      const created = await Invitation.create(
+        { coopId: actor.coop.id, email: input.email, role: input.role, tokenHash: hash, invitedByUserId: actor.user.id, expiresAt, acceptedAt: null },
+        { transaction },
       );
       await audit(
         {
-          coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.create', entityType: 'invitation', entityId: created!.id,
+          coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.create', entityType: 'invitation', entityId: created.id,
           before: null, after: { email: input.email, role: input.role, expiresAt: expiresAt.toISOString() },
         },
         transaction,
       );
-      return created!.id;
+      return created.id;
     });
   } catch (e) {
     if (e instanceof UniqueConstraintError) throw conflict(`An invitation to ${input.email} was just created. Refresh the list.`);
@@ -187,36 +184,30 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
 export async function resendInvitation(actor: Actor, id: number): Promise<{ invitation: InvitationDto; sent: boolean }> {
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
-  const row = await sequelize.transaction(async (transaction) => {
-    const inv = await findInvitation(actor, id, transaction);
+  const { email, role } = await inTransaction(async (transaction) => {
+    const inv = await lockInvitation(actor, id, transaction);
     if (inv.status !== 'pending') throw conflict(`This invitation was already ${inv.status}; it cannot be resent.`);
-    await sequelize.query(
-      `UPDATE invitations SET token_hash = :hash, expires_at = :expiresAt, delivery = 'not-sent', updated_at = now() WHERE id = :id AND coop_id = :coopId`,
-      { replacements: { hash, expiresAt, id, coopId: actor.coop.id }, transaction },
-    );
+    const before = { delivery: inv.delivery, expiresAt: inv.expiresAt.toISOString() };
+    await inv.update({ tokenHash: hash, expiresAt, delivery: 'not-sent' }, { transaction });
     await audit(
       {
         coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.resend', entityType: 'invitation', entityId: id,
-        before: { delivery: inv.delivery, expiresAt: new Date(inv.expires_at).toISOString() },
-        after: { delivery: 'not-sent', expiresAt: expiresAt.toISOString(), newLink: true },
+        before, after: { delivery: 'not-sent', expiresAt: expiresAt.toISOString(), newLink: true },
       },
       transaction,
     );
-    return inv;
+    return { email: inv.email, role: inv.role };
   });
-  const delivery = await deliver(actor, id, row.email, row.role, token, expiresAt);
+  const delivery = await deliver(actor, id, email, role, token, expiresAt);
   return { invitation: await reloadDto(actor, id), sent: delivery === 'sent' };
 }
 
 /** Withdraws a pending invitation; its link then says so. */
 export async function revokeInvitation(actor: Actor, id: number): Promise<{ revoked: true; id: number }> {
-  return sequelize.transaction(async (transaction) => {
-    const inv = await findInvitation(actor, id, transaction);
+  return inTransaction(async (transaction) => {
+    const inv = await lockInvitation(actor, id, transaction);
     if (inv.status !== 'pending') throw conflict(`This invitation was already ${inv.status}.`);
-    await sequelize.query(`UPDATE invitations SET status = 'revoked', updated_at = now() WHERE id = :id AND coop_id = :coopId`, {
-      replacements: { id, coopId: actor.coop.id },
-      transaction,
-    });
+    await inv.update({ status: 'revoked' }, { transaction });
     await audit(
       {
         coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.revoke', entityType: 'invitation', entityId: id,
@@ -251,49 +242,59 @@ export type InvitationLookup =
   | { state: 'invalid' }
   | { state: 'revoked' | 'accepted' | 'expired'; coopName: string };
 
-type TokenRow = InvitationRow & { coop_name: string; coop_slug: string; timezone: string; existing_user_id: number | null };
+/** An invitation found by its link, with its co-op and inviter, and the account already using its address. */
+interface TokenMatch {
+  invitation: Invitation & { coop: NonNullable<Invitation['coop']> };
+  existingUserId: number | null;
+}
 
-async function findByToken(token: string, transaction?: Transaction): Promise<TokenRow | null> {
+/**
+ * The invitation behind a link. Inside a transaction the invitation row is locked (not the
+ * co-op or the inviter), so a link is accepted exactly once.
+ */
+async function findByToken(token: string, transaction?: Transaction): Promise<TokenMatch | null> {
   if (!isLinkTokenShape(token)) return null;
-  const [row] = await sequelize.query<TokenRow>(
-    `SELECT i.id, i.coop_id, i.email, i.role, i.status, i.delivery, i.expires_at, i.created_at, inviter.name AS invited_by,
-            c.name AS coop_name, c.slug AS coop_slug, c.timezone,
-            (SELECT u.id FROM users u WHERE lower(u.email) = lower(i.email)) AS existing_user_id
-     FROM invitations i JOIN coops c ON c.id = i.coop_id LEFT JOIN users inviter ON inviter.id = i.invited_by_user_id
-     WHERE i.token_hash = :hash ${transaction ? 'FOR UPDATE OF i' : ''}`,
-    { replacements: { hash: hashLinkToken(token) }, transaction, type: QueryTypes.SELECT },
-  );
-  return row ?? null;
+  const invitation = await Invitation.findOne({
+    attributes: [...INVITATION_ATTRIBUTES],
+    where: { tokenHash: hashLinkToken(token) },
+    include: [{ association: 'coop', attributes: ['name', 'slug', 'timezone'], required: true }, INVITED_BY],
+    ...(transaction ? { transaction, lock: { level: transaction.LOCK.UPDATE, of: Invitation } } : {}),
+  });
+  if (!invitation?.coop) return null;
+  const existing = await User.findOne({ attributes: ['id'], where: emailIs('email', invitation.email), transaction });
+  return { invitation: invitation as TokenMatch['invitation'], existingUserId: existing?.id ?? null };
 }
 
-function stateOf(row: TokenRow | null): InvitationLookup['state'] {
-  if (!row) return 'invalid';
-  if (row.status !== 'pending') return row.status;
-  return new Date(row.expires_at).getTime() <= Date.now() ? 'expired' : 'ok';
+function stateOf(match: TokenMatch | null): InvitationLookup['state'] {
+  if (!match) return 'invalid';
+  const { status, expiresAt } = match.invitation;
+  if (status !== 'pending') return status;
+  return isPast(expiresAt) ? 'expired' : 'ok';
 }
 
-function accountOf(row: TokenRow, user: SessionUser | null): InviteeAccount {
-  if (!row.existing_user_id) return 'new';
+function accountOf(match: TokenMatch, user: SessionUser | null): InviteeAccount {
+  if (!match.existingUserId) return 'new';
   if (!user) return 'sign-in-needed';
-  return user.id === row.existing_user_id ? 'signed-in' : 'other-account';
+  return user.id === match.existingUserId ? 'signed-in' : 'other-account';
 }
 
 /** What the invitation page shows for a token (never throws for a bad link). */
 export async function lookupInvitation(token: string, user: SessionUser | null): Promise<InvitationLookup> {
-  const row = await findByToken(token);
-  const state = stateOf(row);
-  if (state === 'invalid' || !row) return { state: 'invalid' };
-  if (state !== 'ok') return { state, coopName: row.coop_name };
+  const match = await findByToken(token);
+  const state = stateOf(match);
+  if (state === 'invalid' || !match) return { state: 'invalid' };
+  const { invitation: inv } = match;
+  if (state !== 'ok') return { state, coopName: inv.coop.name };
   return {
     state: 'ok',
     info: {
-      coop: { name: row.coop_name, slug: row.coop_slug },
-      role: row.role,
-      roleSummary: ROLE_SUMMARY[row.role],
-      email: row.email,
-      invitedBy: row.invited_by,
-      expiresAt: new Date(row.expires_at).toISOString(),
-      account: accountOf(row, user),
+      coop: { name: inv.coop.name, slug: inv.coop.slug },
+      role: inv.role,
+      roleSummary: ROLE_SUMMARY[inv.role],
+      email: inv.email,
+      invitedBy: inv.invitedBy?.name ?? null,
+      expiresAt: inv.expiresAt.toISOString(),
+      account: accountOf(match, user),
       signedInAs: user?.email ?? null,
     },
   };
@@ -326,62 +327,58 @@ export async function acceptInvitation(
   // bcrypt takes a while: hash before taking the row lock (wasted only for existing accounts).
   const passwordHash = input.password !== undefined ? await hashPassword(input.password) : null;
   try {
-    return await sequelize.transaction(async (transaction) => {
-      const row = await findByToken(token, transaction);
-      const state = stateOf(row);
-      if (!row || state === 'invalid') throw invitationError({ state: 'invalid' });
-      if (state !== 'ok') throw invitationError({ state, coopName: row.coop_name });
+    return await inTransaction(async (transaction) => {
+      const match = await findByToken(token, transaction);
+      const state = stateOf(match);
+      if (!match || state === 'invalid') throw invitationError({ state: 'invalid' });
+      const { invitation: inv, existingUserId } = match;
+      if (state !== 'ok') throw invitationError({ state, coopName: inv.coop.name });
 
       let userId: number;
-      const newAccount = !row.existing_user_id;
-      if (row.existing_user_id) {
-        if (!user) throw new HttpError(401, `An account already uses ${row.email}. Sign in as ${row.email} to accept.`);
-        if (user.id !== row.existing_user_id) {
-          throw forbidden(`This invitation is for ${row.email}, but you are signed in as ${user.email}. Sign out, then open the link again.`);
+      const newAccount = !existingUserId;
+      if (existingUserId) {
+        if (!user) throw new HttpError(401, `An account already uses ${inv.email}. Sign in as ${inv.email} to accept.`);
+        if (user.id !== existingUserId) {
+          throw forbidden(`This invitation is for ${inv.email}, but you are signed in as ${user.email}. Sign out, then open the link again.`);
         }
-        userId = row.existing_user_id;
+        userId = existingUserId;
       } else {
         const fields: Record<string, string[]> = {};
         if (!input.name) fields.name = ['Enter your name.'];
         if (!passwordHash) fields.password = ['Choose a password of 12 to 128 characters.'];
         else if (isCommonPassword(input.password!)) fields.password = ['That password is on a list of commonly used passwords. Choose another.'];
         if (Object.keys(fields).length) throw new HttpError(422, 'Some fields need attention.', fields);
-        const [created] = await sequelize.query<{ id: number }>(
-          `INSERT INTO users (email, name, password_hash) VALUES (:email, :name, :hash) RETURNING id`,
-          { replacements: { email: row.email.toLowerCase(), name: input.name!, hash: passwordHash! }, transaction, type: QueryTypes.SELECT },
-        );
-        userId = created!.id;
+        const created = await User.create({ email: inv.email.toLowerCase(), name: input.name!, passwordHash: passwordHash! }, { transaction });
+        userId = created.id;
       }
 
-      const [membership] = await sequelize.query<{ id: number }>(
-        `INSERT INTO memberships (coop_id, user_id, role) VALUES (:coopId, :userId, :role)
-         ON CONFLICT (coop_id, user_id) DO NOTHING RETURNING id`,
-        { replacements: { coopId: row.coop_id, userId, role: row.role }, transaction, type: QueryTypes.SELECT },
-      );
-      if (!membership) throw conflict(`You are already a member of ${row.coop_name}.`);
-      await sequelize.query(`UPDATE invitations SET status = 'accepted', accepted_at = now(), updated_at = now() WHERE id = :id`, {
-        replacements: { id: row.id },
-        transaction,
-      });
+      const already = await Membership.findOne({ attributes: ['id'], where: { coopId: inv.coopId, userId }, transaction });
+      if (already) throw conflict(`You are already a member of ${inv.coop.name}.`);
+      const membership = await Membership.create({ coopId: inv.coopId, userId, role: inv.role }, { transaction });
+      await inv.update({ status: 'accepted', acceptedAt: new Date() }, { transaction });
       await audit(
         {
-          coopId: row.coop_id, actorUserId: userId, action: 'invitation.accept', entityType: 'invitation', entityId: row.id,
-          before: { email: row.email, role: row.role, status: 'pending' },
-          after: { email: row.email, role: row.role, status: 'accepted', membershipId: membership.id, newAccount },
+          coopId: inv.coopId, actorUserId: userId, action: 'invitation.accept', entityType: 'invitation', entityId: inv.id,
+          before: { email: inv.email, role: inv.role, status: 'pending' },
+          after: { email: inv.email, role: inv.role, status: 'accepted', membershipId: membership.id, newAccount },
         },
         transaction,
       );
       await audit(
         {
-          coopId: row.coop_id, actorUserId: userId, action: 'membership.create', entityType: 'membership', entityId: membership.id,
-          before: null, after: { userId, email: row.email, role: row.role, status: 'active', invitationId: row.id },
+          coopId: inv.coopId, actorUserId: userId, action: 'membership.create', entityType: 'membership', entityId: membership.id,
+          before: null, after: { userId, email: inv.email, role: inv.role, status: 'active', invitationId: inv.id },
         },
         transaction,
       );
-      return { coop: { slug: row.coop_slug, name: row.coop_name }, role: row.role, email: row.email.toLowerCase(), newAccount };
+      return { coop: { slug: inv.coop.slug, name: inv.coop.name }, role: inv.role, email: inv.email.toLowerCase(), newAccount };
     });
   } catch (e) {
-    if (e instanceof UniqueConstraintError) throw conflict('An account with this e-mail address was created a moment ago. Sign in, then open the link again.');
+    if (e instanceof UniqueConstraintError) {
+      // Two people (or two tabs) accepting at the same moment: the account or the membership was just made.
+      if (/memberships/.test(e.parent?.message ?? '')) throw conflict('You are already a member of this co-op.');
+      throw conflict('An account with this e-mail address was created a moment ago. Sign in, then open the link again.');
+    }
     throw e;
   }
 }

@@ -1,28 +1,25 @@
 import 'server-only';
-import { ForeignKeyConstraintError, QueryTypes, type Transaction } from 'sequelize';
+import { col, fn, ForeignKeyConstraintError, literal, Op, type InferAttributes, type OrderItem, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import type { Role } from '@/lib/auth/roles';
+import { ROLES } from '@/lib/auth/roles';
+import { inTransaction } from '@/lib/db';
 import { conflict, notFound } from '@/lib/http';
 import type { membershipUpdateSchema } from '@/lib/validation/auth';
 import type { MemberListQuery } from '@/lib/validation/members';
-import { sequelize } from '@/models';
+import { Coop, Membership, type User } from '@/models';
+import type { MembershipStatus } from '@/models/Membership';
 
-export type MembershipStatus = 'active' | 'suspended';
+export type { MembershipStatus };
 
 /** One row of the members table. */
-export interface MemberDto {
-  id: number;
-  userId: number;
-  name: string;
-  email: string;
-  role: Role;
-  status: MembershipStatus;
-  joinedAt: string;
-  /** True for the row of the admin looking at the table. */
-  isYou: boolean;
-}
+export type MemberDto = Pick<InferAttributes<Membership>, 'id' | 'userId' | 'role' | 'status'> &
+  Pick<InferAttributes<User>, 'name' | 'email'> & {
+    joinedAt: string;
+    /** True for the row of the admin looking at the table. */
+    isYou: boolean;
+  };
 
 export interface MemberPage {
   rows: MemberDto[];
@@ -33,28 +30,34 @@ export interface MemberPage {
   activeAdmins: number;
 }
 
-type Row = { id: number; user_id: number; name: string; email: string; role: Role; status: MembershipStatus; joined_at: Date | string };
+/** A membership with its person's name and e-mail (the include every read here uses). */
+type MemberWithUser = Membership & { user: Pick<InferAttributes<User>, 'name' | 'email'> };
 
-const SORT_SQL: Record<MemberListQuery['sort'], string> = {
-  name: 'lower(u.name)',
-  email: 'lower(u.email)',
-  role: "array_position(ARRAY['admin','treasurer','brewer','member']::varchar[], m.role)",
-  status: 'm.status',
-  joined: 'm.joined_at',
+const MEMBER_ATTRIBUTES = ['id', 'userId', 'role', 'status', 'joinedAt'];
+
+/** Roles in the order the table sorts them: most powerful first (ROLES' order; constants, no input). */
+const ROLE_RANK = literal(`ARRAY[${ROLES.map((r) => `'${r}'`).join(',')}]::varchar[]`);
+
+const SORT: Record<MemberListQuery['sort'], (dir: 'ASC' | 'DESC') => OrderItem> = {
+  name: (dir) => [fn('lower', col('user.name')), dir],
+  email: (dir) => [fn('lower', col('user.email')), dir],
+  role: (dir) => [fn('array_position', ROLE_RANK, col('Membership.role')), dir],
+  status: (dir) => ['status', dir],
+  joined: (dir) => ['joinedAt', dir],
 };
 
-const toDto = (actor: Actor, r: Row): MemberDto => ({
-  id: r.id,
-  userId: r.user_id,
-  name: r.name,
-  email: r.email,
-  role: r.role,
-  status: r.status,
-  joinedAt: new Date(r.joined_at).toISOString(),
-  isYou: r.user_id === actor.user.id,
+const toDto = (actor: Actor, m: MemberWithUser): MemberDto => ({
+  id: m.id,
+  userId: m.userId,
+  name: m.user.name,
+  email: m.user.email,
+  role: m.role,
+  status: m.status,
+  joinedAt: m.joinedAt.toISOString(),
+  isYou: m.userId === actor.user.id,
 });
 
-/** Escapes LIKE wildcards so a search for "50%" means the characters, not a pattern. */
+/** Escapes LIKE wildcards so a search for "50%" means the characters, not a pattern (backslash is PostgreSQL's LIKE escape). */
 const likeTerm = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
 /**
@@ -62,51 +65,35 @@ const likeTerm = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
  * paged by the database.
  */
 export async function listMembers(actor: Actor, query: MemberListQuery): Promise<MemberPage> {
-  const where = ['m.coop_id = :coopId'];
-  const replacements: Record<string, unknown> = { coopId: actor.coop.id, limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
-  if (query.role) {
-    where.push('m.role = :role');
-    replacements.role = query.role;
-  }
-  if (query.status) {
-    where.push('m.status = :status');
-    replacements.status = query.status;
-  }
-  if (query.q) {
-    where.push("(u.name ILIKE :q ESCAPE '\\' OR u.email ILIKE :q ESCAPE '\\')");
-    replacements.q = likeTerm(query.q);
-  }
+  const where: WhereOptions<Membership> = {
+    coopId: actor.coop.id,
+    ...(query.role ? { role: query.role } : {}),
+    ...(query.status ? { status: query.status } : {}),
+  };
+  const term = query.q ? likeTerm(query.q) : null;
   const dir = query.dir === 'desc' ? 'DESC' : 'ASC';
-  const [rows, counts] = await Promise.all([
-    sequelize.query<Row & { total: string }>(
-      `SELECT m.id, m.user_id, u.name, u.email, m.role, m.status, m.joined_at, count(*) OVER () AS total
-       FROM memberships m JOIN users u ON u.id = m.user_id
-       WHERE ${where.join(' AND ')}
-       ORDER BY ${SORT_SQL[query.sort]} ${dir}, m.id ${dir}
-       LIMIT :limit OFFSET :offset`,
-      { replacements, type: QueryTypes.SELECT },
-    ),
-    sequelize.query<{ admins: string; members: string }>(
-      `SELECT count(*) FILTER (WHERE role = 'admin' AND status = 'active') AS admins, count(*) AS members
-       FROM memberships WHERE coop_id = :coopId`,
-      { replacements: { coopId: actor.coop.id }, type: QueryTypes.SELECT },
-    ),
+  const [{ rows, count }, activeAdmins] = await Promise.all([
+    Membership.findAndCountAll({
+      attributes: MEMBER_ATTRIBUTES,
+      where,
+      include: [{
+        association: 'user',
+        attributes: ['name', 'email'],
+        required: true,
+        ...(term ? { where: { [Op.or]: [{ name: { [Op.iLike]: term } }, { email: { [Op.iLike]: term } }] } } : {}),
+      }],
+      order: [SORT[query.sort](dir), ['id', dir]],
+      limit: query.pageSize,
+      offset: (query.page - 1) * query.pageSize,
+    }),
+    Membership.count({ where: { coopId: actor.coop.id, role: 'admin', status: 'active' } }),
   ]);
-  // A page past the end has no rows to carry the window count: count the filter alone then.
-  let total = rows[0] ? Number(rows[0].total) : 0;
-  if (!rows[0] && query.page > 1) {
-    const [c] = await sequelize.query<{ n: string }>(
-      `SELECT count(*) AS n FROM memberships m JOIN users u ON u.id = m.user_id WHERE ${where.join(' AND ')}`,
-      { replacements, type: QueryTypes.SELECT },
-    );
-    total = Number(c?.n ?? 0);
-  }
   return {
-    rows: rows.map((r) => toDto(actor, r)),
+    rows: rows.map((r) => toDto(actor, r as MemberWithUser)),
     page: query.page,
     pageSize: query.pageSize,
-    total,
-    activeAdmins: Number(counts[0]?.admins ?? 0),
+    total: count,
+    activeAdmins,
   };
 }
 
@@ -117,28 +104,25 @@ export async function listMembers(actor: Actor, query: MemberListQuery): Promise
  * elsewhere that merely reference the co-op.
  */
 async function lockCoop(coopId: number, transaction: Transaction) {
-  await sequelize.query('SELECT id FROM coops WHERE id = :coopId FOR NO KEY UPDATE', { replacements: { coopId }, transaction, type: QueryTypes.SELECT });
+  await Coop.findByPk(coopId, { attributes: ['id'], lock: transaction.LOCK.NO_KEY_UPDATE, transaction });
 }
 
 /** The membership (id AND co-op in one query) locked for update, or a 404. */
-async function lockMembership(actor: Actor, membershipId: number, transaction: Transaction): Promise<Row> {
-  const [row] = await sequelize.query<Row>(
-    `SELECT m.id, m.user_id, u.name, u.email, m.role, m.status, m.joined_at
-     FROM memberships m JOIN users u ON u.id = m.user_id
-     WHERE m.id = :membershipId AND m.coop_id = :coopId
-     FOR UPDATE OF m`,
-    { replacements: { membershipId, coopId: actor.coop.id }, transaction, type: QueryTypes.SELECT },
-  );
+async function lockMembership(actor: Actor, membershipId: number, transaction: Transaction): Promise<MemberWithUser> {
+  const row = await Membership.findOne({
+    attributes: MEMBER_ATTRIBUTES,
+    where: { id: membershipId, coopId: actor.coop.id },
+    include: [{ association: 'user', attributes: ['name', 'email'], required: true }],
+    lock: { level: transaction.LOCK.UPDATE, of: Membership },
+    transaction,
+  });
   if (!row) throw notFound('That member is not in this co-op.');
-  return row;
+  return row as MemberWithUser;
 }
 
+/** Active admins of the co-op other than this membership (read under the co-op lock). */
 async function otherActiveAdmins(coopId: number, membershipId: number, transaction: Transaction): Promise<number> {
-  const [r] = await sequelize.query<{ n: string }>(
-    `SELECT count(*) AS n FROM memberships WHERE coop_id = :coopId AND role = 'admin' AND status = 'active' AND id <> :membershipId`,
-    { replacements: { coopId, membershipId }, transaction, type: QueryTypes.SELECT },
-  );
-  return Number(r?.n ?? 0);
+  return Membership.count({ where: { coopId, role: 'admin', status: 'active', id: { [Op.ne]: membershipId } }, transaction });
 }
 
 const LAST_ADMIN = 'A co-op needs at least one active admin. Make another member an admin first.';
@@ -149,28 +133,26 @@ const LAST_ADMIN = 'A co-op needs at least one active admin. Make another member
  * every request re-reads the membership.
  */
 export async function updateMembership(actor: Actor, membershipId: number, input: z.infer<typeof membershipUpdateSchema>): Promise<MemberDto> {
-  return sequelize.transaction(async (transaction) => {
+  return inTransaction(async (transaction) => {
     await lockCoop(actor.coop.id, transaction);
     const before = await lockMembership(actor, membershipId, transaction);
-    const role = input.role ?? before.role;
-    const status = input.status ?? before.status;
-    if (role === before.role && status === before.status) return toDto(actor, before);
-    const losesAdmin = before.role === 'admin' && before.status === 'active' && (role !== 'admin' || status !== 'active');
+    const was = { role: before.role, status: before.status };
+    const role = input.role ?? was.role;
+    const status = input.status ?? was.status;
+    if (role === was.role && status === was.status) return toDto(actor, before);
+    const losesAdmin = was.role === 'admin' && was.status === 'active' && (role !== 'admin' || status !== 'active');
     if (losesAdmin && (await otherActiveAdmins(actor.coop.id, membershipId, transaction)) === 0) throw conflict(LAST_ADMIN);
-    await sequelize.query(
-      `UPDATE memberships SET role = :role, status = :status, updated_at = now() WHERE id = :membershipId AND coop_id = :coopId`,
-      { replacements: { role, status, membershipId, coopId: actor.coop.id }, transaction },
-    );
-    const action = role !== before.role && status !== before.status ? 'membership.update' : role !== before.role ? 'membership.role-change' : status === 'suspended' ? 'membership.suspend' : 'membership.reinstate';
+    await Membership.update({ role, status }, { where: { id: membershipId, coopId: actor.coop.id }, transaction });
+    const action = role !== was.role && status !== was.status ? 'membership.update' : role !== was.role ? 'membership.role-change' : status === 'suspended' ? 'membership.suspend' : 'membership.reinstate';
+    const who = { userId: before.userId, email: before.user.email };
     await audit(
       {
         coopId: actor.coop.id, actorUserId: actor.user.id, action, entityType: 'membership', entityId: membershipId,
-        before: { userId: before.user_id, email: before.email, role: before.role, status: before.status },
-        after: { userId: before.user_id, email: before.email, role, status },
+        before: { ...who, ...was }, after: { ...who, role, status },
       },
       transaction,
     );
-    return toDto(actor, { ...before, role, status });
+    return { ...toDto(actor, before), role, status };
   });
 }
 
@@ -181,20 +163,17 @@ export async function updateMembership(actor: Actor, membershipId: number, input
  */
 export async function removeMembership(actor: Actor, membershipId: number): Promise<{ removed: true; id: number }> {
   try {
-    return await sequelize.transaction(async (transaction) => {
+    return await inTransaction(async (transaction) => {
       await lockCoop(actor.coop.id, transaction);
       const before = await lockMembership(actor, membershipId, transaction);
       if (before.role === 'admin' && before.status === 'active' && (await otherActiveAdmins(actor.coop.id, membershipId, transaction)) === 0) {
         throw conflict(LAST_ADMIN);
       }
-      await sequelize.query('DELETE FROM memberships WHERE id = :membershipId AND coop_id = :coopId', {
-        replacements: { membershipId, coopId: actor.coop.id },
-        transaction,
-      });
+      await Membership.destroy({ where: { id: membershipId, coopId: actor.coop.id }, transaction });
       await audit(
         {
           coopId: actor.coop.id, actorUserId: actor.user.id, action: 'membership.remove', entityType: 'membership', entityId: membershipId,
-          before: { userId: before.user_id, email: before.email, name: before.name, role: before.role, status: before.status },
+          before: { userId: before.userId, email: before.user.email, name: before.user.name, role: before.role, status: before.status },
           after: null,
         },
         transaction,

@@ -1,15 +1,15 @@
 import 'server-only';
-import { QueryTypes, type Transaction } from 'sequelize';
+import { fn, Op, type InferAttributes, type Order, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { queryRows, sequelize, statement } from '@/lib/db';
+import { inTransaction } from '@/lib/db';
 import { HttpError } from '@/lib/http';
 import type { PricingPolicy } from '@/lib/pricing';
 import { parseInstant } from '@/lib/reservations/window';
 import type { UnitSystem } from '@/lib/units';
 import type { pricingPolicyCreateSchema } from '@/lib/validation/tank';
-import { PricePolicy } from '@/models';
+import { PricePolicy, User } from '@/models';
 import { describePolicy, perUnitToPerGallonText, policyInUnits, type PolicyRow } from './convert';
 
 export interface PolicyDto {
@@ -26,57 +26,76 @@ export interface PolicyDto {
   status: 'in-force' | 'scheduled' | 'past';
 }
 
-type Row = PolicyRow & { id: number; effective_from: Date; created_at: Date; created_by: string | null; in_force: boolean };
+/** A policy as the history reads it, with who set it. */
+type PolicyListRow = Pick<InferAttributes<PricePolicy>,
+  'id' | 'kind' | 'priceCentsPerGallon' | 'marginCentsPerGallon' | 'marginPct' | 'surchargeCentsPerGallon' | 'roadTaxCentsPerGallon' | 'effectiveFrom' | 'createdAt'> & {
+  createdBy: { name: string | null };
+};
 
-function policyDto(r: Row, units: UnitSystem, currency: string): PolicyDto {
-  const policy = policyInUnits(r, units);
-  const n = (v: string | number | null) => (v === null ? null : Number(v));
+const POLICY_ATTRIBUTES = ['id', 'kind', 'priceCentsPerGallon', 'marginCentsPerGallon', 'marginPct', 'surchargeCentsPerGallon', 'roadTaxCentsPerGallon', 'effectiveFrom', 'createdAt'] as const;
+
+/** The stored rates in the shape lib/pricing-policy/convert reads (cents per US gallon). */
+function policyRow(r: Pick<InferAttributes<PricePolicy>, 'kind' | 'priceCentsPerGallon' | 'marginCentsPerGallon' | 'marginPct' | 'surchargeCentsPerGallon' | 'roadTaxCentsPerGallon'>): PolicyRow {
   return {
-    id: r.id, kind: r.kind, policy,
-    stored: {
-      priceCentsPerGallon: n(r.price_cents_per_gallon), marginCentsPerGallon: n(r.margin_cents_per_gallon), marginPct: n(r.margin_pct),
-      surchargeCentsPerGallon: Number(r.surcharge_cents_per_gallon), roadTaxCentsPerGallon: Number(r.road_tax_cents_per_gallon),
-    },
-    description: describePolicy(policy, units, currency),
-    effectiveFrom: new Date(r.effective_from).toISOString(), createdAt: new Date(r.created_at).toISOString(), createdBy: r.created_by,
-    status: r.in_force ? 'in-force' : new Date(r.effective_from).getTime() > Date.now() ? 'scheduled' : 'past',
+    kind: r.kind, price_cents_per_gallon: r.priceCentsPerGallon, margin_cents_per_gallon: r.marginCentsPerGallon, margin_pct: r.marginPct,
+    surcharge_cents_per_gallon: r.surchargeCentsPerGallon, road_tax_cents_per_gallon: r.roadTaxCentsPerGallon,
   };
 }
 
-const POLICY_COLUMNS = `p.id, p.kind, p.price_cents_per_gallon, p.margin_cents_per_gallon, p.margin_pct, p.surcharge_cents_per_gallon,
-  p.road_tax_cents_per_gallon, p.effective_from, p.created_at`;
+function policyDto(r: PolicyListRow, inForce: boolean, units: UnitSystem, currency: string): PolicyDto {
+  const stored = policyRow(r);
+  const policy = policyInUnits(stored, units);
+  const n = (v: string | null) => (v === null ? null : Number(v));
+  return {
+    id: r.id, kind: r.kind, policy,
+    stored: {
+      priceCentsPerGallon: n(r.priceCentsPerGallon), marginCentsPerGallon: n(r.marginCentsPerGallon), marginPct: n(r.marginPct),
+      surchargeCentsPerGallon: Number(r.surchargeCentsPerGallon), roadTaxCentsPerGallon: Number(r.roadTaxCentsPerGallon),
+    },
+    description: describePolicy(policy, units, currency),
+    effectiveFrom: new Date(r.effectiveFrom).toISOString(), createdAt: new Date(r.createdAt).toISOString(), createdBy: r.createdBy?.name ?? null,
+    status: inForce ? 'in-force' : new Date(r.effectiveFrom).getTime() > Date.now() ? 'scheduled' : 'past',
+  };
+}
+
+/** Newest first: the latest effective_from, ties to the later insert. */
+const POLICY_ORDER: Order = [['effectiveFrom', 'DESC'], ['id', 'DESC']];
 
 /**
  * The policy in force for a co-op right now: the newest row whose effective_from has come
  * (ties go to the later insert). Null when the co-op has never set one.
  */
-export const POLICY_IN_FORCE = statement(
-  `SELECT ${POLICY_COLUMNS} FROM price_policies p WHERE p.coop_id = $1 AND p.effective_from <= now()
-   ORDER BY p.effective_from DESC, p.id DESC LIMIT 1`,
-  'tv_policy_in_force',
-);
-
 export async function policyInForce(coopId: number, transaction?: Transaction): Promise<(PolicyRow & { id: number }) | null> {
-  const [row] = await queryRows<PolicyRow & { id: number }>(POLICY_IN_FORCE, [coopId], transaction);
-  return row ?? null;
+  const row = await PricePolicy.findOne({
+    attributes: ['id', 'kind', 'priceCentsPerGallon', 'marginCentsPerGallon', 'marginPct', 'surchargeCentsPerGallon', 'roadTaxCentsPerGallon'],
+    where: { coopId, effectiveFrom: { [Op.lte]: fn('now') } },
+    order: POLICY_ORDER,
+    transaction,
+    raw: true,
+  });
+  return row ? { id: row.id, ...policyRow(row) } : null;
 }
 
 /** The policy in force as a DTO (any member may see the price they will pay). */
 export async function getCurrentPolicy(actor: Actor): Promise<PolicyDto | null> {
-  return (await listPolicies(actor, 1)).find((p) => p.status === 'in-force') ?? null;
+  const row = (await PricePolicy.findOne({
+    attributes: [...POLICY_ATTRIBUTES], where: { coopId: actor.coop.id, effectiveFrom: { [Op.lte]: fn('now') } },
+    include: [{ model: User, as: 'createdBy', attributes: ['name'], required: false }], order: POLICY_ORDER, raw: true, nest: true,
+  })) as unknown as PolicyListRow | null;
+  return row ? policyDto(row, true, actor.coop.units, actor.coop.currency) : null;
 }
 
-/** Every policy the co-op has had (newest first), marking the one in force and any scheduled. */
+/** Every policy the co-op has had (newest first, the one in force at the top), marking the one in force and any scheduled. */
 export async function listPolicies(actor: Actor, limit = 200): Promise<PolicyDto[]> {
-  const rows = await sequelize.query<Row>(
-    `WITH cur AS (SELECT id FROM price_policies WHERE coop_id = :coopId AND effective_from <= now() ORDER BY effective_from DESC, id DESC LIMIT 1)
-     SELECT ${POLICY_COLUMNS}, u.name AS created_by, (p.id = (SELECT id FROM cur)) AS in_force
-     FROM price_policies p LEFT JOIN users u ON u.id = p.created_by_user_id
-     WHERE p.coop_id = :coopId
-     ORDER BY (p.id = (SELECT id FROM cur)) DESC, p.effective_from DESC, p.id DESC LIMIT :limit`,
-    { replacements: { coopId: actor.coop.id, limit }, type: QueryTypes.SELECT },
-  );
-  return rows.map((r) => policyDto({ ...r, in_force: Boolean(r.in_force) }, actor.coop.units, actor.coop.currency));
+  const rows = (await PricePolicy.findAll({
+    attributes: [...POLICY_ATTRIBUTES], where: { coopId: actor.coop.id },
+    include: [{ model: User, as: 'createdBy', attributes: ['name'], required: false }], order: POLICY_ORDER, limit, raw: true, nest: true,
+  })) as unknown as PolicyListRow[];
+  // In that order, the first whose start has come is in force; scheduled ones come before it.
+  const now = Date.now();
+  const current = rows.findIndex((r) => new Date(r.effectiveFrom).getTime() <= now);
+  const ordered = current > 0 ? [rows[current]!, ...rows.slice(0, current), ...rows.slice(current + 1)] : rows;
+  return ordered.map((r) => policyDto(r, current >= 0 && r === rows[current], actor.coop.units, actor.coop.currency));
 }
 
 /**
@@ -96,7 +115,7 @@ export async function createPolicy(actor: Actor, input: z.infer<typeof pricingPo
     effectiveFrom = t;
   }
   const rate = (thousandthsOfCent: number | undefined) => (thousandthsOfCent === undefined ? '0.000' : perUnitToPerGallonText(thousandthsOfCent / 1000, units));
-  const created = await sequelize.transaction(async (transaction) => {
+  const created = await inTransaction(async (transaction) => {
     const p = await PricePolicy.create(
       {
         coopId: actor.coop.id, kind: input.kind,

@@ -1,18 +1,17 @@
 import 'server-only';
-import { QueryTypes, UniqueConstraintError } from 'sequelize';
+import { literal, Op, UniqueConstraintError, type InferAttributes, type Order, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { runReadPlan, sequelize, statement, type ReadPlan } from '@/lib/db';
+import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
-import { EXPIRE_CTES, expireLapsedReservations } from '@/lib/reservations/expire';
+import { expireLapsedReservations } from '@/lib/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { dipCreateSchema, movementListSchema, tankCreateSchema, tankUpdateSchema, transferCreateSchema } from '@/lib/validation/tank';
-import { DipReading, Tank } from '@/models';
+import { Coop, DipReading, Draw, Membership, Tank, TankMovement, User } from '@/models';
 import { recordMovement, type MovementKind } from './ledger';
 import { litersToMl, mlToLiters } from './quantity';
-import { inTransaction } from './tx';
 import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from './volume';
 
 /** A tank as the screens and JSON see it: litres as stored, and the same in the co-op's unit. */
@@ -23,6 +22,7 @@ export interface TankDto {
   units: UnitSystem;
   capacityLiters: number;
   onHandLiters: number;
+  /** Open reservations whose window has not ended. */
   reservedLiters: number;
   /** On hand − reserved. */
   availableLiters: number;
@@ -40,17 +40,66 @@ export interface TankDto {
   lastDipAt: string | null;
 }
 
-interface TankRow {
-  id: number; name: string; active: boolean; capacity_liters: string; on_hand_liters: string; reserved_liters: string; value_cents: string;
-  last_dip_at: Date | null;
+/**
+ * A tank row as the list reads it: the stored totals, plus the litres of its reservations that
+ * are still open but whose window has ended (not yet marked expired by a write) and the time of
+ * its last dip. NUMERIC and BIGINT arrive as strings.
+ */
+export type TankListRow = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'valueCents'> & {
+  lapsedLiters: string;
+  lastDipAt: Date | null;
+};
+
+// Correlated subqueries on the tank row. The main table's alias is the model's name, which the
+// production build minifies, so it is taken from the class rather than written out. Both are
+// index scans: reservations_open_window (coop_id, window_end) WHERE status = 'open', and
+// dip_readings_coop_tank (coop_id, tank_id, measured_at DESC).
+const T = `"${Tank.name}"`;
+const LAPSED_LITERS = literal(`(SELECT coalesce(sum(r.quantity_liters), 0) FROM reservations r
+  WHERE r.coop_id = ${T}.coop_id AND r.status = 'open' AND r.window_end < now() AND r.tank_id = ${T}.id)`);
+const LAST_DIP_AT = literal(`(SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = ${T}.coop_id AND d.tank_id = ${T}.id)`);
+const TANK_ORDER: Order = [['active', 'DESC'], ['id', 'ASC']];
+
+/**
+ * The tank list's one query: a co-op's tanks (optionally only those in service, or one by id)
+ * with their totals, their lapsed-but-still-open reservations and their last dip. It writes
+ * nothing: reserved is reported net of lapsed reservations, which a later write marks expired.
+ * The bench route runs exactly this query.
+ */
+export async function findTankRows(coopId: number, opts: { activeOnly?: boolean; tankId?: number } = {}): Promise<TankListRow[]> {
+  const where: WhereOptions<Tank> = { coopId };
+  if (opts.activeOnly) where.active = true;
+  if (opts.tankId !== undefined) where.id = opts.tankId;
+  const rows = await Tank.findAll({
+    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'valueCents', [LAPSED_LITERS, 'lapsedLiters'], [LAST_DIP_AT, 'lastDipAt']],
+    where,
+    order: TANK_ORDER,
+    raw: true,
+  });
+  return rows as unknown as TankListRow[];
 }
 
-function tankDto(r: TankRow, units: UnitSystem): TankDto {
-  const onHandMl = litersToMl(r.on_hand_liters);
-  const reservedMl = litersToMl(r.reserved_liters);
-  const capacityMl = litersToMl(r.capacity_liters);
+const benchCoopIds = new Map<string, number>();
+
+/**
+ * For the bench-only route: a co-op id from an id or a slug (a slug is looked up once per
+ * process, so the measured request runs only the tank query). Null when unknown.
+ */
+export async function findCoopIdForBench(idOrSlug: string): Promise<number | null> {
+  if (/^[1-9]\d{0,8}$/.test(idOrSlug)) return Number(idOrSlug);
+  const known = benchCoopIds.get(idOrSlug);
+  if (known !== undefined) return known;
+  const coop = await Coop.findOne({ attributes: ['id'], where: { slug: idOrSlug }, raw: true });
+  if (coop) benchCoopIds.set(idOrSlug, coop.id);
+  return coop?.id ?? null;
+}
+
+function tankDto(r: TankListRow, units: UnitSystem): TankDto {
+  const onHandMl = litersToMl(r.onHandLiters);
+  const reservedMl = litersToMl(r.reservedLiters) - litersToMl(r.lapsedLiters);
+  const capacityMl = litersToMl(r.capacityLiters);
   const availableMl = onHandMl - reservedMl;
-  const valueCents = Number(r.value_cents);
+  const valueCents = Number(r.valueCents);
   const perGallon = onHandMl > 0 ? (valueCents / onHandMl) * 1000 * LITERS_PER_US_GALLON : null;
   const perUnit = onHandMl > 0 ? valueCents / mlToUnits(onHandMl, units) : null;
   const r2 = (v: number | null) => (v === null ? null : Math.round(v * 100) / 100);
@@ -59,49 +108,24 @@ function tankDto(r: TankRow, units: UnitSystem): TankDto {
     capacityLiters: capacityMl / 1000, onHandLiters: onHandMl / 1000, reservedLiters: reservedMl / 1000, availableLiters: availableMl / 1000,
     capacity: mlToUnits3(capacityMl, units), onHand: mlToUnits3(onHandMl, units), reserved: mlToUnits3(reservedMl, units), available: mlToUnitsFloor(availableMl, units),
     valueCents, avgCostCentsPerGallon: r2(perGallon), avgCostCentsPerUnit: r2(perUnit),
-    lastDipAt: r.last_dip_at ? new Date(r.last_dip_at).toISOString() : null,
+    lastDipAt: r.lastDipAt ? new Date(r.lastDipAt).toISOString() : null,
   };
 }
-
-const TANK_COLUMNS = `t.id, t.name, t.active, t.capacity_liters, t.on_hand_liters, t.value_cents,
-  (SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = t.coop_id AND d.tank_id = t.id) AS last_dip_at`;
-
-const listTanksStatement = (activeOnly: boolean) =>
-  statement(
-    `WITH ${EXPIRE_CTES}
-     SELECT ${TANK_COLUMNS}, (t.reserved_liters - coalesce(p.liters, 0))::text AS reserved_liters
-     FROM tanks t LEFT JOIN expired_per_tank p ON p.tank_id = t.id
-     WHERE t.coop_id = $1 ${activeOnly ? 'AND t.active' : ''}
-     ORDER BY t.active DESC, t.id`,
-    activeOnly ? 'tv_list_active_tanks' : 'tv_list_tanks',
-  );
-const LIST_TANKS = listTanksStatement(false);
-const LIST_ACTIVE_TANKS = listTanksStatement(true);
 
 /**
- * The co-op's tanks with on hand, reserved, available and average cost. One statement: it
- * first expires lapsed reservations (lazy expiry) and reports reserved net of them. The tank
- * route sends it with the session check; the expiry is housekeeping that any read of the co-op's
- * tanks does, whoever asks.
+ * The co-op's tanks with on hand, reserved, available and average cost, in service first.
+ * Reserved counts open reservations whose window has not ended; the read writes nothing.
  * @param actor any member (tank:read)
  */
-export function listTanksPlan(actor: Actor, opts: { activeOnly?: boolean } = {}): ReadPlan<TankDto[]> {
-  return {
-    reads: [[opts.activeOnly ? LIST_ACTIVE_TANKS : LIST_TANKS, [actor.coop.id]]],
-    finish: ([rows]) => (rows as TankRow[]).map((r) => tankDto(r, actor.coop.units)),
-  };
-}
-
-/** The co-op's tanks (see {@link listTanksPlan}). */
-export function listTanks(actor: Actor, opts: { activeOnly?: boolean } = {}): Promise<TankDto[]> {
-  return runReadPlan(listTanksPlan(actor, opts));
+export async function listTanks(actor: Actor, opts: { activeOnly?: boolean } = {}): Promise<TankDto[]> {
+  return (await findTankRows(actor.coop.id, opts)).map((r) => tankDto(r, actor.coop.units));
 }
 
 /** One tank of the actor's co-op (404 for another co-op's or a missing id). */
 export async function getTank(actor: Actor, tankId: number): Promise<TankDto> {
-  const tank = (await listTanks(actor)).find((t) => t.id === tankId);
-  if (!tank) throw notFound('Tank not found.');
-  return tank;
+  const [row] = await findTankRows(actor.coop.id, { tankId });
+  if (!row) throw notFound('Tank not found.');
+  return tankDto(row, actor.coop.units);
 }
 
 const nameTaken = () => new HttpError(422, 'Some fields need attention.', { name: ['Another tank in this co-op already has that name.'] });
@@ -110,7 +134,7 @@ const nameTaken = () => new HttpError(422, 'Some fields need attention.', { name
 export async function createTank(actor: Actor, input: z.infer<typeof tankCreateSchema>): Promise<TankDto> {
   const capacityMl = milliUnitsToMl(input.capacity, actor.coop.units);
   try {
-    const tank = await sequelize.transaction(async (transaction) => {
+    const tank = await inTransaction(async (transaction) => {
       const t = await Tank.create({ coopId: actor.coop.id, name: input.name, capacityLiters: mlToLiters(capacityMl) }, { transaction });
       await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.create', entityType: 'tank', entityId: t.id, after: { name: t.name, capacityLiters: t.capacityLiters } }, transaction);
       return t;
@@ -126,6 +150,7 @@ export async function createTank(actor: Actor, input: z.infer<typeof tankCreateS
 export async function updateTank(actor: Actor, tankId: number, input: z.infer<typeof tankUpdateSchema>): Promise<TankDto> {
   try {
     await inTransaction(async (transaction) => {
+      if (input.active === false) await expireLapsedReservations(actor.coop.id, transaction);
       const tank = await Tank.findOne({ where: { id: tankId, coopId: actor.coop.id }, lock: transaction.LOCK.UPDATE, transaction });
       if (!tank) throw notFound('Tank not found.');
       const before = { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active };
@@ -154,14 +179,18 @@ export async function updateTank(actor: Actor, tankId: number, input: z.infer<ty
   return getTank(actor, tankId);
 }
 
-interface LockedTank { id: number; name: string; active: boolean; capacity_liters: string; on_hand_liters: string; reserved_liters: string; value_cents: string }
+/** The tank columns a write path reads under its row lock. */
+export type LockedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'valueCents'>;
 
 /** Locks a tank row of the co-op for the rest of the transaction (404 when not the co-op's). */
-export async function lockTank(coopId: number, tankId: number, transaction: import('sequelize').Transaction): Promise<LockedTank> {
-  const [row] = await sequelize.query<LockedTank>(
-    `SELECT id, name, active, capacity_liters, on_hand_liters, reserved_liters, value_cents FROM tanks WHERE id = :tankId AND coop_id = :coopId FOR UPDATE`,
-    { replacements: { tankId, coopId }, type: QueryTypes.SELECT, transaction },
-  );
+export async function lockTank(coopId: number, tankId: number, transaction: Transaction): Promise<LockedTank> {
+  const row = await Tank.findOne({
+    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'valueCents'],
+    where: { id: tankId, coopId },
+    lock: transaction.LOCK.UPDATE,
+    transaction,
+    raw: true,
+  });
   if (!row) throw notFound('Tank not found.');
   return row;
 }
@@ -179,7 +208,8 @@ export interface DipResult {
  * Records a dip reading: the measured volume against the book figure. A difference becomes one
  * 'dip-adjustment' ledger row with its reason (a gain is valued at `unitCost` when given, e.g. an
  * opening balance, otherwise at the tank's average cost; a loss leaves at average cost). The
- * reading may not fall below what members have reserved (409).
+ * reading may not fall below what members have reserved (409). Lapsed reservations are marked
+ * expired first, so they no longer count.
  */
 export async function recordDip(actor: Actor, tankId: number, input: z.infer<typeof dipCreateSchema>): Promise<DipResult> {
   const units = actor.coop.units;
@@ -188,9 +218,9 @@ export async function recordDip(actor: Actor, tankId: number, input: z.infer<typ
     const tank = await lockTank(actor.coop.id, tankId, transaction);
     if (!tank.active) throw conflict(`${tank.name} is out of service; put it back in service before recording a dip.`);
     const measuredMl = milliUnitsToMl(input.measured, units);
-    const bookMl = litersToMl(tank.on_hand_liters);
-    const reservedMl = litersToMl(tank.reserved_liters);
-    const capacityMl = litersToMl(tank.capacity_liters);
+    const bookMl = litersToMl(tank.onHandLiters);
+    const reservedMl = litersToMl(tank.reservedLiters);
+    const capacityMl = litersToMl(tank.capacityLiters);
     const diffMl = measuredMl - bookMl;
     if (measuredMl > capacityMl) {
       throw new HttpError(422, 'Some fields need attention.', { measured: [`${tank.name} holds at most ${formatMl(capacityMl, units)}. Check the reading, or correct the tank's capacity first.`] });
@@ -253,14 +283,14 @@ export async function transferFuel(actor: Actor, input: z.infer<typeof transferC
     if (!to) fields.toTankId = ['No such tank in this co-op.'];
     if (!from || !to) throw new HttpError(422, 'Some fields need attention.', fields);
     if (!from.active || !to.active) throw conflict(`${!from.active ? from.name : to.name} is out of service.`);
-    const availableMl = litersToMl(from.on_hand_liters) - litersToMl(from.reserved_liters);
+    const availableMl = litersToMl(from.onHandLiters) - litersToMl(from.reservedLiters);
     if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;
     if (qMl > availableMl) {
       throw new HttpError(409, `${from.name} has only ${formatMl(availableMl, units, { floor: true })} available to move (reserved fuel stays put).`, { quantity: ['More than is available.'] }, {
         availableLiters: availableMl / 1000, available: mlToUnitsFloor(availableMl, units),
       });
     }
-    const roomMl = litersToMl(to.capacity_liters) - litersToMl(to.on_hand_liters);
+    const roomMl = litersToMl(to.capacityLiters) - litersToMl(to.onHandLiters);
     if (qMl > roomMl) {
       throw new HttpError(409, `${to.name} has room for only ${formatMl(roomMl, units, { floor: true })}.`, { quantity: ['More than the destination can hold.'] });
     }
@@ -268,7 +298,7 @@ export async function transferFuel(actor: Actor, input: z.infer<typeof transferC
     const inn = await recordMovement(transaction, { coopId: actor.coop.id, tankId: to.id, kind: 'transfer-in', quantityMl: qMl, valueCents: -out.valueCents, transferTankId: from.id, reason: input.reason ?? null, userId: actor.user.id });
     await audit({
       coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.transfer', entityType: 'tank', entityId: from.id,
-      before: { fromOnHandLiters: from.on_hand_liters, toOnHandLiters: to.on_hand_liters },
+      before: { fromOnHandLiters: from.onHandLiters, toOnHandLiters: to.onHandLiters },
       after: { toTankId: to.id, quantityLiters: mlToLiters(qMl), valueCents: -out.valueCents, movementIds: [out.id, inn.id] },
     }, transaction);
   });
@@ -294,7 +324,15 @@ export interface MovementDto {
   occurredAt: string;
 }
 
-const MOVEMENT_SORT = { recorded: 'm.id', occurred_at: 'm.occurred_at', quantity: 'm.quantity_liters', kind: 'm.kind' } as const;
+/** A ledger row as the list reads it (raw, nested includes). */
+type MovementListRow = Pick<InferAttributes<TankMovement>,
+  'id' | 'kind' | 'quantityLiters' | 'valueCents' | 'onHandAfterLiters' | 'valueAfterCents' | 'reason' | 'batchId' | 'drawId' | 'occurredAt'> & {
+  createdBy: { name: string | null };
+  transferTank: { name: string | null };
+  draw: { membership: { user: { name: string | null } } };
+};
+
+const MOVEMENT_SORT = { recorded: 'id', occurred_at: 'occurredAt', quantity: 'quantityLiters', kind: 'kind' } as const;
 
 /**
  * A tank's ledger, a page at a time, sorted on the server (default: newest first as recorded).
@@ -302,40 +340,42 @@ const MOVEMENT_SORT = { recorded: 'm.id', occurred_at: 'm.occurred_at', quantity
  */
 export async function listMovements(actor: Actor, tankId: number, q: z.infer<typeof movementListSchema>) {
   const units = actor.coop.units;
-  const [tank] = await sequelize.query<{ id: number }>(`SELECT id FROM tanks WHERE id = :tankId AND coop_id = :coopId`, {
-    replacements: { tankId, coopId: actor.coop.id }, type: QueryTypes.SELECT,
-  });
-  if (!tank) throw notFound('Tank not found.');
-  const where = `m.coop_id = :coopId AND m.tank_id = :tankId ${q.kind ? 'AND m.kind = :kind' : ''}`;
-  const replacements = { coopId: actor.coop.id, tankId, kind: q.kind ?? null, limit: q.pageSize, offset: (q.page - 1) * q.pageSize };
-  const order = `${MOVEMENT_SORT[q.sort as keyof typeof MOVEMENT_SORT]} ${q.dir === 'asc' ? 'ASC' : 'DESC'}, m.id ${q.dir === 'asc' ? 'ASC' : 'DESC'}`;
-  const [rows, [count]] = await Promise.all([
-    sequelize.query<{
-      id: string; kind: MovementKind; quantity_liters: string; value_cents: string; on_hand_after_liters: string; value_after_cents: string;
-      reason: string | null; batch_id: number | null; draw_id: number | null; member_name: string | null; transfer_tank_name: string | null; by_name: string | null; occurred_at: Date;
-    }>(
-      `SELECT m.id, m.kind, m.quantity_liters, m.value_cents, m.on_hand_after_liters, m.value_after_cents, m.reason, m.batch_id, m.draw_id,
-              du.name AS member_name, tt.name AS transfer_tank_name, u.name AS by_name, m.occurred_at
-       FROM tank_movements m
-       LEFT JOIN users u ON u.id = m.created_by_user_id
-       LEFT JOIN tanks tt ON tt.id = m.transfer_tank_id AND tt.coop_id = m.coop_id
-       LEFT JOIN draws d ON d.id = m.draw_id AND d.coop_id = m.coop_id
-       LEFT JOIN memberships dm ON dm.id = d.membership_id
-       LEFT JOIN users du ON du.id = dm.user_id
-       WHERE ${where} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
-      { replacements, type: QueryTypes.SELECT },
-    ),
-    sequelize.query<{ n: string }>(`SELECT count(*)::text AS n FROM tank_movements m WHERE ${where}`, { replacements, type: QueryTypes.SELECT }),
+  const coopId = actor.coop.id;
+  const where: WhereOptions<TankMovement> = { coopId, tankId };
+  if (q.kind) where.kind = q.kind as MovementKind;
+  const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
+  const [tank, rows, total] = await Promise.all([
+    Tank.findOne({ attributes: ['id'], where: { id: tankId, coopId }, raw: true }),
+    TankMovement.findAll({
+      attributes: ['id', 'kind', 'quantityLiters', 'valueCents', 'onHandAfterLiters', 'valueAfterCents', 'reason', 'batchId', 'drawId', 'occurredAt'],
+      where,
+      include: [
+        { model: User, as: 'createdBy', attributes: ['name'] },
+        { model: Tank, as: 'transferTank', attributes: ['name'], where: { coopId }, required: false },
+        {
+          model: Draw, as: 'draw', attributes: [], where: { coopId }, required: false,
+          include: [{ model: Membership, as: 'membership', attributes: [], include: [{ model: User, as: 'user', attributes: ['name'] }] }],
+        },
+      ],
+      order: [[MOVEMENT_SORT[q.sort as keyof typeof MOVEMENT_SORT], dir], ['id', dir]],
+      limit: q.pageSize,
+      offset: (q.page - 1) * q.pageSize,
+      raw: true,
+      nest: true,
+    }) as unknown as Promise<MovementListRow[]>,
+    TankMovement.count({ where }),
   ]);
+  if (!tank) throw notFound('Tank not found.');
   const items: MovementDto[] = rows.map((r) => {
-    const qMl = litersToMl(r.quantity_liters);
-    const afterMl = litersToMl(r.on_hand_after_liters);
+    const qMl = litersToMl(r.quantityLiters);
+    const afterMl = litersToMl(r.onHandAfterLiters);
     return {
-      id: r.id, kind: r.kind, quantityLiters: qMl / 1000, quantity: mlToUnits3(qMl, units), valueCents: Number(r.value_cents),
-      onHandAfterLiters: afterMl / 1000, onHandAfter: mlToUnits3(afterMl, units), valueAfterCents: Number(r.value_after_cents),
-      reason: r.reason, batchId: r.batch_id, drawId: r.draw_id, memberName: r.member_name, transferTankName: r.transfer_tank_name, byName: r.by_name,
-      occurredAt: new Date(r.occurred_at).toISOString(),
+      id: r.id, kind: r.kind, quantityLiters: qMl / 1000, quantity: mlToUnits3(qMl, units), valueCents: Number(r.valueCents),
+      onHandAfterLiters: afterMl / 1000, onHandAfter: mlToUnits3(afterMl, units), valueAfterCents: Number(r.valueAfterCents),
+      reason: r.reason, batchId: r.batchId, drawId: r.drawId, memberName: r.draw?.membership?.user?.name ?? null,
+      transferTankName: r.transferTank?.name ?? null, byName: r.createdBy?.name ?? null,
+      occurredAt: new Date(r.occurredAt).toISOString(),
     };
   });
-  return { items, page: q.page, pageSize: q.pageSize, total: Number(count?.n ?? 0) };
+  return { items, page: q.page, pageSize: q.pageSize, total };
 }

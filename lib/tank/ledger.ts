@@ -1,10 +1,11 @@
 import 'server-only';
-import { QueryTypes, type Transaction } from 'sequelize';
-import { sequelize } from '@/lib/db';
+import type { Transaction } from 'sequelize';
 import { HttpError } from '@/lib/http';
+import { Tank, TankMovement } from '@/models';
 import { litersToMl, mlToLiters } from './quantity';
+import type { TankMovementKind as MovementKind } from '@/models/TankMovement';
 
-export type MovementKind = 'release' | 'draw' | 'draw-reversal' | 'dip-adjustment' | 'transfer-in' | 'transfer-out';
+export type { TankMovementKind as MovementKind } from '@/models/TankMovement';
 
 export interface MovementInput {
   coopId: number;
@@ -43,14 +44,17 @@ export interface MovementResult {
  */
 export async function recordMovement(t: Transaction, m: MovementInput): Promise<MovementResult> {
   if (!Number.isInteger(m.quantityMl) || m.quantityMl === 0) throw new Error('quantityMl must be a non-zero integer');
-  const [tank] = await sequelize.query<{ on_hand_liters: string; reserved_liters: string; value_cents: string }>(
-    `SELECT on_hand_liters, reserved_liters, value_cents FROM tanks WHERE id = :tankId AND coop_id = :coopId FOR UPDATE`,
-    { replacements: { tankId: m.tankId, coopId: m.coopId }, type: QueryTypes.SELECT, transaction: t },
-  );
+  const tank = await Tank.findOne({
+    attributes: ['onHandLiters', 'reservedLiters', 'valueCents'],
+    where: { id: m.tankId, coopId: m.coopId },
+    lock: t.LOCK.UPDATE,
+    transaction: t,
+    raw: true,
+  });
   if (!tank) throw new HttpError(404, 'Tank not found.');
-  const onHand = litersToMl(tank.on_hand_liters);
-  const reserved = litersToMl(tank.reserved_liters);
-  const value = Number(tank.value_cents);
+  const onHand = litersToMl(tank.onHandLiters);
+  const reserved = litersToMl(tank.reservedLiters);
+  const value = Number(tank.valueCents);
   const after = onHand + m.quantityMl;
   if (after < 0) {
     throw new HttpError(409, `The tank holds only ${mlToLiters(onHand)} L.`, { quantity: ['More than the tank holds.'] }, { onHandLiters: mlToLiters(onHand) });
@@ -65,24 +69,15 @@ export async function recordMovement(t: Transaction, m: MovementInput): Promise<
       quantity: ['Less than the reserved amount would remain.'],
     });
   }
-  await sequelize.query(
-    `UPDATE tanks SET on_hand_liters = :after, value_cents = :valueAfter, updated_at = now() WHERE id = :tankId AND coop_id = :coopId`,
-    { replacements: { after: mlToLiters(after), valueAfter, tankId: m.tankId, coopId: m.coopId }, transaction: t },
-  );
-  const [row] = await sequelize.query<{ id: string }>(
-    `INSERT INTO tank_movements (coop_id, tank_id, kind, quantity_liters, value_cents, on_hand_after_liters, value_after_cents,
-       batch_id, draw_id, transfer_tank_id, reason, created_by_user_id, occurred_at)
-     VALUES (:coopId, :tankId, :kind, :q, :moved, :after, :valueAfter, :batchId, :drawId, :transferTankId, :reason, :userId, :occurredAt)
-     RETURNING id`,
+  await Tank.update({ onHandLiters: mlToLiters(after), valueCents: String(valueAfter) }, { where: { id: m.tankId, coopId: m.coopId }, transaction: t });
+  const row = await TankMovement.create(
     {
-      replacements: {
-        coopId: m.coopId, tankId: m.tankId, kind: m.kind, q: mlToLiters(m.quantityMl), moved, after: mlToLiters(after), valueAfter,
-        batchId: m.batchId ?? null, drawId: m.drawId ?? null, transferTankId: m.transferTankId ?? null, reason: m.reason ?? null,
-        userId: m.userId, occurredAt: m.occurredAt ?? new Date(),
-      },
-      type: QueryTypes.SELECT,
-      transaction: t,
+      coopId: m.coopId, tankId: m.tankId, kind: m.kind, quantityLiters: mlToLiters(m.quantityMl), valueCents: String(moved),
+      onHandAfterLiters: mlToLiters(after), valueAfterCents: String(valueAfter),
+      batchId: m.batchId ?? null, drawId: m.drawId ?? null, transferTankId: m.transferTankId ?? null, reason: m.reason ?? null,
+      createdByUserId: m.userId, occurredAt: m.occurredAt ?? new Date(),
     },
+    { transaction: t, returning: ['id'] },
   );
-  return { id: row!.id, quantityMl: m.quantityMl, valueCents: moved, onHandAfterMl: after, valueAfterCents: valueAfter };
+  return { id: String(row.id), quantityMl: m.quantityMl, valueCents: moved, onHandAfterMl: after, valueAfterCents: valueAfter };
 }

@@ -1,15 +1,18 @@
-// The busiest read routes (batch list, planner, tank list) send the session check and their reads
-// in one round trip, with reads built from the actor the server saw last for that user and co-op.
-// These tests change the membership, the session and the co-op between requests and check that
-// each answer follows the fresh state from the very next request, never the remembered one.
+// The busiest read routes (batch list, planner, tank list, overview) read the session, the user's
+// session version and their membership on every request. These tests change the membership, the
+// session and the co-op between requests and check that each answer follows the fresh state from
+// the very next request.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { api as http, makeCoopWithRoles, sql } from '../support/api';
+import type { Response } from 'supertest';
+import { api as http, makeCoopWithRoles, makeUser, type Role, signIn, sql } from '../support/api';
 import { insertBatch } from '../support/batches';
 
 type Ctx = Awaited<ReturnType<typeof makeCoopWithRoles>>;
+type Agent = Ctx['agents']['brewer'];
 const base = (slug: string) => `/api/coops/${slug}`;
+const numbers = (body: { rows: { number: number }[] }) => body.rows.map((r) => r.number).sort();
 
-describe('session check sent with the reads', () => {
+describe('the session and membership are read fresh on every request', () => {
   let ctx: Ctx;
   beforeAll(async () => {
     ctx = await makeCoopWithRoles();
@@ -19,32 +22,91 @@ describe('session check sent with the reads', () => {
     await insertBatch(ctx.coop.id, { number: 2, status: 'planned' });
   });
 
-  const numbers = (body: { rows: { number: number }[] }) => body.rows.map((r) => r.number).sort();
+  const planner = (agent: Agent | ReturnType<typeof http>, body: string) =>
+    agent.post(`${base(ctx.coop.slug)}/planner`).set('content-type', 'application/json').send(body);
+  const PLAN = '{"oilVolume": 40, "titrationTrials": [2]}';
 
-  it('batch list: a demotion, suspension and removal count from the very next request', async () => {
-    const { agents, users, coop } = ctx;
-    const membership = users.brewer.membershipId;
-    // Twice, so the second request already goes out with reads built from the remembered brewer.
-    for (let i = 0; i < 2; i++) expect(numbers((await agents.brewer.get(`${base(coop.slug)}/batches`).expect(200)).body)).toEqual([1, 2]);
-    await sql(`UPDATE memberships SET role = 'member' WHERE id = $1`, [membership]);
-    expect(numbers((await agents.brewer.get(`${base(coop.slug)}/batches`).expect(200)).body)).toEqual([1]);
-    await sql(`UPDATE memberships SET role = 'brewer' WHERE id = $1`, [membership]);
-    expect(numbers((await agents.brewer.get(`${base(coop.slug)}/batches`).expect(200)).body)).toEqual([1, 2]);
-    await sql(`UPDATE memberships SET status = 'suspended' WHERE id = $1`, [membership]);
-    const suspended = await agents.brewer.get(`${base(coop.slug)}/batches`).expect(403);
-    expect(suspended.body.rows).toBeUndefined();
-    await sql(`UPDATE memberships SET status = 'active' WHERE id = $1`, [membership]);
-    expect(numbers((await agents.brewer.get(`${base(coop.slug)}/batches`).expect(200)).body)).toEqual([1, 2]);
-  });
+  /**
+   * Each route, asked by a fresh person with role `from`: what it answers them, and what it
+   * answers once they are demoted to `to` (checked on the very next request).
+   */
+  const routes: {
+    name: string;
+    from: Role;
+    to: Role;
+    /** A key of the success answer, which a refusal must not carry. */
+    payload: string;
+    ask: (a: Agent) => PromiseLike<Response>;
+    before: (res: Response) => void;
+    after: (res: Response) => void;
+  }[] = [
+    {
+      name: 'batch list', from: 'brewer', to: 'member', payload: 'rows',
+      ask: (a) => a.get(`${base(ctx.coop.slug)}/batches`),
+      before: (res) => expect(numbers(res.body)).toEqual([1, 2]),
+      after: (res) => expect(numbers(res.body)).toEqual([1]),
+    },
+    {
+      name: 'planner', from: 'brewer', to: 'treasurer', payload: 'plan',
+      ask: (a) => planner(a, PLAN),
+      before: (res) => expect(res.status).toBe(200),
+      after: (res) => expect(res.status).toBe(403),
+    },
+    {
+      name: 'tank list', from: 'admin', to: 'member', payload: 'tanks',
+      ask: (a) => a.get(`${base(ctx.coop.slug)}/tanks`),
+      before: (res) => expect(res.body.tanks).toHaveLength(1),
+      after: (res) => expect(res.body.tanks).toHaveLength(1),
+    },
+    {
+      name: 'overview', from: 'admin', to: 'member', payload: 'tank',
+      ask: (a) => a.get(`${base(ctx.coop.slug)}/overview`),
+      before: (res) => expect(res.body).toMatchObject({ role: 'admin', admin: expect.any(Object), treasurer: expect.any(Object) }),
+      after: (res) => {
+        expect(res.body.role).toBe('member');
+        expect(res.body.admin).toBeUndefined();
+        expect(res.body.treasurer).toBeUndefined();
+      },
+    },
+  ];
 
-  it('batch list: signing out everywhere (a new session version) answers 401 at once', async () => {
-    const { agents, users, coop } = ctx;
-    await agents.admin.get(`${base(coop.slug)}/batches`).expect(200);
-    await agents.admin.get(`${base(coop.slug)}/batches`).expect(200);
-    await sql(`UPDATE users SET session_version = session_version + 1 WHERE id = $1`, [users.admin.id]);
-    const res = await agents.admin.get(`${base(coop.slug)}/batches`).expect(401);
-    expect(res.body.rows).toBeUndefined();
-  });
+  for (const route of routes) {
+    it(`${route.name}: a demotion, suspension, removal and sign-out everywhere count from the very next request`, async () => {
+      const u = await makeUser({ coopId: ctx.coop.id, role: route.from });
+      const agent = await signIn(u.email);
+      const ok = async () => {
+        const res = await route.ask(agent);
+        expect(res.status, JSON.stringify(res.body)).toBe(200);
+        route.before(res);
+      };
+      const refused = async (status: number) => {
+        const res = await route.ask(agent);
+        expect(res.status).toBe(status);
+        expect(res.body[route.payload]).toBeUndefined();
+      };
+      await ok();
+      await ok();
+
+      await sql(`UPDATE memberships SET role = $2 WHERE id = $1`, [u.membershipId, route.to]);
+      route.after(await route.ask(agent));
+      await sql(`UPDATE memberships SET role = $2 WHERE id = $1`, [u.membershipId, route.from]);
+      await ok();
+
+      await sql(`UPDATE memberships SET status = 'suspended' WHERE id = $1`, [u.membershipId]);
+      await refused(403);
+      await sql(`UPDATE memberships SET status = 'active' WHERE id = $1`, [u.membershipId]);
+      await ok();
+
+      await sql(`DELETE FROM memberships WHERE id = $1`, [u.membershipId]);
+      await refused(404);
+      await sql(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, $3)`, [ctx.coop.id, u.id, route.from]);
+      await ok();
+
+      // Signing out everywhere bumps the session version; this browser keeps its old cookie.
+      await agent.post('/api/me/sign-out-everywhere').expect(200);
+      await refused(401);
+    });
+  }
 
   it('batch list: the query string is judged after the session check', async () => {
     const { agents, coop } = ctx;
@@ -55,44 +117,34 @@ describe('session check sent with the reads', () => {
     expect(Object.keys(bad.body.fields)).toEqual(['pageSize']);
   });
 
-  it('batch list: a member who was a brewer in another request still sees released batches only', async () => {
+  it('batch list: a member sees released batches only, whatever they filter on', async () => {
     const { agents, coop } = ctx;
+    await agents.brewer.get(`${base(coop.slug)}/batches?status=planned`).expect(200);
     const res = await agents.member.get(`${base(coop.slug)}/batches?status=planned`).expect(200);
     expect(res.body).toMatchObject({ rows: [], total: 0 });
     expect(numbers((await agents.member.get(`${base(coop.slug)}/batches`).expect(200)).body)).toEqual([1]);
   });
 
   it('planner: the body is judged after the session check, and the role is checked on every request', async () => {
-    const { agents, users, coop } = ctx;
-    const send = (agent: ReturnType<typeof http> | Ctx['agents']['brewer'], body: string) =>
-      agent.post(`${base(coop.slug)}/planner`).set('content-type', 'application/json').send(body);
-    expect((await send(http(), 'not json')).status).toBe(401);
-    expect((await send(agents.member, 'not json')).status).toBe(403);
-    expect((await send(agents.brewer, '{"oilVolume": 40, "titrationTrials": [2]}')).status).toBe(200);
-    const notJson = await send(agents.brewer, 'not json');
-    expect(notJson.status).toBe(400);
-    const invalid = await send(agents.brewer, '{"oilVolume": -1, "titrationTrials": [2]}');
+    const { agents } = ctx;
+    expect((await planner(http(), 'not json')).status).toBe(401);
+    expect((await planner(agents.member, 'not json')).status).toBe(403);
+    expect((await planner(agents.brewer, PLAN)).status).toBe(200);
+    expect((await planner(agents.brewer, 'not json')).status).toBe(400);
+    const invalid = await planner(agents.brewer, '{"oilVolume": -1, "titrationTrials": [2]}');
     expect(invalid.status).toBe(422);
     expect(Object.keys(invalid.body.fields)).toEqual(['oilVolume']);
-    await sql(`UPDATE memberships SET role = 'treasurer' WHERE id = $1`, [users.brewer.membershipId]);
-    expect((await send(agents.brewer, '{"oilVolume": 40, "titrationTrials": [2]}')).status).toBe(403);
-    await sql(`UPDATE memberships SET role = 'brewer' WHERE id = $1`, [users.brewer.membershipId]);
-    expect((await send(agents.brewer, '{"oilVolume": 40, "titrationTrials": [2]}')).status).toBe(200);
   });
 
-  it('tank list: a change of the co-op’s units shows in the very next answer; removal answers 404', async () => {
-    const { agents, users, coop } = ctx;
+  it('tank list: a change of the co-op’s units shows in the very next answer', async () => {
+    const { agents, coop } = ctx;
     const first = await agents.treasurer.get(`${base(coop.slug)}/tanks`).expect(200);
     expect(first.body.units).toBe('us');
     expect(first.body.tanks[0].capacity).toBeCloseTo(1000 / 3.785411784, 3); // US gallon = 3.785411784 L (NIST Handbook 44)
-    await agents.treasurer.get(`${base(coop.slug)}/tanks`).expect(200);
     await sql(`UPDATE coops SET units = 'metric' WHERE id = $1`, [coop.id]);
     const metric = await agents.treasurer.get(`${base(coop.slug)}/tanks`).expect(200);
     expect(metric.body.units).toBe('metric');
     expect(metric.body.tanks[0].capacity).toBe(1000);
     await sql(`UPDATE coops SET units = 'us' WHERE id = $1`, [coop.id]);
-    await sql(`DELETE FROM memberships WHERE id = $1`, [users.treasurer.membershipId]);
-    const gone = await agents.treasurer.get(`${base(coop.slug)}/tanks`).expect(404);
-    expect(gone.body.tanks).toBeUndefined();
   });
 });

@@ -298,16 +298,32 @@ describe('reservations', () => {
     await s.agents.brewer.post(`${P(s.slug)}/reservations/${theirs.id}/cancel`).expect(200);
   });
 
-  it('expires lazily: a lapsed window releases its fuel on the next read, once', async () => {
+  it('a lapsed window stops counting at once, yet reads write nothing; the next write marks it expired, once', async () => {
     const [r] = await sql<{ id: number }>(
       `INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
        VALUES ($1, $2, $3, 10, now() - interval '3 days', now() - interval '1 day') RETURNING id`, [s.coop.id, s.tankId, s.users.member.membershipId]);
     await sql('UPDATE tanks SET reserved_liters = reserved_liters + 10 WHERE id = $1', [s.tankId]);
-    const before = Number((await tankRow(s.tankId)).reserved_liters);
-    const [a, b] = await Promise.all([s.agents.member.get(`${P(s.slug)}/tanks`), s.agents.brewer.get(`${P(s.slug)}/tanks`)]);
-    expect(a.status).toBe(200);
-    expect(b.status).toBe(200);
-    expect(Number((await tankRow(s.tankId)).reserved_liters)).toBeCloseTo(before - 10, 3);
+    const before = await snapshot(s.coop.id);
+    const storedReserved = Number((await tankRow(s.tankId)).reserved_liters);
+    // Reads: the tank list and the reservation list count it as expired, and change nothing.
+    const [a, b, mine] = await Promise.all([
+      s.agents.member.get(`${P(s.slug)}/tanks`), s.agents.brewer.get(`${P(s.slug)}/tanks`), s.agents.member.get(`${P(s.slug)}/reservations?pageSize=100`),
+    ]);
+    expect([a.status, b.status, mine.status]).toEqual([200, 200, 200]);
+    expect(a.body.tanks[0].reservedLiters).toBeCloseTo(storedReserved - 10, 3);
+    expect(b.body.tanks[0].availableLiters).toBeCloseTo(Number((await tankRow(s.tankId)).on_hand_liters) - (storedReserved - 10), 3);
+    expect(mine.body.items.find((x: { id: number }) => x.id === r!.id)).toMatchObject({ status: 'expired' });
+    const open = await s.agents.member.get(`${P(s.slug)}/reservations?status=open&pageSize=100`).expect(200);
+    expect(open.body.items.map((x: { id: number }) => x.id)).not.toContain(r!.id);
+    expect(await snapshot(s.coop.id)).toEqual(before);
+    // Two writes at once: the lapsed reservation is marked expired and released exactly once.
+    const [w1, w2] = await Promise.all([
+      s.agents.member.post(`${P(s.slug)}/reservations`).send({ tankId: s.tankId, quantity: '1', windowStart: today(), windowEnd: inDays(1) }),
+      s.agents.brewer.post(`${P(s.slug)}/reservations`).send({ tankId: s.tankId, quantity: '1', windowStart: today(), windowEnd: inDays(1) }),
+    ]);
+    expect([w1.status, w2.status]).toEqual([201, 201]);
+    // 2 × 1 gal = 2 × 3.785 L reserved; the 10 L released.
+    expect(Number((await tankRow(s.tankId)).reserved_liters)).toBeCloseTo(storedReserved - 10 + 2 * 3.785, 3);
     const [row] = await sql<{ status: string }>('SELECT status FROM reservations WHERE id = $1', [r!.id]);
     expect(row!.status).toBe('expired');
     expect(await countRows('audit_events', "entity_type = 'reservation' AND entity_id = $1 AND action = 'reservation.expire'", [String(r!.id)])).toBe(1);

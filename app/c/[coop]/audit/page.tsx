@@ -4,8 +4,8 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { requireMember } from '@/lib/auth';
-import { listAuditActors, listAuditEvents } from '@/lib/audit/queries';
-import { fieldErrors } from '@/lib/http';
+import { listAuditActors, listAuditEvents } from '@/lib/audit/events';
+import { fieldErrors, HttpError } from '@/lib/http';
 import { auditQuerySchema } from '@/lib/validation/audit';
 
 export const metadata: Metadata = { title: 'Audit log' };
@@ -15,11 +15,13 @@ export default async function AuditPage({ params, searchParams }: { params: Prom
   const sp = await searchParams;
   const actor = await requireMember(coop, 'audit:read');
   const parsed = auditQuerySchema.safeParse(Object.fromEntries(Object.entries(sp).filter(([, v]) => v !== '')));
-  const errors = parsed.success ? {} : fieldErrors(parsed.error);
-  const [data, people] = await Promise.all([
-    parsed.success ? listAuditEvents(actor, parsed.data) : null,
+  const [result, people] = await Promise.all([
+    // A day that is not on the calendar (2026-02-31) comes back as a 422 naming the field.
+    parsed.success ? listAuditEvents(actor, parsed.data).catch((e: unknown) => (e instanceof HttpError && e.fields ? e : Promise.reject(e))) : null,
     listAuditActors(actor),
   ]);
+  const data = result instanceof HttpError ? null : result;
+  const errors = !parsed.success ? fieldErrors(parsed.error) : result instanceof HttpError ? (result.fields ?? {}) : {};
   return (
     <div className="flex flex-col gap-5">
       <div>

@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { listAuditEvents } from '@/lib/audit/queries';
+import { listAuditEvents } from '@/lib/audit/events';
 import { handler, parseQuery } from '@/lib/http';
 import { auditQuerySchema } from '@/lib/validation/audit';
 

@@ -1,15 +1,14 @@
-import { requireMember, requireMemberAnd } from '@/lib/auth';
+import { requireMember } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
-import { createTank, listTanksPlan } from '@/lib/tank';
+import { createTank, listTanks } from '@/lib/tank';
 import { tankCreateSchema } from '@/lib/validation/tank';
 
 export const dynamic = 'force-dynamic';
 
 /** GET: the co-op's tanks with on hand / reserved / available (any member). POST: a new tank (brewer/admin). */
 export const GET = handler<{ coop: string }>(async (_req, { coop }) => {
-  // The session check and the tank totals in one round trip.
-  const { actor, result: tanks } = await requireMemberAnd(coop, 'tank:read', (a) => listTanksPlan(a));
-  return { tanks, units: actor.coop.units };
+  const actor = await requireMember(coop, 'tank:read');
+  return { tanks: await listTanks(actor), units: actor.coop.units };
 });
 
 export const POST = handler<{ coop: string }>(async (req, { coop }) => {
