@@ -43,7 +43,7 @@ const readSession = cache(async (): Promise<SessionClaims | null> => {
   const token = await getToken({ req: new NextRequest('http://localhost/', { headers: { cookie } }) });
   const uid = Number(token?.uid);
   const sid = token?.sid;
-  return Number.isInteger(uid) && uid > 0 && typeof sid === 'string' && sid.length > 0 ? { uid, sid } : null;
+  return Number.isInteger(uid) && uid > 0 && typeof sid === 'string' && sid.length > 0 && sid.length <= 64 ? { uid, sid } : null;
 });
 
 const USER_ATTRIBUTES = ['id', 'email', 'name'] as const;
@@ -137,8 +137,9 @@ const loadSessionRow = cache(async (session: SessionClaims, coopSlug: string): P
 
 /**
  * The one authorization entry point: session → membership in the co-op of the URL → may this
- * role do this action. 401 without a session (or with one signed out, revoked, expired or idle); 404 when the user is not in that co-op (its existence is not revealed); 403 when
- * suspended or the role may not.
+ * role do this action. 401 without a session (or with one signed out, revoked, expired or idle);
+ * 404 when the user is not in that co-op (its existence is not revealed); 403 when suspended or
+ * the role may not.
  */
 export async function requireMember(coopSlug: string, action: Action): Promise<Actor> {
   const session = await readSession();
