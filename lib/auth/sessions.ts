@@ -27,9 +27,14 @@ function summarizeUserAgent(ua: string | null | undefined): string {
   return (browser || os ? [browser, os].filter(Boolean).join(' on ') : clean).slice(0, 120);
 }
 
-/** Starts a session for the user; returns the session id for the cookie (only its hash is stored). */
+/**
+ * Starts a session for the user; returns the session id for the cookie (only its hash is stored).
+ * The user's sessions that ended more than SESSION_MAX_AGE_DAYS ago are deleted on the way.
+ */
 export async function startSession(userId: number, userAgent: string | null | undefined): Promise<string> {
   const sid = crypto.randomBytes(32).toString('base64url');
+  const longAgo = new Date(Date.now() - SESSION_MAX_AGE_DAYS * 24 * 60 * 60 * 1000);
+  await Session.destroy({ where: { userId, [Op.or]: [{ expiresAt: { [Op.lt]: longAgo } }, { revokedAt: { [Op.lt]: longAgo } }] } });
   await Session.create({
     tokenHash: hashSessionId(sid),
     userId,
