@@ -12,9 +12,5 @@ export { batchCertificate } from './certificate';
 export { readUpload, fileResponse, type CheckedUpload } from './upload';
 export type { ComputedPlan } from './plan';
 
-/** A numeric id from the URL; anything else is a 404 (never a 500). */
-export function idParam(value: string): number {
-  const id = /^\d{1,9}$/.test(value) ? Number(value) : NaN;
-  if (!Number.isSafeInteger(id) || id <= 0) throw new HttpError(404, 'Not found.');
-  return id;
-}
+/** A numeric id from the URL; anything else is a 404 (the one parser, in lib/validation). */
+export { idParam } from '@/lib/validation/id-param';
