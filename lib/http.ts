@@ -1,6 +1,7 @@
 import 'server-only';
 import crypto from 'node:crypto';
 import { z } from 'zod';
+import { COMMON_HEADERS, DOWNLOAD_CSP, HSTS } from '@/lib/security/headers';
 import { isSameOriginRequest, servedOverHttps } from '@/lib/security/origin';
 import { CONTROL_CHARS } from '@/lib/validation/common';
 
@@ -195,14 +196,14 @@ function checkWriteRequest(req: Request): void {
 /** Headers every answer from a route handler carries (the pages get theirs from proxy.ts). */
 function withSecurityHeaders(res: Response, req: Request): Response {
   try {
+    for (const [k, v] of Object.entries(COMMON_HEADERS)) if (!res.headers.has(k)) res.headers.set(k, v);
+    if (!res.headers.has('content-security-policy')) res.headers.set('content-security-policy', DOWNLOAD_CSP);
     if (servedOverHttps(req.url)) res.headers.set('strict-transport-security', HSTS);
   } catch {
     // A response with immutable headers (one passed through from fetch) keeps its own.
   }
   return res;
 }
-/** Two years, sub-domains included, once the app is served over https. */
-export const HSTS = 'max-age=63072000; includeSubDomains';
 
 /**
  * Wraps a route handler: writes (anything but GET/HEAD/OPTIONS) must come from the app's own
