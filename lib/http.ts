@@ -90,13 +90,21 @@ async function readTextLimited(req: Request, limit: number): Promise<string> {
   }
 }
 
+/**
+ * Keys named like Object.prototype's members (`__proto__`, `constructor`, `toString` …): no form
+ * has such a field, and code that looks keys up in a plain object would find the prototype's
+ * member instead. Refused anywhere in a body or query, whatever the schema would do with them.
+ */
+const PROTOTYPE_KEYS = new Set([...Object.getOwnPropertyNames(Object.prototype), 'prototype']);
+
 /** A readable field name from a JSON path, with any control characters shown as "?". */
 const fieldName = (path: (string | number)[]) => (path.length ? path.join('.') : '_form').replace(/[\u0000-\u001f\u007f]/g, '?');
 
 /**
  * Refuses text no person types (control characters other than tab and line breaks, including the
- * NUL that PostgreSQL text and jsonb can't hold) anywhere in a parsed body or query, naming each
- * field; and bodies nested deeper than any form needs. Keys are checked as well as values.
+ * NUL that PostgreSQL text and jsonb can't hold) anywhere in a parsed body or query, and keys
+ * named like Object.prototype's members, naming each field (422); and bodies nested deeper than
+ * any form needs.
  */
 export function checkHostileText(value: unknown): void {
   const fields = emptyFieldErrors();
@@ -114,7 +122,7 @@ export function checkHostileText(value: unknown): void {
     if (Array.isArray(v)) v.forEach((item, i) => walk(item, [...path, i]));
     else
       for (const [k, item] of Object.entries(v)) {
-        if (CONTROL_CHARS.test(k)) (fields[fieldName([...path, k])] ??= []).push('This field is not accepted here.');
+        if (CONTROL_CHARS.test(k) || PROTOTYPE_KEYS.has(k)) (fields[fieldName([...path, k])] ??= []).push('This field is not accepted here.');
         walk(item, [...path, k]);
       }
   };
