@@ -21,8 +21,8 @@ export function servedOverHttps(requestUrl?: string): boolean {
 
 /**
  * Whether a state-changing request comes from the app's own pages. Browsers send `Origin` on every
- * POST, PUT, PATCH and DELETE; it must be the configured origin or the origin the request was
- * addressed to. Without `Origin`, only `Sec-Fetch-Site: same-origin` counts. A request with
+ * POST, PUT, PATCH and DELETE; it must be the configured origin, or the scheme and `Host` the
+ * request was addressed to (a browser on another site can't choose the Host it sends). Without `Origin`, only `Sec-Fetch-Site: same-origin` counts. A request with
  * neither (or `Origin: null`, sent by sandboxed frames and after cross-site redirects) is refused:
  * another site's form or script cannot forge these headers, so this stops cross-origin writes,
  * including from sibling sites that `SameSite=Lax` cookies would let through.
@@ -32,8 +32,10 @@ export function isSameOriginRequest(req: Request): boolean {
   if (origin === null) return req.headers.get('sec-fetch-site') === 'same-origin';
   if (origin === 'null') return false;
   if (origin === appOrigin()) return true;
+  const host = req.headers.get('host');
+  if (!host) return false;
   try {
-    return origin === new URL(req.url).origin;
+    return origin === `${new URL(req.url).protocol}//${host}`;
   } catch {
     return false;
   }

@@ -3,6 +3,11 @@ import { z } from 'zod';
 // Building blocks shared by every domain's schemas: ids, text without control characters, time
 // zones. One definition each, so every route judges the same input the same way.
 
+// In the browser, zod would probe `new Function` to speed up object parsing; under the app's
+// Content-Security-Policy (no 'unsafe-eval') the probe is refused and reported as a violation.
+// Every schema module imports this one, so the setting is in place before any schema is built.
+if (typeof window !== 'undefined') z.config({ jitless: true });
+
 /** The largest id a PostgreSQL INTEGER column holds. */
 export const MAX_ID = 2_147_483_647;
 

@@ -124,7 +124,10 @@ describe('hostile input on every write route', () => {
   });
 
   it('a query string with prototype-named keys or control characters is a 422, not a 500', async () => {
-    for (const q of ['__proto__=1', 'constructor=1', 'toString=1', 'q=%00', 'q=%1b']) {
+    // (Next.js itself drops a `__proto__` query key before the route sees it.)
+    const proto = await ctx.agents.admin.get(`/api/coops/${ctx.coop.slug}/members?__proto__=1`);
+    expect(proto.status).toBeLessThan(500);
+    for (const q of ['constructor=1', 'toString=1', 'hasOwnProperty=x', 'q=%00', 'q=%1b']) {
       const res = await ctx.agents.admin.get(`/api/coops/${ctx.coop.slug}/members?${q}`);
       expect(res.status, q).toBe(422);
     }

@@ -30,7 +30,7 @@ describe('post-sign-in target', () => {
 
   it('in the browser: signing in from /sign-in?next=/%5Cevil.example/x stays on the app', async () => {
     await withBrowser(async (page) => {
-      await page.route(/evil\.example/, (route) => route.fulfill({ status: 200, body: 'evil' }));
+      await page.route((u) => u.hostname.endsWith('evil.example'), (route) => route.fulfill({ status: 200, body: 'evil' }));
       await page.goto(`${baseUrl()}/sign-in?next=/%5Cevil.example/x`);
       await page.getByLabel('E-mail').fill('marisol.admin@example.org');
       await page.getByLabel('Password').fill(DEMO_PASSWORD);
