@@ -1,5 +1,4 @@
 import 'server-only';
-import { HttpError } from '@/lib/http';
 // The batch record: plan → steps → release or reject, with its files and certificate.
 export {
   STEPS, createBatch, updateBatch, advanceBatch, addTemperature, getBatch, listBatches, batchListPlan, todayIn,

@@ -30,7 +30,11 @@ export async function withBrowser(fn: (page: Page) => Promise<void>) {
   });
   const violations: CspViolation[] = [];
   try {
-    await context.exposeFunction('__tallyvatCspViolation', (v: CspViolation) => violations.push(v));
+    await context.exposeFunction('__tallyvatCspViolation', (v: CspViolation) => {
+      violations.push(v);
+      // Said at once as well, so a test that then times out still shows the cause.
+      console.error('Content-Security-Policy violation:', v);
+    });
     await context.addInitScript(() => {
       document.addEventListener(
         'securitypolicyviolation',
