@@ -98,7 +98,7 @@ try {
   const listBody = await check.json();
   log(`signed in; first page holds ${listBody.rows.length} of ${listBody.total} batches`);
   const plannerBody = JSON.stringify({ oilVolume: 40, titrationTrials: [3.1, 3.2, 3.3], tariffCentsPerKwh: 14 });
-  const planCheck = await fetch(`${base}/api/coops/${SLUG}/planner`, { method: 'POST', headers: { cookie: cookie(), 'content-type': 'application/json' }, body: plannerBody });
+  const planCheck = await fetch(`${base}/api/coops/${SLUG}/planner`, { method: 'POST', headers: { cookie: cookie(), origin: base, 'content-type': 'application/json' }, body: plannerBody });
   if (!planCheck.ok) throw new Error(`planner answered ${planCheck.status}: ${await planCheck.text()}`);
 
   const run = (name, opts, duration) =>
@@ -118,7 +118,7 @@ try {
     ['GET /api/coops (signed in, 1 query: the session check alone)', { url: `${base}/api/coops`, headers: { cookie: cookie() } }],
     ['GET batch list (page 1 of 2,000, 25 rows)', { url: `${base}/api/coops/${SLUG}/batches?pageSize=25`, headers: { cookie: cookie() } }],
     ['GET batch list (sorted by cost, page 40)', { url: `${base}/api/coops/${SLUG}/batches?pageSize=25&sort=costPerGallon&dir=asc&page=40`, headers: { cookie: cookie() } }],
-    ['POST planner', { url: `${base}/api/coops/${SLUG}/planner`, method: 'POST', headers: { cookie: cookie(), 'content-type': 'application/json' }, body: plannerBody }],
+    ['POST planner', { url: `${base}/api/coops/${SLUG}/planner`, method: 'POST', headers: { cookie: cookie(), origin: base, 'content-type': 'application/json' }, body: plannerBody }],
   ].filter(([name], i) => i === 0 || !process.env.ONLY || name.includes(process.env.ONLY));
   log('warming up…');
   for (const [name, opts] of targets) await run(name, opts, 3);
