@@ -19,6 +19,8 @@ const nextConfig = {
   typedRoutes: false,
   experimental: {
     serverActions: { bodySizeLimit: '12mb' },
+    // forbidden() from next/navigation: pages a role may not see answer 403 with app/c/[coop]/forbidden.tsx.
+    authInterrupts: true,
   },
   async headers() {
     return [{ source: '/:path*', headers: COMMON_HEADERS }];
