@@ -1,7 +1,7 @@
 import 'server-only';
 import { literal, Op } from 'sequelize';
-import { inTransaction } from '@/lib/db';
-import { appUrl, sendMail } from '@/lib/mail';
+import { enqueueInvoiceMails } from '@/lib/jobs';
+import { appUrl, deliverMail, sendMail, type OutgoingMail } from '@/lib/mail';
 import { formatCents } from '@/lib/money';
 import { Coop, Invoice } from '@/models';
 import { getInvoiceDetail } from './invoices';
@@ -17,36 +17,8 @@ async function loadCoop(coopId: number): Promise<PdfCoop> {
 /** One more sending attempt, counted in the database (concurrent senders never lose one). */
 const ATTEMPT = literal('email_attempts + 1');
 
-/**
- * Claims up to ten queued e-mails of a co-op (queued → sending, FOR UPDATE SKIP LOCKED), so two
- * senders never mail the same invoice; a claim left "sending" by a crashed server is taken again
- * after five minutes.
- */
-async function claimBatch(coopId: number): Promise<{ id: number }[]> {
-  return inTransaction(async (t) => {
-    const batch = await Invoice.findAll({
-      where: {
-        coopId,
-        [Op.or]: [{ emailStatus: 'queued' }, { emailStatus: 'sending', updatedAt: { [Op.lt]: literal("now() - interval '5 minutes'") } }],
-      },
-      attributes: ['id'],
-      order: [['number', 'ASC']],
-      limit: 10,
-      lock: t.LOCK.UPDATE,
-      skipLocked: true,
-      raw: true,
-      transaction: t,
-    });
-    if (batch.length > 0) await Invoice.update({ emailStatus: 'sending' }, { where: { id: batch.map((b) => b.id), coopId }, transaction: t });
-    return batch;
-  });
-}
-
-/**
- * E-mails one issued invoice or credit note to its member with the PDF attached, and records the
- * outcome on the invoice (sent / failed, attempts, time). Never throws for mail trouble.
- */
-export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<EmailStatus> {
+/** The e-mail of one issued invoice or credit note, with its PDF. */
+async function composeInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<OutgoingMail> {
   const c = coop ?? (await loadCoop(coopId));
   const inv = await getInvoiceDetail(coopId, invoiceId, { includeDrafts: false });
   const pdf = await renderInvoicePdf(inv, c);
@@ -56,41 +28,65 @@ export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?:
   const text = isCredit
     ? `Hello ${first},\n\n${c.name} has cancelled invoice ${inv.original?.label ?? ''} for ${periodLabel(inv.period)}. The credit note ${inv.label} is attached.\nAnything you had paid on that invoice is held as credit on your account and taken off your next invoice.\n\nYour invoices: ${appUrl(`/c/${c.slug}/invoices`)}\n\n— ${c.name} (sent by Tallyvat)\n`
     : `Hello ${first},\n\nYour invoice ${inv.label} for ${periodLabel(inv.period)} from ${c.name} is attached.\nTotal: ${money(inv.totalCents)}. Amount due: ${money(inv.outstandingCents)}${inv.dueOn && inv.outstandingCents > 0 ? `, by ${formatDateIn(inv.dueOn, c.timezone)}` : ''}.\n\nPay by card or see all your invoices: ${appUrl(`/c/${c.slug}/invoices/${inv.id}`)}\nOr pay the treasurer in cash or by cheque, writing ${inv.label} on it.\n\n— ${c.name} (sent by Tallyvat)\n`;
-  const ok = await sendMail({
+  return {
     to: inv.memberEmail,
     subject: `${c.name}: ${isCredit ? 'credit note' : 'invoice'} ${inv.label} for ${periodLabel(inv.period)}`,
     text,
     attachments: [{ filename: invoiceFileName(c.slug, inv), content: pdf, contentType: 'application/pdf' }],
-  });
+  };
+}
+
+/**
+ * E-mails one issued invoice or credit note to its member now (the treasurer's "send again" on
+ * one invoice) and records the outcome on the invoice (sent / failed, attempts, time). Never
+ * throws for mail trouble.
+ */
+export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<EmailStatus> {
+  const ok = await sendMail(await composeInvoiceEmail(coopId, invoiceId, coop));
   const status: EmailStatus = ok ? 'sent' : 'failed';
   await Invoice.update({ emailStatus: status, emailAttempts: ATTEMPT, ...(ok ? { emailedAt: new Date() } : {}) }, { where: { id: invoiceId, coopId } });
   return status;
 }
 
 /**
- * Sends every queued invoice e-mail of a co-op, a few at a time. Each batch is claimed atomically
- * (queued → sending, SKIP LOCKED), so two senders never mail the same invoice; a batch left
- * "sending" by a crashed server is picked up again after five minutes.
+ * The mail job of one invoice (run by the worker). It first claims the invoice (queued →
+ * sending, one UPDATE), so of two jobs for the same invoice only one sends; a claim left
+ * "sending" by a worker that died is taken again by the retry of the same job (`retry`).
+ * SMTP trouble puts the invoice back to "queued" and throws: the queue tries again with
+ * back-off, and after the last try the dead letter marks it "failed".
+ * @returns whether this job sent the e-mail
  */
-export async function sendQueuedInvoiceEmails(coopId: number): Promise<{ sent: number; failed: number }> {
-  const coop = await loadCoop(coopId);
-  let sent = 0;
-  let failed = 0;
-  for (;;) {
-    const batch = await claimBatch(coopId);
-    if (batch.length === 0) break;
-    for (const { id } of batch) {
-      try {
-        if ((await sendInvoiceEmail(coopId, id, coop)) === 'sent') sent++;
-        else failed++;
-      } catch (e) {
-        console.error(`[billing] e-mail for invoice ${id} failed:`, e);
-        await Invoice.update({ emailStatus: 'failed', emailAttempts: ATTEMPT }, { where: { id, coopId } });
-        failed++;
-      }
-    }
+export async function deliverInvoiceEmailJob(coopId: number, invoiceId: number, retry: boolean): Promise<boolean> {
+  const [claimed] = await Invoice.update(
+    { emailStatus: 'sending', emailAttempts: ATTEMPT },
+    { where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' }, emailStatus: retry ? ['queued', 'sending'] : 'queued' } },
+  );
+  if (claimed === 0) return false;
+  try {
+    await deliverMail(await composeInvoiceEmail(coopId, invoiceId));
+  } catch (e) {
+    await Invoice.update({ emailStatus: 'queued' }, { where: { id: invoiceId, coopId, emailStatus: 'sending' } });
+    throw e;
   }
-  return { sent, failed };
+  await Invoice.update({ emailStatus: 'sent', emailedAt: new Date() }, { where: { id: invoiceId, coopId } });
+  return true;
+}
+
+/** The dead letter of an invoice's mail job: every try failed. */
+export async function invoiceEmailGaveUp(coopId: number, invoiceId: number): Promise<void> {
+  await Invoice.update({ emailStatus: 'failed' }, { where: { id: invoiceId, coopId, emailStatus: ['queued', 'sending'] } });
+}
+
+/**
+ * Queues one mail job per invoice of the co-op whose e-mail is "queued" (after issuing, or after
+ * "send now"). The worker sends them; a job for an invoice that is already sent does nothing, so
+ * queuing twice is harmless.
+ * @returns how many jobs were queued
+ */
+export async function sendQueuedInvoiceEmails(coopId: number): Promise<number> {
+  const rows = await Invoice.findAll({ where: { coopId, emailStatus: 'queued' }, attributes: ['id'], order: [['number', 'ASC']], raw: true });
+  await enqueueInvoiceMails(coopId, rows.map((r) => r.id));
+  return rows.length;
 }
 
 /** Queues the month's unsent or failed e-mails again (treasurer's "send now"). */
