@@ -12,6 +12,8 @@ import { migrate } from '../../scripts/lib/db-setup.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { appEnv, startNext, waitForHealth } from '../../scripts/lib/app.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
+import { startWorkerProcess } from '../../scripts/lib/worker-process.mjs';
+// @ts-expect-error plain ESM helpers shared with the start script
 import { startMailCatcher, startPaymentsFake } from '../../scripts/lib/fakes.mjs';
 
 declare module 'vitest' {
@@ -21,6 +23,8 @@ declare module 'vitest' {
     mailUrl: string;
     paymentsUrl: string;
     storageDir: string;
+    /** The worker's environment, for tests that stop and start a worker of their own. */
+    workerEnv: string;
   }
 }
 
@@ -64,6 +68,10 @@ export default async function setup(project: TestProject) {
     extra: { NODE_ENV: 'production', OVERVIEW_CACHE_SECONDS: '0' },
   });
   const log = fs.createWriteStream(path.join(root, 'next.log'));
+  // The job worker (e-mail, billing runs, schedules) beside the server, as `npm start` runs it.
+  const workerLog = fs.createWriteStream(path.join(root, 'worker.log'));
+  const worker = await startWorkerProcess({ env, stdio: workerLog });
+  stops.unshift(worker.stop);
   const { child: next, stop: stopNext } = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'pipe', 'pipe'] });
   next.stdout?.pipe(log);
   next.stderr?.pipe(log);
@@ -80,6 +88,7 @@ export default async function setup(project: TestProject) {
   project.provide('mailUrl', `http://127.0.0.1:${mailPort}`);
   project.provide('paymentsUrl', `http://127.0.0.1:${paymentsPort}`);
   project.provide('storageDir', storageDir);
+  project.provide('workerEnv', JSON.stringify(env));
 
   return async () => {
     for (const s of stops) await s();
