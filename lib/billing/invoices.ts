@@ -8,7 +8,7 @@ import { isPeriodClosed } from './locks';
 import { invoiceLabel, periodToDate, todayIn } from './periods';
 import { latestRun, type RunDTO } from './run';
 import type { EmailStatus, InvoiceDetail, InvoiceStatus, InvoiceSummary, MemberBalance, PageOf } from './types';
-import { listPaymentsWhere } from './payments-read';
+import { paymentsOfInvoice } from './payments-read';
 
 type InvoiceWhere = WhereOptions<InferAttributes<Invoice>>;
 
@@ -128,7 +128,7 @@ export async function getInvoiceDetail(coopId: number, id: number, opts: { membe
       order: [['sortKey', 'ASC'], ['id', 'ASC']],
       raw: true,
     }),
-    listPaymentsWhere(coopId, 'p.invoice_id = $invoiceId', { invoiceId: id }),
+    paymentsOfInvoice(coopId, id),
     PaymentAttempt.findOne({ where: { invoiceId: id, coopId, status: 'pending' }, attributes: ['id', 'createdAt'], raw: true }),
     PaymentAttempt.findOne({ where: { invoiceId: id, coopId, status: 'failed' }, attributes: ['failureMessage', 'completedAt'], order: [['id', 'DESC']], raw: true }),
     PaymentAttempt.count({ where: { invoiceId: id, coopId, status: 'succeeded' } }),
