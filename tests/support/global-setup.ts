@@ -71,7 +71,22 @@ export default async function setup(project: TestProject) {
   // The job worker (e-mail, billing runs, schedules) beside the server, as `npm start` runs it.
   const workerLog = fs.createWriteStream(path.join(root, 'worker.log'));
   const worker = await startWorkerProcess({ env, stdio: workerLog });
-  stops.unshift(worker.stop);
+  // A test may kill this worker and start another (tests/support/worker.ts): the file names the live one.
+  const workerPidFile = path.join(root, 'worker.pid');
+  fs.writeFileSync(workerPidFile, String(worker.child.pid));
+  stops.unshift(async () => {
+    const pid = Number(fs.readFileSync(workerPidFile, 'utf8'));
+    if (pid === worker.child.pid) return worker.stop();
+    try {
+      process.kill(pid, 'SIGTERM');
+      for (let i = 0; i < 100; i++) {
+        process.kill(pid, 0);
+        await new Promise((r) => setTimeout(r, 200));
+      }
+    } catch {
+      /* gone */
+    }
+  });
   const { child: next, stop: stopNext } = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'pipe', 'pipe'] });
   next.stdout?.pipe(log);
   next.stderr?.pipe(log);
