@@ -1,6 +1,7 @@
 import 'server-only';
 import { fn, Op } from 'sequelize';
 import { PgBoss, type Job } from 'pg-boss';
+import { settleUnknownAttempts } from '@/lib/billing/card';
 import { invoiceEmailGaveUp, deliverInvoiceEmailJob } from '@/lib/billing/mail';
 import { runChunk, runGaveUp } from '@/lib/billing/run';
 import { inTransaction, sequelize } from '@/lib/db';
@@ -89,9 +90,14 @@ export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
     if (n > 0) log(`${n} lapsed reservations expired`);
   });
   await boss.work(QUEUES.housekeeping, async () => housekeeping());
+  await boss.work(QUEUES.settlePayments, async () => {
+    const n = await settleUnknownAttempts();
+    if (n > 0) log(`${n} card payments with an unknown outcome settled`);
+  });
 
   await boss.schedule(QUEUES.expireReservations, '* * * * *');
   await boss.schedule(QUEUES.housekeeping, '*/5 * * * *');
+  await boss.schedule(QUEUES.settlePayments, '* * * * *');
   log('ready');
 
   return {
