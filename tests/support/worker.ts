@@ -42,3 +42,18 @@ export async function startWorker(): Promise<void> {
   }
   fs.writeFileSync(PID_FILE, String(child.pid));
 }
+
+/**
+ * Waits until the worker has handled every e-mail job queued so far (none waiting, retrying or
+ * running), so a test can check that something sent nothing as well as that it sent something.
+ */
+export async function mailSettled(timeoutMs = 30_000): Promise<void> {
+  const { sql } = await import('./api');
+  const end = Date.now() + timeoutMs;
+  for (;;) {
+    const [r] = await sql<{ n: string }>(`SELECT count(*) AS n FROM pgboss.job WHERE name IN ('mail', 'mail-invoice') AND state IN ('created', 'retry', 'active')`);
+    if (Number(r!.n) === 0) return;
+    if (Date.now() > end) throw new Error('e-mail jobs still waiting');
+    await new Promise((res) => setTimeout(res, 100));
+  }
+}
