@@ -1,5 +1,6 @@
 import 'server-only';
 import { literal, Op } from 'sequelize';
+import { inTransaction } from '@/lib/db';
 import { enqueueInvoiceMails } from '@/lib/jobs';
 import { appUrl, deliverMail, sendMail, type OutgoingMail } from '@/lib/mail';
 import { formatCents } from '@/lib/money';
@@ -49,27 +50,36 @@ export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?:
 }
 
 /**
- * The mail job of one invoice (run by the worker). It first claims the invoice (queued →
- * sending, one UPDATE), so of two jobs for the same invoice only one sends; a claim left
- * "sending" by a worker that died is taken again by the retry of the same job (`retry`).
- * SMTP trouble puts the invoice back to "queued" and throws: the queue tries again with
- * back-off, and after the last try the dead letter marks it "failed".
+ * The mail job of one invoice (run by the worker). The e-mail is composed first (reads and the
+ * PDF); then one transaction marks the invoice sent — `WHERE email_status = 'queued'`, so of two
+ * jobs for the same invoice only one gets the row, the other waits on its lock and then finds
+ * nothing to do — hands the message to the SMTP server, and commits only once the server has
+ * accepted it. A worker killed before that leaves the row "queued" (rolled back) for the retry;
+ * the only window for a second copy is between the server's "250 OK" and the COMMIT. SMTP
+ * trouble rolls back and throws: the queue tries again with back-off, and after the last try the
+ * dead letter marks the invoice "failed". (The transaction holds one UPDATE by primary key, so
+ * inTransaction never has a deadlock to retry it for.)
  * @returns whether this job sent the e-mail
  */
-export async function deliverInvoiceEmailJob(coopId: number, invoiceId: number, retry: boolean): Promise<boolean> {
-  const [claimed] = await Invoice.update(
-    { emailStatus: 'sending', emailAttempts: ATTEMPT },
-    { where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' }, emailStatus: retry ? ['queued', 'sending'] : 'queued' } },
-  );
-  if (claimed === 0) return false;
+export async function deliverInvoiceEmailJob(coopId: number, invoiceId: number): Promise<boolean> {
+  const queued = await Invoice.count({ where: { id: invoiceId, coopId, emailStatus: 'queued' } });
+  if (queued === 0) return false;
+  const mail = await composeInvoiceEmail(coopId, invoiceId);
   try {
-    await deliverMail(await composeInvoiceEmail(coopId, invoiceId));
+    return await inTransaction(async (transaction) => {
+      const [claimed] = await Invoice.update(
+        { emailStatus: 'sent', emailAttempts: ATTEMPT, emailedAt: new Date() },
+        { where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' }, emailStatus: 'queued' }, transaction },
+      );
+      if (claimed === 0) return false;
+      await deliverMail(mail);
+      return true;
+    });
   } catch (e) {
-    await Invoice.update({ emailStatus: 'queued' }, { where: { id: invoiceId, coopId, emailStatus: 'sending' } });
+    // The failed try still counts (the month page shows attempts).
+    await Invoice.update({ emailAttempts: ATTEMPT }, { where: { id: invoiceId, coopId, emailStatus: 'queued' } });
     throw e;
   }
-  await Invoice.update({ emailStatus: 'sent', emailedAt: new Date() }, { where: { id: invoiceId, coopId } });
-  return true;
 }
 
 /** The dead letter of an invoice's mail job: every try failed. */

@@ -73,7 +73,7 @@ export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
 
   const fast = { pollingIntervalSeconds: 0.5, burstWhenBatchFull: true } as const;
   await boss.work<InvoiceMailJob>(QUEUES.invoiceMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, async ([job]) => {
-    await deliverInvoiceEmailJob(job!.data.coopId, job!.data.invoiceId, job!.retryCount > 0);
+    await deliverInvoiceEmailJob(job!.data.coopId, job!.data.invoiceId);
   });
   await boss.work<PlainMailJob>(QUEUES.mail, { ...fast, batchSize: 1, localConcurrency: 4 }, async ([job]) => plainMail(job!));
   await boss.work<InvoiceMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, async ([job]) => {
