@@ -16,7 +16,7 @@ import { buildIfNeeded } from '../scripts/lib/build.mjs';
 import { appEnv, startNext, waitForHealth } from '../scripts/lib/app.mjs';
 import { startMailCatcher, startPaymentsFake } from '../scripts/lib/fakes.mjs';
 import { startWorkerProcess } from '../scripts/lib/worker-process.mjs';
-import { signInCookie } from './lib.mjs';
+import { postgresCpuMeter, serverCpuMs, signInCookie } from './lib.mjs';
 
 const N = Number(process.argv[2] ?? 12_000);
 const WORKERS = Number(process.argv[3] ?? 1);
@@ -30,7 +30,7 @@ fs.rmSync(root, { recursive: true, force: true });
 
 const stops = [];
 const stopAll = async () => {
-  for (const s of stops) await s().catch(() => {});
+  for (const s of stops) await Promise.resolve().then(s).catch(() => {});
 };
 try {
   const db = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'bench', fast: true, log: () => {} });
@@ -84,6 +84,8 @@ try {
     if (r.run.status !== 'running') break;
     await new Promise((res) => setTimeout(res, 200));
   }
+  const cpu0 = workers.map((w) => serverCpuMs(w.child.pid));
+  const pgCpu = postgresCpuMeter(path.join(root, 'pg', 'cluster'));
   const t0 = Date.now();
   const issued = await (await post(`/api/coops/bench-mail/billing/periods/${period}/issue`, {})).json();
   log(`issued ${issued.issued} invoices in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
@@ -96,6 +98,10 @@ try {
     await new Promise((res) => setTimeout(res, 100));
   }
   const seconds = (Date.now() - t0) / 1000;
+  const workerCpu = workers.reduce((sum, w, i) => sum + (serverCpuMs(w.child.pid) ?? 0) - (cpu0[i] ?? 0), 0);
+  const pgMs = pgCpu();
+  // On a busy machine the wall time says little; the CPU per message says what a quiet one would do.
+  log(`CPU per e-mail: worker ${(workerCpu / N).toFixed(1)} ms, PostgreSQL ${pgMs === null ? '?' : (pgMs / N).toFixed(1)} ms (the issue request included)`);
   const { rows: [s] } = await pool.query(`SELECT count(*) FILTER (WHERE email_status = 'sent') AS sent, count(*) AS total FROM invoices WHERE coop_id = $1`, [coop.id]);
   log(`${N} invoice e-mails delivered in ${seconds.toFixed(1)} s (${(N / seconds).toFixed(1)}/s) with ${WORKERS} worker(s); invoices marked sent: ${s.sent}/${s.total}`);
   log(`budget: ${BUDGET_S.toFixed(0)} s for ${N} (12,000 in 180 s) → ${seconds <= BUDGET_S ? 'met' : 'MISSED'}`);
