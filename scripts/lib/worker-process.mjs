@@ -6,12 +6,12 @@ import { buildWorker } from './worker-build.mjs';
 
 /**
  * Starts a worker and resolves once it is ready (it prints "[worker] ready").
- * @param {{env: object, stdio?: any, log?: (m: string) => void}} o
+ * @param {{env: object, stdio?: any, log?: (m: string) => void, nodeArgs?: string[]}} o
  * @returns {Promise<{child: import('node:child_process').ChildProcess, stop: () => Promise<void>}>}
  */
 export async function startWorkerProcess(o) {
   await buildWorker({ log: o.log ?? (() => {}) });
-  const child = spawn(process.execPath, [path.resolve('scripts', 'worker.mjs')], { env: o.env, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [...(o.nodeArgs ?? []), path.resolve('scripts', 'worker.mjs')], { env: o.env, stdio: ['ignore', 'pipe', 'pipe'] });
   const out = o.stdio ?? process.stdout;
   child.stdout.pipe(out, { end: false });
   child.stderr.pipe(o.stdio ?? process.stderr, { end: false });
