@@ -3,7 +3,7 @@ import { col, fn, literal, Op, where, type FindAttributeOptions, type InferAttri
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
-import { inTransaction, statement } from '@/lib/db';
+import { inTransaction } from '@/lib/db';
 import { deleteFile, getFile, putFile } from '@/lib/storage';
 import { gallonsToLiters, volumeToLiters } from '@/lib/units';
 import type { ChemicalLotCreateInput, OilLotCreateInput } from '@/lib/validation/brewing';
@@ -345,8 +345,11 @@ export async function stockTotals(coopId: number, transaction?: Transaction): Pr
     attributes: ['kind', [fn('sum', col('remaining_quantity')), 'remaining'], [fn('sum', col('quantity')), 'quantity'], [fn('sum', col('total_cost_cents')), 'cost']],
     where: { coopId, kind: STOCKED, remainingQuantity: { [Op.gt]: 0 } },
     group: ['kind'], raw: true, transaction,
-  })) as unknown as StockTotalsRow[];
-  return stockTotalsOf(rows);
+  })) as unknown as { kind: HeldLot['kind']; remaining: string; quantity: string; cost: string }[];
+  return rows.map((r, i) => ({
+    id: -(i + 1), kind: r.kind, receivedAtMs: 0, quantity: Number(r.quantity), remaining: Number(r.remaining),
+    totalCostCents: Number(r.cost), purityPct: null,
+  }));
 }
 
 /** What batches under way have committed of each chemical, and the next planned batch with its needs. */
@@ -420,53 +423,4 @@ export async function listTanks(actor: Actor): Promise<{ id: number; name: strin
     attributes: ['id', 'name', 'capacityLiters', 'onHandLiters'], where: { coopId: actor.coop.id, active: true }, order: [['name', 'ASC']], raw: true,
   });
   return rows.map((r) => ({ id: r.id, name: r.name, capacityLiters: Number(r.capacityLiters), onHandLiters: Number(r.onHandLiters) }));
-}
-
-// ------------------------------------------- statements lib/overview still sends (until it reads through stockTotals/batchNeeds)
-
-/** @deprecated lib/overview's prepared statement; use {@link stockTotals}. */
-export const STOCK_TOTALS = statement(
-  `SELECT kind, SUM(remaining_quantity) AS remaining, SUM(quantity) AS quantity, SUM(total_cost_cents) AS cost FROM chemical_lots
-    WHERE coop_id = $1 AND kind = ANY($2) AND remaining_quantity > 0 GROUP BY kind`,
-  'tv_stock_totals',
-);
-
-export type StockTotalsRow = { kind: HeldLot['kind']; remaining: string; quantity: string; cost: string };
-
-/** Per-kind stock totals as one held "lot" per kind. */
-export const stockTotalsOf = (rows: StockTotalsRow[]): HeldLot[] =>
-  rows.map((r, i) => ({
-    id: -(i + 1), kind: r.kind, receivedAtMs: 0, quantity: Number(r.quantity), remaining: Number(r.remaining),
-    totalCostCents: Number(r.cost), purityPct: null,
-  }));
-
-/** @deprecated lib/overview's prepared statement; use {@link batchNeeds}. */
-export const BATCH_NEEDS = statement(
-  `SELECT w.methanol_committed, w.koh_committed, w.naoh_committed,
-          n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams,
-          n.batch_date AS next_batch_date, n.oil_liters AS next_oil_liters
-     FROM (SELECT COALESCE(sum(${NEED_METHANOL}), 0) AS methanol_committed,
-                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'KOH'), 0) AS koh_committed,
-                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'NaOH'), 0) AS naoh_committed
-             FROM batches WHERE coop_id = $1 AND status IN ('reacting','settling','draining','washing','drying','testing')) w
-     LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams,
-                               to_char(batch_date, 'YYYY-MM-DD') AS batch_date, oil_liters
-             FROM batches WHERE coop_id = $1 AND status = 'planned' ORDER BY batch_date, number LIMIT 1) n ON true`,
-  'tv_batch_needs',
-);
-
-export type BatchNeedsRow = Record<string, string | number | null>;
-
-/** @deprecated the {@link BATCH_NEEDS} row as BatchNeeds; use {@link batchNeeds}. */
-export function batchNeedsOf(r: BatchNeedsRow | undefined): BatchNeeds {
-  const row = r ?? {};
-  return {
-    committed: { methanol: Number(row.methanol_committed ?? 0), KOH: Number(row.koh_committed ?? 0), NaOH: Number(row.naoh_committed ?? 0) },
-    next: row.next_id
-      ? {
-          id: Number(row.next_id), number: Number(row.next_number), catalyst: row.next_catalyst as 'KOH' | 'NaOH', methanolLiters: Number(row.next_methanol),
-          catalystGrams: Number(row.next_catalyst_grams), batchDate: String(row.next_batch_date), oilLiters: Number(row.next_oil_liters),
-        }
-      : null,
-  };
 }

@@ -1,7 +1,7 @@
-// Helpers for integration tests: supertest against the running server, direct database
-// access for setting up and checking rows, factories, and the caught e-mail.
+// Helpers for integration tests: supertest against the running server, database access
+// through Sequelize for setting up and checking rows, factories, and the caught e-mail.
 import bcrypt from 'bcryptjs';
-import pg from 'pg';
+import { QueryTypes, Sequelize } from 'sequelize';
 import request from 'supertest';
 import { inject } from 'vitest';
 
@@ -10,21 +10,47 @@ export const DEMO_PASSWORD = 'tallyvat-demo-2026';
 const HASH = bcrypt.hashSync(TEST_PASSWORD, 10);
 
 export const baseUrl = () => inject('baseUrl');
-export const api = () => request(inject('baseUrl'));
 
-let pool: pg.Pool | null = null;
-/** A direct connection to the test database (for arranging and asserting rows). */
-export function db(): pg.Pool {
-  pool ??= new pg.Pool({ connectionString: inject('databaseUrl'), max: 4 });
-  return pool;
+const WRITE_METHODS = new Set(['post', 'put', 'patch', 'delete', 'del']);
+/**
+ * Requests without a session. Writes carry the app's own Origin, as a browser's do (the server
+ * refuses writes from any other origin, and writes that name none).
+ */
+export const api = () => {
+  const client = request(inject('baseUrl'));
+  return new Proxy(client, {
+    get(target, prop, receiver) {
+      const value = Reflect.get(target, prop, receiver);
+      if (typeof prop !== 'string' || !WRITE_METHODS.has(prop) || typeof value !== 'function') return value;
+      return (url: string) => (value as (u: string) => request.Test).call(target, url).set('Origin', inject('baseUrl'));
+    },
+  });
+};
+
+let instance: Sequelize | null = null;
+/**
+ * A Sequelize instance on the test database (for arranging and asserting rows), apart from the
+ * app's own: tests reach PostgreSQL through Sequelize like the app does (only lib/db.ts imports pg).
+ */
+export function db(): Sequelize {
+  instance ??= new Sequelize(inject('databaseUrl'), { logging: false, pool: { max: 4, min: 0, idle: 1_000 } });
+  return instance;
 }
+
+/**
+ * Runs one statement with positional `$1, $2 …` values (bound, never spliced) and returns its
+ * rows (an INSERT/UPDATE returns rows only with RETURNING). Values as `pg` takes them: arrays bind
+ * as PostgreSQL arrays, objects as JSON, undefined as NULL.
+ */
 export async function sql<T = Record<string, unknown>>(text: string, params: unknown[] = []): Promise<T[]> {
-  return (await db().query(text, params)).rows as T[];
+  const bind = params.length ? params.map((v) => (v === undefined ? null : v)) : undefined;
+  return (await db().query(text, { bind, type: QueryTypes.SELECT })) as T[];
 }
 
 /** A supertest agent holding a signed-in session cookie. */
 export async function signIn(email: string, password = TEST_PASSWORD) {
-  const agent = request.agent(inject('baseUrl'));
+  // Every request carries the app's own Origin, as a browser's writes do.
+  const agent = request.agent(inject('baseUrl')).set('Origin', inject('baseUrl'));
   const csrf = await agent.get('/api/auth/csrf').expect(200);
   const res = await agent
     .post('/api/auth/callback/credentials')
