@@ -9,7 +9,6 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import pg from 'pg';
 import bcrypt from 'bcryptjs';
 import { startEmbeddedPg, freePort, stopLeftover } from '../scripts/lib/pg.mjs';
 import { migrate } from '../scripts/lib/db-setup.mjs';
@@ -17,7 +16,7 @@ import { buildIfNeeded } from '../scripts/lib/build.mjs';
 import { appEnv, startNext, waitForHealth } from '../scripts/lib/app.mjs';
 import { startMailCatcher, startPaymentsFake } from '../scripts/lib/fakes.mjs';
 import { startWorkerProcess } from '../scripts/lib/worker-process.mjs';
-import { postgresCpuMeter, serverCpuMs, signInCookie } from './lib.mjs';
+import { dbPool, postgresCpuMeter, serverCpuMs, signInCookie } from './lib.mjs';
 
 const N = Number(process.argv[2] ?? 12_000);
 const WORKERS = Number(process.argv[3] ?? 1);
@@ -54,7 +53,7 @@ try {
   await waitForHealth(baseUrl, next.child);
 
   // One co-op: a treasurer and N members with monthly dues (users and memberships in bulk).
-  const pool = new pg.Pool({ connectionString: db.url, max: 2 });
+  const pool = dbPool(db.url);
   stops.unshift(() => pool.end());
   const { rows: [coop] } = await pool.query(`INSERT INTO coops (name, slug, settings) VALUES ('Bench Mail Co-op', 'bench-mail', '{"monthlyDuesCents": 1500}') RETURNING id`);
   const hash = bcrypt.hashSync('bench-password-2026', 10);
