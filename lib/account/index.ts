@@ -11,6 +11,7 @@ import type { Role } from '@/lib/auth/roles';
 import { EMAIL_CHANGE_TTL_MS, hashLinkToken, isLinkTokenShape, newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
+import { enqueueMail } from '@/lib/jobs';
 import { appUrl, sendMail } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import type {
@@ -252,7 +253,8 @@ export async function confirmEmailChange(token: string): Promise<{ email: string
       throw e;
     }
   })();
-  await sendMail({
+  // A notice to the old address: a mail job (retried while the mail server is down).
+  await enqueueMail({
     to: result.oldEmail,
     subject: 'Your Tallyvat e-mail address was changed',
     text: [
