@@ -40,3 +40,13 @@ export async function expireLapsedReservations(coopId: number, transaction: Tran
   );
   return expired.length;
 }
+
+/**
+ * Whether the co-op has open reservations whose window has ended (one indexed read), so a write
+ * path that only needs lapsed reservations out of the way can skip the expiry transaction when
+ * there are none. A reservation lapsing just after this read is harmless: it stays counted as
+ * reserved until the next write or the scheduled expiry, which only ever refuses, never oversells.
+ */
+export async function hasLapsedReservations(coopId: number): Promise<boolean> {
+  return (await Reservation.findOne({ attributes: ['id'], where: { coopId, status: 'open', windowEnd: { [Op.lt]: fn('now') } }, raw: true })) !== null;
+}

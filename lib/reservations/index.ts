@@ -10,8 +10,8 @@ import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl }
 import type { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Reservation, Tank, User } from '@/models';
 import type { ReservationStatus } from '@/models/Reservation';
-import { expireLapsedReservations } from './expire';
-import { addReservedLiters } from './queries';
+import { expireLapsedReservations, hasLapsedReservations } from './expire';
+import { addReservedLiters, reserveFuel } from './queries';
 import { parseWindowEdge, reservationWindow } from './window';
 
 export { expireLapsedReservations };
@@ -57,7 +57,8 @@ function notEnough(actor: Actor, tankName: string, requestedMl: number, availabl
  * gallons. When the guard refuses, the tank is read under its lock: a request over by no more
  * than the rounding crumb is trimmed to exactly what is left; otherwise → 409 with what is
  * available, and nothing is kept. (A CHECK reserved ≤ on hand backs this up in the table.)
- * Lapsed reservations of the co-op are marked expired first, in the same transaction.
+ * Lapsed reservations of the co-op are marked expired first (in their own transaction, only when
+ * there are any), so the fuel they held can be reserved again.
  */
 export async function createReservation(actor: Actor, input: z.infer<typeof reservationCreateSchema>): Promise<ReservationDto> {
   const units = actor.coop.units;
@@ -66,30 +67,30 @@ export async function createReservation(actor: Actor, input: z.infer<typeof rese
   if (!window.ok) throw new HttpError(422, 'Some fields need attention.', window.fields);
   const qMl = milliUnitsToMl(input.quantity, units);
   if (qMl <= 0) throw new HttpError(422, 'Some fields need attention.', { quantity: ['Enter a quantity greater than zero.'] });
-  const created = await inTransaction(async (transaction) => {
-    await expireLapsedReservations(coopId, transaction);
-    let liters = mlToLiters(qMl);
-    let tank = await addReservedLiters(coopId, input.tankId, liters, transaction);
-    if (!tank) {
-      const cur = await Tank.findOne({
-        attributes: ['name', 'active', 'onHandLiters', 'reservedLiters'], where: { id: input.tankId, coopId }, lock: transaction.LOCK.UPDATE, transaction, raw: true,
-      });
-      if (!cur || !cur.active) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s tanks that is in service.'] });
-      const availableMl = litersToMl(cur.onHandLiters) - litersToMl(cur.reservedLiters);
-      if (availableMl <= 0 || qMl - availableMl > roundingCrumbMl(units)) throw notEnough(actor, cur.name, qMl, availableMl);
-      // Within the crumb (or freed meanwhile): take what is there, up to what was asked.
-      liters = mlToLiters(Math.min(qMl, availableMl));
-      tank = await addReservedLiters(coopId, input.tankId, liters, transaction);
-      if (!tank) throw notEnough(actor, cur.name, qMl, availableMl);
-    }
+  const auditAfter = (liters: string) => ({ tankId: input.tankId, membershipId: actor.membershipId, quantityLiters: liters, windowStart: window.start, windowEnd: window.end });
+  // The common case in one statement (guarded update, reservation, audit); lapsed reservations
+  // are expired first only when there are any.
+  if (await hasLapsedReservations(coopId)) await inTransaction((t) => expireLapsedReservations(coopId, t));
+  const fast = await reserveFuel({
+    coopId, tankId: input.tankId, membershipId: actor.membershipId, userId: actor.user.id, liters: mlToLiters(qMl),
+    windowStart: window.start, windowEnd: window.end, audit: auditAfter(mlToLiters(qMl)),
+  });
+  // Refused: find out why under the tank's lock; within the rounding crumb, take what is there.
+  const created = fast ? { id: fast.id, createdAt: fast.createdAt, tankName: fast.tankName, liters: mlToLiters(qMl) } : await inTransaction(async (transaction) => {
+    const cur = await Tank.findOne({
+      attributes: ['name', 'active', 'onHandLiters', 'reservedLiters'], where: { id: input.tankId, coopId }, lock: transaction.LOCK.UPDATE, transaction, raw: true,
+    });
+    if (!cur || !cur.active) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s tanks that is in service.'] });
+    const availableMl = litersToMl(cur.onHandLiters) - litersToMl(cur.reservedLiters);
+    if (availableMl <= 0 || qMl - availableMl > roundingCrumbMl(units)) throw notEnough(actor, cur.name, qMl, availableMl);
+    const liters = mlToLiters(Math.min(qMl, availableMl));
+    const tank = await addReservedLiters(coopId, input.tankId, liters, transaction);
+    if (!tank) throw notEnough(actor, cur.name, qMl, availableMl);
     const r = await Reservation.create(
       { coopId, tankId: tank.id, membershipId: actor.membershipId, quantityLiters: liters, windowStart: window.start, windowEnd: window.end },
       { transaction },
     );
-    await audit({
-      coopId, actorUserId: actor.user.id, action: 'reservation.create', entityType: 'reservation', entityId: r.id,
-      after: { tankId: tank.id, membershipId: actor.membershipId, quantityLiters: liters, windowStart: window.start, windowEnd: window.end },
-    }, transaction);
+    await audit({ coopId, actorUserId: actor.user.id, action: 'reservation.create', entityType: 'reservation', entityId: r.id, after: auditAfter(liters) }, transaction);
     return { id: r.id, createdAt: r.createdAt, tankName: tank.name, liters };
   });
   return resDto({
