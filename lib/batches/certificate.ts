@@ -10,7 +10,7 @@ import { sequelize } from '@/models';
 import { computePlan } from './plan';
 import { loadBatchRow, quickTestInput, todayIn } from './records';
 
-const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported' } as const;
+const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported', 'screened-within': 'Within (screening)', 'screened-outside': 'Outside (screening)' } as const;
 const SCREEN_TEXT = { 'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded', 'not tested': 'Not tested' } as const;
 
 function fmtDate(d: Date | string, timezone: string): string {
