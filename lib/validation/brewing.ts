@@ -108,6 +108,8 @@ const planShape = {
   baseGramsPerLiter: nonNegative('The base amount', 50).optional(),
   purityPct: purityPctSchema.optional(),
   titrantFrom: z.enum(['same-catalyst', 'pure-reagent'], { error: 'Choose how the titrant was made.' }).optional(),
+  /** The chemical of the titrant the trials were made with (the batch's catalyst when not given). */
+  titrant: z.enum(CATALYST_KINDS, { error: 'Choose KOH or NaOH.' }).optional(),
   methanolMode: z.enum(['percent', 'molar-ratio'], { error: 'Choose percent or molar ratio.' }).optional(),
   methanolPct: num().pipe(z.number().gt(0, 'Methanol % must be more than 0.').max(100, 'Methanol % must be at most 100.')).optional(),
   molarRatio: num().pipe(z.number().gt(0, 'The molar ratio must be more than 0.').max(30, 'The molar ratio must be at most 30.')).optional(),
@@ -126,6 +128,8 @@ export const plannerSchema = z
     heaterKw: nonNegative('Heater power', 100).optional(),
     heaterHours: nonNegative('Heating time', 100).optional(),
     tariffCentsPerKwh: nonNegative('The tariff', 1_000).optional(),
+    /** The oil's temperature before heating, in the co-op's units (°F or °C). */
+    startTemp: num().pipe(z.number().min(-40, 'At least −40.').max(200, 'At most 200.')).optional(),
   })
   .superRefine(needsTitration);
 export type PlannerInput = z.infer<typeof plannerSchema>;
@@ -169,6 +173,7 @@ export const batchUpdateSchema = z
     titrationTrials: z.array(nonNegative('A titration trial', 50)).min(1, 'Enter at least one titration trial.').max(10).optional(),
     titrationBlankMl: planShape.titrationBlankMl,
     catalyst: planShape.catalyst,
+    titrant: planShape.titrant,
     baseGramsPerLiter: planShape.baseGramsPerLiter,
     purityPct: planShape.purityPct,
     titrantFrom: planShape.titrantFrom,

@@ -45,6 +45,23 @@ describe('computePlan', () => {
     expect(p.oil.acidNumber).toBeCloseTo((4 * 1.4027) / 0.92, 2);
   });
 
+  it('NaOH titration for a KOH batch at 90 %: converted by molar mass, then divided by purity once (IUPAC; common practice purity rule)', () => {
+    const p = computePlan({ oilLiters: 100, titration: { source: 'oil-lot', trials: [4], titrant: 'NaOH', oilLotId: 7 }, catalyst: 'KOH', baseGramsPerLiter: 7, purityPct: 90 });
+    expect(p.titrantFrom).toBe('pure-reagent');
+    expect(p.catalystResult.rule).toBe('converted-all-over-purity');
+    expect(p.catalystResult.gramsPerLiter).toBeCloseTo((7 + 4 * (56.106 / 39.997)) / 0.9, 9);
+    // said to be made from the batch's own KOH: impossible for a NaOH titrant → 422 on titrantFrom
+    expect(() => computePlan({ oilLiters: 100, titration: { source: 'trials', trials: [4], titrant: 'NaOH' }, catalyst: 'KOH', purityPct: 90, titrantFrom: 'same-catalyst' })).toThrow(HttpError);
+  });
+
+  it('projects fuel from released batches, the ideal only without history (stoichiometry; common practice)', () => {
+    const none = computePlan({ oilLiters: 100, titration: trials([4]), catalyst: 'NaOH' });
+    expect(none.yieldProjection.source).toBe('ideal');
+    expect(none.projectedFuelLiters).toBeCloseTo(none.yields.fuelLiters, 9);
+    const hist = computePlan({ oilLiters: 100, titration: trials([4]), catalyst: 'NaOH' }, {}, { yieldHistory: [{ oilLiters: 50, releasedLiters: 45 }] });
+    expect(hist.projectedFuelLiters).toBeCloseTo(90, 9);
+  });
+
   it('one trial is enough; a 6:1 molar ratio gives ≈ 252 mL per L of oil (W5, CRC values)', () => {
     const p = computePlan({ oilLiters: 1, titration: trials([3]), catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 100, methanolMode: 'molar-ratio', molarRatio: 6 });
     expect(p.catalystResult.gramsPerLiter).toBeCloseTo(6.5, 9); // W3 (common practice): NaOH, titration 3 → 6.5 g/L
