@@ -307,6 +307,9 @@ export interface BatchListRow {
   costPerLiterCents: number | null;
   qualityStandard: FuelStandard;
   qualityVerdict: 'pass' | 'fail' | 'incomplete';
+  /** The one verdict wording (lib/quality): "Meets …", "Fails: …" or "Screened — n of m …". */
+  qualityText: string;
+  qualityKind: 'meets' | 'fails' | 'screened';
   screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
 }
 
@@ -316,7 +319,7 @@ const LIST_SORT: Record<string, keyof BatchRecord> = {
 };
 const LIST_ATTRIBUTES = [
   'id', 'number', 'status', 'batchDate', 'oilLiters', 'releasedLiters', 'totalCostCents', 'costPerGallonCents',
-  'qualityStandard', 'qualityVerdict', 'screeningVerdict',
+  'qualityStandard', 'qualityVerdict', 'screeningVerdict', 'labResults',
 ] as const satisfies readonly (keyof BatchRecord)[];
 const IN_PROGRESS: BatchStatus[] = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
 
@@ -352,7 +355,9 @@ export async function listBatches(actor: Actor, q: BatchListQuery): Promise<Batc
         id: r.id, number: r.number, status: r.status, batchDate: r.batchDate, oilLiters: Number(r.oilLiters), releasedLiters,
         costPerGallonCents: n(r.costPerGallonCents),
         costPerLiterCents: r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
-        qualityStandard: r.qualityStandard, qualityVerdict: r.qualityVerdict, screeningVerdict: r.screeningVerdict,
+        qualityStandard: r.qualityStandard, screeningVerdict: r.screeningVerdict,
+        // Judged from the results themselves (a verdict stored under an older rule is not trusted).
+        ...((v) => ({ qualityVerdict: v.overall, qualityText: v.verdict.text, qualityKind: v.verdict.kind }))(evaluateQuality(r.qualityStandard, labResultsOf(r))),
       };
     }),
     total: Number(total ?? 0), page: q.page, pageSize: q.pageSize,

@@ -263,7 +263,7 @@ export async function updateBatch(actor: Actor, id: number, input: BatchUpdateIn
     let lab: QualityResults = labResultsOf(row);
     if (input.labResults) {
       lab = { ...lab };
-      for (const [k, v] of Object.entries(input.labResults) as [keyof QualityResults, number | null | undefined][]) {
+      for (const [k, v] of Object.entries(input.labResults) as [keyof QualityResults, QualityResults[keyof QualityResults]][]) {
         if (v === null) delete lab[k];
         else if (v !== undefined) lab[k] = v;
       }

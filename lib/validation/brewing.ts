@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { QUALITY_PROPERTIES } from '@/lib/quality';
 import { safeParseMoneyToCents } from '@/lib/money';
 import { listQuerySchema } from './list';
 
@@ -152,12 +153,24 @@ export type BatchCreateInput = z.infer<typeof batchCreateSchema>;
 // ---------------------------------------------------------------- batch steps
 
 export const DRYING_METHODS = ['air', 'bubble', 'heat', 'vacuum', 'settle', 'other'] as const;
-export const QUALITY_PROPERTIES = [
-  'acidNumber', 'freeGlycerin', 'totalGlycerin', 'waterAndSediment', 'water', 'flashPoint', 'methanol', 'kinematicViscosity40C',
-  'sulfur', 'cloudPoint', 'oxidationStability', 'sulfatedAsh', 'copperStripCorrosion', 'cetaneNumber', 'carbonResidue', 'density15C',
-] as const;
+export { QUALITY_PROPERTIES } from '@/lib/quality';
 
-const labValue = num().pipe(z.number().min(-100, 'Check this value.').max(100_000, 'Check this value.')).nullable();
+const labNumber = num().pipe(z.number().min(-100, 'Check this value.').max(100_000, 'Check this value.'));
+/**
+ * A lab result: the value with its method, laboratory (or "home test") and date. A bare number is
+ * still accepted (screening only: without laboratory, method and date it earns no standard verdict).
+ */
+const labValue = z
+  .union([
+    labNumber,
+    z.strictObject({
+      value: labNumber,
+      method: text(60).min(1, 'Name the test method, e.g. ASTM D93.'),
+      laboratory: text(120).min(1, 'Name the laboratory, or write "home test".'),
+      date: dateSchema,
+    }),
+  ])
+  .nullable();
 
 export const quickTestsSchema = z.strictObject({
   test327: z.strictObject({ result: z.enum(['clear', 'fallout'], { error: 'Choose clear or fall-out.' }), falloutMl: nonNegative('Fall-out', 30).optional() }).nullable().optional(),
@@ -218,6 +231,8 @@ export const batchAdvanceSchema = z.strictObject({
 export const batchReleaseSchema = z.strictObject({
   tankId: num().pipe(z.number().int().positive('Choose a tank.')),
   volume: positive('Volume released', 100_000),
+  /** Why the batch is released although it does not meet the standard in full (required then). */
+  reason: z.string().trim().max(2000, 'At most 2000 characters.').optional(),
 });
 export const batchRejectSchema = z.strictObject({
   reason: z.string({ error: 'Say why the batch is rejected.' }).trim().min(3, 'Say why the batch is rejected (at least 3 characters).').max(2000, 'At most 2000 characters.'),

@@ -236,7 +236,7 @@ function BatchRecord({ batch, base, units, currency, tanks }: {
 
       <Card title="6. Testing">
         <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} />
-        {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults as Record<string, number>} standard={batch.quality.standard} /></div> : null}
+        {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults} standard={batch.quality.standard} /></div> : null}
       </Card>
 
       <Card title="Costs">
