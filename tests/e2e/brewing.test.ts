@@ -98,7 +98,7 @@ describe('brewing in the browser', () => {
       // Release from the Next-step card: a dialog with the quality state, a reason (one screening result is not the standard met), can't be undone.
       await page.getByRole('button', { name: 'Release to a tank…' }).click();
       const dialog = page.getByRole('dialog', { name: /Release batch 1 to a tank/ });
-      await dialog.getByText(/Screened — 0 of 19 required properties tested/).waitFor();
+      await dialog.getByText('Screened — 0 of 19 required properties tested, none failing', { exact: true }).waitFor();
       await dialog.getByText(/can’t be undone/).first().waitFor();
       await dialog.getByLabel('Volume released (gal)').fill('28');
       await dialog.getByRole('button', { name: 'Release — can’t be undone' }).click();

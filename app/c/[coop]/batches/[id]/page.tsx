@@ -14,7 +14,8 @@ import { UploadForm } from '@/components/brewing/upload-form';
 import { Card, Notice } from '@/components/ui/notice';
 import { Denied } from '@/components/brewing/denied';
 import { findActor } from '@/lib/auth';
-import { getBatch, idParam, type BatchDto, type BatchSummaryDto } from '@/lib/batches';
+import { getBatch, idParam, unacknowledgedDangers, type BatchDto, type BatchSummaryDto, type DangerAlert } from '@/lib/batches';
+import { DangerBanner } from '@/components/brewing/danger-banner';
 import { HttpError } from '@/lib/http';
 import { listTanks } from '@/lib/supplies';
 import { volumeFromLiters, volumeLabel, type UnitSystem } from '@/lib/units';
@@ -39,9 +40,9 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
   }
   const base = `/c/${actor.coop.slug}`;
   if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} />;
-  const tanks = batch.status === 'testing' ? await listTanks(actor) : [];
+  const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
   const altitude = altitudeNote(actor.coop.settings.elevationM ?? 0, actor.coop.units);
-  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} />;
+  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} />;
 }
 
 function Header({ number, status, batchDate, base, id, meets, children }: { number: number; status: string; batchDate: string; base: string; id: number; meets: boolean; children?: ReactNode }) {
@@ -109,8 +110,8 @@ function Figure({ label, value, sub }: { label: string; value: ReactNode; sub?: 
   );
 }
 
-function BatchRecord({ batch, base, units, currency, tanks, altitude }: {
-  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null;
+function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers }: {
+  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[];
 }) {
   const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
   const final = batch.status === 'released' || batch.status === 'rejected';
@@ -151,6 +152,8 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude }: {
       <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'}>
         <Steps status={batch.status} />
       </Header>
+
+      <DangerBanner alerts={dangers} slug={base.slice(3)} units={units} canAcknowledge linkToBatch={false} />
 
       {!final ? (
         <Card title="Next step">
