@@ -41,8 +41,9 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
   const base = `/c/${actor.coop.slug}`;
   if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} />;
   const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
-  const altitude = altitudeNote(actor.coop.settings.elevationM ?? 0, actor.coop.units);
-  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} />;
+  const elevationM = actor.coop.settings.elevationM ?? 0;
+  const altitude = altitudeNote(elevationM, actor.coop.units);
+  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} />;
 }
 
 function Header({ number, status, batchDate, base, id, meets, children }: { number: number; status: string; batchDate: string; base: string; id: number; meets: boolean; children?: ReactNode }) {
@@ -110,8 +111,8 @@ function Figure({ label, value, sub }: { label: string; value: ReactNode; sub?: 
   );
 }
 
-function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers }: {
-  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[];
+function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, elevationM }: {
+  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number;
 }) {
   const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
   const final = batch.status === 'released' || batch.status === 'rejected';
@@ -217,7 +218,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers }:
       <Card title="2. Reaction">
         <StepForm url={url} fields={reactionFields} disabled={final} />
         <h3 className="mb-2 mt-4 font-semibold text-fir-900">Temperature</h3>
-        <TemperatureLog url={url} readings={batch.temperatures} units={units} readOnly={final} />
+        <TemperatureLog url={url} readings={batch.temperatures} units={units} readOnly={final} elevationM={elevationM} />
         <div className="mt-3"><SafetyNote topics={['methanol']} title="Heating methanol and oil" altitude={altitude} /></div>
       </Card>
 
