@@ -53,7 +53,7 @@ describe('the batch record in the browser', () => {
       expect((await sql<{ status: string }>(`SELECT status FROM batches WHERE id = $1`, [id]))[0]?.status).toBe('testing');
       await dialog.getByLabel('Why release it now?').fill('For the co-op tractor only until the lab report is back');
       await dialog.getByRole('button', { name: 'Release — can’t be undone' }).click();
-      await page.getByText('Cost per gallon').waitFor({ timeout: 15_000 });
+      await page.getByRole('link', { name: 'Download batch quality record (PDF)' }).waitFor({ timeout: 15_000 });
       const [done] = await sql<{ status: string; notes: string }>(`SELECT status, notes FROM batches WHERE id = $1`, [id]);
       expect(done?.status).toBe('released');
       expect(done?.notes).toContain('For the co-op tractor only until the lab report is back');
