@@ -1,9 +1,10 @@
-import type { QualityEvaluation, QuickTestEvaluation } from '@/lib/quality';
+import { formatQualityLimit, formatQualityValue, type QualityEvaluation, type QuickTestEvaluation } from '@/lib/quality';
+import type { UnitSystem } from '@/lib/units';
 import { VerdictBadge } from './badges';
 import { verdictTone } from './format';
 
 /** Lab results against the named standard, then the screening tests, with the caution. */
-export function QualityTables({ quality, screening, showUntested = false }: { quality: QualityEvaluation; screening: QuickTestEvaluation; showUntested?: boolean }) {
+export function QualityTables({ quality, screening, showUntested = false, units = 'metric' }: { quality: QualityEvaluation; screening: QuickTestEvaluation; showUntested?: boolean; units?: UnitSystem }) {
   const rows = showUntested ? quality.rows : quality.rows.filter((r) => r.verdict !== 'not tested');
   return (
     <div className="flex flex-col gap-4">
@@ -23,8 +24,8 @@ export function QualityTables({ quality, screening, showUntested = false }: { qu
                 {rows.map((r) => (
                   <tr key={r.property} className="border-t border-stone-100">
                     <th scope="row" className="px-3 py-1.5 font-medium">{r.label}</th>
-                    <td className="px-3 py-1.5">{r.limitText}</td>
-                    <td className="px-3 py-1.5">{r.value === null ? '—' : `${r.value}${r.unit ? ` ${r.unit}` : ''}`}</td>
+                    <td className="px-3 py-1.5">{formatQualityLimit(r, units)}</td>
+                    <td className="px-3 py-1.5">{formatQualityValue(r, units)}</td>
                     <td className="px-3 py-1.5 text-xs">{r.laboratory ? `${r.laboratory}${r.method ? `, ${r.method}` : ''}${r.date ? `, ${r.date}` : ''}` : r.value === null ? '—' : 'Not recorded (screening only)'}</td>
                     <td className="px-3 py-1.5"><VerdictBadge verdict={r.verdict} />{r.note ? <span className="ml-1 text-xs text-stone-600">{r.note}</span> : null}</td>
                   </tr>

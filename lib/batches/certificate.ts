@@ -2,7 +2,7 @@ import 'server-only';
 import { can, type Actor } from '@/lib/auth';
 import { conflict, notFound } from '@/lib/http';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
-import { evaluateQuality, evaluateQuickTests, SCREENING_CAUTION } from '@/lib/quality';
+import { evaluateQuality, evaluateQuickTests, formatQualityLimit, formatQualityValue, SCREENING_CAUTION } from '@/lib/quality';
 import { SAFETY_DEFERENCE } from '@/lib/safety';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { computePlan } from './plan';
@@ -91,7 +91,7 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   };
   rowText(['Property', `Limit (${quality.standard})`, 'Result', 'Verdict'], true);
   for (const r of quality.rows) {
-    rowText([r.label, r.limitText, r.value === null ? '—' : `${r.value}${r.unit ? ` ${r.unit}` : ''}`, VERDICT_TEXT[r.verdict]]);
+    rowText([r.label, formatQualityLimit(r, units), formatQualityValue(r, units), `${VERDICT_TEXT[r.verdict]}${r.laboratory ? ` (${r.laboratory}${r.date ? `, ${r.date}` : ''})` : ''}`]);
   }
   doc.moveDown(0.3);
   doc.font('bold').fontSize(10).text(`${quality.standard}: ${quality.verdict.text}`);

@@ -27,3 +27,4 @@ export type {
   QuickTestEvaluation,
   ScreeningStatus,
 } from './screening';
+export { formatQualityValue, formatQualityLimit } from './format';

@@ -157,3 +157,14 @@ describe('soap threshold from Na + K ≤ 5 ppm (ASTM D6751; IUPAC standard atomi
     expect(item?.detail).toMatch(/not a water result/);
   });
 });
+
+describe('temperatures in the co-op units (NIST SP 811)', () => {
+  it('flash and cloud points show °F beside °C in US co-ops', async () => {
+    const { formatQualityLimit, formatQualityValue } = await import('@/lib/quality');
+    expect(formatQualityValue({ value: 150, unit: '°C' }, 'us')).toBe('150 °C (302 °F)');
+    expect(formatQualityValue({ value: -3, unit: '°C' }, 'us')).toBe('-3 °C (26.6 °F)');
+    expect(formatQualityValue({ value: 150, unit: '°C' }, 'metric')).toBe('150 °C');
+    expect(formatQualityLimit({ limitText: '≥ 93 °C', unit: '°C' }, 'us')).toBe('≥ 93 °C (199.4 °F)');
+    expect(formatQualityValue({ value: 0.3, unit: 'mg KOH/g' }, 'us')).toBe('0.3 mg KOH/g');
+  });
+});

@@ -77,7 +77,7 @@ function BatchSummary({ batch, base, units, currency }: { batch: BatchSummaryDto
         </dl>
       </Card>
       <Card title="Quality">
-        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} />
+        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
       </Card>
     </div>
   );
@@ -250,7 +250,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
       </Card>
 
       <Card title="6. Testing">
-        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} />
+        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
         {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults} standard={batch.quality.standard} /></div> : null}
       </Card>
 
