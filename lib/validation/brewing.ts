@@ -55,7 +55,7 @@ const nullableText = (max: number) => text(max).nullable().optional().transform(
 
 export const CHEMICAL_KINDS = ['methanol', 'KOH', 'NaOH', 'other'] as const;
 export const CATALYST_KINDS = ['KOH', 'NaOH'] as const;
-export const QUANTITY_UNITS = ['L', 'gal', 'g', 'kg'] as const;
+export const QUANTITY_UNITS = ['L', 'gal', 'g', 'kg', 'lb'] as const;
 
 // ---------------------------------------------------------------- supplies
 
@@ -66,14 +66,14 @@ export const chemicalLotCreateSchema = z
     supplier: text(120).min(1, 'Enter the supplier.'),
     receivedOn: dateSchema,
     quantity: positive('Quantity'),
-    unit: z.enum(QUANTITY_UNITS, { error: 'Choose L, gal, g or kg.' }),
+    unit: z.enum(QUANTITY_UNITS, { error: 'Choose L, gal, g, kg or lb.' }),
     totalCost: moneyCents(),
     purityPct: purityPctSchema.optional(),
     notes: optionalText(2000),
   })
   .superRefine((v, ctx) => {
     if (v.kind === 'methanol' && v.unit !== 'L' && v.unit !== 'gal') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Methanol is measured in L or gal.' });
-    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.unit !== 'g' && v.unit !== 'kg') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Catalysts are weighed in g or kg.' });
+    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.unit !== 'g' && v.unit !== 'kg' && v.unit !== 'lb') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Catalysts are weighed in g, kg or lb.' });
     if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.purityPct === undefined) ctx.addIssue({ code: 'custom', path: ['purityPct'], message: 'Enter the purity from the label (KOH flake is usually about 90 %).' });
     if ((v.kind === 'methanol' || v.kind === 'other') && v.purityPct !== undefined) ctx.addIssue({ code: 'custom', path: ['purityPct'], message: 'Purity is recorded for KOH and NaOH only.' });
     if (v.kind === 'other' && !v.description) ctx.addIssue({ code: 'custom', path: ['description'], message: 'Say what the chemical is.' });

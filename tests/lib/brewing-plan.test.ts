@@ -131,3 +131,11 @@ describe('brewing schemas', () => {
     expect(d.success ? [] : d.error.issues.map((i) => i.path.join('.'))).toEqual(['batchDate']);
   });
 });
+
+describe('chemical purchases in pounds (NIST SP 811: 1 lb = 0.45359237 kg)', () => {
+  it('a catalyst may be entered in lb; methanol may not', () => {
+    const base = { supplier: 'Lakeside Lab Goods', receivedOn: '2026-10-01', quantity: 11, totalCost: '42.50' };
+    expect(chemicalLotCreateSchema.safeParse({ ...base, kind: 'KOH', unit: 'lb', purityPct: 90 }).success).toBe(true);
+    expect(chemicalLotCreateSchema.safeParse({ ...base, kind: 'methanol', unit: 'lb' }).success).toBe(false);
+  });
+});
