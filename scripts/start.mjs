@@ -3,7 +3,8 @@
 //  1. the embedded PostgreSQL (.data/pg), unless DATABASE_URL is set;
 //  2. migrations and the demo seeders (each runs once);
 //  3. the local fakes: SMTP catcher with an inbox page, and the payments fake;
-//  4. `next build` when the build is missing or older than the sources, then `next start`.
+//  4. `next build` when the build is missing or older than the sources, then `next start`;
+//  5. the job worker (scripts/worker.mjs) beside it.
 // Ctrl-C stops the app, the fakes and the database it started.
 import crypto from 'node:crypto';
 import fs from 'node:fs';
@@ -13,6 +14,7 @@ import { migrate } from './lib/db-setup.mjs';
 import { buildIfNeeded } from './lib/build.mjs';
 import { appEnv, startNext } from './lib/app.mjs';
 import { startMailCatcher, startPaymentsFake } from './lib/fakes.mjs';
+import { startWorkerProcess } from './lib/worker-process.mjs';
 
 const dev = process.argv.includes('--dev');
 const PORT = Number(process.env.PORT ?? 3000);
@@ -107,6 +109,11 @@ try {
   });
 
   if (!dev) buildIfNeeded({ env, log });
+  const worker = await startWorkerProcess({ env, log });
+  cleanups.push(worker.stop);
+  worker.child.on('exit', (code) => {
+    if (!stopping) shutdown(code ?? 1);
+  });
   const { child, stop: stopNext } = startNext({ env, port: PORT, dev });
   cleanups.push(stopNext);
   child.on('exit', (code) => {

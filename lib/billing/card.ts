@@ -6,7 +6,7 @@ import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { formatCents } from '@/lib/money';
-import { chargeCard, type ProviderCharge } from '@/lib/payments';
+import { chargeCard, findChargeForAttempt, type ProviderCharge } from '@/lib/payments';
 import { Coop, Invoice, Payment, PaymentAttempt } from '@/models';
 import { getInvoiceDetail } from './invoices';
 import { lockCoopBilling } from './locks';
@@ -168,4 +168,58 @@ export async function payInvoiceByCard(actor: Actor, invoiceId: number, cardToke
     undefined,
     { code: 'provider-unavailable' },
   );
+}
+
+/** An attempt whose answer was lost is looked up at the provider after this long. */
+export const SETTLE_AFTER_MS = Number(process.env.PAYMENT_SETTLE_AFTER_SECONDS ?? 180) * 1000;
+
+/**
+ * Settles card payments whose outcome is unknown (a worker job, every minute): each attempt
+ * still pending SETTLE_AFTER_MS after it started, and not being worked on by a request right now,
+ * is leased, then looked up at the provider by its attempt id (charge metadata). A succeeded
+ * charge is recorded through completeAttemptSucceeded (the one place a charge becomes a payment);
+ * a declined one, or none at all, marks the attempt failed (nothing was charged; the member may
+ * pay again — a late success would still be recorded, failed → succeeded). When the provider
+ * cannot be reached, the attempt stays pending for the next run.
+ * @returns how many attempts were settled
+ */
+export async function settleUnknownAttempts(limit = 50): Promise<number> {
+  const due = await PaymentAttempt.findAll({
+    attributes: ['id', 'coopId', 'createdAt'],
+    where: {
+      status: 'pending',
+      createdAt: { [Op.lt]: new Date(Date.now() - SETTLE_AFTER_MS) },
+      [Op.or]: [{ leaseUntil: null }, { leaseUntil: { [Op.lt]: new Date() } }],
+    },
+    order: [['id', 'ASC']],
+    limit,
+    raw: true,
+  });
+  let settled = 0;
+  for (const a of due) {
+    // Lease it, so a member's retry waits (409) while we ask the provider.
+    const [leased] = await PaymentAttempt.update(
+      { leaseUntil: leaseUntil() },
+      { where: { id: a.id, coopId: a.coopId, status: 'pending', [Op.or]: [{ leaseUntil: null }, { leaseUntil: { [Op.lt]: new Date() } }] } },
+    );
+    if (leased === 0) continue;
+    const found = await findChargeForAttempt(a.id, new Date(a.createdAt));
+    if (found === 'unavailable') {
+      await PaymentAttempt.update({ leaseUntil: null }, { where: { id: a.id, coopId: a.coopId, status: 'pending' } });
+      continue;
+    }
+    await inTransaction(async (t) => {
+      if (found && found.succeeded) {
+        await completeAttemptSucceeded(t, a.coopId, a.id, found, null);
+        return;
+      }
+      await lockCoopBilling(t, a.coopId);
+      const message = found ? 'The card was declined.' : 'The card payment service has no charge for this attempt; nothing was charged.';
+      if ((await markAttemptFailed(t, a.coopId, a.id, found ? 'card_declined' : 'not-charged', message)) === 'applied') {
+        await audit({ coopId: a.coopId, actorUserId: null, action: 'payment.attempt.failed', entityType: 'payment_attempt', entityId: a.id, after: { outcome: found ? 'declined' : 'not-charged', settled: true } }, t);
+      }
+    });
+    settled++;
+  }
+  return settled;
 }

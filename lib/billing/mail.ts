@@ -1,7 +1,8 @@
 import 'server-only';
 import { literal, Op } from 'sequelize';
 import { inTransaction } from '@/lib/db';
-import { appUrl, sendMail } from '@/lib/mail';
+import { enqueueInvoiceMails } from '@/lib/jobs';
+import { appUrl, deliverMail, sendMail, type OutgoingMail } from '@/lib/mail';
 import { formatCents } from '@/lib/money';
 import { Coop, Invoice } from '@/models';
 import { getInvoiceDetail } from './invoices';
@@ -17,36 +18,8 @@ async function loadCoop(coopId: number): Promise<PdfCoop> {
 /** One more sending attempt, counted in the database (concurrent senders never lose one). */
 const ATTEMPT = literal('email_attempts + 1');
 
-/**
- * Claims up to ten queued e-mails of a co-op (queued → sending, FOR UPDATE SKIP LOCKED), so two
- * senders never mail the same invoice; a claim left "sending" by a crashed server is taken again
- * after five minutes.
- */
-async function claimBatch(coopId: number): Promise<{ id: number }[]> {
-  return inTransaction(async (t) => {
-    const batch = await Invoice.findAll({
-      where: {
-        coopId,
-        [Op.or]: [{ emailStatus: 'queued' }, { emailStatus: 'sending', updatedAt: { [Op.lt]: literal("now() - interval '5 minutes'") } }],
-      },
-      attributes: ['id'],
-      order: [['number', 'ASC']],
-      limit: 10,
-      lock: t.LOCK.UPDATE,
-      skipLocked: true,
-      raw: true,
-      transaction: t,
-    });
-    if (batch.length > 0) await Invoice.update({ emailStatus: 'sending' }, { where: { id: batch.map((b) => b.id), coopId }, transaction: t });
-    return batch;
-  });
-}
-
-/**
- * E-mails one issued invoice or credit note to its member with the PDF attached, and records the
- * outcome on the invoice (sent / failed, attempts, time). Never throws for mail trouble.
- */
-export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<EmailStatus> {
+/** The e-mail of one issued invoice or credit note, with its PDF. */
+async function composeInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<OutgoingMail> {
   const c = coop ?? (await loadCoop(coopId));
   const inv = await getInvoiceDetail(coopId, invoiceId, { includeDrafts: false });
   const pdf = await renderInvoicePdf(inv, c);
@@ -56,41 +29,74 @@ export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?:
   const text = isCredit
     ? `Hello ${first},\n\n${c.name} has cancelled invoice ${inv.original?.label ?? ''} for ${periodLabel(inv.period)}. The credit note ${inv.label} is attached.\nAnything you had paid on that invoice is held as credit on your account and taken off your next invoice.\n\nYour invoices: ${appUrl(`/c/${c.slug}/invoices`)}\n\n— ${c.name} (sent by Tallyvat)\n`
     : `Hello ${first},\n\nYour invoice ${inv.label} for ${periodLabel(inv.period)} from ${c.name} is attached.\nTotal: ${money(inv.totalCents)}. Amount due: ${money(inv.outstandingCents)}${inv.dueOn && inv.outstandingCents > 0 ? `, by ${formatDateIn(inv.dueOn, c.timezone)}` : ''}.\n\nPay by card or see all your invoices: ${appUrl(`/c/${c.slug}/invoices/${inv.id}`)}\nOr pay the treasurer in cash or by cheque, writing ${inv.label} on it.\n\n— ${c.name} (sent by Tallyvat)\n`;
-  const ok = await sendMail({
+  return {
     to: inv.memberEmail,
     subject: `${c.name}: ${isCredit ? 'credit note' : 'invoice'} ${inv.label} for ${periodLabel(inv.period)}`,
     text,
     attachments: [{ filename: invoiceFileName(c.slug, inv), content: pdf, contentType: 'application/pdf' }],
-  });
+  };
+}
+
+/**
+ * E-mails one issued invoice or credit note to its member now (the treasurer's "send again" on
+ * one invoice) and records the outcome on the invoice (sent / failed, attempts, time). Never
+ * throws for mail trouble.
+ */
+export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<EmailStatus> {
+  const ok = await sendMail(await composeInvoiceEmail(coopId, invoiceId, coop));
   const status: EmailStatus = ok ? 'sent' : 'failed';
   await Invoice.update({ emailStatus: status, emailAttempts: ATTEMPT, ...(ok ? { emailedAt: new Date() } : {}) }, { where: { id: invoiceId, coopId } });
   return status;
 }
 
 /**
- * Sends every queued invoice e-mail of a co-op, a few at a time. Each batch is claimed atomically
- * (queued → sending, SKIP LOCKED), so two senders never mail the same invoice; a batch left
- * "sending" by a crashed server is picked up again after five minutes.
+ * The mail job of one invoice (run by the worker). The e-mail is composed first (reads and the
+ * PDF); then one transaction marks the invoice sent — `WHERE email_status = 'queued'`, so of two
+ * jobs for the same invoice only one gets the row, the other waits on its lock and then finds
+ * nothing to do — hands the message to the SMTP server, and commits only once the server has
+ * accepted it. A worker killed before that leaves the row "queued" (rolled back) for the retry;
+ * the only window for a second copy is between the server's "250 OK" and the COMMIT. SMTP
+ * trouble rolls back and throws: the queue tries again with back-off, and after the last try the
+ * dead letter marks the invoice "failed". (The transaction holds one UPDATE by primary key, so
+ * inTransaction never has a deadlock to retry it for.)
+ * @returns whether this job sent the e-mail
  */
-export async function sendQueuedInvoiceEmails(coopId: number): Promise<{ sent: number; failed: number }> {
-  const coop = await loadCoop(coopId);
-  let sent = 0;
-  let failed = 0;
-  for (;;) {
-    const batch = await claimBatch(coopId);
-    if (batch.length === 0) break;
-    for (const { id } of batch) {
-      try {
-        if ((await sendInvoiceEmail(coopId, id, coop)) === 'sent') sent++;
-        else failed++;
-      } catch (e) {
-        console.error(`[billing] e-mail for invoice ${id} failed:`, e);
-        await Invoice.update({ emailStatus: 'failed', emailAttempts: ATTEMPT }, { where: { id, coopId } });
-        failed++;
-      }
-    }
+export async function deliverInvoiceEmailJob(coopId: number, invoiceId: number): Promise<boolean> {
+  const queued = await Invoice.count({ where: { id: invoiceId, coopId, emailStatus: 'queued' } });
+  if (queued === 0) return false;
+  const mail = await composeInvoiceEmail(coopId, invoiceId);
+  try {
+    return await inTransaction(async (transaction) => {
+      const [claimed] = await Invoice.update(
+        { emailStatus: 'sent', emailAttempts: ATTEMPT, emailedAt: new Date() },
+        { where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' }, emailStatus: 'queued' }, transaction },
+      );
+      if (claimed === 0) return false;
+      await deliverMail(mail);
+      return true;
+    });
+  } catch (e) {
+    // The failed try still counts (the month page shows attempts).
+    await Invoice.update({ emailAttempts: ATTEMPT }, { where: { id: invoiceId, coopId, emailStatus: 'queued' } });
+    throw e;
   }
-  return { sent, failed };
+}
+
+/** The dead letter of an invoice's mail job: every try failed. */
+export async function invoiceEmailGaveUp(coopId: number, invoiceId: number): Promise<void> {
+  await Invoice.update({ emailStatus: 'failed' }, { where: { id: invoiceId, coopId, emailStatus: ['queued', 'sending'] } });
+}
+
+/**
+ * Queues one mail job per invoice of the co-op whose e-mail is "queued" (after issuing, or after
+ * "send now"). The worker sends them; a job for an invoice that is already sent does nothing, so
+ * queuing twice is harmless.
+ * @returns how many jobs were queued
+ */
+export async function sendQueuedInvoiceEmails(coopId: number): Promise<number> {
+  const rows = await Invoice.findAll({ where: { coopId, emailStatus: 'queued' }, attributes: ['id'], order: [['number', 'ASC']], raw: true });
+  await enqueueInvoiceMails(coopId, rows.map((r) => r.id));
+  return rows.length;
 }
 
 /** Queues the month's unsent or failed e-mails again (treasurer's "send now"). */

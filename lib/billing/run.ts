@@ -1,10 +1,10 @@
 import 'server-only';
-import { after } from 'next/server';
 import type { InferAttributes, Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { HttpError } from '@/lib/http';
+import { enqueue, QUEUES, type RunChunkJob } from '@/lib/jobs';
 import { BillingRun, Coop, Invoice, Membership } from '@/models';
 import { assertPeriodOpen, isPeriodClosed, lockCoopBilling, periodBounds, periodClosedError } from './locks';
 import { currentPeriod, periodToDate } from './periods';
@@ -12,8 +12,12 @@ import * as q from './queries/run';
 
 /** Members per chunk; each chunk is one transaction, so a crash loses at most one chunk's work. */
 export const RUN_CHUNK = 500;
-/** A run whose heartbeat is older than this is taken to have died with its server. */
-const STALE_AFTER_MS = 60_000;
+/**
+ * A run whose chunks no worker has touched for this long is taken to be lost (e.g. no worker is
+ * running, or its jobs were deleted); a worker that dies mid-chunk does not count: the queue
+ * gives its chunk to another worker within seconds.
+ */
+const STALE_AFTER_MS = 10 * 60_000;
 
 export interface RunDTO {
   id: number;
@@ -74,10 +78,12 @@ async function loadScope(coopId: number, periodDate: string, only: number[] | nu
 }
 
 /**
- * Starts (or joins) the invoicing run for a month. Drafts are built in the background in chunks
- * after the response; progress is on the run row. A run that is still alive is returned as is
- * (a double click does not start two); one whose server died is marked abandoned and replaced —
- * re-running is always safe because every chunk is idempotent.
+ * Starts (or joins) the invoicing run for a month. Drafts are built by the worker, one job per
+ * chunk of members; the first chunk's job is queued in the same transaction as the run row.
+ * Progress is on the run row, written by each chunk's transaction. A run that is still alive is
+ * returned as is (a double click does not start two); one that no worker has advanced for ten
+ * minutes is marked abandoned and replaced — re-running is always safe because every chunk is
+ * idempotent.
  */
 export async function startRun(actor: Actor, input: { period: string; memberIds?: number[] }): Promise<{ run: RunDTO; started: boolean }> {
   const coopId = actor.coop.id;
@@ -102,50 +108,60 @@ export async function startRun(actor: Actor, input: { period: string; memberIds?
     const total = await q.countMembersToBill(scope, t);
     const run = await BillingRun.create({ coopId, period: periodDate, memberIds: only, totalMembers: total, startedByUserId: actor.user.id }, { transaction: t });
     await audit({ coopId, actorUserId: actor.user.id, action: 'billing.run.start', entityType: 'billing_run', entityId: run.id, after: { period: input.period, totalMembers: total, memberIds: only } }, t);
+    await enqueue<RunChunkJob>(QUEUES.runChunk, { coopId, runId: run.id, afterId: 0, done: 0 }, { transaction: t });
     return { run: run.get({ plain: true }), started: true };
   });
-  if (result.started) after(() => processRun(coopId, result.run.id));
   return { run: toDto(result.run), started: result.started };
 }
 
 /**
- * Works through a run chunk by chunk (each chunk its own transaction under the co-op's billing
- * lock) until no member is left, then marks it completed. Any failure marks it failed with the
- * message; the treasurer may simply start it again.
+ * One chunk of a run (a worker job): under the co-op's billing lock, builds the drafts of the
+ * next RUN_CHUNK members after `afterId`, advances the run's progress and queues the next
+ * chunk — all in one transaction, so a worker killed mid-chunk leaves nothing half done and the
+ * queue runs the chunk again. A chunk replayed after its transaction committed (the worker died
+ * before the queue heard it finished) finds the run's progress moved on and does nothing.
+ * When no member is left, the run is marked completed. A closed month fails the run at once;
+ * other errors are retried by the queue and, after the last try, fail the run (runGaveUp).
  */
-export async function processRun(coopId: number, runId: number): Promise<void> {
-  let afterId = 0;
+export async function runChunk(job: RunChunkJob): Promise<'chunk' | 'completed' | 'stale'> {
+  const { coopId, runId, afterId } = job;
   try {
-    for (;;) {
-      const stop = await inTransaction(async (t) => {
-        await lockCoopBilling(t, coopId);
-        const run = await BillingRun.findOne({ where: { id: runId, coopId }, lock: t.LOCK.UPDATE, transaction: t });
-        if (!run || run.status !== 'running') return true;
-        const periodDate = String(run.period).slice(0, 10);
-        if (await isPeriodClosed(coopId, periodDate, t)) throw periodClosedError(periodDate);
-        const scope = await loadScope(coopId, periodDate, run.memberIds, t);
-        const ids = await q.nextMembersToBill(scope, afterId, RUN_CHUNK, t);
-        if (ids.length === 0) {
-          const drafts = await Invoice.count({ where: { coopId, period: periodDate, kind: 'invoice', status: 'draft' }, transaction: t });
-          const members = Math.max(run.totalMembers, run.doneMembers);
-          await run.update({ status: 'completed', finishedAt: new Date(), heartbeatAt: new Date(), drafts, totalMembers: members, doneMembers: members }, { transaction: t });
-          await audit({ coopId, actorUserId: run.startedByUserId, action: 'billing.run.complete', entityType: 'billing_run', entityId: runId, after: { period: periodDate.slice(0, 7), members, drafts } }, t);
-          return true;
-        }
-        const drafts = await buildDrafts(t, scope, runId, ids);
-        const done = run.doneMembers + ids.length;
-        // The run row is locked (FOR UPDATE) until this transaction ends, so these sums are exact.
-        await run.update({ doneMembers: done, totalMembers: Math.max(run.totalMembers, done), drafts: run.drafts + drafts, heartbeatAt: new Date() }, { transaction: t });
-        afterId = ids[ids.length - 1]!;
-        return false;
-      });
-      if (stop) return;
-    }
+    return await inTransaction(async (t) => {
+      await lockCoopBilling(t, coopId);
+      const run = await BillingRun.findOne({ where: { id: runId, coopId }, lock: t.LOCK.UPDATE, transaction: t });
+      if (!run || run.status !== 'running' || run.doneMembers !== job.done) return 'stale';
+      const periodDate = String(run.period).slice(0, 10);
+      if (await isPeriodClosed(coopId, periodDate, t)) throw periodClosedError(periodDate);
+      const scope = await loadScope(coopId, periodDate, run.memberIds, t);
+      const ids = await q.nextMembersToBill(scope, afterId, RUN_CHUNK, t);
+      if (ids.length === 0) {
+        const drafts = await Invoice.count({ where: { coopId, period: periodDate, kind: 'invoice', status: 'draft' }, transaction: t });
+        const members = Math.max(run.totalMembers, run.doneMembers);
+        await run.update({ status: 'completed', finishedAt: new Date(), heartbeatAt: new Date(), drafts, totalMembers: members, doneMembers: members }, { transaction: t });
+        await audit({ coopId, actorUserId: run.startedByUserId, action: 'billing.run.complete', entityType: 'billing_run', entityId: runId, after: { period: periodDate.slice(0, 7), members, drafts } }, t);
+        return 'completed';
+      }
+      const drafts = await buildDrafts(t, scope, runId, ids);
+      const done = run.doneMembers + ids.length;
+      // The run row is locked (FOR UPDATE) until this transaction ends, so these sums are exact.
+      await run.update({ doneMembers: done, totalMembers: Math.max(run.totalMembers, done), drafts: run.drafts + drafts, heartbeatAt: new Date() }, { transaction: t });
+      await enqueue<RunChunkJob>(QUEUES.runChunk, { coopId, runId, afterId: ids[ids.length - 1]!, done }, { transaction: t });
+      return 'chunk';
+    });
   } catch (e) {
-    console.error(`[billing] run ${runId} failed:`, e);
-    const message = e instanceof HttpError ? e.message : 'The run stopped on an unexpected error; start it again to continue (finished members are kept).';
-    await BillingRun.update({ status: 'failed', error: message, finishedAt: new Date() }, { where: { id: runId, coopId, status: 'running' } }).catch(() => {});
+    if (!(e instanceof HttpError)) throw e;
+    await runGaveUp(coopId, runId, e.message);
+    return 'stale';
   }
+}
+
+/** Marks a run failed (its chunk's job used up its tries, or the month closed under it). */
+export async function runGaveUp(coopId: number, runId: number, message?: string): Promise<void> {
+  console.error(`[billing] run ${runId} failed${message ? `: ${message}` : ''}`);
+  await BillingRun.update(
+    { status: 'failed', error: message ?? 'The run stopped on an unexpected error; start it again to continue (finished members are kept).', finishedAt: new Date() },
+    { where: { id: runId, coopId, status: 'running' } },
+  );
 }
 
 /** One run of the co-op (404 for another co-op's). */

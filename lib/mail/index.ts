@@ -8,6 +8,10 @@ declare global {
 
 function transport(): Transporter {
   return (globalThis.__tallyvatMail ??= nodemailer.createTransport({
+    // Pooled: the worker sends many messages over a few kept-open connections.
+    pool: true,
+    maxConnections: Number(process.env.SMTP_MAX_CONNECTIONS ?? 5),
+    maxMessages: 1000,
     host: process.env.SMTP_HOST ?? '127.0.0.1',
     port: Number(process.env.SMTP_PORT ?? 2525),
     secure: false,
@@ -28,12 +32,20 @@ export interface OutgoingMail {
 }
 
 /**
- * Sends one e-mail. Returns true when the SMTP server accepted it, false when it could not be
+ * Sends one e-mail; throws when the SMTP server could not be reached or refused it (the job
+ * queue then tries again later).
+ */
+export async function deliverMail(mail: OutgoingMail): Promise<void> {
+  await transport().sendMail({ from: process.env.MAIL_FROM ?? 'Tallyvat <no-reply@tallyvat.localhost>', ...mail });
+}
+
+/**
+ * Sends one e-mail now. Returns true when the SMTP server accepted it, false when it could not be
  * reached or refused it (the caller records "not sent" and offers a resend); never throws.
  */
 export async function sendMail(mail: OutgoingMail): Promise<boolean> {
   try {
-    await transport().sendMail({ from: process.env.MAIL_FROM ?? 'Tallyvat <no-reply@tallyvat.localhost>', ...mail });
+    await deliverMail(mail);
     return true;
   } catch (e) {
     console.error('[mail] not sent:', (e as Error).message);

@@ -126,6 +126,27 @@ export async function chargeCard(input: {
   }
 }
 
+/**
+ * Looks up the charge made for one of our payment attempts, by the attempt id we put in its
+ * metadata (for an attempt whose answer was lost). Lists charges created since `since` (newest
+ * first at the provider; the local fake ignores the date filter and is walked whole, up to
+ * `maxScan`).
+ * @returns the charge, null when the provider has none, or 'unavailable' when it could not be asked
+ */
+export async function findChargeForAttempt(attemptId: number, since: Date, maxScan = 2000): Promise<ProviderCharge | null | 'unavailable'> {
+  try {
+    let scanned = 0;
+    for await (const c of client().charges.list({ limit: 100, created: { gte: Math.floor(since.getTime() / 1000) - 60 } })) {
+      if (c.metadata?.payment_attempt_id === String(attemptId)) return mapCharge(c);
+      if (++scanned >= maxScan) break;
+    }
+    return null;
+  } catch (e) {
+    console.error('[payments] charge lookup failed:', (e as Error).message);
+    return 'unavailable';
+  }
+}
+
 /** Refunds part or all of a charge once (same idempotency rule as {@link chargeCard}). */
 export async function refundCharge(input: { chargeId: string; amountCents: number; metadata: Record<string, string>; idempotencyKey: string }): Promise<RefundOutcome> {
   try {

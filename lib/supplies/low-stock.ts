@@ -1,6 +1,7 @@
 import 'server-only';
 import { Op } from 'sequelize';
-import { appUrl, sendMail } from '@/lib/mail';
+import { enqueueMany, QUEUES, type PlainMailJob } from '@/lib/jobs';
+import { appUrl } from '@/lib/mail';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { Coop, LowStockAlert, Membership, User } from '@/models';
 import { stockState, summarizeStock, type StockLine } from './index';
@@ -58,7 +59,8 @@ export async function checkLowStock(coopId: number): Promise<StockLine['kind'][]
       'Store methanol and catalyst as your supplier\'s safety data sheets and your local fire code require.',
     ].join('\n');
     const subject = `${coop.name}: low ${crossed.map((l) => l.kind).join(' and ')} for batch ${summary.nextPlannedBatch.number}`;
-    await Promise.all(brewers.map((b) => sendMail({ to: b.email, subject, text })));
+    // One mail job per brewer: the worker sends them, retrying while the mail server is down.
+    await enqueueMany<PlainMailJob>(QUEUES.mail, brewers.map((b) => ({ to: b.email, subject, text, record: { kind: 'none' } })));
     return crossed.map((l) => l.kind);
   } catch (e) {
     console.error('[low-stock] check failed:', (e as Error).message);

@@ -92,6 +92,8 @@ ${m.attachments.map((a, i) => `<p>📎 <a href="/api/messages/${m.id}/attachment
   log(`Mail catcher: SMTP on 127.0.0.1:${smtpPort}, inbox at http://127.0.0.1:${httpPort}/`);
   return {
     messages,
+    /** Every message received since start (the list above keeps only the newest 500). */
+    received: () => nextId - 1,
     stop: () => Promise.all([new Promise((r) => smtp.close(r)), new Promise((r) => web.close(r))]),
   };
 }

@@ -1,5 +1,6 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { caughtMail, makeCoopWithRoles, makeUser, sql, waitForMail } from '../support/api';
+import { mailSettled } from '../support/worker';
 
 // Methanol at 20 % of the oil volume (the batch's methanolPct): 1 US gal = 3.785411784 L
 // (NIST Handbook 44), so 20 gal of oil = 75.708 L → 15.142 L methanol; 60 gal → 45.425 L;
@@ -29,6 +30,7 @@ describe('low-stock e-mail to the brewers', () => {
     await b.post(`${base}/batches`).send({ ...plan, oilVolume: 20, batchDate: '2026-11-20' }).expect(201);
     // A starts: it commits 15.142 L; B is next and 34.858 L covers it.
     await b.post(`${base}/batches/${a.body.id}/advance`).send({ to: 'reacting' }).expect(200);
+    await mailSettled(); // the alerts are mail jobs: let the worker send whatever was queued
     expect(await lowMail(ctx.users.brewer.email)).toHaveLength(0);
 
     // C (60 gal, dated before B) becomes the next planned batch: 45.425 L > 34.858 L available → low.
@@ -37,6 +39,7 @@ describe('low-stock e-mail to the brewers', () => {
     expect(first.subject).toMatch(new RegExp(`low methanol for batch ${c.body.number}$`));
     expect(first.text).toContain(`/c/${ctx.coop.slug}/supplies`);
     expect(first.text).toMatch(/needs 12\.0 gal/); // 45.425 L = 12.0 gal
+    await mailSettled();
     expect(await lowMail(ctx.users.brewer.email)).toHaveLength(1);
     expect(await lowMail(secondBrewer.email)).toHaveLength(1);
     for (const who of ['admin', 'treasurer', 'member'] as const) expect(await lowMail(ctx.users[who].email)).toHaveLength(0);
@@ -50,16 +53,19 @@ describe('low-stock e-mail to the brewers', () => {
       b.post(`${base}/batches`).send({ ...plan, oilVolume: 20, batchDate: '2026-12-01' }).expect(201),
       ctx.agents.admin.patch(`${base}/batches/${c.body.id}`).send({ oilVolume: 61 }).expect(200),
     ]);
+    await mailSettled();
     expect(await lowMail(ctx.users.brewer.email)).toHaveLength(1);
 
     // Restock 100 L: covered again (state back to ok), no e-mail.
     await b.post(`${base}/supplies/chemicals`).send({ kind: 'methanol', supplier: 'Valley Chem Supply', receivedOn: '2026-11-05', quantity: 100, unit: 'L', totalCost: '150.00' }).expect(201);
     const [ok] = await sql<{ state: string }>(`SELECT state FROM low_stock_alerts WHERE coop_id = $1 AND chemical = 'methanol'`, [ctx.coop.id]);
     expect(ok!.state).toBe('ok');
+    await mailSettled();
     expect(await lowMail(ctx.users.brewer.email)).toHaveLength(1);
 
     // Crossing again (C grows to 800 gal: 605.666 L methanol, ~26.6 kg KOH) → one more e-mail naming both.
     await b.patch(`${base}/batches/${c.body.id}`).send({ oilVolume: 800 }).expect(200);
+    await mailSettled();
     const mails = await lowMail(ctx.users.brewer.email);
     expect(mails).toHaveLength(2);
     expect(mails[0]!.subject).toMatch(/low methanol and KOH/);

@@ -12,6 +12,8 @@ import { migrate } from '../../scripts/lib/db-setup.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { appEnv, startNext, waitForHealth } from '../../scripts/lib/app.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
+import { startWorkerProcess } from '../../scripts/lib/worker-process.mjs';
+// @ts-expect-error plain ESM helpers shared with the start script
 import { startMailCatcher, startPaymentsFake } from '../../scripts/lib/fakes.mjs';
 
 declare module 'vitest' {
@@ -21,6 +23,8 @@ declare module 'vitest' {
     mailUrl: string;
     paymentsUrl: string;
     storageDir: string;
+    /** The worker's environment, for tests that stop and start a worker of their own. */
+    workerEnv: string;
   }
 }
 
@@ -64,6 +68,25 @@ export default async function setup(project: TestProject) {
     extra: { NODE_ENV: 'production', OVERVIEW_CACHE_SECONDS: '0' },
   });
   const log = fs.createWriteStream(path.join(root, 'next.log'));
+  // The job worker (e-mail, billing runs, schedules) beside the server, as `npm start` runs it.
+  const workerLog = fs.createWriteStream(path.join(root, 'worker.log'));
+  const worker = await startWorkerProcess({ env, stdio: workerLog });
+  // A test may kill this worker and start another (tests/support/worker.ts): the file names the live one.
+  const workerPidFile = path.join(root, 'worker.pid');
+  fs.writeFileSync(workerPidFile, String(worker.child.pid));
+  stops.unshift(async () => {
+    const pid = Number(fs.readFileSync(workerPidFile, 'utf8'));
+    if (pid === worker.child.pid) return worker.stop();
+    try {
+      process.kill(pid, 'SIGTERM');
+      for (let i = 0; i < 100; i++) {
+        process.kill(pid, 0);
+        await new Promise((r) => setTimeout(r, 200));
+      }
+    } catch {
+      /* gone */
+    }
+  });
   const { child: next, stop: stopNext } = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'pipe', 'pipe'] });
   next.stdout?.pipe(log);
   next.stderr?.pipe(log);
@@ -80,6 +103,7 @@ export default async function setup(project: TestProject) {
   project.provide('mailUrl', `http://127.0.0.1:${mailPort}`);
   project.provide('paymentsUrl', `http://127.0.0.1:${paymentsPort}`);
   project.provide('storageDir', storageDir);
+  project.provide('workerEnv', JSON.stringify(env));
 
   return async () => {
     for (const s of stops) await s();

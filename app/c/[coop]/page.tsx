@@ -3,7 +3,7 @@ import { BalancesChart, BatchCostChart } from '@/components/overview/cost-charts
 import { TankLevelCard } from '@/components/overview/tank-level-card';
 import { VolumeCharts } from '@/components/overview/volume-charts';
 import { Card, EmptyState } from '@/components/ui/notice';
-import { can, requireMember } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
 import { unacknowledgedDangers } from '@/lib/batches';
 import { DangerBanner } from '@/components/brewing/danger-banner';
 import { formatCents, formatRateCents } from '@/lib/money';
@@ -14,7 +14,7 @@ const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a mar
 
 export default async function OverviewPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
-  const actor = await requireMember(coop, 'coop:read');
+  const actor = await requirePageActor(coop, 'coop:read');
   const brewing = can(actor.role, 'batches:read-all');
   const [o, dangers] = await Promise.all([getOverview(actor), brewing ? unacknowledgedDangers(actor.coop.id) : Promise.resolve([])]);
   const units = actor.coop.units;
