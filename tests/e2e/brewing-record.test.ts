@@ -18,10 +18,11 @@ describe('the batch record in the browser', () => {
     await withBrowser(async (page) => {
       await signInUi(page, brewer.email, TEST_PASSWORD);
       const api = `${baseUrl()}/api/coops/${coop.slug}`;
-      const created = await page.request.post(`${api}/batches`, { data: { oilVolume: 10, titrationTrials: [2], catalyst: 'KOH' } });
+      const headers = { origin: baseUrl() }; // same-origin check on writes
+      const created = await page.request.post(`${api}/batches`, { headers, data: { oilVolume: 10, titrationTrials: [2], catalyst: 'KOH' } });
       expect(created.status()).toBe(201);
       const id = (await created.json()).id as number;
-      expect((await page.request.post(`${api}/batches/${id}/advance`, { data: { to: 'washing' } })).status()).toBe(200);
+      expect((await page.request.post(`${api}/batches/${id}/advance`, { headers, data: { to: 'washing' } })).status()).toBe(200);
 
       // Type in the washing step, don't press Save, move on: the values are saved first.
       await page.goto(`${baseUrl()}/c/${coop.slug}/batches/${id}`);
