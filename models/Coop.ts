@@ -16,6 +16,8 @@ export interface CoopSettings {
   /** Fuel-quality standard batches are judged against. */
   qualityStandard?: 'ASTM D6751' | 'EN 14214';
   monthlyDuesCents?: number;
+  /** Elevation of the brewing site above sea level, m (methanol boils lower at altitude). */
+  elevationM?: number;
 }
 
 export class Coop extends Model<InferAttributes<Coop>, InferCreationAttributes<Coop>> {

@@ -1,4 +1,4 @@
-import { formatCents } from '@/lib/money';
+import { formatCents, INVOICE_ROUNDING_NOTE } from '@/lib/money';
 import { formatDateIn, periodLabel } from '@/lib/billing/periods';
 import type { InvoiceDetail } from '@/lib/billing/types';
 import { InvoiceLinesTable } from './invoice-lines-table';
@@ -32,7 +32,7 @@ export function InvoiceSummaryView({ inv, coop }: { inv: InvoiceDetail; coop: { 
           </>
         ) : null}
       </dl>
-      <p className="text-xs text-stone-600">Each draw was priced when it was recorded; every line was rounded to the cent (half away from zero) and the total is the exact sum of the lines.</p>
+      <p className="text-xs text-stone-600">{INVOICE_ROUNDING_NOTE}</p>
     </div>
   );
 }

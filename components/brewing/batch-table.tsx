@@ -6,7 +6,7 @@ import { DataTable, type DataColumn, type Features, type PageInfo } from '@/comp
 import type { BatchListRow } from '@/lib/batches';
 import type { UnitSystem } from '@/lib/units';
 import { StatusBadge, VerdictBadge } from './badges';
-import { dateText, perUnit, vol } from './format';
+import { dateText, perUnit, verdictTone, vol } from './format';
 
 /** A row of the batch list (lib/batches' DTO). */
 export type BatchTableRow = BatchListRow;
@@ -38,7 +38,7 @@ export function BatchTable({ rows, slug, units, currency, pageInfo }: { rows: Ba
       header: 'Quality',
       cell: (c) => (
         <span className="flex flex-wrap gap-1">
-          {c.getValue() !== 'incomplete' ? <VerdictBadge verdict={c.getValue()} prefix={c.row.original.qualityStandard} /> : null}
+          <span className={`inline-block rounded-full border px-2 py-0.5 text-xs font-semibold ${verdictTone(c.row.original.qualityKind)}`}>{c.row.original.qualityText}</span>
           <VerdictBadge verdict={c.row.original.screeningVerdict === 'incomplete' ? 'not tested' : c.row.original.screeningVerdict} prefix="Quick tests" />
         </span>
       ),

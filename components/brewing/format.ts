@@ -18,13 +18,15 @@ export function statusTone(status: string): string {
 }
 
 export function verdictTone(v: string): string {
-  if (v === 'pass' || v === 'looks-good') return 'bg-ok-50 text-ok-700 border-ok-600/30';
-  if (v === 'fail' || v === 'needs-attention') return 'bg-danger-50 text-danger-700 border-danger-600/30';
+  if (v === 'pass' || v === 'meets' || v === 'looks-good') return 'bg-ok-50 text-ok-700 border-ok-600/30';
+  if (v === 'fail' || v === 'fails' || v === 'needs-attention') return 'bg-danger-50 text-danger-700 border-danger-600/30';
+  if (v === 'screened-outside') return 'bg-warn-50 text-warn-700 border-warn-600/30';
   return 'bg-stone-100 text-stone-800 border-stone-300';
 }
 
 export const VERDICT_LABELS: Record<string, string> = {
-  pass: 'Pass', fail: 'Fail', incomplete: 'No lab results', 'not tested': 'Not tested', reported: 'Reported',
+  pass: 'Pass', fail: 'Fail', incomplete: 'Screened', 'not tested': 'Not tested', reported: 'Reported',
+  'screened-within': 'Within limit (screening only)', 'screened-outside': 'Outside limit (screening only)',
   'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded',
 };
 

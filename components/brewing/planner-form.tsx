@@ -16,20 +16,22 @@ interface Recipe { catalyst: 'KOH' | 'NaOH'; baseGramsPerLiter: number | null; p
 interface PlannerResult {
   plan: {
     oilLiters: number; catalyst: string; purityPct: number; puritySource: string; baseGramsPerLiter: number; baseSource: string;
-    titration: { averageMl: number; trials: number[]; outlierIndexes: number[]; source: string; titrant: string };
+    titration: { averageMl: number; trials: number[]; outlierIndexes: number[]; source: string; titrant: string; notice: string | null };
     catalystResult: { gramsPerLiter: number; totalGrams: number; rule: string; explanation: string };
     methanol: { mode: string; pct: number | null; molarRatio: number | null; liters: number; equivalentPct: number; equivalentMolarRatio: number };
     oil: { acidNumber: number; ffaPercent: number; band: string; needsAcidPretreatment: boolean; reject: boolean; message: string };
-    yields: { fuelLiters: number; glycerolLiters: number };
+    yields: { fuelLiters: number; glycerolLiters: number; crudeGlycerinLiters: number };
+    yieldProjection: { ratio: number; source: 'history' | 'ideal'; batches: number; idealRatio: number; explanation: string };
+    projectedFuelLiters: number;
   };
-  coverage: { kind: string; unit: 'L' | 'g'; needed: number; available: number; covered: boolean; shortBy: number; projectedCents: number }[];
+  coverage: { kind: string; unit: 'L' | 'g'; needed: number; available: number; covered: boolean; shortBy: number; projectedCents: number; shortfallCents: number | null }[];
   projected: { methanolCents: number; catalystCents: number; energyCents: number; energySource: string; feedstockCents: number; totalCents: number; costPerGallonCents: number | null; costPerLiterCents: number | null; incomplete: boolean };
   notes: string[];
 }
 
 const PURITY_SOURCE: Record<string, string> = { typed: 'as typed', 'next-lot': 'from the lot in stock that is used next', recipe: 'from the co-op’s recipe', typical: 'typical for flake (common practice)' };
 const TRIALS = ['trial1', 'trial2', 'trial3', 'trial4'];
-const ENERGY = ['tariffCentsPerKwh', 'heaterKw', 'heaterHours'];
+const ENERGY = ['tariffCentsPerKwh', 'heaterKw', 'heaterHours', 'startTemp'];
 
 /**
  * The batch planner: inputs on the left, the computed figures beside them (recomputed by the
@@ -51,7 +53,7 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
     const d = new FormData(formRef.current!);
     const s = (k: string) => String(d.get(k) ?? '').trim();
     const out: Record<string, unknown> = {};
-    for (const k of ['oilVolume', 'oilLotId', 'catalyst', 'baseGramsPerLiter', 'purityPct', 'titrantFrom', 'titrationBlankMl', 'methanolMode', ...(forCreate ? [] : ENERGY)]) {
+    for (const k of ['oilVolume', 'oilLotId', 'catalyst', 'baseGramsPerLiter', 'purityPct', 'titrant', 'titrantFrom', 'titrationBlankMl', 'methanolMode', ...(forCreate ? [] : ENERGY)]) {
       if (s(k) !== '') out[k] = s(k);
     }
     if (mode === 'percent' && s('methanolPct')) out.methanolPct = s('methanolPct');
@@ -139,9 +141,15 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
           </SelectField>
           <TextField label="Purity (%)" name="purityPct" inputMode="decimal" errors={errors.purityPct} placeholder={recipe.purityPct ? String(recipe.purityPct) : ''} hint="Leave empty to use the lot in stock." autoComplete="off" />
           <TextField label="Base amount (g/L, pure)" name="baseGramsPerLiter" inputMode="decimal" errors={errors.baseGramsPerLiter} placeholder={recipe.baseGramsPerLiter ? String(recipe.baseGramsPerLiter) : ''} hint="Leave empty for the co-op’s recipe." autoComplete="off" />
-          <SelectField label="Titrant made from" name="titrantFrom" defaultValue="same-catalyst" errors={errors.titrantFrom}>
-            <option value="same-catalyst">The same catalyst</option>
-            <option value="pure-reagent">Pure reagent</option>
+          <SelectField label="Titrant the trials used" name="titrant" defaultValue="" errors={errors.titrant} hint="An oil lot's titration names its own titrant.">
+            <option value="">Same chemical as the catalyst</option>
+            <option value="KOH">KOH solution</option>
+            <option value="NaOH">NaOH solution</option>
+          </SelectField>
+          <SelectField label="Titrant made from" name="titrantFrom" defaultValue="" errors={errors.titrantFrom}>
+            <option value="">The batch’s own catalyst stock (same chemical) — else pure reagent</option>
+            <option value="same-catalyst">The batch’s own catalyst stock</option>
+            <option value="pure-reagent">Pure (reagent-grade) catalyst</option>
           </SelectField>
           <SelectField label="Methanol by" name="methanolMode" value={mode} onChange={(e) => setMode(e.target.value as 'percent' | 'molar-ratio')} errors={errors.methanolMode}>
             <option value="percent">% of oil volume</option>
@@ -159,6 +167,7 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
             <TextField label="Tariff (¢/kWh)" name="tariffCentsPerKwh" inputMode="decimal" errors={errors.tariffCentsPerKwh} autoComplete="off" />
             <TextField label="Heater (kW)" name="heaterKw" inputMode="decimal" errors={errors.heaterKw} autoComplete="off" />
             <TextField label="Hours" name="heaterHours" inputMode="decimal" errors={errors.heaterHours} autoComplete="off" />
+            <TextField label={`Oil start temperature (${units === 'us' ? '°F' : '°C'})`} name="startTemp" inputMode="decimal" errors={errors.startTemp} hint="For the heating estimate when no heater figures are given." autoComplete="off" />
           </div>
         </details>
         <div className="flex flex-wrap gap-3">
@@ -201,7 +210,7 @@ function PlanResult({ r, units, currency }: { r: PlannerResult; units: UnitSyste
       <div className="rounded-lg border border-stone-200 bg-white p-3 text-sm">
         <p>Titration average <strong>{plan.titration.averageMl.toFixed(2)} mL</strong> ({plan.titration.source === 'oil-lot' ? 'from the oil lot' : `${plan.titration.trials.length} trial${plan.titration.trials.length === 1 ? '' : 's'}`}, {plan.titration.titrant} titrant).</p>
         <p>Acid number <strong>{plan.oil.acidNumber.toFixed(2)} mg KOH/g</strong>, free fatty acids <strong>{plan.oil.ffaPercent.toFixed(2)} %</strong> as oleic acid.</p>
-        {plan.titration.outlierIndexes.length ? <p className="mt-1 text-warn-700">Trial {plan.titration.outlierIndexes.map((i) => i + 1).join(' and ')} differs from the others: titrate again before relying on the average.</p> : null}
+        {plan.titration.notice ? <p className="mt-1 text-warn-700">{plan.titration.notice}</p> : null}
       </div>
       <Notice tone={plan.oil.needsAcidPretreatment ? 'warn' : 'info'} title={plan.oil.needsAcidPretreatment ? 'Acid pre-treatment advised' : undefined}>{plan.oil.message}</Notice>
 
@@ -215,7 +224,7 @@ function PlanResult({ r, units, currency }: { r: PlannerResult; units: UnitSyste
                 <th scope="row" className="px-3 py-1.5">{c.kind}</th>
                 <td className="px-3 py-1.5">{c.unit === 'L' ? vol(c.needed, units, 2) : grams(c.needed)}</td>
                 <td className={`px-3 py-1.5 ${c.covered ? '' : 'font-semibold text-danger-700'}`}>{c.unit === 'L' ? vol(c.available, units, 2) : grams(c.available)}{c.covered ? '' : ` — short by ${c.unit === 'L' ? vol(c.shortBy, units, 2) : grams(c.shortBy)}`}</td>
-                <td className="px-3 py-1.5">{money(c.projectedCents, currency)}</td>
+                <td className="px-3 py-1.5">{money(c.projectedCents, currency)}{c.shortfallCents !== null ? <span className="block text-xs text-stone-600">incl. {money(c.shortfallCents, currency)} for the shortfall at the last price paid</span> : c.covered ? null : <span className="block text-xs text-danger-700">shortfall not priced: none bought before</span>}</td>
               </tr>
             ))}
           </tbody>
@@ -224,7 +233,11 @@ function PlanResult({ r, units, currency }: { r: PlannerResult; units: UnitSyste
 
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
         <Big label={`Projected cost per ${units === 'us' ? 'gallon' : 'litre'}`} value={perUnit(projected.costPerGallonCents, projected.costPerLiterCents, units, currency)} sub={`${money(projected.totalCents, currency)} for the batch: methanol ${money(projected.methanolCents, currency)}, catalyst ${money(projected.catalystCents, currency)}, energy ${money(projected.energyCents, currency)}, feedstock ${money(projected.feedstockCents, currency)}`} />
-        <Big label="Expected" value={`${vol(plan.yields.fuelLiters, units)} fuel`} sub={`and about ${vol(plan.yields.glycerolLiters, units)} of glycerol, before washing losses`} />
+        <Big
+          label="Expected"
+          value={`${vol(plan.projectedFuelLiters, units)} fuel`}
+          sub={`${plan.yieldProjection.source === 'history' ? `${(plan.yieldProjection.ratio * 100).toFixed(0)} % of the oil, the median of your last ${plan.yieldProjection.batches} released batch${plan.yieldProjection.batches === 1 ? '' : 'es'}; ideal ${vol(plan.yields.fuelLiters, units)}` : `the stoichiometric ideal (no released batches yet); real batches release less`}. Crude glycerin layer about ${vol(plan.yields.crudeGlycerinLiters, units)} (pure glycerol ${vol(plan.yields.glycerolLiters, units)}).`}
+        />
       </div>
       {r.notes.length ? <ul className="list-disc pl-5 text-sm text-stone-700">{r.notes.map((n) => <li key={n}>{n}</li>)}</ul> : null}
     </>

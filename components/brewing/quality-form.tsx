@@ -6,7 +6,7 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
-import { limitsFor, type FuelStandard } from '@/lib/quality';
+import { HOME_TEST_LABORATORY, limitsFor, type FuelStandard, type QualityResults } from '@/lib/quality';
 
 interface Stored {
   test327?: { result: 'clear' | 'fallout'; falloutMl?: number };
@@ -17,8 +17,12 @@ interface Stored {
 
 /** Quick tests (screening) and lab results per property of the chosen standard. */
 export function QualityForm({ url, quickTests, labResults, standard, readOnly }: {
-  url: string; quickTests: Stored; labResults: Record<string, number>; standard: FuelStandard; readOnly?: boolean;
+  url: string; quickTests: Stored; labResults: QualityResults; standard: FuelStandard; readOnly?: boolean;
 }) {
+  const stored = (k: string) => labResults[k as keyof QualityResults];
+  const valueOf = (k: string) => { const v = stored(k); return v === undefined || v === null ? '' : String(typeof v === 'number' ? v : v.value); };
+  const metaOf = (k: string) => { const v = stored(k); return v !== undefined && v !== null && typeof v === 'object' ? v : null; };
+  const firstMeta = Object.keys(labResults).map(metaOf).find((m) => m !== null) ?? null;
   const router = useRouter();
   const { busy, fields, message, submit } = useApiForm();
   const [std, setStd] = useState<FuelStandard>(standard);
@@ -38,7 +42,17 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
         washTest: s('washTest') || null,
         water: s('water') || null,
       },
-      labResults: Object.fromEntries(rows.map((r) => [r.property, s(`lab-${r.property}`) || null])),
+      labResults: Object.fromEntries(
+        rows.map((r) => {
+          const value = s(`lab-${r.property}`);
+          if (!value) return [r.property, null];
+          const laboratory = s('labName');
+          const date = s('labDate');
+          const method = s(`method-${r.property}`) || r.method;
+          // With a laboratory (or "home test") and a date the result keeps its provenance; a bare value is screening only.
+          return [r.property, laboratory && date ? { value, method, laboratory, date } : value];
+        }),
+      ),
     };
     if (await submit(url, 'PATCH', body, 'Quality checks saved.')) router.refresh();
   }
@@ -76,18 +90,40 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
           <option value="ASTM D6751">ASTM D6751 (B100)</option>
           <option value="EN 14214">EN 14214</option>
         </SelectField>
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
+          <TextField
+            label="Laboratory"
+            name="labName"
+            defaultValue={firstMeta?.laboratory ?? ''}
+            hint={`The lab's name, or "${HOME_TEST_LABORATORY}" for your own measurements (those never earn a standard verdict).`}
+            errors={f('labResults')}
+            autoComplete="off"
+          />
+          <TextField label="Date tested" name="labDate" type="date" defaultValue={firstMeta?.date ?? ''} />
+        </div>
+        <p className="text-xs text-stone-600">
+          Only results with a laboratory, a method and a date count toward {std}: the batch meets it only when every required property has a laboratory result within its limit.
+        </p>
         <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-3">
           {rows.map((r) => (
-            <TextField
-              key={`${std}-${r.property}`}
-              label={`${r.label}${r.unit ? ` (${r.unit})` : ''}`}
-              name={`lab-${r.property}`}
-              inputMode="decimal"
-              defaultValue={labResults[r.property]?.toString() ?? ''}
-              hint={`Limit: ${r.limitText}`}
-              errors={f(`labResults.${r.property}`)}
-              autoComplete="off"
-            />
+            <div key={`${std}-${r.property}`} className="flex flex-col gap-1">
+              <TextField
+                label={`${r.label}${r.unit ? ` (${r.unit})` : ''}`}
+                name={`lab-${r.property}`}
+                inputMode="decimal"
+                defaultValue={valueOf(r.property)}
+                hint={`Limit: ${r.limitText}${r.required ? '' : ' (not required)'}`}
+                errors={f(`labResults.${r.property}`) ?? f(`labResults.${r.property}.value`)}
+                autoComplete="off"
+              />
+              <TextField
+                label={`Method for ${r.label.toLowerCase()}`}
+                name={`method-${r.property}`}
+                defaultValue={metaOf(r.property)?.method ?? r.method}
+                errors={f(`labResults.${r.property}.method`)}
+                autoComplete="off"
+              />
+            </div>
           ))}
         </div>
       </fieldset>

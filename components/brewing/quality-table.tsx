@@ -1,28 +1,32 @@
-import type { QualityEvaluation, QuickTestEvaluation } from '@/lib/quality';
+import { formatQualityLimit, formatQualityValue, type QualityEvaluation, type QuickTestEvaluation } from '@/lib/quality';
+import type { UnitSystem } from '@/lib/units';
 import { VerdictBadge } from './badges';
+import { verdictTone } from './format';
 
 /** Lab results against the named standard, then the screening tests, with the caution. */
-export function QualityTables({ quality, screening, showUntested = false }: { quality: QualityEvaluation; screening: QuickTestEvaluation; showUntested?: boolean }) {
+export function QualityTables({ quality, screening, showUntested = false, units = 'metric' }: { quality: QualityEvaluation; screening: QuickTestEvaluation; showUntested?: boolean; units?: UnitSystem }) {
   const rows = showUntested ? quality.rows : quality.rows.filter((r) => r.verdict !== 'not tested');
   return (
     <div className="flex flex-col gap-4">
       <div>
         <h3 className="mb-2 flex flex-wrap items-center gap-2 font-semibold text-fir-900">
-          Lab results against {quality.standard} <VerdictBadge verdict={quality.overall} />
+          Lab results against {quality.standard}
+          <span className={`inline-block rounded-full border px-2 py-0.5 text-xs font-semibold ${verdictTone(quality.verdict.kind)}`}>{quality.verdict.text}</span>
         </h3>
         {rows.length ? (
           <div className="overflow-x-auto rounded-lg border border-stone-200">
             <table className="w-full min-w-[30rem] text-left text-sm">
               <caption className="sr-only">Lab results against {quality.standard}</caption>
               <thead className="bg-stone-100 text-xs uppercase tracking-wide text-stone-700">
-                <tr><th scope="col" className="px-3 py-2">Property</th><th scope="col" className="px-3 py-2">Limit</th><th scope="col" className="px-3 py-2">Result</th><th scope="col" className="px-3 py-2">Verdict</th></tr>
+                <tr><th scope="col" className="px-3 py-2">Property</th><th scope="col" className="px-3 py-2">Limit</th><th scope="col" className="px-3 py-2">Result</th><th scope="col" className="px-3 py-2">Tested by</th><th scope="col" className="px-3 py-2">Verdict</th></tr>
               </thead>
               <tbody>
                 {rows.map((r) => (
                   <tr key={r.property} className="border-t border-stone-100">
                     <th scope="row" className="px-3 py-1.5 font-medium">{r.label}</th>
-                    <td className="px-3 py-1.5">{r.limitText}</td>
-                    <td className="px-3 py-1.5">{r.value === null ? '—' : `${r.value}${r.unit ? ` ${r.unit}` : ''}`}</td>
+                    <td className="px-3 py-1.5">{formatQualityLimit(r, units)}</td>
+                    <td className="px-3 py-1.5">{formatQualityValue(r, units)}</td>
+                    <td className="px-3 py-1.5 text-xs">{r.laboratory ? `${r.laboratory}${r.method ? `, ${r.method}` : ''}${r.date ? `, ${r.date}` : ''}` : r.value === null ? '—' : 'Not recorded (screening only)'}</td>
                     <td className="px-3 py-1.5"><VerdictBadge verdict={r.verdict} />{r.note ? <span className="ml-1 text-xs text-stone-600">{r.note}</span> : null}</td>
                   </tr>
                 ))}
@@ -32,7 +36,7 @@ export function QualityTables({ quality, screening, showUntested = false }: { qu
         ) : (
           <p className="text-sm text-stone-600">No lab results recorded.</p>
         )}
-        {quality.untestedCount > 0 && rows.length ? <p className="mt-1 text-xs text-stone-600">{quality.untestedCount} properties with a limit were not tested.</p> : null}
+        {quality.untestedCount > 0 ? <p className="mt-1 text-xs text-stone-600">{quality.untestedCount} of {quality.verdict.requiredCount} required properties have no laboratory result: the batch does not meet {quality.standard} until every one does.</p> : null}
       </div>
       <div>
         <h3 className="mb-2 flex flex-wrap items-center gap-2 font-semibold text-fir-900">

@@ -1,11 +1,12 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useState, type ReactNode } from 'react';
+import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField, FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { hasUnsaved, markClean, markDirty } from './unsaved';
 
 /** One input of a step form. Values are sent as typed; the server parses and converts units. */
 export interface StepField {
@@ -32,10 +33,31 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
   const { busy, fields: errors, message, submit } = useApiForm();
   const router = useRouter();
   const [dirty, setDirty] = useState(false);
+  const formRef = useRef<HTMLFormElement>(null);
+  const id = useId();
+
+  // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
+  useEffect(() => {
+    if (!dirty) {
+      markClean(id);
+      return;
+    }
+    markDirty(id, () => (formRef.current ? save(formRef.current) : Promise.resolve(true)));
+    const warn = (e: BeforeUnloadEvent) => {
+      if (hasUnsaved()) e.preventDefault();
+    };
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  });
+  useEffect(() => () => markClean(id), [id]);
 
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
-    const data = new FormData(e.currentTarget);
+    await save(e.currentTarget);
+  }
+
+  async function save(form: HTMLFormElement): Promise<boolean> {
+    const data = new FormData(form);
     const body: Record<string, unknown> = { ...extra };
     for (const f of fields) {
       const raw = String(data.get(f.name) ?? '').trim();
@@ -47,14 +69,16 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
     }
     const ok = await submit(url, method, body, okText);
     if (ok) {
+      markClean(id);
       setDirty(false);
       router.refresh();
     }
+    return Boolean(ok);
   }
 
   const formErrors = errors._form;
   return (
-    <form onSubmit={onSubmit} onChange={() => setDirty(true)} noValidate className="flex flex-col gap-3">
+    <form ref={formRef} onSubmit={onSubmit} onChange={() => setDirty(true)} noValidate className="flex flex-col gap-3">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <FieldErrors id={`${url}-form-error`} errors={formErrors} />
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">

@@ -11,11 +11,13 @@ import { volumeLabel, type UnitSystem } from '@/lib/units';
 const today = () => new Date().toISOString().slice(0, 10);
 
 /** Records a chemical purchase, with an optional safety data sheet (PDF) uploaded after it. */
-export function ChemicalLotForm({ slug }: { slug: string }) {
+export function ChemicalLotForm({ slug, units: system = 'metric' }: { slug: string; units?: UnitSystem }) {
   const router = useRouter();
   const { busy, fields, message, submit, setMessage } = useApiForm();
   const [kind, setKind] = useState('methanol');
-  const units = kind === 'methanol' ? ['L', 'gal'] : kind === 'other' ? ['L', 'gal', 'g', 'kg'] : ['kg', 'g'];
+  // The co-op's own units first: gallons and pounds in US co-ops, litres and kilograms otherwise.
+  const us = system === 'us';
+  const units = kind === 'methanol' ? (us ? ['gal', 'L'] : ['L', 'gal']) : kind === 'other' ? (us ? ['gal', 'L', 'lb', 'g', 'kg'] : ['L', 'gal', 'g', 'kg', 'lb']) : us ? ['lb', 'kg', 'g'] : ['kg', 'g', 'lb'];
   const catalyst = kind === 'KOH' || kind === 'NaOH';
 
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {

@@ -18,12 +18,12 @@ const LEVEL_TEXT: Record<TemperatureLevel, string> = { ok: 'In range', cold: 'Co
  * Reaction temperature readings. The check (lib/chemistry temperatureCheck) shows while a
  * reading is typed and again as saved; it never calls a reading safe.
  */
-export function TemperatureLog({ url, readings, units, readOnly }: { url: string; readings: Reading[]; units: UnitSystem; readOnly?: boolean }) {
+export function TemperatureLog({ url, readings, units, readOnly, elevationM = 0 }: { url: string; readings: Reading[]; units: UnitSystem; readOnly?: boolean; elevationM?: number }) {
   const router = useRouter();
   const { busy, fields, message, submit } = useApiForm();
   const [typed, setTyped] = useState('');
   const typedNumber = typed.trim() === '' ? NaN : Number(typed);
-  const preview = Number.isFinite(typedNumber) ? temperatureCheck(tempToC(typedNumber, units), units) : null;
+  const preview = Number.isFinite(typedNumber) ? temperatureCheck(tempToC(typedNumber, units), units, { elevationM }) : null;
 
   async function onSubmit(e: React.FormEvent) {
     e.preventDefault();

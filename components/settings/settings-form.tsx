@@ -22,6 +22,7 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
       purityPct: String(f.get('purityPct') ?? ''),
       methanolPct: String(f.get('methanolPct') ?? ''),
       qualityStandard: String(f.get('qualityStandard') ?? ''),
+      elevation: String(f.get('elevation') ?? ''),
     };
     if (await submit(`/api/coops/${initial.slug}/settings`, 'PUT', body, 'Settings saved.')) window.location.reload();
   }
@@ -55,6 +56,14 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
           <option value="ASTM D6751">ASTM D6751 (North America)</option>
           <option value="EN 14214">EN 14214 (Europe)</option>
         </SelectField>
+        <TextField
+          label={`Elevation of the brewing site (${initial.units === 'us' ? 'feet' : 'metres'} above sea level)`}
+          name="elevation"
+          inputMode="decimal"
+          defaultValue={String(Math.round(initial.units === 'us' ? initial.elevationM / 0.3048 : initial.elevationM))}
+          errors={fields.elevation}
+          hint="Methanol boils lower at altitude (about 60 °C / 140 °F at 1,600 m / 5,250 ft): the temperature warnings use it."
+        />
       </fieldset>
       <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save settings'}</Button></div>
     </form>

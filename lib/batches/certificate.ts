@@ -2,13 +2,13 @@ import 'server-only';
 import { can, type Actor } from '@/lib/auth';
 import { conflict, notFound } from '@/lib/http';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
-import { evaluateQuality, evaluateQuickTests, SCREENING_CAUTION } from '@/lib/quality';
+import { evaluateQuality, evaluateQuickTests, formatQualityLimit, formatQualityValue, SCREENING_CAUTION } from '@/lib/quality';
 import { SAFETY_DEFERENCE } from '@/lib/safety';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { computePlan } from './plan';
 import { batchOilLotShares, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, tankName, todayIn } from './read';
 
-const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported' } as const;
+const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported', 'screened-within': 'Within (screening)', 'screened-outside': 'Outside (screening)' } as const;
 const SCREEN_TEXT = { 'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded', 'not tested': 'Not tested' } as const;
 
 function fmtDate(d: Date | string, timezone: string): string {
@@ -36,17 +36,20 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   const units: UnitSystem = actor.coop.units;
   const tz = actor.coop.timezone;
   const [lots, tank] = await Promise.all([batchOilLotShares(actor.coop.id, id), tankName(actor.coop.id, row.tankId)]);
-  const plan = computePlan(planInputOf(row));
+  const plan = computePlan(planInputOf(row), {}, { system: actor.coop.units });
   const quality = evaluateQuality(row.qualityStandard, labResultsOf(row));
   const screening = evaluateQuickTests(quickTestInput(quickTestsOf(row), row.catalyst));
   const catalystGrams = Number(row.actualCatalystGrams ?? row.computedCatalystGrams);
   const methanolLiters = Number(row.actualMethanolLiters ?? row.computedMethanolLiters);
 
-  const doc = newPdf({ title: `Batch ${row.number} certificate — ${actor.coop.name}` });
+  // A certificate only when the standard is met in full by laboratory results; otherwise a batch quality record.
+  const meets = quality.verdict.kind === 'meets';
+  const kind = meets ? `certificate (${quality.standard})` : 'quality record';
+  const doc = newPdf({ title: `Batch ${row.number} ${kind} — ${actor.coop.name}` });
   const left = doc.page.margins.left;
   const width = doc.page.width - left - doc.page.margins.right;
 
-  doc.font('bold').fontSize(20).fillColor('#16322a').text(`Batch ${row.number} certificate`);
+  doc.font('bold').fontSize(20).fillColor('#16322a').text(meets ? `Batch ${row.number} certificate — meets ${quality.standard}` : `Batch ${row.number} quality record`);
   doc.font('regular').fontSize(11).fillColor('#292524').text(actor.coop.name);
   doc.moveDown(0.8);
 
@@ -88,11 +91,11 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   };
   rowText(['Property', `Limit (${quality.standard})`, 'Result', 'Verdict'], true);
   for (const r of quality.rows) {
-    rowText([r.label, r.limitText, r.value === null ? '—' : `${r.value}${r.unit ? ` ${r.unit}` : ''}`, VERDICT_TEXT[r.verdict]]);
+    rowText([r.label, formatQualityLimit(r, units), formatQualityValue(r, units), `${VERDICT_TEXT[r.verdict]}${r.laboratory ? ` (${r.laboratory}${r.date ? `, ${r.date}` : ''})` : ''}`]);
   }
   doc.moveDown(0.3);
-  doc.font('bold').fontSize(10).text(`Overall against ${quality.standard}: ${quality.overall === 'pass' ? 'pass (for the properties tested)' : quality.overall === 'fail' ? 'fail' : 'incomplete (no lab results)'}`);
-  if (quality.untestedCount > 0) doc.font('regular').fontSize(9).text(`${quality.untestedCount} properties with a limit were not tested.`);
+  doc.font('bold').fontSize(10).text(`${quality.standard}: ${quality.verdict.text}`);
+  if (quality.untestedCount > 0) doc.font('regular').fontSize(9).text(`${quality.untestedCount} of ${quality.verdict.requiredCount} required properties have no laboratory result.`);
   doc.moveDown(0.6);
 
   doc.font('bold').fontSize(13).fillColor('#16322a').text('Home quick tests (screening)');
@@ -102,10 +105,10 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
 
   doc.font('bold').fontSize(10).fillColor('#93370d').text(SCREENING_CAUTION);
   doc.font('regular').fontSize(9).fillColor('#292524').text(
-    `This certificate records the co-op's own batch record; it is not a laboratory's certificate of analysis. ${SAFETY_DEFERENCE}`,
+    `This ${meets ? 'certificate' : 'quality record'} is the co-op's own batch record; it is not a laboratory's certificate of analysis. ${SAFETY_DEFERENCE}`,
   );
   doc.moveDown(0.5);
   doc.fontSize(8).fillColor('#57534e').text(`Issued ${fmtDate(todayIn(tz), tz)} by Tallyvat for ${actor.coop.name}.`);
 
-  return { bytes: await pdfToBuffer(doc), filename: `batch-${row.number}-certificate.pdf` };
+  return { bytes: await pdfToBuffer(doc), filename: `batch-${row.number}-${meets ? 'certificate' : 'quality-record'}.pdf` };
 }

@@ -2,9 +2,10 @@ import 'server-only';
 import {
   catalystGrams, convertCatalystGrams, DEFAULT_BASE_GRAMS_PER_LITER, DEFAULT_METHANOL_PERCENT, expectedYields, acidNumber,
   ffaPercentFromAcidNumber, kohEquivalentTitrationMl, methanolLitersByMolarRatio, methanolLitersByPercent, molarRatioFromPercent,
-  oilQualityBand, percentFromMolarRatio, titrationAverage, TYPICAL_PURITY_PCT, USUAL_MOLAR_RATIO,
-  type CatalystResult, type ExpectedYields, type OilQualityBand, type TitrantSource,
+  oilQualityBand, percentFromMolarRatio, projectedFuelYield, titrationAverage, TYPICAL_PURITY_PCT, USUAL_MOLAR_RATIO,
+  type CatalystResult, type ExpectedYields, type FuelYieldProjection, type OilQualityBand, type TitrantSource, type YieldHistoryBatch,
 } from '@/lib/chemistry';
+import type { UnitSystem } from '@/lib/units';
 import { HttpError } from '@/lib/http';
 import type { CoopSettings } from '@/models/Coop';
 
@@ -45,7 +46,10 @@ export interface ComputedPlan {
     averageForCatalystMl: number;
     outlierIndexes: number[];
     spreadMl: number;
+    spreadTooWide: boolean;
     averageWithoutOutliersMl: number | null;
+    /** What to tell the brewer about the trials (one wording everywhere), or null. */
+    notice: string | null;
   };
   catalyst: Catalyst;
   baseGramsPerLiter: number;
@@ -57,6 +61,18 @@ export interface ComputedPlan {
   methanol: { mode: 'percent' | 'molar-ratio'; pct: number | null; molarRatio: number | null; liters: number; equivalentPct: number; equivalentMolarRatio: number };
   oil: { acidNumber: number; ffaPercent: number; band: OilQualityBand; needsAcidPretreatment: boolean; reject: boolean; message: string };
   yields: ExpectedYields;
+  /** Expected fuel from the co-op's own released batches (the ideal only without history). */
+  yieldProjection: FuelYieldProjection;
+  /** Oil × the projected yield, L. */
+  projectedFuelLiters: number;
+}
+
+/** Options for {@link computePlan}. */
+export interface PlanOptions {
+  /** Units for the catalyst explanation; default 'metric'. */
+  system?: UnitSystem;
+  /** The co-op's recent released batches, newest first (for the yield projection). */
+  yieldHistory?: readonly YieldHistoryBatch[];
 }
 
 const bad = (field: string, reason: string) => new HttpError(422, 'Some fields need attention.', { [field]: [reason] });
@@ -67,7 +83,7 @@ const bad = (field: string, reason: string) => new HttpError(422, 'Some fields n
  * for the titrant, methanol by % of oil or molar ratio, acid number / FFA with the oil band,
  * and the expected yields. Range problems come back as 422 with the field named.
  */
-export function computePlan(input: PlanInput, recipe: CoopSettings['recipe'] = {}): ComputedPlan {
+export function computePlan(input: PlanInput, recipe: CoopSettings['recipe'] = {}, options: PlanOptions = {}): ComputedPlan {
   const catalyst: Catalyst = input.catalyst ?? recipe?.catalyst ?? 'KOH';
   const recipeFits = recipe?.catalyst === undefined || recipe.catalyst === catalyst;
 
@@ -82,13 +98,16 @@ export function computePlan(input: PlanInput, recipe: CoopSettings['recipe'] = {
   if (purityPct === undefined && recipeFits && recipe?.purityPct !== undefined) [purityPct, puritySource] = [recipe.purityPct, 'recipe'];
   if (purityPct === undefined) [purityPct, puritySource] = [TYPICAL_PURITY_PCT[catalyst], 'typical'];
 
-  const titrantFrom: TitrantSource = input.titrantFrom ?? 'same-catalyst';
-
   if (!input.titration || input.titration.trials.length === 0) {
     throw bad('titrationTrials', 'Enter at least one titration trial, or choose an oil lot that has a titration.');
   }
   const { trials, source } = input.titration;
   const titrant: Catalyst = input.titration.titrant ?? catalyst;
+  // A titrant of the other chemical is never the batch's own stock: pure reagent unless said otherwise (then 422).
+  const titrantFrom: TitrantSource = input.titrantFrom ?? (titrant === catalyst ? 'same-catalyst' : 'pure-reagent');
+  if (titrant !== catalyst && titrantFrom === 'same-catalyst') {
+    throw bad('titrantFrom', `A ${titrant} titrant cannot have been made from this batch's ${catalyst}: choose pure reagent, or titrate with ${catalyst} made from the batch's stock.`);
+  }
 
   let avg: ReturnType<typeof titrationAverage>;
   try {
@@ -101,7 +120,7 @@ export function computePlan(input: PlanInput, recipe: CoopSettings['recipe'] = {
   let catalystResult: CatalystResult;
   try {
     catalystResult = catalystGrams({
-      catalyst, oilLiters: input.oilLiters, baseGramsPerLiter, titrationMl: averageForCatalystMl, purityPct, titrantFrom,
+      catalyst, titrant, oilLiters: input.oilLiters, baseGramsPerLiter, titrationMl: avg.averageMl, purityPct, titrantFrom, system: options.system,
     });
   } catch (e) {
     throw bad('purityPct', (e as Error).message + '.');
@@ -120,12 +139,13 @@ export function computePlan(input: PlanInput, recipe: CoopSettings['recipe'] = {
   const band = oilQualityBand(kohEquivalentTitrationMl(avg.averageMl, titrant));
   const an = acidNumber({ titrationMl: avg.averageMl, titrant });
 
+  const yieldProjection = projectedFuelYield(options.yieldHistory ?? []);
   return {
     oilLiters: input.oilLiters,
     titration: {
       source, oilLotId: input.titration.oilLotId ?? null, trials: avg.trials, blankMl: avg.blankMl,
       averageMl: avg.averageMl, titrant, averageForCatalystMl, outlierIndexes: avg.outlierIndexes, spreadMl: avg.spreadMl,
-      averageWithoutOutliersMl: avg.averageWithoutOutliersMl,
+      averageWithoutOutliersMl: avg.averageWithoutOutliersMl, spreadTooWide: avg.spreadTooWide, notice: avg.notice,
     },
     catalyst, baseGramsPerLiter, baseSource, purityPct, puritySource, titrantFrom, catalystResult, methanol,
     oil: {
@@ -133,5 +153,7 @@ export function computePlan(input: PlanInput, recipe: CoopSettings['recipe'] = {
       reject: band.reject, message: band.message,
     },
     yields: expectedYields(input.oilLiters, methanol.liters),
+    yieldProjection,
+    projectedFuelLiters: input.oilLiters * yieldProjection.ratio,
   };
 }

@@ -1,9 +1,12 @@
 import 'server-only';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, energyCostCents, estimateHeatingKwh, type FifoLotByTotal } from '@/lib/costing';
-import { roundHalfUp } from '@/lib/money';
+import { Op } from 'sequelize';
+import { YIELD_HISTORY_BATCHES } from '@/lib/chemistry';
+import { formatCents, roundHalfUp } from '@/lib/money';
 import { stockState, summarizeStock } from '@/lib/supplies';
-import { fToC, litersToGallons, volumeToLiters } from '@/lib/units';
+import { formatTemp, fToC, litersToGallons, tempToC, volumeToLiters } from '@/lib/units';
+import { Batch, ChemicalLot } from '@/models';
 import type { PlannerInput } from '@/lib/validation/brewing';
 import { computePlan, type ComputedPlan } from './plan';
 import { feedstockShareCents } from './read';
@@ -18,8 +21,10 @@ export interface ChemicalCoverage {
   available: number;
   covered: boolean;
   shortBy: number;
-  /** Cost of the needed quantity at current lot prices, FIFO after the batches under way (what is covered). */
+  /** Cost of the needed quantity at current lot prices, FIFO after the batches under way; a shortfall at the last price paid. */
   projectedCents: number;
+  /** The shortfall priced at the last price paid, cents; null when nothing is short or none was ever bought. */
+  shortfallCents: number | null;
 }
 
 /** The planner's answer: the chemistry, the stock check and the projected costs. */
@@ -46,8 +51,35 @@ export interface PlannerResult {
 
 /** Reaction temperature the heating estimate aims for, °C (≈ 55 °C, common practice). */
 const REACTION_TARGET_C = fToC(131); // common practice (130–135 °F)
-/** Starting oil temperature assumed by the heating estimate, °C (room temperature; an assumption). */
+/** Starting oil temperature when the brewer gives none, °C (room temperature; an assumption the note states). */
 const ASSUMED_START_C = 20;
+
+/** The co-op's most recent released batches (oil in, fuel out), newest first, for the yield projection. */
+async function yieldHistory(coopId: number) {
+  const rows = await Batch.findAll({
+    where: { coopId, status: 'released', releasedLiters: { [Op.ne]: null } },
+    attributes: ['oilLiters', 'releasedLiters'],
+    order: [['releasedAt', 'DESC'], ['id', 'DESC']],
+    limit: YIELD_HISTORY_BATCHES,
+    raw: true,
+  });
+  return rows.map((r) => ({ oilLiters: Number(r.oilLiters), releasedLiters: Number(r.releasedLiters) }));
+}
+
+/** Cents per unit (L or g) of the last lot bought of each chemical, for pricing a shortfall. */
+async function lastPrices(coopId: number, kinds: readonly string[]): Promise<Map<string, number>> {
+  const rows = await Promise.all(
+    kinds.map((kind) =>
+      ChemicalLot.findOne({
+        where: { coopId, kind: kind as ChemicalLot['kind'], quantity: { [Op.gt]: 0 } },
+        attributes: ['kind', 'quantity', 'totalCostCents'],
+        order: [['receivedOn', 'DESC'], ['id', 'DESC']],
+        raw: true,
+      }),
+    ),
+  );
+  return new Map(rows.filter((r) => r !== null).map((r) => [r.kind, Number(r.totalCostCents) / Number(r.quantity)]));
+}
 
 /** Prices `need` after `committed` has been taken from the same lots (batches under way go first). */
 function projectCost(lots: FifoLotByTotal[], committed: number, need: number): { cents: number; shortBy: number } {
@@ -73,10 +105,12 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
   const catalyst = input.catalyst ?? actor.coop.settings.recipe?.catalyst ?? 'KOH';
   // The lots holding stock (FIFO order; also gives the next lot's purity), what batches under way
   // have committed, and the titration (the trials given, or the chosen oil lot's), read in parallel.
-  const [{ lots, needs }, { titration, lot }] = await Promise.all([stockState(actor.coop.id), resolveTitration(actor, input)]);
+  const [{ lots, needs }, { titration, lot }, history, prices] = await Promise.all([
+    stockState(actor.coop.id), resolveTitration(actor, input), yieldHistory(actor.coop.id), lastPrices(actor.coop.id, ['methanol', catalyst]),
+  ]);
   const stock = summarizeStock(lots, needs);
   const purity = input.purityPct === undefined ? (lots.find((l) => l.kind === catalyst)?.purityPct ?? null) : null;
-  const plan = computePlan({ ...input, oilLiters, titration, nextLotPurityPct: purity }, actor.coop.settings.recipe);
+  const plan = computePlan({ ...input, oilLiters, titration, nextLotPurityPct: purity }, actor.coop.settings.recipe, { system: units, yieldHistory: history });
   const notes: string[] = [];
 
   const coverage: ChemicalCoverage[] = ([['methanol', plan.methanol.liters, 'L'], [catalyst, plan.catalystResult.totalGrams, 'g']] as const).map(([kind, needed, unit]) => {
@@ -85,7 +119,9 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
       .filter((l) => l.kind === kind)
       .map((l) => ({ id: l.id, receivedAt: l.receivedAtMs, qty: l.quantity, remainingQty: l.remaining, totalCostCents: l.totalCostCents }));
     const { cents, shortBy } = projectCost(fifo, line.committed, Math.round(needed * 1000) / 1000);
-    return { kind, unit, needed, available: line.available, covered: shortBy <= 0, shortBy, projectedCents: cents };
+    const last = prices.get(kind);
+    const shortfallCents = shortBy > 0 && last !== undefined ? roundHalfUp(shortBy * last) : null;
+    return { kind, unit, needed, available: line.available, covered: shortBy <= 0, shortBy, projectedCents: cents + (shortfallCents ?? 0), shortfallCents };
   });
 
   let energyCents = 0;
@@ -99,10 +135,13 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
     [energyKwh, energySource] = [input.heaterKw * input.heaterHours, 'heater'];
     energyCents = energyCostCents({ heaterKw: input.heaterKw, hours: input.heaterHours, tariffCentsPerKwh: tariff });
   } else if (tariff !== undefined) {
-    energyKwh = estimateHeatingKwh(oilLiters, ASSUMED_START_C, REACTION_TARGET_C);
+    const startC = input.startTemp === undefined ? ASSUMED_START_C : tempToC(input.startTemp, units);
+    energyKwh = estimateHeatingKwh(oilLiters, startC, REACTION_TARGET_C);
     energySource = 'estimate';
     energyCents = energyCostCents({ kwh: energyKwh, tariffCentsPerKwh: tariff });
-    notes.push('Energy is estimated from heating the oil from 20 °C to about 55 °C with no losses; real heaters use more.');
+    notes.push(
+      `Energy is estimated from heating the oil from ${formatTemp(startC, units, 0)}${input.startTemp === undefined ? ' (assumed room temperature: give the oil’s start temperature for a better estimate)' : ''} to about ${formatTemp(REACTION_TARGET_C, units, 0)} with no losses; real heaters use more.`,
+    );
   } else {
     notes.push('Energy is not included: give the electricity tariff to include it.');
   }
@@ -113,10 +152,20 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
 
   const methanolCents = coverage[0]!.projectedCents;
   const catalystCents = coverage[1]!.projectedCents;
-  const fuelGallons = litersToGallons(plan.yields.fuelLiters);
+  const fuelLiters = plan.projectedFuelLiters;
+  const fuelGallons = litersToGallons(fuelLiters);
   const cost = batchCost({ chemicalsCents: methanolCents + catalystCents, energyCents, feedstockCents, otherCents: 0, gallonsReleased: fuelGallons });
-  const incomplete = coverage.some((c) => !c.covered);
-  if (incomplete) notes.push('Stock does not cover every chemical: the projection prices only what is in stock.');
+  for (const c of coverage.filter((x) => !x.covered)) {
+    const name = c.kind === 'methanol' ? 'methanol' : c.kind;
+    const amount = c.unit === 'L' ? `${(units === 'us' ? litersToGallons(c.shortBy) : c.shortBy).toFixed(2)} ${units === 'us' ? 'gal' : 'L'}` : `${Math.ceil(c.shortBy)} g`;
+    notes.push(
+      c.shortfallCents === null
+        ? `Short of ${name} by ${amount}, and none has been bought before: the projection leaves the shortfall unpriced.`
+        : `Short of ${name} by ${amount}: the shortfall is priced at the last price paid (${formatCents(c.shortfallCents)}).`,
+    );
+  }
+  const incomplete = coverage.some((c) => !c.covered && c.shortfallCents === null);
+  notes.push(plan.yieldProjection.explanation);
   if (plan.oil.needsAcidPretreatment) notes.push(plan.oil.message);
 
   return {
@@ -126,7 +175,7 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
     projected: {
       methanolCents, catalystCents, energyCents, energySource, energyKwh, feedstockCents, totalCents: cost.totalCents,
       costPerGallonCents: cost.costPerGallonCents,
-      costPerLiterCents: plan.yields.fuelLiters > 0 ? roundHalfUp(cost.totalCents / plan.yields.fuelLiters) : null,
+      costPerLiterCents: fuelLiters > 0 ? roundHalfUp(cost.totalCents / fuelLiters) : null,
       incomplete,
     },
     notes,

@@ -50,7 +50,9 @@ export function planInputOf(row: BatchRecord): PlanInput {
     catalyst: row.catalyst,
     baseGramsPerLiter: Number(row.baseGPerL),
     purityPct: Number(row.purityPct),
-    titrantFrom: row.titrantFrom,
+    // Records from before titrant-aware plans may say 'same-catalyst' for a titrant of the other
+    // chemical, which cannot be; such a titrant was reagent, and the plan says which rule it applied.
+    titrantFrom: row.titrant !== row.catalyst ? 'pure-reagent' : row.titrantFrom,
     methanolMode: row.methanolMode,
     methanolPct: n(row.methanolPct) ?? undefined,
     molarRatio: n(row.molarRatio) ?? undefined,
@@ -261,14 +263,14 @@ export async function getBatch(actor: Actor, id: number, opts?: { allowSummary: 
   return {
     view: 'full', id: row.id, number: row.number, status: row.status, batchDate: row.batchDate,
     statusChangedAt: new Date(row.statusChangedAt).toISOString(), createdAt: new Date(row.createdAt).toISOString(),
-    oilLiters: Number(row.oilLiters), oilLots: oilLotDtos, plan: computePlan(planInputOf(row)),
+    oilLiters: Number(row.oilLiters), oilLots: oilLotDtos, plan: computePlan(planInputOf(row), {}, { system: actor.coop.units }),
     computedCatalystGrams: Number(row.computedCatalystGrams), computedMethanolLiters: Number(row.computedMethanolLiters),
     actualCatalystGrams: n(row.actualCatalystGrams), actualMethanolLiters: n(row.actualMethanolLiters),
     mixingMinutes: row.mixingMinutes, settlingHours: n(row.settlingHours), glycerinLiters: n(row.glycerinLiters),
     washCycles: row.washCycles, washWaterLiters: n(row.washWaterLiters), dryingMethod: row.dryingMethod, dryingNotes: row.dryingNotes,
     temperatures: temps.map((r) => {
       const tempC = Number(r.tempC);
-      return { id: String(r.id), measuredAt: new Date(r.measuredAt).toISOString(), tempC, level: r.level, message: temperatureCheck(tempC, actor.coop.units).message };
+      return { id: String(r.id), measuredAt: new Date(r.measuredAt).toISOString(), tempC, level: r.level, message: temperatureCheck(tempC, actor.coop.units, { elevationM: actor.coop.settings.elevationM ?? 0 }).message };
     }),
     quickTests, quickTestEvaluation, labResults, quality,
     qualityVerdict: row.qualityVerdict, screeningVerdict: row.screeningVerdict,
@@ -305,6 +307,9 @@ export interface BatchListRow {
   costPerLiterCents: number | null;
   qualityStandard: FuelStandard;
   qualityVerdict: 'pass' | 'fail' | 'incomplete';
+  /** The one verdict wording (lib/quality): "Meets …", "Fails: …" or "Screened — n of m …". */
+  qualityText: string;
+  qualityKind: 'meets' | 'fails' | 'screened';
   screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
 }
 
@@ -314,7 +319,7 @@ const LIST_SORT: Record<string, keyof BatchRecord> = {
 };
 const LIST_ATTRIBUTES = [
   'id', 'number', 'status', 'batchDate', 'oilLiters', 'releasedLiters', 'totalCostCents', 'costPerGallonCents',
-  'qualityStandard', 'qualityVerdict', 'screeningVerdict',
+  'qualityStandard', 'qualityVerdict', 'screeningVerdict', 'labResults',
 ] as const satisfies readonly (keyof BatchRecord)[];
 const IN_PROGRESS: BatchStatus[] = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
 
@@ -350,7 +355,9 @@ export async function listBatches(actor: Actor, q: BatchListQuery): Promise<Batc
         id: r.id, number: r.number, status: r.status, batchDate: r.batchDate, oilLiters: Number(r.oilLiters), releasedLiters,
         costPerGallonCents: n(r.costPerGallonCents),
         costPerLiterCents: r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
-        qualityStandard: r.qualityStandard, qualityVerdict: r.qualityVerdict, screeningVerdict: r.screeningVerdict,
+        qualityStandard: r.qualityStandard, screeningVerdict: r.screeningVerdict,
+        // Judged from the results themselves (a verdict stored under an older rule is not trusted).
+        ...((v) => ({ qualityVerdict: v.overall, qualityText: v.verdict.text, qualityKind: v.verdict.kind }))(evaluateQuality(r.qualityStandard, labResultsOf(r))),
       };
     }),
     total: Number(total ?? 0), page: q.page, pageSize: q.pageSize,

@@ -45,7 +45,7 @@ export async function nextLotPurity(coopId: number, catalyst: Catalyst, transact
  */
 export async function resolveTitration(
   actor: Actor,
-  input: { titrationTrials?: number[]; oilLotId?: number },
+  input: { titrationTrials?: number[]; oilLotId?: number; titrant?: 'KOH' | 'NaOH' },
   transaction?: Transaction,
 ): Promise<{ titration: PlanInput['titration']; lot: Awaited<ReturnType<typeof getOilLot>> | null }> {
   let lot: Awaited<ReturnType<typeof getOilLot>> | null = null;
@@ -57,7 +57,9 @@ export async function resolveTitration(
       throw e;
     }
   }
-  if (input.titrationTrials && input.titrationTrials.length > 0) return { titration: { source: 'trials', trials: input.titrationTrials }, lot };
+  if (input.titrationTrials && input.titrationTrials.length > 0) {
+    return { titration: { source: 'trials', trials: input.titrationTrials, ...(input.titrant ? { titrant: input.titrant } : {}) }, lot };
+  }
   if (lot && lot.titrationMl !== null && lot.titrant) {
     return { titration: { source: 'oil-lot', trials: [lot.titrationMl], titrant: lot.titrant, oilLotId: lot.id }, lot };
   }
@@ -134,6 +136,7 @@ export async function createBatch(actor: Actor, input: BatchCreateInput): Promis
     const plan = computePlan(
       { ...input, oilLiters, titration, nextLotPurityPct: input.purityPct === undefined ? await nextLotPurity(actor.coop.id, catalyst, t) : null },
       actor.coop.settings.recipe,
+      { system: units },
     );
     const uses = input.oilLots
       ? input.oilLots.map((u) => ({ oilLotId: u.oilLotId, liters: volumeToLiters(u.volume, units) }))
@@ -162,7 +165,7 @@ export async function createBatch(actor: Actor, input: BatchCreateInput): Promis
   return getBatch(actor, id);
 }
 
-const PLAN_FIELDS = ['oilVolume', 'titrationTrials', 'titrationBlankMl', 'catalyst', 'baseGramsPerLiter', 'purityPct', 'titrantFrom', 'methanolMode', 'methanolPct', 'molarRatio', 'oilLots', 'batchDate'] as const;
+const PLAN_FIELDS = ['oilVolume', 'titrationTrials', 'titrationBlankMl', 'catalyst', 'baseGramsPerLiter', 'purityPct', 'titrantFrom', 'titrant', 'methanolMode', 'methanolPct', 'molarRatio', 'oilLots', 'batchDate'] as const;
 
 /**
  * Records what was done at the batch's steps (and, while planned, changes the plan). Released
@@ -185,10 +188,12 @@ export async function updateBatch(actor: Actor, id: number, input: BatchUpdateIn
       const base = planInputOf(row);
       const catalyst = input.catalyst ?? row.catalyst;
       const titration: PlanInput['titration'] = input.titrationTrials
-        ? { source: 'trials', trials: input.titrationTrials }
-        : base.titration && input.catalyst && base.titration.source === 'trials'
-          ? { ...base.titration, titrant: catalyst }
+        ? { source: 'trials', trials: input.titrationTrials, titrant: input.titrant ?? catalyst }
+        : base.titration && (input.titrant || input.catalyst) && base.titration.source === 'trials'
+          ? { ...base.titration, titrant: input.titrant ?? catalyst }
           : base.titration;
+      // A titrant of the other chemical can't be the batch's stock: let the plan default it to pure reagent.
+      const crossTitrant = titration !== null && titration.titrant !== undefined && titration.titrant !== catalyst;
       const plan = computePlan(
         {
           ...base, titration, catalyst,
@@ -196,13 +201,14 @@ export async function updateBatch(actor: Actor, id: number, input: BatchUpdateIn
           titrationBlankMl: input.titrationBlankMl ?? base.titrationBlankMl,
           baseGramsPerLiter: input.baseGramsPerLiter ?? (input.catalyst && input.catalyst !== row.catalyst ? undefined : base.baseGramsPerLiter),
           purityPct: input.purityPct ?? (input.catalyst && input.catalyst !== row.catalyst ? undefined : base.purityPct),
-          titrantFrom: input.titrantFrom ?? base.titrantFrom,
+          titrantFrom: input.titrantFrom ?? (crossTitrant ? undefined : row.titrantFrom),
           methanolMode: input.methanolMode ?? base.methanolMode,
           methanolPct: input.methanolPct ?? base.methanolPct,
           molarRatio: input.molarRatio ?? base.molarRatio,
           nextLotPurityPct: await nextLotPurity(actor.coop.id, catalyst, t),
         },
         actor.coop.settings.recipe,
+        { system: units },
       );
       Object.assign(changes, planColumns(plan));
       if (input.batchDate) changes.batchDate = input.batchDate;
@@ -257,7 +263,7 @@ export async function updateBatch(actor: Actor, id: number, input: BatchUpdateIn
     let lab: QualityResults = labResultsOf(row);
     if (input.labResults) {
       lab = { ...lab };
-      for (const [k, v] of Object.entries(input.labResults) as [keyof QualityResults, number | null | undefined][]) {
+      for (const [k, v] of Object.entries(input.labResults) as [keyof QualityResults, QualityResults[keyof QualityResults]][]) {
         if (v === null) delete lab[k];
         else if (v !== undefined) lab[k] = v;
       }
@@ -307,7 +313,7 @@ export async function addTemperature(actor: Actor, id: number, input: { temp: nu
   return inTransaction(async (t) => {
     const row = await loadBatch(actor.coop.id, id, t, true);
     if (isFinal(row.status)) throw conflict(`Batch ${row.number} is ${row.status}; its record can no longer be changed.`);
-    const check = temperatureCheck(rounded, actor.coop.units);
+    const check = temperatureCheck(rounded, actor.coop.units, { elevationM: actor.coop.settings.elevationM ?? 0 });
     const reading = await BatchTemperature.create(
       { coopId: actor.coop.id, batchId: id, measuredAt: input.measuredAt ? new Date(input.measuredAt) : new Date(), tempC: rounded.toFixed(2), level: check.level, createdByUserId: actor.user.id },
       { transaction: t },

@@ -10,7 +10,8 @@ import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { formatVolume, litersToGallons, volumeToLiters } from '@/lib/units';
 import { inTransaction } from '@/lib/db';
 import { Batch, ChemicalConsumption, ChemicalLot, Tank } from '@/models';
-import { batchOilLotShares, energyCentsOf, feedstockShareCents, getBatch, loadBatch, type BatchDto, type BatchRecord } from './read';
+import { batchOilLotShares, energyCentsOf, feedstockShareCents, getBatch, labResultsOf, loadBatch, type BatchDto, type BatchRecord } from './read';
+import { evaluateQuality } from '@/lib/quality';
 
 type BatchCreation = InferCreationAttributes<Batch>;
 type LotRow = Pick<InferAttributes<ChemicalLot>, 'id' | 'receivedOn' | 'quantity' | 'remainingQuantity' | 'totalCostCents'>;
@@ -112,7 +113,7 @@ async function feedstockCentsOf(t: Transaction, coopId: number, row: BatchRecord
  * @param id batch id (another co-op's → 404)
  * @param input tank and the volume released, typed in the co-op's units
  */
-export async function releaseBatch(actor: Actor, id: number, input: { tankId: number; volume: number }): Promise<BatchDto> {
+export async function releaseBatch(actor: Actor, id: number, input: { tankId: number; volume: number; reason?: string }): Promise<BatchDto> {
   const coopId = actor.coop.id;
   const releasedMl = litersToMl(volumeToLiters(input.volume, actor.coop.units).toFixed(3));
   if (releasedMl <= 0) throw new HttpError(422, 'Some fields need attention.', { volume: ['Volume released must be more than 0.'] });
@@ -121,6 +122,14 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
     const row = await loadBatch(coopId, id, t, true);
     if (row.status === 'released' || row.status === 'rejected') throw conflict(`Batch ${row.number} is already ${row.status}.`);
     if (row.status !== 'testing') throw conflict(`Move batch ${row.number} to testing and record its quality checks before releasing it (it is at “${row.status}”).`);
+    // Releasing fuel that does not meet the standard in full is a deliberate act: it needs a written reason.
+    const quality = evaluateQuality(row.qualityStandard, labResultsOf(row)).verdict;
+    const reason = input.reason?.trim() ?? '';
+    if (quality.kind !== 'meets' && reason.length < 3) {
+      throw new HttpError(422, 'Some fields need attention.', {
+        reason: [`${quality.text}. Say why this batch is released anyway (at least 3 characters).`],
+      });
+    }
 
     const tankBefore = await Tank.findOne({ attributes: ['id'], where: { id: input.tankId, coopId, active: true }, raw: true, transaction: t });
     if (!tankBefore) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s active tanks.'] });
@@ -151,7 +160,7 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
     const after = {
       status: 'released', tankId: input.tankId, releasedLiters, costMethanolCents: methanolCents, costCatalystCents: catalystCents,
       costEnergyCents: energyCents, costFeedstockCents: feedstockCents, costOtherCents: otherCents, totalCostCents: cost.totalCents,
-      costPerGallonCents: cost.costPerGallonCents,
+      costPerGallonCents: cost.costPerGallonCents, quality: quality.text, ...(reason ? { releaseReason: reason } : {}),
     };
     const now = new Date();
     await Batch.update(
@@ -160,6 +169,7 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
         costMethanolCents: String(methanolCents), costCatalystCents: String(catalystCents), costEnergyCents: String(energyCents),
         costFeedstockCents: String(feedstockCents), costOtherCents: String(otherCents), totalCostCents: String(cost.totalCents),
         costPerGallonCents: cost.costPerGallonCents === null ? null : String(cost.costPerGallonCents),
+        ...(reason ? { notes: `${row.notes ? `${row.notes}\n\n` : ''}Released with quality “${quality.text}”: ${reason}` } : {}),
       },
       { where: { id, coopId }, transaction: t },
     );

@@ -1,7 +1,7 @@
 import 'server-only';
 import type { InferAttributes } from 'sequelize';
 import { appUrl } from '@/lib/mail';
-import { formatCents, formatRateCents } from '@/lib/money';
+import { formatCents, formatRateCents, INVOICE_ROUNDING_NOTE } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
 import { formatVolume, perGallonToPerLiter } from '@/lib/units';
 import type { Coop } from '@/models';
@@ -13,8 +13,7 @@ import type { InvoiceDetail } from './types';
 export type PdfCoop = Pick<InferAttributes<Coop>, 'name' | 'slug' | 'units' | 'currency' | 'timezone'>;
 
 /** The rounding rule, stated once on every invoice (lib/money: half away from zero, per line). */
-export const ROUNDING_NOTE =
-  'Each draw was priced when it was recorded, at the co-op price then in force, and every line amount was rounded to the cent (half away from zero). The total is the exact sum of the lines.';
+export const ROUNDING_NOTE = INVOICE_ROUNDING_NOTE;
 
 /** The file name for downloads and attachments, e.g. prairie-lantern-INV-000012.pdf. */
 export function invoiceFileName(coopSlug: string, inv: Pick<InvoiceDetail, 'label' | 'id' | 'period'>): string {

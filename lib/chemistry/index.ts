@@ -1,5 +1,5 @@
 export * from './constants';
-export { titrationAverage, OUTLIER_MIN_DIFFERENCE_ML, OUTLIER_RELATIVE_DIFFERENCE } from './titration';
+export { titrationAverage, trialsPhrase, DIXON_Q90, SPREAD_RETITRATE_ML } from './titration';
 export type { TitrationAverage } from './titration';
 export { catalystGrams, convertCatalystGrams, assertPurityPct } from './catalyst';
 export type { CatalystInput, CatalystResult, CatalystRule, TitrantSource } from './catalyst';
@@ -34,5 +34,16 @@ export {
   METHANOL_BOILING_POINT_F,
 } from './temperature';
 export type { TemperatureCheck, TemperatureLevel } from './temperature';
-export { expectedYields, YIELD_ASSUMPTIONS } from './yields';
-export type { ExpectedYields } from './yields';
+export { expectedYields, projectedFuelYield, YIELD_ASSUMPTIONS, CRUDE_GLYCERIN_FRACTION, IDEAL_FUEL_PER_OIL, YIELD_HISTORY_BATCHES } from './yields';
+export type { ExpectedYields, FuelYieldProjection, YieldHistoryBatch } from './yields';
+export { temperatureBands, altitudeNote } from './temperature';
+export type { TemperatureBands, TemperatureOptions } from './temperature';
+export {
+  methanolBoilingPointC,
+  methanolAntoineBoilingC,
+  pressureAtElevationPa,
+  METHANOL_ANTOINE,
+  STANDARD_ATMOSPHERE,
+  MAX_ELEVATION_M,
+  MIN_ELEVATION_M,
+} from './boiling';

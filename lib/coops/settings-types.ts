@@ -12,4 +12,6 @@ export type CoopSettingsDto = Pick<InferAttributes<Coop>, 'name' | 'slug' | 'uni
   purityPct: number;
   methanolPct: number;
   qualityStandard: NonNullable<CoopSettings['qualityStandard']>;
+  /** Elevation of the brewing site, m (0 when not set). */
+  elevationM: number;
 };

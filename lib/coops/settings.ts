@@ -2,7 +2,8 @@ import 'server-only';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
-import { notFound } from '@/lib/http';
+import { HttpError, notFound } from '@/lib/http';
+import { MAX_ELEVATION_M, MIN_ELEVATION_M } from '@/lib/chemistry';
 import type { CoopSettingsUpdate } from '@/lib/validation/settings';
 import { inTransaction } from '@/lib/db';
 import { Coop } from '@/models';
@@ -10,6 +11,9 @@ import type { CoopSettings } from '@/models/Coop';
 import type { CoopSettingsDto } from './settings-types';
 
 export type { CoopSettingsDto };
+
+/** Metres in one international foot, exact by definition (NIST SP 811). */
+const FEET_TO_METERS = 0.3048;
 
 /** Recipe defaults when a co-op has set none: NaOH 3.5 g/L fresh-oil base, 20 % methanol (common practice). */
 const DEFAULTS = { catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 98, methanolPct: 20, qualityStandard: 'ASTM D6751' } as const;
@@ -25,6 +29,7 @@ function toDto(c: Coop): CoopSettingsDto {
     purityPct: s.recipe?.purityPct ?? DEFAULTS.purityPct,
     methanolPct: s.recipe?.methanolPct ?? DEFAULTS.methanolPct,
     qualityStandard: s.qualityStandard ?? DEFAULTS.qualityStandard,
+    elevationM: s.elevationM ?? 0,
   };
 }
 
@@ -42,11 +47,16 @@ export async function updateCoopSettings(actor: Actor, input: CoopSettingsUpdate
     const coop = await Coop.findByPk(actor.coop.id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!coop) throw notFound();
     const before = toDto(coop);
+    const elevationM = input.elevation === undefined ? undefined : input.units === 'us' ? input.elevation * FEET_TO_METERS : input.elevation;
+    if (elevationM !== undefined && (elevationM < MIN_ELEVATION_M || elevationM > MAX_ELEVATION_M)) {
+      throw new HttpError(422, 'Some fields need attention.', { elevation: [input.units === 'us' ? 'Between −1,640 and 16,400 ft.' : 'Between −500 and 5,000 m.'] });
+    }
     const settings: CoopSettings = {
       ...(coop.settings ?? {}),
       monthlyDuesCents: input.monthlyDues,
       selfServeDraws: input.selfServeDraws,
       qualityStandard: input.qualityStandard,
+      ...(elevationM === undefined ? {} : { elevationM }),
       recipe: { ...(coop.settings?.recipe ?? {}), catalyst: input.catalyst, baseGramsPerLiter: input.baseGramsPerLiter, purityPct: input.purityPct, methanolPct: input.methanolPct },
     };
     await coop.update({ name: input.name, units: input.units, timezone: input.timezone, settings }, { transaction });

@@ -81,3 +81,11 @@ export function parseMoneyToCents(input: string): number {
   if (!result.ok) throw new RangeError(`${result.error}: "${input}"`);
   return result.cents;
 }
+
+/**
+ * How an invoice's amounts are rounded, stated on the invoice page and its PDF (the rule of
+ * {@link roundHalfUp} in lib/money/rounding: per line, to the cent, halves away from zero — for
+ * the positive amounts of draws, half up).
+ */
+export const INVOICE_ROUNDING_NOTE =
+  'Each draw was priced when it was recorded, at the co-op price then in force. Every draw line is rounded to the cent, half up (half a cent or more rounds up; credits round the same way, away from zero), and the invoice total is the exact sum of its lines.';

@@ -1,11 +1,22 @@
-export { QUALITY_LIMITS, FUEL_STANDARDS, ASTM_S500_SULFUR_MAX_PPM, limitsFor } from './limits';
-export type { FuelStandard, QualityProperty, QualityLimit } from './limits';
-export { evaluateQuality } from './evaluate';
-export type { QualityEvaluation, QualityRowResult, QualityResults, QualityVerdict, QualityOptions } from './evaluate';
+export { QUALITY_LIMITS, QUALITY_PROPERTIES, FUEL_STANDARDS, ASTM_S500_SULFUR_MAX_PPM, limitsFor } from './limits';
+export type { FuelStandard, QualityProperty, QualityLimit, AstmGrade } from './limits';
+export { evaluateQuality, isLaboratoryResult, storedVerdictText, HOME_TEST_LABORATORY } from './evaluate';
+export type {
+  QualityEvaluation,
+  QualityRowResult,
+  QualityResults,
+  QualityVerdict,
+  QualityOptions,
+  LabResult,
+  StandardVerdict,
+} from './evaluate';
 export {
   SCREENING_CAUTION,
   SOAP_MOLAR_MASS_G_PER_MOL,
   SOAP_TITRANT_NORMALITY,
+  SOAP_ATTENTION_PPM,
+  ALKALI_METAL_MOLAR_MASS_G_PER_MOL,
+  ASTM_NA_K_MAX_PPM,
   evaluateQuickTests,
   soapPpm,
 } from './screening';
@@ -16,3 +27,4 @@ export type {
   QuickTestEvaluation,
   ScreeningStatus,
 } from './screening';
+export { formatQualityValue, formatQualityLimit } from './format';

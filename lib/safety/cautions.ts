@@ -1,5 +1,5 @@
 /** Topic of a safety caution, for grouping and icons. */
-export type SafetyTopic = 'methanol' | 'lye' | 'protective-equipment' | 'rags' | 'waste' | 'local-rules';
+export type SafetyTopic = 'methanol' | 'lye' | 'materials' | 'protective-equipment' | 'rags' | 'waste' | 'local-rules';
 
 /** One caution line to show on batch screens. */
 export interface SafetyCaution {
@@ -40,6 +40,18 @@ export const SAFETY_CAUTIONS: readonly SafetyCaution[] = [
     source: 'University extension safety guides',
   },
   {
+    id: 'lye-vessel-metals',
+    topic: 'materials',
+    text: 'Never mix or hold lye or methoxide in aluminium, tin or zinc (galvanised) vessels: the lye attacks them, giving off flammable hydrogen. Use stainless steel or HDPE.',
+    source: 'University extension safety guides (common practice); alkali attack on aluminium and zinc, CRC Handbook chemistry',
+  },
+  {
+    id: 'b100-materials',
+    topic: 'materials',
+    text: 'Finished B100 attacks copper, brass, bronze, lead, tin and zinc, and some elastomers (hoses, seals, gaskets): keep it out of them and check fittings.',
+    source: 'NREL Biodiesel Handling and Use Guide',
+  },
+  {
     id: 'ppe',
     topic: 'protective-equipment',
     text: 'Wear chemical-resistant gloves, splash goggles and a face shield; keep an eyewash and running water at hand.',
@@ -71,15 +83,32 @@ export const SAFETY_CAUTIONS: readonly SafetyCaution[] = [
   },
 ];
 
+/**
+ * The altitude caution: methanol boils lower at altitude. Give the boiling point at the co-op's
+ * elevation (from lib/chemistry altitudeNote) when it is known.
+ */
+export const ALTITUDE_CAUTION: SafetyCaution = {
+  id: 'altitude',
+  topic: 'methanol',
+  text: 'At altitude methanol boils below 64.7 °C (148.5 °F) — near 60 °C (140 °F) at 1,600 m (5,250 ft): keep reaction temperatures correspondingly lower.',
+  source: 'NIST Chemistry WebBook (methanol Antoine equation) with the barometric formula (US Standard Atmosphere 1976)',
+};
+
 /** The closing line that defers to local rules (the last item of {@link SAFETY_CAUTIONS}). */
 export const SAFETY_DEFERENCE = 'Always follow local fire codes, chemical-storage rules and licensed practice.'; // common practice
 
 /**
  * The cautions for one or more topics, always ending with the deference to local rules.
  * @param topics topics to include (all when omitted)
+ * @param options altitudeText: the co-op's altitude note (lib/chemistry altitudeNote), added after the methanol cautions
  * @returns caution items in display order
  */
-export function safetyCautionsFor(topics?: readonly SafetyTopic[]): SafetyCaution[] {
+export function safetyCautionsFor(topics?: readonly SafetyTopic[], options: { altitudeText?: string | null } = {}): SafetyCaution[] {
   const wanted = topics ? new Set<SafetyTopic>([...topics, 'local-rules']) : null;
-  return SAFETY_CAUTIONS.filter((c) => wanted === null || wanted.has(c.topic));
+  const list = SAFETY_CAUTIONS.filter((c) => wanted === null || wanted.has(c.topic));
+  if (options.altitudeText && (wanted === null || wanted.has('methanol'))) {
+    const at = list.findIndex((c) => c.topic !== 'methanol' && list.some((m) => m.topic === 'methanol'));
+    list.splice(at < 0 ? list.length - 1 : at, 0, { ...ALTITUDE_CAUTION, text: options.altitudeText });
+  }
+  return list;
 }

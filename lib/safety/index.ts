@@ -1,2 +1,2 @@
-export { SAFETY_CAUTIONS, SAFETY_DEFERENCE, safetyCautionsFor } from './cautions';
+export { SAFETY_CAUTIONS, SAFETY_DEFERENCE, ALTITUDE_CAUTION, safetyCautionsFor } from './cautions';
 export type { SafetyCaution, SafetyTopic } from './cautions';

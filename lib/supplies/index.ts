@@ -5,7 +5,7 @@ import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
 import { inTransaction } from '@/lib/db';
 import { deleteFile, getFile, putFile } from '@/lib/storage';
-import { gallonsToLiters, volumeToLiters } from '@/lib/units';
+import { gallonsToLiters, lbToKg, volumeToLiters } from '@/lib/units';
 import type { ChemicalLotCreateInput, OilLotCreateInput } from '@/lib/validation/brewing';
 import { Batch, ChemicalLot, OilLot, Tank } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
@@ -106,10 +106,11 @@ export async function getChemicalLot(actor: Actor, id: number): Promise<Chemical
   return readChemical(actor.coop.id, id);
 }
 
-/** Converts a typed quantity to the stored unit: litres (from L or US gal) or grams (from g or kg). */
-function toStoredQuantity(quantity: number, unit: 'L' | 'gal' | 'g' | 'kg'): { quantity: number; unit: 'L' | 'g' } {
+/** Converts a typed quantity to the stored unit: litres (from L or US gal) or grams (from g, kg or lb; 1 lb = 0.45359237 kg, NIST SP 811). */
+function toStoredQuantity(quantity: number, unit: 'L' | 'gal' | 'g' | 'kg' | 'lb'): { quantity: number; unit: 'L' | 'g' } {
   if (unit === 'gal') return { quantity: gallonsToLiters(quantity), unit: 'L' };
   if (unit === 'kg') return { quantity: quantity * 1000, unit: 'g' };
+  if (unit === 'lb') return { quantity: lbToKg(quantity) * 1000, unit: 'g' };
   return { quantity, unit };
 }
 

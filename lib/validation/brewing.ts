@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { QUALITY_PROPERTIES } from '@/lib/quality';
 import { safeParseMoneyToCents } from '@/lib/money';
 import { idSchema } from './common';
 import { listQuerySchema } from './list';
@@ -55,7 +56,7 @@ const nullableText = (max: number) => text(max).nullable().optional().transform(
 
 export const CHEMICAL_KINDS = ['methanol', 'KOH', 'NaOH', 'other'] as const;
 export const CATALYST_KINDS = ['KOH', 'NaOH'] as const;
-export const QUANTITY_UNITS = ['L', 'gal', 'g', 'kg'] as const;
+export const QUANTITY_UNITS = ['L', 'gal', 'g', 'kg', 'lb'] as const;
 
 // ---------------------------------------------------------------- supplies
 
@@ -66,14 +67,14 @@ export const chemicalLotCreateSchema = z
     supplier: text(120).min(1, 'Enter the supplier.'),
     receivedOn: dateSchema,
     quantity: positive('Quantity'),
-    unit: z.enum(QUANTITY_UNITS, { error: 'Choose L, gal, g or kg.' }),
+    unit: z.enum(QUANTITY_UNITS, { error: 'Choose L, gal, g, kg or lb.' }),
     totalCost: moneyCents(),
     purityPct: purityPctSchema.optional(),
     notes: optionalText(2000),
   })
   .superRefine((v, ctx) => {
     if (v.kind === 'methanol' && v.unit !== 'L' && v.unit !== 'gal') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Methanol is measured in L or gal.' });
-    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.unit !== 'g' && v.unit !== 'kg') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Catalysts are weighed in g or kg.' });
+    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.unit !== 'g' && v.unit !== 'kg' && v.unit !== 'lb') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Catalysts are weighed in g, kg or lb.' });
     if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.purityPct === undefined) ctx.addIssue({ code: 'custom', path: ['purityPct'], message: 'Enter the purity from the label (KOH flake is usually about 90 %).' });
     if ((v.kind === 'methanol' || v.kind === 'other') && v.purityPct !== undefined) ctx.addIssue({ code: 'custom', path: ['purityPct'], message: 'Purity is recorded for KOH and NaOH only.' });
     if (v.kind === 'other' && !v.description) ctx.addIssue({ code: 'custom', path: ['description'], message: 'Say what the chemical is.' });
@@ -109,6 +110,8 @@ const planShape = {
   baseGramsPerLiter: nonNegative('The base amount', 50).optional(),
   purityPct: purityPctSchema.optional(),
   titrantFrom: z.enum(['same-catalyst', 'pure-reagent'], { error: 'Choose how the titrant was made.' }).optional(),
+  /** The chemical of the titrant the trials were made with (the batch's catalyst when not given). */
+  titrant: z.enum(CATALYST_KINDS, { error: 'Choose KOH or NaOH.' }).optional(),
   methanolMode: z.enum(['percent', 'molar-ratio'], { error: 'Choose percent or molar ratio.' }).optional(),
   methanolPct: num().pipe(z.number().gt(0, 'Methanol % must be more than 0.').max(100, 'Methanol % must be at most 100.')).optional(),
   molarRatio: num().pipe(z.number().gt(0, 'The molar ratio must be more than 0.').max(30, 'The molar ratio must be at most 30.')).optional(),
@@ -127,6 +130,8 @@ export const plannerSchema = z
     heaterKw: nonNegative('Heater power', 100).optional(),
     heaterHours: nonNegative('Heating time', 100).optional(),
     tariffCentsPerKwh: nonNegative('The tariff', 1_000).optional(),
+    /** The oil's temperature before heating, in the co-op's units (°F or °C). */
+    startTemp: num().pipe(z.number().min(-40, 'At least −40.').max(200, 'At most 200.')).optional(),
   })
   .superRefine(needsTitration);
 export type PlannerInput = z.infer<typeof plannerSchema>;
@@ -149,12 +154,24 @@ export type BatchCreateInput = z.infer<typeof batchCreateSchema>;
 // ---------------------------------------------------------------- batch steps
 
 export const DRYING_METHODS = ['air', 'bubble', 'heat', 'vacuum', 'settle', 'other'] as const;
-export const QUALITY_PROPERTIES = [
-  'acidNumber', 'freeGlycerin', 'totalGlycerin', 'waterAndSediment', 'water', 'flashPoint', 'methanol', 'kinematicViscosity40C',
-  'sulfur', 'cloudPoint', 'oxidationStability', 'sulfatedAsh', 'copperStripCorrosion', 'cetaneNumber', 'carbonResidue', 'density15C',
-] as const;
+export { QUALITY_PROPERTIES } from '@/lib/quality';
 
-const labValue = num().pipe(z.number().min(-100, 'Check this value.').max(100_000, 'Check this value.')).nullable();
+const labNumber = num().pipe(z.number().min(-100, 'Check this value.').max(100_000, 'Check this value.'));
+/**
+ * A lab result: the value with its method, laboratory (or "home test") and date. A bare number is
+ * still accepted (screening only: without laboratory, method and date it earns no standard verdict).
+ */
+const labValue = z
+  .union([
+    labNumber,
+    z.strictObject({
+      value: labNumber,
+      method: text(60).min(1, 'Name the test method, e.g. ASTM D93.'),
+      laboratory: text(120).min(1, 'Name the laboratory, or write "home test".'),
+      date: dateSchema,
+    }),
+  ])
+  .nullable();
 
 export const quickTestsSchema = z.strictObject({
   test327: z.strictObject({ result: z.enum(['clear', 'fallout'], { error: 'Choose clear or fall-out.' }), falloutMl: nonNegative('Fall-out', 30).optional() }).nullable().optional(),
@@ -170,6 +187,7 @@ export const batchUpdateSchema = z
     titrationTrials: z.array(nonNegative('A titration trial', 50)).min(1, 'Enter at least one titration trial.').max(10).optional(),
     titrationBlankMl: planShape.titrationBlankMl,
     catalyst: planShape.catalyst,
+    titrant: planShape.titrant,
     baseGramsPerLiter: planShape.baseGramsPerLiter,
     purityPct: planShape.purityPct,
     titrantFrom: planShape.titrantFrom,
@@ -214,6 +232,8 @@ export const batchAdvanceSchema = z.strictObject({
 export const batchReleaseSchema = z.strictObject({
   tankId: idSchema('Choose a tank.'),
   volume: positive('Volume released', 100_000),
+  /** Why the batch is released although it does not meet the standard in full (required then). */
+  reason: z.string().trim().max(2000, 'At most 2000 characters.').optional(),
 });
 export const batchRejectSchema = z.strictObject({
   reason: z.string({ error: 'Say why the batch is rejected.' }).trim().min(3, 'Say why the batch is rejected (at least 3 characters).').max(2000, 'At most 2000 characters.'),

@@ -22,5 +22,7 @@ export const coopSettingsUpdateSchema = z.strictObject({
   purityPct: z.coerce.number({ error: 'A number.' }).gt(0, 'More than 0 %.').max(100, 'At most 100 %.'),
   methanolPct: z.coerce.number({ error: 'A number.' }).min(10, 'At least 10 %.').max(40, 'At most 40 %.'),
   qualityStandard: z.enum(['ASTM D6751', 'EN 14214'], { error: 'ASTM D6751 or EN 14214.' }),
+  /** Elevation of the brewing site in the co-op's units (feet for US units, metres for metric); blank = unchanged. */
+  elevation: z.preprocess((v) => (v === '' || v === null ? undefined : v), z.coerce.number({ error: 'A number.' }).min(-1640, 'At least −1,640 (ft) / −500 (m).').max(16_400, 'At most 16,400 (ft) / 5,000 (m).').optional()),
 });
 export type CoopSettingsUpdate = z.infer<typeof coopSettingsUpdateSchema>;

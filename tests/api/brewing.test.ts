@@ -132,20 +132,37 @@ describe('brewing: a batch from supplies to the tank (metric co-op)', () => {
     await b.patch(url).send({ dryingMethod: 'bubble', dryingNotes: 'Two days of bubbling, then clear' }).expect(200);
     await b.post(`${url}/advance`).send({ to: 'testing' }).expect(200);
     const tested = await b.patch(url).send({
-      quickTests: { test327: { result: 'clear' }, soap: { hclMl: 0.5, sampleGrams: 10 }, washTest: 'clean-split', water: 'clear' },
-      labResults: { acidNumber: 0.3, freeGlycerin: 0.015, totalGlycerin: 0.2, flashPoint: 150 },
+      // soap 0.1 mL × 0.01 N × 320.55 × 1000 ÷ 10 g = 32 ppm potassium oleate, under the 41 ppm equivalent to ASTM D6751's Na + K ≤ 5 ppm
+      quickTests: { test327: { result: 'clear' }, soap: { hclMl: 0.1, sampleGrams: 10 }, washTest: 'clean-split', water: 'clear' },
+      labResults: {
+        acidNumber: { value: 0.3, method: 'ASTM D664', laboratory: 'Valley Fuel Lab', date: '2026-11-20' },
+        freeGlycerin: { value: 0.015, method: 'ASTM D6584', laboratory: 'Valley Fuel Lab', date: '2026-11-20' },
+        totalGlycerin: 0.2, // a bare value: screening only
+        flashPoint: { value: 150, method: 'ASTM D93', laboratory: 'home test', date: '2026-11-20' },
+      },
       heaterKw: 1.5, heaterHours: 2, tariffCentsPerKwh: 14.5, otherCost: '5.00', otherNotes: 'Filter bags and wash water',
     }).expect(200);
-    expect(tested.body).toMatchObject({ status: 'testing', screeningVerdict: 'looks-good', qualityVerdict: 'pass', mixingMinutes: 60, settlingHours: 12, glycerinLiters: 18, washCycles: 3, washWaterLiters: 90, dryingMethod: 'bubble' });
+    // Four results (two from a laboratory) do not meet ASTM D6751: every required property needs a laboratory result.
+    expect(tested.body).toMatchObject({ status: 'testing', screeningVerdict: 'looks-good', qualityVerdict: 'incomplete', mixingMinutes: 60, settlingHours: 12, glycerinLiters: 18, washCycles: 3, washWaterLiters: 90, dryingMethod: 'bubble' });
     expect(tested.body.quality.standard).toBe('ASTM D6751');
+    expect(tested.body.quality.verdict.text).toBe('Screened — 2 of 19 required properties tested, none failing');
+    expect(tested.body.labResults.acidNumber).toEqual({ value: 0.3, method: 'ASTM D664', laboratory: 'Valley Fuel Lab', date: '2026-11-20' });
+    // Released without the standard met: a written reason is required (nothing written without it).
+    const noReason = await b.post(`${url}/release`).send({ tankId, volume: 105 }).expect(422);
+    expect(noReason.body.fields.reason[0]).toMatch(/^Screened — 2 of 19/);
     expect(tested.body.temperatures.map((t: { level: string }) => t.level)).toEqual(['ok', 'warning', 'danger']);
-    // Soap: 0.5 mL × 0.01 N × 320.55 g/mol (potassium oleate) × 1000 / 10 g = 160 ppm.
-    expect(tested.body.quickTestEvaluation.items.find((i: { test: string }) => i.test === 'soap').soapPpm).toBeCloseTo(160.275, 3);
+    // Soap: 0.1 mL × 0.01 N × 320.55 g/mol (potassium oleate) × 1000 ÷ 10 g = 32.055 ppm (under the 41 ppm Na + K-derived level)
+    expect(tested.body.quickTestEvaluation.items.find((i: { test: string }) => i.test === 'soap').soapPpm).toBeCloseTo(32.055, 3);
     expect(tested.body.energy.costCents).toBe(44);
+    // The 65 °C Danger reading raises a banner until a brewer acknowledges it (kept in the audit log); members may not.
+    await ctx.agents.member.post(`${url}/temperatures/acknowledge`).send({}).expect(403);
+    await b.post(`${url}/temperatures/acknowledge`).send({}).expect(200);
+    await b.post(`${url}/temperatures/acknowledge`).send({}).expect(409);
+    expect(await countRows('audit_events', `coop_id = $1 AND action = 'batch.danger-acknowledged'`, [ctx.coop.id])).toBe(1);
   });
 
   it('releases into the tank in one transaction: FIFO over two methanol lots, costs equal to the hand computation', async () => {
-    const res = await ctx.agents.brewer.post(`${api(slug)}/batches/${batchId}/release`).send({ tankId, volume: 105 }).expect(200);
+    const res = await ctx.agents.brewer.post(`${api(slug)}/batches/${batchId}/release`).send({ tankId, volume: 105, reason: 'Members agreed to use it off-road while the lab results come in' }).expect(200);
     // Hand computation:
     //   methanol 22.6 L FIFO: lot A (oldest) 20 L → its whole cost 3000 ¢; lot B 2.6 L → 36000 × 2.6 / 200 = 468 ¢; total 3468 ¢
     //   KOH 1450 g actually weighed from a 5000 g lot costing 4250 ¢ → 4250 × 1450 / 5000 = 1232.5 → 1233 ¢ (half up)
@@ -186,16 +203,16 @@ describe('brewing: a batch from supplies to the tank (metric co-op)', () => {
     await b.patch(url).send({ notes: 'late note' }).expect(409);
     await b.post(`${url}/advance`).send({ to: 'testing' }).expect(409);
     await b.post(`${url}/temperatures`).send({ temp: 50 }).expect(409);
-    await b.post(`${url}/release`).send({ tankId, volume: 1 }).expect(409);
+    await b.post(`${url}/release`).send({ tankId, volume: 1, reason: 'Lab results pending' }).expect(409);
     await b.post(`${url}/reject`).send({ reason: 'changed my mind' }).expect(409);
     expect(await countRows('tank_movements', 'tank_id = $1', [tankId])).toBe(1);
     expect(await countRows('batch_temperatures', 'batch_id = $1', [batchId])).toBe(3);
   });
 
-  it('members and treasurers see released batches with a quality summary only, and may download the certificate', async () => {
+  it('members and treasurers see released batches with a quality summary only, and may download the batch quality record', async () => {
     const list = await ctx.agents.member.get(`${api(slug)}/batches`).expect(200);
     expect(list.body.rows.map((r: { id: number }) => r.id)).toEqual([batchId]);
-    expect(list.body.rows[0]).toMatchObject({ status: 'released', releasedLiters: 105, costPerGallonCents: 230, qualityVerdict: 'pass' });
+    expect(list.body.rows[0]).toMatchObject({ status: 'released', releasedLiters: 105, costPerGallonCents: 230, qualityVerdict: 'incomplete', qualityText: 'Screened — 2 of 19 required properties tested, none failing' });
     const one = await ctx.agents.treasurer.get(`${api(slug)}/batches/${batchId}`).expect(200);
     expect(one.body.view).toBe('summary');
     expect(one.body.costs).toBeUndefined();
@@ -206,7 +223,7 @@ describe('brewing: a batch from supplies to the tank (metric co-op)', () => {
     const parser = new PDFParse({ data: new Uint8Array(pdf.body as Buffer) });
     const { text } = await parser.getText();
     await parser.destroy();
-    expect(text).toContain('Batch 1 certificate');
+    expect(text).toContain('Batch 1 quality record'); // not a certificate: the standard is not met in full
     expect(text).toContain('ASTM D6751');
     expect(text).toMatch(/screening only/);
     expect(text).toContain('Golden Wok Diner');
@@ -443,7 +460,7 @@ describe('brewing: US units, FIFO across lots, stock shortfall and the low-stock
     // Walk it to testing and try to release: stock is short → 409 naming the chemicals; nothing consumed or moved.
     const url = `${api(slug)}/batches/${big.body.id}`;
     await b.post(`${url}/advance`).send({ to: 'testing' }).expect(200);
-    const short = await b.post(`${url}/release`).send({ tankId, volume: 28 }).expect(409);
+    const short = await b.post(`${url}/release`).send({ tankId, volume: 28, reason: 'Lab results pending' }).expect(409);
     expect(short.body.fields.actualMethanol[0]).toMatch(/short of methanol/);
     expect(short.body.fields.actualCatalystGrams[0]).toMatch(/short of NaOH/);
     expect(await countRows('chemical_consumptions', 'coop_id = $1', [ctx.coop.id])).toBe(0);
@@ -451,9 +468,9 @@ describe('brewing: US units, FIFO across lots, stock shortfall and the low-stock
 
     // Record what was really used (15 L methanol, 180 g NaOH) and release 28 gal: within stock.
     await b.patch(url).send({ actualMethanol: 15 / 3.785411784, actualCatalystGrams: 180 }).expect(200);
-    const tooMuch = await b.post(`${url}/release`).send({ tankId, volume: 120 }).expect(422);
+    const tooMuch = await b.post(`${url}/release`).send({ tankId, volume: 120, reason: 'Lab results pending' }).expect(422);
     expect(tooMuch.body.fields.volume[0]).toMatch(/room for only/);
-    const rel = await b.post(`${url}/release`).send({ tankId, volume: 28 }).expect(200);
+    const rel = await b.post(`${url}/release`).send({ tankId, volume: 28, reason: 'Lab results pending' }).expect(200);
     // NaOH FIFO: 100 g old lot (300 ¢) + 80 g of the new (500 × 80 / 100 = 400 ¢) = 700 ¢.
     // Methanol 15 L of an 18.927 L lot costing 7570 ¢: 7570 × 15 / 18.927 = 5999.37 → 5999 ¢.
     expect(rel.body.costs).toMatchObject({ catalystCents: 700, methanolCents: Math.round((7570 * 15) / 18.927) });
@@ -470,10 +487,18 @@ describe('brewing: the co-op’s chosen standard', () => {
     const b = await ctx.agents.brewer.post(`${api(ctx.coop.slug)}/batches`).send({ oilVolume: 20, titrationTrials: [2] }).expect(201);
     expect(b.body.quality.standard).toBe('EN 14214');
     // EN 14214 flash point ≥ 101 °C: 95 °C fails there (it would pass ASTM D6751's ≥ 93 °C).
-    const r = await ctx.agents.brewer.patch(`${api(ctx.coop.slug)}/batches/${b.body.id}`).send({ labResults: { flashPoint: 95 } }).expect(200);
+    const flash = { value: 95, method: 'EN ISO 3679', laboratory: 'Valley Fuel Lab', date: '2026-11-20' };
+    const r = await ctx.agents.brewer.patch(`${api(ctx.coop.slug)}/batches/${b.body.id}`).send({ labResults: { flashPoint: flash } }).expect(200);
     expect(r.body.qualityVerdict).toBe('fail');
+    expect(r.body.quality.verdict.text).toBe('Fails: Flash point');
+    // Against ASTM D6751 the one laboratory result passes its row, but one result is not the standard met (changed deliberately).
     const astm = await ctx.agents.brewer.patch(`${api(ctx.coop.slug)}/batches/${b.body.id}`).send({ qualityStandard: 'ASTM D6751' }).expect(200);
-    expect(astm.body.qualityVerdict).toBe('pass');
+    expect(astm.body.qualityVerdict).toBe('incomplete');
+    expect(astm.body.quality.verdict.text).toBe('Screened — 1 of 19 required properties tested, none failing');
+    // A home test out of limits never fails the standard by name: it is screening.
+    const home = await ctx.agents.brewer.patch(`${api(ctx.coop.slug)}/batches/${b.body.id}`).send({ labResults: { flashPoint: { ...flash, value: 80, laboratory: 'home test' } } }).expect(200);
+    expect(home.body.qualityVerdict).toBe('incomplete');
+    expect(home.body.quality.verdict.text).toMatch(/outside the limit in screening: Flash point/);
   });
 });
 

@@ -27,6 +27,18 @@ describe('co-op settings API', () => {
     expect(ev).toMatchObject({ before: { units: 'us' }, after: { units: 'metric' } });
   });
 
+  it('the brewing site elevation is typed in the co-op units and kept in metres (1 ft = 0.3048 m, NIST SP 811)', async () => {
+    const metric = await ctx.agents.admin.put(url).send({ ...valid, elevation: '1600' }).expect(200);
+    expect(metric.body.elevationM).toBe(1600);
+    const us = await ctx.agents.admin.put(url).send({ ...valid, units: 'us', elevation: '5000' }).expect(200);
+    expect(us.body.elevationM).toBeCloseTo(1524, 6);
+    // Blank leaves it as it was; out of range (metric 6000 m) → 422 naming the field.
+    const blank = await ctx.agents.admin.put(url).send({ ...valid, elevation: '' }).expect(200);
+    expect(blank.body.elevationM).toBeCloseTo(1524, 6);
+    const high = await ctx.agents.admin.put(url).send({ ...valid, elevation: '6000' }).expect(422);
+    expect(Object.keys(high.body.fields)).toEqual(['elevation']);
+  });
+
   it('bad input → 422 with each field and reason, nothing written', async () => {
     const events = await countRows('audit_events', 'coop_id = $1', [ctx.coop.id]);
     const res = await ctx.agents.admin.put(url).send({

@@ -95,11 +95,18 @@ describe('brewing in the browser', () => {
       await testing.getByRole('button', { name: 'Save quality checks' }).click();
       await testing.getByText('Quality checks saved.').waitFor();
 
-      const release = section(page, '7. Release to the tank');
-      await release.getByLabel('Volume released (gal)').fill('28');
-      await release.getByRole('button', { name: 'Release to tank' }).click();
+      // Release from the Next-step card: a dialog with the quality state, a reason (one screening result is not the standard met), can't be undone.
+      await page.getByRole('button', { name: 'Release to a tank…' }).click();
+      const dialog = page.getByRole('dialog', { name: /Release batch 1 to a tank/ });
+      await dialog.getByText('Screened — 0 of 19 required properties tested, none failing', { exact: true }).waitFor();
+      await dialog.getByText(/can’t be undone/).first().waitFor();
+      await dialog.getByLabel('Volume released (gal)').fill('28');
+      await dialog.getByRole('button', { name: 'Release — can’t be undone' }).click();
+      await dialog.getByText(/Say why this batch is released anyway/).waitFor();
+      await dialog.getByLabel('Why release it now?').fill('Off-road use only until the lab report arrives');
+      await dialog.getByRole('button', { name: 'Release — can’t be undone' }).click();
       await page.getByText('Cost per gallon').waitFor({ timeout: 15_000 });
-      await page.getByRole('link', { name: 'Download certificate (PDF)' }).waitFor();
+      await page.getByRole('link', { name: 'Download batch quality record (PDF)' }).waitFor();
       await shoot(page, 'batch-released');
       await checkA11y(page);
 

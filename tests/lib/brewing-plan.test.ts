@@ -45,6 +45,23 @@ describe('computePlan', () => {
     expect(p.oil.acidNumber).toBeCloseTo((4 * 1.4027) / 0.92, 2);
   });
 
+  it('NaOH titration for a KOH batch at 90 %: converted by molar mass, then divided by purity once (IUPAC; common practice purity rule)', () => {
+    const p = computePlan({ oilLiters: 100, titration: { source: 'oil-lot', trials: [4], titrant: 'NaOH', oilLotId: 7 }, catalyst: 'KOH', baseGramsPerLiter: 7, purityPct: 90 });
+    expect(p.titrantFrom).toBe('pure-reagent');
+    expect(p.catalystResult.rule).toBe('converted-all-over-purity');
+    expect(p.catalystResult.gramsPerLiter).toBeCloseTo((7 + 4 * (56.106 / 39.997)) / 0.9, 9);
+    // said to be made from the batch's own KOH: impossible for a NaOH titrant → 422 on titrantFrom
+    expect(() => computePlan({ oilLiters: 100, titration: { source: 'trials', trials: [4], titrant: 'NaOH' }, catalyst: 'KOH', purityPct: 90, titrantFrom: 'same-catalyst' })).toThrow(HttpError);
+  });
+
+  it('projects fuel from released batches, the ideal only without history (stoichiometry; common practice)', () => {
+    const none = computePlan({ oilLiters: 100, titration: trials([4]), catalyst: 'NaOH' });
+    expect(none.yieldProjection.source).toBe('ideal');
+    expect(none.projectedFuelLiters).toBeCloseTo(none.yields.fuelLiters, 9);
+    const hist = computePlan({ oilLiters: 100, titration: trials([4]), catalyst: 'NaOH' }, {}, { yieldHistory: [{ oilLiters: 50, releasedLiters: 45 }] });
+    expect(hist.projectedFuelLiters).toBeCloseTo(90, 9);
+  });
+
   it('one trial is enough; a 6:1 molar ratio gives ≈ 252 mL per L of oil (W5, CRC values)', () => {
     const p = computePlan({ oilLiters: 1, titration: trials([3]), catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 100, methanolMode: 'molar-ratio', molarRatio: 6 });
     expect(p.catalystResult.gramsPerLiter).toBeCloseTo(6.5, 9); // W3 (common practice): NaOH, titration 3 → 6.5 g/L
@@ -112,5 +129,13 @@ describe('brewing schemas', () => {
     expect(batchCreateSchema.safeParse({ oilVolume: 30, oilLotId: 4 }).success).toBe(true);
     const d = batchCreateSchema.safeParse({ oilVolume: 30, titrationTrials: [1], batchDate: '2026-02-30' });
     expect(d.success ? [] : d.error.issues.map((i) => i.path.join('.'))).toEqual(['batchDate']);
+  });
+});
+
+describe('chemical purchases in pounds (NIST SP 811: 1 lb = 0.45359237 kg)', () => {
+  it('a catalyst may be entered in lb; methanol may not', () => {
+    const base = { supplier: 'Lakeside Lab Goods', receivedOn: '2026-10-01', quantity: 11, totalCost: '42.50' };
+    expect(chemicalLotCreateSchema.safeParse({ ...base, kind: 'KOH', unit: 'lb', purityPct: 90 }).success).toBe(true);
+    expect(chemicalLotCreateSchema.safeParse({ ...base, kind: 'methanol', unit: 'lb' }).success).toBe(false);
   });
 });

@@ -11,6 +11,7 @@ import {
   METHANOL_BOILING_POINT_F,
   DEFAULT_BASE_GRAMS_PER_LITER,
   titrationAverage,
+  trialsPhrase,
   catalystGrams,
   convertCatalystGrams,
   methanolLiters,
@@ -85,27 +86,39 @@ describe('titrationAverage (common practice)', () => {
     expect(r.spreadMl).toBe(0);
   });
 
-  it('flags a trial more than max(0.5 mL, 15 %) from the median of the others (common practice)', () => {
-    const r = titrationAverage([5.0, 5.1, 6.5]);
-    expect(r.outlierIndexes).toEqual([2]); // 6.5 vs median 5.05: 1.45 > max(0.5, 0.76)
-    expect(r.averageMl).toBeCloseTo(5.5333, 4); // outliers stay in the average; the brewer decides
-    expect(r.averageWithoutOutliersMl).toBeCloseTo(5.05, 10);
+  it('singles out one trial only by Dixon\'s Q test at 90 % (Dean & Dixon 1951; critical values Rorabacher 1991, from memory)', () => {
+    // 10, 10, 11.6: Q = 1.6 / 1.6 = 1 > 0.941 → trial 3
+    const r = titrationAverage([10, 10.1, 11.9]);
+    expect(r.outlierIndexes).toEqual([2]); // Q = 1.8 / 1.9 = 0.947 > 0.941
+    expect(r.averageMl).toBeCloseTo(10.6667, 4); // outliers stay in the average; the brewer decides
+    expect(r.averageWithoutOutliersMl).toBeCloseTo(10.05, 10);
+    expect(r.notice).toBe("Trial 3 (11.9 mL) stands apart from the others (Dixon's Q test, 90 %): titrate again before relying on the average.");
+    // 5.0, 5.1, 6.5: Q = 1.4 / 1.5 = 0.933 < 0.941 — not singled out, but the 1.5 mL spread asks for another titration
+    const wide = titrationAverage([5.0, 5.1, 6.5]);
+    expect(wide.outlierIndexes).toEqual([]);
+    expect(wide.spreadTooWide).toBe(true);
+    expect(wide.notice).toMatch(/1\.50 mL apart/);
   });
 
-  it('uses the 15 % part for large titrations and the 0.5 mL part for small ones', () => {
-    // median of others 10 → threshold 1.5 mL: 11.4 is kept, 11.6 is flagged
-    expect(titrationAverage([10, 10, 11.4]).outlierIndexes).toEqual([]);
-    expect(titrationAverage([10, 10, 11.6]).outlierIndexes).toEqual([2]);
-    // median of others 1 → threshold 0.5 mL: exactly 0.5 away is kept (rule is "more than")
-    expect(titrationAverage([1, 1, 1.5]).outlierIndexes).toEqual([]);
-    expect(titrationAverage([1, 1, 1.6]).outlierIndexes).toEqual([2]);
+  it('ordinary scatter is never an outlier: 4.5 / 5.0 / 5.5 flags nothing (changed: the old rule flagged two of these three)', () => {
+    const r = titrationAverage([4.5, 5.0, 5.5]);
+    expect(r.outlierIndexes).toEqual([]);
+    expect(r.spreadTooWide).toBe(false); // 1.0 mL is not more than 1.0 mL (common practice)
+    expect(r.notice).toBeNull();
   });
 
-  it('two disagreeing trials are both flagged', () => {
+  it('two trials: neither can be singled out; a spread over 1.0 mL asks to titrate again (common practice)', () => {
     const r = titrationAverage([4, 6]);
-    expect(r.outlierIndexes).toEqual([0, 1]);
+    expect(r.outlierIndexes).toEqual([]);
     expect(r.averageMl).toBe(5);
+    expect(r.spreadTooWide).toBe(true);
     expect(r.averageWithoutOutliersMl).toBeNull();
+  });
+
+  it('trial phrases read correctly', () => {
+    expect(trialsPhrase([0])).toBe('Trial 1');
+    expect(trialsPhrase([0, 2])).toBe('Trials 1 and 3');
+    expect(trialsPhrase([0, 1, 2])).toBe('Trials 1, 2 and 3');
   });
 
   it('subtracts a blank (ASTM D974 uses V − B)', () => {

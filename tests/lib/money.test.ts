@@ -137,3 +137,12 @@ describe('parseMoneyToCents', () => {
     expect(safeParseMoneyToCents('99999999999999999').ok).toBe(false);
   });
 });
+
+describe('invoice rounding stated (lib/money rule)', () => {
+  it('says each draw line is rounded to the cent half up and the invoice is the sum of its lines', async () => {
+    const { INVOICE_ROUNDING_NOTE, roundHalfUp: round } = await import('@/lib/money');
+    expect(INVOICE_ROUNDING_NOTE).toMatch(/Every draw line is rounded to the cent, half up/);
+    expect(INVOICE_ROUNDING_NOTE).toMatch(/invoice total is the exact sum of its lines/);
+    expect(round(2139.5)).toBe(2140); // half up, as the note says
+  });
+});

@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { SAFETY_CAUTIONS, SAFETY_DEFERENCE, safetyCautionsFor } from '@/lib/safety';
+import { ALTITUDE_CAUTION, SAFETY_CAUTIONS, SAFETY_DEFERENCE, safetyCautionsFor } from '@/lib/safety';
 
 describe('safety cautions (REFERENCES.md "Safety cautions to show"; university extension safety guides)', () => {
   it('covers methanol, lye, protective equipment, rags and waste', () => {
@@ -41,5 +41,25 @@ describe('safety cautions (REFERENCES.md "Safety cautions to show"; university e
     const lye = safetyCautionsFor(['lye']);
     expect(lye.map((c) => c.id)).toEqual(['lye-caustic', 'local-rules']);
     expect(safetyCautionsFor()).toHaveLength(SAFETY_CAUTIONS.length);
+  });
+});
+
+describe('material and altitude cautions (NREL Biodiesel Handling and Use Guide; common practice)', () => {
+  it('no aluminium, tin or zinc/galvanised vessels for lye or methoxide (common practice: lye attacks them, giving off hydrogen)', () => {
+    const c = SAFETY_CAUTIONS.find((x) => x.id === 'lye-vessel-metals');
+    expect(c?.text).toMatch(/aluminium, tin or zinc \(galvanised\)/);
+    expect(c?.text).toMatch(/lye or methoxide/);
+  });
+
+  it('B100 attacks copper, brass, bronze, lead, tin and zinc and some elastomers (NREL Biodiesel Handling and Use Guide)', () => {
+    const c = SAFETY_CAUTIONS.find((x) => x.id === 'b100-materials');
+    for (const m of ['copper', 'brass', 'bronze', 'lead', 'tin', 'zinc', 'elastomers']) expect(c?.text).toContain(m);
+    expect(c?.source).toBe('NREL Biodiesel Handling and Use Guide');
+  });
+
+  it('the altitude note is added after the methanol cautions, before the local-rules line (NIST WebBook Antoine; barometric formula)', () => {
+    const list = safetyCautionsFor(['methanol'], { altitudeText: 'At 1,600 m methanol boils at about 59.9 °C.' });
+    expect(list.map((c) => c.id)).toEqual(['methanol-flammable', 'methanol-toxic', 'methanol-vapour', 'altitude', 'local-rules']);
+    expect(ALTITUDE_CAUTION.text).toMatch(/boils below 64\.7 °C/);
   });
 });

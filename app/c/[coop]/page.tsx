@@ -3,7 +3,9 @@ import { BalancesChart, BatchCostChart } from '@/components/overview/cost-charts
 import { TankLevelCard } from '@/components/overview/tank-level-card';
 import { VolumeCharts } from '@/components/overview/volume-charts';
 import { Card, EmptyState } from '@/components/ui/notice';
-import { requirePageActor } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
+import { unacknowledgedDangers } from '@/lib/batches';
+import { DangerBanner } from '@/components/brewing/danger-banner';
 import { formatCents, formatRateCents } from '@/lib/money';
 import { getOverview } from '@/lib/overview';
 import { formatVolume } from '@/lib/units';
@@ -13,7 +15,8 @@ const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a mar
 export default async function OverviewPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
   const actor = await requirePageActor(coop, 'coop:read');
-  const o = await getOverview(actor);
+  const brewing = can(actor.role, 'batches:read-all');
+  const [o, dangers] = await Promise.all([getOverview(actor), brewing ? unacknowledgedDangers(actor.coop.id) : Promise.resolve([])]);
   const units = actor.coop.units;
   const base = `/c/${actor.coop.slug}`;
   const perUnit = units === 'us' ? 'gal' : 'L';
@@ -26,6 +29,7 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
         <h1>{actor.coop.name}</h1>
         <p className="text-stone-600">Hello, {actor.user.name}. You are {actor.role === 'admin' ? 'an' : 'a'} {actor.role} here.</p>
       </div>
+      <DangerBanner alerts={dangers} slug={actor.coop.slug} units={units} canAcknowledge={can(actor.role, 'batches:write')} />
       <div className="grid gap-4 md:grid-cols-2">
         <TankLevelCard coop={actor.coop.slug} units={units} initial={o.tank} />
         <Card title="Member price">

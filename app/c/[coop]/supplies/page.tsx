@@ -59,7 +59,7 @@ export default async function SuppliesPage({ params, searchParams }: { params: P
       </section>
       {canWrite ? (
         <Card title="Record a chemical purchase">
-          <ChemicalLotForm slug={actor.coop.slug} />
+          <ChemicalLotForm slug={actor.coop.slug} units={actor.coop.units} />
         </Card>
       ) : null}
       <section aria-labelledby="lots-h" className="flex flex-col gap-2">

@@ -7,7 +7,6 @@ import { BatchActions } from '@/components/brewing/batch-actions';
 import { dateText, grams, money, perUnit, STATUS_LABELS, STEP_ORDER, vol } from '@/components/brewing/format';
 import { QualityForm } from '@/components/brewing/quality-form';
 import { QualityTables } from '@/components/brewing/quality-table';
-import { ReleaseForm } from '@/components/brewing/release-form';
 import { SafetyNote } from '@/components/brewing/safety-note';
 import { StepForm, type StepField } from '@/components/brewing/step-form';
 import { TemperatureLog } from '@/components/brewing/temperature-log';
@@ -15,10 +14,12 @@ import { UploadForm } from '@/components/brewing/upload-form';
 import { Card, Notice } from '@/components/ui/notice';
 import { Denied } from '@/components/brewing/denied';
 import { findActor } from '@/lib/auth';
-import { getBatch, idParam, type BatchDto, type BatchSummaryDto } from '@/lib/batches';
+import { getBatch, idParam, unacknowledgedDangers, type BatchDto, type BatchSummaryDto, type DangerAlert } from '@/lib/batches';
+import { DangerBanner } from '@/components/brewing/danger-banner';
 import { HttpError } from '@/lib/http';
 import { listTanks } from '@/lib/supplies';
 import { volumeFromLiters, volumeLabel, type UnitSystem } from '@/lib/units';
+import { altitudeNote } from '@/lib/chemistry';
 
 export const metadata: Metadata = { title: 'Batch' };
 
@@ -39,11 +40,13 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
   }
   const base = `/c/${actor.coop.slug}`;
   if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} />;
-  const tanks = batch.status === 'testing' ? await listTanks(actor) : [];
-  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} />;
+  const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
+  const elevationM = actor.coop.settings.elevationM ?? 0;
+  const altitude = altitudeNote(elevationM, actor.coop.units);
+  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} />;
 }
 
-function Header({ number, status, batchDate, base, id, children }: { number: number; status: string; batchDate: string; base: string; id: number; children?: ReactNode }) {
+function Header({ number, status, batchDate, base, id, meets, children }: { number: number; status: string; batchDate: string; base: string; id: number; meets: boolean; children?: ReactNode }) {
   return (
     <div className="flex flex-col gap-2">
       <Link href={`${base}/batches`} className="text-sm">← All batches</Link>
@@ -53,7 +56,7 @@ function Header({ number, status, batchDate, base, id, children }: { number: num
         <span className="text-sm text-stone-600">{dateText(batchDate)}</span>
         {status === 'released' ? (
           <a className="ml-auto inline-flex min-h-11 items-center rounded-lg border border-stone-300 bg-white px-4 py-2 text-sm font-semibold text-stone-900 no-underline hover:bg-stone-100" href={`/api/coops/${base.slice(3)}/batches/${id}/certificate`}>
-            Download certificate (PDF)
+            {meets ? 'Download certificate (PDF)' : 'Download batch quality record (PDF)'}
           </a>
         ) : null}
       </div>
@@ -65,7 +68,7 @@ function Header({ number, status, batchDate, base, id, children }: { number: num
 function BatchSummary({ batch, base, units, currency }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string }) {
   return (
     <div className="flex flex-col gap-4">
-      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} />
+      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'} />
       <Card title="In the tank">
         <dl className="grid grid-cols-1 gap-2 text-sm sm:grid-cols-3">
           <div><dt className="text-stone-600">Released</dt><dd className="font-semibold">{vol(batch.release?.releasedLiters, units)}{batch.release?.tankName ? ` into ${batch.release.tankName}` : ''}</dd></div>
@@ -74,7 +77,7 @@ function BatchSummary({ batch, base, units, currency }: { batch: BatchSummaryDto
         </dl>
       </Card>
       <Card title="Quality">
-        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} />
+        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
       </Card>
     </div>
   );
@@ -108,8 +111,8 @@ function Figure({ label, value, sub }: { label: string; value: ReactNode; sub?: 
   );
 }
 
-function BatchRecord({ batch, base, units, currency, tanks }: {
-  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>;
+function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, elevationM }: {
+  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number;
 }) {
   const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
   const final = batch.status === 'released' || batch.status === 'rejected';
@@ -121,6 +124,8 @@ function BatchRecord({ batch, base, units, currency, tanks }: {
   const planFields: StepField[] = [
     { name: 'oilVolume', label: `Oil (${v})`, kind: 'number', defaultValue: volIn(batch.oilLiters, units), omitEmpty: true },
     { name: 'titrationTrials', label: 'Titration trials (mL)', kind: 'list', defaultValue: plan.titration.trials.join(', '), omitEmpty: true, hint: 'Separate trials with commas, e.g. 4.9, 5.1, 5.2' },
+    { name: 'titrant', label: 'Titrant the trials used', kind: 'select', defaultValue: plan.titration.titrant, omitEmpty: true, options: [{ value: 'KOH', label: 'KOH solution' }, { value: 'NaOH', label: 'NaOH solution' }] },
+    { name: 'titrantFrom', label: 'Titrant made from', kind: 'select', defaultValue: plan.titrantFrom, omitEmpty: true, options: [{ value: 'same-catalyst', label: 'The batch’s own catalyst stock' }, { value: 'pure-reagent', label: 'Pure (reagent-grade) catalyst' }], hint: 'A titrant of the other chemical is always treated as pure reagent.' },
     { name: 'catalyst', label: 'Catalyst', kind: 'select', defaultValue: plan.catalyst, omitEmpty: true, options: [{ value: 'KOH', label: 'KOH' }, { value: 'NaOH', label: 'NaOH' }] },
     { name: 'purityPct', label: 'Purity (%)', kind: 'number', defaultValue: String(plan.purityPct), omitEmpty: true },
     { name: 'baseGramsPerLiter', label: 'Base amount (g per L of oil, pure)', kind: 'number', defaultValue: fixed(plan.baseGramsPerLiter, 3), omitEmpty: true },
@@ -145,13 +150,25 @@ function BatchRecord({ batch, base, units, currency, tanks }: {
 
   return (
     <div className="flex flex-col gap-4">
-      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id}>
+      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'}>
         <Steps status={batch.status} />
       </Header>
 
+      <DangerBanner alerts={dangers} slug={base.slice(3)} units={units} canAcknowledge linkToBatch={false} />
+
       {!final ? (
         <Card title="Next step">
-          <BatchActions key={batch.status} url={url} status={batch.status} />
+          <BatchActions
+            key={batch.status}
+            url={url}
+            status={batch.status}
+            number={batch.number}
+            release={batch.status === 'testing' ? {
+              tanks, units, verdictText: batch.quality.verdict.text, verdictKind: batch.quality.verdict.kind,
+              screeningText: { 'looks-good': 'Looks good (screening only)', 'needs-attention': 'Needs attention', incomplete: 'Not all done' }[batch.quickTestEvaluation.overall],
+              expectedLiters: plan.projectedFuelLiters,
+            } : undefined}
+          />
         </Card>
       ) : null}
 
@@ -182,12 +199,10 @@ function BatchRecord({ batch, base, units, currency, tanks }: {
         </dl>
         <p className="mt-3 text-sm text-stone-700"><span className="font-semibold">How the catalyst was worked out:</span> {plan.catalystResult.explanation}</p>
         <p className="mt-1 text-sm text-stone-700">
-          Oil acidity: acid number {plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids {plan.oil.ffaPercent.toFixed(2)} % (as oleic acid). Expected: about {vol(plan.yields.fuelLiters, units)} of fuel and {vol(plan.yields.glycerolLiters, units)} of glycerol (the crude glycerin layer is larger).
+          Oil acidity: acid number {plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids {plan.oil.ffaPercent.toFixed(2)} % (as oleic acid). Expected: about {vol(plan.projectedFuelLiters, units)} of fuel ({plan.yieldProjection.explanation}); a crude glycerin layer of about {vol(plan.yields.crudeGlycerinLiters, units)} ({vol(plan.yields.crudeGlycerinRangeLiters[0], units)}–{vol(plan.yields.crudeGlycerinRangeLiters[1], units)}) holding about {vol(plan.yields.glycerolLiters, units)} of pure glycerol.
         </p>
         {plan.oil.needsAcidPretreatment ? <div className="mt-2"><Notice tone="warn">{plan.oil.message}</Notice></div> : null}
-        {plan.titration.outlierIndexes.length ? (
-          <div className="mt-2"><Notice tone="warn">Trial {plan.titration.outlierIndexes.map((i) => i + 1).join(' and ')} differs from the others; consider titrating again.</Notice></div>
-        ) : null}
+        {plan.titration.notice ? <div className="mt-2"><Notice tone="warn">{plan.titration.notice}</Notice></div> : null}
         {batch.oilLots.length ? (
           <p className="mt-2 text-sm">Oil lots: {batch.oilLots.map((o) => `${vol(o.liters, units)} from ${o.collectedFrom} (${dateText(o.collectedOn)})`).join('; ')}.</p>
         ) : <p className="mt-2 text-sm text-stone-600">No oil lots linked to this batch.</p>}
@@ -197,20 +212,20 @@ function BatchRecord({ batch, base, units, currency, tanks }: {
             <div className="mt-3"><StepForm url={url} fields={planFields} submitLabel="Recompute and save" okText="Plan updated." /></div>
           </details>
         ) : null}
-        <div className="mt-3"><SafetyNote topics={['methanol', 'lye', 'protective-equipment']} title="Before handling methanol and lye" /></div>
+        <div className="mt-3"><SafetyNote topics={['methanol', 'lye', 'materials', 'protective-equipment']} title="Before handling methanol and lye" altitude={altitude} /></div>
       </Card>
 
       <Card title="2. Reaction">
         <StepForm url={url} fields={reactionFields} disabled={final} />
         <h3 className="mb-2 mt-4 font-semibold text-fir-900">Temperature</h3>
-        <TemperatureLog url={url} readings={batch.temperatures} units={units} readOnly={final} />
-        <div className="mt-3"><SafetyNote topics={['methanol']} title="Heating methanol and oil" /></div>
+        <TemperatureLog url={url} readings={batch.temperatures} units={units} readOnly={final} elevationM={elevationM} />
+        <div className="mt-3"><SafetyNote topics={['methanol']} title="Heating methanol and oil" altitude={altitude} /></div>
       </Card>
 
       <Card title="3. Settling and draining">
         <StepForm url={url} disabled={final} fields={[
           { name: 'settlingHours', label: 'Settling time (hours)', kind: 'number', defaultValue: fixed(batch.settlingHours, 2), hint: 'Overnight, 8–24 hours, is usual.' },
-          { name: 'glycerinDrained', label: `Glycerin drained (${v})`, kind: 'number', defaultValue: volIn(batch.glycerinLiters, units), aside: <>Pure glycerol expected: about {vol(plan.yields.glycerolLiters, units)}; the crude layer holds methanol, catalyst and soap too.</> },
+          { name: 'glycerinDrained', label: `Glycerin drained (${v})`, kind: 'number', defaultValue: volIn(batch.glycerinLiters, units), aside: <>Crude glycerin layer expected: about {vol(plan.yields.crudeGlycerinLiters, units)} (of which about {vol(plan.yields.glycerolLiters, units)} pure glycerol; the rest is methanol, catalyst, soap and some fuel).</> },
         ]} />
         <div className="mt-3"><SafetyNote topics={['waste']} title="Glycerin" /></div>
       </Card>
@@ -235,19 +250,14 @@ function BatchRecord({ batch, base, units, currency, tanks }: {
       </Card>
 
       <Card title="6. Testing">
-        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} />
-        {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults as Record<string, number>} standard={batch.quality.standard} /></div> : null}
+        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
+        {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults} standard={batch.quality.standard} /></div> : null}
       </Card>
 
       <Card title="Costs">
         <StepForm url={url} fields={costFields} disabled={final} />
       </Card>
 
-      {batch.status === 'testing' ? (
-        <Card title="7. Release to the tank">
-          <ReleaseForm url={url} tanks={tanks} units={units} />
-        </Card>
-      ) : null}
 
       {batch.consumptions.length ? (
         <Card title="Chemicals taken from stock">
