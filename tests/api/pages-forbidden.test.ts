@@ -24,6 +24,8 @@ describe('pages a role may not see', () => {
     ['billing/payments', 'brewer'],
     ['members', 'treasurer'],
     ['draws', 'member'],
+    ['planner', 'member'],
+    ['supplies', 'treasurer'],
   ];
   it.each(cases)('/%s as a %s → the 403 fallback inside the co-op’s navigation, not an error', async (path, role) => {
     const res = await ctx.agents[role].get(`/c/${ctx.coop.slug}/${path}`);

@@ -1,11 +1,9 @@
 import type { Metadata } from 'next';
-import { Denied } from '@/components/brewing/denied';
-import { HttpError } from '@/lib/http';
 import Link from 'next/link';
 import { BatchTable } from '@/components/brewing/batch-table';
 import { STATUS_LABELS } from '@/components/brewing/format';
 import { EmptyState } from '@/components/ui/notice';
-import { can, findActor } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
 import { listBatches } from '@/lib/batches';
 import { SCREENING_CAUTION } from '@/lib/quality';
 import { batchListSchema } from '@/lib/validation/brewing';
@@ -16,8 +14,7 @@ const FILTERS = ['', 'planned', 'in-progress', 'testing', 'released', 'rejected'
 
 export default async function BatchesPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop } = await params;
-  const actor = await findActor(coop, 'batches:read-released');
-  if (actor instanceof HttpError) return <Denied error={actor} why="Ask the co-op’s admin about your membership." next={`/c/${coop}/batches`} />;
+  const actor = await requirePageActor(coop, 'batches:read-released', `/c/${coop}/batches`);
   const sp = await searchParams;
   const parsed = batchListSchema.safeParse(sp);
   const q = parsed.success ? parsed.data : batchListSchema.parse({});

@@ -1,18 +1,15 @@
 import type { Metadata } from 'next';
-import { Denied } from '@/components/brewing/denied';
-import { HttpError } from '@/lib/http';
 import { PlannerForm } from '@/components/brewing/planner-form';
 import { SafetyNote } from '@/components/brewing/safety-note';
 import { dateText, vol } from '@/components/brewing/format';
-import { findActor } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { listOilLotsWithOil } from '@/lib/supplies';
 
 export const metadata: Metadata = { title: 'Batch planner' };
 
 export default async function PlannerPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
-  const actor = await findActor(coop, 'batches:write');
-  if (actor instanceof HttpError) return <Denied error={actor} why="The planner is for the co-op’s brewers and admins." next={`/c/${coop}/planner`} />;
+  const actor = await requirePageActor(coop, 'batches:write', `/c/${coop}/planner`);
   const lots = await listOilLotsWithOil(actor);
   const recipe = actor.coop.settings.recipe ?? {};
   const units = actor.coop.units;

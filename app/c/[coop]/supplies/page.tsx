@@ -1,6 +1,4 @@
 import type { Metadata } from 'next';
-import { Denied } from '@/components/brewing/denied';
-import { HttpError } from '@/lib/http';
 import Link from 'next/link';
 import { grams, vol } from '@/components/brewing/format';
 import { SafetyNote } from '@/components/brewing/safety-note';
@@ -8,7 +6,7 @@ import { ChemicalLotForm } from '@/components/brewing/supply-forms';
 import { ChemicalTable } from '@/components/brewing/supply-tables';
 import { SuppliesNav } from '@/components/brewing/supplies-nav';
 import { Card } from '@/components/ui/notice';
-import { can, findActor } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
 import { listChemicalLots, stockSummary } from '@/lib/supplies';
 import type { UnitSystem } from '@/lib/units';
 import { chemicalLotListSchema } from '@/lib/validation/brewing';
@@ -19,8 +17,7 @@ const NAMES = { methanol: 'Methanol', KOH: 'KOH', NaOH: 'NaOH' } as const;
 
 export default async function SuppliesPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop } = await params;
-  const actor = await findActor(coop, 'supplies:read');
-  if (actor instanceof HttpError) return <Denied error={actor} why="Supplies are kept by the co-op’s brewers and admins." next={`/c/${coop}/supplies`} />;
+  const actor = await requirePageActor(coop, 'supplies:read', `/c/${coop}/supplies`);
   const parsed = chemicalLotListSchema.safeParse(await searchParams);
   const q = parsed.success ? parsed.data : chemicalLotListSchema.parse({});
   const [stock, lots] = await Promise.all([stockSummary(actor), listChemicalLots(actor, q)]);

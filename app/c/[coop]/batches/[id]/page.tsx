@@ -12,8 +12,7 @@ import { StepForm, type StepField } from '@/components/brewing/step-form';
 import { TemperatureLog } from '@/components/brewing/temperature-log';
 import { UploadForm } from '@/components/brewing/upload-form';
 import { Card, Notice } from '@/components/ui/notice';
-import { Denied } from '@/components/brewing/denied';
-import { findActor } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { getBatch, idParam, unacknowledgedDangers, type BatchDto, type BatchSummaryDto, type DangerAlert } from '@/lib/batches';
 import { DangerBanner } from '@/components/brewing/danger-banner';
 import { HttpError } from '@/lib/http';
@@ -29,8 +28,7 @@ const cents = (c: number | null) => (c === null ? '' : (c / 100).toFixed(2));
 
 export default async function BatchPage({ params }: { params: Promise<{ coop: string; id: string }> }) {
   const { coop, id } = await params;
-  const actor = await findActor(coop, 'batches:read-released');
-  if (actor instanceof HttpError) return <Denied error={actor} why="Ask the co-op’s admin about your membership." next={`/c/${coop}/batches/${id}`} />;
+  const actor = await requirePageActor(coop, 'batches:read-released', `/c/${coop}/batches/${id}`);
   let batch: BatchDto | BatchSummaryDto;
   try {
     batch = await getBatch(actor, idParam(id), { allowSummary: true });

@@ -1,11 +1,9 @@
 import type { Metadata } from 'next';
-import { Denied } from '@/components/brewing/denied';
-import { HttpError } from '@/lib/http';
 import { OilLotForm } from '@/components/brewing/supply-forms';
 import { OilTable } from '@/components/brewing/supply-tables';
 import { SuppliesNav } from '@/components/brewing/supplies-nav';
 import { Card } from '@/components/ui/notice';
-import { can, findActor } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
 import { listOilLots } from '@/lib/supplies';
 import { oilLotListSchema } from '@/lib/validation/brewing';
 
@@ -13,8 +11,7 @@ export const metadata: Metadata = { title: 'Oil lots' };
 
 export default async function OilLotsPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop } = await params;
-  const actor = await findActor(coop, 'supplies:read');
-  if (actor instanceof HttpError) return <Denied error={actor} why="Supplies are kept by the co-op’s brewers and admins." next={`/c/${coop}/supplies/oil`} />;
+  const actor = await requirePageActor(coop, 'supplies:read', `/c/${coop}/supplies/oil`);
   const parsed = oilLotListSchema.safeParse(await searchParams);
   const lots = await listOilLots(actor, parsed.success ? parsed.data : oilLotListSchema.parse({}));
   return (
