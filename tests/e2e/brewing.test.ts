@@ -157,7 +157,7 @@ describe('brewing in the browser', () => {
       await checkA11y(page);
       // Pages check the role on the server too: the planner is not for members.
       await page.goto(`${baseUrl()}/c/prairie-lantern/planner`);
-      await page.getByText('Not available to your role').waitFor();
+      await page.getByRole('heading', { name: 'Not part of your role' }).waitFor();
       await expect(page.getByLabel('Oil volume (gal)').count()).resolves.toBe(0);
     });
   });

@@ -18,6 +18,7 @@ export const routes: RouteSpec[] = [
   { method: 'PATCH', path: `${P}/batches/[id]`, scope: 'coop', allow: BREWERS, body: {} },
   { method: 'POST', path: `${P}/batches/[id]/advance`, scope: 'coop', allow: BREWERS, body: {} },
   { method: 'POST', path: `${P}/batches/[id]/temperatures`, scope: 'coop', allow: BREWERS, body: {} },
+  { method: 'POST', path: `${P}/batches/[id]/temperatures/acknowledge`, scope: 'coop', allow: BREWERS, body: {} },
   { method: 'POST', path: `${P}/batches/[id]/release`, scope: 'coop', allow: BREWERS, body: {} },
   { method: 'POST', path: `${P}/batches/[id]/reject`, scope: 'coop', allow: BREWERS, body: {} },
   { method: 'POST', path: `${P}/batches/[id]/files`, scope: 'coop', allow: BREWERS, body: {} },
