@@ -43,7 +43,7 @@ describe('scripts/start.mjs', () => {
       MAIL_UI_PORT: await freePort(),
       PAYMENTS_PORT: await freePort(),
     };
-    const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'production', TALLYVAT_DATA_DIR: dataDir, LOG_LEVEL: 'warn' };
+    const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'production', TALLYVAT_DATA_DIR: dataDir, TALLYVAT_SKIP_BUILD: '1', LOG_LEVEL: 'warn' };
     for (const k of ['DATABASE_URL', 'NEXTAUTH_SECRET', 'STRIPE_WEBHOOK_SECRET', 'STORAGE_DIR', 'APP_URL', 'NEXTAUTH_URL']) delete env[k];
     for (const [k, v] of Object.entries(ports)) env[k] = String(v);
 
