@@ -14,10 +14,10 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { createRequire } from 'node:module';
-import { QueryTypes, Sequelize } from 'sequelize';
 import { startEmbeddedPg, freePort } from '../scripts/lib/pg.mjs';
 import { migrate } from '../scripts/lib/db-setup.mjs';
 import { buildIfNeeded } from '../scripts/lib/build.mjs';
+import { dbPool } from './lib.mjs';
 import { startPaymentsFake } from '../scripts/lib/fakes.mjs';
 
 const require = createRequire(import.meta.url);
@@ -41,10 +41,8 @@ const stopAll = async () => {
 };
 try {
   migrate({ databaseUrl: db.url, seed: false });
-  // The benchmark's own way into its database, through Sequelize (only lib/db.ts imports pg):
-  // positional $1, $2 … values are bound, never spliced; rows come back as { rows } like pg's.
-  const sequelize = new Sequelize(db.url, { logging: false, pool: { max: 1, min: 0 } });
-  const q = async (sql, params = []) => ({ rows: await sequelize.query(sql, { bind: params.length ? params : undefined, type: QueryTypes.SELECT }) });
+  const pool = dbPool(db.url);
+  const q = pool.query;
   if (process.env.BENCH_LOG_SLOW) {
     // Log every statement slower than BENCH_LOG_SLOW ms to the cluster's server.log.
     await q(`ALTER SYSTEM SET log_min_duration_statement = ${Number(process.env.BENCH_LOG_SLOW)}`);
@@ -203,7 +201,7 @@ try {
   console.log(JSON.stringify(result, null, 2));
   fs.mkdirSync(path.resolve('bench', 'output'), { recursive: true });
   fs.writeFileSync(path.resolve('bench', 'output', 'billing.json'), JSON.stringify(result, null, 2));
-  await sequelize.close();
+  await pool.end();
 } finally {
   await stopAll();
   if (process.env.BENCH_LOG_SLOW) log(`slow statements: ${path.join(root, 'pg')}/**/server.log`);

@@ -6,7 +6,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import bcrypt from 'bcryptjs';
-import pg from 'pg';
+import { QueryTypes, Sequelize } from 'sequelize';
 import { startEmbeddedPg, freePort, stopLeftover } from '../scripts/lib/pg.mjs';
 import { migrate } from '../scripts/lib/db-setup.mjs';
 import { buildIfNeeded } from '../scripts/lib/build.mjs';
@@ -15,7 +15,21 @@ import { startMailCatcher, startPaymentsFake } from '../scripts/lib/fakes.mjs';
 
 export const PASSWORD = 'bench-password-2026';
 
-/** Starts everything; returns { baseUrl, pool, stop }. */
+/**
+ * The benchmark's own way into its database, through Sequelize (only lib/db.ts imports `pg`):
+ * `query(text, params)` with positional `$1, $2 …` values bound, never spliced, resolving to
+ * `{ rows }` like a `pg` pool, so the seeding scripts read the same; `sql(text, params)` gives
+ * the rows directly; `end()` closes it. Statements without values are sent as they are (e.g.
+ * `VACUUM ANALYZE`, several statements in one string).
+ */
+export function dbPool(databaseUrl) {
+  const db = new Sequelize(databaseUrl, { logging: false, pool: { max: 4, min: 0 } });
+  const sql = (text, params = []) =>
+    db.query(text, { bind: params.length ? params.map((v) => (v === undefined ? null : v)) : undefined, type: QueryTypes.SELECT });
+  return { sequelize: db, sql, query: async (text, params = []) => ({ rows: await sql(text, params) }), end: () => db.close() };
+}
+
+/** Starts everything; returns { baseUrl, pool (see dbPool), stop }. */
 export async function startStack({ name, databaseUrlSuffix = '', fast = true, seed = false, log = (m) => console.log('[bench]', m) }) {
   buildIfNeeded({ log });
   const root = path.resolve('.data', `bench-${name}`);
@@ -45,7 +59,7 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   const next = startNext({ env, port, host: '127.0.0.1', nodeArgs, stdio: ['ignore', 'ignore', 'inherit'] });
   stops.unshift(next.stop);
   await waitForHealth(baseUrl, next.child);
-  const pool = new pg.Pool({ connectionString: pgSrv.url, max: 4 });
+  const pool = dbPool(pgSrv.url);
   stops.unshift(() => pool.end());
   return { baseUrl, pool, databaseUrl: pgSrv.url, root, pgClusterDir: path.join(root, 'pg', 'cluster'), next: next.child, stop: async () => { for (const s of stops) await s(); } };
 }

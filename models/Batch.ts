@@ -76,7 +76,8 @@ export class Batch extends Model<InferAttributes<Batch>, InferCreationAttributes
 
   static initModel(sequelize: Sequelize) {
     const dec = (p: number, s: number) => ({ type: DataTypes.DECIMAL(p, s), allowNull: true });
-    const big = { type: DataTypes.BIGINT, allowNull: true };
+    // A fresh definition per attribute: Sequelize writes each attribute's column name into its definition object.
+    const big = () => ({ type: DataTypes.BIGINT, allowNull: true });
     Batch.init(
       {
         id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
@@ -118,7 +119,7 @@ export class Batch extends Model<InferAttributes<Batch>, InferCreationAttributes
         heaterKw: dec(8, 3),
         heaterHours: dec(8, 2),
         tariffCentsPerKwh: dec(10, 4),
-        feedstockCentsOverride: big,
+        feedstockCentsOverride: big(),
         otherCents: { type: DataTypes.BIGINT, allowNull: false, defaultValue: 0 },
         otherNotes: { type: DataTypes.TEXT, allowNull: true },
         tankId: { type: DataTypes.INTEGER, allowNull: true },
@@ -126,13 +127,13 @@ export class Batch extends Model<InferAttributes<Batch>, InferCreationAttributes
         releasedAt: { type: DataTypes.DATE, allowNull: true },
         rejectedAt: { type: DataTypes.DATE, allowNull: true },
         rejectReason: { type: DataTypes.TEXT, allowNull: true },
-        costMethanolCents: big,
-        costCatalystCents: big,
-        costEnergyCents: big,
-        costFeedstockCents: big,
-        costOtherCents: big,
-        totalCostCents: big,
-        costPerGallonCents: big,
+        costMethanolCents: big(),
+        costCatalystCents: big(),
+        costEnergyCents: big(),
+        costFeedstockCents: big(),
+        costOtherCents: big(),
+        totalCostCents: big(),
+        costPerGallonCents: big(),
         notes: { type: DataTypes.TEXT, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -1,5 +1,6 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, Model, DataTypes, type Sequelize } from 'sequelize';
 import type { Coop } from './Coop';
+import type { InvoiceLine } from './InvoiceLine';
 import type { Membership } from './Membership';
 
 /** A charge (positive) or credit (negative) for a member, billed on their first invoice of `period` or later. */
@@ -12,6 +13,9 @@ export class BillingAdjustment extends Model<InferAttributes<BillingAdjustment>,
   declare period: string;
   declare createdByUserId: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
+  declare membership?: NonAttribute<Membership>;
+  /** Its line on an issued invoice, when it has been billed (at most one line is not released). */
+  declare billedLine?: NonAttribute<InvoiceLine | null>;
 
   static initModel(sequelize: Sequelize) {
     BillingAdjustment.init(

@@ -2,7 +2,7 @@ import {
   type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute,
   Model, DataTypes, type Sequelize,
 } from 'sequelize';
-import type { DeclaredUse } from '@/lib/pricing';
+import type { DeclaredUse } from './vocabulary';
 import type { Coop } from './Coop';
 import type { Membership } from './Membership';
 import type { PricePolicy } from './PricePolicy';

@@ -5,9 +5,9 @@ import {
 import type { Coop } from './Coop';
 import type { User } from './User';
 
-import type { Role } from '@/lib/auth/roles';
+import type { Role } from './vocabulary';
 
-export { ROLES, type Role } from '@/lib/auth/roles';
+export { ROLES, type Role } from './vocabulary';
 export type MembershipStatus = 'active' | 'suspended';
 
 export class Membership extends Model<InferAttributes<Membership>, InferCreationAttributes<Membership>> {

@@ -1,5 +1,6 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, Model, DataTypes, type Sequelize } from 'sequelize';
 import type { Coop } from './Coop';
+import type { Invoice } from './Invoice';
 import type { Membership } from './Membership';
 
 export type PaymentMethod = 'card' | 'cash' | 'cheque';
@@ -28,6 +29,8 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
   declare recordedByUserId: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
+  declare invoice?: NonAttribute<Invoice | null>;
+  declare membership?: NonAttribute<Membership>;
 
   static initModel(sequelize: Sequelize) {
     Payment.init(

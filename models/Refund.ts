@@ -1,4 +1,4 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, Model, DataTypes, type Sequelize } from 'sequelize';
 import type { Coop } from './Coop';
 import type { Membership } from './Membership';
 import type { Payment } from './Payment';
@@ -24,6 +24,7 @@ export class Refund extends Model<InferAttributes<Refund>, InferCreationAttribut
   declare completedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
+  declare payment?: NonAttribute<Payment>;
 
   static initModel(sequelize: Sequelize) {
     Refund.init(

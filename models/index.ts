@@ -103,6 +103,9 @@ Refund.belongsTo(Payment, { foreignKey: 'paymentId', as: 'payment' });
 Invoice.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
 Invoice.hasOne(Invoice, { foreignKey: 'creditNoteForId', as: 'creditNote' });
 Invoice.belongsTo(Invoice, { foreignKey: 'creditNoteForId', as: 'original' });
+PaymentAttempt.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
+BillingAdjustment.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
+BillingAdjustment.hasOne(InvoiceLine, { foreignKey: 'adjustmentId', as: 'billedLine' });
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };

@@ -3,23 +3,13 @@
 import Link from 'next/link';
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
+import type { BatchListRow } from '@/lib/batches';
 import type { UnitSystem } from '@/lib/units';
 import { StatusBadge, VerdictBadge } from './badges';
 import { dateText, perUnit, vol } from './format';
 
-export interface BatchTableRow {
-  id: number;
-  number: number;
-  status: string;
-  batchDate: string;
-  oilLiters: number;
-  releasedLiters: number | null;
-  costPerGallonCents: number | null;
-  costPerLiterCents: number | null;
-  qualityStandard: string;
-  qualityVerdict: string;
-  screeningVerdict: string;
-}
+/** A row of the batch list (lib/batches' DTO). */
+export type BatchTableRow = BatchListRow;
 
 const col = createColumnHelper<Features, BatchTableRow>();
 

@@ -2,18 +2,21 @@
 
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
+import type { ChemicalLotDto, OilLotDto } from '@/lib/supplies';
 import type { UnitSystem } from '@/lib/units';
 import { dateText, grams, money, vol } from './format';
 import { UploadForm } from './upload-form';
 
-export interface ChemicalRow {
-  id: number; kind: string; description: string | null; supplier: string; receivedOn: string; unit: 'L' | 'g'; quantity: number;
-  remaining: number; totalCostCents: number; purityPct: number | null; hasSafetyDataSheet: boolean; safetyDataSheetName: string | null;
-}
-export interface OilRow {
-  id: number; collectedFrom: string; collectedOn: string; volumeLiters: number; usedLiters: number; remainingLiters: number; costCents: number;
-  waterNotes: string | null; solidsNotes: string | null; titrationMl: number | null; titrant: string | null;
-}
+/** The chemical-lot fields the table shows (lib/supplies' DTO). */
+export type ChemicalRow = Pick<
+  ChemicalLotDto,
+  'id' | 'kind' | 'description' | 'supplier' | 'receivedOn' | 'unit' | 'quantity' | 'remaining' | 'totalCostCents' | 'purityPct' | 'hasSafetyDataSheet' | 'safetyDataSheetName'
+>;
+/** The oil-lot fields the table shows (lib/supplies' DTO). */
+export type OilRow = Pick<
+  OilLotDto,
+  'id' | 'collectedFrom' | 'collectedOn' | 'volumeLiters' | 'usedLiters' | 'remainingLiters' | 'costCents' | 'waterNotes' | 'solidsNotes' | 'titrationMl' | 'titrant'
+>;
 
 const chem = createColumnHelper<Features, ChemicalRow>();
 const oil = createColumnHelper<Features, OilRow>();

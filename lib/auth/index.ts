@@ -1,3 +1,3 @@
 export { authOptions } from './options';
-export { getSessionUser, requireUser, requireMember, requireMemberAnd, findActor, listMyCoops, type Actor, type SessionUser } from './session';
+export { getSessionUser, requireUser, requireMember, findActor, listMyCoops, type Actor, type SessionUser } from './session';
 export { can, POLICY, type Action } from './policies';

@@ -1,6 +1,7 @@
+import type { Role } from '@/models/vocabulary';
+
 /** The four roles a person can hold in a co-op (pure: safe for client components). */
-export const ROLES = ['admin', 'treasurer', 'brewer', 'member'] as const;
-export type Role = (typeof ROLES)[number];
+export { ROLES, type Role } from '@/models/vocabulary';
 
 /** What each role may do, worded to follow "you can …" (follows the product's roles table). */
 export const ROLE_SUMMARY: Record<Role, string> = {

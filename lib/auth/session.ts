@@ -4,7 +4,6 @@ import { headers } from 'next/headers';
 import { NextRequest } from 'next/server';
 import { cache } from 'react';
 import type { InferAttributes } from 'sequelize';
-import { runReadPlan, type ReadPlan } from '@/lib/db';
 import { forbidden, HttpError, notFound, unauthorized } from '@/lib/http';
 import type { Role } from '@/lib/auth/roles';
 import { Coop, Membership, User } from '@/models';
@@ -141,20 +140,6 @@ export async function requireMember(coopSlug: string, action: Action): Promise<A
     membershipId: m.id,
     coop: { ...m.coop, settings: (m.coop.settings ?? {}) as CoopSettings },
   };
-}
-
-/**
- * @deprecated Transitional: goes once its last callers (batch list, planner, tank list, overview
- * routes) call requireMember and then their read. Today it is exactly that: requireMember, then
- * the plan built for the fresh actor.
- */
-export async function requireMemberAnd<R>(
-  coopSlug: string,
-  action: Action,
-  build: (actor: Actor) => ReadPlan<R> | Promise<ReadPlan<R>>,
-): Promise<{ actor: Actor; result: R }> {
-  const actor = await requireMember(coopSlug, action);
-  return { actor, result: await runReadPlan(await build(actor)) };
 }
 
 /** For pages: the actor or the HttpError (401/403/404) instead of throwing it. */

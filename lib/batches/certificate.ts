@@ -1,14 +1,12 @@
 import 'server-only';
-import { QueryTypes } from 'sequelize';
 import { can, type Actor } from '@/lib/auth';
 import { conflict, notFound } from '@/lib/http';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
 import { evaluateQuality, evaluateQuickTests, SCREENING_CAUTION } from '@/lib/quality';
 import { SAFETY_DEFERENCE } from '@/lib/safety';
 import { formatVolume, type UnitSystem } from '@/lib/units';
-import { sequelize } from '@/models';
 import { computePlan } from './plan';
-import { loadBatchRow, quickTestInput, todayIn } from './records';
+import { batchOilLotShares, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, tankName, todayIn } from './read';
 
 const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported' } as const;
 const SCREEN_TEXT = { 'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded', 'not tested': 'Not tested' } as const;
@@ -30,34 +28,19 @@ function fmtDate(d: Date | string, timezone: string): string {
  * @returns the PDF bytes and a file name
  */
 export async function batchCertificate(actor: Actor, id: number): Promise<{ bytes: Buffer; filename: string }> {
-  const row = await loadBatchRow(actor.coop.id, id);
+  const row = await loadBatch(actor.coop.id, id);
   if (row.status !== 'released') {
     if (!can(actor.role, 'batches:read-all')) throw notFound('Batch not found.');
     throw conflict(`Batch ${row.number} is not released yet: certificates are for released batches.`);
   }
   const units: UnitSystem = actor.coop.units;
   const tz = actor.coop.timezone;
-  const [lots, tank] = await Promise.all([
-    sequelize.query<{ collected_from: string; collected_on: string; liters: string }>(
-      `SELECT o.collected_from, o.collected_on, bol.liters FROM batch_oil_lots bol JOIN oil_lots o ON o.id = bol.oil_lot_id AND o.coop_id = bol.coop_id
-        WHERE bol.batch_id = :id AND bol.coop_id = :coopId ORDER BY o.collected_on, o.id`,
-      { replacements: { id, coopId: actor.coop.id }, type: QueryTypes.SELECT },
-    ),
-    sequelize.query<{ name: string }>(`SELECT name FROM tanks WHERE id = :tankId AND coop_id = :coopId`, {
-      replacements: { tankId: row.tank_id, coopId: actor.coop.id }, type: QueryTypes.SELECT,
-    }),
-  ]);
-  const plan = computePlan({
-    oilLiters: Number(row.oil_liters),
-    titration: { source: row.titration_source, trials: row.titration_trials_ml.map(Number), titrant: row.titrant },
-    titrationBlankMl: Number(row.titration_blank_ml), catalyst: row.catalyst, baseGramsPerLiter: Number(row.base_g_per_l),
-    purityPct: Number(row.purity_pct), titrantFrom: row.titrant_from, methanolMode: row.methanol_mode,
-    methanolPct: row.methanol_pct === null ? undefined : Number(row.methanol_pct), molarRatio: row.molar_ratio === null ? undefined : Number(row.molar_ratio),
-  });
-  const quality = evaluateQuality(row.quality_standard, row.lab_results ?? {});
-  const screening = evaluateQuickTests(quickTestInput(row.quick_tests ?? {}, row.catalyst));
-  const catalystGrams = Number(row.actual_catalyst_grams ?? row.computed_catalyst_grams);
-  const methanolLiters = Number(row.actual_methanol_liters ?? row.computed_methanol_liters);
+  const [lots, tank] = await Promise.all([batchOilLotShares(actor.coop.id, id), tankName(actor.coop.id, row.tankId)]);
+  const plan = computePlan(planInputOf(row));
+  const quality = evaluateQuality(row.qualityStandard, labResultsOf(row));
+  const screening = evaluateQuickTests(quickTestInput(quickTestsOf(row), row.catalyst));
+  const catalystGrams = Number(row.actualCatalystGrams ?? row.computedCatalystGrams);
+  const methanolLiters = Number(row.actualMethanolLiters ?? row.computedMethanolLiters);
 
   const doc = newPdf({ title: `Batch ${row.number} certificate — ${actor.coop.name}` });
   const left = doc.page.margins.left;
@@ -73,17 +56,17 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   doc.font('bold').fontSize(13).fillColor('#16322a').text('Batch');
   doc.fillColor('#292524');
   pair('Batch number', String(row.number));
-  pair('Brewed', fmtDate(row.batch_date, tz));
-  pair('Released', row.released_at ? fmtDate(row.released_at, tz) : '—');
-  pair('Volume released', `${formatVolume(Number(row.released_liters), units, 1)}${units === 'us' ? ` (${Number(row.released_liters).toFixed(1)} L)` : ''}${tank[0] ? ` into ${tank[0].name}` : ''}`);
+  pair('Brewed', fmtDate(row.batchDate, tz));
+  pair('Released', row.releasedAt ? fmtDate(row.releasedAt, tz) : '—');
+  pair('Volume released', `${formatVolume(Number(row.releasedLiters), units, 1)}${units === 'us' ? ` (${Number(row.releasedLiters).toFixed(1)} L)` : ''}${tank ? ` into ${tank}` : ''}`);
   doc.moveDown(0.6);
 
   doc.font('bold').fontSize(13).fillColor('#16322a').text('Inputs');
   doc.fillColor('#292524');
-  pair('Oil', `${formatVolume(plan.oilLiters, units, 1)}${lots.length ? ` from ${lots.map((l) => `${l.collected_from} (${l.collected_on})`).join('; ')}` : ''}`);
+  pair('Oil', `${formatVolume(plan.oilLiters, units, 1)}${lots.length ? ` from ${lots.map((l) => `${l.oilLot.collectedFrom} (${l.oilLot.collectedOn})`).join('; ')}` : ''}`);
   pair('Titration', `${plan.titration.trials.map((t) => t.toFixed(2)).join(', ')} mL → average ${plan.titration.averageMl.toFixed(2)} mL (${plan.titration.titrant} titrant)`);
   pair('Oil acidity', `acid number ${plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids ${plan.oil.ffaPercent.toFixed(2)} % as oleic acid`);
-  pair('Catalyst', `${catalystGrams.toFixed(0)} g ${row.catalyst} at ${Number(row.purity_pct)} % purity (planned ${Number(row.computed_catalyst_grams).toFixed(0)} g; ${plan.catalystResult.rule === 'base-over-purity-plus-titration' ? 'base ÷ purity + titration' : '(base + titration) ÷ purity'})`);
+  pair('Catalyst', `${catalystGrams.toFixed(0)} g ${row.catalyst} at ${Number(row.purityPct)} % purity (planned ${Number(row.computedCatalystGrams).toFixed(0)} g; ${plan.catalystResult.rule === 'base-over-purity-plus-titration' ? 'base ÷ purity + titration' : '(base + titration) ÷ purity'})`);
   pair('Methanol', `${formatVolume(methanolLiters, units, 2)}${plan.methanol.mode === 'percent' ? ` (${plan.methanol.pct} % of oil volume)` : ` (${plan.methanol.molarRatio}:1 molar ratio)`}`);
   doc.moveDown(0.6);
 

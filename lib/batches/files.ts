@@ -1,11 +1,11 @@
 import 'server-only';
-import { QueryTypes } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
 import { deleteFile, getFile, putFile, type StoredKind } from '@/lib/storage';
-import { BatchFile, sequelize } from '@/models';
-import { loadBatchRow } from './records';
+import { inTransaction } from '@/lib/db';
+import { BatchFile } from '@/models';
+import { loadBatch } from './read';
 import type { CheckedUpload } from './upload';
 
 /** Kinds a batch accepts (checked from content): photos as JPEG/PNG, lab reports also as PDF. */
@@ -24,11 +24,11 @@ export async function addBatchFile(actor: Actor, batchId: number, upload: Checke
   if (purpose !== 'photo' && purpose !== 'lab-report') {
     throw new HttpError(422, 'Some fields need attention.', { purpose: ['Choose photo or lab report.'] });
   }
-  await loadBatchRow(actor.coop.id, batchId);
+  await loadBatch(actor.coop.id, batchId);
   const key = await putFile(actor.coop.id, upload.kind, upload.bytes);
   try {
-    return await sequelize.transaction(async (t) => {
-      await loadBatchRow(actor.coop.id, batchId, t, true);
+    return await inTransaction(async (t) => {
+      await loadBatch(actor.coop.id, batchId, t, true);
       const file = await BatchFile.create(
         { coopId: actor.coop.id, batchId, purpose, fileKind: upload.kind, storageKey: key, originalName: upload.name, sizeBytes: upload.bytes.length, uploadedByUserId: actor.user.id },
         { transaction: t },
@@ -46,11 +46,9 @@ export async function addBatchFile(actor: Actor, batchId: number, upload: Checke
 /** A batch file's bytes; the file must belong to that batch of the actor's co-op (404 otherwise). */
 export async function getBatchFile(actor: Actor, batchId: number, fileId: number): Promise<{ bytes: Buffer; kind: StoredKind; name: string }> {
   if (!Number.isSafeInteger(fileId) || fileId <= 0 || !Number.isSafeInteger(batchId) || batchId <= 0) throw notFound('File not found.');
-  const [row] = await sequelize.query<{ storage_key: string; file_kind: StoredKind; original_name: string }>(
-    `SELECT f.storage_key, f.file_kind, f.original_name FROM batch_files f
-      WHERE f.id = :fileId AND f.batch_id = :batchId AND f.coop_id = :coopId`,
-    { replacements: { fileId, batchId, coopId: actor.coop.id }, type: QueryTypes.SELECT },
-  );
+  const row = await BatchFile.findOne({
+    attributes: ['storageKey', 'fileKind', 'originalName'], where: { id: fileId, batchId, coopId: actor.coop.id }, raw: true,
+  });
   if (!row) throw notFound('File not found.');
-  return { bytes: await getFile(actor.coop.id, row.storage_key), kind: row.file_kind, name: row.original_name };
+  return { bytes: await getFile(actor.coop.id, row.storageKey), kind: row.fileKind, name: row.originalName };
 }

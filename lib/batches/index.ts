@@ -1,12 +1,12 @@
 import 'server-only';
 import { HttpError } from '@/lib/http';
 // The batch record: plan → steps → release or reject, with its files and certificate.
+export { STEPS, createBatch, updateBatch, advanceBatch, addTemperature } from './records';
 export {
-  STEPS, createBatch, updateBatch, advanceBatch, addTemperature, getBatch, listBatches, batchListPlan, todayIn,
-  type BatchDto, type BatchSummaryDto, type BatchListRow, type BatchCosts, type TemperatureDto,
-} from './records';
+  getBatch, listBatches, todayIn, type BatchDto, type BatchSummaryDto, type BatchListRow, type BatchCosts, type TemperatureDto,
+} from './read';
 export { releaseBatch, rejectBatch } from './release';
-export { plannerPlan, type PlannerResult, type ChemicalCoverage } from './planner';
+export { planBatch, type PlannerResult, type ChemicalCoverage } from './planner';
 export { addBatchFile, getBatchFile, BATCH_FILE_KINDS } from './files';
 export { batchCertificate } from './certificate';
 export { readUpload, fileResponse, type CheckedUpload } from './upload';

@@ -2,12 +2,12 @@ import 'server-only';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, energyCostCents, estimateHeatingKwh, type FifoLotByTotal } from '@/lib/costing';
 import { roundHalfUp } from '@/lib/money';
-import { stockStatePlan, summarizeStock, type BatchNeeds, type HeldLot } from '@/lib/supplies';
-import type { ReadPlan } from '@/lib/db';
+import { stockState, summarizeStock } from '@/lib/supplies';
 import { fToC, litersToGallons, volumeToLiters } from '@/lib/units';
 import type { PlannerInput } from '@/lib/validation/brewing';
 import { computePlan, type ComputedPlan } from './plan';
-import { feedstockShareCents, resolveTitration } from './records';
+import { feedstockShareCents } from './read';
+import { resolveTitration } from './records';
 
 /** Stock check and projected cost of one chemical for a planned batch. */
 export interface ChemicalCoverage {
@@ -67,19 +67,13 @@ function projectCost(lots: FifoLotByTotal[], committed: number, need: number): {
  * @param actor brewer or admin
  * @param input validated plannerSchema (volumes in the co-op's units)
  */
-export function plannerPlan(actor: Actor, input: PlannerInput): ReadPlan<PlannerResult> {
-  // The lots holding stock (FIFO order; also gives the next lot's purity) and what batches under
-  // way have committed, in one round trip (with the session check when the route sends them together).
-  const stock = stockStatePlan(actor.coop.id);
-  return { reads: stock.reads, finish: async (rowSets) => planWith(actor, input, await stock.finish(rowSets)) };
-}
-
-async function planWith(actor: Actor, input: PlannerInput, { lots, needs }: { lots: HeldLot[]; needs: BatchNeeds }): Promise<PlannerResult> {
+export async function planBatch(actor: Actor, input: PlannerInput): Promise<PlannerResult> {
   const units = actor.coop.units;
   const oilLiters = volumeToLiters(input.oilVolume, units);
   const catalyst = input.catalyst ?? actor.coop.settings.recipe?.catalyst ?? 'KOH';
-  // The titration: the trials given, or the chosen oil lot's (one more read only when a lot is chosen).
-  const { titration, lot } = await resolveTitration(actor, input);
+  // The lots holding stock (FIFO order; also gives the next lot's purity), what batches under way
+  // have committed, and the titration (the trials given, or the chosen oil lot's), read in parallel.
+  const [{ lots, needs }, { titration, lot }] = await Promise.all([stockState(actor.coop.id), resolveTitration(actor, input)]);
   const stock = summarizeStock(lots, needs);
   const purity = input.purityPct === undefined ? (lots.find((l) => l.kind === catalyst)?.purityPct ?? null) : null;
   const plan = computePlan({ ...input, oilLiters, titration, nextLotPurityPct: purity }, actor.coop.settings.recipe);

@@ -1,6 +1,6 @@
 import 'server-only';
 import { checkLowStock } from '@/lib/supplies/low-stock';
-import { QueryTypes, type Transaction } from 'sequelize';
+import { Op, type InferAttributes, type InferCreationAttributes, type Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, type FifoLotByTotal } from '@/lib/costing';
@@ -8,10 +8,12 @@ import { conflict, HttpError } from '@/lib/http';
 import { recordMovement } from '@/lib/tank/ledger';
 import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { formatVolume, litersToGallons, volumeToLiters } from '@/lib/units';
-import { ChemicalConsumption, sequelize } from '@/models';
-import { energyCentsOf, feedstockShareCents, getBatch, loadBatchRow, type BatchDto, type BatchRow } from './records';
+import { inTransaction } from '@/lib/db';
+import { Batch, ChemicalConsumption, ChemicalLot, Tank } from '@/models';
+import { batchOilLotShares, energyCentsOf, feedstockShareCents, getBatch, loadBatch, type BatchDto, type BatchRecord } from './read';
 
-interface LotRow { id: number; received_on: string; quantity: string; remaining_quantity: string; total_cost_cents: string }
+type BatchCreation = InferCreationAttributes<Batch>;
+type LotRow = Pick<InferAttributes<ChemicalLot>, 'id' | 'receivedOn' | 'quantity' | 'remainingQuantity' | 'totalCostCents'>;
 
 /** One chemical the batch used, in the lots' unit (L of methanol, g of catalyst). */
 interface Need { kind: 'methanol' | 'KOH' | 'NaOH'; quantity: number; field: string; label: string; unit: 'L' | 'g' }
@@ -39,21 +41,23 @@ export async function consumeChemicals(
     let covered = 0;
     let after: { receivedOn: string; id: number } | null = null;
     while (covered < qty) {
-      const page: LotRow[] = await sequelize.query<LotRow>(
-        `SELECT id, received_on, quantity, remaining_quantity, total_cost_cents FROM chemical_lots
-          WHERE coop_id = :coopId AND kind = :kind AND remaining_quantity > 0
-            ${after ? 'AND (received_on, id) > (:afterDate, :afterId)' : ''}
-          ORDER BY received_on, id LIMIT 50 FOR UPDATE`,
-        { replacements: { coopId, kind: need.kind, afterDate: after?.receivedOn ?? null, afterId: after?.id ?? null }, type: QueryTypes.SELECT, transaction: t },
-      );
+      const page: LotRow[] = await ChemicalLot.findAll({
+        attributes: ['id', 'receivedOn', 'quantity', 'remainingQuantity', 'totalCostCents'],
+        where: {
+          coopId, kind: need.kind, remainingQuantity: { [Op.gt]: 0 },
+          // (received_on, id) after the last lot of the previous page
+          ...(after ? { [Op.or]: [{ receivedOn: { [Op.gt]: after.receivedOn } }, { receivedOn: after.receivedOn, id: { [Op.gt]: after.id } }] } : {}),
+        },
+        order: [['receivedOn', 'ASC'], ['id', 'ASC']], limit: 50, lock: t.LOCK.UPDATE, raw: true, transaction: t,
+      });
       if (page.length === 0) break;
       lots.push(...page);
-      covered += page.reduce((a, l) => a + Number(l.remaining_quantity), 0);
+      covered += page.reduce((a, l) => a + Number(l.remainingQuantity), 0);
       const last = page[page.length - 1]!;
-      after = { receivedOn: last.received_on, id: last.id };
+      after = { receivedOn: last.receivedOn, id: last.id };
     }
     const fifoLots: FifoLotByTotal[] = lots.map((l) => ({
-      id: l.id, receivedAt: l.received_on, qty: Number(l.quantity), remainingQty: Number(l.remaining_quantity), totalCostCents: Number(l.total_cost_cents),
+      id: l.id, receivedAt: l.receivedOn, qty: Number(l.quantity), remainingQty: Number(l.remainingQuantity), totalCostCents: Number(l.totalCostCents),
     }));
     const result = consumeFifo(fifoLots, qty);
     if (result.shortfallQty > 0 && !allowShortfall) {
@@ -65,15 +69,13 @@ export async function consumeChemicals(
   if (Object.keys(shortages).length) throw new HttpError(409, 'There is not enough in stock to cover this batch.', shortages);
 
   for (const { need, result } of plans) {
-    for (const a of result.allocations) {
-      if (a.qty <= 0) continue;
-      await ChemicalConsumption.create(
-        { coopId, batchId, chemicalLotId: Number(a.lotId), quantity: a.qty.toFixed(3), costCents: String(a.costCents) },
-        { transaction: t },
-      );
-      await sequelize.query(`UPDATE chemical_lots SET remaining_quantity = :after, updated_at = now() WHERE id = :id AND coop_id = :coopId`, {
-        replacements: { after: a.remainingQtyAfter.toFixed(3), id: a.lotId, coopId }, transaction: t,
-      });
+    const slices = result.allocations.filter((a) => a.qty > 0);
+    await ChemicalConsumption.bulkCreate(
+      slices.map((a) => ({ coopId, batchId, chemicalLotId: Number(a.lotId), quantity: a.qty.toFixed(3), costCents: String(a.costCents) })),
+      { transaction: t },
+    );
+    for (const a of slices) {
+      await ChemicalLot.update({ remainingQuantity: a.remainingQtyAfter.toFixed(3) }, { where: { id: Number(a.lotId), coopId }, transaction: t });
     }
     out[need.kind] = { costCents: result.totalCostCents, shortfall: result.shortfallQty };
   }
@@ -81,9 +83,9 @@ export async function consumeChemicals(
 }
 
 /** The chemicals a batch used: what was recorded as actually used, else the plan. */
-function needsOf(row: BatchRow): Need[] {
-  const methanol = Number(row.actual_methanol_liters ?? row.computed_methanol_liters);
-  const catalyst = Number(row.actual_catalyst_grams ?? row.computed_catalyst_grams);
+function needsOf(row: BatchRecord): Need[] {
+  const methanol = Number(row.actualMethanolLiters ?? row.computedMethanolLiters);
+  const catalyst = Number(row.actualCatalystGrams ?? row.computedCatalystGrams);
   return [
     { kind: 'methanol', quantity: methanol, field: 'actualMethanol', label: 'methanol', unit: 'L' },
     { kind: row.catalyst, quantity: catalyst, field: 'actualCatalystGrams', label: row.catalyst, unit: 'g' },
@@ -91,12 +93,13 @@ function needsOf(row: BatchRow): Need[] {
 }
 
 async function feedstockFromLots(t: Transaction, coopId: number, batchId: number): Promise<number> {
-  const lots = await sequelize.query<{ liters: string; cost_cents: string; volume_liters: string }>(
-    `SELECT bol.liters, o.cost_cents, o.volume_liters FROM batch_oil_lots bol JOIN oil_lots o ON o.id = bol.oil_lot_id AND o.coop_id = bol.coop_id
-      WHERE bol.batch_id = :batchId AND bol.coop_id = :coopId`,
-    { replacements: { batchId, coopId }, type: QueryTypes.SELECT, transaction: t },
-  );
-  return lots.reduce((a, l) => a + feedstockShareCents(Number(l.cost_cents), l.liters, l.volume_liters), 0);
+  const lots = await batchOilLotShares(coopId, batchId, t);
+  return lots.reduce((a, l) => a + feedstockShareCents(Number(l.oilLot.costCents), l.liters, l.oilLot.volumeLiters), 0);
+}
+
+/** The batch's stored feedstock cost: the typed override, else its oil lots' shares. */
+async function feedstockCentsOf(t: Transaction, coopId: number, row: BatchRecord): Promise<number> {
+  return row.feedstockCentsOverride !== null ? Number(row.feedstockCentsOverride) : feedstockFromLots(t, coopId, row.id);
 }
 
 /**
@@ -114,33 +117,30 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
   const releasedMl = litersToMl(volumeToLiters(input.volume, actor.coop.units).toFixed(3));
   if (releasedMl <= 0) throw new HttpError(422, 'Some fields need attention.', { volume: ['Volume released must be more than 0.'] });
   const releasedLiters = mlToLiters(releasedMl);
-  await sequelize.transaction(async (t) => {
-    const row = await loadBatchRow(coopId, id, t, true);
+  await inTransaction(async (t) => {
+    const row = await loadBatch(coopId, id, t, true);
     if (row.status === 'released' || row.status === 'rejected') throw conflict(`Batch ${row.number} is already ${row.status}.`);
     if (row.status !== 'testing') throw conflict(`Move batch ${row.number} to testing and record its quality checks before releasing it (it is at “${row.status}”).`);
 
-    const [tankBefore] = await sequelize.query<{ id: number }>(`SELECT id FROM tanks WHERE id = :tankId AND coop_id = :coopId AND active`, {
-      replacements: { tankId: input.tankId, coopId }, type: QueryTypes.SELECT, transaction: t,
-    });
+    const tankBefore = await Tank.findOne({ attributes: ['id'], where: { id: input.tankId, coopId, active: true }, raw: true, transaction: t });
     if (!tankBefore) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s active tanks.'] });
 
     const used = await consumeChemicals(t, coopId, id, needsOf(row), false);
     const methanolCents = used.methanol.costCents;
     const catalystCents = used[row.catalyst].costCents;
     const energyCents = energyCentsOf(row) ?? 0;
-    const feedstockCents = row.feedstock_cents_override !== null ? Number(row.feedstock_cents_override) : await feedstockFromLots(t, coopId, id);
-    const otherCents = Number(row.other_cents);
+    const feedstockCents = await feedstockCentsOf(t, coopId, row);
+    const otherCents = Number(row.otherCents);
     const cost = batchCost({
       chemicalsCents: methanolCents + catalystCents, energyCents, feedstockCents, otherCents,
       gallonsReleased: litersToGallons(Number(releasedLiters)),
     });
 
     // Locked after the chemical lots (batch → lots → tank, the same order for every release).
-    const [tank] = await sequelize.query<{ capacity_liters: string; on_hand_liters: string }>(
-      `SELECT capacity_liters, on_hand_liters FROM tanks WHERE id = :tankId AND coop_id = :coopId FOR UPDATE`,
-      { replacements: { tankId: input.tankId, coopId }, type: QueryTypes.SELECT, transaction: t },
-    );
-    const roomMl = litersToMl(tank!.capacity_liters) - litersToMl(tank!.on_hand_liters);
+    const tank = await Tank.findOne({
+      attributes: ['capacityLiters', 'onHandLiters'], where: { id: input.tankId, coopId }, lock: t.LOCK.UPDATE, raw: true, transaction: t,
+    });
+    const roomMl = litersToMl(tank!.capacityLiters) - litersToMl(tank!.onHandLiters);
     if (releasedMl > roomMl) {
       throw new HttpError(422, 'Some fields need attention.', {
         volume: [`The tank has room for only ${formatVolume(Math.max(0, roomMl) / 1000, actor.coop.units, 1)}.`],
@@ -153,18 +153,15 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
       costEnergyCents: energyCents, costFeedstockCents: feedstockCents, costOtherCents: otherCents, totalCostCents: cost.totalCents,
       costPerGallonCents: cost.costPerGallonCents,
     };
-    await sequelize.query(
-      `UPDATE batches SET status = 'released', status_changed_at = now(), released_at = now(), tank_id = :tankId, released_liters = :releasedLiters,
-              cost_methanol_cents = :methanol, cost_catalyst_cents = :catalyst, cost_energy_cents = :energy, cost_feedstock_cents = :feedstock,
-              cost_other_cents = :other, total_cost_cents = :total, cost_per_gallon_cents = :perGallon, updated_at = now()
-        WHERE id = :id AND coop_id = :coopId`,
+    const now = new Date();
+    await Batch.update(
       {
-        replacements: {
-          tankId: input.tankId, releasedLiters, methanol: methanolCents, catalyst: catalystCents, energy: energyCents, feedstock: feedstockCents,
-          other: otherCents, total: cost.totalCents, perGallon: cost.costPerGallonCents, id, coopId,
-        },
-        transaction: t,
+        status: 'released', statusChangedAt: now, releasedAt: now, tankId: input.tankId, releasedLiters: String(releasedLiters),
+        costMethanolCents: String(methanolCents), costCatalystCents: String(catalystCents), costEnergyCents: String(energyCents),
+        costFeedstockCents: String(feedstockCents), costOtherCents: String(otherCents), totalCostCents: String(cost.totalCents),
+        costPerGallonCents: cost.costPerGallonCents === null ? null : String(cost.costPerGallonCents),
       },
+      { where: { id, coopId }, transaction: t },
     );
     await audit({ coopId, actorUserId: actor.user.id, action: 'batch.release', entityType: 'batch', entityId: id, before: { status: row.status }, after }, t);
   });
@@ -179,25 +176,26 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
  */
 export async function rejectBatch(actor: Actor, id: number, reason: string): Promise<BatchDto> {
   const coopId = actor.coop.id;
-  await sequelize.transaction(async (t) => {
-    const row = await loadBatchRow(coopId, id, t, true);
+  await inTransaction(async (t) => {
+    const row = await loadBatch(coopId, id, t, true);
     if (row.status === 'released' || row.status === 'rejected') throw conflict(`Batch ${row.number} is already ${row.status}.`);
-    let costs: Record<string, number | null> = {};
+    // Once the reaction has started its chemicals are gone: they and the other costs stay on the batch.
+    let costs: Partial<Pick<BatchCreation, 'costMethanolCents' | 'costCatalystCents' | 'costEnergyCents' | 'costFeedstockCents' | 'costOtherCents' | 'totalCostCents'>> = {};
     if (row.status !== 'planned') {
       const used = await consumeChemicals(t, coopId, id, needsOf(row), true);
       const energy = energyCentsOf(row) ?? 0;
-      const feedstock = row.feedstock_cents_override !== null ? Number(row.feedstock_cents_override) : await feedstockFromLots(t, coopId, id);
-      const cost = batchCost({ chemicalsCents: used.methanol.costCents + used[row.catalyst].costCents, energyCents: energy, feedstockCents: feedstock, otherCents: Number(row.other_cents), gallonsReleased: 0 });
+      const feedstock = await feedstockCentsOf(t, coopId, row);
+      const other = Number(row.otherCents);
+      const cost = batchCost({ chemicalsCents: used.methanol.costCents + used[row.catalyst].costCents, energyCents: energy, feedstockCents: feedstock, otherCents: other, gallonsReleased: 0 });
       costs = {
-        cost_methanol_cents: used.methanol.costCents, cost_catalyst_cents: used[row.catalyst].costCents, cost_energy_cents: energy,
-        cost_feedstock_cents: feedstock, cost_other_cents: Number(row.other_cents), total_cost_cents: cost.totalCents,
+        costMethanolCents: String(used.methanol.costCents), costCatalystCents: String(used[row.catalyst].costCents), costEnergyCents: String(energy),
+        costFeedstockCents: String(feedstock), costOtherCents: String(other), totalCostCents: String(cost.totalCents),
       };
     }
-    const sets = Object.keys(costs).map((k) => `${k} = :${k}`).join(', ');
-    await sequelize.query(
-      `UPDATE batches SET status = 'rejected', status_changed_at = now(), rejected_at = now(), reject_reason = :reason${sets ? `, ${sets}` : ''}, updated_at = now()
-        WHERE id = :id AND coop_id = :coopId`,
-      { replacements: { reason, id, coopId, ...costs }, transaction: t },
+    const now = new Date();
+    await Batch.update(
+      { status: 'rejected', statusChangedAt: now, rejectedAt: now, rejectReason: reason, ...costs },
+      { where: { id, coopId }, transaction: t },
     );
     await audit({ coopId, actorUserId: actor.user.id, action: 'batch.reject', entityType: 'batch', entityId: id, before: { status: row.status }, after: { status: 'rejected', reason, ...costs } }, t);
   });

@@ -1,11 +1,13 @@
 import 'server-only';
+import { Op, type InferAttributes } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { sequelize } from '@/models';
-import { int, select } from './db';
+import { inTransaction } from '@/lib/db';
+import { BillingAdjustment, Invoice, InvoiceLine, Membership, User } from '@/models';
 import { assertMember } from './invoices';
 import { assertPeriodOpen, lockCoopBilling } from './locks';
-import { currentPeriod, periodToDate } from './periods';
+import { cents } from './cents';
+import { currentPeriod, dateToPeriod, periodToDate } from './periods';
 
 export interface AdjustmentDTO {
   id: number;
@@ -25,33 +27,61 @@ export interface AdjustmentDTO {
 export async function createAdjustment(actor: Actor, input: { memberId: number; amountCents: number; description: string; period?: string }): Promise<AdjustmentDTO> {
   const coopId = actor.coop.id;
   const period = input.period ?? currentPeriod(actor.coop.timezone);
-  const id = await sequelize.transaction(async (t) => {
+  const id = await inTransaction(async (t) => {
     await lockCoopBilling(t, coopId);
     await assertMember(coopId, input.memberId, t);
     await assertPeriodOpen(coopId, periodToDate(period), t);
-    const [row] = await select<{ id: number }>(
-      `INSERT INTO billing_adjustments (coop_id, membership_id, amount_cents, description, period, created_by_user_id)
-       VALUES ($coopId, $m, $amount, $description, $period::date, $userId) RETURNING id`,
-      { coopId, m: input.memberId, amount: input.amountCents, description: input.description, period: periodToDate(period), userId: actor.user.id },
-      t,
+    const row = await BillingAdjustment.create(
+      { coopId, membershipId: input.memberId, amountCents: input.amountCents, description: input.description, period: periodToDate(period), createdByUserId: actor.user.id },
+      { transaction: t },
     );
-    await audit({ coopId, actorUserId: actor.user.id, action: 'billing.adjustment.create', entityType: 'billing_adjustment', entityId: row!.id, after: { ...input, period } }, t);
-    return row!.id;
+    await audit({ coopId, actorUserId: actor.user.id, action: 'billing.adjustment.create', entityType: 'billing_adjustment', entityId: row.id, after: { ...input, period } }, t);
+    return row.id;
   });
   const [a] = await listAdjustments(coopId, { id });
   return a!;
 }
 
-/** Adjustments of the co-op; by default only those not billed yet. */
+/** An adjustment as listed: its columns, the member's name and the month of the issued invoice that billed it. */
+type AdjustmentListRow = Pick<InferAttributes<BillingAdjustment>, 'id' | 'membershipId' | 'amountCents' | 'description' | 'period'> & {
+  membership: { user: Pick<InferAttributes<User>, 'name'> };
+  billedLine: { id: InferAttributes<InvoiceLine>['id'] | null; invoice: Pick<InferAttributes<Invoice>, 'period'> };
+};
+
+/** Adjustments of the co-op, newest first (at most 200); by default only those not billed yet. */
 export async function listAdjustments(coopId: number, f: { id?: number; pendingOnly?: boolean } = {}): Promise<AdjustmentDTO[]> {
-  const rows = await select<{ id: number; membership_id: number; name: string; amount_cents: string; description: string; period: string; billed_on: string | null }>(
-    `SELECT a.id, a.membership_id, u.name, a.amount_cents, a.description, to_char(a.period, 'YYYY-MM') AS period,
-       (SELECT to_char(i.period, 'YYYY-MM') FROM invoice_lines l JOIN invoices i ON i.id = l.invoice_id WHERE l.adjustment_id = a.id AND NOT l.released AND i.status <> 'draft' LIMIT 1) AS billed_on
-     FROM billing_adjustments a JOIN memberships m ON m.id = a.membership_id JOIN users u ON u.id = m.user_id
-     WHERE a.coop_id = $coopId ${f.id ? 'AND a.id = $id' : ''}
-       ${f.pendingOnly ? "AND NOT EXISTS (SELECT 1 FROM invoice_lines l JOIN invoices i ON i.id = l.invoice_id WHERE l.adjustment_id = a.id AND NOT l.released AND i.status <> 'draft')" : ''}
-     ORDER BY a.id DESC LIMIT 200`,
-    { coopId, id: f.id },
-  );
-  return rows.map((r) => ({ id: r.id, memberId: r.membership_id, memberName: r.name, amountCents: int(r.amount_cents), description: r.description, period: r.period, billedOn: r.billed_on }));
+  const rows = (await BillingAdjustment.findAll({
+    attributes: ['id', 'membershipId', 'amountCents', 'description', 'period'],
+    where: {
+      coopId,
+      ...(f.id ? { id: f.id } : {}),
+      // Not billed: no unreleased line of an issued invoice names it (a draft's line does not count).
+      ...(f.pendingOnly ? { '$billedLine.id$': null } : {}),
+    },
+    include: [
+      { model: Membership, as: 'membership', attributes: [], required: true, include: [{ model: User, as: 'user', attributes: ['name'], required: true }] },
+      {
+        model: InvoiceLine,
+        as: 'billedLine',
+        attributes: ['id'],
+        required: false,
+        where: { released: false },
+        include: [{ model: Invoice, as: 'invoice', attributes: ['period'], required: true, where: { status: { [Op.ne]: 'draft' } } }],
+      },
+    ],
+    order: [['id', 'DESC']],
+    limit: 200,
+    subQuery: false,
+    raw: true,
+    nest: true,
+  })) as unknown as AdjustmentListRow[];
+  return rows.map((r) => ({
+    id: r.id,
+    memberId: r.membershipId,
+    memberName: r.membership.user.name,
+    amountCents: cents(r.amountCents),
+    description: r.description,
+    period: dateToPeriod(r.period),
+    billedOn: r.billedLine.id === null ? null : dateToPeriod(r.billedLine.invoice.period),
+  }));
 }

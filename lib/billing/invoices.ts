@@ -1,6 +1,5 @@
 import 'server-only';
 import { col, fn, literal, Op, type Includeable, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
-import { statement } from '@/lib/db';
 import { HttpError, notFound } from '@/lib/http';
 import { BillingPeriod, BillingRun, Coop, Invoice, InvoiceLine, MemberCredit, Membership, Payment, PaymentAttempt, User } from '@/models';
 import { cents } from './cents';
@@ -8,7 +7,7 @@ import { isPeriodClosed } from './locks';
 import { invoiceLabel, periodToDate, todayIn } from './periods';
 import { latestRun, type RunDTO } from './run';
 import type { EmailStatus, InvoiceDetail, InvoiceStatus, InvoiceSummary, MemberBalance, PageOf } from './types';
-import { listPaymentsWhere } from './payments-read';
+import { paymentsOfInvoice } from './payments-read';
 
 type InvoiceWhere = WhereOptions<InferAttributes<Invoice>>;
 
@@ -128,7 +127,7 @@ export async function getInvoiceDetail(coopId: number, id: number, opts: { membe
       order: [['sortKey', 'ASC'], ['id', 'ASC']],
       raw: true,
     }),
-    listPaymentsWhere(coopId, 'p.invoice_id = $invoiceId', { invoiceId: id }),
+    paymentsOfInvoice(coopId, id),
     PaymentAttempt.findOne({ where: { invoiceId: id, coopId, status: 'pending' }, attributes: ['id', 'createdAt'], raw: true }),
     PaymentAttempt.findOne({ where: { invoiceId: id, coopId, status: 'failed' }, attributes: ['failureMessage', 'completedAt'], order: [['id', 'DESC']], raw: true }),
     PaymentAttempt.count({ where: { invoiceId: id, coopId, status: 'succeeded' } }),
@@ -297,58 +296,4 @@ export async function listMembersForBilling(coopId: number): Promise<{ id: numbe
 export async function assertMember(coopId: number, membershipId: number, t?: Transaction): Promise<void> {
   const m = await Membership.findOne({ where: { id: membershipId, coopId }, attributes: ['id'], transaction: t });
   if (!m) throw new HttpError(422, 'Some fields need attention.', { memberId: ['Choose a member of this co-op.'] });
-}
-
-// ── Kept only until lib/overview and lib/billing/reconciliation (other helpers' files) move to
-// the model reads above; nothing in this file uses them. Delete after the merge. ──
-
-/** @deprecated use {@link memberBalance}. Outstanding, credit and unmatched money of one member. */
-export const MEMBER_BALANCE = statement(
-  `SELECT
-     (SELECT COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)), 0) FROM invoices
-       WHERE coop_id = $1 AND membership_id = $2 AND kind = 'invoice' AND status IN ('issued','partly-paid')) AS outstanding,
-     (SELECT COALESCE(SUM(amount_cents), 0) FROM member_credits WHERE coop_id = $1 AND membership_id = $2) AS credit,
-     (SELECT COALESCE(SUM(unallocated_cents), 0) FROM payments WHERE coop_id = $1 AND membership_id = $2) AS unallocated`,
-  'tv_member_balance',
-);
-
-/** A member's balance from three sums (cents as strings or numbers). */
-export function memberBalanceOf(r: { outstanding: string | number; credit: string | number; unallocated: string | number } | undefined): MemberBalance {
-  return { outstandingCents: cents(r?.outstanding), creditCents: cents(r?.credit), unallocatedCents: cents(r?.unallocated) };
-}
-
-/** @deprecated use {@link listInvoices}. */
-export interface InvoiceRow {
-  id: number; kind: 'invoice' | 'credit-note'; number: number | null; status: InvoiceStatus; period: string; membership_id: number;
-  member_name: string; member_email: string; total_cents: string; paid_cents: string; issued_at: Date | null; due_on: string | null;
-  email_status: EmailStatus; credit_note_for_id: number | null; credit_note_id: number | null; credit_note_number: number | null;
-  original_number: number | null; void_reason: string | null; voided_at: Date | null; emailed_at: Date | null; email_attempts: number;
-  today: string;
-}
-
-/** @deprecated use {@link listInvoices}. */
-export const INVOICE_SELECT = `
-  SELECT i.id, i.kind, i.number, i.status, to_char(i.period, 'YYYY-MM') AS period, i.membership_id, u.name AS member_name, u.email AS member_email,
-         i.total_cents, i.paid_cents, i.issued_at, to_char(i.due_on, 'YYYY-MM-DD') AS due_on, i.email_status, i.credit_note_for_id,
-         cn.id AS credit_note_id, cn.number AS credit_note_number, orig.number AS original_number, i.void_reason, i.voided_at,
-         i.emailed_at, i.email_attempts, to_char(now() AT TIME ZONE c.timezone, 'YYYY-MM-DD') AS today
-  FROM invoices i
-  JOIN coops c ON c.id = i.coop_id
-  JOIN memberships m ON m.id = i.membership_id
-  JOIN users u ON u.id = m.user_id
-  LEFT JOIN invoices cn ON cn.credit_note_for_id = i.id
-  LEFT JOIN invoices orig ON orig.id = i.credit_note_for_id`;
-
-/** @deprecated use {@link listInvoices}. */
-export function toSummary(r: InvoiceRow): InvoiceSummary {
-  const total = cents(r.total_cents);
-  const paid = cents(r.paid_cents);
-  const open = r.kind === 'invoice' && OPEN_STATUSES.includes(r.status);
-  const outstanding = open ? Math.max(total - paid, 0) : 0;
-  return {
-    id: r.id, kind: r.kind, number: r.number, label: invoiceLabel(r.kind, r.number), status: r.status, period: r.period, memberId: r.membership_id,
-    memberName: r.member_name, memberEmail: r.member_email, totalCents: total, paidCents: paid, outstandingCents: outstanding,
-    issuedAt: r.issued_at ? new Date(r.issued_at).toISOString() : null, dueOn: r.due_on,
-    overdue: outstanding > 0 && r.due_on !== null && r.due_on < r.today, emailStatus: r.email_status, creditNoteForId: r.credit_note_for_id, creditNoteId: r.credit_note_id,
-  };
 }

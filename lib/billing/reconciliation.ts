@@ -1,14 +1,15 @@
 import 'server-only';
-import type { Transaction } from 'sequelize';
+import { Op, type AggregateOptions, type FindOptions, type InferAttributes, type Model, type Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
+import { inTransaction } from '@/lib/db';
 import { conflict } from '@/lib/http';
-import { sequelize } from '@/models';
-import { exec, int, select } from './db';
-import { INVOICE_SELECT, toSummary, type InvoiceRow } from './invoices';
+import { BillingPeriod, BillingRun, Coop, Invoice, InvoiceLine, Payment, PaymentAttempt, Refund, User } from '@/models';
+import { listInvoices } from './invoices';
 import { lockCoopBilling, periodBounds } from './locks';
-import { listPaymentsWhere } from './payments-read';
-import { currentPeriod, periodLabel, periodToDate } from './periods';
+import { findPayments, readTogether } from './payments-read';
+import { currentPeriod, periodLabel, periodToDate, shiftPeriod } from './periods';
+import { periodInvoiceTotals, periodPaymentTotals, unbilledDrawTotals } from './queries/payments';
 import type { InvoiceSummary, PaymentDTO } from './types';
 
 export interface ReconciliationCheck {
@@ -53,132 +54,132 @@ export interface Reconciliation {
   blockers: string[];
 }
 
-/**
- * The month's books side by side: invoices with what is due, paid and outstanding; money
- * received that month and where it went; what is unmatched or still in flight; and identity
- * checks that must hold (each shows both sides so a difference is visible).
- */
-export async function getReconciliation(coopId: number, period: string, t?: Transaction): Promise<Reconciliation> {
-  const periodDate = periodToDate(period);
-  const b = { coopId, period: periodDate };
-  const rows = (await select<InvoiceRow>(`${INVOICE_SELECT} WHERE i.coop_id = $coopId AND i.period = $period::date AND i.status <> 'draft' ORDER BY i.number`, b, t)).map(toSummary);
-  const [inv] = await select<Record<string, string>>(
-    `SELECT
-       count(*) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')) AS issued,
-       count(*) FILTER (WHERE status = 'draft') AS drafts,
-       COALESCE(SUM(total_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS invoiced,
-       COALESCE(SUM(GREATEST(total_cents, 0)) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS invoiced_positive,
-       COALESCE(SUM(total_cents) FILTER (WHERE kind = 'credit-note'), 0) AS credit_notes,
-       COALESCE(SUM(paid_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')), 0) AS paid,
-       COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)) FILTER (WHERE kind = 'invoice' AND status IN ('issued','partly-paid')), 0) AS outstanding,
-       count(*) FILTER (WHERE kind = 'invoice' AND status IN ('issued','partly-paid')) AS unpaid
-     FROM invoices WHERE coop_id = $coopId AND period = $period::date`,
-    b,
-    t,
-  );
-  const [lines] = await select<{ s: string }>(
-    `SELECT COALESCE(SUM(l.amount_cents), 0) AS s FROM invoice_lines l JOIN invoices i ON i.id = l.invoice_id
-     WHERE i.coop_id = $coopId AND i.period = $period::date AND i.kind = 'invoice' AND i.status NOT IN ('draft','void')`,
-    b,
-    t,
-  );
-  const [pay] = await select<Record<string, string>>(
-    `SELECT COALESCE(SUM(amount_cents), 0) AS received,
-       COALESCE(SUM(amount_cents) FILTER (WHERE method = 'card'), 0) AS card,
-       COALESCE(SUM(amount_cents) FILTER (WHERE method = 'cash'), 0) AS cash,
-       COALESCE(SUM(amount_cents) FILTER (WHERE method = 'cheque'), 0) AS cheque,
-       COALESCE(SUM(applied_cents), 0) AS applied, COALESCE(SUM(credited_cents), 0) AS credited,
-       COALESCE(SUM(unallocated_cents), 0) AS unallocated, COALESCE(SUM(refunded_cents), 0) AS refunded,
-       COALESCE(SUM(p.applied_cents) FILTER (WHERE i.period <> p.period), 0) AS elsewhere
-     FROM payments p LEFT JOIN invoices i ON i.id = p.invoice_id WHERE p.coop_id = $coopId AND p.period = $period::date`,
-    b,
-    t,
-  );
-  const [appliedToMonth] = await select<{ s: string }>(
-    `SELECT COALESCE(SUM(p.applied_cents), 0) AS s FROM payments p JOIN invoices i ON i.id = p.invoice_id
-     WHERE p.coop_id = $coopId AND i.period = $period::date AND i.status <> 'void'`,
-    b,
-    t,
-  );
-  const unmatched = await listPaymentsWhere(coopId, 'p.period = $period::date AND p.unallocated_cents > 0', { period: periodDate }, t);
-  const [pending] = await select<{ attempts: number; refunds: number }>(
-    `SELECT (SELECT count(*)::int FROM payment_attempts a JOIN invoices i ON i.id = a.invoice_id WHERE a.coop_id = $coopId AND a.status = 'pending' AND i.period = $period::date) AS attempts,
-            (SELECT count(*)::int FROM refunds r JOIN payments p ON p.id = r.payment_id WHERE r.coop_id = $coopId AND r.status = 'pending' AND (p.period = $period::date OR date_trunc('month', r.refunded_on)::date = $period::date)) AS refunds`,
-    b,
-    t,
-  );
-  const [coop] = await select<{ timezone: string }>('SELECT timezone FROM coops WHERE id = $coopId', { coopId }, t);
-  const { start, end } = await periodBounds(periodDate, coop!.timezone, t);
-  const [unbilled] = await select<{ n: number; s: string }>(
-    `SELECT count(*)::int AS n, COALESCE(SUM(total_cents), 0) AS s FROM draws d
-     WHERE d.coop_id = $coopId AND d.occurred_at >= $start::timestamptz AND d.occurred_at < $end::timestamptz
-       AND NOT EXISTS (SELECT 1 FROM invoice_lines l JOIN invoices i ON i.id = l.invoice_id WHERE l.draw_id = d.id AND NOT l.released AND i.status <> 'draft')`,
-    { coopId, start, end },
-    t,
-  );
-  const [closed] = await select<{ closed_at: Date; name: string | null }>(
-    `SELECT bp.closed_at, u.name FROM billing_periods bp LEFT JOIN users u ON u.id = bp.closed_by_user_id
-     WHERE bp.coop_id = $coopId AND bp.period = $period::date AND bp.status = 'closed'`,
-    b,
-    t,
-  );
-  const [running] = await select<{ n: number }>("SELECT count(*)::int AS n FROM billing_runs WHERE coop_id = $coopId AND period = $period::date AND status = 'running'", b, t);
+/** Every invoice of a month on one page (a co-op bills a few hundred members). */
+const ALL_ROWS = Number.MAX_SAFE_INTEGER;
 
-  const monthOver = period < currentPeriod(coop!.timezone);
-  const received = int(pay?.received);
-  const parts = int(pay?.applied) + int(pay?.credited) + int(pay?.unallocated) + int(pay?.refunded);
+/** `Model.sum` joins an `include` as findAll does, though its TypeScript options leave it out. */
+type SumOptions<M extends Model> = AggregateOptions<unknown, InferAttributes<M>> & Pick<FindOptions<InferAttributes<M>>, 'include'>;
+
+/** The reconciliation without its invoice rows: what closing a month decides on. */
+type Books = Omit<Reconciliation, 'invoices'> & { invoices: Omit<Reconciliation['invoices'], 'rows'> };
+
+/**
+ * The month's totals, checks and blockers (read inside the caller's transaction when it has one:
+ * closing reads them under the co-op's billing lock).
+ */
+async function readBooks(coopId: number, period: string, t?: Transaction): Promise<Books> {
+  const periodDate = periodToDate(period);
+  const nextPeriodDate = periodToDate(shiftPeriod(period, 1));
+  // The lines of the month's issued invoices, and the payments applied to its invoices (any month's money).
+  const issuedLinesOf: SumOptions<InvoiceLine> = {
+    where: { coopId },
+    include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate, kind: 'invoice', status: { [Op.notIn]: ['draft', 'void'] } } }],
+    transaction: t,
+  };
+  const appliedToInvoicesOf: SumOptions<Payment> = {
+    where: { coopId },
+    include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate, status: { [Op.ne]: 'void' } } }],
+    transaction: t,
+  };
+  const [inv, pay, linesCents, appliedToMonthCents, unmatched, pendingAttempts, pendingRefunds, coop, closed, running] = await readTogether(t, [
+    () => periodInvoiceTotals(coopId, periodDate, t),
+    () => periodPaymentTotals(coopId, periodDate, t),
+    () => InvoiceLine.sum('amountCents', issuedLinesOf),
+    () => Payment.sum('appliedCents', appliedToInvoicesOf),
+    () => findPayments(coopId, { period: periodDate, unallocatedCents: { [Op.gt]: 0 } }, t),
+    () => PaymentAttempt.count({
+      where: { coopId, status: 'pending' },
+      include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate } }],
+      transaction: t,
+    }),
+    // A pending refund holds the month it gives money back from, and the month it was made in.
+    () => Refund.count({
+      where: {
+        coopId,
+        status: 'pending',
+        [Op.or]: [{ '$payment.period$': periodDate }, { refundedOn: { [Op.gte]: periodDate, [Op.lt]: nextPeriodDate } }],
+      },
+      include: [{ model: Payment, as: 'payment', attributes: [], required: true }],
+      transaction: t,
+    }),
+    () => Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, rejectOnEmpty: true, transaction: t }),
+    () => BillingPeriod.findOne({ attributes: ['closedAt', 'closedByUserId'], where: { coopId, period: periodDate, status: 'closed' }, raw: true, transaction: t }),
+    () => BillingRun.count({ where: { coopId, period: periodDate, status: 'running' }, transaction: t }),
+  ]);
+  const { start, end } = await periodBounds(periodDate, coop.timezone, t);
+  const [unbilledDraws, closedBy] = await readTogether(t, [
+    () => unbilledDrawTotals(coopId, start, end, t),
+    async () => (closed?.closedByUserId ? User.findByPk(closed.closedByUserId, { attributes: ['name'], raw: true, transaction: t }) : null),
+  ]);
+
+  const monthOver = period < currentPeriod(coop.timezone);
+  const lines = linesCents ?? 0;
+  const appliedToMonth = appliedToMonthCents ?? 0;
+  const parts = pay.appliedCents + pay.creditedCents + pay.unallocatedCents + pay.refundedCents;
   const checks: ReconciliationCheck[] = [
-    { label: 'Invoice totals equal the sum of their lines', leftCents: int(inv?.invoiced), rightCents: int(lines?.s), ok: int(inv?.invoiced) === int(lines?.s) },
+    { label: 'Invoice totals equal the sum of their lines', leftCents: inv.invoicedCents, rightCents: lines, ok: inv.invoicedCents === lines },
     {
       label: 'Amount invoiced = paid + outstanding',
-      leftCents: int(inv?.invoiced_positive),
-      rightCents: int(inv?.paid) + int(inv?.outstanding),
-      ok: int(inv?.invoiced_positive) === int(inv?.paid) + int(inv?.outstanding),
+      leftCents: inv.invoicedPositiveCents,
+      rightCents: inv.paidCents + inv.outstandingCents,
+      ok: inv.invoicedPositiveCents === inv.paidCents + inv.outstandingCents,
     },
-    { label: 'Paid on these invoices = payments applied to them', leftCents: int(inv?.paid), rightCents: int(appliedToMonth?.s), ok: int(inv?.paid) === int(appliedToMonth?.s) },
-    { label: 'Money received = applied + held as credit + unmatched + refunded', leftCents: received, rightCents: parts, ok: received === parts },
+    { label: 'Paid on these invoices = payments applied to them', leftCents: inv.paidCents, rightCents: appliedToMonth, ok: inv.paidCents === appliedToMonth },
+    { label: 'Money received = applied + held as credit + unmatched + refunded', leftCents: pay.receivedCents, rightCents: parts, ok: pay.receivedCents === parts },
   ];
   const blockers: string[] = [];
   if (!monthOver) blockers.push(`${periodLabel(period)} is not over yet.`);
-  if (int(running?.n) > 0) blockers.push('An invoicing run is still working on this month.');
-  if (int(inv?.drafts) > 0) blockers.push(`${int(inv?.drafts)} draft invoice(s) are not issued yet.`);
+  if (running > 0) blockers.push('An invoicing run is still working on this month.');
+  if (inv.drafts > 0) blockers.push(`${inv.drafts} draft invoice(s) are not issued yet.`);
   if (unmatched.length > 0) blockers.push(`${unmatched.length} payment(s) received this month are not matched to an invoice or to credit.`);
-  if (int(pending?.attempts) > 0) blockers.push(`${int(pending?.attempts)} card payment(s) are still waiting for the payment service.`);
-  if (int(pending?.refunds) > 0) blockers.push(`${int(pending?.refunds)} card refund(s) are still waiting for the payment service.`);
+  if (pendingAttempts > 0) blockers.push(`${pendingAttempts} card payment(s) are still waiting for the payment service.`);
+  if (pendingRefunds > 0) blockers.push(`${pendingRefunds} card refund(s) are still waiting for the payment service.`);
   if (checks.some((c) => !c.ok)) blockers.push('A reconciliation check does not balance.');
 
   return {
     period,
     closed: Boolean(closed),
-    closedAt: closed ? new Date(closed.closed_at).toISOString() : null,
-    closedBy: closed?.name ?? null,
+    closedAt: closed?.closedAt ? new Date(closed.closedAt).toISOString() : null,
+    closedBy: closedBy?.name ?? null,
     monthOver,
     invoices: {
-      rows,
-      issuedCount: int(inv?.issued),
-      draftCount: int(inv?.drafts),
-      invoicedCents: int(inv?.invoiced),
-      creditNotesCents: int(inv?.credit_notes),
-      paidCents: int(inv?.paid),
-      outstandingCents: int(inv?.outstanding),
-      unpaidCount: int(inv?.unpaid),
+      issuedCount: inv.issued,
+      draftCount: inv.drafts,
+      invoicedCents: inv.invoicedCents,
+      creditNotesCents: inv.creditNotesCents,
+      paidCents: inv.paidCents,
+      outstandingCents: inv.outstandingCents,
+      unpaidCount: inv.unpaid,
     },
     payments: {
-      receivedCents: received,
-      byMethod: { card: int(pay?.card), cash: int(pay?.cash), cheque: int(pay?.cheque) },
-      appliedCents: int(pay?.applied),
-      creditedCents: int(pay?.credited),
-      unallocatedCents: int(pay?.unallocated),
-      refundedCents: int(pay?.refunded),
-      appliedElsewhereCents: int(pay?.elsewhere),
+      receivedCents: pay.receivedCents,
+      byMethod: pay.byMethod,
+      appliedCents: pay.appliedCents,
+      creditedCents: pay.creditedCents,
+      unallocatedCents: pay.unallocatedCents,
+      refundedCents: pay.refundedCents,
+      appliedElsewhereCents: pay.appliedElsewhereCents,
       unmatched,
     },
-    pendingCardAttempts: int(pending?.attempts),
-    pendingRefunds: int(pending?.refunds),
-    unbilledDraws: { count: int(unbilled?.n), totalCents: int(unbilled?.s) },
+    pendingCardAttempts: pendingAttempts,
+    pendingRefunds,
+    unbilledDraws,
     checks,
     blockers: closed ? [] : blockers,
   };
+}
+
+/**
+ * The month's books side by side: invoices with what is due, paid and outstanding; money
+ * received that month and where it went; what is unmatched or still in flight; and identity
+ * checks that must hold (each shows both sides so a difference is visible).
+ */
+export async function getReconciliation(coopId: number, period: string): Promise<Reconciliation> {
+  const [books, invoices] = await Promise.all([
+    readBooks(coopId, period),
+    listInvoices(coopId, { period, page: 1, pageSize: ALL_ROWS, sort: 'number', dir: 'asc' }),
+  ]);
+  return { ...books, invoices: { rows: invoices.rows, ...books.invoices } };
 }
 
 /**
@@ -190,26 +191,24 @@ export async function getReconciliation(coopId: number, period: string, t?: Tran
 export async function closePeriod(actor: Actor, period: string): Promise<Reconciliation> {
   const coopId = actor.coop.id;
   const periodDate = periodToDate(period);
-  await sequelize.transaction(async (t) => {
+  await inTransaction(async (t) => {
     await lockCoopBilling(t, coopId);
-    const recon = await getReconciliation(coopId, period, t);
-    if (recon.closed) throw conflict(`${periodLabel(period)} is already closed.`, { code: 'period-closed' });
-    if (recon.blockers.length) throw conflict(`${periodLabel(period)} cannot be closed yet.`, { blockers: recon.blockers });
+    const books = await readBooks(coopId, period, t);
+    if (books.closed) throw conflict(`${periodLabel(period)} is already closed.`, { code: 'period-closed' });
+    if (books.blockers.length) throw conflict(`${periodLabel(period)} cannot be closed yet.`, { blockers: books.blockers });
     const summary = {
-      invoicedCents: recon.invoices.invoicedCents,
-      paidCents: recon.invoices.paidCents,
-      outstandingCents: recon.invoices.outstandingCents,
-      creditNotesCents: recon.invoices.creditNotesCents,
-      receivedCents: recon.payments.receivedCents,
-      refundedCents: recon.payments.refundedCents,
-      unbilledDraws: recon.unbilledDraws.count,
+      invoicedCents: books.invoices.invoicedCents,
+      paidCents: books.invoices.paidCents,
+      outstandingCents: books.invoices.outstandingCents,
+      creditNotesCents: books.invoices.creditNotesCents,
+      receivedCents: books.payments.receivedCents,
+      refundedCents: books.payments.refundedCents,
+      unbilledDraws: books.unbilledDraws.count,
     };
-    await exec(
-      `INSERT INTO billing_periods (coop_id, period, status, closed_at, closed_by_user_id, summary) VALUES ($coopId, $period::date, 'closed', now(), $userId, $summary::jsonb)
-       ON CONFLICT (coop_id, period) DO UPDATE SET status = 'closed', closed_at = now(), closed_by_user_id = $userId, summary = $summary::jsonb, updated_at = now()`,
-      { coopId, period: periodDate, userId: actor.user.id, summary: JSON.stringify(summary) },
-      t,
-    );
+    // The month's row may exist already (open); under the billing lock, update it or create it.
+    const closing = { status: 'closed' as const, closedAt: new Date(), closedByUserId: actor.user.id, summary: summary as BillingPeriod['summary'] };
+    const [updated] = await BillingPeriod.update(closing, { where: { coopId, period: periodDate }, transaction: t });
+    if (updated === 0) await BillingPeriod.create({ coopId, period: periodDate, ...closing }, { transaction: t });
     await audit({ coopId, actorUserId: actor.user.id, action: 'billing.period.close', entityType: 'billing_period', entityId: period, before: { status: 'open' }, after: { status: 'closed', ...summary } }, t);
   });
   return getReconciliation(coopId, period);

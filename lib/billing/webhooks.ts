@@ -1,9 +1,10 @@
 import 'server-only';
+import type { Transaction } from 'sequelize';
+import { inTransaction } from '@/lib/db';
 import { HttpError } from '@/lib/http';
 import { verifyWebhook, type ProviderEvent } from '@/lib/payments';
-import { sequelize } from '@/models';
+import { Coop, PaymentWebhookEvent } from '@/models';
 import { completeAttemptSucceeded, markAttemptFailed } from './card';
-import { exec, select } from './db';
 import { lockCoopBilling } from './locks';
 import { confirmRefund } from './payments';
 
@@ -28,24 +29,25 @@ export async function receiveWebhook(rawBody: string, signature: string | null):
     throw new HttpError(400, 'The webhook body is not JSON.');
   }
   const named = positiveInt(event.charge?.metadata.coop_id);
-  const [coop] = named ? await select<{ id: number }>('SELECT id FROM coops WHERE id = $id', { id: named }) : [];
+  const coop = named ? await Coop.findByPk(named, { attributes: ['id'], raw: true }) : null;
   const coopId = coop?.id ?? null;
 
-  return sequelize.transaction(async (t) => {
-    const [stored] = await select<{ id: string }>(
-      `INSERT INTO payment_webhook_events (stripe_event_id, type, coop_id, object_id, outcome, payload)
-       VALUES ($eventId, $type, $coopId, $objectId, 'received', $payload::jsonb) ON CONFLICT (stripe_event_id) DO NOTHING RETURNING id`,
-      { eventId: event.id, type: event.type, coopId, objectId: event.charge?.id ?? null, payload: JSON.stringify(payload) },
-      t,
-    );
-    if (!stored) return { received: true as const, duplicate: true, outcome: 'duplicate' };
+  return inTransaction(async (t) => {
+    // The event id is UNIQUE: a repeat (even one arriving while this one is being applied, which
+    // waits on the index and then finds the committed row) is acknowledged and ignored.
+    const [stored, created] = await PaymentWebhookEvent.findOrCreate({
+      where: { stripeEventId: event.id },
+      defaults: { stripeEventId: event.id, type: event.type, coopId, objectId: event.charge?.id ?? null, outcome: 'received', payload },
+      transaction: t,
+    });
+    if (!created) return { received: true as const, duplicate: true, outcome: 'duplicate' };
     const outcome = coopId ? await apply(event, coopId, t) : 'ignored';
-    await exec('UPDATE payment_webhook_events SET outcome = $outcome WHERE id = $id', { outcome, id: stored.id }, t);
+    await stored.update({ outcome }, { transaction: t });
     return { received: true as const, duplicate: false, outcome };
   });
 }
 
-async function apply(event: ProviderEvent, coopId: number, t: Parameters<typeof completeAttemptSucceeded>[0]): Promise<string> {
+async function apply(event: ProviderEvent, coopId: number, t: Transaction): Promise<string> {
   const charge = event.charge;
   if (!charge) return 'ignored';
   const attemptId = positiveInt(charge.metadata.payment_attempt_id);

@@ -18,10 +18,11 @@ export type PricingPolicy = (
 export type PricingPolicyKind = PricingPolicy['kind'];
 
 /** What the member declares the fuel is for; road-fuel tax applies to 'road' only. */
-export type DeclaredUse = 'road' | 'off-road' | 'heating';
+import type { DeclaredUse } from '@/models/vocabulary';
+export type { DeclaredUse };
 
 /** All declared uses, e.g. for a select. */
-export const DECLARED_USES: readonly DeclaredUse[] = ['road', 'off-road', 'heating'];
+export { DECLARED_USES } from '@/models/vocabulary';
 
 /**
  * Per-gallon price breakdown, cents per gallon. `baseCents` is always whole cents; the

@@ -1,11 +1,10 @@
 import 'server-only';
-import { QueryTypes } from 'sequelize';
 import type { z } from 'zod';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
-import { sequelize } from '@/lib/db';
 import { policyInForce } from '@/lib/pricing-policy';
 import type { quarterQuerySchema } from '@/lib/validation/reports';
+import { quarterMonths } from './queries';
 
 export const REPORT_DISCLAIMER =
   'This report records facts kept in Tallyvat. Road-fuel tax and registration rules vary by country, state and city; ' +
@@ -48,53 +47,27 @@ export interface QuarterlyReport {
  * Fuel produced, released into tanks and drawn by declared use (road / off-road / heating),
  * per month of a calendar quarter in the co-op's time zone, with road-fuel tax collected on
  * road draws. Reversing draws count negatively in the month they were entered. All sums are
- * SQL aggregates.
+ * SQL aggregates ({@link quarterMonths}).
+ *
+ * Produced = the finished fuel of batches completed in the month: the volume of batches released
+ * then (by their release time). A rejected batch records no fuel volume (the batches table keeps
+ * released_liters for released batches only), so it adds nothing. "Released" is every release
+ * movement into a tank, so the two differ when fuel enters a tank other than from a batch record.
  */
 export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarterQuerySchema>): Promise<QuarterlyReport> {
   requireCan(actor, 'reports:read');
   const startMonth = (q.quarter - 1) * 3 + 1;
   const start = `${q.year}-${String(startMonth).padStart(2, '0')}-01`;
-  const rows = await sequelize.query<{
-    month: string; produced: string; released: string; road: string; off_road: string; heating: string; road_tax: string; draws: string;
-  }>(
-    `WITH months AS (
-       SELECT generate_series(CAST(:start AS date), CAST(:start AS date) + interval '2 months', interval '1 month')::date AS m
-     ), bounds AS (
-       SELECT m, (m::timestamp AT TIME ZONE :tz) AS lo, ((m + interval '1 month')::timestamp AT TIME ZONE :tz) AS hi FROM months
-     ),
-     rel AS (
-       SELECT b.m, COALESCE(SUM(t.quantity_liters), 0) AS released
-       FROM bounds b LEFT JOIN tank_movements t ON t.coop_id = :coopId AND t.kind = 'release' AND t.occurred_at >= b.lo AND t.occurred_at < b.hi
-       GROUP BY b.m
-     ),
-     prod AS (
-       SELECT b.m, COALESCE(SUM(x.released_liters), 0) AS produced
-       FROM bounds b LEFT JOIN batches x ON x.coop_id = :coopId AND x.status = 'released' AND x.released_at >= b.lo AND x.released_at < b.hi
-       GROUP BY b.m
-     ),
-     dr AS (
-       SELECT b.m,
-         COALESCE(SUM(d.quantity_liters) FILTER (WHERE d.declared_use = 'road'), 0) AS road,
-         COALESCE(SUM(d.quantity_liters) FILTER (WHERE d.declared_use = 'off-road'), 0) AS off_road,
-         COALESCE(SUM(d.quantity_liters) FILTER (WHERE d.declared_use = 'heating'), 0) AS heating,
-         COALESCE(SUM(d.tax_cents) FILTER (WHERE d.declared_use = 'road'), 0) AS road_tax,
-         COUNT(d.id) FILTER (WHERE d.reverses_draw_id IS NULL) - COUNT(d.id) FILTER (WHERE d.reverses_draw_id IS NOT NULL) AS draws
-       FROM bounds b LEFT JOIN draws d ON d.coop_id = :coopId AND d.occurred_at >= b.lo AND d.occurred_at < b.hi
-       GROUP BY b.m
-     )
-     SELECT to_char(b.m, 'YYYY-MM') AS month, ${PRODUCED_SQL} AS produced, rel.released, dr.road, dr.off_road, dr.heating, dr.road_tax, dr.draws
-     FROM bounds b JOIN rel ON rel.m = b.m JOIN prod ON prod.m = b.m JOIN dr ON dr.m = b.m ORDER BY b.m`,
-    { replacements: { coopId: actor.coop.id, tz: actor.coop.timezone, start }, type: QueryTypes.SELECT },
-  );
+  const [rows, policy] = await Promise.all([quarterMonths(actor.coop.id, actor.coop.timezone, start), policyInForce(actor.coop.id)]);
   const months = rows.map<VolumeRow>((r) => ({
     period: r.month,
     producedLiters: fixed(r.produced),
     releasedLiters: fixed(r.released),
     drawnRoadLiters: fixed(r.road),
-    drawnOffRoadLiters: fixed(r.off_road),
+    drawnOffRoadLiters: fixed(r.offRoad),
     drawnHeatingLiters: fixed(r.heating),
-    drawnTotalLiters: fixed(Number(r.road) + Number(r.off_road) + Number(r.heating)),
-    roadTaxCents: Number(r.road_tax),
+    drawnTotalLiters: fixed(Number(r.road) + Number(r.offRoad) + Number(r.heating)),
+    roadTaxCents: Number(r.roadTax),
     draws: Number(r.draws),
   }));
   const sum = (k: keyof VolumeRow) => fixed(months.reduce((a, m) => a + Math.round(Number(m[k]) * 1000), 0) / 1000);
@@ -109,7 +82,6 @@ export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarter
     roadTaxCents: months.reduce((a, m) => a + m.roadTaxCents, 0),
     draws: months.reduce((a, m) => a + m.draws, 0),
   };
-  const policy = await policyInForce(actor.coop.id);
   return {
     coop: { name: actor.coop.name, units: actor.coop.units, timezone: actor.coop.timezone },
     year: q.year,
@@ -120,13 +92,5 @@ export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarter
     disclaimer: REPORT_DISCLAIMER,
   };
 }
-
-/**
- * Produced = the finished fuel of batches completed in the month: the volume of batches released
- * then (by their release time). A rejected batch records no fuel volume (the batches table keeps
- * released_liters for released batches only), so it adds nothing. "Released" is every release
- * movement into a tank, so the two differ when fuel enters a tank other than from a batch record.
- */
-const PRODUCED_SQL = 'prod.produced';
 
 const fixed = (v: string | number) => Number(v).toFixed(3);

@@ -1,17 +1,19 @@
 import 'server-only';
-import { QueryTypes, type Transaction } from 'sequelize';
+import { col, fn, literal, Op, where, type FindAttributeOptions, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
-import { runReadPlan, statement, type ReadPlan } from '@/lib/db';
+import { inTransaction } from '@/lib/db';
 import { deleteFile, getFile, putFile } from '@/lib/storage';
 import { gallonsToLiters, volumeToLiters } from '@/lib/units';
 import type { ChemicalLotCreateInput, OilLotCreateInput } from '@/lib/validation/brewing';
-import { ChemicalLot, OilLot, sequelize } from '@/models';
+import { Batch, ChemicalLot, OilLot, Tank } from '@/models';
+import type { BatchStatus } from '@/models/Batch';
 import type { CheckedUpload } from '@/lib/batches/upload';
 import { checkLowStock } from './low-stock';
 
-export type ChemicalKind = 'methanol' | 'KOH' | 'NaOH' | 'other';
+export type { ChemicalKind } from '@/models/ChemicalLot';
+import type { ChemicalKind } from '@/models/ChemicalLot';
 
 /** A chemical lot as shown and sent: quantities in the lot's unit (L for methanol, g for catalysts). */
 export interface ChemicalLotDto {
@@ -53,25 +55,29 @@ export interface Paged<T> {
   pageSize: number;
 }
 
-interface ChemicalRow {
-  id: number; kind: ChemicalKind; description: string | null; supplier: string; received_on: string; quantity_unit: 'L' | 'g';
-  quantity: string; remaining_quantity: string; total_cost_cents: string; purity_pct: string | null; sds_file_key: string | null;
-  sds_file_name: string | null; notes: string | null; total?: string;
-}
+type ChemicalLotRow = Pick<
+  InferAttributes<ChemicalLot>,
+  'id' | 'kind' | 'description' | 'supplier' | 'receivedOn' | 'quantityUnit' | 'quantity' | 'remainingQuantity' | 'totalCostCents' |
+  'purityPct' | 'sdsFileKey' | 'sdsFileName' | 'notes'
+>;
+const CHEMICAL_ATTRIBUTES: (keyof ChemicalLotRow)[] = [
+  'id', 'kind', 'description', 'supplier', 'receivedOn', 'quantityUnit', 'quantity', 'remainingQuantity', 'totalCostCents', 'purityPct',
+  'sdsFileKey', 'sdsFileName', 'notes',
+];
 
-function chemicalDto(r: ChemicalRow): ChemicalLotDto {
+function chemicalDto(r: ChemicalLotRow): ChemicalLotDto {
   const quantity = Number(r.quantity);
-  const remaining = Number(r.remaining_quantity);
+  const remaining = Number(r.remainingQuantity);
   return {
-    id: r.id, kind: r.kind, description: r.description, supplier: r.supplier, receivedOn: r.received_on, unit: r.quantity_unit,
-    quantity, remaining, consumed: Number((quantity - remaining).toFixed(3)), totalCostCents: Number(r.total_cost_cents),
-    purityPct: r.purity_pct === null ? null : Number(r.purity_pct), hasSafetyDataSheet: Boolean(r.sds_file_key),
-    safetyDataSheetName: r.sds_file_name, notes: r.notes,
+    id: r.id, kind: r.kind, description: r.description, supplier: r.supplier, receivedOn: r.receivedOn, unit: r.quantityUnit,
+    quantity, remaining, consumed: Number((quantity - remaining).toFixed(3)), totalCostCents: Number(r.totalCostCents),
+    purityPct: r.purityPct === null ? null : Number(r.purityPct), hasSafetyDataSheet: Boolean(r.sdsFileKey),
+    safetyDataSheetName: r.sdsFileName, notes: r.notes,
   };
 }
 
-const CHEMICAL_SORT: Record<string, string> = {
-  receivedOn: 'received_on', kind: 'kind', supplier: 'lower(supplier)', remaining: 'remaining_quantity', cost: 'total_cost_cents',
+const CHEMICAL_SORT: Record<string, string | ReturnType<typeof fn>> = {
+  receivedOn: 'receivedOn', kind: 'kind', supplier: fn('lower', col('supplier')), remaining: 'remainingQuantity', cost: 'totalCostCents',
 };
 
 /**
@@ -83,35 +89,21 @@ export async function listChemicalLots(
   actor: Actor,
   q: { page: number; pageSize: number; sort: string; dir: 'asc' | 'desc'; kind?: ChemicalKind },
 ): Promise<Paged<ChemicalLotDto>> {
-  const col = CHEMICAL_SORT[q.sort] ?? 'received_on';
   const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
-  const rows = await sequelize.query<ChemicalRow>(
-    `SELECT id, kind, description, supplier, received_on, quantity_unit, quantity, remaining_quantity, total_cost_cents, purity_pct,
-            sds_file_key, sds_file_name, notes, count(*) OVER () AS total
-       FROM chemical_lots WHERE coop_id = :coopId ${q.kind ? 'AND kind = :kind' : ''}
-      ORDER BY ${col} ${dir}, id ${dir} LIMIT :limit OFFSET :offset`,
-    { replacements: { coopId: actor.coop.id, kind: q.kind ?? null, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }, type: QueryTypes.SELECT },
-  );
-  const total = rows[0] ? Number(rows[0].total) : await countWhere('chemical_lots', actor.coop.id, q.kind ? { kind: q.kind } : {});
+  const where: WhereOptions<ChemicalLot> = q.kind ? { coopId: actor.coop.id, kind: q.kind } : { coopId: actor.coop.id };
+  const [rows, total] = await Promise.all([
+    ChemicalLot.findAll({
+      attributes: CHEMICAL_ATTRIBUTES, where, raw: true,
+      order: [[CHEMICAL_SORT[q.sort] ?? 'receivedOn', dir], ['id', dir]], limit: q.pageSize, offset: (q.page - 1) * q.pageSize,
+    }),
+    ChemicalLot.count({ where }),
+  ]);
   return { rows: rows.map(chemicalDto), total, page: q.page, pageSize: q.pageSize };
-}
-
-async function countWhere(table: 'chemical_lots' | 'oil_lots', coopId: number, extra: { kind?: string }): Promise<number> {
-  const [r] = await sequelize.query<{ n: string }>(
-    `SELECT count(*) AS n FROM ${table} WHERE coop_id = :coopId ${extra.kind ? 'AND kind = :kind' : ''}`,
-    { replacements: { coopId, kind: extra.kind ?? null }, type: QueryTypes.SELECT },
-  );
-  return Number(r?.n ?? 0);
 }
 
 /** One chemical lot of the actor's co-op, or 404. */
 export async function getChemicalLot(actor: Actor, id: number): Promise<ChemicalLotDto> {
-  const [row] = await sequelize.query<ChemicalRow>(
-    `SELECT * FROM chemical_lots WHERE id = :id AND coop_id = :coopId`,
-    { replacements: { id, coopId: actor.coop.id }, type: QueryTypes.SELECT },
-  );
-  if (!row) throw notFound('Chemical lot not found.');
-  return chemicalDto(row);
+  return readChemical(actor.coop.id, id);
 }
 
 /** Converts a typed quantity to the stored unit: litres (from L or US gal) or grams (from g or kg). */
@@ -131,7 +123,7 @@ export async function createChemicalLot(actor: Actor, input: ChemicalLotCreateIn
   const stored = toStoredQuantity(input.quantity, input.unit);
   const qty = stored.quantity.toFixed(3);
   if (Number(qty) <= 0) throw new HttpError(422, 'Some fields need attention.', { quantity: ['Quantity is too small to record.'] });
-  const created = await sequelize.transaction(async (transaction) => {
+  const created = await inTransaction(async (transaction) => {
     const lot = await ChemicalLot.create(
       {
         coopId: actor.coop.id, kind: input.kind, description: input.description ?? null, supplier: input.supplier,
@@ -150,9 +142,7 @@ export async function createChemicalLot(actor: Actor, input: ChemicalLotCreateIn
 }
 
 async function readChemical(coopId: number, id: number, transaction?: Transaction): Promise<ChemicalLotDto> {
-  const [row] = await sequelize.query<ChemicalRow>(`SELECT * FROM chemical_lots WHERE id = :id AND coop_id = :coopId`, {
-    replacements: { id, coopId }, type: QueryTypes.SELECT, transaction,
-  });
+  const row = await ChemicalLot.findOne({ attributes: CHEMICAL_ATTRIBUTES, where: { id, coopId }, raw: true, transaction });
   if (!row) throw notFound('Chemical lot not found.');
   return chemicalDto(row);
 }
@@ -165,101 +155,100 @@ async function readChemical(coopId: number, id: number, transaction?: Transactio
  * @param upload a checked PDF upload
  */
 export async function attachSafetyDataSheet(actor: Actor, id: number, upload: CheckedUpload): Promise<ChemicalLotDto> {
-  await readChemical(actor.coop.id, id); // 404 before writing a file
-  const key = await putFile(actor.coop.id, upload.kind, upload.bytes);
+  const coopId = actor.coop.id;
+  await readChemical(coopId, id); // 404 before writing a file
+  const key = await putFile(coopId, upload.kind, upload.bytes);
   let previous: string | null = null;
   try {
-    const dto = await sequelize.transaction(async (transaction) => {
-      const [row] = await sequelize.query<{ sds_file_key: string | null; sds_file_name: string | null }>(
-        `SELECT sds_file_key, sds_file_name FROM chemical_lots WHERE id = :id AND coop_id = :coopId FOR UPDATE`,
-        { replacements: { id, coopId: actor.coop.id }, type: QueryTypes.SELECT, transaction },
-      );
+    const dto = await inTransaction(async (transaction) => {
+      const row = await ChemicalLot.findOne({
+        attributes: ['sdsFileKey', 'sdsFileName'], where: { id, coopId }, raw: true, lock: transaction.LOCK.UPDATE, transaction,
+      });
       if (!row) throw notFound('Chemical lot not found.');
-      previous = row.sds_file_key;
-      await sequelize.query(
-        `UPDATE chemical_lots SET sds_file_key = :key, sds_file_name = :name, updated_at = now() WHERE id = :id AND coop_id = :coopId`,
-        { replacements: { key, name: upload.name, id, coopId: actor.coop.id }, transaction },
-      );
+      previous = row.sdsFileKey;
+      await ChemicalLot.update({ sdsFileKey: key, sdsFileName: upload.name }, { where: { id, coopId }, transaction });
       await audit({
-        coopId: actor.coop.id, actorUserId: actor.user.id, action: 'chemical-lot.sds', entityType: 'chemical_lot', entityId: id,
-        before: { safetyDataSheet: row.sds_file_name }, after: { safetyDataSheet: upload.name, bytes: upload.bytes.length },
+        coopId, actorUserId: actor.user.id, action: 'chemical-lot.sds', entityType: 'chemical_lot', entityId: id,
+        before: { safetyDataSheet: row.sdsFileName }, after: { safetyDataSheet: upload.name, bytes: upload.bytes.length },
       }, transaction);
-      return readChemical(actor.coop.id, id, transaction);
+      return readChemical(coopId, id, transaction);
     });
-    if (previous) await deleteFile(actor.coop.id, previous);
+    if (previous) await deleteFile(coopId, previous);
     return dto;
   } catch (e) {
-    await deleteFile(actor.coop.id, key);
+    await deleteFile(coopId, key);
     throw e;
   }
 }
 
 /** The stored safety data sheet of a lot (404 when there is none or the lot is another co-op's). */
 export async function getSafetyDataSheet(actor: Actor, id: number): Promise<{ bytes: Buffer; name: string }> {
-  const [row] = await sequelize.query<{ sds_file_key: string | null; sds_file_name: string | null; kind: string }>(
-    `SELECT sds_file_key, sds_file_name, kind FROM chemical_lots WHERE id = :id AND coop_id = :coopId`,
-    { replacements: { id, coopId: actor.coop.id }, type: QueryTypes.SELECT },
-  );
-  if (!row?.sds_file_key) throw notFound('No safety data sheet for this lot.');
-  return { bytes: await getFile(actor.coop.id, row.sds_file_key), name: row.sds_file_name ?? `sds-${row.kind}-${id}.pdf` };
+  const row = await ChemicalLot.findOne({ attributes: ['sdsFileKey', 'sdsFileName', 'kind'], where: { id, coopId: actor.coop.id }, raw: true });
+  if (!row?.sdsFileKey) throw notFound('No safety data sheet for this lot.');
+  return { bytes: await getFile(actor.coop.id, row.sdsFileKey), name: row.sdsFileName ?? `sds-${row.kind}-${id}.pdf` };
 }
 
 // ---------------------------------------------------------------- oil lots
 
-interface OilRow {
-  id: number; collected_from: string; collected_on: string; volume_liters: string; used_liters: string; cost_cents: string;
-  water_notes: string | null; solids_notes: string | null; titration_ml: string | null; titrant: 'KOH' | 'NaOH' | null; total?: string;
-}
+type OilLotRow = Pick<
+  InferAttributes<OilLot>,
+  'id' | 'collectedFrom' | 'collectedOn' | 'volumeLiters' | 'costCents' | 'waterNotes' | 'solidsNotes' | 'titrationMl' | 'titrant'
+> & { usedLiters: string | null };
 
-function oilDto(r: OilRow): OilLotDto {
-  const volume = Number(r.volume_liters);
-  const used = Number(r.used_liters ?? 0);
+function oilDto(r: OilLotRow): OilLotDto {
+  const volume = Number(r.volumeLiters);
+  const used = Number(r.usedLiters ?? 0);
   return {
-    id: r.id, collectedFrom: r.collected_from, collectedOn: r.collected_on, volumeLiters: volume, usedLiters: used,
-    remainingLiters: Number(Math.max(0, volume - used).toFixed(3)), costCents: Number(r.cost_cents), waterNotes: r.water_notes,
-    solidsNotes: r.solids_notes, titrationMl: r.titration_ml === null ? null : Number(r.titration_ml), titrant: r.titrant,
+    id: r.id, collectedFrom: r.collectedFrom, collectedOn: r.collectedOn, volumeLiters: volume, usedLiters: used,
+    remainingLiters: Number(Math.max(0, volume - used).toFixed(3)), costCents: Number(r.costCents), waterNotes: r.waterNotes,
+    solidsNotes: r.solidsNotes, titrationMl: r.titrationMl === null ? null : Number(r.titrationMl), titrant: r.titrant,
   };
 }
 
-const OIL_SELECT = `SELECT o.id, o.collected_from, o.collected_on, o.volume_liters, o.cost_cents, o.water_notes, o.solids_notes,
-    o.titration_ml, o.titrant, COALESCE(u.used, 0) AS used_liters
-  FROM oil_lots o
-  LEFT JOIN LATERAL (SELECT sum(bol.liters) AS used FROM batch_oil_lots bol WHERE bol.oil_lot_id = o.id AND bol.coop_id = o.coop_id) u ON true`;
+/**
+ * Litres of the lot that batches have taken: a correlated sum over batch_oil_lots (by its primary
+ * key). The outer table goes by the model's name, which the production bundle shortens, so it is
+ * read at run time.
+ */
+const usedLiters = () =>
+  literal(`(SELECT COALESCE(sum(bol.liters), 0) FROM batch_oil_lots bol WHERE bol.oil_lot_id = "${OilLot.name}"."id" AND bol.coop_id = "${OilLot.name}"."coop_id")`);
+const oilAttributes = (): FindAttributeOptions => [
+  'id', 'collectedFrom', 'collectedOn', 'volumeLiters', 'costCents', 'waterNotes', 'solidsNotes', 'titrationMl', 'titrant', [usedLiters(), 'usedLiters'],
+];
 
-const OIL_SORT: Record<string, string> = {
-  collectedOn: 'o.collected_on', collectedFrom: 'lower(o.collected_from)', volume: 'o.volume_liters', titration: 'o.titration_ml',
+const OIL_SORT: Record<string, string | ReturnType<typeof fn>> = {
+  collectedOn: 'collectedOn', collectedFrom: fn('lower', col('collected_from')), volume: 'volumeLiters', titration: 'titrationMl',
 };
 
 /** Oil lots of the actor's co-op, one page, with litres already used by batches. */
 export async function listOilLots(actor: Actor, q: { page: number; pageSize: number; sort: string; dir: 'asc' | 'desc' }): Promise<Paged<OilLotDto>> {
-  const col = OIL_SORT[q.sort] ?? 'o.collected_on';
   const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
-  const rows = await sequelize.query<OilRow>(
-    `${OIL_SELECT} WHERE o.coop_id = :coopId ORDER BY ${col} ${dir} NULLS LAST, o.id ${dir} LIMIT :limit OFFSET :offset`,
-    { replacements: { coopId: actor.coop.id, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }, type: QueryTypes.SELECT },
-  );
-  return { rows: rows.map(oilDto), total: await countWhere('oil_lots', actor.coop.id, {}), page: q.page, pageSize: q.pageSize };
+  const where = { coopId: actor.coop.id };
+  const [rows, total] = await Promise.all([
+    OilLot.findAll({
+      attributes: oilAttributes(), where, raw: true,
+      order: [[OIL_SORT[q.sort] ?? 'collectedOn', `${dir} NULLS LAST`], ['id', dir]], limit: q.pageSize, offset: (q.page - 1) * q.pageSize,
+    }) as unknown as Promise<OilLotRow[]>,
+    OilLot.count({ where }),
+  ]);
+  return { rows: rows.map(oilDto), total, page: q.page, pageSize: q.pageSize };
 }
 
 /** Oil lots that still hold oil (for the planner and batch forms), oldest first. */
 export async function listOilLotsWithOil(actor: Actor): Promise<OilLotDto[]> {
-  const rows = await sequelize.query<OilRow>(
-    `${OIL_SELECT} WHERE o.coop_id = :coopId AND o.volume_liters > COALESCE(u.used, 0) ORDER BY o.collected_on, o.id LIMIT 200`,
-    { replacements: { coopId: actor.coop.id }, type: QueryTypes.SELECT },
-  );
+  const rows = (await OilLot.findAll({
+    attributes: oilAttributes(),
+    where: { coopId: actor.coop.id, [Op.and]: [where(col(`${OilLot.name}.volume_liters`), { [Op.gt]: usedLiters() })] },
+    order: [['collectedOn', 'ASC'], ['id', 'ASC']], limit: 200, raw: true,
+  })) as unknown as OilLotRow[];
   return rows.map(oilDto);
 }
 
-/** One oil lot of the actor's co-op (404 otherwise), optionally locked for the caller's transaction. */
+/** One oil lot of the actor's co-op (404 otherwise), locked FOR UPDATE when read in the caller's transaction. */
 export async function getOilLot(actor: Actor, id: number, transaction?: Transaction): Promise<OilLotDto> {
-  if (transaction) {
-    await sequelize.query(`SELECT id FROM oil_lots WHERE id = :id AND coop_id = :coopId FOR UPDATE`, {
-      replacements: { id, coopId: actor.coop.id }, type: QueryTypes.SELECT, transaction,
-    });
-  }
-  const [row] = await sequelize.query<OilRow>(`${OIL_SELECT} WHERE o.id = :id AND o.coop_id = :coopId`, {
-    replacements: { id, coopId: actor.coop.id }, type: QueryTypes.SELECT, transaction,
-  });
+  const row = (await OilLot.findOne({
+    attributes: oilAttributes(), where: { id, coopId: actor.coop.id }, raw: true, transaction, ...(transaction ? { lock: transaction.LOCK.UPDATE } : {}),
+  })) as unknown as OilLotRow | null;
   if (!row) throw notFound('Oil lot not found.');
   return oilDto(row);
 }
@@ -271,7 +260,7 @@ export async function getOilLot(actor: Actor, id: number, transaction?: Transact
 export async function createOilLot(actor: Actor, input: OilLotCreateInput): Promise<OilLotDto> {
   const liters = volumeToLiters(input.volume, actor.coop.units).toFixed(3);
   const titrant = input.titrationMl === undefined ? null : (input.titrant ?? actor.coop.settings.recipe?.catalyst ?? 'KOH');
-  return sequelize.transaction(async (transaction) => {
+  return inTransaction(async (transaction) => {
     const lot = await OilLot.create(
       {
         coopId: actor.coop.id, collectedFrom: input.collectedFrom, collectedOn: input.collectedOn, volumeLiters: liters,
@@ -313,6 +302,10 @@ export interface StockSummary {
 /** How much of each batch's chemicals counts: what was actually used when recorded, else the plan. */
 const NEED_METHANOL = 'COALESCE(actual_methanol_liters, computed_methanol_liters)';
 const NEED_CATALYST = 'COALESCE(actual_catalyst_grams, computed_catalyst_grams)';
+/** The chemicals the stock check follows (in the lots' units: L of methanol, g of catalyst). */
+const STOCKED: HeldLot['kind'][] = ['methanol', 'KOH', 'NaOH'];
+/** Batch steps between the start of the reaction and release: their chemicals are committed. */
+const UNDER_WAY: BatchStatus[] = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
 
 /**
  * Stock on hand per chemical, what batches under way have committed, and the low-stock flag:
@@ -328,42 +321,36 @@ export async function stockSummary(actor: Actor, transaction?: Transaction): Pro
 export interface HeldLot { id: number; kind: 'methanol' | 'KOH' | 'NaOH'; receivedAtMs: number; quantity: number; remaining: number; totalCostCents: number; purityPct: number | null }
 
 /**
- * The co-op's lots of these chemicals that still hold stock, oldest first (FIFO order), from the
- * partial index on lots with remaining stock. One row per kind carrying its lots as one JSON
- * array, so the app parses one value per kind instead of seven columns per lot.
+ * The co-op's lots of methanol, KOH and NaOH that still hold stock, oldest first (FIFO order),
+ * from the partial index on lots with remaining stock.
  */
-const HELD_LOTS = statement(
-  `SELECT kind, json_agg(json_build_array(id, (extract(epoch FROM received_on) * 1000)::bigint, quantity, remaining_quantity, total_cost_cents, purity_pct)
-                         ORDER BY received_on, id) AS lots
-     FROM chemical_lots WHERE coop_id = $1 AND kind = ANY($2) AND remaining_quantity > 0 GROUP BY kind`,
-  'tv_held_lots',
-);
-
-type HeldLotsRow = { kind: HeldLot['kind']; lots: [number, number, number, number, number, number | null][] };
-
-const heldLots = (rows: HeldLotsRow[]): HeldLot[] =>
-  rows.flatMap(({ kind, lots }) =>
-    lots.map(([id, receivedAtMs, quantity, remaining, totalCostCents, purityPct]) => ({ id, kind, receivedAtMs, quantity, remaining, totalCostCents, purityPct })),
-  );
+export async function heldLots(coopId: number, transaction?: Transaction): Promise<HeldLot[]> {
+  const rows = await ChemicalLot.findAll({
+    attributes: ['id', 'kind', 'receivedOn', 'quantity', 'remainingQuantity', 'totalCostCents', 'purityPct'],
+    where: { coopId, kind: STOCKED, remainingQuantity: { [Op.gt]: 0 } },
+    order: [['receivedOn', 'ASC'], ['id', 'ASC']], raw: true, transaction,
+  });
+  return rows.map((r) => ({
+    id: r.id, kind: r.kind as HeldLot['kind'], receivedAtMs: Date.parse(r.receivedOn), quantity: Number(r.quantity),
+    remaining: Number(r.remainingQuantity), totalCostCents: Number(r.totalCostCents), purityPct: r.purityPct === null ? null : Number(r.purityPct),
+  }));
+}
 
 /**
- * Stock on hand per chemical as one aggregated entry per kind (summed in SQL), for summaries
- * that need totals only — e.g. the overview — instead of every lot with stock.
+ * Stock on hand per chemical as one held "lot" per kind (summed in SQL), for summaries that need
+ * totals only — e.g. the overview — instead of every lot with stock.
  */
-export const STOCK_TOTALS = statement(
-  `SELECT kind, SUM(remaining_quantity) AS remaining, SUM(quantity) AS quantity, SUM(total_cost_cents) AS cost FROM chemical_lots
-    WHERE coop_id = $1 AND kind = ANY($2) AND remaining_quantity > 0 GROUP BY kind`,
-  'tv_stock_totals',
-);
-
-export type StockTotalsRow = { kind: HeldLot['kind']; remaining: string; quantity: string; cost: string };
-
-/** The STOCK_TOTALS rows as one held "lot" per kind. */
-export const stockTotalsOf = (rows: StockTotalsRow[]): HeldLot[] =>
-  rows.map((r, i) => ({
+export async function stockTotals(coopId: number, transaction?: Transaction): Promise<HeldLot[]> {
+  const rows = (await ChemicalLot.findAll({
+    attributes: ['kind', [fn('sum', col('remaining_quantity')), 'remaining'], [fn('sum', col('quantity')), 'quantity'], [fn('sum', col('total_cost_cents')), 'cost']],
+    where: { coopId, kind: STOCKED, remainingQuantity: { [Op.gt]: 0 } },
+    group: ['kind'], raw: true, transaction,
+  })) as unknown as { kind: HeldLot['kind']; remaining: string; quantity: string; cost: string }[];
+  return rows.map((r, i) => ({
     id: -(i + 1), kind: r.kind, receivedAtMs: 0, quantity: Number(r.quantity), remaining: Number(r.remaining),
     totalCostCents: Number(r.cost), purityPct: null,
   }));
+}
 
 /** What batches under way have committed of each chemical, and the next planned batch with its needs. */
 export interface BatchNeeds {
@@ -371,45 +358,43 @@ export interface BatchNeeds {
   next: { id: number; number: number; catalyst: 'KOH' | 'NaOH'; methanolLiters: number; catalystGrams: number; batchDate: string; oilLiters: number } | null;
 }
 
-export const BATCH_NEEDS = statement(
-  `SELECT w.methanol_committed, w.koh_committed, w.naoh_committed,
-          n.id AS next_id, n.number AS next_number, n.catalyst AS next_catalyst, n.methanol AS next_methanol, n.catalyst_grams AS next_catalyst_grams,
-          n.batch_date AS next_batch_date, n.oil_liters AS next_oil_liters
-     FROM (SELECT COALESCE(sum(${NEED_METHANOL}), 0) AS methanol_committed,
-                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'KOH'), 0) AS koh_committed,
-                  COALESCE(sum(${NEED_CATALYST}) FILTER (WHERE catalyst = 'NaOH'), 0) AS naoh_committed
-             FROM batches WHERE coop_id = $1 AND status IN ('reacting','settling','draining','washing','drying','testing')) w
-     LEFT JOIN LATERAL (SELECT id, number, catalyst, ${NEED_METHANOL} AS methanol, ${NEED_CATALYST} AS catalyst_grams,
-                               to_char(batch_date, 'YYYY-MM-DD') AS batch_date, oil_liters
-             FROM batches WHERE coop_id = $1 AND status = 'planned' ORDER BY batch_date, number LIMIT 1) n ON true`,
-  'tv_batch_needs',
-);
+type CommittedRow = Pick<InferAttributes<Batch>, 'catalyst'> & { methanolLiters: string | null; catalystGrams: string | null };
+type NextPlannedRow = Pick<InferAttributes<Batch>, 'id' | 'number' | 'catalyst' | 'batchDate' | 'oilLiters'> & { methanolLiters: string; catalystGrams: string };
 
-export type BatchNeedsRow = Record<string, string | number | null>;
-
-export function batchNeedsOf(r: BatchNeedsRow | undefined): BatchNeeds {
-  const row = r ?? {};
-  return {
-    committed: { methanol: Number(row.methanol_committed ?? 0), KOH: Number(row.koh_committed ?? 0), NaOH: Number(row.naoh_committed ?? 0) },
-    next: row.next_id
-      ? {
-          id: Number(row.next_id), number: Number(row.next_number), catalyst: row.next_catalyst as 'KOH' | 'NaOH', methanolLiters: Number(row.next_methanol),
-          catalystGrams: Number(row.next_catalyst_grams), batchDate: String(row.next_batch_date), oilLiters: Number(row.next_oil_liters),
-        }
-      : null,
-  };
+/**
+ * What batches under way have committed of each chemical (summed per catalyst in SQL) and the next
+ * planned batch (earliest date, then number) with what it needs, read in parallel.
+ */
+export async function batchNeeds(coopId: number, transaction?: Transaction): Promise<BatchNeeds> {
+  const [committed, next] = await Promise.all([
+    Batch.findAll({
+      attributes: ['catalyst', [fn('sum', literal(NEED_METHANOL)), 'methanolLiters'], [fn('sum', literal(NEED_CATALYST)), 'catalystGrams']],
+      where: { coopId, status: UNDER_WAY }, group: ['catalyst'], raw: true, transaction,
+    }) as unknown as Promise<CommittedRow[]>,
+    Batch.findOne({
+      attributes: ['id', 'number', 'catalyst', 'batchDate', 'oilLiters', [literal(NEED_METHANOL), 'methanolLiters'], [literal(NEED_CATALYST), 'catalystGrams']],
+      where: { coopId, status: 'planned' }, order: [['batchDate', 'ASC'], ['number', 'ASC']], raw: true, transaction,
+    }) as unknown as Promise<NextPlannedRow | null>,
+  ]);
+  const out: BatchNeeds = { committed: { methanol: 0, KOH: 0, NaOH: 0 }, next: null };
+  for (const r of committed) {
+    out.committed.methanol += Number(r.methanolLiters ?? 0);
+    out.committed[r.catalyst] += Number(r.catalystGrams ?? 0);
+  }
+  out.committed.methanol = Number(out.committed.methanol.toFixed(3));
+  if (next) {
+    out.next = {
+      id: next.id, number: next.number, catalyst: next.catalyst, methanolLiters: Number(next.methanolLiters),
+      catalystGrams: Number(next.catalystGrams), batchDate: next.batchDate, oilLiters: Number(next.oilLiters),
+    };
+  }
+  return out;
 }
 
-/** The lots holding methanol, KOH or NaOH (FIFO order) and the batches' needs, read in one round trip. */
-export function stockStatePlan(coopId: number): ReadPlan<{ lots: HeldLot[]; needs: BatchNeeds }> {
-  return {
-    reads: [[HELD_LOTS, [coopId, ['methanol', 'KOH', 'NaOH']]], [BATCH_NEEDS, [coopId]]],
-    finish: ([lots, needs]) => ({ lots: heldLots(lots as HeldLotsRow[]), needs: batchNeedsOf((needs as BatchNeedsRow[])[0]) }),
-  };
-}
-
-export function stockState(coopId: number, transaction?: Transaction): Promise<{ lots: HeldLot[]; needs: BatchNeeds }> {
-  return runReadPlan(stockStatePlan(coopId), transaction);
+/** The lots holding methanol, KOH or NaOH (FIFO order) and the batches' needs, read in parallel. */
+export async function stockState(coopId: number, transaction?: Transaction): Promise<{ lots: HeldLot[]; needs: BatchNeeds }> {
+  const [lots, needs] = await Promise.all([heldLots(coopId, transaction), batchNeeds(coopId, transaction)]);
+  return { lots, needs };
 }
 
 /** Stock lines from the lots holding stock and the batches' needs (pure). */
@@ -434,9 +419,8 @@ export function summarizeStock(lots: HeldLot[], needs: BatchNeeds): StockSummary
 
 /** Active tanks of the co-op, for the release form. */
 export async function listTanks(actor: Actor): Promise<{ id: number; name: string; capacityLiters: number; onHandLiters: number }[]> {
-  const rows = await sequelize.query<{ id: number; name: string; capacity_liters: string; on_hand_liters: string }>(
-    `SELECT id, name, capacity_liters, on_hand_liters FROM tanks WHERE coop_id = :coopId AND active ORDER BY name`,
-    { replacements: { coopId: actor.coop.id }, type: QueryTypes.SELECT },
-  );
-  return rows.map((r) => ({ id: r.id, name: r.name, capacityLiters: Number(r.capacity_liters), onHandLiters: Number(r.on_hand_liters) }));
+  const rows = await Tank.findAll({
+    attributes: ['id', 'name', 'capacityLiters', 'onHandLiters'], where: { coopId: actor.coop.id, active: true }, order: [['name', 'ASC']], raw: true,
+  });
+  return rows.map((r) => ({ id: r.id, name: r.name, capacityLiters: Number(r.capacityLiters), onHandLiters: Number(r.onHandLiters) }));
 }

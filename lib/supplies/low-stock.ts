@@ -1,11 +1,10 @@
 import 'server-only';
-import { QueryTypes } from 'sequelize';
+import { Op } from 'sequelize';
 import { appUrl, sendMail } from '@/lib/mail';
 import { formatVolume, type UnitSystem } from '@/lib/units';
-import { sequelize } from '@/models';
+import { Coop, LowStockAlert, Membership, User } from '@/models';
 import { stockState, summarizeStock, type StockLine } from './index';
-
-const q = <T extends object>(sql: string, replacements: Record<string, unknown>) => sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
+import { flipLowStockToLow } from './queries';
 
 function amount(line: Pick<StockLine, 'kind'>, value: number, units: UnitSystem): string {
   if (line.kind === 'methanol') return formatVolume(value, units, 1);
@@ -29,26 +28,21 @@ export async function checkLowStock(coopId: number): Promise<StockLine['kind'][]
     const crossed: StockLine[] = [];
     for (const line of summary.lines) {
       if (line.low) {
-        const flipped = await q<{ chemical: string }>(
-          `INSERT INTO low_stock_alerts (coop_id, chemical, state, changed_at, last_sent_at) VALUES (:c, :k, 'low', now(), now())
-           ON CONFLICT (coop_id, chemical) DO UPDATE SET state = 'low', changed_at = now(), last_sent_at = now()
-           WHERE low_stock_alerts.state <> 'low' RETURNING chemical`,
-          { c: coopId, k: line.kind },
-        );
-        if (flipped.length) crossed.push(line);
+        if (await flipLowStockToLow(coopId, line.kind)) crossed.push(line);
       } else {
-        await sequelize.query(`UPDATE low_stock_alerts SET state = 'ok', changed_at = now() WHERE coop_id = :c AND chemical = :k AND state <> 'ok'`, {
-          replacements: { c: coopId, k: line.kind },
-        });
+        await LowStockAlert.update({ state: 'ok', changedAt: new Date() }, { where: { coopId, chemical: line.kind, state: { [Op.ne]: 'ok' } } });
       }
     }
     if (!crossed.length || !summary.nextPlannedBatch) return crossed.map((l) => l.kind);
-    const [coop] = await q<{ name: string; slug: string; units: UnitSystem }>('SELECT name, slug, units FROM coops WHERE id = :c', { c: coopId });
-    const brewers = await q<{ email: string; name: string }>(
-      `SELECT u.email, u.name FROM memberships m JOIN users u ON u.id = m.user_id
-       WHERE m.coop_id = :c AND m.role = 'brewer' AND m.status = 'active' ORDER BY u.id`,
-      { c: coopId },
-    );
+    const [coop, brewers] = await Promise.all([
+      Coop.findByPk(coopId, { attributes: ['name', 'slug', 'units'], raw: true }),
+      // The co-op's active brewers with their e-mail (one query, the user joined in).
+      Membership.findAll({
+        attributes: [], where: { coopId, role: 'brewer', status: 'active' },
+        include: [{ model: User, as: 'user', attributes: ['email', 'name'], required: true }],
+        order: [[{ model: User, as: 'user' }, 'id', 'ASC']],
+      }).then((rows) => rows.map((m) => ({ email: m.user!.email, name: m.user!.name }))),
+    ]);
     if (!coop) return crossed.map((l) => l.kind);
     const lines = crossed.map((l) =>
       `- ${l.kind}: ${amount(l, Math.max(l.available, 0), coop.units)} available (${amount(l, l.onHand, coop.units)} on hand, ${amount(l, l.committed, coop.units)} in batches under way); batch ${summary.nextPlannedBatch!.number} needs ${amount(l, l.nextPlannedNeed ?? 0, coop.units)}.`,

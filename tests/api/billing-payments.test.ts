@@ -1,5 +1,6 @@
 // Card payments through the SDK against the payments fake, webhooks (replayed, out of order,
-// badly signed), the fake being down, cash and cheque, overpayments as credit, refunds.
+// badly signed), the fake being down, cash and cheque, overpayments as credit, refunds, the
+// treasurer's payment list and the pending adjustments.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { api, countRows, signIn, sql } from '../support/api';
 import {
@@ -259,5 +260,78 @@ describe('paying invoices', () => {
     expect(await countRows('refunds', `payment_id = $1 AND status = 'succeeded'`, [p!.id])).toBe(1);
     const [after] = await sql<{ s: string }>(`SELECT SUM(amount_cents) AS s FROM member_credits WHERE membership_id = $1`, [c.members['Sol Slow']!.membershipId]);
     expect(Number(after!.s)).toBe(1500);
+  });
+  it('the treasurer’s payment list: newest first, paged, by month and unmatched only; reading it writes nothing', async () => {
+    type Row = { id: number; memberName: string; receivedOn: string; period: string; unallocatedCents: number; refunds: { amountCents: number }[] };
+    const list = async (q: string) => (await c.treasurerAgent.get(`/api/coops/${slug}/billing/payments?${q}`).expect(200)).body as { rows: Row[]; total: number };
+    const other = await makeBillingCoop({ members: ['Xan Other'] });
+    const writes = async () => [await countRows('payments'), await countRows('refunds'), await countRows('member_credits'), await countRows('audit_events')];
+    const before = await writes();
+
+    const all = await list('pageSize=200');
+    expect(all.total).toBe(await countRows('payments', 'coop_id = $1', [c.coop.id]));
+    expect(all.rows).toHaveLength(all.total);
+    const order = all.rows.map((r) => [r.receivedOn, r.id] as const);
+    expect(order).toEqual([...order].sort((a, b) => (a[0] === b[0] ? b[1] - a[1] : a[0] < b[0] ? 1 : -1)));
+    expect(all.rows.every((r) => NAMES.includes(r.memberName))).toBe(true);
+    // The refunded payments carry their refunds.
+    expect(all.rows.filter((r) => r.refunds.length > 0).map((r) => r.refunds.reduce((s, f) => s + f.amountCents, 0)).sort((a, b) => a - b)).toEqual([500, 1000]);
+
+    const second = await list('pageSize=1&page=2');
+    expect(second.total).toBe(all.total);
+    expect(second.rows.map((r) => r.id)).toEqual([all.rows[1]!.id]);
+    const ofP = await list(`period=${P}&pageSize=200`);
+    expect(ofP.rows.map((r) => r.id)).toEqual(all.rows.filter((r) => r.period === P).map((r) => r.id));
+    const unmatched = await list('unmatched=1&pageSize=200');
+    expect(unmatched.rows.map((r) => r.id)).toEqual(all.rows.filter((r) => r.unallocatedCents > 0).map((r) => r.id));
+    expect(unmatched.total).toBe(await countRows('payments', 'coop_id = $1 AND unallocated_cents > 0', [c.coop.id]));
+
+    // A member is refused; another co-op's treasurer sees none of these payments.
+    expect((await agents['Pat Payer']!.get(`/api/coops/${slug}/billing/payments`)).status).toBe(403);
+    expect((await other.treasurerAgent.get(`/api/coops/${other.coop.slug}/billing/payments`).expect(200)).body).toMatchObject({ rows: [], total: 0 });
+    expect((await other.treasurerAgent.get(`/api/coops/${slug}/billing/payments`)).status).toBe(404);
+    expect(await writes()).toEqual(before);
+  });
+
+  it('an adjustment stays on the pending list while only a draft carries it, and leaves it once that invoice is issued', async () => {
+    const m = c.members['Wyn Wrong']!.membershipId;
+    const pending = async () =>
+      ((await c.treasurerAgent.get(`/api/coops/${slug}/billing/adjustments`).expect(200)).body.adjustments as { id: number; memberName: string; billedOn: string | null }[]);
+    const made = await c.treasurerAgent.post(`/api/coops/${slug}/billing/adjustments`).send({ memberId: m, amount: '3.25', description: 'Spare jerry can', period: NOW });
+    expect(made.status, JSON.stringify(made.body)).toBe(201);
+    expect(made.body).toMatchObject({ memberId: m, memberName: 'Wyn Wrong', amountCents: 325, period: NOW, billedOn: null });
+    expect((await pending()).map((a) => a.id)).toContain(made.body.id);
+    await runMonth(c.treasurerAgent, slug, NOW, [m]);
+    expect((await pending()).map((a) => a.id)).toContain(made.body.id);
+    await issueMonth(c.treasurerAgent, slug, NOW);
+    expect((await pending()).map((a) => a.id)).not.toContain(made.body.id);
+    const wyn = (await invoicesOf(c.coop.id, NOW)).find((r) => r.membership_id === m)!;
+    expect(Number(wyn.total_cents)).toBe(2000 + 325);
+  });
+  it('a card refund while the payment service is down stays pending, blocks the close, and a retry refunds once', async () => {
+    const wynInvoice = (await invoicesOf(c.coop.id, NOW)).find((r) => r.membership_id === c.members['Wyn Wrong']!.membershipId)!;
+    expect((await pay('Wyn Wrong', 'tok_visa', wynInvoice.id)).status).toBe(200);
+    await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${wynInvoice.id}/void`).send({ reason: 'Billed in error' }).expect(200);
+    const [p] = await sql<{ id: number }>(`SELECT id FROM payments WHERE invoice_id = $1`, [wynInvoice.id]);
+
+    await setOutage(true, '503');
+    const down = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments/${p!.id}/refunds`).send({ amount: '3.00', reason: 'Jerry can returned' });
+    await setOutage(false);
+    expect(down.status).toBe(503);
+    expect(down.body.code).toBe('provider-unavailable');
+    const [r] = await sql<{ id: number; status: string; idempotency_key: string }>(`SELECT id, status, idempotency_key FROM refunds WHERE payment_id = $1`, [p!.id]);
+    expect(r).toMatchObject({ status: 'pending' });
+    const recon = (await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200)).body;
+    expect(recon.pendingRefunds).toBe(1);
+    expect(recon.blockers).toContain('1 card refund(s) are still waiting for the payment service.');
+
+    const retried = await c.treasurerAgent.post(`/api/coops/${slug}/billing/refunds/${r!.id}/retry`).send({});
+    expect(retried.status, JSON.stringify(retried.body)).toBe(200);
+    expect(retried.body).toMatchObject({ id: p!.id, refundedCents: 300, refunds: [expect.objectContaining({ id: r!.id, amountCents: 300, status: 'succeeded' })] });
+    expect((await c.treasurerAgent.post(`/api/coops/${slug}/billing/refunds/${r!.id}/retry`).send({})).status).toBe(409);
+    expect(await countRows('refunds', 'payment_id = $1', [p!.id])).toBe(1);
+    const [again] = await sql<{ idempotency_key: string }>(`SELECT idempotency_key FROM refunds WHERE id = $1`, [r!.id]);
+    expect(again!.idempotency_key).toBe(r!.idempotency_key);
+    expect((await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200)).body.pendingRefunds).toBe(0);
   });
 });

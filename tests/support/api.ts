@@ -1,7 +1,7 @@
-// Helpers for integration tests: supertest against the running server, direct database
-// access for setting up and checking rows, factories, and the caught e-mail.
+// Helpers for integration tests: supertest against the running server, database access
+// through Sequelize for setting up and checking rows, factories, and the caught e-mail.
 import bcrypt from 'bcryptjs';
-import pg from 'pg';
+import { QueryTypes, Sequelize } from 'sequelize';
 import request from 'supertest';
 import { inject } from 'vitest';
 
@@ -12,14 +12,24 @@ const HASH = bcrypt.hashSync(TEST_PASSWORD, 10);
 export const baseUrl = () => inject('baseUrl');
 export const api = () => request(inject('baseUrl'));
 
-let pool: pg.Pool | null = null;
-/** A direct connection to the test database (for arranging and asserting rows). */
-export function db(): pg.Pool {
-  pool ??= new pg.Pool({ connectionString: inject('databaseUrl'), max: 4 });
-  return pool;
+let instance: Sequelize | null = null;
+/**
+ * A Sequelize instance on the test database (for arranging and asserting rows), apart from the
+ * app's own: tests reach PostgreSQL through Sequelize like the app does (only lib/db.ts imports pg).
+ */
+export function db(): Sequelize {
+  instance ??= new Sequelize(inject('databaseUrl'), { logging: false, pool: { max: 4, min: 0, idle: 1_000 } });
+  return instance;
 }
+
+/**
+ * Runs one statement with positional `$1, $2 …` values (bound, never spliced) and returns its
+ * rows (an INSERT/UPDATE returns rows only with RETURNING). Values as `pg` takes them: arrays bind
+ * as PostgreSQL arrays, objects as JSON, undefined as NULL.
+ */
 export async function sql<T = Record<string, unknown>>(text: string, params: unknown[] = []): Promise<T[]> {
-  return (await db().query(text, params)).rows as T[];
+  const bind = params.length ? params.map((v) => (v === undefined ? null : v)) : undefined;
+  return (await db().query(text, { bind, type: QueryTypes.SELECT })) as T[];
 }
 
 /** A supertest agent holding a signed-in session cookie. */

@@ -1,0 +1,358 @@
+import 'server-only';
+import type { InferAttributes, Transaction } from 'sequelize';
+import { can, type Actor } from '@/lib/auth';
+import { temperatureCheck, type TemperatureLevel } from '@/lib/chemistry';
+import { energyCostCents } from '@/lib/costing';
+import { notFound } from '@/lib/http';
+import { roundHalfUp } from '@/lib/money';
+import { evaluateQuality, evaluateQuickTests, type FuelStandard, type QualityEvaluation, type QuickTestEvaluation, type QuickTestInput, type QualityResults } from '@/lib/quality';
+import { litersToMl } from '@/lib/tank/quantity';
+import { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot, Tank } from '@/models';
+import type { BatchStatus } from '@/models/Batch';
+import { computePlan, type Catalyst, type ComputedPlan, type PlanInput } from './plan';
+
+// Reading batches: one batch (full record or the members' summary), the list, and the pure
+// helpers that turn a stored batch into plan inputs, costs and quality inputs.
+
+/** A batch as stored (NUMERIC and BIGINT columns as strings). */
+export type BatchRecord = InferAttributes<Batch>;
+
+/** Quick tests as stored (the soap test's catalyst comes from the batch). */
+export interface QuickTestsStored {
+  test327?: { result: 'clear' | 'fallout'; falloutMl?: number };
+  soap?: { hclMl: number; sampleGrams: number };
+  washTest?: 'clean-split' | 'emulsion';
+  water?: 'clear' | 'hazy';
+}
+
+const n = (v: string | number | null | undefined): number | null => (v === null || v === undefined ? null : Number(v));
+
+/** Reads one batch of the co-op (404 otherwise), locked FOR UPDATE in the transaction when `lock` is set. */
+export async function loadBatch(coopId: number, id: number, transaction?: Transaction, lock = false): Promise<BatchRecord> {
+  if (!Number.isSafeInteger(id) || id <= 0) throw notFound('Batch not found.');
+  const row = await Batch.findOne({
+    where: { id, coopId }, raw: true, transaction, ...(lock && transaction ? { lock: transaction.LOCK.UPDATE } : {}),
+  });
+  if (!row) throw notFound('Batch not found.');
+  return row;
+}
+
+/** The quick tests and lab results of a batch in lib/quality's shapes (stored as JSONB). */
+export const quickTestsOf = (row: Pick<BatchRecord, 'quickTests'>): QuickTestsStored => (row.quickTests ?? {}) as QuickTestsStored;
+export const labResultsOf = (row: Pick<BatchRecord, 'labResults'>): QualityResults => (row.labResults ?? {}) as QualityResults;
+
+/** The plan inputs a stored batch was computed from. */
+export function planInputOf(row: BatchRecord): PlanInput {
+  return {
+    oilLiters: Number(row.oilLiters),
+    titration: { source: row.titrationSource, trials: row.titrationTrialsMl.map(Number), titrant: row.titrant },
+    titrationBlankMl: Number(row.titrationBlankMl),
+    catalyst: row.catalyst,
+    baseGramsPerLiter: Number(row.baseGPerL),
+    purityPct: Number(row.purityPct),
+    titrantFrom: row.titrantFrom,
+    methanolMode: row.methanolMode,
+    methanolPct: n(row.methanolPct) ?? undefined,
+    molarRatio: n(row.molarRatio) ?? undefined,
+  };
+}
+
+/** Quick tests in the shape lib/quality wants (the soap test takes the batch's catalyst). */
+export function quickTestInput(stored: QuickTestsStored, catalyst: Catalyst): QuickTestInput {
+  return {
+    ...(stored.test327 ? { test327: stored.test327 } : {}),
+    ...(stored.soap ? { soap: { ...stored.soap, catalyst } } : {}),
+    ...(stored.washTest ? { washTest: stored.washTest } : {}),
+    ...(stored.water ? { water: stored.water } : {}),
+  };
+}
+
+/** Today's date (YYYY-MM-DD) in the co-op's time zone. */
+export function todayIn(timezone: string): string {
+  try {
+    return new Intl.DateTimeFormat('en-CA', { timeZone: timezone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
+  } catch {
+    return new Date().toISOString().slice(0, 10);
+  }
+}
+
+/** A temperature reading as returned: °C stored, with its level and message in the co-op's units. */
+export interface TemperatureDto {
+  id: string;
+  measuredAt: string;
+  tempC: number;
+  level: TemperatureLevel;
+  message: string;
+}
+
+
+export interface BatchCosts {
+  methanolCents: number;
+  catalystCents: number;
+  energyCents: number;
+  feedstockCents: number;
+  otherCents: number;
+  totalCents: number;
+  costPerGallonCents: number | null;
+  costPerLiterCents: number | null;
+}
+
+/** Everything the batch page shows (brewers and admins). Volumes litres, temperatures °C, money cents. */
+export interface BatchDto {
+  view: 'full';
+  id: number;
+  number: number;
+  status: BatchStatus;
+  batchDate: string;
+  statusChangedAt: string;
+  createdAt: string;
+  oilLiters: number;
+  oilLots: { oilLotId: number; collectedFrom: string; collectedOn: string; liters: number; feedstockCents: number }[];
+  plan: ComputedPlan;
+  computedCatalystGrams: number;
+  computedMethanolLiters: number;
+  actualCatalystGrams: number | null;
+  actualMethanolLiters: number | null;
+  mixingMinutes: number | null;
+  settlingHours: number | null;
+  glycerinLiters: number | null;
+  washCycles: number | null;
+  washWaterLiters: number | null;
+  dryingMethod: string | null;
+  dryingNotes: string | null;
+  temperatures: TemperatureDto[];
+  quickTests: QuickTestsStored;
+  quickTestEvaluation: QuickTestEvaluation;
+  labResults: QualityResults;
+  quality: QualityEvaluation;
+  qualityVerdict: 'pass' | 'fail' | 'incomplete';
+  screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
+  energy: { kwh: number | null; heaterKw: number | null; heaterHours: number | null; tariffCentsPerKwh: number | null; costCents: number | null };
+  feedstockCentsOverride: number | null;
+  feedstockFromLotsCents: number;
+  otherCents: number;
+  otherNotes: string | null;
+  release: { tankId: number; tankName: string | null; releasedLiters: number; releasedAt: string } | null;
+  rejectedAt: string | null;
+  rejectReason: string | null;
+  costs: BatchCosts | null;
+  consumptions: { chemicalLotId: number; kind: string; supplier: string; receivedOn: string; unit: 'L' | 'g'; quantity: number; costCents: number }[];
+  files: { id: number; purpose: 'photo' | 'lab-report'; kind: 'pdf' | 'jpeg' | 'png'; name: string; sizeBytes: number; createdAt: string }[];
+  notes: string | null;
+}
+
+/** What members and treasurers see of a released batch: its volume, dates and quality. */
+export interface BatchSummaryDto {
+  view: 'summary';
+  id: number;
+  number: number;
+  status: BatchStatus;
+  batchDate: string;
+  oilLiters: number;
+  catalyst: Catalyst;
+  release: { releasedLiters: number; releasedAt: string; tankName: string | null } | null;
+  costPerGallonCents: number | null;
+  costPerLiterCents: number | null;
+  quickTestEvaluation: QuickTestEvaluation;
+  quality: QualityEvaluation;
+  qualityVerdict: 'pass' | 'fail' | 'incomplete';
+  screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
+}
+
+export function costsOf(row: Pick<BatchRecord, 'totalCostCents' | 'releasedLiters' | 'costMethanolCents' | 'costCatalystCents' | 'costEnergyCents' | 'costFeedstockCents' | 'costOtherCents' | 'costPerGallonCents'>): BatchCosts | null {
+  if (row.totalCostCents === null) return null;
+  const total = Number(row.totalCostCents);
+  const liters = n(row.releasedLiters);
+  return {
+    methanolCents: Number(row.costMethanolCents ?? 0), catalystCents: Number(row.costCatalystCents ?? 0),
+    energyCents: Number(row.costEnergyCents ?? 0), feedstockCents: Number(row.costFeedstockCents ?? 0),
+    otherCents: Number(row.costOtherCents ?? 0), totalCents: total, costPerGallonCents: n(row.costPerGallonCents),
+    costPerLiterCents: liters ? roundHalfUp(total / liters) : null,
+  };
+}
+
+/** Energy cost of a batch from its stored inputs (0 without a tariff or without an amount). */
+export function energyCentsOf(row: Pick<BatchRecord, 'energyKwh' | 'heaterKw' | 'heaterHours' | 'tariffCentsPerKwh'>): number | null {
+  const tariff = n(row.tariffCentsPerKwh);
+  if (tariff === null) return null;
+  if (row.energyKwh !== null) return energyCostCents({ kwh: Number(row.energyKwh), tariffCentsPerKwh: tariff });
+  if (row.heaterKw !== null && row.heaterHours !== null) {
+    return energyCostCents({ heaterKw: Number(row.heaterKw), hours: Number(row.heaterHours), tariffCentsPerKwh: tariff });
+  }
+  return null;
+}
+
+/** Feedstock cost of each oil lot share: the lot's cost × litres used ÷ its volume, to the cent. */
+export function feedstockShareCents(lotCostCents: number, usedLiters: string | number, lotVolumeLiters: string | number): number {
+  const volumeMl = litersToMl(lotVolumeLiters);
+  return volumeMl > 0 ? roundHalfUp((lotCostCents * litersToMl(usedLiters)) / volumeMl) : 0;
+}
+
+/** A batch's share of an oil lot, with the lot's details (its co-op matched too). */
+export type BatchOilLotShare = Pick<InferAttributes<BatchOilLot>, 'oilLotId' | 'liters'> & {
+  oilLot: Pick<InferAttributes<OilLot>, 'collectedFrom' | 'collectedOn' | 'costCents' | 'volumeLiters'>;
+};
+
+/** The oil lots a batch uses, oldest collection first, each with its lot (one query, the lot joined in). */
+export async function batchOilLotShares(coopId: number, batchId: number, transaction?: Transaction): Promise<BatchOilLotShare[]> {
+  return (await BatchOilLot.findAll({
+    attributes: ['oilLotId', 'liters'],
+    where: { batchId, coopId },
+    include: [{ model: OilLot, as: 'oilLot', attributes: ['collectedFrom', 'collectedOn', 'costCents', 'volumeLiters'], where: { coopId }, required: true }],
+    order: [[{ model: OilLot, as: 'oilLot' }, 'collectedOn', 'ASC'], [{ model: OilLot, as: 'oilLot' }, 'id', 'ASC']],
+    raw: true, nest: true, transaction,
+  })) as unknown as BatchOilLotShare[];
+}
+
+/** The name of a tank of the co-op (null when there is none). */
+export async function tankName(coopId: number, tankId: number | null): Promise<string | null> {
+  if (tankId === null) return null;
+  const tank = await Tank.findOne({ attributes: ['name'], where: { id: tankId, coopId }, raw: true });
+  return tank?.name ?? null;
+}
+
+type ConsumptionRow = Pick<InferAttributes<ChemicalConsumption>, 'chemicalLotId' | 'quantity' | 'costCents'> & {
+  lot: Pick<InferAttributes<ChemicalLot>, 'kind' | 'supplier' | 'receivedOn' | 'quantityUnit'>;
+};
+
+/**
+ * One batch of the actor's co-op. Brewers and admins get the full record; members and treasurers
+ * get the quality summary of a released batch (any other batch is a 404 for them).
+ */
+export async function getBatch(actor: Actor, id: number): Promise<BatchDto>;
+export async function getBatch(actor: Actor, id: number, opts: { allowSummary: true }): Promise<BatchDto | BatchSummaryDto>;
+export async function getBatch(actor: Actor, id: number, opts?: { allowSummary: true }): Promise<BatchDto | BatchSummaryDto> {
+  const full = can(actor.role, 'batches:read-all');
+  const coopId = actor.coop.id;
+  const row = await loadBatch(coopId, id);
+  if (!full && (!opts?.allowSummary || row.status !== 'released')) throw notFound('Batch not found.');
+  const quickTests = quickTestsOf(row);
+  const labResults = labResultsOf(row);
+  const quickTestEvaluation = evaluateQuickTests(quickTestInput(quickTests, row.catalyst));
+  const quality = evaluateQuality(row.qualityStandard, labResults);
+  if (!full) {
+    const costs = costsOf(row);
+    return {
+      view: 'summary', id: row.id, number: row.number, status: row.status, batchDate: row.batchDate, oilLiters: Number(row.oilLiters),
+      catalyst: row.catalyst, quickTestEvaluation, quality,
+      costPerGallonCents: costs?.costPerGallonCents ?? null, costPerLiterCents: costs?.costPerLiterCents ?? null, qualityVerdict: row.qualityVerdict, screeningVerdict: row.screeningVerdict,
+      release: row.releasedAt
+        ? { releasedLiters: Number(row.releasedLiters), releasedAt: row.releasedAt.toISOString(), tankName: await tankName(coopId, row.tankId) }
+        : null,
+    };
+  }
+  const where = { batchId: id, coopId };
+  const [tank, oilLots, temps, consumptions, files] = await Promise.all([
+    tankName(coopId, row.tankId),
+    batchOilLotShares(coopId, id),
+    BatchTemperature.findAll({ attributes: ['id', 'measuredAt', 'tempC', 'level'], where, order: [['measuredAt', 'ASC'], ['id', 'ASC']], raw: true }),
+    ChemicalConsumption.findAll({
+      attributes: ['chemicalLotId', 'quantity', 'costCents'], where,
+      include: [{ model: ChemicalLot, as: 'lot', attributes: ['kind', 'supplier', 'receivedOn', 'quantityUnit'], where: { coopId }, required: true }],
+      order: [[{ model: ChemicalLot, as: 'lot' }, 'kind', 'ASC'], [{ model: ChemicalLot, as: 'lot' }, 'receivedOn', 'ASC'], [{ model: ChemicalLot, as: 'lot' }, 'id', 'ASC']],
+      raw: true, nest: true,
+    }) as unknown as Promise<ConsumptionRow[]>,
+    BatchFile.findAll({ attributes: ['id', 'purpose', 'fileKind', 'originalName', 'sizeBytes', 'createdAt'], where, order: [['id', 'ASC']], raw: true }),
+  ]);
+  const oilLotDtos = oilLots.map((o) => ({
+    oilLotId: o.oilLotId, collectedFrom: o.oilLot.collectedFrom, collectedOn: o.oilLot.collectedOn, liters: Number(o.liters),
+    feedstockCents: feedstockShareCents(Number(o.oilLot.costCents), o.liters, o.oilLot.volumeLiters),
+  }));
+  return {
+    view: 'full', id: row.id, number: row.number, status: row.status, batchDate: row.batchDate,
+    statusChangedAt: new Date(row.statusChangedAt).toISOString(), createdAt: new Date(row.createdAt).toISOString(),
+    oilLiters: Number(row.oilLiters), oilLots: oilLotDtos, plan: computePlan(planInputOf(row)),
+    computedCatalystGrams: Number(row.computedCatalystGrams), computedMethanolLiters: Number(row.computedMethanolLiters),
+    actualCatalystGrams: n(row.actualCatalystGrams), actualMethanolLiters: n(row.actualMethanolLiters),
+    mixingMinutes: row.mixingMinutes, settlingHours: n(row.settlingHours), glycerinLiters: n(row.glycerinLiters),
+    washCycles: row.washCycles, washWaterLiters: n(row.washWaterLiters), dryingMethod: row.dryingMethod, dryingNotes: row.dryingNotes,
+    temperatures: temps.map((r) => {
+      const tempC = Number(r.tempC);
+      return { id: String(r.id), measuredAt: new Date(r.measuredAt).toISOString(), tempC, level: r.level, message: temperatureCheck(tempC, actor.coop.units).message };
+    }),
+    quickTests, quickTestEvaluation, labResults, quality,
+    qualityVerdict: row.qualityVerdict, screeningVerdict: row.screeningVerdict,
+    energy: {
+      kwh: n(row.energyKwh), heaterKw: n(row.heaterKw), heaterHours: n(row.heaterHours), tariffCentsPerKwh: n(row.tariffCentsPerKwh),
+      costCents: energyCentsOf(row),
+    },
+    feedstockCentsOverride: n(row.feedstockCentsOverride),
+    feedstockFromLotsCents: oilLotDtos.reduce((a, o) => a + o.feedstockCents, 0),
+    otherCents: Number(row.otherCents), otherNotes: row.otherNotes,
+    release: row.releasedAt && row.tankId
+      ? { tankId: row.tankId, tankName: tank, releasedLiters: Number(row.releasedLiters), releasedAt: row.releasedAt.toISOString() }
+      : null,
+    rejectedAt: row.rejectedAt ? row.rejectedAt.toISOString() : null, rejectReason: row.rejectReason,
+    costs: costsOf(row),
+    consumptions: consumptions.map((c) => ({
+      chemicalLotId: c.chemicalLotId, kind: c.lot.kind, supplier: c.lot.supplier, receivedOn: c.lot.receivedOn, unit: c.lot.quantityUnit,
+      quantity: Number(c.quantity), costCents: Number(c.costCents),
+    })),
+    files: files.map((f) => ({ id: f.id, purpose: f.purpose, kind: f.fileKind, name: f.originalName, sizeBytes: f.sizeBytes, createdAt: new Date(f.createdAt).toISOString() })),
+    notes: row.notes,
+  };
+}
+
+/** One row of the batch list. */
+export interface BatchListRow {
+  id: number;
+  number: number;
+  status: BatchStatus;
+  batchDate: string;
+  oilLiters: number;
+  releasedLiters: number | null;
+  costPerGallonCents: number | null;
+  costPerLiterCents: number | null;
+  qualityStandard: FuelStandard;
+  qualityVerdict: 'pass' | 'fail' | 'incomplete';
+  screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
+}
+
+/** Sort keys of the list → columns; every sort ends on the batch number (unique per co-op). */
+const LIST_SORT: Record<string, keyof BatchRecord> = {
+  number: 'number', date: 'batchDate', status: 'status', volume: 'releasedLiters', costPerGallon: 'costPerGallonCents',
+};
+const LIST_ATTRIBUTES = [
+  'id', 'number', 'status', 'batchDate', 'oilLiters', 'releasedLiters', 'totalCostCents', 'costPerGallonCents',
+  'qualityStandard', 'qualityVerdict', 'screeningVerdict',
+] as const satisfies readonly (keyof BatchRecord)[];
+const IN_PROGRESS: BatchStatus[] = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
+
+type BatchListQuery = { page: number; pageSize: number; sort: string; dir: 'asc' | 'desc'; status?: string };
+type BatchListPage = { rows: BatchListRow[]; total: number; page: number; pageSize: number };
+
+/**
+ * A page of the co-op's batches, sorted and filtered in SQL (an index on (coop_id, number) or
+ * (coop_id, batch_date, number) gives the order), with the total from the per-status counts the
+ * batches' triggers keep (a few rows instead of counting the co-op's batches on every page); both
+ * read in parallel. Members and treasurers see released batches only.
+ */
+export async function listBatches(actor: Actor, q: BatchListQuery): Promise<BatchListPage> {
+  const all = can(actor.role, 'batches:read-all');
+  if (!all && q.status && q.status !== 'released') return { rows: [], total: 0, page: q.page, pageSize: q.pageSize };
+  const statuses = !all ? ['released'] : q.status === 'in-progress' ? IN_PROGRESS : q.status ? [q.status] : null;
+  const where = statuses ? { coopId: actor.coop.id, status: statuses } : { coopId: actor.coop.id };
+  const key = LIST_SORT[q.sort] ?? 'number';
+  const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
+  // NOT NULL sort columns need no NULLS LAST, so the indexes give the order; volume and cost may be null.
+  const order: [string, string][] =
+    key === 'number' ? [['number', dir]]
+      : key === 'batchDate' || key === 'status' ? [[key, dir], ['number', dir]]
+        : [[key, `${dir} NULLS LAST`], ['number', dir]];
+  const [rows, total] = await Promise.all([
+    Batch.findAll({ attributes: [...LIST_ATTRIBUTES], where, order, limit: q.pageSize, offset: (q.page - 1) * q.pageSize, raw: true }),
+    BatchStatusCount.sum('n', { where }),
+  ]);
+  return {
+    rows: rows.map((r) => {
+      const releasedLiters = n(r.releasedLiters);
+      return {
+        id: r.id, number: r.number, status: r.status, batchDate: r.batchDate, oilLiters: Number(r.oilLiters), releasedLiters,
+        costPerGallonCents: n(r.costPerGallonCents),
+        costPerLiterCents: r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
+        qualityStandard: r.qualityStandard, qualityVerdict: r.qualityVerdict, screeningVerdict: r.screeningVerdict,
+      };
+    }),
+    total: Number(total ?? 0), page: q.page, pageSize: q.pageSize,
+  };
+}

@@ -1,0 +1,99 @@
+import 'server-only';
+import { QueryTypes } from 'sequelize';
+import { sequelize } from '@/lib/db';
+import type { InferAttributes } from 'sequelize';
+import type { Invoice, Membership, TankMovement, User } from '@/models';
+
+// The overview's statements a model query can't say: chart series over a calendar made with
+// generate_series (months or days with no rows still appear, as zero), the tank level carried
+// forward per day, and the top of a grouped aggregate with its totals. Values are always bound.
+
+/** One month of the volume chart: YYYY-MM in the co-op's time zone, litres (NUMERIC strings). */
+export interface MonthVolumeRow {
+  month: string;
+  released: InferAttributes<TankMovement>['quantityLiters'];
+  drawn: InferAttributes<TankMovement>['quantityLiters'];
+}
+
+/**
+ * Litres released into tanks (release movements) and drawn (draws, reversals counting
+ * negatively) per calendar month in `timeZone`, for the last 12 months including this one,
+ * oldest first.
+ */
+export function monthlyVolumes(coopId: number, timeZone: string): Promise<MonthVolumeRow[]> {
+  return sequelize.query<MonthVolumeRow>(
+    `WITH months AS (
+       SELECT generate_series(date_trunc('month', now() AT TIME ZONE $tz::text) - interval '11 months',
+                              date_trunc('month', now() AT TIME ZONE $tz::text), interval '1 month') AS m
+     ), since AS (SELECT (MIN(m) AT TIME ZONE $tz::text) AS lo FROM months),
+     rel AS (
+       SELECT date_trunc('month', t.occurred_at AT TIME ZONE $tz::text) AS m, SUM(t.quantity_liters) AS q
+       FROM tank_movements t, since WHERE t.coop_id = $coopId AND t.kind = 'release' AND t.occurred_at >= since.lo GROUP BY 1
+     ),
+     dr AS (
+       SELECT date_trunc('month', d.occurred_at AT TIME ZONE $tz::text) AS m, SUM(d.quantity_liters) AS q
+       FROM draws d, since WHERE d.coop_id = $coopId AND d.occurred_at >= since.lo GROUP BY 1
+     )
+     SELECT to_char(months.m, 'YYYY-MM') AS month, COALESCE(rel.q, 0) AS released, COALESCE(dr.q, 0) AS drawn
+     FROM months LEFT JOIN rel ON rel.m = months.m LEFT JOIN dr ON dr.m = months.m ORDER BY months.m`,
+    { bind: { coopId, tz: timeZone }, type: QueryTypes.SELECT },
+  );
+}
+
+/** One day of the tank-level chart: YYYY-MM-DD in the co-op's time zone, litres on hand at its end. */
+export interface DayLevelRow {
+  day: string;
+  onHand: InferAttributes<TankMovement>['onHandAfterLiters'];
+}
+
+/**
+ * Fuel on hand across the co-op's active tanks at the end of each of the last 90 days (today
+ * included) in `timeZone`: per tank the balance after its last movement before the day ended,
+ * from the ledger's (coop_id, tank_id, occurred_at) index, oldest first.
+ */
+export function dailyTankLevel(coopId: number, timeZone: string): Promise<DayLevelRow[]> {
+  return sequelize.query<DayLevelRow>(
+    `WITH days AS (
+       SELECT generate_series((now() AT TIME ZONE $tz::text)::date - 89, (now() AT TIME ZONE $tz::text)::date, interval '1 day')::date AS d
+     )
+     SELECT to_char(days.d, 'YYYY-MM-DD') AS day, COALESCE(SUM(x.on_hand_after_liters), 0) AS "onHand"
+     FROM days CROSS JOIN tanks t
+     LEFT JOIN LATERAL (
+       SELECT m.on_hand_after_liters FROM tank_movements m
+       WHERE m.coop_id = $coopId AND m.tank_id = t.id AND m.occurred_at < ((days.d + 1)::timestamp AT TIME ZONE $tz::text)
+       ORDER BY m.occurred_at DESC, m.id DESC LIMIT 1
+     ) x ON true
+     WHERE t.coop_id = $coopId AND t.active
+     GROUP BY days.d ORDER BY days.d`,
+    { bind: { coopId, tz: timeZone }, type: QueryTypes.SELECT },
+  );
+}
+
+/** One member among those owing most, with how many owe anything and their total (the same on every row). */
+export interface OwingRow {
+  membershipId: InferAttributes<Membership>['id'] | null;
+  name: InferAttributes<User>['name'] | null;
+  outstanding: InferAttributes<Invoice>['totalCents'] | null;
+  members: string;
+  total: string;
+}
+
+/**
+ * The ten members owing most on issued invoices (largest first, then by membership), and how
+ * many members owe anything and how much in all. Always at least one row: when nobody owes,
+ * one row with null member fields and zero totals. A removed member's name is null.
+ */
+export function topOwing(coopId: number): Promise<OwingRow[]> {
+  return sequelize.query<OwingRow>(
+    `WITH owing AS (
+       SELECT membership_id, SUM(GREATEST(total_cents - paid_cents, 0)) AS outstanding FROM invoices
+       WHERE coop_id = $coopId AND kind = 'invoice' AND status IN ('issued','partly-paid')
+       GROUP BY membership_id HAVING SUM(GREATEST(total_cents - paid_cents, 0)) > 0
+     ), totals AS (SELECT COUNT(*) AS members, COALESCE(SUM(outstanding), 0) AS total FROM owing)
+     SELECT o.membership_id AS "membershipId", u.name, o.outstanding, totals.members, totals.total
+     FROM totals LEFT JOIN LATERAL (SELECT * FROM owing ORDER BY outstanding DESC, membership_id LIMIT 10) o ON true
+     LEFT JOIN memberships m ON m.id = o.membership_id AND m.coop_id = $coopId LEFT JOIN users u ON u.id = m.user_id
+     ORDER BY o.outstanding DESC NULLS LAST, o.membership_id`,
+    { bind: { coopId }, type: QueryTypes.SELECT },
+  );
+}
