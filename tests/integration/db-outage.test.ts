@@ -8,7 +8,7 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import bcrypt from 'bcryptjs';
-import pg from 'pg';
+import { QueryTypes, Sequelize } from 'sequelize';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 // @ts-expect-error plain ESM helpers shared with the start script
@@ -30,6 +30,9 @@ let next: ChildProcess | null = null;
 let baseUrl = '';
 let logText = '';
 
+/** A connection to the test's database apart from the server's, for arranging and checking rows. */
+const directConnection = () => new Sequelize(databaseUrl, { logging: false, pool: { max: 1, min: 0 } });
+
 /** Starts the test's own PostgreSQL on its data folder and port (a restart reuses both). */
 async function startPg() {
   const p = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: pgPort, dbName: 'tallyvat_outage', log: () => {} });
@@ -41,10 +44,9 @@ beforeAll(async () => {
   pgPort = await freePort();
   await startPg();
   migrate({ databaseUrl });
-  const client = new pg.Client({ connectionString: databaseUrl });
-  await client.connect();
-  await client.query('INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3)', [EMAIL, 'Outage Tester', bcrypt.hashSync(PASSWORD, 10)]);
-  await client.end();
+  const store = directConnection();
+  await store.query('INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3)', { bind: [EMAIL, 'Outage Tester', bcrypt.hashSync(PASSWORD, 10)], type: QueryTypes.INSERT });
+  await store.close();
 
   const port = await freePort();
   baseUrl = `http://127.0.0.1:${port}`;
@@ -152,10 +154,9 @@ describe('database outage', () => {
     expect(writes.filter((w) => w.phase === 'down' && w.status === 503).length).toBeGreaterThan(0);
     expect(writes.filter((w) => w.phase === 'after' && w.status === 201).length).toBeGreaterThan(0);
 
-    const client = new pg.Client({ connectionString: databaseUrl });
-    await client.connect();
-    const { rows } = await client.query<{ slug: string }>('SELECT slug FROM coops WHERE slug = ANY($1)', [writes.map((w) => w.slug)]);
-    await client.end();
+    const store = directConnection();
+    const rows = await store.query<{ slug: string }>('SELECT slug FROM coops WHERE slug = ANY($1)', { bind: [writes.map((w) => w.slug)], type: QueryTypes.SELECT });
+    await store.close();
     const stored = new Set(rows.map((r) => r.slug));
     expect(writes.filter((w) => w.status === 201 && !stored.has(w.slug)), 'acknowledged writes missing from the database').toEqual([]);
 
