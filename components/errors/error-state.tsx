@@ -61,6 +61,13 @@ export function ErrorState({ error, reset }: { error: Error & { digest?: string 
       reset();
     });
 
+  if (health === 'checking') {
+    return (
+      <main className="mx-auto max-w-lg px-4 py-16 text-center" data-state="checking">
+        <p role="status" className="text-stone-700">This page could not be shown; checking why…</p>
+      </main>
+    );
+  }
   if (health === 'db-down') {
     return (
       <main className="mx-auto max-w-lg px-4 py-16 text-center" data-state="database-unavailable">
