@@ -11,6 +11,7 @@ import bcrypt from 'bcryptjs';
 import { QueryTypes, Sequelize } from 'sequelize';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { withBrowser } from '../support/browser';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { startEmbeddedPg, freePort, stopLeftover } from '../../scripts/lib/pg.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
@@ -169,5 +170,25 @@ describe('database outage', () => {
     const access = lines.filter((l) => l.msg === 'request' && l.route === '/api/coops');
     expect(access.length).toBeGreaterThan(20);
     expect(access.every((l) => typeof l.requestId === 'string' && typeof l.status === 'number' && typeof l.durationMs === 'number')).toBe(true);
+  });
+
+  it('a page shows the "we can\'t reach the database" state with a reference, and comes back by itself', { timeout: 180_000 }, async () => {
+    await withBrowser(async (page) => {
+      await page.goto(`${baseUrl}/sign-in`);
+      await page.getByLabel('E-mail').fill(EMAIL);
+      await page.getByLabel('Password').fill(PASSWORD);
+      await Promise.all([page.waitForURL((u) => !u.pathname.startsWith('/sign-in')), page.getByRole('button', { name: 'Sign in' }).click()]);
+
+      stopPg();
+      await page.goto(`${baseUrl}/coops`);
+      await page.getByRole('heading', { name: 'We can’t reach the database' }).waitFor({ timeout: 20_000 });
+      expect(await page.getByText('Reference:').textContent()).toMatch(/Reference: \S+/);
+
+      await startPg();
+      // The page checks again every few seconds and shows itself once the database answers.
+      await page.locator('[data-state="database-unavailable"]').waitFor({ state: 'detached', timeout: 20_000 });
+      await page.locator('[data-state="error"], [data-state="checking"]').waitFor({ state: 'detached', timeout: 10_000 });
+      expect(await page.locator('main').first().textContent()).not.toContain('reach the database');
+    });
   });
 });
