@@ -57,8 +57,9 @@ writeLock();
 const children = {};
 /** Everything to undo on the way out, run last-first: servers, fakes, the database. */
 const cleanups = [];
-/** Upper bound for stopping everything; a cleanup that hangs must not keep the ports open. */
-const SHUTDOWN_DEADLINE_MS = 8_000;
+/** Upper bounds for stopping one thing and everything (a child gets SIGTERM, then SIGKILL after 3 s). */
+const STEP_DEADLINE_MS = 4_000;
+const SHUTDOWN_DEADLINE_MS = 9_000;
 let stopping = false;
 async function shutdown(code = 0) {
   if (stopping) return;
@@ -71,10 +72,14 @@ async function shutdown(code = 0) {
     process.exit(code || 1);
   }, SHUTDOWN_DEADLINE_MS);
   for (const fn of cleanups.reverse()) {
+    // One step that hangs (a server waiting on an open connection) must not keep the others running.
+    let timer;
     try {
-      await fn();
+      await Promise.race([fn(), new Promise((resolve) => (timer = setTimeout(resolve, STEP_DEADLINE_MS)))]);
     } catch (e) {
       console.error(e);
+    } finally {
+      clearTimeout(timer);
     }
   }
   clearTimeout(deadline);
@@ -93,7 +98,7 @@ function supervise(name, child) {
   children[name] = child;
   lockInfo.children[name] = child.pid;
   writeLock();
-  cleanups.push(() => stopChild(child));
+  cleanups.push(() => stopChild(child, 3_000));
   child.on('exit', (code, signal) => {
     if (stopping) return;
     console.error(`\n[tallyvat] ${name} stopped unexpectedly (${signal ? `signal ${signal}` : `exit code ${code}`}); stopping everything.\n`);

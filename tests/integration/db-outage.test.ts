@@ -190,5 +190,11 @@ describe('database outage', () => {
       await page.locator('[data-state="error"], [data-state="checking"]').waitFor({ state: 'detached', timeout: 10_000 });
       expect(await page.locator('main').first().textContent()).not.toContain('reach the database');
     });
+    // The page views that met the outage add no stack traces: one line down, one line up, per outage.
+    await sleep(500);
+    const lines = logLines();
+    expect(lines.filter((l) => l.event === 'database.down')).toHaveLength(2);
+    expect(lines.filter((l) => l.event === 'database.up')).toHaveLength(2);
+    expect(logText.split('\n').filter((l) => /Sequelize\w*Error|ECONNREFUSED/.test(l) && !l.includes('"database.down"')), logText.slice(-4000)).toEqual([]);
   });
 });
