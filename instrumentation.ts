@@ -1,19 +1,18 @@
 import type { Instrumentation } from 'next';
 
-/** Marks an error this file has logged, so Next's own plain-text copy of it is not printed too. */
-const LOGGED = Symbol.for('tallyvat.logged');
-
-type Marked = { [LOGGED]?: boolean };
-
 /**
- * Next prints every page error itself after `onRequestError` has seen it; errors logged below are
- * marked, and their second, plain-text copy is dropped here so each error is in the log once.
+ * Next prints every page error in plain text as well as handing it to `onRequestError` below. The
+ * plain copy is dropped for the errors `onRequestError` logs — render errors, which carry a digest —
+ * and for an unreachable database (logged once per outage), so each error is in the log once.
  */
 export async function register() {
   if (process.env.NEXT_RUNTIME !== 'nodejs') return;
+  const { isDatabaseUnavailable, noteDatabaseUnavailable } = await import('@/lib/db-outage');
   const print = console.error.bind(console);
   console.error = (...args: unknown[]) => {
-    if (args.some((a) => typeof a === 'object' && a !== null && (a as Marked)[LOGGED])) return;
+    const err = args.find((a): a is Error & { digest?: unknown } => a instanceof Error);
+    if (err && isDatabaseUnavailable(err)) return noteDatabaseUnavailable(err);
+    if (err && typeof err.digest === 'string') return;
     print(...args);
   };
 }
@@ -26,11 +25,7 @@ export async function register() {
 export const onRequestError: Instrumentation.onRequestError = async (error, request, context) => {
   if (process.env.NEXT_RUNTIME !== 'nodejs') return;
   const [{ log }, outage] = await Promise.all([import('@/lib/log'), import('@/lib/db-outage')]);
-  if (outage.isDatabaseUnavailable(error)) {
-    outage.noteDatabaseUnavailable(error);
-  } else {
-    const digest = (error as { digest?: string }).digest;
-    log.error({ digest, method: request.method, route: request.path, routePath: context.routePath, routeType: context.routeType, err: error }, 'page error');
-  }
-  if (typeof error === 'object' && error !== null) (error as Marked)[LOGGED] = true;
+  if (outage.isDatabaseUnavailable(error)) return outage.noteDatabaseUnavailable(error);
+  const digest = (error as { digest?: string }).digest;
+  log.error({ digest, method: request.method, route: request.path, routePath: context.routePath, routeType: context.routeType, err: error }, 'page error');
 };
