@@ -22,7 +22,7 @@ export default defineConfig({
         resolve: { alias },
         test: {
           name: 'integration',
-          include: ['tests/api/**/*.test.ts', 'tests/integration/**/*.test.ts', 'tests/e2e/**/*.test.ts'],
+          include: ['tests/api/**/*.test.ts', 'tests/integration/**/*.test.ts', 'tests/e2e/**/*.test.ts', 'tests/security/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/support/global-setup.ts'],
           fileParallelism: false,

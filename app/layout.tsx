@@ -1,5 +1,6 @@
 import type { Metadata, Viewport } from 'next';
 import localFont from 'next/font/local';
+import { connection } from 'next/server';
 import './globals.css';
 
 // Fonts ship with the app (fonts/), nothing is downloaded at build or run time.
@@ -20,7 +21,9 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { width: 'device-width', initialScale: 1, themeColor: '#1d3f33' };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // Every page renders per request: its scripts carry the request's CSP nonce (see proxy.ts).
+  await connection();
   return (
     <html lang="en" className={inter.variable}>
       <body className="min-h-screen font-sans">{children}</body>

@@ -133,7 +133,7 @@ try {
   const keep = (res) => res.headers.getSetCookie().forEach((c) => { const [kv] = c.split(';'); const i = kv.indexOf('='); jar.set(kv.slice(0, i), kv.slice(i + 1)); });
   const cookie = () => [...jar].map(([k, v]) => `${k}=${v}`).join('; ');
   const call = async (p, init = {}) => {
-    const res = await fetch(`${base}${p}`, { ...init, redirect: 'manual', headers: { ...(init.headers ?? {}), cookie: cookie() } });
+    const res = await fetch(`${base}${p}`, { ...init, redirect: 'manual', headers: { origin: base, ...(init.headers ?? {}), cookie: cookie() } });
     keep(res);
     return res;
   };

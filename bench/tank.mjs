@@ -136,7 +136,7 @@ try {
     setupRequest: (req) => {
       n += 1;
       const tank = tanks[n % tanks.length];
-      return { ...req, headers: { 'content-type': 'application/json', cookie: cookies[n % cookies.length] },
+      return { ...req, headers: { 'content-type': 'application/json', origin: base, cookie: cookies[n % cookies.length] },
         body: JSON.stringify({ tankId: tank.id, quantity: sizes[n % sizes.length], windowStart: today, windowEnd: until }) };
     },
   }];

@@ -6,6 +6,8 @@ export class SignInAttempt extends Model<InferAttributes<SignInAttempt>, InferCr
   declare email: string;
   declare address: string;
   declare succeeded: boolean;
+  /** The known-device cookie's id when the attempt came from a device that signed in before. */
+  declare deviceId: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize) {
@@ -15,6 +17,7 @@ export class SignInAttempt extends Model<InferAttributes<SignInAttempt>, InferCr
         email: { type: DataTypes.STRING(254), allowNull: false },
         address: { type: DataTypes.STRING(64), allowNull: false },
         succeeded: { type: DataTypes.BOOLEAN, allowNull: false },
+        deviceId: { type: DataTypes.STRING(32), allowNull: true },
         createdAt: DataTypes.DATE,
       },
       { sequelize, modelName: 'SignInAttempt', tableName: 'sign_in_attempts', underscored: true, updatedAt: false },

@@ -111,3 +111,10 @@ export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInA
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
 export { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, LowStockAlert, OilLot };
 export { BillingAdjustment, BillingPeriod, BillingRun, Invoice, InvoiceCounter, InvoiceLine, MemberCredit, Payment, PaymentAttempt, PaymentWebhookEvent, Refund };
+
+// server-side sessions (sign-out revokes the row; requireMember includes it in its one query)
+import { Session } from './Session';
+Session.initModel(sequelize);
+User.hasMany(Session, { foreignKey: 'userId', as: 'sessions' });
+Session.belongsTo(User, { foreignKey: 'userId', as: 'user' });
+export { Session };

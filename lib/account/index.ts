@@ -1,10 +1,12 @@
 import 'server-only';
-import { fn, literal, Op, UniqueConstraintError, type InferAttributes, type Transaction } from 'sequelize';
+import { fn, Op, UniqueConstraintError, type InferAttributes, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
 import { emailIs } from '@/lib/auth/email';
 import { hashPassword, isCommonPassword, verifyPassword } from '@/lib/auth/passwords';
+import { CURRENT_PASSWORD_WINDOW_MINUTES, currentPasswordWaitSeconds, recordCurrentPasswordFailure } from '@/lib/auth/rate-limit';
+import { revokeAllSessions } from '@/lib/auth/sessions';
 import type { Role } from '@/lib/auth/roles';
 import { EMAIL_CHANGE_TTL_MS, hashLinkToken, isLinkTokenShape, newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
@@ -31,8 +33,6 @@ export interface ProfileDto {
   coops: { slug: string; name: string; role: Role; status: MembershipStatus; joinedAt: string; timezone: string }[];
 }
 
-/** Bumps the session version: every session of the person ends (each request re-reads it). */
-const NEXT_SESSION_VERSION = literal('session_version + 1');
 
 type MyMembership = Pick<InferAttributes<Membership>, 'role' | 'status' | 'joinedAt'> & { coop: Pick<InferAttributes<Coop>, 'slug' | 'name' | 'timezone'> };
 
@@ -86,28 +86,42 @@ export async function updateProfile(user: SessionUser, input: z.infer<typeof pro
   return { name: input.name };
 }
 
-async function checkCurrentPassword(userId: number, plain: string, field: string) {
-  const row = await User.findByPk(userId, { attributes: ['passwordHash'], raw: true });
-  if (!(await verifyPassword(plain, row?.passwordHash))) throw invalidFields({ [field]: ['That is not your current password.'] });
+/**
+ * Checks the current password asked for inside a session (e-mail or password change). Wrong
+ * guesses are throttled per person: after 5 wrong in 15 minutes, 429 until the oldest ages out
+ * (a stolen session cannot be used to guess the password).
+ */
+async function checkCurrentPassword(user: SessionUser, plain: string, field: string) {
+  const wait = await currentPasswordWaitSeconds(user.email);
+  if (wait > 0) {
+    throw new HttpError(429, `Too many wrong passwords. Wait up to ${CURRENT_PASSWORD_WINDOW_MINUTES} minutes and try again.`, undefined, { retryAfter: wait });
+  }
+  const row = await User.findByPk(user.id, { attributes: ['passwordHash'], raw: true });
+  if (!(await verifyPassword(plain, row?.passwordHash))) {
+    await recordCurrentPasswordFailure(user.email);
+    throw invalidFields({ [field]: ['That is not your current password.'] });
+  }
 }
 
 /**
- * Changes the password (the current one is required) and bumps the session version, which
- * ends every session of this person, this one included: the browser signs in again with the
+ * Changes the password (the current one is required) and revokes every session of this person, this one included: the browser signs in again with the
  * new password right after (the profile form does it), other devices must sign in again.
  */
 export async function changePassword(user: SessionUser, input: z.infer<typeof passwordChangeSchema>): Promise<{ changed: true }> {
   if (isCommonPassword(input.newPassword)) throw invalidFields({ newPassword: [COMMON] });
   if (input.newPassword === input.currentPassword) throw invalidFields({ newPassword: ['Choose a password different from the current one.'] });
-  await checkCurrentPassword(user.id, input.currentPassword, 'currentPassword');
+  await checkCurrentPassword(user, input.currentPassword, 'currentPassword');
   const hash = await hashPassword(input.newPassword);
-  await User.update({ passwordHash: hash, sessionVersion: NEXT_SESSION_VERSION }, { where: { id: user.id } });
+  await inTransaction(async (transaction) => {
+    await User.update({ passwordHash: hash }, { where: { id: user.id }, transaction });
+    await revokeAllSessions(user.id, transaction);
+  });
   return { changed: true };
 }
 
 /** Ends every session of this person on every device (this one too). */
 export async function signOutEverywhere(user: SessionUser): Promise<{ signedOut: true }> {
-  await User.update({ sessionVersion: NEXT_SESSION_VERSION }, { where: { id: user.id } });
+  await revokeAllSessions(user.id);
   return { signedOut: true };
 }
 
@@ -117,12 +131,31 @@ const emailTaken = async (email: string, exceptUserId: number, transaction?: Tra
 /**
  * Starts a change of e-mail address: after checking the current password, a single-use link
  * valid for 24 hours goes to the NEW address; the address changes only when it is opened.
- * An earlier pending change is cancelled. 409 when another account uses the address.
+ * An earlier pending change is cancelled. The answer is the same when another account uses the
+ * address (nothing reveals who has an account): then no link is made, and that account's owner
+ * is told by e-mail that someone tried to move an account to their address.
  */
 export async function requestEmailChange(user: SessionUser, input: z.infer<typeof emailChangeSchema>): Promise<{ pendingEmail: string; sent: boolean }> {
   if (input.email === user.email.toLowerCase()) throw invalidFields({ email: ['That is already your e-mail address.'] });
-  await checkCurrentPassword(user.id, input.currentPassword, 'currentPassword');
-  if (await emailTaken(input.email, user.id)) throw conflict('Another account already uses that e-mail address.');
+  await checkCurrentPassword(user, input.currentPassword, 'currentPassword');
+  if (await emailTaken(input.email, user.id)) {
+    const sent = await sendMail({
+      to: input.email,
+      subject: 'Someone tried to use your e-mail address on Tallyvat',
+      text: [
+        'Hello,',
+        '',
+        `Someone signed in to another Tallyvat account asked to change that account's e-mail address to ${input.email}.`,
+        'That address already belongs to your account, so nothing was changed and your account is as it was.',
+        '',
+        'If this was you, sign in with this address instead. If not, you need not do anything.',
+        '',
+        '-- ',
+        'Tallyvat',
+      ].join('\n'),
+    });
+    return { pendingEmail: input.email, sent };
+  }
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + EMAIL_CHANGE_TTL_MS);
   await inTransaction(async (transaction) => {
@@ -296,7 +329,7 @@ export async function checkPasswordReset(token: string): Promise<{ email: string
 
 /**
  * Sets a new password from a reset link: single use (the token row is locked and marked used,
- * with every other reset link of the person), and every session ends (session version bumped).
+ * with every other reset link of the person), and every session of the person is revoked.
  */
 export async function resetPassword(token: string, input: z.infer<typeof passwordResetSchema>): Promise<{ email: string }> {
   const pre = await findToken('password-reset', token);
@@ -308,7 +341,8 @@ export async function resetPassword(token: string, input: z.infer<typeof passwor
     const row = await findToken('password-reset', token, transaction);
     const state = linkState(row);
     if (state !== 'ok' || !row) throw linkError(state === 'ok' ? 'invalid' : state, RESET_MESSAGES);
-    await User.update({ passwordHash: hash, sessionVersion: NEXT_SESSION_VERSION }, { where: { id: row.userId }, transaction });
+    await User.update({ passwordHash: hash }, { where: { id: row.userId }, transaction });
+    await revokeAllSessions(row.userId, transaction);
     await AuthToken.update({ usedAt: fn('now') }, { where: { userId: row.userId, kind: 'password-reset', usedAt: null }, transaction });
     // The sign-in limit tells a locked-out person to reset their password: doing so lifts the
     // account's lock (failures counted per address still apply).

@@ -1,3 +1,4 @@
 export { authOptions } from './options';
-export { getSessionUser, requireUser, requireMember, findActor, listMyCoops, type Actor, type SessionUser } from './session';
+export { getSessionUser, touchCurrentSession, requireUser, requireMember, findActor, listMyCoops, type Actor, type SessionUser } from './session';
 export { can, POLICY, type Action } from './policies';
+export { requirePageActor } from './page';

@@ -6,10 +6,11 @@ import { cache } from 'react';
 import type { InferAttributes } from 'sequelize';
 import { forbidden, HttpError, notFound, unauthorized } from '@/lib/http';
 import type { Role } from '@/lib/auth/roles';
-import { Coop, Membership, User } from '@/models';
+import { Coop, Membership, Session, User } from '@/models';
 import type { CoopSettings } from '@/models/Coop';
 import type { MembershipStatus } from '@/models/Membership';
 import { can, type Action } from './policies';
+import { liveSessionWhere, touchSession } from './sessions';
 
 export type SessionUser = Pick<InferAttributes<User>, 'id' | 'email' | 'name'>;
 
@@ -23,10 +24,10 @@ export interface Actor {
   membershipId: number;
 }
 
-/** What the session cookie says: the user id and the session version it was issued with. */
+/** What the session cookie says: the user id and the server-side session's id (lib/auth/sessions.ts). */
 interface SessionClaims {
   uid: number;
-  sv: number;
+  sid: string;
 }
 
 /**
@@ -40,27 +41,40 @@ const readSession = cache(async (): Promise<SessionClaims | null> => {
   if (!cookie) return null;
   const token = await getToken({ req: new NextRequest('http://localhost/', { headers: { cookie } }) });
   const uid = Number(token?.uid);
-  const sv = Number(token?.sv);
-  return Number.isInteger(uid) && uid > 0 && Number.isInteger(sv) ? { uid, sv } : null;
+  const sid = token?.sid;
+  return Number.isInteger(uid) && uid > 0 && typeof sid === 'string' && sid.length > 0 && sid.length <= 64 ? { uid, sid } : null;
 });
 
-const USER_ATTRIBUTES = ['id', 'email', 'name', 'sessionVersion'] as const;
+const USER_ATTRIBUTES = ['id', 'email', 'name'] as const;
 
-/** The user's row when the cookie's session version is still theirs (a password change or sign-out everywhere bumps it). */
-function current<U extends Pick<InferAttributes<User>, 'sessionVersion'>>(user: U | null, session: SessionClaims): U | null {
-  return user && user.sessionVersion === session.sv ? user : null;
-}
+/** The cookie's session row, required in the user's query: no live session, no user. */
+const sessionInclude = (session: SessionClaims) => ({
+  model: Session,
+  as: 'sessions',
+  required: true,
+  attributes: ['id'],
+  where: liveSessionWhere(session.sid),
+});
 
 /**
- * The signed-in user, re-read from the database on every request: a cookie whose session
- * version no longer matches (password changed, signed out everywhere) counts as signed out.
+ * The signed-in user, re-read from the database on every request with the cookie's session row
+ * in the same query: a session that was signed out, revoked, expired or idle counts as signed out.
  */
 export const getSessionUser = cache(async (): Promise<SessionUser | null> => {
   const session = await readSession();
   if (!session) return null;
-  const user = current(await User.findByPk(session.uid, { attributes: [...USER_ATTRIBUTES], raw: true }), session);
+  const user = await User.findByPk(session.uid, { attributes: [...USER_ATTRIBUTES], include: [sessionInclude(session)], raw: true, nest: true });
   return user && { id: user.id, email: user.email, name: user.name };
 });
+
+/**
+ * Records that the current session made a write (it then stays alive past the idle timeout);
+ * call after a successful write. No-op without a session.
+ */
+export async function touchCurrentSession(): Promise<void> {
+  const session = await readSession();
+  if (session) await touchSession(session.sid);
+}
 
 /** The signed-in user or a 401. */
 export async function requireUser(): Promise<SessionUser> {
@@ -90,18 +104,19 @@ export const listMyCoops = cache(async (userId: number): Promise<MyCoop[]> => {
 });
 
 /**
- * The user with their session version and their membership in the co-op of the URL, as one row
+ * The user with their live session and their membership in the co-op of the URL, as one row
  * (raw, nested): `memberships` is the membership in that co-op, all nulls when there is none.
  */
 type SessionRow = Pick<InferAttributes<User>, (typeof USER_ATTRIBUTES)[number]> & {
+  sessions: { id: string };
   memberships: { id: number | null; role: Role; status: MembershipStatus; coop: ActorCoop };
 };
 
-/** One query: the user, their session version, and their membership in the co-op whose slug is given. */
-const loadSessionRow = cache(async (userId: number, coopSlug: string): Promise<SessionRow | null> =>
-  (await User.findByPk(userId, {
+/** One query: the user, their live session, and their membership in the co-op whose slug is given. */
+const loadSessionRow = cache(async (session: SessionClaims, coopSlug: string): Promise<SessionRow | null> =>
+  (await User.findByPk(session.uid, {
     attributes: [...USER_ATTRIBUTES],
-    include: [{
+    include: [sessionInclude(session), {
       model: Membership,
       as: 'memberships',
       required: false,
@@ -121,14 +136,14 @@ const loadSessionRow = cache(async (userId: number, coopSlug: string): Promise<S
 
 /**
  * The one authorization entry point: session → membership in the co-op of the URL → may this
- * role do this action. 401 without a session (or with one ended by a password change or sign-out
- * everywhere); 404 when the user is not in that co-op (its existence is not revealed); 403 when
- * suspended or the role may not.
+ * role do this action. 401 without a session (or with one signed out, revoked, expired or idle);
+ * 404 when the user is not in that co-op (its existence is not revealed); 403 when suspended or
+ * the role may not.
  */
 export async function requireMember(coopSlug: string, action: Action): Promise<Actor> {
   const session = await readSession();
   if (!session) throw unauthorized();
-  const row = current(await loadSessionRow(session.uid, String(coopSlug).slice(0, 60)), session);
+  const row = await loadSessionRow(session, String(coopSlug).slice(0, 60));
   if (!row) throw unauthorized();
   const m = row.memberships;
   if (m.id === null) throw notFound('Co-op not found.');

@@ -2,11 +2,8 @@ import 'server-only';
 import { notFound } from '@/lib/http';
 import { PERIOD_PATTERN } from './periods';
 
-/** A numeric id from the URL; anything else is a 404 (the row cannot exist). */
-export function idParam(s: string): number {
-  if (!/^[1-9]\d{0,9}$/.test(s) || Number(s) > 2_147_483_647) throw notFound();
-  return Number(s);
-}
+/** A numeric id from the URL; anything else is a 404 (the one parser, in lib/validation). */
+export { idParam } from '@/lib/validation/id-param';
 
 /** A 'YYYY-MM' month from the URL; anything else is a 404. */
 export function periodParam(s: string): string {

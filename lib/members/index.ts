@@ -188,9 +188,5 @@ export async function removeMembership(actor: Actor, membershipId: number): Prom
   }
 }
 
-/** A numeric id from the URL (`/members/12`); anything else is a 404, like a row that is not there. */
-export function idParam(raw: string | undefined): number {
-  const n = Number(raw);
-  if (!raw || !/^\d{1,9}$/.test(raw) || !Number.isSafeInteger(n) || n < 1) throw notFound();
-  return n;
-}
+/** A numeric id from the URL (`/members/12`); anything else is a 404 (the one parser, in lib/validation). */
+export { idParam } from '@/lib/validation/id-param';

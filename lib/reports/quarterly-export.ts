@@ -1,11 +1,10 @@
 import 'server-only';
+import { csvRows } from '@/lib/csv';
 import { formatCents } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
 import { formatVolume, volumeFromLiters, volumeLabel } from '@/lib/units';
 import { VOLUME_COLUMNS, type QuarterlyReport, type VolumeRow } from './quarterly';
 
-
-const csvCell = (v: string | number) => (/[",\n]/.test(String(v)) ? `"${String(v).replace(/"/g, '""')}"` : String(v));
 
 /** CSV: one row per month and a total row; volumes in the co-op's unit (3 decimals), money in dollars. */
 export function quarterlyCsv(r: QuarterlyReport): string {
@@ -17,7 +16,7 @@ export function quarterlyCsv(r: QuarterlyReport): string {
     (row.roadTaxCents / 100).toFixed(2),
     row.draws,
   ];
-  return [header, ...r.months.map(line), line(r.total)].map((cells) => cells.map(csvCell).join(',')).join('\r\n') + '\r\n';
+  return csvRows([header, ...r.months.map(line), line(r.total)]);
 }
 
 /** A one-page PDF of the quarterly volume report with the filing disclaimer. */

@@ -1,8 +1,2 @@
-import 'server-only';
-import { notFound } from '@/lib/http';
-
-/** A numeric id from a URL segment; anything else is a 404 (as an unknown id would be). */
-export function idParam(value: string | undefined, what = 'Not found.'): number {
-  if (!value || !/^[1-9]\d{0,8}$/.test(value)) throw notFound(what);
-  return Number(value);
-}
+// The one id parser lives in lib/validation; this name stays for the routes that import it from here.
+export { idParam } from '@/lib/validation/id-param';

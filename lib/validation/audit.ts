@@ -1,10 +1,11 @@
 import { z } from 'zod';
+import { idSchema } from './common';
 
 const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-01.');
 
 /** Filters for the audit log: who (user id), what (action prefix or entity), when (from/to dates). */
 export const auditQuerySchema = z.object({
-  actor: z.coerce.number().int().positive('Choose a person.').optional(),
+  actor: idSchema('Choose a person.').optional(),
   action: z.string().trim().max(60, 'At most 60 characters.').optional(),
   from: day.optional(),
   to: day.optional(),

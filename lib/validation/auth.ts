@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ROLES } from '@/lib/auth/roles';
+import { timeZoneSchema } from './common';
 
 // Shared by the forms (client) and the route handlers (server).
 
@@ -57,5 +58,5 @@ export const coopCreateSchema = z.strictObject({
     .trim()
     .regex(/^[a-z0-9][a-z0-9-]{1,58}[a-z0-9]$/, 'Use 3–60 lower-case letters, digits and dashes.'),
   units: z.enum(['us', 'metric'], { error: 'Choose US gallons/°F or litres/°C.' }).default('us'),
-  timezone: z.string().trim().min(1).max(60).default('America/Chicago'),
+  timezone: timeZoneSchema.default('America/Chicago'),
 });

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { PERIOD_PATTERN } from '@/lib/billing/periods';
 import { safeParseMoneyToCents } from '@/lib/money/format';
 import { TEST_CARD_TOKENS } from '@/lib/payments/test-cards';
+import { idSchema as commonIdSchema } from './common';
 import { listQuerySchema } from './list';
 
 // Billing schemas, shared by the forms (client) and the route handlers (server).
@@ -16,7 +17,7 @@ export const dateSchema = z
   .regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter a date (YYYY-MM-DD).')
   .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), 'Enter a real date.');
 
-const idSchema = z.coerce.number({ error: 'Choose one.' }).int('Choose one.').positive('Choose one.').max(2_147_483_647);
+const idSchema = commonIdSchema('Choose one.');
 
 /** Money typed as text ("12.34"): parsed to integer cents without floating point. */
 function money(opts: { signed: boolean }) {
@@ -70,7 +71,7 @@ export const paymentRecordSchema = z.strictObject({
 
 export const paymentMatchSchema = z.strictObject({
   /** The payer's invoice, or null to hold the money as the member's credit. */
-  invoiceId: z.number({ error: 'Choose an invoice or credit.' }).int().positive().nullable(),
+  invoiceId: commonIdSchema('Choose an invoice or credit.').nullable(),
 });
 
 export const refundCreateSchema = z.strictObject({

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { safeParseMoneyToCents } from '@/lib/money';
+import { idSchema } from './common';
 import { listQuerySchema } from './list';
 
 // Schemas for supplies, the planner and the batch record, shared by forms and route handlers.
@@ -103,7 +104,7 @@ const planShape = {
   oilVolume: positive('Oil volume', 100_000),
   titrationTrials: z.array(nonNegative('A titration trial', 50), { error: 'Give the trials as a list of numbers.' }).max(10, 'At most 10 trials.').optional(),
   titrationBlankMl: nonNegative('The blank', 50).optional(),
-  oilLotId: num().pipe(z.number().int().positive()).optional(),
+  oilLotId: idSchema('Choose an oil lot.').optional(),
   catalyst: z.enum(CATALYST_KINDS, { error: 'Choose KOH or NaOH.' }).optional(),
   baseGramsPerLiter: nonNegative('The base amount', 50).optional(),
   purityPct: purityPctSchema.optional(),
@@ -131,7 +132,7 @@ export const plannerSchema = z
 export type PlannerInput = z.infer<typeof plannerSchema>;
 
 const oilLotUse = z.strictObject({
-  oilLotId: num().pipe(z.number().int().positive('Choose an oil lot.')),
+  oilLotId: idSchema('Choose an oil lot.'),
   volume: positive('Volume from the lot', 100_000),
 });
 
@@ -211,7 +212,7 @@ export const batchAdvanceSchema = z.strictObject({
   to: z.enum(['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'], { error: 'Choose the next step.' }),
 });
 export const batchReleaseSchema = z.strictObject({
-  tankId: num().pipe(z.number().int().positive('Choose a tank.')),
+  tankId: idSchema('Choose a tank.'),
   volume: positive('Volume released', 100_000),
 });
 export const batchRejectSchema = z.strictObject({

@@ -1,20 +1,13 @@
 import { z } from 'zod';
 import { safeParseMoneyToCents } from '@/lib/money';
+import { timeZoneSchema } from './common';
 
-const validTimeZone = (tz: string) => {
-  try {
-    new Intl.DateTimeFormat('en-US', { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
-};
 
 /** Co-op settings an admin may change. Money arrives as text ("15.00") and is kept in cents. */
 export const coopSettingsUpdateSchema = z.strictObject({
   name: z.string().trim().min(3, 'At least 3 characters.').max(120, 'At most 120 characters.'),
   units: z.enum(['us', 'metric'], { error: 'Choose US gallons/°F or litres/°C.' }),
-  timezone: z.string().trim().max(60).refine(validTimeZone, 'Not a time zone name such as America/Chicago.'),
+  timezone: timeZoneSchema,
   monthlyDues: z.string().trim().max(12).transform((s, ctx) => {
     const r = safeParseMoneyToCents(s === '' ? '0' : s);
     if (!r.ok || r.cents < 0) {

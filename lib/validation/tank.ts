@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { DECLARED_USES } from '@/lib/pricing';
+import { idSchema as commonIdSchema } from './common';
 import { listQuerySchema } from './list';
 
 // Tank, pricing, reservation and draw schemas, shared by the forms and the route handlers.
@@ -57,7 +58,7 @@ export const centsRateSchema = scaledDecimal({ decimals: 3, what: 'a rate in cen
 /** A percentage with at most 2 decimals → hundredths of a percent. */
 export const percentSchema = scaledDecimal({ decimals: 2, what: 'a percentage', max: 1000 });
 
-const idSchema = (what: string) => z.coerce.number({ error: `Choose ${what}.` }).int(`Choose ${what}.`).positive(`Choose ${what}.`).max(2_147_483_647, `Choose ${what}.`);
+const idSchema = (what: string) => commonIdSchema(`Choose ${what}.`);
 const reasonSchema = z.string({ error: 'Give a reason.' }).trim().min(3, 'Give a reason (at least 3 characters).').max(500, 'At most 500 characters.');
 const tankNameSchema = z.string({ error: 'Enter a name.' }).trim().min(1, 'Enter a name.').max(80, 'At most 80 characters.');
 const instantSchema = z.iso.datetime({ offset: true, local: true, error: 'Enter a date and time.' });

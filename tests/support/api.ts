@@ -10,7 +10,22 @@ export const DEMO_PASSWORD = 'tallyvat-demo-2026';
 const HASH = bcrypt.hashSync(TEST_PASSWORD, 10);
 
 export const baseUrl = () => inject('baseUrl');
-export const api = () => request(inject('baseUrl'));
+
+const WRITE_METHODS = new Set(['post', 'put', 'patch', 'delete', 'del']);
+/**
+ * Requests without a session. Writes carry the app's own Origin, as a browser's do (the server
+ * refuses writes from any other origin, and writes that name none).
+ */
+export const api = () => {
+  const client = request(inject('baseUrl'));
+  return new Proxy(client, {
+    get(target, prop, receiver) {
+      const value = Reflect.get(target, prop, receiver);
+      if (typeof prop !== 'string' || !WRITE_METHODS.has(prop) || typeof value !== 'function') return value;
+      return (url: string) => (value as (u: string) => request.Test).call(target, url).set('Origin', inject('baseUrl'));
+    },
+  });
+};
 
 let instance: Sequelize | null = null;
 /**
@@ -34,7 +49,8 @@ export async function sql<T = Record<string, unknown>>(text: string, params: unk
 
 /** A supertest agent holding a signed-in session cookie. */
 export async function signIn(email: string, password = TEST_PASSWORD) {
-  const agent = request.agent(inject('baseUrl'));
+  // Every request carries the app's own Origin, as a browser's writes do.
+  const agent = request.agent(inject('baseUrl')).set('Origin', inject('baseUrl'));
   const csrf = await agent.get('/api/auth/csrf').expect(200);
   const res = await agent
     .post('/api/auth/callback/credentials')

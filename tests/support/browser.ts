@@ -12,7 +12,14 @@ fs.mkdirSync(SHOTS, { recursive: true });
 
 const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'];
 
-/** Runs fn with a page in a fresh browser profile; closes everything afterwards. */
+/** A Content-Security-Policy violation reported by a page. */
+export interface CspViolation { url: string; directive: string; blocked: string; sample: string }
+
+/**
+ * Runs fn with a page in a fresh browser profile, with the app's Content-Security-Policy in force:
+ * every `securitypolicyviolation` on any page fails the test (a script the policy blocks is a
+ * broken page, or an injection). Closes everything afterwards.
+ */
 export async function withBrowser(fn: (page: Page) => Promise<void>) {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tallyvat-chromium-'));
   const context = await chromium.launchPersistentContext(dir, {
@@ -21,9 +28,26 @@ export async function withBrowser(fn: (page: Page) => Promise<void>) {
     args: ARGS,
     viewport: { width: 1280, height: 800 },
   });
+  const violations: CspViolation[] = [];
   try {
+    await context.exposeFunction('__tallyvatCspViolation', (v: CspViolation) => {
+      violations.push(v);
+      // Said at once as well, so a test that then times out still shows the cause.
+      console.error('Content-Security-Policy violation:', v);
+    });
+    await context.addInitScript(() => {
+      document.addEventListener(
+        'securitypolicyviolation',
+        (e) => {
+          const report = (window as unknown as { __tallyvatCspViolation?: (v: unknown) => void }).__tallyvatCspViolation;
+          report?.({ url: e.documentURI, directive: e.effectiveDirective, blocked: e.blockedURI, sample: e.sample });
+        },
+        true,
+      );
+    });
     const page = context.pages()[0] ?? (await context.newPage());
     await fn(page);
+    expect(violations, 'Content-Security-Policy violations').toEqual([]);
   } finally {
     await context.close();
     fs.rmSync(dir, { recursive: true, force: true });

@@ -1,5 +1,5 @@
 import { getProfile, updateProfile } from '@/lib/account';
-import { requireUser } from '@/lib/auth';
+import { requireUser, touchCurrentSession } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
 import { profileUpdateSchema } from '@/lib/validation/auth';
 
@@ -12,5 +12,7 @@ export const GET = handler(async () => getProfile(await requireUser()));
 export const PATCH = handler(async (req) => {
   const user = await requireUser();
   const input = await parseBody(req, profileUpdateSchema);
-  return updateProfile(user, input);
+  const result = await updateProfile(user, input);
+  await touchCurrentSession();
+  return result;
 });

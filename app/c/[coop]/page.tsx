@@ -3,7 +3,7 @@ import { BalancesChart, BatchCostChart } from '@/components/overview/cost-charts
 import { TankLevelCard } from '@/components/overview/tank-level-card';
 import { VolumeCharts } from '@/components/overview/volume-charts';
 import { Card, EmptyState } from '@/components/ui/notice';
-import { requireMember } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { formatCents, formatRateCents } from '@/lib/money';
 import { getOverview } from '@/lib/overview';
 import { formatVolume } from '@/lib/units';
@@ -12,7 +12,7 @@ const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a mar
 
 export default async function OverviewPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
-  const actor = await requireMember(coop, 'coop:read');
+  const actor = await requirePageActor(coop, 'coop:read');
   const o = await getOverview(actor);
   const units = actor.coop.units;
   const base = `/c/${actor.coop.slug}`;

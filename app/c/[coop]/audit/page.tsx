@@ -3,7 +3,7 @@ import { AuditTable } from '@/components/audit/audit-table';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { requireMember } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { listAuditActors, listAuditEvents } from '@/lib/audit/events';
 import { fieldErrors, HttpError } from '@/lib/http';
 import { auditQuerySchema } from '@/lib/validation/audit';
@@ -13,7 +13,7 @@ export const metadata: Metadata = { title: 'Audit log' };
 export default async function AuditPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop } = await params;
   const sp = await searchParams;
-  const actor = await requireMember(coop, 'audit:read');
+  const actor = await requirePageActor(coop, 'audit:read');
   const parsed = auditQuerySchema.safeParse(Object.fromEntries(Object.entries(sp).filter(([, v]) => v !== '')));
   const [result, people] = await Promise.all([
     // A day that is not on the calendar (2026-02-31) comes back as a 422 naming the field.

@@ -1,23 +1,20 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { AdjustmentForm } from '@/components/billing/action-forms';
-import { BillingForbidden } from '@/components/billing/forbidden';
 import { MonthsTable } from '@/components/billing/months-table';
 import { RunMonthForm } from '@/components/billing/run-month-form';
 import { Card } from '@/components/ui/notice';
-import { findActor } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { listAdjustments } from '@/lib/billing/adjustments';
 import { listMembersForBilling, listPeriods } from '@/lib/billing/invoices';
 import { currentPeriod, periodLabel, shiftPeriod } from '@/lib/billing/periods';
-import { HttpError } from '@/lib/http';
 import { formatCents } from '@/lib/money';
 
 export const metadata: Metadata = { title: 'Billing' };
 
 export default async function BillingPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
-  const actor = await findActor(coop, 'billing:manage');
-  if (actor instanceof HttpError) return <BillingForbidden coop={coop} />;
+  const actor = await requirePageActor(coop, 'billing:manage');
   const now = currentPeriod(actor.coop.timezone);
   const [months, members, adjustments] = await Promise.all([listPeriods(actor.coop.id), listMembersForBilling(actor.coop.id), listAdjustments(actor.coop.id, { pendingOnly: true })]);
   const dues = actor.coop.settings.monthlyDuesCents ?? 0;

@@ -1,12 +1,10 @@
 import Link from 'next/link';
-import { redirect } from 'next/navigation';
 import { Card, Notice } from '@/components/ui/notice';
 import { DrawsTable } from '@/components/tank/draws-table';
 import { RecordDrawForm } from '@/components/tank/record-draw-form';
 import { ReservationsTable } from '@/components/tank/reservations-table';
-import { can, findActor } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
 import { listDrawMembers, listDraws } from '@/lib/draws';
-import { HttpError } from '@/lib/http';
 import { formatCents } from '@/lib/money';
 import { getCurrentPolicy } from '@/lib/pricing-policy';
 import { listReservations } from '@/lib/reservations';
@@ -23,11 +21,7 @@ const one = (v: string | string[] | undefined) => (Array.isArray(v) ? v[0] : v) 
 export default async function DrawsPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: SP }) {
   const { coop } = await params;
   const sp = await searchParams;
-  const actor = await findActor(coop, 'draws:read-all');
-  if (actor instanceof HttpError) {
-    if (actor.status === 403) redirect(`/c/${coop}/me`);
-    throw actor;
-  }
+  const actor = await requirePageActor(coop, 'draws:read-all');
   const { slug, units, currency, timezone } = actor.coop;
   const view = one(sp.view) === 'reservations' ? 'reservations' : 'draws';
   const filters = { membershipId: one(sp.membershipId), status: one(sp.status), from: one(sp.from), to: one(sp.to), tankId: one(sp.tankId) };

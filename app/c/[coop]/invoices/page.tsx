@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import { InvoicesTable } from '@/components/billing/invoices-table';
 import { Card } from '@/components/ui/notice';
-import { requireMember } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { listInvoices, memberBalance } from '@/lib/billing/invoices';
 import { formatCents } from '@/lib/money';
 import { invoiceListQuerySchema } from '@/lib/validation/billing';
@@ -10,7 +10,7 @@ export const metadata: Metadata = { title: 'My invoices' };
 
 export default async function MyInvoicesPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop } = await params;
-  const actor = await requireMember(coop, 'invoices:own');
+  const actor = await requirePageActor(coop, 'invoices:own');
   const parsed = invoiceListQuerySchema.safeParse({ sort: 'period', ...(await searchParams) });
   const q = parsed.success ? parsed.data : invoiceListQuerySchema.parse({ sort: 'period' });
   const [page, balance] = await Promise.all([

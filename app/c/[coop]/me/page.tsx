@@ -5,7 +5,7 @@ import { LiveTanks } from '@/components/tank/live-tanks';
 import { RecordDrawForm } from '@/components/tank/record-draw-form';
 import { ReservationsTable } from '@/components/tank/reservations-table';
 import { ReserveForm } from '@/components/tank/reserve-form';
-import { requireMember } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { listDraws } from '@/lib/draws';
 import { getCurrentPolicy } from '@/lib/pricing-policy';
 import { listReservations } from '@/lib/reservations';
@@ -22,7 +22,7 @@ const one = (v: string | string[] | undefined) => (Array.isArray(v) ? v[0] : v) 
 export default async function MyFuelPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: SP }) {
   const { coop } = await params;
   const sp = await searchParams;
-  const actor = await requireMember(coop, 'reservations:own');
+  const actor = await requirePageActor(coop, 'reservations:own');
   const { slug, units, currency, timezone } = actor.coop;
   const dq = drawListSchema.safeParse({ page: one(sp.page), sort: one(sp.sort), dir: one(sp.dir), pageSize: 20 });
   const [tanks, policy, reservations, draws] = await Promise.all([

@@ -6,11 +6,10 @@ import type { MemberRow } from '@/components/members/member-columns';
 import { MembersTable } from '@/components/members/members-table';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
-import { Card, EmptyState, Notice } from '@/components/ui/notice';
+import { Card, Notice } from '@/components/ui/notice';
 import { formatDay } from '@/lib/account/format';
-import { findActor } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { ROLES } from '@/lib/auth/roles';
-import { HttpError } from '@/lib/http';
 import { listPendingInvitations } from '@/lib/invitations';
 import { listMembers } from '@/lib/members';
 import { memberListQuerySchema } from '@/lib/validation/members';
@@ -21,14 +20,7 @@ type Search = Record<string, string | string[] | undefined>;
 
 export default async function MembersPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Search> }) {
   const { coop } = await params;
-  const actor = await findActor(coop, 'members:manage');
-  if (actor instanceof HttpError) {
-    return (
-      <EmptyState title="Only the co-op’s admins manage members">
-        {actor.message} <Link href={`/c/${coop}`}>Back to the overview</Link>.
-      </EmptyState>
-    );
-  }
+  const actor = await requirePageActor(coop, 'members:manage');
 
   const raw = Object.fromEntries(Object.entries(await searchParams).map(([k, v]) => [k, Array.isArray(v) ? v[0] : v]));
   const parsed = memberListQuerySchema.safeParse(raw);

@@ -3,7 +3,7 @@ import { BarChartCard } from '@/components/charts/bar-chart-card';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Card, Notice } from '@/components/ui/notice';
-import { requireMember } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { fieldErrors } from '@/lib/http';
 import { formatCents } from '@/lib/money';
 import { getQuarterlyReport, VOLUME_COLUMNS } from '@/lib/reports/quarterly';
@@ -15,7 +15,7 @@ export const metadata: Metadata = { title: 'Reports' };
 export default async function ReportsPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop } = await params;
   const sp = await searchParams;
-  const actor = await requireMember(coop, 'reports:read');
+  const actor = await requirePageActor(coop, 'reports:read');
   const now = new Date();
   const parsed = quarterQuerySchema.safeParse({ year: sp.year ?? now.getUTCFullYear(), quarter: sp.quarter ?? Math.floor(now.getUTCMonth() / 3) + 1 });
   const errors = parsed.success ? {} : fieldErrors(parsed.error);

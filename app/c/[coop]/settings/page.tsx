@@ -1,13 +1,13 @@
 import type { Metadata } from 'next';
 import { SettingsForm } from '@/components/settings/settings-form';
-import { requireMember } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { getCoopSettings } from '@/lib/coops/settings';
 
 export const metadata: Metadata = { title: 'Co-op settings' };
 
 export default async function SettingsPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
-  const settings = await getCoopSettings(await requireMember(coop, 'settings:manage'));
+  const settings = await getCoopSettings(await requirePageActor(coop, 'settings:manage'));
   return (
     <div className="flex max-w-3xl flex-col gap-5">
       <div>

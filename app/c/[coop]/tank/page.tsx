@@ -5,7 +5,7 @@ import { LedgerTable } from '@/components/tank/ledger-table';
 import { LiveTanks } from '@/components/tank/live-tanks';
 import { TankSettingsForm } from '@/components/tank/tank-settings-form';
 import { TransferForm } from '@/components/tank/transfer-form';
-import { can, requireMember } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
 import { getCurrentPolicy } from '@/lib/pricing-policy';
 import { listMovements, listTanks } from '@/lib/tank';
 import { movementListSchema } from '@/lib/validation/tank';
@@ -18,7 +18,7 @@ type SP = Promise<Record<string, string | string[] | undefined>>;
 export default async function TankPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: SP }) {
   const { coop } = await params;
   const sp = await searchParams;
-  const actor = await requireMember(coop, 'tank:read');
+  const actor = await requirePageActor(coop, 'tank:read');
   const { slug, units, currency, timezone } = actor.coop;
   const [tanks, policy] = await Promise.all([listTanks(actor), getCurrentPolicy(actor)]);
   const mayWrite = can(actor.role, 'tank:write');

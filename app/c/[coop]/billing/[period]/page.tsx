@@ -2,17 +2,15 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { CloseMonthForm } from '@/components/billing/action-forms';
-import { BillingForbidden } from '@/components/billing/forbidden';
 import { InvoicesTable } from '@/components/billing/invoices-table';
 import { PaymentsTable } from '@/components/billing/payments-table';
 import { PeriodProgress } from '@/components/billing/period-progress';
 import { PeriodStatusBadge } from '@/components/billing/status-badge';
 import { Card, Notice } from '@/components/ui/notice';
-import { findActor } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { getPeriodOverview, listInvoices } from '@/lib/billing/invoices';
 import { PERIOD_PATTERN, periodLabel } from '@/lib/billing/periods';
 import { getReconciliation } from '@/lib/billing/reconciliation';
-import { HttpError } from '@/lib/http';
 import { formatCents } from '@/lib/money';
 import { invoiceListQuerySchema } from '@/lib/validation/billing';
 
@@ -24,8 +22,7 @@ export async function generateMetadata({ params }: { params: Promise<{ period: s
 export default async function BillingMonthPage({ params, searchParams }: { params: Promise<{ coop: string; period: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop, period } = await params;
   if (!PERIOD_PATTERN.test(period)) notFound();
-  const actor = await findActor(coop, 'billing:manage');
-  if (actor instanceof HttpError) return <BillingForbidden coop={coop} />;
+  const actor = await requirePageActor(coop, 'billing:manage');
   const sp = invoiceListQuerySchema.safeParse({ sort: 'member', dir: 'asc', ...(await searchParams), period });
   const q = sp.success ? sp.data : invoiceListQuerySchema.parse({ period });
   const [overview, page, recon] = await Promise.all([

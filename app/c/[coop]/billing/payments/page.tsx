@@ -1,22 +1,19 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { RecordPaymentForm } from '@/components/billing/action-forms';
-import { BillingForbidden } from '@/components/billing/forbidden';
 import { PaymentsTable } from '@/components/billing/payments-table';
 import { Card } from '@/components/ui/notice';
-import { findActor } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { listInvoices, listMembersForBilling } from '@/lib/billing/invoices';
 import { listPayments } from '@/lib/billing/payments-read';
 import { periodLabel, todayIn } from '@/lib/billing/periods';
-import { HttpError } from '@/lib/http';
 import { paymentListQuerySchema } from '@/lib/validation/billing';
 
 export const metadata: Metadata = { title: 'Payments' };
 
 export default async function PaymentsPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
   const { coop } = await params;
-  const actor = await findActor(coop, 'billing:manage');
-  if (actor instanceof HttpError) return <BillingForbidden coop={coop} />;
+  const actor = await requirePageActor(coop, 'billing:manage');
   const parsed = paymentListQuerySchema.safeParse(await searchParams);
   const q = parsed.success ? parsed.data : paymentListQuerySchema.parse({});
   const [members, open, page] = await Promise.all([

@@ -5,7 +5,7 @@ import { InvoiceSummaryView } from '@/components/billing/invoice-summary';
 import { PayInvoiceForm } from '@/components/billing/pay-invoice-form';
 import { PaymentConfirmingNotice } from '@/components/billing/payment-confirming';
 import { Card } from '@/components/ui/notice';
-import { requireMember } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { MIN_CARD_CHARGE_CENTS } from '@/lib/billing/card';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
 import { formatDateIn } from '@/lib/billing/periods';
@@ -17,7 +17,7 @@ export const metadata: Metadata = { title: 'Invoice' };
 
 export default async function MyInvoicePage({ params }: { params: Promise<{ coop: string; id: string }> }) {
   const { coop, id } = await params;
-  const actor = await requireMember(coop, 'invoices:own');
+  const actor = await requirePageActor(coop, 'invoices:own');
   if (!/^[1-9]\d{0,9}$/.test(id)) notFound();
   const inv = await getInvoiceDetail(actor.coop.id, Number(id), { membershipId: actor.membershipId, includeDrafts: false }).catch((e) => {
     if (e instanceof HttpError && e.status === 404) notFound();

@@ -2,7 +2,7 @@ import Link from 'next/link';
 import { Card, Notice } from '@/components/ui/notice';
 import { PricingForm } from '@/components/tank/pricing-form';
 import { PricingHistoryTable } from '@/components/tank/pricing-history-table';
-import { can, requireMember } from '@/lib/auth';
+import { can, requirePageActor } from '@/lib/auth';
 import { listPolicies } from '@/lib/pricing-policy';
 import { volumeLabel } from '@/lib/units';
 
@@ -11,7 +11,7 @@ export const metadata = { title: 'Pricing' };
 /** The member price: the policy in force, its history, and (treasurer/admin) a form to set a new one. */
 export default async function PricingPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
-  const actor = await requireMember(coop, 'tank:read');
+  const actor = await requirePageActor(coop, 'tank:read');
   const { slug, units, currency, timezone } = actor.coop;
   const policies = await listPolicies(actor);
   const current = policies.find((p) => p.status === 'in-force');

@@ -2,13 +2,12 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { RecordPaymentForm, ResendButton, VoidInvoiceForm } from '@/components/billing/action-forms';
-import { BillingForbidden } from '@/components/billing/forbidden';
 import { InvoiceSummaryView } from '@/components/billing/invoice-summary';
 import { PaymentConfirmingNotice } from '@/components/billing/payment-confirming';
 import { PaymentsTable } from '@/components/billing/payments-table';
 import { EmailStatusText } from '@/components/billing/status-badge';
 import { Card, Notice } from '@/components/ui/notice';
-import { findActor } from '@/lib/auth';
+import { requirePageActor } from '@/lib/auth';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
 import { formatDateIn, todayIn } from '@/lib/billing/periods';
 import { HttpError } from '@/lib/http';
@@ -17,8 +16,7 @@ export const metadata: Metadata = { title: 'Invoice' };
 
 export default async function BillingInvoicePage({ params }: { params: Promise<{ coop: string; id: string }> }) {
   const { coop, id } = await params;
-  const actor = await findActor(coop, 'billing:manage');
-  if (actor instanceof HttpError) return <BillingForbidden coop={coop} />;
+  const actor = await requirePageActor(coop, 'billing:manage');
   if (!/^[1-9]\d{0,9}$/.test(id)) notFound();
   const inv = await getInvoiceDetail(actor.coop.id, Number(id), { includeDrafts: true }).catch((e) => {
     if (e instanceof HttpError && e.status === 404) notFound();
