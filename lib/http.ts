@@ -1,9 +1,14 @@
 import 'server-only';
 import crypto from 'node:crypto';
 import { z } from 'zod';
+import { sequelize } from '@/lib/db';
+import { DATABASE_RETRY_AFTER_SECONDS, isDatabaseUnavailable, noteDatabaseUnavailable, watchDatabase } from '@/lib/db-outage';
+import { log } from '@/lib/log';
 import { COMMON_HEADERS, DOWNLOAD_CSP, HSTS } from '@/lib/security/headers';
 import { isSameOriginRequest, servedOverHttps } from '@/lib/security/origin';
 import { CONTROL_CHARS } from '@/lib/validation/common';
+
+watchDatabase(sequelize);
 
 /** Field → reasons, as returned to forms (`fields.email = ['Enter a valid e-mail address']`). */
 export type FieldErrors = Record<string, string[]>;
@@ -216,21 +221,50 @@ function withSecurityHeaders(res: Response, req: Request): Response {
 /**
  * Wraps a route handler: writes (anything but GET/HEAD/OPTIONS) must come from the app's own
  * origin (403) with a JSON or multipart body (415); the body returns data (sent as JSON) or a
- * Response; HttpErrors become their status with { error, fields }; anything else is logged with
- * a request id and answered with a 500 that reveals nothing.
+ * Response; HttpErrors become their status with { error, fields }; an unreachable database is a
+ * 503 with { error, retryAfter }; anything else is logged with a request id and answered with a
+ * 500 that reveals nothing. Every request is logged as one JSON line (request id, co-op slug,
+ * method, route, status, duration), and answers carry the id in `X-Request-Id`.
  */
 export function handler<P = Record<string, string>>(fn: (req: Request, params: P) => Promise<unknown>) {
   return async (req: Request, ctx: Ctx<P>): Promise<Response> => {
+    const started = performance.now();
+    const requestId = crypto.randomUUID();
+    let coop: string | undefined;
+    let res: Response;
     try {
       if (!READ_METHODS.has(req.method)) checkWriteRequest(req);
       const params = (await ctx?.params) ?? ({} as P);
+      coop = (params as { coop?: unknown }).coop as string | undefined;
       const out = await fn(req, params);
-      if (out instanceof Response) return withSecurityHeaders(out, req);
-      return withSecurityHeaders(Response.json(out ?? { ok: true }), req);
+      res = withSecurityHeaders(out instanceof Response ? out : Response.json(out ?? { ok: true }), req);
     } catch (e) {
-      return withSecurityHeaders(errorResponse(e), req);
+      res = withSecurityHeaders(errorResponse(e, requestId), req);
     }
+    logRequest(req, res, { requestId, coop, durationMs: performance.now() - started });
+    return res;
   };
+}
+
+/**
+ * The access-log line of one API request, at info: failures are logged where they are understood
+ * (an unexpected error once with its request id, an unreachable database once per outage).
+ */
+function logRequest(req: Request, res: Response, o: { requestId: string; coop: string | undefined; durationMs: number }) {
+  try {
+    res.headers.set('X-Request-Id', o.requestId);
+  } catch {
+    /* a Response with immutable headers (e.g. proxied from fetch) keeps its own */
+  }
+  const line = {
+    requestId: o.requestId,
+    coop: o.coop,
+    method: req.method,
+    route: new URL(req.url).pathname,
+    status: res.status,
+    durationMs: Math.round(o.durationMs * 10) / 10,
+  };
+  log.info(line, 'request');
 }
 
 /** SQLSTATE raised by the database's lock triggers (e.g. a closed billing month). */
@@ -249,10 +283,18 @@ const CONSTRAINT_REASONS: Record<string, string> = {
  * The one mapping from database errors to answers a person understands, wherever they are
  * raised: the closed-month trigger and unique, check and foreign-key violations are 409;
  * values the column can't hold (bad number, out of range, too long) are 422; a deadlock or
- * serialization failure that outlived the transaction helper's retries is 503 (try again).
- * Returns null for anything else.
+ * serialization failure that outlived the transaction helper's retries is 503 (try again), and so
+ * is a database that can't be reached (refused, timed out, shutting down, connection cut) — with
+ * `retryAfter` seconds in the body and a Retry-After header. Returns null for anything else.
  */
 export function databaseErrorResponse(e: unknown): Response | null {
+  if (isDatabaseUnavailable(e)) {
+    noteDatabaseUnavailable(e);
+    return Response.json(
+      { error: 'We can\'t reach the database right now. Nothing was changed; please try again in a few seconds.', code: 'database-unavailable', retryAfter: DATABASE_RETRY_AFTER_SECONDS },
+      { status: 503, headers: { 'Retry-After': String(DATABASE_RETRY_AFTER_SECONDS) } },
+    );
+  }
   const db = (e as { original?: { code?: string; message?: string; constraint?: string } } | null)?.original;
   const code = db?.code;
   if (!code) return null;
@@ -272,19 +314,23 @@ export function databaseErrorResponse(e: unknown): Response | null {
     case code.startsWith('22'):
       return Response.json({ error: 'A value is not one the database can store (too long, out of range or malformed).', code: 'value' }, { status: 422 });
     case code === '40001' || code === '40P01' || code === '55P03':
-      return Response.json({ error: 'The co-op was busy with the same records; please try again.', code: 'busy' }, { status: 503, headers: { 'Retry-After': '1' } });
+      return Response.json({ error: 'The co-op was busy with the same records; please try again.', code: 'busy', retryAfter: 1 }, { status: 503, headers: { 'Retry-After': '1' } });
     default:
       return null;
   }
 }
 
-export function errorResponse(e: unknown): Response {
+/**
+ * The answer for an error thrown by a route: HttpErrors as their status, database errors through
+ * {@link databaseErrorResponse}, anything else a 500 whose `requestId` is the one in the log line
+ * that records the error (logged here, once, with its stack).
+ */
+export function errorResponse(e: unknown, requestId: string = crypto.randomUUID()): Response {
   if (e instanceof HttpError) {
     return Response.json({ error: e.message, ...(e.fields ? { fields: e.fields } : {}), ...(e.extra ?? {}) }, { status: e.status });
   }
   const mapped = databaseErrorResponse(e);
   if (mapped) return mapped;
-  const requestId = crypto.randomUUID();
-  console.error(`[request ${requestId}]`, e);
+  log.error({ requestId, err: e }, 'unexpected error');
   return Response.json({ error: 'Something went wrong on our side.', requestId }, { status: 500 });
 }

@@ -5,14 +5,17 @@
 //  3. the local fakes: SMTP catcher with an inbox page, and the payments fake;
 //  4. `next build` when the build is missing or older than the sources, then `next start`;
 //  5. the job worker (scripts/worker.mjs) beside it.
-// Ctrl-C stops the app, the fakes and the database it started.
+// Ctrl-C stops the app, the worker, the fakes and the database it started; so does the death of
+// any child process (by exit code or by signal): everything started is stopped within a few
+// seconds, the lock file is removed, and the launcher exits non-zero.
+// TALLYVAT_DATA_DIR moves the data folder (database, secrets, uploads, lock file) from ./.data.
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { startEmbeddedPg, portInUse } from './lib/pg.mjs';
 import { migrate } from './lib/db-setup.mjs';
 import { buildIfNeeded } from './lib/build.mjs';
-import { appEnv, startNext } from './lib/app.mjs';
+import { appEnv, startNext, stopChild } from './lib/app.mjs';
 import { startMailCatcher, startPaymentsFake } from './lib/fakes.mjs';
 import { startWorkerProcess } from './lib/worker-process.mjs';
 
@@ -23,7 +26,7 @@ const PG_PORT = Number(process.env.PG_PORT ?? 54329 + offset);
 const SMTP_PORT = Number(process.env.SMTP_PORT ?? 2525 + offset);
 const MAIL_UI_PORT = Number(process.env.MAIL_UI_PORT ?? 1080 + offset);
 const PAYMENTS_PORT = Number(process.env.PAYMENTS_PORT ?? 12111 + offset);
-const DATA = path.resolve('.data');
+const DATA = path.resolve(process.env.TALLYVAT_DATA_DIR ?? '.data');
 const LOCK = path.join(DATA, 'app.lock');
 
 const log = (...a) => console.log('[tallyvat]', ...a);
@@ -47,27 +50,63 @@ if (fs.existsSync(LOCK)) {
 for (const [name, p] of [['PORT', PORT], ['SMTP_PORT', SMTP_PORT], ['MAIL_UI_PORT', MAIL_UI_PORT], ['PAYMENTS_PORT', PAYMENTS_PORT]]) {
   if (await portInUse(p)) fail(`Port ${p} (${name}) is already in use. Free it or set ${name}=<another port>.`);
 }
-fs.writeFileSync(LOCK, JSON.stringify({ pid: process.pid, port: PORT }));
+/** The lock file names this launcher, its port, and the pid of each child it supervises. */
+const lockInfo = { pid: process.pid, port: PORT, children: {} };
+const writeLock = () => fs.writeFileSync(LOCK, JSON.stringify(lockInfo));
+writeLock();
 
+/** The child processes this launcher runs (the Next server; a worker too, when there is one). */
+const children = {};
+/** Everything to undo on the way out, run last-first: servers, fakes, the database. */
 const cleanups = [];
+/** Upper bounds for stopping one thing and everything (a child gets SIGTERM, then SIGKILL after 3 s). */
+const STEP_DEADLINE_MS = 4_000;
+const SHUTDOWN_DEADLINE_MS = 9_000;
 let stopping = false;
 async function shutdown(code = 0) {
   if (stopping) return;
   stopping = true;
   log('stopping…');
+  const deadline = setTimeout(() => {
+    console.error('[tallyvat] stopping took too long; exiting anyway');
+    for (const c of Object.values(children)) if (c.exitCode === null && c.signalCode === null) c.kill('SIGKILL');
+    fs.rmSync(LOCK, { force: true });
+    process.exit(code || 1);
+  }, SHUTDOWN_DEADLINE_MS);
   for (const fn of cleanups.reverse()) {
+    // One step that hangs (a server waiting on an open connection) must not keep the others running.
+    let timer;
     try {
-      await fn();
+      await Promise.race([fn(), new Promise((resolve) => (timer = setTimeout(resolve, STEP_DEADLINE_MS)))]);
     } catch (e) {
       console.error(e);
+    } finally {
+      clearTimeout(timer);
     }
   }
+  clearTimeout(deadline);
   fs.rmSync(LOCK, { force: true });
   log('stopped.');
   process.exit(code);
 }
 process.on('SIGINT', () => shutdown(0));
 process.on('SIGTERM', () => shutdown(0));
+
+/**
+ * Watches a child process: it is stopped with everything else on the way out, and when it dies on
+ * its own — with any exit code or by a signal — the launcher stops everything and exits non-zero.
+ */
+function supervise(name, child) {
+  children[name] = child;
+  lockInfo.children[name] = child.pid;
+  writeLock();
+  cleanups.push(() => stopChild(child, 3_000));
+  child.on('exit', (code, signal) => {
+    if (stopping) return;
+    console.error(`\n[tallyvat] ${name} stopped unexpectedly (${signal ? `signal ${signal}` : `exit code ${code}`}); stopping everything.\n`);
+    shutdown(code || 1);
+  });
+}
 
 try {
   let databaseUrl = process.env.DATABASE_URL;
@@ -77,7 +116,7 @@ try {
     const pg = await startEmbeddedPg({ dataDir: path.join(DATA, 'pg'), port: PG_PORT, dbName: 'tallyvat', log });
     databaseUrl = pg.url;
     if (pg.started) cleanups.push(pg.stop);
-    log(`PostgreSQL on 127.0.0.1:${PG_PORT} (data in .data/pg)`);
+    log(`PostgreSQL on 127.0.0.1:${PG_PORT} (data in ${path.relative(process.cwd(), path.join(DATA, 'pg')) || '.'})`);
   }
   log('Applying migrations and demo data…');
   migrate({ databaseUrl, seed: true });
@@ -108,17 +147,10 @@ try {
     extra: { MAIL_UI_URL: `http://127.0.0.1:${MAIL_UI_PORT}/` },
   });
 
-  if (!dev) buildIfNeeded({ env, log });
-  const worker = await startWorkerProcess({ env, log });
-  cleanups.push(worker.stop);
-  worker.child.on('exit', (code) => {
-    if (!stopping) shutdown(code ?? 1);
-  });
-  const { child, stop: stopNext } = startNext({ env, port: PORT, dev });
-  cleanups.push(stopNext);
-  child.on('exit', (code) => {
-    if (!stopping) shutdown(code ?? 1);
-  });
+  // TALLYVAT_SKIP_BUILD=1 serves the build that is there, even if sources are newer (the launcher test).
+  if (!dev && process.env.TALLYVAT_SKIP_BUILD !== '1') buildIfNeeded({ env, log });
+  supervise('worker', (await startWorkerProcess({ env, log })).child);
+  supervise('next', startNext({ env, port: PORT, dev }).child);
   log(`Tallyvat: http://localhost:${PORT}   caught e-mail: http://127.0.0.1:${MAIL_UI_PORT}/`);
   log('Demo sign-ins (password tallyvat-demo-2026): marisol.admin@example.org, tobias.treasurer@example.org, juniper.brewer@example.org, dale.member@example.org');
 } catch (e) {

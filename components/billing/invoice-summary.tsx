@@ -2,6 +2,7 @@ import { formatCents, INVOICE_ROUNDING_NOTE } from '@/lib/money';
 import { formatDateIn, periodLabel } from '@/lib/billing/periods';
 import type { InvoiceDetail } from '@/lib/billing/types';
 import { InvoiceLinesTable } from './invoice-lines-table';
+import { PaymentConfirmingBadge } from './payment-confirming';
 import { InvoiceStatusBadge } from './status-badge';
 import type { UnitSystem } from '@/lib/units';
 
@@ -14,6 +15,7 @@ export function InvoiceSummaryView({ inv, coop }: { inv: InvoiceDetail; coop: { 
       <div className="flex flex-wrap items-center gap-3">
         <h1>{isCredit ? 'Credit note' : 'Invoice'} {inv.label ?? '(draft)'}</h1>
         <InvoiceStatusBadge status={inv.status} kind={inv.kind} overdue={inv.overdue} />
+        {inv.pendingAttempt && (inv.status === 'issued' || inv.status === 'partly-paid') ? <PaymentConfirmingBadge /> : null}
       </div>
       <dl className="grid grid-cols-1 gap-x-6 gap-y-1 text-sm sm:grid-cols-2 lg:grid-cols-4">
         <div><dt className="text-stone-600">Member</dt><dd className="font-medium">{inv.memberName}</dd></div>

@@ -29,6 +29,30 @@ export function appEnv(o) {
   };
 }
 
+/** True once a child process has ended, whether it exited with a code or was killed by a signal. */
+export function hasExited(child) {
+  return child.exitCode !== null || child.signalCode !== null;
+}
+
+/**
+ * Ends a child process: SIGTERM, then SIGKILL when it is still there after graceMs. Resolves once it
+ * has gone (at once when it already has: a child killed by a signal has exitCode null and signalCode set).
+ * @param {import('node:child_process').ChildProcess} child
+ */
+export function stopChild(child, graceMs = 5_000) {
+  return new Promise((resolve) => {
+    if (hasExited(child)) return resolve();
+    const force = setTimeout(() => {
+      if (!hasExited(child)) child.kill('SIGKILL');
+    }, graceMs);
+    child.once('exit', () => {
+      clearTimeout(force);
+      resolve();
+    });
+    child.kill('SIGTERM');
+  });
+}
+
 /**
  * Starts `next start` (or `next dev`) as a child of this process; `stop()` ends it.
  * @param {{env: object, port: number, host?: string, dev?: boolean, nodeArgs?: string[], stdio?: any}} o
@@ -37,12 +61,7 @@ export function startNext(o) {
   const args = [...(o.nodeArgs ?? []), path.resolve('node_modules', 'next', 'dist', 'bin', 'next'), o.dev ? 'dev' : 'start', '-p', String(o.port)];
   if (o.host) args.push('-H', o.host);
   const child = spawn(process.execPath, args, { env: o.env, stdio: o.stdio ?? 'inherit' });
-  const stop = () => new Promise((resolve) => {
-    if (child.exitCode !== null) return resolve();
-    child.once('exit', () => resolve());
-    child.kill('SIGTERM');
-  });
-  return { child, stop };
+  return { child, stop: () => stopChild(child) };
 }
 
 /** Waits until GET /api/health answers 200; throws when the child exits or after timeoutMs. */
@@ -54,7 +73,7 @@ export async function waitForHealth(baseUrl, child, timeoutMs = 60_000) {
     } catch {
       /* not up yet */
     }
-    if (child.exitCode !== null || Date.now() > deadline) throw new Error('next start did not come up');
+    if (hasExited(child) || Date.now() > deadline) throw new Error('next start did not come up');
     await new Promise((r) => setTimeout(r, 250));
   }
 }

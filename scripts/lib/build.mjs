@@ -4,7 +4,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 
 const SOURCE_DIRS = ['app', 'components', 'lib', 'models', 'fonts'];
-const SOURCE_FILES = ['package.json', 'package-lock.json', 'next.config.mjs', 'tailwind.config.ts', 'postcss.config.mjs', 'tsconfig.json'];
+const SOURCE_FILES = ['instrumentation.ts', 'proxy.ts', 'package.json', 'package-lock.json', 'next.config.mjs', 'tailwind.config.ts', 'postcss.config.mjs', 'tsconfig.json'];
 
 export function needsBuild() {
   const id = path.resolve('.next', 'BUILD_ID');

@@ -2,6 +2,7 @@
 // the same environment. Used by the start script and the tests.
 import { spawn } from 'node:child_process';
 import path from 'node:path';
+import { stopChild } from './app.mjs';
 import { buildWorker } from './worker-build.mjs';
 
 /**
@@ -27,10 +28,7 @@ export async function startWorkerProcess(o) {
     child.stdout.on('data', onData);
     child.once('exit', (code) => reject(new Error(`the worker exited (${code}) before it was ready`)));
   });
-  const stop = () => new Promise((resolve) => {
-    if (child.exitCode !== null || child.signalCode !== null) return resolve();
-    child.once('exit', () => resolve());
-    child.kill('SIGTERM');
-  });
+  // SIGTERM lets running jobs finish; a worker that does not end in time is killed (its jobs are retried).
+  const stop = () => stopChild(child, 10_000);
   return { child, stop };
 }

@@ -3,7 +3,8 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { InvoiceSummaryView } from '@/components/billing/invoice-summary';
 import { PayInvoiceForm } from '@/components/billing/pay-invoice-form';
-import { Card, Notice } from '@/components/ui/notice';
+import { PaymentConfirmingNotice } from '@/components/billing/payment-confirming';
+import { Card } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { MIN_CARD_CHARGE_CENTS } from '@/lib/billing/card';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
@@ -30,9 +31,7 @@ export default async function MyInvoicePage({ params }: { params: Promise<{ coop
       <InvoiceSummaryView inv={inv} coop={actor.coop} />
       <div className="grid gap-4 *:min-w-0 lg:grid-cols-2">
         <Card title={payable ? 'Pay this invoice' : inv.status === 'paid' ? 'Paid' : 'Payment'}>
-          {payable && inv.pendingAttempt ? (
-            <Notice tone="warn" title="A card payment is on its way">We are waiting for the payment service to confirm your payment from {formatDateIn(inv.pendingAttempt.createdAt, actor.coop.timezone)}. Reload this page in a minute; if it has not gone through you can try again without being charged twice.</Notice>
-          ) : null}
+          {payable && inv.pendingAttempt ? <PaymentConfirmingNotice startedAt={inv.pendingAttempt.createdAt} timezone={actor.coop.timezone} audience="member" /> : null}
           {payable && inv.outstandingCents >= MIN_CARD_CHARGE_CENTS ? (
             <PayInvoiceForm coop={coop} invoiceId={inv.id} amountCents={inv.outstandingCents} currency={actor.coop.currency} />
           ) : payable ? (

@@ -3,6 +3,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { RecordPaymentForm, ResendButton, VoidInvoiceForm } from '@/components/billing/action-forms';
 import { InvoiceSummaryView } from '@/components/billing/invoice-summary';
+import { PaymentConfirmingNotice } from '@/components/billing/payment-confirming';
 import { PaymentsTable } from '@/components/billing/payments-table';
 import { EmailStatusText } from '@/components/billing/status-badge';
 import { Card, Notice } from '@/components/ui/notice';
@@ -29,7 +30,7 @@ export default async function BillingInvoicePage({ params }: { params: Promise<{
       {inv.original ? <p className="text-sm">Cancels <Link href={`/c/${coop}/billing/invoices/${inv.original.id}`}>{inv.original.label}</Link>.</p> : null}
       {inv.creditNote ? <p className="text-sm">Cancelled by <Link href={`/c/${coop}/billing/invoices/${inv.creditNote.id}`}>{inv.creditNote.label}</Link>.</p> : null}
       {inv.periodClosed ? <Notice title="This month is closed">This invoice can no longer be changed or voided. Correct it with an adjustment on the member’s next invoice.</Notice> : null}
-      {inv.pendingAttempt ? <Notice tone="warn">A card payment started {formatDateIn(inv.pendingAttempt.createdAt, actor.coop.timezone)} is waiting for the payment service.</Notice> : null}
+      {inv.pendingAttempt ? <PaymentConfirmingNotice startedAt={inv.pendingAttempt.createdAt} timezone={actor.coop.timezone} audience="treasurer" /> : null}
 
       <div className="grid gap-4 *:min-w-0 lg:grid-cols-2">
         <Card title="Document">

@@ -1,0 +1,22 @@
+import pino, { type Logger } from 'pino';
+
+// No 'server-only' marker: the background worker (a plain Node process) logs through this too.
+
+declare global {
+  // eslint-disable-next-line no-var
+  var __tallyvatLog: Logger | undefined;
+}
+
+/**
+ * The one logger of this process: JSON lines on stdout (one object per event, ISO time), at the
+ * level LOG_LEVEL names (default info; the tests run the server at warn). Kept on globalThis
+ * because Next bundles route handlers and pages apart, each with its own copy of this module.
+ */
+export const log: Logger =
+  globalThis.__tallyvatLog ??
+  (globalThis.__tallyvatLog = pino({
+    level: process.env.LOG_LEVEL ?? 'info',
+    base: { pid: process.pid, service: process.env.TALLYVAT_SERVICE ?? 'web' },
+    timestamp: pino.stdTimeFunctions.isoTime,
+    formatters: { level: (label) => ({ level: label }) },
+  }));
