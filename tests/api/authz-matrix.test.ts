@@ -7,6 +7,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '../support/api';
 import { api, makeCoopWithRoles } from '../support/api';
 import type { RouteSpec } from './matrix/types';
+import { routesOnDisk as routeFilesOnDisk } from '../security/helpers';
 
 const matrixDir = path.resolve('tests/api/matrix');
 const specs: RouteSpec[] = [];
@@ -14,22 +15,8 @@ for (const f of fs.readdirSync(matrixDir).filter((f) => f.endsWith('.ts') && f !
   specs.push(...((await import(path.join(matrixDir, f))) as { routes: RouteSpec[] }).routes);
 }
 
-function routesOnDisk(): string[] {
-  const out: string[] = [];
-  const walk = (dir: string) => {
-    for (const e of fs.readdirSync(dir, { withFileTypes: true })) {
-      const p = path.join(dir, e.name);
-      if (e.isDirectory()) walk(p);
-      else if (e.name === 'route.ts') {
-        const src = fs.readFileSync(p, 'utf8');
-        const route = '/' + path.relative(path.resolve('app'), path.dirname(p)).split(path.sep).join('/');
-        for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) out.push(`${m[1]} ${route}`);
-      }
-    }
-  };
-  walk(path.resolve('app/api'));
-  return out.sort();
-}
+/** Every exported method of every route file, as "METHOD /api/path". */
+const routesOnDisk = () => routeFilesOnDisk().map((r) => `${r.method} ${r.path}`).sort();
 
 const key = (s: RouteSpec) => `${s.method} ${s.path}`;
 

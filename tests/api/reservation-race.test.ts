@@ -5,6 +5,7 @@
 // end the tank agrees with its reservations and its ledger.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
+import { prng } from '../support/prng';
 
 /**
  * How long the race runs. The issue asks for 20 s; the default is 10 s so the integration suite
@@ -14,14 +15,6 @@ import { makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
 const RACE_SECONDS = Number(process.env.RESERVATION_RACE_SECONDS ?? 10);
 const WORKERS = 16;
 
-function prng(seed: number) {
-  return () => {
-    seed = (seed + 0x6d2b79f5) | 0;
-    let t = Math.imul(seed ^ (seed >>> 15), 1 | seed);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 describe(`${WORKERS} workers reserving for ${RACE_SECONDS} s while dips raise and lower the stock`, () => {
   let slug: string;

@@ -4,16 +4,8 @@
 // the database (lib/reservations), so the accepted total can never exceed 100 gal.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
+import { prng } from '../support/prng';
 
-/** mulberry32: a small seeded PRNG, so a failure can be replayed. */
-function prng(seed: number) {
-  return () => {
-    seed = (seed + 0x6d2b79f5) | 0;
-    let t = Math.imul(seed ^ (seed >>> 15), 1 | seed);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const GAL_ML = 3785.411784; // 1 US gal in mL (NIST Handbook 44)
 const galToMl = (milliGal: number) => Math.floor(milliGal * (GAL_ML / 1000) + 0.5);

@@ -8,15 +8,8 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { averageCostCentsPerLiter, recomputeMovingAverage, type TankMovement } from '@/lib/costing';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 import { makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
+import { prng } from '../support/prng';
 
-function prng(seed: number) {
-  return () => {
-    seed = (seed + 0x6d2b79f5) | 0;
-    let t = Math.imul(seed ^ (seed >>> 15), 1 | seed);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const STEPS = 300;
 
