@@ -22,10 +22,7 @@ const fetcher = async (url: string): Promise<PeriodOverview> => {
 export function PeriodProgress({ coop, period, initial, currency }: { coop: string; period: string; initial: PeriodOverview; currency: string }) {
   const router = useRouter();
   const url = `/api/coops/${coop}/billing/periods/${period}`;
-  const { data, error, mutate } = useSWR<PeriodOverview>(url, fetcher, {
-    fallbackData: initial,
-    refreshInterval: (d) => (d && (d.run?.status === 'running' || d.email.queued + d.email.sending > 0) ? 1000 : 0),
-  });
+  const { data, error, mutate } = useSWR<PeriodOverview>(url, fetcher, { fallbackData: initial });
   const [busy, setBusy] = useState<string | null>(null);
   const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
   const moving = Boolean(data && (data.run?.status === 'running' || data.email.queued + data.email.sending > 0));
@@ -40,6 +37,13 @@ export function PeriodProgress({ coop, period, initial, currency }: { coop: stri
     }
     void mutate(initial, { revalidate: true });
   }, [initial, mutate]);
+  // Poll once a second while something is moving (an explicit timer: it keeps going whatever the
+  // first answer was, and stops with the movement).
+  useEffect(() => {
+    if (!moving) return;
+    const timer = setInterval(() => void mutate(), 1000);
+    return () => clearInterval(timer);
+  }, [moving, mutate]);
   useEffect(() => {
     if (wasMoving.current && !moving) router.refresh();
     wasMoving.current = moving;
