@@ -12,5 +12,3 @@ export { unacknowledgedDangers, acknowledgeDanger, type DangerAlert } from './da
 export { readUpload, fileResponse, type CheckedUpload } from './upload';
 export type { ComputedPlan } from './plan';
 
-/** A numeric id from the URL; anything else is a 404 (the one parser, in lib/validation). */
-export { idParam } from '@/lib/validation/id-param';

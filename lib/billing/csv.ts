@@ -7,5 +7,3 @@ export function centsToDecimal(cents: number): string {
   return `${sign}${Math.floor(a / 100)}.${String(a % 100).padStart(2, '0')}`;
 }
 
-/** The one CSV cell writer, shared by every export. */
-export { csvCell, csvRows } from '@/lib/csv';

@@ -2,8 +2,6 @@ import 'server-only';
 import { notFound } from '@/lib/http';
 import { PERIOD_PATTERN } from './periods';
 
-/** A numeric id from the URL; anything else is a 404 (the one parser, in lib/validation). */
-export { idParam } from '@/lib/validation/id-param';
 
 /** A 'YYYY-MM' month from the URL; anything else is a 404. */
 export function periodParam(s: string): string {

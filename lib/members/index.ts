@@ -188,5 +188,3 @@ export async function removeMembership(actor: Actor, membershipId: number): Prom
   }
 }
 
-/** A numeric id from the URL (`/members/12`); anything else is a 404 (the one parser, in lib/validation). */
-export { idParam } from '@/lib/validation/id-param';

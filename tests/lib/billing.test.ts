@@ -1,7 +1,8 @@
 // Pure billing helpers: months in a co-op's time zone, invoice labels, CSV cells, and the
 // closed-month SQLSTATE becoming a 409.
 import { describe, expect, it } from 'vitest';
-import { centsToDecimal, csvCell } from '@/lib/billing/csv';
+import { centsToDecimal } from '@/lib/billing/csv';
+import { csvCell } from '@/lib/csv';
 import { addDays, currentPeriod, invoiceLabel, periodLabel, periodToDate, shiftPeriod, todayIn } from '@/lib/billing/periods';
 import { errorResponse } from '@/lib/http';
 

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { getBatch, idParam, updateBatch } from '@/lib/batches';
+import { getBatch, updateBatch } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchUpdateSchema } from '@/lib/validation/brewing';
 

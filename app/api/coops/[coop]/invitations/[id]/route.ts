@@ -1,7 +1,7 @@
 import { requireMember } from '@/lib/auth';
 import { handler } from '@/lib/http';
 import { revokeInvitation } from '@/lib/invitations';
-import { idParam } from '@/lib/members';
+import { idParam } from '@/lib/validation/id-param';
 
 export const dynamic = 'force-dynamic';
 

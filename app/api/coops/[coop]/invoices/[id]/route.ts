@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
-import { idParam } from '@/lib/billing/params';
+import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 
 export const dynamic = 'force-dynamic';

@@ -1,6 +1,7 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
-import { idParam, removeMembership, updateMembership } from '@/lib/members';
+import { removeMembership, updateMembership } from '@/lib/members';
+import { idParam } from '@/lib/validation/id-param';
 import { membershipUpdateSchema } from '@/lib/validation/auth';
 
 export const dynamic = 'force-dynamic';

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
-import { idParam } from '@/lib/tank/id-param';
+import { idParam } from '@/lib/validation/id-param';
 import { getTank, updateTank } from '@/lib/tank';
 import { tankUpdateSchema } from '@/lib/validation/tank';
 

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { advanceBatch, idParam } from '@/lib/batches';
+import { advanceBatch } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchAdvanceSchema } from '@/lib/validation/brewing';
 

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { batchCertificate, idParam } from '@/lib/batches';
+import { batchCertificate } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 import { pdfResponse } from '@/lib/pdf';
 

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { addBatchFile, BATCH_FILE_KINDS, idParam, readUpload } from '@/lib/batches';
+import { addBatchFile, BATCH_FILE_KINDS, readUpload } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 
 export const dynamic = 'force-dynamic';

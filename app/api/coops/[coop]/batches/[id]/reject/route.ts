@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { idParam, rejectBatch } from '@/lib/batches';
+import { rejectBatch } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchRejectSchema } from '@/lib/validation/brewing';
 

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { idParam, releaseBatch } from '@/lib/batches';
+import { releaseBatch } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchReleaseSchema } from '@/lib/validation/brewing';
 

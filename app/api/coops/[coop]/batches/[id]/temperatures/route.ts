@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { addTemperature, idParam } from '@/lib/batches';
+import { addTemperature } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { temperatureCreateSchema } from '@/lib/validation/brewing';
 

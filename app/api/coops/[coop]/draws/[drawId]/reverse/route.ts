@@ -1,7 +1,7 @@
 import { requireMember } from '@/lib/auth';
 import { reverseDraw } from '@/lib/draws';
 import { handler, parseBody } from '@/lib/http';
-import { idParam } from '@/lib/tank/id-param';
+import { idParam } from '@/lib/validation/id-param';
 import { drawReverseSchema } from '@/lib/validation/tank';
 
 export const dynamic = 'force-dynamic';

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { payInvoiceByCard } from '@/lib/billing/card';
-import { idParam } from '@/lib/billing/params';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { cardPaySchema } from '@/lib/validation/billing';
 

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
-import { idParam } from '@/lib/billing/params';
+import { idParam } from '@/lib/validation/id-param';
 import { invoiceFileName, renderInvoicePdf } from '@/lib/billing/pdf';
 import { handler } from '@/lib/http';
 import { pdfResponse } from '@/lib/pdf';

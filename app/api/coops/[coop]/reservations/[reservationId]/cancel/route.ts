@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler } from '@/lib/http';
-import { idParam } from '@/lib/tank/id-param';
+import { idParam } from '@/lib/validation/id-param';
 import { cancelReservation } from '@/lib/reservations';
 
 export const dynamic = 'force-dynamic';

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseQuery } from '@/lib/http';
-import { idParam } from '@/lib/tank/id-param';
+import { idParam } from '@/lib/validation/id-param';
 import { listMovements } from '@/lib/tank';
 import { movementListSchema } from '@/lib/validation/tank';
 

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { fileResponse, getBatchFile, idParam } from '@/lib/batches';
+import { fileResponse, getBatchFile } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 
 export const dynamic = 'force-dynamic';

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { acknowledgeDanger, idParam } from '@/lib/batches';
+import { acknowledgeDanger } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 
 export const dynamic = 'force-dynamic';

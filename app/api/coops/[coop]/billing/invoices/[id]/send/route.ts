@@ -1,7 +1,7 @@
 import { requireMember } from '@/lib/auth';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
 import { sendInvoiceEmail } from '@/lib/billing/mail';
-import { idParam } from '@/lib/billing/params';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { invoicesIssueSchema } from '@/lib/validation/billing';
 import { audit } from '@/lib/audit';

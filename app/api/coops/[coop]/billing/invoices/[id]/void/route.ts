@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { voidInvoice } from '@/lib/billing/issue';
-import { idParam } from '@/lib/billing/params';
+import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { invoiceVoidSchema } from '@/lib/validation/billing';
 

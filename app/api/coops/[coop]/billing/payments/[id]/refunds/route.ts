@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { idParam } from '@/lib/billing/params';
+import { idParam } from '@/lib/validation/id-param';
 import { refundPayment } from '@/lib/billing/payments';
 import { handler, parseBody } from '@/lib/http';
 import { refundCreateSchema } from '@/lib/validation/billing';

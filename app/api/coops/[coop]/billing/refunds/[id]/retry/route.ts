@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { idParam } from '@/lib/billing/params';
+import { idParam } from '@/lib/validation/id-param';
 import { retryRefund } from '@/lib/billing/payments';
 import { handler } from '@/lib/http';
 

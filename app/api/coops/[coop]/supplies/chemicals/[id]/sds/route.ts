@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { fileResponse, idParam, readUpload } from '@/lib/batches';
+import { fileResponse, readUpload } from '@/lib/batches';
+import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 import { attachSafetyDataSheet, getSafetyDataSheet } from '@/lib/supplies';
 
