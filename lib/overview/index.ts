@@ -2,7 +2,7 @@ import 'server-only';
 import { col, fn, literal, Op, type InferAttributes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
-import { memberBalance } from '@/lib/billing/invoices';
+import { OPEN_STATUSES } from '@/lib/billing/invoices';
 import { currentPeriod, periodToDate } from '@/lib/billing/periods';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
@@ -12,8 +12,8 @@ import { stockState, summarizeStock } from '@/lib/supplies';
 import { listTanks, type TankDto } from '@/lib/tank';
 import { mlToLiters } from '@/lib/tank/quantity';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
-import { AuditEvent, Batch, Invitation, Invoice, Payment, Reservation, Tank, User } from '@/models';
-import { dailyTankLevel, monthlyVolumes, topOwing } from './queries';
+import { Batch } from '@/models';
+import { dailyTankLevel, monthlyVolumes, overviewCards, topOwing, type CardsRow } from './queries';
 import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
 
 export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
@@ -50,111 +50,36 @@ export function priceSummaryOf(row: (PolicyRow & { id: number }) | undefined, av
 /** Batch steps between planned and released: the work under way. */
 const WORKING = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'] as const;
 
-/** Batches under way, the next planned batch, and whether the chemicals it uses are covered. */
-async function getBrewerSection(coopId: number): Promise<BrewerSection> {
-  const [working, { lots, needs }] = await Promise.all([
-    Batch.findAll({
-      attributes: ['id', 'number', 'status', 'oilLiters', 'statusChangedAt'],
-      where: { coopId, status: [...WORKING] },
-      order: [['number', 'ASC']],
-      limit: 10,
-      raw: true,
-    }),
-    stockState(coopId),
-  ]);
+/** Batches under way (from the cards row), the next planned batch, and whether the chemicals it uses are covered. */
+function brewerSectionOf(working: NonNullable<CardsRow['working']>, { lots, needs }: Awaited<ReturnType<typeof stockState>>): BrewerSection {
   const summary = summarizeStock(lots, needs);
   const next = needs.next;
   return {
-    inProgress: working.map((b) => ({ id: b.id, number: b.number, status: b.status, oilLiters: Number(b.oilLiters), since: new Date(b.statusChangedAt).toISOString() })),
+    inProgress: working.map((b) => ({ id: b.id, number: b.number, status: b.status, oilLiters: Number(b.oilLiters), since: new Date(b.since).toISOString() })),
     nextPlanned: next ? { id: next.id, number: next.number, batchDate: next.batchDate, oilLiters: next.oilLiters, catalyst: next.catalyst } : null,
     stock: summary.lines.filter((l) => l.nextPlannedNeed !== null).map((l) => ({ kind: l.kind, unit: l.unit, available: l.available, need: l.nextPlannedNeed!, low: l.low })),
   };
 }
-
-/** Invoices of a month summed per kind and status (a handful of rows); BIGINT sums arrive as strings. */
-type InvoiceSums = Pick<InferAttributes<Invoice>, 'kind' | 'status'> & { count: string; total: string | null; paid: string | null; owed: string | null };
 
 /**
  * This month's invoiced / paid / outstanding (issued invoices: not draft, not void; outstanding
  * only on issued and partly paid ones), its drafts, and payments of any month with money not yet
  * matched to an invoice.
  */
-async function getTreasurerSection(coopId: number, period: string): Promise<TreasurerSection> {
-  const [sums, unmatched] = await Promise.all([
-    Invoice.findAll({
-      attributes: [
-        'kind',
-        'status',
-        [fn('COUNT', col('id')), 'count'],
-        [fn('SUM', col('total_cents')), 'total'],
-        [fn('SUM', col('paid_cents')), 'paid'],
-        [fn('SUM', fn('GREATEST', literal('total_cents - paid_cents'), 0)), 'owed'],
-      ],
-      where: { coopId, period: periodToDate(period) },
-      group: ['kind', 'status'],
-      raw: true,
-    }) as unknown as Promise<InvoiceSums[]>,
-    Payment.findOne({
-      attributes: [
-        [fn('COUNT', col('id')), 'count'],
-        [fn('COALESCE', fn('SUM', col('unallocated_cents')), 0), 'cents'],
-      ],
-      where: { coopId, unallocatedCents: { [Op.gt]: 0 } },
-      raw: true,
-    }) as unknown as Promise<{ count: string; cents: string } | null>,
-  ]);
+function treasurerSectionOf(period: string, sums: NonNullable<CardsRow['invoiceSums']>, unmatched: CardsRow['unmatched']): TreasurerSection {
+  type Sum = (typeof sums)[number];
   const issued = sums.filter((r) => r.kind === 'invoice' && r.status !== 'draft' && r.status !== 'void');
-  const add = (rows: InvoiceSums[], k: 'count' | 'total' | 'paid' | 'owed') => rows.reduce((a, r) => a + Number(r[k] ?? 0), 0);
+  const add = (rows: Sum[], k: 'count' | 'total' | 'paid' | 'owed') => rows.reduce((a, r) => a + Number(r[k] ?? 0), 0);
   return {
     period,
     invoicedCents: add(issued, 'total'),
     paidCents: add(issued, 'paid'),
-    outstandingCents: add(issued.filter((r) => r.status === 'issued' || r.status === 'partly-paid'), 'owed'),
+    outstandingCents: add(issued.filter((r) => (OPEN_STATUSES as string[]).includes(r.status)), 'owed'),
     invoices: add(issued, 'count'),
     drafts: add(sums.filter((r) => r.kind === 'invoice' && r.status === 'draft'), 'count'),
     unmatchedPayments: Number(unmatched?.count ?? 0),
     unmatchedCents: Number(unmatched?.cents ?? 0),
   };
-}
-
-/** Pending invitations (and how many of them were never sent) and the last eight audited changes. */
-async function getAdminSection(coopId: number): Promise<NonNullable<Overview['admin']>> {
-  const [invitations, events] = await Promise.all([
-    Invitation.findAll({
-      attributes: ['delivery', [fn('COUNT', col('id')), 'count']],
-      where: { coopId, status: 'pending', expiresAt: { [Op.gt]: fn('now') } },
-      group: ['delivery'],
-      raw: true,
-    }) as unknown as Promise<(Pick<InferAttributes<Invitation>, 'delivery'> & { count: string })[]>,
-    AuditEvent.findAll({
-      attributes: ['createdAt', 'action'],
-      where: { coopId },
-      include: [{ model: User, as: 'actor', attributes: ['name'] }],
-      order: [['createdAt', 'DESC'], ['id', 'DESC']],
-      limit: 8,
-      raw: true,
-      nest: true,
-    }),
-  ]);
-  return {
-    pendingInvitations: invitations.reduce((a, r) => a + Number(r.count), 0),
-    notSentInvitations: invitations.filter((r) => r.delivery === 'not-sent').reduce((a, r) => a + Number(r.count), 0),
-    recentEvents: events.map((e) => ({ at: new Date(e.createdAt).toISOString(), who: e.actor?.name ?? null, action: e.action })),
-  };
-}
-
-/** My open reservations whose window has not ended yet (soonest first), with the tank's name. */
-async function myOpenReservations(actor: Actor): Promise<Overview['member']['openReservations']> {
-  const rows = await Reservation.findAll({
-    attributes: ['id', 'quantityLiters', 'windowEnd'],
-    where: { coopId: actor.coop.id, membershipId: actor.membershipId, status: 'open', windowEnd: { [Op.gte]: fn('now') } },
-    include: [{ model: Tank, as: 'tank', attributes: ['name'], where: { coopId: actor.coop.id } }],
-    order: [['windowEnd', 'ASC']],
-    limit: 10,
-    raw: true,
-    nest: true,
-  });
-  return rows.map((r) => ({ id: r.id, tankName: r.tank!.name, quantityLiters: r.quantityLiters, windowEnd: new Date(r.windowEnd).toISOString() }));
 }
 
 /**
@@ -227,8 +152,9 @@ function charts(actor: Actor) {
 /**
  * The first screen of a co-op, different by role: everyone sees the tank and the price, their
  * open reservations and their own account; brewers the batches under way and the stock for the
- * next one; treasurers the month's billing; admins pending invitations and recent changes. The
- * independent reads run in parallel, each a narrow raw query (or another domain's read); the
+ * next one; treasurers the month's billing; admins pending invitations and recent changes. Four
+ * reads run in parallel: the tanks and the price in force (their domains' own reads), every other
+ * card figure in one statement (overviewCards), and for brewers the chemical stock; the
  * figures on cards are read fresh on every request, chart series are SQL aggregates (months in
  * the co-op's time zone), never rows loaded into JavaScript, kept per process for a minute.
  * Reads only: nothing is written.
@@ -239,16 +165,21 @@ export async function getOverview(actor: Actor): Promise<Overview> {
   const isBrewer = can(actor.role, 'batches:read-all');
   const isTreasurer = can(actor.role, 'billing:manage');
   const isAdmin = can(actor.role, 'members:manage');
-  const [tanks, policy, openReservations, account, admin, brewer, treasurer, [volumes, level, batchCosts, balances]] = await Promise.all([
+  const period = currentPeriod(actor.coop.timezone);
+  const [tanks, policy, cards, stock, [volumes, level, batchCosts, balances]] = await Promise.all([
     listTanks(actor, { activeOnly: true }),
     policyInForce(c),
-    myOpenReservations(actor),
-    memberBalance(c, actor.membershipId),
-    isAdmin ? getAdminSection(c) : null,
-    isBrewer ? getBrewerSection(c) : null,
-    isTreasurer ? getTreasurerSection(c, currentPeriod(actor.coop.timezone)) : null,
+    overviewCards({ coopId: c, membershipId: actor.membershipId, openStatuses: OPEN_STATUSES, working: WORKING, period: periodToDate(period), brewer: isBrewer, treasurer: isTreasurer, admin: isAdmin }),
+    isBrewer ? stockState(c) : null,
     charts(actor),
   ]);
+  const openReservations = cards.reservations.map((r) => ({ ...r, windowEnd: new Date(r.windowEnd).toISOString() }));
+  const account = { outstandingCents: Number(cards.outstandingCents), creditCents: Number(cards.creditCents), unallocatedCents: Number(cards.unallocatedCents) };
+  const brewer = cards.working && stock ? brewerSectionOf(cards.working, stock) : null;
+  const treasurer = cards.invoiceSums ? treasurerSectionOf(period, cards.invoiceSums, cards.unmatched) : null;
+  const admin = cards.invitations && cards.events
+    ? { pendingInvitations: Number(cards.invitations.pending), notSentInvitations: Number(cards.invitations.notSent), recentEvents: cards.events.map((e) => ({ at: new Date(e.at).toISOString(), who: e.who, action: e.action })) }
+    : null;
   const tank = tankSummaryOf(tanks);
   return {
     role: actor.role,

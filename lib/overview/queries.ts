@@ -97,3 +97,57 @@ export function topOwing(coopId: number): Promise<OwingRow[]> {
     { bind: { coopId }, type: QueryTypes.SELECT },
   );
 }
+
+/** The overview's cards in one row: my figures always, each role section only when asked for (else null). */
+export interface CardsRow {
+  reservations: { id: number; tankName: string; quantityLiters: string; windowEnd: string }[];
+  outstandingCents: string;
+  creditCents: string;
+  unallocatedCents: string;
+  working: { id: number; number: number; status: string; oilLiters: string; since: string }[] | null;
+  invoiceSums: { kind: string; status: string; count: number; total: number; paid: number; owed: number }[] | null;
+  unmatched: { count: number; cents: number } | null;
+  invitations: { pending: number; notSent: number } | null;
+  events: { at: string; who: string | null; action: string }[] | null;
+}
+
+/**
+ * Every card figure of the overview in one round trip (it was a dozen parallel model reads, the
+ * largest cost of the first screen): my open reservations and my account (the same sums as
+ * lib/billing's memberBalance), and — only for the roles that see them — the batches under way,
+ * the month's invoice sums by kind and status, unmatched payments, pending invitations and the
+ * last eight audited changes. A section not asked for is an InitPlan never run and comes back null.
+ */
+export async function overviewCards(p: {
+  coopId: number; membershipId: number; openStatuses: string[]; working: readonly string[];
+  period: string; brewer: boolean; treasurer: boolean; admin: boolean;
+}): Promise<CardsRow> {
+  const [row] = await sequelize.query<CardsRow>(
+    `SELECT
+       (SELECT COALESCE(json_agg(x ORDER BY x."windowEnd"), '[]') FROM (
+          SELECT r.id, t.name AS "tankName", r.quantity_liters::text AS "quantityLiters", r.window_end AS "windowEnd"
+          FROM reservations r JOIN tanks t ON t.id = r.tank_id AND t.coop_id = $coopId
+          WHERE r.coop_id = $coopId AND r.membership_id = $membershipId AND r.status = 'open' AND r.window_end >= now()
+          ORDER BY r.window_end LIMIT 10) x) AS reservations,
+       (SELECT COALESCE(SUM(GREATEST(total_cents - paid_cents, 0)), 0) FROM invoices
+          WHERE coop_id = $coopId AND membership_id = $membershipId AND kind = 'invoice' AND status = ANY($openStatuses)) AS "outstandingCents",
+       (SELECT COALESCE(SUM(amount_cents), 0) FROM member_credits WHERE coop_id = $coopId AND membership_id = $membershipId) AS "creditCents",
+       (SELECT COALESCE(SUM(unallocated_cents), 0) FROM payments WHERE coop_id = $coopId AND membership_id = $membershipId) AS "unallocatedCents",
+       CASE WHEN $brewer THEN (SELECT COALESCE(json_agg(x ORDER BY x.number), '[]') FROM (
+          SELECT id, number, status, oil_liters::text AS "oilLiters", status_changed_at AS since FROM batches
+          WHERE coop_id = $coopId AND status = ANY($working) ORDER BY number LIMIT 10) x) END AS working,
+       CASE WHEN $treasurer THEN (SELECT COALESCE(json_agg(x), '[]') FROM (
+          SELECT kind, status, COUNT(*) AS count, SUM(total_cents) AS total, SUM(paid_cents) AS paid,
+                 SUM(GREATEST(total_cents - paid_cents, 0)) AS owed
+          FROM invoices WHERE coop_id = $coopId AND period = $period::date GROUP BY kind, status) x) END AS "invoiceSums",
+       CASE WHEN $treasurer THEN (SELECT json_build_object('count', COUNT(*), 'cents', COALESCE(SUM(unallocated_cents), 0))
+          FROM payments WHERE coop_id = $coopId AND unallocated_cents > 0) END AS unmatched,
+       CASE WHEN $admin THEN (SELECT json_build_object('pending', COUNT(*), 'notSent', COUNT(*) FILTER (WHERE delivery = 'not-sent'))
+          FROM invitations WHERE coop_id = $coopId AND status = 'pending' AND expires_at > now()) END AS invitations,
+       CASE WHEN $admin THEN (SELECT COALESCE(json_agg(x ORDER BY x.at DESC, x.id DESC), '[]') FROM (
+          SELECT a.id, a.created_at AS at, u.name AS who, a.action FROM audit_events a LEFT JOIN users u ON u.id = a.actor_user_id
+          WHERE a.coop_id = $coopId ORDER BY a.created_at DESC, a.id DESC LIMIT 8) x) END AS events`,
+    { bind: { ...p, working: [...p.working] }, type: QueryTypes.SELECT },
+  );
+  return row!; // a SELECT without FROM always yields one row
+}
