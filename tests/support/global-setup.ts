@@ -64,8 +64,9 @@ export default async function setup(project: TestProject) {
     paymentsPort,
     webhookSecret: 'whsec_tallyvat_test',
     storageDir,
-    // Overview charts are cached for a minute in production; tests read every figure fresh.
-    extra: { NODE_ENV: 'production', OVERVIEW_CACHE_SECONDS: '0', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' },
+    // Overview charts are cached for a minute in production; tests read every figure fresh. The
+    // worker's timed jobs are off (JOB_SCHEDULES): a minute's expiry must not land inside a test.
+    extra: { NODE_ENV: 'production', OVERVIEW_CACHE_SECONDS: '0', JOB_SCHEDULES: 'off', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' },
   });
   const log = fs.createWriteStream(path.join(root, 'next.log'));
   // The job worker (e-mail, billing runs, schedules) beside the server, as `npm start` runs it.
