@@ -38,7 +38,6 @@ interface DatabaseState {
 }
 
 declare global {
-  // eslint-disable-next-line no-var
   var __tallyvatDbState: DatabaseState | undefined;
 }
 

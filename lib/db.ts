@@ -5,7 +5,6 @@ import { Sequelize, type Transaction } from 'sequelize';
 // PostgreSQL BIGINT (int8) and NUMERIC arrive as strings; we parse them on purpose where used.
 
 declare global {
-  // eslint-disable-next-line no-var
   var __tallyvatSequelize: Sequelize | undefined;
 }
 

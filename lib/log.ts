@@ -3,7 +3,6 @@ import pino, { type Logger } from 'pino';
 // No 'server-only' marker: the background worker (a plain Node process) logs through this too.
 
 declare global {
-  // eslint-disable-next-line no-var
   var __tallyvatLog: Logger | undefined;
 }
 

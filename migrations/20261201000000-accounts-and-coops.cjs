@@ -4,7 +4,7 @@
  *  attempts and the audit log. Every co-op-owned table carries coop_id NOT NULL + FK + index.
  *  @type {import('sequelize-cli').Migration} */
 module.exports = {
-  async up(queryInterface, Sequelize) {
+  async up(queryInterface) {
     await queryInterface.sequelize.transaction(async (transaction) => {
       const q = (sql) => queryInterface.sequelize.query(sql, { transaction });
       await q(`

@@ -36,21 +36,6 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
   const formRef = useRef<HTMLFormElement>(null);
   const id = useId();
 
-  // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
-  useEffect(() => {
-    if (!dirty) {
-      markClean(id);
-      return;
-    }
-    markDirty(id, () => (formRef.current ? save(formRef.current) : Promise.resolve(true)));
-    const warn = (e: BeforeUnloadEvent) => {
-      if (hasUnsaved()) e.preventDefault();
-    };
-    window.addEventListener('beforeunload', warn);
-    return () => window.removeEventListener('beforeunload', warn);
-  });
-  useEffect(() => () => markClean(id), [id]);
-
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     await save(e.currentTarget);
@@ -75,6 +60,21 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
     }
     return Boolean(ok);
   }
+
+  // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
+  useEffect(() => {
+    if (!dirty) {
+      markClean(id);
+      return;
+    }
+    markDirty(id, () => (formRef.current ? save(formRef.current) : Promise.resolve(true)));
+    const warn = (e: BeforeUnloadEvent) => {
+      if (hasUnsaved()) e.preventDefault();
+    };
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  });
+  useEffect(() => () => markClean(id), [id]);
 
   const formErrors = errors._form;
   return (

@@ -45,7 +45,10 @@ export function DataTable<Row extends RowData>({
   const dir = params.get('dir') === 'desc' ? 'desc' : 'asc';
   const href = (changes: Record<string, string | null>) => {
     const p = new URLSearchParams(params.toString());
-    for (const [k, v] of Object.entries(changes)) (v === null ? p.delete(k) : p.set(k, v));
+    for (const [k, v] of Object.entries(changes)) {
+      if (v === null) p.delete(k);
+      else p.set(k, v);
+    }
     return `${pathname}?${p.toString()}`;
   };
 

@@ -1,7 +1,5 @@
 'use client';
 
-import { useEffect, useState } from 'react';
-
 /**
  * FormData → plain object for a form whose inputs are named `${prefix}-${field}` (so two forms
  * on one page never share an element id); empty strings are dropped.
@@ -26,9 +24,3 @@ export async function jsonFetcher<T>(url: string): Promise<T> {
   return res.json() as Promise<T>;
 }
 
-/** True after the first client render (for "updated at" stamps that must not differ from the server HTML). */
-export function useMounted() {
-  const [m, setM] = useState(false);
-  useEffect(() => setM(true), []);
-  return m;
-}

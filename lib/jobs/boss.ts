@@ -3,7 +3,6 @@ import { PgBoss, type Queue } from 'pg-boss';
 import { QUEUES, type QueueName } from './names';
 
 declare global {
-  // eslint-disable-next-line no-var
   var __tallyvatBoss: Promise<PgBoss> | undefined;
 }
 

@@ -2,7 +2,6 @@ import 'server-only';
 import nodemailer, { type Transporter } from 'nodemailer';
 
 declare global {
-  // eslint-disable-next-line no-var
   var __tallyvatMail: Transporter | undefined;
 }
 

@@ -1,5 +1,5 @@
 import 'server-only';
-import { col, fn, literal, Op, type InferAttributes } from 'sequelize';
+import { col, fn, literal, type InferAttributes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
 import { OPEN_STATUSES } from '@/lib/billing/invoices';
@@ -8,7 +8,7 @@ import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
 import { policyInForce } from '@/lib/pricing-policy';
 import { policyInUnits, type PolicyRow } from '@/lib/pricing-policy/convert';
-import { stockState, summarizeStock } from '@/lib/supplies';
+import { stockState, summarizeStock } from '@/lib/supplies/stock';
 import { listTanks, type TankDto } from '@/lib/tank';
 import { mlToLiters } from '@/lib/tank/quantity';
 import { LITERS_PER_US_GALLON } from '@/lib/units';

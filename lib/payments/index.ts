@@ -9,7 +9,6 @@ import Stripe from 'stripe';
  */
 
 declare global {
-  // eslint-disable-next-line no-var
   var __tallyvatStripe: Stripe | undefined;
 }
 

@@ -1,5 +1,5 @@
 import 'server-only';
-import { literal, Op, UniqueConstraintError, type InferAttributes, type Order, type Transaction, type WhereOptions } from 'sequelize';
+import { literal, UniqueConstraintError, type InferAttributes, type Order, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';

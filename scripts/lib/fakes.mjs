@@ -60,7 +60,7 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
       res.writeHead(200, { 'content-type': 'application/json' });
       res.end(JSON.stringify(messages.map(({ attachments, ...m }) => ({
         ...m,
-        attachments: attachments.map(({ content, ...a }) => a),
+        attachments: attachments.map(({ content: _content, ...a }) => a),
       }))));
       return;
     }

@@ -14,11 +14,17 @@ function cellsAs(line: string, sep: string): string[] {
   for (let i = 0; i < line.length; i++) {
     const ch = line[i]!;
     if (quoted) {
-      if (ch === '"' && line[i + 1] === '"') (cur += '"'), i++;
+      if (ch === '"' && line[i + 1] === '"') {
+        cur += '"';
+        i++;
+      }
       else if (ch === '"') quoted = false;
       else cur += ch;
     } else if (ch === '"') quoted = true;
-    else if (ch === sep) (out.push(cur), (cur = ''));
+    else if (ch === sep) {
+      out.push(cur);
+      cur = '';
+    }
     else cur += ch;
   }
   out.push(cur);
