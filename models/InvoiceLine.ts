@@ -1,6 +1,5 @@
 import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
 import type { Coop } from './Coop';
-import type { Invoice } from './Invoice';
 
 export type InvoiceLineKind = 'draw' | 'draw-reversal' | 'dues' | 'surcharge' | 'road-tax' | 'adjustment' | 'credit';
 
@@ -8,7 +7,7 @@ export type InvoiceLineKind = 'draw' | 'draw-reversal' | 'dues' | 'surcharge' | 
 export class InvoiceLine extends Model<InferAttributes<InvoiceLine>, InferCreationAttributes<InvoiceLine>> {
   declare id: CreationOptional<string>;
   declare coopId: ForeignKey<Coop['id']>;
-  declare invoiceId: ForeignKey<Invoice['id']>;
+  declare invoiceId: ForeignKey<number>; // invoices.id (Invoice imports this model for its lines; no import back)
   declare sortKey: number;
   declare kind: InvoiceLineKind;
   declare description: string;

@@ -4,7 +4,7 @@ import { batchCost, consumeFifo, energyCostCents, estimateHeatingKwh, type FifoL
 import { Op } from 'sequelize';
 import { YIELD_HISTORY_BATCHES } from '@/lib/chemistry';
 import { formatCents, roundHalfUp } from '@/lib/money';
-import { stockState, summarizeStock } from '@/lib/supplies';
+import { stockState, summarizeStock } from '@/lib/supplies/stock';
 import { formatTemp, fToC, litersToGallons, tempToC, volumeToLiters } from '@/lib/units';
 import { Batch, ChemicalLot } from '@/models';
 import type { PlannerInput } from '@/lib/validation/brewing';

@@ -4,7 +4,7 @@ import { enqueueMany, QUEUES, type PlainMailJob } from '@/lib/jobs';
 import { appUrl } from '@/lib/mail';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { Coop, LowStockAlert, Membership, User } from '@/models';
-import { stockState, summarizeStock, type StockLine } from './index';
+import { stockState, summarizeStock, type StockLine } from './stock';
 import { flipLowStockToLow } from './queries';
 
 function amount(line: Pick<StockLine, 'kind'>, value: number, units: UnitSystem): string {

@@ -11,6 +11,8 @@
 // 3. Nothing imports the removed layers: `statement`, `queryRows`, `queryRowSets`, `runReadPlan`,
 //    `ReadPlan` from `lib/db`, or anything from `lib/billing/db`.
 // 4. `models/` imports nothing from `lib/` except `@/lib/db` (the Sequelize instance).
+// 5. No import cycles among app/, components/, lib/ and models/; components/ never import models/.
+// 6. No source file of app/, components/, lib/, models/, scripts/ or bench/ over 400 lines.
 import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -100,5 +102,56 @@ describe('architecture: one data layer through Sequelize', () => {
       .flatMap((f) => importsOf(f).filter((i) => i.target.startsWith('lib/') && i.target !== 'lib/db').map((i) => `${f}: imports ${i.spec}`))
       .filter((line, i, all) => all.indexOf(line) === i);
     expect(offenders, `models reaching into lib/:\n  ${offenders.join('\n  ')}\n`).toEqual([]);
+  });
+});
+
+/** Module key of a source file, as importsOf() writes targets: no extension, no trailing /index. */
+const moduleKey = (f: string) => f.replace(/\.(?:[cm]?[jt]s|[jt]sx)$/, '').replace(/\/index$/, '');
+
+/** Import cycles among app/, components/, lib/ and models/ (type-only imports included: a cycle of types is still a tangle), each once. */
+function importCycles(): string[][] {
+  const inScope = files.filter((f) => /^(?:app|components|lib|models)\//.test(f));
+  const byKey = new Map(inScope.map((f) => [moduleKey(f), f]));
+  const edges = new Map(inScope.map((f) => [f, [...new Set(importsOf(f).map((i) => byKey.get(i.target)).filter((t): t is string => !!t && t !== f))]]));
+  // Tarjan's strongly connected components: every component of more than one file holds a cycle.
+  let index = 0;
+  const idx = new Map<string, number>(), low = new Map<string, number>(), onStack = new Set<string>(), stack: string[] = [], out: string[][] = [];
+  const visit = (v: string) => {
+    idx.set(v, index); low.set(v, index); index++; stack.push(v); onStack.add(v);
+    for (const w of edges.get(v) ?? []) {
+      if (!idx.has(w)) { visit(w); low.set(v, Math.min(low.get(v)!, low.get(w)!)); }
+      else if (onStack.has(w)) low.set(v, Math.min(low.get(v)!, idx.get(w)!));
+    }
+    if (low.get(v) === idx.get(v)) {
+      const comp: string[] = [];
+      let w: string;
+      do { w = stack.pop()!; onStack.delete(w); comp.push(w); } while (w !== v);
+      if (comp.length > 1) out.push(comp.sort());
+    }
+  };
+  for (const f of inScope) if (!idx.has(f)) visit(f);
+  return out;
+}
+
+describe('architecture: layers', () => {
+  it('has no import cycles among app/, components/, lib/ and models/ (dynamic and type imports included)', () => {
+    const cycles = importCycles();
+    expect(cycles, `files importing each other, directly or round a loop (move the shared part into a module both import):\n  ${cycles.map((c) => c.join(' ↔ ')).join('\n  ')}\n`).toEqual([]);
+  });
+
+  it('keeps every source file of app/, components/, lib/, models/, scripts/ and bench/ at 400 lines or fewer', () => {
+    const long = files
+      .filter((f) => /^(?:app|components|lib|models|scripts|bench)\//.test(f))
+      .map((f) => ({ f, lines: fs.readFileSync(path.join(ROOT, f), 'utf8').split('\n').length - 1 }))
+      .filter((x) => x.lines > 400)
+      .map((x) => `${x.f}: ${x.lines} lines`);
+    expect(long, `files over 400 lines (split them by what they do):\n  ${long.join('\n  ')}\n`).toEqual([]);
+  });
+
+  it('components/ import nothing from models/ (they get DTOs from lib/ or the API)', () => {
+    const offenders = files
+      .filter((f) => f.startsWith('components/'))
+      .flatMap((f) => importsOf(f).filter((i) => i.target === 'models' || i.target.startsWith('models/')).map((i) => `${f}: imports ${i.spec}`));
+    expect(offenders, `components reaching into models/:\n  ${offenders.join('\n  ')}\n`).toEqual([]);
   });
 });

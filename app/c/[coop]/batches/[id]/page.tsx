@@ -17,7 +17,7 @@ import { getBatch, unacknowledgedDangers, type BatchDto, type BatchSummaryDto, t
 import { idParam } from '@/lib/validation/id-param';
 import { DangerBanner } from '@/components/brewing/danger-banner';
 import { HttpError } from '@/lib/http';
-import { listTanks } from '@/lib/supplies';
+import { listTanks } from '@/lib/tank';
 import { volumeFromLiters, volumeLabel, type UnitSystem } from '@/lib/units';
 import { altitudeNote } from '@/lib/chemistry';
 
@@ -39,7 +39,7 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
   }
   const base = `/c/${actor.coop.slug}`;
   if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} />;
-  const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
+  const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor, { activeOnly: true }) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
   const elevationM = actor.coop.settings.elevationM ?? 0;
   const altitude = altitudeNote(elevationM, actor.coop.units);
   return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} />;

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler } from '@/lib/http';
-import { stockSummary } from '@/lib/supplies';
+import { stockSummary } from '@/lib/supplies/stock';
 
 export const dynamic = 'force-dynamic';
 
