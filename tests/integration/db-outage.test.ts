@@ -58,7 +58,6 @@ beforeAll(async () => {
     smtpPort: await freePort(),
     paymentsPort: await freePort(),
     webhookSecret: 'whsec_tallyvat_outage',
-    storageDir: path.join(root, 'uploads'),
     extra: { NODE_ENV: 'production', LOG_LEVEL: 'info', NEXTAUTH_URL: baseUrl },
   });
   next = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'pipe', 'pipe'] }).child as ChildProcess;
