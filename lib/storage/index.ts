@@ -39,8 +39,11 @@ export function objectKey(key: string): string {
   return `${storageConfig().prefix}coops/${key}`;
 }
 
-const unavailable = () =>
-  new HttpError(503, 'File storage cannot be reached right now. Nothing was changed; please try again shortly.', undefined, { code: 'storage-unavailable', retryAfter: 5 });
+/** The store could not be reached or refused us: logged for the operator, 503 for the person. */
+const unavailable = (err: unknown, op: string) => {
+  log.warn({ err, op }, 'storage.unavailable');
+  return new HttpError(503, 'File storage cannot be reached right now. Nothing was changed; please try again shortly.', undefined, { code: 'storage-unavailable', retryAfter: 5 });
+};
 
 /** Saves bytes for a co-op; returns the storage key (never a user-supplied name). */
 export async function putFile(coopId: number, kind: StoredKind, bytes: Uint8Array): Promise<string> {
@@ -48,8 +51,8 @@ export async function putFile(coopId: number, kind: StoredKind, bytes: Uint8Arra
   const { client, bucket } = storageConfig();
   try {
     await client.send(new PutObjectCommand({ Bucket: bucket, Key: objectKey(key), Body: bytes, ContentLength: bytes.byteLength, ContentType: MIME[kind] }));
-  } catch {
-    throw unavailable();
+  } catch (e) {
+    throw unavailable(e, 'put');
   }
   return key;
 }
@@ -73,9 +76,9 @@ export async function openFile(coopId: number, key: string): Promise<StoredFile>
   } catch (e) {
     const status = (e as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode;
     if (status === 404 || (e as Error).name === 'NoSuchKey') throw notFound('File not found.');
-    throw unavailable();
+    throw unavailable(e, 'get');
   }
-  if (!res.Body) throw unavailable();
+  if (!res.Body) throw unavailable(new Error('no body'), 'get');
   return { body: res.Body.transformToWebStream() as ReadableStream<Uint8Array>, size: Number(res.ContentLength ?? 0) };
 }
 
