@@ -14,7 +14,10 @@ const COMMON_HEADERS = [
 /** @type {import('next').NextConfig} */
 const nextConfig = {
   // Database and PDF libraries run only on the server and are loaded from node_modules as-is.
-  serverExternalPackages: ['sequelize', 'pg', 'pg-hstore', 'pdfkit', 'fontkit', 'nodemailer', 'stripe', 'pg-boss'],
+  serverExternalPackages: ['sequelize', 'pg', 'pg-hstore', 'pdfkit', 'fontkit', 'nodemailer', 'stripe', 'pg-boss', '@aws-sdk/client-s3'],
+  // The container image (Dockerfile) builds with NEXT_OUTPUT=standalone: a self-contained server
+  // with only the files it traces. `npm start` and the tests keep the ordinary build and `next start`.
+  ...(process.env.NEXT_OUTPUT === 'standalone' ? { output: 'standalone', outputFileTracingIncludes: { '/**': ['./fonts/**'] } } : {}),
   poweredByHeader: false,
   typedRoutes: false,
   experimental: {

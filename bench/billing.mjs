@@ -92,7 +92,7 @@ try {
     ...process.env, NODE_ENV: 'production', DATABASE_URL: db.url, APP_URL: base, NEXTAUTH_URL: base,
     NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: String(await freePort()),
     STRIPE_SECRET_KEY: 'sk_test_bench', STRIPE_API_HOST: '127.0.0.1', STRIPE_API_PORT: String(paymentsPort), STRIPE_API_PROTOCOL: 'http',
-    STRIPE_WEBHOOK_SECRET: 'whsec_bench', STORAGE_DIR: path.join(root, 'uploads'),
+    STRIPE_WEBHOOK_SECRET: 'whsec_bench',
   };
   const next = spawn(process.execPath, [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], { env, stdio: ['ignore', 'pipe', 'pipe'] });
   const nextLog = fs.createWriteStream(path.join(root, 'next.log'));

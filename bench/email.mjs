@@ -46,7 +46,7 @@ try {
   const baseUrl = `http://127.0.0.1:${port}`;
   const env = appEnv({
     databaseUrl: db.url, appUrl: baseUrl, secret: crypto.randomBytes(32).toString('base64url'), smtpPort, paymentsPort,
-    webhookSecret: 'whsec_bench', storageDir: path.join(root, 'uploads'), extra: { NODE_ENV: 'production' },
+    webhookSecret: 'whsec_bench', extra: { NODE_ENV: 'production' },
   });
   const next = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'ignore', 'inherit'] });
   stops.unshift(next.stop);

@@ -53,7 +53,7 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   if (process.env.BENCH_NODE_ARGS) nodeArgs.push(...process.env.BENCH_NODE_ARGS.split(/\s+/).filter(Boolean));
   const env = appEnv({
     databaseUrl: pgSrv.url + databaseUrlSuffix, appUrl: baseUrl, secret: crypto.randomBytes(32).toString('base64url'),
-    smtpPort, paymentsPort, webhookSecret: 'whsec_bench', storageDir: path.join(root, 'uploads'),
+    smtpPort, paymentsPort, webhookSecret: 'whsec_bench',
     extra: { NODE_ENV: 'production', DB_POOL_MAX: '20', TALLYVAT_BENCH: '1' },
   });
   const next = startNext({ env, port, host: '127.0.0.1', nodeArgs, stdio: ['ignore', 'ignore', 'inherit'] });
@@ -61,7 +61,53 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   await waitForHealth(baseUrl, next.child);
   const pool = dbPool(pgSrv.url);
   stops.unshift(() => pool.end());
-  return { baseUrl, pool, databaseUrl: pgSrv.url, root, pgClusterDir: path.join(root, 'pg', 'cluster'), next: next.child, stop: async () => { for (const s of stops) await s(); } };
+  /** Another `next start` with the same environment (one database), as a second instance behind a load balancer. */
+  const startInstance = async () => {
+    const p = await freePort();
+    const n = startNext({ env: { ...env, TALLYVAT_SERVICE: `web-${p}` }, port: p, host: '127.0.0.1', nodeArgs, stdio: ['ignore', 'ignore', 'inherit'] });
+    stops.unshift(n.stop);
+    await waitForHealth(`http://127.0.0.1:${p}`, n.child);
+    return { baseUrl: `http://127.0.0.1:${p}`, child: n.child };
+  };
+  return { baseUrl, pool, databaseUrl: pgSrv.url, root, pgClusterDir: path.join(root, 'pg', 'cluster'), next: next.child, startInstance, stop: async () => { for (const s of stops) await s(); } };
+}
+
+/**
+ * A small round-robin HTTP proxy on loopback in front of `upstreams` (base URLs), as a load
+ * balancer would be: each request goes to the next instance, over kept-alive connections.
+ * Appends the client address to X-Forwarded-For like a real proxy. Returns { baseUrl, stop }.
+ */
+export async function roundRobinProxy(upstreams) {
+  const http = await import('node:http');
+  const agent = new http.Agent({ keepAlive: true, maxSockets: 64 });
+  const targets = upstreams.map((u) => new URL(u));
+  let next = 0;
+  const server = http.createServer((req, res) => {
+    const t = targets[next++ % targets.length];
+    const headers = { ...req.headers, 'x-forwarded-for': [req.headers['x-forwarded-for'], req.socket.remoteAddress].filter(Boolean).join(', ') };
+    const up = http.request({ host: t.hostname, port: t.port, method: req.method, path: req.url, headers, agent }, (r) => {
+      res.writeHead(r.statusCode ?? 502, r.headers);
+      r.pipe(res);
+    });
+    up.on('error', () => {
+      if (!res.headersSent) res.writeHead(502);
+      res.end();
+    });
+    req.pipe(up);
+  });
+  const port = await freePort();
+  await new Promise((r) => server.listen(port, '127.0.0.1', r));
+  return { baseUrl: `http://127.0.0.1:${port}`, stop: () => new Promise((r) => { server.closeAllConnections?.(); agent.destroy(); server.close(r); }) };
+}
+
+/** Resident memory of a process in MiB (Linux /proc; null elsewhere). */
+export function rssMiB(pid) {
+  try {
+    const m = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, 'utf8'));
+    return m ? Math.round(Number(m[1]) / 1024) : null;
+  } catch {
+    return null;
+  }
 }
 
 /** Inserts a co-op with one user per role (same password); returns ids and e-mails. */

@@ -2,13 +2,16 @@
 // `npm start`: prepares everything on a fresh machine and serves Tallyvat with demo data.
 //  1. the embedded PostgreSQL (.data/pg), unless DATABASE_URL is set;
 //  2. migrations and the demo seeders (each runs once);
-//  3. the local fakes: SMTP catcher with an inbox page, and the payments fake;
+//  3. the local fakes: SMTP catcher with an inbox page, the payments fake and the object-storage
+//     fake (unless S3_BUCKET names a real store); files of a former local upload folder
+//     (.data/uploads) are moved into storage once;
 //  4. `next build` when the build is missing or older than the sources, then `next start`;
 //  5. the job worker (scripts/worker.mjs) beside it.
 // Ctrl-C stops the app, the worker, the fakes and the database it started; so does the death of
 // any child process (by exit code or by signal): everything started is stopped within a few
 // seconds, the lock file is removed, and the launcher exits non-zero.
-// TALLYVAT_DATA_DIR moves the data folder (database, secrets, uploads, lock file) from ./.data.
+// TALLYVAT_DATA_DIR moves the data folder (database, secrets, stored files, lock file) from ./.data.
+import { spawn } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -16,7 +19,7 @@ import { startEmbeddedPg, portInUse } from './lib/pg.mjs';
 import { migrate } from './lib/db-setup.mjs';
 import { buildIfNeeded } from './lib/build.mjs';
 import { appEnv, startNext, stopChild } from './lib/app.mjs';
-import { startMailCatcher, startPaymentsFake } from './lib/fakes.mjs';
+import { startMailCatcher, startPaymentsFake, startStorageFake } from './lib/fakes.mjs';
 import { startWorkerProcess } from './lib/worker-process.mjs';
 
 const dev = process.argv.includes('--dev');
@@ -26,6 +29,7 @@ const PG_PORT = Number(process.env.PG_PORT ?? 54329 + offset);
 const SMTP_PORT = Number(process.env.SMTP_PORT ?? 2525 + offset);
 const MAIL_UI_PORT = Number(process.env.MAIL_UI_PORT ?? 1080 + offset);
 const PAYMENTS_PORT = Number(process.env.PAYMENTS_PORT ?? 12111 + offset);
+const STORAGE_PORT = Number(process.env.STORAGE_PORT ?? 4568 + offset);
 const DATA = path.resolve(process.env.TALLYVAT_DATA_DIR ?? '.data');
 const LOCK = path.join(DATA, 'app.lock');
 
@@ -47,7 +51,8 @@ if (fs.existsSync(LOCK)) {
   }
   if (alive) fail(`Tallyvat is already running from this folder (pid ${pid}) on http://localhost:${port}. Stop it with Ctrl-C in its terminal first.`);
 }
-for (const [name, p] of [['PORT', PORT], ['SMTP_PORT', SMTP_PORT], ['MAIL_UI_PORT', MAIL_UI_PORT], ['PAYMENTS_PORT', PAYMENTS_PORT]]) {
+const ownStorage = !process.env.S3_BUCKET;
+for (const [name, p] of [['PORT', PORT], ['SMTP_PORT', SMTP_PORT], ['MAIL_UI_PORT', MAIL_UI_PORT], ['PAYMENTS_PORT', PAYMENTS_PORT], ...(ownStorage ? [['STORAGE_PORT', STORAGE_PORT]] : [])]) {
   if (await portInUse(p)) fail(`Port ${p} (${name}) is already in use. Free it or set ${name}=<another port>.`);
 }
 /** The lock file names this launcher, its port, and the pid of each child it supervises. */
@@ -132,6 +137,13 @@ try {
   const pay = await startPaymentsFake({ port: PAYMENTS_PORT, webhookUrl: `http://127.0.0.1:${PORT}/api/payments/webhook`, webhookSecret, log });
   cleanups.push(pay.stop);
 
+  let storage = {};
+  if (ownStorage) {
+    const fake = await startStorageFake({ port: STORAGE_PORT, directory: path.join(DATA, 's3'), log });
+    cleanups.push(fake.stop);
+    storage = fake.env;
+  } else log(`Using the object store in S3_BUCKET (${process.env.S3_BUCKET}); the storage fake is not started`);
+
   const secretFile = path.join(DATA, 'nextauth-secret');
   if (!process.env.NEXTAUTH_SECRET && !fs.existsSync(secretFile)) {
     fs.writeFileSync(secretFile, crypto.randomBytes(32).toString('base64url'), { mode: 0o600 });
@@ -143,9 +155,21 @@ try {
     smtpPort: SMTP_PORT,
     paymentsPort: PAYMENTS_PORT,
     webhookSecret,
-    storageDir: process.env.STORAGE_DIR ?? path.join(DATA, 'uploads'),
+    storage,
     extra: { MAIL_UI_URL: `http://127.0.0.1:${MAIL_UI_PORT}/` },
   });
+
+  // Files from before object storage (a local upload folder) move into the bucket once.
+  const legacyUploads = path.resolve(process.env.STORAGE_DIR ?? path.join(DATA, 'uploads'));
+  if (fs.existsSync(legacyUploads)) {
+    log(`Moving the files in ${legacyUploads} into object storage…`);
+    // A child process, awaited without blocking: the storage fake it talks to runs in this process.
+    const child = spawn(process.execPath, [path.resolve('scripts', 'storage-import.mjs'), legacyUploads], { env, stdio: 'inherit' });
+    const code = await new Promise((resolve) => child.once('exit', (c, signal) => resolve(signal ?? c)));
+    if (code !== 0) throw new Error(`moving ${legacyUploads} into object storage failed (exit ${code}); see above, fix, and start again`);
+    fs.renameSync(legacyUploads, `${legacyUploads}.imported`);
+    log(`Done; the old folder is kept as ${legacyUploads}.imported (delete it when you are happy).`);
+  }
 
   // TALLYVAT_SKIP_BUILD=1 serves the build that is there, even if sources are newer (the launcher test).
   if (!dev && process.env.TALLYVAT_SKIP_BUILD !== '1') buildIfNeeded({ env, log });

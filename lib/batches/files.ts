@@ -2,7 +2,7 @@ import 'server-only';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
-import { deleteFile, getFile, putFile, type StoredKind } from '@/lib/storage';
+import { deleteFile, openFile, putFile, type StoredFile, type StoredKind } from '@/lib/storage';
 import { inTransaction } from '@/lib/db';
 import { BatchFile } from '@/models';
 import { loadBatch } from './read';
@@ -43,12 +43,12 @@ export async function addBatchFile(actor: Actor, batchId: number, upload: Checke
   }
 }
 
-/** A batch file's bytes; the file must belong to that batch of the actor's co-op (404 otherwise). */
-export async function getBatchFile(actor: Actor, batchId: number, fileId: number): Promise<{ bytes: Buffer; kind: StoredKind; name: string }> {
+/** A batch file, opened for streaming; it must belong to that batch of the actor's co-op (404 otherwise). */
+export async function getBatchFile(actor: Actor, batchId: number, fileId: number): Promise<{ file: StoredFile; kind: StoredKind; name: string }> {
   if (!Number.isSafeInteger(fileId) || fileId <= 0 || !Number.isSafeInteger(batchId) || batchId <= 0) throw notFound('File not found.');
   const row = await BatchFile.findOne({
     attributes: ['storageKey', 'fileKind', 'originalName'], where: { id: fileId, batchId, coopId: actor.coop.id }, raw: true,
   });
   if (!row) throw notFound('File not found.');
-  return { bytes: await getFile(actor.coop.id, row.storageKey), kind: row.fileKind, name: row.originalName };
+  return { file: await openFile(actor.coop.id, row.storageKey), kind: row.fileKind, name: row.originalName };
 }

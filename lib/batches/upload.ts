@@ -1,7 +1,7 @@
 import 'server-only';
 import { checkHostileText, HttpError } from '@/lib/http';
 import { DOWNLOAD_CSP } from '@/lib/security/headers';
-import { MAX_UPLOAD_BYTES, sniffKind, type StoredKind } from '@/lib/storage';
+import { MAX_UPLOAD_BYTES, mimeOf, sniffKind, type StoredFile, type StoredKind } from '@/lib/storage';
 
 /** An uploaded file, checked: its kind comes from its first bytes, never from its name or header. */
 export interface CheckedUpload {
@@ -89,15 +89,16 @@ export async function readUpload(req: Request, allowed: readonly StoredKind[], f
 }
 
 /**
- * A download response for a stored file: attachment, the right type, no sniffing, private, and a
- * sandboxing Content-Security-Policy, so even a file opened in the browser can run nothing.
+ * A download response for a stored file, streamed from storage: attachment, the right type, no
+ * sniffing, private, and a sandboxing Content-Security-Policy, so even a file opened in the
+ * browser can run nothing.
  */
-export function fileResponse(bytes: Buffer, kind: StoredKind, filename: string): Response {
-  const mime = kind === 'pdf' ? 'application/pdf' : kind === 'jpeg' ? 'image/jpeg' : 'image/png';
+export function fileResponse(file: StoredFile, kind: StoredKind, filename: string): Response {
   const safe = displayName(filename, kind).replace(/[^A-Za-z0-9._-]/g, '_').slice(-120);
-  return new Response(new Uint8Array(bytes), {
+  return new Response(file.body, {
     headers: {
-      'content-type': mime,
+      'content-type': mimeOf(kind),
+      ...(file.size > 0 ? { 'content-length': String(file.size) } : {}),
       'content-disposition': `attachment; filename="${safe}"`,
       'x-content-type-options': 'nosniff',
       'content-security-policy': DOWNLOAD_CSP,

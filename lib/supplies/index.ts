@@ -4,7 +4,7 @@ import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { HttpError, notFound } from '@/lib/http';
 import { inTransaction } from '@/lib/db';
-import { deleteFile, getFile, putFile } from '@/lib/storage';
+import { deleteFile, openFile, putFile, type StoredFile } from '@/lib/storage';
 import { gallonsToLiters, lbToKg, volumeToLiters } from '@/lib/units';
 import type { ChemicalLotCreateInput, OilLotCreateInput } from '@/lib/validation/brewing';
 import { ChemicalLot, OilLot } from '@/models';
@@ -181,11 +181,11 @@ export async function attachSafetyDataSheet(actor: Actor, id: number, upload: Ch
   }
 }
 
-/** The stored safety data sheet of a lot (404 when there is none or the lot is another co-op's). */
-export async function getSafetyDataSheet(actor: Actor, id: number): Promise<{ bytes: Buffer; name: string }> {
+/** The stored safety data sheet of a lot, opened for streaming (404 when there is none or the lot is another co-op's). */
+export async function getSafetyDataSheet(actor: Actor, id: number): Promise<{ file: StoredFile; name: string }> {
   const row = await ChemicalLot.findOne({ attributes: ['sdsFileKey', 'sdsFileName', 'kind'], where: { id, coopId: actor.coop.id }, raw: true });
   if (!row?.sdsFileKey) throw notFound('No safety data sheet for this lot.');
-  return { bytes: await getFile(actor.coop.id, row.sdsFileKey), name: row.sdsFileName ?? `sds-${row.kind}-${id}.pdf` };
+  return { file: await openFile(actor.coop.id, row.sdsFileKey), name: row.sdsFileName ?? `sds-${row.kind}-${id}.pdf` };
 }
 
 // ---------------------------------------------------------------- oil lots

@@ -1,12 +1,14 @@
 // The app process as the start script, the tests and the benchmarks run it: one environment
-// (database, e-mail catcher, payments fake, storage) and one way to start `next` and wait for it.
+// (database, e-mail catcher, payments fake, object storage) and one way to start `next` and wait for it.
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 
 /**
- * Environment for the Next server, pointing it at the local services.
+ * Environment for the Next server, pointing it at the local services. `storage` is the S3_*
+ * environment of the object store (`startStorageFake(...).env`); without it, uploads and
+ * downloads answer that storage is not configured.
  * @param {{databaseUrl: string, appUrl: string, secret: string, smtpPort: number, paymentsPort: number,
- *   webhookSecret: string, storageDir: string, extra?: Record<string, string>}} o
+ *   webhookSecret: string, storage?: Record<string, string>, extra?: Record<string, string>}} o
  */
 export function appEnv(o) {
   return {
@@ -24,7 +26,7 @@ export function appEnv(o) {
     STRIPE_API_PORT: String(o.paymentsPort),
     STRIPE_API_PROTOCOL: 'http',
     STRIPE_WEBHOOK_SECRET: o.webhookSecret,
-    STORAGE_DIR: o.storageDir,
+    ...(o.storage ?? {}),
     ...(o.extra ?? {}),
   };
 }

@@ -1,6 +1,7 @@
 // Local stand-ins for the hosted services, started on loopback by `npm start` and by the tests:
 //  - an SMTP catcher (smtp-server) with an inbox page and a JSON API to read what was sent;
-//  - a payments fake (stripe-stateful-mock) that the official `stripe` SDK talks to.
+//  - a payments fake (stripe-stateful-mock) that the official `stripe` SDK talks to;
+//  - an object-storage fake (s3rver) that the AWS SDK's S3 client talks to.
 import http from 'node:http';
 import { createRequire } from 'node:module';
 
@@ -239,4 +240,35 @@ export async function startPaymentsFake({ port, webhookUrl = null, webhookSecret
   });
   log(`Payments fake (Stripe API) on http://127.0.0.1:${port}${webhookUrl ? `, webhooks to ${webhookUrl}` : ''}`);
   return { stop: () => new Promise((r) => { server.closeAllConnections?.(); server.close(r); }) };
+}
+
+/** The bucket and keys of the local storage fake (s3rver accepts exactly these credentials). */
+export const STORAGE_FAKE = { bucket: 'tallyvat', accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER', region: 'us-east-1' };
+
+/**
+ * Starts the object-storage fake (s3rver, an S3-compatible server keeping objects in `directory`)
+ * on loopback with the app's bucket, and returns the S3_* environment that points the app at it.
+ * Objects survive a restart when the directory is kept (`npm start` keeps it under .data/s3).
+ * @param {{port: number, directory: string, log?: (m: string) => void}} o
+ */
+export async function startStorageFake({ port, directory, log = console.log }) {
+  const S3rver = require('s3rver');
+  const fs = require('node:fs');
+  fs.mkdirSync(directory, { recursive: true });
+  const server = new S3rver({ port, address: '127.0.0.1', silent: true, directory, configureBuckets: [{ name: STORAGE_FAKE.bucket }] });
+  const info = await server.run();
+  const endpoint = `http://127.0.0.1:${info.port}`;
+  log(`Storage fake (S3 API) on ${endpoint}, bucket ${STORAGE_FAKE.bucket}, objects in ${directory}`);
+  return {
+    endpoint,
+    env: {
+      S3_ENDPOINT: endpoint,
+      S3_BUCKET: STORAGE_FAKE.bucket,
+      S3_REGION: STORAGE_FAKE.region,
+      S3_ACCESS_KEY_ID: STORAGE_FAKE.accessKeyId,
+      S3_SECRET_ACCESS_KEY: STORAGE_FAKE.secretAccessKey,
+      S3_FORCE_PATH_STYLE: '1',
+    },
+    stop: () => server.close(),
+  };
 }

@@ -1,12 +1,10 @@
 // The batch record end to end against the real server and PostgreSQL: supplies → plan → every
 // step → release into a tank, with the costs checked against a hand computation; the reject
 // path; who may do what; bad input (nothing written); FIFO across lots; the certificate PDF.
-import fs from 'node:fs';
-import path from 'node:path';
 import { PDFParse } from 'pdf-parse';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { inject } from 'vitest';
 import { countRows, makeCoopWithRoles, sql } from '../support/api';
+import { storedKeys } from '../support/storage';
 
 type Ctx = Awaited<ReturnType<typeof makeCoopWithRoles>>;
 const api = (slug: string) => `/api/coops/${slug}`;
@@ -310,8 +308,7 @@ describe('brewing: bad input is refused with the field and reason, and nothing i
   let ctx: Ctx;
   let slug: string;
   let batchId: number;
-  const storage = () => path.join(inject('storageDir'), String(ctx.coop.id));
-  const storedFiles = () => (fs.existsSync(storage()) ? fs.readdirSync(storage()).length : 0);
+  const storedFiles = async () => (await storedKeys(ctx.coop.id)).length;
 
   beforeAll(async () => {
     ctx = await makeCoopWithRoles();
@@ -388,7 +385,7 @@ describe('brewing: bad input is refused with the field and reason, and nothing i
     await b.post(`${api(slug)}/supplies/chemicals/${lot.body.id}/sds`).attach('file', png, { filename: 'sheet.pdf', contentType: 'application/pdf' }).expect(422);
     expect(await countRows('batch_files', 'coop_id = $1', [ctx.coop.id])).toBe(0);
     expect((await sql(`SELECT sds_file_key FROM chemical_lots WHERE id = $1`, [lot.body.id]))[0]).toEqual({ sds_file_key: null });
-    expect(storedFiles()).toBe(0);
+    expect(await storedFiles()).toBe(0);
   });
 
   it('an over-size upload → 413 naming the file; nothing stored', async () => {
@@ -397,7 +394,7 @@ describe('brewing: bad input is refused with the field and reason, and nothing i
     expect(r.status).toBe(413);
     expect(r.body.fields.file[0]).toMatch(/at most 10 MB/);
     expect(await countRows('batch_files', 'coop_id = $1', [ctx.coop.id])).toBe(0);
-    expect(storedFiles()).toBe(0);
+    expect(await storedFiles()).toBe(0);
   });
 
   it('real PDFs, JPEGs and PNGs are stored under server-made names and come back only to their co-op', async () => {
@@ -409,6 +406,8 @@ describe('brewing: bad input is refused with the field and reason, and nothing i
     const photo = await b.post(`${api(slug)}/batches/${batchId}/files`).field('purpose', 'photo').attach('file', jpeg, { filename: 'glycerin.jpg', contentType: 'image/jpeg' }).expect(201);
     const [row] = await sql<{ storage_key: string }>(`SELECT storage_key FROM batch_files WHERE id = $1`, [up.body.id]);
     expect(row!.storage_key).toMatch(new RegExp(`^${ctx.coop.id}/[0-9a-f-]{36}\\.pdf$`));
+    // In the bucket under the co-op's prefix, with the key the database holds.
+    expect(await storedKeys(ctx.coop.id)).toContain(`coops/${row!.storage_key}`);
     const got = await b.get(`${api(slug)}/batches/${batchId}/files/${up.body.id}`).buffer(true).parse(binary).expect(200);
     expect(Buffer.compare(got.body as Buffer, pdf)).toBe(0);
     expect(got.headers['content-type']).toBe('application/pdf');

@@ -7,6 +7,11 @@ describe('GET /api/health', () => {
     expect(res.body).toEqual({ status: 'ok', db: 'ok' });
   });
 
+  it('liveness answers without touching anything; readiness checks the database and the storage bucket', async () => {
+    expect((await api().get('/api/live').expect(200)).body).toEqual({ status: 'alive' });
+    expect((await api().get('/api/ready').expect(200)).body).toEqual({ status: 'ready', db: 'ok', storage: 'ok' });
+  });
+
   it('the demo seeder created two co-ops with one person per role in the first', async () => {
     const rows = await sql<{ slug: string; role: string }>(
       `SELECT c.slug, m.role FROM memberships m JOIN coops c ON c.id = m.coop_id

@@ -2,7 +2,8 @@
 // 503 {error, retryAfter} with a Retry-After header (never 500), health answers 503 and the server
 // stays up; once it is back, requests succeed again within 5 s; every write that was answered 2xx
 // is in the database afterwards; and the log records the outage once (down, then up), not once per
-// request. This test runs its own PostgreSQL (which it stops and starts) and its own `next start`.
+// request. Liveness stays 200 throughout; readiness names the database as down and recovers.
+// This test runs its own PostgreSQL (which it stops and starts), storage fake and `next start`.
 import type { ChildProcess } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
@@ -18,6 +19,8 @@ import { startEmbeddedPg, freePort, stopLeftover } from '../../scripts/lib/pg.mj
 import { migrate } from '../../scripts/lib/db-setup.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { appEnv, startNext, stopChild, waitForHealth } from '../../scripts/lib/app.mjs';
+// @ts-expect-error plain ESM helpers shared with the start script
+import { startStorageFake } from '../../scripts/lib/fakes.mjs';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const root = path.resolve('.data', `outage-${crypto.randomBytes(3).toString('hex')}`);
@@ -28,6 +31,7 @@ let pgPort = 0;
 let databaseUrl = '';
 let stopPg: () => void = () => {};
 let next: ChildProcess | null = null;
+let stopStorage: () => Promise<void> = async () => {};
 let baseUrl = '';
 let logText = '';
 
@@ -49,6 +53,8 @@ beforeAll(async () => {
   await store.query('INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3)', { bind: [EMAIL, 'Outage Tester', bcrypt.hashSync(PASSWORD, 10)], type: QueryTypes.INSERT });
   await store.close();
 
+  const storage = await startStorageFake({ port: await freePort(), directory: path.join(root, 's3'), log: () => {} });
+  stopStorage = storage.stop;
   const port = await freePort();
   baseUrl = `http://127.0.0.1:${port}`;
   const env = appEnv({
@@ -58,7 +64,7 @@ beforeAll(async () => {
     smtpPort: await freePort(),
     paymentsPort: await freePort(),
     webhookSecret: 'whsec_tallyvat_outage',
-    storageDir: path.join(root, 'uploads'),
+    storage: storage.env,
     extra: { NODE_ENV: 'production', LOG_LEVEL: 'info', NEXTAUTH_URL: baseUrl },
   });
   next = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'pipe', 'pipe'] }).child as ChildProcess;
@@ -69,6 +75,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   if (next) await stopChild(next);
+  await stopStorage();
   stopPg();
   stopLeftover(path.join(root, 'pg'));
   fs.rmSync(root, { recursive: true, force: true });
@@ -131,6 +138,11 @@ describe('database outage', () => {
     expect(during.map((r) => r.status)).toEqual(Array(20).fill(503));
     const health = await fetch(`${baseUrl}/api/health`);
     expect(health.status).toBe(503);
+    // Alive (no restart wanted), but not ready: the load balancer takes it out of rotation.
+    expect((await fetch(`${baseUrl}/api/live`)).status).toBe(200);
+    const ready = await fetch(`${baseUrl}/api/ready`);
+    expect(ready.status).toBe(503);
+    expect(await ready.json()).toEqual({ status: 'not-ready', db: 'down', storage: 'ok' });
     await sleep(1_500);
     expect(next!.exitCode).toBeNull();
     expect(next!.signalCode).toBeNull();
@@ -146,6 +158,7 @@ describe('database outage', () => {
       await sleep(100);
     }
     expect((await fetch(`${baseUrl}/api/health`)).status).toBe(200);
+    expect((await fetch(`${baseUrl}/api/ready`)).status).toBe(200);
     await sleep(1_500);
     writing = false;
     await Promise.all(writers);

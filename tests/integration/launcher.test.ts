@@ -1,12 +1,14 @@
 // The launcher (`npm start`) stops everything it started when a child dies: here the Next server is
 // killed with SIGKILL (exit code null, signal set), and within 10 s the launcher must have exited
 // non-zero, closed every port it opened (app, PostgreSQL, SMTP catcher and its inbox page, payments
-// fake) and removed its lock file. It runs the real start script on a throw-away data folder.
+// fake, storage fake) and removed its lock file. It runs the real start script on a throw-away data
+// folder, which holds a file in the former local upload folder: the launcher moves it into storage.
 import { spawn, type ChildProcess } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
+import { GetObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import { afterAll, describe, expect, it } from 'vitest';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { freePort, stopLeftover } from '../../scripts/lib/pg.mjs';
@@ -42,9 +44,15 @@ describe('scripts/start.mjs', () => {
       SMTP_PORT: await freePort(),
       MAIL_UI_PORT: await freePort(),
       PAYMENTS_PORT: await freePort(),
+      STORAGE_PORT: await freePort(),
     };
+    // A file stored the old way (a local folder), to be moved into the storage fake at start.
+    const legacyKey = `1/${crypto.randomUUID()}.pdf`;
+    const legacyBytes = Buffer.from('%PDF-1.4\nlegacy lab report\n%%EOF\n');
+    fs.mkdirSync(path.join(dataDir, 'uploads', '1'), { recursive: true });
+    fs.writeFileSync(path.join(dataDir, 'uploads', legacyKey), legacyBytes);
     const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'production', TALLYVAT_DATA_DIR: dataDir, TALLYVAT_SKIP_BUILD: '1', LOG_LEVEL: 'warn' };
-    for (const k of ['DATABASE_URL', 'NEXTAUTH_SECRET', 'STRIPE_WEBHOOK_SECRET', 'STORAGE_DIR', 'APP_URL', 'NEXTAUTH_URL']) delete env[k];
+    for (const k of ['DATABASE_URL', 'NEXTAUTH_SECRET', 'STRIPE_WEBHOOK_SECRET', 'STORAGE_DIR', 'APP_URL', 'NEXTAUTH_URL', 'S3_BUCKET', 'S3_ENDPOINT', 'S3_KEY_PREFIX']) delete env[k];
     for (const [k, v] of Object.entries(ports)) env[k] = String(v);
 
     let output = '';
@@ -63,6 +71,14 @@ describe('scripts/start.mjs', () => {
       await sleep(500);
     }
     for (const p of Object.values(ports)) expect(await listening(p), `port ${p} open while running`).toBe(true);
+
+    // The former upload folder was moved into the bucket under the same key and set aside.
+    expect(fs.existsSync(path.join(dataDir, 'uploads.imported', legacyKey))).toBe(true);
+    expect(fs.existsSync(path.join(dataDir, 'uploads'))).toBe(false);
+    const s3 = new S3Client({ endpoint: `http://127.0.0.1:${ports.STORAGE_PORT}`, region: 'us-east-1', forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } });
+    const obj = await s3.send(new GetObjectCommand({ Bucket: 'tallyvat', Key: `coops/${legacyKey}` }));
+    expect(Buffer.from(await obj.Body!.transformToByteArray()).equals(legacyBytes)).toBe(true);
+    s3.destroy();
 
     const lock = JSON.parse(fs.readFileSync(lockFile, 'utf8')) as { pid: number; children: Record<string, number> };
     expect(lock.pid).toBe(launcher.pid);

@@ -1,6 +1,6 @@
 // Starts the real parts the integration tests talk to: a throw-away PostgreSQL cluster
 // (.data/test-pg, fsync off), migrations and demo data, the SMTP catcher, the payments fake,
-// and `next start` on a random loopback port. Everything is stopped when the run ends.
+// the object-storage fake, and `next start` on a random loopback port. Everything is stopped when the run ends.
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -14,7 +14,7 @@ import { appEnv, startNext, waitForHealth } from '../../scripts/lib/app.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { startWorkerProcess } from '../../scripts/lib/worker-process.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
-import { startMailCatcher, startPaymentsFake } from '../../scripts/lib/fakes.mjs';
+import { startMailCatcher, startPaymentsFake, startStorageFake } from '../../scripts/lib/fakes.mjs';
 
 declare module 'vitest' {
   export interface ProvidedContext {
@@ -22,7 +22,8 @@ declare module 'vitest' {
     databaseUrl: string;
     mailUrl: string;
     paymentsUrl: string;
-    storageDir: string;
+    /** The S3_* environment of the storage fake, as JSON. */
+    storageEnv: string;
     /** The worker's environment, for tests that stop and start a worker of their own. */
     workerEnv: string;
   }
@@ -55,7 +56,8 @@ export default async function setup(project: TestProject) {
   const pay = await startPaymentsFake({ port: paymentsPort, webhookUrl: `${baseUrl}/api/payments/webhook`, webhookSecret: 'whsec_tallyvat_test', log: quiet });
   stops.push(pay.stop);
 
-  const storageDir = path.join(root, 'uploads');
+  const storage = await startStorageFake({ port: await freePort(), directory: path.join(root, 's3'), log: quiet });
+  stops.push(storage.stop);
   const env = appEnv({
     databaseUrl,
     appUrl: baseUrl,
@@ -63,7 +65,7 @@ export default async function setup(project: TestProject) {
     smtpPort,
     paymentsPort,
     webhookSecret: 'whsec_tallyvat_test',
-    storageDir,
+    storage: storage.env,
     // Overview charts are cached for a minute in production; tests read every figure fresh. The
     // worker's timed jobs are off (JOB_SCHEDULES): a minute's expiry must not land inside a test.
     extra: { NODE_ENV: 'production', OVERVIEW_CACHE_SECONDS: '0', JOB_SCHEDULES: 'off', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' },
@@ -103,7 +105,7 @@ export default async function setup(project: TestProject) {
   project.provide('databaseUrl', databaseUrl);
   project.provide('mailUrl', `http://127.0.0.1:${mailPort}`);
   project.provide('paymentsUrl', `http://127.0.0.1:${paymentsPort}`);
-  project.provide('storageDir', storageDir);
+  project.provide('storageEnv', JSON.stringify(storage.env));
   project.provide('workerEnv', JSON.stringify(env));
 
   return async () => {

@@ -9,5 +9,5 @@ export const dynamic = 'force-dynamic';
 export const GET = handler<{ coop: string; id: string; fileId: string }>(async (_req, { coop, id, fileId }) => {
   const actor = await requireMember(coop, 'batches:read-all');
   const file = await getBatchFile(actor, idParam(id), idParam(fileId));
-  return fileResponse(file.bytes, file.kind, file.name);
+  return fileResponse(file.file, file.kind, file.name);
 });

@@ -10,7 +10,7 @@ export const dynamic = 'force-dynamic';
 export const GET = handler<{ coop: string; id: string }>(async (_req, { coop, id }) => {
   const actor = await requireMember(coop, 'supplies:read');
   const file = await getSafetyDataSheet(actor, idParam(id));
-  return fileResponse(file.bytes, 'pdf', file.name);
+  return fileResponse(file.file, 'pdf', file.name);
 });
 
 export const POST = handler<{ coop: string; id: string }>(async (req, { coop, id }) => {
