@@ -26,12 +26,8 @@ const EMAIL = 'bench.brewer@example.org';
 const PASSWORD = 'bench-brewing-password-2026';
 const log = (...a) => console.log('[bench]', ...a);
 
-let stack;
+let stack; // startStack stops it on Ctrl-C too
 const stopAll = async () => stack?.stop();
-process.on('SIGINT', async () => {
-  await stopAll();
-  process.exit(130);
-});
 
 try {
   // PROFILE=1 writes a CPU profile of the server to .data/bench-profile (open it in Chrome DevTools).

@@ -69,7 +69,14 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
     await waitForHealth(`http://127.0.0.1:${p}`, n.child);
     return { baseUrl: `http://127.0.0.1:${p}`, child: n.child };
   };
-  return { baseUrl, pool, databaseUrl: pgSrv.url, root, pgClusterDir: path.join(root, 'pg', 'cluster'), next: next.child, startInstance, stop: async () => { for (const s of stops) await s(); } };
+  const stop = async () => {
+    process.off('SIGINT', interrupted);
+    for (const s of stops.splice(0)) await s();
+  };
+  // Ctrl-C stops everything the stack started (exit code 130, as a shell reports it).
+  const interrupted = () => stop().finally(() => process.exit(130));
+  process.once('SIGINT', interrupted);
+  return { baseUrl, pool, databaseUrl: pgSrv.url, root, pgClusterDir: path.join(root, 'pg', 'cluster'), next: next.child, startInstance, stop };
 }
 
 /**

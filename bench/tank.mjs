@@ -28,9 +28,8 @@ const SESSIONS = 40; // signed-in members whose cookies the load rotates through
 const L_PER_GAL = 3.785411784; // NIST Handbook 44
 const log = (...a) => console.log('[bench]', ...a);
 
-let stack;
+let stack; // startStack stops it on Ctrl-C too
 const stopAll = async () => stack?.stop();
-process.on('SIGINT', async () => { await stopAll(); process.exit(130); });
 
 try {
   stack = await startStack({ name: 'tank', fast: process.env.BENCH_FAST === '1', log });

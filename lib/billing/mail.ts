@@ -99,11 +99,13 @@ export async function sendQueuedInvoiceEmails(coopId: number): Promise<number> {
   return rows.length;
 }
 
-/** Queues the month's unsent or failed e-mails again (treasurer's "send now"). */
-export async function requeueEmails(coopId: number, periodDate: string): Promise<number> {
-  const [n] = await Invoice.update(
+/** Queues the month's unsent or failed e-mails again (treasurer's "send now"); returns how many. */
+export async function resendMonthEmails(coopId: number, periodDate: string): Promise<number> {
+  const [, rows] = await Invoice.update(
     { emailStatus: 'queued' },
-    { where: { coopId, period: periodDate, status: { [Op.ne]: 'draft' }, emailStatus: ['not-sent', 'failed'] } },
+    { where: { coopId, period: periodDate, status: { [Op.ne]: 'draft' }, emailStatus: ['not-sent', 'failed'] }, returning: ['id'] },
   );
-  return n;
+  // A web process that dies before this leaves them "queued": housekeeping queues their jobs.
+  await enqueueInvoiceMails(coopId, rows.map((r) => r.id));
+  return rows.length;
 }

@@ -2,7 +2,9 @@ import 'server-only';
 import type { InferAttributes } from 'sequelize';
 import { appUrl } from '@/lib/mail';
 import { formatCents, formatRateCents, INVOICE_ROUNDING_NOTE } from '@/lib/money';
-import { newPdf, pdfToBuffer } from '@/lib/pdf';
+import { newPdf, pdfResponse, pdfToBuffer } from '@/lib/pdf';
+import type { Actor } from '@/lib/auth';
+import { getInvoiceDetail } from './invoices';
 import { formatVolume, perGallonToPerLiter } from '@/lib/units';
 import type { Coop } from '@/models';
 import { formatDateIn, periodLabel } from './periods';
@@ -122,4 +124,20 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
   doc.moveDown();
   doc.fontSize(8).fillColor('#57534e').text(`Amounts in ${coop.currency}. ${ROUNDING_NOTE}`, { width });
   return pdfToBuffer(doc);
+}
+
+/**
+ * One invoice as a PDF download, with the render time as Server-Timing: for the treasurer any
+ * invoice of the co-op (drafts marked DRAFT), for a member only their own issued ones.
+ */
+export async function invoicePdfResponse(actor: Actor, invoiceId: number, scope: 'co-op' | 'own'): Promise<Response> {
+  const inv = await getInvoiceDetail(
+    actor.coop.id,
+    invoiceId,
+    scope === 'co-op' ? { includeDrafts: true } : { membershipId: actor.membershipId, includeDrafts: false },
+  );
+  const t0 = performance.now();
+  const res = pdfResponse(await renderInvoicePdf(inv, actor.coop), invoiceFileName(actor.coop.slug, inv));
+  res.headers.set('server-timing', `pdf;dur=${(performance.now() - t0).toFixed(1)}`);
+  return res;
 }

@@ -1,6 +1,5 @@
-import { after } from 'next/server';
 import { requireMember } from '@/lib/auth';
-import { requeueEmails, sendQueuedInvoiceEmails } from '@/lib/billing/mail';
+import { resendMonthEmails } from '@/lib/billing/mail';
 import { periodParam } from '@/lib/billing/params';
 import { periodToDate } from '@/lib/billing/periods';
 import { handler, parseBody } from '@/lib/http';
@@ -11,9 +10,7 @@ export const dynamic = 'force-dynamic';
 /** POST {}: e-mail again every issued invoice of the month that was not sent or not delivered. */
 export const POST = handler<{ coop: string; period: string }>(async (req, { coop, period }) => {
   const actor = await requireMember(coop, 'billing:manage');
-  const p = periodParam(period);
+  const month = periodToDate(periodParam(period));
   await parseBody(req, invoicesIssueSchema);
-  const queued = await requeueEmails(actor.coop.id, periodToDate(p));
-  after(() => sendQueuedInvoiceEmails(actor.coop.id));
-  return Response.json({ queued }, { status: 202 });
+  return Response.json({ queued: await resendMonthEmails(actor.coop.id, month) }, { status: 202 });
 });
