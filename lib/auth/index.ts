@@ -1,4 +1,4 @@
 export { authOptions } from './options';
 export { getSessionUser, touchCurrentSession, requireUser, requireMember, findActor, listMyCoops, type Actor, type SessionUser } from './session';
 export { can, POLICY, type Action } from './policies';
-export { requirePageActor } from './page';
+export { pageMember, requirePageActor, sectionGuard } from './page';

@@ -1,35 +1,54 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import request from 'supertest';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { can, type Action } from '@/lib/auth/policies';
+import { ROLES, type Role } from '@/models/vocabulary';
 import { baseUrl, makeCoopWithRoles } from '../support/api';
 
+const COOP_DIR = path.resolve('app', 'c', '[coop]');
+const guardOf = (file: string) => /(?:sectionGuard|requirePageActor)\((?:coop, )?'([a-z-]+:[a-z-]+)'/.exec(fs.existsSync(file) ? fs.readFileSync(file, 'utf8') : '')?.[1] as Action | undefined;
+
+/** Every page under app/c/[coop] with the action that guards it (the nearest guard layout's, else the page's own). */
+function pageActions(): { path: string; action: Action }[] {
+  const out: { path: string; action: Action }[] = [];
+  const walk = (dir: string, rel: string[], inherited: Action | undefined) => {
+    const guard = guardOf(path.join(dir, 'layout.tsx')) ?? inherited;
+    const page = path.join(dir, 'page.tsx');
+    if (fs.existsSync(page)) {
+      const action = guard ?? guardOf(page);
+      if (!action) throw new Error(`${page} asks no requirePageActor`);
+      out.push({ path: rel.map((s) => (s === '[period]' ? '2026-11' : s.startsWith('[') ? '1' : s)).join('/'), action });
+    }
+    for (const e of fs.readdirSync(dir, { withFileTypes: true })) if (e.isDirectory()) walk(path.join(dir, e.name), [...rel, e.name], guard);
+  };
+  walk(COOP_DIR, [], undefined);
+  return out;
+}
+
 // Pages answer the way the API does, through one guard (lib/auth/page.ts requirePageActor):
-// a role that may not see a page gets the one forbidden page inside the co-op's navigation; a
-// stranger to the co-op gets 404; no session goes to sign-in. The co-op's pages stream behind
-// app/c/[coop]/loading.tsx, so the status line (200) has gone out before the page decides; the
-// forbidden boundary renders in the browser from the 403 fallback the server sends
-// (tests/e2e/forbidden.test.ts looks at it); here: the server's answer is that fallback, never an error.
+// a role that may not see a page gets the one forbidden page inside the co-op's navigation with
+// status 403 (a section's layout.tsx refuses before anything streams); a stranger to the co-op
+// gets 404; no session goes to sign-in. tests/e2e/forbidden.test.ts looks at it in a browser.
 describe('pages a role may not see', () => {
   let ctx: Awaited<ReturnType<typeof makeCoopWithRoles>>;
   beforeAll(async () => {
     ctx = await makeCoopWithRoles();
   });
 
-  const cases: [string, 'member' | 'treasurer' | 'brewer'][] = [
-    ['reports', 'member'],
-    ['audit', 'member'],
-    ['settings', 'member'],
-    ['settings', 'treasurer'],
-    ['audit', 'treasurer'],
-    ['billing', 'member'],
-    ['billing/payments', 'brewer'],
-    ['members', 'treasurer'],
-    ['draws', 'member'],
-    ['planner', 'member'],
-    ['supplies', 'treasurer'],
-  ];
-  it.each(cases)('/%s as a %s → the 403 fallback inside the co-op’s navigation, not an error', async (path, role) => {
-    const res = await ctx.agents[role].get(`/c/${ctx.coop.slug}/${path}`);
-    expect(res.text).toContain('NEXT_HTTP_ERROR_FALLBACK;403');
+  // Generated from app/c/[coop]/**/page.tsx: each page's action is the one its section's guard
+  // layout (sectionGuard) or the page itself (requirePageActor) asks for; every role the policy
+  // table leaves out of it must be refused. Path ids are placeholders: the guard answers first.
+  const pages = pageActions();
+  const cases = pages.flatMap(({ path, action }) => ROLES.filter((r) => r !== 'admin' && !can(r, action)).map((role) => [path, role, action] as const));
+  it('finds the co-op’s pages and their actions', () => {
+    expect(pages.length).toBeGreaterThan(15);
+    expect(cases.length).toBeGreaterThan(10);
+  });
+  it.each(cases)('/%s as a %s (needs %s) → 403 and the forbidden page inside the co-op’s navigation', async (path, role) => {
+    const res = await ctx.agents[role as Exclude<Role, 'admin'>].get(`/c/${ctx.coop.slug}/${path}`);
+    expect(res.status).toBe(403);
+    expect(res.text).toContain('Not part of your role');
     expect(res.text).not.toContain('Something went wrong');
     expect(res.text).toContain(`/c/${ctx.coop.slug}/me`);
   });

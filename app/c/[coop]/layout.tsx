@@ -1,14 +1,14 @@
 import { notFound, redirect } from 'next/navigation';
 import { AppShell } from '@/components/shell/app-shell';
 import { EmptyState } from '@/components/ui/notice';
-import { findActor, listMyCoops } from '@/lib/auth';
+import { listMyCoops, pageMember } from '@/lib/auth';
 import { HttpError } from '@/lib/http';
 
 export const dynamic = 'force-dynamic';
 
 export default async function CoopLayout({ children, params }: { children: React.ReactNode; params: Promise<{ coop: string }> }) {
   const { coop } = await params;
-  const actor = await findActor(coop);
+  const actor = await pageMember(coop);
   if (actor instanceof HttpError) {
     if (actor.status === 401) redirect(`/sign-in?next=${encodeURIComponent(`/c/${coop}`)}`);
     if (actor.status === 404) notFound();
