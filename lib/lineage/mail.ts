@@ -22,7 +22,7 @@ export function recallMail(c: Ctx, m: { name: string; email: string; batchMl: nu
       `Batch ${c.batchNumber} of ${c.coopName}'s fuel is under review. What was found:`,
       `  ${finding}`,
       '',
-      `Your draws (${m.drawCount}) since its release included about ${formatMl(m.batchMl, c.units)} of fuel from this batch.`,
+      `Your draws (${m.drawCount}) since its release included about ${formatMl(m.batchMl, c.units, { digits: 2 })} of fuel from this batch.`,
       '',
       'Please:',
       ...RECALL_CAUTIONS.map((t) => `- ${t}`),
@@ -75,7 +75,7 @@ export function outcomeMail(c: Ctx, m: { name: string; email: string; batchMl: n
       `The review of batch ${c.batchNumber} is closed. ${OUTCOME_TEXT[outcome]}`,
       `Notes: ${notes}`,
       '',
-      `You received about ${formatMl(m.batchMl, c.units)} of this batch.`,
+      `You received about ${formatMl(m.batchMl, c.units, { digits: 2 })} of this batch.`,
       outcome === 'cleared'
         ? 'If your vehicle or equipment showed any of the signs we wrote about, still have it checked by a qualified mechanic or technician.'
         : 'If you still have some of this fuel, do not use it in road vehicles; ask us how to return it. If your vehicle or equipment ran badly, have it checked by a qualified mechanic or technician.',

@@ -80,7 +80,7 @@ describe('batch lineage and recall', () => {
 
   it('transfers carry their batches into a FIFO tank, whose draws take the oldest fuel first; reversals put it back', async () => {
     // 36 L of 349.999 L: 36 000 × 87 500/349 999 = 9 000.03 → 9 000 mL; 36 000 × 262 499/349 999 = 26 999.97 → 26 999, +1 (larger remainder) → 27 000
-    await ctx.agents.brewer.post(`${P}/tanks/transfers`).send({ fromTankId: tankA, toTankId: tankB, quantity: '36' }).expect(200);
+    await ctx.agents.brewer.post(`${P}/tanks/transfers`).send({ fromTankId: tankA, toTankId: tankB, quantity: '36' }).expect(201);
     expect(await layers(tankB)).toEqual([[batch[1], '9.000'], [batch[2], '27.000']]);
     await release(3, tankB, '50');
     // FIFO: 20 L = all 9 L of batch 1 (oldest), then 11 L of batch 2
