@@ -106,6 +106,8 @@ describe('batch lineage and recall', () => {
   });
 
   it('a failing late lab result puts the batch under review: fuel held, exactly its members e-mailed, the notice on their overview', async () => {
+    // An open reservation at tank A before the result arrives: its holder is told it is on hold.
+    await bystander.agent.post(`${P}/reservations`).send({ tankId: tankA, quantity: '5', windowStart: day(0), windowEnd: day(2) }).expect(201);
     const r = await ctx.agents.brewer.post(`${P}/batches/${batch[2]}/lab-results`).send({
       labResults: { acidNumber: { value: 0.9, method: 'ASTM D664', laboratory: 'Riverbend Fuel Lab', date: '2026-11-30' } },
     }).expect(200);
@@ -113,7 +115,7 @@ describe('batch lineage and recall', () => {
     expect(r.body.review.finding).toMatch(/Acid number/);
     // Held: tank A is well mixed, so all of it; tank B's oldest layer is batch 2, so everything above it too.
     const a = (await ctx.agents.member.get(`${P}/tanks/${tankA}`).expect(200)).body;
-    expect(a).toMatchObject({ heldLiters: 313, availableLiters: 0 });
+    expect(a).toMatchObject({ heldLiters: 313, reservedLiters: 5, availableLiters: 0 });
     const b = (await ctx.agents.member.get(`${P}/tanks/${tankB}`).expect(200)).body;
     expect(b).toMatchObject({ heldLiters: 86, availableLiters: 0 });
     // Not reservable, not drawable, not movable.
@@ -121,7 +123,9 @@ describe('batch lineage and recall', () => {
     const refused = await ctx.agents.brewer.post(`${P}/draws`).send({ membershipId: member2.membershipId, tankId: tankA, quantity: '1', declaredUse: 'road' }).expect(409);
     expect(refused.body.error).toMatch(/under review/);
     await ctx.agents.brewer.post(`${P}/tanks/transfers`).send({ fromTankId: tankB, toTankId: tankA, quantity: '1' }).expect(409);
-    expect(await countRows('reservations', 'coop_id = $1', [ctx.coop.id])).toBe(0);
+    expect(await countRows('reservations', 'coop_id = $1', [ctx.coop.id])).toBe(1);
+    const held = await waitForMail(bystander.email, (m) => /reservation at Stirred tank is on hold/.test(m.subject), 30_000);
+    expect(held.text).toMatch(/batch 2 is under review/);
 
     // Exactly the two members who drew batch 2 are e-mailed, with the finding, cautions and their volume.
     const m1 = await waitForMail(ctx.users.member.email, (m) => /batch 2 is under review/.test(m.subject), 30_000);
@@ -174,7 +178,7 @@ describe('batch lineage and recall', () => {
     expect(closed.body).toMatchObject({ status: 'closed', outcome: 'disposed', receiptFileId: up.body.id });
     expect(await layers(tankA)).toEqual([[batch[1], '78.250']]);
     expect(await layers(tankB)).toEqual([[batch[3], '50.000'], [batch[1], '9.000']]);
-    expect((await ctx.agents.member.get(`${P}/tanks/${tankA}`).expect(200)).body).toMatchObject({ heldLiters: 0, availableLiters: 78.25 });
+    expect((await ctx.agents.member.get(`${P}/tanks/${tankA}`).expect(200)).body).toMatchObject({ heldLiters: 0, availableLiters: 73.25 });
     expect(await countRows('tank_movements', `coop_id = $1 AND kind = 'disposal'`, [ctx.coop.id])).toBe(2);
     expect(await countRows('audit_events', `coop_id = $1 AND action = 'batch.review.close'`, [ctx.coop.id])).toBe(1);
     const f = await waitForMail(member2.email, (m) => /review of batch 2 closed/.test(m.subject), 30_000);

@@ -28,11 +28,11 @@ describe('recall in headless Chromium', () => {
       await signInUi(page, ctx.users.brewer.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${ctx.coop.slug}/batches/${batchId}`);
       await page.getByText('Record a late laboratory result').click();
-      await page.getByLabel('Property').selectOption('acidNumber');
-      await page.getByLabel('Value').fill('0.9');
-      await page.getByLabel('Laboratory').fill('Riverbend Fuel Lab');
-      await page.getByLabel('Test method').fill('ASTM D664');
-      await page.getByLabel('Date tested').fill('2026-11-30');
+      await page.getByLabel('Property', { exact: true }).selectOption('acidNumber');
+      await page.getByLabel('Value', { exact: true }).fill('0.9');
+      await page.getByLabel('Laboratory', { exact: true }).fill('Riverbend Fuel Lab');
+      await page.getByLabel('Test method', { exact: true }).fill('ASTM D664');
+      await page.getByLabel('Date tested', { exact: true }).fill('2026-11-30');
       await page.getByRole('button', { name: 'Record lab result' }).click();
       await page.getByText('Batch 1 is under review').waitFor({ timeout: 30_000 });
       await page.getByText('Affected draws (1)').click();
