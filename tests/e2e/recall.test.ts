@@ -25,6 +25,7 @@ describe('recall in headless Chromium', () => {
 
   it('the brewer records a failing lab result and sees the affected draws; the member sees the notice', async () => {
     await withBrowser(async (page) => {
+      page.setDefaultTimeout(45_000);
       await signInUi(page, ctx.users.brewer.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${ctx.coop.slug}/batches/${batchId}`);
       await page.getByText('Record a late laboratory result').click();
@@ -43,6 +44,7 @@ describe('recall in headless Chromium', () => {
       await checkA11y(page);
     });
     await withBrowser(async (page) => {
+      page.setDefaultTimeout(45_000);
       await signInUi(page, ctx.users.member.email, TEST_PASSWORD);
       for (const width of [360, 1280]) {
         await page.setViewportSize({ width, height: 900 });
@@ -55,5 +57,5 @@ describe('recall in headless Chromium', () => {
       }
       await page.screenshot({ path: path.join(SHOTS, 'recall-member-overview.png'), fullPage: true });
     });
-  }, 180_000);
+  }, 300_000); // two browsers and axe on a long page: minutes on a loaded 2-core machine
 });
