@@ -12,7 +12,9 @@ export async function seedBenchCoop(pool, c) {
   await pool.query(
     `INSERT INTO memberships (coop_id, user_id, role) SELECT $1, id, 'member' FROM users WHERE email LIKE '%@overview.bench' AND email LIKE 'm%'`, [c]);
   await pool.query(
-    `INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents) SELECT $1, 'Tank ' || g, 10000, 5000, 400000 FROM generate_series(1, 5) g`, [c]);
+    `WITH t AS (INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents) SELECT $1, 'Tank ' || g, 10000, 5000, 400000 FROM generate_series(1, 5) g
+       RETURNING id, coop_id, on_hand_liters)
+     INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, on_hand_liters FROM t`, [c]);
   await pool.query(
     `INSERT INTO price_policies (coop_id, kind, margin_cents_per_gallon, surcharge_cents_per_gallon, road_tax_cents_per_gallon) VALUES ($1, 'cost-plus-amount', 40, 10, 24.4)`, [c]);
   await pool.query(

@@ -72,13 +72,21 @@ try {
     const openValue = Number(value) + Math.round(extraGal * 300);
     await q(`INSERT INTO tank_movements (coop_id, tank_id, kind, quantity_liters, value_cents, on_hand_after_liters, value_after_cents, reason, occurred_at)
              VALUES ($1, $2, 'dip-adjustment', $3, $4, $3, $4, 'Opening balance', now() - interval '13 months')`, [coop.id, t.id, openLiters, openValue]);
+    // Each draw's ledger row with its (unattributed) batch share, in one statement: a draw's shares
+    // must sum to its row when the statement commits.
     await q(`
-      INSERT INTO tank_movements (coop_id, tank_id, kind, quantity_liters, value_cents, on_hand_after_liters, value_after_cents, draw_id, occurred_at)
-      SELECT d.coop_id, d.tank_id, 'draw', -d.quantity_liters, -d.cost_value_cents,
-             $2::numeric - sum(d.quantity_liters) OVER w, $3::bigint - sum(d.cost_value_cents) OVER w, d.id, d.occurred_at
-      FROM draws d WHERE d.tank_id = $1 WINDOW w AS (ORDER BY d.occurred_at, d.id)`, [t.id, openLiters, openValue]);
-    await q(`UPDATE tanks SET on_hand_liters = (SELECT sum(quantity_liters) FROM tank_movements WHERE tank_id = $1),
-               value_cents = (SELECT sum(value_cents) FROM tank_movements WHERE tank_id = $1) WHERE id = $1`, [t.id]);
+      WITH m AS (
+        INSERT INTO tank_movements (coop_id, tank_id, kind, quantity_liters, value_cents, on_hand_after_liters, value_after_cents, draw_id, occurred_at)
+        SELECT d.coop_id, d.tank_id, 'draw', -d.quantity_liters, -d.cost_value_cents,
+               $2::numeric - sum(d.quantity_liters) OVER w, $3::bigint - sum(d.cost_value_cents) OVER w, d.id, d.occurred_at
+        FROM draws d WHERE d.tank_id = $1 WINDOW w AS (ORDER BY d.occurred_at, d.id)
+        RETURNING id, coop_id, tank_id, draw_id, quantity_liters)
+      INSERT INTO movement_batch_shares (coop_id, movement_id, tank_id, draw_id, batch_id, quantity_liters)
+      SELECT coop_id, id, tank_id, draw_id, NULL, quantity_liters FROM m`, [t.id, openLiters, openValue]);
+    // On hand = the ledger, all of it one unattributed layer (layers must sum to on hand at commit).
+    await q(`WITH t AS (UPDATE tanks SET on_hand_liters = (SELECT sum(quantity_liters) FROM tank_movements WHERE tank_id = $1),
+               value_cents = (SELECT sum(value_cents) FROM tank_movements WHERE tank_id = $1) WHERE id = $1 RETURNING id, coop_id, on_hand_liters)
+             INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, on_hand_liters FROM t WHERE on_hand_liters > 0`, [t.id]);
   }
   // What autovacuum would have done by then: statistics, and the visibility map for index-only scans.
   await q('VACUUM ANALYZE');

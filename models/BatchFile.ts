@@ -11,7 +11,7 @@ export class BatchFile extends Model<InferAttributes<BatchFile>, InferCreationAt
   declare id: CreationOptional<number>;
   declare coopId: ForeignKey<Coop['id']>;
   declare batchId: ForeignKey<Batch['id']>;
-  declare purpose: 'photo' | 'lab-report';
+  declare purpose: 'photo' | 'lab-report' | 'receipt';
   declare fileKind: 'pdf' | 'jpeg' | 'png';
   declare storageKey: string;
   declare originalName: string;

@@ -4,6 +4,8 @@ import {
 } from 'sequelize';
 import type { Coop } from './Coop';
 
+export type TankMixing = 'mixed' | 'fifo';
+
 /**
  * A fuel tank with its running totals. Litres are NUMERIC(14,3) and value BIGINT, so all three
  * arrive as strings (parse them with lib/tank/quantity and Number on purpose). The totals change
@@ -19,6 +21,10 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
   declare reservedLiters: CreationOptional<string>;
   declare valueCents: CreationOptional<string>;
   declare active: CreationOptional<boolean>;
+  /** 'mixed': a draw takes every batch in proportion; 'fifo': the oldest fuel leaves first. */
+  declare mixing: CreationOptional<TankMixing>;
+  /** Fuel held while a batch in the tank is under review (lib/tank/lineage keeps it). */
+  declare heldLiters: CreationOptional<string>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare coop?: NonAttribute<Coop>;
@@ -34,6 +40,8 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
         reservedLiters: { type: DataTypes.DECIMAL(14, 3), allowNull: false, defaultValue: '0' },
         valueCents: { type: DataTypes.BIGINT, allowNull: false, defaultValue: '0' },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        mixing: { type: DataTypes.STRING(5), allowNull: false, defaultValue: 'mixed' },
+        heldLiters: { type: DataTypes.DECIMAL(14, 3), allowNull: false, defaultValue: '0' },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -25,6 +25,10 @@ import { ChemicalConsumption } from './ChemicalConsumption';
 import { ChemicalLot } from './ChemicalLot';
 import { LowStockAlert } from './LowStockAlert';
 import { OilLot } from './OilLot';
+// lineage and reviews
+import { BatchReview } from './BatchReview';
+import { MovementBatchShare } from './MovementBatchShare';
+import { TankLayer } from './TankLayer';
 // Billing
 import { BillingAdjustment } from './BillingAdjustment';
 import { BillingPeriod } from './BillingPeriod';
@@ -91,6 +95,16 @@ Batch.hasMany(ChemicalConsumption, { foreignKey: 'batchId', as: 'consumptions' }
 Batch.hasMany(BatchFile, { foreignKey: 'batchId', as: 'files' });
 for (const m of [BatchStatusCount, LowStockAlert]) m.initModel(sequelize);
 
+// lineage: a tank's fuel by batch, the batches each ledger row moved, batch reviews (recalls)
+for (const m of [TankLayer, MovementBatchShare, BatchReview]) m.initModel(sequelize);
+TankLayer.belongsTo(Batch, { foreignKey: 'batchId', as: 'batch' });
+TankLayer.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
+MovementBatchShare.belongsTo(Batch, { foreignKey: 'batchId', as: 'batch' });
+MovementBatchShare.belongsTo(Tank, { foreignKey: 'tankId', as: 'tank' });
+MovementBatchShare.belongsTo(Draw, { foreignKey: 'drawId', as: 'draw' });
+MovementBatchShare.belongsTo(TankMovement, { foreignKey: 'movementId', as: 'movement' });
+BatchReview.belongsTo(Batch, { foreignKey: 'batchId', as: 'batch' });
+
 // Billing: invoices, lines, payments, refunds, credit, adjustments, runs, months, provider events.
 InvoiceCounter.initModel(sequelize);
 for (const m of [BillingPeriod, BillingRun, BillingAdjustment, Invoice, InvoiceLine, PaymentAttempt, Payment, Refund, MemberCredit, PaymentWebhookEvent]) m.initModel(sequelize);
@@ -110,6 +124,7 @@ BillingAdjustment.hasOne(InvoiceLine, { foreignKey: 'adjustmentId', as: 'billedL
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
 export { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, LowStockAlert, OilLot };
+export { BatchReview, MovementBatchShare, TankLayer };
 export { BillingAdjustment, BillingPeriod, BillingRun, Invoice, InvoiceCounter, InvoiceLine, MemberCredit, Payment, PaymentAttempt, PaymentWebhookEvent, Refund };
 
 // server-side sessions (sign-out revokes the row; requireMember includes it in its one query)

@@ -184,11 +184,16 @@ module.exports = {
               ec: energyCents, fc: feedstockCents, total, pg: perGallon,
             },
           );
-          await q(
+          const [moved] = await q(
             `INSERT INTO tank_movements (coop_id, tank_id, kind, quantity_liters, value_cents, on_hand_after_liters, value_after_cents, batch_id, created_by_user_id, occurred_at)
-             VALUES (:coopId, :tankId, 'release', :out, :total, :onHand, :value, :batchId, :userId, :released)`,
+             VALUES (:coopId, :tankId, 'release', :out, :total, :onHand, :value, :batchId, :userId, :released) RETURNING id`,
             { coopId, tankId: tank.id, out: b.out.toFixed(3), total, onHand: onHand.toFixed(3), value, batchId, userId, released: b.released },
           );
+          // Lineage: the release is a new layer of its batch (checked against on hand at commit).
+          await q(`INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) VALUES (:coopId, :tankId, :batchId, :out)`, { coopId, tankId: tank.id, batchId, out: b.out.toFixed(3) });
+          await q(`INSERT INTO movement_batch_shares (coop_id, movement_id, tank_id, batch_id, quantity_liters) VALUES (:coopId, :m, :tankId, :batchId, :out)`, {
+            coopId, m: moved.id, tankId: tank.id, batchId, out: b.out.toFixed(3),
+          });
         });
       }
       for (const lot of chem) {
@@ -222,10 +227,14 @@ module.exports = {
       const [coop] = await q(`SELECT id FROM coops WHERE slug = :slug`, { slug: SLUG });
       if (!coop) return;
       const coopId = coop.id;
+      await q(`DELETE FROM movement_batch_shares WHERE coop_id = :coopId`, { coopId });
+      await q(`DELETE FROM tank_layers WHERE coop_id = :coopId`, { coopId });
       await q(`DELETE FROM tank_movements WHERE coop_id = :coopId AND batch_id IS NOT NULL`, { coopId });
       await q(`UPDATE tanks t SET on_hand_liters = COALESCE(m.q, 0), value_cents = COALESCE(m.v, 0)
                FROM (SELECT t2.id, sum(tm.quantity_liters) AS q, sum(tm.value_cents) AS v FROM tanks t2 LEFT JOIN tank_movements tm ON tm.tank_id = t2.id
                      WHERE t2.coop_id = :coopId GROUP BY t2.id) m WHERE t.id = m.id`, { coopId });
+      // What is left has no recorded lineage any more: one unattributed layer per tank.
+      await q(`INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, on_hand_liters FROM tanks WHERE coop_id = :coopId AND on_hand_liters > 0`, { coopId });
       for (const table of ['chemical_consumptions', 'batch_temperatures', 'batch_oil_lots', 'batch_files', 'batches', 'chemical_lots', 'oil_lots']) {
         await q(`DELETE FROM ${table} WHERE coop_id = :coopId`, { coopId });
       }

@@ -66,6 +66,23 @@ module.exports = {
         let onHand = toMl(t.on_hand_liters);
         let value = Number(t.value_cents);
         const out = [];
+        // Lineage (as lib/tank/lineage does for a well-mixed tank): a valued inflow is unattributed
+        // fuel; an outflow takes every layer in proportion, leftover millilitres to the largest
+        // remainders (ties to the oldest layer).
+        const layers = (await q(`SELECT batch_id, quantity_liters FROM tank_layers WHERE tank_id = :t ORDER BY id`, { t: t.id }))
+          .map((l) => ({ batchId: l.batch_id, ml: toMl(l.quantity_liters) }));
+        const sharesFor = (ml) => {
+          if (ml > 0) {
+            layers.push({ batchId: null, ml });
+            return [{ batchId: null, ml }];
+          }
+          const total = layers.reduce((a, l) => a + l.ml, 0);
+          const parts = layers.map((l) => ({ q: Math.floor((l.ml * -ml) / total), r: (l.ml * -ml) % total }));
+          let left = -ml - parts.reduce((a, p) => a + p.q, 0);
+          parts.map((p, i) => ({ i, r: p.r })).sort((a, b) => b.r - a.r || a.i - b.i).forEach(({ i }) => { if (left > 0) { parts[i].q += 1; left -= 1; } });
+          layers.forEach((l, i) => { l.ml -= parts[i].q; });
+          return layers.map((l, i) => ({ batchId: l.batchId, ml: -parts[i].q })).filter((x) => x.ml !== 0);
+        };
         for (const r of rows) {
           const avgPerGal = onHand > 0 ? (value / onHand) * 1000 * L_PER_GAL : null;
           const before = { onHand, value, avgPerGal };
@@ -81,10 +98,19 @@ module.exports = {
              VALUES (:c, :t, :kind, :qty, :moved, :after, :valueAfter, :drawId, :reason, :u, :at) RETURNING id`,
             { c: coopId, t: t.id, kind: r.kind, qty: mlText(r.ml), moved, after: mlText(onHand), valueAfter: value, drawId: draw ? draw.id : null, reason: r.reason || null, u: r.userId || null, at: r.at },
           );
+          for (const sh of sharesFor(r.ml)) {
+            await exec(`INSERT INTO movement_batch_shares (coop_id, movement_id, tank_id, draw_id, batch_id, quantity_liters) VALUES (:c, :m, :t, :d, :b, :q)`, {
+              c: coopId, m: m.id, t: t.id, d: draw ? draw.id : null, b: sh.batchId, q: mlText(sh.ml),
+            });
+          }
           if (draw) await draw.finish(-moved);
           out.push({ movementId: m.id, bookBefore: before.onHand });
         }
         await exec(`UPDATE tanks SET on_hand_liters = :oh, value_cents = :v, updated_at = now() WHERE id = :t`, { oh: mlText(onHand), v: value, t: t.id });
+        await exec(`DELETE FROM tank_layers WHERE tank_id = :t`, { t: t.id });
+        for (const l of layers.filter((x) => x.ml > 0)) {
+          await exec(`INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) VALUES (:c, :t, :b, :q)`, { c: coopId, t: t.id, b: l.batchId, q: mlText(l.ml) });
+        }
         return { tankId: t.id, out };
       }
 
@@ -177,6 +203,7 @@ module.exports = {
       const coops = `(SELECT id FROM coops WHERE slug IN ('prairie-lantern', 'harbourside'))`;
       const dale = `(SELECT m.id FROM memberships m JOIN users u ON u.id = m.user_id WHERE lower(u.email) = 'dale.member@example.org')`;
       await exec(`DELETE FROM dip_readings WHERE coop_id IN ${coops} AND reason = 'Opening balance'`);
+      await exec(`DELETE FROM movement_batch_shares WHERE movement_id IN (SELECT id FROM tank_movements WHERE coop_id IN ${coops} AND (reason = 'Opening balance' OR draw_id IN (SELECT id FROM draws WHERE membership_id IN ${dale})))`);
       await exec(`DELETE FROM tank_movements WHERE coop_id IN ${coops} AND (reason = 'Opening balance' OR draw_id IN (SELECT id FROM draws WHERE membership_id IN ${dale}))`);
       await exec(`DELETE FROM draws WHERE membership_id IN ${dale}`);
       await exec(`DELETE FROM reservations WHERE membership_id IN ${dale}`);
@@ -186,6 +213,9 @@ module.exports = {
                     value_cents = coalesce((SELECT sum(value_cents) FROM tank_movements m WHERE m.tank_id = t.id), 0),
                     reserved_liters = coalesce((SELECT sum(quantity_liters) FROM reservations r WHERE r.tank_id = t.id AND r.status = 'open'), 0)
                   WHERE t.coop_id IN ${coops}`);
+      // The remaining fuel's lineage is no longer known: one unattributed layer per tank.
+      await exec(`DELETE FROM tank_layers WHERE coop_id IN ${coops}`);
+      await exec(`INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, on_hand_liters FROM tanks WHERE coop_id IN ${coops} AND on_hand_liters > 0`);
       await exec(`DELETE FROM tanks t WHERE t.coop_id IN ${coops} AND t.name IN ('North tank', 'Barn tote', 'Harbour tank')
                     AND NOT EXISTS (SELECT 1 FROM tank_movements m WHERE m.tank_id = t.id) AND NOT EXISTS (SELECT 1 FROM reservations r WHERE r.tank_id = t.id)`);
     });

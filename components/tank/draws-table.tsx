@@ -13,7 +13,7 @@ import { StatusBadge } from './status-badge';
 /** A draw row as the pages pass it (the lib DTO's fields the table shows). */
 export type DrawRow = Pick<DrawDto,
   'id' | 'tankName' | 'memberName' | 'quantityLiters' | 'declaredUse' | 'vehicle' | 'fuelCents' | 'surchargeCents' | 'taxCents' | 'totalCents' | 'occurredAt' | 'status'
-  | 'reversesDrawId' | 'reversedByDrawId' | 'reason' | 'recordedBy'>;
+  | 'reversesDrawId' | 'reversedByDrawId' | 'reason' | 'recordedBy' | 'batches'>;
 
 const col = createColumnHelper<Features, DrawRow>();
 
@@ -28,6 +28,12 @@ export function DrawsTable({ rows, units, timeZone, currency, coopSlug, showMemb
     ...(showMember ? [col.accessor('memberName', { header: 'Member', cell: (c) => c.getValue() })] : []),
     col.accessor('tankName', { header: 'Tank', cell: (c) => c.getValue() }),
     col.accessor('quantityLiters', { id: 'quantity', header: 'Quantity', cell: (c) => <span className="tabular-nums whitespace-nowrap">{formatMl(Math.round(c.getValue() * 1000), units)}</span> }),
+    col.accessor('batches', {
+      header: 'From batches',
+      cell: (c) => c.getValue().length
+        ? <ul className="text-xs">{c.getValue().map((b: DrawDto['batches'][number]) => <li key={b.batchId ?? 'none'} className="whitespace-nowrap">{b.batchNumber !== null ? `Batch ${b.batchNumber}` : 'Unattributed'}: {formatMl(b.ml, units)}</li>)}</ul>
+        : <span className="text-xs text-stone-600">Not recorded</span>,
+    }),
     col.accessor('declaredUse', { header: 'Use', cell: (c) => <>{c.getValue()}{c.row.original.vehicle ? <span className="block text-xs text-stone-600">{c.row.original.vehicle}</span> : null}</> }),
     col.accessor('totalCents', {
       id: 'total', header: 'Amount',

@@ -12,6 +12,8 @@ export interface GaugeTank {
   onHandLiters: number;
   reservedLiters: number;
   availableLiters: number;
+  /** Held while a batch in the tank is under review (optional for callers without lineage). */
+  heldLiters?: number;
   avgCostCentsPerUnit: number | null;
   lastDipAt: string | null;
 }
@@ -40,7 +42,8 @@ export function TankGauge({ tank, units, currency = 'USD', timeZone }: { tank: G
   const pct = (l: number) => Math.max(0, Math.min(100, (ml(l) / cap) * 100));
   const full = Math.round(pct(tank.onHandLiters));
   const fmt = (l: number, floor = false) => formatMl(ml(l), units, { floor });
-  const alt = `${tank.name}: ${fmt(tank.onHandLiters)} on hand of ${fmt(tank.capacityLiters)} (${full}% full); ${fmt(tank.reservedLiters)} reserved; ${fmt(tank.availableLiters, true)} available.`;
+  const held = tank.heldLiters ?? 0;
+  const alt = `${tank.name}: ${fmt(tank.onHandLiters)} on hand of ${fmt(tank.capacityLiters)} (${full}% full); ${fmt(tank.reservedLiters)} reserved; ${held > 0 ? `${fmt(held)} held while a batch is under review; ` : ''}${fmt(tank.availableLiters, true)} available.`;
   return (
     <article aria-labelledby={`tank-${tank.id}-name`} className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm">
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -69,6 +72,9 @@ export function TankGauge({ tank, units, currency = 'USD', timeZone }: { tank: G
           <dd className="font-semibold tabular-nums text-fir-800" data-testid={`available-${tank.id}`}>{fmt(tank.availableLiters, true)}</dd>
         </div>
       </dl>
+      {held > 0 ? (
+        <p className="mt-2 text-sm font-semibold text-danger-700">{fmt(held)} held: a batch in this tank is under review, so this fuel cannot be reserved or drawn.</p>
+      ) : null}
       <p className="mt-2 text-xs text-stone-600">
         Capacity {fmt(tank.capacityLiters)}
         {tank.avgCostCentsPerUnit !== null ? ` · average cost ${formatCents(Math.round(tank.avgCostCentsPerUnit), currency)}/${volumeLabel(units)}` : ''}

@@ -19,6 +19,7 @@ export const POLICY = {
   'tank:write': ['brewer', 'admin'],
   'draws:record': ['brewer', 'admin'],
   'draws:read-all': ['brewer', 'treasurer', 'admin'],
+  'lineage:read': ['brewer', 'treasurer', 'admin'],
   'pricing:write': ['treasurer', 'admin'],
   'billing:manage': ['treasurer', 'admin'],
   'reports:read': ['treasurer', 'admin'],

@@ -12,17 +12,17 @@ import type { CheckedUpload } from './upload';
 export const BATCH_FILE_KINDS: readonly StoredKind[] = ['pdf', 'jpeg', 'png'];
 
 /**
- * Attaches a photo or lab report to a batch. The bytes are stored under a server-made name; the
+ * Attaches a photo, lab report or disposal receipt (a batch review's outcome) to a batch. The bytes are stored under a server-made name; the
  * browser's file name is kept for display only. Documents may be added to any batch, including
  * released ones (lab reports often arrive after the fuel is in the tank).
  * @param actor brewer or admin
  * @param batchId batch id (another co-op's → 404)
- * @param upload checked upload; its `purpose` field must be 'photo' or 'lab-report'
+ * @param upload checked upload; its `purpose` field must be 'photo', 'lab-report' or 'receipt'
  */
 export async function addBatchFile(actor: Actor, batchId: number, upload: CheckedUpload) {
   const purpose = upload.fields.purpose ?? 'lab-report';
-  if (purpose !== 'photo' && purpose !== 'lab-report') {
-    throw new HttpError(422, 'Some fields need attention.', { purpose: ['Choose photo or lab report.'] });
+  if (purpose !== 'photo' && purpose !== 'lab-report' && purpose !== 'receipt') {
+    throw new HttpError(422, 'Some fields need attention.', { purpose: ['Choose photo, lab report or receipt.'] });
   }
   await loadBatch(actor.coop.id, batchId);
   const key = await putFile(actor.coop.id, upload.kind, upload.bytes);

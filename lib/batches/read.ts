@@ -139,7 +139,7 @@ export interface BatchDto {
   rejectReason: string | null;
   costs: BatchCosts | null;
   consumptions: { chemicalLotId: number; kind: string; supplier: string; receivedOn: string; unit: 'L' | 'g'; quantity: number; costCents: number }[];
-  files: { id: number; purpose: 'photo' | 'lab-report'; kind: 'pdf' | 'jpeg' | 'png'; name: string; sizeBytes: number; createdAt: string }[];
+  files: { id: number; purpose: 'photo' | 'lab-report' | 'receipt'; kind: 'pdf' | 'jpeg' | 'png'; name: string; sizeBytes: number; createdAt: string }[];
   notes: string | null;
 }
 

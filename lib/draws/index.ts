@@ -1,5 +1,5 @@
 import 'server-only';
-import { col, fn, Op, type InferAttributes, type WhereOptions } from 'sequelize';
+import { col, fn, Op, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
@@ -12,6 +12,8 @@ import { expireLapsedReservations } from '@/lib/reservations/expire';
 import { parseInstant, parseWindowEdge } from '@/lib/reservations/window';
 import { lockTank } from '@/lib/tank';
 import { recordMovement } from '@/lib/tank/ledger';
+import { drawShares, type LineageSource } from '@/lib/tank/lineage';
+import { drawBatches, type DrawBatch } from '@/lib/lineage/read';
 import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
 import { drawQuantityMilli, type drawCreateSchema, type drawListSchema, type drawReverseSchema } from '@/lib/validation/tank';
@@ -48,6 +50,8 @@ export interface DrawDto {
   recordedBy: string | null;
   occurredAt: string;
   status: DrawStatus;
+  /** The batches the fuel came from (lib/tank/lineage), positive, in the co-op's unit; batch null = unattributed. */
+  batches: DrawBatch[];
 }
 
 /**
@@ -129,14 +133,15 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
       await Tank.decrement({ reservedLiters: reservedByItMl / 1000 }, { where: { id: tank.id, coopId: actor.coop.id }, transaction: t });
       await Reservation.update({ status: 'drawn', closedAt: new Date() }, { where: { id: reservation.id, coopId: actor.coop.id }, transaction: t });
     }
-    const availableMl = onHandMl - reservedMl;
+    // Fuel held while a batch in the tank is under review cannot be drawn.
+    const availableMl = onHandMl - reservedMl - litersToMl(tank.heldLiters);
     // The meter is the truth; a book short by a rounding crumb gives up its last millilitres.
     if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;
     if (qMl > availableMl) {
       const what = reservation ? 'beyond the reservation' : 'for a walk-up draw';
       throw new HttpError(
         409,
-        `${tank.name} can cover only ${formatMl(availableMl, units, { floor: true, digits: 3 })} ${what} (the rest is reserved by other members or not in the tank).`,
+        `${tank.name} can cover only ${formatMl(availableMl, units, { floor: true, digits: 3 })} ${what} (the rest is reserved by other members${Number(tank.heldLiters) > 0 ? ', held while a batch is under review' : ''} or not in the tank).`,
         { quantity: ['More than is available.'] },
         { availableLiters: Math.max(0, availableMl) / 1000, available: mlToUnitsFloor(Math.max(0, availableMl), units) },
       );
@@ -191,6 +196,7 @@ export async function reverseDraw(actor: Actor, drawId: number, input: z.infer<t
       const id = await nextDrawId(t);
       const moved = await recordMovement(t, {
         coopId: actor.coop.id, tankId: d.tankId, kind: 'draw-reversal', quantityMl: qMl, valueCents: Number(d.costValueCents), drawId: id, reason: input.reason, userId: actor.user.id,
+        lineage: await reversalSource(t, actor.coop.id, d.id),
       });
       const neg = (v: string) => String(-Number(v));
       await Draw.create(
@@ -214,6 +220,12 @@ export async function reverseDraw(actor: Actor, drawId: number, input: z.infer<t
     throw e;
   }
   return getDraw(actor, reversalId);
+}
+
+/** A reversal returns the draw's batches; a draw recorded before lineage existed returns unattributed fuel. */
+async function reversalSource(t: Transaction, coopId: number, drawId: number): Promise<LineageSource> {
+  const shares = await drawShares(t, coopId, drawId);
+  return shares.length ? { kind: 'shares', shares } : { kind: 'origin', batchId: null };
 }
 
 /** A draw as the lists read it (raw, nested includes). */
@@ -259,7 +271,15 @@ function drawDto(r: DrawListRow, actor: Actor): DrawDto {
     reversesDrawId: r.reversesDrawId, reversedByDrawId: reversedBy, reason: r.reason, recordedBy: r.recordedBy?.name ?? null,
     occurredAt: new Date(r.occurredAt).toISOString(),
     status: r.reversesDrawId !== null ? 'reversal' : reversedBy !== null ? 'reversed' : 'recorded',
+    batches: [],
   };
+}
+
+/** Adds each draw's batches (one indexed read for the page). */
+async function withBatches(actor: Actor, draws: DrawDto[]): Promise<DrawDto[]> {
+  const map = await drawBatches(actor.coop.id, actor.coop.units, draws.map((d) => d.id));
+  for (const d of draws) d.batches = map.get(d.id) ?? [];
+  return draws;
 }
 
 /** One draw: a member sees their own, brewers/treasurers/admins any of the co-op's; else 404. */
@@ -268,7 +288,7 @@ export async function getDraw(actor: Actor, id: number): Promise<DrawDto> {
     attributes: [...DRAW_ATTRIBUTES], where: { id, coopId: actor.coop.id }, include: drawInclude(actor.coop.id), raw: true, nest: true,
   })) as unknown as DrawListRow | null;
   if (!row || (row.membershipId !== actor.membershipId && !can(actor.role, 'draws:read-all'))) throw notFound('Draw not found.');
-  return drawDto(row, actor);
+  return withBatches(actor, [drawDto(row, actor)]).then(([d]) => d!);
 }
 
 const DRAW_SORT = { occurred_at: 'occurredAt', quantity: 'quantityLiters', total: 'totalCents' } as const;
@@ -312,7 +332,7 @@ export async function listDraws(actor: Actor, q: z.infer<typeof drawListSchema>,
   ]);
   const netMl = litersToMl(String(agg?.liters ?? '0'));
   return {
-    items: rows.map((r) => drawDto(r, actor)), page: q.page, pageSize: q.pageSize, total: Number(agg?.n ?? 0),
+    items: await withBatches(actor, rows.map((r) => drawDto(r, actor))), page: q.page, pageSize: q.pageSize, total: Number(agg?.n ?? 0),
     totals: { quantityLiters: netMl / 1000, quantity: mlToUnits3(netMl, actor.coop.units), totalCents: Number(agg?.total ?? 0) },
   };
 }

@@ -26,11 +26,12 @@ export function tankSummaryOf(tanks: TankDto[]): TankSummary {
   const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'capacityLiters') => tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
   const onHandMl = sumMl('onHandLiters');
   const reservedMl = sumMl('reservedLiters');
+  const availableMl = tanks.reduce((a, t) => a + Math.round(t.availableLiters * 1000), 0);
   const valueCents = tanks.reduce((a, t) => a + t.valueCents, 0);
   return {
     onHandLiters: mlToLiters(onHandMl),
     reservedLiters: mlToLiters(reservedMl),
-    availableLiters: mlToLiters(onHandMl - reservedMl),
+    availableLiters: mlToLiters(availableMl),
     capacityLiters: mlToLiters(sumMl('capacityLiters')),
     avgCostCentsPerGallon: onHandMl > 0 ? Math.round((valueCents / (onHandMl / 1000)) * LITERS_PER_US_GALLON) : null,
     tanks: tanks.length,

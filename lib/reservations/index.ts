@@ -78,10 +78,11 @@ export async function createReservation(actor: Actor, input: z.infer<typeof rese
   // Refused: find out why under the tank's lock; within the rounding crumb, take what is there.
   const created = fast ? { id: fast.id, createdAt: fast.createdAt, tankName: fast.tankName, liters: mlToLiters(qMl) } : await inTransaction(async (transaction) => {
     const cur = await Tank.findOne({
-      attributes: ['name', 'active', 'onHandLiters', 'reservedLiters'], where: { id: input.tankId, coopId }, lock: transaction.LOCK.UPDATE, transaction, raw: true,
+      attributes: ['name', 'active', 'onHandLiters', 'reservedLiters', 'heldLiters'], where: { id: input.tankId, coopId }, lock: transaction.LOCK.UPDATE, transaction, raw: true,
     });
     if (!cur || !cur.active) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s tanks that is in service.'] });
-    const availableMl = litersToMl(cur.onHandLiters) - litersToMl(cur.reservedLiters);
+    // Fuel of a batch under review is held: not available to reserve.
+    const availableMl = litersToMl(cur.onHandLiters) - litersToMl(cur.reservedLiters) - litersToMl(cur.heldLiters);
     if (availableMl <= 0 || qMl - availableMl > roundingCrumbMl(units)) throw notEnough(actor, cur.name, qMl, availableMl);
     const liters = mlToLiters(Math.min(qMl, availableMl));
     const tank = await addReservedLiters(coopId, input.tankId, liters, transaction);

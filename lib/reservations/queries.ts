@@ -4,11 +4,11 @@ import { sequelize } from '@/lib/db';
 import type { Reservation, Tank } from '@/models';
 
 /** What the guarded update answers: the tank's name and totals after adding the reservation. */
-export type ReservedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'onHandLiters' | 'reservedLiters'>;
+export type ReservedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'onHandLiters' | 'reservedLiters' | 'heldLiters'>;
 
 /**
  * Adds `liters` to a tank's reserved total only while the tank is the co-op's, in service, and
- * its on hand − reserved still covers them. The condition is on the row being updated: when
+ * its on hand − reserved − held (fuel of a batch under review) still covers them. The condition is on the row being updated: when
  * another transaction holds the row (a reservation, a draw, a dip raising or lowering the stock),
  * PostgreSQL waits for it and then re-checks the condition on the row as that one left it, so a
  * reservation racing a dip is either added to what is really there or refused — never a CHECK
@@ -19,8 +19,8 @@ export type ReservedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'onHandLi
 export async function addReservedLiters(coopId: number, tankId: number, liters: string, transaction: Transaction): Promise<ReservedTank | null> {
   const rows = await sequelize.query<ReservedTank>(
     `UPDATE tanks SET reserved_liters = reserved_liters + $liters::numeric, updated_at = now()
-     WHERE id = $tankId AND coop_id = $coopId AND active AND on_hand_liters - reserved_liters >= $liters::numeric
-     RETURNING id, name, on_hand_liters AS "onHandLiters", reserved_liters AS "reservedLiters"`,
+     WHERE id = $tankId AND coop_id = $coopId AND active AND on_hand_liters - reserved_liters - held_liters >= $liters::numeric
+     RETURNING id, name, on_hand_liters AS "onHandLiters", reserved_liters AS "reservedLiters", held_liters AS "heldLiters"`,
     { bind: { coopId, tankId, liters }, type: QueryTypes.SELECT, transaction },
   );
   return rows[0] ?? null;
@@ -44,7 +44,7 @@ export async function reserveFuel(r: {
   const rows = await sequelize.query<NewReservation>(
     `WITH t AS (
        UPDATE tanks SET reserved_liters = reserved_liters + $liters::numeric, updated_at = now()
-        WHERE id = $tankId AND coop_id = $coopId AND active AND on_hand_liters - reserved_liters >= $liters::numeric
+        WHERE id = $tankId AND coop_id = $coopId AND active AND on_hand_liters - reserved_liters - held_liters >= $liters::numeric
         RETURNING id, name),
      r AS (
        INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end, status, created_at, updated_at)

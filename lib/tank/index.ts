@@ -10,7 +10,9 @@ import { expireLapsedReservations } from '@/lib/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { dipCreateSchema, movementListSchema, tankCreateSchema, tankUpdateSchema, transferCreateSchema } from '@/lib/validation/tank';
 import { Coop, DipReading, Draw, Membership, Tank, TankMovement, User } from '@/models';
+import type { TankMixing } from '@/models/Tank';
 import { recordMovement, type MovementKind } from './ledger';
+import { refreshHeld } from './lineage';
 import { litersToMl, mlToLiters } from './quantity';
 import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from './volume';
 
@@ -24,13 +26,18 @@ export interface TankDto {
   onHandLiters: number;
   /** Open reservations whose window has not ended. */
   reservedLiters: number;
-  /** On hand − reserved. */
+  /** Held while a batch in the tank is under review (not reservable, drawable or movable). */
+  heldLiters: number;
+  /** On hand − reserved − held, never below zero. */
   availableLiters: number;
   /** In the co-op's unit (US gallons or litres), 3 decimals; available is rounded down. */
   capacity: number;
   onHand: number;
   reserved: number;
+  held: number;
   available: number;
+  /** 'mixed' (a draw takes every batch in proportion) or 'fifo' (oldest fuel first). */
+  mixing: TankMixing;
   /** Stock value at moving weighted-average cost, cents. */
   valueCents: number;
   /** value ÷ on hand, cents per US gallon (2 decimals), null when the tank is empty. */
@@ -45,7 +52,7 @@ export interface TankDto {
  * are still open but whose window has ended (not yet marked expired by a write) and the time of
  * its last dip. NUMERIC and BIGINT arrive as strings.
  */
-export type TankListRow = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'valueCents'> & {
+export type TankListRow = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'mixing' | 'valueCents'> & {
   lapsedLiters: string;
   lastDipAt: Date | null;
 };
@@ -71,7 +78,7 @@ export async function findTankRows(coopId: number, opts: { activeOnly?: boolean;
   if (opts.activeOnly) where.active = true;
   if (opts.tankId !== undefined) where.id = opts.tankId;
   const rows = await Tank.findAll({
-    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'valueCents', [LAPSED_LITERS, 'lapsedLiters'], [LAST_DIP_AT, 'lastDipAt']],
+    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'heldLiters', 'mixing', 'valueCents', [LAPSED_LITERS, 'lapsedLiters'], [LAST_DIP_AT, 'lastDipAt']],
     where,
     order: TANK_ORDER,
     raw: true,
@@ -98,15 +105,17 @@ function tankDto(r: TankListRow, units: UnitSystem): TankDto {
   const onHandMl = litersToMl(r.onHandLiters);
   const reservedMl = litersToMl(r.reservedLiters) - litersToMl(r.lapsedLiters);
   const capacityMl = litersToMl(r.capacityLiters);
-  const availableMl = onHandMl - reservedMl;
+  const heldMl = litersToMl(r.heldLiters);
+  const availableMl = Math.max(0, onHandMl - reservedMl - heldMl);
   const valueCents = Number(r.valueCents);
   const perGallon = onHandMl > 0 ? (valueCents / onHandMl) * 1000 * LITERS_PER_US_GALLON : null;
   const perUnit = onHandMl > 0 ? valueCents / mlToUnits(onHandMl, units) : null;
   const r2 = (v: number | null) => (v === null ? null : Math.round(v * 100) / 100);
   return {
     id: r.id, name: r.name, active: r.active, units,
-    capacityLiters: capacityMl / 1000, onHandLiters: onHandMl / 1000, reservedLiters: reservedMl / 1000, availableLiters: availableMl / 1000,
-    capacity: mlToUnits3(capacityMl, units), onHand: mlToUnits3(onHandMl, units), reserved: mlToUnits3(reservedMl, units), available: mlToUnitsFloor(availableMl, units),
+    capacityLiters: capacityMl / 1000, onHandLiters: onHandMl / 1000, reservedLiters: reservedMl / 1000, heldLiters: heldMl / 1000, availableLiters: availableMl / 1000,
+    capacity: mlToUnits3(capacityMl, units), onHand: mlToUnits3(onHandMl, units), reserved: mlToUnits3(reservedMl, units), held: mlToUnits3(heldMl, units),
+    available: mlToUnitsFloor(availableMl, units), mixing: r.mixing,
     valueCents, avgCostCentsPerGallon: r2(perGallon), avgCostCentsPerUnit: r2(perUnit),
     lastDipAt: r.lastDipAt ? new Date(r.lastDipAt).toISOString() : null,
   };
@@ -153,7 +162,7 @@ export async function updateTank(actor: Actor, tankId: number, input: z.infer<ty
       if (input.active === false) await expireLapsedReservations(actor.coop.id, transaction);
       const tank = await Tank.findOne({ where: { id: tankId, coopId: actor.coop.id }, lock: transaction.LOCK.UPDATE, transaction });
       if (!tank) throw notFound('Tank not found.');
-      const before = { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active };
+      const before = { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active, mixing: tank.mixing };
       const onHandMl = litersToMl(tank.onHandLiters);
       if (input.capacity !== undefined) {
         const capacityMl = milliUnitsToMl(input.capacity, actor.coop.units);
@@ -169,8 +178,14 @@ export async function updateTank(actor: Actor, tankId: number, input: z.infer<ty
         }
       }
       if (input.active !== undefined) tank.active = input.active;
+      if (input.mixing !== undefined) tank.mixing = input.mixing;
       await tank.save({ transaction });
-      await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.update', entityType: 'tank', entityId: tank.id, before, after: { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active } }, transaction);
+      // Held fuel depends on the model (a well-mixed tank holds all of it while a batch in it is under review).
+      if (input.mixing !== undefined && input.mixing !== before.mixing) await refreshHeld(transaction, actor.coop.id, tank.id);
+      await audit({
+        coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.update', entityType: 'tank', entityId: tank.id, before,
+        after: { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active, mixing: tank.mixing },
+      }, transaction);
     });
   } catch (e) {
     if (e instanceof UniqueConstraintError) throw nameTaken();
@@ -180,12 +195,12 @@ export async function updateTank(actor: Actor, tankId: number, input: z.infer<ty
 }
 
 /** The tank columns a write path reads under its row lock. */
-export type LockedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'valueCents'>;
+export type LockedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'valueCents'>;
 
 /** Locks a tank row of the co-op for the rest of the transaction (404 when not the co-op's). */
 export async function lockTank(coopId: number, tankId: number, transaction: Transaction): Promise<LockedTank> {
   const row = await Tank.findOne({
-    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'valueCents'],
+    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'heldLiters', 'valueCents'],
     where: { id: tankId, coopId },
     lock: transaction.LOCK.UPDATE,
     transaction,
@@ -283,10 +298,10 @@ export async function transferFuel(actor: Actor, input: z.infer<typeof transferC
     if (!to) fields.toTankId = ['No such tank in this co-op.'];
     if (!from || !to) throw new HttpError(422, 'Some fields need attention.', fields);
     if (!from.active || !to.active) throw conflict(`${!from.active ? from.name : to.name} is out of service.`);
-    const availableMl = litersToMl(from.onHandLiters) - litersToMl(from.reservedLiters);
+    const availableMl = litersToMl(from.onHandLiters) - litersToMl(from.reservedLiters) - litersToMl(from.heldLiters);
     if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;
     if (qMl > availableMl) {
-      throw new HttpError(409, `${from.name} has only ${formatMl(availableMl, units, { floor: true })} available to move (reserved fuel stays put).`, { quantity: ['More than is available.'] }, {
+      throw new HttpError(409, `${from.name} has only ${formatMl(Math.max(0, availableMl), units, { floor: true })} available to move (reserved fuel and fuel held for a batch review stay put).`, { quantity: ['More than is available.'] }, {
         availableLiters: availableMl / 1000, available: mlToUnitsFloor(availableMl, units),
       });
     }
@@ -295,7 +310,10 @@ export async function transferFuel(actor: Actor, input: z.infer<typeof transferC
       throw new HttpError(409, `${to.name} has room for only ${formatMl(roomMl, units, { floor: true })}.`, { quantity: ['More than the destination can hold.'] });
     }
     const out = await recordMovement(transaction, { coopId: actor.coop.id, tankId: from.id, kind: 'transfer-out', quantityMl: -qMl, transferTankId: to.id, reason: input.reason ?? null, userId: actor.user.id });
-    const inn = await recordMovement(transaction, { coopId: actor.coop.id, tankId: to.id, kind: 'transfer-in', quantityMl: qMl, valueCents: -out.valueCents, transferTankId: from.id, reason: input.reason ?? null, userId: actor.user.id });
+    const inn = await recordMovement(transaction, {
+      coopId: actor.coop.id, tankId: to.id, kind: 'transfer-in', quantityMl: qMl, valueCents: -out.valueCents, transferTankId: from.id, reason: input.reason ?? null, userId: actor.user.id,
+      lineage: { kind: 'shares', shares: out.shares },
+    });
     await audit({
       coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.transfer', entityType: 'tank', entityId: from.id,
       before: { fromOnHandLiters: from.onHandLiters, toOnHandLiters: to.onHandLiters },

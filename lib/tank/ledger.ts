@@ -2,6 +2,7 @@ import 'server-only';
 import type { Transaction } from 'sequelize';
 import { HttpError } from '@/lib/http';
 import { Tank, TankMovement } from '@/models';
+import { defaultSource, planLineage, writeLineage, type BatchShare, type LineageSource } from './lineage';
 import { litersToMl, mlToLiters } from './quantity';
 import type { TankMovementKind as MovementKind } from '@/models/TankMovement';
 
@@ -25,6 +26,13 @@ export interface MovementInput {
   reason?: string | null;
   userId: number | null;
   occurredAt?: Date;
+  /**
+   * Which batches the row moves (lib/tank/lineage). Defaults by kind: a release brings its
+   * batch, draws and transfers out follow the tank's mixing model, a dip spreads over the layers
+   * (a valued gain is unattributed fuel). Transfers in, reversals, disposals and re-treatments
+   * must name their shares. An opening balance: `{ kind: 'origin', batchId: null }`.
+   */
+  lineage?: LineageSource;
 }
 
 export interface MovementResult {
@@ -33,6 +41,8 @@ export interface MovementResult {
   valueCents: number;
   onHandAfterMl: number;
   valueAfterCents: number;
+  /** The batches the row moved, positive millilitres (the row's sign applies). */
+  shares: BatchShare[];
 }
 
 /**
@@ -40,12 +50,14 @@ export interface MovementResult {
  * movement to its running totals at the moving weighted-average cost, and appends the ledger
  * row — inside the caller's transaction. Refuses (409) anything that would take on-hand below
  * zero or an outflow that would dip into reserved fuel (a draw against a reservation releases
- * that reservation first, in the same transaction); the database CHECKs back this up.
+ * that reservation first, in the same transaction); the database CHECKs back this up. Every row
+ * also moves the tank's batch layers (lib/tank/lineage): held fuel cannot leave by a draw or a
+ * transfer, and the row's batch shares are written beside it.
  */
 export async function recordMovement(t: Transaction, m: MovementInput): Promise<MovementResult> {
   if (!Number.isInteger(m.quantityMl) || m.quantityMl === 0) throw new Error('quantityMl must be a non-zero integer');
   const tank = await Tank.findOne({
-    attributes: ['onHandLiters', 'reservedLiters', 'valueCents'],
+    attributes: ['onHandLiters', 'reservedLiters', 'valueCents', 'mixing'],
     where: { id: m.tankId, coopId: m.coopId },
     lock: t.LOCK.UPDATE,
     transaction: t,
@@ -69,7 +81,12 @@ export async function recordMovement(t: Transaction, m: MovementInput): Promise<
       quantity: ['Less than the reserved amount would remain.'],
     });
   }
-  await Tank.update({ onHandLiters: mlToLiters(after), valueCents: String(valueAfter) }, { where: { id: m.tankId, coopId: m.coopId }, transaction: t });
+  const source = m.lineage ?? defaultSource(m.kind, m.quantityMl, m.batchId ?? null, m.valueCents !== undefined);
+  const plan = await planLineage(t, { coopId: m.coopId, tankId: m.tankId, mixing: tank.mixing, onHandMl: onHand, quantityMl: m.quantityMl, source });
+  await Tank.update(
+    { onHandLiters: mlToLiters(after), valueCents: String(valueAfter), heldLiters: mlToLiters(plan.heldAfterMl) },
+    { where: { id: m.tankId, coopId: m.coopId }, transaction: t },
+  );
   const row = await TankMovement.create(
     {
       coopId: m.coopId, tankId: m.tankId, kind: m.kind, quantityLiters: mlToLiters(m.quantityMl), valueCents: String(moved),
@@ -79,5 +96,6 @@ export async function recordMovement(t: Transaction, m: MovementInput): Promise<
     },
     { transaction: t, returning: ['id'] },
   );
-  return { id: String(row.id), quantityMl: m.quantityMl, valueCents: moved, onHandAfterMl: after, valueAfterCents: valueAfter };
+  await writeLineage(t, plan, { movementId: String(row.id), drawId: m.drawId ?? null, sign: m.quantityMl > 0 ? 1 : -1 });
+  return { id: String(row.id), quantityMl: m.quantityMl, valueCents: moved, onHandAfterMl: after, valueAfterCents: valueAfter, shares: plan.shares };
 }

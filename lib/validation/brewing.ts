@@ -161,7 +161,7 @@ const labNumber = num().pipe(z.number().min(-100, 'Check this value.').max(100_0
  * A lab result: the value with its method, laboratory (or "home test") and date. A bare number is
  * still accepted (screening only: without laboratory, method and date it earns no standard verdict).
  */
-const labValue = z
+export const labValue = z
   .union([
     labNumber,
     z.strictObject({

@@ -67,8 +67,14 @@ const toBool = z.union([z.boolean(), z.enum(['true', 'false']).transform((v) => 
 export const tankCreateSchema = z.strictObject({ name: tankNameSchema, capacity: quantitySchema });
 
 export const tankUpdateSchema = z
-  .strictObject({ name: tankNameSchema.optional(), capacity: quantitySchema.optional(), active: toBool.optional() })
-  .refine((v) => v.name !== undefined || v.capacity !== undefined || v.active !== undefined, { message: 'Change the name, the capacity or whether the tank is in use.', path: ['_form'] });
+  .strictObject({
+    name: tankNameSchema.optional(), capacity: quantitySchema.optional(), active: toBool.optional(),
+    /** 'mixed': stirred or recirculated, a draw takes every batch in proportion; 'fifo': the oldest fuel leaves first. */
+    mixing: z.enum(['mixed', 'fifo'], { error: 'Choose well mixed or first in, first out.' }).optional(),
+  })
+  .refine((v) => v.name !== undefined || v.capacity !== undefined || v.active !== undefined || v.mixing !== undefined, {
+    message: 'Change the name, the capacity, the mixing model or whether the tank is in use.', path: ['_form'],
+  });
 
 export const dipCreateSchema = z.strictObject({
   measured: volumeReadingSchema,

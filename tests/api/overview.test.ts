@@ -11,7 +11,9 @@ describe('overview API', () => {
   beforeAll(async () => {
     ctx = await makeCoopWithRoles();
     const [t] = await sql<{ id: number }>(
-      `INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, reserved_liters, value_cents) VALUES ($1, 'Overview tank', 1000, 378.541, 37.854, 31000) RETURNING id`,
+      `WITH t AS (INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, reserved_liters, value_cents) VALUES ($1, 'Overview tank', 1000, 378.541, 37.854, 31000) RETURNING id, coop_id),
+            l AS (INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, 378.541 FROM t)
+       SELECT id FROM t`,
       [ctx.coop.id],
     );
     await sql(

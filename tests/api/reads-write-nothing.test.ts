@@ -39,7 +39,9 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
     ctx = await makeCoopWithRoles();
     slug = ctx.coop.slug;
     const [tank] = await sql<{ id: number }>(
-      `INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents) VALUES ($1, 'Main', 1000, 500, 100000) RETURNING id`,
+      `WITH t AS (INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents) VALUES ($1, 'Main', 1000, 500, 100000) RETURNING id, coop_id),
+            l AS (INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, 500 FROM t)
+       SELECT id FROM t`,
       [ctx.coop.id],
     );
     const costs = { methanol: 1000, catalyst: 200, energy: 50, feedstock: 0, other: 0 };

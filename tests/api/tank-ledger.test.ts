@@ -163,7 +163,20 @@ describe('tank ledger after a long random sequence', () => {
     expect(mismatched).toEqual([]);
     const unpaired = await sql(`SELECT d.id FROM draws d WHERE d.coop_id = $1 AND NOT EXISTS (SELECT 1 FROM tank_movements m WHERE m.draw_id = d.id)`, [ctx.coop.id]);
     expect(unpaired).toEqual([]);
-  });
+
+    // Lineage after every kind of entry: each tank's batch layers sum to its on hand, every ledger
+    // row's batch shares sum to the row, and a reversal returns exactly its draw's shares.
+    const layerGaps = await sql(
+      `SELECT t.id FROM tanks t WHERE t.coop_id = $1 AND t.on_hand_liters <> coalesce((SELECT sum(l.quantity_liters) FROM tank_layers l WHERE l.tank_id = t.id), 0)`, [ctx.coop.id]);
+    expect(layerGaps).toEqual([]);
+    const shareGaps = await sql(
+      `SELECT m.id FROM tank_movements m WHERE m.coop_id = $1 AND m.quantity_liters <> coalesce((SELECT sum(s.quantity_liters) FROM movement_batch_shares s WHERE s.movement_id = m.id), 0)`, [ctx.coop.id]);
+    expect(shareGaps).toEqual([]);
+    const reversalGaps = await sql(
+      `SELECT d.id FROM draws d JOIN movement_batch_shares s ON s.draw_id = d.id WHERE d.coop_id = $1 AND d.reverses_draw_id IS NOT NULL
+         AND s.quantity_liters <> -(SELECT coalesce(sum(o.quantity_liters), 0) FROM movement_batch_shares o WHERE o.draw_id = d.reverses_draw_id AND o.batch_id IS NOT DISTINCT FROM s.batch_id)`, [ctx.coop.id]);
+    expect(reversalGaps).toEqual([]);
+  }, 240_000);
 });
 
 function day(n: number) {

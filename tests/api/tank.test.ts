@@ -260,7 +260,8 @@ describe('reservations', () => {
     }
     // Another co-op's tank is not a tank of this co-op.
     const other = await makeCoop();
-    const [foreign] = await sql<{ id: number }>("INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters) VALUES ($1, 'Theirs', 100, 50) RETURNING id", [other.id]);
+    const [foreign] = await sql<{ id: number }>("WITH t AS (INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters) VALUES ($1, 'Theirs', 100, 50) RETURNING id, coop_id), "
+      + "l AS (INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, 50 FROM t) SELECT id FROM t", [other.id]);
     await s.agents.member.post(url).send({ ...base, tankId: foreign!.id }).expect(422);
     expect((await tankRow(foreign!.id)).reserved_liters).toBe('0.000');
     await api().post(url).send(base).expect(401);

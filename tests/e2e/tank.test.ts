@@ -80,7 +80,7 @@ describe('reserve → draw → see it', () => {
       await page.goto(`${baseUrl()}/c/${slug}/me`);
       const draws = page.getByRole('table', { name: 'My draws' });
       await draws.getByText('$42.70').waitFor();
-      await draws.getByText('9.0 gal').waitFor();
+      await draws.getByText('9.0 gal', { exact: true }).waitFor();
       await page.getByRole('table', { name: 'Reservations' }).getByText(/drawn \(#\d+\)/).waitFor();
       await expect(page.getByTestId('reserve-available').textContent()).resolves.toBe('111.0 gal');
       await shoot(page, 'tank-me-drawn');

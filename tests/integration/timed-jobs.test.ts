@@ -22,7 +22,9 @@ describe('timed jobs', () => {
       const coop = await makeCoop();
       const member = await makeUser({ coopId: coop.id, role: 'member' });
       const [tank] = await sql<{ id: number }>(
-        `INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents, reserved_liters) VALUES ($1, 'Main', 1000, 500, 100000, 30) RETURNING id`,
+        `WITH t AS (INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents, reserved_liters) VALUES ($1, 'Main', 1000, 500, 100000, 30) RETURNING id, coop_id, on_hand_liters),
+              l AS (INSERT INTO tank_layers (coop_id, tank_id, batch_id, quantity_liters) SELECT coop_id, id, NULL, on_hand_liters FROM t)
+         SELECT id FROM t`,
         [coop.id],
       );
       const reserve = async (windowEnd: string) =>

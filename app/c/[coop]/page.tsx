@@ -9,6 +9,8 @@ import { DangerBanner } from '@/components/brewing/danger-banner';
 import { formatCents, formatRateCents } from '@/lib/money';
 import { getOverview } from '@/lib/overview';
 import { formatVolume } from '@/lib/units';
+import { RecallNotices } from '@/components/lineage/recall-notices';
+import { recallNoticesFor } from '@/lib/lineage';
 
 const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a margin per gallon', 'cost-plus-percent': 'cost plus a percentage' } as const;
 
@@ -16,7 +18,7 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
   const { coop } = await params;
   const actor = await requirePageActor(coop, 'coop:read');
   const brewing = can(actor.role, 'batches:read-all');
-  const [o, dangers] = await Promise.all([getOverview(actor), brewing ? unacknowledgedDangers(actor.coop.id) : Promise.resolve([])]);
+  const [o, dangers, recalls] = await Promise.all([getOverview(actor), brewing ? unacknowledgedDangers(actor.coop.id) : Promise.resolve([]), recallNoticesFor(actor)]);
   const units = actor.coop.units;
   const base = `/c/${actor.coop.slug}`;
   const perUnit = units === 'us' ? 'gal' : 'L';
@@ -30,6 +32,7 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
         <p className="text-stone-600">Hello, {actor.user.name}. You are {actor.role === 'admin' ? 'an' : 'a'} {actor.role} here.</p>
       </div>
       <DangerBanner alerts={dangers} slug={actor.coop.slug} units={units} canAcknowledge={can(actor.role, 'batches:write')} />
+      <RecallNotices notices={recalls} units={units} />
       <div className="grid gap-4 md:grid-cols-2">
         <TankLevelCard coop={actor.coop.slug} units={units} initial={o.tank} />
         <Card title="Member price">

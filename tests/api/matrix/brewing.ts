@@ -24,4 +24,10 @@ export const routes: RouteSpec[] = [
   { method: 'POST', path: `${P}/batches/[id]/files`, scope: 'coop', allow: BREWERS, body: {} },
   { method: 'GET', path: `${P}/batches/[id]/files/[fileId]`, scope: 'coop', allow: BREWERS },
   { method: 'GET', path: `${P}/batches/[id]/certificate`, scope: 'coop', allow: ALL, note: 'members: released batches only' },
+  // Lineage and recall (issue 19): where a batch's fuel went, reviews, late lab results, the recall report.
+  { method: 'GET', path: `${P}/batches/[id]/lineage`, scope: 'coop', allow: ['admin', 'treasurer', 'brewer'] },
+  { method: 'GET', path: `${P}/batches/[id]/recall-report`, scope: 'coop', allow: ['admin', 'treasurer', 'brewer'] },
+  { method: 'POST', path: `${P}/batches/[id]/review`, scope: 'coop', allow: BREWERS, body: {} },
+  { method: 'POST', path: `${P}/batches/[id]/review/close`, scope: 'coop', allow: BREWERS, body: {} },
+  { method: 'POST', path: `${P}/batches/[id]/lab-results`, scope: 'coop', allow: BREWERS, body: {} },
 ];

@@ -9,6 +9,7 @@ export const routes: RouteSpec[] = [
   { method: 'GET', path: '/api/coops/[coop]/tanks/[tankId]', scope: 'coop', allow: ALL },
   { method: 'PATCH', path: '/api/coops/[coop]/tanks/[tankId]', scope: 'coop', allow: BREWERS, body: {} },
   { method: 'GET', path: '/api/coops/[coop]/tanks/[tankId]/movements', scope: 'coop', allow: STAFF },
+  { method: 'GET', path: '/api/coops/[coop]/tanks/[tankId]/layers', scope: 'coop', allow: ALL },
   { method: 'POST', path: '/api/coops/[coop]/tanks/[tankId]/dips', scope: 'coop', allow: BREWERS, body: {} },
   { method: 'POST', path: '/api/coops/[coop]/tanks/transfers', scope: 'coop', allow: BREWERS, body: {} },
   { method: 'GET', path: '/api/coops/[coop]/pricing', scope: 'coop', allow: ALL },

@@ -9,6 +9,8 @@ import { can, requirePageActor } from '@/lib/auth';
 import { getCurrentPolicy } from '@/lib/pricing-policy';
 import { listMovements, listTanks } from '@/lib/tank';
 import { movementListSchema } from '@/lib/validation/tank';
+import { TankLayers } from '@/components/lineage/tank-layers';
+import { listTankLayers } from '@/lib/lineage';
 
 export const metadata = { title: 'Tank' };
 
@@ -27,7 +29,10 @@ export default async function TankPage({ params, searchParams }: { params: Promi
   const selectedId = Number(sp.tank) || tanks[0]?.id;
   const selected = tanks.find((t) => t.id === selectedId);
   const q = movementListSchema.safeParse({ page: sp.page, sort: sp.sort, dir: sp.dir, pageSize: 25 });
-  const ledger = mayLedger && selected ? await listMovements(actor, selected.id, q.success ? q.data : movementListSchema.parse({})) : null;
+  const [ledger, layers] = await Promise.all([
+    mayLedger && selected ? listMovements(actor, selected.id, q.success ? q.data : movementListSchema.parse({})) : null,
+    Promise.all(active.map((t) => listTankLayers(actor, t.id))),
+  ]);
 
   return (
     <div className="flex flex-col gap-6">
@@ -55,6 +60,12 @@ export default async function TankPage({ params, searchParams }: { params: Promi
           <p className="text-stone-700">No price set yet{can(actor.role, 'pricing:write') ? <>: <Link className="underline" href={`/c/${slug}/tank/pricing`}>set the pricing policy</Link> before draws are recorded</> : '; the treasurer sets it'}.</p>
         )}
       </Card>
+
+      {layers.length ? (
+        <section aria-label="Fuel by batch" className="grid gap-6 lg:grid-cols-2">
+          {layers.map((l) => <TankLayers key={l.tankId} data={l} base={`/c/${slug}`} canWrite={mayWrite} />)}
+        </section>
+      ) : null}
 
       {mayWrite ? (
         <div className="grid gap-6 lg:grid-cols-2">

@@ -20,6 +20,10 @@ import { HttpError } from '@/lib/http';
 import { listTanks } from '@/lib/tank';
 import { volumeFromLiters, volumeLabel, type UnitSystem } from '@/lib/units';
 import { altitudeNote } from '@/lib/chemistry';
+import { BatchLineageSection } from '@/components/lineage/batch-lineage';
+import { can, type Actor } from '@/lib/auth';
+import { listBatches } from '@/lib/batches/read';
+import { getBatchLineage } from '@/lib/lineage';
 
 export const metadata: Metadata = { title: 'Batch' };
 
@@ -38,11 +42,28 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
     throw e;
   }
   const base = `/c/${actor.coop.slug}`;
-  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} />;
+  const lineage = batch.status === 'released' && can(actor.role, 'lineage:read') ? await lineageSection(actor, batch) : null;
+  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} lineage={lineage} />;
   const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor, { activeOnly: true }) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
   const elevationM = actor.coop.settings.elevationM ?? 0;
   const altitude = altitudeNote(elevationM, actor.coop.units);
-  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} />;
+  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} lineage={lineage} />;
+}
+
+/** Where a released batch's fuel went and its reviews (brewers, treasurers, admins); review forms for brewers and admins. */
+async function lineageSection(actor: Actor, batch: BatchDto | BatchSummaryDto): Promise<ReactNode> {
+  const canWrite = can(actor.role, 'batches:write');
+  const [lineage, working] = await Promise.all([
+    getBatchLineage(actor, batch.id),
+    canWrite ? listBatches(actor, { page: 1, pageSize: 50, sort: 'number', dir: 'desc', status: 'in-progress' }) : Promise.resolve(null),
+  ]);
+  const planned = canWrite ? await listBatches(actor, { page: 1, pageSize: 20, sort: 'number', dir: 'desc', status: 'planned' }) : null;
+  const receipts = batch.view === 'full' ? batch.files.filter((f) => f.purpose === 'receipt').map((f) => ({ id: f.id, name: f.name })) : [];
+  return (
+    <BatchLineageSection lineage={lineage} apiUrl={`/api/coops/${actor.coop.slug}/batches/${batch.id}`} units={actor.coop.units} currency={actor.coop.currency}
+      canWrite={canWrite} showValue={can(actor.role, 'billing:manage') || can(actor.role, 'batches:write')} standard={batch.quality.standard} receipts={receipts}
+      retreatBatches={[...(working?.rows ?? []), ...(planned?.rows ?? [])].map((b) => ({ id: b.id, number: b.number }))} />
+  );
 }
 
 function Header({ number, status, batchDate, base, id, meets, children }: { number: number; status: string; batchDate: string; base: string; id: number; meets: boolean; children?: ReactNode }) {
@@ -64,7 +85,7 @@ function Header({ number, status, batchDate, base, id, meets, children }: { numb
   );
 }
 
-function BatchSummary({ batch, base, units, currency }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string }) {
+function BatchSummary({ batch, base, units, currency, lineage }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string; lineage: ReactNode }) {
   return (
     <div className="flex flex-col gap-4">
       <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'} />
@@ -75,6 +96,7 @@ function BatchSummary({ batch, base, units, currency }: { batch: BatchSummaryDto
           <div><dt className="text-stone-600">Cost</dt><dd className="font-semibold">{perUnit(batch.costPerGallonCents, batch.costPerLiterCents, units, currency)}</dd></div>
         </dl>
       </Card>
+      {lineage}
       <Card title="Quality">
         <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
       </Card>
@@ -110,8 +132,8 @@ function Figure({ label, value, sub }: { label: string; value: ReactNode; sub?: 
   );
 }
 
-function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, elevationM }: {
-  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number;
+function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, elevationM, lineage }: {
+  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number; lineage: ReactNode;
 }) {
   const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
   const final = batch.status === 'released' || batch.status === 'rejected';
@@ -188,6 +210,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
           <CostBreakdown costs={batch.costs} currency={currency} />
         </Card>
       ) : null}
+      {lineage}
 
       <Card title="1. Plan">
         <dl className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
@@ -275,7 +298,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
           <ul className="mb-3 text-sm">
             {batch.files.map((f) => (
               <li key={f.id} className="border-b border-stone-100 py-1">
-                <a className="underline" href={`${url}/files/${f.id}`}>{f.name}</a> <span className="text-stone-600">— {f.purpose === 'photo' ? 'photo' : 'lab report'}, {Math.max(1, Math.round(f.sizeBytes / 1024))} KB</span>
+                <a className="underline" href={`${url}/files/${f.id}`}>{f.name}</a> <span className="text-stone-600">— {f.purpose === 'photo' ? 'photo' : f.purpose === 'receipt' ? 'disposal receipt' : 'lab report'}, {Math.max(1, Math.round(f.sizeBytes / 1024))} KB</span>
               </li>
             ))}
           </ul>
