@@ -35,7 +35,7 @@ describe('invitation in the browser', () => {
       await form.getByLabel('E-mail address').fill(email);
       await form.getByLabel('Role').selectOption('brewer');
       await form.getByRole('button', { name: 'Send invitation' }).click();
-      await page.getByText(`Invitation e-mailed to ${email}`).waitFor();
+      await page.getByText(`Invitation to ${email} saved`).waitFor();
       await page.getByText(email, { exact: true }).waitFor();
       await shoot(page, 'members-invited');
     });
