@@ -1,0 +1,39 @@
+import 'server-only';
+import type { Actor } from '@/lib/auth';
+import { csvRows } from '@/lib/csv';
+import { notFound } from '@/lib/http';
+import { importKindSchema, type ImportFileInput, type ImportKindName } from '@/lib/validation/imports';
+import { confirmInvitationImport, FATE_LABEL, previewInvitationImport } from './invitations';
+import { IMPORT_TEMPLATES, type ImportTemplate } from './templates';
+
+export { getImport, importResultCsv, listImports, type ImportDetail, type ImportDto, type ImportRowDto } from './history';
+export { IMPORT_TEMPLATES, type ImportTemplate };
+
+/** What one kind of import can do: preview (writes nothing), confirm (one transaction), name its fates. */
+interface Importer {
+  preview(actor: Actor, input: ImportFileInput): Promise<unknown>;
+  confirm(actor: Actor, input: ImportFileInput): Promise<{ importId: number }>;
+  fateLabel(fate: string): string;
+}
+
+const IMPORTERS: Partial<Record<ImportKindName, Importer>> = {
+  invitations: {
+    preview: previewInvitationImport,
+    confirm: confirmInvitationImport,
+    fateLabel: (f) => FATE_LABEL[f as keyof typeof FATE_LABEL] ?? f,
+  },
+};
+
+/** The importer for a kind in the URL; an unknown kind (or one not offered yet) is a 404. */
+export function importerFor(kind: string | undefined): { kind: ImportKindName; importer: Importer } {
+  const parsed = importKindSchema.safeParse(kind);
+  const importer = parsed.success ? IMPORTERS[parsed.data] : undefined;
+  if (!parsed.success || !importer) throw notFound('There is no such import.');
+  return { kind: parsed.data, importer };
+}
+
+/** The kind's CSV template: its headings and an example row, in the co-op's units and date format. */
+export function importTemplateCsv(actor: Actor, kind: ImportKindName): { fileName: string; body: string } {
+  const t: ImportTemplate = IMPORT_TEMPLATES[kind](actor.coop.units);
+  return { fileName: `tallyvat-${kind}-template.csv`, body: csvRows([t.columns.map((c) => c.heading), ...t.examples]) };
+}
