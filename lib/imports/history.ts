@@ -113,12 +113,18 @@ export async function getImport(actor: Actor, kind: ImportKindName, id: number):
 const DELIVERY_WORDS: Record<string, string> = { queued: 'Waiting to be sent', sent: 'Sent', 'not-sent': 'Not sent (resend from Members)' };
 
 /** The import's result as CSV (the one CSV writer): every row of the file with its fate and, for invitations, its e-mail. */
-export async function importResultCsv(actor: Actor, kind: ImportKindName, id: number, fateLabel: (fate: string) => string): Promise<{ fileName: string; body: string }> {
+export async function importResultCsv(
+  actor: Actor,
+  kind: ImportKindName,
+  id: number,
+  o: { fateLabel: (fate: string) => string; columns: readonly { key: string; heading: string }[] },
+): Promise<{ fileName: string; body: string }> {
   const detail = await getImport(actor, kind, id);
-  const keys = [...new Set(detail.rows.flatMap((r) => Object.keys(r.values)).filter((k) => k !== 'message'))];
-  const header = ['Row', ...keys.map((k) => (k === 'email' ? 'E-mail' : k[0]!.toUpperCase() + k.slice(1))), 'Result', 'Note', ...(kind === 'invitations' ? ['E-mail delivery', 'Invitation'] : [])];
+  // The file's own column order (the stored rows are JSONB, which keeps no key order).
+  const keys = o.columns.map((c) => c.key);
+  const header = ['Row', ...o.columns.map((c) => c.heading), 'Result', 'Note', ...(kind === 'invitations' ? ['E-mail delivery', 'Invitation'] : [])];
   const lines = detail.rows.map((r) => [
-    r.line, ...keys.map((k) => r.values[k] ?? ''), fateLabel(r.fate), r.values.message ?? '',
+    r.line, ...keys.map((k) => r.values[k] ?? ''), o.fateLabel(r.fate), r.values.message ?? '',
     ...(kind === 'invitations' ? [r.delivery ? DELIVERY_WORDS[r.delivery] ?? r.delivery : '', r.invitationStatus ?? ''] : []),
   ]);
   const base = detail.import.fileName.replace(/\.[A-Za-z0-9]{1,5}$/, '').replace(/[^A-Za-z0-9._-]+/g, '-').slice(0, 80) || 'import';

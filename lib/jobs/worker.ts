@@ -72,7 +72,7 @@ export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
   await boss.work<InvoiceMailJob>(QUEUES.invoiceMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, async ([job]) => {
     await deliverInvoiceEmailJob(job!.data.coopId, job!.data.invoiceId);
   });
-  await boss.work<InvitationMailJob>(QUEUES.invitationMail, { ...fast, batchSize: 1, localConcurrency: 4 }, async ([job]) => {
+  await boss.work<InvitationMailJob>(QUEUES.invitationMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, async ([job]) => {
     await deliverInvitationJob(job!.data.coopId, job!.data.invitationId);
   });
   await boss.work<PlainMailJob>(QUEUES.mail, { ...fast, batchSize: 1, localConcurrency: 4 }, async ([job]) => plainMail(job!));

@@ -59,3 +59,26 @@ describe('parseLocaleNumber', () => {
     expect(parseLocaleNumber('1.23,4', ',')).toBeNull();
   });
 });
+
+describe('import values in the co-op’s locale', async () => {
+  const { readDate, readMoneyCents, readQuantity } = await import('@/lib/imports/values');
+  it('dates: MM/DD/YYYY in US co-ops, DD/MM/YYYY in metric ones, ISO everywhere; impossible days refused', () => {
+    expect(readDate('03/04/2026', 'us')).toEqual({ ok: true, value: '2026-03-04' });
+    expect(readDate('03/04/2026', 'metric')).toEqual({ ok: true, value: '2026-04-03' });
+    expect(readDate('31.12.2025', 'metric')).toEqual({ ok: true, value: '2025-12-31' });
+    expect(readDate('2026-02-28', 'metric')).toEqual({ ok: true, value: '2026-02-28' });
+    for (const bad of ['2026-02-30', '13/01/2026', '1/2/26', 'yesterday', '']) expect(readDate(bad, 'us').ok).toBe(false);
+  });
+  it('money to whole cents without floats; metric files with dot decimals still read', () => {
+    expect(readMoneyCents('1,250.00', 'us')).toEqual({ ok: true, value: 125000 });
+    expect(readMoneyCents('-40', 'us')).toEqual({ ok: true, value: -4000 });
+    expect(readMoneyCents('1.250,5', 'metric')).toEqual({ ok: true, value: 125050 });
+    expect(readMoneyCents('12.50', 'metric')).toEqual({ ok: true, value: 1250 });
+    expect(readMoneyCents('0.1', 'us')).toEqual({ ok: true, value: 10 });
+    expect(readMoneyCents('1.005', 'us').ok).toBe(false);
+  });
+  it('quantities: exact decimals, never negative', () => {
+    expect(readQuantity('1,200.5', 'us')).toEqual({ ok: true, value: '1200.5' });
+    expect(readQuantity('-3', 'us').ok).toBe(false);
+  });
+});

@@ -9,4 +9,5 @@ export const routes: RouteSpec[] = [
   { method: 'GET', path: '/api/coops/[coop]/imports/[kind]/template', scope: 'coop', allow: ADMINS, params: kind },
   { method: 'GET', path: '/api/coops/[coop]/imports/[kind]/[id]', scope: 'coop', allow: ADMINS, params: kind },
   { method: 'GET', path: '/api/coops/[coop]/imports/[kind]/[id]/result', scope: 'coop', allow: ADMINS, params: kind },
+  { method: 'POST', path: '/api/coops/[coop]/imports/[kind]/[id]/undo', scope: 'coop', allow: ADMINS, params: kind },
 ];
