@@ -3,6 +3,8 @@ import { ROLES } from '@/lib/auth/roles';
 import type { ImportKindName } from '@/lib/validation/imports';
 
 export interface TemplateColumn {
+  /** The importer's key for the column. */
+  key: string;
   heading: string;
   required: boolean;
   explains: string;
@@ -22,9 +24,9 @@ export const IMPORT_TEMPLATES: Record<ImportKindName, (units: Units) => ImportTe
   invitations: () => ({
     title: 'Members to invite',
     columns: [
-      { heading: 'Name', required: false, explains: 'The person’s name, used to greet them in the e-mail. They can change it when they accept.' },
-      { heading: 'E-mail', required: true, explains: 'Where the invitation goes. Each address once; members and people already invited are skipped.' },
-      { heading: 'Role', required: false, explains: `One of ${ROLES.join(', ')}. Empty means member.` },
+      { key: 'name', heading: 'Name', required: false, explains: 'The person’s name, used to greet them in the e-mail. They can change it when they accept.' },
+      { key: 'email', heading: 'E-mail', required: true, explains: 'Where the invitation goes. Each address once; members and people already invited are skipped.' },
+      { key: 'role', heading: 'Role', required: false, explains: `One of ${ROLES.join(', ')}. Empty means member.` },
     ],
     examples: [
       ['Wren Castellano', 'wren@example.org', 'member'],
@@ -34,38 +36,38 @@ export const IMPORT_TEMPLATES: Record<ImportKindName, (units: Units) => ImportTe
   'opening-balances': (u) => ({
     title: 'Opening balances',
     columns: [
-      { heading: 'E-mail', required: true, explains: 'The member’s e-mail (they must be a member already: import invitations first).' },
-      { heading: 'Balance', required: true, explains: `What the member owes (positive) or holds in credit (negative), in the co-op’s currency, e.g. ${u === 'us' ? '1,250.00 or -40.00' : '1.250,00 or -40,00'}.` },
-      { heading: 'As of', required: true, explains: `The date of the balance, ${u === 'us' ? 'MM/DD/YYYY' : 'DD/MM/YYYY'} or YYYY-MM-DD.` },
+      { key: 'email', heading: 'E-mail', required: true, explains: 'The member’s e-mail (they must be a member already: import invitations first).' },
+      { key: 'balance', heading: 'Balance', required: true, explains: `What the member owes (positive) or holds in credit (negative), in the co-op’s currency, e.g. ${u === 'us' ? '1,250.00 or -40.00' : '1.250,00 or -40,00'}.` },
+      { key: 'asOf', heading: 'As of', required: true, explains: `The date of the balance, ${u === 'us' ? 'MM/DD/YYYY' : 'DD/MM/YYYY'} or YYYY-MM-DD.` },
     ],
     examples: [['wren@example.org', u === 'us' ? '42.50' : '42,50', u === 'us' ? '12/31/2026' : '31/12/2026']],
   }),
   'opening-tank': (u) => ({
     title: 'Opening tank stock',
     columns: [
-      { heading: 'Tank', required: true, explains: 'The tank’s name as in Tallyvat.' },
-      { heading: u === 'us' ? 'Gallons' : 'Litres', required: true, explains: `Fuel in the tank, in ${u === 'us' ? 'US gallons' : 'litres'}.` },
-      { heading: u === 'us' ? 'Cost per gallon' : 'Cost per litre', required: true, explains: 'What the fuel cost to make, per unit.' },
+      { key: 'tank', heading: 'Tank', required: true, explains: 'The tank’s name as in Tallyvat.' },
+      { key: 'quantity', heading: u === 'us' ? 'Gallons' : 'Litres', required: true, explains: `Fuel in the tank, in ${u === 'us' ? 'US gallons' : 'litres'}.` },
+      { key: 'cost', heading: u === 'us' ? 'Cost per gallon' : 'Cost per litre', required: true, explains: 'What the fuel cost to make, per unit.' },
     ],
     examples: [['Main tank', u === 'us' ? '1,200' : '4.500', u === 'us' ? '1.85' : '0,49']],
   }),
   'opening-supplies': (u) => ({
     title: 'Chemicals and oil on hand',
     columns: [
-      { heading: 'Kind', required: true, explains: 'methanol, KOH, NaOH or oil.' },
-      { heading: 'Quantity', required: true, explains: `How much is on hand, in the unit of the next column.` },
-      { heading: 'Unit', required: true, explains: u === 'us' ? 'gal, L, lb, kg or g.' : 'L, kg, g, gal or lb.' },
-      { heading: 'Total cost', required: true, explains: 'What that quantity cost.' },
+      { key: 'kind', heading: 'Kind', required: true, explains: 'methanol, KOH, NaOH or oil.' },
+      { key: 'quantity', heading: 'Quantity', required: true, explains: `How much is on hand, in the unit of the next column.` },
+      { key: 'unit', heading: 'Unit', required: true, explains: u === 'us' ? 'gal, L, lb, kg or g.' : 'L, kg, g, gal or lb.' },
+      { key: 'totalCost', heading: 'Total cost', required: true, explains: 'What that quantity cost.' },
     ],
     examples: [['methanol', u === 'us' ? '55' : '200', u === 'us' ? 'gal' : 'L', u === 'us' ? '190.00' : '180,00']],
   }),
   'past-batches': (u) => ({
     title: 'Past batches',
     columns: [
-      { heading: 'Date', required: true, explains: `When the fuel went into the tank, ${u === 'us' ? 'MM/DD/YYYY' : 'DD/MM/YYYY'} or YYYY-MM-DD.` },
-      { heading: u === 'us' ? 'Oil gallons' : 'Oil litres', required: true, explains: 'Oil that went in.' },
-      { heading: u === 'us' ? 'Fuel gallons' : 'Fuel litres', required: true, explains: 'Finished fuel that came out.' },
-      { heading: u === 'us' ? 'Cost per gallon' : 'Cost per litre', required: false, explains: 'What the fuel cost to make, per unit.' },
+      { key: 'date', heading: 'Date', required: true, explains: `When the fuel went into the tank, ${u === 'us' ? 'MM/DD/YYYY' : 'DD/MM/YYYY'} or YYYY-MM-DD.` },
+      { key: 'oil', heading: u === 'us' ? 'Oil gallons' : 'Oil litres', required: true, explains: 'Oil that went in.' },
+      { key: 'fuel', heading: u === 'us' ? 'Fuel gallons' : 'Fuel litres', required: true, explains: 'Finished fuel that came out.' },
+      { key: 'cost', heading: u === 'us' ? 'Cost per gallon' : 'Cost per litre', required: false, explains: 'What the fuel cost to make, per unit.' },
     ],
     examples: [[u === 'us' ? '03/14/2026' : '14/03/2026', '50', '47', u === 'us' ? '1.92' : '0,51']],
   }),
