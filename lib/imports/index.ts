@@ -6,6 +6,7 @@ import { importKindSchema, type ImportFileInput, type ImportKindName } from '@/l
 import { confirmInvitationImport, FATE_LABEL, INVITATION_COLUMNS, previewInvitationImport } from './invitations';
 import { IMPORT_TEMPLATES, type ImportTemplate } from './templates';
 import { openingBalances, undoOpeningBalances } from './balances';
+import { openingSupplies, undoOpeningSupplies } from './supplies-stock';
 import { openingTankStock, undoOpeningTankStock } from './tank-stock';
 import { confirmOpening, previewOpening, type OpeningKind } from './opening';
 import { undoImport, type UndoRows } from './undo';
@@ -46,6 +47,7 @@ const IMPORTERS: Partial<Record<ImportKindName, Importer>> = {
   },
   'opening-balances': opening(openingBalances, (actor, ids, t) => undoOpeningBalances(actor.coop.id, ids, t)),
   'opening-tank': opening(openingTankStock, undoOpeningTankStock),
+  'opening-supplies': opening(openingSupplies, undoOpeningSupplies),
 };
 
 /** Undoes an import as a whole (see lib/imports/undo.ts). */

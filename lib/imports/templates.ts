@@ -54,12 +54,18 @@ export const IMPORT_TEMPLATES: Record<ImportKindName, (units: Units) => ImportTe
   'opening-supplies': (u) => ({
     title: 'Chemicals and oil on hand',
     columns: [
-      { key: 'kind', heading: 'Kind', required: true, explains: 'methanol, KOH, NaOH or oil.' },
-      { key: 'quantity', heading: 'Quantity', required: true, explains: `How much is on hand, in the unit of the next column.` },
-      { key: 'unit', heading: 'Unit', required: true, explains: u === 'us' ? 'gal, L, lb, kg or g.' : 'L, kg, g, gal or lb.' },
-      { key: 'totalCost', heading: 'Total cost', required: true, explains: 'What that quantity cost.' },
+      { key: 'kind', heading: 'Kind', required: true, explains: 'methanol, KOH, NaOH or oil. One row per container or purchase, or one per kind.' },
+      { key: 'quantity', heading: 'Quantity', required: true, explains: 'How much is on hand, in the unit of the next column.' },
+      { key: 'unit', heading: 'Unit', required: true, explains: 'Methanol and oil: L or gal. KOH and NaOH: g, kg or lb.' },
+      { key: 'totalCost', heading: 'Total cost', required: true, explains: 'What that quantity cost (the next batches are costed from it, oldest stock first).' },
+      { key: 'purityPct', heading: 'Purity %', required: false, explains: 'KOH and NaOH only, from the label (KOH flake is usually about 90).' },
+      { key: 'asOf', heading: 'As of', required: false, explains: `When it was bought, ${u === 'us' ? 'MM/DD/YYYY' : 'DD/MM/YYYY'} or YYYY-MM-DD; empty means today.` },
     ],
-    examples: [['methanol', u === 'us' ? '55' : '200', u === 'us' ? 'gal' : 'L', u === 'us' ? '190.00' : '180,00']],
+    examples: [
+      ['methanol', u === 'us' ? '55' : '200', u === 'us' ? 'gal' : 'L', u === 'us' ? '190.00' : '180,00', '', ''],
+      ['KOH', u === 'us' ? '10' : '5', u === 'us' ? 'lb' : 'kg', u === 'us' ? '42.00' : '21,00', '90', ''],
+      ['oil', u === 'us' ? '120' : '450', u === 'us' ? 'gal' : 'L', '0', '', ''],
+    ],
   }),
   'past-batches': (u) => ({
     title: 'Past batches',

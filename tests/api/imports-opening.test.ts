@@ -167,3 +167,55 @@ describe('opening tank stock', () => {
     expect(again.body.rows[0].errors[0]).toMatchObject({ field: 'tank', message: expect.stringMatching(/dip reading/) });
   });
 });
+
+describe('opening chemical and oil stock', () => {
+  let ctx: Ctx;
+  beforeAll(async () => {
+    ctx = await makeCoopWithRoles();
+  });
+  const base = () => `/api/coops/${ctx.coop.slug}/imports/opening-supplies`;
+  const lots = async () => ({
+    chemicals: await countRows('chemical_lots', 'coop_id = $1', [ctx.coop.id]),
+    oil: await countRows('oil_lots', 'coop_id = $1', [ctx.coop.id]),
+    imports: await countRows('imports', 'coop_id = $1', [ctx.coop.id]),
+  });
+
+  it('names bad rows; a failed confirm writes nothing', async () => {
+    const csv = 'Kind,Quantity,Unit,Total cost,Purity %\nlye,1,kg,5.00,\nmethanol,10,kg,5.00,\nKOH,2,kg,8.00,\nNaOH,-1,kg,8.00,98\noil,50,gal,free,\nmethanol,5,gal,20.00,99\n';
+    const before = await lots();
+    const res = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'shelf.csv', csv }).expect(200);
+    expect(res.body.rows.map((r: { line: number; errors: { field: string }[] }) => [r.line, r.errors.map((e) => e.field)])).toEqual([
+      [2, ['kind']],
+      [3, ['unit']],
+      [4, ['purityPct']],
+      [5, ['quantity']],
+      [6, ['totalCost']],
+      [7, ['purityPct']],
+    ]);
+    await ctx.agents.admin.post(base()).send({ fileName: 'shelf.csv', csv }).expect(422);
+    expect(await lots()).toEqual(before);
+  });
+
+  it('become opening lots that cost the next batch; undo takes them back while no batch has used them', async () => {
+    const csv = 'Kind,Quantity,Unit,Total cost,Purity %,As of\nmethanol,55,gal,190.00,,11/15/2026\nKOH,10,lb,42.00,90 %,11/15/2026\noil,120,gal,0,,\n';
+    const first = await ctx.agents.admin.post(base()).send({ fileName: 'shelf.csv', csv }).expect(201);
+    expect(first.body.imported).toBe(3);
+    // 55 gal × 3.785411784 = 208.198 L; 10 lb × 453.59237 g = 4535.924 g; 120 gal = 454.249 L (NIST SP 811).
+    expect(await sql(`SELECT kind, quantity, remaining_quantity, total_cost_cents, purity_pct, supplier, received_on::text FROM chemical_lots WHERE coop_id = $1 ORDER BY id`, [ctx.coop.id])).toEqual([
+      { kind: 'methanol', quantity: '208.198', remaining_quantity: '208.198', total_cost_cents: '19000', purity_pct: null, supplier: 'Opening stock', received_on: '2026-11-15' },
+      { kind: 'KOH', quantity: '4535.924', remaining_quantity: '4535.924', total_cost_cents: '4200', purity_pct: '90.00', supplier: 'Opening stock', received_on: '2026-11-15' },
+    ]);
+    expect(await sql(`SELECT collected_from, volume_liters FROM oil_lots WHERE coop_id = $1`, [ctx.coop.id])).toEqual([{ collected_from: 'Opening stock', volume_liters: '454.249' }]);
+
+    // The planner costs the next batch from them: 30 gal of oil at 20 % → 6 gal = 22.712 L of methanol;
+    // 19 000 ¢ × 22.712 / 208.198 ≈ 2073 ¢ (hand-computed, first in first out from the one lot).
+    const plan = await ctx.agents.brewer.post(`/api/coops/${ctx.coop.slug}/planner`).send({ oilVolume: 30, titrationTrials: [2], catalyst: 'KOH', methanolPct: 20 }).expect(200);
+    const methanol = plan.body.coverage.find((c: { kind: string }) => c.kind === 'methanol');
+    expect(methanol).toMatchObject({ covered: true });
+    expect(methanol.projectedCents).toBeGreaterThanOrEqual(2070);
+    expect(methanol.projectedCents).toBeLessThanOrEqual(2076);
+
+    await ctx.agents.admin.post(`${base()}/${first.body.importId}/undo`).send({}).expect(200);
+    expect(await lots()).toMatchObject({ chemicals: 0, oil: 0 });
+  });
+});

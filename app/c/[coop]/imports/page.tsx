@@ -18,9 +18,10 @@ export default async function ImportsPage({ params }: { params: Promise<{ coop: 
   const history = await listImports(actor);
   const template = IMPORT_TEMPLATES.invitations(actor.coop.units);
   const slug = actor.coop.slug;
-  const opening: { kind: 'opening-balances' | 'opening-tank'; intro: string }[] = [
+  const opening: { kind: 'opening-balances' | 'opening-tank' | 'opening-supplies'; intro: string }[] = [
     { kind: 'opening-balances', intro: 'What each member owed or held in credit on moving day. Each balance is carried by the member’s next invoice. Invite members first: a balance needs a member who has joined.' },
     { kind: 'opening-tank', intro: 'The fuel in each tank on moving day and what it cost to make. It becomes the tank’s opening ledger entry, so the tank’s value and the cost-based price of the next draws start from it. Add your tanks on the Tank page first.' },
+    { kind: 'opening-supplies', intro: 'Methanol, catalyst and oil on the shelf on moving day, with what they cost. They become opening lots, so stock, the planner and the cost of the next batches start from them.' },
   ];
   return (
     <div className="flex flex-col gap-6">
