@@ -13,7 +13,7 @@ module.exports = {
         CREATE TABLE imports (
           id SERIAL PRIMARY KEY,
           coop_id INTEGER NOT NULL REFERENCES coops(id) ON DELETE CASCADE,
-          kind VARCHAR(30) NOT NULL CHECK (kind IN ('invitations','opening-balances','opening-tank','opening-supplies','past-batches')),
+          kind VARCHAR(30) NOT NULL CHECK (kind IN ('invitations','opening-balances','opening-tank','opening-supplies')),
           file_name VARCHAR(255) NOT NULL,
           file_hash CHAR(64) NOT NULL,
           status VARCHAR(10) NOT NULL DEFAULT 'done' CHECK (status IN ('done','undone')),

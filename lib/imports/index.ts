@@ -38,7 +38,7 @@ function opening<K extends string, P>(spec: OpeningKind<K, P>, undo: UndoRows): 
   };
 }
 
-const IMPORTERS: Partial<Record<ImportKindName, Importer>> = {
+const IMPORTERS: Record<ImportKindName, Importer> = {
   invitations: {
     preview: previewInvitationImport,
     confirm: confirmInvitationImport,
@@ -55,12 +55,11 @@ export function undoImportOf(actor: Actor, kind: ImportKindName, importer: Impor
   return undoImport(actor, kind, id, importer.undo);
 }
 
-/** The importer for a kind in the URL; an unknown kind (or one not offered yet) is a 404. */
+/** The importer for a kind in the URL; an unknown kind is a 404. */
 export function importerFor(kind: string | undefined): { kind: ImportKindName; importer: Importer } {
   const parsed = importKindSchema.safeParse(kind);
-  const importer = parsed.success ? IMPORTERS[parsed.data] : undefined;
-  if (!parsed.success || !importer) throw notFound('There is no such import.');
-  return { kind: parsed.data, importer };
+  if (!parsed.success) throw notFound('There is no such import.');
+  return { kind: parsed.data, importer: IMPORTERS[parsed.data] };
 }
 
 /** The kind's CSV template: its headings and an example row, in the co-op's units and date format. */

@@ -67,14 +67,4 @@ export const IMPORT_TEMPLATES: Record<ImportKindName, (units: Units) => ImportTe
       ['oil', u === 'us' ? '120' : '450', u === 'us' ? 'gal' : 'L', '0', '', ''],
     ],
   }),
-  'past-batches': (u) => ({
-    title: 'Past batches',
-    columns: [
-      { key: 'date', heading: 'Date', required: true, explains: `When the fuel went into the tank, ${u === 'us' ? 'MM/DD/YYYY' : 'DD/MM/YYYY'} or YYYY-MM-DD.` },
-      { key: 'oil', heading: u === 'us' ? 'Oil gallons' : 'Oil litres', required: true, explains: 'Oil that went in.' },
-      { key: 'fuel', heading: u === 'us' ? 'Fuel gallons' : 'Fuel litres', required: true, explains: 'Finished fuel that came out.' },
-      { key: 'cost', heading: u === 'us' ? 'Cost per gallon' : 'Cost per litre', required: false, explains: 'What the fuel cost to make, per unit.' },
-    ],
-    examples: [[u === 'us' ? '03/14/2026' : '14/03/2026', '50', '47', u === 'us' ? '1.92' : '0,51']],
-  }),
 };
