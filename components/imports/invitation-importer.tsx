@@ -96,19 +96,19 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
   return (
     <div className="flex flex-col gap-4">
       <div className="grid gap-4 md:grid-cols-2">
-        <div className="flex flex-col gap-1">
+        <div className="flex min-w-0 flex-col gap-1">
           <label htmlFor="invitations-file" className="text-sm font-medium text-stone-800">CSV file</label>
           <input
             id="invitations-file"
             type="file"
             accept=".csv,text/csv,text/plain"
             aria-describedby="invitations-file-hint"
-            className="min-h-11 rounded-lg border border-stone-300 bg-white px-3 py-2 text-base"
+            className="min-h-11 w-full min-w-0 rounded-lg border border-stone-300 bg-white px-3 py-2 text-base"
             onChange={(e) => void choose(e.currentTarget.files?.[0])}
           />
           <p id="invitations-file-hint" className="text-xs text-stone-600">Saved from a spreadsheet as CSV: commas, semicolons or tabs all work.</p>
         </div>
-        <div className="flex flex-col gap-1">
+        <div className="flex min-w-0 flex-col gap-1">
           <label htmlFor="invitations-paste" className="text-sm font-medium text-stone-800">Or paste rows (with the heading row)</label>
           <textarea
             id="invitations-paste"
@@ -117,7 +117,7 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
             placeholder={'Name,E-mail,Role\nWren Castellano,wren@example.org,member'}
             aria-invalid={errors.csv?.length ? true : undefined}
             aria-describedby={errors.csv?.length ? 'csv-error' : undefined}
-            className="rounded-lg border border-stone-300 bg-white px-3 py-2 font-mono text-sm"
+            className="w-full min-w-0 rounded-lg border border-stone-300 bg-white px-3 py-2 font-mono text-sm"
             onChange={(e) => {
               setPasted(e.currentTarget.value);
               setPreview(null);

@@ -75,7 +75,7 @@ export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: str
           type="file"
           accept=".csv,text/csv,text/plain"
           aria-describedby={error ? `${inputId}-error` : undefined}
-          className="min-h-11 rounded-lg border border-stone-300 bg-white px-3 py-2 text-base"
+          className="min-h-11 w-full min-w-0 rounded-lg border border-stone-300 bg-white px-3 py-2 text-base"
           onChange={(e) => void choose(e.currentTarget.files?.[0])}
         />
         <FieldErrors id={`${inputId}-error`} errors={error ? [error] : undefined} />

@@ -67,7 +67,7 @@ describe('invitation in the browser', () => {
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('This invitation was already used');
       await shoot(page, 'invite-used');
     });
-  });
+  }, 150_000);
 
   it('profile, password reset and a bad invitation link are readable and accessible', async () => {
     const coop = await makeCoop({ name: 'Thistledown Biofuel Club' });
@@ -100,5 +100,5 @@ describe('invitation in the browser', () => {
       await page.getByText('Use at least 12 characters.').waitFor();
       await checkA11y(page);
     });
-  });
+  }, 150_000);
 });
