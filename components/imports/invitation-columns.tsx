@@ -31,7 +31,7 @@ const DELIVERY: Record<string, { label: string; tone: string }> = {
   'not-sent': { label: 'Not sent', tone: 'bg-warn-50 text-warn-700' },
 };
 
-const pill = (tone: string, text: string) => <span className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold ${tone}`}>{text}</span>;
+const pill = (tone: string, text: string) => <span className={`inline-block self-start rounded-full px-2 py-0.5 text-xs font-semibold ${tone}`}>{text}</span>;
 
 /** A cell that carries the row's problem when the problem is in this field. */
 const fieldCell = (key: 'name' | 'email' | 'role') =>

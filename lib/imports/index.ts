@@ -3,7 +3,7 @@ import type { Actor } from '@/lib/auth';
 import { csvRows } from '@/lib/csv';
 import { notFound } from '@/lib/http';
 import { importKindSchema, type ImportFileInput, type ImportKindName } from '@/lib/validation/imports';
-import { confirmInvitationImport, FATE_LABEL, INVITATION_COLUMNS, previewInvitationImport } from './invitations';
+import { confirmInvitationImport, INVITATION_COLUMNS, previewInvitationImport, RESULT_LABEL } from './invitations';
 import { IMPORT_TEMPLATES, type ImportTemplate } from './templates';
 import { openingBalances, undoOpeningBalances } from './balances';
 import { openingSupplies, undoOpeningSupplies } from './supplies-stock';
@@ -42,7 +42,7 @@ const IMPORTERS: Record<ImportKindName, Importer> = {
   invitations: {
     preview: previewInvitationImport,
     confirm: confirmInvitationImport,
-    fateLabel: (f) => FATE_LABEL[f as keyof typeof FATE_LABEL] ?? f,
+    fateLabel: (f) => RESULT_LABEL[f as keyof typeof RESULT_LABEL] ?? f,
     columns: INVITATION_COLUMNS.map((c) => ({ key: c.key, heading: c.headings[0] })),
   },
   'opening-balances': opening(openingBalances, (actor, ids, t) => undoOpeningBalances(actor.coop.id, ids, t)),

@@ -35,6 +35,9 @@ export const FATE_LABEL: Record<InvitationFate, string> = {
   'bad-name': 'Bad name',
 };
 
+/** The same fates once the import is done (the result page and download). */
+export const RESULT_LABEL: Record<InvitationFate, string> = { ...FATE_LABEL, invite: 'Invited' };
+
 export interface InvitationPreviewRow {
   line: number;
   name: string;

@@ -162,7 +162,7 @@ describe('bulk invitations from a CSV file', () => {
     const lines = result.text.trim().split('\r\n');
     expect(lines[0]).toBe('Row,Name,E-mail,Role,Result,Note,E-mail delivery,Invitation');
     expect(lines).toHaveLength(301);
-    expect(lines[1]).toBe(`2,Member 1,${t}-1@example.org,brewer,Will invite,Will invite.,Sent,pending`);
+    expect(lines[1]).toBe(`2,Member 1,${t}-1@example.org,brewer,Invited,Will invite.,Sent,pending`);
   }, 150_000);
 
   it('another co-op’s import is a 404; the history lists this co-op’s imports only; the template downloads', async () => {

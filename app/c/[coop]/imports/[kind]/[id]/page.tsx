@@ -6,7 +6,7 @@ import { formatDay } from '@/lib/account/format';
 import { requirePageActor } from '@/lib/auth';
 import { getImport, IMPORT_TEMPLATES } from '@/lib/imports';
 import { OpeningResult } from '@/components/imports/opening-result';
-import { FATE_LABEL } from '@/lib/imports/invitations';
+import { RESULT_LABEL } from '@/lib/imports/invitations';
 import { HttpError } from '@/lib/http';
 import { toId } from '@/lib/validation/common';
 import { importKindSchema } from '@/lib/validation/imports';
@@ -36,7 +36,7 @@ export default async function ImportResultPage({ params }: { params: Promise<{ c
         </p>
       </div>
       {k.data === 'invitations' ? (
-        <ImportResult coopSlug={slug} kind={k.data} initial={detail} fateLabels={FATE_LABEL} />
+        <ImportResult coopSlug={slug} kind={k.data} initial={detail} fateLabels={RESULT_LABEL} />
       ) : (
         <OpeningResult
           coopSlug={slug}
