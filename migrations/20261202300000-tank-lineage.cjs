@@ -26,7 +26,7 @@ module.exports = {
 
       await q(`ALTER TABLE tank_movements DROP CONSTRAINT tank_movements_kind_check`);
       await q(`ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check
-               CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out','disposal','retreat'))`);
+               CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out','opening','disposal','retreat'))`);
       await q(`ALTER TABLE batch_files DROP CONSTRAINT batch_files_purpose_check`);
       await q(`ALTER TABLE batch_files ADD CONSTRAINT batch_files_purpose_check CHECK (purpose IN ('photo','lab-report','receipt'))`);
       await q(`ALTER TABLE batch_files ADD CONSTRAINT batch_files_coop_id_id_key UNIQUE (coop_id, id)`);
@@ -160,7 +160,7 @@ module.exports = {
       await q(`ALTER TABLE batch_files ADD CONSTRAINT batch_files_purpose_check CHECK (purpose IN ('photo','lab-report'))`);
       await q(`ALTER TABLE tank_movements DROP CONSTRAINT tank_movements_kind_check`);
       await q(`ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check
-               CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out'))`);
+               CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out','opening'))`);
       await q(`ALTER TABLE tanks DROP CONSTRAINT tanks_held_within_on_hand`);
       await q(`ALTER TABLE tanks DROP COLUMN held_liters`);
       await q(`ALTER TABLE tanks DROP COLUMN mixing`);

@@ -7,7 +7,7 @@ import type { Draw } from './Draw';
 import type { Tank } from './Tank';
 import type { User } from './User';
 
-export type TankMovementKind = 'release' | 'draw' | 'draw-reversal' | 'dip-adjustment' | 'transfer-in' | 'transfer-out' | 'disposal' | 'retreat';
+export type TankMovementKind = 'release' | 'draw' | 'draw-reversal' | 'dip-adjustment' | 'transfer-in' | 'transfer-out' | 'opening' | 'disposal' | 'retreat';
 
 /**
  * One row of the append-only tank ledger (UPDATE is refused by a trigger). Written only by

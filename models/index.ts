@@ -133,3 +133,10 @@ Session.initModel(sequelize);
 User.hasMany(Session, { foreignKey: 'userId', as: 'sessions' });
 Session.belongsTo(User, { foreignKey: 'userId', as: 'user' });
 export { Session };
+
+// imports from spreadsheets (issue 20)
+import { Import } from './Import';
+Import.initModel(sequelize);
+Import.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
+Invitation.belongsTo(Import, { foreignKey: 'importId', as: 'import' });
+export { Import };

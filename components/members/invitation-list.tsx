@@ -19,10 +19,10 @@ export function InvitationList({ coopSlug, invitations }: { coopSlug: string; in
   async function resend(inv: InvitationRow) {
     setBusyId(inv.id);
     setMessage(null);
-    const r = await sendJson<{ sent: boolean }>(`/api/coops/${coopSlug}/invitations/${inv.id}/resend`, 'POST');
+    const r = await sendJson<{ queued: true }>(`/api/coops/${coopSlug}/invitations/${inv.id}/resend`, 'POST');
     setBusyId(null);
     if (!r.ok) return setMessage({ tone: 'danger', text: r.error });
-    setMessage(r.data.sent ? { tone: 'ok', text: `Sent again to ${inv.email} with a new link; the old link no longer works.` } : { tone: 'warn', text: `The e-mail to ${inv.email} could not be sent just now. Try again in a few minutes.` });
+    setMessage({ tone: 'ok', text: `Sending again to ${inv.email} with a new link; the old link no longer works.` });
     router.refresh();
   }
 
@@ -54,6 +54,8 @@ export function InvitationList({ coopSlug, invitations }: { coopSlug: string; in
                 </p>
                 {inv.delivery === 'not-sent' ? (
                   <p className="mt-1 inline-block rounded-full bg-warn-50 px-2 py-0.5 text-xs font-semibold text-warn-700">E-mail not sent</p>
+                ) : inv.delivery === 'queued' ? (
+                  <p className="mt-1 inline-block rounded-full bg-stone-100 px-2 py-0.5 text-xs font-semibold text-stone-700">E-mail being sent</p>
                 ) : null}
               </div>
               <div className="flex shrink-0 flex-wrap gap-2">

@@ -8,7 +8,7 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ROLES, ROLE_SUMMARY } from '@/lib/auth/roles';
 
-/** Invite by e-mail with a role. When the mail server cannot take the e-mail the invitation is kept, marked "not sent". */
+/** Invite by e-mail with a role. The e-mail goes out from the job queue within moments; the list shows when it was sent. */
 export function InviteForm({ coopSlug }: { coopSlug: string }) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
@@ -20,7 +20,7 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
     const form = e.currentTarget;
     setBusy(true);
     setMessage(null);
-    const r = await sendJson<{ invitation: { email: string }; sent: boolean }>(`/api/coops/${coopSlug}/invitations`, 'POST', formObject(form));
+    const r = await sendJson<{ invitation: { email: string }; queued: true }>(`/api/coops/${coopSlug}/invitations`, 'POST', formObject(form));
     setBusy(false);
     if (!r.ok) {
       setFields(r.fields);
@@ -29,11 +29,7 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
     }
     setFields({});
     form.reset();
-    setMessage(
-      r.data.sent
-        ? { tone: 'ok', text: `Invitation e-mailed to ${r.data.invitation.email}. The link works for 7 days.` }
-        : { tone: 'warn', text: `The invitation to ${r.data.invitation.email} is saved, but the e-mail could not be sent just now. Resend it from the list below.` },
-    );
+    setMessage({ tone: 'ok', text: `Invitation to ${r.data.invitation.email} saved; the e-mail goes out in a moment. The link works for 7 days from sending.` });
     router.refresh();
   }
 

@@ -13,6 +13,7 @@ export const NAV_ITEMS: { href: string; label: string; action: Action }[] = [
   { href: '/billing', label: 'Billing', action: 'billing:manage' },
   { href: '/reports', label: 'Reports', action: 'reports:read' },
   { href: '/members', label: 'Members', action: 'members:manage' },
+  { href: '/imports', label: 'Import', action: 'imports:manage' },
   { href: '/audit', label: 'Audit log', action: 'audit:read' },
   { href: '/settings', label: 'Settings', action: 'settings:manage' },
 ];

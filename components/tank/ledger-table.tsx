@@ -13,7 +13,7 @@ export type LedgerRow = Pick<MovementDto,
   'id' | 'kind' | 'quantityLiters' | 'valueCents' | 'onHandAfterLiters' | 'valueAfterCents' | 'reason' | 'batchId' | 'drawId' | 'memberName' | 'transferTankName' | 'byName' | 'occurredAt'>;
 
 const KIND_LABEL: Record<string, string> = {
-  release: 'Batch released', draw: 'Draw', 'draw-reversal': 'Draw reversed', 'dip-adjustment': 'Dip adjustment', 'transfer-in': 'Transfer in', 'transfer-out': 'Transfer out',
+  release: 'Batch released', draw: 'Draw', 'draw-reversal': 'Draw reversed', 'dip-adjustment': 'Dip adjustment', 'transfer-in': 'Transfer in', 'transfer-out': 'Transfer out', opening: 'Opening stock',
 };
 
 const col = createColumnHelper<Features, LedgerRow>();

@@ -26,6 +26,8 @@ export const POLICY = {
   'members:manage': ['admin'],
   'settings:manage': ['admin'],
   'audit:read': ['admin'],
+  /** Moving in from spreadsheets: bulk invitations and opening records (the admin's job). */
+  'imports:manage': ['admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof POLICY;

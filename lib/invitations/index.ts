@@ -4,12 +4,11 @@ import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor, SessionUser } from '@/lib/auth';
 import { hashPassword, isCommonPassword } from '@/lib/auth/passwords';
-import { ROLE_SUMMARY, withArticle, type Role } from '@/lib/auth/roles';
+import { ROLE_SUMMARY, type Role } from '@/lib/auth/roles';
 import { hashLinkToken, INVITATION_TTL_MS, isLinkTokenShape, newLinkToken } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { conflict, forbidden, HttpError, notFound } from '@/lib/http';
-import { appUrl, sendMail } from '@/lib/mail';
-import { formatExpiry } from '@/lib/account/format';
+import { enqueueInvitationMails } from './deliver';
 import type { invitationAcceptSchema, invitationCreateSchema } from '@/lib/validation/auth';
 import { Invitation, Membership, User } from '@/models';
 import type { InvitationDelivery } from '@/models/Invitation';
@@ -67,44 +66,6 @@ async function lockInvitation(actor: Actor, id: number, transaction: Transaction
   return row;
 }
 
-/** The plain-text invitation e-mail. */
-export function invitationMail(p: { coopName: string; inviter: string; role: Role; token: string; expiresAt: Date; timezone: string }) {
-  const link = appUrl(`/invite/${p.token}`);
-  return {
-    subject: `Invitation to join ${p.coopName} on Tallyvat`,
-    text: [
-      'Hello,',
-      '',
-      `${p.inviter} has invited you to join ${p.coopName} on Tallyvat as ${withArticle(p.role)}.`,
-      `As ${withArticle(p.role)} you can ${ROLE_SUMMARY[p.role]}.`,
-      '',
-      'To accept, open this link:',
-      '',
-      `  ${link}`,
-      '',
-      `The link works once and expires on ${formatExpiry(p.expiresAt, p.timezone)}.`,
-      'If you were not expecting this invitation you can ignore this e-mail: nothing happens unless the link is used.',
-      '',
-      '-- ',
-      `Tallyvat for ${p.coopName}`,
-    ].join('\n'),
-  };
-}
-
-/**
- * Sends the invitation e-mail for a freshly made token and records whether the SMTP server
- * took it. The row was committed before sending, so an unreachable mail server leaves a saved
- * invitation marked "not-sent" that an admin can resend. Only the row still carrying this
- * token is marked: a resend that raced ahead keeps its own status.
- */
-async function deliver(actor: Actor, id: number, email: string, role: Role, token: string, expiresAt: Date): Promise<InvitationDelivery> {
-  const mail = invitationMail({ coopName: actor.coop.name, inviter: actor.user.name, role, token, expiresAt, timezone: actor.coop.timezone });
-  const sent = await sendMail({ to: email, ...mail });
-  const delivery: InvitationDelivery = sent ? 'sent' : 'not-sent';
-  await Invitation.update({ delivery }, { where: { id, coopId: actor.coop.id, tokenHash: hashLinkToken(token) } });
-  return delivery;
-}
-
 async function reloadDto(actor: Actor, id: number): Promise<InvitationDto> {
   const row = await Invitation.findOne({ attributes: [...INVITATION_ATTRIBUTES], where: { id, coopId: actor.coop.id }, include: [INVITED_BY] });
   if (!row) throw notFound('That invitation is not in this co-op.');
@@ -115,12 +76,14 @@ async function reloadDto(actor: Actor, id: number): Promise<InvitationDto> {
 const emailIs = (column: string, email: string) => where(fn('lower', col(column)), fn('lower', email));
 
 /**
- * Invites a person by e-mail with a role. The link's token is 32 random bytes; only its
- * SHA-256 is stored; it expires in 7 days. 409 when the address already belongs to a member
- * or has a pending, unexpired invitation (an expired one is renewed in place).
+ * Invites a person by e-mail with a role: the invitation is saved `queued` and its e-mail job is
+ * written in the same transaction (the worker makes the link and sends it, exactly once; see
+ * deliver.ts). Until then the row holds a placeholder hash nobody has the token of. 409 when the
+ * address already belongs to a member or has a pending, unexpired invitation (an expired one is
+ * renewed in place).
  */
-export async function createInvitation(actor: Actor, input: z.infer<typeof invitationCreateSchema>): Promise<{ invitation: InvitationDto; sent: boolean }> {
-  const { token, hash } = newLinkToken();
+export async function createInvitation(actor: Actor, input: z.infer<typeof invitationCreateSchema>): Promise<{ invitation: InvitationDto; queued: true }> {
+  const { hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   let id: number;
   try {
@@ -146,7 +109,7 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
       if (pending) {
         // The old link has expired: renew the same invitation with a new link and the chosen role.
         const before = { email: pending.email, role: pending.role, expiresAt: pending.expiresAt.toISOString() };
-        await pending.update({ role: input.role, tokenHash: hash, expiresAt, delivery: 'not-sent', invitedByUserId: actor.user.id }, { transaction });
+        await pending.update({ role: input.role, tokenHash: hash, expiresAt, delivery: 'queued', invitedByUserId: actor.user.id }, { transaction });
         await audit(
           {
             coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.renew', entityType: 'invitation', entityId: pending.id,
@@ -154,10 +117,11 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
           },
           transaction,
         );
+        await enqueueInvitationMails(actor.coop.id, [pending.id], transaction);
         return pending.id;
       }
       const created = await Invitation.create(
-        { coopId: actor.coop.id, email: input.email, role: input.role, tokenHash: hash, invitedByUserId: actor.user.id, expiresAt, acceptedAt: null },
+        { coopId: actor.coop.id, email: input.email, role: input.role, tokenHash: hash, delivery: 'queued', invitedByUserId: actor.user.id, expiresAt, acceptedAt: null },
         { transaction },
       );
       await audit(
@@ -167,39 +131,39 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
         },
         transaction,
       );
+      await enqueueInvitationMails(actor.coop.id, [created.id], transaction);
       return created.id;
     });
   } catch (e) {
     if (e instanceof UniqueConstraintError) throw conflict(`An invitation to ${input.email} was just created. Refresh the list.`);
     throw e;
   }
-  const delivery = await deliver(actor, id, input.email, input.role, token, expiresAt);
-  return { invitation: await reloadDto(actor, id), sent: delivery === 'sent' };
+  return { invitation: await reloadDto(actor, id), queued: true };
 }
 
 /**
- * Sends a pending invitation again with a NEW link (the old one stops working) valid for 7
- * more days. Used after "not-sent" or when the person lost the e-mail.
+ * Sends a pending invitation again with a NEW link (the old one stops working at once) valid for
+ * 7 more days from sending. Used after "not-sent" or when the person lost the e-mail. The e-mail
+ * goes through the job queue like every invitation.
  */
-export async function resendInvitation(actor: Actor, id: number): Promise<{ invitation: InvitationDto; sent: boolean }> {
-  const { token, hash } = newLinkToken();
+export async function resendInvitation(actor: Actor, id: number): Promise<{ invitation: InvitationDto; queued: true }> {
+  const { hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
-  const { email, role } = await inTransaction(async (transaction) => {
+  await inTransaction(async (transaction) => {
     const inv = await lockInvitation(actor, id, transaction);
     if (inv.status !== 'pending') throw conflict(`This invitation was already ${inv.status}; it cannot be resent.`);
     const before = { delivery: inv.delivery, expiresAt: inv.expiresAt.toISOString() };
-    await inv.update({ tokenHash: hash, expiresAt, delivery: 'not-sent' }, { transaction });
+    await inv.update({ tokenHash: hash, expiresAt, delivery: 'queued' }, { transaction });
     await audit(
       {
         coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.resend', entityType: 'invitation', entityId: id,
-        before, after: { delivery: 'not-sent', expiresAt: expiresAt.toISOString(), newLink: true },
+        before, after: { delivery: 'queued', expiresAt: expiresAt.toISOString(), newLink: true },
       },
       transaction,
     );
-    return { email: inv.email, role: inv.role };
+    await enqueueInvitationMails(actor.coop.id, [id], transaction);
   });
-  const delivery = await deliver(actor, id, email, role, token, expiresAt);
-  return { invitation: await reloadDto(actor, id), sent: delivery === 'sent' };
+  return { invitation: await reloadDto(actor, id), queued: true };
 }
 
 /** Withdraws a pending invitation; its link then says so. */

@@ -13,6 +13,7 @@ declare global {
  */
 const QUEUE_OPTIONS: Record<QueueName, Omit<Queue, 'name'>> = {
   [QUEUES.invoiceMail]: { retryLimit: 8, retryDelay: 10, retryBackoff: true, retryDelayMax: 600, heartbeatSeconds: 10, expireInSeconds: 120, deadLetter: QUEUES.mailDead },
+  [QUEUES.invitationMail]: { retryLimit: 8, retryDelay: 10, retryBackoff: true, retryDelayMax: 600, heartbeatSeconds: 10, expireInSeconds: 120, deadLetter: QUEUES.mailDead },
   [QUEUES.mail]: { retryLimit: 8, retryDelay: 10, retryBackoff: true, retryDelayMax: 600, heartbeatSeconds: 10, expireInSeconds: 120, deadLetter: QUEUES.mailDead },
   [QUEUES.mailDead]: { retryLimit: 3, retryDelay: 30 },
   [QUEUES.runChunk]: { retryLimit: 5, retryDelay: 5, retryBackoff: true, retryDelayMax: 120, heartbeatSeconds: 10, expireInSeconds: 600, deadLetter: QUEUES.runDead },

@@ -1,11 +1,11 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
 import { webBoss } from './boss';
-import { QUEUES, type InvoiceMailJob, type MailRecord, type PlainMailJob, type RunChunkJob } from './names';
+import { QUEUES, type InvitationMailJob, type InvoiceMailJob, type MailRecord, type PlainMailJob, type RunChunkJob } from './names';
 import { transactionDb } from './queries';
 
 export { QUEUES };
-export type { InvoiceMailJob, MailRecord, PlainMailJob, RunChunkJob };
+export type { InvitationMailJob, InvoiceMailJob, MailRecord, PlainMailJob, RunChunkJob };
 
 /**
  * Queues one job. With a transaction, the job is written by that transaction (it exists exactly

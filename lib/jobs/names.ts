@@ -3,7 +3,9 @@
 export const QUEUES = {
   /** One e-mail per job: an invoice or credit note with its PDF. */
   invoiceMail: 'mail-invoice',
-  /** One plain e-mail per job (invitation, password reset, e-mail change, low-stock alert). */
+  /** One invitation e-mail per job (the link is made when it is sent). */
+  invitationMail: 'mail-invitation',
+  /** One plain e-mail per job (password reset, e-mail change, low-stock alert). */
   mail: 'mail',
   /** Mail jobs that used up their tries end here (dead letter) and are recorded as failed. */
   mailDead: 'mail-dead',
@@ -21,13 +23,18 @@ export const QUEUES = {
 
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
 
+export interface InvitationMailJob {
+  coopId: number;
+  invitationId: number;
+}
+
 export interface InvoiceMailJob {
   coopId: number;
   invoiceId: number;
 }
 
 /** What a plain e-mail's outcome is recorded on, if anything. */
-export type MailRecord = { kind: 'invitation'; coopId: number; invitationId: number; tokenHash: string } | { kind: 'none' };
+export type MailRecord = { kind: 'none' };
 
 export interface PlainMailJob {
   to: string;

@@ -5,12 +5,13 @@ import { settleUnknownAttempts } from '@/lib/billing/card';
 import { invoiceEmailGaveUp, deliverInvoiceEmailJob } from '@/lib/billing/mail';
 import { runChunk, runGaveUp } from '@/lib/billing/run';
 import { inTransaction, sequelize } from '@/lib/db';
+import { deliverInvitationJob, invitationMailGaveUp } from '@/lib/invitations/deliver';
 import { deliverMail } from '@/lib/mail';
 import { expireLapsedReservations } from '@/lib/reservations/expire';
-import { AuthToken, Invitation, Invoice, Reservation, SignInAttempt } from '@/models';
+import { AuthToken, Invoice, Reservation, SignInAttempt } from '@/models';
 import { bossOptions, ensureQueues } from './boss';
 import { enqueueInvoiceMails } from './index';
-import { QUEUES, type InvoiceMailJob, type PlainMailJob, type RunChunkJob } from './names';
+import { QUEUES, type InvitationMailJob, type InvoiceMailJob, type PlainMailJob, type RunChunkJob } from './names';
 
 const log = (...a: unknown[]) => console.log('[worker]', ...a);
 
@@ -18,12 +19,8 @@ const log = (...a: unknown[]) => console.log('[worker]', ...a);
 const MAIL_CONCURRENCY = Number(process.env.WORKER_MAIL_CONCURRENCY ?? 8);
 
 async function plainMail(job: Job<PlainMailJob>): Promise<void> {
-  const { to, subject, text, record } = job.data;
+  const { to, subject, text } = job.data;
   await deliverMail({ to, subject, text });
-  if (record.kind === 'invitation') {
-    // Only the row still carrying this link is marked: a resend that raced ahead keeps its own status.
-    await Invitation.update({ delivery: 'sent' }, { where: { id: record.invitationId, coopId: record.coopId, tokenHash: record.tokenHash } });
-  }
 }
 
 /** Lapsed reservations of every co-op that has any, each co-op in its own transaction. */
@@ -75,10 +72,14 @@ export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
   await boss.work<InvoiceMailJob>(QUEUES.invoiceMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, async ([job]) => {
     await deliverInvoiceEmailJob(job!.data.coopId, job!.data.invoiceId);
   });
+  await boss.work<InvitationMailJob>(QUEUES.invitationMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, async ([job]) => {
+    await deliverInvitationJob(job!.data.coopId, job!.data.invitationId);
+  });
   await boss.work<PlainMailJob>(QUEUES.mail, { ...fast, batchSize: 1, localConcurrency: 4 }, async ([job]) => plainMail(job!));
-  await boss.work<InvoiceMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, async ([job]) => {
+  await boss.work<InvoiceMailJob | InvitationMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, async ([job]) => {
     const d = job!.data;
     if ('invoiceId' in d) await invoiceEmailGaveUp(d.coopId, d.invoiceId);
+    else if ('invitationId' in d) await invitationMailGaveUp(d.coopId, d.invitationId);
     else console.error(`[worker] e-mail to ${d.to} ("${d.subject}") given up after every try`);
   });
   await boss.work<RunChunkJob>(QUEUES.runChunk, { ...fast, batchSize: 1, localConcurrency: 2 }, async ([job]) => {

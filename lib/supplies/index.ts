@@ -106,7 +106,7 @@ export async function getChemicalLot(actor: Actor, id: number): Promise<Chemical
 }
 
 /** Converts a typed quantity to the stored unit: litres (from L or US gal) or grams (from g, kg or lb; 1 lb = 0.45359237 kg, NIST SP 811). */
-function toStoredQuantity(quantity: number, unit: 'L' | 'gal' | 'g' | 'kg' | 'lb'): { quantity: number; unit: 'L' | 'g' } {
+export function toStoredQuantity(quantity: number, unit: 'L' | 'gal' | 'g' | 'kg' | 'lb'): { quantity: number; unit: 'L' | 'g' } {
   if (unit === 'gal') return { quantity: gallonsToLiters(quantity), unit: 'L' };
   if (unit === 'kg') return { quantity: quantity * 1000, unit: 'g' };
   if (unit === 'lb') return { quantity: lbToKg(quantity) * 1000, unit: 'g' };

@@ -30,6 +30,8 @@ export function defaultSource(kind: TankMovementKind, quantityMl: number, batchI
   if (kind === 'release') return { kind: 'origin', batchId };
   if (kind === 'draw' || kind === 'transfer-out') return { kind: 'model' };
   if (kind === 'dip-adjustment') return quantityMl > 0 && valued ? { kind: 'origin', batchId: null } : { kind: 'spread' };
+  // Opening stock (imported) is fuel of no recorded batch; undoing it takes that fuel back out.
+  if (kind === 'opening') return quantityMl > 0 ? { kind: 'origin', batchId: null } : { kind: 'shares', shares: [{ batchId: null, ml: -quantityMl }] };
   throw new Error(`a '${kind}' ledger row must name the batches it moves`);
 }
 

@@ -168,7 +168,7 @@ export const drawListSchema = listQuerySchema(['occurred_at', 'quantity', 'total
   to: dateFilter,
 });
 
-export const MOVEMENT_KINDS = ['release', 'draw', 'draw-reversal', 'dip-adjustment', 'transfer-in', 'transfer-out'] as const;
+export const MOVEMENT_KINDS = ['release', 'draw', 'draw-reversal', 'dip-adjustment', 'transfer-in', 'transfer-out', 'opening'] as const;
 
 export const movementListSchema = listQuerySchema(['recorded', 'occurred_at', 'quantity', 'kind'], 'recorded').extend({
   kind: z.enum(MOVEMENT_KINDS, { error: `Kind is one of: ${MOVEMENT_KINDS.join(', ')}.` }).optional(),

@@ -1,7 +1,8 @@
 // "If the SMTP server is down, the invitation is still saved, marked not-sent, and can be resent."
-// The SMTP catcher serves the whole test run, so the down case is exercised here on the service
-// itself (lib/invitations, real PostgreSQL) with its mail transport pointed at a loopback port
-// where nothing listens. The resend then goes through the real server and the real catcher.
+// Invitations are e-mailed by the job worker. The SMTP catcher serves the whole test run, so the
+// down case is exercised here on the job's own function (lib/invitations/deliver, real PostgreSQL)
+// with its mail transport pointed at a loopback port where nothing listens. The resend then goes
+// through the real server, the real worker and the real catcher.
 import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
 import { makeCoop, makeUser, signIn, sql, waitForMail } from '../support/api';
@@ -15,52 +16,51 @@ async function closedPort(): Promise<number> {
 }
 
 describe('invitation while the mail server is down', () => {
-  let lib: typeof import('@/lib/invitations');
+  let deliver: typeof import('@/lib/invitations/deliver');
   let db: typeof import('@/lib/db');
   beforeAll(async () => {
     process.env.DATABASE_URL = inject('databaseUrl');
     process.env.APP_URL = inject('baseUrl');
     process.env.SMTP_HOST = '127.0.0.1';
     process.env.SMTP_PORT = String(await closedPort());
-    lib = await import('@/lib/invitations');
+    deliver = await import('@/lib/invitations/deliver');
     db = await import('@/lib/db');
   });
   afterAll(async () => {
     await db?.sequelize.close();
   });
 
-  it('is saved as "not-sent" (audited), listed for resending, and a resend through the app delivers a working link', async () => {
+  it('a failed send stays "queued" (retried), every try failing leaves it "not-sent" for a resend that delivers a working link', async () => {
     const coop = await makeCoop({ name: 'Quillfeather Fuel Circle' });
     const admin = await makeUser({ coopId: coop.id, role: 'admin', name: 'Signe Halloran' });
-    const actor = {
-      user: { id: admin.id, email: admin.email, name: 'Signe Halloran' },
-      coop: { id: coop.id, slug: coop.slug, name: 'Quillfeather Fuel Circle', units: 'us' as const, currency: 'USD', timezone: 'America/Chicago', settings: {} },
-      role: 'admin' as const,
-      membershipId: admin.membershipId!,
-    };
     const email = `offline-${Date.now().toString(36)}@example.org`;
+    // A queued invitation whose job this process runs by hand (the test worker never sees it: no job was queued).
+    const [inv] = await sql<{ id: number; token_hash: string }>(
+      `INSERT INTO invitations (coop_id, email, role, token_hash, delivery, invited_by_user_id, expires_at)
+       VALUES ($1, $2, 'treasurer', repeat('0', 64), 'queued', $3, now() + interval '7 days') RETURNING id, token_hash`,
+      [coop.id, email, admin.id],
+    );
 
-    const result = await lib.createInvitation(actor, { email, role: 'treasurer' });
-    expect(result.sent).toBe(false);
-    expect(result.invitation).toMatchObject({ email, role: 'treasurer', delivery: 'not-sent', expired: false });
-    const [row] = await sql<{ delivery: string; status: string }>('SELECT delivery, status FROM invitations WHERE id = $1', [result.invitation.id]);
-    expect(row).toEqual({ delivery: 'not-sent', status: 'pending' });
-    const [event] = await sql<{ action: string }>(`SELECT action FROM audit_events WHERE coop_id = $1 AND entity_id = $2`, [coop.id, String(result.invitation.id)]);
-    expect(event!.action).toBe('invitation.create');
+    // The job's try fails: it throws (pg-boss retries it later) and the send rolled back: still queued, same hash.
+    await expect(deliver.deliverInvitationJob(coop.id, inv!.id)).rejects.toThrow();
+    const [row] = await sql<{ delivery: string; status: string; token_hash: string }>('SELECT delivery, status, token_hash FROM invitations WHERE id = $1', [inv!.id]);
+    expect(row).toEqual({ delivery: 'queued', status: 'pending', token_hash: inv!.token_hash });
 
-    // A resend from the service while still down: new link, still not sent, nothing lost.
-    const again = await lib.resendInvitation(actor, result.invitation.id);
-    expect(again).toMatchObject({ sent: false, invitation: { delivery: 'not-sent' } });
-
-    // The mail server is back (the app's own transport reaches the catcher): resend from the members screen's API.
+    // Every try failed (the dead letter): marked not-sent, listed for resending.
+    await deliver.invitationMailGaveUp(coop.id, inv!.id);
     const agent = await signIn(admin.email);
     const listed = await agent.get(`/api/coops/${coop.slug}/invitations`).expect(200);
-    expect(listed.body.invitations).toEqual([expect.objectContaining({ id: result.invitation.id, delivery: 'not-sent' })]);
-    const resent = await agent.post(`/api/coops/${coop.slug}/invitations/${result.invitation.id}/resend`).expect(200);
-    expect(resent.body).toMatchObject({ sent: true, invitation: { delivery: 'sent' } });
+    expect(listed.body.invitations).toEqual([expect.objectContaining({ id: inv!.id, delivery: 'not-sent' })]);
+
+    // The mail server is back (the worker's transport reaches the catcher): resend from the members screen's API.
+    const resent = await agent.post(`/api/coops/${coop.slug}/invitations/${inv!.id}/resend`).expect(200);
+    expect(resent.body).toMatchObject({ queued: true, invitation: { delivery: 'queued' } });
     const mail = await waitForMail(email);
     const token = mail.text.match(/\/invite\/([A-Za-z0-9_-]{43})/)![1]!;
     const info = await agent.get(`/api/invitations/${token}`).expect(200);
     expect(info.body).toMatchObject({ role: 'treasurer', coop: { slug: coop.slug } });
+    // A job run again for the sent invitation sends nothing.
+    for (let i = 0; i < 50 && (await sql<{ d: string }>('SELECT delivery AS d FROM invitations WHERE id = $1', [inv!.id]))[0]!.d !== 'sent'; i++) await new Promise((r) => setTimeout(r, 100));
+    await expect(deliver.deliverInvitationJob(coop.id, inv!.id)).resolves.toBe(false);
   });
 });

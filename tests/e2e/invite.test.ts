@@ -35,7 +35,7 @@ describe('invitation in the browser', () => {
       await form.getByLabel('E-mail address').fill(email);
       await form.getByLabel('Role').selectOption('brewer');
       await form.getByRole('button', { name: 'Send invitation' }).click();
-      await page.getByText(`Invitation e-mailed to ${email}`).waitFor();
+      await page.getByText(`Invitation to ${email} saved`).waitFor();
       await page.getByText(email, { exact: true }).waitFor();
       await shoot(page, 'members-invited');
     });
@@ -67,7 +67,7 @@ describe('invitation in the browser', () => {
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('This invitation was already used');
       await shoot(page, 'invite-used');
     });
-  });
+  }, 150_000);
 
   it('profile, password reset and a bad invitation link are readable and accessible', async () => {
     const coop = await makeCoop({ name: 'Thistledown Biofuel Club' });
@@ -100,5 +100,5 @@ describe('invitation in the browser', () => {
       await page.getByText('Use at least 12 characters.').waitFor();
       await checkA11y(page);
     });
-  });
+  }, 150_000);
 });

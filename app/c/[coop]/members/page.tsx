@@ -43,6 +43,7 @@ export default async function MembersPage({ params, searchParams }: { params: Pr
       <div>
         <h1>Members</h1>
         <p className="text-stone-600">Invite people, set their roles, suspend or remove them. Every change is written to the audit log.</p>
+        <p className="text-sm"><Link href={`/c/${actor.coop.slug}/imports`}>Invite many people from a spreadsheet</Link></p>
       </div>
 
       <div className="grid gap-6 lg:grid-cols-2">
