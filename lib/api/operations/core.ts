@@ -1,0 +1,35 @@
+import { z } from 'zod';
+import { auditQuerySchema } from '@/lib/validation/audit';
+import { quarterlyReportQuerySchema } from '@/lib/validation/reports';
+import { coopSettingsUpdateSchema } from '@/lib/validation/settings';
+import { operation } from '../operation';
+import { auditEventSchema, coopSettingsSchema, pageOf, role } from '../schemas';
+
+// The service itself, the co-op's overview, settings, audit log and reports.
+
+export const operations = [
+  operation({ method: 'GET', path: '/api/health', summary: 'Is the service and its database up?', access: 'public', responses: { 200: z.looseObject({ status: z.literal('ok'), db: z.literal('ok') }), 503: z.looseObject({ status: z.string(), db: z.literal('down') }) }, tags: ['Service'] }),
+  operation({ method: 'GET', path: '/api/openapi.json', summary: 'This API\'s OpenAPI 3.1 document', access: 'public', responses: { 200: z.looseObject({ openapi: z.string() }) }, tags: ['Service'] }),
+  operation({ method: 'GET', path: '/api/bench/tank-query', summary: 'Benchmark probe (404 unless the server runs benchmarks)', access: 'public', query: z.object({ coop: z.string().optional() }), responses: { 200: z.looseObject({ tanks: z.array(z.looseObject({})) }) }, errors: { 404: 'Not a benchmark server, or no such co-op.' }, tags: ['Service'] }),
+  operation({
+    method: 'GET',
+    path: '/api/coops/[coop]/overview',
+    summary: 'The co-op\'s first screen: tank, price, my account; more sections by role',
+    access: { action: 'coop:read' },
+    responses: { 200: z.looseObject({ role, tank: z.looseObject({}), price: z.looseObject({}).nullable(), account: z.looseObject({ outstandingCents: z.number().int(), creditCents: z.number().int(), unallocatedCents: z.number().int() }) }) },
+    tags: ['Co-ops'],
+  }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/settings', summary: 'The co-op\'s settings', access: { action: 'settings:manage' }, responses: { 200: coopSettingsSchema }, tags: ['Co-ops'] }),
+  operation({ method: 'PUT', path: '/api/coops/[coop]/settings', summary: 'Change the co-op\'s settings', access: { action: 'settings:manage' }, body: coopSettingsUpdateSchema, responses: { 200: coopSettingsSchema }, tags: ['Co-ops'] }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/audit', summary: 'Audit events, newest first', access: { action: 'audit:read' }, query: auditQuerySchema, responses: { 200: pageOf(auditEventSchema) }, tags: ['Co-ops'] }),
+  operation({
+    method: 'GET',
+    path: '/api/coops/[coop]/reports/quarterly',
+    summary: 'Quarterly fuel volumes: produced, released, drawn by declared use (JSON, CSV or PDF)',
+    access: { action: 'reports:read' },
+    query: quarterlyReportQuerySchema,
+    responses: { 200: z.looseObject({}) },
+    description: 'With `format=csv` a text/csv attachment, with `format=pdf` a PDF.',
+    tags: ['Reports'],
+  }),
+];
