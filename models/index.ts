@@ -118,3 +118,10 @@ Session.initModel(sequelize);
 User.hasMany(Session, { foreignKey: 'userId', as: 'sessions' });
 Session.belongsTo(User, { foreignKey: 'userId', as: 'user' });
 export { Session };
+
+// personal access tokens (lib/auth/api-tokens.ts): one co-op, their creator's role there
+import { ApiToken } from './ApiToken';
+ApiToken.initModel(sequelize);
+ApiToken.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
+ApiToken.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
+export { ApiToken };

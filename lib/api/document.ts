@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { createDocument, type ZodOpenApiOperationObject, type ZodOpenApiPathsObject, type ZodOpenApiResponsesObject } from 'zod-openapi';
-import { openApiPath, pathParamNames, type Operation, type ResponseBody } from './operation';
+import { isFileBody, openApiPath, pathParamNames, type Operation } from './operation';
 import { operations } from './operations';
 
 // The OpenAPI 3.1 document, generated from the declarations in lib/api/operations (zod-openapi
@@ -24,16 +24,21 @@ const SECURITY_SCHEMES = {
 const slug = z.string().regex(/^[a-z0-9-]+$/).describe('The co-op\'s slug');
 const wholeId = z.string().regex(/^[1-9][0-9]*$/).describe('A whole id');
 
-const isFile = (b: ResponseBody): b is { file: 'application/pdf' | 'text/csv' | 'application/octet-stream'; description?: string } =>
-  b !== null && typeof b === 'object' && 'file' in b && !(b instanceof z.ZodType);
 
 function responses(op: Operation): ZodOpenApiResponsesObject {
   const out: Record<string, unknown> = {};
   for (const [status, body] of Object.entries(op.statuses)) {
     const description = op.errorDescriptions[Number(status)] ?? (Number(status) < 300 ? 'Success' : Number(status) < 400 ? 'Redirect' : 'Error');
-    if (body === null) out[status] = { description };
-    else if (isFile(body)) out[status] = { description: body.description ?? description, content: { [body.file]: { schema: z.string().meta({ format: 'binary' }) } } };
-    else out[status] = { description, content: { 'application/json': { schema: body } } };
+    if (body === null) {
+      out[status] = { description };
+      continue;
+    }
+    const content: Record<string, { schema: z.ZodType }> = {};
+    for (const b of Array.isArray(body) ? body : [body]) {
+      if (isFileBody(b)) content[b.file] = { schema: z.string().meta({ format: 'binary', ...(b.description ? { description: b.description } : {}) }) };
+      else content['application/json'] = { schema: b as z.ZodType };
+    }
+    out[status] = { description, content };
   }
   return out as ZodOpenApiResponsesObject;
 }

@@ -20,9 +20,12 @@ export type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 export type Access = { action: Action; roles?: readonly Role[]; note?: string } | 'user' | 'public';
 
 /** A non-JSON answer: a download. */
-export type FileBody = { file: 'application/pdf' | 'text/csv' | 'application/octet-stream'; description?: string };
+export type FileBody = { file: string; description?: string };
 
-export type ResponseBody = z.ZodType | FileBody | null;
+/** A JSON body's schema, a download, no body (null), or alternatives by media type. */
+export type ResponseBody = z.ZodType | FileBody | null | readonly (z.ZodType | FileBody)[];
+
+export const isFileBody = (b: unknown): b is FileBody => b !== null && typeof b === 'object' && 'file' in b && !(b instanceof z.ZodType);
 
 export interface OperationSpec {
   method: Method;

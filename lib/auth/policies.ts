@@ -25,6 +25,7 @@ export const POLICY = {
   'members:manage': ['admin'],
   'settings:manage': ['admin'],
   'audit:read': ['admin'],
+  'tokens:manage': ['treasurer', 'admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof POLICY;

@@ -48,6 +48,6 @@ export const operations = [
   operation({ method: 'POST', path: '/api/coops/[coop]/batches/[id]/temperatures', summary: 'Log a temperature reading', access: { action: 'batches:write' }, body: temperatureCreateSchema, responses: { 201: temperatureSchema }, errors: final, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/batches/[id]/temperatures/acknowledge', summary: 'Acknowledge a temperature danger alert', access: { action: 'batches:write' }, responses: { 200: z.looseObject({ acknowledged: z.literal(true) }) }, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/batches/[id]/files', summary: 'Attach a photo or lab report (multipart `file` + `purpose`)', access: { action: 'batches:write' }, body: 'multipart', responses: { 201: z.looseObject({}) }, tags }),
-  operation({ method: 'GET', path: '/api/coops/[coop]/batches/[id]/files/[fileId]', summary: 'Download a batch file', access: { action: 'batches:read-all' }, responses: { 200: { file: 'application/octet-stream', description: 'PDF, JPEG or PNG' } }, tags }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/batches/[id]/files/[fileId]', summary: 'Download a batch file', access: { action: 'batches:read-all' }, responses: { 200: [{ file: 'application/pdf' }, { file: 'image/jpeg' }, { file: 'image/png' }] }, tags }),
   operation({ method: 'GET', path: '/api/coops/[coop]/batches/[id]/certificate', summary: 'A released batch\'s certificate (PDF)', access: { action: 'batches:read-released' }, responses: { 200: pdf }, tags }),
 ];

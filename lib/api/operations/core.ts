@@ -1,9 +1,10 @@
 import { z } from 'zod';
 import { auditQuerySchema } from '@/lib/validation/audit';
 import { quarterlyReportQuerySchema } from '@/lib/validation/reports';
+import { apiTokenCreateSchema } from '@/lib/validation/api-tokens';
 import { coopSettingsUpdateSchema } from '@/lib/validation/settings';
 import { operation } from '../operation';
-import { auditEventSchema, coopSettingsSchema, pageOf, role } from '../schemas';
+import { apiTokenSchema, auditEventSchema, coopSettingsSchema, pageOf, role } from '../schemas';
 
 // The service itself, the co-op's overview, settings, audit log and reports.
 
@@ -28,8 +29,20 @@ export const operations = [
     summary: 'Quarterly fuel volumes: produced, released, drawn by declared use (JSON, CSV or PDF)',
     access: { action: 'reports:read' },
     query: quarterlyReportQuerySchema,
-    responses: { 200: z.looseObject({}) },
+    responses: { 200: [z.looseObject({ year: z.number().int(), quarter: z.number().int(), months: z.array(z.looseObject({})), total: z.looseObject({}) }), { file: 'text/csv' }, { file: 'application/pdf' }] },
     description: 'With `format=csv` a text/csv attachment, with `format=pdf` a PDF.',
     tags: ['Reports'],
   }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/tokens', summary: 'The co-op\'s personal access tokens (never the token itself)', access: { action: 'tokens:manage', note: 'from a signed-in session' }, responses: { 200: z.looseObject({ tokens: z.array(apiTokenSchema) }) }, tags: ['Access tokens'] }),
+  operation({
+    method: 'POST',
+    path: '/api/coops/[coop]/tokens',
+    summary: 'Create a personal access token (`secret` is shown only in this answer)',
+    description: 'The token acts in this co-op only, with its creator\'s current role; `read` tokens may only GET. Send it as `Authorization: Bearer <secret>`.',
+    access: { action: 'tokens:manage', note: 'from a signed-in session' },
+    body: apiTokenCreateSchema,
+    responses: { 201: z.looseObject({ token: apiTokenSchema, secret: z.string().describe('tvt_… — store it now; only its SHA-256 is kept') }) },
+    tags: ['Access tokens'],
+  }),
+  operation({ method: 'DELETE', path: '/api/coops/[coop]/tokens/[id]', summary: 'Revoke a token', access: { action: 'tokens:manage', note: 'from a signed-in session' }, responses: { 200: apiTokenSchema }, errors: { 409: 'Already revoked.' }, tags: ['Access tokens'] }),
 ];
