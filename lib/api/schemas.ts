@@ -2,8 +2,9 @@ import { z } from 'zod';
 import { ROLES } from '@/lib/auth/roles';
 
 // Response bodies as the API sends them (JSON after serialisation: dates are ISO strings, money
-// whole cents, volumes in litres and in the co-op's unit). Objects are "loose": a field added
-// later does not break a client, and the tests' response checks hold what is declared here.
+// whole cents, volumes in litres and in the co-op's unit). Most objects are "loose" (fields not
+// listed may appear); a DTO listed in full is a z.object, so an undeclared field fails the tests'
+// response checks (tests/support/contract.ts) and the typed client gets its exact shape.
 
 const int = () => z.number().int();
 const num = () => z.number();
@@ -54,7 +55,7 @@ export const invitationSchema = z
   .meta({ id: 'Invitation' });
 
 export const tankSchema = z
-  .looseObject({
+  .object({
     id: int(),
     name: str(),
     active: z.boolean(),

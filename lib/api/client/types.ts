@@ -733,7 +733,6 @@ export interface components {
       avgCostCentsPerGallon: number | null;
       avgCostCentsPerUnit: number | null;
       lastDipAt: string | null;
-      [key: string]: unknown;
     };
     TankMovement: {
       id: string;
