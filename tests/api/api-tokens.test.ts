@@ -5,6 +5,7 @@ import crypto from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { operations } from '@/lib/api/operations';
 import { api, bearerApi, countRows, makeCoop, makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
+import { allRowCounts } from '../security/helpers';
 
 let ctx: Awaited<ReturnType<typeof makeCoopWithRoles>>;
 const tokensUrl = () => `/api/coops/${ctx.coop.slug}/tokens`;
@@ -169,4 +170,20 @@ describe('a read-only token on every write route (from lib/api/operations)', () 
 
 it('plain API calls without a token still need the app\'s own Origin for writes', async () => {
   await api().post('/api/coops').set('Origin', 'https://elsewhere.example').send({}).expect(403);
+});
+
+describe('reads with a token write nothing but the token\'s last use', () => {
+  it('a burst of reads changes no table, and last_used_at at most once an hour', async () => {
+    const { secret, token } = await createToken(ctx.agents.admin, 'read');
+    const co = `/api/coops/${ctx.coop.slug}`;
+    await bearerApi(secret).get(`${co}/tanks`).expect(200);
+    const before = await allRowCounts();
+    const [{ t: usedAt } = { t: null }] = await sql<{ t: Date | null }>('SELECT last_used_at AS t FROM api_tokens WHERE id = $1', [token.id]);
+    const [{ n: audits } = { n: 0 }] = await sql<{ n: string }>('SELECT coalesce(max(id), 0)::text AS n FROM audit_events');
+    for (const p of ['tanks', 'reservations', 'draws', 'pricing', 'overview', 'batches', 'billing/invoices', 'members', 'audit']) await bearerApi(secret).get(`${co}/${p}`);
+    expect(await allRowCounts()).toEqual(before);
+    const [{ t: after } = { t: null }] = await sql<{ t: Date | null }>('SELECT last_used_at AS t FROM api_tokens WHERE id = $1', [token.id]);
+    expect(after!.getTime()).toBe(usedAt!.getTime());
+    expect((await sql<{ n: string }>('SELECT coalesce(max(id), 0)::text AS n FROM audit_events'))[0]!.n).toBe(audits);
+  });
 });
