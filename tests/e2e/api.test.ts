@@ -2,6 +2,7 @@
 // app's Content-Security-Policy (withBrowser fails on any violation), pass axe, and the reference's
 // script stays off other pages.
 import path from 'node:path';
+import AxeBuilder from '@axe-core/playwright';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { baseUrl, makeCoopWithRoles, TEST_PASSWORD } from '../support/api';
 import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
@@ -12,7 +13,7 @@ beforeAll(async () => {
 });
 
 describe('API reference (/docs/api)', () => {
-  it('renders the operations from /api/openapi.json without a CDN, at 360 and 1280 px', async () => {
+  it('renders the operations from /api/openapi.json without a CDN, at 360 and 1280 px', { timeout: 180_000 }, async () => {
     await withBrowser(async (page) => {
       const external: string[] = [];
       page.on('request', (r) => {
@@ -24,7 +25,13 @@ describe('API reference (/docs/api)', () => {
         await page.getByText('/api/coops/{coop}/tanks', { exact: true }).first().waitFor({ timeout: 30_000 });
         await page.screenshot({ path: path.join(SHOTS, `api-docs-${width}.png`) });
       }
-      expect(await page.getByRole('heading', { level: 1 }).textContent()).toBe('Tallyvat API');
+      await expect(page.getByRole('heading', { name: 'Tallyvat API', exact: true }).isVisible()).resolves.toBe(true);
+      // Our part of the page passes axe; Swagger UI's own markup has known contrast and
+      // nested-control findings (reported in the log, not fixed here: see DEVELOPERS.md).
+      const ours = await new AxeBuilder({ page }).exclude('.swagger-ui').withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
+      expect(ours.violations.map((v) => v.id)).toEqual([]);
+      const theirs = await new AxeBuilder({ page }).include('.swagger-ui').withTags(['wcag2a', 'wcag2aa']).analyze();
+      console.log('axe on Swagger UI:', theirs.violations.map((v) => `${v.id} (${v.nodes.length})`).join(', ') || 'none');
       expect(external).toEqual([]);
     });
   });
@@ -44,21 +51,25 @@ describe('API reference (/docs/api)', () => {
 });
 
 describe('API tokens screen', () => {
-  it('a treasurer creates a read-only token, sees it once, and revokes it; axe passes', async () => {
+  it('a treasurer creates a read-only token, sees it once, and revokes it; axe passes', { timeout: 180_000 }, async () => {
     await withBrowser(async (page) => {
+      const step = (s: string) => console.log(`[api tokens e2e] ${s}`);
       await signInUi(page, ctx.users.treasurer.email, TEST_PASSWORD);
+      step('signed in');
       for (const width of [360, 1280]) {
         await page.setViewportSize({ width, height: 800 });
         await page.goto(`${baseUrl()}/c/${ctx.coop.slug}/api-tokens`);
         await page.getByRole('heading', { name: 'API tokens' }).waitFor();
         await checkA11y(page);
+        step(`axe at ${width}`);
       }
       await page.getByRole('button', { name: 'Create token' }).click();
-      await expect(page.getByText('Enter a name for the token.').or(page.getByText('At least 1 character.')).first().isVisible()).resolves.toBe(true);
+      await page.getByText('At least 1 character.').waitFor();
       await page.getByLabel('Name').fill('Pump meter logger');
       await page.getByRole('button', { name: 'Create token' }).click();
       const secret = await page.getByLabel('New access token').textContent();
       expect(secret).toMatch(/^tvt_/);
+      step('created');
       await page.getByRole('list', { name: 'Access tokens' }).getByText('Pump meter logger').waitFor();
       await page.screenshot({ path: path.join(SHOTS, 'api-tokens-1280.png'), fullPage: true });
       await checkA11y(page);
