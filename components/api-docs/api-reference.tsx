@@ -2,6 +2,7 @@
 
 import dynamic from 'next/dynamic';
 import 'swagger-ui-react/swagger-ui.css';
+import './api-reference.css';
 
 // Swagger UI ships with the app (no CDN) and loads only on this page.
 const SwaggerUI = dynamic(() => import('swagger-ui-react'), {
@@ -12,8 +13,8 @@ const SwaggerUI = dynamic(() => import('swagger-ui-react'), {
 /** The interactive reference, rendered from the served OpenAPI document. */
 export function ApiReference() {
   return (
-    <div className="rounded-xl border border-stone-200 bg-white">
-      <SwaggerUI url="/api/openapi.json" docExpansion="list" defaultModelsExpandDepth={0} tryItOutEnabled={false} deepLinking />
+    <div className="tv-api-docs rounded-xl border border-stone-200 bg-white">
+      <SwaggerUI url="/api/openapi.json" docExpansion="list" defaultModelsExpandDepth={0} tryItOutEnabled={false} />
     </div>
   );
 }
