@@ -2,7 +2,6 @@
 // app's Content-Security-Policy (withBrowser fails on any violation), pass axe, and the reference's
 // script stays off other pages.
 import path from 'node:path';
-import AxeBuilder from '@axe-core/playwright';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { baseUrl, makeCoopWithRoles, TEST_PASSWORD } from '../support/api';
 import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
@@ -26,12 +25,8 @@ describe('API reference (/docs/api)', () => {
         await page.screenshot({ path: path.join(SHOTS, `api-docs-${width}.png`) });
       }
       await expect(page.getByRole('heading', { name: 'Tallyvat API', exact: true }).isVisible()).resolves.toBe(true);
-      // Our part of the page passes axe; Swagger UI's own markup has known contrast and
-      // nested-control findings (reported in the log, not fixed here: see DEVELOPERS.md).
-      const ours = await new AxeBuilder({ page }).exclude('.swagger-ui').withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
-      expect(ours.violations.map((v) => v.id)).toEqual([]);
-      const theirs = await new AxeBuilder({ page }).include('.swagger-ui').withTags(['wcag2a', 'wcag2aa']).analyze();
-      console.log('axe on Swagger UI:', theirs.violations.map((v) => `${v.id} (${v.nodes.length})`).join(', ') || 'none');
+      // The whole page, Swagger UI included (its colours are darkened in api-reference.css).
+      await checkA11y(page);
       expect(external).toEqual([]);
     });
   });
