@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { sequelize } from '@/lib/db';
 import { DATABASE_RETRY_AFTER_SECONDS, isDatabaseUnavailable, noteDatabaseUnavailable, watchDatabase } from '@/lib/db-outage';
 import { log } from '@/lib/log';
+import { requestContext } from '@/lib/request-context';
 import { COMMON_HEADERS, DOWNLOAD_CSP, HSTS } from '@/lib/security/headers';
 import { isSameOriginRequest, servedOverHttps } from '@/lib/security/origin';
 import { CONTROL_CHARS } from '@/lib/validation/common';
@@ -198,7 +199,10 @@ const BODY_TYPES = /^(application\/json|multipart\/form-data)\s*(;|$)/i;
  */
 function checkWriteRequest(req: Request): void {
   if (ORIGIN_EXEMPT_PATHS.has(new URL(req.url).pathname)) return;
-  if (!isSameOriginRequest(req)) throw new HttpError(403, 'This request did not come from Tallyvat\'s own pages.');
+  // A bearer caller is an integration, not a browser: no cookie acts for it (lib/auth/session.ts),
+  // so another site cannot borrow its credentials, and the origin check does not apply.
+  const bearer = /^Bearer\s/i.test(req.headers.get('authorization') ?? '');
+  if (!bearer && !isSameOriginRequest(req)) throw new HttpError(403, 'This request did not come from Tallyvat\'s own pages.');
   // A body without a type is refused by parseBody and readUpload when the route reads one.
   const type = req.headers.get('content-type');
   if (type !== null && !BODY_TYPES.test(type)) {
@@ -236,7 +240,7 @@ export function handler<P = Record<string, string>>(fn: (req: Request, params: P
       if (!READ_METHODS.has(req.method)) checkWriteRequest(req);
       const params = (await ctx?.params) ?? ({} as P);
       coop = (params as { coop?: unknown }).coop as string | undefined;
-      const out = await fn(req, params);
+      const out = await requestContext.run({ method: req.method }, () => fn(req, params));
       res = withSecurityHeaders(out instanceof Response ? out : Response.json(out ?? { ok: true }), req);
     } catch (e) {
       res = withSecurityHeaders(errorResponse(e, requestId), req);

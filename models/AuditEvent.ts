@@ -15,6 +15,8 @@ export class AuditEvent extends Model<InferAttributes<AuditEvent>, InferCreation
   declare entityId: string | null;
   declare before: unknown;
   declare after: unknown;
+  /** The personal access token the change was made with, if any (its creator is the actor). */
+  declare apiTokenId: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare actor?: NonAttribute<User>;
 
@@ -27,6 +29,7 @@ export class AuditEvent extends Model<InferAttributes<AuditEvent>, InferCreation
         entityId: { type: DataTypes.STRING(40), allowNull: true },
         before: { type: DataTypes.JSONB, allowNull: true },
         after: { type: DataTypes.JSONB, allowNull: true },
+        apiTokenId: { type: DataTypes.INTEGER, allowNull: true },
         createdAt: DataTypes.DATE,
       },
       { sequelize, modelName: 'AuditEvent', tableName: 'audit_events', underscored: true, updatedAt: false },

@@ -140,3 +140,10 @@ Import.initModel(sequelize);
 Import.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
 Invitation.belongsTo(Import, { foreignKey: 'importId', as: 'import' });
 export { Import };
+
+// personal access tokens (lib/auth/api-tokens.ts): one co-op, their creator's role there
+import { ApiToken } from './ApiToken';
+ApiToken.initModel(sequelize);
+ApiToken.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
+ApiToken.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
+export { ApiToken };

@@ -16,4 +16,5 @@ export const NAV_ITEMS: { href: string; label: string; action: Action }[] = [
   { href: '/imports', label: 'Import', action: 'imports:manage' },
   { href: '/audit', label: 'Audit log', action: 'audit:read' },
   { href: '/settings', label: 'Settings', action: 'settings:manage' },
+  { href: '/api-tokens', label: 'API tokens', action: 'tokens:manage' },
 ];

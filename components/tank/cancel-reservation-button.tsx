@@ -3,7 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { useSWRConfig } from 'swr';
-import { sendJson } from '@/components/forms/use-api-form';
+import { apiClient, apiError } from '@/lib/api/client';
 import { tanksKey } from './live-tanks';
 
 /** Cancels an open reservation after a confirmation step (no browser dialog; works on phones). */
@@ -14,9 +14,9 @@ export function CancelReservationButton({ coopSlug, reservationId, label }: { co
   const [error, setError] = useState<string | null>(null);
   async function cancel() {
     setStage('busy');
-    const r = await sendJson(`/api/coops/${coopSlug}/reservations/${reservationId}/cancel`, 'POST');
-    if (!r.ok) {
-      setError(r.error);
+    const r = await apiClient.POST('/api/coops/{coop}/reservations/{reservationId}/cancel', { params: { path: { coop: coopSlug, reservationId: String(reservationId) } } });
+    if (r.error) {
+      setError(apiError(r.error, r.response.status).error);
       setStage('idle');
       return;
     }

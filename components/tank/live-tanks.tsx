@@ -1,22 +1,14 @@
 'use client';
 
-import useSWR from 'swr';
-import type { UnitSystem } from '@/lib/units';
 import { Notice, EmptyState } from '@/components/ui/notice';
-import { jsonFetcher } from './form-utils';
-import { TankGauge, type GaugeTank } from './tank-gauge';
+import { TankGauge } from './tank-gauge';
+import { useTanks, type TanksResponse } from './use-tanks';
 
-export interface TanksResponse { tanks: GaugeTank[]; units: UnitSystem }
-
-/** The SWR key for a co-op's tanks; forms that change a tank revalidate it with mutate(key). */
-export const tanksKey = (coopSlug: string) => `/api/coops/${coopSlug}/tanks`;
-
-/** Refresh interval for the live tank figures (members watch "available" while deciding). */
-export const TANKS_REFRESH_MS = 4000;
+export { tanksKey, TANKS_REFRESH_MS, type TanksResponse } from './use-tanks';
 
 /** Every tank's gauge, refreshed every few seconds; seeded with the server's figures. */
 export function LiveTanks({ coopSlug, initial, currency, timeZone, showInactive = true }: { coopSlug: string; initial: TanksResponse; currency: string; timeZone: string; showInactive?: boolean }) {
-  const { data, error } = useSWR<TanksResponse>(tanksKey(coopSlug), jsonFetcher, { fallbackData: initial, refreshInterval: TANKS_REFRESH_MS, revalidateOnMount: false });
+  const { data, error } = useTanks(coopSlug, initial);
   const tanks = (data ?? initial).tanks.filter((t) => showInactive || t.active);
   return (
     <div className="flex flex-col gap-3">

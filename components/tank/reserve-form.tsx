@@ -2,15 +2,15 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import useSWR, { useSWRConfig } from 'swr';
+import { useSWRConfig } from 'swr';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { formatMl, unitWord } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
-import { jsonFetcher, prefixedErrors, prefixedObject } from './form-utils';
-import { tanksKey, TANKS_REFRESH_MS, type TanksResponse } from './live-tanks';
+import { prefixedErrors, prefixedObject } from './form-utils';
+import { tanksKey, useTanks, type TanksResponse } from './use-tanks';
 
 /**
  * A member reserves fuel for themself. The selected tank's available quantity is shown live
@@ -21,7 +21,7 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd }: { coopSlug
   const router = useRouter();
   const { mutate } = useSWRConfig();
   const { busy, fields, message, submit } = useApiForm();
-  const { data } = useSWR<TanksResponse>(tanksKey(coopSlug), jsonFetcher, { fallbackData: initial, refreshInterval: TANKS_REFRESH_MS, revalidateOnMount: false });
+  const { data } = useTanks(coopSlug, initial);
   const units: UnitSystem = (data ?? initial).units;
   const tanks = (data ?? initial).tanks.filter((t) => t.active);
   const [tankId, setTankId] = useState<number | null>(tanks[0]?.id ?? null);

@@ -1,5 +1,6 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
+import { requestContext } from '@/lib/request-context';
 import { AuditEvent } from '@/models';
 
 export interface AuditInput {
@@ -12,7 +13,10 @@ export interface AuditInput {
   after?: unknown;
 }
 
-/** Appends one audit event (who, what, when, before/after) inside the caller's transaction. */
+/**
+ * Appends one audit event (who, what, when, before/after) inside the caller's transaction. A
+ * request authenticated by a personal access token records the token beside its creator.
+ */
 export async function audit(e: AuditInput, transaction?: Transaction): Promise<void> {
   await AuditEvent.create(
     {
@@ -23,6 +27,7 @@ export async function audit(e: AuditInput, transaction?: Transaction): Promise<v
       entityId: e.entityId == null ? null : String(e.entityId),
       before: e.before ?? null,
       after: e.after ?? null,
+      apiTokenId: requestContext.getStore()?.apiTokenId ?? null,
     },
     { transaction },
   );

@@ -28,6 +28,7 @@ export const POLICY = {
   'audit:read': ['admin'],
   /** Moving in from spreadsheets: bulk invitations and opening records (the admin's job). */
   'imports:manage': ['admin'],
+  'tokens:manage': ['treasurer', 'admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof POLICY;

@@ -10,19 +10,11 @@ import { Coop, Membership, Session, User } from '@/models';
 import type { CoopSettings } from '@/models/Coop';
 import type { MembershipStatus } from '@/models/Membership';
 import { can, type Action } from './policies';
+import { requireTokenMember } from './api-tokens';
 import { liveSessionWhere, touchSession } from './sessions';
 
-export type SessionUser = Pick<InferAttributes<User>, 'id' | 'email' | 'name'>;
-
-type ActorCoop = Pick<InferAttributes<Coop>, 'id' | 'slug' | 'name' | 'units' | 'currency' | 'timezone' | 'settings'>;
-
-/** The acting member: who, in which co-op, with which role. Passed first to every lib/ service. */
-export interface Actor {
-  user: SessionUser;
-  coop: ActorCoop;
-  role: Role;
-  membershipId: number;
-}
+export type { Actor, SessionUser } from './actor';
+import type { Actor, ActorCoop, SessionUser } from './actor';
 
 /** What the session cookie says: the user id and the server-side session's id (lib/auth/sessions.ts). */
 interface SessionClaims {
@@ -34,10 +26,13 @@ interface SessionClaims {
  * The claims of next-auth's session cookie, or null. next-auth's own `getToken` finds the cookie
  * (its name, split into chunks when large) in a request and decrypts it; App Router hands us the
  * incoming Cookie header, so it gets a request carrying just that header (no Authorization
- * header: a session is a cookie here, nothing else).
+ * header: a session is a cookie here, nothing else). A request that carries an Authorization
+ * header is never authenticated by a cookie: it is a token caller (requireMember), or no one.
  */
 const readSession = cache(async (): Promise<SessionClaims | null> => {
-  const cookie = (await headers()).get('cookie');
+  const h = await headers();
+  if (h.has('authorization')) return null;
+  const cookie = h.get('cookie');
   if (!cookie) return null;
   const token = await getToken({ req: new NextRequest('http://localhost/', { headers: { cookie } }) });
   const uid = Number(token?.uid);
@@ -138,9 +133,12 @@ const loadSessionRow = cache(async (session: SessionClaims, coopSlug: string): P
  * The one authorization entry point: session → membership in the co-op of the URL → may this
  * role do this action. 401 without a session (or with one signed out, revoked, expired or idle);
  * 404 when the user is not in that co-op (its existence is not revealed); 403 when suspended or
- * the role may not.
+ * the role may not. With `Authorization: Bearer <token>` the token is the only credential
+ * (lib/auth/api-tokens.ts), whatever cookies the request carries.
  */
 export async function requireMember(coopSlug: string, action: Action): Promise<Actor> {
+  const authorization = (await headers()).get('authorization');
+  if (authorization !== null) return requireTokenMember(authorization, String(coopSlug).slice(0, 60), action);
   const session = await readSession();
   if (!session) throw unauthorized();
   const row = await loadSessionRow(session, String(coopSlug).slice(0, 60));

@@ -4,6 +4,7 @@ import bcrypt from 'bcryptjs';
 import { QueryTypes, Sequelize } from 'sequelize';
 import request from 'supertest';
 import { inject } from 'vitest';
+import { checkedClient } from './contract';
 
 export const TEST_PASSWORD = 'correct-horse-tallyvat';
 export const DEMO_PASSWORD = 'tallyvat-demo-2026';
@@ -11,21 +12,18 @@ const HASH = bcrypt.hashSync(TEST_PASSWORD, 10);
 
 export const baseUrl = () => inject('baseUrl');
 
-const WRITE_METHODS = new Set(['post', 'put', 'patch', 'delete', 'del']);
 /**
  * Requests without a session. Writes carry the app's own Origin, as a browser's do (the server
- * refuses writes from any other origin, and writes that name none).
+ * refuses writes from any other origin, and writes that name none). Every answer is held to the
+ * API contract (tests/support/contract.ts).
  */
-export const api = () => {
-  const client = request(inject('baseUrl'));
-  return new Proxy(client, {
-    get(target, prop, receiver) {
-      const value = Reflect.get(target, prop, receiver);
-      if (typeof prop !== 'string' || !WRITE_METHODS.has(prop) || typeof value !== 'function') return value;
-      return (url: string) => (value as (u: string) => request.Test).call(target, url).set('Origin', inject('baseUrl'));
-    },
-  });
-};
+export const api = () => checkedClient(request(inject('baseUrl')), (test, method) => method !== 'GET' && test.set('Origin', inject('baseUrl')));
+
+/**
+ * Requests as an integration: `Authorization: Bearer <token>` on every request, no cookie and no
+ * Origin (a script's requests carry neither). Answers are held to the API contract too.
+ */
+export const bearerApi = (token: string) => checkedClient(request(inject('baseUrl')), (test) => test.set('Authorization', `Bearer ${token}`));
 
 let instance: Sequelize | null = null;
 /**
@@ -59,7 +57,8 @@ export async function signIn(email: string, password = TEST_PASSWORD) {
   if (res.status !== 200 || String(res.body?.url ?? '').includes('error=')) {
     throw new Error(`sign-in failed for ${email}: ${res.status} ${JSON.stringify(res.body)}`);
   }
-  return agent;
+  // Every answer this agent gets is held to the API contract (tests/support/contract.ts).
+  return checkedClient(agent);
 }
 
 let seq = 0;

@@ -3,17 +3,14 @@ import { handler, parseQuery } from '@/lib/http';
 import { pdfResponse } from '@/lib/pdf';
 import { getQuarterlyReport } from '@/lib/reports/quarterly';
 import { quarterlyCsv, quarterlyPdf } from '@/lib/reports/quarterly-export';
-import { quarterQuerySchema } from '@/lib/validation/reports';
-import { z } from 'zod';
+import { quarterlyReportQuerySchema } from '@/lib/validation/reports';
 
 export const dynamic = 'force-dynamic';
-
-const schema = quarterQuerySchema.extend({ format: z.enum(['json', 'csv', 'pdf']).default('json') });
 
 /** GET ?year=&quarter=&format=json|csv|pdf — the quarterly fuel-volume report (treasurers, admins). */
 export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'reports:read');
-  const { format, ...q } = parseQuery(req, schema);
+  const { format, ...q } = parseQuery(req, quarterlyReportQuerySchema);
   const report = await getQuarterlyReport(actor, q);
   const name = `${actor.coop.slug}-fuel-volumes-${q.year}-q${q.quarter}`;
   if (format === 'csv') {
