@@ -30,9 +30,9 @@ function Changes({ before, after }: { before: unknown; after: unknown }) {
 const fmt = (v: unknown) => (typeof v === 'string' ? v : JSON.stringify(v));
 
 const columns = [
-  col.accessor('at', { header: 'When', cell: (c) => new Date(c.getValue()).toLocaleString('en-US', { dateStyle: 'medium', timeStyle: 'short' }) }),
-  col.accessor('actorName', { header: 'Who', cell: (c) => c.getValue() ?? 'system' }),
-  col.accessor('action', { header: 'What', cell: (c) => <code className="text-xs">{c.getValue()}</code> }),
+  col.accessor('at', { meta: { priority: 'key' }, header: 'When', cell: (c) => new Date(c.getValue()).toLocaleString('en-US', { dateStyle: 'medium', timeStyle: 'short' }) }),
+  col.accessor('actorName', { meta: { priority: 'key' }, header: 'Who', cell: (c) => c.getValue() ?? 'system' }),
+  col.accessor('action', { meta: { priority: 'key' }, header: 'What', cell: (c) => <code className="text-xs">{c.getValue()}</code> }),
   col.accessor('entityType', { header: 'Record', cell: (c) => `${c.getValue()}${c.row.original.entityId ? ` #${c.row.original.entityId}` : ''}` }),
   col.display({ id: 'changes', header: 'Before → after', cell: (c) => <Changes before={c.row.original.before} after={c.row.original.after} /> }),
 ];

@@ -5,8 +5,8 @@ import { useState } from 'react';
 import { useSWRConfig } from 'swr';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
-import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { FormResult } from '@/components/forms/form-result';
 import { formatCents } from '@/lib/money';
 import { formatMl, unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
@@ -50,6 +50,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
       setMessage({ tone: 'ok', text: `Recorded draw #${r.id}: ${formatMl(Math.round(r.quantityLiters * 1000), units, { digits: 2 })} for ${r.memberName}, ${formatCents(r.totalCents, currency)} at the price in force.` });
       form.reset();
       setReservationId('');
+      if (!selfServe) setMemberId('');
       await mutate(tanksKey(coopSlug));
       router.refresh();
     }
@@ -57,7 +58,6 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
 
   return (
     <form onSubmit={onSubmit} noValidate aria-label="Record a draw" className="grid gap-4 sm:grid-cols-2">
-      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
       {selfServe ? (
         <input type="hidden" name="draw-membershipId" value={memberId} />
       ) : (
@@ -97,6 +97,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
       )}
       <TextField label="Vehicle or use (optional)" name="draw-vehicle" errors={errors['draw-vehicle']} hint="e.g. 2004 pickup, farm tractor, home furnace" />
       <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Recording…' : 'Record draw'}</Button></div>
+      <FormResult message={message} className="sm:col-span-2" />
     </form>
   );
 }

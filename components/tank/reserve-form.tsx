@@ -7,6 +7,8 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { FormResult } from '@/components/forms/form-result';
+import { useAnnounce } from '@/components/shell/announcer';
 import { formatMl, unitWord } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { jsonFetcher, prefixedErrors, prefixedObject } from './form-utils';
@@ -21,6 +23,7 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd }: { coopSlug
   const router = useRouter();
   const { mutate } = useSWRConfig();
   const { busy, fields, message, submit } = useApiForm();
+  const announce = useAnnounce();
   const { data } = useSWR<TanksResponse>(tanksKey(coopSlug), jsonFetcher, { fallbackData: initial, refreshInterval: TANKS_REFRESH_MS, revalidateOnMount: false });
   const units: UnitSystem = (data ?? initial).units;
   const tanks = (data ?? initial).tanks.filter((t) => t.active);
@@ -31,10 +34,11 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd }: { coopSlug
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const ok = await submit('/api/coops/' + coopSlug + '/reservations', 'POST', prefixedObject(form, 'res'), 'Reserved. Bring your container during the window; a brewer records the draw.');
+    const ok = await submit('/api/coops/' + coopSlug + '/reservations', 'POST', prefixedObject(form, 'res'));
     await mutate(tanksKey(coopSlug));
     if (ok) {
       form.reset();
+      announce({ tone: 'ok', text: 'Reserved. Bring your container during the window; a brewer records the draw.' });
       router.refresh();
     }
   }
@@ -42,7 +46,6 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd }: { coopSlug
   if (tanks.length === 0) return <Notice tone="info">No tank is in service right now, so there is nothing to reserve.</Notice>;
   return (
     <form onSubmit={onSubmit} noValidate aria-label="Reserve fuel" className="grid gap-4 sm:grid-cols-2">
-      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
       <SelectField label="Tank" name="res-tankId" value={tank?.id ?? ''} onChange={(e) => setTankId(Number(e.target.value))} errors={errors['res-tankId']}>
         {tanks.map((t) => <option key={t.id} value={t.id}>{t.name}</option>)}
       </SelectField>
@@ -59,6 +62,7 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd }: { coopSlug
       <TextField label="From" name="res-windowStart" type="date" required defaultValue={today} min={today} errors={errors['res-windowStart']} />
       <TextField label="Until (last day)" name="res-windowEnd" type="date" required defaultValue={defaultEnd} min={today} errors={errors['res-windowEnd']} hint="The reservation expires after this day and the fuel goes back to everyone." />
       <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Reserving…' : 'Reserve fuel'}</Button></div>
+      <FormResult message={message} className="sm:col-span-2" />
     </form>
   );
 }

@@ -71,3 +71,10 @@ export async function checkA11y(page: Page) {
   const summary = result.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`);
   expect(summary).toEqual([]);
 }
+
+/** Waits until the shell's Announcer says `text` (substring or pattern) and holds keyboard focus. */
+export async function expectAnnounced(page: Page, text: string | RegExp) {
+  const box = page.getByTestId('announcement');
+  await box.filter({ hasText: text }).waitFor();
+  await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'announcement', undefined, { timeout: 5_000 });
+}
