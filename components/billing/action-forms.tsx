@@ -8,6 +8,7 @@ import { Notice } from '@/components/ui/notice';
 import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-form';
 import { formatCents } from '@/lib/money/format';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
+import { useAnnounce } from '@/components/shell/announcer';
 
 /** Voids an issued invoice by a credit note; asks for the reason. */
 export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invoiceId: number; label: string }) {
@@ -111,12 +112,16 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
 /** Matches an unmatched payment to one of the payer's invoices, or holds it as credit. */
 export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop: string; paymentId: number; invoices: OpenInvoiceOption[]; currency: string }) {
   const router = useRouter();
+  const announce = useAnnounce();
   const { busy, fields, message, submit } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const target = formObject(e.currentTarget).target ?? '';
     const out = await submit(`/api/coops/${coop}/billing/payments/${paymentId}/match`, 'POST', { invoiceId: target === 'credit' ? null : Number(target) });
-    if (out) router.refresh();
+    if (!out) return;
+    const inv = invoices.find((i) => String(i.id) === target);
+    announce({ tone: 'ok', text: inv ? `Payment matched to ${inv.label}.` : 'Payment held as the member’s credit.' });
+    router.refresh();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2 sm:flex-row sm:items-end">

@@ -3,7 +3,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
 import { formatCents } from '@/lib/money';
-import { formatWhen } from '@/lib/tank/format';
+import { formatWhen } from '@/lib/dates';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import type { DrawDto } from '@/lib/draws';

@@ -2,7 +2,7 @@
 
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features } from '@/components/data-table/data-table';
-import { formatWhen } from '@/lib/tank/format';
+import { formatWhen } from '@/lib/dates';
 import { StatusBadge } from './status-badge';
 
 export interface PolicyRowView { id: number; description: string; effectiveFrom: string; createdBy: string | null; status: 'in-force' | 'scheduled' | 'past' }

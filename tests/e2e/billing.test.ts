@@ -64,7 +64,7 @@ describe('billing a month in the browser', () => {
       await page.getByText(/test cards only/i).waitFor();
       await checkA11y(page);
       await shoot(page, 'member-pay');
-      await page.getByLabel('Card').selectOption('tok_visa');
+      await page.getByLabel('Card').selectOption('test-approved');
       await page.getByRole('button', { name: 'Pay $65.81 by card' }).click();
       await page.getByText('This invoice is paid in full. Thank you!').waitFor({ timeout: 20_000 });
       await checkA11y(page);

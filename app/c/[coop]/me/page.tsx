@@ -10,7 +10,7 @@ import { listDraws } from '@/lib/draws';
 import { getCurrentPolicy } from '@/lib/pricing-policy';
 import { listReservations } from '@/lib/reservations';
 import { listTanks } from '@/lib/tank';
-import { isoDay } from '@/lib/tank/format';
+import { isoDay } from '@/lib/dates';
 import { drawListSchema, reservationListSchema } from '@/lib/validation/tank';
 
 export const metadata = { title: 'My fuel' };

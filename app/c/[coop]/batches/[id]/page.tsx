@@ -39,11 +39,11 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
     throw e;
   }
   const base = `/c/${actor.coop.slug}`;
-  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} />;
+  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} timeZone={actor.coop.timezone} />;
   const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
   const elevationM = actor.coop.settings.elevationM ?? 0;
   const altitude = altitudeNote(elevationM, actor.coop.units);
-  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} />;
+  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} timeZone={actor.coop.timezone} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} />;
 }
 
 function Header({ number, status, batchDate, base, id, meets, children }: { number: number; status: string; batchDate: string; base: string; id: number; meets: boolean; children?: ReactNode }) {
@@ -65,14 +65,14 @@ function Header({ number, status, batchDate, base, id, meets, children }: { numb
   );
 }
 
-function BatchSummary({ batch, base, units, currency }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string }) {
+function BatchSummary({ batch, base, units, currency, timeZone }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string; timeZone: string }) {
   return (
     <div className="flex flex-col gap-4">
       <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'} />
       <Card title="In the tank">
         <dl className="grid grid-cols-1 gap-2 text-sm sm:grid-cols-3">
           <div><dt className="text-stone-600">Released</dt><dd className="font-semibold">{vol(batch.release?.releasedLiters, units)}{batch.release?.tankName ? ` into ${batch.release.tankName}` : ''}</dd></div>
-          <div><dt className="text-stone-600">On</dt><dd className="font-semibold">{dateText(batch.release?.releasedAt)}</dd></div>
+          <div><dt className="text-stone-600">On</dt><dd className="font-semibold">{dateText(batch.release?.releasedAt, timeZone)}</dd></div>
           <div><dt className="text-stone-600">Cost</dt><dd className="font-semibold">{perUnit(batch.costPerGallonCents, batch.costPerLiterCents, units, currency)}</dd></div>
         </dl>
       </Card>
@@ -93,8 +93,8 @@ function Figure({ label, value, sub }: { label: string; value: ReactNode; sub?: 
   );
 }
 
-function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, elevationM }: {
-  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number;
+function BatchRecord({ batch, base, units, currency, timeZone, tanks, altitude, dangers, elevationM }: {
+  batch: BatchDto; base: string; units: UnitSystem; currency: string; timeZone: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number;
 }) {
   const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
   const final = batch.status === 'released' || batch.status === 'rejected';
@@ -154,7 +154,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
       ) : null}
 
       {batch.status === 'rejected' ? (
-        <div id="step-result" className="scroll-mt-28"><Notice tone="danger" title={`Rejected ${dateText(batch.rejectedAt)}`}>
+        <div id="step-result" className="scroll-mt-28"><Notice tone="danger" title={`Rejected ${dateText(batch.rejectedAt, timeZone)}`}>
           <p>{batch.rejectReason}</p>
           {batch.costs ? <p className="mt-1">Inputs written off: {money(batch.costs.totalCents, currency)}.</p> : null}
         </Notice></div>
@@ -163,7 +163,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
       {batch.status === 'released' && batch.costs && batch.release ? (
         <Card title="Released" id="step-result">
           <dl className="grid grid-cols-1 gap-3 sm:grid-cols-3">
-            <Figure label="Into the tank" value={vol(batch.release.releasedLiters, units)} sub={`${batch.release.tankName ?? 'Tank'} · ${dateText(batch.release.releasedAt)}`} />
+            <Figure label="Into the tank" value={vol(batch.release.releasedLiters, units)} sub={`${batch.release.tankName ?? 'Tank'} · ${dateText(batch.release.releasedAt, timeZone)}`} />
             <Figure label={`Cost per ${units === 'us' ? 'gallon' : 'litre'}`} value={perUnit(batch.costs.costPerGallonCents, batch.costs.costPerLiterCents, units, currency)} />
             <Figure label="Batch cost" value={money(batch.costs.totalCents, currency)} />
           </dl>
@@ -199,7 +199,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
       <Card title="2. Reaction" id="step-reaction">
         <StepForm url={url} fields={reactionFields} disabled={final} />
         <h3 className="mb-2 mt-4 font-semibold text-fir-900">Temperature</h3>
-        <TemperatureLog url={url} readings={batch.temperatures} units={units} readOnly={final} elevationM={elevationM} />
+        <TemperatureLog url={url} readings={batch.temperatures} units={units} timeZone={timeZone} readOnly={final} elevationM={elevationM} />
         <div className="mt-3"><SafetyNote topics={['methanol']} title="Heating methanol and oil" altitude={altitude} /></div>
       </Card>
 
