@@ -3,6 +3,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type Features, type PageInfo } from '@/components/data-table/data-table';
 import { formatWhen } from '@/lib/dates';
+import { When } from '@/components/ui/when';
 import { formatCents } from '@/lib/money';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import type { AuditEventDto } from '@/lib/audit/types';
@@ -54,7 +55,7 @@ function Changes({ before, after, shown }: { before: unknown; after: unknown; sh
 export function AuditTable({ rows, pageInfo, currency, units, timeZone }: { rows: AuditEventDto[]; pageInfo: PageInfo } & Shown) {
   const shown = { currency, units, timeZone };
   const columns = [
-    col.accessor('at', { meta: { priority: 'key' }, header: 'When', cell: (c) => <time dateTime={c.getValue()} className="whitespace-nowrap">{formatWhen(c.getValue(), timeZone)}</time> }),
+    col.accessor('at', { meta: { priority: 'key' }, header: 'When', cell: (c) => <When value={c.getValue()} timeZone={timeZone} className="whitespace-nowrap" /> }),
     col.accessor('action', { meta: { priority: 'key' }, header: 'What happened', cell: (c) => auditSentence(c.row.original) }),
     col.accessor('entityType', { header: 'Record', cell: (c) => `${fieldLabel(c.getValue())}${c.row.original.entityId ? ` #${c.row.original.entityId}` : ''}` }),
     col.display({ id: 'changes', header: 'Was / now', cell: (c) => <Changes before={c.row.original.before} after={c.row.original.after} shown={shown} /> }),

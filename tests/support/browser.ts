@@ -16,17 +16,18 @@ const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run
 export interface CspViolation { url: string; directive: string; blocked: string; sample: string }
 
 /**
- * Runs fn with a page in a fresh browser profile, with the app's Content-Security-Policy in force:
+ * Runs fn with a page in a fresh browser profile (optionally in another time zone), with the app's Content-Security-Policy in force:
  * every `securitypolicyviolation` on any page fails the test (a script the policy blocks is a
  * broken page, or an injection). Closes everything afterwards.
  */
-export async function withBrowser(fn: (page: Page) => Promise<void>) {
+export async function withBrowser(fn: (page: Page) => Promise<void>, opts: { timezoneId?: string } = {}) {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tallyvat-chromium-'));
   const context = await chromium.launchPersistentContext(dir, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
     args: ARGS,
     viewport: { width: 1280, height: 800 },
+    timezoneId: opts.timezoneId,
   });
   const violations: CspViolation[] = [];
   try {
