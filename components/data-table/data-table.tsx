@@ -138,7 +138,9 @@ export function DataTable<Row extends RowData>({
                         : 'max-sm:hidden';
                     return (
                       <td key={cell.id} className={`px-3 py-2 align-top break-words ${phone}`}>
-                        {label ? <span className={`text-xs text-stone-600 sm:hidden ${key ? 'block' : 'shrink-0 after:content-[":"]'}`}>{label}</span> : null}
+                        {/* The label is generated content (data-label), so a phone reader hears it with the value while
+                            text searches and copied text find only the value. */}
+                        {label ? <span data-label={label} className={`text-xs text-stone-600 before:content-[attr(data-label)] sm:hidden ${key ? 'block' : 'shrink-0 after:content-[":"]'}`} /> : null}
                         <table.FlexRender cell={cell} />
                       </td>
                     );

@@ -26,7 +26,7 @@ export function NavMenu({ items }: { items: NavEntry[] }) {
   return (
     <nav aria-label="Co-op" className="bg-fir-900">
       <div className="mx-auto flex max-w-6xl items-center justify-between gap-2 px-4 py-1 sm:hidden">
-        <span className="truncate text-sm font-semibold text-white">
+        <span className="truncate text-sm font-semibold text-white" data-testid="current-section">
           <span className="sr-only">Section: </span>
           {current?.label ?? 'Co-op'}
         </span>

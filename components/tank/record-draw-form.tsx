@@ -19,9 +19,11 @@ export interface OpenReservationOption { id: number; membershipId: number; membe
  * Records a draw from the pump meter (before/after) or a plain quantity, against a member's open
  * reservation or as a walk-up. In self-serve mode the member is fixed to the signed-in member.
  */
-export function RecordDrawForm({ coopSlug, units, currency, tanks, members, reservations, selfServe }: {
+export function RecordDrawForm({ coopSlug, units, currency, tanks, members, reservations, selfServe, lastMeter = {} }: {
   coopSlug: string; units: UnitSystem; currency: string; tanks: { id: number; name: string }[];
   members: { membershipId: number; name: string }[]; reservations: OpenReservationOption[]; selfServe?: boolean;
+  /** The pump meter's last reading per tank id, in the co-op's units: "meter before" starts there. */
+  lastMeter?: Record<number, number>;
 }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
@@ -32,6 +34,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
   const [mode, setMode] = useState<'meter' | 'quantity'>('meter');
   const errors = prefixedErrors(fields, 'draw');
   const memberReservations = reservations.filter((r) => String(r.membershipId) === memberId);
+  const last = lastMeter[Number(tankId)];
 
   function chooseReservation(id: string) {
     setReservationId(id);
@@ -88,7 +91,8 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
       </fieldset>
       {mode === 'meter' ? (
         <>
-          <TextField label={`Meter before (${unitWord(units)})`} name="draw-meterBefore" inputMode="decimal" autoComplete="off" required errors={errors['draw-meterBefore']} />
+          <TextField key={`meter-${tankId}-${last ?? ''}`} label={`Meter before (${unitWord(units)})`} name="draw-meterBefore" inputMode="decimal" autoComplete="off" required errors={errors['draw-meterBefore']}
+            defaultValue={last === undefined ? undefined : String(last)} hint={last === undefined ? undefined : 'The pump’s last recorded reading; change it if the meter shows otherwise.'} />
           <TextField label={`Meter after (${unitWord(units)})`} name="draw-meterAfter" inputMode="decimal" autoComplete="off" required errors={errors['draw-meterAfter']} />
           {errors['draw-quantity'] ? <p role="alert" className="text-sm text-danger-700 sm:col-span-2">{errors['draw-quantity'].join(' ')}</p> : null}
         </>

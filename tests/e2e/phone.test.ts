@@ -47,7 +47,7 @@ describe('at 360×740', () => {
       await page.goto(`${baseUrl()}/c/${slug}/me`);
       // The compact navigation says where you are and opens the sections.
       const nav = page.getByRole('navigation', { name: 'Co-op' });
-      await nav.getByText('My fuel', { exact: true }).waitFor();
+      await expect(nav.getByTestId('current-section').textContent()).resolves.toBe('Section: My fuel');
       await nav.getByRole('button', { name: 'Menu' }).click();
       await nav.getByRole('link', { name: 'Tank' }).waitFor();
       await checkA11y(page);
@@ -74,7 +74,7 @@ describe('at 360×740', () => {
       await expectOnScreen(page, 'cancelled row', { status: row.getByText('cancelled'), amount: row.getByText('12.0 gal') });
       await checkA11y(page);
     });
-  });
+  }, 150_000);
 
   it('a brewer records a draw and reverses it; the row keeps status, amount and Reverse on screen', async () => {
     await withBrowser(async (page) => {
@@ -94,7 +94,7 @@ describe('at 360×740', () => {
       await expect(form.getByLabel('Member').inputValue()).resolves.toBe('');
       await shot(page, 'draw-recorded');
       const row = page.getByRole('table', { name: 'Draws' }).getByRole('row').filter({ hasText: '$36.00' });
-      await expectOnScreen(page, 'draw row', { status: row.getByText('recorded'), amount: row.getByText('$36.00'), action: row.getByRole('button', { name: /^Reverse draw/ }) });
+      await expectOnScreen(page, 'draw row', { status: row.getByText('recorded'), amount: row.getByText('$36.00', { exact: true }), action: row.getByRole('button', { name: /^Reverse draw/ }) });
       // The tank and member are behind the row's Details button.
       await row.getByRole('button', { name: 'Details' }).click();
       await row.getByText('Barn tank').waitFor();
@@ -112,7 +112,7 @@ describe('at 360×740', () => {
       await page.getByRole('table', { name: 'Draws' }).getByText(/reversed by #/).waitFor();
       await checkA11y(page);
     });
-  });
+  }, 150_000);
 
   it('a treasurer matches a cash payment; invoice status, amount and link stay on screen', async () => {
     const month = monthsAgo(1);
@@ -142,5 +142,5 @@ describe('at 360×740', () => {
       await checkA11y(page);
       await shot(page, 'billing-reconciled');
     });
-  }, 120_000);
+  }, 150_000);
 });
