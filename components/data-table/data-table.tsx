@@ -134,7 +134,7 @@ export function DataTable<Row extends RowData>({
                     const phone = key
                       ? `max-sm:block max-sm:min-w-0 max-sm:p-0 ${id === 'actions' ? 'max-sm:ml-auto' : ''}`
                       : expanded
-                        ? 'max-sm:flex max-sm:basis-full max-sm:gap-2 max-sm:p-0'
+                        ? 'max-sm:order-2 max-sm:flex max-sm:basis-full max-sm:gap-2 max-sm:p-0'
                         : 'max-sm:hidden';
                     return (
                       <td key={cell.id} className={`px-3 py-2 align-top break-words ${phone}`}>
@@ -146,7 +146,7 @@ export function DataTable<Row extends RowData>({
                     );
                   })}
                   {hasDetails ? (
-                    <td className="sm:hidden max-sm:block max-sm:p-0">
+                    <td className="sm:hidden max-sm:order-1 max-sm:block max-sm:p-0">
                       <button type="button" aria-expanded={expanded} onClick={() => setOpen((o) => ({ ...o, [row.id]: !expanded }))}
                         className="min-h-10 rounded-md px-2 text-sm font-semibold text-fir-700 underline-offset-2 hover:underline">
                         {expanded ? 'Hide details' : 'Details'}

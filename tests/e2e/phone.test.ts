@@ -58,8 +58,8 @@ describe('at 360×740', () => {
       await page.getByRole('button', { name: 'Reserve fuel' }).click();
       await expectAnnounced(page, /^Reserved\./);
       const row = page.getByRole('table', { name: 'Reservations' }).getByRole('row').filter({ hasText: '12.0 gal' });
-      await row.getByText('open').waitFor();
-      await expectOnScreen(page, 'reservation row', { status: row.getByText('open'), amount: row.getByText('12.0 gal'), action: row.getByRole('button', { name: /^Cancel reservation/ }) });
+      await row.getByText('open', { exact: true }).waitFor();
+      await expectOnScreen(page, 'reservation row', { status: row.getByText('open', { exact: true }), amount: row.getByText('12.0 gal', { exact: true }), action: row.getByRole('button', { name: /^Cancel reservation/ }) });
       await shot(page, 'me-reserved');
       await checkA11y(page);
 
@@ -70,8 +70,8 @@ describe('at 360×740', () => {
       await shot(page, 'me-cancel-dialog');
       await dialog.getByRole('button', { name: 'Yes, cancel it' }).click();
       await expectAnnounced(page, /Cancelled reservation \d+: 12.0 gal is back for everyone/);
-      await row.getByText('cancelled').waitFor();
-      await expectOnScreen(page, 'cancelled row', { status: row.getByText('cancelled'), amount: row.getByText('12.0 gal') });
+      await row.getByText('cancelled', { exact: true }).waitFor();
+      await expectOnScreen(page, 'cancelled row', { status: row.getByText('cancelled', { exact: true }), amount: row.getByText('12.0 gal', { exact: true }) });
       await checkA11y(page);
     });
   }, 150_000);

@@ -12,7 +12,7 @@ import { formatCents, formatRateCents } from '@/lib/money';
 import { getOverview } from '@/lib/overview';
 import { formatVolume } from '@/lib/units';
 
-const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a margin per gallon', 'cost-plus-percent': 'cost plus a percentage' } as const;
+const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a fixed margin', 'cost-plus-percent': 'cost plus a percentage' } as const;
 
 export default async function OverviewPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
