@@ -1,6 +1,6 @@
 'use client';
 
-import { useId, useRef, useState, type ReactNode } from 'react';
+import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
 import { useAnnounce } from '@/components/shell/announcer';
 import { Button } from './button';
 import { Notice } from './notice';
@@ -53,6 +53,9 @@ export function ConfirmDialog({
   const dialog = useRef<HTMLDialogElement>(null);
   const uid = useId();
   const announce = useAnnounce();
+  // The dialog's content exists only while it is open, so a row's text searches and copy find
+  // the row, not the sentences of a dialog nobody opened.
+  const [isOpen, setIsOpen] = useState(false);
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const [fields, setFields] = useState<Record<string, string[]>>({});
@@ -62,8 +65,11 @@ export function ConfirmDialog({
     if (beforeOpen && !(await beforeOpen())) return;
     setError(null);
     setFields({});
-    dialog.current?.showModal();
+    setIsOpen(true);
   }
+  useEffect(() => {
+    if (isOpen && !dialog.current?.open) dialog.current?.showModal();
+  }, [isOpen]);
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     setBusy(true);
@@ -89,8 +95,8 @@ export function ConfirmDialog({
       <Button type="button" variant={triggerVariant} className={triggerClassName} onClick={open} disabled={disabled} aria-label={triggerLabel} aria-haspopup="dialog">
         {trigger}
       </Button>
-      <dialog ref={dialog} aria-labelledby={`${uid}-title`} className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-xl border border-stone-300 p-0 text-stone-900 shadow-xl backdrop:bg-stone-900/50">
-        <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3 p-4">
+      <dialog ref={dialog} onClose={() => setIsOpen(false)} aria-labelledby={`${uid}-title`} className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-xl border border-stone-300 p-0 text-stone-900 shadow-xl backdrop:bg-stone-900/50">
+        {isOpen ? <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3 p-4">
           <h2 id={`${uid}-title`} className="text-lg font-bold text-fir-900">{title}</h2>
           {error ? <Notice tone="danger">{error}</Notice> : null}
           {typeof children === 'function' ? children(fields, fieldId) : children}
@@ -98,7 +104,7 @@ export function ConfirmDialog({
             <Button type="submit" variant={tone === 'danger' ? 'danger' : 'primary'} disabled={busy}>{busy ? busyLabel : confirmLabel}</Button>
             <Button type="button" variant="secondary" onClick={() => dialog.current?.close()}>{dismissLabel}</Button>
           </div>
-        </form>
+        </form> : null}
       </dialog>
     </>
   );
