@@ -6,6 +6,7 @@ import type { Page } from 'playwright-core';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { formatDate, formatMonthDay, formatTime, formatWhen } from '@/lib/dates';
 import { baseUrl, makeCoopWithRoles, sql, TEST_PASSWORD } from '../support/api';
+import { insertDraw } from '../support/billing';
 import { signInUi, withBrowser } from '../support/browser';
 
 const TZ = 'Asia/Tokyo';
@@ -38,7 +39,8 @@ describe('dates in the co-op’s zone and one style', () => {
     await ctx.agents.brewer.post(`/api/coops/${slug}/tanks/${tank.id}/dips`).send({ measured: '100', reason: 'Opening balance', unitCost: '3.00' }).expect(201);
     await ctx.agents.treasurer.post(`/api/coops/${slug}/pricing`).send({ kind: 'fixed', price: '4.00' }).expect(201);
     const [m] = await sql<{ id: number }>(`SELECT id FROM memberships WHERE user_id = $1`, [ctx.users.member.id]);
-    await ctx.agents.brewer.post(`/api/coops/${slug}/draws`).send({ membershipId: m!.id, tankId: tank.id, quantity: '5', declaredUse: 'off-road', occurredAt: DRAWN_AT }).expect(201);
+    // Inserted as recorded then (the API takes draws under the price in force now): 5 gal at $4.00.
+    await insertDraw({ coopId: ctx.coop.id, tankId: tank.id, membershipId: m!.id, liters: '18.927', occurredAt: DRAWN_AT, use: 'off-road', unitPrice: 400, fuelCents: 2000 });
   });
 
   it('every page an admin sees, viewed from a Los Angeles browser', async () => {

@@ -106,5 +106,5 @@ describe('reserve → draw → see it', () => {
       await shoot(page, 'tank-pricing-treasurer');
       await checkA11y(page);
     });
-  }, 150_000);
+  }, 240_000);
 });
