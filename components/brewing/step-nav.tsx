@@ -11,8 +11,8 @@ export const STEP_ANCHORS: Record<string, string> = {
 
 /**
  * The batch's steps, pinned to the top of the screen while the long record scrolls, each a link
- * to its card; "What's next" jumps to the actions. On a phone one line says "Step 3 of 8 ·
- * Settling" and "Jump to" opens the list (no sideways-scrolling strip). The current step carries
+ * to its card; "Next" jumps to the actions. On a phone one line says "Step 3 of 8 ·
+ * Settling" and "Steps" opens the list (no sideways-scrolling strip). The current step carries
  * aria-current="step".
  */
 export function StepNav({ status, hasActions }: { status: string; hasActions: boolean }) {
@@ -25,12 +25,12 @@ export function StepNav({ status, hasActions }: { status: string; hasActions: bo
   return (
     <nav aria-label="Batch steps" className="sticky top-0 z-20 -mx-4 border-b border-stone-200 bg-white/95 px-4 py-2 shadow-sm backdrop-blur">
       <div className="flex items-center justify-between gap-2 sm:hidden">
-        <span className="text-sm font-semibold text-fir-900">Step {at + 1} of {steps.length} · {STATUS_LABELS[status] ?? status}</span>
-        <span className="flex gap-2">
-          {hasActions ? <a href="#step-next" className="inline-flex min-h-10 items-center rounded-md bg-fir-700 px-3 text-sm font-semibold text-white no-underline">What’s next</a> : null}
+        <span className="min-w-0 text-sm font-semibold text-fir-900">Step {at + 1} of {steps.length} · {STATUS_LABELS[status] ?? status}</span>
+        <span className="flex shrink-0 gap-2">
+          {hasActions ? <a href="#step-next" aria-label="Next step actions" className="inline-flex min-h-10 items-center whitespace-nowrap rounded-md bg-fir-700 px-3 text-sm font-semibold text-white no-underline">Next</a> : null}
           <button type="button" aria-expanded={open} aria-controls="batch-steps" onClick={() => setOpen((o) => !o)}
-            className="inline-flex min-h-10 items-center rounded-md border border-stone-300 px-3 text-sm font-semibold text-stone-900">
-            Jump to <span aria-hidden="true" className="ml-1">{open ? '▴' : '▾'}</span>
+            className="inline-flex min-h-10 items-center whitespace-nowrap rounded-md border border-stone-300 px-3 text-sm font-semibold text-stone-900">
+            Steps <span aria-hidden="true" className="ml-1">{open ? '▴' : '▾'}</span>
           </button>
         </span>
       </div>
