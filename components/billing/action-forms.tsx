@@ -7,6 +7,8 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-form';
 import { formatCents } from '@/lib/money/format';
+import { ConfirmDialog } from '@/components/ui/confirm-dialog';
+import { useAnnounce } from '@/components/shell/announcer';
 
 /** Voids an issued invoice by a credit note; asks for the reason. */
 export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invoiceId: number; label: string }) {
@@ -110,12 +112,16 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
 /** Matches an unmatched payment to one of the payer's invoices, or holds it as credit. */
 export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop: string; paymentId: number; invoices: OpenInvoiceOption[]; currency: string }) {
   const router = useRouter();
+  const announce = useAnnounce();
   const { busy, fields, message, submit } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const target = formObject(e.currentTarget).target ?? '';
     const out = await submit(`/api/coops/${coop}/billing/payments/${paymentId}/match`, 'POST', { invoiceId: target === 'credit' ? null : Number(target) });
-    if (out) router.refresh();
+    if (!out) return;
+    const inv = invoices.find((i) => String(i.id) === target);
+    announce({ tone: 'ok', text: inv ? `Payment matched to ${inv.label}.` : 'Payment held as the member’s credit.' });
+    router.refresh();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2 sm:flex-row sm:items-end">
@@ -129,26 +135,31 @@ export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop
   );
 }
 
-/** Refunds money held for the member from one payment (card ones through the payment service). */
-export function RefundForm({ coop, paymentId, refundableCents, method, currency }: { coop: string; paymentId: number; refundableCents: number; method: string; currency: string }) {
+/** Refunds money held for the member from one payment (card ones through the payment service), after the confirmation dialog. */
+export function RefundForm({ coop, paymentId, refundableCents, method, currency, payer }: { coop: string; paymentId: number; refundableCents: number; method: string; currency: string; payer?: string }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
-  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = formObject(e.currentTarget);
-    const out = await submit(`/api/coops/${coop}/billing/payments/${paymentId}/refunds`, 'POST', { amount: f.amount ?? '', reason: f.reason ?? '' }, 'Refund recorded.');
-    if (out) router.refresh();
-  }
+  const most = formatCents(refundableCents, currency);
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2">
-      <p className="text-xs text-stone-600">
-        Up to {formatCents(refundableCents, currency)} can be given back{method === 'card' ? ' to the card' : ' in cash'}.
-      </p>
-      <TextField label="Amount to refund" id={`refund-amount-${paymentId}`} name="amount" inputMode="decimal" required errors={fields.amount} />
-      <TextField label="Reason" id={`refund-reason-${paymentId}`} name="reason" required maxLength={240} errors={fields.reason} />
-      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
-      <div><Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Refunding…' : 'Refund'}</Button></div>
-    </form>
+    <ConfirmDialog
+      trigger="Refund…" triggerLabel={`Refund payment ${paymentId}`} triggerClassName="min-h-10 px-3 text-xs"
+      title={`Refund ${payer ? `${payer}’s` : 'this'} payment?`} confirmLabel="Refund — can’t be undone" busyLabel="Refunding…"
+      onConfirm={async (d) => {
+        const r = await sendJson(`/api/coops/${coop}/billing/payments/${paymentId}/refunds`, 'POST', { amount: String(d.get('amount') ?? ''), reason: String(d.get('reason') ?? '') });
+        if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
+        router.refresh();
+        return { ok: true, message: `Refund recorded${method === 'card' ? ': it goes back to the card' : ''}.` };
+      }}
+    >
+      {(fields, id) => (
+        <>
+          <p className="text-sm text-stone-700">
+            Up to {most} can be given back{method === 'card' ? ' to the card, through the payment service' : ' in cash'}. It comes out of the money not matched to an invoice, then the member’s credit. A refund can’t be taken back.
+          </p>
+          <TextField label="Amount to refund" id={id('amount')} name="amount" inputMode="decimal" required errors={fields.amount} autoComplete="off" />
+          <TextField label="Reason" id={id('reason')} name="reason" required maxLength={240} errors={fields.reason} autoComplete="off" />
+        </>
+      )}
+    </ConfirmDialog>
   );
 }
 
@@ -195,40 +206,30 @@ export function AdjustmentForm({ coop, members, currency, currentPeriod }: { coo
   );
 }
 
-/** Closes and locks the month after an explicit confirmation; lists what blocks it if refused. */
+/** Closes and locks the month after the confirmation dialog; says what blocks it if refused. */
 export function CloseMonthForm({ coop, period, label }: { coop: string; period: string; label: string }) {
   const router = useRouter();
-  const [busy, setBusy] = useState(false);
-  const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string; blockers: string[] } | null>(null);
-  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    setBusy(true);
-    setMessage(null);
-    const confirmed = formObject(e.currentTarget).confirm === 'yes';
-    const r = await sendJson<unknown>(`/api/coops/${coop}/billing/periods/${period}/close`, 'POST', confirmed ? { confirm: true } : {});
-    setBusy(false);
-    if (r.ok) {
-      setMessage({ tone: 'ok', text: `${label} is closed.`, blockers: [] });
-      router.refresh();
-      return;
-    }
-    const blockers = Array.isArray(r.body.blockers) ? (r.body.blockers as string[]) : [];
-    setMessage({ tone: 'danger', text: r.fields.confirm?.[0] ?? r.error, blockers });
-  }
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
-      <label className="flex items-start gap-2 text-sm">
-        <input type="checkbox" name="confirm" value="yes" className="mt-0.5 h-5 w-5 accent-fir-700" aria-describedby="close-help" />
-        <span>I have checked this month. Lock its draws, invoices and payments.</span>
-      </label>
-      <p id="close-help" className="text-xs text-stone-600">After closing, nothing in {label} can change. Unpaid invoices stay payable; corrections become adjustments in an open month.</p>
-      {message ? (
-        <Notice tone={message.tone}>
-          {message.text}
-          {message.blockers.length ? <ul className="mt-1 list-disc pl-5">{message.blockers.map((b) => <li key={b}>{b}</li>)}</ul> : null}
-        </Notice>
-      ) : null}
-      <div><Button type="submit" disabled={busy}>{busy ? 'Closing…' : `Close ${label}`}</Button></div>
-    </form>
+    <div className="flex flex-col gap-2">
+      <p className="text-sm text-stone-700">After closing, nothing in {label} can change. Unpaid invoices stay payable; corrections become adjustments in an open month.</p>
+      <div>
+        <ConfirmDialog
+          trigger={`Close ${label}…`} triggerVariant="primary" title={`Close ${label}?`} confirmLabel={`Close and lock ${label}`} busyLabel="Closing…" tone="primary"
+          onConfirm={async () => {
+            const r = await sendJson<unknown>(`/api/coops/${coop}/billing/periods/${period}/close`, 'POST', { confirm: true });
+            if (r.ok) {
+              router.refresh();
+              return { ok: true, message: `${label} is closed: its draws, invoices and payments are locked.` };
+            }
+            const blockers = Array.isArray(r.body.blockers) ? (r.body.blockers as string[]) : [];
+            return { ok: false, error: blockers.length ? `${r.error} ${blockers.join(' ')}` : r.error };
+          }}
+        >
+          <p className="text-sm text-stone-700">
+            Closing locks {label}’s draws, invoices and payments for good, so the figures the accountant gets stay the same. Unpaid invoices can still be paid; any correction becomes an adjustment in an open month. <strong>It can’t be undone.</strong>
+          </p>
+        </ConfirmDialog>
+      </div>
+    </div>
   );
 }

@@ -24,16 +24,17 @@ export function InvoicesTable({
   const columns: DataColumn<InvoiceSummary>[] = [
     col.accessor('number', {
       id: 'number',
+      meta: { priority: 'key' },
       header: 'Number',
       cell: (c) => <Link href={href(c.row.original.id)} className="font-semibold">{c.row.original.label ?? 'Draft'}</Link>,
     }),
     ...(variant === 'treasurer'
       ? [col.accessor('memberName', { id: 'member', header: 'Member', cell: (c) => c.getValue() })]
       : [col.accessor('period', { id: 'period', header: 'Month', cell: (c) => periodLabel(c.getValue()) })]),
-    col.accessor('totalCents', { id: 'total', header: 'Total', cell: (c) => <span className="tabular-nums">{money(c.getValue())}</span> }),
+    col.accessor('totalCents', { meta: { priority: 'key' }, id: 'total', header: 'Total', cell: (c) => <span className="tabular-nums">{money(c.getValue())}</span> }),
     col.accessor('paidCents', { id: 'paid', header: 'Paid', cell: (c) => <span className="tabular-nums">{money(c.getValue())}</span> }),
-    col.accessor('outstandingCents', { id: 'outstanding', header: 'Due', cell: (c) => <span className="tabular-nums font-semibold">{money(c.getValue())}</span> }),
-    col.accessor('status', { id: 'status', header: 'Status', cell: (c) => <InvoiceStatusBadge status={c.getValue()} kind={c.row.original.kind} overdue={c.row.original.overdue} /> }),
+    col.accessor('outstandingCents', { meta: { priority: 'key' }, id: 'outstanding', header: 'Due', cell: (c) => <span className="tabular-nums font-semibold">{money(c.getValue())}</span> }),
+    col.accessor('status', { meta: { priority: 'key' }, id: 'status', header: 'Status', cell: (c) => <InvoiceStatusBadge status={c.getValue()} kind={c.row.original.kind} overdue={c.row.original.overdue} /> }),
     col.accessor('dueOn', { id: 'dueOn', header: 'Due by', cell: (c) => (c.getValue() && c.row.original.kind === 'invoice' ? formatDateIn(c.getValue()!, timezone) : '—') }),
     ...(variant === 'treasurer' ? [col.accessor('emailStatus', { id: 'email', header: 'E-mail', cell: (c) => <EmailStatusText status={c.getValue()} /> })] : []),
   ];

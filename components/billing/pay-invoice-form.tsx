@@ -39,10 +39,10 @@ export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coo
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
       <Notice title="Development build: test cards only">
-        Choose one of the payment service’s test cards. No real card details are ever entered or stored here; a live installation would show the payment provider’s own secure card field (Stripe Elements) instead.
+        Choose a test card to see how paying works. No real card details are entered or kept here; a live installation asks for the card on the payment service’s own secure page.
       </Notice>
-      <SelectField label="Card" name="card" defaultValue={TEST_CARDS[0].token} errors={fieldErrors}>
-        {TEST_CARDS.map((c) => <option key={c.token} value={c.token}>{c.label}</option>)}
+      <SelectField label="Card" name="card" defaultValue={TEST_CARDS[0].id} errors={fieldErrors}>
+        {TEST_CARDS.map((c) => <option key={c.id} value={c.id}>{c.label}</option>)}
       </SelectField>
       {result ? <Notice tone={result.tone}>{result.text}</Notice> : null}
       <div>

@@ -17,10 +17,10 @@ export function PaymentsTable({ rows, pageInfo, coop, currency, timezone, openIn
 }) {
   const money = (c: number) => formatCents(c, currency);
   const columns: DataColumn<PaymentDTO>[] = [
-    col.accessor('receivedOn', { id: 'received', header: 'Received', cell: (c) => formatDateIn(c.getValue(), timezone) }),
-    col.accessor('memberName', { id: 'member', header: 'Member', cell: (c) => c.getValue() }),
+    col.accessor('receivedOn', { meta: { priority: 'key' }, id: 'received', header: 'Received', cell: (c) => formatDateIn(c.getValue(), timezone) }),
+    col.accessor('memberName', { meta: { priority: 'key' }, id: 'member', header: 'Member', cell: (c) => c.getValue() }),
     col.accessor('method', { id: 'method', header: 'Method', cell: (c) => <>{METHOD_LABEL[c.getValue()]}{c.row.original.reference ? <span className="block text-xs text-stone-600">{c.row.original.reference}</span> : null}</> }),
-    col.accessor('amountCents', { id: 'amount', header: 'Amount', cell: (c) => <span className="tabular-nums font-semibold">{money(c.getValue())}</span> }),
+    col.accessor('amountCents', { meta: { priority: 'key' }, id: 'amount', header: 'Amount', cell: (c) => <span className="tabular-nums font-semibold">{money(c.getValue())}</span> }),
     col.display({
       id: 'where',
       header: 'Went to',
@@ -43,6 +43,7 @@ export function PaymentsTable({ rows, pageInfo, coop, currency, timezone, openIn
     }),
     col.display({
       id: 'actions',
+      meta: { priority: 'key' },
       header: 'Actions',
       cell: (c) => {
         const p = c.row.original;
@@ -53,10 +54,7 @@ export function PaymentsTable({ rows, pageInfo, coop, currency, timezone, openIn
               <MatchPaymentForm coop={coop} paymentId={p.id} invoices={openInvoices.filter((i) => i.memberId === p.memberId)} currency={currency} />
             ) : null}
             {p.refundableCents > 0 ? (
-              <details>
-                <summary className="cursor-pointer text-sm font-medium text-fir-700">Refund…</summary>
-                <div className="mt-2"><RefundForm coop={coop} paymentId={p.id} refundableCents={p.refundableCents} method={p.method} currency={currency} /></div>
-              </details>
+              <div><RefundForm coop={coop} paymentId={p.id} refundableCents={p.refundableCents} method={p.method} currency={currency} payer={p.memberName ?? undefined} /></div>
             ) : null}
           </div>
         );

@@ -18,13 +18,15 @@ export function BatchTable({ rows, slug, units, currency, pageInfo }: { rows: Ba
   const columns: DataColumn<BatchTableRow>[] = [
     col.accessor('number', {
       id: 'number',
+      meta: { priority: 'key' },
       header: 'Batch',
       cell: (c) => <Link className="font-semibold" href={`/c/${slug}/batches/${c.row.original.id}`}>Batch {c.getValue()}</Link>,
     }),
     col.accessor('batchDate', { id: 'date', header: 'Date', cell: (c) => dateText(c.getValue()) }),
-    col.accessor('status', { id: 'status', header: 'Status', cell: (c) => <StatusBadge status={c.getValue()} /> }),
+    col.accessor('status', { meta: { priority: 'key' }, id: 'status', header: 'Status', cell: (c) => <StatusBadge status={c.getValue()} /> }),
     col.accessor('releasedLiters', {
       id: 'volume',
+      meta: { priority: 'key' },
       header: 'Released',
       cell: (c) => (c.getValue() == null ? <span className="text-stone-600">— ({vol(c.row.original.oilLiters, units)} oil)</span> : vol(c.getValue(), units)),
     }),

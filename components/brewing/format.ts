@@ -1,4 +1,5 @@
 // Display helpers for the brewing screens (pure: safe in server and client components).
+import { formatDate } from '@/lib/dates';
 import { formatCents } from '@/lib/money';
 import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
 
@@ -44,8 +45,7 @@ export function grams(g: number | null | undefined): string {
   return g >= 1000 ? `${(g / 1000).toLocaleString('en-US', { maximumFractionDigits: 3 })} kg` : `${g.toLocaleString('en-US', { maximumFractionDigits: 1 })} g`;
 }
 
-export function dateText(iso: string | null | undefined): string {
-  if (!iso) return '—';
-  const d = iso.length === 10 ? new Date(`${iso}T12:00:00Z`) : new Date(iso);
-  return new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', timeZone: iso.length === 10 ? 'UTC' : undefined }).format(d);
+/** A day ("Dec 3, 2026"); a moment is shown in `timeZone` (the co-op's), a bare date as itself. */
+export function dateText(iso: string | null | undefined, timeZone = 'UTC'): string {
+  return iso ? formatDate(iso, timeZone) : '—';
 }

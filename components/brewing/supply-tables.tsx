@@ -25,10 +25,10 @@ export function ChemicalTable({ rows, slug, units, currency, pageInfo, canWrite 
   const amount = (r: ChemicalRow, q: number) => (r.unit === 'L' ? vol(q, units, 2) : grams(q));
   const columns: DataColumn<ChemicalRow>[] = [
     chem.accessor('receivedOn', { id: 'receivedOn', header: 'Received', cell: (c) => dateText(c.getValue()) }),
-    chem.accessor('kind', { id: 'kind', header: 'Chemical', cell: (c) => `${c.getValue() === 'other' ? c.row.original.description : c.getValue() === 'methanol' ? 'Methanol' : c.getValue()}${c.row.original.purityPct !== null ? ` (${c.row.original.purityPct} %)` : ''}` }),
+    chem.accessor('kind', { meta: { priority: 'key' }, id: 'kind', header: 'Chemical', cell: (c) => `${c.getValue() === 'other' ? c.row.original.description : c.getValue() === 'methanol' ? 'Methanol' : c.getValue()}${c.row.original.purityPct !== null ? ` (${c.row.original.purityPct} %)` : ''}` }),
     chem.accessor('supplier', { id: 'supplier', header: 'Supplier' }),
     chem.accessor('quantity', { id: 'quantity', header: 'Bought', cell: (c) => amount(c.row.original, c.getValue()) }),
-    chem.accessor('remaining', { id: 'remaining', header: 'Left', cell: (c) => amount(c.row.original, c.getValue()) }),
+    chem.accessor('remaining', { meta: { priority: 'key' }, id: 'remaining', header: 'Left', cell: (c) => amount(c.row.original, c.getValue()) }),
     chem.accessor('totalCostCents', { id: 'cost', header: 'Cost', cell: (c) => money(c.getValue(), currency) }),
     chem.display({
       id: 'sds',
@@ -46,9 +46,9 @@ export function ChemicalTable({ rows, slug, units, currency, pageInfo, canWrite 
 export function OilTable({ rows, units, currency, pageInfo }: { rows: OilRow[]; units: UnitSystem; currency: string; pageInfo: PageInfo }) {
   const columns: DataColumn<OilRow>[] = [
     oil.accessor('collectedOn', { id: 'collectedOn', header: 'Collected', cell: (c) => dateText(c.getValue()) }),
-    oil.accessor('collectedFrom', { id: 'collectedFrom', header: 'From' }),
+    oil.accessor('collectedFrom', { meta: { priority: 'key' }, id: 'collectedFrom', header: 'From' }),
     oil.accessor('volumeLiters', { id: 'volume', header: 'Volume', cell: (c) => vol(c.getValue(), units) }),
-    oil.accessor('remainingLiters', { id: 'remainingLiters', header: 'Left', cell: (c) => vol(c.getValue(), units) }),
+    oil.accessor('remainingLiters', { meta: { priority: 'key' }, id: 'remainingLiters', header: 'Left', cell: (c) => vol(c.getValue(), units) }),
     oil.accessor('titrationMl', { id: 'titration', header: 'Titration', cell: (c) => (c.getValue() === null ? '—' : `${c.getValue()} mL ${c.row.original.titrant ?? ''}`) }),
     oil.accessor('costCents', { id: 'cost', header: 'Cost', cell: (c) => money(c.getValue(), currency) }),
     oil.display({ id: 'notes', header: 'Water / solids', cell: (c) => [c.row.original.waterNotes, c.row.original.solidsNotes].filter(Boolean).join(' · ') || '—' }),

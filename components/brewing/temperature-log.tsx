@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { formatTime, formatWhen } from '@/lib/dates';
 import { temperatureCheck, type TemperatureLevel } from '@/lib/chemistry';
 import { formatTemp, tempLabel, tempToC, type UnitSystem } from '@/lib/units';
 
@@ -18,7 +19,7 @@ const LEVEL_TEXT: Record<TemperatureLevel, string> = { ok: 'In range', cold: 'Co
  * Reaction temperature readings. The check (lib/chemistry temperatureCheck) shows while a
  * reading is typed and again as saved; it never calls a reading safe.
  */
-export function TemperatureLog({ url, readings, units, readOnly, elevationM = 0 }: { url: string; readings: Reading[]; units: UnitSystem; readOnly?: boolean; elevationM?: number }) {
+export function TemperatureLog({ url, readings, units, timeZone, readOnly, elevationM = 0 }: { url: string; readings: Reading[]; units: UnitSystem; timeZone: string; readOnly?: boolean; elevationM?: number }) {
   const router = useRouter();
   const { busy, fields, message, submit } = useApiForm();
   const [typed, setTyped] = useState('');
@@ -40,7 +41,7 @@ export function TemperatureLog({ url, readings, units, readOnly, elevationM = 0 
         <ol className="flex flex-col gap-1 text-sm" aria-label="Temperature readings">
           {readings.map((r) => (
             <li key={r.id} className="flex flex-wrap items-baseline gap-2 border-b border-stone-100 py-1">
-              <span className="w-28 text-stone-600">{new Date(r.measuredAt).toLocaleTimeString('en-US', { hour: 'numeric', minute: '2-digit' })}</span>
+              <time className="w-28 text-stone-600" dateTime={r.measuredAt} title={formatWhen(r.measuredAt, timeZone)}>{formatTime(r.measuredAt, timeZone)}</time>
               <span className="w-20 font-semibold">{formatTemp(r.tempC, units, 1)}</span>
               <span className={`rounded px-1.5 text-xs font-semibold ${r.level === 'ok' ? 'bg-ok-50 text-ok-700' : r.level === 'danger' ? 'bg-danger-50 text-danger-700' : r.level === 'warning' ? 'bg-warn-50 text-warn-700' : 'bg-fir-50 text-fir-900'}`}>{LEVEL_TEXT[r.level]}</span>
               {r.level !== 'ok' ? <span className="basis-full text-stone-700 sm:basis-auto">{r.message}</span> : null}
@@ -48,7 +49,7 @@ export function TemperatureLog({ url, readings, units, readOnly, elevationM = 0 
           ))}
         </ol>
       ) : (
-        <p className="text-sm text-stone-600">No readings yet. The usual reaction range is 130–135 °F (about 55 °C).</p>
+        <p className="text-sm text-stone-600">No readings yet. The usual reaction range is {units === 'us' ? '130–135 °F' : '54–57 °C'}.</p>
       )}
       {readOnly ? null : (
         <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2">

@@ -1,5 +1,6 @@
 'use client';
 
+import { xText } from './x-text';
 import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { ChartFrame } from './chart-frame';
 import { SERIES_COLORS } from './palette';
@@ -42,7 +43,7 @@ export function BarChartCard({
           <ResponsiveContainer width="100%" height="100%">
             <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
               <CartesianGrid strokeDasharray="3 3" stroke="#e7e5e4" />
-              <XAxis dataKey={xKey} tick={{ fontSize: 12, fill: '#44403c' }} />
+              <XAxis dataKey={xKey} tickFormatter={xText} tick={{ fontSize: 12, fill: '#44403c' }} />
               <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />
               <Tooltip formatter={(v) => format(Number(v))} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
@@ -65,7 +66,7 @@ export function BarChartCard({
           <tbody>
             {data.map((d) => (
               <tr key={String(d[xKey])} className="border-b border-stone-100">
-                <th scope="row" className="py-1 pr-3 font-medium">{d[xKey]}</th>
+                <th scope="row" className="py-1 pr-3 font-medium">{xText(d[xKey])}</th>
                 {series.map((s) => <td key={s.key} className="py-1 pr-3 text-right tabular-nums">{format(Number(d[s.key] ?? 0))}</td>)}
               </tr>
             ))}

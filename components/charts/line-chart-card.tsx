@@ -1,5 +1,6 @@
 'use client';
 
+import { xText } from './x-text';
 import { CartesianGrid, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { ChartFrame } from './chart-frame';
 import { SERIES_COLORS } from './palette';
@@ -24,7 +25,7 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
           <ResponsiveContainer width="100%" height="100%">
             <LineChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
               <CartesianGrid strokeDasharray="3 3" stroke="#e7e5e4" />
-              <XAxis dataKey={xKey} tick={{ fontSize: 11, fill: '#44403c' }} minTickGap={24} />
+              <XAxis dataKey={xKey} tickFormatter={xText} tick={{ fontSize: 11, fill: '#44403c' }} minTickGap={24} />
               <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />
               <Tooltip formatter={(v) => format(Number(v))} />
               <Line isAnimationActive={false} type="stepAfter" dataKey={yKey} name={seriesLabel} stroke={SERIES_COLORS[0]} strokeWidth={2} dot={false} />
@@ -44,7 +45,7 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
           <tbody>
             {data.map((d) => (
               <tr key={String(d[xKey])} className="border-b border-stone-100">
-                <th scope="row" className="py-1 pr-3 font-medium">{d[xKey]}</th>
+                <th scope="row" className="py-1 pr-3 font-medium">{xText(d[xKey])}</th>
                 <td className="py-1 pr-3 text-right tabular-nums">{format(Number(d[yKey] ?? 0))}</td>
               </tr>
             ))}

@@ -2,13 +2,26 @@
 
 import Link from 'next/link';
 import { usePathname, useSearchParams } from 'next/navigation';
-import { tableFeatures, useTable, type ColumnDef, type RowData } from '@tanstack/react-table';
-import type { ReactNode } from 'react';
+import { tableFeatures, useTable, type CellData, type ColumnDef, type RowData, type TableFeatures } from '@tanstack/react-table';
+import { useState, type ReactNode } from 'react';
 
 export const tableFeaturesBasic = tableFeatures({});
 export type Features = typeof tableFeaturesBasic;
 /** Column definitions for DataTable: build them with createColumnHelper<Features, Row>(). */
 export type DataColumn<Row extends RowData> = ColumnDef<Features, Row, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
+
+declare module '@tanstack/table-core' {
+  // eslint-disable-next-line @typescript-eslint/no-unused-vars
+  interface ColumnMeta<in out TFeatures extends TableFeatures, in out TData extends RowData, TValue extends CellData = CellData> {
+    /**
+     * 'key': always shown on a phone (status, amount, the row's action and what names the row);
+     * every other column goes behind the row's "Details" button there.
+     */
+    priority?: 'key';
+    /** The label shown beside the value on a phone when the header is not plain text. */
+    label?: string;
+  }
+}
 
 export interface PageInfo {
   page: number;
@@ -16,10 +29,18 @@ export interface PageInfo {
   total: number;
 }
 
+/** Column ids treated as key when a table declares no priorities at all. */
+const DEFAULT_KEY_IDS = new Set(['status', 'actions', 'total', 'amount', 'quantity']);
+
 /**
  * One table for every list in the app, over @tanstack/react-table. Sorting and paging live in
  * the URL (`?sort=col&dir=asc&page=2`) and are done by the server; `sortable` names the column
- * ids the server accepts. Wide tables scroll sideways inside their box on phones.
+ * ids the server accepts.
+ *
+ * On a phone (below 640 px) each row becomes a card: columns whose `meta.priority` is 'key'
+ * stay visible with their label, the rest open under the row's "Details" button — so status,
+ * amount and the row's action never need sideways scrolling. Without any declared priority the
+ * first column plus status, amount/total/quantity and actions are key.
  */
 export function DataTable<Row extends RowData>({
   columns,
@@ -41,6 +62,7 @@ export function DataTable<Row extends RowData>({
   const table = useTable({ features: tableFeaturesBasic, columns, data, getRowId: getRowId ? (r: Row) => getRowId(r) : undefined });
   const params = useSearchParams();
   const pathname = usePathname();
+  const [open, setOpen] = useState<Record<string, boolean>>({});
   const sort = params.get('sort');
   const dir = params.get('dir') === 'desc' ? 'desc' : 'asc';
   const href = (changes: Record<string, string | null>) => {
@@ -59,14 +81,28 @@ export function DataTable<Row extends RowData>({
       </div>
     );
   }
+
+  const leaf = table.getAllLeafColumns();
+  const declared = leaf.some((c) => c.columnDef.meta?.priority);
+  const isKey = (id: string, index: number) => {
+    const c = leaf.find((l) => l.id === id);
+    return declared ? c?.columnDef.meta?.priority === 'key' : index === 0 || DEFAULT_KEY_IDS.has(id);
+  };
+  const keyIds = new Set(leaf.filter((c, i) => isKey(c.id, i)).map((c) => c.id));
+  const hasDetails = leaf.some((c) => !keyIds.has(c.id));
+  const labelOf = (id: string) => {
+    const def = leaf.find((l) => l.id === id)?.columnDef;
+    return def?.meta?.label ?? (typeof def?.header === 'string' ? def.header : null);
+  };
+
   return (
     <div className="overflow-hidden rounded-xl border border-stone-200 bg-white shadow-sm">
-      {/* Focusable so keyboard users can scroll a wide table sideways on a phone; relative keeps
-          visually hidden (absolute) header text inside the scroll box. */}
+      {/* Focusable so keyboard users can scroll a wide table sideways on a tablet; on a phone rows
+          are cards and nothing scrolls. relative keeps visually hidden header text inside the box. */}
       <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
-        <table className="w-full min-w-[36rem] border-collapse text-left text-sm">
+        <table className="w-full border-collapse text-left text-sm max-sm:block sm:min-w-[36rem]">
           <caption className="sr-only">{caption}</caption>
-          <thead className="bg-stone-100 text-xs uppercase tracking-wide text-stone-700">
+          <thead className="bg-stone-100 text-xs uppercase tracking-wide text-stone-700 max-sm:hidden">
             {table.getHeaderGroups().map((group) => (
               <tr key={group.id}>
                 {group.headers.map((header) => {
@@ -89,16 +125,40 @@ export function DataTable<Row extends RowData>({
               </tr>
             ))}
           </thead>
-          <tbody>
-            {table.getRowModel().rows.map((row) => (
-                <tr key={row.id} className="border-t border-stone-100 hover:bg-stone-50">
-                  {row.getAllCells().map((cell) => (
-                    <td key={cell.id} className="px-3 py-2 align-top">
-                      <table.FlexRender cell={cell} />
+          <tbody className="max-sm:block">
+            {table.getRowModel().rows.map((row) => {
+              const expanded = open[row.id] === true;
+              return (
+                <tr key={row.id} className="border-t border-stone-100 hover:bg-stone-50 max-sm:flex max-sm:flex-wrap max-sm:items-end max-sm:gap-x-4 max-sm:gap-y-2 max-sm:px-3 max-sm:py-3 max-sm:first:border-t-0">
+                  {row.getAllCells().map((cell) => {
+                    const id = cell.column.id;
+                    const key = keyIds.has(id);
+                    const label = id === 'actions' ? null : labelOf(id);
+                    const phone = key
+                      ? `max-sm:block max-sm:min-w-0 max-sm:p-0 ${id === 'actions' ? 'max-sm:ml-auto' : ''}`
+                      : expanded
+                        ? 'max-sm:order-2 max-sm:flex max-sm:basis-full max-sm:gap-2 max-sm:p-0'
+                        : 'max-sm:hidden';
+                    return (
+                      <td key={cell.id} className={`px-3 py-2 align-top break-words ${phone}`}>
+                        {/* The label is generated content (data-label), so a phone reader hears it with the value while
+                            text searches and copied text find only the value. */}
+                        {label ? <span data-label={label} className={`text-xs text-stone-600 before:content-[attr(data-label)] sm:hidden ${key ? 'block' : 'shrink-0 after:content-[":"]'}`} /> : null}
+                        <table.FlexRender cell={cell} />
+                      </td>
+                    );
+                  })}
+                  {hasDetails ? (
+                    <td className="sm:hidden max-sm:order-1 max-sm:block max-sm:p-0">
+                      <button type="button" aria-expanded={expanded} onClick={() => setOpen((o) => ({ ...o, [row.id]: !expanded }))}
+                        className="min-h-10 rounded-md px-2 text-sm font-semibold text-fir-700 underline-offset-2 hover:underline">
+                        {expanded ? 'Hide details' : 'Details'}
+                      </button>
                     </td>
-                  ))}
+                  ) : null}
                 </tr>
-              ))}
+              );
+            })}
           </tbody>
         </table>
       </div>
@@ -111,7 +171,7 @@ function Pager({ pageInfo, href }: { pageInfo: PageInfo; href: (c: Record<string
   const pages = Math.max(1, Math.ceil(pageInfo.total / pageInfo.pageSize));
   const { page } = pageInfo;
   return (
-    <nav aria-label="Pages" className="flex items-center justify-between gap-2 border-t border-stone-200 px-3 py-2 text-sm">
+    <nav aria-label="Pages" className="flex flex-wrap items-center justify-between gap-2 border-t border-stone-200 px-3 py-2 text-sm">
       <span className="text-stone-600">
         Page {page} of {pages} · {pageInfo.total} rows
       </span>

@@ -1,6 +1,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import type { DataColumn, Features } from '@/components/data-table/data-table';
-import { ROLES, type Role } from '@/lib/auth/roles';
+import { ConfirmDialog, type ConfirmOutcome } from '@/components/ui/confirm-dialog';
+import { ROLES, ROLE_SUMMARY, withArticle, type Role } from '@/lib/auth/roles';
 import type { MemberDto } from '@/lib/members';
 
 /** A members-table row as the page hands it to the client (dates already worded in the co-op's zone). */
@@ -11,12 +12,12 @@ export type MemberRow = Pick<MemberDto, 'id' | 'name' | 'email' | 'role' | 'stat
 };
 
 export interface MemberActions {
-  busyId: number | null;
-  confirmingRemove: number | null;
-  setRole: (row: MemberRow, role: Role) => void;
-  setStatus: (row: MemberRow, status: 'active' | 'suspended') => void;
-  askRemove: (row: MemberRow | null) => void;
-  remove: (row: MemberRow) => void;
+  /** A role chosen in a row's dropdown but not saved yet. */
+  pendingRole: Record<number, Role>;
+  pickRole: (row: MemberRow, role: Role) => void;
+  saveRole: (row: MemberRow, role: Role) => Promise<ConfirmOutcome>;
+  setStatus: (row: MemberRow, status: 'active' | 'suspended') => Promise<ConfirmOutcome>;
+  remove: (row: MemberRow) => Promise<ConfirmOutcome>;
 }
 
 const h = createColumnHelper<Features, MemberRow>();
@@ -28,10 +29,17 @@ const badge = (status: MemberRow['status']) =>
     <span className="inline-block rounded-full bg-warn-50 px-2 py-0.5 text-xs font-semibold text-warn-700">Suspended</span>
   );
 
-/** Columns of the members table; the ids match the server's sort keys. */
+const small = 'min-h-10 px-3 text-xs';
+
+/**
+ * Columns of the members table; the ids match the server's sort keys. A role is chosen in the
+ * dropdown and saved by its own button; saving, suspending and removing are confirmed in a dialog
+ * that says what changes for the person.
+ */
 export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
   return [
     h.accessor('name', {
+      meta: { priority: 'key' },
       header: 'Name',
       cell: ({ row }) => (
         <span className="font-medium text-stone-900">
@@ -40,65 +48,75 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
         </span>
       ),
     }),
-    h.accessor('email', { header: 'E-mail', cell: ({ row }) => <span className="whitespace-nowrap">{row.original.email}</span> }),
+    h.accessor('email', { header: 'E-mail', cell: ({ row }) => <span className="break-all">{row.original.email}</span> }),
     h.accessor('role', {
+      meta: { priority: 'key' },
       header: 'Role',
       cell: ({ row }) => {
         const r = row.original;
+        const chosen = a.pendingRole[r.id] ?? r.role;
         return (
-          <select
-            aria-label={`Role of ${r.name}`}
-            className="min-h-10 rounded-md border border-stone-300 bg-white px-2 py-1 text-sm disabled:bg-stone-100"
-            value={r.role}
-            disabled={a.busyId === r.id || r.lastAdmin}
-            title={r.lastAdmin ? 'The only active admin keeps the admin role.' : undefined}
-            onChange={(e) => a.setRole(r, e.target.value as Role)}
-          >
-            {ROLES.map((role) => (
-              <option key={role} value={role}>{role}</option>
-            ))}
-          </select>
+          <span className="flex flex-wrap items-center gap-2">
+            <select
+              aria-label={`Role of ${r.name}`}
+              className="min-h-10 rounded-md border border-stone-300 bg-white px-2 py-1 text-sm disabled:bg-stone-100"
+              value={chosen}
+              disabled={r.lastAdmin}
+              title={r.lastAdmin ? 'The only active admin keeps the admin role.' : undefined}
+              onChange={(e) => a.pickRole(r, e.target.value as Role)}
+            >
+              {ROLES.map((role) => (
+                <option key={role} value={role}>{role}</option>
+              ))}
+            </select>
+            {chosen !== r.role ? (
+              <ConfirmDialog
+                trigger="Save role" triggerVariant="primary" triggerClassName={small} triggerLabel={`Save role of ${r.name}`} tone="primary"
+                title={`Make ${r.name} ${withArticle(chosen)}?`} confirmLabel={`Make ${withArticle(chosen)}`} busyLabel="Saving…"
+                onConfirm={() => a.saveRole(r, chosen)}
+              >
+                <p className="text-sm text-stone-700">
+                  {r.name} is {withArticle(r.role)} now. As {withArticle(chosen)} they can {ROLE_SUMMARY[chosen]}. It counts from their next click.
+                </p>
+              </ConfirmDialog>
+            ) : null}
+          </span>
         );
       },
     }),
-    h.accessor('status', { header: 'Status', cell: ({ row }) => badge(row.original.status) }),
+    h.accessor('status', { meta: { priority: 'key' }, header: 'Status', cell: ({ row }) => badge(row.original.status) }),
     h.accessor('joinedLabel', { id: 'joined', header: 'Joined', cell: ({ row }) => <span className="whitespace-nowrap">{row.original.joinedLabel}</span> }),
     h.display({
       id: 'actions',
-      // No visually-hidden text in here: absolutely positioned sr-only spans escape the table's
-      // sideways-scrolling box and widen the page on phones. Buttons carry aria-labels instead.
+      meta: { priority: 'key' },
       header: 'Actions',
       cell: ({ row }) => {
         const r = row.original;
-        const busy = a.busyId === r.id;
         if (r.lastAdmin) return <span className="text-xs text-stone-600">Only active admin</span>;
-        if (a.confirmingRemove === r.id) {
-          return (
-            <span className="flex flex-wrap items-center gap-2">
-              <span className="text-xs text-stone-700">Remove {r.name}?</span>
-              <button type="button" className="min-h-10 rounded-md bg-danger-600 px-3 text-xs font-semibold text-white hover:bg-danger-700" disabled={busy} onClick={() => a.remove(r)}>
-                Yes, remove
-              </button>
-              <button type="button" className="min-h-10 rounded-md border border-stone-300 px-3 text-xs font-semibold" onClick={() => a.askRemove(null)}>
-                Cancel
-              </button>
-            </span>
-          );
-        }
         return (
           <span className="flex flex-wrap gap-2">
             {r.status === 'active' ? (
-              <button type="button" className="min-h-10 rounded-md border border-stone-300 bg-white px-3 text-xs font-semibold text-stone-900 hover:bg-stone-100" disabled={busy} aria-label={`Suspend ${r.name}`} onClick={() => a.setStatus(r, 'suspended')}>
-                Suspend
-              </button>
+              <ConfirmDialog
+                trigger="Suspend" triggerClassName={small} triggerLabel={`Suspend ${r.name}`} title={`Suspend ${r.name}?`} confirmLabel="Suspend" busyLabel="Suspending…"
+                onConfirm={() => a.setStatus(r, 'suspended')}
+              >
+                <p className="text-sm text-stone-700">{r.name} can no longer open the co-op from their next click: no reserving, drawing or paying online. Their records and invoices stay. You can reinstate them at any time.</p>
+              </ConfirmDialog>
             ) : (
-              <button type="button" className="min-h-10 rounded-md border border-stone-300 bg-white px-3 text-xs font-semibold text-stone-900 hover:bg-stone-100" disabled={busy} aria-label={`Reinstate ${r.name}`} onClick={() => a.setStatus(r, 'active')}>
-                Reinstate
-              </button>
+              <ConfirmDialog
+                trigger="Reinstate" triggerClassName={small} triggerLabel={`Reinstate ${r.name}`} title={`Reinstate ${r.name}?`} confirmLabel="Reinstate" busyLabel="Reinstating…" tone="primary"
+                onConfirm={() => a.setStatus(r, 'active')}
+              >
+                <p className="text-sm text-stone-700">{r.name} can open the co-op again as {withArticle(r.role)}.</p>
+              </ConfirmDialog>
             )}
-            <button type="button" className="min-h-10 rounded-md px-3 text-xs font-semibold text-danger-700 hover:bg-danger-50" disabled={busy} aria-label={`Remove ${r.name}`} onClick={() => a.askRemove(r)}>
-              Remove
-            </button>
+            <ConfirmDialog
+              trigger="Remove" triggerVariant="ghost" triggerClassName={`${small} text-danger-700 hover:bg-danger-50`} triggerLabel={`Remove ${r.name}`}
+              title={`Remove ${r.name} from the co-op?`} confirmLabel="Remove" busyLabel="Removing…"
+              onConfirm={() => a.remove(r)}
+            >
+              <p className="text-sm text-stone-700">{r.name} loses access to the co-op. Their past draws, invoices and payments stay on record. To bring them back, send a new invitation.</p>
+            </ConfirmDialog>
           </span>
         );
       },

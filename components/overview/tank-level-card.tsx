@@ -1,7 +1,7 @@
 'use client';
 
 import useSWR from 'swr';
-import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
+import { formatVolume, type UnitSystem } from '@/lib/units';
 import type { TankSummary } from '@/lib/overview/types';
 
 const fetcher = (url: string) => fetch(url).then((r) => (r.ok ? r.json() : Promise.reject(new Error(String(r.status)))));
@@ -37,7 +37,7 @@ export function TankLevelCard({ coop, units, initial }: { coop: string; units: U
             <div><dt className="text-stone-600">Capacity</dt><dd className="font-semibold tabular-nums">{v(t.capacityLiters)}</dd></div>
           </dl>
           {error ? <p role="status" className="mt-2 text-xs text-warn-700">Could not refresh just now; showing the last figures.</p> : null}
-          <p className="sr-only" aria-live="polite">{v(t.availableLiters)} {volumeLabel(units)} available</p>
+          <p className="sr-only" aria-live="polite">{v(t.availableLiters)} available</p>
         </>
       )}
     </section>

@@ -5,9 +5,10 @@ import { can, type Actor } from '@/lib/auth';
 import { CoopSwitcher } from './coop-switcher';
 import { NAV_ITEMS } from './nav-items';
 import { SignOutButton } from './sign-out-button';
-import { NavLink } from './nav-link';
+import { NavMenu } from './nav-menu';
+import { Announcer } from './announcer';
 
-/** Header (logo, co-op switcher, account), role-filtered navigation and the content area. */
+/** Header (logo, co-op switcher, account), role-filtered navigation, the content area and its Announcer. */
 export function AppShell({ actor, coops, children }: { actor: Actor; coops: { slug: string; name: string }[]; children: ReactNode }) {
   const base = `/c/${actor.coop.slug}`;
   const items = NAV_ITEMS.filter((i) => can(actor.role, i.action));
@@ -26,17 +27,11 @@ export function AppShell({ actor, coops, children }: { actor: Actor; coops: { sl
             <SignOutButton className="rounded px-2 py-1 text-white underline-offset-2 hover:underline" />
           </div>
         </div>
-        <nav aria-label="Co-op" className="bg-fir-900">
-          <ul className="mx-auto flex max-w-6xl gap-1 overflow-x-auto px-2">
-            {items.map((i) => (
-              <li key={i.label}>
-                <NavLink href={`${base}${i.href}`} exact={i.href === ''}>{i.label}</NavLink>
-              </li>
-            ))}
-          </ul>
-        </nav>
+        <NavMenu items={items.map((i) => ({ href: `${base}${i.href}`, label: i.label, exact: i.href === '' }))} />
       </header>
-      <main id="content" className="mx-auto max-w-6xl px-4 py-6">{children}</main>
+      <main id="content" className="mx-auto max-w-6xl px-4 py-6 pb-24">
+        <Announcer>{children}</Announcer>
+      </main>
     </div>
   );
 }

@@ -3,7 +3,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
 import { formatCents } from '@/lib/money';
-import { formatWhen } from '@/lib/tank/format';
+import { When } from '@/components/ui/when';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import type { DrawDto } from '@/lib/draws';
@@ -23,9 +23,9 @@ export function DrawsTable({ rows, units, timeZone, currency, coopSlug, showMemb
 }) {
   const money = (c: number) => formatCents(c, currency);
   const columns: DataColumn<DrawRow>[] = [
-    col.accessor('occurredAt', { id: 'occurred_at', header: 'When', cell: (c) => <span className="whitespace-nowrap">{formatWhen(c.getValue(), timeZone)}</span> }),
+    col.accessor('occurredAt', { meta: { priority: 'key' }, id: 'occurred_at', header: 'When', cell: (c) => <When value={c.getValue()} timeZone={timeZone} className="whitespace-nowrap" /> }),
     col.accessor('id', { header: '#', cell: (c) => c.getValue() }),
-    ...(showMember ? [col.accessor('memberName', { header: 'Member', cell: (c) => c.getValue() })] : []),
+    ...(showMember ? [col.accessor('memberName', { meta: { priority: 'key' }, header: 'Member', cell: (c) => c.getValue() })] : []),
     col.accessor('tankName', { header: 'Tank', cell: (c) => c.getValue() }),
     col.accessor('quantityLiters', { id: 'quantity', header: 'Quantity', cell: (c) => <span className="tabular-nums whitespace-nowrap">{formatMl(Math.round(c.getValue() * 1000), units)}</span> }),
     col.accessor('batches', {
@@ -36,7 +36,7 @@ export function DrawsTable({ rows, units, timeZone, currency, coopSlug, showMemb
     }),
     col.accessor('declaredUse', { header: 'Use', cell: (c) => <>{c.getValue()}{c.row.original.vehicle ? <span className="block text-xs text-stone-600">{c.row.original.vehicle}</span> : null}</> }),
     col.accessor('totalCents', {
-      id: 'total', header: 'Amount',
+      id: 'total', meta: { priority: 'key' }, header: 'Amount',
       cell: (c) => {
         const r = c.row.original;
         return (
@@ -48,6 +48,7 @@ export function DrawsTable({ rows, units, timeZone, currency, coopSlug, showMemb
       },
     }),
     col.accessor('status', {
+      meta: { priority: 'key' },
       header: 'Status',
       cell: (c) => {
         const r = c.row.original;
@@ -60,7 +61,7 @@ export function DrawsTable({ rows, units, timeZone, currency, coopSlug, showMemb
       },
     }),
     ...(canReverse
-      ? [col.display({ id: 'actions', header: () => <span className="sr-only">Actions</span>, cell: (c) => (c.row.original.status === 'recorded' ? <ReverseDrawButton coopSlug={coopSlug} drawId={c.row.original.id} /> : null) })]
+      ? [col.display({ id: 'actions', meta: { priority: 'key' }, header: () => <span className="sr-only">Actions</span>, cell: (c) => (c.row.original.status === 'recorded' ? <ReverseDrawButton coopSlug={coopSlug} drawId={c.row.original.id} summary={`${formatMl(Math.round(c.row.original.quantityLiters * 1000), units)} for ${c.row.original.memberName}, ${money(c.row.original.totalCents)}`} /> : null) })]
       : []),
   ];
   return <DataTable columns={columns} data={rows} caption={caption} sortable={sortable} pageInfo={pageInfo} getRowId={(r) => String(r.id)} empty="No draws match." />;

@@ -3,7 +3,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
 import { formatCents } from '@/lib/money';
-import { formatWhen } from '@/lib/tank/format';
+import { When } from '@/components/ui/when';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import type { MovementDto } from '@/lib/tank';
@@ -23,8 +23,9 @@ export function LedgerTable({ rows, units, timeZone, currency, pageInfo }: { row
   const money = (c: number) => formatCents(c, currency);
   const columns: DataColumn<LedgerRow>[] = [
     col.accessor('id', { id: 'recorded', header: '#', cell: (c) => c.getValue() }),
-    col.accessor('occurredAt', { id: 'occurred_at', header: 'When', cell: (c) => <span className="whitespace-nowrap">{formatWhen(c.getValue(), timeZone)}</span> }),
+    col.accessor('occurredAt', { meta: { priority: 'key' }, id: 'occurred_at', header: 'When', cell: (c) => <When value={c.getValue()} timeZone={timeZone} className="whitespace-nowrap" /> }),
     col.accessor('kind', {
+      meta: { priority: 'key' },
       id: 'kind', header: 'Movement',
       cell: (c) => {
         const r = c.row.original;
@@ -39,6 +40,7 @@ export function LedgerTable({ rows, units, timeZone, currency, pageInfo }: { row
       },
     }),
     col.accessor('quantityLiters', {
+      meta: { priority: 'key' },
       id: 'quantity', header: 'Quantity',
       cell: (c) => <span className={`tabular-nums whitespace-nowrap font-semibold ${c.getValue() < 0 ? 'text-danger-700' : 'text-ok-700'}`}>{formatMl(Math.round(c.getValue() * 1000), units, { signed: true })}</span>,
     }),

@@ -5,8 +5,8 @@ import { useState } from 'react';
 import { useSWRConfig } from 'swr';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
-import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { FormResult } from '@/components/forms/form-result';
 import { formatCents } from '@/lib/money';
 import { formatMl, unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
@@ -19,9 +19,11 @@ export interface OpenReservationOption { id: number; membershipId: number; membe
  * Records a draw from the pump meter (before/after) or a plain quantity, against a member's open
  * reservation or as a walk-up. In self-serve mode the member is fixed to the signed-in member.
  */
-export function RecordDrawForm({ coopSlug, units, currency, tanks, members, reservations, selfServe }: {
+export function RecordDrawForm({ coopSlug, units, currency, tanks, members, reservations, selfServe, lastMeter = {} }: {
   coopSlug: string; units: UnitSystem; currency: string; tanks: { id: number; name: string }[];
   members: { membershipId: number; name: string }[]; reservations: OpenReservationOption[]; selfServe?: boolean;
+  /** The pump meter's last reading per tank id, in the co-op's units: "meter before" starts there. */
+  lastMeter?: Record<number, number>;
 }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
@@ -32,6 +34,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
   const [mode, setMode] = useState<'meter' | 'quantity'>('meter');
   const errors = prefixedErrors(fields, 'draw');
   const memberReservations = reservations.filter((r) => String(r.membershipId) === memberId);
+  const last = lastMeter[Number(tankId)];
 
   function chooseReservation(id: string) {
     setReservationId(id);
@@ -50,6 +53,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
       setMessage({ tone: 'ok', text: `Recorded draw #${r.id}: ${formatMl(Math.round(r.quantityLiters * 1000), units, { digits: 2 })} for ${r.memberName}, ${formatCents(r.totalCents, currency)} at the price in force.` });
       form.reset();
       setReservationId('');
+      if (!selfServe) setMemberId('');
       await mutate(tanksKey(coopSlug));
       router.refresh();
     }
@@ -57,7 +61,6 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
 
   return (
     <form onSubmit={onSubmit} noValidate aria-label="Record a draw" className="grid gap-4 sm:grid-cols-2">
-      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
       {selfServe ? (
         <input type="hidden" name="draw-membershipId" value={memberId} />
       ) : (
@@ -88,7 +91,8 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
       </fieldset>
       {mode === 'meter' ? (
         <>
-          <TextField label={`Meter before (${unitWord(units)})`} name="draw-meterBefore" inputMode="decimal" autoComplete="off" required errors={errors['draw-meterBefore']} />
+          <TextField key={`meter-${tankId}-${last ?? ''}`} label={`Meter before (${unitWord(units)})`} name="draw-meterBefore" inputMode="decimal" autoComplete="off" required errors={errors['draw-meterBefore']}
+            defaultValue={last === undefined ? undefined : String(last)} hint={last === undefined ? undefined : 'The pump’s last recorded reading; change it if the meter shows otherwise.'} />
           <TextField label={`Meter after (${unitWord(units)})`} name="draw-meterAfter" inputMode="decimal" autoComplete="off" required errors={errors['draw-meterAfter']} />
           {errors['draw-quantity'] ? <p role="alert" className="text-sm text-danger-700 sm:col-span-2">{errors['draw-quantity'].join(' ')}</p> : null}
         </>
@@ -97,6 +101,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
       )}
       <TextField label="Vehicle or use (optional)" name="draw-vehicle" errors={errors['draw-vehicle']} hint="e.g. 2004 pickup, farm tractor, home furnace" />
       <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Recording…' : 'Record draw'}</Button></div>
+      <FormResult message={message} className="sm:col-span-2" />
     </form>
   );
 }

@@ -1,45 +1,40 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
 import { useSWRConfig } from 'swr';
-import { Button } from '@/components/ui/button';
+import { sendJson } from '@/components/forms/use-api-form';
+import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { TextField } from '@/components/ui/field';
-import { useApiForm } from '@/components/forms/use-api-form';
 import { tanksKey } from './live-tanks';
 
 /** Reverses a draw with a reason: a new negative entry; the draw itself is never edited. */
-export function ReverseDrawButton({ coopSlug, drawId }: { coopSlug: string; drawId: number }) {
+export function ReverseDrawButton({ coopSlug, drawId, summary }: { coopSlug: string; drawId: number; summary?: string }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
-  const [open, setOpen] = useState(false);
-  const { busy, fields, message, submit } = useApiForm();
-  const name = `reverse-${drawId}-reason`;
-  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const reason = String(new FormData(e.currentTarget).get(name) ?? '');
-    const ok = await submit(`/api/coops/${coopSlug}/draws/${drawId}/reverse`, 'POST', { reason });
-    if (ok) {
-      setOpen(false);
-      await mutate(tanksKey(coopSlug));
-      router.refresh();
-    }
-  }
-  if (!open) {
-    return (
-      <button type="button" className="min-h-11 rounded-lg border border-stone-300 bg-white px-3 text-sm font-semibold text-stone-900 hover:bg-stone-100" onClick={() => setOpen(true)} aria-label={`Reverse draw ${drawId}`}>
-        Reverse…
-      </button>
-    );
-  }
   return (
-    <form onSubmit={onSubmit} noValidate className="flex min-w-56 flex-col gap-2" aria-label={`Reverse draw ${drawId}`}>
-      <TextField label="Reason for reversing" name={name} required errors={fields.reason} />
-      {message?.tone === 'danger' && !fields.reason ? <p role="alert" className="text-sm text-danger-700">{message.text}</p> : null}
-      <div className="flex gap-2">
-        <Button type="submit" variant="danger" disabled={busy}>{busy ? 'Reversing…' : 'Reverse draw'}</Button>
-        <Button type="button" variant="ghost" onClick={() => setOpen(false)}>Keep</Button>
-      </div>
-    </form>
+    <ConfirmDialog
+      trigger="Reverse…"
+      triggerLabel={`Reverse draw ${drawId}`}
+      title={`Reverse draw #${drawId}?`}
+      confirmLabel="Reverse draw"
+      busyLabel="Reversing…"
+      dismissLabel="Keep the draw"
+      onConfirm={async (d) => {
+        const r = await sendJson<{ id?: number }>(`/api/coops/${coopSlug}/draws/${drawId}/reverse`, 'POST', { reason: String(d.get('reason') ?? '') });
+        if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
+        await mutate(tanksKey(coopSlug));
+        router.refresh();
+        return { ok: true, message: `Draw #${drawId} is reversed: the fuel is back in the tank and the amount comes off the member’s next invoice.` };
+      }}
+    >
+      {(fields, id) => (
+        <>
+          <p className="text-sm text-stone-700">
+            {summary ? <>{summary}. </> : null}A reversing entry puts the fuel back in the tank and takes the amount off the member’s bill. The draw stays on record; it can be reversed only once.
+          </p>
+          <TextField label="Reason for reversing" name="reason" id={id('reason')} required errors={fields.reason} autoComplete="off" />
+        </>
+      )}
+    </ConfirmDialog>
   );
 }

@@ -1,5 +1,5 @@
 import { formatCents } from '@/lib/money';
-import { formatWhen } from '@/lib/tank/format';
+import { formatWhen } from '@/lib/dates';
 import { formatMl } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 

@@ -9,8 +9,8 @@ interface FieldProps {
 
 /** A labelled input with its hint and errors wired by aria-describedby. */
 export function TextField({ label, name, errors, hint, ...input }: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
-  const errId = `${name}-error`;
-  const hintId = `${name}-hint`;
+  const errId = `${input.id ?? name}-error`;
+  const hintId = `${input.id ?? name}-hint`;
   const describedBy = [hint ? hintId : null, errors?.length ? errId : null].filter(Boolean).join(' ') || undefined;
   return (
     <div className="flex flex-col gap-1">
@@ -30,7 +30,7 @@ export function TextField({ label, name, errors, hint, ...input }: FieldProps & 
 }
 
 export function SelectField({ label, name, errors, hint, children, ...select }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
-  const errId = `${name}-error`;
+  const errId = `${select.id ?? name}-error`;
   return (
     <div className="flex flex-col gap-1">
       <label htmlFor={select.id ?? name} className="text-sm font-medium text-stone-800">{label}</label>

@@ -28,9 +28,10 @@ export function EmptyState({ title, children }: { title: string; children?: Reac
   );
 }
 
-export function Card({ title, children, className = '' }: { title?: string; children: ReactNode; className?: string }) {
+/** A white panel; `id` makes it a link target, kept clear of the pinned step navigator. */
+export function Card({ title, children, className = '', id }: { title?: string; children: ReactNode; className?: string; id?: string }) {
   return (
-    <section className={`rounded-xl border border-stone-200 bg-white p-4 shadow-sm ${className}`}>
+    <section id={id} className={`scroll-mt-28 rounded-xl border border-stone-200 bg-white p-4 shadow-sm ${className}`}>
       {title ? <h2 className="mb-3">{title}</h2> : null}
       {children}
     </section>

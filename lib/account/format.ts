@@ -1,4 +1,5 @@
 // Date wording for account screens and e-mails (pure; safe in client components too).
+import { formatDate } from '@/lib/dates';
 
 function inZone(at: Date, options: Intl.DateTimeFormatOptions, timeZone: string): { text: string; timeZone: string } {
   try {
@@ -18,7 +19,7 @@ export function formatExpiry(at: Date, timeZone = 'UTC'): string {
   return `${r.text} (${r.timeZone})`;
 }
 
-/** "8 Dec 2026" in the given time zone (tables). */
+/** "Dec 8, 2026" in the given time zone (tables; the one style, lib/dates). */
 export function formatDay(at: Date | string, timeZone = 'UTC'): string {
-  return inZone(new Date(at), { dateStyle: 'medium' }, timeZone).text;
+  return formatDate(at, timeZone);
 }

@@ -1,3 +1,5 @@
+import { formatDate } from '@/lib/dates';
+
 /**
  * Billing months, pure (safe for client components). A period is written 'YYYY-MM' in URLs and
  * forms and stored as the first day of the month ('YYYY-MM-01', a DATE). Month boundaries are
@@ -68,9 +70,7 @@ export function invoiceLabel(kind: 'invoice' | 'credit-note', number: number | n
   return `${kind === 'credit-note' ? 'CN' : 'INV'}-${String(number).padStart(6, '0')}`;
 }
 
-/** A date or instant shown in the co-op's time zone, e.g. "Nov 3, 2026". */
+/** A date or instant shown in the co-op's time zone, e.g. "Nov 3, 2026" (the one style: lib/dates). */
 export function formatDateIn(value: string | Date, timeZone: string): string {
-  const d = typeof value === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(value) ? new Date(`${value}T12:00:00Z`) : new Date(value);
-  const tz = typeof value === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(value) ? 'UTC' : timeZone;
-  return dateFormat('en-US', { dateStyle: 'medium', timeZone: tz }).format(d);
+  return formatDate(value, timeZone);
 }

@@ -347,3 +347,17 @@ export async function listDrawMembers(actor: Actor): Promise<{ membershipId: num
   })) as unknown as (Pick<InferAttributes<Membership>, 'id'> & { user: { name: string } })[];
   return rows.map((m) => ({ membershipId: m.id, name: m.user.name }));
 }
+
+/**
+ * The pump meter's last reading per tank (from its latest metered draw), in the co-op's units,
+ * to pre-fill "meter before" on the draw form. Looks at the latest 200 metered draws only.
+ */
+export async function lastMeterReadings(actor: Actor): Promise<Record<number, number>> {
+  const rows = (await Draw.findAll({
+    attributes: ['tankId', 'meterAfter'], where: { coopId: actor.coop.id, meterAfter: { [Op.ne]: null } },
+    order: [['occurredAt', 'DESC'], ['id', 'DESC']], limit: 200, raw: true,
+  })) as Pick<InferAttributes<Draw>, 'tankId' | 'meterAfter'>[];
+  const out: Record<number, number> = {};
+  for (const r of rows) if (!(r.tankId in out) && r.meterAfter !== null) out[r.tankId] = mlToUnits3(litersToMl(r.meterAfter), actor.coop.units);
+  return out;
+}

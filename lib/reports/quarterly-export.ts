@@ -2,6 +2,7 @@ import 'server-only';
 import { csvRows } from '@/lib/csv';
 import { formatCents } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
+import { formatRate, perGallonToPerUnit } from '@/lib/pricing-policy/convert';
 import { formatVolume, volumeFromLiters, volumeLabel } from '@/lib/units';
 import { VOLUME_COLUMNS, type QuarterlyReport, type VolumeRow } from './quarterly';
 
@@ -49,7 +50,7 @@ export async function quarterlyPdf(r: QuarterlyReport): Promise<Buffer> {
   doc.y = y + 10;
   doc.font('regular').fontSize(9).fillColor('#333');
   doc.text(`Volumes in ${unit === 'gal' ? 'US gallons' : 'litres'}. Drawn volumes are net of reversing entries. Months are calendar months in ${r.coop.timezone}.`);
-  if (r.roadTaxCentsPerGallon) doc.text(`Road-fuel tax configured by the co-op: ${Number(r.roadTaxCentsPerGallon).toFixed(3)} ¢ per gallon on road use.`);
+  if (r.roadTaxCentsPerGallon) doc.text(`Road-fuel tax configured by the co-op: ${formatRate(perGallonToPerUnit(r.roadTaxCentsPerGallon, r.coop.units))} per ${r.coop.units === 'us' ? 'gallon' : 'litre'} on road use.`);
   doc.moveDown().font('bold').text('Note').font('regular').text(r.disclaimer);
   return pdfToBuffer(doc);
 }

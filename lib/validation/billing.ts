@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { PERIOD_PATTERN } from '@/lib/billing/periods';
 import { safeParseMoneyToCents } from '@/lib/money/format';
-import { TEST_CARD_TOKENS } from '@/lib/payments/test-cards';
+import { TEST_CARD_IDS } from '@/lib/payments/test-cards';
 import { idSchema as commonIdSchema } from './common';
 import { listQuerySchema } from './list';
 
@@ -87,7 +87,7 @@ export const adjustmentCreateSchema = z.strictObject({
 });
 
 export const cardPaySchema = z.strictObject({
-  card: z.enum(TEST_CARD_TOKENS, { error: 'Choose one of the test cards.' }),
+  card: z.enum(TEST_CARD_IDS, { error: 'Choose one of the test cards.' }),
 });
 
 export const invoiceListQuerySchema = listQuerySchema(['number', 'member', 'total', 'outstanding', 'status', 'period'] as const, 'number').extend({

@@ -112,7 +112,7 @@ describe('reconciliation and month close', () => {
 
   it('after close, an open invoice of the month is still payable and corrections go into the next month as adjustments', async () => {
     const annAgent = await signIn(c.members['Ann Apple']!.email);
-    const paid = await annAgent.post(`/api/coops/${slug}/invoices/${inv.ann}/pay`).send({ card: 'tok_visa' });
+    const paid = await annAgent.post(`/api/coops/${slug}/invoices/${inv.ann}/pay`).send({ card: 'test-approved' });
     expect(paid.status, JSON.stringify(paid.body)).toBe(200);
     expect(paid.body.invoice).toMatchObject({ status: 'paid', paidCents: 2600, periodClosed: true });
 

@@ -19,7 +19,7 @@ describe('paying invoices', () => {
   const inv: Record<string, number> = {};
   const agents: Record<string, Agent> = {};
   const chargesFor = async (invoiceId: number) => (await fakeCharges()).filter((ch) => ch.metadata?.invoice_id === String(invoiceId));
-  const pay = (name: string, card = 'tok_visa', invoiceId = inv[name]!) => agents[name]!.post(`/api/coops/${slug}/invoices/${invoiceId}/pay`).send({ card });
+  const pay = (name: string, card = 'test-approved', invoiceId = inv[name]!) => agents[name]!.post(`/api/coops/${slug}/invoices/${invoiceId}/pay`).send({ card });
   const invoice = async (id: number) => (await sql<{ status: string; paid_cents: string; total_cents: string }>(`SELECT status, paid_cents, total_cents FROM invoices WHERE id = $1`, [id]))[0]!;
   const paymentsOf = (id: number) => countRows('payments', 'invoice_id = $1', [id]);
 
@@ -68,7 +68,7 @@ describe('paying invoices', () => {
   });
 
   it('a declined card leaves the invoice unpaid; another card then pays it', async () => {
-    const res = await pay('Quinn Quick', 'tok_chargeDeclined');
+    const res = await pay('Quinn Quick', 'test-declined');
     expect(res.status).toBe(402);
     expect(res.body).toMatchObject({ code: 'card-declined' });
     expect(res.body.error).toMatch(/not accepted.*Nothing was charged/);
@@ -76,7 +76,7 @@ describe('paying invoices', () => {
     expect(await paymentsOf(inv['Quinn Quick']!)).toBe(0);
     const detail = await agents['Quinn Quick']!.get(`/api/coops/${slug}/invoices/${inv['Quinn Quick']}`).expect(200);
     expect(detail.body.lastFailedAttempt.message).toMatch(/declined/);
-    const ok = await pay('Quinn Quick', 'tok_mastercard');
+    const ok = await pay('Quinn Quick', 'test-approved');
     expect(ok.status, JSON.stringify(ok.body)).toBe(200);
     expect(await invoice(inv['Quinn Quick']!)).toMatchObject({ status: 'paid', paid_cents: '2000' });
     expect((await chargesFor(inv['Quinn Quick']!)).length).toBe(1); // the declined try created no successful charge
@@ -180,9 +180,9 @@ describe('paying invoices', () => {
     const bad = await pay('Wyn Wrong', '4242424242424242');
     expect(bad.status).toBe(422);
     expect(bad.body.fields.card).toBeDefined();
-    const smuggled = await agents['Wyn Wrong']!.post(`/api/coops/${slug}/invoices/${inv['Wyn Wrong']}/pay`).send({ card: 'tok_visa', amount: 1 });
+    const smuggled = await agents['Wyn Wrong']!.post(`/api/coops/${slug}/invoices/${inv['Wyn Wrong']}/pay`).send({ card: 'test-approved', amount: 1 });
     expect(smuggled.status).toBe(422);
-    expect((await pay('Wyn Wrong', 'tok_visa', inv['Vic Vault'])).status).toBe(404);
+    expect((await pay('Wyn Wrong', 'test-approved', inv['Vic Vault'])).status).toBe(404);
     expect(await countRows('payment_attempts', 'invoice_id IN ($1, $2)', [inv['Wyn Wrong'], inv['Vic Vault']])).toBe(0);
   });
 
@@ -310,7 +310,7 @@ describe('paying invoices', () => {
   });
   it('a card refund while the payment service is down stays pending, blocks the close, and a retry refunds once', async () => {
     const wynInvoice = (await invoicesOf(c.coop.id, NOW)).find((r) => r.membership_id === c.members['Wyn Wrong']!.membershipId)!;
-    expect((await pay('Wyn Wrong', 'tok_visa', wynInvoice.id)).status).toBe(200);
+    expect((await pay('Wyn Wrong', 'test-approved', wynInvoice.id)).status).toBe(200);
     await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${wynInvoice.id}/void`).send({ reason: 'Billed in error' }).expect(200);
     const [p] = await sql<{ id: number }>(`SELECT id FROM payments WHERE invoice_id = $1`, [wynInvoice.id]);
 

@@ -7,7 +7,7 @@ import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { baseUrl, sql, TEST_PASSWORD } from '../support/api';
 import { dayIn, insertDraw, makeBillingCoop, monthsAgo } from '../support/billing';
-import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
+import { checkA11y, expectAnnounced, signInUi, SHOTS, withBrowser } from '../support/browser';
 
 async function shoot(page: Page, name: string) {
   for (const width of [360, 1280]) {
@@ -64,7 +64,7 @@ describe('billing a month in the browser', () => {
       await page.getByText(/test cards only/i).waitFor();
       await checkA11y(page);
       await shoot(page, 'member-pay');
-      await page.getByLabel('Card').selectOption('tok_visa');
+      await page.getByLabel('Card').selectOption('test-approved');
       await page.getByRole('button', { name: 'Pay $65.81 by card' }).click();
       await page.getByText('This invoice is paid in full. Thank you!').waitFor({ timeout: 20_000 });
       await checkA11y(page);
@@ -83,12 +83,15 @@ describe('billing a month in the browser', () => {
       await page.getByText('Every payment received this month is matched.').waitFor();
       await checkA11y(page);
       await shoot(page, 'reconciled');
-      // Closing needs the explicit confirmation.
-      await page.getByRole('button', { name: `Close ` + new Intl.DateTimeFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${month}-15T00:00:00Z`)) }).click();
-      await page.getByText(/Confirm that the month should be closed/).waitFor();
-      await page.getByLabel(/I have checked this month/).check();
-      await page.getByRole('button', { name: /^Close / }).click();
+      // Closing is confirmed in a dialog that says what it locks; the result is announced and focused.
+      const monthName = new Intl.DateTimeFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${month}-15T00:00:00Z`));
+      await page.getByRole('button', { name: `Close ${monthName}…` }).click();
+      const dialog = page.getByRole('dialog', { name: `Close ${monthName}?` });
+      await dialog.getByText(/locks .* draws, invoices and payments for good/).waitFor();
+      await checkA11y(page);
+      await dialog.getByRole('button', { name: `Close and lock ${monthName}` }).click();
       await page.getByText('This month is closed').first().waitFor();
+      await expectAnnounced(page, `${monthName} is closed`);
       await page.getByText('Closed', { exact: true }).first().waitFor();
       await checkA11y(page);
       await shoot(page, 'closed');

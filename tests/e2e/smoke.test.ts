@@ -42,5 +42,5 @@ describe('app shell in headless Chromium', () => {
       await page.screenshot({ path: path.join(SHOTS, 'overview-admin-1280.png'), fullPage: true });
       await checkA11y(page);
     });
-  });
+  }, 150_000);
 });

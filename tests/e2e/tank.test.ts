@@ -32,7 +32,7 @@ describe('reserve → draw → see it', () => {
     await ctx.agents.treasurer.post(`/api/coops/${slug}/pricing`).send({ kind: 'fixed', price: '4.50', roadTaxCents: '24.4' }).expect(201);
   });
 
-  it('works end to end, accessibly, at 360 and 1280 px', { timeout: 120_000 }, async () => {
+  it('works end to end, accessibly, at 360 and 1280 px', { timeout: 240_000 }, async () => {
     // 1. The member reserves 10 gal, after being told clearly that 500 gal is more than there is.
     await withBrowser(async (page) => {
       await signInUi(page, ctx.users.member.email, TEST_PASSWORD);

@@ -35,7 +35,7 @@ describe('settling card payments with an unknown outcome', () => {
     await issueMonth(c.treasurerAgent, c.coop.slug, P);
     const rows = await invoicesOf(c.coop.id, P);
     const invOf = (name: string) => rows.find((r) => r.membership_id === c.members[name]!.membershipId)!.id;
-    const pay = async (name: string) => (await signIn(c.members[name]!.email)).post(`/api/coops/${c.coop.slug}/invoices/${invOf(name)}/pay`).send({ card: 'tok_visa' });
+    const pay = async (name: string) => (await signIn(c.members[name]!.email)).post(`/api/coops/${c.coop.slug}/invoices/${invOf(name)}/pay`).send({ card: 'test-approved' });
 
     await holdWebhooks(true);
     await setOutage(true, 'lose-response'); // charged, answer lost

@@ -16,17 +16,18 @@ const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run
 export interface CspViolation { url: string; directive: string; blocked: string; sample: string }
 
 /**
- * Runs fn with a page in a fresh browser profile, with the app's Content-Security-Policy in force:
+ * Runs fn with a page in a fresh browser profile (optionally in another time zone), with the app's Content-Security-Policy in force:
  * every `securitypolicyviolation` on any page fails the test (a script the policy blocks is a
  * broken page, or an injection). Closes everything afterwards.
  */
-export async function withBrowser(fn: (page: Page) => Promise<void>) {
+export async function withBrowser(fn: (page: Page) => Promise<void>, opts: { timezoneId?: string } = {}) {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tallyvat-chromium-'));
   const context = await chromium.launchPersistentContext(dir, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
     args: ARGS,
     viewport: { width: 1280, height: 800 },
+    timezoneId: opts.timezoneId,
   });
   const violations: CspViolation[] = [];
   try {
@@ -70,4 +71,11 @@ export async function checkA11y(page: Page) {
   const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
   const summary = result.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`);
   expect(summary).toEqual([]);
+}
+
+/** Waits until the shell's Announcer says `text` (substring or pattern) and holds keyboard focus. */
+export async function expectAnnounced(page: Page, text: string | RegExp) {
+  const box = page.getByTestId('announcement');
+  await box.filter({ hasText: text }).waitFor();
+  await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'announcement', undefined, { timeout: 5_000 });
 }

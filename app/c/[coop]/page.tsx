@@ -1,4 +1,6 @@
 import Link from 'next/link';
+import { auditSentence } from '@/components/audit/audit-words';
+import { formatMonthDay } from '@/lib/dates';
 import { BalancesChart, BatchCostChart } from '@/components/overview/cost-charts';
 import { TankLevelCard } from '@/components/overview/tank-level-card';
 import { VolumeCharts } from '@/components/overview/volume-charts';
@@ -12,7 +14,7 @@ import { formatVolume } from '@/lib/units';
 import { RecallNotices } from '@/components/lineage/recall-notices';
 import { recallNoticesFor } from '@/lib/lineage';
 
-const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a margin per gallon', 'cost-plus-percent': 'cost plus a percentage' } as const;
+const POLICY_TEXT = { fixed: 'fixed price', 'cost-plus-amount': 'cost plus a fixed margin', 'cost-plus-percent': 'cost plus a percentage' } as const;
 
 export default async function OverviewPage({ params }: { params: Promise<{ coop: string }> }) {
   const { coop } = await params;
@@ -58,7 +60,7 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
             {o.member.openReservations.map((r) => (
               <li key={r.id} className="flex justify-between py-2 text-sm">
                 <span>{formatVolume(Number(r.quantityLiters), units, 1)} from {r.tankName}</span>
-                <span className="text-stone-600">until {new Date(r.windowEnd).toLocaleDateString('en-US', { month: 'short', day: 'numeric', timeZone: actor.coop.timezone })}</span>
+                <span className="text-stone-600">last day {formatMonthDay(new Date(new Date(r.windowEnd).getTime() - 1), actor.coop.timezone)}</span>
               </li>
             ))}
           </ul>
@@ -150,8 +152,8 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
               <ul className="flex flex-col gap-1 text-sm">
                 {o.admin.recentEvents.map((e, i) => (
                   <li key={i} className="flex justify-between gap-2">
-                    <span><code className="text-xs">{e.action}</code> by {e.who ?? 'system'}</span>
-                    <time className="shrink-0 text-stone-600" dateTime={e.at}>{new Date(e.at).toLocaleDateString('en-US', { month: 'short', day: 'numeric', timeZone: actor.coop.timezone })}</time>
+                    <span>{auditSentence({ action: e.action, actorName: e.who ?? null, entityType: '', entityId: null, before: null, after: null })}</span>
+                    <time className="shrink-0 text-stone-600" dateTime={e.at}>{formatMonthDay(e.at, actor.coop.timezone)}</time>
                   </li>
                 ))}
               </ul>

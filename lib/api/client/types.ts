@@ -8570,7 +8570,7 @@ export interface operations {
       content: {
         "application/json": {
           /** @enum {string} */
-          card: "tok_visa" | "tok_mastercard" | "tok_chargeDeclined" | "tok_chargeDeclinedInsufficientFunds";
+          card: "test-approved" | "test-declined" | "test-insufficient-funds";
         };
       };
     };

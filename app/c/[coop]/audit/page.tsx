@@ -26,7 +26,7 @@ export default async function AuditPage({ params, searchParams }: { params: Prom
     <div className="flex flex-col gap-5">
       <div>
         <h1>Audit log</h1>
-        <p className="text-stone-600">Every change made in this co-op: who, what, when, and the record before and after.</p>
+        <p className="text-stone-600">Every change made in this co-op: who did what and when, and what each value was and is now. Times are in the co-op’s time zone ({actor.coop.timezone}).</p>
       </div>
       <form method="get" className="grid gap-3 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-5 sm:items-end">
         <SelectField label="Who" name="actor" defaultValue={sp.actor ?? ''} errors={errors.actor}>
@@ -39,7 +39,7 @@ export default async function AuditPage({ params, searchParams }: { params: Prom
         <Button type="submit" variant="secondary">Filter</Button>
       </form>
       {data ? (
-        <AuditTable rows={data.rows} pageInfo={{ page: data.page, pageSize: data.pageSize, total: data.total }} />
+        <AuditTable rows={data.rows} pageInfo={{ page: data.page, pageSize: data.pageSize, total: data.total }} currency={actor.coop.currency} units={actor.coop.units} timeZone={actor.coop.timezone} />
       ) : (
         <Notice tone="danger">Check the filters above.</Notice>
       )}

@@ -4,7 +4,7 @@ import { DrawsTable } from '@/components/tank/draws-table';
 import { RecordDrawForm } from '@/components/tank/record-draw-form';
 import { ReservationsTable } from '@/components/tank/reservations-table';
 import { can, requirePageActor } from '@/lib/auth';
-import { listDrawMembers, listDraws } from '@/lib/draws';
+import { lastMeterReadings, listDrawMembers, listDraws } from '@/lib/draws';
 import { formatCents } from '@/lib/money';
 import { getCurrentPolicy } from '@/lib/pricing-policy';
 import { listReservations } from '@/lib/reservations';
@@ -28,11 +28,12 @@ export default async function DrawsPage({ params, searchParams }: { params: Prom
   const base = { page: one(sp.page), sort: one(sp.sort), dir: one(sp.dir), pageSize: 25 };
   const mayRecord = can(actor.role, 'draws:record');
 
-  const [members, tanks, policy, openRes] = await Promise.all([
+  const [members, tanks, policy, openRes, lastMeter] = await Promise.all([
     listDrawMembers(actor),
     listTanks(actor),
     getCurrentPolicy(actor),
     mayRecord ? listReservations(actor, reservationListSchema.parse({ status: 'open', pageSize: 200, sort: 'window_end', dir: 'asc' })) : null,
+    mayRecord ? lastMeterReadings(actor) : {},
   ]);
 
   let filterError: string | null = null;
@@ -79,7 +80,7 @@ export default async function DrawsPage({ params, searchParams }: { params: Prom
         <Card title="Record a draw">
           {!policy ? <Notice tone="warn">No member price is set yet; the treasurer sets it on the <Link className="underline" href={`/c/${slug}/tank/pricing`}>pricing page</Link> first.</Notice> : null}
           {tanks.some((t) => t.active) ? (
-            <RecordDrawForm coopSlug={slug} units={units} currency={currency} tanks={tanks.filter((t) => t.active)} members={members}
+            <RecordDrawForm coopSlug={slug} units={units} currency={currency} tanks={tanks.filter((t) => t.active)} members={members} lastMeter={lastMeter}
               reservations={(openRes?.items ?? []).map((r) => ({ id: r.id, membershipId: r.membershipId, memberName: r.memberName, tankId: r.tankId, tankName: r.tankName, quantityLiters: r.quantityLiters }))} />
           ) : <p className="text-stone-700">No tank is in service.</p>}
         </Card>

@@ -10,7 +10,7 @@ import { listDraws } from '@/lib/draws';
 import { getCurrentPolicy } from '@/lib/pricing-policy';
 import { listReservations } from '@/lib/reservations';
 import { listTanks } from '@/lib/tank';
-import { isoDay } from '@/lib/tank/format';
+import { isoDay } from '@/lib/dates';
 import { drawListSchema, reservationListSchema } from '@/lib/validation/tank';
 
 export const metadata = { title: 'My fuel' };
@@ -43,7 +43,7 @@ export default async function MyFuelPage({ params, searchParams }: { params: Pro
 
       <div className="grid gap-6 lg:grid-cols-2">
         <Card title="Reserve fuel">
-          <ReserveForm coopSlug={slug} initial={{ tanks, units }} today={isoDay(now, timezone)} defaultEnd={isoDay(new Date(now.getTime() + 3 * 86_400_000), timezone)} />
+          <ReserveForm coopSlug={slug} initial={{ tanks, units }} pricing={policy?.policy} currency={currency} today={isoDay(now, timezone)} defaultEnd={isoDay(new Date(now.getTime() + 3 * 86_400_000), timezone)} />
         </Card>
         <section aria-labelledby="available" className="flex flex-col gap-3">
           <h2 id="available">Available now</h2>

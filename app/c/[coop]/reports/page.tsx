@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { formatRate, perGallonToPerUnit } from '@/lib/pricing-policy/convert';
 import { BarChartCard } from '@/components/charts/bar-chart-card';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
@@ -71,7 +72,7 @@ export default async function ReportsPage({ params, searchParams }: { params: Pr
               </table>
             </div>
             {report.roadTaxCentsPerGallon ? (
-              <p className="mt-3 text-sm text-stone-600">Road-fuel tax set by the co-op: {Number(report.roadTaxCentsPerGallon).toFixed(1)} ¢ per gallon on road use.</p>
+              <p className="mt-3 text-sm text-stone-600">Road-fuel tax set by the co-op: {formatRate(perGallonToPerUnit(report.roadTaxCentsPerGallon, units))} per {unit === 'gal' ? 'gallon' : 'litre'} on road use.</p>
             ) : null}
           </Card>
           <BarChartCard

@@ -4,7 +4,8 @@ import { notFound } from 'next/navigation';
 import type { ReactNode } from 'react';
 import { StatusBadge } from '@/components/brewing/badges';
 import { BatchActions } from '@/components/brewing/batch-actions';
-import { dateText, grams, money, perUnit, STATUS_LABELS, STEP_ORDER, vol } from '@/components/brewing/format';
+import { dateText, grams, money, perUnit, vol } from '@/components/brewing/format';
+import { StepNav } from '@/components/brewing/step-nav';
 import { QualityForm } from '@/components/brewing/quality-form';
 import { QualityTables } from '@/components/brewing/quality-table';
 import { SafetyNote } from '@/components/brewing/safety-note';
@@ -43,11 +44,11 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
   }
   const base = `/c/${actor.coop.slug}`;
   const lineage = batch.status === 'released' && can(actor.role, 'lineage:read') ? await lineageSection(actor, batch) : null;
-  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} lineage={lineage} />;
+  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} timeZone={actor.coop.timezone} lineage={lineage} />;
   const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor, { activeOnly: true }) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
   const elevationM = actor.coop.settings.elevationM ?? 0;
   const altitude = altitudeNote(elevationM, actor.coop.units);
-  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} lineage={lineage} />;
+  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} timeZone={actor.coop.timezone} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} lineage={lineage} />;
 }
 
 /** Where a released batch's fuel went and its reviews (brewers, treasurers, admins); review forms for brewers and admins. */
@@ -85,14 +86,14 @@ function Header({ number, status, batchDate, base, id, meets, children }: { numb
   );
 }
 
-function BatchSummary({ batch, base, units, currency, lineage }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string; lineage: ReactNode }) {
+function BatchSummary({ batch, base, units, currency, timeZone, lineage }: { batch: BatchSummaryDto; base: string; units: UnitSystem; currency: string; timeZone: string; lineage: ReactNode }) {
   return (
     <div className="flex flex-col gap-4">
       <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'} />
       <Card title="In the tank">
         <dl className="grid grid-cols-1 gap-2 text-sm sm:grid-cols-3">
           <div><dt className="text-stone-600">Released</dt><dd className="font-semibold">{vol(batch.release?.releasedLiters, units)}{batch.release?.tankName ? ` into ${batch.release.tankName}` : ''}</dd></div>
-          <div><dt className="text-stone-600">On</dt><dd className="font-semibold">{dateText(batch.release?.releasedAt)}</dd></div>
+          <div><dt className="text-stone-600">On</dt><dd className="font-semibold">{dateText(batch.release?.releasedAt, timeZone)}</dd></div>
           <div><dt className="text-stone-600">Cost</dt><dd className="font-semibold">{perUnit(batch.costPerGallonCents, batch.costPerLiterCents, units, currency)}</dd></div>
         </dl>
       </Card>
@@ -101,24 +102,6 @@ function BatchSummary({ batch, base, units, currency, lineage }: { batch: BatchS
         <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
       </Card>
     </div>
-  );
-}
-
-function Steps({ status }: { status: string }) {
-  const current = STEP_ORDER.indexOf(status as (typeof STEP_ORDER)[number]);
-  const done = status === 'released' ? STEP_ORDER.length : current;
-  return (
-    <ol aria-label="Steps" className="flex gap-1 overflow-x-auto pb-1 text-xs">
-      {[...STEP_ORDER, status === 'rejected' ? 'rejected' : 'released'].map((s, i) => {
-        const state = s === status ? 'current' : i < done || (status === 'released' && s === 'released') ? 'done' : 'todo';
-        return (
-          <li key={s} aria-current={state === 'current' ? 'step' : undefined}
-            className={`whitespace-nowrap rounded-full border px-2.5 py-1 font-semibold ${state === 'current' ? (s === 'rejected' ? 'border-danger-600 bg-danger-600 text-white' : 'border-fir-700 bg-fir-700 text-white') : state === 'done' ? 'border-fir-200 bg-fir-50 text-fir-900' : 'border-stone-300 bg-white text-stone-700'}`}>
-            {i + 1}. {STATUS_LABELS[s]}
-          </li>
-        );
-      })}
-    </ol>
   );
 }
 
@@ -132,8 +115,8 @@ function Figure({ label, value, sub }: { label: string; value: ReactNode; sub?: 
   );
 }
 
-function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, elevationM, lineage }: {
-  batch: BatchDto; base: string; units: UnitSystem; currency: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number; lineage: ReactNode;
+function BatchRecord({ batch, base, units, currency, timeZone, tanks, altitude, dangers, elevationM, lineage }: {
+  batch: BatchDto; base: string; units: UnitSystem; currency: string; timeZone: string; tanks: Awaited<ReturnType<typeof listTanks>>; altitude: string | null; dangers: DangerAlert[]; elevationM: number; lineage: ReactNode;
 }) {
   const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
   const final = batch.status === 'released' || batch.status === 'rejected';
@@ -171,14 +154,13 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
 
   return (
     <div className="flex flex-col gap-4">
-      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'}>
-        <Steps status={batch.status} />
-      </Header>
+      <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'} />
+      <StepNav status={batch.status} hasActions={!final} />
 
       <DangerBanner alerts={dangers} slug={base.slice(3)} units={units} canAcknowledge linkToBatch={false} />
 
       {!final ? (
-        <Card title="Next step">
+        <Card title="Next step" id="step-next">
           <BatchActions
             key={batch.status}
             url={url}
@@ -194,16 +176,16 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
       ) : null}
 
       {batch.status === 'rejected' ? (
-        <Notice tone="danger" title={`Rejected ${dateText(batch.rejectedAt)}`}>
+        <div id="step-result" className="scroll-mt-28"><Notice tone="danger" title={`Rejected ${dateText(batch.rejectedAt, timeZone)}`}>
           <p>{batch.rejectReason}</p>
           {batch.costs ? <p className="mt-1">Inputs written off: {money(batch.costs.totalCents, currency)}.</p> : null}
-        </Notice>
+        </Notice></div>
       ) : null}
 
       {batch.status === 'released' && batch.costs && batch.release ? (
-        <Card title="Released">
+        <Card title="Released" id="step-result">
           <dl className="grid grid-cols-1 gap-3 sm:grid-cols-3">
-            <Figure label="Into the tank" value={vol(batch.release.releasedLiters, units)} sub={`${batch.release.tankName ?? 'Tank'} · ${dateText(batch.release.releasedAt)}`} />
+            <Figure label="Into the tank" value={vol(batch.release.releasedLiters, units)} sub={`${batch.release.tankName ?? 'Tank'} · ${dateText(batch.release.releasedAt, timeZone)}`} />
             <Figure label={`Cost per ${units === 'us' ? 'gallon' : 'litre'}`} value={perUnit(batch.costs.costPerGallonCents, batch.costs.costPerLiterCents, units, currency)} />
             <Figure label="Batch cost" value={money(batch.costs.totalCents, currency)} />
           </dl>
@@ -212,7 +194,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
       ) : null}
       {lineage}
 
-      <Card title="1. Plan">
+      <Card title="1. Plan" id="step-plan">
         <dl className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
           <Figure label="Oil" value={vol(batch.oilLiters, units)} sub={units === 'us' ? `${batch.oilLiters.toFixed(1)} L` : undefined} />
           <Figure label="Titration average" value={`${plan.titration.averageMl.toFixed(2)} mL`} sub={`${plan.titration.source === 'oil-lot' ? 'From the oil lot' : 'Trials'}: ${plan.titration.trials.join(', ')} mL (${plan.titration.titrant})`} />
@@ -237,14 +219,14 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
         <div className="mt-3"><SafetyNote topics={['methanol', 'lye', 'materials', 'protective-equipment']} title="Before handling methanol and lye" altitude={altitude} /></div>
       </Card>
 
-      <Card title="2. Reaction">
+      <Card title="2. Reaction" id="step-reaction">
         <StepForm url={url} fields={reactionFields} disabled={final} />
         <h3 className="mb-2 mt-4 font-semibold text-fir-900">Temperature</h3>
-        <TemperatureLog url={url} readings={batch.temperatures} units={units} readOnly={final} elevationM={elevationM} />
+        <TemperatureLog url={url} readings={batch.temperatures} units={units} timeZone={timeZone} readOnly={final} elevationM={elevationM} />
         <div className="mt-3"><SafetyNote topics={['methanol']} title="Heating methanol and oil" altitude={altitude} /></div>
       </Card>
 
-      <Card title="3. Settling and draining">
+      <Card title="3. Settling and draining" id="step-settling">
         <StepForm url={url} disabled={final} fields={[
           { name: 'settlingHours', label: 'Settling time (hours)', kind: 'number', defaultValue: fixed(batch.settlingHours, 2), hint: 'Overnight, 8–24 hours, is usual.' },
           { name: 'glycerinDrained', label: `Glycerin drained (${v})`, kind: 'number', defaultValue: volIn(batch.glycerinLiters, units), aside: <>Crude glycerin layer expected: about {vol(plan.yields.crudeGlycerinLiters, units)} (of which about {vol(plan.yields.glycerolLiters, units)} pure glycerol; the rest is methanol, catalyst, soap and some fuel).</> },
@@ -252,7 +234,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
         <div className="mt-3"><SafetyNote topics={['waste']} title="Glycerin" /></div>
       </Card>
 
-      <Card title="4. Washing">
+      <Card title="4. Washing" id="step-washing">
         <StepForm url={url} disabled={final} fields={[
           { name: 'washCycles', label: 'Wash cycles', kind: 'number', defaultValue: batch.washCycles?.toString() ?? '', hint: 'Until the water runs clear and near pH 7.' },
           { name: 'washWater', label: `Wash water used (${v})`, kind: 'number', defaultValue: volIn(batch.washWaterLiters, units) },
@@ -260,7 +242,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
         <div className="mt-3"><SafetyNote topics={['waste']} title="Wash water" /></div>
       </Card>
 
-      <Card title="5. Drying">
+      <Card title="5. Drying" id="step-drying">
         <StepForm url={url} disabled={final} fields={[
           { name: 'dryingMethod', label: 'Drying method', kind: 'select', defaultValue: batch.dryingMethod ?? '', options: [
             { value: '', label: 'Not recorded' }, { value: 'air', label: 'Open air' }, { value: 'bubble', label: 'Bubble drying' }, { value: 'heat', label: 'Heating' },
@@ -271,7 +253,7 @@ function BatchRecord({ batch, base, units, currency, tanks, altitude, dangers, e
         <div className="mt-3"><SafetyNote topics={['rags']} title="Fuel-soaked rags" /></div>
       </Card>
 
-      <Card title="6. Testing">
+      <Card title="6. Testing" id="step-testing">
         <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
         {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults} standard={batch.quality.standard} /></div> : null}
       </Card>

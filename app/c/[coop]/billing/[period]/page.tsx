@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { formatDate } from '@/lib/dates';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { CloseMonthForm } from '@/components/billing/action-forms';
@@ -110,7 +111,7 @@ export default async function BillingMonthPage({ params, searchParams }: { param
 
       <Card title={overview.closed ? 'Month closed' : 'Close the month'}>
         {overview.closed ? (
-          <p className="text-sm">Closed {recon.closedAt ? new Date(recon.closedAt).toLocaleDateString('en-US', { dateStyle: 'medium', timeZone: actor.coop.timezone }) : ''}{recon.closedBy ? ` by ${recon.closedBy}` : ''}. Its draws, invoices and payments are locked.</p>
+          <p className="text-sm">Closed {recon.closedAt ? formatDate(recon.closedAt, actor.coop.timezone) : ''}{recon.closedBy ? ` by ${recon.closedBy}` : ''}. Its draws, invoices and payments are locked.</p>
         ) : recon.blockers.length ? (
           <Notice tone="warn" title={`${label} cannot be closed yet`}>
             <ul className="list-disc pl-5">{recon.blockers.map((b) => <li key={b}>{b}</li>)}</ul>

@@ -4,6 +4,7 @@ import { PricingForm } from '@/components/tank/pricing-form';
 import { PricingHistoryTable } from '@/components/tank/pricing-history-table';
 import { can, requirePageActor } from '@/lib/auth';
 import { listPolicies } from '@/lib/pricing-policy';
+import { listTanks } from '@/lib/tank';
 import { volumeLabel } from '@/lib/units';
 
 export const metadata = { title: 'Pricing' };
@@ -13,7 +14,9 @@ export default async function PricingPage({ params }: { params: Promise<{ coop: 
   const { coop } = await params;
   const actor = await requirePageActor(coop, 'tank:read');
   const { slug, units, currency, timezone } = actor.coop;
-  const policies = await listPolicies(actor);
+  const [policies, tanks] = await Promise.all([listPolicies(actor), listTanks(actor)]);
+  // The preview prices at the average cost of the in-service tank holding the most fuel.
+  const costTank = tanks.filter((t) => t.active && t.onHandLiters > 0 && t.avgCostCentsPerUnit !== null).sort((a, b) => b.onHandLiters - a.onHandLiters)[0];
   const current = policies.find((p) => p.status === 'in-force');
   return (
     <div className="flex flex-col gap-6">
@@ -29,7 +32,7 @@ export default async function PricingPage({ params }: { params: Promise<{ coop: 
         {current ? <p className="text-lg font-semibold text-fir-900">{current.description}</p> : <Notice tone="warn">No price is set, so draws cannot be recorded yet.</Notice>}
       </Card>
       {can(actor.role, 'pricing:write') ? (
-        <Card title="Set a new price"><PricingForm coopSlug={slug} units={units} currency={currency} /></Card>
+        <Card title="Set a new price"><PricingForm coopSlug={slug} units={units} currency={currency} current={current?.policy} costCentsPerUnit={costTank?.avgCostCentsPerUnit ?? null} costTank={costTank?.name} /></Card>
       ) : null}
       <section aria-labelledby="history" className="flex flex-col gap-3">
         <h2 id="history">History</h2>
