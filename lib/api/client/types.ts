@@ -221,7 +221,7 @@ export interface paths {
      */
     get: operations["getApiCoopsByCoopInvitations"];
     /**
-     * Invite someone by e-mail (7-day single-use link)
+     * Invite someone by e-mail (the worker sends a 7-day single-use link)
      * @description **Who:** Roles: admin. Action `members:manage`.
      */
     post: operations["postApiCoopsByCoopInvitations"];
@@ -829,11 +829,19 @@ export interface components {
       capacityLiters: number;
       onHandLiters: number;
       reservedLiters: number;
+      /** @description Held while a batch in the tank is under review (not reservable, drawable or movable). */
+      heldLiters: number;
       availableLiters: number;
       capacity: number;
       onHand: number;
       reserved: number;
+      held: number;
       available: number;
+      /**
+       * @description mixed: a draw takes every batch in proportion; fifo: oldest fuel first.
+       * @enum {string}
+       */
+      mixing: "mixed" | "fifo";
       valueCents: number;
       avgCostCentsPerGallon: number | null;
       avgCostCentsPerUnit: number | null;
@@ -3242,7 +3250,7 @@ export interface operations {
     };
   };
   /**
-   * Invite someone by e-mail (7-day single-use link)
+   * Invite someone by e-mail (the worker sends a 7-day single-use link)
    * @description **Who:** Roles: admin. Action `members:manage`.
    */
   postApiCoopsByCoopInvitations: {
@@ -3268,7 +3276,8 @@ export interface operations {
         content: {
           "application/json": {
             invitation: components["schemas"]["Invitation"];
-            sent: boolean;
+            /** @constant */
+            queued: true;
             [key: string]: unknown;
           };
         };
@@ -3354,7 +3363,8 @@ export interface operations {
         content: {
           "application/json": {
             invitation: components["schemas"]["Invitation"];
-            sent: boolean;
+            /** @constant */
+            queued: true;
             [key: string]: unknown;
           };
         };
