@@ -13,7 +13,7 @@ import { lockCoopBilling } from './locks';
 import { allocatePayment } from './payments';
 import { cents } from './cents';
 import { invoiceLabel, todayIn } from './periods';
-import { takeNextId } from './queries/payments';
+import { takeNextId } from './queries';
 import type { InvoiceDetail } from './types';
 
 /** How long one request owns an attempt while it talks to the provider (then a retry may take over). */

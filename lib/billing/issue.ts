@@ -11,7 +11,7 @@ import { memberBalance } from './invoices';
 import { assertPeriodOpen, lockCoopBilling } from './locks';
 import { sendQueuedInvoiceEmails } from './mail';
 import { addDays, invoiceLabel, PAYMENT_TERMS_DAYS, periodLabel, periodToDate, todayIn } from './periods';
-import { insertCreditLines, numberAndIssueDrafts, refreshDraftTotals } from './queries/run';
+import { insertCreditLines, numberAndIssueDrafts, refreshDraftTotals } from './queries';
 
 /**
  * Takes the next `count` numbers from the co-op's counter; the counter row stays locked until the

@@ -3,7 +3,7 @@ import type { Transaction } from 'sequelize';
 import { HttpError } from '@/lib/http';
 import { BillingPeriod } from '@/models';
 import { periodLabel } from './periods';
-import { advisoryLockCoopBilling, monthInstants } from './queries/locks';
+import { advisoryLockCoopBilling, monthInstants } from './queries';
 
 /**
  * Serialises the money writes of one co-op (runs, issue, payments, refunds, void, close) inside

@@ -13,7 +13,7 @@ import { assertPeriodOpen, lockCoopBilling } from './locks';
 import { cents } from './cents';
 import { findPayment, refreshInvoicePaid } from './payments-read';
 import { todayIn } from './periods';
-import { takeNextId } from './queries/payments';
+import { takeNextId } from './queries';
 import type { PaymentDTO } from './types';
 
 /** What the money paths read of a payment they hold locked. */

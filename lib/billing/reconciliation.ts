@@ -9,7 +9,7 @@ import { listInvoices } from './invoices';
 import { lockCoopBilling, periodBounds } from './locks';
 import { findPayments, readTogether } from './payments-read';
 import { currentPeriod, periodLabel, periodToDate, shiftPeriod } from './periods';
-import { periodInvoiceTotals, periodPaymentTotals, unbilledDrawTotals } from './queries/payments';
+import { periodInvoiceTotals, periodPaymentTotals, unbilledDrawTotals } from './queries';
 import type { InvoiceSummary, PaymentDTO } from './types';
 
 export interface ReconciliationCheck {

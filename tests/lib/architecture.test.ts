@@ -1,8 +1,7 @@
 // Architecture rules of the data layer (issue 11), checked by reading the source tree. No
 // database: these are text rules, kept simple on purpose so a failure is easy to read.
 //
-// 1. Raw SQL goes through `sequelize.query` (with `bind`) only in `lib/**/queries.ts` or
-//    `lib/**/queries/*.ts`, and in `models/`, `migrations/`, `seeders/`. The rule looks for the
+// 1. Raw SQL goes through `sequelize.query` (with `bind`) only in `lib/**/queries.ts`, and in `models/`, `migrations/`, `seeders/`. The rule looks for the
 //    text `sequelize.query` (which also covers `queryInterface.sequelize.query`) outside comments.
 //    The test harness (tests/support/api.ts `sql`) and the benchmarks (bench/lib.mjs `dbPool`)
 //    arrange rows through their own Sequelize instance (`db().query`), which is not app code.
@@ -65,7 +64,7 @@ function importsOf(file: string): { spec: string; target: string; names: string[
 }
 
 const RAW_SQL_ALLOWED = (f: string) =>
-  /^(?:models|migrations|seeders)\//.test(f) || /^lib\/(?:.+\/)?queries\.ts$/.test(f) || /^lib\/(?:.+\/)?queries\/[^/]+\.ts$/.test(f);
+  /^(?:models|migrations|seeders)\//.test(f) || /^lib\/(?:.+\/)?queries\.ts$/.test(f);
 
 const REMOVED_DB_NAMES = new Set(['statement', 'queryRows', 'queryRowSets', 'runReadPlan', 'ReadPlan']);
 
@@ -75,7 +74,7 @@ describe('architecture: one data layer through Sequelize', () => {
     expect(files.length).toBeGreaterThan(100);
   });
 
-  it('calls sequelize.query only in models/, migrations/, seeders/ and lib/**/queries.ts (or lib/**/queries/*.ts)', () => {
+  it('calls sequelize.query only in models/, migrations/, seeders/ and lib/**/queries.ts', () => {
     const offenders = files.filter((f) => !RAW_SQL_ALLOWED(f) && /\bsequelize\s*\.\s*query\s*[(<]/.test(code.get(f)!));
     expect(offenders, `raw SQL outside a queries file (move it into lib/<domain>/queries.ts, or use a model):\n  ${offenders.join('\n  ')}\n`).toEqual([]);
   });
