@@ -1,21 +1,9 @@
 // In headless Chromium: an admin moves members in from a spreadsheet — chooses a CSV file, sees
 // each row's fate, invites, and follows the e-mails on the result page; then previews an opening
 // balances file with a bad row. Every screen passes axe and fits 360 px and desktop widths.
-import path from 'node:path';
-import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { baseUrl, makeCoop, makeUser, TEST_PASSWORD } from '../support/api';
-import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
-
-async function shoot(page: Page, name: string) {
-  for (const width of [360, 1280]) {
-    await page.setViewportSize({ width, height: 800 });
-    await page.screenshot({ path: path.join(SHOTS, `${name}-${width}.png`), fullPage: true });
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
-    expect(overflow, `${name} scrolls sideways at ${width}px`).toBeLessThanOrEqual(0);
-  }
-  await checkA11y(page);
-}
+import { shootBothWidths, signInUi, withBrowser } from '../support/browser';
 
 describe('imports in the browser', () => {
   it('bulk invitations: file → preview with each row’s fate → invite → result with delivery; balances preview names a bad row', async () => {
@@ -28,25 +16,25 @@ describe('imports in the browser', () => {
       await signInUi(page, admin.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${coop.slug}/imports`);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Import from a spreadsheet');
-      await shoot(page, 'imports');
+      await shootBothWidths(page, 'imports');
 
       await page.locator('#invitations-file').setInputFiles({ name: 'members.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
       await page.getByRole('button', { name: 'Preview' }).first().click();
       await page.getByText('Preview of members.csv').waitFor();
       await expect(page.getByText('Unknown role').count()).resolves.toBeGreaterThan(0);
       await expect(page.getByText('Bad e-mail').count()).resolves.toBeGreaterThan(0);
-      await shoot(page, 'imports-invitations-preview');
+      await shootBothWidths(page, 'imports-invitations-preview');
 
       await Promise.all([page.waitForURL(/\/imports\/invitations\/\d+$/), page.getByRole('button', { name: 'Invite 1 person' }).click()]);
       await page.getByText('E-mails sent: 1 of 1').waitFor({ timeout: 30_000 });
-      await shoot(page, 'imports-invitations-result');
+      await shootBothWidths(page, 'imports-invitations-result');
 
       await page.goto(`${baseUrl()}/c/${coop.slug}/imports`);
       await page.locator('#opening-balances-file').setInputFiles({ name: 'balances.csv', mimeType: 'text/csv', buffer: Buffer.from('E-mail,Balance,As of\nnobody@example.org,12.00,11/30/2026\n') });
       await page.getByRole('button', { name: 'Preview' }).nth(1).click();
       await page.getByText(/not a member of this co-op yet/).waitFor();
       await expect(page.getByRole('button', { name: 'Import 0 rows' }).isDisabled()).resolves.toBe(true);
-      await shoot(page, 'imports-balances-preview');
+      await shootBothWidths(page, 'imports-balances-preview');
     });
   }, 120_000);
 });

@@ -1,21 +1,9 @@
 // In headless Chromium: an admin invites a brewer from the members screen; the invitee opens the
 // e-mailed link in a fresh browser, creates an account and lands in the co-op as a brewer.
 // Every screen passes axe and is saved at phone and desktop widths.
-import path from 'node:path';
-import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { baseUrl, makeCoop, makeUser, TEST_PASSWORD, waitForMail } from '../support/api';
-import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
-
-async function shoot(page: Page, name: string) {
-  for (const width of [360, 1280]) {
-    await page.setViewportSize({ width, height: 800 });
-    await page.screenshot({ path: path.join(SHOTS, `${name}-${width}.png`), fullPage: true });
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
-    expect(overflow, `${name} scrolls sideways at ${width}px`).toBeLessThanOrEqual(0);
-  }
-  await checkA11y(page);
-}
+import { checkA11y, shootBothWidths, signInUi, withBrowser } from '../support/browser';
 
 describe('invitation in the browser', () => {
   it('admin invites → e-mail → invitee creates an account → lands in the co-op as a brewer', async () => {
@@ -29,7 +17,7 @@ describe('invitation in the browser', () => {
       await page.goto(`${baseUrl()}/c/${coop.slug}/members`);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Members');
       await expect(page.getByRole('cell', { name: 'Caspian Oduya', exact: true }).count()).resolves.toBe(1);
-      await shoot(page, 'members');
+      await shootBothWidths(page, 'members');
 
       const form = page.locator('form', { has: page.getByRole('button', { name: 'Send invitation' }) });
       await form.getByLabel('E-mail address').fill(email);
@@ -37,7 +25,7 @@ describe('invitation in the browser', () => {
       await form.getByRole('button', { name: 'Send invitation' }).click();
       await page.getByText(`Invitation to ${email} saved`).waitFor();
       await page.getByText(email, { exact: true }).waitFor();
-      await shoot(page, 'members-invited');
+      await shootBothWidths(page, 'members-invited');
     });
 
     const mail = await waitForMail(email);
@@ -47,7 +35,7 @@ describe('invitation in the browser', () => {
       await page.goto(link);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Join Larkspur Commons Fuel');
       await expect(page.getByText('as a brewer', { exact: false }).first().isVisible()).resolves.toBe(true);
-      await shoot(page, 'invite-accept');
+      await shootBothWidths(page, 'invite-accept');
 
       await page.getByLabel('Your name').fill('Tamsin Greaves');
       await page.getByLabel('Choose a password').fill('maple-cistern-harbor-19');
@@ -60,12 +48,12 @@ describe('invitation in the browser', () => {
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Larkspur Commons Fuel');
       await expect(page.getByRole('banner').getByText('brewer', { exact: true }).isVisible()).resolves.toBe(true);
       await expect(page.getByRole('navigation', { name: 'Co-op' }).getByRole('link', { name: 'Members' }).count()).resolves.toBe(0);
-      await shoot(page, 'invite-landed');
+      await shootBothWidths(page, 'invite-landed');
 
       // The same link again: a clear message, not an error.
       await page.goto(link);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('This invitation was already used');
-      await shoot(page, 'invite-used');
+      await shootBothWidths(page, 'invite-used');
     });
   }, 150_000);
 
@@ -75,22 +63,22 @@ describe('invitation in the browser', () => {
     await withBrowser(async (page) => {
       await page.goto(`${baseUrl()}/invite/not-a-real-link`);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('This invitation link does not work');
-      await shoot(page, 'invite-invalid');
+      await shootBothWidths(page, 'invite-invalid');
 
       await page.goto(`${baseUrl()}/reset-password`);
-      await shoot(page, 'reset-request');
+      await shootBothWidths(page, 'reset-request');
       await page.getByLabel('E-mail').fill(u.email);
       await page.getByRole('button', { name: 'Send the link' }).click();
       await page.getByText('Check your e-mail').waitFor();
       const token = (await waitForMail(u.email)).text.match(/\/reset-password\/([A-Za-z0-9_-]{43})/)![1];
       await page.goto(`${baseUrl()}/reset-password/${token}`);
-      await shoot(page, 'reset-password');
+      await shootBothWidths(page, 'reset-password');
 
       await signInUi(page, u.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/profile`);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('My profile');
       await expect(page.getByRole('link', { name: 'Thistledown Biofuel Club' }).count()).resolves.toBe(1);
-      await shoot(page, 'profile');
+      await shootBothWidths(page, 'profile');
 
       // A field error shows beside its field.
       await page.getByLabel('New password', { exact: true }).fill('tiny');

@@ -79,3 +79,17 @@ export async function expectAnnounced(page: Page, text: string | RegExp) {
   await box.filter({ hasText: text }).waitFor();
   await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'announcement', undefined, { timeout: 5_000 });
 }
+
+/**
+ * Full-page screenshots at 360 and 1280 px (800 high) named `<name>-<width>.png`; fails when the
+ * page scrolls sideways at either width, then runs axe.
+ */
+export async function shootBothWidths(page: Page, name: string) {
+  for (const width of [360, 1280]) {
+    await page.setViewportSize({ width, height: 800 });
+    await page.screenshot({ path: path.join(SHOTS, `${name}-${width}.png`), fullPage: true });
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+    expect(overflow, `${name} scrolls sideways at ${width}px`).toBeLessThanOrEqual(0);
+  }
+  await checkA11y(page);
+}
