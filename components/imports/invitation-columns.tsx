@@ -47,11 +47,12 @@ const fieldCell = (key: 'name' | 'email' | 'role') =>
 /** Columns of the invitations preview and result (with delivery once confirmed). */
 export function invitationImportColumns(withDelivery: boolean): DataColumn<InvitationImportRow>[] {
   const cols: DataColumn<InvitationImportRow>[] = [
-    h.accessor('line', { header: 'Row' }),
+    h.accessor('line', { meta: { priority: 'key' }, header: 'Row' }),
     fieldCell('name'),
     fieldCell('email'),
     fieldCell('role'),
     h.accessor('fateLabel', {
+      meta: { priority: 'key' },
       header: 'Result',
       cell: ({ row }) => (
         <span className="flex flex-col gap-1">
@@ -64,6 +65,7 @@ export function invitationImportColumns(withDelivery: boolean): DataColumn<Invit
   if (withDelivery) {
     cols.push(
       h.accessor('delivery', {
+        meta: { priority: 'key' },
         header: 'E-mail',
         cell: ({ row }) => {
           const d = row.original.delivery;

@@ -14,7 +14,7 @@ const h = createColumnHelper<Features, OpeningImportRow>();
 /** Columns: the row number, each of the file's columns (a field with a problem marked), and what the row does or what is wrong. */
 export function openingImportColumns(fileColumns: { key: string; heading: string }[]): DataColumn<OpeningImportRow>[] {
   return [
-    h.accessor('line', { header: 'Row' }),
+    h.accessor('line', { meta: { priority: 'key' }, header: 'Row' }),
     ...fileColumns.map((c) =>
       h.display({
         id: c.key,
@@ -28,6 +28,7 @@ export function openingImportColumns(fileColumns: { key: string; heading: string
     ),
     h.display({
       id: 'result',
+      meta: { priority: 'key' },
       header: 'Result',
       cell: ({ row }) =>
         row.original.errors.length === 0 ? (
