@@ -171,7 +171,7 @@ export async function getOverview(actor: Actor): Promise<Overview> {
     listTanks(actor, { activeOnly: true }),
     policyInForce(c),
     overviewCards({ coopId: c, membershipId: actor.membershipId, openStatuses: OPEN_STATUSES, working: WORKING, period: periodToDate(period), brewer: isBrewer, treasurer: isTreasurer, admin: isAdmin }),
-    isBrewer ? stockState(c) : null,
+    isBrewer ? stockState(c, undefined, { totals: true }) : null,
     charts(actor),
   ]);
   const openReservations = cards.reservations.map((r) => ({ ...r, windowEnd: new Date(r.windowEnd).toISOString() }));

@@ -85,8 +85,8 @@ export async function openFile(coopId: number, key: string): Promise<StoredFile>
 /** Removes a stored file (a key of another co-op is ignored). Best effort: a failure is logged, never thrown. */
 export async function deleteFile(coopId: number, key: string): Promise<void> {
   if (!isCoopKey(coopId, key)) return;
-  const { client, bucket } = storageConfig();
   try {
+    const { client, bucket } = storageConfig();
     await client.send(new DeleteObjectCommand({ Bucket: bucket, Key: objectKey(key) }));
   } catch (err) {
     // An orphaned object costs a few bytes; the request that changed the rows has succeeded.

@@ -1,5 +1,7 @@
 import 'server-only';
 import { S3Client } from '@aws-sdk/client-s3';
+import { HttpError } from '@/lib/http';
+import { log } from '@/lib/log';
 
 /**
  * Where files live: one bucket of an S3-compatible object store, configured from the
@@ -19,12 +21,25 @@ export interface StorageConfig {
 }
 
 let current: { signature: string; config: StorageConfig } | null = null;
+let notConfiguredLogged = false;
 
-/** The bucket, key prefix and client (one client per process: it only holds connections). */
+/**
+ * No bucket configured: an operator's mistake, not the person's. Logged once per process (as an
+ * error, for the operator), answered 503 with a code (the rest of the app keeps working).
+ */
+function notConfigured(): HttpError {
+  if (!notConfiguredLogged) {
+    notConfiguredLogged = true;
+    log.error({ code: 'storage-not-configured' }, 'File storage is not configured: set S3_BUCKET (and S3_ENDPOINT for a store other than AWS).');
+  }
+  return new HttpError(503, 'File storage is not set up on this installation yet. Nothing was changed; please tell the administrator.', undefined, { code: 'storage-not-configured', retryAfter: 60 });
+}
+
+/** The bucket, key prefix and client (one client per process: it only holds connections); 503 HttpError when no bucket is set. */
 export function storageConfig(): StorageConfig {
   const env = process.env;
   const bucket = env.S3_BUCKET?.trim();
-  if (!bucket) throw new Error('File storage is not configured: set S3_BUCKET (and S3_ENDPOINT for a store other than AWS).');
+  if (!bucket) throw notConfigured();
   const signature = [bucket, env.S3_ENDPOINT, env.S3_REGION, env.S3_ACCESS_KEY_ID, env.S3_FORCE_PATH_STYLE, env.S3_KEY_PREFIX].join('\n');
   if (current?.signature === signature) return current.config;
   const rawPrefix = (env.S3_KEY_PREFIX ?? '').trim().replace(/^\/+/, '');
