@@ -1,4 +1,6 @@
-// The one CSV writer for every export (pure: no I/O). RFC 4180 quoting, CRLF line ends, and
+import { stringify } from 'csv-stringify/sync';
+
+// The one CSV writer for every export (pure: no I/O), on csv-stringify. RFC 4180 quoting, CRLF line ends, and
 // text cells neutralised so no spreadsheet reads them as a formula (OWASP "CSV injection").
 
 export type CsvValue = string | number | null | undefined;
@@ -23,18 +25,16 @@ export function neutraliseFormula(s: string): string {
 }
 
 /**
- * One CSV cell. Text (`text: true`, the default) is neutralised (see `neutraliseFormula`);
- * numbers never are. The cell is quoted when it holds a quote or any separator a spreadsheet
- * might use, so a `;`-separated reading keeps it whole too.
+ * Rows of cells → a CSV document through csv-stringify: comma-separated, CRLF after every row
+ * (RFC 4180), empty cells for null/undefined. Text cells are neutralised (see `neutraliseFormula`);
+ * numbers never are. A cell is quoted when it holds a quote or any separator a spreadsheet might
+ * use, so a `;`-separated reading keeps it whole too.
  */
-export function csvCell(v: CsvValue, { text = true } = {}): string {
-  if (v === null || v === undefined) return '';
-  let s = String(v);
-  if (text && typeof v === 'string') s = neutraliseFormula(s);
-  return NEEDS_QUOTES.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-/** Rows of cells → a CSV document (comma-separated, CRLF after every row). */
 export function csvRows(rows: readonly (readonly CsvValue[])[]): string {
-  return rows.map((cells) => cells.map((c) => csvCell(c)).join(',')).join('\r\n') + '\r\n';
+  return stringify(rows as CsvValue[][], {
+    record_delimiter: 'windows',
+    eof: true,
+    quoted_match: NEEDS_QUOTES,
+    cast: { string: (v) => neutraliseFormula(v) },
+  });
 }

@@ -1,35 +1,43 @@
+import { tz, TZDate } from '@date-fns/tz';
+import { format } from 'date-fns';
+
 /**
  * The one way to show dates and times: always in the co-op's time zone, always in one shape —
  * "Dec 3, 2026" for a day, "Dec 3, 2026, 17:30" for a moment, "17:30" for a time of day (24-hour
- * clock). Built from Intl parts, so the server and the browser render the same text whatever
- * their own zone (pure; safe in client components and e-mails).
+ * clock). Built with date-fns in the zone (@date-fns/tz), so the server and the browser render the
+ * same text whatever their own zone (pure; safe in client components and e-mails). Calendar days
+ * in a zone (today, a moment's day) and wall-clock times in a zone come from here too.
  *
  * A bare calendar date ("2026-12-03": a batch date, a due date) is a day, not a moment, and is
  * shown as that day in every zone.
  */
 const DAY_ONLY = /^\d{4}-\d{2}-\d{2}$/;
 
-const formats = new Map<string, Intl.DateTimeFormat>();
-function partsFormat(timeZone: string): Intl.DateTimeFormat {
-  let f = formats.get(timeZone);
-  if (!f) {
+/** The zone name when the runtime knows it, else 'UTC': a mistyped zone in a co-op's settings
+ * must never stop a page or an e-mail. */
+const known = new Map<string, string>();
+function safeZone(timeZone: string): string {
+  let z = known.get(timeZone);
+  if (!z) {
     try {
-      f = new Intl.DateTimeFormat('en-US', { timeZone, year: 'numeric', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
+      new Intl.DateTimeFormat('en-US', { timeZone });
+      z = timeZone;
     } catch {
-      // An unknown zone name in a co-op's settings must not stop a page or an e-mail.
-      f = partsFormat('UTC');
+      z = 'UTC';
     }
-    formats.set(timeZone, f);
+    known.set(timeZone, z);
   }
-  return f;
+  return z;
 }
+
+/** date-fns's option for reading and formatting in a zone (@date-fns/tz). */
+const inZone = (timeZone: string) => ({ in: tz(safeZone(timeZone)) });
 
 function parts(value: string | Date, timeZone: string) {
   const day = typeof value === 'string' && DAY_ONLY.test(value);
   const d = day ? new Date(`${value}T12:00:00Z`) : typeof value === 'string' ? new Date(value) : value;
-  const ps = partsFormat(day ? 'UTC' : timeZone).formatToParts(d);
-  const p = (t: string) => ps.find((x) => x.type === t)?.value ?? '';
-  return { date: `${p('month')} ${p('day')}, ${p('year')}`, time: `${p('hour')}:${p('minute')}`, monthDay: `${p('month')} ${p('day')}` };
+  const at = inZone(day ? 'UTC' : timeZone);
+  return { date: format(d, 'MMM d, yyyy', at), time: format(d, 'HH:mm', at), monthDay: format(d, 'MMM d', at) };
 }
 
 /** "Dec 3, 2026, 17:30" in the zone; `{ time: false }` gives "Dec 3, 2026". */
@@ -53,9 +61,20 @@ export function formatMonthDay(value: string | Date, timeZone: string): string {
   return parts(value, timeZone).monthDay;
 }
 
-/** A moment as YYYY-MM-DD in a time zone (for date inputs). */
+/** A moment as its calendar day YYYY-MM-DD in a time zone (date inputs, due dates, periods). */
 export function isoDay(d: Date, timeZone: string): string {
-  const ps = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(d);
-  const p = (t: string) => ps.find((x) => x.type === t)?.value;
-  return `${p('year')}-${p('month')}-${p('day')}`;
+  return format(d, 'yyyy-MM-dd', inZone(timeZone));
+}
+
+/** Today's date YYYY-MM-DD in a time zone. */
+export function todayIn(timeZone: string, now = new Date()): string {
+  return isoDay(now, timeZone);
+}
+
+/**
+ * The instant of a wall-clock time in a time zone (daylight-saving shifts included), e.g. the
+ * start of a reservation day at 00:00 in the co-op's zone. `month` is 1–12.
+ */
+export function zonedToUtc(year: number, month: number, day: number, hour: number, minute: number, timeZone: string): Date {
+  return new Date(new TZDate(year, month - 1, day, hour, minute, safeZone(timeZone)).getTime());
 }

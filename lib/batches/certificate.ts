@@ -6,7 +6,8 @@ import { evaluateQuality, evaluateQuickTests, formatQualityLimit, formatQualityV
 import { SAFETY_DEFERENCE } from '@/lib/safety';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { computePlan } from './plan';
-import { batchOilLotShares, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, tankName, todayIn } from './read';
+import { batchOilLotShares, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, tankName } from './read';
+import { todayIn } from '@/lib/dates';
 
 const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported', 'screened-within': 'Within (screening)', 'screened-outside': 'Outside (screening)' } as const;
 const SCREEN_TEXT = { 'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded', 'not tested': 'Not tested' } as const;

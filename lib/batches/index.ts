@@ -2,7 +2,7 @@ import 'server-only';
 // The batch record: plan → steps → release or reject, with its files and certificate.
 export { STEPS, createBatch, updateBatch, advanceBatch, addTemperature } from './records';
 export {
-  getBatch, listBatches, todayIn, type BatchDto, type BatchSummaryDto, type BatchListRow, type BatchCosts, type TemperatureDto,
+  getBatch, listBatches, type BatchDto, type BatchSummaryDto, type BatchListRow, type BatchCosts, type TemperatureDto,
 } from './read';
 export { releaseBatch, rejectBatch } from './release';
 export { planBatch, type PlannerResult, type ChemicalCoverage } from './planner';

@@ -69,15 +69,6 @@ export function quickTestInput(stored: QuickTestsStored, catalyst: Catalyst): Qu
   };
 }
 
-/** Today's date (YYYY-MM-DD) in the co-op's time zone. */
-export function todayIn(timezone: string): string {
-  try {
-    return new Intl.DateTimeFormat('en-CA', { timeZone: timezone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
-  } catch {
-    return new Date().toISOString().slice(0, 10);
-  }
-}
-
 /** A temperature reading as returned: °C stored, with its level and message in the co-op's units. */
 export interface TemperatureDto {
   id: string;

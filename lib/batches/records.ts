@@ -11,12 +11,13 @@ import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { tempToC, volumeToLiters } from '@/lib/units';
 import type { BatchCreateInput, BatchUpdateInput } from '@/lib/validation/brewing';
 import { inTransaction } from '@/lib/db';
+import { todayIn } from '@/lib/dates';
 import { Batch, BatchOilLot, BatchTemperature, ChemicalLot } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
 import { computePlan, type Catalyst, type ComputedPlan, type PlanInput } from './plan';
 import { lockBatchNumbers } from './queries';
 import {
-  getBatch, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, todayIn,
+  getBatch, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf,
   type BatchDto, type BatchRecord, type QuickTestsStored, type TemperatureDto,
 } from './read';
 

@@ -12,7 +12,8 @@ import { getInvoiceDetail } from './invoices';
 import { lockCoopBilling } from './locks';
 import { allocatePayment } from './payments';
 import { cents } from './cents';
-import { invoiceLabel, todayIn } from './periods';
+import { todayIn } from '@/lib/dates';
+import { invoiceLabel } from './periods';
 import { takeNextId } from './queries';
 import type { InvoiceDetail } from './types';
 

@@ -2,7 +2,8 @@ import 'server-only';
 import { col, fn, literal, Op, type InferAttributes } from 'sequelize';
 import { Invoice, MemberCredit, Membership, Payment, User } from '@/models';
 import { cents } from './cents';
-import { csvCell } from '@/lib/csv';
+import { csvRows, type CsvValue } from '@/lib/csv';
+import { isoDay } from '@/lib/dates';
 import { centsToDecimal } from './csv';
 import { OPEN_STATUSES } from './invoices';
 import { invoiceLabel, periodToDate } from './periods';
@@ -11,8 +12,6 @@ import type { InvoiceKind } from './types';
 
 export type ExportKind = 'invoices' | 'payments' | 'balances';
 
-const line = (cells: string[]) => `${cells.join(',')}\r\n`;
-const isoDay = (d: Date | null) => (d ? new Date(d).toISOString().slice(0, 10) : null);
 
 /** A payment row of the export, as read raw and nested. */
 type PaymentExportRow = Pick<
@@ -29,7 +28,7 @@ async function sumsByMember(rows: Promise<unknown[]>): Promise<Map<number, numbe
  * The accountant's exports for a month: invoices (with credit notes), payments received, or a
  * balance summary per member. Amounts are decimals in the co-op's currency.
  */
-export async function buildCsv(coopId: number, kind: ExportKind, period: string): Promise<string> {
+export async function buildCsv(coopId: number, kind: ExportKind, period: string, timeZone: string): Promise<string> {
   const periodDate = periodToDate(period);
   if (kind === 'invoices') {
     const rows = await Invoice.findAll({
@@ -41,20 +40,20 @@ export async function buildCsv(coopId: number, kind: ExportKind, period: string)
       ],
       order: [['number', 'ASC']],
     });
-    let out = line(['number', 'type', 'month', 'member', 'email', 'status', 'issued_on', 'due_on', 'total', 'paid', 'outstanding', 'cancels', 'email_status']);
+    const out: CsvValue[][] = [['number', 'type', 'month', 'member', 'email', 'status', 'issued_on', 'due_on', 'total', 'paid', 'outstanding', 'cancels', 'email_status']];
     for (const r of rows) {
       const total = cents(r.totalCents);
       const paid = cents(r.paidCents);
       const outstanding = r.kind === 'invoice' && OPEN_STATUSES.includes(r.status) ? Math.max(total - paid, 0) : 0;
-      out += line([
-        csvCell(invoiceLabel(r.kind, r.number)), r.kind === 'invoice' ? 'invoice' : 'credit note', csvCell(String(r.period).slice(0, 7)),
-        csvCell(r.membership!.user!.name), csvCell(r.membership!.user!.email),
-        csvCell(INVOICE_STATUS_LABEL[r.status] ?? r.status), csvCell(isoDay(r.issuedAt)), csvCell(r.dueOn),
+      out.push([
+        invoiceLabel(r.kind, r.number), r.kind === 'invoice' ? 'invoice' : 'credit note', String(r.period).slice(0, 7),
+        r.membership!.user!.name, r.membership!.user!.email,
+        INVOICE_STATUS_LABEL[r.status] ?? r.status, r.issuedAt ? isoDay(r.issuedAt, timeZone) : null, r.dueOn,
         centsToDecimal(total), centsToDecimal(paid), centsToDecimal(outstanding),
-        csvCell(r.original?.number ? invoiceLabel('invoice', r.original.number) : ''), csvCell(r.emailStatus),
+        r.original?.number ? invoiceLabel('invoice', r.original.number) : '', r.emailStatus,
       ]);
     }
-    return out;
+    return csvRows(out);
   }
   if (kind === 'payments') {
     const rows = (await Payment.findAll({
@@ -68,16 +67,16 @@ export async function buildCsv(coopId: number, kind: ExportKind, period: string)
       raw: true,
       nest: true,
     })) as unknown as PaymentExportRow[];
-    let out = line(['payment_id', 'received_on', 'member', 'method', 'reference', 'invoice', 'amount', 'applied', 'held_as_credit', 'unmatched', 'refunded', 'card_charge', 'note']);
+    const out: CsvValue[][] = [['payment_id', 'received_on', 'member', 'method', 'reference', 'invoice', 'amount', 'applied', 'held_as_credit', 'unmatched', 'refunded', 'card_charge', 'note']];
     for (const r of rows) {
-      out += line([
-        String(r.id), csvCell(r.receivedOn), csvCell(r.membership.user.name), METHOD_LABEL[r.method] ?? r.method, csvCell(r.reference),
-        csvCell(r.invoice.kind && r.invoice.number ? invoiceLabel(r.invoice.kind, r.invoice.number) : ''),
+      out.push([
+        String(r.id), r.receivedOn, r.membership.user.name, METHOD_LABEL[r.method] ?? r.method, r.reference,
+        r.invoice.kind && r.invoice.number ? invoiceLabel(r.invoice.kind, r.invoice.number) : '',
         centsToDecimal(cents(r.amountCents)), centsToDecimal(cents(r.appliedCents)), centsToDecimal(cents(r.creditedCents)),
-        centsToDecimal(cents(r.unallocatedCents)), centsToDecimal(cents(r.refundedCents)), csvCell(r.stripeChargeId), csvCell(r.note),
+        centsToDecimal(cents(r.unallocatedCents)), centsToDecimal(cents(r.refundedCents)), r.stripeChargeId, r.note,
       ]);
     }
-    return out;
+    return csvRows(out);
   }
   const billed = { coopId, kind: 'invoice' as const };
   const byMember = { group: ['membershipId'], raw: true as const };
@@ -94,15 +93,15 @@ export async function buildCsv(coopId: number, kind: ExportKind, period: string)
     sumsByMember(MemberCredit.findAll({ ...byMember, attributes: ['membershipId', [fn('SUM', col('amount_cents')), 's']], where: { coopId } })),
     sumsByMember(Payment.findAll({ ...byMember, attributes: ['membershipId', [fn('SUM', col('unallocated_cents')), 's']], where: { coopId } })),
   ]);
-  let out = line(['member', 'email', 'membership', 'invoiced_this_month', 'paid_on_this_month', 'outstanding_all_months', 'credit', 'unmatched_payments', 'balance_owed']);
+  const out: CsvValue[][] = [['member', 'email', 'membership', 'invoiced_this_month', 'paid_on_this_month', 'outstanding_all_months', 'credit', 'unmatched_payments', 'balance_owed']];
   for (const m of members) {
     const [inv, pd, os, cr, un] = [invoiced, paid, outstanding, credit, unmatched].map((sums) => sums.get(m.id) ?? 0) as [number, number, number, number, number];
-    out += line([
-      csvCell(m.user!.name), csvCell(m.user!.email), csvCell(m.status), centsToDecimal(inv), centsToDecimal(pd),
+    out.push([
+      m.user!.name, m.user!.email, m.status, centsToDecimal(inv), centsToDecimal(pd),
       centsToDecimal(os), centsToDecimal(cr), centsToDecimal(un), centsToDecimal(os - cr - un),
     ]);
   }
-  return out;
+  return csvRows(out);
 }
 
 /** A CSV download with a safe file name. */

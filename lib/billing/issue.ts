@@ -10,7 +10,8 @@ import { cents } from './cents';
 import { memberBalance } from './invoices';
 import { assertPeriodOpen, lockCoopBilling } from './locks';
 import { sendQueuedInvoiceEmails } from './mail';
-import { addDays, invoiceLabel, PAYMENT_TERMS_DAYS, periodLabel, periodToDate, todayIn } from './periods';
+import { addDays, invoiceLabel, PAYMENT_TERMS_DAYS, periodLabel, periodToDate } from './periods';
+import { todayIn } from '@/lib/dates';
 import { insertCreditLines, numberAndIssueDrafts, refreshDraftTotals } from './queries';
 
 /**

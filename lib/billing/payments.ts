@@ -12,7 +12,7 @@ import { assertMember } from './invoices';
 import { assertPeriodOpen, lockCoopBilling } from './locks';
 import { cents } from './cents';
 import { findPayment, refreshInvoicePaid } from './payments-read';
-import { todayIn } from './periods';
+import { todayIn } from '@/lib/dates';
 import { takeNextId } from './queries';
 import type { PaymentDTO } from './types';
 

@@ -1,4 +1,4 @@
-import { formatDate } from '@/lib/dates';
+import { formatDate, todayIn } from '@/lib/dates';
 
 /**
  * Billing months, pure (safe for client components). A period is written 'YYYY-MM' in URLs and
@@ -40,13 +40,6 @@ export function shiftPeriod(period: string, months: number): string {
   const [y, m] = period.split('-').map(Number) as [number, number];
   const d = new Date(Date.UTC(y, m - 1 + months, 1));
   return `${d.getUTCFullYear()}-${String(d.getUTCMonth() + 1).padStart(2, '0')}`;
-}
-
-/** Today's date 'YYYY-MM-DD' in a time zone. */
-export function todayIn(timeZone: string, now = new Date()): string {
-  const parts = dateFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
-  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
-  return `${get('year')}-${get('month')}-${get('day')}`;
 }
 
 /** The current billing month 'YYYY-MM' in a time zone. */

@@ -1,6 +1,7 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
+import { todayIn } from '@/lib/dates';
 import { conflict } from '@/lib/http';
 import { formatCents } from '@/lib/money';
 import { toStoredQuantity } from '@/lib/supplies';
@@ -47,7 +48,7 @@ export const openingSupplies: OpeningKind<Key, Plan> = {
   columns: COLUMNS,
   async check(actor: Actor, rows: CsvRow<Key>[]): Promise<Checked<Plan>[]> {
     const { units, currency, timezone } = actor.coop;
-    const today = new Intl.DateTimeFormat('en-CA', { timeZone: timezone }).format(new Date());
+    const today = todayIn(timezone);
     return rows.map(({ line, cells }) => {
       const c = rowChecker(line, cells);
       const kind = KINDS[cells.kind.trim().toLowerCase()];

@@ -1,3 +1,5 @@
+import { zonedToUtc } from '@/lib/dates';
+
 /**
  * A reservation's time window from what a member typed (pure). Dates are calendar days in the
  * co-op's time zone: "from 2026-12-03 to 2026-12-05" runs from 00:00 on the 3rd to 24:00 on the
@@ -14,43 +16,6 @@ export const MAX_WINDOW_DAYS = 60;
 
 const DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 const LOCAL = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2})(?:\.\d{1,3})?)?$/;
-
-// Building an Intl.DateTimeFormat is costly (it showed in the reservation benchmark's profile);
-// one per time zone is kept.
-const zoneFormats = new Map<string, Intl.DateTimeFormat>();
-function zoneFormat(timeZone: string): Intl.DateTimeFormat {
-  let f = zoneFormats.get(timeZone);
-  if (!f) {
-    f = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit' });
-    zoneFormats.set(timeZone, f);
-  }
-  return f;
-}
-
-/** Milliseconds the zone is ahead of UTC at the instant `at`. */
-function zoneOffsetMs(at: Date, timeZone: string): number {
-  const parts = zoneFormat(timeZone).formatToParts(at);
-  const n = (t: string) => Number(parts.find((p) => p.type === t)?.value);
-  return Date.UTC(n('year'), n('month') - 1, n('day'), n('hour'), n('minute'), n('second')) - at.getTime();
-}
-
-/**
- * The instant of a wall-clock time in a time zone (handles daylight-saving shifts).
- * @returns the UTC instant
- */
-export function zonedToUtc(y: number, month: number, d: number, h: number, min: number, timeZone: string): Date {
-  const guess = Date.UTC(y, month - 1, d, h, min);
-  const first = guess - zoneOffsetMs(new Date(guess), timeZone);
-  const second = guess - zoneOffsetMs(new Date(first), timeZone);
-  return new Date(second);
-}
-
-/** Today's date (YYYY-MM-DD) in a time zone. */
-export function todayInZone(timeZone: string, now = new Date()): string {
-  const parts = zoneFormat(timeZone).formatToParts(now);
-  const p = (t: string) => parts.find((x) => x.type === t)?.value;
-  return `${p('year')}-${p('month')}-${p('day')}`;
-}
 
 function validDay(y: number, m: number, d: number) {
   const t = new Date(Date.UTC(y, m - 1, d));

@@ -2,8 +2,12 @@
 // closed-month SQLSTATE becoming a 409.
 import { describe, expect, it } from 'vitest';
 import { centsToDecimal } from '@/lib/billing/csv';
-import { csvCell } from '@/lib/csv';
-import { addDays, currentPeriod, invoiceLabel, periodLabel, periodToDate, shiftPeriod, todayIn } from '@/lib/billing/periods';
+import { csvRows } from '@/lib/csv';
+
+/** One cell as the CSV writer writes it (a one-cell document without its line end). */
+const csvCell = (v: string | number | null) => csvRows([[v]]).slice(0, -2);
+import { addDays, currentPeriod, invoiceLabel, periodLabel, periodToDate, shiftPeriod } from '@/lib/billing/periods';
+import { todayIn } from '@/lib/dates';
 import { errorResponse } from '@/lib/http';
 
 describe('billing months', () => {

@@ -4,7 +4,10 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { csvCell, csvRows, neutraliseFormula } from '@/lib/csv';
+import { csvRows, neutraliseFormula } from '@/lib/csv';
+
+/** One cell as the CSV writer writes it (a one-cell document without its line end). */
+const csvCell = (v: string | number | null) => csvRows([[v]]).slice(0, -2);
 
 /** Splits a CSV line the way a spreadsheet does with `sep` as the separator (quotes respected). */
 function cellsAs(line: string, sep: string): string[] {

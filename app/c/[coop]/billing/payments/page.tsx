@@ -6,7 +6,8 @@ import { Card } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { listInvoices, listMembersForBilling } from '@/lib/billing/invoices';
 import { listPayments } from '@/lib/billing/payments-read';
-import { periodLabel, todayIn } from '@/lib/billing/periods';
+import { periodLabel } from '@/lib/billing/periods';
+import { todayIn } from '@/lib/dates';
 import { paymentListQuerySchema } from '@/lib/validation/billing';
 
 export const metadata: Metadata = { title: 'Payments' };

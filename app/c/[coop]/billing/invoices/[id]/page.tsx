@@ -9,7 +9,8 @@ import { EmailStatusText } from '@/components/billing/status-badge';
 import { Card, Notice } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
-import { formatDateIn, todayIn } from '@/lib/billing/periods';
+import { formatDateIn } from '@/lib/billing/periods';
+import { todayIn } from '@/lib/dates';
 import { HttpError } from '@/lib/http';
 
 export const metadata: Metadata = { title: 'Invoice' };
