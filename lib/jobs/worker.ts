@@ -139,7 +139,7 @@ export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
     resume: async () => {
       queues = await registerWork(boss, (e) => guard.report(e));
     },
-    probe: () => sequelize.query('SELECT 1'),
+    probe: () => sequelize.authenticate(),
   });
   boss.on('error', (e) => {
     if (!guard.report(e)) console.error('[worker] pg-boss:', e.message);
