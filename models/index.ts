@@ -5,6 +5,7 @@ import { AuditEvent } from './AuditEvent';
 import { AuthToken } from './AuthToken';
 import { Coop } from './Coop';
 import { Invitation } from './Invitation';
+import { MailSend } from './MailSend';
 import { Membership } from './Membership';
 import { SignInAttempt } from './SignInAttempt';
 import { User } from './User';
@@ -50,6 +51,7 @@ Invitation.initModel(sequelize);
 AuthToken.initModel(sequelize);
 AuditEvent.initModel(sequelize);
 SignInAttempt.initModel(sequelize);
+MailSend.initModel(sequelize);
 
 Coop.hasMany(Membership, { foreignKey: 'coopId', as: 'memberships' });
 Membership.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
@@ -121,7 +123,7 @@ PaymentAttempt.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
 BillingAdjustment.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
 BillingAdjustment.hasOne(InvoiceLine, { foreignKey: 'adjustmentId', as: 'billedLine' });
 
-export { sequelize, AuditEvent, AuthToken, Coop, Invitation, Membership, SignInAttempt, User };
+export { sequelize, AuditEvent, AuthToken, Coop, Invitation, MailSend, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
 export { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, LowStockAlert, OilLot };
 export { BatchReview, MovementBatchShare, TankLayer };

@@ -2,10 +2,12 @@
 // `npm run worker`: runs the background jobs (e-mail, billing-run chunks, reservation expiry,
 // payment settling, housekeeping) against DATABASE_URL. `npm start` and the tests start one
 // beside the Next server; a deployment may run as many as it likes, on other machines too.
-// WORKER_PROCESSES=n (default 1) runs n worker processes from this one (PDF rendering for invoice
-// e-mails is CPU-bound: one per core). SIGTERM/SIGINT let running jobs finish (up to 20 s); a
+// WORKER_PROCESSES=n runs n worker processes from this one (PDF rendering for invoice e-mails is
+// CPU-bound: the default is one per core; `npm start` and the tests, which share the machine with
+// the Next server, start one — scripts/lib/worker-process.mjs). SIGTERM/SIGINT let running jobs finish (up to 20 s); a
 // worker killed outright loses nothing (its jobs are taken again within seconds).
 import { fork } from 'node:child_process';
+import os from 'node:os';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { buildWorker } from './lib/worker-build.mjs';
 
@@ -14,7 +16,7 @@ if (!process.env.DATABASE_URL) {
   process.exit(1);
 }
 const file = await buildWorker({ log: (m) => console.log('[worker]', m) });
-const processes = process.env.WORKER_CHILD ? 1 : Math.max(1, Number(process.env.WORKER_PROCESSES ?? 1));
+const processes = process.env.WORKER_CHILD ? 1 : Math.max(1, Number(process.env.WORKER_PROCESSES ?? os.availableParallelism()));
 
 if (processes > 1) {
   const children = Array.from({ length: processes }, () => fork(fileURLToPath(import.meta.url), { env: { ...process.env, WORKER_CHILD: '1' }, stdio: ['ignore', 'pipe', 'inherit', 'ipc'] }));
@@ -58,4 +60,6 @@ if (processes > 1) {
   };
   process.on('SIGTERM', stop);
   process.on('SIGINT', stop);
+  // A child whose parent died (even by SIGKILL) stops too, instead of working on unsupervised.
+  if (process.env.WORKER_CHILD) process.on('disconnect', stop);
 }

@@ -12,7 +12,7 @@ import { EMAIL_CHANGE_TTL_MS, hashLinkToken, isLinkTokenShape, newLinkToken, PAS
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { enqueueMail } from '@/lib/jobs';
-import { appUrl, sendMail } from '@/lib/mail';
+import { appUrl } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import type {
   emailChangeSchema, passwordChangeSchema, passwordResetSchema, profileUpdateSchema,
@@ -140,7 +140,8 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
   if (input.email === user.email.toLowerCase()) throw invalidFields({ email: ['That is already your e-mail address.'] });
   await checkCurrentPassword(user, input.currentPassword, 'currentPassword');
   if (await emailTaken(input.email, user.id)) {
-    const sent = await sendMail({
+    // Mail jobs (one per message, retried with back-off): the answer does not wait for SMTP.
+    await enqueueMail({
       to: input.email,
       subject: 'Someone tried to use your e-mail address on Tallyvat',
       text: [
@@ -155,33 +156,38 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
         'Tallyvat',
       ].join('\n'),
     });
-    return { pendingEmail: input.email, sent };
+    return { pendingEmail: input.email, sent: true };
   }
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + EMAIL_CHANGE_TTL_MS);
   await inTransaction(async (transaction) => {
     await AuthToken.update({ usedAt: fn('now') }, { where: { userId: user.id, kind: 'email-change', usedAt: null }, transaction });
     await AuthToken.create({ userId: user.id, kind: 'email-change', tokenHash: hash, newEmail: input.email, expiresAt, usedAt: null }, { transaction });
+    // The link's e-mail is a job written by this transaction: it exists exactly when the link does.
+    await enqueueMail(
+      {
+        to: input.email,
+        subject: 'Confirm your new e-mail address for Tallyvat',
+        text: [
+          `Hello ${user.name},`,
+          '',
+          `You asked to change the e-mail address of your Tallyvat account from ${user.email} to ${input.email}.`,
+          'To confirm, open this link:',
+          '',
+          `  ${appUrl(`/confirm-email/${token}`)}`,
+          '',
+          `The link works once and expires on ${formatExpiry(expiresAt)}.`,
+          'If you did not ask for this, ignore this e-mail: your address stays as it is.',
+          '',
+          '-- ',
+          'Tallyvat',
+        ].join('\n'),
+      },
+      { kind: 'none' },
+      transaction,
+    );
   });
-  const sent = await sendMail({
-    to: input.email,
-    subject: 'Confirm your new e-mail address for Tallyvat',
-    text: [
-      `Hello ${user.name},`,
-      '',
-      `You asked to change the e-mail address of your Tallyvat account from ${user.email} to ${input.email}.`,
-      'To confirm, open this link:',
-      '',
-      `  ${appUrl(`/confirm-email/${token}`)}`,
-      '',
-      `The link works once and expires on ${formatExpiry(expiresAt)}.`,
-      'If you did not ask for this, ignore this e-mail: your address stays as it is.',
-      '',
-      '-- ',
-      'Tallyvat',
-    ].join('\n'),
-  });
-  return { pendingEmail: input.email, sent };
+  return { pendingEmail: input.email, sent: true };
 }
 
 type TokenRow = Pick<InferAttributes<AuthToken>, 'id' | 'userId' | 'newEmail' | 'expiresAt' | 'usedAt'> & { user: Pick<InferAttributes<User>, 'email' | 'name'> };

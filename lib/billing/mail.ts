@@ -1,8 +1,8 @@
 import 'server-only';
 import { literal, Op } from 'sequelize';
-import { inTransaction } from '@/lib/db';
 import { enqueueInvoiceMails } from '@/lib/jobs';
-import { appUrl, deliverMail, sendMail, type OutgoingMail } from '@/lib/mail';
+import { appUrl, sendMail, type OutgoingMail } from '@/lib/mail';
+import { sendOnce } from '@/lib/mail/once';
 import { formatCents } from '@/lib/money';
 import { Coop, Invoice } from '@/models';
 import { getInvoiceDetail } from './invoices';
@@ -50,36 +50,30 @@ export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?:
 }
 
 /**
- * The mail job of one invoice (run by the worker). The e-mail is composed first (reads and the
- * PDF); then one transaction marks the invoice sent — `WHERE email_status = 'queued'`, so of two
- * jobs for the same invoice only one gets the row, the other waits on its lock and then finds
- * nothing to do — hands the message to the SMTP server, and commits only once the server has
- * accepted it. A worker killed before that leaves the row "queued" (rolled back) for the retry;
- * the only window for a second copy is between the server's "250 OK" and the COMMIT. SMTP
- * trouble rolls back and throws: the queue tries again with back-off, and after the last try the
- * dead letter marks the invoice "failed". (The transaction holds one UPDATE by primary key, so
- * inTransaction never has a deadlock to retry it for.)
+ * The mail job of one invoice (run by the worker), through the send ledger (lib/mail/once.ts): a
+ * job for an invoice already sent does nothing; the e-mail is composed (reads and the PDF), then
+ * the invoice is marked "sending" with the in-flight claim, the message goes out with the
+ * Message-ID of the invoice's n-th send, and "sent" is committed right after the server's 250.
+ * A worker killed in between leaves it "sending": the retry sends it again with the same
+ * Message-ID (logged `mail.ambiguous`). SMTP trouble throws: the queue tries again with
+ * back-off, and after the last try the dead letter marks the invoice "failed".
+ * @param jobRef the job, `queue:id`
  * @returns whether this job sent the e-mail
  */
-export async function deliverInvoiceEmailJob(coopId: number, invoiceId: number): Promise<boolean> {
-  const queued = await Invoice.count({ where: { id: invoiceId, coopId, emailStatus: 'queued' } });
-  if (queued === 0) return false;
+export async function deliverInvoiceEmailJob(coopId: number, invoiceId: number, jobRef: string): Promise<boolean> {
+  const waiting = { id: invoiceId, coopId, status: { [Op.ne]: 'draft' }, emailStatus: ['queued', 'sending'] };
+  if ((await Invoice.count({ where: waiting })) === 0) return false;
   const mail = await composeInvoiceEmail(coopId, invoiceId);
-  try {
-    return await inTransaction(async (transaction) => {
-      const [claimed] = await Invoice.update(
-        { emailStatus: 'sent', emailAttempts: ATTEMPT, emailedAt: new Date() },
-        { where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' }, emailStatus: 'queued' }, transaction },
-      );
-      if (claimed === 0) return false;
-      await deliverMail(mail);
-      return true;
-    });
-  } catch (e) {
-    // The failed try still counts (the month page shows attempts).
-    await Invoice.update({ emailAttempts: ATTEMPT }, { where: { id: invoiceId, coopId, emailStatus: 'queued' } });
-    throw e;
-  }
+  // The claim counts the try (the month page shows attempts).
+  return sendOnce({
+    subject: `invoice.${invoiceId}`,
+    coopId,
+    jobRef,
+    mail,
+    claim: async (transaction) => (await Invoice.update({ emailStatus: 'sending', emailAttempts: ATTEMPT }, { where: waiting, transaction }))[0] > 0,
+    sent: (transaction) => Invoice.update({ emailStatus: 'sent', emailedAt: new Date() }, { where: { id: invoiceId, coopId, emailStatus: 'sending' }, transaction }),
+    unsent: (transaction) => Invoice.update({ emailStatus: 'queued' }, { where: { id: invoiceId, coopId, emailStatus: 'sending' }, transaction }),
+  });
 }
 
 /** The dead letter of an invoice's mail job: every try failed. */

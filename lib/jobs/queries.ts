@@ -20,3 +20,18 @@ export function transactionDb(transaction: Transaction): JobDb {
     },
   };
 }
+
+/**
+ * The state of one pg-boss job (`created`, `retry`, `active`, `completed`, `cancelled`, `failed`),
+ * or null when it is gone (deleted by retention). `ref` is `queue:id`, as the mail ledger keeps it.
+ */
+export async function jobState(ref: string): Promise<string | null> {
+  const at = ref.lastIndexOf(':');
+  const [queue, id] = [ref.slice(0, at), ref.slice(at + 1)];
+  if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
+  const rows = await sequelize.query<{ state: string }>('SELECT state::text AS state FROM pgboss.job WHERE name = $1 AND id = $2::uuid', {
+    bind: [queue, id],
+    type: QueryTypes.SELECT,
+  });
+  return rows[0]?.state ?? null;
+}

@@ -6,11 +6,13 @@ import { invoiceEmailGaveUp, deliverInvoiceEmailJob } from '@/lib/billing/mail';
 import { runChunk, runGaveUp } from '@/lib/billing/run';
 import { inTransaction, sequelize } from '@/lib/db';
 import { deliverInvitationJob, invitationMailGaveUp } from '@/lib/invitations/deliver';
-import { deliverMail } from '@/lib/mail';
+import { sendOnce } from '@/lib/mail/once';
+import { log as logger } from '@/lib/log';
 import { expireLapsedReservations } from '@/lib/reservations/expire';
-import { AuthToken, Invoice, Reservation, SignInAttempt } from '@/models';
+import { AuthToken, Invoice, MailSend, Reservation, SignInAttempt } from '@/models';
 import { bossOptions, ensureQueues } from './boss';
 import { enqueueInvoiceMails } from './index';
+import { isDatabaseUnreachable, outageGuard } from './outage';
 import { QUEUES, type InvitationMailJob, type InvoiceMailJob, type PlainMailJob, type RunChunkJob } from './names';
 
 const log = (...a: unknown[]) => console.log('[worker]', ...a);
@@ -18,9 +20,10 @@ const log = (...a: unknown[]) => console.log('[worker]', ...a);
 /** Invoice e-mails handled at once by one worker process (PDF rendering is the CPU part). */
 const MAIL_CONCURRENCY = Number(process.env.WORKER_MAIL_CONCURRENCY ?? 8);
 
+/** A plain e-mail: the job is what it is (its id survives retries), so it is its own ledger subject. */
 async function plainMail(job: Job<PlainMailJob>): Promise<void> {
   const { to, subject, text } = job.data;
-  await deliverMail({ to, subject, text });
+  await sendOnce({ subject: `mail.${job.id}`, coopId: null, jobRef: `${QUEUES.mail}:${job.id}`, mail: { to, subject, text } });
 }
 
 /** Lapsed reservations of every co-op that has any, each co-op in its own transaction. */
@@ -44,6 +47,8 @@ export async function expireReservations(): Promise<number> {
 export async function housekeeping(): Promise<void> {
   const attempts = await SignInAttempt.destroy({ where: { createdAt: { [Op.lt]: new Date(Date.now() - 86_400_000) } } });
   const tokens = await AuthToken.destroy({ where: { expiresAt: { [Op.lt]: new Date(Date.now() - 30 * 86_400_000) } } });
+  // Plain e-mails' ledger rows (an invoice's stay: they are its send history and Message-IDs).
+  await MailSend.destroy({ where: { subject: { [Op.startsWith]: 'mail.' }, state: 'sent', sentAt: { [Op.lt]: new Date(Date.now() - 30 * 86_400_000) } } });
   const stuck = await Invoice.findAll({
     attributes: ['id', 'coopId'],
     where: { emailStatus: 'queued', updatedAt: { [Op.lt]: new Date(Date.now() - 120_000) } },
@@ -55,46 +60,91 @@ export async function housekeeping(): Promise<void> {
   if (attempts || tokens || stuck.length) log(`housekeeping: ${attempts} sign-in attempts and ${tokens} links pruned, ${stuck.length} invoice e-mails re-queued`);
 }
 
-/**
- * Starts a worker: pg-boss with maintenance and cron on, the queues, a handler per queue and
- * the schedules. Returns a stop function that lets running jobs finish (SIGTERM) — a worker
- * killed outright loses nothing either: its jobs are taken again after their heartbeat lapses.
- */
-export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
-  const boss = new PgBoss(bossOptions('worker'));
-  boss.on('error', (e) => console.error('[worker] pg-boss:', e.message));
-  await boss.start();
-  await ensureQueues(boss);
-  // The producers in this process (a run chunk queues the next, housekeeping re-queues mail) use the web singleton.
-  globalThis.__tallyvatBoss = Promise.resolve(boss);
-
+/** Registers a handler per queue; returns the queue names (to stop fetching during an outage). */
+async function registerWork(boss: PgBoss, guard: (e: unknown) => void): Promise<string[]> {
+  // A handler's error is first shown to the outage guard (it pauses the worker), then rethrown for pg-boss's retry.
+  const g = <T>(f: (jobs: Job<T>[]) => Promise<unknown>) => async (jobs: Job<T>[]) => {
+    try {
+      await f(jobs);
+    } catch (e) {
+      guard(e);
+      throw e;
+    }
+  };
   const fast = { pollingIntervalSeconds: 0.5, burstWhenBatchFull: true } as const;
-  await boss.work<InvoiceMailJob>(QUEUES.invoiceMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, async ([job]) => {
-    await deliverInvoiceEmailJob(job!.data.coopId, job!.data.invoiceId);
-  });
-  await boss.work<InvitationMailJob>(QUEUES.invitationMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, async ([job]) => {
+  await boss.work<InvoiceMailJob>(QUEUES.invoiceMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, g(async ([job]) => {
+    await deliverInvoiceEmailJob(job!.data.coopId, job!.data.invoiceId, `${QUEUES.invoiceMail}:${job!.id}`);
+  }));
+  await boss.work<InvitationMailJob>(QUEUES.invitationMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, g(async ([job]) => {
     await deliverInvitationJob(job!.data.coopId, job!.data.invitationId);
-  });
-  await boss.work<PlainMailJob>(QUEUES.mail, { ...fast, batchSize: 1, localConcurrency: 4 }, async ([job]) => plainMail(job!));
-  await boss.work<InvoiceMailJob | InvitationMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, async ([job]) => {
+  }));
+  await boss.work<PlainMailJob>(QUEUES.mail, { ...fast, batchSize: 1, localConcurrency: 4 }, g(async ([job]) => plainMail(job!)));
+  await boss.work<InvoiceMailJob | InvitationMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, g(async ([job]) => {
     const d = job!.data;
     if ('invoiceId' in d) await invoiceEmailGaveUp(d.coopId, d.invoiceId);
     else if ('invitationId' in d) await invitationMailGaveUp(d.coopId, d.invitationId);
     else console.error(`[worker] e-mail to ${d.to} ("${d.subject}") given up after every try`);
-  });
-  await boss.work<RunChunkJob>(QUEUES.runChunk, { ...fast, batchSize: 1, localConcurrency: 2 }, async ([job]) => {
-    await runChunk(job!.data);
-  });
-  await boss.work<RunChunkJob>(QUEUES.runDead, { pollingIntervalSeconds: 2 }, async ([job]) => runGaveUp(job!.data.coopId, job!.data.runId));
-  await boss.work(QUEUES.expireReservations, async () => {
+  }));
+  await boss.work<RunChunkJob>(QUEUES.runChunk, { ...fast, batchSize: 1, localConcurrency: 2 }, g(async ([job]) => runChunk(job!.data)));
+  await boss.work<RunChunkJob>(QUEUES.runDead, { pollingIntervalSeconds: 2 }, g(async ([job]) => runGaveUp(job!.data.coopId, job!.data.runId)));
+  await boss.work(QUEUES.expireReservations, g(async () => {
     const n = await expireReservations();
     if (n > 0) log(`${n} lapsed reservations expired`);
-  });
-  await boss.work(QUEUES.housekeeping, async () => housekeeping());
-  await boss.work(QUEUES.settlePayments, async () => {
+  }));
+  await boss.work(QUEUES.housekeeping, g(async () => housekeeping()));
+  await boss.work(QUEUES.settlePayments, g(async () => {
     const n = await settleUnknownAttempts();
     if (n > 0) log(`${n} card payments with an unknown outcome settled`);
+  }));
+  return [QUEUES.invoiceMail, QUEUES.invitationMail, QUEUES.mail, QUEUES.mailDead, QUEUES.runChunk, QUEUES.runDead, QUEUES.expireReservations, QUEUES.housekeeping, QUEUES.settlePayments];
+}
+
+/** Starts pg-boss, waiting (one line, then quietly every 2 s) while the database cannot be reached. */
+async function startBoss(): Promise<PgBoss> {
+  let waiting = false;
+  for (;;) {
+    const boss = new PgBoss(bossOptions('worker'));
+    boss.on('error', () => undefined);
+    try {
+      await boss.start();
+      await ensureQueues(boss);
+      boss.removeAllListeners('error');
+      if (waiting) logger.info({ event: 'worker.resumed' }, 'database reachable; starting');
+      return boss;
+    } catch (e) {
+      if (!isDatabaseUnreachable(e)) throw e;
+      if (!waiting) logger.error({ event: 'worker.paused', reason: (e as Error).message }, 'database unreachable; the worker waits for it');
+      waiting = true;
+      await boss.stop({ graceful: false, close: true, timeout: 1_000 }).catch(() => undefined);
+      await new Promise((r) => setTimeout(r, 2_000));
+    }
+  }
+}
+
+/**
+ * Starts a worker: pg-boss with maintenance and cron on, the queues, a handler per queue and
+ * the schedules. Returns a stop function that lets running jobs finish (SIGTERM) — a worker
+ * killed outright loses nothing either: its jobs are taken again after their heartbeat lapses.
+ * While the database is down the worker stops fetching and resumes by itself (lib/jobs/outage.ts).
+ */
+export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
+  const boss = await startBoss();
+  // The producers in this process (a run chunk queues the next, housekeeping re-queues mail) use the web singleton.
+  globalThis.__tallyvatBoss = Promise.resolve(boss);
+  let queues: string[] = [];
+  const guard = outageGuard({
+    pause: async () => {
+      for (const q of queues) await boss.offWork(q, { wait: false });
+    },
+    resume: async () => {
+      queues = await registerWork(boss, (e) => guard.report(e));
+    },
+    probe: () => sequelize.authenticate(),
   });
+  boss.on('error', (e) => {
+    if (!guard.report(e)) console.error('[worker] pg-boss:', e.message);
+  });
+  queues = await registerWork(boss, (e) => guard.report(e));
 
   // JOB_SCHEDULES=off (the test stack) leaves the timed jobs unscheduled: tests that compare the
   // database before and after a request must not see a minute's expiry land in between; the
@@ -108,6 +158,7 @@ export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
 
   return {
     async stop() {
+      guard.close();
       await boss.stop({ graceful: true, timeout: 20_000 });
       await sequelize.close();
     },

@@ -28,6 +28,8 @@ export interface OutgoingMail {
   /** Plain text body; e-mails are plain and readable in any client. */
   text: string;
   attachments?: { filename: string; content: Buffer; contentType: string }[];
+  /** The Message-ID header, `<…@domain>` (lib/mail/once.ts gives each message a stable one). */
+  messageId?: string;
 }
 
 /**

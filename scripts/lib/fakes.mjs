@@ -30,6 +30,7 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
         .then((mail) => {
           messages.unshift({
             id: nextId++,
+            messageId: mail.messageId ?? '',
             date: (mail.date ?? new Date()).toISOString(),
             from: mail.from?.text ?? '',
             to: mail.to ? [].concat(mail.to).map((a) => a.text).join(', ') : '',

@@ -12,7 +12,9 @@ import { buildWorker } from './worker-build.mjs';
  */
 export async function startWorkerProcess(o) {
   await buildWorker({ log: o.log ?? (() => {}) });
-  const child = spawn(process.execPath, [...(o.nodeArgs ?? []), path.resolve('scripts', 'worker.mjs')], { env: o.env, stdio: ['ignore', 'pipe', 'pipe'] });
+  // One process beside the Next server unless told otherwise (`npm run worker` alone takes one per core).
+  const env = { WORKER_PROCESSES: '1', ...o.env };
+  const child = spawn(process.execPath, [...(o.nodeArgs ?? []), path.resolve('scripts', 'worker.mjs')], { env, stdio: ['ignore', 'pipe', 'pipe'] });
   const out = o.stdio ?? process.stdout;
   child.stdout.pipe(out, { end: false });
   child.stderr.pipe(o.stdio ?? process.stderr, { end: false });

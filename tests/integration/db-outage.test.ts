@@ -3,7 +3,9 @@
 // stays up; once it is back, requests succeed again within 5 s; every write that was answered 2xx
 // is in the database afterwards; and the log records the outage once (down, then up), not once per
 // request. Liveness stays 200 throughout; readiness names the database as down and recovers.
-// This test runs its own PostgreSQL (which it stops and starts), storage fake and `next start`.
+// The job worker beside it stays alive through the outage, logs it once each way (paused, resumed)
+// and takes a job queued after the database is back.
+// This test runs its own PostgreSQL (which it stops and starts), storage fake, mail catcher, `next start` and worker.
 import type { ChildProcess } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
@@ -20,7 +22,9 @@ import { migrate } from '../../scripts/lib/db-setup.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
 import { appEnv, startNext, stopChild, waitForHealth } from '../../scripts/lib/app.mjs';
 // @ts-expect-error plain ESM helpers shared with the start script
-import { startStorageFake } from '../../scripts/lib/fakes.mjs';
+import { startMailCatcher, startStorageFake } from '../../scripts/lib/fakes.mjs';
+// @ts-expect-error plain ESM helpers shared with the start script
+import { startWorkerProcess } from '../../scripts/lib/worker-process.mjs';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const root = path.resolve('.data', `outage-${crypto.randomBytes(3).toString('hex')}`);
@@ -34,6 +38,9 @@ let next: ChildProcess | null = null;
 let stopStorage: () => Promise<void> = async () => {};
 let baseUrl = '';
 let logText = '';
+let worker: { child: ChildProcess; stop: () => Promise<void> } | null = null;
+let workerLog = '';
+let catcher: { messages: { to: string; subject: string }[]; stop: () => Promise<void> } | null = null;
 
 /** A connection to the test's database apart from the server's, for arranging and checking rows. */
 const directConnection = () => new Sequelize(databaseUrl, { logging: false, pool: { max: 1, min: 0 } });
@@ -57,11 +64,13 @@ beforeAll(async () => {
   stopStorage = storage.stop;
   const port = await freePort();
   baseUrl = `http://127.0.0.1:${port}`;
+  const smtpPort = await freePort();
+  catcher = await startMailCatcher({ smtpPort, httpPort: await freePort(), log: () => {} });
   const env = appEnv({
     databaseUrl,
     appUrl: baseUrl,
     secret: crypto.randomBytes(32).toString('base64url'),
-    smtpPort: await freePort(),
+    smtpPort,
     paymentsPort: await freePort(),
     webhookSecret: 'whsec_tallyvat_outage',
     storage: storage.env,
@@ -71,9 +80,15 @@ beforeAll(async () => {
   next.stdout?.on('data', (d) => (logText += d));
   next.stderr?.on('data', (d) => (logText += d));
   await waitForHealth(baseUrl, next);
+  const { PassThrough } = await import('node:stream');
+  const out = new PassThrough();
+  out.on('data', (d) => (workerLog += d));
+  worker = await startWorkerProcess({ env: { ...env, JOB_SCHEDULES: 'off', TALLYVAT_SERVICE: 'worker' }, stdio: out });
 }, 180_000);
 
 afterAll(async () => {
+  if (worker) await worker.stop();
+  await catcher?.stop();
   if (next) await stopChild(next);
   await stopStorage();
   stopPg();
@@ -146,6 +161,8 @@ describe('database outage', () => {
     await sleep(1_500);
     expect(next!.exitCode).toBeNull();
     expect(next!.signalCode).toBeNull();
+    expect(worker!.child.exitCode, workerLog.slice(-4000)).toBeNull();
+    expect(worker!.child.signalCode).toBeNull();
 
     phase = 'after';
     await startPg();
@@ -179,6 +196,22 @@ describe('database outage', () => {
     expect(lines.filter((l) => l.event === 'database.down')).toHaveLength(1);
     expect(lines.filter((l) => l.event === 'database.up')).toHaveLength(1);
     expect(lines.filter((l) => l.level === 'error' || l.level === 'fatal').length, logText.slice(-4000)).toBe(1);
+    // The worker: alive, paused once and resumed once, and it takes a job queued after the return.
+    expect(worker!.child.exitCode, workerLog.slice(-4000)).toBeNull();
+    const queued = directConnection();
+    await queued.query(`INSERT INTO pgboss.job (name, data) VALUES ('mail', $1::jsonb)`, {
+      bind: [JSON.stringify({ to: 'after-outage@example.test', subject: 'After the outage', text: 'Sent once the database was back.', record: { kind: 'none' } })],
+    });
+    await queued.close();
+    const sentBy = Date.now() + 30_000;
+    while (!catcher!.messages.some((m) => m.to.includes('after-outage@example.test'))) {
+      expect(Date.now(), workerLog.slice(-4000)).toBeLessThan(sentBy);
+      await sleep(200);
+    }
+    const workerEvents = workerLog.split('\n').filter((l) => l.startsWith('{')).map((l) => JSON.parse(l) as Record<string, unknown>);
+    expect(workerEvents.filter((l) => l.event === 'worker.paused'), workerLog.slice(-4000)).toHaveLength(1);
+    expect(workerEvents.filter((l) => l.event === 'worker.resumed')).toHaveLength(1);
+    expect(workerLog.split('\n').filter((l) => l.includes('[worker] pg-boss:')), 'no pg-boss error line per poll').toEqual([]);
     // Every API request has its structured line.
     const access = lines.filter((l) => l.msg === 'request' && l.route === '/api/coops');
     expect(access.length).toBeGreaterThan(20);

@@ -112,7 +112,7 @@ export async function makeCoopWithRoles() {
   return { coop, other, users, agents };
 }
 
-export interface CaughtMail { id: number; to: string; from: string; subject: string; text: string; attachments: { filename: string; contentType: string; size: number }[] }
+export interface CaughtMail { id: number; messageId: string; to: string; from: string; subject: string; text: string; attachments: { filename: string; contentType: string; size: number }[] }
 
 /** Messages caught by the local SMTP catcher, newest first. */
 export async function caughtMail(to?: string): Promise<CaughtMail[]> {

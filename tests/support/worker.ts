@@ -27,7 +27,7 @@ export async function killWorker(): Promise<void> {
 
 /** Starts a new worker (detached, so it outlives this test file; global teardown stops it) and waits until it is ready. */
 export async function startWorker(): Promise<void> {
-  const env = JSON.parse(inject('workerEnv')) as NodeJS.ProcessEnv;
+  const env = { WORKER_PROCESSES: '1', ...(JSON.parse(inject('workerEnv')) as NodeJS.ProcessEnv) };
   const logFile = path.resolve('.data', 'test', 'worker.log');
   const readyCount = () => (fs.existsSync(logFile) ? fs.readFileSync(logFile, 'utf8').split('[worker] ready').length - 1 : 0);
   const before = readyCount();
