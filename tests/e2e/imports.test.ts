@@ -40,7 +40,7 @@ describe('imports in the browser', () => {
       const head = 'Batch number,Date,Oil in (gallons),Fuel out (gallons),Cost per gallon,Quality,Notes\n';
       await page.locator('#past-batches-file').setInputFiles({ name: 'history-bad.csv', mimeType: 'text/csv', buffer: Buffer.from(`${head}7,03/14/2025,40,60,1.90,pass,\n`) });
       await page.getByRole('button', { name: 'Preview' }).nth(4).click();
-      await page.getByText(/1\.1 × the oil in/).waitFor();
+      await page.getByText(/More fuel out than 1\.1 ×/).waitFor();
       await shootBothWidths(page, 'imports-past-batches-preview');
       await page.locator('#past-batches-file').setInputFiles({ name: 'history.csv', mimeType: 'text/csv', buffer: Buffer.from(`${head}7,03/14/2025,40,38,1.90,pass,Clear\n8,04/02/2025,40,36,,,\n`) });
       await page.getByRole('button', { name: 'Preview' }).nth(4).click();
