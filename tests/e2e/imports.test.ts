@@ -54,5 +54,5 @@ describe('imports in the browser', () => {
       await page.getByText(/imported from its records/).waitFor();
       await shootBothWidths(page, 'imports-past-batch-page');
     });
-  }, 180_000);
+  }, 360_000);
 });
