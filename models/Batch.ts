@@ -5,13 +5,17 @@ import {
 import type { Coop } from './Coop';
 import type { User } from './User';
 
-/** The steps of a batch, in order; released and rejected are final. */
-export const BATCH_STATUSES = ['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing', 'released', 'rejected'] as const;
+/** The steps of a batch, in order; released and rejected are final. `imported` is a past batch
+ *  brought in from a spreadsheet in summary (no recipe, no steps, no tank movement: read-only). */
+export const BATCH_STATUSES = ['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing', 'released', 'rejected', 'imported'] as const;
 export type BatchStatus = (typeof BATCH_STATUSES)[number];
 
 /**
  * One batch from plan to tank. Volumes are litres (NUMERIC, strings in JS), temperatures °C,
  * money integer cents (BIGINT, strings in JS). Costs are written once, on release.
+ * The recipe columns (titration … computed amounts) are NULL only for an `imported` batch
+ * (migration 20261202400000); code that reads them handles planned-to-released batches, which
+ * always have them, and the batch readers route imported batches to the summary view.
  */
 export class Batch extends Model<InferAttributes<Batch>, InferCreationAttributes<Batch>> {
   declare id: CreationOptional<number>;
@@ -86,21 +90,21 @@ export class Batch extends Model<InferAttributes<Batch>, InferCreationAttributes
         batchDate: { type: DataTypes.DATEONLY, allowNull: false, defaultValue: DataTypes.NOW },
         statusChangedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
         oilLiters: { type: DataTypes.DECIMAL(14, 3), allowNull: false },
-        titrationTrialsMl: { type: DataTypes.JSONB, allowNull: false },
+        titrationTrialsMl: { type: DataTypes.JSONB, allowNull: true },
         titrationBlankMl: { type: DataTypes.DECIMAL(6, 2), allowNull: false, defaultValue: 0 },
         titrationSource: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'trials' },
-        titrant: { type: DataTypes.STRING(4), allowNull: false },
-        titrationAvgMl: { type: DataTypes.DECIMAL(8, 4), allowNull: false },
-        catalyst: { type: DataTypes.STRING(4), allowNull: false },
-        baseGPerL: { type: DataTypes.DECIMAL(8, 3), allowNull: false, field: 'base_g_per_l' },
-        purityPct: { type: DataTypes.DECIMAL(5, 2), allowNull: false },
-        titrantFrom: { type: DataTypes.STRING(14), allowNull: false },
-        catalystRule: { type: DataTypes.STRING(40), allowNull: false },
-        methanolMode: { type: DataTypes.STRING(12), allowNull: false },
+        titrant: { type: DataTypes.STRING(4), allowNull: true },
+        titrationAvgMl: { type: DataTypes.DECIMAL(8, 4), allowNull: true },
+        catalyst: { type: DataTypes.STRING(4), allowNull: true },
+        baseGPerL: { type: DataTypes.DECIMAL(8, 3), allowNull: true, field: 'base_g_per_l' },
+        purityPct: { type: DataTypes.DECIMAL(5, 2), allowNull: true },
+        titrantFrom: { type: DataTypes.STRING(14), allowNull: true },
+        catalystRule: { type: DataTypes.STRING(40), allowNull: true },
+        methanolMode: { type: DataTypes.STRING(12), allowNull: true },
         methanolPct: dec(6, 2),
         molarRatio: dec(6, 2),
-        computedCatalystGrams: { type: DataTypes.DECIMAL(12, 3), allowNull: false },
-        computedMethanolLiters: { type: DataTypes.DECIMAL(14, 3), allowNull: false },
+        computedCatalystGrams: { type: DataTypes.DECIMAL(12, 3), allowNull: true },
+        computedMethanolLiters: { type: DataTypes.DECIMAL(14, 3), allowNull: true },
         actualCatalystGrams: dec(12, 3),
         actualMethanolLiters: dec(14, 3),
         mixingMinutes: { type: DataTypes.INTEGER, allowNull: true },

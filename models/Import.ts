@@ -2,7 +2,7 @@ import { type CreationOptional, type ForeignKey, type InferAttributes, type Infe
 import type { Coop } from './Coop';
 import type { User } from './User';
 
-export type ImportKind = 'invitations' | 'opening-balances' | 'opening-tank' | 'opening-supplies';
+export type ImportKind = 'invitations' | 'opening-balances' | 'opening-tank' | 'opening-supplies' | 'past-batches';
 export type ImportStatus = 'done' | 'undone';
 
 /** One row of an import as it was decided at confirm time (kept for the result download). */

@@ -5,7 +5,7 @@ import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
 
 export const STATUS_LABELS: Record<string, string> = {
   planned: 'Planned', reacting: 'Reacting', settling: 'Settling', draining: 'Draining', washing: 'Washing', drying: 'Drying',
-  testing: 'Testing', released: 'Released', rejected: 'Rejected', 'in-progress': 'In progress',
+  testing: 'Testing', released: 'Released', rejected: 'Rejected', 'in-progress': 'In progress', imported: 'Imported summary',
 };
 
 export const STEP_ORDER = ['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing'] as const;

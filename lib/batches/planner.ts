@@ -54,10 +54,11 @@ const REACTION_TARGET_C = fToC(131); // common practice (130–135 °F)
 /** Starting oil temperature when the brewer gives none, °C (room temperature; an assumption the note states). */
 const ASSUMED_START_C = 20;
 
-/** The co-op's most recent released batches (oil in, fuel out), newest first, for the yield projection. */
+/** The co-op's most recent released (or imported past) batches (oil in, fuel out), newest first, for the yield projection. */
 async function yieldHistory(coopId: number) {
   const rows = await Batch.findAll({
-    where: { coopId, status: 'released', releasedLiters: { [Op.ne]: null } },
+    // Imported past batches carry oil in and fuel out as recorded: they are yield history too.
+    where: { coopId, status: ['released', 'imported'], releasedLiters: { [Op.ne]: null } },
     attributes: ['oilLiters', 'releasedLiters'],
     order: [['releasedAt', 'DESC'], ['id', 'DESC']],
     limit: YIELD_HISTORY_BATCHES,

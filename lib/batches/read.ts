@@ -150,6 +150,8 @@ export interface BatchSummaryDto {
   quality: QualityEvaluation;
   qualityVerdict: 'pass' | 'fail' | 'incomplete';
   screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
+  /** An imported past batch (status `imported`): its notes as recorded then; null for any other batch. */
+  imported: { notes: string | null } | null;
 }
 
 export function costsOf(row: Pick<BatchRecord, 'totalCostCents' | 'releasedLiters' | 'costMethanolCents' | 'costCatalystCents' | 'costEnergyCents' | 'costFeedstockCents' | 'costOtherCents' | 'costPerGallonCents'>): BatchCosts | null {
@@ -218,16 +220,18 @@ export async function getBatch(actor: Actor, id: number, opts?: { allowSummary: 
   const full = can(actor.role, 'batches:read-all');
   const coopId = actor.coop.id;
   const row = await loadBatch(coopId, id);
-  if (!full && (!opts?.allowSummary || row.status !== 'released')) throw notFound('Batch not found.');
+  // An imported past batch has no recipe or steps: everyone sees it in summary, read-only.
+  const imported = row.status === 'imported';
+  if ((!full || imported) && (!opts?.allowSummary || (row.status !== 'released' && !imported))) throw notFound('Batch not found.');
   const quickTests = quickTestsOf(row);
   const labResults = labResultsOf(row);
   const quickTestEvaluation = evaluateQuickTests(quickTestInput(quickTests, row.catalyst));
   const quality = evaluateQuality(row.qualityStandard, labResults);
-  if (!full) {
+  if (!full || imported) {
     const costs = costsOf(row);
     return {
       view: 'summary', id: row.id, number: row.number, status: row.status, batchDate: row.batchDate, oilLiters: Number(row.oilLiters),
-      catalyst: row.catalyst, quickTestEvaluation, quality,
+      catalyst: row.catalyst, quickTestEvaluation, quality, imported: imported ? { notes: row.notes } : null,
       costPerGallonCents: costs?.costPerGallonCents ?? null, costPerLiterCents: costs?.costPerLiterCents ?? null, qualityVerdict: row.qualityVerdict, screeningVerdict: row.screeningVerdict,
       release: row.releasedAt
         ? { releasedLiters: Number(row.releasedLiters), releasedAt: row.releasedAt.toISOString(), tankName: await tankName(coopId, row.tankId) }
@@ -326,7 +330,7 @@ type BatchListPage = { rows: BatchListRow[]; total: number; page: number; pageSi
 export async function listBatches(actor: Actor, q: BatchListQuery): Promise<BatchListPage> {
   const all = can(actor.role, 'batches:read-all');
   if (!all && q.status && q.status !== 'released') return { rows: [], total: 0, page: q.page, pageSize: q.pageSize };
-  const statuses = !all ? ['released'] : q.status === 'in-progress' ? IN_PROGRESS : q.status ? [q.status] : null;
+  const statuses = !all ? (q.status ? ['released'] : ['released', 'imported']) : q.status === 'in-progress' ? IN_PROGRESS : q.status ? [q.status] : null;
   const where = statuses ? { coopId: actor.coop.id, status: statuses } : { coopId: actor.coop.id };
   const key = LIST_SORT[q.sort] ?? 'number';
   const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
@@ -348,7 +352,10 @@ export async function listBatches(actor: Actor, q: BatchListQuery): Promise<Batc
         costPerLiterCents: r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
         qualityStandard: r.qualityStandard, screeningVerdict: r.screeningVerdict,
         // Judged from the results themselves (a verdict stored under an older rule is not trusted).
-        ...((v) => ({ qualityVerdict: v.overall, qualityText: v.verdict.text, qualityKind: v.verdict.kind }))(evaluateQuality(r.qualityStandard, labResultsOf(r))),
+        ...(r.status === 'imported'
+          // An imported batch has no results here, only the verdict recorded then.
+          ? { qualityVerdict: r.qualityVerdict, qualityText: r.qualityVerdict === 'incomplete' ? 'Not recorded' : `${r.qualityVerdict === 'pass' ? 'Passed' : 'Failed'} (as recorded)`, qualityKind: r.qualityVerdict === 'fail' ? 'fails' as const : 'screened' as const }
+          : ((v) => ({ qualityVerdict: v.overall, qualityText: v.verdict.text, qualityKind: v.verdict.kind }))(evaluateQuality(r.qualityStandard, labResultsOf(r)))),
       };
     }),
     total: Number(total ?? 0), page: q.page, pageSize: q.pageSize,

@@ -26,7 +26,7 @@ import {
 
 /** The working steps in order; a batch only moves forward through them, then to released or rejected. */
 export const STEPS = ['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing'] as const;
-export const FINAL: readonly BatchStatus[] = ['released', 'rejected'];
+export const FINAL: readonly BatchStatus[] = ['released', 'rejected', 'imported'];
 const isFinal = (s: string) => (FINAL as readonly string[]).includes(s);
 
 const fieldError = (fields: Record<string, string[]>, message = 'Some fields need attention.') => new HttpError(422, message, fields);

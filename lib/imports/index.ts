@@ -8,6 +8,7 @@ import { IMPORT_TEMPLATES, type ImportTemplate } from './templates';
 import { openingBalances, undoOpeningBalances } from './balances';
 import { openingSupplies, undoOpeningSupplies } from './supplies-stock';
 import { openingTankStock, undoOpeningTankStock } from './tank-stock';
+import { pastBatches, undoPastBatches } from './past-batches';
 import { confirmOpening, previewOpening, type OpeningKind } from './opening';
 import { undoImport, type UndoRows } from './undo';
 
@@ -48,6 +49,7 @@ const IMPORTERS: Record<ImportKindName, Importer> = {
   'opening-balances': opening(openingBalances, (actor, ids, t) => undoOpeningBalances(actor.coop.id, ids, t)),
   'opening-tank': opening(openingTankStock, undoOpeningTankStock),
   'opening-supplies': opening(openingSupplies, undoOpeningSupplies),
+  'past-batches': opening(pastBatches, undoPastBatches),
 };
 
 /** Undoes an import as a whole (see lib/imports/undo.ts). */

@@ -9,7 +9,7 @@ import { formatMl, milliUnitsToMl, mlToUnits } from '@/lib/tank/volume';
 import { Tank, TankMovement } from '@/models';
 import type { CsvRow } from './csv-read';
 import { rowChecker, type Checked, type OpeningKind } from './opening';
-import { readMoneyCents, readQuantity } from './values';
+import { readMoneyCents, readQuantity, toMilli } from './values';
 
 const COLUMNS = [
   { key: 'tank', headings: ['Tank', 'Tank name'], required: true },
@@ -23,12 +23,6 @@ interface Plan {
   quantityMl: number;
   valueCents: number;
 }
-
-/** Whole thousandths of the unit from an exact decimal string ("1200.5" → 1200500). */
-const toMilli = (decimal: string) => {
-  const [whole, frac = ''] = decimal.split('.') as [string, string?];
-  return Number(whole) * 1000 + Number(frac.padEnd(3, '0'));
-};
 
 /**
  * Opening tank stock: the fuel in each tank on moving day, with what it cost per unit, as one

@@ -67,4 +67,29 @@ export const IMPORT_TEMPLATES: Record<ImportKindName, (units: Units) => ImportTe
       ['oil', u === 'us' ? '120' : '450', u === 'us' ? 'gal' : 'L', '0', '', ''],
     ],
   }),
+  'past-batches': (u) => {
+    const unit = u === 'us' ? 'gallons' : 'litres';
+    const money = (us: string, metric: string) => (u === 'us' ? us : metric);
+    return {
+      title: 'Past batches',
+      columns: [
+        { key: 'number', heading: 'Batch number', required: false, explains: 'The batch’s number in your records. It must be new to Tallyvat; leave it empty to number the batch after your highest.' },
+        { key: 'date', heading: 'Date', required: true, explains: `When the batch was made, ${u === 'us' ? 'MM/DD/YYYY' : 'DD/MM/YYYY'} or YYYY-MM-DD. Reports count it in that month.` },
+        { key: 'oil', heading: `Oil in (${unit})`, required: true, explains: `Oil that went into the batch, in ${unit}.` },
+        { key: 'fuel', heading: `Fuel out (${unit})`, required: true, explains: `Finished fuel the batch gave, in ${unit} (at most 1.1 × the oil in). Its fuel is not added to a tank: use opening tank stock for what is in your tanks today.` },
+        { key: 'costPerUnit', heading: u === 'us' ? 'Cost per gallon' : 'Cost per litre', required: false, explains: 'What a unit of the fuel cost, if that is what you kept. Or fill in the input costs instead.' },
+        { key: 'oilCost', heading: 'Oil cost', required: false, explains: 'The batch’s cost of oil (input costs: any you leave empty count as zero).' },
+        { key: 'methanolCost', heading: 'Methanol cost', required: false, explains: 'The batch’s cost of methanol.' },
+        { key: 'catalystCost', heading: 'Catalyst cost', required: false, explains: 'The batch’s cost of KOH or NaOH.' },
+        { key: 'energyCost', heading: 'Energy cost', required: false, explains: 'The batch’s cost of heating and pumping.' },
+        { key: 'otherCost', heading: 'Other cost', required: false, explains: 'Anything else (filters, water, tests).' },
+        { key: 'verdict', heading: 'Quality', required: false, explains: 'pass or fail, as recorded then; empty if the batch was not tested.' },
+        { key: 'notes', heading: 'Notes', required: false, explains: 'Quality notes as recorded then (test results, appearance).' },
+      ],
+      examples: [
+        ['12', u === 'us' ? '03/14/2025' : '14/03/2025', u === 'us' ? '40' : '150', u === 'us' ? '37.5' : '141', money('1.92', '0,51'), '', '', '', '', '', 'pass', 'Wash water clear after 3 washes'],
+        ['13', u === 'us' ? '04/02/2025' : '02/04/2025', u === 'us' ? '40' : '150', u === 'us' ? '36' : '135', '', money('20.00', '18,00'), money('24.50', '22,00'), money('6.10', '5,40'), money('4.00', '3,50'), '', '', ''],
+      ],
+    };
+  },
 };

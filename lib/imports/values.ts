@@ -41,6 +41,12 @@ export function readQuantity(raw: string, units: Units, decimals = 3): ValueResu
   return { ok: true, value: n.value };
 }
 
+/** Whole thousandths of the unit from an exact decimal string ("1200.5" → 1200500). */
+export const toMilli = (decimal: string) => {
+  const [whole, frac = ''] = decimal.split('.') as [string, string?];
+  return Number(whole) * 1000 + Number(frac.padEnd(3, '0'));
+};
+
 const pad = (n: number) => String(n).padStart(2, '0');
 
 /**

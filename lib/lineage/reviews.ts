@@ -146,7 +146,7 @@ export async function closeReview(actor: Actor, batchId: number, input: z.infer<
     if (input.outcome === 'retreated') {
       const next = await Batch.findOne({ attributes: ['id', 'status'], where: { id: input.retreatBatchId!, coopId }, transaction: t, raw: true });
       if (!next || next.id === batchId) throw bad({ retreatBatchId: ['Choose another batch of this co-op.'] });
-      if (next.status === 'released' || next.status === 'rejected') throw bad({ retreatBatchId: ['Choose a batch that is not yet released or rejected.'] });
+      if (next.status === 'released' || next.status === 'rejected' || next.status === 'imported') throw bad({ retreatBatchId: ['Choose a batch that is not yet released or rejected.'] });
     }
     const tanks = await batchLayersByTank(t, coopId, batchId);
     const movements: string[] = [];

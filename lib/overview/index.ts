@@ -1,5 +1,5 @@
 import 'server-only';
-import { col, fn, literal, type InferAttributes } from 'sequelize';
+import { col, fn, literal, Op, type InferAttributes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
 import { OPEN_STATUSES } from '@/lib/billing/invoices';
@@ -102,7 +102,8 @@ export async function getBatchCosts(coopId: number, timeZone: string): Promise<B
       [perGallon('cost_other_cents'), 'other'],
       [perGallon('total_cost_cents'), 'total'],
     ],
-    where: { coopId, status: 'released' },
+    // Imported past batches count when their costs were recorded.
+    where: { coopId, [Op.or]: [{ status: 'released' }, { status: 'imported', totalCostCents: { [Op.ne]: null } }] },
     order: [['number', 'DESC']],
     limit: 12,
     raw: true,

@@ -51,8 +51,10 @@ export interface QuarterlyReport {
  *
  * Produced = the finished fuel of batches completed in the month: the volume of batches released
  * then (by their release time). A rejected batch records no fuel volume (the batches table keeps
- * released_liters for released batches only), so it adds nothing. "Released" is every release
- * movement into a tank, so the two differ when fuel enters a tank other than from a batch record.
+ * released_liters for released batches only), so it adds nothing. Past batches imported in
+ * summary count as produced in the month of their date (released_at is that day): they were made
+ * then, though their fuel never entered a tank here. "Released" is every release movement into a
+ * tank, so the two differ when fuel enters a tank other than from a batch record (or was imported).
  */
 export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarterQuerySchema>): Promise<QuarterlyReport> {
   requireCan(actor, 'reports:read');

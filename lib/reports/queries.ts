@@ -22,7 +22,7 @@ export interface QuarterMonthRow {
 
 /**
  * The three calendar months from `firstMonth` ('YYYY-MM-01'), each bounded by midnight in
- * `timeZone`: litres produced (released_liters of batches released then), released into tanks
+ * `timeZone`: litres produced (released_liters of batches released, or imported as made, then), released into tanks
  * (release movements), drawn by declared use with the road tax collected (reversing draws are
  * negative, so they subtract in the month they were entered), and the count of draws net of
  * reversals. Oldest month first; a month with nothing is zeros.
@@ -41,7 +41,7 @@ export function quarterMonths(coopId: number, timeZone: string, firstMonth: stri
      ),
      prod AS (
        SELECT b.m, COALESCE(SUM(x.released_liters), 0) AS produced
-       FROM bounds b LEFT JOIN batches x ON x.coop_id = $coopId AND x.status = 'released' AND x.released_at >= b.lo AND x.released_at < b.hi
+       FROM bounds b LEFT JOIN batches x ON x.coop_id = $coopId AND x.status IN ('released', 'imported') AND x.released_at >= b.lo AND x.released_at < b.hi
        GROUP BY b.m
      ),
      dr AS (

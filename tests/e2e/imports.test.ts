@@ -1,6 +1,6 @@
 // In headless Chromium: an admin moves members in from a spreadsheet — chooses a CSV file, sees
 // each row's fate, invites, and follows the e-mails on the result page; then previews an opening
-// balances file with a bad row. Every screen passes axe and fits 360 px and desktop widths.
+// balances file with a bad row, and imports past batches (shown read-only, "Imported summary"). Every screen passes axe and fits 360 px and desktop widths.
 import { describe, expect, it } from 'vitest';
 import { baseUrl, makeCoop, makeUser, TEST_PASSWORD } from '../support/api';
 import { shootBothWidths, signInUi, withBrowser } from '../support/browser';
@@ -35,6 +35,24 @@ describe('imports in the browser', () => {
       await page.getByText(/not a member of this co-op yet/).waitFor();
       await expect(page.getByRole('button', { name: 'Import 0 rows' }).isDisabled()).resolves.toBe(true);
       await shootBothWidths(page, 'imports-balances-preview');
+
+      // Past batches: a bad row is named beside its field; a good file imports read-only batches.
+      const head = 'Batch number,Date,Oil in (gallons),Fuel out (gallons),Cost per gallon,Quality,Notes\n';
+      await page.locator('#past-batches-file').setInputFiles({ name: 'history-bad.csv', mimeType: 'text/csv', buffer: Buffer.from(`${head}7,03/14/2025,40,60,1.90,pass,\n`) });
+      await page.getByRole('button', { name: 'Preview' }).nth(4).click();
+      await page.getByText(/More fuel out than 1\.1 ×/).waitFor();
+      await shootBothWidths(page, 'imports-past-batches-preview');
+      await page.locator('#past-batches-file').setInputFiles({ name: 'history.csv', mimeType: 'text/csv', buffer: Buffer.from(`${head}7,03/14/2025,40,38,1.90,pass,Clear\n8,04/02/2025,40,36,,,\n`) });
+      await page.getByRole('button', { name: 'Preview' }).nth(4).click();
+      await page.getByRole('button', { name: 'Import 2 rows' }).click();
+      await page.getByText('Imported 2 rows.').waitFor({ timeout: 30_000 });
+
+      await page.goto(`${baseUrl()}/c/${coop.slug}/batches`);
+      await expect(page.getByText('Imported summary').count()).resolves.toBeGreaterThan(0);
+      await page.getByRole('link', { name: 'Batch 7', exact: true }).first().click();
+      await page.getByRole('heading', { name: 'Batch 7' }).waitFor();
+      await page.getByText(/imported from its records/).waitFor();
+      await shootBothWidths(page, 'imports-past-batch-page');
     });
-  }, 120_000);
+  }, 360_000);
 });

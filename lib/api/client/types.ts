@@ -8803,7 +8803,7 @@ export interface operations {
       path: {
         /** @description The co-op's slug */
         coop: string;
-        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies";
+        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies" | "past-batches";
       };
     };
     requestBody: {
@@ -8894,7 +8894,7 @@ export interface operations {
       path: {
         /** @description The co-op's slug */
         coop: string;
-        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies";
+        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies" | "past-batches";
       };
     };
     requestBody: {
@@ -8983,7 +8983,7 @@ export interface operations {
       path: {
         /** @description The co-op's slug */
         coop: string;
-        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies";
+        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies" | "past-batches";
       };
     };
     responses: {
@@ -9034,7 +9034,7 @@ export interface operations {
       path: {
         /** @description The co-op's slug */
         coop: string;
-        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies";
+        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies" | "past-batches";
         id: string;
       };
     };
@@ -9086,7 +9086,7 @@ export interface operations {
       path: {
         /** @description The co-op's slug */
         coop: string;
-        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies";
+        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies" | "past-batches";
         id: string;
       };
     };
@@ -9138,7 +9138,7 @@ export interface operations {
       path: {
         /** @description The co-op's slug */
         coop: string;
-        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies";
+        kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies" | "past-batches";
         id: string;
       };
     };

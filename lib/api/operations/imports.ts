@@ -1,12 +1,12 @@
 import { z } from 'zod';
-import { importFileSchema } from '@/lib/validation/imports';
+import { IMPORT_KINDS, importFileSchema } from '@/lib/validation/imports';
 import { operation } from '../operation';
 
 // Moving in from spreadsheets: bulk invitations and opening records from CSV.
 
 const tags = ['Imports'];
 const manage = { action: 'imports:manage' } as const;
-const kind = z.object({ kind: z.enum(['invitations', 'opening-balances', 'opening-tank', 'opening-supplies']) });
+const kind = z.object({ kind: z.enum(IMPORT_KINDS) });
 const kindAndId = kind.extend({ id: z.string().regex(/^\d+$/) });
 const importSchema = z.looseObject({}).meta({ id: 'Import', description: 'One import: who, when, file name, row counts and each row\'s fate (invitations: delivery per row).' });
 const csv = { file: 'text/csv' } as const;

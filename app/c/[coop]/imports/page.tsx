@@ -18,18 +18,19 @@ export default async function ImportsPage({ params }: { params: Promise<{ coop: 
   const history = await listImports(actor);
   const template = IMPORT_TEMPLATES.invitations(actor.coop.units);
   const slug = actor.coop.slug;
-  const opening: { kind: 'opening-balances' | 'opening-tank' | 'opening-supplies'; intro: string }[] = [
+  const opening: { kind: 'opening-balances' | 'opening-tank' | 'opening-supplies' | 'past-batches'; intro: string }[] = [
     { kind: 'opening-balances', intro: 'What each member owed or held in credit on moving day. Each balance is carried by the member’s next invoice. Invite members first: a balance needs a member who has joined.' },
     { kind: 'opening-tank', intro: 'The fuel in each tank on moving day and what it cost to make. It becomes the tank’s opening ledger entry, so the tank’s value and the cost-based price of the next draws start from it. Add your tanks on the Tank page first.' },
     { kind: 'opening-supplies', intro: 'Methanol, catalyst and oil on the shelf on moving day, with what they cost. They become opening lots, so stock, the planner and the cost of the next batches start from them.' },
+    { kind: 'past-batches', intro: 'Your batch history: when each batch was made, oil in, fuel out, what it cost and how it tested. Each becomes a read-only batch marked “Imported summary”, so the cost chart, the quarterly report and the planner’s yield estimate include your past. Their fuel is not added to a tank: import what is in your tanks today as opening tank stock.' },
   ];
   return (
     <div className="flex flex-col gap-6">
       <div>
         <h1>Import from a spreadsheet</h1>
         <p className="text-stone-600">
-          Bring your members, their balances and your tank’s fuel over from spreadsheets. You see what will happen to every row before anything is saved,
-          every import is in the audit log, and the same file is never imported twice. Balances and stock can be undone as a whole until something is built on them.
+          Bring your members, their balances, your tank’s fuel and your batch history over from spreadsheets. You see what will happen to every row before anything is saved,
+          every import is in the audit log, and the same file is never imported twice. Balances, stock and past batches can be undone as a whole until something is built on them.
         </p>
       </div>
 

@@ -2,7 +2,7 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import type { ReactNode } from 'react';
-import { StatusBadge } from '@/components/brewing/badges';
+import { StatusBadge, VerdictBadge } from '@/components/brewing/badges';
 import { BatchActions } from '@/components/brewing/batch-actions';
 import { dateText, grams, money, perUnit, vol } from '@/components/brewing/format';
 import { StepNav } from '@/components/brewing/step-nav';
@@ -90,17 +90,30 @@ function BatchSummary({ batch, base, units, currency, timeZone, lineage }: { bat
   return (
     <div className="flex flex-col gap-4">
       <Header number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'} />
-      <Card title="In the tank">
+      {batch.imported ? (
+        <Notice tone="info" title="Imported summary">
+          This batch was made before the co-op used Tallyvat and was imported from its records: it has no recipe or steps, moved no fuel into a tank, and cannot be changed here.
+        </Notice>
+      ) : null}
+      <Card title={batch.imported ? 'As recorded' : 'In the tank'}>
         <dl className="grid grid-cols-1 gap-2 text-sm sm:grid-cols-3">
-          <div><dt className="text-stone-600">Released</dt><dd className="font-semibold">{vol(batch.release?.releasedLiters, units)}{batch.release?.tankName ? ` into ${batch.release.tankName}` : ''}</dd></div>
-          <div><dt className="text-stone-600">On</dt><dd className="font-semibold">{dateText(batch.release?.releasedAt, timeZone)}</dd></div>
+          {batch.imported ? <div><dt className="text-stone-600">Oil in</dt><dd className="font-semibold">{vol(batch.oilLiters, units)}</dd></div> : null}
+          <div><dt className="text-stone-600">{batch.imported ? 'Fuel out' : 'Released'}</dt><dd className="font-semibold">{vol(batch.release?.releasedLiters, units)}{batch.release?.tankName ? ` into ${batch.release.tankName}` : ''}</dd></div>
+          {batch.imported ? null : <div><dt className="text-stone-600">On</dt><dd className="font-semibold">{dateText(batch.release?.releasedAt, timeZone)}</dd></div>}
           <div><dt className="text-stone-600">Cost</dt><dd className="font-semibold">{perUnit(batch.costPerGallonCents, batch.costPerLiterCents, units, currency)}</dd></div>
         </dl>
       </Card>
       {lineage}
-      <Card title="Quality">
-        <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
-      </Card>
+      {batch.imported ? (
+        <Card title="Quality, as recorded">
+          <p className="text-sm"><VerdictBadge verdict={batch.qualityVerdict === 'incomplete' ? 'not tested' : batch.qualityVerdict} /></p>
+          {batch.imported.notes ? <p className="mt-2 text-sm whitespace-pre-line">{batch.imported.notes}</p> : null}
+        </Card>
+      ) : (
+        <Card title="Quality">
+          <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
+        </Card>
+      )}
     </div>
   );
 }
