@@ -1,7 +1,8 @@
 import 'server-only';
 import { Op, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
-import { formatDateIn, todayIn } from '@/lib/billing/periods';
+import { formatDateIn } from '@/lib/billing/periods';
+import { todayIn } from '@/lib/dates';
 import { batchCost } from '@/lib/costing';
 import { conflict } from '@/lib/http';
 import { formatCents, roundHalfUp } from '@/lib/money';
