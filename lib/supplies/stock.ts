@@ -1,4 +1,6 @@
 import 'server-only';
+import type { stockLineSchema, stockSummarySchema } from '@/lib/api/dto/brewing';
+import type { z } from 'zod';
 import { col, fn, literal, Op, type InferAttributes, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { Batch, ChemicalLot } from '@/models';
@@ -8,26 +10,9 @@ import type { BatchStatus } from '@/models/Batch';
 // planned batch needs, and the summary the supplies page, the planner and the overview show.
 
 /** Stock of one chemical: what the lots hold, what batches under way will take, what is free. */
-export interface StockLine {
-  kind: 'methanol' | 'KOH' | 'NaOH';
-  unit: 'L' | 'g';
-  /** Sum of what the lots still hold (received − consumed by released or rejected batches). */
-  onHand: number;
-  /** Planned amounts of batches already under way (reacting … testing): in the reactor, not yet written off. */
-  committed: number;
-  /** onHand − committed. */
-  available: number;
-  lotsWithStock: number;
-  /** What the next planned batch needs of this chemical (null when there is none or it uses the other catalyst). */
-  nextPlannedNeed: number | null;
-  /** True when the available stock won't cover the next planned batch. */
-  low: boolean;
-}
+export type StockLine = z.infer<typeof stockLineSchema>;
 
-export interface StockSummary {
-  lines: StockLine[];
-  nextPlannedBatch: { id: number; number: number; catalyst: 'KOH' | 'NaOH' } | null;
-}
+export type StockSummary = z.infer<typeof stockSummarySchema>;
 
 /** How much of each batch's chemicals counts: what was actually used when recorded, else the plan. */
 const NEED_METHANOL = 'COALESCE(actual_methanol_liters, computed_methanol_liters)';
