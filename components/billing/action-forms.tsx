@@ -5,7 +5,8 @@ import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-form';
+import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
 import { formatCents } from '@/lib/money/format';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { useAnnounce } from '@/components/shell/announcer';
@@ -13,10 +14,10 @@ import { useAnnounce } from '@/components/shell/announcer';
 /** Voids an issued invoice by a credit note; asks for the reason. */
 export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invoiceId: number; label: string }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
-    const out = await submit<{ creditNoteLabel: string }>(`/api/coops/${coop}/billing/invoices/${invoiceId}/void`, 'POST', { reason: formObject(e.currentTarget).reason ?? '' });
+    const out = await send(apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/void', { params: { path: { coop, id: String(invoiceId) } }, body: { reason: formObject(e.currentTarget).reason ?? '' } }));
     if (out) router.refresh();
   }
   return (
@@ -32,14 +33,14 @@ export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invo
 /** Sends the invoice e-mail again, now. */
 export function ResendButton({ coop, invoiceId }: { coop: string; invoiceId: number }) {
   const router = useRouter();
-  const { busy, message, submit } = useApiForm();
+  const { busy, message, send } = useApiForm();
   return (
     <div className="flex flex-col gap-2">
       <Button
         variant="secondary"
         disabled={busy}
         onClick={async () => {
-          const out = await submit<{ emailStatus: string }>(`/api/coops/${coop}/billing/invoices/${invoiceId}/send`, 'POST', {});
+          const out = await send(apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/send', { params: { path: { coop, id: String(invoiceId) } }, body: {} }));
           if (out) router.refresh();
         }}
       >
@@ -58,18 +59,16 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
   coop: string; members: MemberOption[]; invoices: OpenInvoiceOption[]; currency: string; today: string; fixed?: { memberId: number; invoiceId: number };
 }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const [memberId, setMemberId] = useState<number | null>(fixed?.memberId ?? null);
   const mine = invoices.filter((i) => i.memberId === memberId);
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
     const f = formObject(form);
-    const body: Record<string, unknown> = { memberId: f.memberId, method: f.method, amount: f.amount ?? '', receivedOn: f.receivedOn ?? '' };
-    if (f.invoiceId) body.invoiceId = f.invoiceId;
-    if (f.reference) body.reference = f.reference;
-    if (f.note) body.note = f.note;
-    const out = await submit(`/api/coops/${coop}/billing/payments`, 'POST', body, 'Payment recorded.');
+    // The select offers cash and cheque only; the server names a bad value.
+    const body = { memberId: f.memberId, method: f.method as 'cash' | 'cheque', amount: f.amount ?? '', receivedOn: f.receivedOn ?? '', invoiceId: f.invoiceId || undefined, reference: f.reference || undefined, note: f.note || undefined };
+    const out = await send(apiClient.POST('/api/coops/{coop}/billing/payments', { params: { path: { coop } }, body }), 'Payment recorded.');
     if (out) {
       form.reset();
       setMemberId(fixed?.memberId ?? null);
@@ -113,11 +112,11 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
 export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop: string; paymentId: number; invoices: OpenInvoiceOption[]; currency: string }) {
   const router = useRouter();
   const announce = useAnnounce();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const target = formObject(e.currentTarget).target ?? '';
-    const out = await submit(`/api/coops/${coop}/billing/payments/${paymentId}/match`, 'POST', { invoiceId: target === 'credit' ? null : Number(target) });
+    const out = await send(apiClient.POST('/api/coops/{coop}/billing/payments/{id}/match', { params: { path: { coop, id: String(paymentId) } }, body: { invoiceId: target === 'credit' ? null : Number(target) } }));
     if (!out) return;
     const inv = invoices.find((i) => String(i.id) === target);
     announce({ tone: 'ok', text: inv ? `Payment matched to ${inv.label}.` : 'Payment held as the member’s credit.' });
@@ -144,7 +143,7 @@ export function RefundForm({ coop, paymentId, refundableCents, method, currency,
       trigger="Refund…" triggerLabel={`Refund payment ${paymentId}`} triggerClassName="min-h-10 px-3 text-xs"
       title={`Refund ${payer ? `${payer}’s` : 'this'} payment?`} confirmLabel="Refund — can’t be undone" busyLabel="Refunding…"
       onConfirm={async (d) => {
-        const r = await sendJson(`/api/coops/${coop}/billing/payments/${paymentId}/refunds`, 'POST', { amount: String(d.get('amount') ?? ''), reason: String(d.get('reason') ?? '') });
+        const r = await callApi(apiClient.POST('/api/coops/{coop}/billing/payments/{id}/refunds', { params: { path: { coop, id: String(paymentId) } }, body: { amount: String(d.get('amount') ?? ''), reason: String(d.get('reason') ?? '') } }));
         if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
         router.refresh();
         return { ok: true, message: `Refund recorded${method === 'card' ? ': it goes back to the card' : ''}.` };
@@ -166,10 +165,10 @@ export function RefundForm({ coop, paymentId, refundableCents, method, currency,
 /** A pending card refund that the payment service did not confirm: send it again. */
 export function RetryRefundButton({ coop, refundId }: { coop: string; refundId: number }) {
   const router = useRouter();
-  const { busy, message, submit } = useApiForm();
+  const { busy, message, send } = useApiForm();
   return (
     <span className="inline-flex flex-col gap-1">
-      <Button variant="ghost" disabled={busy} onClick={async () => (await submit(`/api/coops/${coop}/billing/refunds/${refundId}/retry`, 'POST', undefined)) && router.refresh()}>
+      <Button variant="ghost" disabled={busy} onClick={async () => (await send(apiClient.POST('/api/coops/{coop}/billing/refunds/{id}/retry', { params: { path: { coop, id: String(refundId) } } }))) && router.refresh()}>
         {busy ? 'Retrying…' : 'Retry refund'}
       </Button>
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
@@ -180,12 +179,13 @@ export function RetryRefundButton({ coop, refundId }: { coop: string; refundId: 
 /** A charge (positive) or credit (negative) for a member's next invoice. */
 export function AdjustmentForm({ coop, members, currency, currentPeriod }: { coop: string; members: MemberOption[]; currency: string; currentPeriod: string }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
     const f = formObject(form);
-    const out = await submit(`/api/coops/${coop}/billing/adjustments`, 'POST', { memberId: f.memberId, amount: f.amount ?? '', description: f.description ?? '', period: f.period }, 'Adjustment added; it goes on the member’s next invoice.');
+    const body = { memberId: f.memberId, amount: f.amount ?? '', description: f.description ?? '', period: f.period };
+    const out = await send(apiClient.POST('/api/coops/{coop}/billing/adjustments', { params: { path: { coop } }, body }), 'Adjustment added; it goes on the member’s next invoice.');
     if (out) {
       form.reset();
       router.refresh();
@@ -216,7 +216,7 @@ export function CloseMonthForm({ coop, period, label }: { coop: string; period: 
         <ConfirmDialog
           trigger={`Close ${label}…`} triggerVariant="primary" title={`Close ${label}?`} confirmLabel={`Close and lock ${label}`} busyLabel="Closing…" tone="primary"
           onConfirm={async () => {
-            const r = await sendJson<unknown>(`/api/coops/${coop}/billing/periods/${period}/close`, 'POST', { confirm: true });
+            const r = await callApi(apiClient.POST('/api/coops/{coop}/billing/periods/{period}/close', { params: { path: { coop, period } }, body: { confirm: true } }));
             if (r.ok) {
               router.refresh();
               return { ok: true, message: `${label} is closed: its draws, invoices and payments are locked.` };

@@ -5,15 +5,10 @@ import { useRouter } from 'next/navigation';
 import useSWR from 'swr';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { sendJson } from '@/components/forms/use-api-form';
+import { callApi, type ClientCall } from '@/components/forms/use-api-form';
+import { apiClient, dataOrThrow } from '@/lib/api/client';
 import { formatCents } from '@/lib/money/format';
 import type { PeriodOverview } from '@/lib/billing/invoices';
-
-const fetcher = async (url: string): Promise<PeriodOverview> => {
-  const r = await fetch(url);
-  if (!r.ok) throw new Error(`HTTP ${r.status}`);
-  return r.json();
-};
 
 /**
  * The month's live state, polled while something is moving (a run building drafts, e-mails
@@ -22,7 +17,7 @@ const fetcher = async (url: string): Promise<PeriodOverview> => {
 export function PeriodProgress({ coop, period, initial, currency }: { coop: string; period: string; initial: PeriodOverview; currency: string }) {
   const router = useRouter();
   const url = `/api/coops/${coop}/billing/periods/${period}`;
-  const { data, error, mutate } = useSWR<PeriodOverview>(url, fetcher, { fallbackData: initial });
+  const { data, error, mutate } = useSWR(url, () => dataOrThrow(apiClient.GET('/api/coops/{coop}/billing/periods/{period}', { params: { path: { coop, period } } })), { fallbackData: initial });
   const [busy, setBusy] = useState<string | null>(null);
   const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
   const moving = Boolean(data && (data.run?.status === 'running' || data.email.queued + data.email.sending > 0));
@@ -53,10 +48,10 @@ export function PeriodProgress({ coop, period, initial, currency }: { coop: stri
   const run = data.run;
   const money = (c: number) => formatCents(c, currency);
 
-  async function act(name: string, path: string, body: unknown, ok: (d: Record<string, unknown>) => string) {
+  async function act<T>(name: string, call: () => ClientCall<T>, ok: (d: T) => string) {
     setBusy(name);
     setMessage(null);
-    const r = await sendJson<Record<string, unknown>>(path, 'POST', body);
+    const r = await callApi(call());
     setBusy(null);
     if (r.ok) setMessage({ tone: 'ok', text: ok(r.data) });
     else setMessage({ tone: 'danger', text: r.error });
@@ -104,20 +99,20 @@ export function PeriodProgress({ coop, period, initial, currency }: { coop: stri
             <Button
               variant={data.counts.draft ? 'secondary' : 'primary'}
               disabled={busy !== null || run?.status === 'running'}
-              onClick={() => act('run', `/api/coops/${coop}/billing/runs`, { period }, () => 'Preparing drafts…')}
+              onClick={() => act('run', () => apiClient.POST('/api/coops/{coop}/billing/runs', { params: { path: { coop } }, body: { period } }), () => 'Preparing drafts…')}
             >
               {busy === 'run' ? 'Starting…' : data.counts.draft || data.counts.issued + data.counts.paid ? 'Prepare drafts again' : 'Prepare draft invoices'}
             </Button>
             {data.counts.draft > 0 ? (
               <Button
                 disabled={busy !== null || run?.status === 'running'}
-                onClick={() => act('issue', `/api/coops/${coop}/billing/periods/${period}/issue`, {}, (d) => `Issued ${d.issued} invoice(s), ${d.firstNumber} to ${d.lastNumber}. E-mails are on their way.`)}
+                onClick={() => act('issue', () => apiClient.POST('/api/coops/{coop}/billing/periods/{period}/issue', { params: { path: { coop, period } }, body: {} }), (d) => `Issued ${d.issued} invoice(s), ${d.firstNumber} to ${d.lastNumber}. E-mails are on their way.`)}
               >
                 {busy === 'issue' ? 'Issuing…' : `Issue ${data.counts.draft} invoice${data.counts.draft === 1 ? '' : 's'} and e-mail them`}
               </Button>
             ) : null}
             {unsent > 0 ? (
-              <Button variant="secondary" disabled={busy !== null} onClick={() => act('send', `/api/coops/${coop}/billing/periods/${period}/send`, {}, (d) => `${d.queued} e-mail(s) queued again.`)}>
+              <Button variant="secondary" disabled={busy !== null} onClick={() => act('send', () => apiClient.POST('/api/coops/{coop}/billing/periods/{period}/send', { params: { path: { coop, period } }, body: {} }), (d) => `${d.queued} e-mail(s) queued again.`)}>
                 {busy === 'send' ? 'Queuing…' : 'Send the unsent e-mails'}
               </Button>
             ) : null}

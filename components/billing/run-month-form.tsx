@@ -5,15 +5,16 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
 
 /** Picks a month and starts preparing its draft invoices, then opens the month's page. */
 export function RunMonthForm({ coop, defaultPeriod, maxPeriod }: { coop: string; defaultPeriod: string; maxPeriod: string }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const { period } = formObject(e.currentTarget);
-    const out = await submit<{ run: { period: string } }>(`/api/coops/${coop}/billing/runs`, 'POST', { period });
+    const out = await send(apiClient.POST('/api/coops/{coop}/billing/runs', { params: { path: { coop } }, body: { period: period ?? '' } }));
     if (out) router.push(`/c/${coop}/billing/${out.run.period}`);
   }
   return (

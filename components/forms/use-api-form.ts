@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import { apiError, type ClientResult } from '@/lib/api/client';
 
 export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; error: string; fields: Record<string, string[]>; body: Record<string, unknown> };
 
@@ -20,16 +21,45 @@ export async function sendJson<T = unknown>(url: string, method: string, body?: 
   }
 }
 
+/** An apiClient call (lib/api/client, openapi-fetch) under way. */
+export type ClientCall<T> = Promise<ClientResult<T>>;
+
+/**
+ * Awaits a typed-client call (`apiClient.POST('/api/…', { params, body })`) as the same result
+ * `sendJson` gives: the data is the operation's declared answer, so reading a field the contract
+ * does not have is a compile error in the component.
+ */
+export async function callApi<T>(request: ClientCall<T>): Promise<ApiResult<T>> {
+  try {
+    const r = await request;
+    if (r.response.ok) return { ok: true, data: r.data as T };
+    const e = apiError(r.error, r.response.status);
+    return { ok: false, status: r.response.status, ...e, body: r.error && typeof r.error === 'object' ? (r.error as Record<string, unknown>) : {} };
+  } catch {
+    return { ok: false, status: 0, error: 'Could not reach Tallyvat. Check your connection and try again.', fields: {}, body: {} };
+  }
+}
+
 /** Form state for a JSON API call: busy flag, field errors, a top message. */
 export function useApiForm() {
   const [busy, setBusy] = useState(false);
   const [fields, setFields] = useState<Record<string, string[]>>({});
   const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
 
+  /** Sends through the typed client (`send(apiClient.POST(…))`): the answer's type is the contract's. */
+  async function send<T>(request: ClientCall<T>, okText?: string): Promise<T | null> {
+    setBusy(true);
+    setMessage(null);
+    return settle(await callApi(request), okText);
+  }
+
   async function submit<T>(url: string, method: string, body: unknown, okText?: string): Promise<T | null> {
     setBusy(true);
     setMessage(null);
-    const r = await sendJson<T>(url, method, body);
+    return settle(await sendJson<T>(url, method, body), okText);
+  }
+
+  function settle<T>(r: ApiResult<T>, okText?: string): T | null {
     setBusy(false);
     if (r.ok) {
       setFields({});
@@ -41,7 +71,7 @@ export function useApiForm() {
     return null;
   }
 
-  return { busy, fields, message, submit, setMessage, setFields };
+  return { busy, fields, message, submit, send, setMessage, setFields };
 }
 
 /** FormData → plain object of strings (empty strings dropped). */

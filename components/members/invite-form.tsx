@@ -2,11 +2,12 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { formObject, sendJson } from '@/components/forms/use-api-form';
+import { callApi, formObject } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { ROLES, ROLE_SUMMARY } from '@/lib/auth/roles';
+import { ROLES, ROLE_SUMMARY, type Role } from '@/lib/auth/roles';
 
 /** Invite by e-mail with a role. The e-mail goes out from the job queue within moments; the list shows when it was sent. */
 export function InviteForm({ coopSlug }: { coopSlug: string }) {
@@ -20,7 +21,9 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
     const form = e.currentTarget;
     setBusy(true);
     setMessage(null);
-    const r = await sendJson<{ invitation: { email: string }; queued: true }>(`/api/coops/${coopSlug}/invitations`, 'POST', formObject(form));
+    const f = formObject(form);
+    // The select offers the four roles; the server names a bad value.
+    const r = await callApi(apiClient.POST('/api/coops/{coop}/invitations', { params: { path: { coop: coopSlug } }, body: { email: f.email ?? '', role: f.role as Role } }));
     setBusy(false);
     if (!r.ok) {
       setFields(r.fields);

@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
 import { formatMl, unitWord } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
@@ -15,15 +16,14 @@ import { tanksKey } from './live-tanks';
 export function DipForm({ coopSlug, units, tanks, currency }: { coopSlug: string; units: UnitSystem; tanks: { id: number; name: string }[]; currency: string }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
-  const { busy, fields, message, submit, setMessage } = useApiForm();
+  const { busy, fields, message, send, setMessage } = useApiForm();
   const errors = prefixedErrors(fields, 'dip');
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
     const body = prefixedObject(form, 'dip');
-    const tankId = body.tankId;
-    delete body.tankId;
-    const r = await submit<{ differenceLiters: number }>(`/api/coops/${coopSlug}/tanks/${tankId}/dips`, 'POST', body);
+    const path = { coop: coopSlug, tankId: body.tankId ?? '' };
+    const r = await send(apiClient.POST('/api/coops/{coop}/tanks/{tankId}/dips', { params: { path }, body: { measured: body.measured ?? '', reason: body.reason, unitCost: body.unitCost } }));
     if (r) {
       const d = Math.round(r.differenceLiters * 1000);
       setMessage({ tone: 'ok', text: d === 0 ? 'Recorded: the reading matches the book.' : `Recorded: ${formatMl(d, units, { signed: true, digits: 2 })} adjustment in the ledger.` });

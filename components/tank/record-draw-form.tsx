@@ -6,6 +6,8 @@ import { useSWRConfig } from 'swr';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import type { DeclaredUse } from '@/lib/pricing';
 import { FormResult } from '@/components/forms/form-result';
 import { formatCents } from '@/lib/money';
 import { formatMl, unitWord } from '@/lib/tank/volume';
@@ -27,7 +29,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
 }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
-  const { busy, fields, message, submit, setMessage } = useApiForm();
+  const { busy, fields, message, send, setMessage } = useApiForm();
   const [memberId, setMemberId] = useState<string>(selfServe ? String(members[0]?.membershipId ?? '') : '');
   const [reservationId, setReservationId] = useState<string>('');
   const [tankId, setTankId] = useState<string>(String(tanks[0]?.id ?? ''));
@@ -45,10 +47,10 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const body = prefixedObject(form, 'draw');
-    delete body.mode;
-    if (selfServe) delete body.membershipId;
-    const r = await submit<{ id: number; totalCents: number; quantityLiters: number; memberName: string }>(`/api/coops/${coopSlug}/draws`, 'POST', body);
+    const b = prefixedObject(form, 'draw');
+    // The select offers the declared uses; the server names a missing or bad one.
+    const body = { ...b, membershipId: selfServe ? undefined : b.membershipId, tankId: b.tankId, declaredUse: b.declaredUse as DeclaredUse, mode: undefined };
+    const r = await send(apiClient.POST('/api/coops/{coop}/draws', { params: { path: { coop: coopSlug } }, body }));
     if (r) {
       setMessage({ tone: 'ok', text: `Recorded draw #${r.id}: ${formatMl(Math.round(r.quantityLiters * 1000), units, { digits: 2 })} for ${r.memberName}, ${formatCents(r.totalCents, currency)} at the price in force.` });
       form.reset();

@@ -2,7 +2,8 @@
 
 import { useRouter } from 'next/navigation';
 import { useSWRConfig } from 'swr';
-import { sendJson } from '@/components/forms/use-api-form';
+import { callApi } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { TextField } from '@/components/ui/field';
 import { tanksKey } from './live-tanks';
@@ -20,7 +21,7 @@ export function ReverseDrawButton({ coopSlug, drawId, summary }: { coopSlug: str
       busyLabel="Reversing…"
       dismissLabel="Keep the draw"
       onConfirm={async (d) => {
-        const r = await sendJson<{ id?: number }>(`/api/coops/${coopSlug}/draws/${drawId}/reverse`, 'POST', { reason: String(d.get('reason') ?? '') });
+        const r = await callApi(apiClient.POST('/api/coops/{coop}/draws/{drawId}/reverse', { params: { path: { coop: coopSlug, drawId: String(drawId) } }, body: { reason: String(d.get('reason') ?? '') } }));
         if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
         await mutate(tanksKey(coopSlug));
         router.refresh();

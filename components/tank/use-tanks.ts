@@ -1,7 +1,7 @@
 'use client';
 
 import useSWR from 'swr';
-import { apiClient, apiError, type paths } from '@/lib/api/client';
+import { apiClient, dataOrThrow, type paths } from '@/lib/api/client';
 
 /** GET /api/coops/{coop}/tanks as the typed client declares it. */
 export type TanksResponse = paths['/api/coops/{coop}/tanks']['get']['responses'][200]['content']['application/json'];
@@ -16,11 +16,7 @@ export const TANKS_REFRESH_MS = 4000;
 export function useTanks(coopSlug: string, initial: TanksResponse) {
   return useSWR(
     tanksKey(coopSlug),
-    async () => {
-      const r = await apiClient.GET('/api/coops/{coop}/tanks', { params: { path: { coop: coopSlug } } });
-      if (r.error) throw Object.assign(new Error(apiError(r.error, r.response.status).error), { status: r.response.status });
-      return r.data;
-    },
+    () => dataOrThrow(apiClient.GET('/api/coops/{coop}/tanks', { params: { path: { coop: coopSlug } } })),
     { fallbackData: initial, refreshInterval: TANKS_REFRESH_MS, revalidateOnMount: false },
   );
 }

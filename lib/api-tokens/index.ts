@@ -1,4 +1,5 @@
 import 'server-only';
+import type { apiTokenSchema } from '@/lib/api/dto/members';
 import type { z } from 'zod';
 import { fn } from 'sequelize';
 import { audit } from '@/lib/audit';
@@ -13,16 +14,7 @@ import { ApiToken, User } from '@/models';
 // Managing a co-op's personal access tokens (admins and treasurers, from a signed-in session: a
 // token cannot mint or revoke tokens).
 
-export interface ApiTokenDto {
-  id: number;
-  name: string;
-  access: 'read' | 'write';
-  prefix: string;
-  createdBy: string | null;
-  createdAt: string;
-  lastUsedAt: string | null;
-  revokedAt: string | null;
-}
+export type ApiTokenDto = z.infer<typeof apiTokenSchema>;
 
 const ATTRIBUTES = ['id', 'name', 'access', 'prefix', 'createdAt', 'lastUsedAt', 'revokedAt'] as const;
 type Row = Pick<ApiToken, (typeof ATTRIBUTES)[number]> & { createdBy: { name: string | null } | null };

@@ -1,11 +1,13 @@
 import 'server-only';
+import type { batchRowSchema } from '@/lib/api/dto/brewing';
+import type { z } from 'zod';
 import type { InferAttributes, Transaction } from 'sequelize';
 import { can, type Actor } from '@/lib/auth';
 import { temperatureCheck, type TemperatureLevel } from '@/lib/chemistry';
 import { energyCostCents } from '@/lib/costing';
 import { notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
-import { evaluateQuality, evaluateQuickTests, type FuelStandard, type QualityEvaluation, type QuickTestEvaluation, type QuickTestInput, type QualityResults } from '@/lib/quality';
+import { evaluateQuality, evaluateQuickTests, type QualityEvaluation, type QuickTestEvaluation, type QuickTestInput, type QualityResults } from '@/lib/quality';
 import { litersToMl } from '@/lib/tank/quantity';
 import { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot, Tank } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
@@ -291,22 +293,7 @@ export async function getBatch(actor: Actor, id: number, opts?: { allowSummary: 
 }
 
 /** One row of the batch list. */
-export interface BatchListRow {
-  id: number;
-  number: number;
-  status: BatchStatus;
-  batchDate: string;
-  oilLiters: number;
-  releasedLiters: number | null;
-  costPerGallonCents: number | null;
-  costPerLiterCents: number | null;
-  qualityStandard: FuelStandard;
-  qualityVerdict: 'pass' | 'fail' | 'incomplete';
-  /** The one verdict wording (lib/quality): "Meets …", "Fails: …" or "Screened — n of m …". */
-  qualityText: string;
-  qualityKind: 'meets' | 'fails' | 'screened';
-  screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
-}
+export type BatchListRow = z.infer<typeof batchRowSchema>;
 
 /** Sort keys of the list → columns; every sort ends on the batch number (unique per co-op). */
 const LIST_SORT: Record<string, keyof BatchRecord> = {

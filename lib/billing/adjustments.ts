@@ -1,4 +1,6 @@
 import 'server-only';
+import type { adjustmentSchema } from '@/lib/api/dto/billing';
+import type { z } from 'zod';
 import { Op, type InferAttributes } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
@@ -9,16 +11,7 @@ import { assertPeriodOpen, lockCoopBilling } from './locks';
 import { cents } from './cents';
 import { currentPeriod, dateToPeriod, periodToDate } from './periods';
 
-export interface AdjustmentDTO {
-  id: number;
-  memberId: number;
-  memberName: string;
-  amountCents: number;
-  description: string;
-  /** 'YYYY-MM': billed on the member's first invoice for this month or later. */
-  period: string;
-  billedOn: string | null;
-}
+export type AdjustmentDTO = z.infer<typeof adjustmentSchema>;
 
 /**
  * Adds a charge (positive) or credit (negative) to a member's next invoice — the way to correct

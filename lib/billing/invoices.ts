@@ -1,4 +1,6 @@
 import 'server-only';
+import type { periodOverviewSchema } from '@/lib/api/dto/billing';
+import type { z } from 'zod';
 import { col, fn, literal, Op, type Includeable, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import { HttpError, notFound } from '@/lib/http';
 import { BillingPeriod, BillingRun, Coop, Invoice, InvoiceLine, MemberCredit, Membership, Payment, PaymentAttempt, User } from '@/models';
@@ -6,7 +8,7 @@ import { cents } from './cents';
 import { isPeriodClosed } from './locks';
 import { todayIn } from '@/lib/dates';
 import { invoiceLabel, periodToDate } from './periods';
-import { latestRun, type RunDTO } from './run';
+import { latestRun } from './run';
 import type { EmailStatus, InvoiceDetail, InvoiceStatus, InvoiceSummary, MemberBalance, PageOf } from './types';
 import { paymentsOfInvoice } from './payments-read';
 
@@ -182,15 +184,7 @@ export async function memberBalance(coopId: number, membershipId: number, t?: Tr
 }
 
 /** What the month page polls: run progress, counts by status and e-mail state. */
-export interface PeriodOverview {
-  period: string;
-  closed: boolean;
-  closedAt: string | null;
-  run: RunDTO | null;
-  counts: { draft: number; issued: number; partlyPaid: number; paid: number; void: number; creditNotes: number };
-  email: { queued: number; sending: number; sent: number; failed: number; notSent: number };
-  totals: { invoicedCents: number; paidCents: number; outstandingCents: number; draftCents: number };
-}
+export type PeriodOverview = z.infer<typeof periodOverviewSchema>;
 
 /** A month's invoices counted and summed by kind, status and e-mail state (one grouped read). */
 interface InvoiceGroup {

@@ -1,4 +1,6 @@
 import 'server-only';
+import type { runSchema } from '@/lib/api/dto/billing';
+import type { z } from 'zod';
 import type { InferAttributes, Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
@@ -19,18 +21,7 @@ export const RUN_CHUNK = 500;
  */
 const STALE_AFTER_MS = 10 * 60_000;
 
-export interface RunDTO {
-  id: number;
-  period: string;
-  status: 'running' | 'completed' | 'failed' | 'abandoned';
-  totalMembers: number;
-  doneMembers: number;
-  drafts: number;
-  limitedToMembers: number | null;
-  error: string | null;
-  startedAt: string;
-  finishedAt: string | null;
-}
+export type RunDTO = z.infer<typeof runSchema>;
 
 type RunAttributes = InferAttributes<BillingRun>;
 

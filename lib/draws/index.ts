@@ -1,11 +1,11 @@
 import 'server-only';
+import type { drawSchema } from '@/lib/api/dto/tank';
 import { col, fn, Op, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
 import { inTransaction, sqlState } from '@/lib/db';
 import { conflict, forbidden, HttpError, notFound } from '@/lib/http';
-import type { DeclaredUse } from '@/lib/pricing';
 import { policyInForce } from '@/lib/pricing-policy';
 import { priceDraw } from '@/lib/pricing-policy/convert';
 import { expireLapsedReservations } from '@/lib/reservations/expire';
@@ -13,7 +13,7 @@ import { parseInstant, parseWindowEdge } from '@/lib/reservations/window';
 import { lockTank } from '@/lib/tank';
 import { recordMovement } from '@/lib/tank/ledger';
 import { drawShares, type LineageSource } from '@/lib/tank/lineage';
-import { drawBatches, type DrawBatch } from '@/lib/lineage/read';
+import { drawBatches } from '@/lib/lineage/read';
 import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
 import { drawQuantityMilli, type drawCreateSchema, type drawListSchema, type drawReverseSchema } from '@/lib/validation/tank';
@@ -22,37 +22,7 @@ import { nextDrawId } from './queries';
 
 export type DrawStatus = 'recorded' | 'reversed' | 'reversal';
 
-export interface DrawDto {
-  id: number;
-  tankId: number;
-  tankName: string;
-  membershipId: number;
-  memberName: string;
-  reservationId: number | null;
-  quantityLiters: number;
-  /** In the co-op's unit; negative on a reversal. */
-  quantity: number;
-  meterBefore: number | null;
-  meterAfter: number | null;
-  declaredUse: DeclaredUse;
-  vehicle: string | null;
-  unitPriceCentsPerGallon: number;
-  surchargeCentsPerGallon: number;
-  roadTaxCentsPerGallon: number;
-  fuelCents: number;
-  surchargeCents: number;
-  taxCents: number;
-  totalCents: number;
-  costValueCents: number;
-  reversesDrawId: number | null;
-  reversedByDrawId: number | null;
-  reason: string | null;
-  recordedBy: string | null;
-  occurredAt: string;
-  status: DrawStatus;
-  /** The batches the fuel came from (lib/tank/lineage), positive, in the co-op's unit; batch null = unattributed. */
-  batches: DrawBatch[];
-}
+export type DrawDto = z.infer<typeof drawSchema>;
 
 /**
  * Who may record draws: brewers and admins for anyone ('any'); a member for themself only when

@@ -1,4 +1,5 @@
 import 'server-only';
+import type { invitationSchema } from '@/lib/api/dto/members';
 import { col, fn, Op, UniqueConstraintError, where, type IncludeOptions, type InferAttributes, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
@@ -16,13 +17,7 @@ import type { InvitationDelivery } from '@/models/Invitation';
 export type { InvitationDelivery };
 
 /** A pending invitation as the members screen lists it. */
-export type InvitationDto = Pick<InferAttributes<Invitation>, 'id' | 'email' | 'role' | 'delivery'> & {
-  expiresAt: string;
-  createdAt: string;
-  invitedBy: string | null;
-  /** Past its expiry: the link no longer works; resending makes a new one. */
-  expired: boolean;
-};
+export type InvitationDto = z.infer<typeof invitationSchema>;
 
 /** The columns every invitation read needs (never the token hash). */
 const INVITATION_ATTRIBUTES = ['id', 'coopId', 'email', 'role', 'status', 'delivery', 'expiresAt', 'createdAt'] as const satisfies (keyof InferAttributes<Invitation>)[];

@@ -1,4 +1,6 @@
 import 'server-only';
+import type { drawBatchSchema } from '@/lib/api/dto/tank';
+import type { z } from 'zod';
 import { Op, type InferAttributes, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { notFound } from '@/lib/http';
@@ -185,7 +187,7 @@ export async function listTankLayers(actor: Actor, tankId: number) {
 export type TankLayersDto = Awaited<ReturnType<typeof listTankLayers>>;
 
 /** The batches in each of these draws (positive quantities in the co-op's unit), for the draw lists. */
-export type DrawBatch = { batchId: number | null; batchNumber: number | null; ml: number; quantity: number };
+export type DrawBatch = z.infer<typeof drawBatchSchema>;
 export async function drawBatches(coopId: number, units: UnitSystem, drawIds: number[]): Promise<Map<number, DrawBatch[]>> {
   const out = new Map<number, DrawBatch[]>();
   if (drawIds.length === 0) return out;

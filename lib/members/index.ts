@@ -1,4 +1,5 @@
 import 'server-only';
+import type { memberSchema } from '@/lib/api/dto/members';
 import { col, fn, ForeignKeyConstraintError, literal, Op, type InferAttributes, type OrderItem, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
@@ -14,12 +15,7 @@ import type { MembershipStatus } from '@/models/Membership';
 export type { MembershipStatus };
 
 /** One row of the members table. */
-export type MemberDto = Pick<InferAttributes<Membership>, 'id' | 'userId' | 'role' | 'status'> &
-  Pick<InferAttributes<User>, 'name' | 'email'> & {
-    joinedAt: string;
-    /** True for the row of the admin looking at the table. */
-    isYou: boolean;
-  };
+export type MemberDto = z.infer<typeof memberSchema>;
 
 export interface MemberPage {
   rows: MemberDto[];

@@ -1,30 +1,18 @@
 import 'server-only';
+import type { pricePolicySchema } from '@/lib/api/dto/tank';
 import { fn, Op, type InferAttributes, type Order, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { HttpError } from '@/lib/http';
-import type { PricingPolicy } from '@/lib/pricing';
 import { parseInstant } from '@/lib/reservations/window';
 import type { UnitSystem } from '@/lib/units';
 import type { pricingPolicyCreateSchema } from '@/lib/validation/tank';
 import { PricePolicy, User } from '@/models';
 import { describePolicy, perUnitToPerGallonText, policyInUnits, type PolicyRow } from './convert';
 
-export interface PolicyDto {
-  id: number;
-  kind: PricingPolicy['kind'];
-  /** The policy in the co-op's units (cents per gallon or per litre). */
-  policy: PricingPolicy;
-  /** As stored: cents per US gallon. */
-  stored: { priceCentsPerGallon: number | null; marginCentsPerGallon: number | null; marginPct: number | null; surchargeCentsPerGallon: number; roadTaxCentsPerGallon: number };
-  description: string;
-  effectiveFrom: string;
-  createdBy: string | null;
-  createdAt: string;
-  status: 'in-force' | 'scheduled' | 'past';
-}
+export type PolicyDto = z.infer<typeof pricePolicySchema>;
 
 /** A policy as the history reads it, with who set it. */
 type PolicyListRow = Pick<InferAttributes<PricePolicy>,

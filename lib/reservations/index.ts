@@ -1,4 +1,5 @@
 import 'server-only';
+import type { reservationSchema } from '@/lib/api/dto/tank';
 import { fn, Op, type InferAttributes, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
@@ -18,23 +19,7 @@ export { expireLapsedReservations };
 
 export type { ReservationStatus } from '@/models/Reservation';
 
-export interface ReservationDto {
-  id: number;
-  tankId: number;
-  tankName: string;
-  membershipId: number;
-  memberName: string;
-  quantityLiters: number;
-  /** In the co-op's unit. */
-  quantity: number;
-  windowStart: string;
-  windowEnd: string;
-  status: ReservationStatus;
-  closedAt: string | null;
-  createdAt: string;
-  /** The draw that closed it, when drawn. */
-  drawId: number | null;
-}
+export type ReservationDto = z.infer<typeof reservationSchema>;
 
 /** The 409 body when a tank cannot cover a request: how much is available, in litres and co-op units. */
 function notEnough(actor: Actor, tankName: string, requestedMl: number, availableMl: number) {

@@ -1,4 +1,6 @@
 import 'server-only';
+import type { chemicalLotSchema, oilLotSchema } from '@/lib/api/dto/brewing';
+import type { z } from 'zod';
 import { col, fn, literal, Op, where, type FindAttributeOptions, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
@@ -15,37 +17,10 @@ export type { ChemicalKind } from '@/models/ChemicalLot';
 import type { ChemicalKind } from '@/models/ChemicalLot';
 
 /** A chemical lot as shown and sent: quantities in the lot's unit (L for methanol, g for catalysts). */
-export interface ChemicalLotDto {
-  id: number;
-  kind: ChemicalKind;
-  description: string | null;
-  supplier: string;
-  receivedOn: string;
-  unit: 'L' | 'g';
-  quantity: number;
-  remaining: number;
-  consumed: number;
-  totalCostCents: number;
-  purityPct: number | null;
-  hasSafetyDataSheet: boolean;
-  safetyDataSheetName: string | null;
-  notes: string | null;
-}
+export type ChemicalLotDto = z.infer<typeof chemicalLotSchema>;
 
 /** An oil lot with what batches have taken from it. */
-export interface OilLotDto {
-  id: number;
-  collectedFrom: string;
-  collectedOn: string;
-  volumeLiters: number;
-  usedLiters: number;
-  remainingLiters: number;
-  costCents: number;
-  waterNotes: string | null;
-  solidsNotes: string | null;
-  titrationMl: number | null;
-  titrant: 'KOH' | 'NaOH' | null;
-}
+export type OilLotDto = z.infer<typeof oilLotSchema>;
 
 export interface Paged<T> {
   rows: T[];

@@ -1,5 +1,7 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { stockLineSchema, stockSummarySchema } from '@/lib/api/dto/brewing';
 import type { Actor } from '@/lib/auth';
 import type { BatchStatus } from '@/models/Batch';
 import { stockPicture } from './queries';
@@ -8,27 +10,9 @@ import { stockPicture } from './queries';
 // planned batch needs, and the summary the supplies page, the planner and the overview show.
 
 /** Stock of one chemical: what the lots hold, what batches under way will take, what is free. */
-export interface StockLine {
-  kind: 'methanol' | 'KOH' | 'NaOH';
-  unit: 'L' | 'g';
-  /** Sum of what the lots still hold (received − consumed by released or rejected batches). */
-  onHand: number;
-  /** Planned amounts of batches already under way (reacting … testing): in the reactor, not yet written off. */
-  committed: number;
-  /** onHand − committed. */
-  available: number;
-  /** How many lots hold it (read as totals, one). */
-  lotsWithStock: number;
-  /** What the next planned batch needs of this chemical (null when there is none or it uses the other catalyst). */
-  nextPlannedNeed: number | null;
-  /** True when the available stock won't cover the next planned batch. */
-  low: boolean;
-}
+export type StockLine = z.infer<typeof stockLineSchema>;
 
-export interface StockSummary {
-  lines: StockLine[];
-  nextPlannedBatch: { id: number; number: number; catalyst: 'KOH' | 'NaOH' } | null;
-}
+export type StockSummary = z.infer<typeof stockSummarySchema>;
 
 /** The chemicals the stock check follows (in the lots' units: L of methanol, g of catalyst). */
 const STOCKED: HeldLot['kind'][] = ['methanol', 'KOH', 'NaOH'];

@@ -1,4 +1,5 @@
 import 'server-only';
+import type { dipResultSchema, movementSchema, tankSchema } from '@/lib/api/dto/tank';
 import { literal, UniqueConstraintError, type InferAttributes, type Order, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
@@ -10,42 +11,13 @@ import { expireLapsedReservations } from '@/lib/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { dipCreateSchema, movementListSchema, tankCreateSchema, tankUpdateSchema, transferCreateSchema } from '@/lib/validation/tank';
 import { Coop, DipReading, Draw, Membership, Tank, TankMovement, User } from '@/models';
-import type { TankMixing } from '@/models/Tank';
 import { recordMovement, type MovementKind } from './ledger';
 import { refreshHeld } from './lineage';
 import { litersToMl, mlToLiters } from './quantity';
 import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from './volume';
 
 /** A tank as the screens and JSON see it: litres as stored, and the same in the co-op's unit. */
-export interface TankDto {
-  id: number;
-  name: string;
-  active: boolean;
-  units: UnitSystem;
-  capacityLiters: number;
-  onHandLiters: number;
-  /** Open reservations whose window has not ended. */
-  reservedLiters: number;
-  /** Held while a batch in the tank is under review (not reservable, drawable or movable). */
-  heldLiters: number;
-  /** On hand − reserved − held, never below zero. */
-  availableLiters: number;
-  /** In the co-op's unit (US gallons or litres), 3 decimals; available is rounded down. */
-  capacity: number;
-  onHand: number;
-  reserved: number;
-  held: number;
-  available: number;
-  /** 'mixed' (a draw takes every batch in proportion) or 'fifo' (oldest fuel first). */
-  mixing: TankMixing;
-  /** Stock value at moving weighted-average cost, cents. */
-  valueCents: number;
-  /** value ÷ on hand, cents per US gallon (2 decimals), null when the tank is empty. */
-  avgCostCentsPerGallon: number | null;
-  /** The same per co-op unit (gallon or litre), null when empty. */
-  avgCostCentsPerUnit: number | null;
-  lastDipAt: string | null;
-}
+export type TankDto = z.infer<typeof tankSchema>;
 
 /**
  * A tank row as the list reads it: the stored totals, plus the litres of its reservations that
@@ -210,14 +182,7 @@ export async function lockTank(coopId: number, tankId: number, transaction: Tran
   return row;
 }
 
-export interface DipResult {
-  tank: TankDto;
-  dipReadingId: number;
-  /** Measured − book, millilitres and in the co-op's unit; 0 when the reading matched. */
-  differenceLiters: number;
-  difference: number;
-  movementId: string | null;
-}
+export type DipResult = z.infer<typeof dipResultSchema>;
 
 /**
  * Records a dip reading: the measured volume against the book figure. A difference becomes one
@@ -323,24 +288,7 @@ export async function transferFuel(actor: Actor, input: z.infer<typeof transferC
   return { from: await getTank(actor, input.fromTankId), to: await getTank(actor, input.toTankId) };
 }
 
-export interface MovementDto {
-  id: string;
-  kind: MovementKind;
-  quantityLiters: number;
-  /** Signed, in the co-op's unit. */
-  quantity: number;
-  valueCents: number;
-  onHandAfterLiters: number;
-  onHandAfter: number;
-  valueAfterCents: number;
-  reason: string | null;
-  batchId: number | null;
-  drawId: number | null;
-  memberName: string | null;
-  transferTankName: string | null;
-  byName: string | null;
-  occurredAt: string;
-}
+export type MovementDto = z.infer<typeof movementSchema>;
 
 /** A ledger row as the list reads it (raw, nested includes). */
 type MovementListRow = Pick<InferAttributes<TankMovement>,

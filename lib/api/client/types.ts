@@ -775,7 +775,6 @@ export interface components {
       /** @description Recorded at most once an hour */
       lastUsedAt: string | null;
       revokedAt: string | null;
-      [key: string]: unknown;
     };
     Profile: {
       id: number;
@@ -807,18 +806,23 @@ export interface components {
       email: string;
       /** @description ISO 8601 date-time */
       joinedAt: string;
+      /** @description The row of the admin looking at the table */
       isYou: boolean;
-      [key: string]: unknown;
     };
     Invitation: {
       id: number;
       email: string;
       /** @enum {string} */
       role: "admin" | "treasurer" | "brewer" | "member";
-      delivery: string;
+      /** @enum {string} */
+      delivery: "queued" | "sent" | "not-sent";
       /** @description ISO 8601 date-time */
-      expiresAt?: string;
-      [key: string]: unknown;
+      expiresAt: string;
+      /** @description ISO 8601 date-time */
+      createdAt: string;
+      invitedBy: string | null;
+      /** @description Past its expiry: the link no longer works; resending makes a new one */
+      expired: boolean;
     };
     Tank: {
       id: number;
@@ -828,10 +832,13 @@ export interface components {
       units: "us" | "metric";
       capacityLiters: number;
       onHandLiters: number;
+      /** @description Open reservations whose window has not ended. */
       reservedLiters: number;
       /** @description Held while a batch in the tank is under review (not reservable, drawable or movable). */
       heldLiters: number;
+      /** @description On hand − reserved − held, never below zero. */
       availableLiters: number;
+      /** @description In the co-op's unit (US gallons or litres), 3 decimals; available is rounded down. */
       capacity: number;
       onHand: number;
       reserved: number;
@@ -842,35 +849,74 @@ export interface components {
        * @enum {string}
        */
       mixing: "mixed" | "fifo";
+      /** @description Stock value at moving weighted-average cost. */
       valueCents: number;
+      /** @description value ÷ on hand per US gallon (2 decimals), null when empty. */
       avgCostCentsPerGallon: number | null;
+      /** @description The same per co-op unit, null when empty. */
       avgCostCentsPerUnit: number | null;
       lastDipAt: string | null;
     };
     TankMovement: {
       id: string;
-      kind: string;
+      /** @enum {string} */
+      kind: "release" | "draw" | "draw-reversal" | "dip-adjustment" | "transfer-in" | "transfer-out" | "opening" | "disposal" | "retreat";
       quantityLiters: number;
+      /** @description Signed, in the co-op's unit. */
       quantity: number;
       valueCents: number;
       onHandAfterLiters: number;
       onHandAfter: number;
+      valueAfterCents: number;
+      reason: string | null;
+      batchId: number | null;
+      drawId: number | null;
+      memberName: string | null;
+      transferTankName: string | null;
+      byName: string | null;
       /** @description ISO 8601 date-time */
       occurredAt: string;
-      [key: string]: unknown;
     };
     PricePolicy: {
       id: number;
       /** @enum {string} */
       kind: "fixed" | "cost-plus-amount" | "cost-plus-percent";
+      /** @description In the co-op's units (cents per gallon or per litre). */
+      policy: {
+        /** @constant */
+        kind: "fixed";
+        priceCents: number;
+        surchargeCentsPerGallon?: number;
+        roadTaxCentsPerGallon?: number;
+      } | {
+        /** @constant */
+        kind: "cost-plus-amount";
+        marginCents: number;
+        surchargeCentsPerGallon?: number;
+        roadTaxCentsPerGallon?: number;
+      } | {
+        /** @constant */
+        kind: "cost-plus-percent";
+        marginPct: number;
+        surchargeCentsPerGallon?: number;
+        roadTaxCentsPerGallon?: number;
+      };
+      /** @description As stored: cents per US gallon. */
+      stored: {
+        priceCentsPerGallon: number | null;
+        marginCentsPerGallon: number | null;
+        marginPct: number | null;
+        surchargeCentsPerGallon: number;
+        roadTaxCentsPerGallon: number;
+      };
       description: string;
       /** @description ISO 8601 date-time */
       effectiveFrom: string;
+      createdBy: string | null;
       /** @description ISO 8601 date-time */
       createdAt: string;
       /** @enum {string} */
       status: "in-force" | "scheduled" | "past";
-      [key: string]: unknown;
     };
     Reservation: {
       id: number;
@@ -879,6 +925,7 @@ export interface components {
       membershipId: number;
       memberName: string;
       quantityLiters: number;
+      /** @description In the co-op's unit. */
       quantity: number;
       /** @description ISO 8601 date-time */
       windowStart: string;
@@ -889,8 +936,8 @@ export interface components {
       closedAt: string | null;
       /** @description ISO 8601 date-time */
       createdAt: string;
+      /** @description The draw that closed it, when drawn. */
       drawId: number | null;
-      [key: string]: unknown;
     };
     Draw: {
       id: number;
@@ -900,36 +947,58 @@ export interface components {
       memberName: string;
       reservationId: number | null;
       quantityLiters: number;
+      /** @description In the co-op's unit; negative on a reversal. */
       quantity: number;
-      declaredUse: string;
+      meterBefore: number | null;
+      meterAfter: number | null;
+      /** @enum {string} */
+      declaredUse: "road" | "off-road" | "heating";
       vehicle: string | null;
       unitPriceCentsPerGallon: number;
+      surchargeCentsPerGallon: number;
+      roadTaxCentsPerGallon: number;
       fuelCents: number;
       surchargeCents: number;
       taxCents: number;
       totalCents: number;
+      costValueCents: number;
       reversesDrawId: number | null;
       reversedByDrawId: number | null;
+      reason: string | null;
+      recordedBy: string | null;
       /** @description ISO 8601 date-time */
       occurredAt: string;
       /** @enum {string} */
       status: "recorded" | "reversed" | "reversal";
-      [key: string]: unknown;
+      /** @description The batches the fuel came from, in the co-op's unit; batch null = unattributed. */
+      batches: ({
+          batchId: number | null;
+          batchNumber: number | null;
+          ml: number;
+          quantity: number;
+        })[];
     };
     ChemicalLot: {
       id: number;
-      kind: string;
+      /** @enum {string} */
+      kind: "methanol" | "KOH" | "NaOH" | "other";
+      description: string | null;
       supplier: string;
       /** @description YYYY-MM-DD */
       receivedOn: string;
-      /** @enum {string} */
+      /**
+       * @description L for methanol, g for catalysts
+       * @enum {string}
+       */
       unit: "L" | "g";
       quantity: number;
       remaining: number;
+      consumed: number;
       totalCostCents: number;
       purityPct: number | null;
       hasSafetyDataSheet: boolean;
-      [key: string]: unknown;
+      safetyDataSheetName: string | null;
+      notes: string | null;
     };
     OilLot: {
       id: number;
@@ -940,18 +1009,58 @@ export interface components {
       usedLiters: number;
       remainingLiters: number;
       costCents: number;
+      waterNotes: string | null;
+      solidsNotes: string | null;
       titrationMl: number | null;
-      [key: string]: unknown;
+      titrant: ("KOH" | "NaOH") | null;
+    };
+    StockSummary: {
+      lines: components["schemas"]["StockLine"][];
+      nextPlannedBatch: ({
+        id: number;
+        number: number;
+        /** @enum {string} */
+        catalyst: "KOH" | "NaOH";
+      }) | null;
+    };
+    StockLine: {
+      /** @enum {string} */
+      kind: "methanol" | "KOH" | "NaOH";
+      /** @enum {string} */
+      unit: "L" | "g";
+      /** @description Received − consumed by released or rejected batches */
+      onHand: number;
+      /** @description Planned amounts of batches under way (reacting … testing) */
+      committed: number;
+      /** @description onHand − committed */
+      available: number;
+      lotsWithStock: number;
+      /** @description What the next planned batch needs of this chemical */
+      nextPlannedNeed: number | null;
+      /** @description The available stock won't cover the next planned batch */
+      low: boolean;
     };
     BatchRow: {
       id: number;
       number: number;
-      status: string;
+      /** @enum {string} */
+      status: "planned" | "reacting" | "settling" | "draining" | "washing" | "drying" | "testing" | "released" | "rejected";
       /** @description YYYY-MM-DD */
       batchDate: string;
       oilLiters: number;
       releasedLiters: number | null;
-      [key: string]: unknown;
+      costPerGallonCents: number | null;
+      costPerLiterCents: number | null;
+      /** @enum {string} */
+      qualityStandard: "ASTM D6751" | "EN 14214";
+      /** @enum {string} */
+      qualityVerdict: "pass" | "fail" | "incomplete";
+      /** @description "Meets …", "Fails: …" or "Screened — n of m …" */
+      qualityText: string;
+      /** @enum {string} */
+      qualityKind: "meets" | "fails" | "screened";
+      /** @enum {string} */
+      screeningVerdict: "looks-good" | "needs-attention" | "incomplete";
     };
     /** @description A batch: recipe, steps, temperatures, quality, costs (brewers and admins see every field; others a released batch's summary). */
     Batch: {
@@ -974,17 +1083,46 @@ export interface components {
     };
     BillingRun: {
       id: number;
+      /** @description YYYY-MM */
       period: string;
       /** @enum {string} */
       status: "running" | "completed" | "failed" | "abandoned";
       totalMembers: number;
       doneMembers: number;
       drafts: number;
+      limitedToMembers: number | null;
       error: string | null;
       /** @description ISO 8601 date-time */
       startedAt: string;
       finishedAt: string | null;
-      [key: string]: unknown;
+    };
+    PeriodOverview: {
+      /** @description YYYY-MM */
+      period: string;
+      closed: boolean;
+      closedAt: string | null;
+      run: components["schemas"]["BillingRun"] | null;
+      counts: {
+        draft: number;
+        issued: number;
+        partlyPaid: number;
+        paid: number;
+        void: number;
+        creditNotes: number;
+      };
+      email: {
+        queued: number;
+        sending: number;
+        sent: number;
+        failed: number;
+        notSent: number;
+      };
+      totals: {
+        invoicedCents: number;
+        paidCents: number;
+        outstandingCents: number;
+        draftCents: number;
+      };
     };
     /** @description Invoices due / paid / outstanding, money received and where it went, unmatched payments, checks, and what blocks closing. */
     Reconciliation: {
@@ -992,50 +1130,89 @@ export interface components {
     };
     InvoiceSummary: {
       id: number;
-      kind: string;
+      /** @enum {string} */
+      kind: "invoice" | "credit-note";
       number: number | null;
+      /** @description INV-000012, CN-000013, or null for a draft */
       label: string | null;
-      /** @description draft, issued, paid, void … */
-      status: string;
+      /** @enum {string} */
+      status: "draft" | "issued" | "partly-paid" | "paid" | "void";
+      /** @description YYYY-MM */
       period: string;
       memberId: number;
       memberName: string;
+      memberEmail: string;
       totalCents: number;
       paidCents: number;
       outstandingCents: number;
       issuedAt: string | null;
       dueOn: string | null;
       overdue: boolean;
-      emailStatus: string;
-      [key: string]: unknown;
+      /** @enum {string} */
+      emailStatus: "not-sent" | "queued" | "sending" | "sent" | "failed";
+      creditNoteForId: number | null;
+      creditNoteId: number | null;
     };
     InvoiceDetail: {
       id: number;
-      kind: string;
+      /** @enum {string} */
+      kind: "invoice" | "credit-note";
       number: number | null;
+      /** @description INV-000012, CN-000013, or null for a draft */
       label: string | null;
-      /** @description draft, issued, paid, void … */
-      status: string;
+      /** @enum {string} */
+      status: "draft" | "issued" | "partly-paid" | "paid" | "void";
+      /** @description YYYY-MM */
       period: string;
       memberId: number;
       memberName: string;
+      memberEmail: string;
       totalCents: number;
       paidCents: number;
       outstandingCents: number;
       issuedAt: string | null;
       dueOn: string | null;
       overdue: boolean;
-      emailStatus: string;
-      lines: {
-          id: string;
-          kind: string;
-          description: string;
-          amountCents: number;
-          [key: string]: unknown;
-        }[];
+      /** @enum {string} */
+      emailStatus: "not-sent" | "queued" | "sending" | "sent" | "failed";
+      creditNoteForId: number | null;
+      creditNoteId: number | null;
+      lines: components["schemas"]["InvoiceLine"][];
       payments: components["schemas"]["Payment"][];
+      pendingAttempt: {
+        id: number;
+        /** @description ISO 8601 date-time */
+        createdAt: string;
+      } | null;
+      lastFailedAttempt: {
+        message: string;
+        /** @description ISO 8601 date-time */
+        at: string;
+      } | null;
+      voidReason: string | null;
+      voidedAt: string | null;
+      creditNote: ({
+        id: number;
+        label: string | null;
+      }) | null;
+      original: ({
+        id: number;
+        label: string | null;
+      }) | null;
       periodClosed: boolean;
-      [key: string]: unknown;
+      emailedAt: string | null;
+      emailAttempts: number;
+    };
+    InvoiceLine: {
+      id: string;
+      /** @enum {string} */
+      kind: "draw" | "draw-reversal" | "dues" | "surcharge" | "road-tax" | "adjustment" | "credit";
+      description: string;
+      occurredAt: string | null;
+      /** @description Negative on reversals */
+      quantityLiters: number | null;
+      unitPriceCentsPerGallon: number | null;
+      amountCents: number;
     };
     Payment: {
       id: number;
@@ -1044,16 +1221,23 @@ export interface components {
       memberId: number;
       memberName: string;
       invoiceId: number | null;
+      invoiceLabel: string | null;
+      invoicePeriod: string | null;
       amountCents: number;
       appliedCents: number;
       creditedCents: number;
       unallocatedCents: number;
       refundedCents: number;
+      /** @description The unmatched part plus this payment's share of the member's credit */
       refundableCents: number;
+      /** @description YYYY-MM-DD */
       receivedOn: string;
+      /** @description YYYY-MM */
       period: string;
+      reference: string | null;
+      note: string | null;
+      periodClosed: boolean;
       refunds: components["schemas"]["Refund"][];
-      [key: string]: unknown;
     };
     Refund: {
       id: number;
@@ -1061,8 +1245,9 @@ export interface components {
       /** @enum {string} */
       status: "pending" | "succeeded" | "failed";
       reason: string;
+      /** @description YYYY-MM-DD */
       refundedOn: string;
-      [key: string]: unknown;
+      failureMessage: string | null;
     };
     Adjustment: {
       id: number;
@@ -1070,15 +1255,18 @@ export interface components {
       memberName: string;
       amountCents: number;
       description: string;
+      /** @description Billed on the member's first invoice for this month or later */
       period: string;
+      /** @description The month of the invoice that billed it */
       billedOn: string | null;
-      [key: string]: unknown;
     };
     MemberBalance: {
+      /** @description Unpaid amounts of issued invoices */
       outstandingCents: number;
+      /** @description Credit held for the member, applied to the next invoice */
       creditCents: number;
+      /** @description Payments received but not matched to an invoice yet */
       unallocatedCents: number;
-      [key: string]: unknown;
     };
     /** @description One import: who, when, file name, row counts and each row's fate (invitations: delivery per row). */
     Import: {
@@ -1526,7 +1714,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -1660,7 +1847,6 @@ export interface operations {
         content: {
           "application/json": {
             tokens: components["schemas"]["ApiToken"][];
-            [key: string]: unknown;
           };
         };
       };
@@ -1726,7 +1912,6 @@ export interface operations {
             token: components["schemas"]["ApiToken"];
             /** @description tvt_… — store it now; only its SHA-256 is kept */
             secret: string;
-            [key: string]: unknown;
           };
         };
       };
@@ -2975,7 +3160,6 @@ export interface operations {
             page: number;
             pageSize: number;
             activeAdmins: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -3213,7 +3397,6 @@ export interface operations {
         content: {
           "application/json": {
             invitations: components["schemas"]["Invitation"][];
-            [key: string]: unknown;
           };
         };
       };
@@ -3278,7 +3461,6 @@ export interface operations {
             invitation: components["schemas"]["Invitation"];
             /** @constant */
             queued: true;
-            [key: string]: unknown;
           };
         };
       };
@@ -3365,7 +3547,6 @@ export interface operations {
             invitation: components["schemas"]["Invitation"];
             /** @constant */
             queued: true;
-            [key: string]: unknown;
           };
         };
       };
@@ -3537,7 +3718,6 @@ export interface operations {
             tanks: components["schemas"]["Tank"][];
             /** @enum {string} */
             units: "us" | "metric";
-            [key: string]: unknown;
           };
         };
       };
@@ -3835,7 +4015,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -3906,10 +4085,10 @@ export interface operations {
           "application/json": {
             tank: components["schemas"]["Tank"];
             dipReadingId: number;
+            /** @description Measured − book; 0 when the reading matched. */
             differenceLiters: number;
             difference: number;
             movementId: string | null;
-            [key: string]: unknown;
           };
         };
       };
@@ -4003,7 +4182,6 @@ export interface operations {
           "application/json": {
             from: components["schemas"]["Tank"];
             to: components["schemas"]["Tank"];
-            [key: string]: unknown;
           };
         };
       };
@@ -4089,7 +4267,6 @@ export interface operations {
             policies: components["schemas"]["PricePolicy"][];
             /** @enum {string} */
             units: "us" | "metric";
-            [key: string]: unknown;
           };
         };
       };
@@ -4250,7 +4427,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -4500,9 +4676,7 @@ export interface operations {
               quantityLiters: number;
               quantity: number;
               totalCents: number;
-              [key: string]: unknown;
             };
-            [key: string]: unknown;
           };
         };
       };
@@ -4756,7 +4930,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -5064,7 +5237,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -5216,23 +5388,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            lines: {
-                kind: string;
-                unit: string;
-                onHand: number;
-                committed: number;
-                available: number;
-                low: boolean;
-                [key: string]: unknown;
-              }[];
-            nextPlannedBatch: {
-              id: number;
-              number: number;
-              [key: string]: unknown;
-            } | null;
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["StockSummary"];
         };
       };
       /** @description Not signed in, or the access token is missing, unknown or revoked. */
@@ -5403,7 +5559,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -6880,7 +7035,6 @@ export interface operations {
             run: components["schemas"]["BillingRun"];
             /** @constant */
             started: false;
-            [key: string]: unknown;
           };
         };
       };
@@ -6891,7 +7045,6 @@ export interface operations {
             run: components["schemas"]["BillingRun"];
             /** @constant */
             started: true;
-            [key: string]: unknown;
           };
         };
       };
@@ -6976,7 +7129,6 @@ export interface operations {
         content: {
           "application/json": {
             run: components["schemas"]["BillingRun"];
-            [key: string]: unknown;
           };
         };
       };
@@ -7029,22 +7181,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            period: string;
-            closed: boolean;
-            closedAt: string | null;
-            run: components["schemas"]["BillingRun"] | null;
-            counts: {
-              [key: string]: unknown;
-            };
-            email: {
-              [key: string]: unknown;
-            };
-            totals: {
-              [key: string]: unknown;
-            };
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["PeriodOverview"];
         };
       };
       /** @description Not signed in, or the access token is missing, unknown or revoked. */
@@ -7492,7 +7629,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -7848,7 +7984,6 @@ export interface operations {
             total: number;
             page: number;
             pageSize: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -8262,7 +8397,6 @@ export interface operations {
         content: {
           "application/json": {
             adjustments: components["schemas"]["Adjustment"][];
-            [key: string]: unknown;
           };
         };
       };
@@ -8417,7 +8551,6 @@ export interface operations {
             page: number;
             pageSize: number;
             balance: components["schemas"]["MemberBalance"];
-            [key: string]: unknown;
           };
         };
       };

@@ -14,7 +14,7 @@ import {
   refundCreateSchema,
 } from '@/lib/validation/billing';
 import { operation } from '../operation';
-import { adjustmentSchema, balanceSchema, invoiceDetailSchema, invoiceSummarySchema, pageOf, paymentSchema, reconciliationSchema, runSchema } from '../schemas';
+import { adjustmentSchema, balanceSchema, invoiceDetailSchema, invoiceSummarySchema, pageOf, paymentSchema, periodOverviewSchema, reconciliationSchema, runSchema } from '../schemas';
 
 // Monthly billing (treasurers and admins) and members' own invoices.
 
@@ -26,15 +26,15 @@ const closed = { 409: 'The month is closed.' };
 const pdf = { file: 'application/pdf' } as const;
 
 export const operations = [
-  operation({ method: 'POST', path: '/api/coops/[coop]/billing/runs', summary: 'Build a month\'s draft invoices (in the background)', access: manage, body: billingRunCreateSchema, responses: { 202: z.looseObject({ run: runSchema, started: z.literal(true) }), 200: z.looseObject({ run: runSchema, started: z.literal(false) }) }, errors: closed, tags }),
-  operation({ method: 'GET', path: '/api/coops/[coop]/billing/runs/[id]', summary: 'A run\'s progress', access: manage, responses: { 200: z.looseObject({ run: runSchema }) }, tags }),
+  operation({ method: 'POST', path: '/api/coops/[coop]/billing/runs', summary: 'Build a month\'s draft invoices (in the background)', access: manage, body: billingRunCreateSchema, responses: { 202: z.object({ run: runSchema, started: z.literal(true) }), 200: z.object({ run: runSchema, started: z.literal(false) }) }, errors: closed, tags }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/billing/runs/[id]', summary: 'A run\'s progress', access: manage, responses: { 200: z.object({ run: runSchema }) }, tags }),
   operation({
     method: 'GET',
     path: '/api/coops/[coop]/billing/periods/[period]',
     summary: 'The month at a glance',
     access: manage,
     params: period,
-    responses: { 200: z.looseObject({ period: z.string(), closed: z.boolean(), closedAt: z.string().nullable(), run: runSchema.nullable(), counts: z.looseObject({}), email: z.looseObject({}), totals: z.looseObject({}) }) },
+    responses: { 200: periodOverviewSchema },
     tags,
   }),
   operation({ method: 'POST', path: '/api/coops/[coop]/billing/periods/[period]/issue', summary: 'Issue every draft of the month', access: manage, params: period, body: invoicesIssueSchema, responses: { 200: z.looseObject({ issued: z.number().int(), firstNumber: z.string().nullable(), lastNumber: z.string().nullable() }) }, errors: { 409: 'No drafts, a run is live, or the month is closed.' }, tags }),
@@ -52,7 +52,7 @@ export const operations = [
   operation({ method: 'POST', path: '/api/coops/[coop]/billing/payments/[id]/match', summary: 'Match a payment to an invoice, or hold it as credit', access: manage, body: paymentMatchSchema, responses: { 200: paymentSchema }, errors: closed, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/billing/payments/[id]/refunds', summary: 'Refund part of a payment', access: manage, body: refundCreateSchema, responses: { 201: paymentSchema }, errors: { 409: 'More than can be refunded, or a closed month.', 503: 'The payment service is unreachable (retry is safe).' }, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/billing/refunds/[id]/retry', summary: 'Send a pending card refund again', access: manage, responses: { 200: paymentSchema }, errors: { 409: 'Not pending.' }, tags }),
-  operation({ method: 'GET', path: '/api/coops/[coop]/billing/adjustments', summary: 'Adjustments not billed yet', access: manage, responses: { 200: z.looseObject({ adjustments: z.array(adjustmentSchema) }) }, tags }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/billing/adjustments', summary: 'Adjustments not billed yet', access: manage, responses: { 200: z.object({ adjustments: z.array(adjustmentSchema) }) }, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/billing/adjustments', summary: 'Add a credit or charge to a member\'s next invoice', access: manage, body: adjustmentCreateSchema, responses: { 201: adjustmentSchema }, errors: closed, tags }),
   operation({ method: 'GET', path: '/api/coops/[coop]/invoices', summary: 'My issued invoices and balance', access: own, query: invoiceListQuerySchema, responses: { 200: pageOf(invoiceSummarySchema).extend({ balance: balanceSchema }) }, tags }),
   operation({ method: 'GET', path: '/api/coops/[coop]/invoices/[id]', summary: 'One of my invoices', access: own, responses: { 200: invoiceDetailSchema }, tags }),

@@ -14,7 +14,7 @@ import {
   temperatureCreateSchema,
 } from '@/lib/validation/brewing';
 import { operation } from '../operation';
-import { batchRowSchema, batchSchema, chemicalLotSchema, oilLotSchema, pageOf, temperatureSchema } from '../schemas';
+import { batchRowSchema, batchSchema, chemicalLotSchema, oilLotSchema, pageOf, stockSummarySchema, temperatureSchema } from '../schemas';
 
 // Brewing: supplies, the planner and batches.
 
@@ -34,7 +34,7 @@ export const operations = [
     path: '/api/coops/[coop]/supplies/stock',
     summary: 'Chemical stock on hand, committed and available',
     access: { action: 'supplies:read' },
-    responses: { 200: z.looseObject({ lines: z.array(z.looseObject({ kind: z.string(), unit: z.string(), onHand: z.number(), committed: z.number(), available: z.number(), low: z.boolean() })), nextPlannedBatch: z.looseObject({ id: z.number().int(), number: z.number().int() }).nullable() }) },
+    responses: { 200: stockSummarySchema },
     tags,
   }),
   operation({ method: 'POST', path: '/api/coops/[coop]/planner', summary: 'Plan a batch: methanol, catalyst and costs for an oil volume (writes nothing)', access: { action: 'batches:write' }, body: plannerSchema, responses: { 200: z.looseObject({}) }, tags }),

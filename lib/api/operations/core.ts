@@ -35,7 +35,7 @@ export const operations = [
     description: 'With `format=csv` a text/csv attachment, with `format=pdf` a PDF.',
     tags: ['Reports'],
   }),
-  operation({ method: 'GET', path: '/api/coops/[coop]/tokens', summary: 'The co-op\'s personal access tokens (never the token itself)', access: { action: 'tokens:manage', note: 'from a signed-in session' }, responses: { 200: z.looseObject({ tokens: z.array(apiTokenSchema) }) }, tags: ['Access tokens'] }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/tokens', summary: 'The co-op\'s personal access tokens (never the token itself)', access: { action: 'tokens:manage', note: 'from a signed-in session' }, responses: { 200: z.object({ tokens: z.array(apiTokenSchema) }) }, tags: ['Access tokens'] }),
   operation({
     method: 'POST',
     path: '/api/coops/[coop]/tokens',
@@ -43,7 +43,7 @@ export const operations = [
     description: 'The token acts in this co-op only, with its creator\'s current role; `read` tokens may only GET. Send it as `Authorization: Bearer <secret>`.',
     access: { action: 'tokens:manage', note: 'from a signed-in session' },
     body: apiTokenCreateSchema,
-    responses: { 201: z.looseObject({ token: apiTokenSchema, secret: z.string().describe('tvt_… — store it now; only its SHA-256 is kept') }) },
+    responses: { 201: z.object({ token: apiTokenSchema, secret: z.string().describe('tvt_… — store it now; only its SHA-256 is kept') }) },
     tags: ['Access tokens'],
   }),
   operation({ method: 'DELETE', path: '/api/coops/[coop]/tokens/[id]', summary: 'Revoke a token', access: { action: 'tokens:manage', note: 'from a signed-in session' }, responses: { 200: apiTokenSchema }, errors: { 409: 'Already revoked.' }, tags: ['Access tokens'] }),

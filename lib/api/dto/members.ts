@@ -1,0 +1,39 @@
+import { z } from 'zod';
+import { ROLES } from '@/models/vocabulary';
+import { date, int, str } from './common';
+
+// Members, invitations and access tokens as the API sends them; lib/members', lib/invitations'
+// and lib/api-tokens' DTO types are inferred from these (one definition).
+
+export const role = z.enum(ROLES);
+export const membershipStatus = z.enum(['active', 'suspended']);
+
+export const memberSchema = z
+  .object({ id: int(), userId: int(), role, status: membershipStatus, name: str(), email: str(), joinedAt: date(), isYou: z.boolean().describe('The row of the admin looking at the table') })
+  .meta({ id: 'Member' });
+
+export const apiTokenSchema = z
+  .object({
+    id: int(),
+    name: str(),
+    access: z.enum(['read', 'write']),
+    prefix: str().describe('The first characters of the token, to recognise it'),
+    createdBy: str().nullable(),
+    createdAt: date(),
+    lastUsedAt: date().nullable().describe('Recorded at most once an hour'),
+    revokedAt: date().nullable(),
+  })
+  .meta({ id: 'ApiToken' });
+
+export const invitationSchema = z
+  .object({
+    id: int(),
+    email: str(),
+    role,
+    delivery: z.enum(['queued', 'sent', 'not-sent']),
+    expiresAt: date(),
+    createdAt: date(),
+    invitedBy: str().nullable(),
+    expired: z.boolean().describe('Past its expiry: the link no longer works; resending makes a new one'),
+  })
+  .meta({ id: 'Invitation' });
