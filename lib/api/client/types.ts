@@ -1044,7 +1044,7 @@ export interface components {
       id: number;
       number: number;
       /** @enum {string} */
-      status: "planned" | "reacting" | "settling" | "draining" | "washing" | "drying" | "testing" | "released" | "rejected";
+      status: "planned" | "reacting" | "settling" | "draining" | "washing" | "drying" | "testing" | "released" | "rejected" | "imported";
       /** @description YYYY-MM-DD */
       batchDate: string;
       oilLiters: number;
