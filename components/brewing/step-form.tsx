@@ -1,12 +1,12 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField, FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
-import { hasUnsaved, markClean, markDirty } from './unsaved';
+import { markClean, useUnsavedForm } from './unsaved';
 
 /** One input of a step form. Values are sent as typed; the server parses and converts units. */
 export interface StepField {
@@ -33,8 +33,8 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
   const { busy, fields: errors, message, submit } = useApiForm();
   const router = useRouter();
   const [dirty, setDirty] = useState(false);
-  const formRef = useRef<HTMLFormElement>(null);
-  const id = useId();
+  // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
+  const { id, formRef } = useUnsavedForm(dirty, save);
 
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -60,21 +60,6 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
     }
     return Boolean(ok);
   }
-
-  // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
-  useEffect(() => {
-    if (!dirty) {
-      markClean(id);
-      return;
-    }
-    markDirty(id, () => (formRef.current ? save(formRef.current) : Promise.resolve(true)));
-    const warn = (e: BeforeUnloadEvent) => {
-      if (hasUnsaved()) e.preventDefault();
-    };
-    window.addEventListener('beforeunload', warn);
-    return () => window.removeEventListener('beforeunload', warn);
-  });
-  useEffect(() => () => markClean(id), [id]);
 
   const formErrors = errors._form;
   return (

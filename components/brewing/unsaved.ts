@@ -1,5 +1,7 @@
 'use client';
 
+import { useEffect, useId, useRef } from 'react';
+
 /**
  * Forms on the batch page with typed values not yet saved. Moving a batch on (or releasing it)
  * saves them first, so nothing typed is lost; a form that can't be saved stops the move.
@@ -32,4 +34,28 @@ export async function saveAllUnsaved(): Promise<boolean> {
     dirty.delete(id);
   }
   return true;
+}
+
+/**
+ * Registers a form while it holds typed values (`isDirty`), so that moving the batch on saves
+ * them first through `save(form)`; leaving the page while any form is dirty asks first.
+ * @returns the id to pass to markClean once the form is saved, and the ref for the form element
+ */
+export function useUnsavedForm(isDirty: boolean, save: (form: HTMLFormElement) => Promise<boolean>) {
+  const id = useId();
+  const formRef = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (!isDirty) {
+      markClean(id);
+      return;
+    }
+    markDirty(id, () => (formRef.current ? save(formRef.current) : Promise.resolve(true)));
+    const warn = (e: BeforeUnloadEvent) => {
+      if (hasUnsaved()) e.preventDefault();
+    };
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  });
+  useEffect(() => () => markClean(id), [id]);
+  return { id, formRef };
 }
