@@ -7,7 +7,7 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { HOME_TEST_LABORATORY, limitsFor, type FuelStandard, type QualityResults } from '@/lib/quality';
-import { markClean, useUnsavedForm } from './unsaved';
+import { useUnsavedForm } from './unsaved';
 
 interface Stored {
   test327?: { result: 'clear' | 'fallout'; falloutMl?: number };
@@ -28,14 +28,8 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
   const { busy, fields, message, submit } = useApiForm();
   const [std, setStd] = useState<FuelStandard>(standard);
   const rows = limitsFor(std).filter((r) => !r.reportOnly || r.property === 'cloudPoint');
-  const [dirty, setDirty] = useState(false);
   // Typed results are registered so that moving the batch on (or releasing it) saves them first; leaving the page asks.
-  const { id, formRef } = useUnsavedForm(dirty, save);
-
-  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    await save(e.currentTarget);
-  }
+  const { formRef, dirty, onChange, onSubmit } = useUnsavedForm(save);
 
   async function save(form: HTMLFormElement): Promise<boolean> {
     const d = new FormData(form);
@@ -62,18 +56,14 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
         }),
       ),
     };
-    const ok = await submit(url, 'PATCH', body, 'Quality checks saved.');
-    if (ok) {
-      markClean(id);
-      setDirty(false);
-      router.refresh();
-    }
-    return Boolean(ok);
+    const ok = Boolean(await submit(url, 'PATCH', body, 'Quality checks saved.'));
+    if (ok) router.refresh();
+    return ok;
   }
 
   const f = (k: string) => fields[k];
   return (
-    <form ref={formRef} onSubmit={onSubmit} onChange={() => setDirty(true)} noValidate className="flex flex-col gap-4">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} noValidate className="flex flex-col gap-4">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <fieldset className="flex flex-col gap-3" disabled={readOnly}>
         <legend className="mb-2 font-semibold text-fir-900">Home quick tests (screening)</legend>

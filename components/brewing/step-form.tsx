@@ -1,12 +1,12 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useState, type ReactNode } from 'react';
+import type { ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField, FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
-import { markClean, useUnsavedForm } from './unsaved';
+import { useUnsavedForm } from './unsaved';
 
 /** One input of a step form. Values are sent as typed; the server parses and converts units. */
 export interface StepField {
@@ -32,14 +32,8 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
 }) {
   const { busy, fields: errors, message, submit } = useApiForm();
   const router = useRouter();
-  const [dirty, setDirty] = useState(false);
   // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
-  const { id, formRef } = useUnsavedForm(dirty, save);
-
-  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    await save(e.currentTarget);
-  }
+  const { formRef, dirty, onChange, onSubmit } = useUnsavedForm(save);
 
   async function save(form: HTMLFormElement): Promise<boolean> {
     const data = new FormData(form);
@@ -52,18 +46,14 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
       }
       body[f.name] = f.kind === 'list' ? raw.split(/[\s,;]+/).filter(Boolean) : raw;
     }
-    const ok = await submit(url, method, body, okText);
-    if (ok) {
-      markClean(id);
-      setDirty(false);
-      router.refresh();
-    }
-    return Boolean(ok);
+    const ok = Boolean(await submit(url, method, body, okText));
+    if (ok) router.refresh();
+    return ok;
   }
 
   const formErrors = errors._form;
   return (
-    <form ref={formRef} onSubmit={onSubmit} onChange={() => setDirty(true)} noValidate className="flex flex-col gap-3">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} noValidate className="flex flex-col gap-3">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <FieldErrors id={`${url}-form-error`} errors={formErrors} />
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
