@@ -121,7 +121,7 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
                 autoComplete="off"
               />
               <TextField
-                label={`Method for ${r.label.toLowerCase()}`}
+                label={`Method for ${r.label.charAt(0).toLowerCase()}${r.label.slice(1)}`}
                 name={`method-${r.property}`}
                 defaultValue={metaOf(r.property)?.method ?? r.method}
                 errors={f(`labResults.${r.property}.method`)}
