@@ -1,6 +1,6 @@
 'use strict';
-// Demo brewing data for Prairie Lantern (invented suppliers and restaurants): chemical and oil
-// lots, four released batches (with their chemical consumption, costs and tank movements), one
+// Demo brewing data for Prairie Lantern (invented suppliers, restaurants and laboratory): chemical and oil
+// lots, four released batches (with their chemical consumption, costs, tank movements and quality records), one
 // batch under way and one planned. Idempotent: does nothing when the co-op already has batches.
 //
 // Seeders run under sequelize-cli as CommonJS and cannot import the TypeScript modules, so the
@@ -28,21 +28,45 @@ const OIL = [
   { from: 'Harvest Moon Taqueria', on: '2026-11-10', liters: 160, cost: 0, titration: null, water: 'Not checked yet', solids: 'Light' },
 ];
 
+// Quality records, a realistic mix (ASTM D6751, the co-op's standard; grade No. 2-B, S15): batches 1 and 3 with a full
+// laboratory report from an invented laboratory ("Meets ASTM D6751"), batch 2 screened with home tests only, and batch 4
+// with a laboratory result outside a limit, released with the written reason the release dialog asks for. Soap tests
+// (0.01 N HCl on a 50 g sample, as potassium oleate) stay under the 41 ppm Na + K equivalent (lib/quality/screening.ts).
+const LAB = 'Tamarack Ridge Fuel Laboratory'; // invented
+/** Every required property of ASTM D6751 No. 2-B S15, from a laboratory, with the method each row names (lib/quality/limits.ts). */
+const fullLab = (date, v) => {
+  const rows = {
+    acidNumber: ['ASTM D664', v.acid], freeGlycerin: ['ASTM D6584', v.free], totalGlycerin: ['ASTM D6584', v.total], waterAndSediment: ['ASTM D2709', 0.01],
+    flashPoint: ['ASTM D93', v.flash], methanol: ['EN 14110', 0.05], kinematicViscosity40C: ['ASTM D445', v.visc], sulfur: ['ASTM D5453', v.sulfur],
+    cloudPoint: ['ASTM D2500', v.cloud], oxidationStability: ['EN 15751', v.oxidation], sulfatedAsh: ['ASTM D874', 0.005], copperStripCorrosion: ['ASTM D130', 1],
+    cetaneNumber: ['ASTM D613', v.cetane], carbonResidue: ['ASTM D4530', 0.02], sodiumPotassium: ['EN 14538', v.naK], calciumMagnesium: ['EN 14538', 0.8],
+    phosphorus: ['ASTM D4951', 0.0002], distillationT90: ['ASTM D1160', 348], coldSoakFiltration: ['ASTM D7501', v.coldSoak],
+  };
+  return Object.fromEntries(Object.entries(rows).map(([k, [method, value]]) => [k, { value, method, laboratory: LAB, date }]));
+};
+const home = (value, method, date) => ({ value, method, laboratory: 'home test', date });
+
 // Recipe of the co-op (seeded in 20261201000100): KOH, base 4.91 g/L pure, 90 % flake, methanol 20 %.
 const BATCHES = [
   { oil: 0, liters: 150, trials: [3.1, 3.2, 3.3], date: '2026-08-09', released: '2026-08-14', out: 142.5, kw: 1.5, hours: 3, tariff: 13.9, other: 400,
     temps: [53.9, 55.0, 55.6], settle: 14, glycerin: 27, cycles: 3, water: 160, drying: 'bubble',
-    quick: { test327: { result: 'clear' }, washTest: 'clean-split', water: 'clear' } },
+    quick: { test327: { result: 'clear' }, soap: { hclMl: 0.4, sampleGrams: 50 }, washTest: 'clean-split', water: 'clear' },
+    lab: fullLab('2026-08-13', { acid: 0.28, free: 0.008, total: 0.16, flash: 152, visc: 4.4, sulfur: 6, cloud: 3, oxidation: 5.2, cetane: 53, naK: 1.9, coldSoak: 140 }), verdict: 'pass' },
   { oil: 1, liters: 180, trials: [4.4, 4.6, 4.5], date: '2026-08-27', released: '2026-09-02', out: 170, kw: 1.5, hours: 3.5, tariff: 13.9, other: 650,
     temps: [54.4, 56.1, 60.6, 55.0], settle: 20, glycerin: 33, cycles: 4, water: 210, drying: 'heat',
-    quick: { test327: { result: 'clear' }, soap: { hclMl: 0.8, sampleGrams: 10 }, washTest: 'clean-split', water: 'clear' },
-    lab: { acidNumber: 0.31, freeGlycerin: 0.012, totalGlycerin: 0.19, waterAndSediment: 0.02, flashPoint: 141, kinematicViscosity40C: 4.6 } },
+    quick: { test327: { result: 'clear' }, soap: { hclMl: 0.5, sampleGrams: 50 }, washTest: 'clean-split', water: 'clear' },
+    lab: { acidNumber: home(0.35, 'titration, 0.01 N KOH to phenolphthalein', '2026-09-01') }, verdict: 'incomplete',
+    reason: 'Home tests all good; a laboratory sample goes with the next batch' },
   { oil: 2, liters: 160, trials: [2.7, 2.9, 2.8], date: '2026-09-18', released: '2026-09-23', out: 152, kw: 1.5, hours: 3, tariff: 14.2, other: 300,
     temps: [55.0, 55.6, 56.1], settle: 16, glycerin: 28, cycles: 3, water: 150, drying: 'bubble',
-    quick: { test327: { result: 'clear' }, soap: { hclMl: 0.6, sampleGrams: 10 }, washTest: 'clean-split', water: 'clear' } },
+    quick: { test327: { result: 'clear' }, soap: { hclMl: 0.3, sampleGrams: 50 }, washTest: 'clean-split', water: 'clear' },
+    lab: fullLab('2026-09-22', { acid: 0.31, free: 0.011, total: 0.19, flash: 141, visc: 4.6, sulfur: 8, cloud: 4, oxidation: 4.1, cetane: 51, naK: 2.6, coldSoak: 185 }), verdict: 'pass' },
   { oil: 3, liters: 170, trials: [5.5, 5.7, 5.6], date: '2026-10-14', released: '2026-10-20', out: 159, kw: 1.5, hours: 4, tariff: 14.2, other: 500,
     temps: [52.8, 54.4, 55.0], settle: 22, glycerin: 32, cycles: 5, water: 240, drying: 'heat',
-    quick: { test327: { result: 'clear' }, washTest: 'clean-split', water: 'clear' } },
+    quick: { test327: { result: 'clear' }, soap: { hclMl: 0.6, sampleGrams: 50 }, washTest: 'clean-split', water: 'clear' },
+    // Oxidation stability 2.4 h is below ASTM D6751's 3 h minimum: "Fails: Oxidation stability (110 °C)".
+    lab: fullLab('2026-10-19', { acid: 0.41, free: 0.015, total: 0.21, flash: 138, visc: 4.8, sulfur: 9, cloud: 5, oxidation: 2.4, cetane: 50, naK: 3.4, coldSoak: 210 }), verdict: 'fail',
+    reason: 'Antioxidant added on the laboratory’s advice; the tank is to be drawn down first, within the month, and a retest is booked' },
 ];
 const IN_PROGRESS = { oil: 4, liters: 170, trials: [3.8, 4.0, 3.9], date: '2026-11-20', status: 'washing', temps: [54.4, 55.6], settle: 18, glycerin: 30, cycles: 2, water: 110 };
 const PLANNED = { oil: 5, liters: 150, trials: [4.1, 4.0, 4.2], date: '2026-12-06' };
@@ -164,14 +188,16 @@ module.exports = {
           const total = methanolCents + catalystCents + energyCents + feedstockCents + b.other;
           const perGallon = roundHalfUp(total / (b.out / LITERS_PER_GALLON));
           const lab = b.lab ?? {};
-          const labTested = Object.keys(lab).length > 0;
+          // The release reason, kept on the batch record as the release dialog keeps it (lib/batches/release.ts).
+          const verdictText = b.verdict === 'fail' ? 'Fails: Oxidation stability (110 °C)' : 'Screened — 0 of 19 required properties tested, none failing';
+          const notes = b.reason ? `Released with quality “${verdictText}”: ${b.reason}` : null;
           const allQuick = ['test327', 'soap', 'washTest', 'water'].every((k) => b.quick[k] !== undefined);
           onHand = r3(onHand + b.out);
           value += total;
           await q(
             `UPDATE batches SET status = 'released', status_changed_at = :released, released_at = :released, tank_id = :tankId, released_liters = :out,
                actual_catalyst_grams = :grams, actual_methanol_liters = :methanol, mixing_minutes = 60, settling_hours = :settle, glycerin_liters = :glycerin,
-               wash_cycles = :cycles, wash_water_liters = :water, drying_method = :drying, quick_tests = :quick, lab_results = :lab,
+               wash_cycles = :cycles, wash_water_liters = :water, drying_method = :drying, quick_tests = :quick, lab_results = :lab, notes = :notes,
                quality_verdict = :qv, screening_verdict = :sv, heater_kw = :kw, heater_hours = :hours, tariff_cents_per_kwh = :tariff,
                other_cents = :other, other_notes = 'Filter bags and wash water', cost_methanol_cents = :mc, cost_catalyst_cents = :cc,
                cost_energy_cents = :ec, cost_feedstock_cents = :fc, cost_other_cents = :other, total_cost_cents = :total, cost_per_gallon_cents = :pg
@@ -179,7 +205,7 @@ module.exports = {
             {
               batchId, coopId, released: b.released, tankId: tank.id, out: b.out.toFixed(3), grams: grams.toFixed(3), methanol: methanol.toFixed(3),
               settle: b.settle, glycerin: b.glycerin.toFixed(3), cycles: b.cycles, water: b.water.toFixed(3), drying: b.drying,
-              quick: JSON.stringify(b.quick), lab: JSON.stringify(lab), qv: labTested ? 'pass' : 'incomplete', sv: allQuick ? 'looks-good' : 'incomplete',
+              quick: JSON.stringify(b.quick), lab: JSON.stringify(lab), notes, qv: b.verdict, sv: allQuick ? 'looks-good' : 'incomplete',
               kw: b.kw.toFixed(3), hours: b.hours.toFixed(2), tariff: b.tariff.toFixed(4), other: b.other, mc: methanolCents, cc: catalystCents,
               ec: energyCents, fc: feedstockCents, total, pg: perGallon,
             },

@@ -11,3 +11,8 @@ export function VerdictBadge({ verdict, prefix }: { verdict: string; prefix?: st
     </span>
   );
 }
+
+/** A batch's quality in the one wording of lib/quality ("Meets ASTM D6751", "Fails: …", "Screened — n of m …"). */
+export function QualityBadge({ text, kind }: { text: string; kind: 'meets' | 'fails' | 'screened' }) {
+  return <span className={`inline-block rounded-full border px-2 py-0.5 text-xs font-semibold ${verdictTone(kind)}`}>{text}</span>;
+}

@@ -10,7 +10,8 @@ import { useAnnounce } from '@/components/shell/announcer';
 import { sendJson } from '@/components/forms/use-api-form';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
-import { STATUS_LABELS, STEP_ORDER, verdictTone } from './format';
+import { QualityBadge } from './badges';
+import { STATUS_LABELS, STEP_ORDER } from './format';
 import { saveAllUnsaved } from './unsaved';
 
 /** What the release dialog needs: the tanks, the quality state and the expected volume. */
@@ -92,7 +93,7 @@ export function BatchActions({ url, status, number, release }: { url: string; st
             {(fields, id) => (
               <>
                 <div className="flex flex-col gap-1 text-sm">
-                  <p><span className="font-semibold">Quality:</span> <span className={`inline-block rounded-full border px-2 py-0.5 text-xs font-semibold ${verdictTone(release.verdictKind)}`}>{release.verdictText}</span></p>
+                  <p><span className="font-semibold">Quality:</span> <QualityBadge text={release.verdictText} kind={release.verdictKind} /></p>
                   <p><span className="font-semibold">Home quick tests:</span> {release.screeningText}</p>
                 </div>
                 <SelectField label="Into tank" name="tankId" id={id('tankId')} defaultValue={String(defaultTank(release) ?? '')} errors={fields.tankId}>

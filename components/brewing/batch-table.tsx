@@ -5,8 +5,8 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
 import type { BatchListRow } from '@/lib/batches';
 import type { UnitSystem } from '@/lib/units';
-import { StatusBadge, VerdictBadge } from './badges';
-import { dateText, perUnit, verdictTone, vol } from './format';
+import { QualityBadge, StatusBadge, VerdictBadge } from './badges';
+import { dateText, perUnit, vol } from './format';
 
 /** A row of the batch list (lib/batches' DTO). */
 export type BatchTableRow = BatchListRow;
@@ -40,7 +40,7 @@ export function BatchTable({ rows, slug, units, currency, pageInfo }: { rows: Ba
       header: 'Quality',
       cell: (c) => (
         <span className="flex flex-wrap gap-1">
-          <span className={`inline-block rounded-full border px-2 py-0.5 text-xs font-semibold ${verdictTone(c.row.original.qualityKind)}`}>{c.row.original.qualityText}</span>
+          <QualityBadge text={c.row.original.qualityText} kind={c.row.original.qualityKind} />
           <VerdictBadge verdict={c.row.original.screeningVerdict === 'incomplete' ? 'not tested' : c.row.original.screeningVerdict} prefix="Quick tests" />
         </span>
       ),

@@ -146,8 +146,9 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
             <option value="KOH">KOH solution</option>
             <option value="NaOH">NaOH solution</option>
           </SelectField>
-          <SelectField label="Titrant made from" name="titrantFrom" defaultValue="" errors={errors.titrantFrom}>
-            <option value="">The batch’s own catalyst stock (same chemical) — else pure reagent</option>
+          <SelectField label="Titrant made from" name="titrantFrom" defaultValue="" errors={errors.titrantFrom}
+            hint="By default the batch’s own catalyst stock when the titrant is the same chemical, else pure reagent.">
+            <option value="">Default</option>
             <option value="same-catalyst">The batch’s own catalyst stock</option>
             <option value="pure-reagent">Pure (reagent-grade) catalyst</option>
           </SelectField>
@@ -215,16 +216,16 @@ function PlanResult({ r, units, currency }: { r: PlannerResult; units: UnitSyste
       <Notice tone={plan.oil.needsAcidPretreatment ? 'warn' : 'info'} title={plan.oil.needsAcidPretreatment ? 'Acid pre-treatment advised' : undefined}>{plan.oil.message}</Notice>
 
       <div className="overflow-x-auto rounded-lg border border-stone-200 bg-white">
-        <table className="w-full min-w-[28rem] text-left text-sm">
-          <caption className="px-3 pt-2 text-left font-semibold text-fir-900">Stock</caption>
-          <thead className="text-xs uppercase tracking-wide text-stone-700"><tr><th scope="col" className="px-3 py-1">Chemical</th><th scope="col" className="px-3 py-1">Needed</th><th scope="col" className="px-3 py-1">Available</th><th scope="col" className="px-3 py-1">At lot prices</th></tr></thead>
+        <table className="w-full text-left text-sm">
+          <caption className="px-2 pt-2 text-left sm:px-3 font-semibold text-fir-900">Stock</caption>
+          <thead className="text-xs uppercase tracking-wide text-stone-700"><tr><th scope="col" className="px-2 py-1 sm:px-3">Chemical</th><th scope="col" className="px-2 py-1 sm:px-3">Needed</th><th scope="col" className="px-2 py-1 sm:px-3">Available</th><th scope="col" className="px-2 py-1 sm:px-3">At lot prices</th></tr></thead>
           <tbody>
             {coverage.map((c) => (
               <tr key={c.kind} className="border-t border-stone-100">
-                <th scope="row" className="px-3 py-1.5">{c.kind}</th>
-                <td className="px-3 py-1.5">{c.unit === 'L' ? vol(c.needed, units, 2) : grams(c.needed)}</td>
-                <td className={`px-3 py-1.5 ${c.covered ? '' : 'font-semibold text-danger-700'}`}>{c.unit === 'L' ? vol(c.available, units, 2) : grams(c.available)}{c.covered ? '' : ` — short by ${c.unit === 'L' ? vol(c.shortBy, units, 2) : grams(c.shortBy)}`}</td>
-                <td className="px-3 py-1.5">{money(c.projectedCents, currency)}{c.shortfallCents !== null ? <span className="block text-xs text-stone-600">incl. {money(c.shortfallCents, currency)} for the shortfall at the last price paid</span> : c.covered ? null : <span className="block text-xs text-danger-700">shortfall not priced: none bought before</span>}</td>
+                <th scope="row" className="px-2 py-1 sm:px-3.5">{c.kind}</th>
+                <td className="px-2 py-1 sm:px-3.5">{c.unit === 'L' ? vol(c.needed, units, 2) : grams(c.needed)}</td>
+                <td className={`px-2 py-1 sm:px-3.5 ${c.covered ? '' : 'font-semibold text-danger-700'}`}>{c.unit === 'L' ? vol(c.available, units, 2) : grams(c.available)}{c.covered ? '' : ` — short by ${c.unit === 'L' ? vol(c.shortBy, units, 2) : grams(c.shortBy)}`}</td>
+                <td className="px-2 py-1 sm:px-3.5">{money(c.projectedCents, currency)}{c.shortfallCents !== null ? <span className="block text-xs text-stone-600">incl. {money(c.shortfallCents, currency)} for the shortfall at the last price paid</span> : c.covered ? null : <span className="block text-xs text-danger-700">shortfall not priced: none bought before</span>}</td>
               </tr>
             ))}
           </tbody>

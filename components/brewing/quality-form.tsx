@@ -7,6 +7,7 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { HOME_TEST_LABORATORY, limitsFor, type FuelStandard, type QualityResults } from '@/lib/quality';
+import { useUnsavedForm } from './unsaved';
 
 interface Stored {
   test327?: { result: 'clear' | 'fallout'; falloutMl?: number };
@@ -27,10 +28,11 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
   const { busy, fields, message, submit } = useApiForm();
   const [std, setStd] = useState<FuelStandard>(standard);
   const rows = limitsFor(std).filter((r) => !r.reportOnly || r.property === 'cloudPoint');
+  // Typed results are registered so that moving the batch on (or releasing it) saves them first; leaving the page asks.
+  const { formRef, dirty, onChange, onSubmit } = useUnsavedForm(save);
 
-  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const d = new FormData(e.currentTarget);
+  async function save(form: HTMLFormElement): Promise<boolean> {
+    const d = new FormData(form);
     const s = (k: string) => String(d.get(k) ?? '').trim();
     const opt = (k: string) => (s(k) === '' ? undefined : s(k));
     const result327 = s('t327');
@@ -54,12 +56,14 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
         }),
       ),
     };
-    if (await submit(url, 'PATCH', body, 'Quality checks saved.')) router.refresh();
+    const ok = Boolean(await submit(url, 'PATCH', body, 'Quality checks saved.'));
+    if (ok) router.refresh();
+    return ok;
   }
 
   const f = (k: string) => fields[k];
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} noValidate className="flex flex-col gap-4">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <fieldset className="flex flex-col gap-3" disabled={readOnly}>
         <legend className="mb-2 font-semibold text-fir-900">Home quick tests (screening)</legend>
@@ -117,7 +121,7 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
                 autoComplete="off"
               />
               <TextField
-                label={`Method for ${r.label.toLowerCase()}`}
+                label={`Method for ${r.label.charAt(0).toLowerCase()}${r.label.slice(1)}`}
                 name={`method-${r.property}`}
                 defaultValue={metaOf(r.property)?.method ?? r.method}
                 errors={f(`labResults.${r.property}.method`)}
@@ -127,7 +131,12 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
           ))}
         </div>
       </fieldset>
-      {readOnly ? null : <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save quality checks'}</Button></div>}
+      {readOnly ? null : (
+        <div className="flex items-center gap-3">
+          <Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save quality checks'}</Button>
+          {dirty ? <span className="text-xs text-stone-600">Unsaved changes</span> : null}
+        </div>
+      )}
     </form>
   );
 }

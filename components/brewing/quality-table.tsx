@@ -1,7 +1,6 @@
 import { formatQualityLimit, formatQualityValue, type QualityEvaluation, type QuickTestEvaluation } from '@/lib/quality';
 import type { UnitSystem } from '@/lib/units';
-import { VerdictBadge } from './badges';
-import { verdictTone } from './format';
+import { QualityBadge, VerdictBadge } from './badges';
 
 /** Lab results against the named standard, then the screening tests, with the caution. */
 export function QualityTables({ quality, screening, showUntested = false, units = 'metric' }: { quality: QualityEvaluation; screening: QuickTestEvaluation; showUntested?: boolean; units?: UnitSystem }) {
@@ -11,7 +10,7 @@ export function QualityTables({ quality, screening, showUntested = false, units 
       <div>
         <h3 className="mb-2 flex flex-wrap items-center gap-2 font-semibold text-fir-900">
           Lab results against {quality.standard}
-          <span className={`inline-block rounded-full border px-2 py-0.5 text-xs font-semibold ${verdictTone(quality.verdict.kind)}`}>{quality.verdict.text}</span>
+          <QualityBadge text={quality.verdict.text} kind={quality.verdict.kind} />
         </h3>
         {rows.length ? (
           <div className="overflow-x-auto rounded-lg border border-stone-200">

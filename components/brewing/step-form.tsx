@@ -1,12 +1,12 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
+import type { ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField, FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
-import { hasUnsaved, markClean, markDirty } from './unsaved';
+import { useUnsavedForm } from './unsaved';
 
 /** One input of a step form. Values are sent as typed; the server parses and converts units. */
 export interface StepField {
@@ -32,14 +32,8 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
 }) {
   const { busy, fields: errors, message, submit } = useApiForm();
   const router = useRouter();
-  const [dirty, setDirty] = useState(false);
-  const formRef = useRef<HTMLFormElement>(null);
-  const id = useId();
-
-  async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    await save(e.currentTarget);
-  }
+  // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
+  const { formRef, dirty, onChange, onSubmit } = useUnsavedForm(save);
 
   async function save(form: HTMLFormElement): Promise<boolean> {
     const data = new FormData(form);
@@ -52,33 +46,14 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
       }
       body[f.name] = f.kind === 'list' ? raw.split(/[\s,;]+/).filter(Boolean) : raw;
     }
-    const ok = await submit(url, method, body, okText);
-    if (ok) {
-      markClean(id);
-      setDirty(false);
-      router.refresh();
-    }
-    return Boolean(ok);
+    const ok = Boolean(await submit(url, method, body, okText));
+    if (ok) router.refresh();
+    return ok;
   }
-
-  // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
-  useEffect(() => {
-    if (!dirty) {
-      markClean(id);
-      return;
-    }
-    markDirty(id, () => (formRef.current ? save(formRef.current) : Promise.resolve(true)));
-    const warn = (e: BeforeUnloadEvent) => {
-      if (hasUnsaved()) e.preventDefault();
-    };
-    window.addEventListener('beforeunload', warn);
-    return () => window.removeEventListener('beforeunload', warn);
-  });
-  useEffect(() => () => markClean(id), [id]);
 
   const formErrors = errors._form;
   return (
-    <form ref={formRef} onSubmit={onSubmit} onChange={() => setDirty(true)} noValidate className="flex flex-col gap-3">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} noValidate className="flex flex-col gap-3">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <FieldErrors id={`${url}-form-error`} errors={formErrors} />
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">

@@ -1,5 +1,7 @@
 'use client';
 
+import { useEffect, useId, useRef, useState } from 'react';
+
 /**
  * Forms on the batch page with typed values not yet saved. Moving a batch on (or releasing it)
  * saves them first, so nothing typed is lost; a form that can't be saved stops the move.
@@ -32,4 +34,47 @@ export async function saveAllUnsaved(): Promise<boolean> {
     dirty.delete(id);
   }
   return true;
+}
+
+/**
+ * A form on the batch page whose typed values must not be lost: once something is typed it is
+ * registered, so that moving the batch on (or releasing it) saves it first through `save(form)`,
+ * and leaving the page while any form is dirty asks first. `save` sends the values and says
+ * whether they were stored; the form is clean again once it has.
+ * @returns the form's ref, whether it holds unsaved values, and its change and submit handlers
+ */
+export function useUnsavedForm(save: (form: HTMLFormElement) => Promise<boolean>) {
+  const id = useId();
+  const formRef = useRef<HTMLFormElement>(null);
+  const [dirty, setDirty] = useState(false);
+  const saveForm = async (form: HTMLFormElement) => {
+    const ok = await save(form);
+    if (ok) {
+      markClean(id);
+      setDirty(false);
+    }
+    return ok;
+  };
+  useEffect(() => {
+    if (!dirty) {
+      markClean(id);
+      return;
+    }
+    markDirty(id, () => (formRef.current ? saveForm(formRef.current) : Promise.resolve(true)));
+    const warn = (e: BeforeUnloadEvent) => {
+      if (hasUnsaved()) e.preventDefault();
+    };
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  });
+  useEffect(() => () => markClean(id), [id]);
+  return {
+    formRef,
+    dirty,
+    onChange: () => setDirty(true),
+    onSubmit: async (e: React.FormEvent<HTMLFormElement>) => {
+      e.preventDefault();
+      await saveForm(e.currentTarget);
+    },
+  };
 }

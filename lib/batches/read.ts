@@ -12,6 +12,7 @@ import { litersToMl } from '@/lib/tank/quantity';
 import { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot, Tank } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
 import { computePlan, type Catalyst, type ComputedPlan, type PlanInput } from './plan';
+import { qualityOf } from './verdicts';
 
 // Reading batches: one batch (full record or the members' summary), the list, and the pure
 // helpers that turn a stored batch into plan inputs, costs and quality inputs.
@@ -342,7 +343,7 @@ export async function listBatches(actor: Actor, q: BatchListQuery): Promise<Batc
         ...(r.status === 'imported'
           // An imported batch has no results here, only the verdict recorded then.
           ? { qualityVerdict: r.qualityVerdict, qualityText: r.qualityVerdict === 'incomplete' ? 'Not recorded' : `${r.qualityVerdict === 'pass' ? 'Passed' : 'Failed'} (as recorded)`, qualityKind: r.qualityVerdict === 'fail' ? 'fails' as const : 'screened' as const }
-          : ((v) => ({ qualityVerdict: v.overall, qualityText: v.verdict.text, qualityKind: v.verdict.kind }))(evaluateQuality(r.qualityStandard, labResultsOf(r)))),
+          : ((v) => ({ qualityVerdict: v.overall, qualityText: v.text, qualityKind: v.kind }))(qualityOf(r))),
       };
     }),
     total: Number(total ?? 0), page: q.page, pageSize: q.pageSize,

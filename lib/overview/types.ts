@@ -43,8 +43,13 @@ export interface Overview {
   admin?: { pendingInvitations: number; notSentInvitations: number; recentEvents: { at: string; who: string | null; action: string }[] };
 }
 
+/** A batch's quality in the one wording of lib/quality: "Meets …", "Fails: …" or "Screened — n of m …". */
+export interface QualityWording { text: string; kind: 'meets' | 'fails' | 'screened' }
+
 export interface BrewerSection {
-  inProgress: { id: number; number: number; status: string; oilLiters: number; since: string }[];
+  inProgress: { id: number; number: number; status: string; oilLiters: number; since: string; quality: QualityWording | null }[];
+  /** The latest released batches, newest first, with their verdicts. */
+  recentReleased: { id: number; number: number; releasedAt: string; releasedLiters: number; quality: QualityWording }[];
   nextPlanned: { id: number; number: number; batchDate: string; oilLiters: number; catalyst: 'KOH' | 'NaOH' } | null;
   /** Stock of the chemicals the next planned batch uses: methanol in litres, catalyst in grams. */
   stock: { kind: 'methanol' | 'KOH' | 'NaOH'; unit: 'L' | 'g'; available: number; need: number; low: boolean }[];

@@ -103,6 +103,10 @@ describe('overview API', () => {
     it('brewers see batches under way, the next planned batch and whether stock covers it', async () => {
       const res = await ctx.agents.brewer.get(url).expect(200);
       expect(res.body.brewer.inProgress.map((b: { number: number }) => b.number)).toEqual([2]);
+      // The one verdict wording of lib/quality (evaluateQuality), as on the batch list, page and PDF: no laboratory results yet.
+      const screened = { text: expect.stringMatching(/^Screened — 0 of \d+ required properties tested, none failing$/), kind: 'screened' };
+      expect(res.body.brewer.inProgress[0].quality).toEqual(screened);
+      expect(res.body.brewer.recentReleased).toEqual([expect.objectContaining({ number: 1, releasedLiters: 378.541, quality: screened })]);
       expect(res.body.brewer.nextPlanned).toMatchObject({ number: 3, batchDate: '2026-01-05', oilLiters: 200, catalyst: 'KOH' });
       expect(res.body.brewer.stock).toEqual([
         { kind: 'methanol', unit: 'L', available: 30, need: 40, low: true },

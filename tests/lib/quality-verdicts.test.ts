@@ -1,5 +1,6 @@
 // Verdicts that mean what they say, the completed limits tables and the soap threshold.
-// Sources beside each check: ASTM D6751, EN 14214 (rows beyond REFERENCES.md from memory),
+// Sources beside each check: ASTM D6751, EN 14214 (rows beyond REFERENCES.md checked against public
+// summaries named in lib/quality/limits.ts: an ASTM D6751-09 table, an EN 14214:2012+A1:2014 table),
 // IUPAC standard atomic weights; readings marked common practice.
 import { describe, expect, it } from 'vitest';
 import {
@@ -36,12 +37,13 @@ describe('completed limits tables', () => {
     ['phosphorus', undefined, 0.001],
     ['distillationT90', undefined, 360],
     ['coldSoakFiltration', undefined, 360],
-  ] as const)('ASTM D6751 %s: min %s, max %s (ASTM D6751 Table 1, from memory)', (property, min, max) => {
+  ] as const)('ASTM D6751 %s: min %s, max %s (ASTM D6751 Table 1, public summary of D6751-09)', (property, min, max) => {
     const r = row('ASTM D6751', property);
     expect([r?.min, r?.max, r?.required]).toEqual([min, max, true]);
+    expect([r?.fromMemory, r?.checkedAgainst]).toEqual([undefined, expect.stringMatching(/ASTM D6751-09/)]);
   });
 
-  it('ASTM D6751 grade No. 1-B (for cold use): cold soak ≤ 200 s and monoglycerides ≤ 0.40 % (ASTM D6751-12 on, from memory)', () => {
+  it('ASTM D6751 grade No. 1-B (for cold use): cold soak ≤ 200 s and monoglycerides ≤ 0.40 % (ASTM D6751-12 on; a fuel-testing laboratory’s public note on ASTM D7501)', () => {
     expect(row('ASTM D6751', 'coldSoakFiltration', '1-B')?.max).toBe(200);
     expect(row('ASTM D6751', 'monoglycerides', '1-B')?.max).toBe(0.4);
     expect(row('ASTM D6751', 'monoglycerides', '2-B')).toBeUndefined();
@@ -59,9 +61,10 @@ describe('completed limits tables', () => {
     ['phosphorus', undefined, 4],
     ['sodiumPotassium', undefined, 5],
     ['calciumMagnesium', undefined, 5],
-  ] as const)('EN 14214 %s: min %s, max %s (EN 14214 Table 1, from memory)', (property, min, max) => {
+  ] as const)('EN 14214 %s: min %s, max %s (EN 14214 Table 1, public table of EN 14214:2012+A1:2014)', (property, min, max) => {
     const r = row('EN 14214', property);
-    expect([r?.min, r?.max, r?.required, r?.fromMemory]).toEqual([min, max, true, true]);
+    expect([r?.min, r?.max, r?.required, r?.fromMemory]).toEqual([min, max, true, undefined]);
+    expect(r?.checkedAgainst).toMatch(/EN 14214:2012\+A1:2014/);
   });
 
   it('every row names its method and source; rows whose values changed name the edition (EN 14214:2012 oxidation 6 → 8 h, phosphorus 10 → 4 mg/kg)', () => {

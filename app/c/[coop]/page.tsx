@@ -8,6 +8,7 @@ import { Card, EmptyState } from '@/components/ui/notice';
 import { can, requirePageActor } from '@/lib/auth';
 import { unacknowledgedDangers } from '@/lib/batches';
 import { DangerBanner } from '@/components/brewing/danger-banner';
+import { QualityBadge } from '@/components/brewing/badges';
 import { formatCents, formatRateCents } from '@/lib/money';
 import { getOverview } from '@/lib/overview';
 import { formatVolume } from '@/lib/units';
@@ -88,13 +89,32 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
               ) : (
                 <ul className="divide-y divide-stone-100">
                   {o.brewer.inProgress.map((b) => (
-                    <li key={b.id} className="flex justify-between gap-2 py-2 text-sm">
-                      <Link href={`${base}/batches/${b.id}`}>Batch {b.number}</Link>
-                      <span className="text-stone-600">{b.status}, {formatVolume(b.oilLiters, units, 0)} of oil</span>
+                    <li key={b.id} className="flex flex-col gap-1 py-2 text-sm">
+                      <div className="flex justify-between gap-2">
+                        <Link href={`${base}/batches/${b.id}`}>Batch {b.number}</Link>
+                        <span className="text-stone-600">{b.status}, {formatVolume(b.oilLiters, units, 0)} of oil</span>
+                      </div>
+                      {b.quality ? <div><QualityBadge text={b.quality.text} kind={b.quality.kind} /></div> : null}
                     </li>
                   ))}
                 </ul>
               )}
+              {o.brewer.recentReleased.length ? (
+                <>
+                  <h3 className="mt-3 text-sm font-semibold text-fir-900">Latest released</h3>
+                  <ul className="divide-y divide-stone-100">
+                    {o.brewer.recentReleased.map((b) => (
+                      <li key={b.id} className="flex flex-col gap-1 py-2 text-sm">
+                        <div className="flex justify-between gap-2">
+                          <Link href={`${base}/batches/${b.id}`}>Batch {b.number}</Link>
+                          <span className="text-stone-600">{formatVolume(b.releasedLiters, units, 0)}, {formatMonthDay(b.releasedAt, actor.coop.timezone)}</span>
+                        </div>
+                        <div><QualityBadge text={b.quality.text} kind={b.quality.kind} /></div>
+                      </li>
+                    ))}
+                  </ul>
+                </>
+              ) : null}
               <p className="mt-2 text-sm"><Link href={`${base}/batches`}>All batches</Link></p>
             </Card>
             <Card title="Next planned batch">

@@ -216,7 +216,7 @@ function BatchRecord({ batch, base, units, currency, timeZone, tanks, altitude, 
         </dl>
         <p className="mt-3 text-sm text-stone-700"><span className="font-semibold">How the catalyst was worked out:</span> {plan.catalystResult.explanation}</p>
         <p className="mt-1 text-sm text-stone-700">
-          Oil acidity: acid number {plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids {plan.oil.ffaPercent.toFixed(2)} % (as oleic acid). Expected: about {vol(plan.projectedFuelLiters, units)} of fuel ({plan.yieldProjection.explanation}); a crude glycerin layer of about {vol(plan.yields.crudeGlycerinLiters, units)} ({vol(plan.yields.crudeGlycerinRangeLiters[0], units)}–{vol(plan.yields.crudeGlycerinRangeLiters[1], units)}) holding about {vol(plan.yields.glycerolLiters, units)} of pure glycerol.
+          Oil acidity: acid number {plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids {plan.oil.ffaPercent.toFixed(2)} % (as oleic acid). Expected: about {vol(plan.projectedFuelLiters, units)} of fuel ({plan.yieldProjection.explanation.replace(/\.$/, '')}); a crude glycerin layer of about {vol(plan.yields.crudeGlycerinLiters, units)} ({vol(plan.yields.crudeGlycerinRangeLiters[0], units)}–{vol(plan.yields.crudeGlycerinRangeLiters[1], units)}) holding about {vol(plan.yields.glycerolLiters, units)} of pure glycerol.
         </p>
         {plan.oil.needsAcidPretreatment ? <div className="mt-2"><Notice tone="warn">{plan.oil.message}</Notice></div> : null}
         {plan.titration.notice ? <div className="mt-2"><Notice tone="warn">{plan.titration.notice}</Notice></div> : null}
