@@ -53,6 +53,13 @@ export function formatMonthDay(value: string | Date, timeZone: string): string {
   return parts(value, timeZone).monthDay;
 }
 
+/** A month 'YYYY-MM' in the one style: "Feb 2026" (the month itself, in every zone). */
+export function formatMonth(period: string): string {
+  const [y, m] = period.split('-').map(Number) as [number, number];
+  const p = parts(new Date(Date.UTC(y, m - 1, 15, 12)), 'UTC');
+  return `${p.monthDay.split(' ')[0]} ${y}`;
+}
+
 /** A moment as YYYY-MM-DD in a time zone (for date inputs). */
 export function isoDay(d: Date, timeZone: string): string {
   const ps = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(d);
