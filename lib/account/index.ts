@@ -14,6 +14,7 @@ import { conflict, HttpError, notFound } from '@/lib/http';
 import { enqueueMail } from '@/lib/jobs';
 import { appUrl, sendMail } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
+import { personTimeZone } from '@/lib/account/zone';
 import type {
   emailChangeSchema, passwordChangeSchema, passwordResetSchema, profileUpdateSchema,
 } from '@/lib/validation/auth';
@@ -174,7 +175,7 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
       '',
       `  ${appUrl(`/confirm-email/${token}`)}`,
       '',
-      `The link works once and expires on ${formatExpiry(expiresAt)}.`,
+      `The link works once and expires on ${formatExpiry(expiresAt, await personTimeZone(user.id))}.`,
       'If you did not ask for this, ignore this e-mail: your address stays as it is.',
       '',
       '-- ',
@@ -304,7 +305,7 @@ export async function requestPasswordReset(email: string): Promise<{ to: string;
       '',
       `  ${appUrl(`/reset-password/${token}`)}`,
       '',
-      `The link works once and expires on ${formatExpiry(expiresAt)}.`,
+      `The link works once and expires on ${formatExpiry(expiresAt, await personTimeZone(user.id))}.`,
       'Setting a new password signs you out on every device.',
       'If you did not ask for this, ignore this e-mail: your password stays as it is.',
       '',
