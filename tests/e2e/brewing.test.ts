@@ -8,7 +8,7 @@ import { checkA11y, shootBothWidths, signInUi, withBrowser } from '../support/br
 const section = (page: Page, title: string) => page.locator('section', { has: page.getByRole('heading', { name: title, exact: true }) });
 
 describe('brewing in the browser', () => {
-  it('a brewer plans a batch, records every step and releases it into the tank', async () => {
+  it('a brewer plans a batch, records every step and releases it into the tank', { timeout: 240_000 }, async () => {
     const coop = await makeCoop({ settings: { recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } } });
     const brewer = await makeUser({ coopId: coop.id, role: 'brewer', name: 'Rowan Ashby' });
     const [tank] = await sql<{ id: number }>(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main tank', 2000) RETURNING id`, [coop.id]);
@@ -107,7 +107,7 @@ describe('brewing in the browser', () => {
     expect(t).toEqual({ on_hand_liters: '105.992', value_cents: batch!.total_cost_cents });
   });
 
-  it('supplies pages work at phone and desktop widths and pass axe', async () => {
+  it('supplies pages work at phone and desktop widths and pass axe', { timeout: 240_000 }, async () => {
     await withBrowser(async (page) => {
       await signInUi(page, 'juniper.brewer@example.org', 'tallyvat-demo-2026');
       await page.goto(`${baseUrl()}/c/prairie-lantern/supplies`);
@@ -123,7 +123,7 @@ describe('brewing in the browser', () => {
     });
   });
 
-  it('a member sees released batches only, with the quality summary', async () => {
+  it('a member sees released batches only, with the quality summary', { timeout: 240_000 }, async () => {
     await withBrowser(async (page) => {
       await signInUi(page, 'dale.member@example.org', 'tallyvat-demo-2026');
       await page.goto(`${baseUrl()}/c/prairie-lantern/batches`);
