@@ -88,8 +88,11 @@ export async function expectAnnounced(page: Page, text: string | RegExp) {
 export async function shootBothWidths(page: Page, name: string) {
   for (const width of [360, 1280]) {
     await page.setViewportSize({ width, height: 800 });
-    // Let the layout settle at the new width (two frames) before measuring and shooting.
-    await page.evaluate(() => new Promise((done) => requestAnimationFrame(() => requestAnimationFrame(() => done(null)))));
+    // Let the layout settle at the new width (two frames, at most half a second) before measuring and shooting.
+    await page.evaluate(() => new Promise((done) => {
+      requestAnimationFrame(() => requestAnimationFrame(() => done(null)));
+      setTimeout(() => done(null), 500);
+    }));
     const file = path.join(SHOTS, `${name}-${width}.png`);
     await page.screenshot({ path: file, fullPage: true });
     expect(fs.statSync(file).size, `${name} at ${width}px looks blank`).toBeGreaterThan(5_000);
