@@ -61,6 +61,12 @@ export function formatMonthDay(value: string | Date, timeZone: string): string {
   return parts(value, timeZone).monthDay;
 }
 
+/** A month 'YYYY-MM' in the one style: "Feb 2026" (the month itself, in every zone). */
+export function formatMonth(period: string): string {
+  const [y, m] = period.split('-').map(Number) as [number, number];
+  return format(new Date(Date.UTC(y, m - 1, 15, 12)), 'MMM yyyy', inZone('UTC'));
+}
+
 /** A moment as its calendar day YYYY-MM-DD in a time zone (date inputs, due dates, periods). */
 export function isoDay(d: Date, timeZone: string): string {
   return format(d, 'yyyy-MM-dd', inZone(timeZone));

@@ -7,7 +7,7 @@ import { InvoiceStatusBadge } from './status-badge';
 import type { UnitSystem } from '@/lib/units';
 
 /** The invoice itself, as both the treasurer and the member see it: header, lines, totals. */
-export function InvoiceSummaryView({ inv, coop }: { inv: InvoiceDetail; coop: { units: UnitSystem; currency: string; timezone: string } }) {
+export function InvoiceSummaryView({ inv, coop, duesNote }: { inv: InvoiceDetail; coop: { units: UnitSystem; currency: string; timezone: string }; duesNote?: string | null }) {
   const money = (c: number) => formatCents(c, coop.currency);
   const isCredit = inv.kind === 'credit-note';
   return (
@@ -25,6 +25,7 @@ export function InvoiceSummaryView({ inv, coop }: { inv: InvoiceDetail; coop: { 
       </dl>
       {inv.status === 'void' ? <p className="rounded-lg bg-stone-100 p-3 text-sm">Voided{inv.voidedAt ? ` on ${formatDateIn(inv.voidedAt, coop.timezone)}` : ''}: {inv.voidReason}{inv.creditNote ? ` — see credit note ${inv.creditNote.label}.` : ''}</p> : null}
       <InvoiceLinesTable lines={inv.lines} units={coop.units} currency={coop.currency} timezone={coop.timezone} />
+      {duesNote ? <p className="text-sm text-stone-700">{duesNote}</p> : null}
       <dl className="ml-auto grid w-full max-w-xs grid-cols-2 gap-y-1 text-sm">
         <dt className="font-semibold">{isCredit ? 'Total credited' : 'Total'}</dt><dd className="text-right font-semibold tabular-nums">{money(inv.totalCents)}</dd>
         {!isCredit && inv.status !== 'draft' ? (

@@ -48,12 +48,13 @@ export function PeriodProgress({ coop, period, initial, currency }: { coop: stri
   const run = data.run;
   const money = (c: number) => formatCents(c, currency);
 
-  async function act<T>(name: string, call: () => ClientCall<T>, ok: (d: T) => string) {
+  /** `ok` null: the live state above says what happened (a run's progress follows the run, not the click). */
+  async function act<T>(name: string, call: () => ClientCall<T>, ok: ((d: T) => string) | null) {
     setBusy(name);
     setMessage(null);
     const r = await callApi(call());
     setBusy(null);
-    if (r.ok) setMessage({ tone: 'ok', text: ok(r.data) });
+    if (r.ok) setMessage(ok ? { tone: 'ok', text: ok(r.data) } : null);
     else setMessage({ tone: 'danger', text: r.error });
     await mutate();
     router.refresh();
@@ -99,7 +100,7 @@ export function PeriodProgress({ coop, period, initial, currency }: { coop: stri
             <Button
               variant={data.counts.draft ? 'secondary' : 'primary'}
               disabled={busy !== null || run?.status === 'running'}
-              onClick={() => act('run', () => apiClient.POST('/api/coops/{coop}/billing/runs', { params: { path: { coop } }, body: { period } }), () => 'Preparing drafts…')}
+              onClick={() => act('run', () => apiClient.POST('/api/coops/{coop}/billing/runs', { params: { path: { coop } }, body: { period } }), null)}
             >
               {busy === 'run' ? 'Starting…' : data.counts.draft || data.counts.issued + data.counts.paid ? 'Prepare drafts again' : 'Prepare draft invoices'}
             </Button>

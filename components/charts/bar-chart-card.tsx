@@ -1,18 +1,20 @@
 'use client';
 
+import dynamic from 'next/dynamic';
 import { xText } from './x-text';
-import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { ChartFrame } from './chart-frame';
-import { SERIES_COLORS } from './palette';
+import type { Series } from './series';
+import { WhenVisible } from './when-visible';
 
-export interface Series {
-  key: string;
-  label: string;
-}
+export type { Series };
+
+// The drawing library loads in its own chunk, when the chart scrolls into view (not first-load).
+const BarChartDrawing = dynamic(() => import('./bar-chart-drawing').then((m) => m.BarChartDrawing), { ssr: false });
 
 /**
  * A labelled bar chart with a "Table" toggle showing the same numbers, so the figures are
- * readable without the picture (screen readers get the table; the SVG is hidden from them).
+ * readable without the picture (screen readers get the table; the SVG is hidden from them). The
+ * picture is drawn once the card nears the screen.
  */
 export function BarChartCard({
   title,
@@ -40,18 +42,9 @@ export function BarChartCard({
       empty={data.length === 0}
       chart={
         <div className="h-64 w-full" aria-hidden="true">
-          <ResponsiveContainer width="100%" height="100%">
-            <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
-              <CartesianGrid strokeDasharray="3 3" stroke="#e7e5e4" />
-              <XAxis dataKey={xKey} tickFormatter={xText} tick={{ fontSize: 12, fill: '#44403c' }} />
-              <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />
-              <Tooltip formatter={(v) => format(Number(v))} />
-              <Legend wrapperStyle={{ fontSize: 12 }} />
-              {series.map((s, i) => (
-                <Bar isAnimationActive={false} key={s.key} dataKey={s.key} name={s.label} fill={SERIES_COLORS[i % SERIES_COLORS.length]} stackId={stacked ? 'a' : undefined} />
-              ))}
-            </BarChart>
-          </ResponsiveContainer>
+          <WhenVisible>
+            <BarChartDrawing data={data} xKey={xKey} series={series} yLabel={yLabel} stacked={stacked} format={format} />
+          </WhenVisible>
         </div>
       }
       table={

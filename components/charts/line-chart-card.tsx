@@ -1,9 +1,12 @@
 'use client';
 
+import dynamic from 'next/dynamic';
 import { xText } from './x-text';
-import { CartesianGrid, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { ChartFrame } from './chart-frame';
-import { SERIES_COLORS } from './palette';
+import { WhenVisible } from './when-visible';
+
+// The drawing library loads in its own chunk, when the chart scrolls into view (not first-load).
+const LineChartDrawing = dynamic(() => import('./line-chart-drawing').then((m) => m.LineChartDrawing), { ssr: false });
 
 /** A labelled line chart (one series) with a table view of the same numbers. */
 export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, format = (v: number) => v.toLocaleString('en-US', { maximumFractionDigits: 1 }) }: {
@@ -22,15 +25,9 @@ export function LineChartCard({ title, data, xKey, yKey, yLabel, seriesLabel, fo
       tableClassName="max-h-64 overflow-auto"
       chart={
         <div className="h-56 w-full" aria-hidden="true">
-          <ResponsiveContainer width="100%" height="100%">
-            <LineChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
-              <CartesianGrid strokeDasharray="3 3" stroke="#e7e5e4" />
-              <XAxis dataKey={xKey} tickFormatter={xText} tick={{ fontSize: 11, fill: '#44403c' }} minTickGap={24} />
-              <YAxis tick={{ fontSize: 12, fill: '#44403c' }} tickFormatter={(v: number) => format(v)} label={{ value: yLabel, angle: -90, position: 'insideLeft', fill: '#44403c', fontSize: 12 }} />
-              <Tooltip formatter={(v) => format(Number(v))} />
-              <Line isAnimationActive={false} type="stepAfter" dataKey={yKey} name={seriesLabel} stroke={SERIES_COLORS[0]} strokeWidth={2} dot={false} />
-            </LineChart>
-          </ResponsiveContainer>
+          <WhenVisible>
+            <LineChartDrawing data={data} xKey={xKey} yKey={yKey} yLabel={yLabel} seriesLabel={seriesLabel} format={format} />
+          </WhenVisible>
         </div>
       }
       table={

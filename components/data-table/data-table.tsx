@@ -4,6 +4,7 @@ import Link from 'next/link';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { tableFeatures, useTable, type CellData, type ColumnDef, type RowData, type TableFeatures } from '@tanstack/react-table';
 import { useState, type ReactNode } from 'react';
+import { PhoneSort } from './phone-sort';
 
 export const tableFeaturesBasic = tableFeatures({});
 export type Features = typeof tableFeaturesBasic;
@@ -40,7 +41,8 @@ const DEFAULT_KEY_IDS = new Set(['status', 'actions', 'total', 'amount', 'quanti
  * On a phone (below 640 px) each row becomes a card: columns whose `meta.priority` is 'key'
  * stay visible with their label, the rest open under the row's "Details" button — so status,
  * amount and the row's action never need sideways scrolling. Without any declared priority the
- * first column plus status, amount/total/quantity and actions are key.
+ * first column plus status, amount/total/quantity and actions are key. Above the cards, a
+ * "Sort by" control stands in for the hidden sortable headers (same URL state).
  */
 export function DataTable<Row extends RowData>({
   columns,
@@ -95,8 +97,13 @@ export function DataTable<Row extends RowData>({
     return def?.meta?.label ?? (typeof def?.header === 'string' ? def.header : null);
   };
 
+  const sortOptions = leaf.filter((c) => sortable.includes(c.id)).map((c) => ({ id: c.id, label: labelOf(c.id) ?? c.id }));
+
   return (
     <div className="overflow-hidden rounded-xl border border-stone-200 bg-white shadow-sm">
+      {sortOptions.length ? (
+        <PhoneSort caption={caption} options={sortOptions} sort={sort} dir={dir} hrefFor={(s, d) => href({ sort: s, dir: d, page: null })} />
+      ) : null}
       {/* Focusable so keyboard users can scroll a wide table sideways on a tablet; on a phone rows
           are cards and nothing scrolls. relative keeps visually hidden header text inside the box. */}
       <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>

@@ -19,6 +19,9 @@ export function TankLevelCard({ coop, units, initial }: { coop: string; units: U
   const cap = Number(t.capacityLiters) || 1;
   const pct = (l: string) => `${Math.min(100, Math.max(0, (Number(l) / cap) * 100)).toFixed(1)}%`;
   const v = (l: string) => formatVolume(Number(l), units, 0);
+  // Fuel held while a batch in a tank is under review (a recall): on hand, but neither reserved nor available.
+  const heldMl = Math.max(0, Math.round(Number(t.onHandLiters) * 1000) - Math.round(Number(t.reservedLiters) * 1000) - Math.round(Number(t.availableLiters) * 1000));
+  const held = heldMl > 0 ? formatVolume(heldMl / 1000, units, 0) : null;
   return (
     <section className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm" aria-labelledby="tank-level-h">
       <h2 id="tank-level-h" className="text-base">Fuel in the tank{t.tanks > 1 ? `s (${t.tanks})` : ''}</h2>
@@ -36,8 +39,9 @@ export function TankLevelCard({ coop, units, initial }: { coop: string; units: U
             <div><dt className="flex items-center gap-1 text-stone-600"><span className="inline-block h-2.5 w-2.5 rounded-sm bg-amber-500" aria-hidden="true" />Reserved</dt><dd className="font-semibold tabular-nums">{v(t.reservedLiters)}</dd></div>
             <div><dt className="text-stone-600">Capacity</dt><dd className="font-semibold tabular-nums">{v(t.capacityLiters)}</dd></div>
           </dl>
+          {held ? <p className="mt-2 text-sm font-semibold text-danger-700">{held} held: a batch is under review, so this fuel cannot be reserved or drawn.</p> : null}
           {error ? <p role="status" className="mt-2 text-xs text-warn-700">Could not refresh just now; showing the last figures.</p> : null}
-          <p className="sr-only" aria-live="polite">{v(t.availableLiters)} available</p>
+          <p className="sr-only" aria-live="polite">{v(t.availableLiters)} available{held ? `; ${held} held` : ''}</p>
         </>
       )}
     </section>

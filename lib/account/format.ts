@@ -1,22 +1,24 @@
 // Date wording for account screens and e-mails (pure; safe in client components too).
-import { formatDate } from '@/lib/dates';
+import { formatDate, formatWhen } from '@/lib/dates';
 
-function inZone(at: Date, options: Intl.DateTimeFormatOptions, timeZone: string): { text: string; timeZone: string } {
+/** The zone itself when the runtime knows it, else UTC (what lib/dates falls back to). */
+function knownZone(timeZone: string): string {
   try {
-    return { text: new Intl.DateTimeFormat('en-GB', { ...options, timeZone }).format(at), timeZone };
+    new Intl.DateTimeFormat('en-US', { timeZone });
+    return timeZone;
   } catch {
     // An unknown zone name in a co-op's settings must not stop a page or an e-mail.
-    return { text: new Intl.DateTimeFormat('en-GB', { ...options, timeZone: 'UTC' }).format(at), timeZone: 'UTC' };
+    return 'UTC';
   }
 }
 
 /**
- * "Tuesday, 8 December 2026 at 14:05 (America/Chicago)": when an e-mailed link stops working,
- * in the co-op's time zone (UTC for person-level e-mails that belong to no co-op).
+ * "Dec 8, 2026, 14:05 (America/Chicago)": when an e-mailed link stops working, in the one style
+ * (lib/dates) and the co-op's time zone, named so nobody has to guess whose clock it is.
  */
 export function formatExpiry(at: Date, timeZone = 'UTC'): string {
-  const r = inZone(at, { dateStyle: 'full', timeStyle: 'short' }, timeZone);
-  return `${r.text} (${r.timeZone})`;
+  const zone = knownZone(timeZone);
+  return `${formatWhen(at, zone)} (${zone})`;
 }
 
 /** "Dec 8, 2026" in the given time zone (tables; the one style, lib/dates). */

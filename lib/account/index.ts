@@ -14,6 +14,7 @@ import { conflict, HttpError, notFound } from '@/lib/http';
 import { enqueueMail } from '@/lib/jobs';
 import { appUrl } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
+import { personTimeZone } from '@/lib/account/zone';
 import type {
   emailChangeSchema, passwordChangeSchema, passwordResetSchema, profileUpdateSchema,
 } from '@/lib/validation/auth';
@@ -160,6 +161,7 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
   }
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + EMAIL_CHANGE_TTL_MS);
+  const zone = await personTimeZone(user.id);
   await inTransaction(async (transaction) => {
     await AuthToken.update({ usedAt: fn('now') }, { where: { userId: user.id, kind: 'email-change', usedAt: null }, transaction });
     await AuthToken.create({ userId: user.id, kind: 'email-change', tokenHash: hash, newEmail: input.email, expiresAt, usedAt: null }, { transaction });
@@ -176,7 +178,7 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
           '',
           `  ${appUrl(`/confirm-email/${token}`)}`,
           '',
-          `The link works once and expires on ${formatExpiry(expiresAt)}.`,
+          `The link works once and expires on ${formatExpiry(expiresAt, zone)}.`,
           'If you did not ask for this, ignore this e-mail: your address stays as it is.',
           '',
           '-- ',
@@ -310,7 +312,7 @@ export async function requestPasswordReset(email: string): Promise<{ to: string;
       '',
       `  ${appUrl(`/reset-password/${token}`)}`,
       '',
-      `The link works once and expires on ${formatExpiry(expiresAt)}.`,
+      `The link works once and expires on ${formatExpiry(expiresAt, await personTimeZone(user.id))}.`,
       'Setting a new password signs you out on every device.',
       'If you did not ask for this, ignore this e-mail: your password stays as it is.',
       '',

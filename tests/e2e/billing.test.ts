@@ -1,25 +1,10 @@
 // The whole month in headless Chromium: the treasurer prepares and issues the month, a member
 // pays by card, the treasurer sees it reconciled and closes the month. Screenshots at phone
 // and desktop widths; axe checks on every screen.
-import fs from 'node:fs';
-import path from 'node:path';
-import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { baseUrl, sql, TEST_PASSWORD } from '../support/api';
 import { dayIn, insertDraw, makeBillingCoop, monthsAgo } from '../support/billing';
-import { checkA11y, expectAnnounced, signInUi, SHOTS, withBrowser } from '../support/browser';
-
-async function shoot(page: Page, name: string) {
-  for (const width of [360, 1280]) {
-    await page.setViewportSize({ width, height: 900 });
-    const file = path.join(SHOTS, `billing-${name}-${width}.png`);
-    await page.screenshot({ path: file, fullPage: true });
-    expect(fs.statSync(file).size).toBeGreaterThan(5_000);
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
-    expect(overflow, `${name} scrolls sideways at ${width} px`).toBeLessThanOrEqual(0);
-  }
-  await page.setViewportSize({ width: 1280, height: 900 });
-}
+import { checkA11y, expectAnnounced, shootBothWidths, signInUi, withBrowser } from '../support/browser';
 
 describe('billing a month in the browser', () => {
   it('treasurer issues the month, a member pays by card, the treasurer sees it reconciled and closes the month', async () => {
@@ -36,20 +21,18 @@ describe('billing a month in the browser', () => {
       await signInUi(page, c.treasurer.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${slug}/billing`);
       await page.getByRole('heading', { level: 1, name: 'Billing' }).waitFor();
-      await checkA11y(page);
-      await shoot(page, 'overview');
+      await shootBothWidths(page, 'billing-overview');
       await page.getByLabel('Month to invoice').fill(month);
       await page.getByRole('button', { name: 'Prepare draft invoices' }).click();
       await page.waitForURL(new RegExp(`/billing/${month}$`));
       const issue = page.getByRole('button', { name: 'Issue 2 invoices and e-mail them' });
       await issue.waitFor({ timeout: 30_000 });
       await page.getByRole('cell', { name: '$65.81' }).first().waitFor();
-      await checkA11y(page);
-      await shoot(page, 'drafts');
+      await shootBothWidths(page, 'billing-drafts');
       await issue.click();
       await page.getByText(/Issued 2 invoice\(s\), INV-000001 to INV-000002/).waitFor();
       await page.getByRole('link', { name: 'INV-000001' }).waitFor();
-      await shoot(page, 'issued');
+      await shootBothWidths(page, 'billing-issued');
     });
 
     await withBrowser(async (page) => {
@@ -57,18 +40,15 @@ describe('billing a month in the browser', () => {
       await signInUi(page, nell.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${slug}/invoices`);
       await page.getByText('$65.81').first().waitFor();
-      await checkA11y(page);
-      await shoot(page, 'member-invoices');
+      await shootBothWidths(page, 'billing-member-invoices');
       await page.getByRole('link', { name: 'INV-000001' }).click();
       await page.waitForURL(/\/invoices\/\d+$/);
       await page.getByText(/test cards only/i).waitFor();
-      await checkA11y(page);
-      await shoot(page, 'member-pay');
+      await shootBothWidths(page, 'billing-member-pay');
       await page.getByLabel('Card').selectOption('test-approved');
       await page.getByRole('button', { name: 'Pay $65.81 by card' }).click();
       await page.getByText('This invoice is paid in full. Thank you!').waitFor({ timeout: 20_000 });
-      await checkA11y(page);
-      await shoot(page, 'member-paid');
+      await shootBothWidths(page, 'billing-member-paid');
     });
     const [paid] = await sql<{ status: string; paid_cents: string }>(`SELECT status, paid_cents FROM invoices WHERE coop_id = $1 AND number = 1`, [c.coop.id]);
     expect(paid).toEqual({ status: 'paid', paid_cents: '6581' });
@@ -81,8 +61,7 @@ describe('billing a month in the browser', () => {
       await nellRow.getByText('Paid', { exact: true }).waitFor();
       await page.getByText('✓ Paid on these invoices = payments applied to them: $65.81 = $65.81', { exact: false }).waitFor();
       await page.getByText('Every payment received this month is matched.').waitFor();
-      await checkA11y(page);
-      await shoot(page, 'reconciled');
+      await shootBothWidths(page, 'billing-reconciled');
       // Closing is confirmed in a dialog that says what it locks; the result is announced and focused.
       const monthName = new Intl.DateTimeFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${month}-15T00:00:00Z`));
       await page.getByRole('button', { name: `Close ${monthName}…` }).click();
@@ -93,8 +72,7 @@ describe('billing a month in the browser', () => {
       await page.getByText('This month is closed').first().waitFor();
       await expectAnnounced(page, `${monthName} is closed`);
       await page.getByText('Closed', { exact: true }).first().waitFor();
-      await checkA11y(page);
-      await shoot(page, 'closed');
+      await shootBothWidths(page, 'billing-closed');
     });
     const [period] = await sql<{ status: string }>(`SELECT status FROM billing_periods WHERE coop_id = $1`, [c.coop.id]);
     expect(period!.status).toBe('closed');

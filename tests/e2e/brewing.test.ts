@@ -1,27 +1,14 @@
 // A brewer plans a batch and records it to release in headless Chromium, at phone and desktop
 // widths, with axe-core checks on the planner and the batch page.
-import fs from 'node:fs';
-import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { baseUrl, makeCoop, makeUser, sql, TEST_PASSWORD } from '../support/api';
-import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
-
-async function shoot(page: Page, name: string) {
-  for (const width of [360, 1280]) {
-    await page.setViewportSize({ width, height: 900 });
-    const file = path.join(SHOTS, `brewing-${name}-${width}.png`);
-    await page.screenshot({ path: file, fullPage: true });
-    expect(fs.statSync(file).size).toBeGreaterThan(5_000);
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
-    expect(overflow, `${name} scrolls sideways at ${width}px`).toBeLessThanOrEqual(0);
-  }
-}
+import { checkA11y, shootBothWidths, signInUi, withBrowser } from '../support/browser';
 
 const section = (page: Page, title: string) => page.locator('section', { has: page.getByRole('heading', { name: title, exact: true }) });
 
 describe('brewing in the browser', () => {
-  it('a brewer plans a batch, records every step and releases it into the tank', async () => {
+  it('a brewer plans a batch, records every step and releases it into the tank', { timeout: 240_000 }, async () => {
     const coop = await makeCoop({ settings: { recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } } });
     const brewer = await makeUser({ coopId: coop.id, role: 'brewer', name: 'Rowan Ashby' });
     const [tank] = await sql<{ id: number }>(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main tank', 2000) RETURNING id`, [coop.id]);
@@ -45,8 +32,7 @@ describe('brewing in the browser', () => {
       await expect(page.getByText('KOH to weigh').waitFor({ timeout: 15_000 })).resolves.toBeUndefined();
       // 30 gal = 113.562 L (NIST gallon); (4.91 ÷ 0.9 + 3.5) g/L × 113.562 L = 1017.0 g (purity rule, common practice)
       await expect(page.getByText('1.017 kg').first().waitFor({ timeout: 10_000 })).resolves.toBeUndefined();
-      await shoot(page, 'planner');
-      await checkA11y(page);
+      await shootBothWidths(page, 'brewing-planner');
 
       await Promise.all([page.waitForURL(/\/batches\/\d+$/), page.getByRole('button', { name: 'Create batch' }).click()]);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Batch 1');
@@ -107,13 +93,11 @@ describe('brewing in the browser', () => {
       await dialog.getByRole('button', { name: 'Release — can’t be undone' }).click();
       await page.getByText('Cost per gallon').waitFor({ timeout: 15_000 });
       await page.getByRole('link', { name: 'Download batch quality record (PDF)' }).waitFor();
-      await shoot(page, 'batch-released');
-      await checkA11y(page);
+      await shootBothWidths(page, 'brewing-batch-released');
 
       await page.goto(`${baseUrl()}/c/${coop.slug}/batches`);
       await page.getByRole('link', { name: 'Batch 1' }).waitFor();
-      await shoot(page, 'list');
-      await checkA11y(page);
+      await shootBothWidths(page, 'brewing-list');
     });
 
     const [batch] = await sql<{ status: string; released_liters: string; actual_catalyst_grams: string; total_cost_cents: string }>(
@@ -123,26 +107,23 @@ describe('brewing in the browser', () => {
     expect(t).toEqual({ on_hand_liters: '105.992', value_cents: batch!.total_cost_cents });
   });
 
-  it('supplies pages work at phone and desktop widths and pass axe', async () => {
+  it('supplies pages work at phone and desktop widths and pass axe', { timeout: 240_000 }, async () => {
     await withBrowser(async (page) => {
       await signInUi(page, 'juniper.brewer@example.org', 'tallyvat-demo-2026');
       await page.goto(`${baseUrl()}/c/prairie-lantern/supplies`);
       await page.getByRole('heading', { name: 'Stock on hand' }).waitFor();
-      await shoot(page, 'supplies');
-      await checkA11y(page);
+      await shootBothWidths(page, 'brewing-supplies');
       await page.goto(`${baseUrl()}/c/prairie-lantern/supplies/oil`);
       await page.getByRole('heading', { name: 'Oil lots', exact: true }).waitFor();
-      await shoot(page, 'oil');
-      await checkA11y(page);
+      await shootBothWidths(page, 'brewing-oil');
       await page.goto(`${baseUrl()}/c/prairie-lantern/batches`);
       await page.getByRole('link', { name: /Batch \d+/ }).first().click();
       await page.getByRole('heading', { level: 1, name: /Batch \d+/ }).waitFor();
-      await shoot(page, 'demo-batch');
-      await checkA11y(page);
+      await shootBothWidths(page, 'brewing-demo-batch');
     });
   });
 
-  it('a member sees released batches only, with the quality summary', async () => {
+  it('a member sees released batches only, with the quality summary', { timeout: 240_000 }, async () => {
     await withBrowser(async (page) => {
       await signInUi(page, 'dale.member@example.org', 'tallyvat-demo-2026');
       await page.goto(`${baseUrl()}/c/prairie-lantern/batches`);
@@ -153,8 +134,7 @@ describe('brewing in the browser', () => {
       await page.getByRole('heading', { name: 'Quality' }).waitFor();
       await expect(page.getByText(/screening only/).count()).resolves.toBeGreaterThan(0);
       await expect(page.getByRole('button', { name: /Move to/ }).count()).resolves.toBe(0);
-      await shoot(page, 'member-batch');
-      await checkA11y(page);
+      await shootBothWidths(page, 'brewing-member-batch');
       // Pages check the role on the server too: the planner is not for members.
       await page.goto(`${baseUrl()}/c/prairie-lantern/planner`);
       await page.getByRole('heading', { name: 'Not part of your role' }).waitFor();

@@ -143,4 +143,30 @@ describe('at 360×740', () => {
       await shot(page, 'billing-reconciled');
     });
   }, 150_000);
+
+  it('an admin sorts the member cards with the Sort by control (the headers are hidden on a phone)', async () => {
+    const names = { admin: 'Bea Ostrander', treasurer: 'Cyril Moss', brewer: 'Dana Quill' } as const;
+    for (const [role, name] of Object.entries(names)) await sql('UPDATE users SET name = $1 WHERE id = $2', [name, ctx.users[role as keyof typeof names].id]);
+    await withBrowser(async (page) => {
+      page.setDefaultTimeout(20_000);
+      await page.setViewportSize(PHONE);
+      await signInUi(page, ctx.users.admin.email, TEST_PASSWORD);
+      await page.goto(`${baseUrl()}/c/${slug}/members`);
+      const sortForm = page.getByRole('form', { name: 'Sort Members of the co-op' });
+      await sortForm.getByLabel('Sort by').selectOption({ label: 'Name' });
+      await sortForm.getByLabel('Order').selectOption('desc');
+      await checkA11y(page);
+      await shot(page, 'members-sort');
+      await Promise.all([page.waitForURL(/sort=name&dir=desc/), sortForm.getByRole('button', { name: 'Sort' }).click()]);
+      const table = page.getByRole('table', { name: 'Members of the co-op' });
+      await expect.poll(async () => {
+        const text = (await table.textContent()) ?? '';
+        return ['Ines Varga', 'Dana Quill', 'Cyril Moss', 'Bea Ostrander'].map((n) => text.indexOf(n));
+      }, { timeout: 20_000 }).toSatisfy((at: number[]) => at.every((x, i) => x >= 0 && (i === 0 || x > at[i - 1]!)));
+      // The control shows the order in force after the reload.
+      await expect(sortForm.getByLabel('Sort by').inputValue()).resolves.toBe('name');
+      await expect(sortForm.getByLabel('Order').inputValue()).resolves.toBe('desc');
+      await expectOnScreen(page, 'sort control', { control: sortForm.getByRole('button', { name: 'Sort' }) });
+    });
+  }, 150_000);
 });

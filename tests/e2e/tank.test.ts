@@ -1,24 +1,9 @@
 // In headless Chromium: a member reserves fuel on their own page, a brewer records the draw
 // against that reservation, and the member then sees the draw with its amount. Every screen on
 // the way is checked with axe-core and saved at phone and desktop widths.
-import fs from 'node:fs';
-import path from 'node:path';
-import type { Page } from 'playwright-core';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { baseUrl, makeCoopWithRoles, sql, TEST_PASSWORD } from '../support/api';
-import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
-
-async function shoot(page: Page, name: string) {
-  for (const width of [360, 1280]) {
-    await page.setViewportSize({ width, height: 900 });
-    await page.waitForTimeout(150);
-    const file = path.join(SHOTS, `${name}-${width}.png`);
-    await page.screenshot({ path: file, fullPage: true });
-    expect(fs.statSync(file).size).toBeGreaterThan(5_000);
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
-    expect(overflow, `${name} at ${width}px scrolls sideways`).toBeLessThanOrEqual(0);
-  }
-}
+import { checkA11y, shootBothWidths, signInUi, withBrowser } from '../support/browser';
 
 describe('reserve → draw → see it', () => {
   let ctx: Awaited<ReturnType<typeof makeCoopWithRoles>>;
@@ -48,8 +33,7 @@ describe('reserve → draw → see it', () => {
       const row = page.getByRole('table', { name: 'Reservations' }).getByRole('row').filter({ hasText: '10.0 gal' });
       await row.getByText('open').waitFor();
       await expect(page.getByTestId('reserve-available').textContent()).resolves.toBe('110.0 gal');
-      await shoot(page, 'tank-me-reserved');
-      await checkA11y(page);
+      await shootBothWidths(page, 'tank-me-reserved');
     });
 
     // 2. A brewer records the draw against it from the meter readings.
@@ -57,8 +41,7 @@ describe('reserve → draw → see it', () => {
       await signInUi(page, ctx.users.brewer.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${slug}/tank`);
       await page.getByRole('img', { name: /Yard tank: 120.0 gal on hand .* 10.0 gal reserved; 110.0 gal available/ }).waitFor();
-      await shoot(page, 'tank-page-brewer');
-      await checkA11y(page);
+      await shootBothWidths(page, 'tank-page-brewer');
       await page.goto(`${baseUrl()}/c/${slug}/draws`);
       const form = page.getByRole('form', { name: 'Record a draw' });
       await form.getByLabel('Member').selectOption({ label: 'Rosa Quill' });
@@ -70,8 +53,7 @@ describe('reserve → draw → see it', () => {
       // 9 gal at $4.50 = $40.50, road tax 24.4 ¢ × 9 = 219.6 → 220 ¢: $42.70
       await form.getByText(/Recorded draw #\d+: 9.00 gal for Rosa Quill, \$42.70/).waitFor();
       await page.getByRole('table', { name: 'Draws' }).getByText('$42.70').waitFor();
-      await shoot(page, 'tank-draws-brewer');
-      await checkA11y(page);
+      await shootBothWidths(page, 'tank-draws-brewer');
     });
 
     // 3. The member sees the draw, and the reservation as drawn.
@@ -83,8 +65,7 @@ describe('reserve → draw → see it', () => {
       await draws.getByText('9.0 gal', { exact: true }).waitFor();
       await page.getByRole('table', { name: 'Reservations' }).getByText(/drawn \(#\d+\)/).waitFor();
       await expect(page.getByTestId('reserve-available').textContent()).resolves.toBe('111.0 gal');
-      await shoot(page, 'tank-me-drawn');
-      await checkA11y(page);
+      await shootBothWidths(page, 'tank-me-drawn');
     });
 
     // 4. The treasurer sets a new price; it is in force for the next draw and the old one is history.
@@ -103,8 +84,7 @@ describe('reserve → draw → see it', () => {
       const history = page.getByRole('table', { name: 'Pricing history' });
       await history.getByText('in force').waitFor();
       await history.getByText('past').waitFor();
-      await shoot(page, 'tank-pricing-treasurer');
-      await checkA11y(page);
+      await shootBothWidths(page, 'tank-pricing-treasurer');
     });
   });
 });

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { formatDate, formatMonthDay, formatTime, formatWhen, isoDay } from '@/lib/dates';
+import { formatDate, formatMonth, formatMonthDay, formatTime, formatWhen, isoDay } from '@/lib/dates';
 import { formatDateIn } from '@/lib/billing/periods';
 import { formatDay } from '@/lib/account/format';
 import { dateText } from '@/components/brewing/format';
+import { xText } from '@/components/charts/x-text';
 
 // One instant near midnight: 2026-03-01 20:30 UTC is already Mar 2 in Tokyo (UTC+9, no DST;
 // IANA tz database) and still Mar 1 in Chicago (UTC−6 before the US change on Mar 8, 2026).
@@ -38,5 +39,13 @@ describe('lib/dates: one style, in the co-op’s zone', () => {
 
   it('falls back to UTC for a zone name the runtime does not know', () => {
     expect(formatWhen(AT, 'Mars/Olympus_Mons')).toBe('Mar 1, 2026, 20:30');
+  });
+
+  it('shows a month as "Feb 2026" (chart axes), never as ISO', () => {
+    expect(formatMonth('2026-02')).toBe('Feb 2026');
+    expect(formatMonth('2026-12')).toBe('Dec 2026');
+    expect(xText('2026-02')).toBe('Feb 2026');
+    expect(xText('2026-02-05')).toBe('Feb 5, 2026');
+    expect(xText('Batch 7')).toBe('Batch 7');
   });
 });

@@ -81,13 +81,21 @@ export async function expectAnnounced(page: Page, text: string | RegExp) {
 }
 
 /**
- * Full-page screenshots at 360 and 1280 px (800 high) named `<name>-<width>.png`; fails when the
- * page scrolls sideways at either width, then runs axe.
+ * The one screenshot helper: full-page screenshots at 360 and 1280 px (800 high) named
+ * `<name>-<width>.png`; fails when a shot is blank or the page scrolls sideways at either width,
+ * then runs axe (at 1280 px, where it leaves the page).
  */
 export async function shootBothWidths(page: Page, name: string) {
   for (const width of [360, 1280]) {
     await page.setViewportSize({ width, height: 800 });
-    await page.screenshot({ path: path.join(SHOTS, `${name}-${width}.png`), fullPage: true });
+    // Let the layout settle at the new width (two frames, at most half a second) before measuring and shooting.
+    await page.evaluate(() => new Promise((done) => {
+      requestAnimationFrame(() => requestAnimationFrame(() => done(null)));
+      setTimeout(() => done(null), 500);
+    }));
+    const file = path.join(SHOTS, `${name}-${width}.png`);
+    await page.screenshot({ path: file, fullPage: true });
+    expect(fs.statSync(file).size, `${name} at ${width}px looks blank`).toBeGreaterThan(5_000);
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
     expect(overflow, `${name} scrolls sideways at ${width}px`).toBeLessThanOrEqual(0);
   }

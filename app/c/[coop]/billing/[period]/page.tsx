@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { Fragment } from 'react';
 import { formatDate } from '@/lib/dates';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
@@ -11,6 +12,7 @@ import { Card, Notice } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { getPeriodOverview, listInvoices } from '@/lib/billing/invoices';
 import { PERIOD_PATTERN, periodLabel } from '@/lib/billing/periods';
+import { findPayments } from '@/lib/billing/payments-read';
 import { getReconciliation } from '@/lib/billing/reconciliation';
 import { formatCents } from '@/lib/money';
 import { invoiceListQuerySchema } from '@/lib/validation/billing';
@@ -36,6 +38,14 @@ export default async function BillingMonthPage({ params, searchParams }: { param
     : [];
   const money = (c: number) => formatCents(c, actor.coop.currency);
   const label = periodLabel(period);
+  // What was paid on this month's invoices, by the month the money arrived (the sum is "Paid").
+  const paidIds = recon.invoices.rows.filter((i) => i.paidCents > 0).map((i) => i.id);
+  const paidByMonth = new Map<string, number>();
+  for (const p of paidIds.length ? await findPayments(actor.coop.id, { invoiceId: paidIds }) : []) {
+    if (p.appliedCents) paidByMonth.set(p.period, (paidByMonth.get(p.period) ?? 0) + p.appliedCents);
+  }
+  const paidMonths = [...paidByMonth].sort(([a], [b]) => a.localeCompare(b));
+  const paidOtherMonths = paidMonths.some(([m]) => m !== period);
   const exportHref = (kind: string) => `/api/coops/${coop}/billing/periods/${period}/export?kind=${kind}`;
   return (
     <div className="flex flex-col gap-6">
@@ -67,9 +77,15 @@ export default async function BillingMonthPage({ params, searchParams }: { param
             <dl className="grid grid-cols-2 gap-y-1 text-sm">
               <dt>Invoiced ({recon.invoices.issuedCount})</dt><dd className="text-right tabular-nums">{money(recon.invoices.invoicedCents)}</dd>
               <dt>Paid</dt><dd className="text-right tabular-nums">{money(recon.invoices.paidCents)}</dd>
+              {paidOtherMonths ? paidMonths.map(([m, c]) => (
+                <Fragment key={m}><dt className="pl-3 text-stone-600">with money received in {periodLabel(m)}</dt><dd className="text-right text-stone-600 tabular-nums">{money(c)}</dd></Fragment>
+              )) : null}
               <dt>Outstanding ({recon.invoices.unpaidCount} unpaid)</dt><dd className="text-right font-semibold tabular-nums">{money(recon.invoices.outstandingCents)}</dd>
               {recon.invoices.creditNotesCents ? <><dt>Credit notes</dt><dd className="text-right tabular-nums">{money(recon.invoices.creditNotesCents)}</dd></> : null}
             </dl>
+            {paidOtherMonths ? (
+              <p className="mt-2 text-xs text-stone-700">“Paid” counts every payment on these invoices, whenever the money came; “Money received” beside it counts only the money that arrived in {label}. An invoice for {label} paid the month after shows as paid here and as received in that month.</p>
+            ) : null}
           </Card>
           <Card title="Money received this month">
             <dl className="grid grid-cols-2 gap-y-1 text-sm">

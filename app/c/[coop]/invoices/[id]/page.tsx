@@ -7,6 +7,7 @@ import { PaymentConfirmingNotice } from '@/components/billing/payment-confirming
 import { Card } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { MIN_CARD_CHARGE_CENTS } from '@/lib/billing/card';
+import { whyNoDues } from '@/lib/billing/dues-note';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
 import { formatDateIn } from '@/lib/billing/periods';
 import { METHOD_LABEL } from '@/lib/billing/status';
@@ -23,12 +24,13 @@ export default async function MyInvoicePage({ params }: { params: Promise<{ coop
     if (e instanceof HttpError && e.status === 404) notFound();
     throw e;
   });
+  const duesNote = await whyNoDues(actor.coop, inv, 'member');
   const money = (c: number) => formatCents(c, actor.coop.currency);
   const payable = inv.kind === 'invoice' && (inv.status === 'issued' || inv.status === 'partly-paid');
   return (
     <div className="flex flex-col gap-6">
       <Link href={`/c/${coop}/invoices`} className="text-sm">← My invoices</Link>
-      <InvoiceSummaryView inv={inv} coop={actor.coop} />
+      <InvoiceSummaryView inv={inv} coop={actor.coop} duesNote={duesNote} />
       <div className="grid gap-4 *:min-w-0 lg:grid-cols-2">
         <Card title={payable ? 'Pay this invoice' : inv.status === 'paid' ? 'Paid' : 'Payment'}>
           {payable && inv.pendingAttempt ? <PaymentConfirmingNotice startedAt={inv.pendingAttempt.createdAt} timezone={actor.coop.timezone} audience="member" /> : null}

@@ -8,6 +8,7 @@ import { PaymentsTable } from '@/components/billing/payments-table';
 import { EmailStatusText } from '@/components/billing/status-badge';
 import { Card, Notice } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
+import { whyNoDues } from '@/lib/billing/dues-note';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
 import { formatDateIn } from '@/lib/billing/periods';
 import { todayIn } from '@/lib/dates';
@@ -23,11 +24,12 @@ export default async function BillingInvoicePage({ params }: { params: Promise<{
     if (e instanceof HttpError && e.status === 404) notFound();
     throw e;
   });
+  const duesNote = await whyNoDues(actor.coop, inv, 'treasurer');
   const canVoid = inv.kind === 'invoice' && ['issued', 'partly-paid', 'paid'].includes(inv.status) && !inv.periodClosed && !inv.pendingAttempt;
   return (
     <div className="flex flex-col gap-6">
       <Link href={`/c/${coop}/billing/${inv.period}`} className="text-sm">← Billing month</Link>
-      <InvoiceSummaryView inv={inv} coop={actor.coop} />
+      <InvoiceSummaryView inv={inv} coop={actor.coop} duesNote={duesNote} />
       {inv.original ? <p className="text-sm">Cancels <Link href={`/c/${coop}/billing/invoices/${inv.original.id}`}>{inv.original.label}</Link>.</p> : null}
       {inv.creditNote ? <p className="text-sm">Cancelled by <Link href={`/c/${coop}/billing/invoices/${inv.creditNote.id}`}>{inv.creditNote.label}</Link>.</p> : null}
       {inv.periodClosed ? <Notice title="This month is closed">This invoice can no longer be changed or voided. Correct it with an adjustment on the member’s next invoice.</Notice> : null}
