@@ -8,7 +8,7 @@ export { releaseBatch, rejectBatch } from './release';
 export { planBatch, type PlannerResult, type ChemicalCoverage } from './planner';
 export { addBatchFile, getBatchFile, BATCH_FILE_KINDS } from './files';
 export { batchCertificate } from './certificate';
-export { overviewQuality, qualityOf, type BatchQuality, type ReleasedQuality } from './verdicts';
+export { qualityOf, type BatchQuality } from './verdicts';
 export { unacknowledgedDangers, acknowledgeDanger, type DangerAlert } from './danger';
 export { readUpload, fileResponse, type CheckedUpload } from './upload';
 export type { ComputedPlan } from './plan';

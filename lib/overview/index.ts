@@ -12,7 +12,7 @@ import { stockState, summarizeStock } from '@/lib/supplies/stock';
 import { listTanks, type TankDto } from '@/lib/tank';
 import { mlToLiters } from '@/lib/tank/quantity';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
-import { overviewQuality } from '@/lib/batches';
+import { qualityOf } from '@/lib/batches';
 import { Batch } from '@/models';
 import { dailyTankLevel, monthlyVolumes, overviewCards, topOwing, type CardsRow } from './queries';
 import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
@@ -49,20 +49,28 @@ export function priceSummaryOf(row: (PolicyRow & { id: number }) | undefined, av
 }
 
 
+/** A batch's verdict in the one wording (lib/batches qualityOf). */
+const verdict = (b: Parameters<typeof qualityOf>[0]) => {
+  const { text, kind } = qualityOf(b);
+  return { text, kind };
+};
+
 /** Batch steps between planned and released: the work under way. */
 const WORKING = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'] as const;
 
 /** Batches under way (from the cards row) with their verdicts, the latest released ones, the next planned batch, and whether the chemicals it uses are covered. */
 function brewerSectionOf(
-  working: NonNullable<CardsRow['working']>, { lots, needs }: Awaited<ReturnType<typeof stockState>>, quality: Awaited<ReturnType<typeof overviewQuality>>,
+  working: NonNullable<CardsRow['working']>, released: NonNullable<CardsRow['released']>, { lots, needs }: Awaited<ReturnType<typeof stockState>>,
 ): BrewerSection {
   const summary = summarizeStock(lots, needs);
   const next = needs.next;
   return {
     inProgress: working.map((b) => ({
-      id: b.id, number: b.number, status: b.status, oilLiters: Number(b.oilLiters), since: new Date(b.since).toISOString(), quality: quality.working.get(b.id) ?? null, // null only if it moved on between the two reads
+      id: b.id, number: b.number, status: b.status, oilLiters: Number(b.oilLiters), since: new Date(b.since).toISOString(), quality: verdict(b),
     })),
-    recentReleased: quality.released,
+    recentReleased: released.map((b) => ({
+      id: b.id, number: b.number, releasedAt: new Date(b.releasedAt).toISOString(), releasedLiters: Number(b.releasedLiters), quality: verdict(b),
+    })),
     nextPlanned: next ? { id: next.id, number: next.number, batchDate: next.batchDate, oilLiters: next.oilLiters, catalyst: next.catalyst } : null,
     stock: summary.lines.filter((l) => l.nextPlannedNeed !== null).map((l) => ({ kind: l.kind, unit: l.unit, available: l.available, need: l.nextPlannedNeed!, low: l.low })),
   };
@@ -163,7 +171,7 @@ function charts(actor: Actor) {
  * next one, with the batches' quality verdicts; treasurers the month's billing; admins pending invitations and recent changes. The
  * reads run in parallel: the tanks and the price in force (their domains' own reads), every other
  * card figure in one statement (overviewCards), and for brewers the chemical stock and the batches'
- * quality verdicts (lib/batches overviewQuality, two small indexed reads); the
+ * quality verdicts (judged by lib/batches qualityOf from columns the cards statement reads); the
  * figures on cards are read fresh on every request, chart series are SQL aggregates (months in
  * the co-op's time zone), never rows loaded into JavaScript, kept per process for a minute.
  * Reads only: nothing is written.
@@ -175,17 +183,16 @@ export async function getOverview(actor: Actor): Promise<Overview> {
   const isTreasurer = can(actor.role, 'billing:manage');
   const isAdmin = can(actor.role, 'members:manage');
   const period = currentPeriod(actor.coop.timezone);
-  const [tanks, policy, cards, stock, [volumes, level, batchCosts, balances], quality] = await Promise.all([
+  const [tanks, policy, cards, stock, [volumes, level, batchCosts, balances]] = await Promise.all([
     listTanks(actor, { activeOnly: true }),
     policyInForce(c),
     overviewCards({ coopId: c, membershipId: actor.membershipId, openStatuses: OPEN_STATUSES, working: WORKING, period: periodToDate(period), brewer: isBrewer, treasurer: isTreasurer, admin: isAdmin }),
     isBrewer ? stockState(c, undefined, { totals: true }) : null,
     charts(actor),
-    isBrewer ? overviewQuality(c, WORKING) : null,
   ]);
   const openReservations = cards.reservations.map((r) => ({ ...r, windowEnd: new Date(r.windowEnd).toISOString() }));
   const account = { outstandingCents: Number(cards.outstandingCents), creditCents: Number(cards.creditCents), unallocatedCents: Number(cards.unallocatedCents) };
-  const brewer = cards.working && stock && quality ? brewerSectionOf(cards.working, stock, quality) : null;
+  const brewer = cards.working && cards.released && stock ? brewerSectionOf(cards.working, cards.released, stock) : null;
   const treasurer = cards.invoiceSums ? treasurerSectionOf(period, cards.invoiceSums, cards.unmatched) : null;
   const admin = cards.invitations && cards.events
     ? { pendingInvitations: Number(cards.invitations.pending), notSentInvitations: Number(cards.invitations.notSent), recentEvents: cards.events.map((e) => ({ at: new Date(e.at).toISOString(), who: e.who, action: e.action })) }

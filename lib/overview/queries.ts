@@ -2,7 +2,7 @@ import 'server-only';
 import { QueryTypes } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { InferAttributes } from 'sequelize';
-import type { Invoice, Membership, TankMovement, User } from '@/models';
+import type { Batch, Invoice, Membership, TankMovement, User } from '@/models';
 
 // The overview's statements a model query can't say: chart series over a calendar made with
 // generate_series (months or days with no rows still appear, as zero), the tank level carried
@@ -98,13 +98,17 @@ export function topOwing(coopId: number): Promise<OwingRow[]> {
   );
 }
 
+/** What a batch's verdict is judged from (lib/batches qualityOf). */
+type VerdictColumns = Pick<InferAttributes<Batch>, 'qualityStandard' | 'labResults'>;
+
 /** The overview's cards in one row: my figures always, each role section only when asked for (else null). */
 export interface CardsRow {
   reservations: { id: number; tankName: string; quantityLiters: string; windowEnd: string }[];
   outstandingCents: string;
   creditCents: string;
   unallocatedCents: string;
-  working: { id: number; number: number; status: string; oilLiters: string; since: string }[] | null;
+  working: ({ id: number; number: number; status: string; oilLiters: string; since: string } & VerdictColumns)[] | null;
+  released: ({ id: number; number: number; releasedAt: string; releasedLiters: string } & VerdictColumns)[] | null;
   invoiceSums: { kind: string; status: string; count: number; total: number; paid: number; owed: number }[] | null;
   unmatched: { count: number; cents: number } | null;
   invitations: { pending: number; notSent: number } | null;
@@ -114,7 +118,8 @@ export interface CardsRow {
 /**
  * Every card figure of the overview in one round trip (it was a dozen parallel model reads, the
  * largest cost of the first screen): my open reservations and my account (the same sums as
- * lib/billing's memberBalance), and — only for the roles that see them — the batches under way,
+ * lib/billing's memberBalance), and — only for the roles that see them — the batches under way and
+ * the three latest released (with what their quality verdicts are judged from),
  * the month's invoice sums by kind and status, unmatched payments, pending invitations and the
  * last eight audited changes. A section not asked for is an InitPlan never run and comes back null.
  */
@@ -134,8 +139,13 @@ export async function overviewCards(p: {
        (SELECT COALESCE(SUM(amount_cents), 0) FROM member_credits WHERE coop_id = $coopId AND membership_id = $membershipId) AS "creditCents",
        (SELECT COALESCE(SUM(unallocated_cents), 0) FROM payments WHERE coop_id = $coopId AND membership_id = $membershipId) AS "unallocatedCents",
        CASE WHEN $brewer THEN (SELECT COALESCE(json_agg(x ORDER BY x.number), '[]') FROM (
-          SELECT id, number, status, oil_liters::text AS "oilLiters", status_changed_at AS since FROM batches
+          SELECT id, number, status, oil_liters::text AS "oilLiters", status_changed_at AS since,
+                 quality_standard AS "qualityStandard", lab_results AS "labResults" FROM batches
           WHERE coop_id = $coopId AND status = ANY($working) ORDER BY number LIMIT 10) x) END AS working,
+       CASE WHEN $brewer THEN (SELECT COALESCE(json_agg(x ORDER BY x.number DESC), '[]') FROM (
+          SELECT id, number, released_at AS "releasedAt", released_liters::text AS "releasedLiters",
+                 quality_standard AS "qualityStandard", lab_results AS "labResults" FROM batches
+          WHERE coop_id = $coopId AND status = 'released' ORDER BY number DESC LIMIT 3) x) END AS released,
        CASE WHEN $treasurer THEN (SELECT COALESCE(json_agg(x), '[]') FROM (
           SELECT kind, status, COUNT(*) AS count, SUM(total_cents) AS total, SUM(paid_cents) AS paid,
                  SUM(GREATEST(total_cents - paid_cents, 0)) AS owed
