@@ -6,8 +6,8 @@ import { SignOutButton } from '@/components/shell/sign-out-button';
 import { Logo } from '@/components/ui/logo';
 import { Card, EmptyState } from '@/components/ui/notice';
 import { getProfile } from '@/lib/account';
-import { formatDay } from '@/lib/account/format';
 import { getSessionUser } from '@/lib/auth';
+import { formatDate } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'My profile' };
 export const dynamic = 'force-dynamic';
@@ -44,7 +44,7 @@ export default async function ProfilePage() {
                   {c.status === 'active' ? <Link href={`/c/${c.slug}`} className="font-semibold">{c.name}</Link> : <span className="font-semibold text-stone-700">{c.name}</span>}
                   <span className="text-sm text-stone-600">
                     {c.role}
-                    {c.status === 'suspended' ? ' · suspended' : ''} · joined {formatDay(c.joinedAt, c.timezone)}
+                    {c.status === 'suspended' ? ' · suspended' : ''} · joined {formatDate(c.joinedAt, c.timezone)}
                   </span>
                 </li>
               ))}

@@ -3,16 +3,16 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features } from '@/components/data-table/data-table';
 import { formatCents, formatRateCents } from '@/lib/money/format';
-import { formatDateIn } from '@/lib/billing/periods';
 import type { InvoiceLineDTO } from '@/lib/billing/types';
 import { formatVolume, perGallonToPerLiter, type UnitSystem } from '@/lib/units';
+import { formatDate } from '@/lib/dates';
 
 const col = createColumnHelper<Features, InvoiceLineDTO>();
 
 /** An invoice's lines: quantities in the co-op's units, rates per gallon or per litre. */
 export function InvoiceLinesTable({ lines, units, currency, timezone }: { lines: InvoiceLineDTO[]; units: UnitSystem; currency: string; timezone: string }) {
   const columns: DataColumn<InvoiceLineDTO>[] = [
-    col.accessor('occurredAt', { id: 'date', header: 'Date', cell: (c) => (c.getValue() ? formatDateIn(c.getValue()!, timezone) : '') }),
+    col.accessor('occurredAt', { id: 'date', header: 'Date', cell: (c) => (c.getValue() ? formatDate(c.getValue()!, timezone) : '') }),
     col.accessor('description', { meta: { priority: 'key' }, id: 'description', header: 'Description', cell: (c) => c.getValue() }),
     col.accessor('quantityLiters', { id: 'quantity', header: 'Quantity', cell: (c) => (c.getValue() === null ? '' : <span className="tabular-nums">{formatVolume(c.getValue()!, units, 2)}</span>) }),
     col.accessor('unitPriceCentsPerGallon', {

@@ -1,10 +1,11 @@
 import { formatCents, INVOICE_ROUNDING_NOTE } from '@/lib/money';
-import { formatDateIn, periodLabel } from '@/lib/billing/periods';
+import { periodLabel } from '@/lib/billing/periods';
 import type { InvoiceDetail } from '@/lib/billing/types';
 import { InvoiceLinesTable } from './invoice-lines-table';
 import { PaymentConfirmingBadge } from './payment-confirming';
 import { InvoiceStatusBadge } from './status-badge';
 import type { UnitSystem } from '@/lib/units';
+import { formatDate } from '@/lib/dates';
 
 /** The invoice itself, as both the treasurer and the member see it: header, lines, totals. */
 export function InvoiceSummaryView({ inv, coop, duesNote }: { inv: InvoiceDetail; coop: { units: UnitSystem; currency: string; timezone: string }; duesNote?: string | null }) {
@@ -20,10 +21,10 @@ export function InvoiceSummaryView({ inv, coop, duesNote }: { inv: InvoiceDetail
       <dl className="grid grid-cols-1 gap-x-6 gap-y-1 text-sm sm:grid-cols-2 lg:grid-cols-4">
         <div><dt className="text-stone-600">Member</dt><dd className="font-medium">{inv.memberName}</dd></div>
         <div><dt className="text-stone-600">Month</dt><dd className="font-medium">{periodLabel(inv.period)}</dd></div>
-        <div><dt className="text-stone-600">Issued</dt><dd className="font-medium">{inv.issuedAt ? formatDateIn(inv.issuedAt, coop.timezone) : 'Not yet'}</dd></div>
-        {!isCredit ? <div><dt className="text-stone-600">Due by</dt><dd className="font-medium">{inv.dueOn ? formatDateIn(inv.dueOn, coop.timezone) : '—'}</dd></div> : null}
+        <div><dt className="text-stone-600">Issued</dt><dd className="font-medium">{inv.issuedAt ? formatDate(inv.issuedAt, coop.timezone) : 'Not yet'}</dd></div>
+        {!isCredit ? <div><dt className="text-stone-600">Due by</dt><dd className="font-medium">{inv.dueOn ? formatDate(inv.dueOn, coop.timezone) : '—'}</dd></div> : null}
       </dl>
-      {inv.status === 'void' ? <p className="rounded-lg bg-stone-100 p-3 text-sm">Voided{inv.voidedAt ? ` on ${formatDateIn(inv.voidedAt, coop.timezone)}` : ''}: {inv.voidReason}{inv.creditNote ? ` — see credit note ${inv.creditNote.label}.` : ''}</p> : null}
+      {inv.status === 'void' ? <p className="rounded-lg bg-stone-100 p-3 text-sm">Voided{inv.voidedAt ? ` on ${formatDate(inv.voidedAt, coop.timezone)}` : ''}: {inv.voidReason}{inv.creditNote ? ` — see credit note ${inv.creditNote.label}.` : ''}</p> : null}
       <InvoiceLinesTable lines={inv.lines} units={coop.units} currency={coop.currency} timezone={coop.timezone} />
       {duesNote ? <p className="text-sm text-stone-700">{duesNote}</p> : null}
       <dl className="ml-auto grid w-full max-w-xs grid-cols-2 gap-y-1 text-sm">

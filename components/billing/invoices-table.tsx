@@ -4,9 +4,10 @@ import Link from 'next/link';
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
 import { formatCents } from '@/lib/money/format';
-import { formatDateIn, periodLabel } from '@/lib/billing/periods';
+import { periodLabel } from '@/lib/billing/periods';
 import type { InvoiceSummary } from '@/lib/billing/types';
 import { EmailStatusText, InvoiceStatusBadge } from './status-badge';
+import { formatDate } from '@/lib/dates';
 
 const col = createColumnHelper<Features, InvoiceSummary>();
 
@@ -35,7 +36,7 @@ export function InvoicesTable({
     col.accessor('paidCents', { id: 'paid', header: 'Paid', cell: (c) => <span className="tabular-nums">{money(c.getValue())}</span> }),
     col.accessor('outstandingCents', { meta: { priority: 'key' }, id: 'outstanding', header: 'Due', cell: (c) => <span className="tabular-nums font-semibold">{money(c.getValue())}</span> }),
     col.accessor('status', { meta: { priority: 'key' }, id: 'status', header: 'Status', cell: (c) => <InvoiceStatusBadge status={c.getValue()} kind={c.row.original.kind} overdue={c.row.original.overdue} /> }),
-    col.accessor('dueOn', { id: 'dueOn', header: 'Due by', cell: (c) => (c.getValue() && c.row.original.kind === 'invoice' ? formatDateIn(c.getValue()!, timezone) : '—') }),
+    col.accessor('dueOn', { id: 'dueOn', header: 'Due by', cell: (c) => (c.getValue() && c.row.original.kind === 'invoice' ? formatDate(c.getValue()!, timezone) : '—') }),
     ...(variant === 'treasurer' ? [col.accessor('emailStatus', { id: 'email', header: 'E-mail', cell: (c) => <EmailStatusText status={c.getValue()} /> })] : []),
   ];
   return (

@@ -1,5 +1,5 @@
 import { Notice } from '@/components/ui/notice';
-import { formatDateIn } from '@/lib/billing/periods';
+import { formatDate } from '@/lib/dates';
 
 /**
  * Beside an invoice's status while a card payment's outcome is unknown (the payment service's answer
@@ -16,7 +16,7 @@ export function PaymentConfirmingBadge() {
 
 /** The explanation of {@link PaymentConfirmingBadge}, worded for the member who paid or for the treasurer. */
 export function PaymentConfirmingNotice({ startedAt, timezone, audience }: { startedAt: string; timezone: string; audience: 'member' | 'treasurer' }) {
-  const when = formatDateIn(startedAt, timezone);
+  const when = formatDate(startedAt, timezone);
   return audience === 'member' ? (
     <Notice tone="warn" title="Payment being confirmed">
       Your card payment from {when} may have gone through; we are waiting for the payment service to confirm it, and this page will show it as paid once it does. You will not be charged twice: trying again uses the same payment.

@@ -4,10 +4,10 @@ import Link from 'next/link';
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
 import { formatCents } from '@/lib/money/format';
-import { formatDateIn } from '@/lib/billing/periods';
 import { METHOD_LABEL } from '@/lib/billing/status';
 import type { PaymentDTO } from '@/lib/billing/types';
 import { MatchPaymentForm, RefundForm, RetryRefundButton, type OpenInvoiceOption } from './action-forms';
+import { formatDate } from '@/lib/dates';
 
 const col = createColumnHelper<Features, PaymentDTO>();
 
@@ -17,7 +17,7 @@ export function PaymentsTable({ rows, pageInfo, coop, currency, timezone, openIn
 }) {
   const money = (c: number) => formatCents(c, currency);
   const columns: DataColumn<PaymentDTO>[] = [
-    col.accessor('receivedOn', { meta: { priority: 'key' }, id: 'received', header: 'Received', cell: (c) => formatDateIn(c.getValue(), timezone) }),
+    col.accessor('receivedOn', { meta: { priority: 'key' }, id: 'received', header: 'Received', cell: (c) => formatDate(c.getValue(), timezone) }),
     col.accessor('memberName', { meta: { priority: 'key' }, id: 'member', header: 'Member', cell: (c) => c.getValue() }),
     col.accessor('method', { id: 'method', header: 'Method', cell: (c) => <>{METHOD_LABEL[c.getValue()]}{c.row.original.reference ? <span className="block text-xs text-stone-600">{c.row.original.reference}</span> : null}</> }),
     col.accessor('amountCents', { meta: { priority: 'key' }, id: 'amount', header: 'Amount', cell: (c) => <span className="tabular-nums font-semibold">{money(c.getValue())}</span> }),

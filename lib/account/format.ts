@@ -1,5 +1,5 @@
 // Date wording for account screens and e-mails (pure; safe in client components too).
-import { formatDate, formatWhen } from '@/lib/dates';
+import { formatWhen } from '@/lib/dates';
 
 /** The zone itself when the runtime knows it, else UTC (what lib/dates falls back to). */
 function knownZone(timeZone: string): string {
@@ -19,9 +19,4 @@ function knownZone(timeZone: string): string {
 export function formatExpiry(at: Date, timeZone = 'UTC'): string {
   const zone = knownZone(timeZone);
   return `${formatWhen(at, zone)} (${zone})`;
-}
-
-/** "Dec 8, 2026" in the given time zone (tables; the one style, lib/dates). */
-export function formatDay(at: Date | string, timeZone = 'UTC'): string {
-  return formatDate(at, timeZone);
 }

@@ -7,8 +7,9 @@ import { formatCents } from '@/lib/money';
 import { Coop, Invoice } from '@/models';
 import { getInvoiceDetail } from './invoices';
 import { invoiceFileName, renderInvoicePdf, type PdfCoop } from './pdf';
-import { formatDateIn, periodLabel } from './periods';
+import { periodLabel } from './periods';
 import type { EmailStatus } from './types';
+import { formatDate } from '@/lib/dates';
 
 async function loadCoop(coopId: number): Promise<PdfCoop> {
   const c = await Coop.findByPk(coopId, { attributes: ['name', 'slug', 'units', 'currency', 'timezone'], raw: true });
@@ -28,7 +29,7 @@ async function composeInvoiceEmail(coopId: number, invoiceId: number, coop?: Pdf
   const first = inv.memberName.split(/\s+/)[0] || inv.memberName;
   const text = isCredit
     ? `Hello ${first},\n\n${c.name} has cancelled invoice ${inv.original?.label ?? ''} for ${periodLabel(inv.period)}. The credit note ${inv.label} is attached.\nAnything you had paid on that invoice is held as credit on your account and taken off your next invoice.\n\nYour invoices: ${appUrl(`/c/${c.slug}/invoices`)}\n\n— ${c.name} (sent by Tallyvat)\n`
-    : `Hello ${first},\n\nYour invoice ${inv.label} for ${periodLabel(inv.period)} from ${c.name} is attached.\nTotal: ${money(inv.totalCents)}. Amount due: ${money(inv.outstandingCents)}${inv.dueOn && inv.outstandingCents > 0 ? `, by ${formatDateIn(inv.dueOn, c.timezone)}` : ''}.\n\nPay by card or see all your invoices: ${appUrl(`/c/${c.slug}/invoices/${inv.id}`)}\nOr pay the treasurer in cash or by cheque, writing ${inv.label} on it.\n\n— ${c.name} (sent by Tallyvat)\n`;
+    : `Hello ${first},\n\nYour invoice ${inv.label} for ${periodLabel(inv.period)} from ${c.name} is attached.\nTotal: ${money(inv.totalCents)}. Amount due: ${money(inv.outstandingCents)}${inv.dueOn && inv.outstandingCents > 0 ? `, by ${formatDate(inv.dueOn, c.timezone)}` : ''}.\n\nPay by card or see all your invoices: ${appUrl(`/c/${c.slug}/invoices/${inv.id}`)}\nOr pay the treasurer in cash or by cheque, writing ${inv.label} on it.\n\n— ${c.name} (sent by Tallyvat)\n`;
   return {
     to: inv.memberEmail,
     subject: `${c.name}: ${isCredit ? 'credit note' : 'invoice'} ${inv.label} for ${periodLabel(inv.period)}`,

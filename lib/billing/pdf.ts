@@ -7,9 +7,10 @@ import type { Actor } from '@/lib/auth';
 import { getInvoiceDetail } from './invoices';
 import { formatVolume, perGallonToPerLiter } from '@/lib/units';
 import type { Coop } from '@/models';
-import { formatDateIn, periodLabel } from './periods';
+import { periodLabel } from './periods';
 import { INVOICE_STATUS_LABEL } from './status';
 import type { InvoiceDetail } from './types';
+import { formatDate } from '@/lib/dates';
 
 /** What an invoice PDF shows of its co-op. */
 export type PdfCoop = Pick<InferAttributes<Coop>, 'name' | 'slug' | 'units' | 'currency' | 'timezone'>;
@@ -55,8 +56,8 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
   const col2 = left + width / 2;
   doc.font('bold').text('Billing month', col2, metaTop);
   doc.font('regular').text(periodLabel(inv.period), col2);
-  if (inv.issuedAt) doc.text(`Issued ${formatDateIn(inv.issuedAt, coop.timezone)}`, col2);
-  if (inv.dueOn && !isCredit) doc.text(`Due ${formatDateIn(inv.dueOn, coop.timezone)}`, col2);
+  if (inv.issuedAt) doc.text(`Issued ${formatDate(inv.issuedAt, coop.timezone)}`, col2);
+  if (inv.dueOn && !isCredit) doc.text(`Due ${formatDate(inv.dueOn, coop.timezone)}`, col2);
   if (isCredit && inv.original) doc.text(`Cancels invoice ${inv.original.label ?? ''}`, col2);
 
   // Lines
@@ -87,7 +88,7 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
       header();
     }
     doc.fontSize(9);
-    doc.text(l.occurredAt ? formatDateIn(l.occurredAt, coop.timezone) : '', cols.date, y, { width: 70 });
+    doc.text(l.occurredAt ? formatDate(l.occurredAt, coop.timezone) : '', cols.date, y, { width: 70 });
     doc.text(l.description, cols.desc, y, { width: 215 });
     doc.text(l.quantityLiters === null ? '' : formatVolume(l.quantityLiters, coop.units, 2), cols.qty, y, { width: 75, align: 'right' });
     doc.text(rate, cols.rate, y, { width: 65, align: 'right' });

@@ -1,4 +1,4 @@
-import { formatDate, todayIn } from '@/lib/dates';
+import { todayIn } from '@/lib/dates';
 
 /**
  * Billing months, pure (safe for client components). A period is written 'YYYY-MM' in URLs and
@@ -63,7 +63,3 @@ export function invoiceLabel(kind: 'invoice' | 'credit-note', number: number | n
   return `${kind === 'credit-note' ? 'CN' : 'INV'}-${String(number).padStart(6, '0')}`;
 }
 
-/** A date or instant shown in the co-op's time zone, e.g. "Nov 3, 2026" (the one style: lib/dates). */
-export function formatDateIn(value: string | Date, timeZone: string): string {
-  return formatDate(value, timeZone);
-}

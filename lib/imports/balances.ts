@@ -3,8 +3,8 @@ import { col, fn, Op, where, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { conflict } from '@/lib/http';
 import { assertPeriodOpen, lockCoopBilling } from '@/lib/billing/locks';
-import { currentPeriod, formatDateIn, periodToDate } from '@/lib/billing/periods';
-import { todayIn } from '@/lib/dates';
+import { currentPeriod, periodToDate } from '@/lib/billing/periods';
+import { todayIn, formatDate } from '@/lib/dates';
 import { formatCents } from '@/lib/money';
 import { emailSchema } from '@/lib/validation/auth';
 import { BillingAdjustment, InvoiceLine, Membership } from '@/models';
@@ -72,7 +72,7 @@ export const openingBalances: OpeningKind<Key, Plan> = {
       if (asOf && asOf > today) c.fail('asOf', 'The date is in the future.');
       const owes = (cents ?? 0) > 0;
       const note = cents !== null && asOf && member
-        ? `${member.name} ${owes ? 'owes' : 'has a credit of'} ${formatCents(Math.abs(cents), currency)} as of ${formatDateIn(asOf, timezone)}; carried by the next invoice.`
+        ? `${member.name} ${owes ? 'owes' : 'has a credit of'} ${formatCents(Math.abs(cents), currency)} as of ${formatDate(asOf, timezone)}; carried by the next invoice.`
         : '';
       return c.done(note, member && cents !== null && asOf ? { membershipId: member.id, amountCents: cents, asOf } : null);
     });
@@ -85,7 +85,7 @@ export const openingBalances: OpeningKind<Key, Plan> = {
     const created = await BillingAdjustment.bulkCreate(
       rows.map((r) => ({
         coopId, membershipId: r.plan!.membershipId, amountCents: r.plan!.amountCents, period, createdByUserId: actor.user.id,
-        description: `${OPENING_BALANCE_PREFIX} ${formatDateIn(r.plan!.asOf, actor.coop.timezone)}`,
+        description: `${OPENING_BALANCE_PREFIX} ${formatDate(r.plan!.asOf, actor.coop.timezone)}`,
       })),
       { transaction: t, returning: ['id'] },
     );

@@ -1,8 +1,7 @@
 import 'server-only';
 import { Op, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
-import { formatDateIn } from '@/lib/billing/periods';
-import { todayIn } from '@/lib/dates';
+import { todayIn, formatDate } from '@/lib/dates';
 import { batchCost } from '@/lib/costing';
 import { conflict } from '@/lib/http';
 import { formatCents, roundHalfUp } from '@/lib/money';
@@ -137,7 +136,7 @@ export const pastBatches: OpeningKind<Key, Plan> = {
       if (!verdict) c.fail('verdict', `"${cells.verdict}" is not a verdict: write pass, fail or leave it empty.`);
       if (cells.notes.length > 2000) c.fail('notes', 'At most 2,000 characters.');
       const note = date && oilMl && fuelMl
-        ? `${number ? `Batch ${number}` : 'Numbered on import'}, ${formatDateIn(date, timezone)}: ${formatMl(oilMl, units)} of oil → ${formatMl(fuelMl, units)} of fuel`
+        ? `${number ? `Batch ${number}` : 'Numbered on import'}, ${formatDate(date, timezone)}: ${formatMl(oilMl, units)} of oil → ${formatMl(fuelMl, units)} of fuel`
           + (costs ? `, ${formatCents(costs.total, currency)}${costs.perGallon !== null ? ` (${formatCents(costs.perGallon, currency)}/gal)` : ''}` : ', cost not recorded')
           + (verdict === 'pass' ? ', passed.' : verdict === 'fail' ? ', failed.' : '.')
         : '';

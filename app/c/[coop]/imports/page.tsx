@@ -4,10 +4,10 @@ import { InvitationImporter } from '@/components/imports/invitation-importer';
 import { OpeningImporter } from '@/components/imports/opening-importer';
 import type { ImportTemplate } from '@/lib/imports/templates';
 import { Card, EmptyState } from '@/components/ui/notice';
-import { formatDay } from '@/lib/account/format';
 import { requirePageActor } from '@/lib/auth';
 import { IMPORT_TEMPLATES, listImports } from '@/lib/imports';
 import { FATE_LABEL } from '@/lib/imports/invitations';
+import { formatDate } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Import from a spreadsheet' };
 
@@ -69,7 +69,7 @@ export default async function ImportsPage({ params }: { params: Promise<{ coop: 
                 <span>
                   <Link href={`/c/${slug}/imports/${i.kind}/${i.id}`} className="font-medium break-all">{i.fileName}</Link>
                   <span className="block text-sm text-stone-600">
-                    {i.kind} · {formatDay(i.createdAt, actor.coop.timezone)}{i.createdBy ? ` · by ${i.createdBy}` : ''}{i.status === 'undone' ? ' · undone' : ''}
+                    {i.kind} · {formatDate(i.createdAt, actor.coop.timezone)}{i.createdBy ? ` · by ${i.createdBy}` : ''}{i.status === 'undone' ? ' · undone' : ''}
                   </span>
                 </span>
                 <span className="text-sm text-stone-700">{i.rowsImported} imported · {i.rowsSkipped} skipped</span>

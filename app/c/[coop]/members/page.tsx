@@ -7,12 +7,12 @@ import { MembersTable } from '@/components/members/members-table';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Card, Notice } from '@/components/ui/notice';
-import { formatDay } from '@/lib/account/format';
 import { requirePageActor } from '@/lib/auth';
 import { ROLES } from '@/lib/auth/roles';
 import { listPendingInvitations } from '@/lib/invitations';
 import { listMembers } from '@/lib/members';
 import { memberListQuerySchema } from '@/lib/validation/members';
+import { formatDate } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Members' };
 
@@ -29,12 +29,12 @@ export default async function MembersPage({ params, searchParams }: { params: Pr
   const tz = actor.coop.timezone;
   const rows: MemberRow[] = page.rows.map((m) => ({
     id: m.id, name: m.name, email: m.email, role: m.role, status: m.status, isYou: m.isYou,
-    joinedLabel: formatDay(m.joinedAt, tz),
+    joinedLabel: formatDate(m.joinedAt, tz),
     lastAdmin: m.role === 'admin' && m.status === 'active' && page.activeAdmins <= 1,
   }));
   const invitationRows: InvitationRow[] = invitations.map((i) => ({
     id: i.id, email: i.email, role: i.role, delivery: i.delivery, expired: i.expired, invitedBy: i.invitedBy,
-    expiresLabel: formatDay(i.expiresAt, tz),
+    expiresLabel: formatDate(i.expiresAt, tz),
   }));
   const filtered = Boolean(query.role || query.status || query.q);
 

@@ -9,10 +9,10 @@ import { requirePageActor } from '@/lib/auth';
 import { MIN_CARD_CHARGE_CENTS } from '@/lib/billing/card';
 import { whyNoDues } from '@/lib/billing/dues-note';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
-import { formatDateIn } from '@/lib/billing/periods';
 import { METHOD_LABEL } from '@/lib/billing/status';
 import { HttpError } from '@/lib/http';
 import { formatCents } from '@/lib/money';
+import { formatDate } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Invoice' };
 
@@ -54,7 +54,7 @@ export default async function MyInvoicePage({ params }: { params: Promise<{ coop
               <h3 className="mt-4 font-semibold text-fir-900">Payments received</h3>
               <ul className="mt-1 text-sm">
                 {inv.payments.map((p) => (
-                  <li key={p.id}>{formatDateIn(p.receivedOn, actor.coop.timezone)} — {METHOD_LABEL[p.method]} {money(p.amountCents)}{p.creditedCents ? ` (${money(p.creditedCents)} kept as credit)` : ''}</li>
+                  <li key={p.id}>{formatDate(p.receivedOn, actor.coop.timezone)} — {METHOD_LABEL[p.method]} {money(p.amountCents)}{p.creditedCents ? ` (${money(p.creditedCents)} kept as credit)` : ''}</li>
                 ))}
               </ul>
             </>

@@ -10,8 +10,7 @@ import { Card, Notice } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { whyNoDues } from '@/lib/billing/dues-note';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
-import { formatDateIn } from '@/lib/billing/periods';
-import { todayIn } from '@/lib/dates';
+import { todayIn, formatDate } from '@/lib/dates';
 import { HttpError } from '@/lib/http';
 
 export const metadata: Metadata = { title: 'Invoice' };
@@ -41,7 +40,7 @@ export default async function BillingInvoicePage({ params }: { params: Promise<{
             <a className="font-semibold" href={`/api/coops/${coop}/billing/invoices/${inv.id}/pdf`}>Download PDF</a>
             {inv.status !== 'draft' ? (
               <>
-                <p>E-mail to {inv.memberEmail}: <EmailStatusText status={inv.emailStatus} />{inv.emailedAt ? `, last sent ${formatDateIn(inv.emailedAt, actor.coop.timezone)}` : ''} ({inv.emailAttempts} attempt{inv.emailAttempts === 1 ? '' : 's'}).</p>
+                <p>E-mail to {inv.memberEmail}: <EmailStatusText status={inv.emailStatus} />{inv.emailedAt ? `, last sent ${formatDate(inv.emailedAt, actor.coop.timezone)}` : ''} ({inv.emailAttempts} attempt{inv.emailAttempts === 1 ? '' : 's'}).</p>
                 <ResendButton coop={coop} invoiceId={inv.id} />
               </>
             ) : (

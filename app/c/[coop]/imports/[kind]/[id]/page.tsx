@@ -2,7 +2,6 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { ImportResult } from '@/components/imports/import-result';
-import { formatDay } from '@/lib/account/format';
 import { requirePageActor } from '@/lib/auth';
 import { getImport, IMPORT_TEMPLATES } from '@/lib/imports';
 import { OpeningResult } from '@/components/imports/opening-result';
@@ -10,6 +9,7 @@ import { RESULT_LABEL } from '@/lib/imports/invitations';
 import { HttpError } from '@/lib/http';
 import { toId } from '@/lib/validation/common';
 import { importKindSchema } from '@/lib/validation/imports';
+import { formatDate } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Import result' };
 
@@ -30,9 +30,9 @@ export default async function ImportResultPage({ params }: { params: Promise<{ c
         <p className="text-sm"><Link href={`/c/${slug}/imports`}>← Imports</Link></p>
         <h1 className="break-all">{template.title} from {detail.import.fileName}</h1>
         <p className="text-stone-600">
-          Imported {formatDay(detail.import.createdAt, actor.coop.timezone)}{detail.import.createdBy ? ` by ${detail.import.createdBy}` : ''}:
+          Imported {formatDate(detail.import.createdAt, actor.coop.timezone)}{detail.import.createdBy ? ` by ${detail.import.createdBy}` : ''}:
           {' '}{detail.import.rowsImported} imported, {detail.import.rowsSkipped} skipped of {detail.import.rowsTotal} rows.
-          {detail.import.undoneAt ? ` Undone ${formatDay(detail.import.undoneAt, actor.coop.timezone)}.` : ''}
+          {detail.import.undoneAt ? ` Undone ${formatDate(detail.import.undoneAt, actor.coop.timezone)}.` : ''}
         </p>
       </div>
       {k.data === 'invitations' ? (
