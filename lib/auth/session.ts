@@ -6,15 +6,16 @@ import { cache } from 'react';
 import type { InferAttributes } from 'sequelize';
 import { forbidden, HttpError, notFound, unauthorized } from '@/lib/http';
 import type { Role } from '@/lib/auth/roles';
-import { Coop, Membership, Session, User } from '@/models';
+import { Coop, Membership } from '@/models';
 import type { CoopSettings } from '@/models/Coop';
 import type { MembershipStatus } from '@/models/Membership';
 import { can, type Action } from './policies';
 import { requireTokenMember } from './api-tokens';
-import { liveSessionWhere, touchSession } from './sessions';
+import { sessionRow } from './queries';
+import { hashSessionId, SESSION_IDLE_DAYS, touchSession } from './sessions';
 
 export type { Actor, SessionUser } from './actor';
-import type { Actor, ActorCoop, SessionUser } from './actor';
+import type { Actor, SessionUser } from './actor';
 
 /** What the session cookie says: the user id and the server-side session's id (lib/auth/sessions.ts). */
 interface SessionClaims {
@@ -40,17 +41,6 @@ const readSession = cache(async (): Promise<SessionClaims | null> => {
   return Number.isInteger(uid) && uid > 0 && typeof sid === 'string' && sid.length > 0 && sid.length <= 64 ? { uid, sid } : null;
 });
 
-const USER_ATTRIBUTES = ['id', 'email', 'name'] as const;
-
-/** The cookie's session row, required in the user's query: no live session, no user. */
-const sessionInclude = (session: SessionClaims) => ({
-  model: Session,
-  as: 'sessions',
-  required: true,
-  attributes: ['id'],
-  where: liveSessionWhere(session.sid),
-});
-
 /**
  * The signed-in user, re-read from the database on every request with the cookie's session row
  * in the same query: a session that was signed out, revoked, expired or idle counts as signed out.
@@ -58,7 +48,7 @@ const sessionInclude = (session: SessionClaims) => ({
 export const getSessionUser = cache(async (): Promise<SessionUser | null> => {
   const session = await readSession();
   if (!session) return null;
-  const user = await User.findByPk(session.uid, { attributes: [...USER_ATTRIBUTES], include: [sessionInclude(session)], raw: true, nest: true });
+  const user = await loadSessionRow(session, null);
   return user && { id: user.id, email: user.email, name: user.name };
 });
 
@@ -98,35 +88,9 @@ export const listMyCoops = cache(async (userId: number): Promise<MyCoop[]> => {
   return rows.map((m) => ({ slug: m.coop.slug, name: m.coop.name, role: m.role, status: m.status }));
 });
 
-/**
- * The user with their live session and their membership in the co-op of the URL, as one row
- * (raw, nested): `memberships` is the membership in that co-op, all nulls when there is none.
- */
-type SessionRow = Pick<InferAttributes<User>, (typeof USER_ATTRIBUTES)[number]> & {
-  sessions: { id: string };
-  memberships: { id: number | null; role: Role; status: MembershipStatus; coop: ActorCoop };
-};
-
-/** One query: the user, their live session, and their membership in the co-op whose slug is given. */
-const loadSessionRow = cache(async (session: SessionClaims, coopSlug: string): Promise<SessionRow | null> =>
-  (await User.findByPk(session.uid, {
-    attributes: [...USER_ATTRIBUTES],
-    include: [sessionInclude(session), {
-      model: Membership,
-      as: 'memberships',
-      required: false,
-      attributes: ['id', 'role', 'status'],
-      include: [{
-        model: Coop,
-        as: 'coop',
-        required: true,
-        where: { slug: coopSlug },
-        attributes: ['id', 'slug', 'name', 'units', 'currency', 'timezone', 'settings'],
-      }],
-    }],
-    raw: true,
-    nest: true,
-  })) as unknown as SessionRow | null,
+/** The user with their live session and their membership in the co-op of the URL (lib/auth/queries.ts). */
+const loadSessionRow = cache((session: SessionClaims, coopSlug: string | null) =>
+  sessionRow({ userId: session.uid, tokenHash: hashSessionId(session.sid), idleDays: SESSION_IDLE_DAYS, coopSlug }),
 );
 
 /**
@@ -143,15 +107,14 @@ export async function requireMember(coopSlug: string, action: Action): Promise<A
   if (!session) throw unauthorized();
   const row = await loadSessionRow(session, String(coopSlug).slice(0, 60));
   if (!row) throw unauthorized();
-  const m = row.memberships;
-  if (m.id === null) throw notFound('Co-op not found.');
-  if (m.status !== 'active') throw forbidden('Your membership in this co-op is suspended.');
-  if (!can(m.role, action)) throw forbidden();
+  if (row.membershipId === null || !row.role || !row.coop) throw notFound('Co-op not found.');
+  if (row.status !== 'active') throw forbidden('Your membership in this co-op is suspended.');
+  if (!can(row.role, action)) throw forbidden();
   return {
     user: { id: row.id, email: row.email, name: row.name },
-    role: m.role,
-    membershipId: m.id,
-    coop: { ...m.coop, settings: (m.coop.settings ?? {}) as CoopSettings },
+    role: row.role,
+    membershipId: row.membershipId,
+    coop: { ...row.coop, settings: (row.coop.settings ?? {}) as CoopSettings },
   };
 }
 

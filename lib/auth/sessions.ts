@@ -1,6 +1,6 @@
 import 'server-only';
 import crypto from 'node:crypto';
-import { fn, literal, Op, type Transaction, type WhereOptions } from 'sequelize';
+import { fn, Op, type Transaction } from 'sequelize';
 import { Session } from '@/models';
 
 /**
@@ -12,6 +12,7 @@ import { Session } from '@/models';
  *  - not idle: last seen less than SESSION_IDLE_DAYS ago. "Seen" is recorded at sign-in and on
  *    writes through `touchSession` (at most once an hour); reads never write, so a session used
  *    only for reading for a week must sign in again.
+ * The per-request check is one bound statement, `sessionRow` in lib/auth/queries.ts.
  */
 export const SESSION_MAX_AGE_DAYS = 30;
 export const SESSION_IDLE_DAYS = 7;
@@ -42,16 +43,6 @@ export async function startSession(userId: number, userAgent: string | null | un
     userAgent: summarizeUserAgent(userAgent),
   });
   return sid;
-}
-
-/** The `where` of a session that still counts (used inside requireMember's one query). */
-export function liveSessionWhere(sid: string): WhereOptions<Session> {
-  return {
-    tokenHash: hashSessionId(sid),
-    revokedAt: null,
-    expiresAt: { [Op.gt]: fn('now') },
-    lastSeenAt: { [Op.gt]: literal(`now() - interval '${SESSION_IDLE_DAYS} days'`) },
-  };
 }
 
 /** Revokes one session (sign-out). */
