@@ -945,8 +945,8 @@ export interface components {
       tankName: string;
       membershipId: number;
       memberName: string;
-      reservationId: number | null;
       quantityLiters: number;
+      reservationId: number | null;
       /** @description In the co-op's unit; negative on a reversal. */
       quantity: number;
       meterBefore: number | null;

@@ -58,14 +58,12 @@ export const movementSchema = z
   })
   .meta({ id: 'TankMovement' });
 
+/** Who took or holds fuel from which tank, and how much: shared by reservations and draws. */
+const memberTankFields = { id: int(), tankId: int(), tankName: str(), membershipId: int(), memberName: str(), quantityLiters: num() };
+
 export const reservationSchema = z
   .object({
-    id: int(),
-    tankId: int(),
-    tankName: str(),
-    membershipId: int(),
-    memberName: str(),
-    quantityLiters: num(),
+    ...memberTankFields,
     quantity: num().describe('In the co-op\'s unit.'),
     windowStart: date(),
     windowEnd: date(),
@@ -80,13 +78,8 @@ export const drawBatchSchema = z.object({ batchId: int().nullable(), batchNumber
 
 export const drawSchema = z
   .object({
-    id: int(),
-    tankId: int(),
-    tankName: str(),
-    membershipId: int(),
-    memberName: str(),
+    ...memberTankFields,
     reservationId: int().nullable(),
-    quantityLiters: num(),
     quantity: num().describe('In the co-op\'s unit; negative on a reversal.'),
     meterBefore: num().nullable(),
     meterAfter: num().nullable(),
