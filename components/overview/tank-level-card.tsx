@@ -19,9 +19,8 @@ export function TankLevelCard({ coop, units, initial }: { coop: string; units: U
   const cap = Number(t.capacityLiters) || 1;
   const pct = (l: string) => `${Math.min(100, Math.max(0, (Number(l) / cap) * 100)).toFixed(1)}%`;
   const v = (l: string) => formatVolume(Number(l), units, 0);
-  // Fuel held while a batch in a tank is under review (a recall): on hand, but neither reserved nor available.
-  const heldMl = Math.max(0, Math.round(Number(t.onHandLiters) * 1000) - Math.round(Number(t.reservedLiters) * 1000) - Math.round(Number(t.availableLiters) * 1000));
-  const held = heldMl > 0 ? formatVolume(heldMl / 1000, units, 0) : null;
+  // Fuel held while a batch in a tank is under review (a recall): on hand, not for reserving or drawing.
+  const held = Number(t.heldLiters) > 0 ? formatVolume(Number(t.heldLiters), units, 0) : null;
   return (
     <section className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm" aria-labelledby="tank-level-h">
       <h2 id="tank-level-h" className="text-base">Fuel in the tank{t.tanks > 1 ? `s (${t.tanks})` : ''}</h2>

@@ -24,7 +24,7 @@ export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, Tan
  * lib/tank's list (the same figures as the tank page); sums are taken in whole millilitres.
  */
 export function tankSummaryOf(tanks: TankDto[]): TankSummary {
-  const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'capacityLiters') => tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
+  const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'capacityLiters') => tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
   const onHandMl = sumMl('onHandLiters');
   const reservedMl = sumMl('reservedLiters');
   const availableMl = tanks.reduce((a, t) => a + Math.round(t.availableLiters * 1000), 0);
@@ -32,6 +32,7 @@ export function tankSummaryOf(tanks: TankDto[]): TankSummary {
   return {
     onHandLiters: mlToLiters(onHandMl),
     reservedLiters: mlToLiters(reservedMl),
+    heldLiters: mlToLiters(sumMl('heldLiters')),
     availableLiters: mlToLiters(availableMl),
     capacityLiters: mlToLiters(sumMl('capacityLiters')),
     avgCostCentsPerGallon: onHandMl > 0 ? Math.round((valueCents / (onHandMl / 1000)) * LITERS_PER_US_GALLON) : null,

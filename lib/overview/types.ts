@@ -4,6 +4,8 @@ import type { PricingPolicy } from '@/lib/pricing';
 export interface TankSummary {
   onHandLiters: string;
   reservedLiters: string;
+  /** Held while a batch in it is under review (reserved fuel included): on hand, not for drawing. */
+  heldLiters: string;
   availableLiters: string;
   capacityLiters: string;
   avgCostCentsPerGallon: number | null;

@@ -144,7 +144,9 @@ describe('batch lineage and recall', () => {
     const page = await ctx.agents.member.get(`/c/${ctx.coop.slug}`).expect(200);
     expect(page.text).toMatch(/Fuel you drew from batch 2 is under review/);
     const other = await bystander.agent.get(`/c/${ctx.coop.slug}`).expect(200);
-    expect(other.text).not.toMatch(/is under review/);
+    expect(other.text).not.toMatch(/Fuel you drew/);
+    // Everyone's tank card names the held fuel (all 399 L: reserved fuel on held layers included).
+    expect(other.text).toMatch(/399 L<!-- --> held: a batch is under review/);
     expect(await countRows('audit_events', `coop_id = $1 AND action = 'batch.review.open'`, [ctx.coop.id])).toBe(1);
   });
 
