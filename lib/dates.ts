@@ -1,5 +1,6 @@
 import { tz, TZDate } from '@date-fns/tz';
 import { format } from 'date-fns';
+import { isTimeZone } from '@/lib/validation/common';
 
 /**
  * The one way to show dates and times: always in the co-op's time zone, always in one shape —
@@ -13,20 +14,12 @@ import { format } from 'date-fns';
  */
 const DAY_ONLY = /^\d{4}-\d{2}-\d{2}$/;
 
-/** The zone name when the runtime knows it, else 'UTC': a mistyped zone in a co-op's settings
- * must never stop a page or an e-mail. */
+/** The zone name when it is one (lib/validation's check, cached), else 'UTC': a mistyped zone in a
+ * co-op's settings must never stop a page or an e-mail. */
 const known = new Map<string, string>();
 function safeZone(timeZone: string): string {
   let z = known.get(timeZone);
-  if (!z) {
-    try {
-      new Intl.DateTimeFormat('en-US', { timeZone });
-      z = timeZone;
-    } catch {
-      z = 'UTC';
-    }
-    known.set(timeZone, z);
-  }
+  if (!z) known.set(timeZone, (z = isTimeZone(timeZone) ? timeZone : 'UTC'));
   return z;
 }
 
