@@ -1,6 +1,6 @@
 import Link from 'next/link';
 import { auditSentence } from '@/components/audit/audit-words';
-import { formatMonthDay } from '@/lib/dates';
+import { formatDate, formatMonthDay } from '@/lib/dates';
 import { BalancesChart, BatchCostChart } from '@/components/overview/cost-charts';
 import { TankLevelCard } from '@/components/overview/tank-level-card';
 import { VolumeCharts } from '@/components/overview/volume-charts';
@@ -121,7 +121,7 @@ export default async function OverviewPage({ params }: { params: Promise<{ coop:
               {o.brewer.nextPlanned ? (
                 <>
                   <p className="text-sm">
-                    <Link href={`${base}/batches/${o.brewer.nextPlanned.id}`}>Batch {o.brewer.nextPlanned.number}</Link>: {formatVolume(o.brewer.nextPlanned.oilLiters, units, 0)} of oil with {o.brewer.nextPlanned.catalyst}, planned for {o.brewer.nextPlanned.batchDate}.
+                    <Link href={`${base}/batches/${o.brewer.nextPlanned.id}`}>Batch {o.brewer.nextPlanned.number}</Link>: {formatVolume(o.brewer.nextPlanned.oilLiters, units, 0)} of oil with {o.brewer.nextPlanned.catalyst}, planned for {formatDate(o.brewer.nextPlanned.batchDate, actor.coop.timezone)}.
                   </p>
                   <ul className="mt-2 flex flex-col gap-1 text-sm">
                     {o.brewer.stock.map((s) => (
