@@ -85,6 +85,7 @@ try {
     await new Promise((res) => setTimeout(res, 200));
   }
   const cpu0 = workers.map((w) => serverCpuMs(w.child.pid));
+  const catcherCpu0 = process.cpuUsage();
   const pgCpu = postgresCpuMeter(path.join(root, 'pg', 'cluster'));
   const t0 = Date.now();
   const issued = await (await post(`/api/coops/bench-mail/billing/periods/${period}/issue`, {})).json();
@@ -100,8 +101,9 @@ try {
   const seconds = (Date.now() - t0) / 1000;
   const workerCpu = workers.reduce((sum, w, i) => sum + (serverCpuMs(w.child.pid) ?? 0) - (cpu0[i] ?? 0), 0);
   const pgMs = pgCpu();
+  const catcherCpu = process.cpuUsage(catcherCpu0);
   // On a busy machine the wall time says little; the CPU per message says what a quiet one would do.
-  log(`CPU per e-mail: worker ${(workerCpu / N).toFixed(1)} ms, PostgreSQL ${pgMs === null ? '?' : (pgMs / N).toFixed(1)} ms (the issue request included)`);
+  log(`CPU per e-mail: worker ${(workerCpu / N).toFixed(1)} ms, PostgreSQL ${pgMs === null ? '?' : (pgMs / N).toFixed(1)} ms (the issue request included); this process (the SMTP catcher) ${((catcherCpu.user + catcherCpu.system) / 1000 / N).toFixed(1)} ms`);
   const { rows: [s] } = await pool.query(`SELECT count(*) FILTER (WHERE email_status = 'sent') AS sent, count(*) AS total FROM invoices WHERE coop_id = $1`, [coop.id]);
   log(`${N} invoice e-mails delivered in ${seconds.toFixed(1)} s (${(N / seconds).toFixed(1)}/s) with ${WORKERS} worker(s); invoices marked sent: ${s.sent}/${s.total}`);
   log(`budget: ${BUDGET_S.toFixed(0)} s for ${N} (12,000 in 180 s) → ${seconds <= BUDGET_S ? 'met' : 'MISSED'}`);

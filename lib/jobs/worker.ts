@@ -1,6 +1,6 @@
 import 'server-only';
 import { fn, Op } from 'sequelize';
-import { PgBoss, type Job } from 'pg-boss';
+import { PgBoss, type Job, type JobResult } from 'pg-boss';
 import { settleUnknownAttempts } from '@/lib/billing/card';
 import { invoiceEmailGaveUp, deliverInvoiceEmailJob } from '@/lib/billing/mail';
 import { runChunk, runGaveUp } from '@/lib/billing/run';
@@ -17,8 +17,12 @@ import { QUEUES, type InvitationMailJob, type InvoiceMailJob, type PlainMailJob,
 
 const log = (...a: unknown[]) => console.log('[worker]', ...a);
 
-/** Invoice e-mails handled at once by one worker process (PDF rendering is the CPU part). */
+/** Invoice e-mails handled at once by one worker process (PDF rendering is the CPU part): this many
+ * fetch loops, each taking a few jobs per fetch. pg-boss fetches again at once only while a fetch
+ * comes back full and holds more than one job, so one job per fetch would cap a loop at two jobs a
+ * second (the half-second poll). */
 const MAIL_CONCURRENCY = Number(process.env.WORKER_MAIL_CONCURRENCY ?? 8);
+const MAIL_BATCH = 4;
 
 /** A plain e-mail: the job is what it is (its id survives retries), so it is its own ledger subject. */
 async function plainMail(job: Job<PlainMailJob>): Promise<void> {
@@ -72,13 +76,25 @@ async function registerWork(boss: PgBoss, guard: (e: unknown) => void): Promise<
     }
   };
   const fast = { pollingIntervalSeconds: 0.5, burstWhenBatchFull: true } as const;
-  await boss.work<InvoiceMailJob>(QUEUES.invoiceMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, g(async ([job]) => {
-    await deliverInvoiceEmailJob(job!.data.coopId, job!.data.invoiceId, `${QUEUES.invoiceMail}:${job!.id}`);
+  // Mail jobs come a few per fetch and are settled one by one: one failed send retries alone.
+  const mail = { ...fast, batchSize: MAIL_BATCH, perJobResults: true } as const;
+  const each = <T>(f: (job: Job<T>) => Promise<unknown>) => async (jobs: Job<T>[]): Promise<JobResult[]> =>
+    Promise.all(jobs.map(async (job): Promise<JobResult> => {
+      try {
+        await f(job);
+        return { id: job.id, status: 'completed' };
+      } catch (e) {
+        guard(e);
+        return { id: job.id, status: 'failed', output: { message: e instanceof Error ? e.message : String(e) } };
+      }
+    }));
+  await boss.work(QUEUES.invoiceMail, { ...mail, localConcurrency: MAIL_CONCURRENCY }, each<InvoiceMailJob>(async (job) => {
+    await deliverInvoiceEmailJob(job.data.coopId, job.data.invoiceId, `${QUEUES.invoiceMail}:${job.id}`);
   }));
-  await boss.work<InvitationMailJob>(QUEUES.invitationMail, { ...fast, batchSize: 1, localConcurrency: MAIL_CONCURRENCY }, g(async ([job]) => {
-    await deliverInvitationJob(job!.data.coopId, job!.data.invitationId);
+  await boss.work(QUEUES.invitationMail, { ...mail, localConcurrency: MAIL_CONCURRENCY }, each<InvitationMailJob>(async (job) => {
+    await deliverInvitationJob(job.data.coopId, job.data.invitationId);
   }));
-  await boss.work<PlainMailJob>(QUEUES.mail, { ...fast, batchSize: 1, localConcurrency: 4 }, g(async ([job]) => plainMail(job!)));
+  await boss.work(QUEUES.mail, { ...mail, localConcurrency: 2 }, each<PlainMailJob>(plainMail));
   await boss.work<InvoiceMailJob | InvitationMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, g(async ([job]) => {
     const d = job!.data;
     if ('invoiceId' in d) await invoiceEmailGaveUp(d.coopId, d.invoiceId);

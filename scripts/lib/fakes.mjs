@@ -25,33 +25,48 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
     disabledCommands: ['STARTTLS'],
     logger: false,
     size: 20 * 1024 * 1024,
+    // Accepting stores the raw message only; it is parsed when first read. Parsing a message with a
+    // PDF costs tens of milliseconds, which would make the catcher, not Tallyvat, the bottleneck.
     onData(stream, _session, callback) {
-      simpleParser(stream)
-        .then((mail) => {
-          messages.unshift({
-            id: nextId++,
-            messageId: mail.messageId ?? '',
-            date: (mail.date ?? new Date()).toISOString(),
-            from: mail.from?.text ?? '',
-            to: mail.to ? [].concat(mail.to).map((a) => a.text).join(', ') : '',
-            subject: mail.subject ?? '',
-            text: mail.text ?? '',
-            html: typeof mail.html === 'string' ? mail.html : '',
-            attachments: (mail.attachments ?? []).map((a) => ({ filename: a.filename, contentType: a.contentType, size: a.size, content: a.content })),
-          });
-          if (messages.length > 500) messages.length = 500;
-          callback();
-        })
-        .catch(callback);
+      const chunks = [];
+      stream.on('data', (c) => chunks.push(c));
+      stream.on('error', callback);
+      stream.on('end', () => {
+        messages.unshift({ id: nextId++, raw: Buffer.concat(chunks) });
+        if (messages.length > 500) messages.length = 500;
+        callback();
+      });
     },
   });
+  /** Parses the messages not yet read (in place), newest first. */
+  async function parsed() {
+    await Promise.all(messages.map(async (m) => {
+      if (!m.raw) return;
+      const { raw, ...rest } = m;
+      const mail = await simpleParser(raw);
+      Object.assign(m, {
+        ...rest,
+        messageId: mail.messageId ?? '',
+        date: (mail.date ?? new Date()).toISOString(),
+        from: mail.from?.text ?? '',
+        to: mail.to ? [].concat(mail.to).map((a) => a.text).join(', ') : '',
+        subject: mail.subject ?? '',
+        text: mail.text ?? '',
+        html: typeof mail.html === 'string' ? mail.html : '',
+        attachments: (mail.attachments ?? []).map((a) => ({ filename: a.filename, contentType: a.contentType, size: a.size, content: a.content })),
+      });
+      delete m.raw;
+    }));
+    return messages;
+  }
   await new Promise((resolve, reject) => {
     smtp.once('error', reject);
     smtp.listen(smtpPort, '127.0.0.1', resolve);
   });
 
   const esc = (s) => String(s).replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
-  const web = http.createServer((req, res) => {
+  const web = http.createServer(async (req, res) => {
+    await parsed();
     const url = new URL(req.url ?? '/', 'http://localhost');
     if (url.pathname === '/api/messages' && req.method === 'DELETE') {
       messages.length = 0;
@@ -93,7 +108,8 @@ ${m.attachments.map((a, i) => `<p>📎 <a href="/api/messages/${m.id}/attachment
   });
   log(`Mail catcher: SMTP on 127.0.0.1:${smtpPort}, inbox at http://127.0.0.1:${httpPort}/`);
   return {
-    messages,
+    /** The messages, parsed (newest first; the newest 500). */
+    messages: parsed,
     /** Every message received since start (the list above keeps only the newest 500). */
     received: () => nextId - 1,
     stop: () => Promise.all([new Promise((r) => smtp.close(r)), new Promise((r) => web.close(r))]),

@@ -40,7 +40,7 @@ let baseUrl = '';
 let logText = '';
 let worker: { child: ChildProcess; stop: () => Promise<void> } | null = null;
 let workerLog = '';
-let catcher: { messages: { to: string; subject: string }[]; stop: () => Promise<void> } | null = null;
+let catcher: { messages: () => Promise<{ to: string; subject: string }[]>; stop: () => Promise<void> } | null = null;
 
 /** A connection to the test's database apart from the server's, for arranging and checking rows. */
 const directConnection = () => new Sequelize(databaseUrl, { logging: false, pool: { max: 1, min: 0 } });
@@ -204,7 +204,7 @@ describe('database outage', () => {
     });
     await queued.close();
     const sentBy = Date.now() + 30_000;
-    while (!catcher!.messages.some((m) => m.to.includes('after-outage@example.test'))) {
+    while (!(await catcher!.messages()).some((m) => m.to.includes('after-outage@example.test'))) {
       expect(Date.now(), workerLog.slice(-4000)).toBeLessThan(sentBy);
       await sleep(200);
     }
