@@ -1,6 +1,5 @@
 import { tz, TZDate } from '@date-fns/tz';
 import { format } from 'date-fns';
-import { isTimeZone } from '@/lib/validation/common';
 
 /**
  * The one way to show dates and times: always in the co-op's time zone, always in one shape —
@@ -14,7 +13,20 @@ import { isTimeZone } from '@/lib/validation/common';
  */
 const DAY_ONLY = /^\d{4}-\d{2}-\d{2}$/;
 
-/** The zone name when it is one (lib/validation's check, cached), else 'UTC': a mistyped zone in a
+/** Whether the runtime knows `name` as an IANA time zone (America/Chicago, Europe/Berlin, UTC). */
+export function isTimeZone(name: string): boolean {
+  // Names only (Area/Location, UTC, Etc/GMT+5): the database resolves the same names, while the
+  // offsets some runtimes also accept ("+05:00") mean something else to it.
+  if (name.length > 60 || !/^[A-Za-z][A-Za-z0-9_+-]*(?:\/[A-Za-z0-9_+-]+){0,2}$/.test(name)) return false;
+  try {
+    new Intl.DateTimeFormat('en-US', { timeZone: name });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** The zone name when it is one (cached), else 'UTC': a mistyped zone in a
  * co-op's settings must never stop a page or an e-mail. */
 const known = new Map<string, string>();
 function safeZone(timeZone: string): string {

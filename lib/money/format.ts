@@ -1,4 +1,5 @@
 import { assertCents } from './rounding';
+import { numberFormat } from '@/lib/intl';
 
 /** Cents in one unit of the currencies the app supports (two-decimal currencies: USD, CAD, EUR, GBP …). */
 export const CENTS_PER_UNIT = 100; // ISO 4217 minor unit exponent 2 for USD, CAD, EUR, GBP
@@ -14,7 +15,7 @@ export const CENTS_PER_UNIT = 100; // ISO 4217 minor unit exponent 2 for USD, CA
  */
 export function formatCents(cents: number, currency = 'USD', locale = 'en-US'): string {
   assertCents(cents, 'cents');
-  return new Intl.NumberFormat(locale, {
+  return numberFormat(locale, {
     style: 'currency',
     currency,
     minimumFractionDigits: 2,
@@ -33,7 +34,7 @@ export function formatCents(cents: number, currency = 'USD', locale = 'en-US'): 
  */
 export function formatRateCents(rateCents: number, currency = 'USD', locale = 'en-US', maxDecimals = 3): string {
   if (!Number.isFinite(rateCents)) throw new RangeError(`rateCents must be finite, got ${rateCents}`);
-  return new Intl.NumberFormat(locale, {
+  return numberFormat(locale, {
     style: 'currency',
     currency,
     minimumFractionDigits: 2,

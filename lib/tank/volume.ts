@@ -1,4 +1,5 @@
 import { LITERS_PER_US_GALLON, volumeLabel, type UnitSystem } from '@/lib/units';
+import { numberFormat } from '@/lib/intl';
 
 /**
  * Volumes in the co-op's units ↔ stored millilitres (pure; safe in client components).
@@ -78,7 +79,7 @@ export function formatMl(ml: number, units: UnitSystem, opts: { digits?: number;
   const digits = opts.digits ?? 1;
   let v = opts.floor ? mlToUnitsFloor(ml, units, digits) : mlToUnits(ml, units);
   if (Number(v.toFixed(digits)) === 0) v = 0;
-  const text = new Intl.NumberFormat('en-US', { minimumFractionDigits: digits, maximumFractionDigits: digits }).format(v);
+  const text = numberFormat('en-US', { minimumFractionDigits: digits, maximumFractionDigits: digits }).format(v);
   return `${opts.signed && v > 0 ? '+' : ''}${text} ${volumeLabel(units)}`;
 }
 

@@ -1,4 +1,5 @@
 import { cToF, fToC, gallonsToLiters, litersToGallons } from './conversions';
+import { numberFormat } from '@/lib/intl';
 
 /** The display units a co-op chooses: US gallons and °F, or litres and °C. Storage is always litres and °C. */
 export type UnitSystem = 'us' | 'metric';
@@ -67,7 +68,7 @@ export function tempLabel(system: UnitSystem): '°F' | '°C' {
 function formatNumber(value: number, digits: number, locale: string): string {
   // Avoid "-0" for small negative values that round to zero (e.g. −0.2 °C at 0 digits).
   const shown = Number(value.toFixed(digits)) === 0 ? 0 : value;
-  return new Intl.NumberFormat(locale, {
+  return numberFormat(locale, {
     minimumFractionDigits: digits,
     maximumFractionDigits: digits,
   }).format(shown);

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isTimeZone } from '@/lib/dates';
 
 // Building blocks shared by every domain's schemas: ids, text without control characters, time
 // zones. One definition each, so every route judges the same input the same way.
@@ -51,19 +52,6 @@ export const textSchema = (max: number, opts: { multiline?: boolean; min?: numbe
     .min(opts.min ?? 0, opts.min ? `At least ${opts.min} character${opts.min === 1 ? '' : 's'}.` : undefined)
     .max(max, `At most ${max} characters.`)
     .refine((s) => !(opts.multiline ? CONTROL_CHARS : CONTROL_CHARS_ONE_LINE).test(s), 'Remove the control characters from this text.');
-
-/** Whether the runtime knows `tz` as an IANA time zone (America/Chicago, Europe/Berlin, UTC). */
-export function isTimeZone(tz: string): boolean {
-  // Names only (Area/Location, UTC, Etc/GMT+5): the database resolves the same names, while the
-  // offsets some runtimes also accept ("+05:00") mean something else to it.
-  if (tz.length > 60 || !/^[A-Za-z][A-Za-z0-9_+-]*(?:\/[A-Za-z0-9_+-]+){0,2}$/.test(tz)) return false;
-  try {
-    new Intl.DateTimeFormat('en-US', { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 /** An IANA time-zone name, checked against the runtime's own time-zone data. */
 export const timeZoneSchema = z
