@@ -1,9 +1,8 @@
 'use client';
 
-import { signOut } from 'next-auth/react';
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { signInWithPassword } from '@/components/auth/credentials';
+import { signInWithPassword, signOutTo } from '@/components/auth/credentials';
 import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-form';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
@@ -104,7 +103,7 @@ export function SignOutEverywhere() {
       setError(r.error);
       return;
     }
-    await signOut({ callbackUrl: '/sign-in' });
+    await signOutTo('/sign-in');
   }
   return (
     <div className="flex flex-col gap-3">

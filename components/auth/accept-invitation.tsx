@@ -1,12 +1,11 @@
 'use client';
 
-import { signOut } from 'next-auth/react';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, sendJson } from '@/components/forms/use-api-form';
-import { signInWithPassword } from './credentials';
+import { signInWithPassword, signOutTo } from './credentials';
 
 type Accepted = { coop: { slug: string; name: string }; role: string; email: string; newAccount: boolean };
 
@@ -80,7 +79,7 @@ export function JoinButton({ token, coopName }: { token: string; coopName: strin
 /** Signed in as someone else: sign out and come back to the same link. */
 export function SignOutAndReturn({ token }: { token: string }) {
   return (
-    <Button type="button" variant="secondary" onClick={() => signOut({ callbackUrl: `/invite/${token}` })}>
+    <Button type="button" variant="secondary" onClick={() => void signOutTo(`/invite/${token}`)}>
       Sign out and continue
     </Button>
   );

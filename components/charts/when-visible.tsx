@@ -2,9 +2,29 @@
 
 import { useEffect, useRef, useState, type ReactNode } from 'react';
 
+/** Runs `fn` once the page has loaded and the browser is idle (charts never compete with first paint). */
+function afterLoad(fn: () => void): () => void {
+  let cancelled = false;
+  const hasIdle = typeof window.requestIdleCallback === 'function';
+  let idle = 0;
+  const run = () => {
+    if (cancelled) return;
+    idle = hasIdle ? window.requestIdleCallback(fn, { timeout: 1500 }) : setTimeout(fn, 200) as unknown as number;
+  };
+  if (document.readyState === 'complete') run();
+  else window.addEventListener('load', run, { once: true });
+  return () => {
+    cancelled = true;
+    window.removeEventListener('load', run);
+    if (hasIdle) window.cancelIdleCallback(idle);
+    else clearTimeout(idle);
+  };
+}
+
 /**
- * Renders its children once the box comes near the screen (200 px ahead), so a chart's code and
- * drawing wait until someone scrolls to it; the box keeps its size meanwhile (no layout shift).
+ * Renders its children once the page has loaded and the box comes near the screen (200 px
+ * ahead), so a chart's code and drawing never hold up the first screen and wait until someone
+ * scrolls to it; the box keeps its size meanwhile (no layout shift).
  */
 export function WhenVisible({ children, className = 'h-full w-full' }: { children: ReactNode; className?: string }) {
   const ref = useRef<HTMLDivElement>(null);
@@ -12,11 +32,17 @@ export function WhenVisible({ children, className = 'h-full w-full' }: { childre
   useEffect(() => {
     const el = ref.current;
     if (!el || seen) return;
-    const io = new IntersectionObserver((entries) => {
-      if (entries.some((e) => e.isIntersecting)) setSeen(true);
-    }, { rootMargin: '200px' });
-    io.observe(el);
-    return () => io.disconnect();
+    let io: IntersectionObserver | null = null;
+    const cancel = afterLoad(() => {
+      io = new IntersectionObserver((entries) => {
+        if (entries.some((e) => e.isIntersecting)) setSeen(true);
+      }, { rootMargin: '200px' });
+      io.observe(el);
+    });
+    return () => {
+      cancel();
+      io?.disconnect();
+    };
   }, [seen]);
   return <div ref={ref} className={className}>{seen ? children : null}</div>;
 }

@@ -1,10 +1,10 @@
 'use client';
 
-import { signOut } from 'next-auth/react';
+import { signOutTo } from '@/components/auth/credentials';
 
 export function SignOutButton({ className = '' }: { className?: string }) {
   return (
-    <button type="button" className={className} onClick={() => signOut({ callbackUrl: '/' })}>
+    <button type="button" className={className} onClick={() => void signOutTo('/')}>
       Sign out
     </button>
   );

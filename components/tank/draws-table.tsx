@@ -24,7 +24,7 @@ export function DrawsTable({ rows, units, timeZone, currency, coopSlug, showMemb
   const money = (c: number) => formatCents(c, currency);
   const columns: DataColumn<DrawRow>[] = [
     col.accessor('occurredAt', { meta: { priority: 'key' }, id: 'occurred_at', header: 'When', cell: (c) => <When value={c.getValue()} timeZone={timeZone} className="whitespace-nowrap" /> }),
-    col.accessor('id', { header: '#', cell: (c) => c.getValue() }),
+    col.accessor('id', { header: '#', meta: { label: 'Draw number' }, cell: (c) => c.getValue() }),
     ...(showMember ? [col.accessor('memberName', { meta: { priority: 'key' }, header: 'Member', cell: (c) => c.getValue() })] : []),
     col.accessor('tankName', { header: 'Tank', cell: (c) => c.getValue() }),
     col.accessor('quantityLiters', { id: 'quantity', header: 'Quantity', cell: (c) => <span className="tabular-nums whitespace-nowrap">{formatMl(Math.round(c.getValue() * 1000), units)}</span> }),

@@ -22,7 +22,7 @@ const col = createColumnHelper<Features, LedgerRow>();
 export function LedgerTable({ rows, units, timeZone, currency, pageInfo }: { rows: LedgerRow[]; units: UnitSystem; timeZone: string; currency: string; pageInfo: PageInfo }) {
   const money = (c: number) => formatCents(c, currency);
   const columns: DataColumn<LedgerRow>[] = [
-    col.accessor('id', { id: 'recorded', header: '#', cell: (c) => c.getValue() }),
+    col.accessor('id', { id: 'recorded', header: '#', meta: { label: 'Order recorded' }, cell: (c) => c.getValue() }),
     col.accessor('occurredAt', { meta: { priority: 'key' }, id: 'occurred_at', header: 'When', cell: (c) => <When value={c.getValue()} timeZone={timeZone} className="whitespace-nowrap" /> }),
     col.accessor('kind', {
       meta: { priority: 'key' },

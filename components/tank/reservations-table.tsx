@@ -19,7 +19,7 @@ export function ReservationsTable({ rows, units, timeZone, coopSlug, showMember,
   rows: ReservationRow[]; units: UnitSystem; timeZone: string; coopSlug: string; showMember: boolean; pageInfo?: PageInfo; sortable?: string[];
 }) {
   const columns: DataColumn<ReservationRow>[] = [
-    col.accessor('id', { id: 'created_at', header: '#', cell: (c) => c.getValue() }),
+    col.accessor('id', { id: 'created_at', header: '#', meta: { label: 'Order made' }, cell: (c) => c.getValue() }),
     ...(showMember ? [col.accessor('memberName', { meta: { priority: 'key' }, header: 'Member', cell: (c) => c.getValue() })] : []),
     col.accessor('tankName', { header: 'Tank', cell: (c) => c.getValue() }),
     col.accessor('quantityLiters', { meta: { priority: 'key' }, id: 'quantity', header: 'Quantity', cell: (c) => <span className="tabular-nums">{formatMl(Math.round(c.getValue() * 1000), units)}</span> }),

@@ -41,6 +41,12 @@ describe('app shell in headless Chromium', () => {
       await page.goto(`${baseUrl()}/c/prairie-lantern`);
       await page.screenshot({ path: path.join(SHOTS, 'overview-admin-1280.png'), fullPage: true });
       await checkA11y(page);
+      // Sign out: back on the landing page, and the co-op's pages ask to sign in again.
+      await page.getByRole('button', { name: 'Sign out' }).click();
+      await page.waitForURL(`${baseUrl()}/`);
+      expect((await page.context().cookies()).some((c) => c.name.includes('session-token'))).toBe(false);
+      await page.goto(`${baseUrl()}/c/prairie-lantern`);
+      await page.waitForURL('**/sign-in**');
     });
   }, 150_000);
 });
