@@ -1,7 +1,7 @@
 // Display helpers for the brewing screens (pure: safe in server and client components).
 import { formatDate } from '@/lib/dates';
 import { formatCents } from '@/lib/money';
-import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
+import { formatVolume, volumeFromLiters, volumeLabel, type UnitSystem } from '@/lib/units';
 
 export const STATUS_LABELS: Record<string, string> = {
   planned: 'Planned', reacting: 'Reacting', settling: 'Settling', draining: 'Draining', washing: 'Washing', drying: 'Drying',
@@ -49,3 +49,12 @@ export function grams(g: number | null | undefined): string {
 export function dateText(iso: string | null | undefined, timeZone = 'UTC'): string {
   return iso ? formatDate(iso, timeZone) : '—';
 }
+
+// Default values of the batch record's form fields ('' when nothing is recorded yet).
+
+/** A number to `digits` places, without trailing zeros. */
+export const fieldNumber = (v: number | null, digits: number) => (v === null ? '' : String(Number(v.toFixed(digits))));
+/** A volume in the co-op's unit, to two places. */
+export const fieldVolume = (liters: number | null, units: UnitSystem) => (liters === null ? '' : String(Number(volumeFromLiters(liters, units).toFixed(2))));
+/** Cents as an amount ("12.50"). */
+export const fieldMoney = (c: number | null) => (c === null ? '' : (c / 100).toFixed(2));

@@ -2,7 +2,8 @@
 
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
-import type { ChemicalLotDto, OilLotDto } from '@/lib/supplies';
+import type { ChemicalLotDto } from '@/lib/supplies/chemical-lots';
+import type { OilLotDto } from '@/lib/supplies/oil-lots';
 import type { UnitSystem } from '@/lib/units';
 import { dateText, grams, money, vol } from './format';
 import { UploadForm } from './upload-form';

@@ -6,7 +6,7 @@ import { formatCents } from '@/lib/money';
 import { When } from '@/components/ui/when';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
-import type { MovementDto } from '@/lib/tank';
+import type { MovementDto } from '@/lib/tank/movements';
 
 /** A ledger row as the page passes it (the lib DTO's fields the table shows). */
 export type LedgerRow = Pick<MovementDto,

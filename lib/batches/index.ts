@@ -1,6 +1,7 @@
 import 'server-only';
 // The batch record: plan → steps → release or reject, with its files and certificate.
-export { STEPS, createBatch, updateBatch, advanceBatch, addTemperature } from './records';
+export { STEPS, createBatch, advanceBatch, addTemperature } from './records';
+export { updateBatch } from './update';
 export {
   getBatch, listBatches, type BatchDto, type BatchSummaryDto, type BatchListRow, type BatchCosts, type TemperatureDto,
 } from './read';

@@ -10,7 +10,7 @@ import { Batch, ChemicalLot } from '@/models';
 import type { PlannerInput } from '@/lib/validation/brewing';
 import { computePlan, type ComputedPlan } from './plan';
 import { feedstockShareCents } from './read';
-import { resolveTitration } from './records';
+import { resolveTitration } from './plan-inputs';
 
 /** Stock check and projected cost of one chemical for a planned batch. */
 export interface ChemicalCoverage {

@@ -9,7 +9,7 @@ import type { InvoiceDetail } from './types';
 /**
  * Why an invoice carries no dues line, in a sentence (null when it has one, or is not a monthly
  * invoice): the co-op charges none, the member joined after the month, or was not active. The run
- * charges dues to active members who joined before the month's end (lib/billing/queries.ts).
+ * charges dues to active members who joined before the month's end (lib/billing/run/queries.ts).
  */
 export async function whyNoDues(coop: ActorCoop, inv: InvoiceDetail, audience: 'member' | 'treasurer'): Promise<string | null> {
   if (inv.kind !== 'invoice' || inv.status === 'void' || inv.lines.some((l) => l.kind === 'dues')) return null;

@@ -12,7 +12,7 @@ import { assertPeriodOpen, lockCoopBilling } from './locks';
 import { sendQueuedInvoiceEmails } from './mail';
 import { addDays, invoiceLabel, PAYMENT_TERMS_DAYS, periodLabel, periodToDate } from './periods';
 import { todayIn } from '@/lib/dates';
-import { insertCreditLines, numberAndIssueDrafts, refreshDraftTotals } from './queries';
+import { insertCreditLines, numberAndIssueDrafts, refreshDraftTotals } from './run/queries';
 
 /**
  * Takes the next `count` numbers from the co-op's counter; the counter row stays locked until the

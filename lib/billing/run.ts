@@ -10,7 +10,7 @@ import { enqueue, QUEUES, type RunChunkJob } from '@/lib/jobs';
 import { BillingRun, Coop, Invoice, Membership } from '@/models';
 import { assertPeriodOpen, isPeriodClosed, lockCoopBilling, periodBounds, periodClosedError } from './locks';
 import { currentPeriod, periodToDate } from './periods';
-import * as q from './queries';
+import * as q from './run/queries';
 
 /** Members per chunk; each chunk is one transaction, so a crash loses at most one chunk's work. */
 export const RUN_CHUNK = 500;

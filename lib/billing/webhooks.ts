@@ -6,7 +6,7 @@ import { verifyWebhook, type ProviderEvent } from '@/lib/payments';
 import { Coop, PaymentWebhookEvent } from '@/models';
 import { completeAttemptSucceeded, markAttemptFailed } from './card';
 import { lockCoopBilling } from './locks';
-import { confirmRefund } from './payments';
+import { confirmRefund } from './refunds';
 
 const positiveInt = (s: string | undefined): number | null => (s && /^[1-9]\d{0,9}$/.test(s) ? Number(s) : null);
 

@@ -4,7 +4,7 @@ import type { Actor } from '@/lib/auth';
 import { todayIn } from '@/lib/dates';
 import { conflict } from '@/lib/http';
 import { formatCents } from '@/lib/money';
-import { toStoredQuantity } from '@/lib/supplies';
+import { toStoredQuantity } from '@/lib/supplies/chemical-lots';
 import { BatchOilLot, ChemicalConsumption, ChemicalLot, OilLot } from '@/models';
 import type { CsvRow } from './csv-read';
 import { rowChecker, type Checked, type OpeningKind } from './opening';

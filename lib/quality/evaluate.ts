@@ -1,4 +1,6 @@
-import { ASTM_S500_SULFUR_MAX_PPM, limitsFor, type AstmGrade, type FuelStandard, type QualityLimit, type QualityProperty } from './limits';
+import { ASTM_S500_SULFUR_MAX_PPM } from './astm-d6751';
+import { limitsFor } from './limits';
+import type { AstmGrade, FuelStandard, QualityLimit, QualityProperty } from './standards';
 import { SCREENING_CAUTION } from './screening';
 
 /**

@@ -1,5 +1,7 @@
-export { QUALITY_LIMITS, QUALITY_PROPERTIES, FUEL_STANDARDS, ASTM_S500_SULFUR_MAX_PPM, limitsFor } from './limits';
-export type { FuelStandard, QualityProperty, QualityLimit, AstmGrade } from './limits';
+export { QUALITY_LIMITS, limitsFor } from './limits';
+export { ASTM_S500_SULFUR_MAX_PPM } from './astm-d6751';
+export { QUALITY_PROPERTIES, FUEL_STANDARDS } from './standards';
+export type { FuelStandard, QualityProperty, QualityLimit, AstmGrade } from './standards';
 export { evaluateQuality, isLaboratoryResult, storedVerdictText, HOME_TEST_LABORATORY } from './evaluate';
 export type {
   QualityEvaluation,

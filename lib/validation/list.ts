@@ -9,3 +9,11 @@ export function listQuerySchema<const S extends readonly [string, ...string[]]>(
     dir: z.enum(['asc', 'desc']).default('desc'),
   });
 }
+
+/** The page a list service answers such a query with (rows of one page, and how many match in all). */
+export interface Paged<T> {
+  rows: T[];
+  total: number;
+  page: number;
+  pageSize: number;
+}

@@ -1,6 +1,6 @@
 // Verdicts that mean what they say, the completed limits tables and the soap threshold.
 // Sources beside each check: ASTM D6751, EN 14214 (rows beyond REFERENCES.md checked against public
-// summaries named in lib/quality/limits.ts: an ASTM D6751-09 table, an EN 14214:2012+A1:2014 table),
+// summaries named in lib/quality/astm-d6751.ts and en-14214.ts: an ASTM D6751-09 table, an EN 14214:2012+A1:2014 table),
 // IUPAC standard atomic weights; readings marked common practice.
 import { describe, expect, it } from 'vitest';
 import {

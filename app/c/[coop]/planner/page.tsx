@@ -3,7 +3,7 @@ import { PlannerForm } from '@/components/brewing/planner-form';
 import { SafetyNote } from '@/components/brewing/safety-note';
 import { dateText, vol } from '@/components/brewing/format';
 import { requirePageActor } from '@/lib/auth';
-import { listOilLotsWithOil } from '@/lib/supplies';
+import { listOilLotsWithOil } from '@/lib/supplies/oil-lots';
 
 export const metadata: Metadata = { title: 'Batch planner' };
 

@@ -7,7 +7,7 @@ import { ChemicalTable } from '@/components/brewing/supply-tables';
 import { SuppliesNav } from '@/components/brewing/supplies-nav';
 import { Card } from '@/components/ui/notice';
 import { can, requirePageActor } from '@/lib/auth';
-import { listChemicalLots } from '@/lib/supplies';
+import { listChemicalLots } from '@/lib/supplies/chemical-lots';
 import { stockSummary } from '@/lib/supplies/stock';
 import type { UnitSystem } from '@/lib/units';
 import { chemicalLotListSchema } from '@/lib/validation/brewing';

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { drawRecorderScope, listDraws, recordDraw } from '@/lib/draws';
+import { listDraws } from '@/lib/draws';
+import { drawRecorderScope, recordDraw } from '@/lib/draws/record';
 import { handler, parseBody, parseQuery } from '@/lib/http';
 import { drawCreateSchema, drawListSchema } from '@/lib/validation/tank';
 

@@ -4,7 +4,7 @@ import { OilTable } from '@/components/brewing/supply-tables';
 import { SuppliesNav } from '@/components/brewing/supplies-nav';
 import { Card } from '@/components/ui/notice';
 import { can, requirePageActor } from '@/lib/auth';
-import { listOilLots } from '@/lib/supplies';
+import { listOilLots } from '@/lib/supplies/oil-lots';
 import { oilLotListSchema } from '@/lib/validation/brewing';
 
 export const metadata: Metadata = { title: 'Oil lots' };

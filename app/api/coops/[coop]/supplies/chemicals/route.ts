@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody, parseQuery } from '@/lib/http';
-import { createChemicalLot, listChemicalLots } from '@/lib/supplies';
+import { createChemicalLot, listChemicalLots } from '@/lib/supplies/chemical-lots';
 import { chemicalLotCreateSchema, chemicalLotListSchema } from '@/lib/validation/brewing';
 
 export const dynamic = 'force-dynamic';

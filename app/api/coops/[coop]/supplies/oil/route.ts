@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody, parseQuery } from '@/lib/http';
-import { createOilLot, listOilLots } from '@/lib/supplies';
+import { createOilLot, listOilLots } from '@/lib/supplies/oil-lots';
 import { oilLotCreateSchema, oilLotListSchema } from '@/lib/validation/brewing';
 
 export const dynamic = 'force-dynamic';

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
-import { transferFuel } from '@/lib/tank';
+import { transferFuel } from '@/lib/tank/transfers';
 import { transferCreateSchema } from '@/lib/validation/tank';
 
 export const dynamic = 'force-dynamic';

@@ -1,7 +1,7 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
 import { idParam } from '@/lib/validation/id-param';
-import { recordDip } from '@/lib/tank';
+import { recordDip } from '@/lib/tank/dips';
 import { dipCreateSchema } from '@/lib/validation/tank';
 
 export const dynamic = 'force-dynamic';

@@ -1,7 +1,7 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseQuery } from '@/lib/http';
 import { idParam } from '@/lib/validation/id-param';
-import { listMovements } from '@/lib/tank';
+import { listMovements } from '@/lib/tank/movements';
 import { movementListSchema } from '@/lib/validation/tank';
 
 export const dynamic = 'force-dynamic';

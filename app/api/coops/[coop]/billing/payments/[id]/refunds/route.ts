@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { idParam } from '@/lib/validation/id-param';
-import { refundPayment } from '@/lib/billing/payments';
+import { refundPayment } from '@/lib/billing/refunds';
 import { handler, parseBody } from '@/lib/http';
 import { refundCreateSchema } from '@/lib/validation/billing';
 

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { idParam } from '@/lib/validation/id-param';
-import { retryRefund } from '@/lib/billing/payments';
+import { retryRefund } from '@/lib/billing/refunds';
 import { handler } from '@/lib/http';
 
 export const dynamic = 'force-dynamic';

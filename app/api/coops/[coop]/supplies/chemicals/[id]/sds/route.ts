@@ -2,7 +2,7 @@ import { requireMember } from '@/lib/auth';
 import { fileResponse, readUpload } from '@/lib/batches';
 import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
-import { attachSafetyDataSheet, getSafetyDataSheet } from '@/lib/supplies';
+import { attachSafetyDataSheet, getSafetyDataSheet } from '@/lib/supplies/chemical-lots';
 
 export const dynamic = 'force-dynamic';
 
