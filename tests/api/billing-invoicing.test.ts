@@ -209,17 +209,19 @@ describe('monthly invoicing', () => {
     const [a, b] = [ids['Ada Archer']!, ids['Ben Brook']!];
     await mailSettled();
     const jobs = (id: number) => countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1 AND state IN ('created', 'retry', 'active')`, [`invoice.${id}`]);
+    const everJobs = (id: number) => countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1`, [`invoice.${id}`]);
+    const benBefore = await everJobs(b);
     // Both left "queued" for 5 minutes (a web process died, or a large send is still on its way);
     // Ada's still has a live job (held back an hour, so the test worker leaves it waiting).
     await sql(`UPDATE invoices SET email_status = 'queued', updated_at = now() - interval '5 minutes' WHERE id = ANY($1::int[])`, [[a, b]]);
     await enqueue('mail-invoice', { coopId: c.coop.id, invoiceId: a }, { singletonKey: `invoice.${a}`, startAfter: 3600 });
     try {
-      await housekeeping();
+      expect(await housekeeping()).toBeGreaterThanOrEqual(1); // Ben's (other files' stale invoices may count too)
       expect(await jobs(a)).toBe(1);
       // Ben's had none: queued once, and a second round (his job maybe still live) adds nothing.
       await housekeeping();
       expect(await jobs(a)).toBe(1);
-      expect(await countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1 AND created_on > now() - interval '1 minute'`, [`invoice.${b}`])).toBe(1);
+      expect(await everJobs(b)).toBe(benBefore + 1);
     } finally {
       await sql(`DELETE FROM pgboss.job WHERE name = 'mail-invoice' AND singleton_key = $1 AND state = 'created'`, [`invoice.${a}`]);
       await sql(`UPDATE invoices SET email_status = 'sent' WHERE id = $1`, [a]);
