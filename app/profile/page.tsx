@@ -53,7 +53,7 @@ export default async function ProfilePage() {
         </Card>
         <div className="grid gap-6 md:grid-cols-2">
           <Card title="Name"><NameForm name={profile.name} /></Card>
-          <Card title="E-mail address"><EmailForm email={profile.email} pendingEmail={profile.pendingEmail} /></Card>
+          <Card title="E-mail address"><EmailForm email={profile.email} pendingEmail={profile.pendingEmail} delivery={profile.pendingEmailDelivery} /></Card>
           <Card title="Password"><PasswordForm email={profile.email} /></Card>
           <Card title="Sessions">
             <p className="mb-3 text-sm text-stone-700">

@@ -7,6 +7,7 @@ import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-for
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
+import { useRefreshWhile } from '@/components/ui/use-refresh-while';
 
 /** Rename. */
 export function NameForm({ name }: { name: string }) {
@@ -25,8 +26,28 @@ export function NameForm({ name }: { name: string }) {
   );
 }
 
+type Delivery = { status: 'queued' | 'sent' | 'failed'; sentAt: string | null } | null;
+
+/** The pending change and how its confirmation e-mail is doing (followed while queued). */
+function PendingChange({ pendingEmail, delivery }: { pendingEmail: string; delivery: Delivery }) {
+  useRefreshWhile(delivery?.status === 'queued');
+  if (delivery?.status === 'failed') {
+    return (
+      <Notice tone="danger" title="Confirmation e-mail not delivered">
+        The link to <strong>{pendingEmail}</strong> could not be sent after several tries. Check the address and send it again below.
+      </Notice>
+    );
+  }
+  return (
+    <Notice tone="info">
+      A change to <strong>{pendingEmail}</strong> is waiting for you to open the link sent there.{' '}
+      <span className="font-semibold">{delivery?.status === 'queued' ? 'Confirmation e-mail: queued.' : 'Confirmation e-mail: sent.'}</span>
+    </Notice>
+  );
+}
+
 /** New address + current password → a confirmation link goes to the new address. */
-export function EmailForm({ email, pendingEmail }: { email: string; pendingEmail: string | null }) {
+export function EmailForm({ email, pendingEmail, delivery = null }: { email: string; pendingEmail: string | null; delivery?: Delivery }) {
   const router = useRouter();
   const { busy, fields, message, submit, setMessage } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
@@ -37,7 +58,7 @@ export function EmailForm({ email, pendingEmail }: { email: string; pendingEmail
     form.reset();
     setMessage(
       r.sent
-        ? { tone: 'ok', text: `We sent a confirmation link to ${r.pendingEmail}. Your address changes when you open it (within 24 hours).` }
+        ? { tone: 'ok', text: `A confirmation link is on its way to ${r.pendingEmail}. Your address changes when you open it (within 24 hours).` }
         : { tone: 'danger', text: `The confirmation e-mail to ${r.pendingEmail} could not be sent just now. Try again in a few minutes.` },
     );
     router.refresh();
@@ -45,7 +66,7 @@ export function EmailForm({ email, pendingEmail }: { email: string; pendingEmail
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
       <p className="text-sm text-stone-700">You sign in with <strong>{email}</strong>.</p>
-      {pendingEmail ? <Notice tone="info">A change to <strong>{pendingEmail}</strong> is waiting for you to open the link sent there.</Notice> : null}
+      {pendingEmail ? <PendingChange pendingEmail={pendingEmail} delivery={delivery} /> : null}
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <TextField label="New e-mail address" name="email" type="email" autoComplete="email" required errors={fields.email} />
       <TextField label="Current password" id="email-current-password" name="currentPassword" type="password" autoComplete="current-password" required errors={fields.currentPassword} />

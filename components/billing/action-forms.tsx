@@ -30,27 +30,6 @@ export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invo
   );
 }
 
-/** Sends the invoice e-mail again, now. */
-export function ResendButton({ coop, invoiceId }: { coop: string; invoiceId: number }) {
-  const router = useRouter();
-  const { busy, message, send } = useApiForm();
-  return (
-    <div className="flex flex-col gap-2">
-      <Button
-        variant="secondary"
-        disabled={busy}
-        onClick={async () => {
-          const out = await send(apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/send', { params: { path: { coop, id: String(invoiceId) } }, body: {} }));
-          if (out) router.refresh();
-        }}
-      >
-        {busy ? 'Sending…' : 'E-mail it again'}
-      </Button>
-      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
-    </div>
-  );
-}
-
 export interface MemberOption { id: number; name: string }
 export interface OpenInvoiceOption { id: number; memberId: number; label: string; outstandingCents: number }
 

@@ -5,17 +5,29 @@ import { useState } from 'react';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import { EmptyState, Notice } from '@/components/ui/notice';
+import { useRefreshWhile } from '@/components/ui/use-refresh-while';
 import type { InvitationDto } from '@/lib/invitations';
 
 /** A pending invitation as the page hands it to the client (expiry already worded in the co-op's zone). */
-export type InvitationRow = Pick<InvitationDto, 'id' | 'email' | 'role' | 'delivery' | 'expired' | 'invitedBy'> & { expiresLabel: string };
+export type InvitationRow = Pick<InvitationDto, 'id' | 'email' | 'role' | 'delivery' | 'expired' | 'invitedBy'> & { expiresLabel: string; sentLabel: string | null };
 
-/** Pending invitations with resend (a new link) and revoke. */
+/** Where an invitation's e-mail stands, in words (text, not colour alone, carries it). */
+function DeliveryPill({ inv }: { inv: InvitationRow }) {
+  if (inv.delivery === 'not-sent') {
+    return <p className="mt-1 inline-block rounded-full bg-warn-50 px-2 py-0.5 text-xs font-semibold text-warn-700">E-mail failed after every try — resend it</p>;
+  }
+  if (inv.delivery === 'queued') return <p className="mt-1 inline-block rounded-full bg-stone-100 px-2 py-0.5 text-xs font-semibold text-stone-700">E-mail queued</p>;
+  return <p className="mt-1 inline-block rounded-full bg-ok-50 px-2 py-0.5 text-xs font-semibold text-ok-700">E-mail sent{inv.sentLabel ? ` ${inv.sentLabel}` : ''}</p>;
+}
+
+/** Pending invitations with their e-mail's delivery, resend (a new link) and revoke. */
 export function InvitationList({ coopSlug, invitations }: { coopSlug: string; invitations: InvitationRow[] }) {
   const router = useRouter();
   const [busyId, setBusyId] = useState<number | null>(null);
   const [confirming, setConfirming] = useState<number | null>(null);
   const [message, setMessage] = useState<{ tone: 'ok' | 'warn' | 'danger'; text: string } | null>(null);
+  // While an e-mail is queued, the list is read again every 2 s, so it shows sent or failed as it happens.
+  useRefreshWhile(invitations.some((i) => i.delivery === 'queued'));
 
   async function resend(inv: InvitationRow) {
     setBusyId(inv.id);
@@ -53,11 +65,7 @@ export function InvitationList({ coopSlug, invitations }: { coopSlug: string; in
                   {inv.role}
                   {inv.invitedBy ? ` · invited by ${inv.invitedBy}` : ''} · {inv.expired ? <span className="font-semibold text-warn-700">link expired {inv.expiresLabel}</span> : `link works until ${inv.expiresLabel}`}
                 </p>
-                {inv.delivery === 'not-sent' ? (
-                  <p className="mt-1 inline-block rounded-full bg-warn-50 px-2 py-0.5 text-xs font-semibold text-warn-700">E-mail not sent</p>
-                ) : inv.delivery === 'queued' ? (
-                  <p className="mt-1 inline-block rounded-full bg-stone-100 px-2 py-0.5 text-xs font-semibold text-stone-700">E-mail being sent</p>
-                ) : null}
+                <DeliveryPill inv={inv} />
               </div>
               <div className="flex shrink-0 flex-wrap gap-2">
                 {confirming === inv.id ? (

@@ -11,14 +11,15 @@ import type { Role } from '@/lib/auth/roles';
 import { EMAIL_CHANGE_TTL_MS, hashLinkToken, isLinkTokenShape, newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
-import { enqueueMail } from '@/lib/jobs';
+import { emailChangeMailKey, enqueueMail, QUEUES } from '@/lib/jobs';
+import { newestJobState } from '@/lib/jobs/queries';
 import { appUrl } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import { personTimeZone } from '@/lib/account/zone';
 import type {
   emailChangeSchema, passwordChangeSchema, passwordResetSchema, profileUpdateSchema,
 } from '@/lib/validation/auth';
-import { AuthToken, Coop, Membership, SignInAttempt, User } from '@/models';
+import { AuthToken, Coop, MailSend, Membership, SignInAttempt, User } from '@/models';
 import type { AuthTokenKind } from '@/models/AuthToken';
 import type { MembershipStatus } from '@/models/Membership';
 
@@ -32,9 +33,28 @@ export interface ProfileDto {
   email: string;
   /** A change of address waiting for its confirmation link, if any. */
   pendingEmail: string | null;
+  /** How the confirmation e-mail of that change is doing (the send ledger, else its mail job). */
+  pendingEmailDelivery: { status: PendingEmailDelivery; sentAt: string | null } | null;
   coops: { slug: string; name: string; role: Role; status: MembershipStatus; joinedAt: string; timezone: string }[];
 }
 
+
+/** queued: the worker has it (retrying while the mail server is away); sent: the server took it; failed: every try failed. */
+export type PendingEmailDelivery = 'queued' | 'sent' | 'failed';
+
+/**
+ * Where the confirmation e-mail of a pending e-mail change stands: its ledger row (sent, or in
+ * flight), else the state of its mail job (waiting or retrying: queued; failed after the last
+ * try, or gone: failed).
+ */
+async function emailChangeDelivery(authTokenId: number): Promise<NonNullable<ProfileDto['pendingEmailDelivery']>> {
+  const key = emailChangeMailKey(authTokenId);
+  const sent = await MailSend.findOne({ where: { subject: key }, attributes: ['state', 'sentAt'], order: [['generation', 'DESC']], raw: true });
+  if (sent?.state === 'sent') return { status: 'sent', sentAt: sent.sentAt ? new Date(sent.sentAt).toISOString() : null };
+  if (sent) return { status: 'queued', sentAt: null };
+  const job = await newestJobState(QUEUES.mail, key);
+  return { status: job === 'created' || job === 'retry' || job === 'active' ? 'queued' : 'failed', sentAt: null };
+}
 
 type MyMembership = Pick<InferAttributes<Membership>, 'role' | 'status' | 'joinedAt'> & { coop: Pick<InferAttributes<Coop>, 'slug' | 'name' | 'timezone'> };
 
@@ -54,7 +74,7 @@ export async function getProfile(user: SessionUser): Promise<ProfileDto> {
     }) as unknown as Promise<MyMembership[]>,
     AuthToken.findOne({
       where: { userId: user.id, kind: 'email-change', usedAt: null, expiresAt: { [Op.gt]: fn('now') } },
-      attributes: ['newEmail'],
+      attributes: ['id', 'newEmail'],
       order: [['createdAt', 'DESC']],
       raw: true,
     }),
@@ -64,6 +84,7 @@ export async function getProfile(user: SessionUser): Promise<ProfileDto> {
     name: user.name,
     email: user.email,
     pendingEmail: pending?.newEmail ?? null,
+    pendingEmailDelivery: pending ? await emailChangeDelivery(pending.id) : null,
     coops: coops.map((m) => ({
       slug: m.coop.slug, name: m.coop.name, role: m.role, status: m.status, joinedAt: new Date(m.joinedAt).toISOString(), timezone: m.coop.timezone,
     })),
@@ -164,7 +185,7 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
   const zone = await personTimeZone(user.id);
   await inTransaction(async (transaction) => {
     await AuthToken.update({ usedAt: fn('now') }, { where: { userId: user.id, kind: 'email-change', usedAt: null }, transaction });
-    await AuthToken.create({ userId: user.id, kind: 'email-change', tokenHash: hash, newEmail: input.email, expiresAt, usedAt: null }, { transaction });
+    const link = await AuthToken.create({ userId: user.id, kind: 'email-change', tokenHash: hash, newEmail: input.email, expiresAt, usedAt: null }, { transaction });
     // The link's e-mail is a job written by this transaction: it exists exactly when the link does.
     await enqueueMail(
       {
@@ -185,7 +206,8 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
           'Tallyvat',
         ].join('\n'),
       },
-      { kind: 'none' },
+      // Its own ledger subject (email-change.<link id>): the profile shows how the e-mail is doing.
+      { kind: 'email-change', authTokenId: link.id },
       transaction,
     );
   });

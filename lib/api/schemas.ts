@@ -41,6 +41,10 @@ export const profileSchema = z
     name: str(),
     email: str(),
     pendingEmail: nullable(str()),
+    pendingEmailDelivery: z
+      .object({ status: z.enum(['queued', 'sent', 'failed']), sentAt: nullable(date()) })
+      .nullable()
+      .describe('The confirmation e-mail of the pending change: queued (retried with back-off while the mail server is away), sent, or failed after every try (ask again to send a new link)'),
     coops: z.array(myCoopSchema.extend({ joinedAt: date(), timezone: str() })),
   })
   .meta({ id: 'Profile' });

@@ -18,6 +18,19 @@ export function newLinkToken(): { token: string; hash: string } {
   return { token, hash: hashLinkToken(token) };
 }
 
+/**
+ * A link token derived from a stored seed with the server's secret (HMAC-SHA-256, base64url: the
+ * same shape as a random one). The database holds the seed and the token's hash, not the token;
+ * the same seed always gives the same token, so an e-mail sent again after an ambiguous send
+ * carries the same link. `purpose` keeps tokens for different uses apart.
+ */
+export function derivedLinkToken(purpose: string, seed: string): { token: string; hash: string } {
+  const secret = process.env.NEXTAUTH_SECRET;
+  if (!secret) throw new Error('NEXTAUTH_SECRET is not set');
+  const token = crypto.createHmac('sha256', secret).update(`${purpose}\n${seed}`).digest('base64url');
+  return { token, hash: hashLinkToken(token) };
+}
+
 export function hashLinkToken(token: string): string {
   return crypto.createHash('sha256').update(token, 'utf8').digest('hex');
 }

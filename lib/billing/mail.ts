@@ -1,14 +1,17 @@
 import 'server-only';
 import { literal, Op } from 'sequelize';
 import { enqueueInvoiceMails } from '@/lib/jobs';
-import { appUrl, sendMail, type OutgoingMail } from '@/lib/mail';
+import { audit } from '@/lib/audit';
+import type { Actor } from '@/lib/auth';
+import { inTransaction } from '@/lib/db';
+import { conflict, notFound } from '@/lib/http';
+import { appUrl, type OutgoingMail } from '@/lib/mail';
 import { sendOnce } from '@/lib/mail/once';
 import { formatCents } from '@/lib/money';
 import { Coop, Invoice } from '@/models';
 import { getInvoiceDetail } from './invoices';
 import { invoiceFileName, renderInvoicePdf, type PdfCoop } from './pdf';
 import { periodLabel } from './periods';
-import type { EmailStatus } from './types';
 import { formatDate } from '@/lib/dates';
 
 async function loadCoop(coopId: number): Promise<PdfCoop> {
@@ -20,8 +23,8 @@ async function loadCoop(coopId: number): Promise<PdfCoop> {
 const ATTEMPT = literal('email_attempts + 1');
 
 /** The e-mail of one issued invoice or credit note, with its PDF. */
-async function composeInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<OutgoingMail> {
-  const c = coop ?? (await loadCoop(coopId));
+async function composeInvoiceEmail(coopId: number, invoiceId: number): Promise<OutgoingMail> {
+  const c = await loadCoop(coopId);
   const inv = await getInvoiceDetail(coopId, invoiceId, { includeDrafts: false });
   const pdf = await renderInvoicePdf(inv, c);
   const isCredit = inv.kind === 'credit-note';
@@ -39,15 +42,24 @@ async function composeInvoiceEmail(coopId: number, invoiceId: number, coop?: Pdf
 }
 
 /**
- * E-mails one issued invoice or credit note to its member now (the treasurer's "send again" on
- * one invoice) and records the outcome on the invoice (sent / failed, attempts, time). Never
- * throws for mail trouble.
+ * The treasurer's "send again" on one issued invoice or credit note: puts its e-mail back to
+ * "queued" and queues its mail job in the same transaction (like the month's bulk send); the
+ * worker sends it through the ledger as the next generation. 409 while a send is in flight;
+ * an invoice already queued with a live job gets no second one.
+ * @returns the e-mail status now (queued); the invoice page follows it from there
  */
-export async function sendInvoiceEmail(coopId: number, invoiceId: number, coop?: PdfCoop): Promise<EmailStatus> {
-  const ok = await sendMail(await composeInvoiceEmail(coopId, invoiceId, coop));
-  const status: EmailStatus = ok ? 'sent' : 'failed';
-  await Invoice.update({ emailStatus: status, emailAttempts: ATTEMPT, ...(ok ? { emailedAt: new Date() } : {}) }, { where: { id: invoiceId, coopId } });
-  return status;
+export async function queueInvoiceEmail(actor: Actor, invoiceId: number): Promise<{ emailStatus: 'queued' }> {
+  const coopId = actor.coop.id;
+  return inTransaction(async (transaction) => {
+    const inv = await Invoice.findOne({ attributes: ['id', 'emailStatus'], where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' } }, lock: transaction.LOCK.UPDATE, transaction });
+    if (!inv) throw notFound('That invoice is not in this co-op, or it is still a draft.');
+    const before = inv.emailStatus;
+    if (before === 'sending') throw conflict('This e-mail is being sent right now. Wait a moment and look again.');
+    if (before !== 'queued') await inv.update({ emailStatus: 'queued' }, { transaction });
+    await enqueueInvoiceMails(coopId, [invoiceId], transaction, before !== 'queued');
+    await audit({ coopId, actorUserId: actor.user.id, action: 'invoice.email', entityType: 'invoice', entityId: invoiceId, before: { emailStatus: before }, after: { emailStatus: 'queued' } }, transaction);
+    return { emailStatus: 'queued' as const };
+  });
 }
 
 /**

@@ -185,7 +185,7 @@ export async function confirmInvitationImport(actor: Actor, input: ImportFileInp
         line: r.line, fate: r.fate, values: { name: r.name, email: r.email, role: r.role, message: r.message }, entityId: ids.get(r.line) ?? null,
       }));
       await record.update({ rows: records }, { transaction });
-      await enqueueInvitationMails(actor.coop.id, [...ids.values()], transaction);
+      await enqueueInvitationMails(actor.coop.id, [...ids.values()], transaction, true);
       await audit(
         {
           coopId: actor.coop.id, actorUserId: actor.user.id, action: 'import.create', entityType: 'import', entityId: record.id,

@@ -11,7 +11,8 @@ import { inTransaction } from '@/lib/db';
 import { conflict, forbidden, HttpError, notFound } from '@/lib/http';
 import { enqueueInvitationMails } from './deliver';
 import type { invitationAcceptSchema, invitationCreateSchema } from '@/lib/validation/auth';
-import { Invitation, Membership, User } from '@/models';
+import { invitationMailKey } from '@/lib/jobs';
+import { Invitation, MailSend, Membership, User } from '@/models';
 import type { InvitationDelivery } from '@/models/Invitation';
 
 export type { InvitationDelivery };
@@ -27,11 +28,12 @@ const INVITED_BY: IncludeOptions = { association: 'invitedBy', attributes: ['nam
 
 const isPast = (at: Date) => at.getTime() <= Date.now();
 
-const toDto = (i: Invitation): InvitationDto => ({
+const toDto = (i: Invitation, sentAt: Map<number, Date>): InvitationDto => ({
   id: i.id,
   email: i.email,
   role: i.role,
   delivery: i.delivery,
+  sentAt: sentAt.get(i.id)?.toISOString() ?? null,
   expiresAt: i.expiresAt.toISOString(),
   createdAt: i.createdAt.toISOString(),
   invitedBy: i.invitedBy?.name ?? null,
@@ -46,7 +48,20 @@ export async function listPendingInvitations(actor: Actor): Promise<InvitationDt
     include: [INVITED_BY],
     order: [['createdAt', 'DESC'], ['id', 'DESC']],
   });
-  return rows.map(toDto);
+  const sent = await lastSentAt(actor.coop.id, rows.map((r) => r.id));
+  return rows.map((r) => toDto(r, sent));
+}
+
+/** When each invitation's e-mail was last taken by the mail server, from the send ledger. */
+async function lastSentAt(coopId: number, ids: number[]): Promise<Map<number, Date>> {
+  if (ids.length === 0) return new Map();
+  const rows = await MailSend.findAll({
+    attributes: ['subject', 'sentAt'],
+    where: { coopId, subject: ids.map((invitationId) => invitationMailKey({ invitationId })), state: 'sent' },
+    order: [['generation', 'ASC']],
+    raw: true,
+  });
+  return new Map(rows.map((r) => [Number(r.subject.slice('invitation.'.length)), r.sentAt!]));
 }
 
 /** The invitation (id AND co-op in one query) locked for the rest of the transaction, or a 404. */
@@ -64,7 +79,7 @@ async function lockInvitation(actor: Actor, id: number, transaction: Transaction
 async function reloadDto(actor: Actor, id: number): Promise<InvitationDto> {
   const row = await Invitation.findOne({ attributes: [...INVITATION_ATTRIBUTES], where: { id, coopId: actor.coop.id }, include: [INVITED_BY] });
   if (!row) throw notFound('That invitation is not in this co-op.');
-  return toDto(row);
+  return toDto(row, await lastSentAt(actor.coop.id, [id]));
 }
 
 /** Case-insensitive match on an e-mail column (served by the lower(email) indexes). */
@@ -112,7 +127,7 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
           },
           transaction,
         );
-        await enqueueInvitationMails(actor.coop.id, [pending.id], transaction);
+        await enqueueInvitationMails(actor.coop.id, [pending.id], transaction, true);
         return pending.id;
       }
       const created = await Invitation.create(
@@ -126,7 +141,7 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
         },
         transaction,
       );
-      await enqueueInvitationMails(actor.coop.id, [created.id], transaction);
+      await enqueueInvitationMails(actor.coop.id, [created.id], transaction, true);
       return created.id;
     });
   } catch (e) {
@@ -156,7 +171,7 @@ export async function resendInvitation(actor: Actor, id: number): Promise<{ invi
       },
       transaction,
     );
-    await enqueueInvitationMails(actor.coop.id, [id], transaction);
+    await enqueueInvitationMails(actor.coop.id, [id], transaction, before.delivery !== 'queued');
   });
   return { invitation: await reloadDto(actor, id), queued: true };
 }

@@ -33,8 +33,11 @@ export interface InvoiceMailJob {
   invoiceId: number;
 }
 
-/** What a plain e-mail's outcome is recorded on, if anything. */
-export type MailRecord = { kind: 'none' };
+/**
+ * What a plain e-mail is, when something shows its delivery: an e-mail-change confirmation is
+ * its own ledger subject (`email-change.<auth token id>`), so the profile can show how it went.
+ */
+export type MailRecord = { kind: 'none' } | { kind: 'email-change'; authTokenId: number };
 
 export interface PlainMailJob {
   to: string;

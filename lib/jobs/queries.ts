@@ -35,3 +35,29 @@ export async function jobState(ref: string): Promise<string | null> {
   });
   return rows[0]?.state ?? null;
 }
+
+/**
+ * Which of these singleton keys (`invoice.42`, `invitation.7`: one message each) already have a
+ * live job in the queue — waiting or retrying, and running unless `waitingOnly` — so a producer
+ * does not queue a second one for the same message. Inside a transaction, its snapshot is read.
+ * Written as two probes that pg-boss's own partial indexes serve (queued jobs by key; running jobs).
+ */
+export async function liveJobKeys(queue: string, keys: string[], transaction?: Transaction, waitingOnly = false): Promise<Set<string>> {
+  if (keys.length === 0) return new Set();
+  const waiting = `SELECT singleton_key AS key FROM pgboss.job WHERE name = $1 AND singleton_key = ANY($2::text[]) AND state < 'active'`;
+  const running = `SELECT singleton_key AS key FROM pgboss.job WHERE name = $1 AND state = 'active' AND singleton_key = ANY($2::text[])`;
+  const rows = await sequelize.query<{ key: string }>(waitingOnly ? waiting : `${waiting} UNION ${running}`, { bind: [queue, keys], type: QueryTypes.SELECT, transaction });
+  return new Set(rows.map((r) => r.key));
+}
+
+/**
+ * The state of the newest job carrying this singleton key (null when there is none, or it was
+ * deleted by retention): how a message without a ledger row yet is doing (queued, or failed for good).
+ */
+export async function newestJobState(queue: string, key: string): Promise<string | null> {
+  const rows = await sequelize.query<{ state: string }>(
+    'SELECT state::text AS state FROM pgboss.job WHERE name = $1 AND singleton_key = $2 ORDER BY created_on DESC LIMIT 1',
+    { bind: [queue, key], type: QueryTypes.SELECT },
+  );
+  return rows[0]?.state ?? null;
+}

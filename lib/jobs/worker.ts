@@ -11,7 +11,7 @@ import { log as logger } from '@/lib/log';
 import { expireLapsedReservations } from '@/lib/reservations/expire';
 import { AuthToken, Invoice, MailSend, Reservation, SignInAttempt } from '@/models';
 import { bossOptions, ensureQueues } from './boss';
-import { enqueueInvoiceMails } from './index';
+import { emailChangeMailKey, enqueueInvoiceMails } from './index';
 import { isDatabaseUnreachable, outageGuard } from './outage';
 import { QUEUES, type InvitationMailJob, type InvoiceMailJob, type PlainMailJob, type RunChunkJob } from './names';
 
@@ -24,10 +24,15 @@ const log = (...a: unknown[]) => console.log('[worker]', ...a);
 const MAIL_CONCURRENCY = Number(process.env.WORKER_MAIL_CONCURRENCY ?? 8);
 const MAIL_BATCH = 4;
 
-/** A plain e-mail: the job is what it is (its id survives retries), so it is its own ledger subject. */
+/**
+ * A plain e-mail: the job is what it is (its id survives retries), so it is its own ledger
+ * subject — except an e-mail-change confirmation, whose subject names its link (the profile
+ * shows its delivery from the ledger).
+ */
 async function plainMail(job: Job<PlainMailJob>): Promise<void> {
-  const { to, subject, text } = job.data;
-  await sendOnce({ subject: `mail.${job.id}`, coopId: null, jobRef: `${QUEUES.mail}:${job.id}`, mail: { to, subject, text } });
+  const { to, subject, text, record } = job.data;
+  const ledger = record?.kind === 'email-change' ? emailChangeMailKey(record.authTokenId) : `mail.${job.id}`;
+  await sendOnce({ subject: ledger, coopId: null, jobRef: `${QUEUES.mail}:${job.id}`, mail: { to, subject, text } });
 }
 
 /** Lapsed reservations of every co-op that has any, each co-op in its own transaction. */
@@ -46,13 +51,16 @@ export async function expireReservations(): Promise<number> {
 /**
  * Prunes sign-in attempts older than a day (the limit looks back 15 minutes), links used or
  * expired more than 30 days ago, and queues mail jobs for invoices left "queued" for over two
- * minutes without one (a web process that died between issuing and queuing).
+ * minutes without a live job (a web process that died between issuing and queuing). An invoice
+ * still waiting its turn in a large send has a live job and is left alone.
+ * @returns how many invoice e-mails were queued again
  */
-export async function housekeeping(): Promise<void> {
+export async function housekeeping(): Promise<number> {
   const attempts = await SignInAttempt.destroy({ where: { createdAt: { [Op.lt]: new Date(Date.now() - 86_400_000) } } });
   const tokens = await AuthToken.destroy({ where: { expiresAt: { [Op.lt]: new Date(Date.now() - 30 * 86_400_000) } } });
-  // Plain e-mails' ledger rows (an invoice's stay: they are its send history and Message-IDs).
-  await MailSend.destroy({ where: { subject: { [Op.startsWith]: 'mail.' }, state: 'sent', sentAt: { [Op.lt]: new Date(Date.now() - 30 * 86_400_000) } } });
+  // Plain e-mails' ledger rows (an invoice's or invitation's stay: they are its send history and Message-IDs).
+  const old = new Date(Date.now() - 30 * 86_400_000);
+  await MailSend.destroy({ where: { [Op.or]: [{ subject: { [Op.startsWith]: 'mail.' } }, { subject: { [Op.startsWith]: 'email-change.' } }], state: 'sent', sentAt: { [Op.lt]: old } } });
   const stuck = await Invoice.findAll({
     attributes: ['id', 'coopId'],
     where: { emailStatus: 'queued', updatedAt: { [Op.lt]: new Date(Date.now() - 120_000) } },
@@ -60,8 +68,10 @@ export async function housekeeping(): Promise<void> {
   });
   const byCoop = new Map<number, number[]>();
   for (const r of stuck) byCoop.set(r.coopId, [...(byCoop.get(r.coopId) ?? []), r.id]);
-  for (const [coopId, ids] of byCoop) await enqueueInvoiceMails(coopId, ids);
-  if (attempts || tokens || stuck.length) log(`housekeeping: ${attempts} sign-in attempts and ${tokens} links pruned, ${stuck.length} invoice e-mails re-queued`);
+  let requeued = 0;
+  for (const [coopId, ids] of byCoop) requeued += await enqueueInvoiceMails(coopId, ids);
+  if (attempts || tokens || requeued) log(`housekeeping: ${attempts} sign-in attempts and ${tokens} links pruned, ${requeued} invoice e-mails re-queued`);
+  return requeued;
 }
 
 /** Registers a handler per queue; returns the queue names (to stop fetching during an outage). */
@@ -92,7 +102,7 @@ async function registerWork(boss: PgBoss, guard: (e: unknown) => void): Promise<
     await deliverInvoiceEmailJob(job.data.coopId, job.data.invoiceId, `${QUEUES.invoiceMail}:${job.id}`);
   }));
   await boss.work(QUEUES.invitationMail, { ...mail, localConcurrency: MAIL_CONCURRENCY }, each<InvitationMailJob>(async (job) => {
-    await deliverInvitationJob(job.data.coopId, job.data.invitationId);
+    await deliverInvitationJob(job.data.coopId, job.data.invitationId, `${QUEUES.invitationMail}:${job.id}`);
   }));
   await boss.work(QUEUES.mail, { ...mail, localConcurrency: 2 }, each<PlainMailJob>(plainMail));
   await boss.work<InvoiceMailJob | InvitationMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, g(async ([job]) => {

@@ -40,20 +40,6 @@ export async function deliverMail(mail: OutgoingMail): Promise<void> {
   await transport().sendMail({ from: process.env.MAIL_FROM ?? 'Tallyvat <no-reply@tallyvat.localhost>', ...mail });
 }
 
-/**
- * Sends one e-mail now. Returns true when the SMTP server accepted it, false when it could not be
- * reached or refused it (the caller records "not sent" and offers a resend); never throws.
- */
-export async function sendMail(mail: OutgoingMail): Promise<boolean> {
-  try {
-    await deliverMail(mail);
-    return true;
-  } catch (e) {
-    console.error('[mail] not sent:', (e as Error).message);
-    return false;
-  }
-}
-
 /** An absolute link into the app for e-mails. */
 export function appUrl(path: string): string {
   const base = (process.env.APP_URL ?? process.env.NEXTAUTH_URL ?? 'http://localhost:3000').replace(/\/$/, '');

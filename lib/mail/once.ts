@@ -28,7 +28,11 @@ export interface SendOnce {
   coopId: number | null;
   /** The job sending it, `queue:id` (a retry keeps the id). */
   jobRef: string;
-  mail: OutgoingMail;
+  /**
+   * The message, or a function making it inside the claim's transaction from the claimed
+   * Message-ID (an invitation derives its link from it, so a repeat carries the same link).
+   */
+  mail: OutgoingMail | ((claim: { messageId: string; generation: number }, t: Transaction) => Promise<OutgoingMail>);
   /** Marks the caller's record "sending" inside the claim; false when there is nothing to send any more. */
   claim?: (t: Transaction) => Promise<boolean>;
   /** Marks the caller's record sent, in the transaction that marks the ledger row. */
@@ -40,7 +44,7 @@ export interface SendOnce {
 /** Another job holds the subject's in-flight claim and is still running: try again later. */
 export class MailInFlightElsewhere extends Error {}
 
-type Claim = { generation: number; messageId: string; fresh: boolean };
+type Claim = { generation: number; messageId: string; fresh: boolean; mail: OutgoingMail };
 
 /** The domain Message-IDs are made in: the sender's. */
 function messageDomain(): string {
@@ -65,6 +69,7 @@ export function surelyNotSent(e: unknown): boolean {
 }
 
 async function claimSend(o: SendOnce): Promise<Claim | null> {
+  const compose = (c: Omit<Claim, 'mail'>, t: Transaction) => (typeof o.mail === 'function' ? o.mail(c, t) : o.mail);
   return inTransaction(async (transaction) => {
     if (o.claim && !(await o.claim(transaction))) return null;
     const where = { subject: o.subject, ...(o.coopId !== null ? { coopId: o.coopId } : {}) };
@@ -78,12 +83,14 @@ async function claimSend(o: SendOnce): Promise<Claim | null> {
       }
       await MailSend.update({ claimedBy: o.jobRef, tries: literal('tries + 1'), claimedAt: fn('now') }, { where: { subject: o.subject, generation: last.generation }, transaction });
       log.warn({ event: 'mail.ambiguous', subject: o.subject, messageId: last.messageId, previousClaim: last.claimedBy }, 'an earlier send may have been delivered; sending again with the same Message-ID');
-      return { generation: last.generation, messageId: last.messageId, fresh: false };
+      const again = { generation: last.generation, messageId: last.messageId, fresh: false };
+      return { ...again, mail: await compose(again, transaction) };
     }
     const generation = (last?.generation ?? 0) + 1;
     const messageId = makeMessageId(o.subject, generation);
     await MailSend.create({ subject: o.subject, generation, coopId: o.coopId, messageId, state: 'sending', claimedBy: o.jobRef }, { transaction });
-    return { generation, messageId, fresh: true };
+    const claim = { generation, messageId, fresh: true };
+    return { ...claim, mail: await compose(claim, transaction) };
   });
 }
 
@@ -109,7 +116,7 @@ export async function sendOnce(o: SendOnce): Promise<boolean> {
   if (!claim) return false;
   const key = { subject: o.subject, generation: claim.generation };
   try {
-    await deliverMail({ ...o.mail, messageId: claim.messageId });
+    await deliverMail({ ...claim.mail, messageId: claim.messageId });
   } catch (e) {
     // A fresh claim that surely never reached the server is withdrawn; an ambiguous one stays.
     if (claim.fresh && surelyNotSent(e)) {

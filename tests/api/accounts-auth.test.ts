@@ -219,7 +219,18 @@ describe('profile: /api/me', () => {
     const res = await agent.post('/api/me/email').send({ email: newEmail.toUpperCase(), currentPassword: TEST_PASSWORD }).expect(202);
     expect(res.body).toEqual({ pendingEmail: newEmail, sent: true });
     expect((await agent.get('/api/me').expect(200)).body).toMatchObject({ email: u.email, pendingEmail: newEmail });
-    const token = tokenIn((await waitForMail(newEmail)).text, 'confirm-email');
+    const confirmation = await waitForMail(newEmail);
+    const token = tokenIn(confirmation.text, 'confirm-email');
+    // The profile follows the confirmation e-mail from the send ledger: sent, under the caught Message-ID.
+    let me = (await agent.get('/api/me').expect(200)).body;
+    for (let i = 0; i < 50 && me.pendingEmailDelivery?.status !== 'sent'; i++) {
+      await new Promise((r) => setTimeout(r, 100));
+      me = (await agent.get('/api/me').expect(200)).body;
+    }
+    expect(me.pendingEmailDelivery).toEqual({ status: 'sent', sentAt: expect.any(String) });
+    expect((await agent.get('/profile').expect(200)).text).toContain('Confirmation e-mail: sent.');
+    const [link] = await sql<{ id: number }>(`SELECT id FROM auth_tokens WHERE user_id = $1 AND kind = 'email-change' AND used_at IS NULL`, [u.id]);
+    expect(await sql('SELECT message_id, state FROM mail_sends WHERE subject = $1', [`email-change.${link!.id}`])).toEqual([{ message_id: confirmation.messageId, state: 'sent' }]);
 
     const page = await api().get(`/confirm-email/${token}`).expect(200);
     expect(page.text).toContain(newEmail);
@@ -238,6 +249,17 @@ describe('profile: /api/me', () => {
     expect(reused.body.reason).toBe('used');
     await api().post('/api/me/email/confirm').send({ token: 'garbage' }).expect(404);
     expect((await api().post('/api/me/email/confirm').send({ token: 5 }).expect(422)).body.fields).toHaveProperty('token');
+  });
+
+  it('a pending change whose confirmation e-mail has neither a ledger row nor a live job shows "failed" (ask again)', async () => {
+    const u = await makeUser();
+    const agent = await signIn(u.email);
+    // What every try failing leaves behind once its job is gone: the link, and no sent message.
+    await sql(`INSERT INTO auth_tokens (user_id, kind, token_hash, new_email, expires_at) VALUES ($1, 'email-change', $2, $3, now() + interval '1 day')`, [
+      u.id, crypto.randomBytes(32).toString('hex'), `lost-${Date.now().toString(36)}@example.org`,
+    ]);
+    expect((await agent.get('/api/me').expect(200)).body.pendingEmailDelivery).toEqual({ status: 'failed', sentAt: null });
+    expect((await agent.get('/profile').expect(200)).text).toContain('Confirmation e-mail not delivered');
   });
 
   it('"sign out everywhere" ends every session of mine on the next request', async () => {

@@ -2,7 +2,8 @@
 // invited role; existing accounts; re-invites; resend, revoke, expiry, reuse; bad input.
 import crypto from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { api, baseUrl, countRows, makeCoopWithRoles, makeUser, signIn, sql, TEST_PASSWORD, waitForMail } from '../support/api';
+import { api, baseUrl, caughtMail, countRows, makeCoopWithRoles, makeUser, signIn, sql, TEST_PASSWORD, waitForMail } from '../support/api';
+import { mailSettled } from '../support/worker';
 
 type Ctx = Awaited<ReturnType<typeof makeCoopWithRoles>>;
 
@@ -216,6 +217,35 @@ describe('invitation by e-mail, end to end through the API', () => {
     const { token } = linkIn((await waitForMail(email)).text);
     await waitForDelivery(row!.id);
     await api().get(`/api/invitations/${token}`).expect(200);
+  });
+
+  it('shows "sent" once delivered, with the Message-ID in the send ledger; a resend is the next send, exactly once', async () => {
+    const email = freshEmail();
+    const created = await ctx.agents.admin.post(invitations()).send({ email, role: 'member' }).expect(201);
+    const id = created.body.invitation.id as number;
+    expect(created.body.invitation).toMatchObject({ delivery: 'queued', sentAt: null });
+    const first = await waitForMail(email);
+    await waitForDelivery(id);
+    const listed = (await ctx.agents.admin.get(invitations()).expect(200)).body.invitations.find((i: { id: number }) => i.id === id);
+    expect(listed).toMatchObject({ delivery: 'sent', sentAt: expect.any(String) });
+    const ledger = () => sql<{ generation: number; state: string; message_id: string }>('SELECT generation, state, message_id FROM mail_sends WHERE subject = $1 AND coop_id = $2 ORDER BY generation', [`invitation.${id}`, ctx.coop.id]);
+    expect(await ledger()).toEqual([{ generation: 1, state: 'sent', message_id: first.messageId }]);
+    // The members screen says so.
+    expect((await ctx.agents.admin.get(`/c/${ctx.coop.slug}/members`).expect(200)).text).toContain('E-mail sent');
+
+    // Resend: one more message, with a new link and its own Message-ID.
+    await ctx.agents.admin.post(`${invitations()}/${id}/resend`).expect(200);
+    await waitForMail(email, (m) => m.messageId !== first.messageId);
+    await waitForDelivery(id);
+    await mailSettled();
+    const mails = await caughtMail(email);
+    expect(mails).toHaveLength(2);
+    const rows = await ledger();
+    expect(rows.map((r) => [r.generation, r.state])).toEqual([[1, 'sent'], [2, 'sent']]);
+    expect(mails[0]!.messageId).toBe(rows[1]!.message_id);
+    // The new link works; the first one no longer does.
+    await api().get(`/api/invitations/${linkIn(mails[0]!.text).token}`).expect(200);
+    await api().get(`/api/invitations/${linkIn(first.text).token}`).expect(404);
   });
 
   it('resend and revoke of another co-op’s invitation are 404', async () => {

@@ -5,7 +5,7 @@
 // through the real server, the real worker and the real catcher.
 import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
-import { makeCoop, makeUser, signIn, sql, waitForMail } from '../support/api';
+import { countRows, makeCoop, makeUser, signIn, sql, waitForMail } from '../support/api';
 
 async function closedPort(): Promise<number> {
   const s = net.createServer();
@@ -23,6 +23,8 @@ describe('invitation while the mail server is down', () => {
     process.env.APP_URL = inject('baseUrl');
     process.env.SMTP_HOST = '127.0.0.1';
     process.env.SMTP_PORT = String(await closedPort());
+    // The link is derived from the claimed Message-ID with the server's secret (lib/auth/tokens).
+    process.env.NEXTAUTH_SECRET = (JSON.parse(inject('workerEnv')) as NodeJS.ProcessEnv).NEXTAUTH_SECRET;
     deliver = await import('@/lib/invitations/deliver');
     db = await import('@/lib/db');
   });
@@ -35,16 +37,18 @@ describe('invitation while the mail server is down', () => {
     const admin = await makeUser({ coopId: coop.id, role: 'admin', name: 'Signe Halloran' });
     const email = `offline-${Date.now().toString(36)}@example.org`;
     // A queued invitation whose job this process runs by hand (the test worker never sees it: no job was queued).
-    const [inv] = await sql<{ id: number; token_hash: string }>(
+    const [inv] = await sql<{ id: number }>(
       `INSERT INTO invitations (coop_id, email, role, token_hash, delivery, invited_by_user_id, expires_at)
-       VALUES ($1, $2, 'treasurer', repeat('0', 64), 'queued', $3, now() + interval '7 days') RETURNING id, token_hash`,
+       VALUES ($1, $2, 'treasurer', repeat('0', 64), 'queued', $3, now() + interval '7 days') RETURNING id`,
       [coop.id, email, admin.id],
     );
 
-    // The job's try fails: it throws (pg-boss retries it later) and the send rolled back: still queued, same hash.
-    await expect(deliver.deliverInvitationJob(coop.id, inv!.id)).rejects.toThrow();
-    const [row] = await sql<{ delivery: string; status: string; token_hash: string }>('SELECT delivery, status, token_hash FROM invitations WHERE id = $1', [inv!.id]);
-    expect(row).toEqual({ delivery: 'queued', status: 'pending', token_hash: inv!.token_hash });
+    // The job's try fails: it throws (pg-boss retries it later); the server surely never had it,
+    // so its claim in the send ledger is withdrawn: still queued, nothing recorded as sent.
+    await expect(deliver.deliverInvitationJob(coop.id, inv!.id, 'mail-invitation:by-hand')).rejects.toThrow();
+    const [row] = await sql<{ delivery: string; status: string }>('SELECT delivery, status FROM invitations WHERE id = $1', [inv!.id]);
+    expect(row).toEqual({ delivery: 'queued', status: 'pending' });
+    expect(await countRows('mail_sends', 'subject = $1', [`invitation.${inv!.id}`])).toBe(0);
 
     // Every try failed (the dead letter): marked not-sent, listed for resending.
     await deliver.invitationMailGaveUp(coop.id, inv!.id);
@@ -61,6 +65,9 @@ describe('invitation while the mail server is down', () => {
     expect(info.body).toMatchObject({ role: 'treasurer', coop: { slug: coop.slug } });
     // A job run again for the sent invitation sends nothing.
     for (let i = 0; i < 50 && (await sql<{ d: string }>('SELECT delivery AS d FROM invitations WHERE id = $1', [inv!.id]))[0]!.d !== 'sent'; i++) await new Promise((r) => setTimeout(r, 100));
-    await expect(deliver.deliverInvitationJob(coop.id, inv!.id)).resolves.toBe(false);
+    await expect(deliver.deliverInvitationJob(coop.id, inv!.id, 'mail-invitation:by-hand')).resolves.toBe(false);
+    // The delivered message is in the ledger under its Message-ID.
+    const [sent] = await sql<{ message_id: string; state: string }>('SELECT message_id, state FROM mail_sends WHERE subject = $1', [`invitation.${inv!.id}`]);
+    expect(sent).toEqual({ message_id: mail.messageId, state: 'sent' });
   });
 });

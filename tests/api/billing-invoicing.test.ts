@@ -1,8 +1,9 @@
 // Monthly invoicing: hand-computed totals and numbering, idempotent re-runs (also after a
 // simulated crash), the PDF's text, e-mail with the PDF attached, voiding by credit note, CSV.
 import { PDFParse } from 'pdf-parse';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { countRows, signIn, sql, waitForMail } from '../support/api';
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
+import { caughtMail, countRows, signIn, sql, waitForMail } from '../support/api';
+import { mailSettled } from '../support/worker';
 import { dayIn, insertDraw, invoicesOf, issueMonth, makeBillingCoop, monthsAgo, runMonth } from '../support/billing';
 
 const P = monthsAgo(3); // a past month, so the run accepts it
@@ -26,6 +27,11 @@ async function pdfText(bytes: Buffer): Promise<string> {
 }
 
 describe('monthly invoicing', () => {
+  afterAll(async () => {
+    // The housekeeping check's own pg-boss and database pool, if it ran.
+    await (await globalThis.__tallyvatBoss?.catch(() => undefined))?.stop({ graceful: false, close: true });
+    if (process.env.DATABASE_URL) await (await import('@/lib/db')).sequelize.close();
+  });
   let c: Awaited<ReturnType<typeof makeBillingCoop>>;
   let slug: string;
   const ids: Record<string, number> = {};
@@ -168,11 +174,60 @@ describe('monthly invoicing', () => {
     await ada.get(`/api/coops/${slug}/invoices/${ids['Ben Brook']}`).expect(404);
   });
 
-  it('resends an invoice e-mail on request and records it', async () => {
-    const res = await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${ids['Ben Brook']}/send`).send({}).expect(200);
-    expect(res.body.emailStatus).toBe('sent');
-    const [row] = await sql<{ email_attempts: number }>(`SELECT email_attempts FROM invoices WHERE id = $1`, [ids['Ben Brook']]);
-    expect(row!.email_attempts).toBe(2);
+  it('"send again" queues the invoice’s mail job (202 queued); the worker delivers it exactly once as the next send', async () => {
+    const id = ids['Ben Brook']!;
+    const ben = c.members['Ben Brook']!.email;
+    await mailSettled();
+    const before = (await caughtMail(ben)).length;
+    const jobs = () => countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1`, [`invoice.${id}`]);
+    const jobsBefore = await jobs();
+    const res = await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${id}/send`).send({}).expect(202);
+    expect(res.body).toEqual({ emailStatus: 'queued' });
+    // Nothing is sent inside the request: one job is queued under the invoice's key.
+    expect(await jobs()).toBe(jobsBefore + 1);
+    await mailSettled();
+    const detail = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices/${id}`).expect(200);
+    expect(detail.body).toMatchObject({ emailStatus: 'sent', emailAttempts: 2 });
+    // Exactly one more message, carrying the ledger's Message-ID of the invoice's second send.
+    const mails = await caughtMail(ben);
+    expect(mails).toHaveLength(before + 1);
+    const ledger = await sql<{ generation: number; state: string; message_id: string }>(`SELECT generation, state, message_id FROM mail_sends WHERE subject = $1 ORDER BY generation`, [`invoice.${id}`]);
+    expect(ledger.map((r) => [r.generation, r.state])).toEqual([[1, 'sent'], [2, 'sent']]);
+    expect(mails[0]!.messageId).toBe(ledger[1]!.message_id);
+    const audited = await sql<{ after: { emailStatus: string } }>(`SELECT after FROM audit_events WHERE coop_id = $1 AND action = 'invoice.email' AND entity_id = $2`, [c.coop.id, String(id)]);
+    expect(audited.map((a) => a.after.emailStatus)).toEqual(['queued']);
+    // A draft is not e-mailed; another co-op's invoice is not found.
+    const draft = await sql<{ id: number }>(`SELECT id FROM invoices WHERE coop_id = $1 AND status = 'draft' LIMIT 1`, [c.coop.id]);
+    if (draft[0]) await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${draft[0].id}/send`).send({}).expect(404);
+  });
+
+  it('housekeeping queues a stale "queued" invoice once, and never a second job beside a live one', async () => {
+    // The timed job's function runs here, in-process (the test stack leaves it unscheduled).
+    process.env.DATABASE_URL = inject('databaseUrl');
+    const { housekeeping } = await import('@/lib/jobs/worker');
+    const { enqueue } = await import('@/lib/jobs');
+    const [a, b] = [ids['Ada Archer']!, ids['Ben Brook']!];
+    await mailSettled();
+    const jobs = (id: number) => countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1 AND state IN ('created', 'retry', 'active')`, [`invoice.${id}`]);
+    const everJobs = (id: number) => countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1`, [`invoice.${id}`]);
+    const benBefore = await everJobs(b);
+    // Both left "queued" for 5 minutes (a web process died, or a large send is still on its way);
+    // Ada's still has a live job (held back an hour, so the test worker leaves it waiting).
+    await sql(`UPDATE invoices SET email_status = 'queued', updated_at = now() - interval '5 minutes' WHERE id = ANY($1::int[])`, [[a, b]]);
+    await enqueue('mail-invoice', { coopId: c.coop.id, invoiceId: a }, { singletonKey: `invoice.${a}`, startAfter: 3600 });
+    try {
+      expect(await housekeeping()).toBeGreaterThanOrEqual(1); // Ben's (other files' stale invoices may count too)
+      expect(await jobs(a)).toBe(1);
+      // Ben's had none: queued once, and a second round (his job maybe still live) adds nothing.
+      await housekeeping();
+      expect(await jobs(a)).toBe(1);
+      expect(await everJobs(b)).toBe(benBefore + 1);
+    } finally {
+      await sql(`DELETE FROM pgboss.job WHERE name = 'mail-invoice' AND singleton_key = $1 AND state = 'created'`, [`invoice.${a}`]);
+      await sql(`UPDATE invoices SET email_status = 'sent' WHERE id = $1`, [a]);
+    }
+    await mailSettled();
+    expect((await sql<{ email_status: string }>(`SELECT email_status FROM invoices WHERE id = $1`, [b]))[0]!.email_status).toBe('sent');
   });
 
   it('voids by credit note with the next number; the member can be invoiced again without gaps', async () => {

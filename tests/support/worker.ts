@@ -51,7 +51,7 @@ export async function mailSettled(timeoutMs = 30_000): Promise<void> {
   const { sql } = await import('./api');
   const end = Date.now() + timeoutMs;
   for (;;) {
-    const [r] = await sql<{ n: string }>(`SELECT count(*) AS n FROM pgboss.job WHERE name IN ('mail', 'mail-invoice') AND state IN ('created', 'retry', 'active')`);
+    const [r] = await sql<{ n: string }>(`SELECT count(*) AS n FROM pgboss.job WHERE name IN ('mail', 'mail-invoice', 'mail-invitation') AND state IN ('created', 'retry', 'active')`);
     if (Number(r!.n) === 0) return;
     if (Date.now() > end) throw new Error('e-mail jobs still waiting');
     await new Promise((res) => setTimeout(res, 100));

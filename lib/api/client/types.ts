@@ -593,7 +593,7 @@ export interface paths {
   };
   "/api/coops/{coop}/billing/invoices/{id}/send": {
     /**
-     * E-mail an issued invoice again now
+     * E-mail an issued invoice again (its mail job is queued; follow `emailStatus` on the invoice)
      * @description **Who:** Roles: treasurer, admin. Action `billing:manage`.
      */
     post: operations["postApiCoopsByCoopBillingInvoicesByIdSend"];
@@ -781,6 +781,12 @@ export interface components {
       name: string;
       email: string;
       pendingEmail: string | null;
+      /** @description The confirmation e-mail of the pending change: queued (retried with back-off while the mail server is away), sent, or failed after every try (ask again to send a new link) */
+      pendingEmailDelivery: ({
+        /** @enum {string} */
+        status: "queued" | "sent" | "failed";
+        sentAt: string | null;
+      }) | null;
       coops: ({
           slug: string;
           name: string;
@@ -814,8 +820,13 @@ export interface components {
       email: string;
       /** @enum {string} */
       role: "admin" | "treasurer" | "brewer" | "member";
-      /** @enum {string} */
+      /**
+       * @description The e-mail: queued (the worker has it, retrying with back-off if the mail server is away), sent (the server took it), not-sent (every try failed: the dead letter; resend it)
+       * @enum {string}
+       */
       delivery: "queued" | "sent" | "not-sent";
+      /** @description When the mail server last took this invitation's e-mail (the send ledger); null before the first send */
+      sentAt: string | null;
       /** @description ISO 8601 date-time */
       expiresAt: string;
       /** @description ISO 8601 date-time */
@@ -7869,7 +7880,7 @@ export interface operations {
     };
   };
   /**
-   * E-mail an issued invoice again now
+   * E-mail an issued invoice again (its mail job is queued; follow `emailStatus` on the invoice)
    * @description **Who:** Roles: treasurer, admin. Action `billing:manage`.
    */
   postApiCoopsByCoopBillingInvoicesByIdSend: {
@@ -7888,11 +7899,11 @@ export interface operations {
     };
     responses: {
       /** @description Success */
-      200: {
+      202: {
         content: {
           "application/json": {
-            emailStatus: string;
-            [key: string]: unknown;
+            /** @constant */
+            emailStatus: "queued";
           };
         };
       };
@@ -7920,7 +7931,7 @@ export interface operations {
           "application/json": components["schemas"]["Error"];
         };
       };
-      /** @description Conflicts with the current state (a closed month, a duplicate, a rule of the co-op). */
+      /** @description The e-mail is being sent right now. */
       409: {
         content: {
           "application/json": components["schemas"]["Error"];

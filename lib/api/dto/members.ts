@@ -30,7 +30,10 @@ export const invitationSchema = z
     id: int(),
     email: str(),
     role,
-    delivery: z.enum(['queued', 'sent', 'not-sent']),
+    delivery: z
+      .enum(['queued', 'sent', 'not-sent'])
+      .describe('The e-mail: queued (the worker has it, retrying with back-off if the mail server is away), sent (the server took it), not-sent (every try failed: the dead letter; resend it)'),
+    sentAt: date().nullable().describe('When the mail server last took this invitation\'s e-mail (the send ledger); null before the first send'),
     expiresAt: date(),
     createdAt: date(),
     invitedBy: str().nullable(),

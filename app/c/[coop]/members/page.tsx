@@ -12,7 +12,7 @@ import { ROLES } from '@/lib/auth/roles';
 import { listPendingInvitations } from '@/lib/invitations';
 import { listMembers } from '@/lib/members';
 import { memberListQuerySchema } from '@/lib/validation/members';
-import { formatDate } from '@/lib/dates';
+import { formatDate, formatWhen } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Members' };
 
@@ -34,7 +34,7 @@ export default async function MembersPage({ params, searchParams }: { params: Pr
   }));
   const invitationRows: InvitationRow[] = invitations.map((i) => ({
     id: i.id, email: i.email, role: i.role, delivery: i.delivery, expired: i.expired, invitedBy: i.invitedBy,
-    expiresLabel: formatDate(i.expiresAt, tz),
+    expiresLabel: formatDate(i.expiresAt, tz), sentLabel: i.sentAt ? formatWhen(i.sentAt, tz) : null,
   }));
   const filtered = Boolean(query.role || query.status || query.q);
 

@@ -1,16 +1,16 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
-import { RecordPaymentForm, ResendButton, VoidInvoiceForm } from '@/components/billing/action-forms';
+import { RecordPaymentForm, VoidInvoiceForm } from '@/components/billing/action-forms';
+import { InvoiceEmailDelivery } from '@/components/billing/email-delivery';
 import { InvoiceSummaryView } from '@/components/billing/invoice-summary';
 import { PaymentConfirmingNotice } from '@/components/billing/payment-confirming';
 import { PaymentsTable } from '@/components/billing/payments-table';
-import { EmailStatusText } from '@/components/billing/status-badge';
 import { Card, Notice } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { whyNoDues } from '@/lib/billing/dues-note';
 import { getInvoiceDetail } from '@/lib/billing/invoices';
-import { todayIn, formatDate } from '@/lib/dates';
+import { todayIn } from '@/lib/dates';
 import { HttpError } from '@/lib/http';
 
 export const metadata: Metadata = { title: 'Invoice' };
@@ -40,8 +40,7 @@ export default async function BillingInvoicePage({ params }: { params: Promise<{
             <a className="font-semibold" href={`/api/coops/${coop}/billing/invoices/${inv.id}/pdf`}>Download PDF</a>
             {inv.status !== 'draft' ? (
               <>
-                <p>E-mail to {inv.memberEmail}: <EmailStatusText status={inv.emailStatus} />{inv.emailedAt ? `, last sent ${formatDate(inv.emailedAt, actor.coop.timezone)}` : ''} ({inv.emailAttempts} attempt{inv.emailAttempts === 1 ? '' : 's'}).</p>
-                <ResendButton coop={coop} invoiceId={inv.id} />
+                <InvoiceEmailDelivery coop={coop} invoiceId={inv.id} to={inv.memberEmail} timezone={actor.coop.timezone} initial={{ emailStatus: inv.emailStatus, emailedAt: inv.emailedAt, emailAttempts: inv.emailAttempts }} />
               </>
             ) : (
               <p className="text-stone-600">Drafts are not e-mailed. Issue the month’s drafts from the month page.</p>
