@@ -1558,8 +1558,8 @@ export interface components {
       /** @description YYYY-MM-DD */
       batchDate: string;
       oilLiters: number;
-      /** @enum {string} */
-      catalyst: "KOH" | "NaOH";
+      /** @description null for an imported past batch recorded without one */
+      catalyst: ("KOH" | "NaOH") | null;
       release: ({
         releasedLiters: number;
         /** @description ISO 8601 date-time */

@@ -158,7 +158,7 @@ export const batchSummarySchema = z
     status,
     batchDate: day(),
     oilLiters: num(),
-    catalyst,
+    catalyst: catalyst.nullable().describe('null for an imported past batch recorded without one'),
     release: z.object({ releasedLiters: num(), releasedAt: date(), tankName: str().nullable() }).nullable(),
     costPerGallonCents: num().nullable(),
     costPerLiterCents: num().nullable(),
