@@ -8,11 +8,12 @@ import { requestContext } from '@/lib/request-context';
 import { COMMON_HEADERS, DOWNLOAD_CSP, HSTS } from '@/lib/security/headers';
 import { isSameOriginRequest, servedOverHttps } from '@/lib/security/origin';
 import { CONTROL_CHARS } from '@/lib/validation/common';
+import { emptyFieldErrors, fieldErrors, type FieldErrors } from '@/lib/validation/fields';
 
 watchDatabase(sequelize);
 
-/** Field → reasons, as returned to forms (`fields.email = ['Enter a valid e-mail address']`). */
-export type FieldErrors = Record<string, string[]>;
+export type { FieldErrors };
+export { emptyFieldErrors, fieldErrors };
 
 /** An error with an HTTP status that route handlers turn into a JSON answer. */
 export class HttpError extends Error {
@@ -30,28 +31,6 @@ export const unauthorized = () => new HttpError(401, 'Sign in to continue.');
 export const forbidden = (why = 'Your role in this co-op does not allow this.') => new HttpError(403, why);
 export const notFound = (what = 'Not found.') => new HttpError(404, what);
 export const conflict = (why: string, extra?: Record<string, unknown>) => new HttpError(409, why, undefined, extra);
-
-/** An empty field → reasons map with no prototype, so a field named `__proto__` or `toString` is just a key. */
-export function emptyFieldErrors(): FieldErrors {
-  return Object.create(null) as FieldErrors;
-}
-
-/** Flattens zod issues into { "a.b": ["reason"] }. */
-export function fieldErrors(error: z.ZodError): FieldErrors {
-  // Keys come from the request (unknown keys are reported by name): a plain `{}` would answer
-  // `out.__proto__` or `out.constructor` with Object.prototype's members.
-  const out = emptyFieldErrors();
-  for (const issue of error.issues) {
-    // A key the schema does not accept (a smuggled coopId, role …) is reported under its own name.
-    if (issue.code === 'unrecognized_keys') {
-      for (const k of issue.keys) (out[[...issue.path, k].join('.')] ??= []).push('This field is not accepted here.');
-      continue;
-    }
-    const key = issue.path.length ? issue.path.join('.') : '_form';
-    (out[key] ??= []).push(issue.message);
-  }
-  return out;
-}
 
 /** Parses a value with a schema or throws a 422 naming each field and reason. */
 export function parseWith<S extends z.ZodType>(schema: S, value: unknown): z.infer<S> {

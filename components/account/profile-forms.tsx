@@ -3,7 +3,9 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { signInWithPassword, signOutTo } from '@/components/auth/credentials';
-import { formObject, sendJson, useApiForm } from '@/components/forms/use-api-form';
+import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { emailChangeSchema, emailConfirmSchema, passwordChangeSchema, profileUpdateSchema } from '@/lib/validation/auth';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
@@ -12,10 +14,11 @@ import { useRefreshWhile } from '@/components/ui/use-refresh-while';
 /** Rename. */
 export function NameForm({ name }: { name: string }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
-    if (await submit('/api/me', 'PATCH', { name: new FormData(e.currentTarget).get('name') ?? '' }, 'Name saved.')) router.refresh();
+    const body = { name: formObject(e.currentTarget).name ?? '' };
+    if (await send((b) => apiClient.PATCH('/api/me', { body: b }), { schema: profileUpdateSchema, body }, 'Name saved.')) router.refresh();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
@@ -49,11 +52,13 @@ function PendingChange({ pendingEmail, delivery }: { pendingEmail: string; deliv
 /** New address + current password → a confirmation link goes to the new address. */
 export function EmailForm({ email, pendingEmail, delivery = null }: { email: string; pendingEmail: string | null; delivery?: Delivery }) {
   const router = useRouter();
-  const { busy, fields, message, submit, setMessage } = useApiForm();
+  const { busy, fields, message, send, setMessage } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const r = await submit<{ pendingEmail: string; sent: boolean }>('/api/me/email', 'POST', formObject(form));
+    const f = formObject(form);
+    const body = { email: f.email ?? '', currentPassword: f.currentPassword ?? '' };
+    const r = await send((b) => apiClient.POST('/api/me/email', { body: b }), { schema: emailChangeSchema, body });
     if (!r) return;
     form.reset();
     setMessage(
@@ -80,7 +85,7 @@ export function EmailForm({ email, pendingEmail, delivery = null }: { email: str
  * straight back in with the new password, so only the OTHER devices are signed out.
  */
 export function PasswordForm({ email }: { email: string }) {
-  const { busy, fields, message, submit, setFields, setMessage } = useApiForm();
+  const { busy, fields, message, send, setFields, setMessage } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
@@ -89,7 +94,8 @@ export function PasswordForm({ email }: { email: string }) {
       setFields({ confirm: ['The two passwords differ.'] });
       return;
     }
-    const r = await submit('/api/me/password', 'POST', { currentPassword: data.currentPassword ?? '', newPassword: data.newPassword ?? '' });
+    const body = { currentPassword: data.currentPassword ?? '', newPassword: data.newPassword ?? '' };
+    const r = await send((b) => apiClient.POST('/api/me/password', { body: b }), { schema: passwordChangeSchema, body });
     if (!r) return;
     form.reset();
     const again = await signInWithPassword(email, data.newPassword ?? '');
@@ -118,7 +124,7 @@ export function SignOutEverywhere() {
   const [error, setError] = useState<string | null>(null);
   async function go() {
     setBusy(true);
-    const r = await sendJson('/api/me/sign-out-everywhere', 'POST');
+    const r = await callApi(() => apiClient.POST('/api/me/sign-out-everywhere'));
     if (!r.ok) {
       setBusy(false);
       setError(r.error);
@@ -146,7 +152,7 @@ export function ConfirmEmailButton({ token, newEmail }: { token: string; newEmai
   const [state, setState] = useState<{ busy: boolean; error: string | null; done: boolean }>({ busy: false, error: null, done: false });
   async function confirm() {
     setState({ busy: true, error: null, done: false });
-    const r = await sendJson('/api/me/email/confirm', 'POST', { token });
+    const r = await callApi((b) => apiClient.POST('/api/me/email/confirm', { body: b }), { schema: emailConfirmSchema, body: { token } });
     setState({ busy: false, error: r.ok ? null : r.error, done: r.ok });
   }
   if (state.done) {

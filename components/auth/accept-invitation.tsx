@@ -4,16 +4,15 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { formObject, sendJson } from '@/components/forms/use-api-form';
+import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { invitationAcceptSchema } from '@/lib/validation/auth';
 import { signInWithPassword, signOutTo } from './credentials';
-
-type Accepted = { coop: { slug: string; name: string }; role: string; email: string; newAccount: boolean };
 
 /** A new person: name and password, then they are signed in and land in the co-op. */
 export function AcceptWithNewAccount({ token, email }: { token: string; email: string }) {
-  const [busy, setBusy] = useState(false);
-  const [fields, setFields] = useState<Record<string, string[]>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const { busy, fields, message, send, setFields, setMessage } = useApiForm();
+  const [signingIn, setSigningIn] = useState(false);
 
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -23,32 +22,27 @@ export function AcceptWithNewAccount({ token, email }: { token: string; email: s
       setFields({ confirm: ['The two passwords differ.'] });
       return;
     }
-    setBusy(true);
-    const r = await sendJson<Accepted>(`/api/invitations/${token}`, 'POST', { name: data.name ?? '', password: data.password ?? '' });
-    if (!r.ok) {
-      setBusy(false);
-      setFields(r.fields);
-      setMessage(r.error);
-      return;
-    }
-    setFields({});
-    const signedIn = await signInWithPassword(email, data.password ?? '');
+    const body = { name: data.name ?? '', password: data.password ?? '' };
+    const r = await send((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: invitationAcceptSchema.required(), body });
+    if (!r) return;
+    setSigningIn(true);
+    const signedIn = await signInWithPassword(email, body.password);
     if (!signedIn.ok) {
-      setBusy(false);
-      setMessage(`Your account is ready and you joined ${r.data.coop.name}, but signing in failed: ${signedIn.message}`);
+      setSigningIn(false);
+      setMessage({ tone: 'danger', text: `Your account is ready and you joined ${r.coop.name}, but signing in failed: ${signedIn.message}` });
       return;
     }
-    window.location.assign(`/c/${r.data.coop.slug}`);
+    window.location.assign(`/c/${r.coop.slug}`);
   }
 
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      {message ? <Notice tone="danger">{message}</Notice> : null}
+      {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <TextField label="E-mail" name="email" type="email" autoComplete="username" value={email} readOnly hint="The invited address; you sign in with it." />
       <TextField label="Your name" name="name" autoComplete="name" required errors={fields.name} hint="As other members of the co-op will see it." />
       <TextField label="Choose a password" name="password" type="password" autoComplete="new-password" required errors={fields.password} hint="12 to 128 characters. A few unrelated words make a strong one." />
       <TextField label="Password again" name="confirm" type="password" autoComplete="new-password" required errors={fields.confirm} />
-      <Button type="submit" disabled={busy}>{busy ? 'Joining…' : 'Create account and join'}</Button>
+      <Button type="submit" disabled={busy || signingIn}>{busy || signingIn ? 'Joining…' : 'Create account and join'}</Button>
     </form>
   );
 }
@@ -60,7 +54,7 @@ export function JoinButton({ token, coopName }: { token: string; coopName: strin
   async function join() {
     setBusy(true);
     setMessage(null);
-    const r = await sendJson<Accepted>(`/api/invitations/${token}`, 'POST', {});
+    const r = await callApi((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: invitationAcceptSchema, body: {} });
     if (!r.ok) {
       setBusy(false);
       setMessage(r.error);

@@ -6,14 +6,17 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { passwordResetRequestSchema, passwordResetSchema } from '@/lib/validation/auth';
 
 /** Asks for a reset link; the answer is the same whether or not the address has an account. */
 export function ResetRequestForm() {
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const [done, setDone] = useState<string | null>(null);
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
-    const r = await submit<{ message: string }>('/api/password-reset', 'POST', formObject(e.currentTarget));
+    const body = { email: formObject(e.currentTarget).email ?? '' };
+    const r = await send((b) => apiClient.POST('/api/password-reset', { body: b }), { schema: passwordResetRequestSchema, body });
     if (r) setDone(r.message);
   }
   if (done) return <Notice tone="ok" title="Check your e-mail">{done}</Notice>;
@@ -29,7 +32,7 @@ export function ResetRequestForm() {
 
 /** Sets the new password from a reset link. */
 export function ResetPasswordForm({ token, email }: { token: string; email: string }) {
-  const { busy, fields, message, submit, setFields } = useApiForm();
+  const { busy, fields, message, send, setFields } = useApiForm();
   const [done, setDone] = useState(false);
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -38,7 +41,8 @@ export function ResetPasswordForm({ token, email }: { token: string; email: stri
       setFields({ confirm: ['The two passwords differ.'] });
       return;
     }
-    const r = await submit(`/api/password-reset/${token}`, 'POST', { password: data.password ?? '' });
+    const body = { password: data.password ?? '' };
+    const r = await send((b) => apiClient.POST('/api/password-reset/{token}', { params: { path: { token } }, body: b }), { schema: passwordResetSchema, body });
     if (r) setDone(true);
   }
   if (done) {

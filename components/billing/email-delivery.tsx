@@ -50,7 +50,7 @@ export function InvoiceEmailDelivery({ coop, invoiceId, to, timezone, initial }:
           variant="secondary"
           disabled={busy || moving(state.emailStatus)}
           onClick={async () => {
-            const out = await send(apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/send', { params: { path }, body: {} }));
+            const out = await send(() => apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/send', { params: { path }, body: {} }));
             if (out) await mutate({ ...state, emailStatus: out.emailStatus }, { revalidate: true });
           }}
         >

@@ -5,7 +5,9 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { SelectField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { sendJson } from '@/components/forms/use-api-form';
+import { callApi } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { cardPaySchema } from '@/lib/validation/billing';
 import { formatCents } from '@/lib/money/format';
 import { TEST_CARDS } from '@/lib/payments/test-cards';
 
@@ -24,8 +26,10 @@ export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coo
     if (busy) return;
     setBusy(true);
     setResult(null);
-    const card = new FormData(e.currentTarget).get('card');
-    const r = await sendJson<{ status: string }>(`/api/coops/${coop}/invoices/${invoiceId}/pay`, 'POST', { card });
+    // The select offers only the test cards; the check names anything else.
+    const body = { card: String(new FormData(e.currentTarget).get('card') ?? '') as (typeof TEST_CARDS)[number]['id'] };
+    const path = { coop, id: String(invoiceId) };
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invoices/{id}/pay', { params: { path }, body: b }), { schema: cardPaySchema, body });
     setBusy(false);
     if (r.ok) {
       setResult({ tone: 'ok', text: 'Payment received — thank you.' });

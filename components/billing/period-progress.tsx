@@ -52,7 +52,7 @@ export function PeriodProgress({ coop, period, initial, currency }: { coop: stri
   async function act<T>(name: string, call: () => ClientCall<T>, ok: ((d: T) => string) | null) {
     setBusy(name);
     setMessage(null);
-    const r = await callApi(call());
+    const r = await callApi(call);
     setBusy(null);
     if (r.ok) setMessage(ok ? { tone: 'ok', text: ok(r.data) } : null);
     else setMessage({ tone: 'danger', text: r.error });

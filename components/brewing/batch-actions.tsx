@@ -7,8 +7,10 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ConfirmDialog, type ConfirmOutcome } from '@/components/ui/confirm-dialog';
 import { useAnnounce } from '@/components/shell/announcer';
-import { sendJson } from '@/components/forms/use-api-form';
-import { useApiForm } from '@/components/forms/use-api-form';
+import { callApi, numberOf, useApiForm, type ApiResult } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { batchAdvanceSchema, batchRejectSchema, batchReleaseSchema } from '@/lib/validation/brewing';
+import { batchPath } from './batch-path';
 import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
 import { QualityBadge } from './badges';
 import { STATUS_LABELS, STEP_ORDER } from './format';
@@ -45,6 +47,7 @@ export function BatchActions({ url, status, number, release }: { url: string; st
   const later = idx >= 0 ? STEP_ORDER.slice(idx + 1) : [];
   const [to, setTo] = useState<string>(later[0] ?? '');
   const name = `Batch${number ? ` ${number}` : ''}`;
+  const path = batchPath(url);
 
   async function onAdvance(e: React.FormEvent) {
     e.preventDefault();
@@ -53,7 +56,9 @@ export function BatchActions({ url, status, number, release }: { url: string; st
       advance.setMessage({ tone: 'danger', text: 'Some values you typed could not be saved: fix them (see the messages beside the fields), then move on.' });
       return;
     }
-    if (await advance.submit(`${url}/advance`, 'POST', { to })) {
+    // The select offers only later steps; the check names anything else.
+    const body = { to: to as Exclude<(typeof STEP_ORDER)[number], 'planned'> };
+    if (await advance.send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/advance', { params: { path }, body: b }), { schema: batchAdvanceSchema, body })) {
       announce({ tone: 'ok', text: `${name} moved to ${STATUS_LABELS[to]?.toLowerCase() ?? 'the next step'}.` });
       router.refresh();
     }
@@ -63,8 +68,7 @@ export function BatchActions({ url, status, number, release }: { url: string; st
     advance.setMessage({ tone: 'danger', text: `Some values you typed could not be saved: fix them before ${what}.` });
     return false;
   }
-  async function post(path: string, body: unknown, ok: string): Promise<ConfirmOutcome> {
-    const r = await sendJson(`${url}/${path}`, 'POST', body);
+  function outcome(r: ApiResult<unknown>, ok: string): ConfirmOutcome {
     if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
     router.refresh();
     return { ok: true, message: ok };
@@ -88,7 +92,11 @@ export function BatchActions({ url, status, number, release }: { url: string; st
           <ConfirmDialog
             trigger="Release to a tank…" triggerVariant="primary" disabled={!release.tanks.length} beforeOpen={() => saved('releasing')}
             title={`Release batch${number ? ` ${number}` : ''} to a tank`} tone="primary" confirmLabel="Release — can’t be undone" busyLabel="Releasing…"
-            onConfirm={(d) => post('release', { tankId: str(d, 'tankId'), volume: str(d, 'volume'), reason: str(d, 'reason').trim() || undefined }, `${name} is released into the tank.`)}
+            onConfirm={async (d) => {
+              const body = { tankId: str(d, 'tankId'), volume: numberOf(str(d, 'volume')) as number, reason: str(d, 'reason').trim() || undefined };
+              const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/release', { params: { path }, body: b }), { schema: batchReleaseSchema, body });
+              return outcome(r, `${name} is released into the tank.`);
+            }}
           >
             {(fields, id) => (
               <>
@@ -114,7 +122,10 @@ export function BatchActions({ url, status, number, release }: { url: string; st
         <ConfirmDialog
           trigger="Reject batch…" beforeOpen={() => saved('rejecting')} title={`Reject batch${number ? ` ${number}` : ''}`}
           confirmLabel="Reject — can’t be undone" busyLabel="Rejecting…"
-          onConfirm={(d) => post('reject', { reason: str(d, 'reason') }, `${name} is rejected.`)}
+          onConfirm={async (d) => {
+            const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/reject', { params: { path }, body: b }), { schema: batchRejectSchema, body: { reason: str(d, 'reason') } });
+            return outcome(r, `${name} is rejected.`);
+          }}
         >
           {(fields, id) => (
             <>

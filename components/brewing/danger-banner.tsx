@@ -4,6 +4,7 @@ import Link from 'next/link';
 import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
 import { formatTemp, type UnitSystem } from '@/lib/units';
 
 /** A Danger temperature reading no brewer has acknowledged yet (lib/batches DangerAlert). */
@@ -17,7 +18,7 @@ export function DangerBanner({ alerts, slug, units, canAcknowledge, linkToBatch 
   alerts: DangerBannerAlert[]; slug: string; units: UnitSystem; canAcknowledge: boolean; linkToBatch?: boolean;
 }) {
   const router = useRouter();
-  const { busy, message, submit } = useApiForm();
+  const { busy, message, send } = useApiForm();
   if (!alerts.length) return null;
   return (
     <div className="flex flex-col gap-2">
@@ -34,7 +35,7 @@ export function DangerBanner({ alerts, slug, units, canAcknowledge, linkToBatch 
               variant="danger"
               disabled={busy}
               onClick={async () => {
-                if (await submit(`/api/coops/${slug}/batches/${a.batchId}/temperatures/acknowledge`, 'POST', {})) router.refresh();
+                if (await send(() => apiClient.POST('/api/coops/{coop}/batches/{id}/temperatures/acknowledge', { params: { path: { coop: slug, id: String(a.batchId) } } }))) router.refresh();
               }}
             >
               {busy ? 'Saving…' : 'Acknowledge'}

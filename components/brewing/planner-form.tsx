@@ -5,33 +5,18 @@ import { useEffect, useRef, useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { FieldErrors, SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { sendJson } from '@/components/forms/use-api-form';
+import { callApi, numberOf } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import type { PlannerResultDto as PlannerResult } from '@/lib/api/dto/brewing';
+import { batchCreateSchema, plannerSchema } from '@/lib/validation/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { grams, money, perUnit, vol } from './format';
 
 export interface PlannerOilLot { id: number; label: string; remainingLiters: number; titrationMl: number | null; titrant: string | null }
 interface Recipe { catalyst: 'KOH' | 'NaOH'; baseGramsPerLiter: number | null; purityPct: number | null; methanolPct: number | null }
 
-/** What the planner route answers (see lib/batches/planner.ts). */
-interface PlannerResult {
-  plan: {
-    oilLiters: number; catalyst: string; purityPct: number; puritySource: string; baseGramsPerLiter: number; baseSource: string;
-    titration: { averageMl: number; trials: number[]; outlierIndexes: number[]; source: string; titrant: string; notice: string | null };
-    catalystResult: { gramsPerLiter: number; totalGrams: number; rule: string; explanation: string };
-    methanol: { mode: string; pct: number | null; molarRatio: number | null; liters: number; equivalentPct: number; equivalentMolarRatio: number };
-    oil: { acidNumber: number; ffaPercent: number; band: string; needsAcidPretreatment: boolean; reject: boolean; message: string };
-    yields: { fuelLiters: number; glycerolLiters: number; crudeGlycerinLiters: number };
-    yieldProjection: { ratio: number; source: 'history' | 'ideal'; batches: number; idealRatio: number; explanation: string };
-    projectedFuelLiters: number;
-  };
-  coverage: { kind: string; unit: 'L' | 'g'; needed: number; available: number; covered: boolean; shortBy: number; projectedCents: number; shortfallCents: number | null }[];
-  projected: { methanolCents: number; catalystCents: number; energyCents: number; energySource: string; feedstockCents: number; totalCents: number; costPerGallonCents: number | null; costPerLiterCents: number | null; incomplete: boolean };
-  notes: string[];
-}
-
 const PURITY_SOURCE: Record<string, string> = { typed: 'as typed', 'next-lot': 'from the lot in stock that is used next', recipe: 'from the co-op’s recipe', typical: 'typical for flake (common practice)' };
 const TRIALS = ['trial1', 'trial2', 'trial3', 'trial4'];
-const ENERGY = ['tariffCentsPerKwh', 'heaterKw', 'heaterHours', 'startTemp'];
 
 /**
  * The batch planner: inputs on the left, the computed figures beside them (recomputed by the
@@ -49,33 +34,38 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
   const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
   const seq = useRef(0);
 
-  function body(forCreate: boolean): Record<string, unknown> {
+  /** The inputs as the planner's body; `batchCreateSchema` takes the same without the energy figures. */
+  function body() {
     const d = new FormData(formRef.current!);
-    const s = (k: string) => String(d.get(k) ?? '').trim();
-    const out: Record<string, unknown> = {};
-    for (const k of ['oilVolume', 'oilLotId', 'catalyst', 'baseGramsPerLiter', 'purityPct', 'titrant', 'titrantFrom', 'titrationBlankMl', 'methanolMode', ...(forCreate ? [] : ENERGY)]) {
-      if (s(k) !== '') out[k] = s(k);
-    }
-    if (mode === 'percent' && s('methanolPct')) out.methanolPct = s('methanolPct');
-    if (mode === 'molar-ratio' && s('molarRatio')) out.molarRatio = s('molarRatio');
-    const trials = TRIALS.map(s).filter(Boolean);
-    if (trials.length) out.titrationTrials = trials;
-    return out;
+    const s = (k: string) => String(d.get(k) ?? '').trim() || undefined;
+    const trials = TRIALS.map(s).filter((t): t is string => t !== undefined).map(Number);
+    // The selects offer only the schema's choices.
+    return {
+      oilVolume: numberOf(s('oilVolume')), oilLotId: s('oilLotId'), catalyst: s('catalyst') as 'KOH' | 'NaOH' | undefined,
+      baseGramsPerLiter: numberOf(s('baseGramsPerLiter')), purityPct: numberOf(s('purityPct')), titrant: s('titrant') as 'KOH' | 'NaOH' | undefined,
+      titrantFrom: s('titrantFrom') as 'same-catalyst' | 'pure-reagent' | undefined, titrationBlankMl: numberOf(s('titrationBlankMl')),
+      methanolMode: s('methanolMode') as 'percent' | 'molar-ratio' | undefined,
+      methanolPct: mode === 'percent' ? numberOf(s('methanolPct')) : undefined, molarRatio: mode === 'molar-ratio' ? numberOf(s('molarRatio')) : undefined,
+      titrationTrials: trials.length ? trials : undefined,
+    };
   }
 
   async function compute() {
-    const b = body(false);
-    if (!b.oilVolume || (!b.titrationTrials && !b.oilLotId)) {
+    const d = new FormData(formRef.current!);
+    const n = (k: string) => numberOf(String(d.get(k) ?? ''));
+    const b = { ...body(), tariffCentsPerKwh: n('tariffCentsPerKwh'), heaterKw: n('heaterKw'), heaterHours: n('heaterHours'), startTemp: n('startTemp') };
+    if (b.oilVolume === undefined || (!b.titrationTrials && !b.oilLotId)) {
       setResult(null);
       return;
     }
     const mine = ++seq.current;
     setComputing(true);
-    const r = await sendJson<PlannerResult>(`/api/coops/${slug}/planner`, 'POST', b);
+    const r = await callApi((x) => apiClient.POST('/api/coops/{coop}/planner', { params: { path: { coop: slug } }, body: x }), { schema: plannerSchema, body: b });
     if (mine !== seq.current) return;
     setComputing(false);
     if (r.ok) {
-      setResult(r.data);
+      // openapi-fetch widens the yields' [low, high] tuple to an array; every other field is the contract's.
+      setResult(r.data as PlannerResult);
       setErrors({});
       setMessage(null);
     } else {
@@ -92,7 +82,7 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
 
   async function create() {
     setCreating(true);
-    const r = await sendJson<{ id: number }>(`/api/coops/${slug}/batches`, 'POST', body(true));
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches', { params: { path: { coop: slug } }, body: b }), { schema: batchCreateSchema, body: body() });
     setCreating(false);
     if (r.ok) router.push(`/c/${slug}/batches/${r.data.id}`);
     else {

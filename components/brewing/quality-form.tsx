@@ -7,6 +7,7 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { HOME_TEST_LABORATORY, limitsFor, type FuelStandard, type QualityResults } from '@/lib/quality';
+import { stepTarget } from './step-targets';
 import { useUnsavedForm } from './unsaved';
 
 interface Stored {
@@ -25,7 +26,7 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
   const metaOf = (k: string) => { const v = stored(k); return v !== undefined && v !== null && typeof v === 'object' ? v : null; };
   const firstMeta = Object.keys(labResults).map(metaOf).find((m) => m !== null) ?? null;
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send, setMessage } = useApiForm();
   const [std, setStd] = useState<FuelStandard>(standard);
   const rows = limitsFor(std).filter((r) => !r.reportOnly || r.property === 'cloudPoint');
   // Typed results are registered so that moving the batch on (or releasing it) saves them first; leaving the page asks.
@@ -56,7 +57,12 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
         }),
       ),
     };
-    const ok = Boolean(await submit(url, 'PATCH', body, 'Quality checks saved.'));
+    const target = stepTarget(url, 'PATCH');
+    if (!target) {
+      setMessage({ tone: 'danger', text: 'This form has nowhere to save to.' });
+      return false;
+    }
+    const ok = Boolean(await send(target.call, { schema: target.schema, body }, 'Quality checks saved.'));
     if (ok) router.refresh();
     return ok;
   }

@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField, FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { stepTarget } from './step-targets';
 import { useUnsavedForm } from './unsaved';
 
 /** One input of a step form. Values are sent as typed; the server parses and converts units. */
@@ -30,7 +31,7 @@ export interface StepField {
 export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', disabled, okText = 'Saved.', extra }: {
   url: string; method?: string; fields: StepField[]; submitLabel?: string; disabled?: boolean; okText?: string; extra?: Record<string, unknown>;
 }) {
-  const { busy, fields: errors, message, submit } = useApiForm();
+  const { busy, fields: errors, message, send, setMessage } = useApiForm();
   const router = useRouter();
   // Typed values are registered so that moving the batch on saves them first; leaving the page asks.
   const { formRef, dirty, onChange, onSubmit } = useUnsavedForm(save);
@@ -46,7 +47,12 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
       }
       body[f.name] = f.kind === 'list' ? raw.split(/[\s,;]+/).filter(Boolean) : raw;
     }
-    const ok = Boolean(await submit(url, method, body, okText));
+    const target = stepTarget(url, method);
+    if (!target) {
+      setMessage({ tone: 'danger', text: 'This form has nowhere to save to.' });
+      return false;
+    }
+    const ok = Boolean(await send(target.call, { schema: target.schema, body }, okText));
     if (ok) router.refresh();
     return ok;
   }

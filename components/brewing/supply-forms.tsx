@@ -5,7 +5,9 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { formObject, useApiForm } from '@/components/forms/use-api-form';
+import { formObject, numberOf, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { CHEMICAL_KINDS, QUANTITY_UNITS, chemicalLotCreateSchema, oilLotCreateSchema } from '@/lib/validation/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 
 const today = () => new Date().toISOString().slice(0, 10);
@@ -13,7 +15,7 @@ const today = () => new Date().toISOString().slice(0, 10);
 /** Records a chemical purchase, with an optional safety data sheet (PDF) uploaded after it. */
 export function ChemicalLotForm({ slug, units: system = 'metric' }: { slug: string; units?: UnitSystem }) {
   const router = useRouter();
-  const { busy, fields, message, submit, setMessage } = useApiForm();
+  const { busy, fields, message, send, setMessage } = useApiForm();
   const [kind, setKind] = useState('methanol');
   // The co-op's own units first: gallons and pounds in US co-ops, litres and kilograms otherwise.
   const us = system === 'us';
@@ -23,9 +25,14 @@ export function ChemicalLotForm({ slug, units: system = 'metric' }: { slug: stri
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const body = formObject(form);
-    delete body.sds;
-    const lot = await submit<{ id: number }>(`/api/coops/${slug}/supplies/chemicals`, 'POST', body, 'Purchase recorded.');
+    const f = formObject(form);
+    // The selects offer only the schema's choices.
+    const body = {
+      kind: f.kind as (typeof CHEMICAL_KINDS)[number], description: f.description, supplier: f.supplier ?? '', receivedOn: f.receivedOn ?? '',
+      quantity: numberOf(f.quantity), unit: f.unit as (typeof QUANTITY_UNITS)[number], totalCost: f.totalCost ?? '', purityPct: numberOf(f.purityPct), notes: f.notes,
+    };
+    const path = { coop: slug };
+    const lot = await send((b) => apiClient.POST('/api/coops/{coop}/supplies/chemicals', { params: { path }, body: b }), { schema: chemicalLotCreateSchema, body }, 'Purchase recorded.');
     if (!lot) return;
     const file = (form.elements.namedItem('sds') as HTMLInputElement | null)?.files?.[0];
     if (file) {
@@ -75,11 +82,17 @@ export function ChemicalLotForm({ slug, units: system = 'metric' }: { slug: stri
 /** Records collected oil (volume in the co-op's units). */
 export function OilLotForm({ slug, units }: { slug: string; units: UnitSystem }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    if (await submit(`/api/coops/${slug}/supplies/oil`, 'POST', formObject(form), 'Oil lot recorded.')) {
+    const f = formObject(form);
+    const body = {
+      collectedFrom: f.collectedFrom ?? '', collectedOn: f.collectedOn ?? '', volume: numberOf(f.volume), cost: f.cost, waterNotes: f.waterNotes, solidsNotes: f.solidsNotes,
+      titrationMl: numberOf(f.titrationMl), titrant: f.titrant as 'KOH' | 'NaOH' | undefined,
+    };
+    const path = { coop: slug };
+    if (await send((b) => apiClient.POST('/api/coops/{coop}/supplies/oil', { params: { path }, body: b }), { schema: oilLotCreateSchema, body }, 'Oil lot recorded.')) {
       form.reset();
       router.refresh();
     }

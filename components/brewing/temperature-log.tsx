@@ -5,7 +5,10 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { useApiForm } from '@/components/forms/use-api-form';
+import { numberOf, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { temperatureCreateSchema } from '@/lib/validation/brewing';
+import { batchPath } from './batch-path';
 import { formatTime, formatWhen } from '@/lib/dates';
 import { temperatureCheck, type TemperatureLevel } from '@/lib/chemistry';
 import { formatTemp, tempLabel, tempToC, type UnitSystem } from '@/lib/units';
@@ -21,14 +24,15 @@ const LEVEL_TEXT: Record<TemperatureLevel, string> = { ok: 'In range', cold: 'Co
  */
 export function TemperatureLog({ url, readings, units, timeZone, readOnly, elevationM = 0 }: { url: string; readings: Reading[]; units: UnitSystem; timeZone: string; readOnly?: boolean; elevationM?: number }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const [typed, setTyped] = useState('');
   const typedNumber = typed.trim() === '' ? NaN : Number(typed);
   const preview = Number.isFinite(typedNumber) ? temperatureCheck(tempToC(typedNumber, units), units, { elevationM }) : null;
 
   async function onSubmit(e: React.FormEvent) {
     e.preventDefault();
-    const saved = await submit<Reading>(`${url}/temperatures`, 'POST', { temp: typed });
+    const body = { temp: numberOf(typed) as number };
+    const saved = await send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/temperatures', { params: { path: batchPath(url) }, body: b }), { schema: temperatureCreateSchema, body });
     if (saved) {
       setTyped('');
       router.refresh();

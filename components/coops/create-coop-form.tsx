@@ -4,12 +4,16 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { coopCreateSchema } from '@/lib/validation/auth';
 
 export function CreateCoopForm() {
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
-    const created = await submit<{ slug: string }>('/api/coops', 'POST', formObject(e.currentTarget));
+    const f = formObject(e.currentTarget);
+    const body = { name: f.name ?? '', slug: f.slug ?? '', units: f.units as 'us' | 'metric' | undefined, timezone: f.timezone };
+    const created = await send((b) => apiClient.POST('/api/coops', { body: b }), { schema: coopCreateSchema, body });
     if (created) window.location.assign(`/c/${created.slug}`);
   }
   return (

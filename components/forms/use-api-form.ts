@@ -1,65 +1,66 @@
 'use client';
 
 import { useState } from 'react';
+import type { z } from 'zod';
 import { apiError, type ClientResult } from '@/lib/api/client';
+import { fieldErrors } from '@/lib/validation/fields';
+
+// The one way a form talks to the API: the body is checked with the route's own zod schema
+// (lib/validation, the one the handler parses with) before any request, so its reasons show
+// beside the field at once; then it goes through the typed client (lib/api/client), so the
+// body's and the answer's fields are the contract's and a renamed one is a compile error here.
+// The server's 4xx field errors land beside the same fields.
 
 export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; error: string; fields: Record<string, string[]>; body: Record<string, unknown> };
-
-/** Sends JSON to an API route and keeps the field errors and message it answers with. */
-export async function sendJson<T = unknown>(url: string, method: string, body?: unknown): Promise<ApiResult<T>> {
-  try {
-    const res = await fetch(url, {
-      method,
-      headers: body === undefined ? undefined : { 'content-type': 'application/json' },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
-    const data = await res.json().catch(() => ({}));
-    if (res.ok) return { ok: true, data: data as T };
-    return { ok: false, status: res.status, error: data.error ?? `Request failed (${res.status}).`, fields: data.fields ?? {}, body: data };
-  } catch {
-    return { ok: false, status: 0, error: 'Could not reach Tallyvat. Check your connection and try again.', fields: {}, body: {} };
-  }
-}
 
 /** An apiClient call (lib/api/client, openapi-fetch) under way. */
 export type ClientCall<T> = Promise<ClientResult<T>>;
 
+/** A body and the route's schema to check it with before it is sent. */
+export type Checked<B> = { schema: z.ZodType; body: B };
+
+const UNREACHABLE = 'Could not reach Tallyvat. Check your connection and try again.';
+
+/** Checks a body with a route's schema: its field errors, or null when the server would accept its shape. */
+export function checkBody(schema: z.ZodType, body: unknown): Record<string, string[]> | null {
+  const r = schema.safeParse(body);
+  return r.success ? null : { ...fieldErrors(r.error) };
+}
+
 /**
- * Awaits a typed-client call (`apiClient.POST('/api/…', { params, body })`) as the same result
- * `sendJson` gives: the data is the operation's declared answer, so reading a field the contract
- * does not have is a compile error in the component.
+ * Calls the typed client (`(body) => apiClient.POST('/api/…', { params, body })`), after checking
+ * `checked.body` with `checked.schema`: a body the route would refuse answers here as a 422 with
+ * the same field reasons, and nothing is sent.
  */
-export async function callApi<T>(request: ClientCall<T>): Promise<ApiResult<T>> {
+export async function callApi<T, B = undefined>(call: (body: B) => ClientCall<T>, checked?: Checked<B>): Promise<ApiResult<T>> {
+  if (checked) {
+    const fields = checkBody(checked.schema, checked.body);
+    if (fields) return { ok: false, status: 422, error: 'Some fields need attention.', fields, body: {} };
+  }
   try {
-    const r = await request;
+    const r = await call(checked?.body as B);
     if (r.response.ok) return { ok: true, data: r.data as T };
     const e = apiError(r.error, r.response.status);
     return { ok: false, status: r.response.status, ...e, body: r.error && typeof r.error === 'object' ? (r.error as Record<string, unknown>) : {} };
   } catch {
-    return { ok: false, status: 0, error: 'Could not reach Tallyvat. Check your connection and try again.', fields: {}, body: {} };
+    return { ok: false, status: 0, error: UNREACHABLE, fields: {}, body: {} };
   }
 }
 
-/** Form state for a JSON API call: busy flag, field errors, a top message. */
+/** Form state around `callApi`: busy flag, field errors (the form's own check, then the server's), a top message. */
 export function useApiForm() {
   const [busy, setBusy] = useState(false);
   const [fields, setFields] = useState<Record<string, string[]>>({});
   const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
 
-  /** Sends through the typed client (`send(apiClient.POST(…))`): the answer's type is the contract's. */
-  async function send<T>(request: ClientCall<T>, okText?: string): Promise<T | null> {
+  /**
+   * `send((b) => apiClient.POST('/api/…', { params, body: b }), { schema, body }, 'Saved.')`: the
+   * declared answer, or null with the reasons set beside the fields and in the message.
+   */
+  async function send<T, B = undefined>(call: (body: B) => ClientCall<T>, checked?: Checked<B>, okText?: string): Promise<T | null> {
     setBusy(true);
     setMessage(null);
-    return settle(await callApi(request), okText);
-  }
-
-  async function submit<T>(url: string, method: string, body: unknown, okText?: string): Promise<T | null> {
-    setBusy(true);
-    setMessage(null);
-    return settle(await sendJson<T>(url, method, body), okText);
-  }
-
-  function settle<T>(r: ApiResult<T>, okText?: string): T | null {
+    const r = await callApi(call, checked);
     setBusy(false);
     if (r.ok) {
       setFields({});
@@ -71,8 +72,11 @@ export function useApiForm() {
     return null;
   }
 
-  return { busy, fields, message, submit, send, setMessage, setFields };
+  return { busy, fields, message, send, setMessage, setFields };
 }
+
+/** A number input's text as the number a body carries: empty → undefined; not a number → NaN, which the schema names. */
+export const numberOf = (s: string | undefined): number | undefined => (s === undefined || s.trim() === '' ? undefined : Number(s));
 
 /** FormData → plain object of strings (empty strings dropped). */
 export function formObject(form: HTMLFormElement): Record<string, string> {

@@ -3,7 +3,9 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { DataTable } from '@/components/data-table/data-table';
-import { sendJson } from '@/components/forms/use-api-form';
+import { callApi } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import type { IMPORT_KINDS } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { openingImportColumns, type OpeningImportRow } from './opening-columns';
@@ -18,7 +20,8 @@ export function OpeningResult(p: { coopSlug: string; kind: string; importId: num
 
   async function undo() {
     setBusy(true);
-    const r = await sendJson(`${url}/undo`, 'POST', {});
+    const path = { coop: p.coopSlug, kind: p.kind as (typeof IMPORT_KINDS)[number], id: String(p.importId) };
+    const r = await callApi(() => apiClient.POST('/api/coops/{coop}/imports/{kind}/{id}/undo', { params: { path } }));
     setBusy(false);
     setAsking(false);
     setMessage(r.ok ? { tone: 'ok', text: 'The import was undone: everything it recorded was taken back.' } : { tone: 'danger', text: r.error });

@@ -4,7 +4,10 @@ import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { useApiForm } from '@/components/forms/use-api-form';
+import { numberOf, useApiForm } from '@/components/forms/use-api-form';
+import { batchPath } from '@/components/brewing/batch-path';
+import { apiClient } from '@/lib/api/client';
+import { lateLabResultSchema } from '@/lib/validation/lineage';
 import { limitsFor, type FuelStandard } from '@/lib/quality';
 
 /**
@@ -13,7 +16,7 @@ import { limitsFor, type FuelStandard } from '@/lib/quality';
  */
 export function LateLabForm({ url, standard }: { url: string; standard: FuelStandard }) {
   const router = useRouter();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const rows = limitsFor(standard).filter((r) => !r.reportOnly);
   const err = (k: string) => fields[`labResults.${k}`] ?? fields.labResults;
 
@@ -23,10 +26,10 @@ export function LateLabForm({ url, standard }: { url: string; standard: FuelStan
     const property = String(d.get('property') ?? '');
     const body = {
       labResults: {
-        [property]: { value: String(d.get('value') ?? '').trim(), method: String(d.get('method') ?? ''), laboratory: String(d.get('laboratory') ?? ''), date: String(d.get('date') ?? '') },
+        [property]: { value: numberOf(String(d.get('value') ?? '')) as number, method: String(d.get('method') ?? ''), laboratory: String(d.get('laboratory') ?? ''), date: String(d.get('date') ?? '') },
       },
     };
-    const r = await submit<{ review: unknown }>(`${url}/lab-results`, 'POST', body);
+    const r = await send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/lab-results', { params: { path: batchPath(url) }, body: b }), { schema: lateLabResultSchema, body });
     if (r) router.refresh();
   }
 

@@ -32,7 +32,7 @@ export function InvitationList({ coopSlug, invitations }: { coopSlug: string; in
   async function resend(inv: InvitationRow) {
     setBusyId(inv.id);
     setMessage(null);
-    const r = await callApi(apiClient.POST('/api/coops/{coop}/invitations/{id}/resend', { params: { path: { coop: coopSlug, id: String(inv.id) } } }));
+    const r = await callApi(() => apiClient.POST('/api/coops/{coop}/invitations/{id}/resend', { params: { path: { coop: coopSlug, id: String(inv.id) } } }));
     setBusyId(null);
     if (!r.ok) return setMessage({ tone: 'danger', text: r.error });
     setMessage({ tone: 'ok', text: `Sending again to ${inv.email} with a new link; the old link no longer works.` });
@@ -42,7 +42,7 @@ export function InvitationList({ coopSlug, invitations }: { coopSlug: string; in
   async function revoke(inv: InvitationRow) {
     setBusyId(inv.id);
     setMessage(null);
-    const r = await callApi(apiClient.DELETE('/api/coops/{coop}/invitations/{id}', { params: { path: { coop: coopSlug, id: String(inv.id) } } }));
+    const r = await callApi(() => apiClient.DELETE('/api/coops/{coop}/invitations/{id}', { params: { path: { coop: coopSlug, id: String(inv.id) } } }));
     setBusyId(null);
     setConfirming(null);
     if (!r.ok) return setMessage({ tone: 'danger', text: r.error });

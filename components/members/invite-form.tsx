@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { callApi, formObject } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
+import { invitationCreateSchema } from '@/lib/validation/auth';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
@@ -23,7 +24,8 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
     setMessage(null);
     const f = formObject(form);
     // The select offers the four roles; the server names a bad value.
-    const r = await callApi(apiClient.POST('/api/coops/{coop}/invitations', { params: { path: { coop: coopSlug } }, body: { email: f.email ?? '', role: f.role as Role } }));
+    const body = { email: f.email ?? '', role: f.role as Role };
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invitations', { params: { path: { coop: coopSlug } }, body: b }), { schema: invitationCreateSchema, body });
     setBusy(false);
     if (!r.ok) {
       setFields(r.fields);

@@ -3,7 +3,9 @@
 import { useRouter } from 'next/navigation';
 import { useMemo, useState } from 'react';
 import { DataTable, type PageInfo } from '@/components/data-table/data-table';
-import { sendJson } from '@/components/forms/use-api-form';
+import { callApi } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { membershipUpdateSchema } from '@/lib/validation/auth';
 import type { ConfirmOutcome } from '@/components/ui/confirm-dialog';
 import { withArticle, type Role } from '@/lib/auth/roles';
 import { memberColumns, type MemberRow } from './member-columns';
@@ -14,8 +16,11 @@ export function MembersTable({ coopSlug, rows, pageInfo, filtered }: { coopSlug:
   const [pendingRole, setPendingRole] = useState<Record<number, Role>>({});
 
   const columns = useMemo(() => {
-    async function run(row: MemberRow, method: 'PATCH' | 'DELETE', body: unknown, okText: string): Promise<ConfirmOutcome> {
-      const r = await sendJson(`/api/coops/${coopSlug}/members/${row.id}`, method, body);
+    async function run(row: MemberRow, change: { role?: Role; status?: 'active' | 'suspended' } | null, okText: string): Promise<ConfirmOutcome> {
+      const path = { coop: coopSlug, id: String(row.id) };
+      const r = change
+        ? await callApi((b) => apiClient.PATCH('/api/coops/{coop}/members/{id}', { params: { path }, body: b }), { schema: membershipUpdateSchema, body: change })
+        : await callApi(() => apiClient.DELETE('/api/coops/{coop}/members/{id}', { params: { path } }));
       if (!r.ok) return { ok: false, error: r.error };
       setPendingRole((p) => {
         const next = { ...p };
@@ -28,10 +33,10 @@ export function MembersTable({ coopSlug, rows, pageInfo, filtered }: { coopSlug:
     return memberColumns({
       pendingRole,
       pickRole: (row, role) => setPendingRole((p) => ({ ...p, [row.id]: role })),
-      saveRole: (row, role) => run(row, 'PATCH', { role }, `${row.name} is now ${withArticle(role)}.`),
+      saveRole: (row, role) => run(row, { role }, `${row.name} is now ${withArticle(role)}.`),
       setStatus: (row, status) =>
-        run(row, 'PATCH', { status }, status === 'suspended' ? `${row.name} is suspended; they can no longer open the co-op.` : `${row.name} is reinstated.`),
-      remove: (row) => run(row, 'DELETE', undefined, `${row.name} was removed from the co-op.`),
+        run(row, { status }, status === 'suspended' ? `${row.name} is suspended; they can no longer open the co-op.` : `${row.name} is reinstated.`),
+      remove: (row) => run(row, null, `${row.name} was removed from the co-op.`),
     });
   }, [pendingRole, coopSlug, router]);
 

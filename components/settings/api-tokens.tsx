@@ -5,7 +5,9 @@ import useSWR from 'swr';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
+import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient, apiError } from '@/lib/api/client';
+import { apiTokenCreateSchema } from '@/lib/validation/api-tokens';
 import type { paths } from '@/lib/api/client';
 
 type TokenList = paths['/api/coops/{coop}/tokens']['get']['responses'][200]['content']['application/json'];
@@ -21,38 +23,25 @@ export function ApiTokens({ coop }: { coop: string }) {
     if (r.error) throw new Error(apiError(r.error, r.response.status).error);
     return r.data;
   });
-  const [busy, setBusy] = useState(false);
-  const [fields, setFields] = useState<Record<string, string[]>>({});
-  const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
+  const { busy, fields, message, send, setMessage } = useApiForm();
   const [secret, setSecret] = useState<{ name: string; value: string } | null>(null);
 
   async function create(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const f = new FormData(form);
-    setBusy(true);
-    setMessage(null);
-    const r = await apiClient.POST('/api/coops/{coop}/tokens', {
-      params: { path: { coop } },
-      body: { name: String(f.get('name') ?? ''), access: f.get('access') === 'write' ? 'write' : 'read' },
-    });
-    setBusy(false);
-    if (r.error) {
-      const err = apiError(r.error, r.response.status);
-      setFields(err.fields);
-      setMessage({ tone: 'danger', text: err.error });
-      return;
-    }
-    setFields({});
-    setSecret({ name: r.data.token.name, value: r.data.secret });
+    const f = formObject(form);
+    const body = { name: f.name ?? '', access: f.access === 'write' ? ('write' as const) : ('read' as const) };
+    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tokens', { params: { path: { coop } }, body: b }), { schema: apiTokenCreateSchema, body });
+    if (!r) return;
+    setSecret({ name: r.token.name, value: r.secret });
     form.reset();
     await mutate();
   }
 
   async function revoke(t: Token) {
     if (!window.confirm(`Revoke “${t.name}”? Anything using it stops working at once.`)) return;
-    const r = await apiClient.DELETE('/api/coops/{coop}/tokens/{id}', { params: { path: { coop, id: String(t.id) } } });
-    setMessage(r.error ? { tone: 'danger', text: apiError(r.error, r.response.status).error } : { tone: 'ok', text: `“${t.name}” is revoked.` });
+    const r = await callApi(() => apiClient.DELETE('/api/coops/{coop}/tokens/{id}', { params: { path: { coop, id: String(t.id) } } }));
+    setMessage(r.ok ? { tone: 'ok', text: `“${t.name}” is revoked.` } : { tone: 'danger', text: r.error });
     await mutate();
   }
 

@@ -3,28 +3,32 @@
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { useApiForm } from '@/components/forms/use-api-form';
+import { formObject, numberOf, useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { coopSettingsUpdateSchema } from '@/lib/validation/settings';
 import type { CoopSettingsDto } from '@/lib/coops/settings-types';
 
 export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
-    const f = new FormData(e.currentTarget);
+    const f = formObject(e.currentTarget);
+    // The selects offer only the schema's choices; the check below names anything else.
     const body = {
-      name: String(f.get('name') ?? ''),
-      units: String(f.get('units') ?? ''),
-      timezone: String(f.get('timezone') ?? ''),
-      monthlyDues: String(f.get('monthlyDues') ?? ''),
-      selfServeDraws: f.get('selfServeDraws') === 'on',
-      catalyst: String(f.get('catalyst') ?? ''),
-      baseGramsPerLiter: String(f.get('baseGramsPerLiter') ?? ''),
-      purityPct: String(f.get('purityPct') ?? ''),
-      methanolPct: String(f.get('methanolPct') ?? ''),
-      qualityStandard: String(f.get('qualityStandard') ?? ''),
-      elevation: String(f.get('elevation') ?? ''),
+      name: f.name ?? '',
+      units: f.units as 'us' | 'metric',
+      timezone: f.timezone ?? '',
+      monthlyDues: f.monthlyDues ?? '',
+      selfServeDraws: f.selfServeDraws === 'on',
+      catalyst: f.catalyst as 'KOH' | 'NaOH',
+      baseGramsPerLiter: Number(f.baseGramsPerLiter ?? ''),
+      purityPct: Number(f.purityPct ?? ''),
+      methanolPct: Number(f.methanolPct ?? ''),
+      qualityStandard: f.qualityStandard as 'ASTM D6751' | 'EN 14214',
+      elevation: numberOf(f.elevation),
     };
-    if (await submit(`/api/coops/${initial.slug}/settings`, 'PUT', body, 'Settings saved.')) window.location.reload();
+    const path = { coop: initial.slug };
+    if (await send((b) => apiClient.PUT('/api/coops/{coop}/settings', { params: { path }, body: b }), { schema: coopSettingsUpdateSchema, body }, 'Settings saved.')) window.location.reload();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-6">

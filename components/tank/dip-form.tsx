@@ -7,6 +7,7 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
+import { dipCreateSchema } from '@/lib/validation/tank';
 import { formatMl, unitWord } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
@@ -21,9 +22,10 @@ export function DipForm({ coopSlug, units, tanks, currency }: { coopSlug: string
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const body = prefixedObject(form, 'dip');
-    const path = { coop: coopSlug, tankId: body.tankId ?? '' };
-    const r = await send(apiClient.POST('/api/coops/{coop}/tanks/{tankId}/dips', { params: { path }, body: { measured: body.measured ?? '', reason: body.reason, unitCost: body.unitCost } }));
+    const f = prefixedObject(form, 'dip');
+    const path = { coop: coopSlug, tankId: f.tankId ?? '' };
+    const body = { measured: f.measured ?? '', reason: f.reason, unitCost: f.unitCost };
+    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tanks/{tankId}/dips', { params: { path }, body: b }), { schema: dipCreateSchema, body });
     if (r) {
       const d = Math.round(r.differenceLiters * 1000);
       setMessage({ tone: 'ok', text: d === 0 ? 'Recorded: the reading matches the book.' : `Recorded: ${formatMl(d, units, { signed: true, digits: 2 })} adjustment in the ledger.` });

@@ -7,6 +7,8 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { FormResult } from '@/components/forms/form-result';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { pricingPolicyCreateSchema } from '@/lib/validation/tank';
 import { useAnnounce } from '@/components/shell/announcer';
 import { memberPriceCentsPerGallon, type PricingPolicy } from '@/lib/pricing';
 import { formatRate } from '@/lib/pricing-policy/convert';
@@ -34,7 +36,7 @@ export function PricingForm({ coopSlug, units, currency, current, costCentsPerUn
 }) {
   const router = useRouter();
   const announce = useAnnounce();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const [kind, setKind] = useState<Kind>(current?.kind ?? 'cost-plus-amount');
   const [v, setV] = useState({
     price: current?.kind === 'fixed' ? (current.priceCents / 100).toFixed(2) : '',
@@ -69,7 +71,9 @@ export function PricingForm({ coopSlug, units, currency, current, costCentsPerUn
 
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
-    const ok = await submit(`/api/coops/${coopSlug}/pricing`, 'POST', prefixedObject(e.currentTarget, 'price'));
+    const f = prefixedObject(e.currentTarget, 'price');
+    const body = { kind, price: f.price, margin: f.margin, marginPct: f.marginPct, surchargeCents: f.surchargeCents, roadTaxCents: f.roadTaxCents, effectiveFrom: f.effectiveFrom };
+    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/pricing', { params: { path: { coop: coopSlug } }, body: b }), { schema: pricingPolicyCreateSchema, body });
     if (ok) {
       announce({ tone: 'ok', text: 'New price saved. It applies to draws recorded from now on.' });
       router.refresh();

@@ -7,6 +7,7 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
+import { drawCreateSchema } from '@/lib/validation/tank';
 import type { DeclaredUse } from '@/lib/pricing';
 import { FormResult } from '@/components/forms/form-result';
 import { formatCents } from '@/lib/money';
@@ -49,8 +50,11 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
     const form = e.currentTarget;
     const b = prefixedObject(form, 'draw');
     // The select offers the declared uses; the server names a missing or bad one.
-    const body = { ...b, membershipId: selfServe ? undefined : b.membershipId, tankId: b.tankId, declaredUse: b.declaredUse as DeclaredUse, mode: undefined };
-    const r = await send(apiClient.POST('/api/coops/{coop}/draws', { params: { path: { coop: coopSlug } }, body }));
+    const body = {
+      membershipId: selfServe ? undefined : b.membershipId, tankId: b.tankId, reservationId: b.reservationId, quantity: b.quantity,
+      meterBefore: b.meterBefore, meterAfter: b.meterAfter, declaredUse: b.declaredUse as DeclaredUse, vehicle: b.vehicle, occurredAt: b.occurredAt,
+    };
+    const r = await send((d) => apiClient.POST('/api/coops/{coop}/draws', { params: { path: { coop: coopSlug } }, body: d }), { schema: drawCreateSchema, body });
     if (r) {
       setMessage({ tone: 'ok', text: `Recorded draw #${r.id}: ${formatMl(Math.round(r.quantityLiters * 1000), units, { digits: 2 })} for ${r.memberName}, ${formatCents(r.totalCents, currency)} at the price in force.` });
       form.reset();

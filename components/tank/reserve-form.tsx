@@ -7,6 +7,8 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { reservationCreateSchema } from '@/lib/validation/tank';
 import { FormResult } from '@/components/forms/form-result';
 import { useAnnounce } from '@/components/shell/announcer';
 import { formatCents } from '@/lib/money';
@@ -28,7 +30,7 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd, pricing, cur
 }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const announce = useAnnounce();
   const { data } = useTanks(coopSlug, initial);
   const units: UnitSystem = (data ?? initial).units;
@@ -42,7 +44,9 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd, pricing, cur
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const ok = await submit('/api/coops/' + coopSlug + '/reservations', 'POST', prefixedObject(form, 'res'));
+    const f = prefixedObject(form, 'res');
+    const body = { tankId: f.tankId, quantity: f.quantity ?? '', windowStart: f.windowStart ?? '', windowEnd: f.windowEnd ?? '' };
+    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/reservations', { params: { path: { coop: coopSlug } }, body: b }), { schema: reservationCreateSchema, body });
     await mutate(tanksKey(coopSlug));
     if (ok) {
       form.reset();

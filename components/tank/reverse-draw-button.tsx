@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useSWRConfig } from 'swr';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
+import { drawReverseSchema } from '@/lib/validation/tank';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { TextField } from '@/components/ui/field';
 import { tanksKey } from './live-tanks';
@@ -21,7 +22,9 @@ export function ReverseDrawButton({ coopSlug, drawId, summary }: { coopSlug: str
       busyLabel="Reversing…"
       dismissLabel="Keep the draw"
       onConfirm={async (d) => {
-        const r = await callApi(apiClient.POST('/api/coops/{coop}/draws/{drawId}/reverse', { params: { path: { coop: coopSlug, drawId: String(drawId) } }, body: { reason: String(d.get('reason') ?? '') } }));
+        const path = { coop: coopSlug, drawId: String(drawId) };
+        const body = { reason: String(d.get('reason') ?? '') };
+        const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/draws/{drawId}/reverse', { params: { path }, body: b }), { schema: drawReverseSchema, body });
         if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
         await mutate(tanksKey(coopSlug));
         router.refresh();

@@ -7,6 +7,8 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { tankCreateSchema, tankUpdateSchema } from '@/lib/validation/tank';
 import { unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
@@ -18,22 +20,23 @@ interface TankLite { id: number; name: string; capacity: number; active: boolean
 export function TankSettingsForm({ coopSlug, units, tanks }: { coopSlug: string; units: UnitSystem; tanks: TankLite[] }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const [selected, setSelected] = useState<string>('new');
   const tank = tanks.find((t) => String(t.id) === selected);
   const errors = prefixedErrors(fields, 'tank');
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const body: Record<string, unknown> = prefixedObject(form, 'tank');
-    delete body.which;
+    const f = prefixedObject(form, 'tank');
+    const path = { coop: coopSlug };
     let ok: unknown;
     if (!tank) {
-      ok = await submit(`/api/coops/${coopSlug}/tanks`, 'POST', body, 'Tank added.');
+      const body = { name: f.name ?? '', capacity: f.capacity ?? '' };
+      ok = await send((b) => apiClient.POST('/api/coops/{coop}/tanks', { params: { path }, body: b }), { schema: tankCreateSchema, body }, 'Tank added.');
       if (ok) form.reset();
     } else {
-      body.active = body.active === 'true';
-      ok = await submit(`/api/coops/${coopSlug}/tanks/${tank.id}`, 'PATCH', body, 'Saved.');
+      const body = { name: f.name, capacity: f.capacity, active: f.active === 'true' };
+      ok = await send((b) => apiClient.PATCH('/api/coops/{coop}/tanks/{tankId}', { params: { path: { ...path, tankId: String(tank.id) } }, body: b }), { schema: tankUpdateSchema, body }, 'Saved.');
     }
     if (ok) {
       await mutate(tanksKey(coopSlug));

@@ -6,6 +6,8 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
+import { apiClient } from '@/lib/api/client';
+import { transferCreateSchema } from '@/lib/validation/tank';
 import { unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
@@ -15,12 +17,14 @@ import { tanksKey } from './live-tanks';
 export function TransferForm({ coopSlug, units, tanks }: { coopSlug: string; units: UnitSystem; tanks: { id: number; name: string }[] }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
-  const { busy, fields, message, submit } = useApiForm();
+  const { busy, fields, message, send } = useApiForm();
   const errors = prefixedErrors(fields, 'xfer');
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = e.currentTarget;
-    const ok = await submit(`/api/coops/${coopSlug}/tanks/transfers`, 'POST', prefixedObject(form, 'xfer'), 'Moved. Both tanks’ ledgers show the transfer.');
+    const f = prefixedObject(form, 'xfer');
+    const body = { fromTankId: f.fromTankId, toTankId: f.toTankId, quantity: f.quantity ?? '', reason: f.reason };
+    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/tanks/transfers', { params: { path: { coop: coopSlug } }, body: b }), { schema: transferCreateSchema, body }, 'Moved. Both tanks’ ledgers show the transfer.');
     if (ok) {
       form.reset();
       await mutate(tanksKey(coopSlug));

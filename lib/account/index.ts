@@ -1,13 +1,13 @@
 import 'server-only';
 import { fn, Op, UniqueConstraintError, type InferAttributes, type Transaction } from 'sequelize';
 import type { z } from 'zod';
+import type { profileSchema } from '@/lib/api/dto/core';
 import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
 import { emailIs } from '@/lib/auth/email';
 import { hashPassword, isCommonPassword, verifyPassword } from '@/lib/auth/passwords';
 import { CURRENT_PASSWORD_WINDOW_MINUTES, currentPasswordWaitSeconds, recordCurrentPasswordFailure } from '@/lib/auth/rate-limit';
 import { revokeAllSessions } from '@/lib/auth/sessions';
-import type { Role } from '@/lib/auth/roles';
 import { EMAIL_CHANGE_TTL_MS, hashLinkToken, isLinkTokenShape, newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
@@ -21,22 +21,13 @@ import type {
 } from '@/lib/validation/auth';
 import { AuthToken, Coop, MailSend, Membership, SignInAttempt, User } from '@/models';
 import type { AuthTokenKind } from '@/models/AuthToken';
-import type { MembershipStatus } from '@/models/Membership';
 
 // The signed-in person's own account: profile, password, e-mail address, sessions, and the
 // password-reset links. These belong to no single co-op; changes other members can see (name,
 // e-mail) are written to the audit log of every co-op the person belongs to.
 
-export interface ProfileDto {
-  id: number;
-  name: string;
-  email: string;
-  /** A change of address waiting for its confirmation link, if any. */
-  pendingEmail: string | null;
-  /** How the confirmation e-mail of that change is doing (the send ledger, else its mail job). */
-  pendingEmailDelivery: { status: PendingEmailDelivery; sentAt: string | null } | null;
-  coops: { slug: string; name: string; role: Role; status: MembershipStatus; joinedAt: string; timezone: string }[];
-}
+/** My profile: the API's Profile. */
+export type ProfileDto = z.infer<typeof profileSchema>;
 
 
 /** queued: the worker has it (retrying while the mail server is away); sent: the server took it; failed: every try failed. */

@@ -3,8 +3,10 @@ import {
   catalystGrams, convertCatalystGrams, DEFAULT_BASE_GRAMS_PER_LITER, DEFAULT_METHANOL_PERCENT, expectedYields, acidNumber,
   ffaPercentFromAcidNumber, kohEquivalentTitrationMl, methanolLitersByMolarRatio, methanolLitersByPercent, molarRatioFromPercent,
   oilQualityBand, percentFromMolarRatio, projectedFuelYield, titrationAverage, TYPICAL_PURITY_PCT, USUAL_MOLAR_RATIO,
-  type CatalystResult, type ExpectedYields, type FuelYieldProjection, type OilQualityBand, type TitrantSource, type YieldHistoryBatch,
+  type CatalystResult, type TitrantSource, type YieldHistoryBatch,
 } from '@/lib/chemistry';
+import type { z } from 'zod';
+import type { computedPlanSchema } from '@/lib/api/dto/brewing';
 import type { UnitSystem } from '@/lib/units';
 import { HttpError } from '@/lib/http';
 import type { CoopSettings } from '@/models/Coop';
@@ -31,41 +33,8 @@ export interface PlanInput {
   molarRatio?: number;
 }
 
-/** The computed plan: every figure with where its inputs came from. */
-export interface ComputedPlan {
-  oilLiters: number;
-  titration: {
-    source: 'trials' | 'oil-lot';
-    oilLotId: number | null;
-    trials: number[];
-    blankMl: number;
-    /** Average minus blank, mL of titrant per mL of oil (as made with `titrant`). */
-    averageMl: number;
-    titrant: Catalyst;
-    /** The average expressed in the batch's catalyst (converted by molar mass when the titrant differs). */
-    averageForCatalystMl: number;
-    outlierIndexes: number[];
-    spreadMl: number;
-    spreadTooWide: boolean;
-    averageWithoutOutliersMl: number | null;
-    /** What to tell the brewer about the trials (one wording everywhere), or null. */
-    notice: string | null;
-  };
-  catalyst: Catalyst;
-  baseGramsPerLiter: number;
-  baseSource: 'typed' | 'recipe' | 'default';
-  purityPct: number;
-  puritySource: 'typed' | 'next-lot' | 'recipe' | 'typical';
-  titrantFrom: TitrantSource;
-  catalystResult: CatalystResult;
-  methanol: { mode: 'percent' | 'molar-ratio'; pct: number | null; molarRatio: number | null; liters: number; equivalentPct: number; equivalentMolarRatio: number };
-  oil: { acidNumber: number; ffaPercent: number; band: OilQualityBand; needsAcidPretreatment: boolean; reject: boolean; message: string };
-  yields: ExpectedYields;
-  /** Expected fuel from the co-op's own released batches (the ideal only without history). */
-  yieldProjection: FuelYieldProjection;
-  /** Oil × the projected yield, L. */
-  projectedFuelLiters: number;
-}
+/** The computed plan: every figure with where its inputs came from (the API's ComputedPlan). */
+export type ComputedPlan = z.infer<typeof computedPlanSchema>;
 
 /** Options for {@link computePlan}. */
 export interface PlanOptions {
@@ -152,7 +121,7 @@ export function computePlan(input: PlanInput, recipe: CoopSettings['recipe'] = {
       acidNumber: an, ffaPercent: ffaPercentFromAcidNumber(an), band: band.band, needsAcidPretreatment: band.needsAcidPretreatment,
       reject: band.reject, message: band.message,
     },
-    yields: expectedYields(input.oilLiters, methanol.liters),
+    yields: (({ assumptions, ...y }) => ({ ...y, assumptions: [...assumptions] }))(expectedYields(input.oilLiters, methanol.liters)),
     yieldProjection,
     projectedFuelLiters: input.oilLiters * yieldProjection.ratio,
   };

@@ -1,4 +1,6 @@
 import 'server-only';
+import type { z } from 'zod';
+import type { chemicalCoverageSchema, plannerResultSchema } from '@/lib/api/dto/brewing';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, energyCostCents, estimateHeatingKwh, type FifoLotByTotal } from '@/lib/costing';
 import { Op } from 'sequelize';
@@ -8,46 +10,15 @@ import { stockState, summarizeStock } from '@/lib/supplies/stock';
 import { formatTemp, fToC, litersToGallons, tempToC, volumeToLiters } from '@/lib/units';
 import { Batch, ChemicalLot } from '@/models';
 import type { PlannerInput } from '@/lib/validation/brewing';
-import { computePlan, type ComputedPlan } from './plan';
+import { computePlan } from './plan';
 import { feedstockShareCents } from './read';
 import { resolveTitration } from './plan-inputs';
 
-/** Stock check and projected cost of one chemical for a planned batch. */
-export interface ChemicalCoverage {
-  kind: 'methanol' | 'KOH' | 'NaOH';
-  unit: 'L' | 'g';
-  needed: number;
-  /** Stock the lots hold minus what batches under way will take. */
-  available: number;
-  covered: boolean;
-  shortBy: number;
-  /** Cost of the needed quantity at current lot prices, FIFO after the batches under way; a shortfall at the last price paid. */
-  projectedCents: number;
-  /** The shortfall priced at the last price paid, cents; null when nothing is short or none was ever bought. */
-  shortfallCents: number | null;
-}
+/** Stock check and projected cost of one chemical for a planned batch (the API's ChemicalCoverage). */
+export type ChemicalCoverage = z.infer<typeof chemicalCoverageSchema>;
 
-/** The planner's answer: the chemistry, the stock check and the projected costs. */
-export interface PlannerResult {
-  units: 'us' | 'metric';
-  plan: ComputedPlan;
-  coverage: ChemicalCoverage[];
-  projected: {
-    methanolCents: number;
-    catalystCents: number;
-    energyCents: number;
-    energySource: 'metered' | 'heater' | 'estimate' | 'none';
-    energyKwh: number | null;
-    feedstockCents: number;
-    totalCents: number;
-    /** Per US gallon of expected fuel; null without expected fuel. */
-    costPerGallonCents: number | null;
-    costPerLiterCents: number | null;
-    /** True when some chemical is short, so the projection leaves part of it unpriced. */
-    incomplete: boolean;
-  };
-  notes: string[];
-}
+/** The planner's answer: the chemistry, the stock check and the projected costs (the API's PlannerResult). */
+export type PlannerResult = z.infer<typeof plannerResultSchema>;
 
 /** Reaction temperature the heating estimate aims for, °C (≈ 55 °C, common practice). */
 const REACTION_TARGET_C = fToC(131); // common practice (130–135 °F)

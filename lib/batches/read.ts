@@ -1,17 +1,18 @@
 import 'server-only';
+import type { batchCostsSchema, batchFullSchema, batchSummarySchema, quickTestsSchema, temperatureSchema } from '@/lib/api/dto/batch';
 import type { batchRowSchema } from '@/lib/api/dto/brewing';
 import type { z } from 'zod';
 import type { InferAttributes, Transaction } from 'sequelize';
 import { can, type Actor } from '@/lib/auth';
-import { temperatureCheck, type TemperatureLevel } from '@/lib/chemistry';
+import { temperatureCheck } from '@/lib/chemistry';
 import { energyCostCents } from '@/lib/costing';
 import { notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
-import { evaluateQuality, evaluateQuickTests, type QualityEvaluation, type QuickTestEvaluation, type QuickTestInput, type QualityResults } from '@/lib/quality';
+import { evaluateQuality, evaluateQuickTests, type QuickTestInput, type QualityResults } from '@/lib/quality';
 import { litersToMl } from '@/lib/tank/quantity';
 import { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot, Tank } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
-import { computePlan, type Catalyst, type ComputedPlan, type PlanInput } from './plan';
+import { computePlan, type Catalyst, type PlanInput } from './plan';
 import { qualityOf } from './verdicts';
 
 // Reading batches: one batch (full record or the members' summary), the list, and the pure
@@ -20,13 +21,8 @@ import { qualityOf } from './verdicts';
 /** A batch as stored (NUMERIC and BIGINT columns as strings). */
 export type BatchRecord = InferAttributes<Batch>;
 
-/** Quick tests as stored (the soap test's catalyst comes from the batch). */
-export interface QuickTestsStored {
-  test327?: { result: 'clear' | 'fallout'; falloutMl?: number };
-  soap?: { hclMl: number; sampleGrams: number };
-  washTest?: 'clean-split' | 'emulsion';
-  water?: 'clear' | 'hazy';
-}
+/** Quick tests as stored (the soap test's catalyst comes from the batch): the API's QuickTests. */
+export type QuickTestsStored = z.infer<typeof quickTestsSchema>;
 
 const n = (v: string | number | null | undefined): number | null => (v === null || v === undefined ? null : Number(v));
 
@@ -72,90 +68,16 @@ export function quickTestInput(stored: QuickTestsStored, catalyst: Catalyst): Qu
   };
 }
 
-/** A temperature reading as returned: °C stored, with its level and message in the co-op's units. */
-export interface TemperatureDto {
-  id: string;
-  measuredAt: string;
-  tempC: number;
-  level: TemperatureLevel;
-  message: string;
-}
+/** A temperature reading as returned: °C stored, with its level and message in the co-op's units (the API's Temperature). */
+export type TemperatureDto = z.infer<typeof temperatureSchema>;
 
+export type BatchCosts = z.infer<typeof batchCostsSchema>;
 
-export interface BatchCosts {
-  methanolCents: number;
-  catalystCents: number;
-  energyCents: number;
-  feedstockCents: number;
-  otherCents: number;
-  totalCents: number;
-  costPerGallonCents: number | null;
-  costPerLiterCents: number | null;
-}
+/** Everything the batch page shows (brewers and admins): the API's Batch. Volumes litres, temperatures °C, money cents. */
+export type BatchDto = z.infer<typeof batchFullSchema>;
 
-/** Everything the batch page shows (brewers and admins). Volumes litres, temperatures °C, money cents. */
-export interface BatchDto {
-  view: 'full';
-  id: number;
-  number: number;
-  status: BatchStatus;
-  batchDate: string;
-  statusChangedAt: string;
-  createdAt: string;
-  oilLiters: number;
-  oilLots: { oilLotId: number; collectedFrom: string; collectedOn: string; liters: number; feedstockCents: number }[];
-  plan: ComputedPlan;
-  computedCatalystGrams: number;
-  computedMethanolLiters: number;
-  actualCatalystGrams: number | null;
-  actualMethanolLiters: number | null;
-  mixingMinutes: number | null;
-  settlingHours: number | null;
-  glycerinLiters: number | null;
-  washCycles: number | null;
-  washWaterLiters: number | null;
-  dryingMethod: string | null;
-  dryingNotes: string | null;
-  temperatures: TemperatureDto[];
-  quickTests: QuickTestsStored;
-  quickTestEvaluation: QuickTestEvaluation;
-  labResults: QualityResults;
-  quality: QualityEvaluation;
-  qualityVerdict: 'pass' | 'fail' | 'incomplete';
-  screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
-  energy: { kwh: number | null; heaterKw: number | null; heaterHours: number | null; tariffCentsPerKwh: number | null; costCents: number | null };
-  feedstockCentsOverride: number | null;
-  feedstockFromLotsCents: number;
-  otherCents: number;
-  otherNotes: string | null;
-  release: { tankId: number; tankName: string | null; releasedLiters: number; releasedAt: string } | null;
-  rejectedAt: string | null;
-  rejectReason: string | null;
-  costs: BatchCosts | null;
-  consumptions: { chemicalLotId: number; kind: string; supplier: string; receivedOn: string; unit: 'L' | 'g'; quantity: number; costCents: number }[];
-  files: { id: number; purpose: 'photo' | 'lab-report' | 'receipt'; kind: 'pdf' | 'jpeg' | 'png'; name: string; sizeBytes: number; createdAt: string }[];
-  notes: string | null;
-}
-
-/** What members and treasurers see of a released batch: its volume, dates and quality. */
-export interface BatchSummaryDto {
-  view: 'summary';
-  id: number;
-  number: number;
-  status: BatchStatus;
-  batchDate: string;
-  oilLiters: number;
-  catalyst: Catalyst;
-  release: { releasedLiters: number; releasedAt: string; tankName: string | null } | null;
-  costPerGallonCents: number | null;
-  costPerLiterCents: number | null;
-  quickTestEvaluation: QuickTestEvaluation;
-  quality: QualityEvaluation;
-  qualityVerdict: 'pass' | 'fail' | 'incomplete';
-  screeningVerdict: 'looks-good' | 'needs-attention' | 'incomplete';
-  /** An imported past batch (status `imported`): its notes as recorded then; null for any other batch. */
-  imported: { notes: string | null } | null;
-}
+/** What members and treasurers see of a released batch: the API's BatchSummary. */
+export type BatchSummaryDto = z.infer<typeof batchSummarySchema>;
 
 export function costsOf(row: Pick<BatchRecord, 'totalCostCents' | 'releasedLiters' | 'costMethanolCents' | 'costCatalystCents' | 'costEnergyCents' | 'costFeedstockCents' | 'costOtherCents' | 'costPerGallonCents'>): BatchCosts | null {
   if (row.totalCostCents === null) return null;

@@ -1,5 +1,7 @@
 import 'server-only';
 import { Op, type AggregateOptions, type FindOptions, type InferAttributes, type Model, type Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { reconciliationCheckSchema, reconciliationSchema } from '@/lib/api/dto/billing';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
@@ -10,49 +12,11 @@ import { lockCoopBilling, periodBounds } from './locks';
 import { findPayments, readTogether } from './payments-read';
 import { currentPeriod, periodLabel, periodToDate, shiftPeriod } from './periods';
 import { periodInvoiceTotals, periodPaymentTotals, unbilledDrawTotals } from './queries';
-import type { InvoiceSummary, PaymentDTO } from './types';
 
-export interface ReconciliationCheck {
-  label: string;
-  leftCents: number;
-  rightCents: number;
-  ok: boolean;
-}
+export type ReconciliationCheck = z.infer<typeof reconciliationCheckSchema>;
 
-export interface Reconciliation {
-  period: string;
-  closed: boolean;
-  closedAt: string | null;
-  closedBy: string | null;
-  monthOver: boolean;
-  invoices: {
-    rows: InvoiceSummary[];
-    issuedCount: number;
-    draftCount: number;
-    invoicedCents: number;
-    creditNotesCents: number;
-    paidCents: number;
-    outstandingCents: number;
-    unpaidCount: number;
-  };
-  payments: {
-    receivedCents: number;
-    byMethod: { card: number; cash: number; cheque: number };
-    appliedCents: number;
-    creditedCents: number;
-    unallocatedCents: number;
-    refundedCents: number;
-    /** Received this month but applied to invoices of other months (normal: last month's invoices are paid this month). */
-    appliedElsewhereCents: number;
-    unmatched: PaymentDTO[];
-  };
-  pendingCardAttempts: number;
-  pendingRefunds: number;
-  unbilledDraws: { count: number; totalCents: number };
-  checks: ReconciliationCheck[];
-  /** Why the month cannot be closed yet (empty when it can). */
-  blockers: string[];
-}
+/** A month's books (the API's Reconciliation). */
+export type Reconciliation = z.infer<typeof reconciliationSchema>;
 
 /** Every invoice of a month on one page (a co-op bills a few hundred members). */
 const ALL_ROWS = Number.MAX_SAFE_INTEGER;

@@ -1,17 +1,5 @@
-import type { InferAttributes } from 'sequelize';
-import type { Coop, CoopSettings } from '@/models/Coop';
+import type { z } from 'zod';
+import type { coopSettingsSchema } from '@/lib/api/dto/core';
 
-type Recipe = NonNullable<CoopSettings['recipe']>;
-
-/** What the settings form shows: the co-op's columns plus its settings with defaults filled in. */
-export type CoopSettingsDto = Pick<InferAttributes<Coop>, 'name' | 'slug' | 'units' | 'timezone' | 'currency'> & {
-  monthlyDuesCents: number;
-  selfServeDraws: boolean;
-  catalyst: NonNullable<Recipe['catalyst']>;
-  baseGramsPerLiter: number;
-  purityPct: number;
-  methanolPct: number;
-  qualityStandard: NonNullable<CoopSettings['qualityStandard']>;
-  /** Elevation of the brewing site, m (0 when not set). */
-  elevationM: number;
-};
+/** What the settings form shows: the co-op's columns plus its settings with defaults filled in (the API's CoopSettings). */
+export type CoopSettingsDto = z.infer<typeof coopSettingsSchema>;

@@ -23,6 +23,14 @@ describe('reserve → draw → see it', () => {
       await signInUi(page, ctx.users.member.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${slug}/me`);
       await expect(page.getByTestId('reserve-available').textContent()).resolves.toBe('120.0 gal');
+      // The form checks with the route's own schema first: the reason shows beside the field and nothing is sent.
+      const posts: string[] = [];
+      page.on('request', (r) => { if (r.method() === 'POST' && r.url().includes('/reservations')) posts.push(r.url()); });
+      await page.getByLabel('Quantity (gallons)').fill('10.12345');
+      await page.getByRole('button', { name: 'Reserve fuel' }).click();
+      await page.locator('#res-quantity-error').getByText('Use at most 3 decimals.').waitFor();
+      await expect(page.getByLabel('Quantity (gallons)').getAttribute('aria-invalid')).resolves.toBe('true');
+      expect(posts).toEqual([]);
       await page.getByLabel('Quantity (gallons)').fill('500');
       await page.getByRole('button', { name: 'Reserve fuel' }).click();
       await page.getByText('At most 120.000 gal is available.').waitFor();

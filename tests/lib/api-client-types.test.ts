@@ -10,6 +10,13 @@ import type { InvoiceDetail, PaymentDTO } from '@/lib/billing/types';
 import type { PeriodOverview } from '@/lib/billing/invoices';
 import type { MemberDto } from '@/lib/members';
 import type { TankDto } from '@/lib/tank';
+import type { ProfileDto } from '@/lib/account';
+import type { AuditEventDto } from '@/lib/audit/types';
+import type { BatchDto, BatchSummaryDto, TemperatureDto } from '@/lib/batches/read';
+import type { PlannerResult } from '@/lib/batches/planner';
+import type { Reconciliation } from '@/lib/billing/reconciliation';
+import type { CoopSettingsDto } from '@/lib/coops/settings-types';
+import type { Overview } from '@/lib/overview/types';
 
 type Json<P extends keyof paths, M extends keyof paths[P], S extends number> = paths[P][M] extends { responses: Record<S, { content: { 'application/json': infer B } }> } ? B : never;
 
@@ -20,6 +27,7 @@ type Invoice = Json<'/api/coops/{coop}/invoices/{id}', 'get', 200>;
 type Period = Json<'/api/coops/{coop}/billing/periods/{period}', 'get', 200>;
 type Members = Json<'/api/coops/{coop}/members', 'get', 200>;
 type Payment = Json<'/api/coops/{coop}/billing/payments', 'post', 201>;
+type Batch = Json<'/api/coops/{coop}/batches/{id}', 'get', 200>;
 
 describe('the typed client answers with the services\' DTOs, field for field', () => {
   it('types', () => {
@@ -31,6 +39,16 @@ describe('the typed client answers with the services\' DTOs, field for field', (
     expectTypeOf<Payment>().toEqualTypeOf<PaymentDTO>();
     expectTypeOf<Tank['availableLiters']>().toEqualTypeOf<number>();
     expectTypeOf<Tank['mixing']>().toEqualTypeOf<'mixed' | 'fifo'>();
+    // Lab results are keyed by property in the DTO; JSON Schema's record comes out as a string index.
+    expectTypeOf<Omit<Extract<Batch, { view: 'full' }>, 'labResults'>>().toEqualTypeOf<Omit<BatchDto, 'labResults'>>();
+    expectTypeOf<Extract<Batch, { view: 'summary' }>>().toEqualTypeOf<BatchSummaryDto>();
+    expectTypeOf<Json<'/api/coops/{coop}/batches/{id}/temperatures', 'post', 201>>().toEqualTypeOf<TemperatureDto>();
+    expectTypeOf<Json<'/api/coops/{coop}/planner', 'post', 200>>().toEqualTypeOf<PlannerResult>();
+    expectTypeOf<Json<'/api/coops/{coop}/billing/periods/{period}/reconciliation', 'get', 200>>().toEqualTypeOf<Reconciliation>();
+    expectTypeOf<Json<'/api/coops/{coop}/overview', 'get', 200>>().toEqualTypeOf<Overview>();
+    expectTypeOf<Json<'/api/me', 'get', 200>>().toEqualTypeOf<ProfileDto>();
+    expectTypeOf<Json<'/api/coops/{coop}/settings', 'get', 200>>().toEqualTypeOf<CoopSettingsDto>();
+    expectTypeOf<Json<'/api/coops/{coop}/audit', 'get', 200>['rows'][number]>().toEqualTypeOf<AuditEventDto>();
   });
 
   it('refuses a field the contract does not declare (a renamed field is a compile error)', () => {
@@ -49,7 +67,7 @@ describe('the typed client answers with the services\' DTOs, field for field', (
 
 describe('the document declares exact objects for the DTOs the screens read', () => {
   const schemas = (openApiDocument() as unknown as { components: { schemas: Record<string, { additionalProperties?: unknown }> } }).components.schemas;
-  it.each(['Tank', 'TankMovement', 'Reservation', 'Draw', 'PricePolicy', 'InvoiceSummary', 'InvoiceDetail', 'Payment', 'Refund', 'BillingRun', 'Adjustment', 'PeriodOverview', 'ChemicalLot', 'OilLot', 'StockSummary', 'BatchRow', 'Member', 'Invitation', 'ApiToken'])('%s allows no undeclared field', (id) => {
+  it.each(['Tank', 'TankMovement', 'Reservation', 'Draw', 'PricePolicy', 'InvoiceSummary', 'InvoiceDetail', 'Payment', 'Refund', 'BillingRun', 'Adjustment', 'PeriodOverview', 'ChemicalLot', 'OilLot', 'StockSummary', 'BatchRow', 'Member', 'Invitation', 'ApiToken', 'Batch', 'BatchSummary', 'Temperature', 'ComputedPlan', 'PlannerResult', 'Reconciliation', 'Overview', 'Profile', 'CoopSettings', 'AuditEvent', 'InvitationAccepted'])('%s allows no undeclared field', (id) => {
     expect(schemas[id], `components.schemas.${id}`).toBeDefined();
     expect(schemas[id]!.additionalProperties).toBe(false);
   });

@@ -747,6 +747,152 @@ export interface components {
       retryAfter?: number;
       [key: string]: unknown;
     };
+    Overview: {
+      /** @enum {string} */
+      role: "admin" | "treasurer" | "brewer" | "member";
+      tank: components["schemas"]["OverviewTank"];
+      price: components["schemas"]["OverviewPrice"] | null;
+      volumes: components["schemas"]["MonthVolume"][];
+      tankLevel: {
+          /** @description YYYY-MM-DD */
+          day: string;
+          onHandLiters: number;
+        }[];
+      member: {
+        openReservations: {
+            id: number;
+            tankName: string;
+            /** @description Litres, exact decimal as text */
+            quantityLiters: string;
+            windowEnd: string;
+          }[];
+      };
+      /** @description My own account */
+      account: {
+        outstandingCents: number;
+        creditCents: number;
+        unallocatedCents: number;
+      };
+      /** @description Brewers and admins */
+      brewer?: {
+        inProgress: ({
+            id: number;
+            number: number;
+            status: string;
+            oilLiters: number;
+            /** @description ISO 8601 date-time */
+            since: string;
+            quality: ({
+              text: string;
+              /** @enum {string} */
+              kind: "meets" | "fails" | "screened";
+            }) | null;
+          })[];
+        recentReleased: ({
+            id: number;
+            number: number;
+            /** @description ISO 8601 date-time */
+            releasedAt: string;
+            releasedLiters: number;
+            quality: {
+              text: string;
+              /** @enum {string} */
+              kind: "meets" | "fails" | "screened";
+            };
+          })[];
+        nextPlanned: ({
+          id: number;
+          number: number;
+          /** @description YYYY-MM-DD */
+          batchDate: string;
+          oilLiters: number;
+          /** @enum {string} */
+          catalyst: "KOH" | "NaOH";
+        }) | null;
+        stock: ({
+            /** @enum {string} */
+            kind: "methanol" | "KOH" | "NaOH";
+            /** @enum {string} */
+            unit: "L" | "g";
+            available: number;
+            need: number;
+            low: boolean;
+          })[];
+      };
+      /** @description Treasurers and admins */
+      treasurer?: {
+        /** @description YYYY-MM in the co-op's time zone */
+        period: string;
+        invoicedCents: number;
+        paidCents: number;
+        outstandingCents: number;
+        invoices: number;
+        drafts: number;
+        unmatchedPayments: number;
+        unmatchedCents: number;
+      };
+      /** @description Brewers, treasurers and admins: the last released batches, oldest first */
+      batchCosts?: components["schemas"]["BatchCost"][];
+      /** @description Treasurers and admins: who owes the most */
+      balances?: {
+        topOwing: {
+            membershipId: number;
+            name: string;
+            outstandingCents: number;
+          }[];
+        membersOwing: number;
+        totalOutstandingCents: number;
+      };
+      admin?: {
+        pendingInvitations: number;
+        notSentInvitations: number;
+        recentEvents: ({
+            /** @description ISO 8601 date-time */
+            at: string;
+            who: string | null;
+            action: string;
+          })[];
+      };
+    };
+    OverviewTank: {
+      /** @description Litres, exact decimal as text */
+      onHandLiters: string;
+      /** @description Litres, exact decimal as text */
+      reservedLiters: string;
+      /** @description Held while a batch in it is under review (reserved fuel included): on hand, not for drawing */
+      heldLiters: string;
+      /** @description Litres, exact decimal as text */
+      availableLiters: string;
+      /** @description Litres, exact decimal as text */
+      capacityLiters: string;
+      avgCostCentsPerGallon: number | null;
+      tanks: number;
+    };
+    OverviewPrice: {
+      /** @enum {string} */
+      kind: "fixed" | "cost-plus-amount" | "cost-plus-percent";
+      /** @description Off-road/heating price per gallon (base + surcharge); road adds roadTaxCentsPerGallon */
+      centsPerGallon: number;
+      roadTaxCentsPerGallon: number;
+    };
+    MonthVolume: {
+      /** @description YYYY-MM */
+      month: string;
+      releasedLiters: number;
+      drawnLiters: number;
+    };
+    BatchCost: {
+      number: number;
+      /** @description YYYY-MM-DD */
+      releasedOn: string;
+      releasedLiters: number;
+      methanol: number;
+      catalyst: number;
+      energy: number;
+      feedstock: number;
+      other: number;
+      totalCentsPerGallon: number;
+    };
     CoopSettings: {
       name: string;
       slug: string;
@@ -754,13 +900,32 @@ export interface components {
       units: "us" | "metric";
       timezone: string;
       currency: string;
-      [key: string]: unknown;
+      monthlyDuesCents: number;
+      selfServeDraws: boolean;
+      /** @enum {string} */
+      catalyst: "KOH" | "NaOH";
+      baseGramsPerLiter: number;
+      purityPct: number;
+      methanolPct: number;
+      /** @enum {string} */
+      qualityStandard: "ASTM D6751" | "EN 14214";
+      /** @description Elevation of the brewing site, m (0 when not set) */
+      elevationM: number;
     };
     AuditEvent: {
-      id: number | string;
+      /** @description The BIGINT id, as a string */
+      id: string;
+      /** @description ISO 8601 date-time */
+      at: string;
+      actorName: string | null;
+      actorEmail: string | null;
       action: string;
       entityType: string;
-      [key: string]: unknown;
+      entityId: string | null;
+      /** @description The entity before the change (JSON), or null */
+      before: unknown;
+      /** @description The entity after the change (JSON), or null */
+      after: unknown;
     };
     ApiToken: {
       id: number;
@@ -780,6 +945,7 @@ export interface components {
       id: number;
       name: string;
       email: string;
+      /** @description A change of address waiting for its confirmation link */
       pendingEmail: string | null;
       /** @description The confirmation e-mail of the pending change: queued (retried with back-off while the mail server is away), sent, or failed after every try (ask again to send a new link) */
       pendingEmailDelivery: ({
@@ -797,9 +963,25 @@ export interface components {
           /** @description ISO 8601 date-time */
           joinedAt: string;
           timezone: string;
-          [key: string]: unknown;
         })[];
-      [key: string]: unknown;
+    };
+    InvitationAccepted: {
+      coop: {
+        slug: string;
+        name: string;
+      };
+      /** @enum {string} */
+      role: "admin" | "treasurer" | "brewer" | "member";
+      email: string;
+      newAccount: boolean;
+    };
+    MyCoop: {
+      slug: string;
+      name: string;
+      /** @enum {string} */
+      role: "admin" | "treasurer" | "brewer" | "member";
+      /** @enum {string} */
+      status: "active" | "suspended";
     };
     Member: {
       id: number;
@@ -1051,6 +1233,123 @@ export interface components {
       /** @description The available stock won't cover the next planned batch */
       low: boolean;
     };
+    PlannerResult: {
+      /** @enum {string} */
+      units: "us" | "metric";
+      plan: components["schemas"]["ComputedPlan"];
+      coverage: components["schemas"]["ChemicalCoverage"][];
+      projected: {
+        methanolCents: number;
+        catalystCents: number;
+        energyCents: number;
+        /** @enum {string} */
+        energySource: "metered" | "heater" | "estimate" | "none";
+        energyKwh: number | null;
+        feedstockCents: number;
+        totalCents: number;
+        /** @description Per US gallon of expected fuel */
+        costPerGallonCents: number | null;
+        costPerLiterCents: number | null;
+        /** @description Some chemical is short and unpriced */
+        incomplete: boolean;
+      };
+      notes: string[];
+    };
+    ComputedPlan: {
+      oilLiters: number;
+      titration: {
+        /** @enum {string} */
+        source: "trials" | "oil-lot";
+        oilLotId: number | null;
+        trials: number[];
+        blankMl: number;
+        /** @description Average minus blank, mL of titrant per mL of oil (as made with `titrant`) */
+        averageMl: number;
+        /** @enum {string} */
+        titrant: "KOH" | "NaOH";
+        /** @description The average in the batch's catalyst (converted by molar mass when the titrant differs) */
+        averageForCatalystMl: number;
+        outlierIndexes: number[];
+        spreadMl: number;
+        spreadTooWide: boolean;
+        averageWithoutOutliersMl: number | null;
+        /** @description What to tell the brewer about the trials, or null */
+        notice: string | null;
+      };
+      /** @enum {string} */
+      catalyst: "KOH" | "NaOH";
+      baseGramsPerLiter: number;
+      /** @enum {string} */
+      baseSource: "typed" | "recipe" | "default";
+      purityPct: number;
+      /** @enum {string} */
+      puritySource: "typed" | "next-lot" | "recipe" | "typical";
+      /** @enum {string} */
+      titrantFrom: "same-catalyst" | "pure-reagent";
+      catalystResult: {
+        gramsPerLiter: number;
+        totalGrams: number;
+        /** @enum {string} */
+        rule: "base-over-purity-plus-titration" | "all-over-purity" | "converted-all-over-purity";
+        titrationPureGramsPerLiter: number;
+        explanation: string;
+      };
+      methanol: {
+        /** @enum {string} */
+        mode: "percent" | "molar-ratio";
+        pct: number | null;
+        molarRatio: number | null;
+        liters: number;
+        equivalentPct: number;
+        equivalentMolarRatio: number;
+      };
+      oil: {
+        acidNumber: number;
+        ffaPercent: number;
+        /** @enum {string} */
+        band: "good" | "average" | "poor" | "very-poor" | "reject";
+        needsAcidPretreatment: boolean;
+        reject: boolean;
+        message: string;
+      };
+      yields: {
+        fuelLiters: number;
+        fuelKg: number;
+        glycerolLiters: number;
+        crudeGlycerinLiters: number;
+        crudeGlycerinRangeLiters: [number, number];
+        glycerolKg: number;
+        methanolReactedLiters: number;
+        excessMethanolLiters: number;
+        conversionFraction: number;
+        assumptions: string[];
+      };
+      yieldProjection: {
+        ratio: number;
+        /** @enum {string} */
+        source: "history" | "ideal";
+        batches: number;
+        idealRatio: number;
+        explanation: string;
+      };
+      /** @description Oil × the projected yield, L */
+      projectedFuelLiters: number;
+    };
+    ChemicalCoverage: {
+      /** @enum {string} */
+      kind: "methanol" | "KOH" | "NaOH";
+      /** @enum {string} */
+      unit: "L" | "g";
+      needed: number;
+      /** @description Stock the lots hold minus what batches under way will take */
+      available: number;
+      covered: boolean;
+      shortBy: number;
+      /** @description The needed quantity at current lot prices, FIFO; a shortfall at the last price paid */
+      projectedCents: number;
+      /** @description The shortfall at the last price paid; null when nothing is short or none was ever bought */
+      shortfallCents: number | null;
+    };
     BatchRow: {
       id: number;
       number: number;
@@ -1073,16 +1372,223 @@ export interface components {
       /** @enum {string} */
       screeningVerdict: "looks-good" | "needs-attention" | "incomplete";
     };
-    /** @description A batch: recipe, steps, temperatures, quality, costs (brewers and admins see every field; others a released batch's summary). */
+    /** @description A batch's full record: plan, steps, temperatures, quality, costs (brewers and admins). */
     Batch: {
+      /** @constant */
+      view: "full";
       id: number;
       number: number;
-      status: string;
-      [key: string]: unknown;
+      /** @enum {string} */
+      status: "planned" | "reacting" | "settling" | "draining" | "washing" | "drying" | "testing" | "released" | "rejected" | "imported";
+      /** @description YYYY-MM-DD */
+      batchDate: string;
+      /** @description ISO 8601 date-time */
+      statusChangedAt: string;
+      /** @description ISO 8601 date-time */
+      createdAt: string;
+      oilLiters: number;
+      oilLots: {
+          oilLotId: number;
+          collectedFrom: string;
+          /** @description YYYY-MM-DD */
+          collectedOn: string;
+          liters: number;
+          feedstockCents: number;
+        }[];
+      plan: components["schemas"]["ComputedPlan"];
+      computedCatalystGrams: number;
+      computedMethanolLiters: number;
+      actualCatalystGrams: number | null;
+      actualMethanolLiters: number | null;
+      mixingMinutes: number | null;
+      settlingHours: number | null;
+      glycerinLiters: number | null;
+      washCycles: number | null;
+      washWaterLiters: number | null;
+      dryingMethod: string | null;
+      dryingNotes: string | null;
+      temperatures: components["schemas"]["Temperature"][];
+      quickTests: components["schemas"]["QuickTests"];
+      quickTestEvaluation: components["schemas"]["QuickTestEvaluation"];
+      labResults: components["schemas"]["LabResults"];
+      quality: components["schemas"]["QualityEvaluation"];
+      /** @enum {string} */
+      qualityVerdict: "pass" | "fail" | "incomplete";
+      /** @enum {string} */
+      screeningVerdict: "looks-good" | "needs-attention" | "incomplete";
+      energy: {
+        kwh: number | null;
+        heaterKw: number | null;
+        heaterHours: number | null;
+        tariffCentsPerKwh: number | null;
+        costCents: number | null;
+      };
+      feedstockCentsOverride: number | null;
+      feedstockFromLotsCents: number;
+      otherCents: number;
+      otherNotes: string | null;
+      release: ({
+        tankId: number;
+        tankName: string | null;
+        releasedLiters: number;
+        /** @description ISO 8601 date-time */
+        releasedAt: string;
+      }) | null;
+      rejectedAt: string | null;
+      rejectReason: string | null;
+      costs: ({
+        methanolCents: number;
+        catalystCents: number;
+        energyCents: number;
+        feedstockCents: number;
+        otherCents: number;
+        totalCents: number;
+        costPerGallonCents: number | null;
+        costPerLiterCents: number | null;
+      }) | null;
+      consumptions: ({
+          chemicalLotId: number;
+          kind: string;
+          supplier: string;
+          /** @description YYYY-MM-DD */
+          receivedOn: string;
+          /** @enum {string} */
+          unit: "L" | "g";
+          quantity: number;
+          costCents: number;
+        })[];
+      files: ({
+          id: number;
+          /** @enum {string} */
+          purpose: "photo" | "lab-report" | "receipt";
+          /** @enum {string} */
+          kind: "pdf" | "jpeg" | "png";
+          name: string;
+          sizeBytes: number;
+          /** @description ISO 8601 date-time */
+          createdAt: string;
+        })[];
+      notes: string | null;
     };
     Temperature: {
-      id: number | string;
-      [key: string]: unknown;
+      /** @description The BIGINT id, as a string */
+      id: string;
+      /** @description ISO 8601 date-time */
+      measuredAt: string;
+      tempC: number;
+      /** @enum {string} */
+      level: "ok" | "cold" | "warning" | "danger";
+      /** @description The check's wording, in the co-op's units */
+      message: string;
+    };
+    QuickTests: {
+      test327?: {
+        /** @enum {string} */
+        result: "clear" | "fallout";
+        falloutMl?: number;
+      };
+      soap?: {
+        hclMl: number;
+        sampleGrams: number;
+      };
+      /** @enum {string} */
+      washTest?: "clean-split" | "emulsion";
+      /** @enum {string} */
+      water?: "clear" | "hazy";
+    };
+    /** @description Home quick tests: screening only, never a pass. */
+    QuickTestEvaluation: {
+      items: ({
+          /** @enum {string} */
+          test: "test327" | "soap" | "washTest" | "water";
+          label: string;
+          /** @enum {string} */
+          status: "looks-good" | "needs-attention" | "recorded" | "not tested";
+          detail: string;
+          soapPpm?: number;
+        })[];
+      /** @enum {string} */
+      overall: "looks-good" | "needs-attention" | "incomplete";
+      /** @constant */
+      caution: "Home quick tests are screening only; no home test proves compliance with ASTM D6751 or EN 14214.";
+    };
+    /** @description By property: a bare value (screening only) or a value with its method, laboratory and date. */
+    LabResults: {
+      [key: string]: (number | ({
+        value: number;
+        method?: string | null;
+        laboratory?: string | null;
+        date?: string | null;
+      })) | null;
+    };
+    QualityEvaluation: {
+      /** @enum {string} */
+      standard: "ASTM D6751" | "EN 14214";
+      rows: ({
+          /** @enum {string} */
+          property: "acidNumber" | "freeGlycerin" | "totalGlycerin" | "waterAndSediment" | "water" | "flashPoint" | "methanol" | "kinematicViscosity40C" | "sulfur" | "cloudPoint" | "oxidationStability" | "sulfatedAsh" | "copperStripCorrosion" | "cetaneNumber" | "carbonResidue" | "density15C" | "sodiumPotassium" | "calciumMagnesium" | "phosphorus" | "distillationT90" | "coldSoakFiltration" | "monoglycerides" | "esterContent" | "totalContamination" | "diglycerides" | "triglycerides" | "linolenicMethylEster" | "polyunsaturatedMethylEster" | "iodineValue";
+          label: string;
+          unit: string;
+          /** @enum {string} */
+          standard: "ASTM D6751" | "EN 14214";
+          /** @enum {string} */
+          verdict: "pass" | "fail" | "not tested" | "reported" | "screened-within" | "screened-outside";
+          value: number | null;
+          limitText: string;
+          standardMethod: string;
+          source: string;
+          required: boolean;
+          method: string | null;
+          laboratory: string | null;
+          date: string | null;
+          isLaboratory: boolean;
+          note?: string;
+        })[];
+      /** @enum {string} */
+      overall: "pass" | "fail" | "incomplete";
+      verdict: {
+        /** @enum {string} */
+        kind: "meets" | "fails" | "screened";
+        text: string;
+        testedCount: number;
+        requiredCount: number;
+        failing: string[];
+        screenedOutside: string[];
+      };
+      untestedCount: number;
+      /** @constant */
+      caution: "Home quick tests are screening only; no home test proves compliance with ASTM D6751 or EN 14214.";
+    };
+    BatchSummary: {
+      /** @constant */
+      view: "summary";
+      id: number;
+      number: number;
+      /** @enum {string} */
+      status: "planned" | "reacting" | "settling" | "draining" | "washing" | "drying" | "testing" | "released" | "rejected" | "imported";
+      /** @description YYYY-MM-DD */
+      batchDate: string;
+      oilLiters: number;
+      /** @description null for an imported past batch recorded without one */
+      catalyst: ("KOH" | "NaOH") | null;
+      release: ({
+        releasedLiters: number;
+        /** @description ISO 8601 date-time */
+        releasedAt: string;
+        tankName: string | null;
+      }) | null;
+      costPerGallonCents: number | null;
+      costPerLiterCents: number | null;
+      quickTestEvaluation: components["schemas"]["QuickTestEvaluation"];
+      quality: components["schemas"]["QualityEvaluation"];
+      /** @enum {string} */
+      qualityVerdict: "pass" | "fail" | "incomplete";
+      /** @enum {string} */
+      screeningVerdict: "looks-good" | "needs-attention" | "incomplete";
+      /** @description An imported past batch: its notes as recorded then; null for any other */
+      imported: ({
+        notes: string | null;
+      }) | null;
     };
     /** @description Tanks, draws and members that hold or received the batch's fuel, and its reviews. */
     BatchLineage: {
@@ -1137,7 +1643,46 @@ export interface components {
     };
     /** @description Invoices due / paid / outstanding, money received and where it went, unmatched payments, checks, and what blocks closing. */
     Reconciliation: {
-      [key: string]: unknown;
+      /** @description YYYY-MM */
+      period: string;
+      closed: boolean;
+      closedAt: string | null;
+      closedBy: string | null;
+      monthOver: boolean;
+      invoices: {
+        rows: components["schemas"]["InvoiceSummary"][];
+        issuedCount: number;
+        draftCount: number;
+        invoicedCents: number;
+        creditNotesCents: number;
+        paidCents: number;
+        outstandingCents: number;
+        unpaidCount: number;
+      };
+      payments: {
+        receivedCents: number;
+        byMethod: {
+          card: number;
+          cash: number;
+          cheque: number;
+        };
+        appliedCents: number;
+        creditedCents: number;
+        unallocatedCents: number;
+        refundedCents: number;
+        /** @description Received this month, applied to invoices of other months */
+        appliedElsewhereCents: number;
+        unmatched: components["schemas"]["Payment"][];
+      };
+      pendingCardAttempts: number;
+      pendingRefunds: number;
+      unbilledDraws: {
+        count: number;
+        totalCents: number;
+      };
+      checks: components["schemas"]["ReconciliationCheck"][];
+      /** @description Why the month cannot be closed yet (empty when it can) */
+      blockers: string[];
     };
     InvoiceSummary: {
       id: number;
@@ -1163,6 +1708,47 @@ export interface components {
       emailStatus: "not-sent" | "queued" | "sending" | "sent" | "failed";
       creditNoteForId: number | null;
       creditNoteId: number | null;
+    };
+    Payment: {
+      id: number;
+      /** @enum {string} */
+      method: "card" | "cash" | "cheque";
+      memberId: number;
+      memberName: string;
+      invoiceId: number | null;
+      invoiceLabel: string | null;
+      invoicePeriod: string | null;
+      amountCents: number;
+      appliedCents: number;
+      creditedCents: number;
+      unallocatedCents: number;
+      refundedCents: number;
+      /** @description The unmatched part plus this payment's share of the member's credit */
+      refundableCents: number;
+      /** @description YYYY-MM-DD */
+      receivedOn: string;
+      /** @description YYYY-MM */
+      period: string;
+      reference: string | null;
+      note: string | null;
+      periodClosed: boolean;
+      refunds: components["schemas"]["Refund"][];
+    };
+    Refund: {
+      id: number;
+      amountCents: number;
+      /** @enum {string} */
+      status: "pending" | "succeeded" | "failed";
+      reason: string;
+      /** @description YYYY-MM-DD */
+      refundedOn: string;
+      failureMessage: string | null;
+    };
+    ReconciliationCheck: {
+      label: string;
+      leftCents: number;
+      rightCents: number;
+      ok: boolean;
     };
     InvoiceDetail: {
       id: number;
@@ -1224,41 +1810,6 @@ export interface components {
       quantityLiters: number | null;
       unitPriceCentsPerGallon: number | null;
       amountCents: number;
-    };
-    Payment: {
-      id: number;
-      /** @enum {string} */
-      method: "card" | "cash" | "cheque";
-      memberId: number;
-      memberName: string;
-      invoiceId: number | null;
-      invoiceLabel: string | null;
-      invoicePeriod: string | null;
-      amountCents: number;
-      appliedCents: number;
-      creditedCents: number;
-      unallocatedCents: number;
-      refundedCents: number;
-      /** @description The unmatched part plus this payment's share of the member's credit */
-      refundableCents: number;
-      /** @description YYYY-MM-DD */
-      receivedOn: string;
-      /** @description YYYY-MM */
-      period: string;
-      reference: string | null;
-      note: string | null;
-      periodClosed: boolean;
-      refunds: components["schemas"]["Refund"][];
-    };
-    Refund: {
-      id: number;
-      amountCents: number;
-      /** @enum {string} */
-      status: "pending" | "succeeded" | "failed";
-      reason: string;
-      /** @description YYYY-MM-DD */
-      refundedOn: string;
-      failureMessage: string | null;
     };
     Adjustment: {
       id: number;
@@ -1496,23 +2047,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            /** @enum {string} */
-            role: "admin" | "treasurer" | "brewer" | "member";
-            tank: {
-              [key: string]: unknown;
-            };
-            price: {
-              [key: string]: unknown;
-            } | null;
-            account: {
-              outstandingCents: number;
-              creditCents: number;
-              unallocatedCents: number;
-              [key: string]: unknown;
-            };
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["Overview"];
         };
       };
       /** @description Not signed in, or the access token is missing, unknown or revoked. */
@@ -2939,9 +3474,7 @@ export interface operations {
       /** @description Success */
       201: {
         content: {
-          "application/json": {
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["InvitationAccepted"];
         };
       };
       /** @description Malformed request (the body is not JSON or not UTF-8). */
@@ -3022,15 +3555,7 @@ export interface operations {
       200: {
         content: {
           "application/json": {
-            coops: ({
-                slug: string;
-                name: string;
-                /** @enum {string} */
-                role: "admin" | "treasurer" | "brewer" | "member";
-                /** @enum {string} */
-                status: "active" | "suspended";
-                [key: string]: unknown;
-              })[];
+            coops: components["schemas"]["MyCoop"][];
             [key: string]: unknown;
           };
         };
@@ -5476,9 +6001,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["PlannerResult"];
         };
       };
       /** @description Malformed request (the body is not JSON or not UTF-8). */
@@ -5736,7 +6259,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": components["schemas"]["Batch"];
+          "application/json": components["schemas"]["Batch"] | components["schemas"]["BatchSummary"];
         };
       };
       /** @description Not signed in, or the access token is missing, unknown or revoked. */

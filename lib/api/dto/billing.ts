@@ -124,3 +124,42 @@ export const periodOverviewSchema = z
     totals: z.object({ invoicedCents: int(), paidCents: int(), outstandingCents: int(), draftCents: int() }),
   })
   .meta({ id: 'PeriodOverview' });
+
+/** One identity that must hold in a month's books, both sides shown so a difference is visible. */
+export const reconciliationCheckSchema = z.object({ label: str(), leftCents: int(), rightCents: int(), ok: z.boolean() }).meta({ id: 'ReconciliationCheck' });
+
+/** A month's books side by side (lib/billing/reconciliation.ts's Reconciliation is inferred from it). */
+export const reconciliationSchema = z
+  .object({
+    period: period(),
+    closed: z.boolean(),
+    closedAt: date().nullable(),
+    closedBy: str().nullable(),
+    monthOver: z.boolean(),
+    invoices: z.object({
+      rows: z.array(invoiceSummarySchema),
+      issuedCount: int(),
+      draftCount: int(),
+      invoicedCents: int(),
+      creditNotesCents: int(),
+      paidCents: int(),
+      outstandingCents: int(),
+      unpaidCount: int(),
+    }),
+    payments: z.object({
+      receivedCents: int(),
+      byMethod: z.object({ card: int(), cash: int(), cheque: int() }),
+      appliedCents: int(),
+      creditedCents: int(),
+      unallocatedCents: int(),
+      refundedCents: int(),
+      appliedElsewhereCents: int().describe('Received this month, applied to invoices of other months'),
+      unmatched: z.array(paymentSchema),
+    }),
+    pendingCardAttempts: int(),
+    pendingRefunds: int(),
+    unbilledDraws: z.object({ count: int(), totalCents: int() }),
+    checks: z.array(reconciliationCheckSchema),
+    blockers: z.array(str()).describe('Why the month cannot be closed yet (empty when it can)'),
+  })
+  .meta({ id: 'Reconciliation', description: 'Invoices due / paid / outstanding, money received and where it went, unmatched payments, checks, and what blocks closing.' });

@@ -13,7 +13,7 @@ import {
 } from '@/lib/validation/auth';
 import { memberListQuerySchema } from '@/lib/validation/members';
 import { operation } from '../operation';
-import { invitationSchema, memberSchema, myCoopSchema, pageOf, profileSchema, role } from '../schemas';
+import { invitationAcceptedSchema, invitationSchema, memberSchema, myCoopSchema, pageOf, profileSchema, role } from '../schemas';
 
 // Accounts: sign-in, my profile, co-ops, members and invitations.
 
@@ -52,7 +52,7 @@ export const operations = [
     errors: { 404: 'Unknown link.', ...linkGone },
     tags: ['Accounts'],
   }),
-  operation({ method: 'POST', path: '/api/invitations/[token]', summary: 'Accept an invitation (new account, or signed in as the invited address)', access: 'public', params: token, body: invitationAcceptSchema, responses: { 201: z.looseObject({}) }, errors: { 401: 'Sign in as the invited address.', 403: 'Signed in as someone else.', 404: 'Unknown link.', ...linkGone }, tags: ['Accounts'] }),
+  operation({ method: 'POST', path: '/api/invitations/[token]', summary: 'Accept an invitation (new account, or signed in as the invited address)', access: 'public', params: token, body: invitationAcceptSchema, responses: { 201: invitationAcceptedSchema }, errors: { 401: 'Sign in as the invited address.', 403: 'Signed in as someone else.', 404: 'Unknown link.', ...linkGone }, tags: ['Accounts'] }),
   operation({ method: 'GET', path: '/api/coops', summary: 'My co-ops with my role and status', access: 'user', responses: { 200: z.looseObject({ coops: z.array(myCoopSchema) }) }, tags: ['Co-ops'] }),
   operation({ method: 'POST', path: '/api/coops', summary: 'Create a co-op (I become its admin)', access: 'user', body: coopCreateSchema, responses: { 201: z.looseObject({ slug: z.string() }) }, tags: ['Co-ops'] }),
   operation({ method: 'GET', path: '/api/coops/[coop]/members', summary: 'Members with role and status', access: { action: 'members:manage' }, query: memberListQuerySchema, responses: { 200: pageOf(memberSchema).extend({ activeAdmins: z.number().int() }) }, tags: ['Members'] }),

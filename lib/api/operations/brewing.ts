@@ -14,7 +14,7 @@ import {
   temperatureCreateSchema,
 } from '@/lib/validation/brewing';
 import { operation } from '../operation';
-import { batchRowSchema, batchSchema, chemicalLotSchema, oilLotSchema, pageOf, stockSummarySchema, temperatureSchema } from '../schemas';
+import { batchOrSummarySchema, batchRowSchema, batchSchema, chemicalLotSchema, oilLotSchema, pageOf, plannerResultSchema, stockSummarySchema, temperatureSchema } from '../schemas';
 
 // Brewing: supplies, the planner and batches.
 
@@ -37,10 +37,10 @@ export const operations = [
     responses: { 200: stockSummarySchema },
     tags,
   }),
-  operation({ method: 'POST', path: '/api/coops/[coop]/planner', summary: 'Plan a batch: methanol, catalyst and costs for an oil volume (writes nothing)', access: { action: 'batches:write' }, body: plannerSchema, responses: { 200: z.looseObject({}) }, tags }),
+  operation({ method: 'POST', path: '/api/coops/[coop]/planner', summary: 'Plan a batch: methanol, catalyst and costs for an oil volume (writes nothing)', access: { action: 'batches:write' }, body: plannerSchema, responses: { 200: plannerResultSchema }, tags }),
   operation({ method: 'GET', path: '/api/coops/[coop]/batches', summary: 'Batches (members and treasurers see released ones)', access: { action: 'batches:read-released' }, query: batchListSchema, responses: { 200: pageOf(batchRowSchema) }, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/batches', summary: 'Plan a new batch', access: { action: 'batches:write' }, body: batchCreateSchema, responses: { 201: batchSchema }, errors: { 409: 'Not enough stock or oil.' }, tags }),
-  operation({ method: 'GET', path: '/api/coops/[coop]/batches/[id]', summary: 'One batch (a released batch\'s summary for members and treasurers)', access: { action: 'batches:read-released' }, responses: { 200: batchSchema }, tags }),
+  operation({ method: 'GET', path: '/api/coops/[coop]/batches/[id]', summary: 'One batch (a released batch\'s summary for members and treasurers)', access: { action: 'batches:read-released' }, responses: { 200: batchOrSummarySchema }, tags }),
   operation({ method: 'PATCH', path: '/api/coops/[coop]/batches/[id]', summary: 'Edit a batch\'s records', access: { action: 'batches:write' }, body: batchUpdateSchema, responses: { 200: batchSchema }, errors: final, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/batches/[id]/advance', summary: 'Move a batch to its next step', access: { action: 'batches:write' }, body: batchAdvanceSchema, responses: { 200: batchSchema }, errors: final, tags }),
   operation({ method: 'POST', path: '/api/coops/[coop]/batches/[id]/release', summary: 'Release a batch\'s fuel into a tank', access: { action: 'batches:write' }, body: batchReleaseSchema, responses: { 200: batchSchema }, errors: final, tags }),

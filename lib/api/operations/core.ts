@@ -4,7 +4,7 @@ import { quarterlyReportQuerySchema } from '@/lib/validation/reports';
 import { apiTokenCreateSchema } from '@/lib/validation/api-tokens';
 import { coopSettingsUpdateSchema } from '@/lib/validation/settings';
 import { operation } from '../operation';
-import { apiTokenSchema, auditEventSchema, coopSettingsSchema, pageOf, role } from '../schemas';
+import { apiTokenSchema, auditEventSchema, coopSettingsSchema, overviewSchema, pageOf } from '../schemas';
 
 // The service itself, the co-op's overview, settings, audit log and reports.
 
@@ -19,7 +19,7 @@ export const operations = [
     path: '/api/coops/[coop]/overview',
     summary: 'The co-op\'s first screen: tank, price, my account; more sections by role',
     access: { action: 'coop:read' },
-    responses: { 200: z.looseObject({ role, tank: z.looseObject({}), price: z.looseObject({}).nullable(), account: z.looseObject({ outstandingCents: z.number().int(), creditCents: z.number().int(), unallocatedCents: z.number().int() }) }) },
+    responses: { 200: overviewSchema },
     tags: ['Co-ops'],
   }),
   operation({ method: 'GET', path: '/api/coops/[coop]/settings', summary: 'The co-op\'s settings', access: { action: 'settings:manage' }, responses: { 200: coopSettingsSchema }, tags: ['Co-ops'] }),
