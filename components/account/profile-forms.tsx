@@ -5,7 +5,6 @@ import { useState } from 'react';
 import { signInWithPassword, signOutTo } from '@/components/auth/credentials';
 import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { emailChangeSchema, emailConfirmSchema, passwordChangeSchema, profileUpdateSchema } from '@/lib/validation/auth';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
@@ -18,7 +17,7 @@ export function NameForm({ name }: { name: string }) {
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const body = { name: formObject(e.currentTarget).name ?? '' };
-    if (await send((b) => apiClient.PATCH('/api/me', { body: b }), { schema: profileUpdateSchema, body }, 'Name saved.')) router.refresh();
+    if (await send((b) => apiClient.PATCH('/api/me', { body: b }), { schema: 'profileUpdateSchema', body }, 'Name saved.')) router.refresh();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
@@ -58,7 +57,7 @@ export function EmailForm({ email, pendingEmail, delivery = null }: { email: str
     const form = e.currentTarget;
     const f = formObject(form);
     const body = { email: f.email ?? '', currentPassword: f.currentPassword ?? '' };
-    const r = await send((b) => apiClient.POST('/api/me/email', { body: b }), { schema: emailChangeSchema, body });
+    const r = await send((b) => apiClient.POST('/api/me/email', { body: b }), { schema: 'emailChangeSchema', body });
     if (!r) return;
     form.reset();
     setMessage(
@@ -95,7 +94,7 @@ export function PasswordForm({ email }: { email: string }) {
       return;
     }
     const body = { currentPassword: data.currentPassword ?? '', newPassword: data.newPassword ?? '' };
-    const r = await send((b) => apiClient.POST('/api/me/password', { body: b }), { schema: passwordChangeSchema, body });
+    const r = await send((b) => apiClient.POST('/api/me/password', { body: b }), { schema: 'passwordChangeSchema', body });
     if (!r) return;
     form.reset();
     const again = await signInWithPassword(email, data.newPassword ?? '');
@@ -152,7 +151,7 @@ export function ConfirmEmailButton({ token, newEmail }: { token: string; newEmai
   const [state, setState] = useState<{ busy: boolean; error: string | null; done: boolean }>({ busy: false, error: null, done: false });
   async function confirm() {
     setState({ busy: true, error: null, done: false });
-    const r = await callApi((b) => apiClient.POST('/api/me/email/confirm', { body: b }), { schema: emailConfirmSchema, body: { token } });
+    const r = await callApi((b) => apiClient.POST('/api/me/email/confirm', { body: b }), { schema: 'emailConfirmSchema', body: { token } });
     setState({ busy: false, error: r.ok ? null : r.error, done: r.ok });
   }
   if (state.done) {

@@ -6,7 +6,6 @@ import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { invitationAcceptSchema } from '@/lib/validation/auth';
 import { signInWithPassword, signOutTo } from './credentials';
 
 /** A new person: name and password, then they are signed in and land in the co-op. */
@@ -23,7 +22,7 @@ export function AcceptWithNewAccount({ token, email }: { token: string; email: s
       return;
     }
     const body = { name: data.name ?? '', password: data.password ?? '' };
-    const r = await send((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: invitationAcceptSchema.required(), body });
+    const r = await send((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: 'newAccountAcceptSchema', body });
     if (!r) return;
     setSigningIn(true);
     const signedIn = await signInWithPassword(email, body.password);
@@ -54,7 +53,7 @@ export function JoinButton({ token, coopName }: { token: string; coopName: strin
   async function join() {
     setBusy(true);
     setMessage(null);
-    const r = await callApi((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: invitationAcceptSchema, body: {} });
+    const r = await callApi((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: 'invitationAcceptSchema', body: {} });
     if (!r.ok) {
       setBusy(false);
       setMessage(r.error);

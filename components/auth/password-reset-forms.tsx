@@ -7,7 +7,6 @@ import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { passwordResetRequestSchema, passwordResetSchema } from '@/lib/validation/auth';
 
 /** Asks for a reset link; the answer is the same whether or not the address has an account. */
 export function ResetRequestForm() {
@@ -16,7 +15,7 @@ export function ResetRequestForm() {
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const body = { email: formObject(e.currentTarget).email ?? '' };
-    const r = await send((b) => apiClient.POST('/api/password-reset', { body: b }), { schema: passwordResetRequestSchema, body });
+    const r = await send((b) => apiClient.POST('/api/password-reset', { body: b }), { schema: 'passwordResetRequestSchema', body });
     if (r) setDone(r.message);
   }
   if (done) return <Notice tone="ok" title="Check your e-mail">{done}</Notice>;
@@ -42,7 +41,7 @@ export function ResetPasswordForm({ token, email }: { token: string; email: stri
       return;
     }
     const body = { password: data.password ?? '' };
-    const r = await send((b) => apiClient.POST('/api/password-reset/{token}', { params: { path: { token } }, body: b }), { schema: passwordResetSchema, body });
+    const r = await send((b) => apiClient.POST('/api/password-reset/{token}', { params: { path: { token } }, body: b }), { schema: 'passwordResetSchema', body });
     if (r) setDone(true);
   }
   if (done) {

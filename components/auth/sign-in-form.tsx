@@ -4,7 +4,7 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { signInSchema } from '@/lib/validation/auth';
+import { checkBody } from '@/components/forms/use-api-form';
 import { signInWithPassword } from './credentials';
 
 /**
@@ -20,16 +20,16 @@ export function SignInForm({ next, email }: { next: string; email?: string }) {
     e.preventDefault();
     setMessage(null);
     const form = new FormData(e.currentTarget);
-    const parsed = signInSchema.safeParse({ email: form.get('email'), password: form.get('password') });
-    if (!parsed.success) {
-      const fe: Record<string, string[]> = {};
-      for (const i of parsed.error.issues) (fe[String(i.path[0])] ??= []).push(i.message);
+    const email = String(form.get('email') ?? '');
+    const password = String(form.get('password') ?? '');
+    const fe = await checkBody('signInSchema', { email, password });
+    if (fe) {
       setErrors(fe);
       return;
     }
     setErrors({});
     setBusy(true);
-    const r = await signInWithPassword(parsed.data.email, parsed.data.password);
+    const r = await signInWithPassword(email, password);
     if (!r.ok) {
       setBusy(false);
       setMessage(r.message);

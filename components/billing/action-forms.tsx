@@ -7,7 +7,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { adjustmentCreateSchema, invoiceVoidSchema, paymentMatchSchema, paymentRecordSchema, periodCloseSchema, refundCreateSchema } from '@/lib/validation/billing';
 import { formatCents } from '@/lib/money/format';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { useAnnounce } from '@/components/shell/announcer';
@@ -20,7 +19,7 @@ export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invo
     e.preventDefault();
     const path = { coop, id: String(invoiceId) };
     const body = { reason: formObject(e.currentTarget).reason ?? '' };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/void', { params: { path }, body: b }), { schema: invoiceVoidSchema, body });
+    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/void', { params: { path }, body: b }), { schema: 'invoiceVoidSchema', body });
     if (out) router.refresh();
   }
   return (
@@ -50,7 +49,7 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
     const f = formObject(form);
     // The select offers cash and cheque only; the server names a bad value.
     const body = { memberId: f.memberId, method: f.method as 'cash' | 'cheque', amount: f.amount ?? '', receivedOn: f.receivedOn ?? '', invoiceId: f.invoiceId || undefined, reference: f.reference || undefined, note: f.note || undefined };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/payments', { params: { path: { coop } }, body: b }), { schema: paymentRecordSchema, body }, 'Payment recorded.');
+    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/payments', { params: { path: { coop } }, body: b }), { schema: 'paymentRecordSchema', body }, 'Payment recorded.');
     if (out) {
       form.reset();
       setMemberId(fixed?.memberId ?? null);
@@ -99,7 +98,7 @@ export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop
     e.preventDefault();
     const target = formObject(e.currentTarget).target ?? '';
     const body = { invoiceId: target === 'credit' ? null : Number(target) };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/payments/{id}/match', { params: { path: { coop, id: String(paymentId) } }, body: b }), { schema: paymentMatchSchema, body });
+    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/payments/{id}/match', { params: { path: { coop, id: String(paymentId) } }, body: b }), { schema: 'paymentMatchSchema', body });
     if (!out) return;
     const inv = invoices.find((i) => String(i.id) === target);
     announce({ tone: 'ok', text: inv ? `Payment matched to ${inv.label}.` : 'Payment held as the member’s credit.' });
@@ -127,7 +126,7 @@ export function RefundForm({ coop, paymentId, refundableCents, method, currency,
       title={`Refund ${payer ? `${payer}’s` : 'this'} payment?`} confirmLabel="Refund — can’t be undone" busyLabel="Refunding…"
       onConfirm={async (d) => {
         const body = { amount: String(d.get('amount') ?? ''), reason: String(d.get('reason') ?? '') };
-        const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/billing/payments/{id}/refunds', { params: { path: { coop, id: String(paymentId) } }, body: b }), { schema: refundCreateSchema, body });
+        const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/billing/payments/{id}/refunds', { params: { path: { coop, id: String(paymentId) } }, body: b }), { schema: 'refundCreateSchema', body });
         if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
         router.refresh();
         return { ok: true, message: `Refund recorded${method === 'card' ? ': it goes back to the card' : ''}.` };
@@ -169,7 +168,7 @@ export function AdjustmentForm({ coop, members, currency, currentPeriod }: { coo
     const form = e.currentTarget;
     const f = formObject(form);
     const body = { memberId: f.memberId, amount: f.amount ?? '', description: f.description ?? '', period: f.period };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/adjustments', { params: { path: { coop } }, body: b }), { schema: adjustmentCreateSchema, body }, 'Adjustment added; it goes on the member’s next invoice.');
+    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/adjustments', { params: { path: { coop } }, body: b }), { schema: 'adjustmentCreateSchema', body }, 'Adjustment added; it goes on the member’s next invoice.');
     if (out) {
       form.reset();
       router.refresh();
@@ -200,7 +199,7 @@ export function CloseMonthForm({ coop, period, label }: { coop: string; period: 
         <ConfirmDialog
           trigger={`Close ${label}…`} triggerVariant="primary" title={`Close ${label}?`} confirmLabel={`Close and lock ${label}`} busyLabel="Closing…" tone="primary"
           onConfirm={async () => {
-            const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/billing/periods/{period}/close', { params: { path: { coop, period } }, body: b }), { schema: periodCloseSchema, body: { confirm: true as const } });
+            const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/billing/periods/{period}/close', { params: { path: { coop, period } }, body: b }), { schema: 'periodCloseSchema', body: { confirm: true as const } });
             if (r.ok) {
               router.refresh();
               return { ok: true, message: `${label} is closed: its draws, invoices and payments are locked.` };

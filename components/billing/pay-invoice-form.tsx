@@ -7,7 +7,6 @@ import { SelectField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { cardPaySchema } from '@/lib/validation/billing';
 import { formatCents } from '@/lib/money/format';
 import { TEST_CARDS } from '@/lib/payments/test-cards';
 
@@ -29,7 +28,7 @@ export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coo
     // The select offers only the test cards; the check names anything else.
     const body = { card: String(new FormData(e.currentTarget).get('card') ?? '') as (typeof TEST_CARDS)[number]['id'] };
     const path = { coop, id: String(invoiceId) };
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invoices/{id}/pay', { params: { path }, body: b }), { schema: cardPaySchema, body });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invoices/{id}/pay', { params: { path }, body: b }), { schema: 'cardPaySchema', body });
     setBusy(false);
     if (r.ok) {
       setResult({ tone: 'ok', text: 'Payment received — thank you.' });

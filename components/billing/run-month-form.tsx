@@ -6,7 +6,6 @@ import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { billingRunCreateSchema } from '@/lib/validation/billing';
 
 /** Picks a month and starts preparing its draft invoices, then opens the month's page. */
 export function RunMonthForm({ coop, defaultPeriod, maxPeriod }: { coop: string; defaultPeriod: string; maxPeriod: string }) {
@@ -15,7 +14,7 @@ export function RunMonthForm({ coop, defaultPeriod, maxPeriod }: { coop: string;
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const { period } = formObject(e.currentTarget);
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/runs', { params: { path: { coop } }, body: b }), { schema: billingRunCreateSchema, body: { period: period ?? '' } });
+    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/runs', { params: { path: { coop } }, body: b }), { schema: 'billingRunCreateSchema', body: { period: period ?? '' } });
     if (out) router.push(`/c/${coop}/billing/${out.run.period}`);
   }
   return (

@@ -9,7 +9,6 @@ import { ConfirmDialog, type ConfirmOutcome } from '@/components/ui/confirm-dial
 import { useAnnounce } from '@/components/shell/announcer';
 import { callApi, numberOf, useApiForm, type ApiResult } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { batchAdvanceSchema, batchRejectSchema, batchReleaseSchema } from '@/lib/validation/brewing';
 import { batchPath } from './batch-path';
 import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
 import { QualityBadge } from './badges';
@@ -58,7 +57,7 @@ export function BatchActions({ url, status, number, release }: { url: string; st
     }
     // The select offers only later steps; the check names anything else.
     const body = { to: to as Exclude<(typeof STEP_ORDER)[number], 'planned'> };
-    if (await advance.send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/advance', { params: { path }, body: b }), { schema: batchAdvanceSchema, body })) {
+    if (await advance.send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/advance', { params: { path }, body: b }), { schema: 'batchAdvanceSchema', body })) {
       announce({ tone: 'ok', text: `${name} moved to ${STATUS_LABELS[to]?.toLowerCase() ?? 'the next step'}.` });
       router.refresh();
     }
@@ -94,7 +93,7 @@ export function BatchActions({ url, status, number, release }: { url: string; st
             title={`Release batch${number ? ` ${number}` : ''} to a tank`} tone="primary" confirmLabel="Release — can’t be undone" busyLabel="Releasing…"
             onConfirm={async (d) => {
               const body = { tankId: str(d, 'tankId'), volume: numberOf(str(d, 'volume')) as number, reason: str(d, 'reason').trim() || undefined };
-              const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/release', { params: { path }, body: b }), { schema: batchReleaseSchema, body });
+              const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/release', { params: { path }, body: b }), { schema: 'batchReleaseSchema', body });
               return outcome(r, `${name} is released into the tank.`);
             }}
           >
@@ -123,7 +122,7 @@ export function BatchActions({ url, status, number, release }: { url: string; st
           trigger="Reject batch…" beforeOpen={() => saved('rejecting')} title={`Reject batch${number ? ` ${number}` : ''}`}
           confirmLabel="Reject — can’t be undone" busyLabel="Rejecting…"
           onConfirm={async (d) => {
-            const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/reject', { params: { path }, body: b }), { schema: batchRejectSchema, body: { reason: str(d, 'reason') } });
+            const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/reject', { params: { path }, body: b }), { schema: 'batchRejectSchema', body: { reason: str(d, 'reason') } });
             return outcome(r, `${name} is rejected.`);
           }}
         >

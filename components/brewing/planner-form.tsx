@@ -8,7 +8,6 @@ import { Notice } from '@/components/ui/notice';
 import { callApi, numberOf } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import type { PlannerResultDto as PlannerResult } from '@/lib/api/dto/brewing';
-import { batchCreateSchema, plannerSchema } from '@/lib/validation/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { grams, money, perUnit, vol } from './format';
 
@@ -60,7 +59,7 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
     }
     const mine = ++seq.current;
     setComputing(true);
-    const r = await callApi((x) => apiClient.POST('/api/coops/{coop}/planner', { params: { path: { coop: slug } }, body: x }), { schema: plannerSchema, body: b });
+    const r = await callApi((x) => apiClient.POST('/api/coops/{coop}/planner', { params: { path: { coop: slug } }, body: x }), { schema: 'plannerSchema', body: b });
     if (mine !== seq.current) return;
     setComputing(false);
     if (r.ok) {
@@ -82,7 +81,7 @@ export function PlannerForm({ slug, units, currency, recipe, oilLots }: { slug: 
 
   async function create() {
     setCreating(true);
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches', { params: { path: { coop: slug } }, body: b }), { schema: batchCreateSchema, body: body() });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches', { params: { path: { coop: slug } }, body: b }), { schema: 'batchCreateSchema', body: body() });
     setCreating(false);
     if (r.ok) router.push(`/c/${slug}/batches/${r.data.id}`);
     else {

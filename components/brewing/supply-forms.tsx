@@ -7,7 +7,7 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, numberOf, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { CHEMICAL_KINDS, QUANTITY_UNITS, chemicalLotCreateSchema, oilLotCreateSchema } from '@/lib/validation/brewing';
+import type { CHEMICAL_KINDS, QUANTITY_UNITS } from '@/lib/validation/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 
 const today = () => new Date().toISOString().slice(0, 10);
@@ -32,7 +32,7 @@ export function ChemicalLotForm({ slug, units: system = 'metric' }: { slug: stri
       quantity: numberOf(f.quantity), unit: f.unit as (typeof QUANTITY_UNITS)[number], totalCost: f.totalCost ?? '', purityPct: numberOf(f.purityPct), notes: f.notes,
     };
     const path = { coop: slug };
-    const lot = await send((b) => apiClient.POST('/api/coops/{coop}/supplies/chemicals', { params: { path }, body: b }), { schema: chemicalLotCreateSchema, body }, 'Purchase recorded.');
+    const lot = await send((b) => apiClient.POST('/api/coops/{coop}/supplies/chemicals', { params: { path }, body: b }), { schema: 'chemicalLotCreateSchema', body }, 'Purchase recorded.');
     if (!lot) return;
     const file = (form.elements.namedItem('sds') as HTMLInputElement | null)?.files?.[0];
     if (file) {
@@ -92,7 +92,7 @@ export function OilLotForm({ slug, units }: { slug: string; units: UnitSystem })
       titrationMl: numberOf(f.titrationMl), titrant: f.titrant as 'KOH' | 'NaOH' | undefined,
     };
     const path = { coop: slug };
-    if (await send((b) => apiClient.POST('/api/coops/{coop}/supplies/oil', { params: { path }, body: b }), { schema: oilLotCreateSchema, body }, 'Oil lot recorded.')) {
+    if (await send((b) => apiClient.POST('/api/coops/{coop}/supplies/oil', { params: { path }, body: b }), { schema: 'oilLotCreateSchema', body }, 'Oil lot recorded.')) {
       form.reset();
       router.refresh();
     }

@@ -7,7 +7,6 @@ import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { numberOf, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { temperatureCreateSchema } from '@/lib/validation/brewing';
 import { batchPath } from './batch-path';
 import { formatTime, formatWhen } from '@/lib/dates';
 import { temperatureCheck, type TemperatureLevel } from '@/lib/chemistry';
@@ -32,7 +31,7 @@ export function TemperatureLog({ url, readings, units, timeZone, readOnly, eleva
   async function onSubmit(e: React.FormEvent) {
     e.preventDefault();
     const body = { temp: numberOf(typed) as number };
-    const saved = await send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/temperatures', { params: { path: batchPath(url) }, body: b }), { schema: temperatureCreateSchema, body });
+    const saved = await send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/temperatures', { params: { path: batchPath(url) }, body: b }), { schema: 'temperatureCreateSchema', body });
     if (saved) {
       setTyped('');
       router.refresh();

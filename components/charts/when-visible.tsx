@@ -1,25 +1,7 @@
 'use client';
 
 import { useEffect, useRef, useState, type ReactNode } from 'react';
-
-/** Runs `fn` once the page has loaded and the browser is idle (charts never compete with first paint). */
-function afterLoad(fn: () => void): () => void {
-  let cancelled = false;
-  const hasIdle = typeof window.requestIdleCallback === 'function';
-  let idle = 0;
-  const run = () => {
-    if (cancelled) return;
-    idle = hasIdle ? window.requestIdleCallback(fn, { timeout: 1500 }) : setTimeout(fn, 200) as unknown as number;
-  };
-  if (document.readyState === 'complete') run();
-  else window.addEventListener('load', run, { once: true });
-  return () => {
-    cancelled = true;
-    window.removeEventListener('load', run);
-    if (hasIdle) window.cancelIdleCallback(idle);
-    else clearTimeout(idle);
-  };
-}
+import { afterLoad } from '@/components/ui/after-load';
 
 /**
  * Renders its children once the page has loaded and the box comes near the screen (200 px

@@ -5,7 +5,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { coopCreateSchema } from '@/lib/validation/auth';
 
 export function CreateCoopForm() {
   const { busy, fields, message, send } = useApiForm();
@@ -13,7 +12,7 @@ export function CreateCoopForm() {
     e.preventDefault();
     const f = formObject(e.currentTarget);
     const body = { name: f.name ?? '', slug: f.slug ?? '', units: f.units as 'us' | 'metric' | undefined, timezone: f.timezone };
-    const created = await send((b) => apiClient.POST('/api/coops', { body: b }), { schema: coopCreateSchema, body });
+    const created = await send((b) => apiClient.POST('/api/coops', { body: b }), { schema: 'coopCreateSchema', body });
     if (created) window.location.assign(`/c/${created.slug}`);
   }
   return (

@@ -1,12 +1,14 @@
 'use client';
 
-import { useState } from 'react';
-import type { z } from 'zod';
+import { useEffect, useState } from 'react';
+import { afterLoad } from '@/components/ui/after-load';
 import { apiError, type ClientResult } from '@/lib/api/client';
 import { fieldErrors } from '@/lib/validation/fields';
+import type * as FormSchemas from '@/lib/validation/forms';
 
 // The one way a form talks to the API: the body is checked with the route's own zod schema
-// (lib/validation, the one the handler parses with) before any request, so its reasons show
+// (lib/validation, the one the handler parses with; named from lib/validation/forms, which loads
+// after the page so zod stays out of first-load JavaScript) before any request, so its reasons show
 // beside the field at once; then it goes through the typed client (lib/api/client), so the
 // body's and the answer's fields are the contract's and a renamed one is a compile error here.
 // The server's 4xx field errors land beside the same fields.
@@ -16,14 +18,27 @@ export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; 
 /** An apiClient call (lib/api/client, openapi-fetch) under way. */
 export type ClientCall<T> = Promise<ClientResult<T>>;
 
+/** A schema forms check with, by its name in lib/validation/forms. */
+export type FormSchema = { [K in keyof typeof FormSchemas]: (typeof FormSchemas)[K] extends { safeParse: unknown } ? K : never }[keyof typeof FormSchemas];
+
 /** A body and the route's schema to check it with before it is sent. */
-export type Checked<B> = { schema: z.ZodType; body: B };
+export type Checked<B> = { schema: FormSchema; body: B };
 
 const UNREACHABLE = 'Could not reach Tallyvat. Check your connection and try again.';
 
+let schemas: Promise<typeof FormSchemas> | undefined;
+/** The form schemas, loaded once (after the page has loaded, or at the first check). */
+function loadFormSchemas(): Promise<typeof FormSchemas> {
+  if (!schemas) {
+    schemas = import('@/lib/validation/forms');
+    schemas.catch(() => (schemas = undefined)); // a failed load is tried again at the next check
+  }
+  return schemas;
+}
+
 /** Checks a body with a route's schema: its field errors, or null when the server would accept its shape. */
-export function checkBody(schema: z.ZodType, body: unknown): Record<string, string[]> | null {
-  const r = schema.safeParse(body);
+export async function checkBody(schema: FormSchema, body: unknown): Promise<Record<string, string[]> | null> {
+  const r = (await loadFormSchemas())[schema].safeParse(body);
   return r.success ? null : { ...fieldErrors(r.error) };
 }
 
@@ -33,11 +48,11 @@ export function checkBody(schema: z.ZodType, body: unknown): Record<string, stri
  * the same field reasons, and nothing is sent.
  */
 export async function callApi<T, B = undefined>(call: (body: B) => ClientCall<T>, checked?: Checked<B>): Promise<ApiResult<T>> {
-  if (checked) {
-    const fields = checkBody(checked.schema, checked.body);
-    if (fields) return { ok: false, status: 422, error: 'Some fields need attention.', fields, body: {} };
-  }
   try {
+    if (checked) {
+      const fields = await checkBody(checked.schema, checked.body);
+      if (fields) return { ok: false, status: 422, error: 'Some fields need attention.', fields, body: {} };
+    }
     const r = await call(checked?.body as B);
     if (r.response.ok) return { ok: true, data: r.data as T };
     const e = apiError(r.error, r.response.status);
@@ -52,6 +67,7 @@ export function useApiForm() {
   const [busy, setBusy] = useState(false);
   const [fields, setFields] = useState<Record<string, string[]>>({});
   const [message, setMessage] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
+  useEffect(() => afterLoad(() => void loadFormSchemas().catch(() => undefined)), []);
 
   /**
    * `send((b) => apiClient.POST('/api/…', { params, body: b }), { schema, body }, 'Saved.')`: the

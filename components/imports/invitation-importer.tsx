@@ -5,7 +5,6 @@ import { useState } from 'react';
 import { DataTable } from '@/components/data-table/data-table';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { importFileSchema } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
 import { FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
@@ -66,7 +65,7 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
     setBusy('preview');
     setMessage(null);
     // The imports' answers are not declared field by field yet: the preview is read as this screen's shape.
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }), { schema: importFileSchema, body: body() });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }), { schema: 'importFileSchema', body: body() });
     setBusy(null);
     if (!r.ok) {
       setPreview(null);
@@ -81,7 +80,7 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
   async function confirm() {
     setBusy('confirm');
     setMessage(null);
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), { schema: importFileSchema, body: body() });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), { schema: 'importFileSchema', body: body() });
     if (!r.ok) {
       setBusy(null);
       setErrors(r.fields);

@@ -5,7 +5,7 @@ import { useState } from 'react';
 import { DataTable } from '@/components/data-table/data-table';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { importFileSchema, type IMPORT_KINDS } from '@/lib/validation/imports';
+import type { IMPORT_KINDS } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
 import { FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
@@ -47,7 +47,7 @@ export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: str
     setBusy('preview');
     setError(null);
     // The imports' answers are not declared field by field yet: the preview is read as this screen's shape.
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }), { schema: importFileSchema, body: { fileName: file.name, csv: file.text } });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }), { schema: 'importFileSchema', body: { fileName: file.name, csv: file.text } });
     setBusy(null);
     if (!r.ok) return setError(r.error);
     setPreview(r.data as unknown as Preview);
@@ -57,7 +57,7 @@ export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: str
     if (!file) return;
     setBusy('confirm');
     setError(null);
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), { schema: importFileSchema, body: { fileName: file.name, csv: file.text } });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), { schema: 'importFileSchema', body: { fileName: file.name, csv: file.text } });
     setBusy(null);
     if (!r.ok) {
       if (Array.isArray(r.body.rows)) setPreview((p) => (p ? { ...p, rows: p.rows.map((x) => (r.body.rows as OpeningImportRow[]).find((b) => b.line === x.line) ?? x) } : p));

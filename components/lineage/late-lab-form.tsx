@@ -7,7 +7,6 @@ import { Notice } from '@/components/ui/notice';
 import { numberOf, useApiForm } from '@/components/forms/use-api-form';
 import { batchPath } from '@/components/brewing/batch-path';
 import { apiClient } from '@/lib/api/client';
-import { lateLabResultSchema } from '@/lib/validation/lineage';
 import { limitsFor, type FuelStandard } from '@/lib/quality';
 
 /**
@@ -29,7 +28,7 @@ export function LateLabForm({ url, standard }: { url: string; standard: FuelStan
         [property]: { value: numberOf(String(d.get('value') ?? '')) as number, method: String(d.get('method') ?? ''), laboratory: String(d.get('laboratory') ?? ''), date: String(d.get('date') ?? '') },
       },
     };
-    const r = await send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/lab-results', { params: { path: batchPath(url) }, body: b }), { schema: lateLabResultSchema, body });
+    const r = await send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/lab-results', { params: { path: batchPath(url) }, body: b }), { schema: 'lateLabResultSchema', body });
     if (r) router.refresh();
   }
 

@@ -4,7 +4,6 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { callApi, formObject } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { invitationCreateSchema } from '@/lib/validation/auth';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
@@ -25,7 +24,7 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
     const f = formObject(form);
     // The select offers the four roles; the server names a bad value.
     const body = { email: f.email ?? '', role: f.role as Role };
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invitations', { params: { path: { coop: coopSlug } }, body: b }), { schema: invitationCreateSchema, body });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invitations', { params: { path: { coop: coopSlug } }, body: b }), { schema: 'invitationCreateSchema', body });
     setBusy(false);
     if (!r.ok) {
       setFields(r.fields);

@@ -5,7 +5,6 @@ import { useMemo, useState } from 'react';
 import { DataTable, type PageInfo } from '@/components/data-table/data-table';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { membershipUpdateSchema } from '@/lib/validation/auth';
 import type { ConfirmOutcome } from '@/components/ui/confirm-dialog';
 import { withArticle, type Role } from '@/lib/auth/roles';
 import { memberColumns, type MemberRow } from './member-columns';
@@ -19,7 +18,7 @@ export function MembersTable({ coopSlug, rows, pageInfo, filtered }: { coopSlug:
     async function run(row: MemberRow, change: { role?: Role; status?: 'active' | 'suspended' } | null, okText: string): Promise<ConfirmOutcome> {
       const path = { coop: coopSlug, id: String(row.id) };
       const r = change
-        ? await callApi((b) => apiClient.PATCH('/api/coops/{coop}/members/{id}', { params: { path }, body: b }), { schema: membershipUpdateSchema, body: change })
+        ? await callApi((b) => apiClient.PATCH('/api/coops/{coop}/members/{id}', { params: { path }, body: b }), { schema: 'membershipUpdateSchema', body: change })
         : await callApi(() => apiClient.DELETE('/api/coops/{coop}/members/{id}', { params: { path } }));
       if (!r.ok) return { ok: false, error: r.error };
       setPendingRole((p) => {

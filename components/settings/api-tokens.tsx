@@ -7,7 +7,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient, apiError } from '@/lib/api/client';
-import { apiTokenCreateSchema } from '@/lib/validation/api-tokens';
 import type { paths } from '@/lib/api/client';
 
 type TokenList = paths['/api/coops/{coop}/tokens']['get']['responses'][200]['content']['application/json'];
@@ -31,7 +30,7 @@ export function ApiTokens({ coop }: { coop: string }) {
     const form = e.currentTarget;
     const f = formObject(form);
     const body = { name: f.name ?? '', access: f.access === 'write' ? ('write' as const) : ('read' as const) };
-    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tokens', { params: { path: { coop } }, body: b }), { schema: apiTokenCreateSchema, body });
+    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tokens', { params: { path: { coop } }, body: b }), { schema: 'apiTokenCreateSchema', body });
     if (!r) return;
     setSecret({ name: r.token.name, value: r.secret });
     form.reset();

@@ -5,7 +5,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, numberOf, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { coopSettingsUpdateSchema } from '@/lib/validation/settings';
 import type { CoopSettingsDto } from '@/lib/coops/settings-types';
 
 export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
@@ -28,7 +27,7 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
       elevation: numberOf(f.elevation),
     };
     const path = { coop: initial.slug };
-    if (await send((b) => apiClient.PUT('/api/coops/{coop}/settings', { params: { path }, body: b }), { schema: coopSettingsUpdateSchema, body }, 'Settings saved.')) window.location.reload();
+    if (await send((b) => apiClient.PUT('/api/coops/{coop}/settings', { params: { path }, body: b }), { schema: 'coopSettingsUpdateSchema', body }, 'Settings saved.')) window.location.reload();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-6">

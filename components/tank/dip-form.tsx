@@ -7,7 +7,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { dipCreateSchema } from '@/lib/validation/tank';
 import { formatMl, unitWord } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
@@ -25,7 +24,7 @@ export function DipForm({ coopSlug, units, tanks, currency }: { coopSlug: string
     const f = prefixedObject(form, 'dip');
     const path = { coop: coopSlug, tankId: f.tankId ?? '' };
     const body = { measured: f.measured ?? '', reason: f.reason, unitCost: f.unitCost };
-    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tanks/{tankId}/dips', { params: { path }, body: b }), { schema: dipCreateSchema, body });
+    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tanks/{tankId}/dips', { params: { path }, body: b }), { schema: 'dipCreateSchema', body });
     if (r) {
       const d = Math.round(r.differenceLiters * 1000);
       setMessage({ tone: 'ok', text: d === 0 ? 'Recorded: the reading matches the book.' : `Recorded: ${formatMl(d, units, { signed: true, digits: 2 })} adjustment in the ledger.` });

@@ -8,7 +8,6 @@ import { Notice } from '@/components/ui/notice';
 import { FormResult } from '@/components/forms/form-result';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { pricingPolicyCreateSchema } from '@/lib/validation/tank';
 import { useAnnounce } from '@/components/shell/announcer';
 import { memberPriceCentsPerGallon, type PricingPolicy } from '@/lib/pricing';
 import { formatRate } from '@/lib/pricing-policy/convert';
@@ -73,7 +72,7 @@ export function PricingForm({ coopSlug, units, currency, current, costCentsPerUn
     e.preventDefault();
     const f = prefixedObject(e.currentTarget, 'price');
     const body = { kind, price: f.price, margin: f.margin, marginPct: f.marginPct, surchargeCents: f.surchargeCents, roadTaxCents: f.roadTaxCents, effectiveFrom: f.effectiveFrom };
-    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/pricing', { params: { path: { coop: coopSlug } }, body: b }), { schema: pricingPolicyCreateSchema, body });
+    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/pricing', { params: { path: { coop: coopSlug } }, body: b }), { schema: 'pricingPolicyCreateSchema', body });
     if (ok) {
       announce({ tone: 'ok', text: 'New price saved. It applies to draws recorded from now on.' });
       router.refresh();

@@ -7,7 +7,6 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { drawCreateSchema } from '@/lib/validation/tank';
 import type { DeclaredUse } from '@/lib/pricing';
 import { FormResult } from '@/components/forms/form-result';
 import { formatCents } from '@/lib/money';
@@ -54,7 +53,7 @@ export function RecordDrawForm({ coopSlug, units, currency, tanks, members, rese
       membershipId: selfServe ? undefined : b.membershipId, tankId: b.tankId, reservationId: b.reservationId, quantity: b.quantity,
       meterBefore: b.meterBefore, meterAfter: b.meterAfter, declaredUse: b.declaredUse as DeclaredUse, vehicle: b.vehicle, occurredAt: b.occurredAt,
     };
-    const r = await send((d) => apiClient.POST('/api/coops/{coop}/draws', { params: { path: { coop: coopSlug } }, body: d }), { schema: drawCreateSchema, body });
+    const r = await send((d) => apiClient.POST('/api/coops/{coop}/draws', { params: { path: { coop: coopSlug } }, body: d }), { schema: 'drawCreateSchema', body });
     if (r) {
       setMessage({ tone: 'ok', text: `Recorded draw #${r.id}: ${formatMl(Math.round(r.quantityLiters * 1000), units, { digits: 2 })} for ${r.memberName}, ${formatCents(r.totalCents, currency)} at the price in force.` });
       form.reset();

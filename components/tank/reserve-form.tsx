@@ -8,7 +8,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { reservationCreateSchema } from '@/lib/validation/tank';
 import { FormResult } from '@/components/forms/form-result';
 import { useAnnounce } from '@/components/shell/announcer';
 import { formatCents } from '@/lib/money';
@@ -46,7 +45,7 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd, pricing, cur
     const form = e.currentTarget;
     const f = prefixedObject(form, 'res');
     const body = { tankId: f.tankId, quantity: f.quantity ?? '', windowStart: f.windowStart ?? '', windowEnd: f.windowEnd ?? '' };
-    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/reservations', { params: { path: { coop: coopSlug } }, body: b }), { schema: reservationCreateSchema, body });
+    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/reservations', { params: { path: { coop: coopSlug } }, body: b }), { schema: 'reservationCreateSchema', body });
     await mutate(tanksKey(coopSlug));
     if (ok) {
       form.reset();

@@ -4,7 +4,6 @@ import { useRouter } from 'next/navigation';
 import { useSWRConfig } from 'swr';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { drawReverseSchema } from '@/lib/validation/tank';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { TextField } from '@/components/ui/field';
 import { tanksKey } from './live-tanks';
@@ -24,7 +23,7 @@ export function ReverseDrawButton({ coopSlug, drawId, summary }: { coopSlug: str
       onConfirm={async (d) => {
         const path = { coop: coopSlug, drawId: String(drawId) };
         const body = { reason: String(d.get('reason') ?? '') };
-        const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/draws/{drawId}/reverse', { params: { path }, body: b }), { schema: drawReverseSchema, body });
+        const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/draws/{drawId}/reverse', { params: { path }, body: b }), { schema: 'drawReverseSchema', body });
         if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
         await mutate(tanksKey(coopSlug));
         router.refresh();

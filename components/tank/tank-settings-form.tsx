@@ -8,7 +8,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { tankCreateSchema, tankUpdateSchema } from '@/lib/validation/tank';
 import { unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
@@ -32,11 +31,11 @@ export function TankSettingsForm({ coopSlug, units, tanks }: { coopSlug: string;
     let ok: unknown;
     if (!tank) {
       const body = { name: f.name ?? '', capacity: f.capacity ?? '' };
-      ok = await send((b) => apiClient.POST('/api/coops/{coop}/tanks', { params: { path }, body: b }), { schema: tankCreateSchema, body }, 'Tank added.');
+      ok = await send((b) => apiClient.POST('/api/coops/{coop}/tanks', { params: { path }, body: b }), { schema: 'tankCreateSchema', body }, 'Tank added.');
       if (ok) form.reset();
     } else {
       const body = { name: f.name, capacity: f.capacity, active: f.active === 'true' };
-      ok = await send((b) => apiClient.PATCH('/api/coops/{coop}/tanks/{tankId}', { params: { path: { ...path, tankId: String(tank.id) } }, body: b }), { schema: tankUpdateSchema, body }, 'Saved.');
+      ok = await send((b) => apiClient.PATCH('/api/coops/{coop}/tanks/{tankId}', { params: { path: { ...path, tankId: String(tank.id) } }, body: b }), { schema: 'tankUpdateSchema', body }, 'Saved.');
     }
     if (ok) {
       await mutate(tanksKey(coopSlug));

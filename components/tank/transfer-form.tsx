@@ -7,7 +7,6 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { transferCreateSchema } from '@/lib/validation/tank';
 import { unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
@@ -24,7 +23,7 @@ export function TransferForm({ coopSlug, units, tanks }: { coopSlug: string; uni
     const form = e.currentTarget;
     const f = prefixedObject(form, 'xfer');
     const body = { fromTankId: f.fromTankId, toTankId: f.toTankId, quantity: f.quantity ?? '', reason: f.reason };
-    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/tanks/transfers', { params: { path: { coop: coopSlug } }, body: b }), { schema: transferCreateSchema, body }, 'Moved. Both tanks’ ledgers show the transfer.');
+    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/tanks/transfers', { params: { path: { coop: coopSlug } }, body: b }), { schema: 'transferCreateSchema', body }, 'Moved. Both tanks’ ledgers show the transfer.');
     if (ok) {
       form.reset();
       await mutate(tanksKey(coopSlug));

@@ -94,11 +94,36 @@ function withSymbolFallback(doc: PDFKit.PDFDocument, f: Fonts): PDFKit.PDFDocume
  * Lays text out without Inter's contextual alternates and ligatures ('calt' rewrites arrows and
  * case-dependent punctuation): they change nothing on forms and invoices but made shaping about
  * five times slower. Kerning, composition and marks stay on; a caller's explicit features win.
+ *
+ * pdfkit shapes word by word and remembers words only within one document; invoices repeat the
+ * same words ("Draw", "gal", dates, labels), so the shaped words are kept per font for the
+ * process too (at most LAYOUT_MEMO words, then started afresh). pdfkit scales the positions it
+ * gets in place, so each caller gets its own copy of them; glyphs are shared read-only objects.
  */
 const PLAIN_FEATURES = { calt: false, liga: false, clig: false, rclt: false };
+const LAYOUT_MEMO = 20_000;
+type Shaped = Pick<fontkit.GlyphRun, 'glyphs' | 'positions'>;
 function plainShaping(font: fontkit.Font): fontkit.Font {
   const layout = font.layout.bind(font);
-  font.layout = (text, features) => layout(text, features ?? PLAIN_FEATURES);
+  const memo = new Map<string, Shaped>();
+  font.layout = (text, features) => {
+    if (features) return layout(text, features);
+    let shaped = memo.get(text);
+    if (!shaped) {
+      const run = layout(text, PLAIN_FEATURES);
+      shaped = { glyphs: run.glyphs, positions: run.positions.map((p) => ({ ...p })) };
+      if (memo.size >= LAYOUT_MEMO) memo.clear();
+      memo.set(text, shaped);
+    }
+    const positions = shaped.positions.map((p) => ({ ...p }));
+    return {
+      glyphs: shaped.glyphs,
+      positions,
+      get advanceWidth() {
+        return positions.reduce((sum, p) => sum + p.xAdvance, 0);
+      },
+    } as unknown as fontkit.GlyphRun;
+  };
   return font;
 }
 

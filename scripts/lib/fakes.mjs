@@ -38,25 +38,29 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
       });
     },
   });
-  /** Parses the messages not yet read (in place), newest first. */
-  async function parsed() {
-    await Promise.all(messages.map(async (m) => {
-      if (!m.raw) return;
-      const { raw, ...rest } = m;
-      const mail = await simpleParser(raw);
-      Object.assign(m, {
-        ...rest,
-        messageId: mail.messageId ?? '',
-        date: (mail.date ?? new Date()).toISOString(),
-        from: mail.from?.text ?? '',
-        to: mail.to ? [].concat(mail.to).map((a) => a.text).join(', ') : '',
-        subject: mail.subject ?? '',
-        text: mail.text ?? '',
-        html: typeof mail.html === 'string' ? mail.html : '',
-        attachments: (mail.attachments ?? []).map((a) => ({ filename: a.filename, contentType: a.contentType, size: a.size, content: a.content })),
+  /** Parses one stored message in place (once, however many readers ask at the same time). */
+  function parseOne(m) {
+    m.parsing ??= simpleParser(m.raw)
+      .catch(() => ({ subject: '(unreadable message)', attachments: [] }))
+      .then((mail) => {
+        Object.assign(m, {
+          messageId: mail.messageId ?? '',
+          date: (mail.date ?? new Date()).toISOString(),
+          from: mail.from?.text ?? '',
+          to: mail.to ? [].concat(mail.to).map((a) => a.text).join(', ') : '',
+          subject: mail.subject ?? '',
+          text: mail.text ?? '',
+          html: typeof mail.html === 'string' ? mail.html : '',
+          attachments: (mail.attachments ?? []).map((a) => ({ filename: a.filename, contentType: a.contentType, size: a.size, content: a.content })),
+        });
+        delete m.raw;
+        delete m.parsing;
       });
-      delete m.raw;
-    }));
+    return m.parsing;
+  }
+  /** Every message parsed, newest first; messages that arrive while parsing are parsed too. */
+  async function parsed() {
+    while (messages.some((m) => m.raw)) await Promise.all(messages.filter((m) => m.raw).map(parseOne));
     return messages;
   }
   await new Promise((resolve, reject) => {

@@ -55,3 +55,25 @@ describe('PDF fonts cover every glyph used (≤ ≥ → ≈ °)', () => {
     expect(normalise(text)).toContain('Boxed ≤ text in a column');
   });
 });
+
+// Shaped words are remembered across documents (lib/pdf plainShaping); pdfkit scales the positions
+// it gets in place, so a remembered word must measure and print the same in a later document.
+describe('shaped words shared between documents', () => {
+  it('the same words measure the same and print the same text in a second and third document', async () => {
+    const line = 'Draw 14 on 3 Dec 2026: 12.500 gal at $4.52 ≤ limit';
+    const widths: number[] = [];
+    const texts: string[] = [];
+    for (let i = 0; i < 3; i++) {
+      const doc = newPdf({ title: `memo ${i}` });
+      widths.push(doc.fontSize(10).widthOfString(line));
+      doc.text(line);
+      texts.push(normalise(await pdfText(await pdfToBuffer(doc))));
+    }
+    expect(widths[0]).toBeGreaterThan(100);
+    expect(widths[1]).toBe(widths[0]);
+    expect(widths[2]).toBe(widths[0]);
+    expect(texts[0]).toContain(line);
+    expect(texts[1]).toBe(texts[0]);
+    expect(texts[2]).toBe(texts[0]);
+  });
+});
