@@ -52,6 +52,8 @@ async function measure(state, url, viewport) {
     if (r.request().resourceType() === 'script' && r.ok()) scripts.push(r);
   });
   await page.goto(url, { waitUntil: 'load', timeout: 60_000 });
+  // Scripts fetched from here on (charts, form schemas: loaded once the page has loaded) are not first-load.
+  const firstLoad = scripts.length;
   const lcp = await page.evaluate(() => new Promise((done) => {
     let last = 0;
     new PerformanceObserver((list) => {
@@ -61,17 +63,22 @@ async function measure(state, url, viewport) {
   }));
   let gz = 0;
   let raw = 0;
-  for (const r of scripts) {
+  let laterGz = 0;
+  for (const [i, r] of scripts.entries()) {
     const key = r.url();
     if (!gzipCache.has(key)) {
       const body = await r.body().catch(() => Buffer.alloc(0));
       gzipCache.set(key, { raw: body.length, gz: zlib.gzipSync(body, { level: 6 }).length });
     }
+    if (i >= firstLoad) {
+      laterGz += gzipCache.get(key).gz;
+      continue;
+    }
     raw += gzipCache.get(key).raw;
     gz += gzipCache.get(key).gz;
   }
   await context.close();
-  return { lcpMs: Math.round(lcp), jsGzipKB: Math.round(gz / 1024), jsRawKB: Math.round(raw / 1024), files: scripts.length };
+  return { lcpMs: Math.round(lcp), jsGzipKB: Math.round(gz / 1024), jsRawKB: Math.round(raw / 1024), files: firstLoad, laterGzipKB: Math.round(laterGz / 1024) };
 }
 
 try {
@@ -85,10 +92,11 @@ try {
         row.jsGzipKB = m.jsGzipKB;
         row.jsRawKB = m.jsRawKB;
         row.files = m.files;
+        row.laterGzipKB = Math.max(row.laterGzipKB ?? 0, m.laterGzipKB);
       }
       rows.push(row);
       const flag = (ms) => (ms < LCP_TARGET_MS ? '' : ' !');
-      console.log(`${role.padEnd(9)} ${row.page.padEnd(14)} LCP 360 ${String(row.lcp360).padStart(5)} ms${flag(row.lcp360)}  LCP 1280 ${String(row.lcp1280).padStart(5)} ms${flag(row.lcp1280)}  first-load JS ${String(row.jsGzipKB).padStart(4)} kB gz (${row.jsRawKB} kB raw, ${row.files} files)${row.jsGzipKB > JS_TARGET_KB ? ' !' : ''}`);
+      console.log(`${role.padEnd(9)} ${row.page.padEnd(14)} LCP 360 ${String(row.lcp360).padStart(5)} ms${flag(row.lcp360)}  LCP 1280 ${String(row.lcp1280).padStart(5)} ms${flag(row.lcp1280)}  first-load JS ${String(row.jsGzipKB).padStart(4)} kB gz (${row.jsRawKB} kB raw, ${row.files} files)${row.jsGzipKB > JS_TARGET_KB ? ' !' : ''}${row.laterGzipKB ? `, ${row.laterGzipKB} kB gz after load` : ''}`);
     }
   }
   const worstJs = [...rows].sort((a, b) => b.jsGzipKB - a.jsGzipKB)[0];
