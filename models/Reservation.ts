@@ -11,7 +11,7 @@ export type ReservationStatus = 'open' | 'drawn' | 'cancelled' | 'expired';
 /**
  * A member's claim on fuel in a tank for a time window. While open its quantity is counted in
  * the tank's reserved_liters; drawing, cancelling or expiring it releases that quantity (in the
- * same transaction as the status change; see lib/reservations).
+ * same transaction as the status change; see lib/tank/reservations).
  */
 export class Reservation extends Model<InferAttributes<Reservation>, InferCreationAttributes<Reservation>> {
   declare id: CreationOptional<number>;

@@ -8,7 +8,7 @@ export type TankMixing = 'mixed' | 'fifo';
 
 /**
  * A fuel tank with its running totals. Litres are NUMERIC(14,3) and value BIGINT, so all three
- * arrive as strings (parse them with lib/tank/quantity and Number on purpose). The totals change
+ * arrive as strings (parse them with lib/units/quantity and Number on purpose). The totals change
  * only through lib/tank/ledger recordMovement (on hand, value) and the reservation services
  * (reserved); CHECKs keep on hand ≥ reserved ≥ 0.
  */

@@ -188,7 +188,7 @@ module.exports = {
           const total = methanolCents + catalystCents + energyCents + feedstockCents + b.other;
           const perGallon = roundHalfUp(total / (b.out / LITERS_PER_GALLON));
           const lab = b.lab ?? {};
-          // The release reason, kept on the batch record as the release dialog keeps it (lib/batches/release.ts).
+          // The release reason, kept on the batch record as the release dialog keeps it (lib/brewing/release.ts).
           const verdictText = b.verdict === 'fail' ? 'Fails: Oxidation stability (110 °C)' : 'Screened — 0 of 19 required properties tested, none failing';
           const notes = b.reason ? `Released with quality “${verdictText}”: ${b.reason}` : null;
           const allQuick = ['test327', 'soap', 'washTest', 'water'].every((k) => b.quick[k] !== undefined);

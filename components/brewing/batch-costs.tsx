@@ -1,5 +1,5 @@
 import { Card } from '@/components/ui/notice';
-import type { BatchDto } from '@/lib/batches';
+import type { BatchDto } from '@/lib/brewing';
 import type { UnitSystem } from '@/lib/units';
 import { dateText, fieldMoney, fieldNumber, grams, money, vol } from './format';
 import { StepForm, type StepField } from './step-form';

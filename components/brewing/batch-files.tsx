@@ -1,5 +1,5 @@
 import { Card } from '@/components/ui/notice';
-import type { BatchDto } from '@/lib/batches';
+import type { BatchDto } from '@/lib/brewing';
 import { UploadForm } from './upload-form';
 
 /** The batch's attached photos, lab reports and disposal receipts, and the form to attach more. */

@@ -1,5 +1,5 @@
 import { Card, Notice } from '@/components/ui/notice';
-import type { BatchDto } from '@/lib/batches';
+import type { BatchDto } from '@/lib/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { Figure } from './figure';
 import { dateText, fieldNumber, fieldVolume, grams, vol } from './format';

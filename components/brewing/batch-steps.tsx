@@ -1,5 +1,5 @@
 import { Card } from '@/components/ui/notice';
-import type { BatchDto } from '@/lib/batches';
+import type { BatchDto } from '@/lib/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { fieldNumber, fieldVolume, grams, vol } from './format';
 import { SafetyNote } from './safety-note';

@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import { Card, Notice } from '@/components/ui/notice';
-import type { BatchSummaryDto } from '@/lib/batches';
+import type { BatchSummaryDto } from '@/lib/brewing';
 import type { UnitSystem } from '@/lib/units';
 import { VerdictBadge } from './badges';
 import { BatchHeader } from './batch-header';

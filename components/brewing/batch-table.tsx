@@ -3,12 +3,12 @@
 import Link from 'next/link';
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable, type DataColumn, type Features, type PageInfo } from '@/components/data-table/data-table';
-import type { BatchListRow } from '@/lib/batches';
+import type { BatchListRow } from '@/lib/brewing';
 import type { UnitSystem } from '@/lib/units';
 import { QualityBadge, StatusBadge, VerdictBadge } from './badges';
 import { dateText, perUnit, vol } from './format';
 
-/** A row of the batch list (lib/batches' DTO). */
+/** A row of the batch list (lib/brewing' DTO). */
 export type BatchTableRow = BatchListRow;
 
 const col = createColumnHelper<Features, BatchTableRow>();

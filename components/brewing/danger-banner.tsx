@@ -7,7 +7,7 @@ import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import { formatTemp, type UnitSystem } from '@/lib/units';
 
-/** A Danger temperature reading no brewer has acknowledged yet (lib/batches DangerAlert). */
+/** A Danger temperature reading no brewer has acknowledged yet (lib/brewing DangerAlert). */
 export interface DangerBannerAlert { batchId: number; number: number; maxTempC: number; lastAt: string }
 
 /**

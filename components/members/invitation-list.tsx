@@ -6,7 +6,7 @@ import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import { EmptyState, Notice } from '@/components/ui/notice';
 import { useRefreshWhile } from '@/components/ui/use-refresh-while';
-import type { InvitationDto } from '@/lib/invitations';
+import type { InvitationDto } from '@/lib/members/invitations';
 
 /** A pending invitation as the page hands it to the client (expiry already worded in the co-op's zone). */
 export type InvitationRow = Pick<InvitationDto, 'id' | 'email' | 'role' | 'delivery' | 'expired' | 'invitedBy'> & { expiresLabel: string; sentLabel: string | null };

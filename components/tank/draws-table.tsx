@@ -6,7 +6,7 @@ import { formatCents } from '@/lib/money';
 import { When } from '@/components/ui/when';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
-import type { DrawDto } from '@/lib/draws';
+import type { DrawDto } from '@/lib/tank/draws';
 import { ReverseDrawButton } from './reverse-draw-button';
 import { StatusBadge } from './status-badge';
 

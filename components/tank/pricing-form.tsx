@@ -10,7 +10,7 @@ import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import { useAnnounce } from '@/components/shell/announcer';
 import { memberPriceCentsPerGallon, type PricingPolicy } from '@/lib/pricing';
-import { formatRate } from '@/lib/pricing-policy/convert';
+import { formatRate } from '@/lib/tank/pricing-policy/convert';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
 

@@ -5,7 +5,7 @@ import { DataTable, type DataColumn, type Features, type PageInfo } from '@/comp
 import { formatWhen } from '@/lib/dates';
 import { formatMl } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
-import type { ReservationDto } from '@/lib/reservations';
+import type { ReservationDto } from '@/lib/tank/reservations';
 import { CancelReservationButton } from './cancel-reservation-button';
 import { StatusBadge } from './status-badge';
 

@@ -6,7 +6,7 @@ import { ROLES, type Role } from '@/lib/auth/roles';
 import { INVITATION_TTL_MS, newLinkToken } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError } from '@/lib/http';
-import { enqueueInvitationMails } from '@/lib/invitations/deliver';
+import { enqueueInvitationMails } from '@/lib/members/invitations/deliver';
 import { emailSchema, nameSchema } from '@/lib/validation/auth';
 import type { ImportFileInput } from '@/lib/validation/imports';
 import { Import, Invitation, Membership } from '@/models';

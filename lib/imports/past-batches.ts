@@ -5,7 +5,7 @@ import { todayIn, formatDate } from '@/lib/dates';
 import { batchCost } from '@/lib/costing';
 import { conflict } from '@/lib/http';
 import { formatCents, roundHalfUp } from '@/lib/money';
-import { mlToLiters } from '@/lib/tank/quantity';
+import { mlToLiters } from '@/lib/units/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits } from '@/lib/tank/volume';
 import { litersToGallons } from '@/lib/units';
 import { Batch } from '@/models';

@@ -4,7 +4,7 @@ import type { Actor } from '@/lib/auth';
 import { conflict } from '@/lib/http';
 import { formatCents, roundHalfUp } from '@/lib/money';
 import { recordMovement } from '@/lib/tank/ledger';
-import { litersToMl } from '@/lib/tank/quantity';
+import { litersToMl } from '@/lib/units/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits } from '@/lib/tank/volume';
 import { Tank, TankMovement } from '@/models';
 import type { CsvRow } from './csv-read';

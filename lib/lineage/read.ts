@@ -5,7 +5,7 @@ import { Op, type InferAttributes, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
-import { litersToMl } from '@/lib/tank/quantity';
+import { litersToMl } from '@/lib/units/quantity';
 import { mlToUnits3 } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { Batch, BatchReview, Draw, Membership, MovementBatchShare, Tank, TankLayer, TankMovement, User } from '@/models';

@@ -6,13 +6,13 @@ import { OPEN_STATUSES } from '@/lib/billing/invoices';
 import { currentPeriod, periodToDate } from '@/lib/billing/periods';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
-import { policyInForce } from '@/lib/pricing-policy';
-import { policyInUnits, type PolicyRow } from '@/lib/pricing-policy/convert';
+import { policyInForce } from '@/lib/tank/pricing-policy';
+import { policyInUnits, type PolicyRow } from '@/lib/tank/pricing-policy/convert';
 import { stockState, summarizeStock } from '@/lib/supplies/stock';
 import { listTanks, type TankDto } from '@/lib/tank';
-import { mlToLiters } from '@/lib/tank/quantity';
+import { mlToLiters } from '@/lib/units/quantity';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
-import { qualityOf } from '@/lib/batches';
+import { qualityOf } from '@/lib/brewing';
 import { Batch } from '@/models';
 import { dailyTankLevel, monthlyVolumes, overviewCards, topOwing, type CardsRow } from './queries';
 import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
@@ -50,7 +50,7 @@ export function priceSummaryOf(row: (PolicyRow & { id: number }) | undefined, av
 }
 
 
-/** A batch's verdict in the one wording (lib/batches qualityOf). */
+/** A batch's verdict in the one wording (lib/brewing qualityOf). */
 const verdict = (b: Parameters<typeof qualityOf>[0]) => {
   const { text, kind } = qualityOf(b);
   return { text, kind };
@@ -172,7 +172,7 @@ function charts(actor: Actor) {
  * next one, with the batches' quality verdicts; treasurers the month's billing; admins pending invitations and recent changes. The
  * reads run in parallel: the tanks and the price in force (their domains' own reads), every other
  * card figure in one statement (overviewCards), and for brewers the chemical stock and the batches'
- * quality verdicts (judged by lib/batches qualityOf from columns the cards statement reads); the
+ * quality verdicts (judged by lib/brewing qualityOf from columns the cards statement reads); the
  * figures on cards are read fresh on every request, chart series are SQL aggregates (months in
  * the co-op's time zone), never rows loaded into JavaScript, kept per process for a minute.
  * Reads only: nothing is written.

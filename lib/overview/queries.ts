@@ -98,7 +98,7 @@ export function topOwing(coopId: number): Promise<OwingRow[]> {
   );
 }
 
-/** What a batch's verdict is judged from (lib/batches qualityOf). */
+/** What a batch's verdict is judged from (lib/brewing qualityOf). */
 type VerdictColumns = Pick<InferAttributes<Batch>, 'qualityStandard' | 'labResults'>;
 
 /** The overview's cards in one row: my figures always, each role section only when asked for (else null). */

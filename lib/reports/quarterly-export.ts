@@ -2,7 +2,7 @@ import 'server-only';
 import { csvRows } from '@/lib/csv';
 import { formatCents } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
-import { formatRate, perGallonToPerUnit } from '@/lib/pricing-policy/convert';
+import { formatRate, perGallonToPerUnit } from '@/lib/tank/pricing-policy/convert';
 import { formatVolume, volumeFromLiters, volumeLabel } from '@/lib/units';
 import { VOLUME_COLUMNS, type QuarterlyReport, type VolumeRow } from './quarterly';
 

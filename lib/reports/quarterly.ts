@@ -2,7 +2,7 @@ import 'server-only';
 import type { z } from 'zod';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
-import { policyInForce } from '@/lib/pricing-policy';
+import { policyInForce } from '@/lib/tank/pricing-policy';
 import type { quarterQuerySchema } from '@/lib/validation/reports';
 import { quarterMonths } from './queries';
 

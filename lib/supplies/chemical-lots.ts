@@ -11,7 +11,7 @@ import { gallonsToLiters, lbToKg } from '@/lib/units';
 import type { ChemicalLotCreateInput } from '@/lib/validation/brewing';
 import type { Paged } from '@/lib/validation/list';
 import { ChemicalLot } from '@/models';
-import type { CheckedUpload } from '@/lib/batches/upload';
+import type { CheckedUpload } from '@/lib/storage/upload';
 import { checkLowStock } from './low-stock';
 
 // Chemical lots: methanol and catalyst purchases, with their safety data sheets. Oil lots are in ./oil-lots.

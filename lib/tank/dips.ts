@@ -6,12 +6,12 @@ import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
-import { expireLapsedReservations } from '@/lib/reservations/expire';
+import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
 import type { dipCreateSchema } from '@/lib/validation/tank';
 import { DipReading } from '@/models';
 import { getTank, lockTank } from './index';
 import { recordMovement } from './ledger';
-import { litersToMl, mlToLiters } from './quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3 } from './volume';
 
 export type DipResult = z.infer<typeof dipResultSchema>;

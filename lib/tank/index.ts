@@ -6,12 +6,12 @@ import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
-import { expireLapsedReservations } from '@/lib/reservations/expire';
+import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { tankCreateSchema, tankUpdateSchema } from '@/lib/validation/tank';
 import { Coop, Tank } from '@/models';
 import { refreshHeld } from './lineage';
-import { litersToMl, mlToLiters } from './quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3, mlToUnitsFloor } from './volume';
 
 // Tanks: the list and one tank as read, creating and changing a tank, and the row lock every

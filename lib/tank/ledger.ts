@@ -3,7 +3,7 @@ import type { Transaction } from 'sequelize';
 import { HttpError } from '@/lib/http';
 import { Tank, TankMovement } from '@/models';
 import { defaultSource, planLineage, writeLineage, type BatchShare, type LineageSource } from './lineage';
-import { litersToMl, mlToLiters } from './quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import type { TankMovementKind as MovementKind } from '@/models/TankMovement';
 
 export type { TankMovementKind as MovementKind } from '@/models/TankMovement';

@@ -1,5 +1,5 @@
 // Pure lineage arithmetic (no I/O): how a tank's batch layers change when fuel enters or leaves.
-// Quantities are whole millilitres (lib/tank/quantity), so every share is exact and the shares of
+// Quantities are whole millilitres (lib/units/quantity), so every share is exact and the shares of
 // a movement sum to the movement exactly.
 
 /** 'mixed': every draw takes each batch in proportion; 'fifo': the oldest fuel leaves first. */

@@ -5,7 +5,7 @@ import { BatchReview, MovementBatchShare, Tank, TankLayer } from '@/models';
 import type { TankMixing } from '@/models/Tank';
 import type { TankMovementKind } from '@/models/TankMovement';
 import { addTo, allocateOutflow, allocateProportional, heldMl, sharesOf, takeFrom, type BatchShare, type Layer } from './lineage-math';
-import { litersToMl, mlToLiters } from './quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 
 export type { BatchShare, Layer, MixingModel } from './lineage-math';
 

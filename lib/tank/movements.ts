@@ -7,7 +7,7 @@ import { notFound } from '@/lib/http';
 import type { movementListSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Tank, TankMovement, User } from '@/models';
 import type { MovementKind } from './ledger';
-import { litersToMl } from './quantity';
+import { litersToMl } from '@/lib/units/quantity';
 import { mlToUnits3 } from './volume';
 
 export type MovementDto = z.infer<typeof movementSchema>;

@@ -4,11 +4,11 @@ import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError } from '@/lib/http';
-import { expireLapsedReservations } from '@/lib/reservations/expire';
+import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
 import type { transferCreateSchema } from '@/lib/validation/tank';
 import { getTank, lockTank, type TankDto } from './index';
 import { recordMovement } from './ledger';
-import { litersToMl, mlToLiters } from './quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatMl, milliUnitsToMl, mlToUnitsFloor, roundingCrumbMl } from './volume';
 
 /**

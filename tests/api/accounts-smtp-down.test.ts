@@ -1,6 +1,6 @@
 // "If the SMTP server is down, the invitation is still saved, marked not-sent, and can be resent."
 // Invitations are e-mailed by the job worker. The SMTP catcher serves the whole test run, so the
-// down case is exercised here on the job's own function (lib/invitations/deliver, real PostgreSQL)
+// down case is exercised here on the job's own function (lib/members/invitations/deliver, real PostgreSQL)
 // with its mail transport pointed at a loopback port where nothing listens. The resend then goes
 // through the real server, the real worker and the real catcher.
 import net from 'node:net';
@@ -16,7 +16,7 @@ async function closedPort(): Promise<number> {
 }
 
 describe('invitation while the mail server is down', () => {
-  let deliver: typeof import('@/lib/invitations/deliver');
+  let deliver: typeof import('@/lib/members/invitations/deliver');
   let db: typeof import('@/lib/db');
   beforeAll(async () => {
     process.env.DATABASE_URL = inject('databaseUrl');
@@ -25,7 +25,7 @@ describe('invitation while the mail server is down', () => {
     process.env.SMTP_PORT = String(await closedPort());
     // The link is derived from the claimed Message-ID with the server's secret (lib/auth/tokens).
     process.env.NEXTAUTH_SECRET = (JSON.parse(inject('workerEnv')) as NodeJS.ProcessEnv).NEXTAUTH_SECRET;
-    deliver = await import('@/lib/invitations/deliver');
+    deliver = await import('@/lib/members/invitations/deliver');
     db = await import('@/lib/db');
   });
   afterAll(async () => {

@@ -1,6 +1,6 @@
 // Reservations racing dips: 16 workers reserve (and, when refused, cancel one of their own to
 // keep the tank busy) for RACE_SECONDS while a brewer's dips alternately raise and lower the
-// stock. The guard is on the tank row being updated (lib/reservations/queries), so every
+// stock. The guard is on the tank row being updated (lib/tank/reservations/queries), so every
 // reservation is answered 201 or 409 — never a 5xx from the CHECK reserved ≤ on hand — and at the
 // end the tank agrees with its reservations and its ledger.
 import { beforeAll, describe, expect, it } from 'vitest';

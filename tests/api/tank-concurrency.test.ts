@@ -1,7 +1,7 @@
 // Nobody can reserve more than is available, even when everyone reserves at once: 200
 // reservation requests of mixed sizes, all in flight together from several signed-in members,
 // against a tank with exactly 100 gal available. The guard is a single conditional UPDATE in
-// the database (lib/reservations), so the accepted total can never exceed 100 gal.
+// the database (lib/tank/reservations), so the accepted total can never exceed 100 gal.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
 import { prng } from '../support/prng';

@@ -5,15 +5,15 @@
 import { describe, expect, expectTypeOf, it } from 'vitest';
 import { openApiDocument } from '@/lib/api/document';
 import type { paths } from '@/lib/api/client';
-import type { DrawDto } from '@/lib/draws';
+import type { DrawDto } from '@/lib/tank/draws';
 import type { InvoiceDetail, PaymentDTO } from '@/lib/billing/types';
 import type { PeriodOverview } from '@/lib/billing/invoices';
 import type { MemberDto } from '@/lib/members';
 import type { TankDto } from '@/lib/tank';
 import type { ProfileDto } from '@/lib/account';
 import type { AuditEventDto } from '@/lib/audit/types';
-import type { BatchDto, BatchSummaryDto, TemperatureDto } from '@/lib/batches/read';
-import type { PlannerResult } from '@/lib/batches/planner';
+import type { BatchDto, BatchSummaryDto, TemperatureDto } from '@/lib/brewing/read';
+import type { PlannerResult } from '@/lib/brewing/planner';
 import type { Reconciliation } from '@/lib/billing/reconciliation';
 import type { CoopSettingsDto } from '@/lib/coops/settings-types';
 import type { Overview } from '@/lib/overview/types';

@@ -1,8 +1,8 @@
-// The batch plan (lib/batches/plan.ts) and the brewing schemas (lib/validation/brewing.ts):
+// The batch plan (lib/brewing/plan.ts) and the brewing schemas (lib/validation/brewing.ts):
 // defaults, the titrant conversion and field-named errors. Expected values from
 // /work/shared/REFERENCES.md, source named beside each check.
 import { describe, expect, it } from 'vitest';
-import { computePlan } from '@/lib/batches/plan';
+import { computePlan } from '@/lib/brewing/plan';
 import { HttpError } from '@/lib/http';
 import { batchCreateSchema, chemicalLotCreateSchema, moneyCents, num, temperatureCreateSchema } from '@/lib/validation/brewing';
 

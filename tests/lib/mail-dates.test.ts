@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { formatExpiry } from '@/lib/account/format';
-import { invitationMail } from '@/lib/invitations/deliver';
+import { invitationMail } from '@/lib/members/invitations/deliver';
 
 // 2026-03-01 20:30 UTC is already Mar 2, 05:30 in Tokyo (UTC+9, no DST; IANA tz database).
 const AT = new Date('2026-03-01T20:30:00Z');

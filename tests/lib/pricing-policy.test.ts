@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { perGallonToPerUnit, perUnitToPerGallonText, policyInUnits, priceDraw, describePolicy, type PolicyRow } from '@/lib/pricing-policy/convert';
+import { perGallonToPerUnit, perUnitToPerGallonText, policyInUnits, priceDraw, describePolicy, type PolicyRow } from '@/lib/tank/pricing-policy/convert';
 
 // Hand-computed examples. Money rounding: lib/money roundHalfUp (half away from zero), per line.
 // US gallon = 3.785411784 L (NIST Handbook 44). Road tax 24.4 ¢/gal: US federal diesel rate (IRS Publication 510).

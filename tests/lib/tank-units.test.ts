@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { milliUnitsToMl, mlToUnits, mlToUnitsFloor, formatMl, roundingCrumbMl } from '@/lib/tank/volume';
-import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { zonedToUtc } from '@/lib/dates';
-import { reservationWindow, parseWindowEdge } from '@/lib/reservations/window';
+import { reservationWindow, parseWindowEdge } from '@/lib/tank/reservations/window';
 import { drawQuantityMilli, drawCreateSchema, quantitySchema, reservationCreateSchema } from '@/lib/validation/tank';
 
 // US gallon = 3.785411784 L exactly (NIST Handbook 44), so 1 gal = 3785.411784 mL.

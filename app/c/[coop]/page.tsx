@@ -6,7 +6,7 @@ import { TankLevelCard } from '@/components/overview/tank-level-card';
 import { VolumeCharts } from '@/components/overview/volume-charts';
 import { Card, EmptyState } from '@/components/ui/notice';
 import { can, requirePageActor } from '@/lib/auth';
-import { unacknowledgedDangers } from '@/lib/batches';
+import { unacknowledgedDangers } from '@/lib/brewing';
 import { DangerBanner } from '@/components/brewing/danger-banner';
 import { QualityBadge } from '@/components/brewing/badges';
 import { formatCents, formatRateCents } from '@/lib/money';

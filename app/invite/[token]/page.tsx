@@ -6,7 +6,7 @@ import { SignInForm } from '@/components/auth/sign-in-form';
 import { Notice } from '@/components/ui/notice';
 import { getSessionUser } from '@/lib/auth';
 import { withArticle } from '@/lib/auth/roles';
-import { INVITATION_MESSAGES, lookupInvitation } from '@/lib/invitations';
+import { INVITATION_MESSAGES, lookupInvitation } from '@/lib/members/invitations';
 
 export const metadata: Metadata = { title: 'Invitation', referrer: 'no-referrer' };
 export const dynamic = 'force-dynamic';

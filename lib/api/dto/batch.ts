@@ -4,7 +4,7 @@ import { date, day, int, num, str } from './common';
 import { computedPlanSchema } from './brewing';
 
 // One batch as the API sends it (the full record for brewers and admins, a released batch's
-// summary for others) and a temperature reading; lib/batches' BatchDto, BatchSummaryDto and
+// summary for others) and a temperature reading; lib/brewing' BatchDto, BatchSummaryDto and
 // TemperatureDto are inferred from these (one definition).
 
 const catalyst = z.enum(['KOH', 'NaOH']);

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { day, int, num, str, units } from './common';
 
-// Supplies and the batch list as the API sends them; lib/supplies' and lib/batches' DTO types
+// Supplies and the batch list as the API sends them; lib/supplies' and lib/brewing' DTO types
 // are inferred from these (one definition).
 
 export const chemicalLotSchema = z
@@ -78,7 +78,7 @@ export const batchRowSchema = z
 
 const catalyst = z.enum(['KOH', 'NaOH']);
 
-/** A computed plan: every figure with where its inputs came from (lib/batches/plan.ts's ComputedPlan is inferred from it). */
+/** A computed plan: every figure with where its inputs came from (lib/brewing/plan.ts's ComputedPlan is inferred from it). */
 export const computedPlanSchema = z
   .object({
     oilLiters: num(),
@@ -142,7 +142,7 @@ export const chemicalCoverageSchema = z
   })
   .meta({ id: 'ChemicalCoverage' });
 
-/** The planner's answer: the chemistry, the stock check and the projected costs (lib/batches/planner.ts's PlannerResult). */
+/** The planner's answer: the chemistry, the stock check and the projected costs (lib/brewing/planner.ts's PlannerResult). */
 export const plannerResultSchema = z
   .object({
     units,

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { ROLES } from '@/models/vocabulary';
 import { date, int, str } from './common';
 
-// Members, invitations and access tokens as the API sends them; lib/members', lib/invitations'
+// Members, invitations and access tokens as the API sends them; lib/members', lib/members/invitations'
 // and lib/api-tokens' DTO types are inferred from these (one definition).
 
 export const role = z.enum(ROLES);

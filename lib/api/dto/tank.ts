@@ -3,7 +3,7 @@ import { DECLARED_USES } from '@/models/vocabulary';
 import { date, int, num, str, units } from './common';
 
 // The tank, pricing, reservations and draws as the API sends them. The services' DTO types
-// (lib/tank, lib/reservations, lib/draws, lib/pricing-policy) are inferred from these: one
+// (lib/tank, lib/tank/reservations, lib/tank/draws, lib/tank/pricing-policy) are inferred from these: one
 // definition, so the contract, the server and the typed client cannot drift apart.
 
 export const tankSchema = z

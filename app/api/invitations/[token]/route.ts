@@ -1,6 +1,6 @@
 import { getSessionUser } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
-import { acceptInvitation, invitationError, lookupInvitation } from '@/lib/invitations';
+import { acceptInvitation, invitationError, lookupInvitation } from '@/lib/members/invitations';
 import { invitationAcceptSchema } from '@/lib/validation/auth';
 
 export const dynamic = 'force-dynamic';

@@ -4,7 +4,7 @@ import { BatchTable } from '@/components/brewing/batch-table';
 import { STATUS_LABELS } from '@/components/brewing/format';
 import { EmptyState } from '@/components/ui/notice';
 import { can, requirePageActor } from '@/lib/auth';
-import { listBatches } from '@/lib/batches';
+import { listBatches } from '@/lib/brewing';
 import { SCREENING_CAUTION } from '@/lib/quality';
 import { batchListSchema } from '@/lib/validation/brewing';
 

@@ -9,7 +9,7 @@ import { SelectField, TextField } from '@/components/ui/field';
 import { Card, Notice } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { ROLES } from '@/lib/auth/roles';
-import { listPendingInvitations } from '@/lib/invitations';
+import { listPendingInvitations } from '@/lib/members/invitations';
 import { listMembers } from '@/lib/members';
 import { memberListQuerySchema } from '@/lib/validation/members';
 import { formatDate, formatWhen } from '@/lib/dates';

@@ -1,5 +1,5 @@
 import type { Metadata } from 'next';
-import { formatRate, perGallonToPerUnit } from '@/lib/pricing-policy/convert';
+import { formatRate, perGallonToPerUnit } from '@/lib/tank/pricing-policy/convert';
 import { BarChartCard } from '@/components/charts/bar-chart-card';
 import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';

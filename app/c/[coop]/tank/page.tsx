@@ -6,7 +6,7 @@ import { LiveTanks } from '@/components/tank/live-tanks';
 import { TankSettingsForm } from '@/components/tank/tank-settings-form';
 import { TransferForm } from '@/components/tank/transfer-form';
 import { can, requirePageActor } from '@/lib/auth';
-import { getCurrentPolicy } from '@/lib/pricing-policy';
+import { getCurrentPolicy } from '@/lib/tank/pricing-policy';
 import { listTanks } from '@/lib/tank';
 import { listMovements } from '@/lib/tank/movements';
 import { movementListSchema } from '@/lib/validation/tank';

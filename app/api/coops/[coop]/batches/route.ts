@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { createBatch, listBatches } from '@/lib/batches';
+import { createBatch, listBatches } from '@/lib/brewing';
 import { handler, parseBody, parseQuery } from '@/lib/http';
 import { batchCreateSchema, batchListSchema } from '@/lib/validation/brewing';
 

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { listDraws } from '@/lib/draws';
-import { drawRecorderScope, recordDraw } from '@/lib/draws/record';
+import { listDraws } from '@/lib/tank/draws';
+import { drawRecorderScope, recordDraw } from '@/lib/tank/draws/record';
 import { handler, parseBody, parseQuery } from '@/lib/http';
 import { drawCreateSchema, drawListSchema } from '@/lib/validation/tank';
 

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
-import { createInvitation, listPendingInvitations } from '@/lib/invitations';
+import { createInvitation, listPendingInvitations } from '@/lib/members/invitations';
 import { invitationCreateSchema } from '@/lib/validation/auth';
 
 export const dynamic = 'force-dynamic';

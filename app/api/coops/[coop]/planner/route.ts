@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { planBatch } from '@/lib/batches';
+import { planBatch } from '@/lib/brewing';
 import { handler, parseBody } from '@/lib/http';
 import { plannerSchema } from '@/lib/validation/brewing';
 

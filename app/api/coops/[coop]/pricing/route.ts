@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody } from '@/lib/http';
-import { createPolicy, listPolicies } from '@/lib/pricing-policy';
+import { createPolicy, listPolicies } from '@/lib/tank/pricing-policy';
 import { pricingPolicyCreateSchema } from '@/lib/validation/tank';
 
 export const dynamic = 'force-dynamic';

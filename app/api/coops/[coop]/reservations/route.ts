@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler, parseBody, parseQuery } from '@/lib/http';
-import { createReservation, listReservations } from '@/lib/reservations';
+import { createReservation, listReservations } from '@/lib/tank/reservations';
 import { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
 
 export const dynamic = 'force-dynamic';

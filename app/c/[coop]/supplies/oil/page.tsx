@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
-import { OilLotForm } from '@/components/brewing/supply-forms';
-import { OilTable } from '@/components/brewing/supply-tables';
-import { SuppliesNav } from '@/components/brewing/supplies-nav';
+import { OilLotForm } from '@/components/supplies/supply-forms';
+import { OilTable } from '@/components/supplies/supply-tables';
+import { SuppliesNav } from '@/components/supplies/supplies-nav';
 import { Card } from '@/components/ui/notice';
 import { can, requirePageActor } from '@/lib/auth';
 import { listOilLots } from '@/lib/supplies/oil-lots';

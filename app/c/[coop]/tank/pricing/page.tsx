@@ -3,7 +3,7 @@ import { Card, Notice } from '@/components/ui/notice';
 import { PricingForm } from '@/components/tank/pricing-form';
 import { PricingHistoryTable } from '@/components/tank/pricing-history-table';
 import { can, requirePageActor } from '@/lib/auth';
-import { listPolicies } from '@/lib/pricing-policy';
+import { listPolicies } from '@/lib/tank/pricing-policy';
 import { listTanks } from '@/lib/tank';
 import { volumeLabel } from '@/lib/units';
 

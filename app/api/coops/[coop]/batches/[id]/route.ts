@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { getBatch, updateBatch } from '@/lib/batches';
+import { getBatch, updateBatch } from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchUpdateSchema } from '@/lib/validation/brewing';

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler } from '@/lib/http';
-import { revokeInvitation } from '@/lib/invitations';
+import { revokeInvitation } from '@/lib/members/invitations';
 import { idParam } from '@/lib/validation/id-param';
 
 export const dynamic = 'force-dynamic';

@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { advanceBatch } from '@/lib/batches';
+import { advanceBatch } from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchAdvanceSchema } from '@/lib/validation/brewing';

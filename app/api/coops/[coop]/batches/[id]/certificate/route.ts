@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { batchCertificate } from '@/lib/batches';
+import { batchCertificate } from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 import { pdfResponse } from '@/lib/pdf';

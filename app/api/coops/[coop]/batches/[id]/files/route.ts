@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { addBatchFile, BATCH_FILE_KINDS, readUpload } from '@/lib/batches';
+import { addBatchFile, BATCH_FILE_KINDS } from '@/lib/brewing';
+import { readUpload } from '@/lib/storage/upload';
 import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 

@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { rejectBatch } from '@/lib/batches';
+import { rejectBatch } from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchRejectSchema } from '@/lib/validation/brewing';

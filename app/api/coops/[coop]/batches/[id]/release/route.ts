@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { releaseBatch } from '@/lib/batches';
+import { releaseBatch } from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { batchReleaseSchema } from '@/lib/validation/brewing';

@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { addTemperature } from '@/lib/batches';
+import { addTemperature } from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { handler, parseBody } from '@/lib/http';
 import { temperatureCreateSchema } from '@/lib/validation/brewing';

@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { reverseDraw } from '@/lib/draws/reverse';
+import { reverseDraw } from '@/lib/tank/draws/reverse';
 import { handler, parseBody } from '@/lib/http';
 import { idParam } from '@/lib/validation/id-param';
 import { drawReverseSchema } from '@/lib/validation/tank';

@@ -1,6 +1,6 @@
 import { requireMember } from '@/lib/auth';
 import { handler } from '@/lib/http';
-import { resendInvitation } from '@/lib/invitations';
+import { resendInvitation } from '@/lib/members/invitations';
 import { idParam } from '@/lib/validation/id-param';
 
 export const dynamic = 'force-dynamic';

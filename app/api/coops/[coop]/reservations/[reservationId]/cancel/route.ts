@@ -1,7 +1,7 @@
 import { requireMember } from '@/lib/auth';
 import { handler } from '@/lib/http';
 import { idParam } from '@/lib/validation/id-param';
-import { cancelReservation } from '@/lib/reservations';
+import { cancelReservation } from '@/lib/tank/reservations';
 
 export const dynamic = 'force-dynamic';
 

@@ -1,5 +1,6 @@
 import { requireMember } from '@/lib/auth';
-import { fileResponse, getBatchFile } from '@/lib/batches';
+import { getBatchFile } from '@/lib/brewing';
+import { fileResponse } from '@/lib/storage/upload';
 import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 

@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { acknowledgeDanger } from '@/lib/batches';
+import { acknowledgeDanger } from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 

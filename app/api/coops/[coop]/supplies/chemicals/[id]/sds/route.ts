@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { fileResponse, readUpload } from '@/lib/batches';
+import { fileResponse, readUpload } from '@/lib/storage/upload';
 import { idParam } from '@/lib/validation/id-param';
 import { handler } from '@/lib/http';
 import { attachSafetyDataSheet, getSafetyDataSheet } from '@/lib/supplies/chemical-lots';

@@ -3,7 +3,7 @@ import { Op, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { HttpError } from '@/lib/http';
 import { getOilLot } from '@/lib/supplies/oil-lots';
-import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { BatchOilLot, ChemicalLot } from '@/models';
 import type { Catalyst, ComputedPlan, PlanInput } from './plan';
 

@@ -9,7 +9,7 @@ import { energyCostCents } from '@/lib/costing';
 import { notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
 import { evaluateQuality, evaluateQuickTests, type QuickTestInput, type QualityResults } from '@/lib/quality';
-import { litersToMl } from '@/lib/tank/quantity';
+import { litersToMl } from '@/lib/units/quantity';
 import { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot, Tank } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
 import { computePlan, type Catalyst, type PlanInput } from './plan';

@@ -11,6 +11,5 @@ export { addBatchFile, getBatchFile, BATCH_FILE_KINDS } from './files';
 export { batchCertificate } from './certificate';
 export { qualityOf, type BatchQuality } from './verdicts';
 export { unacknowledgedDangers, acknowledgeDanger, type DangerAlert } from './danger';
-export { readUpload, fileResponse, type CheckedUpload } from './upload';
 export type { ComputedPlan } from './plan';
 

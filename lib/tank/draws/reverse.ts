@@ -8,7 +8,7 @@ import { conflict, notFound } from '@/lib/http';
 import { lockTank } from '@/lib/tank';
 import { recordMovement } from '@/lib/tank/ledger';
 import { drawShares, type LineageSource } from '@/lib/tank/lineage';
-import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import type { drawReverseSchema } from '@/lib/validation/tank';
 import { Draw } from '@/models';
 import { getDraw, type DrawDto } from './index';

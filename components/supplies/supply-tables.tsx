@@ -5,8 +5,8 @@ import { DataTable, type DataColumn, type Features, type PageInfo } from '@/comp
 import type { ChemicalLotDto } from '@/lib/supplies/chemical-lots';
 import type { OilLotDto } from '@/lib/supplies/oil-lots';
 import type { UnitSystem } from '@/lib/units';
-import { dateText, grams, money, vol } from './format';
-import { UploadForm } from './upload-form';
+import { dateText, grams, money, vol } from '@/components/brewing/format';
+import { UploadForm } from '@/components/brewing/upload-form';
 
 /** The chemical-lot fields the table shows (lib/supplies' DTO). */
 export type ChemicalRow = Pick<

@@ -6,7 +6,7 @@ import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, type FifoLotByTotal } from '@/lib/costing';
 import { conflict, HttpError } from '@/lib/http';
 import { recordMovement } from '@/lib/tank/ledger';
-import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatVolume, litersToGallons, volumeToLiters } from '@/lib/units';
 import { inTransaction } from '@/lib/db';
 import { Batch, ChemicalConsumption, ChemicalLot, Tank } from '@/models';

@@ -1,6 +1,6 @@
 import 'server-only';
 import { fn, Op, type Transaction } from 'sequelize';
-import { litersToMl } from '@/lib/tank/quantity';
+import { litersToMl } from '@/lib/units/quantity';
 import { AuditEvent, Reservation, Tank } from '@/models';
 
 /**

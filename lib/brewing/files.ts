@@ -6,7 +6,7 @@ import { deleteFile, openFile, putFile, type StoredFile, type StoredKind } from 
 import { inTransaction } from '@/lib/db';
 import { BatchFile } from '@/models';
 import { loadBatch } from './read';
-import type { CheckedUpload } from './upload';
+import type { CheckedUpload } from '@/lib/storage/upload';
 
 /** Kinds a batch accepts (checked from content): photos as JPEG/PNG, lab reports also as PDF. */
 export const BATCH_FILE_KINDS: readonly StoredKind[] = ['pdf', 'jpeg', 'png'];

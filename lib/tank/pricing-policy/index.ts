@@ -6,7 +6,7 @@ import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { HttpError } from '@/lib/http';
-import { parseInstant } from '@/lib/reservations/window';
+import { parseInstant } from '@/lib/tank/reservations/window';
 import type { UnitSystem } from '@/lib/units';
 import type { pricingPolicyCreateSchema } from '@/lib/validation/tank';
 import { PricePolicy, User } from '@/models';
@@ -22,7 +22,7 @@ type PolicyListRow = Pick<InferAttributes<PricePolicy>,
 
 const POLICY_ATTRIBUTES = ['id', 'kind', 'priceCentsPerGallon', 'marginCentsPerGallon', 'marginPct', 'surchargeCentsPerGallon', 'roadTaxCentsPerGallon', 'effectiveFrom', 'createdAt'] as const;
 
-/** The stored rates in the shape lib/pricing-policy/convert reads (cents per US gallon). */
+/** The stored rates in the shape lib/tank/pricing-policy/convert reads (cents per US gallon). */
 function policyRow(r: Pick<InferAttributes<PricePolicy>, 'kind' | 'priceCentsPerGallon' | 'marginCentsPerGallon' | 'marginPct' | 'surchargeCentsPerGallon' | 'roadTaxCentsPerGallon'>): PolicyRow {
   return {
     kind: r.kind, price_cents_per_gallon: r.priceCentsPerGallon, margin_cents_per_gallon: r.marginCentsPerGallon, margin_pct: r.marginPct,

@@ -6,7 +6,7 @@ import { audit } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
-import { litersToMl, mlToLiters } from '@/lib/tank/quantity';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
 import type { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Reservation, Tank, User } from '@/models';
@@ -36,7 +36,7 @@ function notEnough(actor: Actor, tankName: string, requestedMl: number, availabl
 /**
  * Reserves fuel for the signed-in member (never for anyone else: the body has no member field).
  * The tank can never be oversold: the quantity is added to the tank's reserved total by one
- * guarded UPDATE (lib/reservations/queries) that succeeds only while on hand − reserved still
+ * guarded UPDATE (lib/tank/reservations/queries) that succeeds only while on hand − reserved still
  * covers it, judged on the row being updated; its row lock makes concurrent reservations of the
  * same tank take turns, each seeing the one before, so two members cannot both take the last
  * gallons. When the guard refuses, the tank is read under its lock: a request over by no more

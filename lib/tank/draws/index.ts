@@ -4,9 +4,9 @@ import { col, fn, Op, type InferAttributes, type WhereOptions } from 'sequelize'
 import type { z } from 'zod';
 import { can, type Actor } from '@/lib/auth';
 import { notFound } from '@/lib/http';
-import { parseWindowEdge } from '@/lib/reservations/window';
+import { parseWindowEdge } from '@/lib/tank/reservations/window';
 import { drawBatches } from '@/lib/lineage/read';
-import { litersToMl } from '@/lib/tank/quantity';
+import { litersToMl } from '@/lib/units/quantity';
 import { mlToUnits3 } from '@/lib/tank/volume';
 import type { drawListSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Tank, User } from '@/models';
