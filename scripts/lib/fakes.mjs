@@ -65,7 +65,15 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
   }
   await new Promise((resolve, reject) => {
     smtp.once('error', reject);
-    smtp.listen(smtpPort, '127.0.0.1', resolve);
+    smtp.listen(smtpPort, '127.0.0.1', () => {
+      smtp.off('error', reject);
+      resolve();
+    });
+  });
+  // A client that drops its connection (a worker killed mid-message, a pool closing) is that
+  // connection's problem, not the catcher's: without a listener it would end the whole process.
+  smtp.on('error', (err) => {
+    if (err?.code !== 'ECONNRESET' && err?.code !== 'EPIPE') log(`[smtp] ${err?.message ?? err}`);
   });
 
   const esc = (s) => String(s).replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
