@@ -2,6 +2,7 @@
 // `npm run lint` allows no warnings; .ci/run runs it and the type check before the tests.
 import nextVitals from 'eslint-config-next/core-web-vitals';
 import nextTs from 'eslint-config-next/typescript';
+import prettier from 'eslint-config-prettier/flat';
 
 const config = [
   ...nextVitals,
@@ -9,7 +10,10 @@ const config = [
   {
     rules: {
       // A leading underscore marks a value left out on purpose (`const { a: _a, ...rest } = x`).
-      '@typescript-eslint/no-unused-vars': ['warn', { argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_' }],
+      '@typescript-eslint/no-unused-vars': [
+        'warn',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_' },
+      ],
       // After signing in, joining or creating a co-op we load the next page in full on purpose, so
       // every server component and the navigation read the new session from the first paint.
       '@next/next/no-location-assign-relative-destination': 'off',
@@ -19,7 +23,20 @@ const config = [
   { files: ['tests/**'], rules: { '@typescript-eslint/no-explicit-any': 'off' } },
   // CommonJS files (sequelize-cli migrations and seeders, a few scripts) use require().
   { files: ['**/*.cjs'], rules: { '@typescript-eslint/no-require-imports': 'off' } },
-  { ignores: ['.next/**', '.data/**', 'node_modules/**', 'coverage/**', 'tests/output/**', 'bench/output/**', 'next-env.d.ts', 'lib/api/client/types.ts'] },
+  // Layout is Prettier's (print width 120); `npm run lint` checks it after ESLint.
+  prettier,
+  {
+    ignores: [
+      '.next/**',
+      '.data/**',
+      'node_modules/**',
+      'coverage/**',
+      'tests/output/**',
+      'bench/output/**',
+      'next-env.d.ts',
+      'lib/api/client/types.ts',
+    ],
+  },
 ];
 
 export default config;

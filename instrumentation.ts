@@ -27,5 +27,15 @@ export const onRequestError: Instrumentation.onRequestError = async (error, requ
   const [{ log }, outage] = await Promise.all([import('@/lib/log'), import('@/lib/db-outage')]);
   if (outage.isDatabaseUnavailable(error)) return outage.noteDatabaseUnavailable(error);
   const digest = (error as { digest?: string }).digest;
-  log.error({ digest, method: request.method, route: request.path, routePath: context.routePath, routeType: context.routeType, err: error }, 'page error');
+  log.error(
+    {
+      digest,
+      method: request.method,
+      route: request.path,
+      routePath: context.routePath,
+      routeType: context.routeType,
+      err: error,
+    },
+    'page error',
+  );
 };

@@ -7,17 +7,32 @@ const COMMON_HEADERS = [
   { key: 'X-Frame-Options', value: 'DENY' },
   { key: 'X-Content-Type-Options', value: 'nosniff' },
   { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
-  { key: 'Permissions-Policy', value: 'camera=(), microphone=(), geolocation=(), payment=(), usb=(), serial=(), hid=(), midi=()' },
+  {
+    key: 'Permissions-Policy',
+    value: 'camera=(), microphone=(), geolocation=(), payment=(), usb=(), serial=(), hid=(), midi=()',
+  },
   { key: 'Cross-Origin-Opener-Policy', value: 'same-origin' },
 ];
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
   // Database and PDF libraries run only on the server and are loaded from node_modules as-is.
-  serverExternalPackages: ['sequelize', 'pg', 'pg-hstore', 'pdfkit', 'fontkit', 'nodemailer', 'stripe', 'pg-boss', '@aws-sdk/client-s3'],
+  serverExternalPackages: [
+    'sequelize',
+    'pg',
+    'pg-hstore',
+    'pdfkit',
+    'fontkit',
+    'nodemailer',
+    'stripe',
+    'pg-boss',
+    '@aws-sdk/client-s3',
+  ],
   // The container image (Dockerfile) builds with NEXT_OUTPUT=standalone: a self-contained server
   // with only the files it traces. `npm start` and the tests keep the ordinary build and `next start`.
-  ...(process.env.NEXT_OUTPUT === 'standalone' ? { output: 'standalone', outputFileTracingIncludes: { '/**': ['./fonts/**'] } } : {}),
+  ...(process.env.NEXT_OUTPUT === 'standalone'
+    ? { output: 'standalone', outputFileTracingIncludes: { '/**': ['./fonts/**'] } }
+    : {}),
   poweredByHeader: false,
   typedRoutes: false,
   experimental: {

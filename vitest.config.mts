@@ -1,7 +1,10 @@
 import { defineConfig } from 'vitest/config';
 import path from 'node:path';
 
-const alias = { '@': path.resolve(import.meta.dirname), 'server-only': path.resolve(import.meta.dirname, 'tests/support/server-only-stub.ts') };
+const alias = {
+  '@': path.resolve(import.meta.dirname),
+  'server-only': path.resolve(import.meta.dirname, 'tests/support/server-only-stub.ts'),
+};
 
 /**
  * Two projects:
@@ -22,7 +25,12 @@ export default defineConfig({
         resolve: { alias },
         test: {
           name: 'integration',
-          include: ['tests/api/**/*.test.ts', 'tests/integration/**/*.test.ts', 'tests/e2e/**/*.test.ts', 'tests/security/**/*.test.ts'],
+          include: [
+            'tests/api/**/*.test.ts',
+            'tests/integration/**/*.test.ts',
+            'tests/e2e/**/*.test.ts',
+            'tests/security/**/*.test.ts',
+          ],
           environment: 'node',
           globalSetup: ['tests/support/global-setup.ts'],
           fileParallelism: false,

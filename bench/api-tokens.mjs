@@ -12,9 +12,16 @@ try {
   stack = await startStack({ name: 'api-tokens', log });
   const { pool, baseUrl: base } = stack;
   const coop = await makeCoop(pool, 'tokens-bench');
-  await pool.query(`INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents) VALUES ($1, 'A', 4000, 1000, 90000), ($1, 'B', 4000, 0, 0)`, [coop.coopId]);
+  await pool.query(
+    `INSERT INTO tanks (coop_id, name, capacity_liters, on_hand_liters, value_cents) VALUES ($1, 'A', 4000, 1000, 90000), ($1, 'B', 4000, 0, 0)`,
+    [coop.coopId],
+  );
   const cookie = await signInCookie(base, coop.people.admin.email);
-  const created = await fetch(`${base}/api/coops/${coop.slug}/tokens`, { method: 'POST', headers: { cookie, origin: base, 'content-type': 'application/json' }, body: JSON.stringify({ name: 'bench', access: 'read' }) });
+  const created = await fetch(`${base}/api/coops/${coop.slug}/tokens`, {
+    method: 'POST',
+    headers: { cookie, origin: base, 'content-type': 'application/json' },
+    body: JSON.stringify({ name: 'bench', access: 'read' }),
+  });
   const { secret } = await created.json();
   if (!secret) throw new Error(`token not created: ${created.status}`);
   const tanks = `${base}/api/coops/${coop.slug}/tanks`;
@@ -22,9 +29,27 @@ try {
   for (let round = 1; round <= 2; round++) {
     const health = report(`round ${round} /api/health`, await load({ url: `${base}/api/health`, duration: DURATION }));
     rows.push(health);
-    rows.push(report(`round ${round} tanks (session cookie)`, await load({ url: tanks, duration: DURATION, headers: { cookie } }), health));
-    rows.push(report(`round ${round} tanks (bearer token)`, await load({ url: tanks, duration: DURATION, headers: { authorization: `Bearer ${secret}` } }), health));
-    rows.push(report(`round ${round} /api/openapi.json`, await load({ url: `${base}/api/openapi.json`, duration: DURATION }), health));
+    rows.push(
+      report(
+        `round ${round} tanks (session cookie)`,
+        await load({ url: tanks, duration: DURATION, headers: { cookie } }),
+        health,
+      ),
+    );
+    rows.push(
+      report(
+        `round ${round} tanks (bearer token)`,
+        await load({ url: tanks, duration: DURATION, headers: { authorization: `Bearer ${secret}` } }),
+        health,
+      ),
+    );
+    rows.push(
+      report(
+        `round ${round} /api/openapi.json`,
+        await load({ url: `${base}/api/openapi.json`, duration: DURATION }),
+        health,
+      ),
+    );
   }
   const bytes = (await (await fetch(`${base}/api/openapi.json`)).text()).length;
   log(`/api/openapi.json is ${Math.round(bytes / 1024)} kB`);

@@ -34,7 +34,12 @@ fs.mkdirSync(root, { recursive: true });
 process.env.NEXT_TELEMETRY_DISABLED = '1';
 buildIfNeeded({ log });
 
-const db = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'tallyvat_bench', log: () => {} });
+const db = await startEmbeddedPg({
+  dataDir: path.join(root, 'pg'),
+  port: await freePort(),
+  dbName: 'tallyvat_bench',
+  log: () => {},
+});
 const stops = [db.stop];
 const stopAll = async () => {
   for (const s of stops.reverse()) await s();
@@ -58,7 +63,11 @@ try {
   }
 
   // Last month in Chicago, the co-op's time zone.
-  const now = new Intl.DateTimeFormat('en-CA', { timeZone: 'America/Chicago', year: 'numeric', month: '2-digit' }).format(new Date());
+  const now = new Intl.DateTimeFormat('en-CA', {
+    timeZone: 'America/Chicago',
+    year: 'numeric',
+    month: '2-digit',
+  }).format(new Date());
   const [y, m] = now.split('-').map(Number);
   const d = new Date(Date.UTC(y, m - 2, 1));
   const period = `${d.getUTCFullYear()}-${String(d.getUTCMonth() + 1).padStart(2, '0')}`;
@@ -66,12 +75,34 @@ try {
   log(`loading ${MEMBERS} members × ${DRAWS} draws in ${period}…`);
   let t = Date.now();
   const hash = await bcrypt.hash(PASSWORD, 10);
-  const { rows: [coop] } = await q(`INSERT INTO coops (name, slug, settings) VALUES ('Bench Fuel Co-op', 'bench-coop', '{"monthlyDuesCents": 1500}') RETURNING id`);
-  const { rows: [tre] } = await q(`INSERT INTO users (email, name, password_hash) VALUES ('treasurer@bench.example.org', 'Bench Treasurer', $1) RETURNING id`, [hash]);
-  await q(`INSERT INTO memberships (coop_id, user_id, role, joined_at) VALUES ($1, $2, 'treasurer', '2020-01-01')`, [coop.id, tre.id]);
-  await q(`INSERT INTO users (email, name, password_hash) SELECT 'member' || g || '@bench.example.org', 'Member ' || lpad(g::text, 5, '0'), NULL FROM generate_series(1, $1) g`, [MEMBERS]);
-  await q(`INSERT INTO memberships (coop_id, user_id, role, joined_at) SELECT $1, id, 'member', '2020-01-01' FROM users WHERE email LIKE 'member%@bench.example.org'`, [coop.id]);
-  const { rows: [tank] } = await q(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Bench tank', 100000) RETURNING id`, [coop.id]);
+  const {
+    rows: [coop],
+  } = await q(
+    `INSERT INTO coops (name, slug, settings) VALUES ('Bench Fuel Co-op', 'bench-coop', '{"monthlyDuesCents": 1500}') RETURNING id`,
+  );
+  const {
+    rows: [tre],
+  } = await q(
+    `INSERT INTO users (email, name, password_hash) VALUES ('treasurer@bench.example.org', 'Bench Treasurer', $1) RETURNING id`,
+    [hash],
+  );
+  await q(`INSERT INTO memberships (coop_id, user_id, role, joined_at) VALUES ($1, $2, 'treasurer', '2020-01-01')`, [
+    coop.id,
+    tre.id,
+  ]);
+  await q(
+    `INSERT INTO users (email, name, password_hash) SELECT 'member' || g || '@bench.example.org', 'Member ' || lpad(g::text, 5, '0'), NULL FROM generate_series(1, $1) g`,
+    [MEMBERS],
+  );
+  await q(
+    `INSERT INTO memberships (coop_id, user_id, role, joined_at) SELECT $1, id, 'member', '2020-01-01' FROM users WHERE email LIKE 'member%@bench.example.org'`,
+    [coop.id],
+  );
+  const {
+    rows: [tank],
+  } = await q(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Bench tank', 100000) RETURNING id`, [
+    coop.id,
+  ]);
   // Each draw: 5 gal (18.927 L) for the road at 389 ¢/gal + 10 ¢ surcharge + 24.4 ¢ road tax: 1945 + 50 + 122 = 2117.
   await q(
     `INSERT INTO draws (coop_id, tank_id, membership_id, quantity_liters, declared_use, unit_price_cents_per_gallon, surcharge_cents_per_gallon,
@@ -89,12 +120,25 @@ try {
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
   const env = {
-    ...process.env, NODE_ENV: 'production', DATABASE_URL: db.url, APP_URL: base, NEXTAUTH_URL: base,
-    NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'), SMTP_HOST: '127.0.0.1', SMTP_PORT: String(await freePort()),
-    STRIPE_SECRET_KEY: 'sk_test_bench', STRIPE_API_HOST: '127.0.0.1', STRIPE_API_PORT: String(paymentsPort), STRIPE_API_PROTOCOL: 'http',
+    ...process.env,
+    NODE_ENV: 'production',
+    DATABASE_URL: db.url,
+    APP_URL: base,
+    NEXTAUTH_URL: base,
+    NEXTAUTH_SECRET: crypto.randomBytes(32).toString('base64url'),
+    SMTP_HOST: '127.0.0.1',
+    SMTP_PORT: String(await freePort()),
+    STRIPE_SECRET_KEY: 'sk_test_bench',
+    STRIPE_API_HOST: '127.0.0.1',
+    STRIPE_API_PORT: String(paymentsPort),
+    STRIPE_API_PROTOCOL: 'http',
     STRIPE_WEBHOOK_SECRET: 'whsec_bench',
   };
-  const next = spawn(process.execPath, [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'], { env, stdio: ['ignore', 'pipe', 'pipe'] });
+  const next = spawn(
+    process.execPath,
+    [path.resolve('node_modules/next/dist/bin/next'), 'start', '-p', String(port), '-H', '127.0.0.1'],
+    { env, stdio: ['ignore', 'pipe', 'pipe'] },
+  );
   const nextLog = fs.createWriteStream(path.join(root, 'next.log'));
   next.stdout.pipe(nextLog);
   next.stderr.pipe(nextLog);
@@ -130,16 +174,35 @@ try {
 
   // Sign in as the treasurer (next-auth credentials flow) with a tiny cookie jar.
   const jar = new Map();
-  const keep = (res) => res.headers.getSetCookie().forEach((c) => { const [kv] = c.split(';'); const i = kv.indexOf('='); jar.set(kv.slice(0, i), kv.slice(i + 1)); });
+  const keep = (res) =>
+    res.headers.getSetCookie().forEach((c) => {
+      const [kv] = c.split(';');
+      const i = kv.indexOf('=');
+      jar.set(kv.slice(0, i), kv.slice(i + 1));
+    });
   const cookie = () => [...jar].map(([k, v]) => `${k}=${v}`).join('; ');
   const call = async (p, init = {}) => {
-    const res = await fetch(`${base}${p}`, { ...init, redirect: 'manual', headers: { origin: base, ...(init.headers ?? {}), cookie: cookie() } });
+    const res = await fetch(`${base}${p}`, {
+      ...init,
+      redirect: 'manual',
+      headers: { origin: base, ...(init.headers ?? {}), cookie: cookie() },
+    });
     keep(res);
     return res;
   };
   const csrf = await (await call('/api/auth/csrf')).json();
-  await call('/api/auth/callback/credentials', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ csrfToken: csrf.csrfToken, email: 'treasurer@bench.example.org', password: PASSWORD, json: 'true' }) });
-  const json = (p, body) => call(p, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+  await call('/api/auth/callback/credentials', {
+    method: 'POST',
+    headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    body: new URLSearchParams({
+      csrfToken: csrf.csrfToken,
+      email: 'treasurer@bench.example.org',
+      password: PASSWORD,
+      json: 'true',
+    }),
+  });
+  const json = (p, body) =>
+    call(p, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
 
   log('1. month run…');
   t = performance.now();
@@ -170,7 +233,10 @@ try {
     request.push(performance.now() - t0);
     render.push(Number(/pdf;dur=([\d.]+)/.exec(res.headers.get('server-timing') ?? '')?.[1]));
   }
-  const median = (a) => { const s = [...a].sort((x, y) => x - y); return (s[(s.length - 1) >> 1] + s[s.length >> 1]) / 2; };
+  const median = (a) => {
+    const s = [...a].sort((x, y) => x - y);
+    return (s[(s.length - 1) >> 1] + s[s.length >> 1]) / 2;
+  };
 
   log('3. issuing every draft…');
   t = performance.now();
@@ -180,22 +246,37 @@ try {
   if (issued.status !== 200) throw new Error(`issue: ${issued.status} ${JSON.stringify(issuedBody)}`);
   clearInterval(sampler);
 
-  const { rows: [check] } = await q(
+  const {
+    rows: [check],
+  } = await q(
     `SELECT count(*)::int AS n, count(DISTINCT number)::int AS numbers, min(number) AS lo, max(number) AS hi, sum(total_cents)::bigint AS total,
             (SELECT count(*) FROM invoice_lines l JOIN invoices i ON i.id = l.invoice_id WHERE i.coop_id = $1)::int AS lines
      FROM invoices WHERE coop_id = $1 AND status = 'issued'`,
     [coop.id],
   );
   const result = {
-    members: MEMBERS, drawsPerMember: DRAWS, period,
+    members: MEMBERS,
+    drawsPerMember: DRAWS,
+    period,
     runSeconds: +(runMs / 1000).toFixed(2),
     issueSeconds: +(issueMs / 1000).toFixed(2),
     endToEndSeconds: +((runMs + issueMs) / 1000).toFixed(2),
-    invoices: check.n, lines: check.lines, numbers: `${check.lo}–${check.hi} (${check.numbers} distinct)`,
+    invoices: check.n,
+    lines: check.lines,
+    numbers: `${check.lo}–${check.hi} (${check.numbers} distinct)`,
     totalInvoicedCents: Number(check.total),
     expectedTotalCents: (MEMBERS + 1) * 1500 + MEMBERS * DRAWS * 2117,
-    nextServerRssMiB: { idle: +(idleKb / 1024).toFixed(0), peakDuringRun: +(runPeakKb / 1024).toFixed(0), peakOverall: +(peakKb / 1024).toFixed(0) },
-    pdf: { samples: render.length, medianRenderMs: +median(render).toFixed(1), medianRequestMs: +median(request).toFixed(1), maxRenderMs: +Math.max(...render).toFixed(1) },
+    nextServerRssMiB: {
+      idle: +(idleKb / 1024).toFixed(0),
+      peakDuringRun: +(runPeakKb / 1024).toFixed(0),
+      peakOverall: +(peakKb / 1024).toFixed(0),
+    },
+    pdf: {
+      samples: render.length,
+      medianRenderMs: +median(render).toFixed(1),
+      medianRequestMs: +median(request).toFixed(1),
+      maxRenderMs: +Math.max(...render).toFixed(1),
+    },
     machine: `${(await import('node:os')).cpus().length} cores, Node ${process.version}`,
   };
   console.log(JSON.stringify(result, null, 2));

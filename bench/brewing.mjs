@@ -39,12 +39,19 @@ try {
   log(`seeding ${BATCHES} batches and ${LOTS} chemical lots in one co-op…`);
   const client = stack.pool;
   const one = async (sql, params) => (await client.query(sql, params)).rows[0];
-  const coop = await one(`INSERT INTO coops (name, slug, units, settings) VALUES ('Bench Brewing Co-op', $1, 'us', $2) RETURNING id`, [
-    SLUG, JSON.stringify({ recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } }),
-  ]);
-  const user = await one(`INSERT INTO users (email, name, password_hash) VALUES ($1, 'Bench Brewer', $2) RETURNING id`, [EMAIL, bcrypt.hashSync(PASSWORD, 10)]);
+  const coop = await one(
+    `INSERT INTO coops (name, slug, units, settings) VALUES ('Bench Brewing Co-op', $1, 'us', $2) RETURNING id`,
+    [SLUG, JSON.stringify({ recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } })],
+  );
+  const user = await one(
+    `INSERT INTO users (email, name, password_hash) VALUES ($1, 'Bench Brewer', $2) RETURNING id`,
+    [EMAIL, bcrypt.hashSync(PASSWORD, 10)],
+  );
   await client.query(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, 'brewer')`, [coop.id, user.id]);
-  const tank = await one(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Bench tank', 100000) RETURNING id`, [coop.id]);
+  const tank = await one(
+    `INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Bench tank', 100000) RETURNING id`,
+    [coop.id],
+  );
   // Lots over ten years, three kinds in turn; all but the newest 150 used up (as in a co-op's real history).
   await client.query(
     `INSERT INTO chemical_lots (coop_id, kind, supplier, received_on, quantity_unit, quantity, remaining_quantity, total_cost_cents, purity_pct)
@@ -83,7 +90,10 @@ try {
   // What autovacuum would have done by the time a co-op has this history: statistics, and the visibility map
   // that lets counts use index-only scans.
   await client.query('VACUUM ANALYZE');
-  const counts = await one(`SELECT (SELECT count(*) FROM batches WHERE coop_id = $1) AS batches, (SELECT count(*) FROM chemical_lots WHERE coop_id = $1) AS lots`, [coop.id]);
+  const counts = await one(
+    `SELECT (SELECT count(*) FROM batches WHERE coop_id = $1) AS batches, (SELECT count(*) FROM chemical_lots WHERE coop_id = $1) AS lots`,
+    [coop.id],
+  );
   log(`co-op ${SLUG}: ${counts.batches} batches, ${counts.lots} chemical lots`);
 
   // Sign in like a browser: CSRF token, then the credentials callback.
@@ -94,7 +104,11 @@ try {
   const listBody = await check.json();
   log(`signed in; first page holds ${listBody.rows.length} of ${listBody.total} batches`);
   const plannerBody = JSON.stringify({ oilVolume: 40, titrationTrials: [3.1, 3.2, 3.3], tariffCentsPerKwh: 14 });
-  const planCheck = await fetch(`${base}/api/coops/${SLUG}/planner`, { method: 'POST', headers: { cookie: cookie(), origin: base, 'content-type': 'application/json' }, body: plannerBody });
+  const planCheck = await fetch(`${base}/api/coops/${SLUG}/planner`, {
+    method: 'POST',
+    headers: { cookie: cookie(), origin: base, 'content-type': 'application/json' },
+    body: plannerBody,
+  });
   if (!planCheck.ok) throw new Error(`planner answered ${planCheck.status}: ${await planCheck.text()}`);
 
   const run = (name, opts, duration) =>
@@ -106,17 +120,47 @@ try {
         const cpu = cpu0 === null ? null : (serverCpuMs(stack.next.pid) - cpu0) / r.requests.total;
         const pgMs = pgUsed();
         const pgCpu = pgMs === null ? null : pgMs / r.requests.total;
-        resolve({ name, reqPerSec: r.requests.average, p50: r.latency.p50, p97_5: r.latency.p97_5, p99: r.latency.p99, requests: r.requests.total, failures: r.non2xx + r.errors + r.timeouts, cpuMsPerRequest: cpu, pgCpuMsPerRequest: pgCpu });
+        resolve({
+          name,
+          reqPerSec: r.requests.average,
+          p50: r.latency.p50,
+          p97_5: r.latency.p97_5,
+          p99: r.latency.p99,
+          requests: r.requests.total,
+          failures: r.non2xx + r.errors + r.timeouts,
+          cpuMsPerRequest: cpu,
+          pgCpuMsPerRequest: pgCpu,
+        });
       });
     });
   const targets = [
     ['GET /api/health', { url: `${base}/api/health` }],
     // The tank list's Sequelize query with no session (bench-only route): the reference each API is measured against.
     ['GET /api/bench/tank-query (no session)', { url: `${base}/api/bench/tank-query?coop=${SLUG}` }],
-    ['GET /api/coops (signed in, 1 query: the session check alone)', { url: `${base}/api/coops`, headers: { cookie: cookie() } }],
-    ['GET batch list (page 1 of 2,000, 25 rows)', { url: `${base}/api/coops/${SLUG}/batches?pageSize=25`, headers: { cookie: cookie() } }],
-    ['GET batch list (sorted by cost, page 40)', { url: `${base}/api/coops/${SLUG}/batches?pageSize=25&sort=costPerGallon&dir=asc&page=40`, headers: { cookie: cookie() } }],
-    ['POST planner', { url: `${base}/api/coops/${SLUG}/planner`, method: 'POST', headers: { cookie: cookie(), origin: base, 'content-type': 'application/json' }, body: plannerBody }],
+    [
+      'GET /api/coops (signed in, 1 query: the session check alone)',
+      { url: `${base}/api/coops`, headers: { cookie: cookie() } },
+    ],
+    [
+      'GET batch list (page 1 of 2,000, 25 rows)',
+      { url: `${base}/api/coops/${SLUG}/batches?pageSize=25`, headers: { cookie: cookie() } },
+    ],
+    [
+      'GET batch list (sorted by cost, page 40)',
+      {
+        url: `${base}/api/coops/${SLUG}/batches?pageSize=25&sort=costPerGallon&dir=asc&page=40`,
+        headers: { cookie: cookie() },
+      },
+    ],
+    [
+      'POST planner',
+      {
+        url: `${base}/api/coops/${SLUG}/planner`,
+        method: 'POST',
+        headers: { cookie: cookie(), origin: base, 'content-type': 'application/json' },
+        body: plannerBody,
+      },
+    ],
   ].filter(([name], i) => i <= 1 || !process.env.ONLY || name.includes(process.env.ONLY));
   log('warming up…');
   for (const [name, opts] of targets) await run(name, opts, 3);
@@ -146,24 +190,46 @@ try {
       ratioToBenchQuery: median(rounds.map((r) => r[j].reqPerSec / r[1].reqPerSec)),
       // Server CPU per request, and /api/health's over this endpoint's (the throughput ratio the server's CPU alone would give).
       cpuMsPerRequest: runs[0].cpuMsPerRequest === null ? null : median(runs.map((r) => r.cpuMsPerRequest)),
-      cpuRatioToHealth: runs[0].cpuMsPerRequest === null ? null : median(rounds.map((r) => r[0].cpuMsPerRequest / r[j].cpuMsPerRequest)),
+      cpuRatioToHealth:
+        runs[0].cpuMsPerRequest === null
+          ? null
+          : median(rounds.map((r) => r[0].cpuMsPerRequest / r[j].cpuMsPerRequest)),
       pgCpuMsPerRequest: runs[0].pgCpuMsPerRequest === null ? null : median(runs.map((r) => r.pgCpuMsPerRequest)),
       failures: runs.reduce((a, r) => a + r.failures, 0),
-      rounds: runs.map((r) => ({ reqPerSec: r.reqPerSec, p97_5: r.p97_5, cpuMsPerRequest: r.cpuMsPerRequest, pgCpuMsPerRequest: r.pgCpuMsPerRequest })),
+      rounds: runs.map((r) => ({
+        reqPerSec: r.reqPerSec,
+        p97_5: r.p97_5,
+        cpuMsPerRequest: r.cpuMsPerRequest,
+        pgCpuMsPerRequest: r.pgCpuMsPerRequest,
+      })),
     };
   });
   console.log(`\nmedians of ${ROUNDS} interleaved rounds, ${CONNECTIONS} connections, ${DURATION} s each`);
-  console.log('| endpoint | req/s | p50 ms | p97.5 ms | p99 ms | vs bench query | vs /api/health | server CPU ms/req | CPU: health ÷ this | PostgreSQL CPU ms/req | failures |\n|---|---|---|---|---|---|---|---|---|---|---|');
+  console.log(
+    '| endpoint | req/s | p50 ms | p97.5 ms | p99 ms | vs bench query | vs /api/health | server CPU ms/req | CPU: health ÷ this | PostgreSQL CPU ms/req | failures |\n|---|---|---|---|---|---|---|---|---|---|---|',
+  );
   const pct = (x) => (x === null ? '–' : `${(x * 100).toFixed(0)} %`);
   for (const r of results) {
-    console.log(`| ${r.name} | ${r.reqPerSec.toFixed(0)} | ${r.p50} | ${r.p97_5} | ${r.p99} | ${pct(r.ratioToBenchQuery)} | ${pct(r.ratioToHealth)} | ${r.cpuMsPerRequest?.toFixed(2) ?? '–'} | ${pct(r.cpuRatioToHealth)} | ${r.pgCpuMsPerRequest?.toFixed(2) ?? '–'} | ${r.failures} |`);
+    console.log(
+      `| ${r.name} | ${r.reqPerSec.toFixed(0)} | ${r.p50} | ${r.p97_5} | ${r.p99} | ${pct(r.ratioToBenchQuery)} | ${pct(r.ratioToHealth)} | ${r.cpuMsPerRequest?.toFixed(2) ?? '–'} | ${pct(r.cpuRatioToHealth)} | ${r.pgCpuMsPerRequest?.toFixed(2) ?? '–'} | ${r.failures} |`,
+    );
   }
   const list = results.find((r) => r.name.startsWith('GET batch list (page 1'));
   const planner = results.find((r) => r.name === 'POST planner');
-  if (list) console.log(`\nbatch list: ${(list.ratioToHealth * 100).toFixed(0)} % of /api/health (target ≥ 70 %), p97.5 ${list.p97_5} ms (target < 60 ms)`);
+  if (list)
+    console.log(
+      `\nbatch list: ${(list.ratioToHealth * 100).toFixed(0)} % of /api/health (target ≥ 70 %), p97.5 ${list.p97_5} ms (target < 60 ms)`,
+    );
   if (planner) console.log(`planner: p97.5 ${planner.p97_5} ms (target < 40 ms)`);
   fs.mkdirSync(path.resolve('bench', 'output'), { recursive: true });
-  fs.writeFileSync(path.resolve('bench', 'output', 'brewing.json'), JSON.stringify({ at: new Date().toISOString(), connections: CONNECTIONS, duration: DURATION, rounds: ROUNDS, results }, null, 2));
+  fs.writeFileSync(
+    path.resolve('bench', 'output', 'brewing.json'),
+    JSON.stringify(
+      { at: new Date().toISOString(), connections: CONNECTIONS, duration: DURATION, rounds: ROUNDS, results },
+      null,
+      2,
+    ),
+  );
 } catch (e) {
   console.error('[bench] failed:', e);
   process.exitCode = 1;

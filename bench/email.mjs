@@ -30,10 +30,19 @@ fs.rmSync(root, { recursive: true, force: true });
 
 const stops = [];
 const stopAll = async () => {
-  for (const s of stops) await Promise.resolve().then(s).catch(() => {});
+  for (const s of stops)
+    await Promise.resolve()
+      .then(s)
+      .catch(() => {});
 };
 try {
-  const db = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'bench', fast: true, log: () => {} });
+  const db = await startEmbeddedPg({
+    dataDir: path.join(root, 'pg'),
+    port: await freePort(),
+    dbName: 'bench',
+    fast: true,
+    log: () => {},
+  });
   stops.push(db.stop);
   migrate({ databaseUrl: db.url, seed: false });
   const smtpPort = await freePort();
@@ -45,8 +54,13 @@ try {
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
   const env = appEnv({
-    databaseUrl: db.url, appUrl: baseUrl, secret: crypto.randomBytes(32).toString('base64url'), smtpPort, paymentsPort,
-    webhookSecret: 'whsec_bench', extra: { NODE_ENV: 'production' },
+    databaseUrl: db.url,
+    appUrl: baseUrl,
+    secret: crypto.randomBytes(32).toString('base64url'),
+    smtpPort,
+    paymentsPort,
+    webhookSecret: 'whsec_bench',
+    extra: { NODE_ENV: 'production' },
   });
   const next = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'ignore', 'inherit'] });
   stops.unshift(next.stop);
@@ -55,9 +69,18 @@ try {
   // One co-op: a treasurer and N members with monthly dues (users and memberships in bulk).
   const pool = dbPool(db.url);
   stops.unshift(() => pool.end());
-  const { rows: [coop] } = await pool.query(`INSERT INTO coops (name, slug, settings) VALUES ('Bench Mail Co-op', 'bench-mail', '{"monthlyDuesCents": 1500}') RETURNING id`);
+  const {
+    rows: [coop],
+  } = await pool.query(
+    `INSERT INTO coops (name, slug, settings) VALUES ('Bench Mail Co-op', 'bench-mail', '{"monthlyDuesCents": 1500}') RETURNING id`,
+  );
   const hash = bcrypt.hashSync('bench-password-2026', 10);
-  const { rows: [t] } = await pool.query(`INSERT INTO users (email, name, password_hash) VALUES ('treasurer@bench-mail.bench', 'Bench Treasurer', $1) RETURNING id`, [hash]);
+  const {
+    rows: [t],
+  } = await pool.query(
+    `INSERT INTO users (email, name, password_hash) VALUES ('treasurer@bench-mail.bench', 'Bench Treasurer', $1) RETURNING id`,
+    [hash],
+  );
   await pool.query(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, 'treasurer')`, [coop.id, t.id]);
   await pool.query(
     `WITH u AS (INSERT INTO users (email, name, password_hash)
@@ -69,18 +92,31 @@ try {
   const now = new Date();
   const last = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1));
   const period = `${last.getUTCFullYear()}-${String(last.getUTCMonth() + 1).padStart(2, '0')}`;
-  const post = (p, body) => fetch(`${baseUrl}${p}`, { method: 'POST', headers: { cookie, 'content-type': 'application/json', origin: baseUrl }, body: JSON.stringify(body) });
+  const post = (p, body) =>
+    fetch(`${baseUrl}${p}`, {
+      method: 'POST',
+      headers: { cookie, 'content-type': 'application/json', origin: baseUrl },
+      body: JSON.stringify(body),
+    });
 
   // The run needs a worker; start one now, and time the e-mails from the moment of issuing.
   const workers = [];
   for (let i = 0; i < WORKERS; i++) {
-    const w = await startWorkerProcess({ env, nodeArgs: process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)] : [], stdio: fs.createWriteStream(path.join(root, `worker-${i}.log`)) });
+    const w = await startWorkerProcess({
+      env,
+      nodeArgs: process.env.BENCH_CPU_PROF
+        ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)]
+        : [],
+      stdio: fs.createWriteStream(path.join(root, `worker-${i}.log`)),
+    });
     workers.push(w);
     stops.unshift(w.stop);
   }
   const run = await (await post(`/api/coops/bench-mail/billing/runs`, { period })).json();
   for (;;) {
-    const r = await (await fetch(`${baseUrl}/api/coops/bench-mail/billing/runs/${run.run.id}`, { headers: { cookie } })).json();
+    const r = await (
+      await fetch(`${baseUrl}/api/coops/bench-mail/billing/runs/${run.run.id}`, { headers: { cookie } })
+    ).json();
     if (r.run.status !== 'running') break;
     await new Promise((res) => setTimeout(res, 200));
   }
@@ -103,9 +139,18 @@ try {
   const pgMs = pgCpu();
   const catcherCpu = process.cpuUsage(catcherCpu0);
   // On a busy machine the wall time says little; the CPU per message says what a quiet one would do.
-  log(`CPU per e-mail: worker ${(workerCpu / N).toFixed(1)} ms, PostgreSQL ${pgMs === null ? '?' : (pgMs / N).toFixed(1)} ms (the issue request included); this process (the SMTP catcher) ${((catcherCpu.user + catcherCpu.system) / 1000 / N).toFixed(1)} ms`);
-  const { rows: [s] } = await pool.query(`SELECT count(*) FILTER (WHERE email_status = 'sent') AS sent, count(*) AS total FROM invoices WHERE coop_id = $1`, [coop.id]);
-  log(`${N} invoice e-mails delivered in ${seconds.toFixed(1)} s (${(N / seconds).toFixed(1)}/s) with ${WORKERS} worker(s); invoices marked sent: ${s.sent}/${s.total}`);
+  log(
+    `CPU per e-mail: worker ${(workerCpu / N).toFixed(1)} ms, PostgreSQL ${pgMs === null ? '?' : (pgMs / N).toFixed(1)} ms (the issue request included); this process (the SMTP catcher) ${((catcherCpu.user + catcherCpu.system) / 1000 / N).toFixed(1)} ms`,
+  );
+  const {
+    rows: [s],
+  } = await pool.query(
+    `SELECT count(*) FILTER (WHERE email_status = 'sent') AS sent, count(*) AS total FROM invoices WHERE coop_id = $1`,
+    [coop.id],
+  );
+  log(
+    `${N} invoice e-mails delivered in ${seconds.toFixed(1)} s (${(N / seconds).toFixed(1)}/s) with ${WORKERS} worker(s); invoices marked sent: ${s.sent}/${s.total}`,
+  );
   log(`budget: ${BUDGET_S.toFixed(0)} s for ${N} (12,000 in 180 s) → ${seconds <= BUDGET_S ? 'met' : 'MISSED'}`);
   await new Promise((res) => setTimeout(res, 1000));
   if (mail.received() !== N) log(`WARNING: the catcher received ${mail.received()} messages for ${N} invoices`);

@@ -25,18 +25,38 @@ export const PASSWORD = 'bench-password-2026';
 export function dbPool(databaseUrl) {
   const db = new Sequelize(databaseUrl, { logging: false, pool: { max: 4, min: 0 } });
   const sql = (text, params = []) =>
-    db.query(text, { bind: params.length ? params.map((v) => (v === undefined ? null : v)) : undefined, type: QueryTypes.SELECT });
-  return { sequelize: db, sql, query: async (text, params = []) => ({ rows: await sql(text, params) }), end: () => db.close() };
+    db.query(text, {
+      bind: params.length ? params.map((v) => (v === undefined ? null : v)) : undefined,
+      type: QueryTypes.SELECT,
+    });
+  return {
+    sequelize: db,
+    sql,
+    query: async (text, params = []) => ({ rows: await sql(text, params) }),
+    end: () => db.close(),
+  };
 }
 
 /** Starts everything; returns { baseUrl, pool (see dbPool), stop }. */
-export async function startStack({ name, databaseUrlSuffix = '', fast = true, seed = false, log = (m) => console.log('[bench]', m) }) {
+export async function startStack({
+  name,
+  databaseUrlSuffix = '',
+  fast = true,
+  seed = false,
+  log = (m) => console.log('[bench]', m),
+}) {
   buildIfNeeded({ log });
   const root = path.resolve('.data', `bench-${name}`);
   stopLeftover(path.join(root, 'pg'));
   fs.rmSync(root, { recursive: true, force: true });
   const stops = [];
-  const pgSrv = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'bench', fast, log: () => {} });
+  const pgSrv = await startEmbeddedPg({
+    dataDir: path.join(root, 'pg'),
+    port: await freePort(),
+    dbName: 'bench',
+    fast,
+    log: () => {},
+  });
   stops.push(pgSrv.stop);
   migrate({ databaseUrl: pgSrv.url, seed });
   const smtpPort = await freePort();
@@ -48,12 +68,18 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server when it stops.
-  const nodeArgs = process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)] : [];
+  const nodeArgs = process.env.BENCH_CPU_PROF
+    ? ['--cpu-prof', '--cpu-prof-dir', path.resolve(process.env.BENCH_CPU_PROF)]
+    : [];
   // BENCH_NODE_ARGS="--flag …" adds Node.js flags to the server (to try runtime settings).
   if (process.env.BENCH_NODE_ARGS) nodeArgs.push(...process.env.BENCH_NODE_ARGS.split(/\s+/).filter(Boolean));
   const env = appEnv({
-    databaseUrl: pgSrv.url + databaseUrlSuffix, appUrl: baseUrl, secret: crypto.randomBytes(32).toString('base64url'),
-    smtpPort, paymentsPort, webhookSecret: 'whsec_bench',
+    databaseUrl: pgSrv.url + databaseUrlSuffix,
+    appUrl: baseUrl,
+    secret: crypto.randomBytes(32).toString('base64url'),
+    smtpPort,
+    paymentsPort,
+    webhookSecret: 'whsec_bench',
     extra: { NODE_ENV: 'production', DB_POOL_MAX: '20', TALLYVAT_BENCH: '1' },
   });
   const next = startNext({ env, port, host: '127.0.0.1', nodeArgs, stdio: ['ignore', 'ignore', 'inherit'] });
@@ -64,7 +90,13 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   /** Another `next start` with the same environment (one database), as a second instance behind a load balancer. */
   const startInstance = async () => {
     const p = await freePort();
-    const n = startNext({ env: { ...env, TALLYVAT_SERVICE: `web-${p}` }, port: p, host: '127.0.0.1', nodeArgs, stdio: ['ignore', 'ignore', 'inherit'] });
+    const n = startNext({
+      env: { ...env, TALLYVAT_SERVICE: `web-${p}` },
+      port: p,
+      host: '127.0.0.1',
+      nodeArgs,
+      stdio: ['ignore', 'ignore', 'inherit'],
+    });
     stops.unshift(n.stop);
     await waitForHealth(`http://127.0.0.1:${p}`, n.child);
     return { baseUrl: `http://127.0.0.1:${p}`, child: n.child };
@@ -76,7 +108,16 @@ export async function startStack({ name, databaseUrlSuffix = '', fast = true, se
   // Ctrl-C stops everything the stack started (exit code 130, as a shell reports it).
   const interrupted = () => stop().finally(() => process.exit(130));
   process.once('SIGINT', interrupted);
-  return { baseUrl, pool, databaseUrl: pgSrv.url, root, pgClusterDir: path.join(root, 'pg', 'cluster'), next: next.child, startInstance, stop };
+  return {
+    baseUrl,
+    pool,
+    databaseUrl: pgSrv.url,
+    root,
+    pgClusterDir: path.join(root, 'pg', 'cluster'),
+    next: next.child,
+    startInstance,
+    stop,
+  };
 }
 
 /**
@@ -91,11 +132,17 @@ export async function roundRobinProxy(upstreams) {
   let next = 0;
   const server = http.createServer((req, res) => {
     const t = targets[next++ % targets.length];
-    const headers = { ...req.headers, 'x-forwarded-for': [req.headers['x-forwarded-for'], req.socket.remoteAddress].filter(Boolean).join(', ') };
-    const up = http.request({ host: t.hostname, port: t.port, method: req.method, path: req.url, headers, agent }, (r) => {
-      res.writeHead(r.statusCode ?? 502, r.headers);
-      r.pipe(res);
-    });
+    const headers = {
+      ...req.headers,
+      'x-forwarded-for': [req.headers['x-forwarded-for'], req.socket.remoteAddress].filter(Boolean).join(', '),
+    };
+    const up = http.request(
+      { host: t.hostname, port: t.port, method: req.method, path: req.url, headers, agent },
+      (r) => {
+        res.writeHead(r.statusCode ?? 502, r.headers);
+        r.pipe(res);
+      },
+    );
     up.on('error', () => {
       if (!res.headersSent) res.writeHead(502);
       res.end();
@@ -104,7 +151,15 @@ export async function roundRobinProxy(upstreams) {
   });
   const port = await freePort();
   await new Promise((r) => server.listen(port, '127.0.0.1', r));
-  return { baseUrl: `http://127.0.0.1:${port}`, stop: () => new Promise((r) => { server.closeAllConnections?.(); agent.destroy(); server.close(r); }) };
+  return {
+    baseUrl: `http://127.0.0.1:${port}`,
+    stop: () =>
+      new Promise((r) => {
+        server.closeAllConnections?.();
+        agent.destroy();
+        server.close(r);
+      }),
+  };
 }
 
 /** Resident memory of a process in MiB (Linux /proc; null elsewhere). */
@@ -120,12 +175,26 @@ export function rssMiB(pid) {
 /** Inserts a co-op with one user per role (same password); returns ids and e-mails. */
 export async function makeCoop(pool, slug) {
   const hash = bcrypt.hashSync(PASSWORD, 10);
-  const { rows: [coop] } = await pool.query(`INSERT INTO coops (name, slug) VALUES ($1, $2) RETURNING id`, [`Bench ${slug}`, slug]);
+  const {
+    rows: [coop],
+  } = await pool.query(`INSERT INTO coops (name, slug) VALUES ($1, $2) RETURNING id`, [`Bench ${slug}`, slug]);
   const people = {};
   for (const role of ['admin', 'treasurer', 'brewer', 'member']) {
     const email = `${role}@${slug}.bench`;
-    const { rows: [u] } = await pool.query(`INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`, [email, `Bench ${role}`, hash]);
-    const { rows: [m] } = await pool.query(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, $3) RETURNING id`, [coop.id, u.id, role]);
+    const {
+      rows: [u],
+    } = await pool.query(`INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`, [
+      email,
+      `Bench ${role}`,
+      hash,
+    ]);
+    const {
+      rows: [m],
+    } = await pool.query(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, $3) RETURNING id`, [
+      coop.id,
+      u.id,
+      role,
+    ]);
     people[role] = { userId: u.id, membershipId: m.id, email };
   }
   return { coopId: coop.id, slug, people };
@@ -137,11 +206,15 @@ export async function signInCookie(baseUrl, email, password = PASSWORD) {
   const { csrfToken } = await csrf.json();
   const jar = csrf.headers.getSetCookie().map((c) => c.split(';')[0]);
   const res = await fetch(`${baseUrl}/api/auth/callback/credentials`, {
-    method: 'POST', redirect: 'manual',
+    method: 'POST',
+    redirect: 'manual',
     headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: jar.join('; ') },
     body: new URLSearchParams({ csrfToken, email, password, json: 'true' }),
   });
-  const session = res.headers.getSetCookie().map((c) => c.split(';')[0]).find((c) => c.includes('session-token'));
+  const session = res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .find((c) => c.includes('session-token'));
   if (!session) throw new Error(`sign-in failed for ${email}: ${res.status}`);
   return session;
 }
@@ -173,7 +246,8 @@ function postgresCpuByPid(clusterDir) {
         continue;
       }
       const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
-      if (Number(pid) === postmaster || Number(f[1]) === postmaster) byPid.set(pid, ((Number(f[11]) + Number(f[12])) * 1000) / 100);
+      if (Number(pid) === postmaster || Number(f[1]) === postmaster)
+        byPid.set(pid, ((Number(f[11]) + Number(f[12])) * 1000) / 100);
     }
     return byPid;
   } catch {
@@ -199,12 +273,20 @@ export function postgresCpuMeter(clusterDir) {
 /** Runs autocannon; returns { rps, p97_5, p50, errors, non2xx }. */
 export async function load({ url, connections = 10, duration = 10, headers = {}, method = 'GET', body, requests }) {
   const r = await autocannon({ url, connections, duration, headers, method, body, requests });
-  return { rps: Math.round(r.requests.average), p50: r.latency.p50, p97_5: r.latency.p97_5, errors: r.errors, non2xx: r.non2xx };
+  return {
+    rps: Math.round(r.requests.average),
+    p50: r.latency.p50,
+    p97_5: r.latency.p97_5,
+    errors: r.errors,
+    non2xx: r.non2xx,
+  };
 }
 
 /** Prints a result line and returns it. */
 export function report(label, r, reference) {
   const ratio = reference ? ` (${Math.round((r.rps / reference.rps) * 100)} % of /api/health)` : '';
-  console.log(`${label.padEnd(40)} ${String(r.rps).padStart(6)} req/s  p50 ${r.p50} ms  p97.5 ${r.p97_5} ms  errors ${r.errors}  non-2xx ${r.non2xx}${ratio}`);
+  console.log(
+    `${label.padEnd(40)} ${String(r.rps).padStart(6)} req/s  p50 ${r.p50} ms  p97.5 ${r.p97_5} ms  errors ${r.errors}  non-2xx ${r.non2xx}${ratio}`,
+  );
   return r;
 }

@@ -51,7 +51,9 @@ try {
       get('/batches', 'brewer'),
       get('/overview', 'admin'),
       {
-        method: 'POST', path: `${api}/reservations`, headers: { ...json, cookie: cookie.member },
+        method: 'POST',
+        path: `${api}/reservations`,
+        headers: { ...json, cookie: cookie.member },
         body: JSON.stringify({ tankId: tank.id, quantity: '1', windowStart: today, windowEnd: until }),
         onResponse: (status, body, context) => {
           context.reservationId = status === 201 ? JSON.parse(body).id : null;
@@ -61,10 +63,14 @@ try {
       get('/batches', 'brewer'),
       get('/overview', 'admin'),
       {
-        method: 'POST', path: `${api}/reservations/0/cancel`, headers: { ...json, cookie: cookie.member }, body: '{}',
-        setupRequest: (req, context) => (context.reservationId
-          ? { ...req, path: `${api}/reservations/${context.reservationId}/cancel` }
-          : { method: 'GET', path: `${api}/tanks`, headers: { cookie: cookie.member } }),
+        method: 'POST',
+        path: `${api}/reservations/0/cancel`,
+        headers: { ...json, cookie: cookie.member },
+        body: '{}',
+        setupRequest: (req, context) =>
+          context.reservationId
+            ? { ...req, path: `${api}/reservations/${context.reservationId}/cancel` }
+            : { method: 'GET', path: `${api}/tanks`, headers: { cookie: cookie.member } },
       },
     ];
   };
@@ -75,7 +81,11 @@ try {
     const timer = setInterval(async () => {
       for (const p of pids) peak.rssMiB[p] = Math.max(peak.rssMiB[p], rssMiB(p) ?? 0);
       try {
-        const [r] = (await pool.query(`SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND pid <> pg_backend_pid()`)).rows;
+        const [r] = (
+          await pool.query(
+            `SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND pid <> pg_backend_pid()`,
+          )
+        ).rows;
         peak.dbConnections = Math.max(peak.dbConnections, r.n);
       } catch {
         /* a sample lost under load */
@@ -91,18 +101,35 @@ try {
     const cpu0 = pids.map((p) => serverCpuMs(p));
     const pgUsed = postgresCpuMeter(stack.pgClusterDir);
     const stop = sampler(pids);
-    const r = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, requests: sequence(url), timeout: 30 });
+    const r = await autocannon({
+      url,
+      connections: CONNECTIONS,
+      duration: SECONDS,
+      requests: sequence(url),
+      timeout: 30,
+    });
     const peak = stop();
     const status = Object.fromEntries(Object.entries(r.statusCodeStats ?? {}).map(([k, v]) => [k, v.count]));
-    const fiveXX = Object.entries(status).filter(([k]) => Number(k) >= 500).reduce((s, [, n]) => s + n, 0);
+    const fiveXX = Object.entries(status)
+      .filter(([k]) => Number(k) >= 500)
+      .reduce((s, [, n]) => s + n, 0);
     const cpu = pids.reduce((s, p, i) => s + ((serverCpuMs(p) ?? 0) - (cpu0[i] ?? 0)), 0);
     return {
-      label, rps: Math.round(r.requests.average), total: r.requests.total,
-      p50: r.latency.p50, p97_5: r.latency.p97_5, p99: r.latency.p99, max: r.latency.max,
-      errors: r.errors + r.timeouts + fiveXX, socketErrors: r.errors, timeouts: r.timeouts, status,
+      label,
+      rps: Math.round(r.requests.average),
+      total: r.requests.total,
+      p50: r.latency.p50,
+      p97_5: r.latency.p97_5,
+      p99: r.latency.p99,
+      max: r.latency.max,
+      errors: r.errors + r.timeouts + fiveXX,
+      socketErrors: r.errors,
+      timeouts: r.timeouts,
+      status,
       serverCpuMsPerRequest: Number((cpu / r.requests.total).toFixed(2)),
       postgresCpuMsPerRequest: Number(((pgUsed() ?? 0) / r.requests.total).toFixed(2)),
-      peakRssMiB: Object.values(peak.rssMiB), peakDbConnections: peak.dbConnections,
+      peakRssMiB: Object.values(peak.rssMiB),
+      peakDbConnections: peak.dbConnections,
     };
   };
 
@@ -115,24 +142,54 @@ try {
   }
 
   // The reservations and cancels left the tank consistent: reserved = open reservations ≤ on hand.
-  const [t] = (await pool.query(
-    `SELECT t.on_hand_liters::text AS on_hand, t.reserved_liters::text AS reserved,
+  const [t] = (
+    await pool.query(
+      `SELECT t.on_hand_liters::text AS on_hand, t.reserved_liters::text AS reserved,
             (SELECT coalesce(sum(quantity_liters), 0) FROM reservations r WHERE r.tank_id = t.id AND r.status = 'open')::text AS open_q
-       FROM tanks t WHERE t.id = $1`, [tank.id])).rows;
+       FROM tanks t WHERE t.id = $1`,
+      [tank.id],
+    )
+  ).rows;
   const consistent = Number(t.reserved) === Number(t.open_q) && Number(t.reserved) <= Number(t.on_hand);
 
-  const out = { at: new Date().toISOString(), seconds: SECONDS, connections: CONNECTIONS, mix: 'per 8 requests: 2 GET tanks, 2 GET batch list, 2 GET overview, 1 POST reservation, 1 POST cancel (a GET tanks when the reservation was refused)', results, tank: { ...t, consistent } };
+  const out = {
+    at: new Date().toISOString(),
+    seconds: SECONDS,
+    connections: CONNECTIONS,
+    mix: 'per 8 requests: 2 GET tanks, 2 GET batch list, 2 GET overview, 1 POST reservation, 1 POST cancel (a GET tanks when the reservation was refused)',
+    results,
+    tank: { ...t, consistent },
+  };
   fs.mkdirSync(path.resolve('bench', 'output'), { recursive: true });
   const file = path.resolve('bench', 'output', `mixed-${out.at.replace(/[:.]/g, '-')}.json`);
   fs.writeFileSync(file, JSON.stringify(out, null, 2));
-  console.table(Object.fromEntries(results.map((r) => [r.label, {
-    'req/s': r.rps, 'p50 ms': r.p50, 'p97.5 ms': r.p97_5, 'p99 ms': r.p99, errors: r.errors,
-    'server CPU ms/req': r.serverCpuMsPerRequest, 'PG CPU ms/req': r.postgresCpuMsPerRequest,
-    'peak RSS MiB': r.peakRssMiB.join(' + '), 'peak DB conns': r.peakDbConnections, status: JSON.stringify(r.status),
-  }])));
+  console.table(
+    Object.fromEntries(
+      results.map((r) => [
+        r.label,
+        {
+          'req/s': r.rps,
+          'p50 ms': r.p50,
+          'p97.5 ms': r.p97_5,
+          'p99 ms': r.p99,
+          errors: r.errors,
+          'server CPU ms/req': r.serverCpuMsPerRequest,
+          'PG CPU ms/req': r.postgresCpuMsPerRequest,
+          'peak RSS MiB': r.peakRssMiB.join(' + '),
+          'peak DB conns': r.peakDbConnections,
+          status: JSON.stringify(r.status),
+        },
+      ]),
+    ),
+  );
   const one = results.find((r) => r.label === 'one instance');
-  if (one) log(`budget (one instance: 0 errors, p97.5 < ${BUDGET_P97_5_MS} ms): ${one.errors === 0 && one.p97_5 < BUDGET_P97_5_MS ? 'met' : 'NOT met'}`);
-  log(`tank after the run: reserved ${t.reserved} L = open ${t.open_q} L, on hand ${t.on_hand} L: ${consistent ? 'consistent' : 'INCONSISTENT'}`);
+  if (one)
+    log(
+      `budget (one instance: 0 errors, p97.5 < ${BUDGET_P97_5_MS} ms): ${one.errors === 0 && one.p97_5 < BUDGET_P97_5_MS ? 'met' : 'NOT met'}`,
+    );
+  log(
+    `tank after the run: reserved ${t.reserved} L = open ${t.open_q} L, on hand ${t.on_hand} L: ${consistent ? 'consistent' : 'INCONSISTENT'}`,
+  );
   log(`saved ${path.relative(process.cwd(), file)}`);
   await proxy?.stop();
   await stack.stop();

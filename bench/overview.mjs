@@ -16,10 +16,20 @@ try {
   await load({ url: `${baseUrl}/api/coops/${coop.slug}/overview`, headers, duration: 2 });
   const health = report('/api/health (10 conn)', await load({ url: `${baseUrl}/api/health` }));
   // The tank list's Sequelize query with no session (bench-only route), measured in the same run.
-  const benchQuery = report('bench tank query, no session (10 conn)', await load({ url: `${baseUrl}/api/bench/tank-query?coop=${coop.slug}` }), health);
-  const overview = report('overview API, admin (10 conn)', await load({ url: `${baseUrl}/api/coops/${coop.slug}/overview`, headers }), health);
+  const benchQuery = report(
+    'bench tank query, no session (10 conn)',
+    await load({ url: `${baseUrl}/api/bench/tank-query?coop=${coop.slug}` }),
+    health,
+  );
+  const overview = report(
+    'overview API, admin (10 conn)',
+    await load({ url: `${baseUrl}/api/coops/${coop.slug}/overview`, headers }),
+    health,
+  );
   console.log(`overview ÷ bench query: ${Math.round((overview.rps / benchQuery.rps) * 100)} %`);
-  console.log(`target p97.5 < 80 ms: ${overview.p97_5 < 80 ? 'met' : 'NOT met'}${hasBatches ? '' : ' (no batches table in this build)'}`);
+  console.log(
+    `target p97.5 < 80 ms: ${overview.p97_5 < 80 ? 'met' : 'NOT met'}${hasBatches ? '' : ' (no batches table in this build)'}`,
+  );
 } finally {
   await stack.stop();
 }

@@ -15,16 +15,37 @@ import { startStack } from './lib.mjs';
 
 const DEMO_PASSWORD = 'tallyvat-demo-2026';
 const COOP = 'prairie-lantern';
-const PEOPLE = { member: 'dale.member', brewer: 'juniper.brewer', treasurer: 'tobias.treasurer', admin: 'marisol.admin' };
-const WIDTHS = [{ width: 360, height: 740 }, { width: 1280, height: 800 }];
+const PEOPLE = {
+  member: 'dale.member',
+  brewer: 'juniper.brewer',
+  treasurer: 'tobias.treasurer',
+  admin: 'marisol.admin',
+};
+const WIDTHS = [
+  { width: 360, height: 740 },
+  { width: 1280, height: 800 },
+];
 const OUTSIDE = ['/coops', '/profile', '/docs/api'];
 const LCP_TARGET_MS = 1000;
 const JS_TARGET_KB = 200;
-const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'];
+const ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--disable-dev-shm-usage',
+];
 
 const roles = (process.env.BENCH_PAGES_ROLES ?? 'member,brewer,treasurer,admin').split(',').filter((r) => r in PEOPLE);
 const stack = await startStack({ name: 'pages', seed: true });
-const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: ARGS });
+const browser = await chromium.launch({
+  executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+  headless: true,
+  args: ARGS,
+});
 const gzipCache = new Map();
 const rows = [];
 
@@ -35,9 +56,14 @@ async function sessionOf(email) {
   await page.goto(`${stack.baseUrl}/sign-in`);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await Promise.all([page.waitForURL((u) => !u.pathname.startsWith('/sign-in'), { timeout: 60_000 }), page.getByRole('button', { name: 'Sign in' }).click()]);
+  await Promise.all([
+    page.waitForURL((u) => !u.pathname.startsWith('/sign-in'), { timeout: 60_000 }),
+    page.getByRole('button', { name: 'Sign in' }).click(),
+  ]);
   await page.goto(`${stack.baseUrl}/c/${COOP}`);
-  const hrefs = await page.$$eval('nav[aria-label="Co-op"] a[href^="/c/"]', (as) => [...new Set(as.map((a) => a.getAttribute('href')))]);
+  const hrefs = await page.$$eval('nav[aria-label="Co-op"] a[href^="/c/"]', (as) => [
+    ...new Set(as.map((a) => a.getAttribute('href'))),
+  ]);
   const state = await context.storageState();
   await context.close();
   return { state, hrefs: hrefs.filter((h) => h.startsWith(`/c/${COOP}`)) };
@@ -54,13 +80,16 @@ async function measure(state, url, viewport) {
   await page.goto(url, { waitUntil: 'load', timeout: 60_000 });
   // Scripts fetched from here on (charts, form schemas: loaded once the page has loaded) are not first-load.
   const firstLoad = scripts.length;
-  const lcp = await page.evaluate(() => new Promise((done) => {
-    let last = 0;
-    new PerformanceObserver((list) => {
-      for (const e of list.getEntries()) last = e.startTime;
-    }).observe({ type: 'largest-contentful-paint', buffered: true });
-    setTimeout(() => done(last), 500);
-  }));
+  const lcp = await page.evaluate(
+    () =>
+      new Promise((done) => {
+        let last = 0;
+        new PerformanceObserver((list) => {
+          for (const e of list.getEntries()) last = e.startTime;
+        }).observe({ type: 'largest-contentful-paint', buffered: true });
+        setTimeout(() => done(last), 500);
+      }),
+  );
   let gz = 0;
   let raw = 0;
   let laterGz = 0;
@@ -78,7 +107,13 @@ async function measure(state, url, viewport) {
     gz += gzipCache.get(key).gz;
   }
   await context.close();
-  return { lcpMs: Math.round(lcp), jsGzipKB: Math.round(gz / 1024), jsRawKB: Math.round(raw / 1024), files: firstLoad, laterGzipKB: Math.round(laterGz / 1024) };
+  return {
+    lcpMs: Math.round(lcp),
+    jsGzipKB: Math.round(gz / 1024),
+    jsRawKB: Math.round(raw / 1024),
+    files: firstLoad,
+    laterGzipKB: Math.round(laterGz / 1024),
+  };
 }
 
 try {
@@ -96,14 +131,20 @@ try {
       }
       rows.push(row);
       const flag = (ms) => (ms < LCP_TARGET_MS ? '' : ' !');
-      console.log(`${role.padEnd(9)} ${row.page.padEnd(14)} LCP 360 ${String(row.lcp360).padStart(5)} ms${flag(row.lcp360)}  LCP 1280 ${String(row.lcp1280).padStart(5)} ms${flag(row.lcp1280)}  first-load JS ${String(row.jsGzipKB).padStart(4)} kB gz (${row.jsRawKB} kB raw, ${row.files} files)${row.jsGzipKB > JS_TARGET_KB ? ' !' : ''}${row.laterGzipKB ? `, ${row.laterGzipKB} kB gz after load` : ''}`);
+      console.log(
+        `${role.padEnd(9)} ${row.page.padEnd(14)} LCP 360 ${String(row.lcp360).padStart(5)} ms${flag(row.lcp360)}  LCP 1280 ${String(row.lcp1280).padStart(5)} ms${flag(row.lcp1280)}  first-load JS ${String(row.jsGzipKB).padStart(4)} kB gz (${row.jsRawKB} kB raw, ${row.files} files)${row.jsGzipKB > JS_TARGET_KB ? ' !' : ''}${row.laterGzipKB ? `, ${row.laterGzipKB} kB gz after load` : ''}`,
+      );
     }
   }
   const worstJs = [...rows].sort((a, b) => b.jsGzipKB - a.jsGzipKB)[0];
   const over = rows.filter((r) => r.jsGzipKB > JS_TARGET_KB).length;
   const slow = rows.filter((r) => r.lcp360 >= LCP_TARGET_MS || r.lcp1280 >= LCP_TARGET_MS).length;
-  console.log(`\n${rows.length} page × role rows; first-load JS over ${JS_TARGET_KB} kB: ${over} (worst ${worstJs?.page} ${worstJs?.jsGzipKB} kB); LCP ≥ ${LCP_TARGET_MS} ms at either width: ${slow}`);
-  console.log(`load average at the end: ${fs.readFileSync('/proc/loadavg', 'utf8').split(' ').slice(0, 3).join(' ')} (LCP is unreliable under load; JS size is not)`);
+  console.log(
+    `\n${rows.length} page × role rows; first-load JS over ${JS_TARGET_KB} kB: ${over} (worst ${worstJs?.page} ${worstJs?.jsGzipKB} kB); LCP ≥ ${LCP_TARGET_MS} ms at either width: ${slow}`,
+  );
+  console.log(
+    `load average at the end: ${fs.readFileSync('/proc/loadavg', 'utf8').split(' ').slice(0, 3).join(' ')} (LCP is unreliable under load; JS size is not)`,
+  );
   const out = path.resolve('bench', 'output');
   fs.mkdirSync(out, { recursive: true });
   fs.writeFileSync(path.join(out, 'pages.json'), JSON.stringify(rows, null, 2));

@@ -5,7 +5,10 @@ import fs from 'node:fs';
 import path from 'node:path';
 
 const dir = path.resolve('bench');
-const all = fs.readdirSync(dir).filter((f) => f.endsWith('.mjs') && !['run.mjs', 'lib.mjs'].includes(f)).map((f) => f.replace(/\.mjs$/, ''));
+const all = fs
+  .readdirSync(dir)
+  .filter((f) => f.endsWith('.mjs') && !['run.mjs', 'lib.mjs'].includes(f))
+  .map((f) => f.replace(/\.mjs$/, ''));
 const chosen = process.argv.slice(2).length ? process.argv.slice(2) : all;
 let failed = 0;
 for (const name of chosen) {

@@ -86,6 +86,13 @@ export function todayIn(timeZone: string, now = new Date()): string {
  * The instant of a wall-clock time in a time zone (daylight-saving shifts included), e.g. the
  * start of a reservation day at 00:00 in the co-op's zone. `month` is 1–12.
  */
-export function zonedToUtc(year: number, month: number, day: number, hour: number, minute: number, timeZone: string): Date {
+export function zonedToUtc(
+  year: number,
+  month: number,
+  day: number,
+  hour: number,
+  minute: number,
+  timeZone: string,
+): Date {
   return new Date(new TZDate(year, month - 1, day, hour, minute, safeZone(timeZone)).getTime());
 }

@@ -13,7 +13,8 @@ export const DATABASE_RETRY_AFTER_SECONDS = 5;
  */
 const UNAVAILABLE_SQLSTATE = /^(08...|57P0[123]|53300)$/;
 /** What pg says, without a SQLSTATE, when the socket under a query goes away. */
-const UNAVAILABLE_MESSAGE = /Connection terminated|Client has encountered a connection error|connection (is )?closed|ECONNRESET|ECONNREFUSED|EPIPE|timeout exceeded when trying to connect/i;
+const UNAVAILABLE_MESSAGE =
+  /Connection terminated|Client has encountered a connection error|connection (is )?closed|ECONNRESET|ECONNREFUSED|EPIPE|timeout exceeded when trying to connect/i;
 
 /**
  * True when an error means the database could not be reached (refused, host unknown or unreachable,
@@ -22,7 +23,11 @@ const UNAVAILABLE_MESSAGE = /Connection terminated|Client has encountered a conn
  */
 export function isDatabaseUnavailable(e: unknown): boolean {
   if (e instanceof ConnectionError) return true;
-  const err = e as { name?: string; original?: { code?: unknown; message?: unknown }; parent?: { code?: unknown } } | null;
+  const err = e as {
+    name?: string;
+    original?: { code?: unknown; message?: unknown };
+    parent?: { code?: unknown };
+  } | null;
   if (!err || typeof err !== 'object') return false;
   if (typeof err.name === 'string' && err.name.startsWith('SequelizeConnection')) return true;
   const code = err.original?.code ?? err.parent?.code;
@@ -53,7 +58,10 @@ export function noteDatabaseUnavailable(e: unknown): void {
   state.down = true;
   state.since = Date.now();
   const err = e as { name?: string; original?: { code?: string; message?: string } } | null;
-  log.error({ event: 'database.down', reason: err?.original?.message ?? err?.name, code: err?.original?.code }, 'database unreachable; answering 503 until it is back');
+  log.error(
+    { event: 'database.down', reason: err?.original?.message ?? err?.name, code: err?.original?.code },
+    'database unreachable; answering 503 until it is back',
+  );
 }
 
 /** Records that the database answered again (logged once, with how long it was away). */

@@ -2,7 +2,12 @@ import 'server-only';
 import crypto from 'node:crypto';
 import { z } from 'zod';
 import { sequelize } from '@/lib/db';
-import { DATABASE_RETRY_AFTER_SECONDS, isDatabaseUnavailable, noteDatabaseUnavailable, watchDatabase } from '@/lib/db-outage';
+import {
+  DATABASE_RETRY_AFTER_SECONDS,
+  isDatabaseUnavailable,
+  noteDatabaseUnavailable,
+  watchDatabase,
+} from '@/lib/db-outage';
 import { log } from '@/lib/log';
 import { requestContext } from '@/lib/request-context';
 import { COMMON_HEADERS, DOWNLOAD_CSP, HSTS } from '@/lib/security/headers';
@@ -83,7 +88,8 @@ async function readTextLimited(req: Request, limit: number): Promise<string> {
 const PROTOTYPE_KEYS = new Set([...Object.getOwnPropertyNames(Object.prototype), 'prototype']);
 
 /** A readable field name from a JSON path, with any control characters shown as "?". */
-const fieldName = (path: (string | number)[]) => (path.length ? path.join('.') : '_form').replace(/[\u0000-\u001f\u007f]/g, '?');
+const fieldName = (path: (string | number)[]) =>
+  (path.length ? path.join('.') : '_form').replace(/[\u0000-\u001f\u007f]/g, '?');
 
 /**
  * Refuses text no person types (control characters other than tab and line breaks, including the
@@ -107,7 +113,8 @@ export function checkHostileText(value: unknown): void {
     if (Array.isArray(v)) v.forEach((item, i) => walk(item, [...path, i]));
     else
       for (const [k, item] of Object.entries(v)) {
-        if (CONTROL_CHARS.test(k) || PROTOTYPE_KEYS.has(k)) (fields[fieldName([...path, k])] ??= []).push('This field is not accepted here.');
+        if (CONTROL_CHARS.test(k) || PROTOTYPE_KEYS.has(k))
+          (fields[fieldName([...path, k])] ??= []).push('This field is not accepted here.');
         walk(item, [...path, k]);
       }
   };
@@ -181,7 +188,8 @@ function checkWriteRequest(req: Request): void {
   // A bearer caller is an integration, not a browser: no cookie acts for it (lib/auth/session.ts),
   // so another site cannot borrow its credentials, and the origin check does not apply.
   const bearer = /^Bearer\s/i.test(req.headers.get('authorization') ?? '');
-  if (!bearer && !isSameOriginRequest(req)) throw new HttpError(403, 'This request did not come from Tallyvat\'s own pages.');
+  if (!bearer && !isSameOriginRequest(req))
+    throw new HttpError(403, "This request did not come from Tallyvat's own pages.");
   // A body without a type is refused by parseBody and readUpload when the route reads one.
   const type = req.headers.get('content-type');
   if (type !== null && !BODY_TYPES.test(type)) {
@@ -233,7 +241,11 @@ export function handler<P = Record<string, string>>(fn: (req: Request, params: P
  * The access-log line of one API request, at info: failures are logged where they are understood
  * (an unexpected error once with its request id, an unreachable database once per outage).
  */
-function logRequest(req: Request, res: Response, o: { requestId: string; coop: string | undefined; durationMs: number }) {
+function logRequest(
+  req: Request,
+  res: Response,
+  o: { requestId: string; coop: string | undefined; durationMs: number },
+) {
   try {
     res.headers.set('X-Request-Id', o.requestId);
   } catch {
@@ -258,7 +270,8 @@ const LOCKED_SQLSTATE = 'TV409';
  * mean nothing to a person. Unlisted constraints get the generic wording of their kind.
  */
 const CONSTRAINT_REASONS: Record<string, string> = {
-  tanks_reserved_within_on_hand: 'The tank no longer holds enough fuel for that; the figures changed while you were working. Reload and try again.',
+  tanks_reserved_within_on_hand:
+    'The tank no longer holds enough fuel for that; the figures changed while you were working. Reload and try again.',
   tanks_on_hand_nonnegative: 'That would take the tank below empty.',
 };
 
@@ -274,7 +287,11 @@ export function databaseErrorResponse(e: unknown): Response | null {
   if (isDatabaseUnavailable(e)) {
     noteDatabaseUnavailable(e);
     return Response.json(
-      { error: 'We can\'t reach the database right now. Nothing was changed; please try again in a few seconds.', code: 'database-unavailable', retryAfter: DATABASE_RETRY_AFTER_SECONDS },
+      {
+        error: "We can't reach the database right now. Nothing was changed; please try again in a few seconds.",
+        code: 'database-unavailable',
+        retryAfter: DATABASE_RETRY_AFTER_SECONDS,
+      },
       { status: 503, headers: { 'Retry-After': String(DATABASE_RETRY_AFTER_SECONDS) } },
     );
   }
@@ -289,15 +306,31 @@ export function databaseErrorResponse(e: unknown): Response | null {
     case code === '23505':
       return Response.json({ error: reason ?? 'That already exists.', code: 'duplicate', constraint }, { status: 409 });
     case code === '23514':
-      return Response.json({ error: reason ?? 'That change breaks one of the co-op\'s rules and was not made.', code: 'check', constraint }, { status: 409 });
+      return Response.json(
+        { error: reason ?? "That change breaks one of the co-op's rules and was not made.", code: 'check', constraint },
+        { status: 409 },
+      );
     case code === '23503':
-      return Response.json({ error: reason ?? 'That refers to something that does not exist or is still in use.', code: 'reference', constraint }, { status: 409 });
+      return Response.json(
+        {
+          error: reason ?? 'That refers to something that does not exist or is still in use.',
+          code: 'reference',
+          constraint,
+        },
+        { status: 409 },
+      );
     case code === '23502':
       return Response.json({ error: 'A required value is missing.', code: 'required' }, { status: 422 });
     case code.startsWith('22'):
-      return Response.json({ error: 'A value is not one the database can store (too long, out of range or malformed).', code: 'value' }, { status: 422 });
+      return Response.json(
+        { error: 'A value is not one the database can store (too long, out of range or malformed).', code: 'value' },
+        { status: 422 },
+      );
     case code === '40001' || code === '40P01' || code === '55P03':
-      return Response.json({ error: 'The co-op was busy with the same records; please try again.', code: 'busy', retryAfter: 1 }, { status: 503, headers: { 'Retry-After': '1' } });
+      return Response.json(
+        { error: 'The co-op was busy with the same records; please try again.', code: 'busy', retryAfter: 1 },
+        { status: 503, headers: { 'Retry-After': '1' } },
+      );
     default:
       return null;
   }
@@ -310,7 +343,10 @@ export function databaseErrorResponse(e: unknown): Response | null {
  */
 export function errorResponse(e: unknown, requestId: string = crypto.randomUUID()): Response {
   if (e instanceof HttpError) {
-    return Response.json({ error: e.message, ...(e.fields ? { fields: e.fields } : {}), ...(e.extra ?? {}) }, { status: e.status });
+    return Response.json(
+      { error: e.message, ...(e.fields ? { fields: e.fields } : {}), ...(e.extra ?? {}) },
+      { status: e.status },
+    );
   }
   const mapped = databaseErrorResponse(e);
   if (mapped) return mapped;

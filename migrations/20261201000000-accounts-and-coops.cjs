@@ -59,7 +59,9 @@ module.exports = {
           updated_at TIMESTAMPTZ NOT NULL DEFAULT now()
         )`);
       await q(`CREATE INDEX invitations_coop_id ON invitations (coop_id)`);
-      await q(`CREATE UNIQUE INDEX invitations_one_pending_per_email ON invitations (coop_id, lower(email)) WHERE status = 'pending'`);
+      await q(
+        `CREATE UNIQUE INDEX invitations_one_pending_per_email ON invitations (coop_id, lower(email)) WHERE status = 'pending'`,
+      );
       await q(`
         CREATE TABLE auth_tokens (
           id SERIAL PRIMARY KEY,
@@ -100,7 +102,15 @@ module.exports = {
 
   async down(queryInterface) {
     await queryInterface.sequelize.transaction(async (transaction) => {
-      for (const t of ['audit_events', 'sign_in_attempts', 'auth_tokens', 'invitations', 'memberships', 'users', 'coops']) {
+      for (const t of [
+        'audit_events',
+        'sign_in_attempts',
+        'auth_tokens',
+        'invitations',
+        'memberships',
+        'users',
+        'coops',
+      ]) {
         await queryInterface.sequelize.query(`DROP TABLE ${t}`, { transaction });
       }
     });

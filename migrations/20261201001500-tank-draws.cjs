@@ -14,12 +14,20 @@ module.exports = {
       const q = (sql) => queryInterface.sequelize.query(sql, { transaction });
       await q(`CREATE INDEX reservations_open_window ON reservations (coop_id, window_end) WHERE status = 'open'`);
       await q(`CREATE INDEX reservations_coop_created ON reservations (coop_id, created_at DESC)`);
-      await q(`ALTER TABLE reservations ADD CONSTRAINT reservations_closed_when_not_open CHECK ((status = 'open') = (closed_at IS NULL))`);
+      await q(
+        `ALTER TABLE reservations ADD CONSTRAINT reservations_closed_when_not_open CHECK ((status = 'open') = (closed_at IS NULL))`,
+      );
 
       await q(`ALTER TABLE draws ADD CONSTRAINT draws_coop_id_id_key UNIQUE (coop_id, id)`);
-      await q(`ALTER TABLE draws ADD CONSTRAINT draws_reversal_same_coop FOREIGN KEY (coop_id, reverses_draw_id) REFERENCES draws (coop_id, id)`);
-      await q(`ALTER TABLE draws ADD CONSTRAINT draws_reversal_has_reason CHECK (reverses_draw_id IS NULL OR length(btrim(reason)) > 0)`);
-      await q(`CREATE UNIQUE INDEX draws_one_per_reservation ON draws (reservation_id) WHERE reservation_id IS NOT NULL AND reverses_draw_id IS NULL`);
+      await q(
+        `ALTER TABLE draws ADD CONSTRAINT draws_reversal_same_coop FOREIGN KEY (coop_id, reverses_draw_id) REFERENCES draws (coop_id, id)`,
+      );
+      await q(
+        `ALTER TABLE draws ADD CONSTRAINT draws_reversal_has_reason CHECK (reverses_draw_id IS NULL OR length(btrim(reason)) > 0)`,
+      );
+      await q(
+        `CREATE UNIQUE INDEX draws_one_per_reservation ON draws (reservation_id) WHERE reservation_id IS NOT NULL AND reverses_draw_id IS NULL`,
+      );
       await q(`CREATE INDEX draws_coop_tank ON draws (coop_id, tank_id)`);
       await q(`
         CREATE FUNCTION draws_locked_columns() RETURNS trigger LANGUAGE plpgsql AS $$
@@ -37,14 +45,18 @@ module.exports = {
           END IF;
           RETURN NEW;
         END $$`);
-      await q(`CREATE TRIGGER draws_locked_columns BEFORE UPDATE ON draws FOR EACH ROW EXECUTE FUNCTION draws_locked_columns()`);
+      await q(
+        `CREATE TRIGGER draws_locked_columns BEFORE UPDATE ON draws FOR EACH ROW EXECUTE FUNCTION draws_locked_columns()`,
+      );
 
       await q(`
         CREATE FUNCTION tank_movements_append_only() RETURNS trigger LANGUAGE plpgsql AS $$
         BEGIN
           RAISE EXCEPTION 'the tank ledger is append-only' USING ERRCODE = 'check_violation';
         END $$`);
-      await q(`CREATE TRIGGER tank_movements_append_only BEFORE UPDATE ON tank_movements FOR EACH ROW EXECUTE FUNCTION tank_movements_append_only()`);
+      await q(
+        `CREATE TRIGGER tank_movements_append_only BEFORE UPDATE ON tank_movements FOR EACH ROW EXECUTE FUNCTION tank_movements_append_only()`,
+      );
       await q(`ALTER TABLE tank_movements ALTER CONSTRAINT tank_movements_draw_id_fkey DEFERRABLE INITIALLY DEFERRED`);
       await q(`CREATE INDEX tank_movements_draw ON tank_movements (draw_id) WHERE draw_id IS NOT NULL`);
 

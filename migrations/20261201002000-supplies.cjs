@@ -37,7 +37,9 @@ module.exports = {
         )`);
       await q(`CREATE INDEX chemical_lots_coop_id ON chemical_lots (coop_id)`);
       // FIFO picks the oldest lots of a kind that still hold something.
-      await q(`CREATE INDEX chemical_lots_fifo ON chemical_lots (coop_id, kind, received_on, id) WHERE remaining_quantity > 0`);
+      await q(
+        `CREATE INDEX chemical_lots_fifo ON chemical_lots (coop_id, kind, received_on, id) WHERE remaining_quantity > 0`,
+      );
       await q(`CREATE INDEX chemical_lots_received ON chemical_lots (coop_id, received_on DESC, id DESC)`);
       await q(`
         CREATE TABLE oil_lots (

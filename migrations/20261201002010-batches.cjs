@@ -89,10 +89,16 @@ module.exports = {
       await q(`CREATE INDEX batches_coop_status_number ON batches (coop_id, status, number DESC)`);
       await q(`CREATE INDEX batches_coop_date ON batches (coop_id, batch_date DESC, number DESC)`);
       // The batch list sorts by cost per gallon and volume released with unreleased batches last, either way.
-      await q(`CREATE INDEX batches_coop_cost_asc ON batches (coop_id, cost_per_gallon_cents ASC NULLS LAST, number ASC)`);
-      await q(`CREATE INDEX batches_coop_cost_desc ON batches (coop_id, cost_per_gallon_cents DESC NULLS LAST, number DESC)`);
+      await q(
+        `CREATE INDEX batches_coop_cost_asc ON batches (coop_id, cost_per_gallon_cents ASC NULLS LAST, number ASC)`,
+      );
+      await q(
+        `CREATE INDEX batches_coop_cost_desc ON batches (coop_id, cost_per_gallon_cents DESC NULLS LAST, number DESC)`,
+      );
       await q(`CREATE INDEX batches_coop_volume_asc ON batches (coop_id, released_liters ASC NULLS LAST, number ASC)`);
-      await q(`CREATE INDEX batches_coop_volume_desc ON batches (coop_id, released_liters DESC NULLS LAST, number DESC)`);
+      await q(
+        `CREATE INDEX batches_coop_volume_desc ON batches (coop_id, released_liters DESC NULLS LAST, number DESC)`,
+      );
       await q(`
         CREATE TABLE batch_oil_lots (
           coop_id INTEGER NOT NULL REFERENCES coops(id) ON DELETE CASCADE,
@@ -150,7 +156,9 @@ module.exports = {
         )`);
       await q(`CREATE INDEX batch_files_coop_id ON batch_files (coop_id)`);
       await q(`CREATE INDEX batch_files_batch ON batch_files (batch_id)`);
-      await q(`ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_batch_fk FOREIGN KEY (coop_id, batch_id) REFERENCES batches (coop_id, id)`);
+      await q(
+        `ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_batch_fk FOREIGN KEY (coop_id, batch_id) REFERENCES batches (coop_id, id)`,
+      );
     });
   },
 

@@ -67,7 +67,9 @@ module.exports = {
           CHECK (done_members <= total_members)
         )`);
       await q(`CREATE INDEX billing_runs_coop_period ON billing_runs (coop_id, period, id DESC)`);
-      await q(`CREATE UNIQUE INDEX billing_runs_one_running ON billing_runs (coop_id, period) WHERE status = 'running'`);
+      await q(
+        `CREATE UNIQUE INDEX billing_runs_one_running ON billing_runs (coop_id, period) WHERE status = 'running'`,
+      );
 
       await q(`
         CREATE TABLE billing_adjustments (
@@ -114,7 +116,9 @@ module.exports = {
           CHECK ((status = 'void') = (voided_at IS NOT NULL)),
           CHECK (paid_cents <= GREATEST(total_cents, 0))
         )`);
-      await q(`CREATE UNIQUE INDEX invoices_one_live_per_member_month ON invoices (coop_id, membership_id, period) WHERE kind = 'invoice' AND status <> 'void'`);
+      await q(
+        `CREATE UNIQUE INDEX invoices_one_live_per_member_month ON invoices (coop_id, membership_id, period) WHERE kind = 'invoice' AND status <> 'void'`,
+      );
       await q(`CREATE INDEX invoices_coop_period ON invoices (coop_id, period, status)`);
       await q(`CREATE INDEX invoices_membership ON invoices (membership_id, period DESC)`);
       await q(`CREATE INDEX invoices_email_queue ON invoices (coop_id) WHERE email_status = 'queued'`);
@@ -145,8 +149,12 @@ module.exports = {
         )`);
       await q(`CREATE INDEX invoice_lines_invoice ON invoice_lines (invoice_id, sort_key)`);
       await q(`CREATE INDEX invoice_lines_coop_id ON invoice_lines (coop_id)`);
-      await q(`CREATE UNIQUE INDEX invoice_lines_draw_billed_once ON invoice_lines (draw_id) WHERE draw_id IS NOT NULL AND NOT released`);
-      await q(`CREATE UNIQUE INDEX invoice_lines_adjustment_billed_once ON invoice_lines (adjustment_id) WHERE adjustment_id IS NOT NULL AND NOT released`);
+      await q(
+        `CREATE UNIQUE INDEX invoice_lines_draw_billed_once ON invoice_lines (draw_id) WHERE draw_id IS NOT NULL AND NOT released`,
+      );
+      await q(
+        `CREATE UNIQUE INDEX invoice_lines_adjustment_billed_once ON invoice_lines (adjustment_id) WHERE adjustment_id IS NOT NULL AND NOT released`,
+      );
 
       await q(`
         CREATE TABLE payment_attempts (
@@ -173,7 +181,9 @@ module.exports = {
         )`);
       await q(`CREATE INDEX payment_attempts_coop_id ON payment_attempts (coop_id, status)`);
       await q(`CREATE INDEX payment_attempts_invoice ON payment_attempts (coop_id, invoice_id)`);
-      await q(`CREATE UNIQUE INDEX payment_attempts_one_open_per_invoice ON payment_attempts (invoice_id) WHERE status = 'pending'`);
+      await q(
+        `CREATE UNIQUE INDEX payment_attempts_one_open_per_invoice ON payment_attempts (invoice_id) WHERE status = 'pending'`,
+      );
 
       await q(`
         CREATE TABLE payments (
@@ -285,9 +295,15 @@ module.exports = {
           END IF;
           RETURN NULL;
         END $$`);
-      await q(`CREATE TRIGGER billing_lock_draws_ins AFTER INSERT ON draws REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_draws()`);
-      await q(`CREATE TRIGGER billing_lock_draws_upd AFTER UPDATE ON draws REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_draws()`);
-      await q(`CREATE TRIGGER billing_lock_draws_del AFTER DELETE ON draws REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_draws()`);
+      await q(
+        `CREATE TRIGGER billing_lock_draws_ins AFTER INSERT ON draws REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_draws()`,
+      );
+      await q(
+        `CREATE TRIGGER billing_lock_draws_upd AFTER UPDATE ON draws REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_draws()`,
+      );
+      await q(
+        `CREATE TRIGGER billing_lock_draws_del AFTER DELETE ON draws REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_draws()`,
+      );
 
       // Invoices: issued ones keep their content; a closed month's invoices change only in what
       // later payments and e-mails touch (paid amount, paid status, sending status).
@@ -311,8 +327,12 @@ module.exports = {
           END IF;
           RETURN NULL;
         END $$`);
-      await q(`CREATE TRIGGER billing_lock_invoices_ins AFTER INSERT ON invoices REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoices()`);
-      await q(`CREATE TRIGGER billing_lock_invoices_del AFTER DELETE ON invoices REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoices()`);
+      await q(
+        `CREATE TRIGGER billing_lock_invoices_ins AFTER INSERT ON invoices REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoices()`,
+      );
+      await q(
+        `CREATE TRIGGER billing_lock_invoices_del AFTER DELETE ON invoices REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoices()`,
+      );
       await q(`
         CREATE FUNCTION billing_lock_invoice_update() RETURNS trigger LANGUAGE plpgsql AS $$
         DECLARE hit DATE := OLD.period;
@@ -330,7 +350,9 @@ module.exports = {
           END IF;
           RETURN NEW;
         END $$`);
-      await q(`CREATE TRIGGER billing_lock_invoices_upd BEFORE UPDATE ON invoices FOR EACH ROW EXECUTE FUNCTION billing_lock_invoice_update()`);
+      await q(
+        `CREATE TRIGGER billing_lock_invoices_upd BEFORE UPDATE ON invoices FOR EACH ROW EXECUTE FUNCTION billing_lock_invoice_update()`,
+      );
 
       // Lines change only while their invoice is a draft; voiding only flips "released". The
       // statement checks look invoices up by primary key (id = ANY(...)), never by a join.
@@ -355,8 +377,12 @@ module.exports = {
           END IF;
           RETURN NULL;
         END $$`);
-      await q(`CREATE TRIGGER billing_lock_invoice_lines_ins AFTER INSERT ON invoice_lines REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoice_lines()`);
-      await q(`CREATE TRIGGER billing_lock_invoice_lines_del AFTER DELETE ON invoice_lines REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoice_lines()`);
+      await q(
+        `CREATE TRIGGER billing_lock_invoice_lines_ins AFTER INSERT ON invoice_lines REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoice_lines()`,
+      );
+      await q(
+        `CREATE TRIGGER billing_lock_invoice_lines_del AFTER DELETE ON invoice_lines REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_invoice_lines()`,
+      );
       await q(`
         CREATE FUNCTION billing_lock_invoice_line_update() RETURNS trigger LANGUAGE plpgsql AS $$
         DECLARE st VARCHAR;
@@ -370,7 +396,9 @@ module.exports = {
           END IF;
           RETURN NEW;
         END $$`);
-      await q(`CREATE TRIGGER billing_lock_invoice_lines_upd BEFORE UPDATE ON invoice_lines FOR EACH ROW EXECUTE FUNCTION billing_lock_invoice_line_update()`);
+      await q(
+        `CREATE TRIGGER billing_lock_invoice_lines_upd BEFORE UPDATE ON invoice_lines FOR EACH ROW EXECUTE FUNCTION billing_lock_invoice_line_update()`,
+      );
 
       // Payments received in a closed month: only a later refund's bookkeeping may change.
       await q(`
@@ -385,8 +413,12 @@ module.exports = {
           IF hit IS NOT NULL THEN RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = ${CLOSED_MSG}; END IF;
           RETURN NULL;
         END $$`);
-      await q(`CREATE TRIGGER billing_lock_payments_ins AFTER INSERT ON payments REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_payments()`);
-      await q(`CREATE TRIGGER billing_lock_payments_del AFTER DELETE ON payments REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_payments()`);
+      await q(
+        `CREATE TRIGGER billing_lock_payments_ins AFTER INSERT ON payments REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_payments()`,
+      );
+      await q(
+        `CREATE TRIGGER billing_lock_payments_del AFTER DELETE ON payments REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION billing_lock_payments()`,
+      );
       await q(`
         CREATE FUNCTION billing_lock_payment_update() RETURNS trigger LANGUAGE plpgsql AS $$
         DECLARE hit DATE := OLD.period;
@@ -400,7 +432,9 @@ module.exports = {
           END IF;
           RETURN NEW;
         END $$`);
-      await q(`CREATE TRIGGER billing_lock_payments_upd BEFORE UPDATE ON payments FOR EACH ROW EXECUTE FUNCTION billing_lock_payment_update()`);
+      await q(
+        `CREATE TRIGGER billing_lock_payments_upd BEFORE UPDATE ON payments FOR EACH ROW EXECUTE FUNCTION billing_lock_payment_update()`,
+      );
 
       // A closed month stays closed; the credit ledger is append-only.
       await q(`
@@ -414,19 +448,45 @@ module.exports = {
           END IF;
           RAISE EXCEPTION USING ERRCODE = 'TV409', MESSAGE = 'Member credit is an append-only ledger; add a correcting entry instead.';
         END $$`);
-      await q(`CREATE TRIGGER billing_periods_stay_closed BEFORE UPDATE OR DELETE ON billing_periods FOR EACH ROW EXECUTE FUNCTION billing_refuse_change()`);
-      await q(`CREATE TRIGGER member_credits_append_only BEFORE UPDATE OR DELETE ON member_credits FOR EACH ROW EXECUTE FUNCTION billing_refuse_change()`);
+      await q(
+        `CREATE TRIGGER billing_periods_stay_closed BEFORE UPDATE OR DELETE ON billing_periods FOR EACH ROW EXECUTE FUNCTION billing_refuse_change()`,
+      );
+      await q(
+        `CREATE TRIGGER member_credits_append_only BEFORE UPDATE OR DELETE ON member_credits FOR EACH ROW EXECUTE FUNCTION billing_refuse_change()`,
+      );
     });
   },
 
   async down(queryInterface) {
     await queryInterface.sequelize.transaction(async (transaction) => {
       const q = (sql) => queryInterface.sequelize.query(sql, { transaction });
-      for (const t of ['billing_lock_draws_ins', 'billing_lock_draws_upd', 'billing_lock_draws_del']) await q(`DROP TRIGGER ${t} ON draws`);
-      for (const t of ['payment_webhook_events', 'member_credits', 'refunds', 'payments', 'payment_attempts', 'invoice_lines', 'invoices', 'billing_adjustments', 'billing_runs', 'invoice_counters', 'billing_periods']) {
+      for (const t of ['billing_lock_draws_ins', 'billing_lock_draws_upd', 'billing_lock_draws_del'])
+        await q(`DROP TRIGGER ${t} ON draws`);
+      for (const t of [
+        'payment_webhook_events',
+        'member_credits',
+        'refunds',
+        'payments',
+        'payment_attempts',
+        'invoice_lines',
+        'invoices',
+        'billing_adjustments',
+        'billing_runs',
+        'invoice_counters',
+        'billing_periods',
+      ]) {
         await q(`DROP TABLE ${t}`);
       }
-      for (const f of ['billing_refuse_change()', 'billing_lock_payment_update()', 'billing_lock_payments()', 'billing_lock_invoice_line_update()', 'billing_lock_invoice_lines()', 'billing_lock_invoice_update()', 'billing_lock_invoices()', 'billing_lock_draws()']) {
+      for (const f of [
+        'billing_refuse_change()',
+        'billing_lock_payment_update()',
+        'billing_lock_payments()',
+        'billing_lock_invoice_line_update()',
+        'billing_lock_invoice_lines()',
+        'billing_lock_invoice_update()',
+        'billing_lock_invoices()',
+        'billing_lock_draws()',
+      ]) {
         await q(`DROP FUNCTION ${f}`);
       }
     });

@@ -17,7 +17,9 @@ module.exports = {
           n INTEGER NOT NULL CHECK (n >= 0),
           PRIMARY KEY (coop_id, status)
         )`);
-      await q(`INSERT INTO batch_status_counts (coop_id, status, n) SELECT coop_id, status, count(*) FROM batches GROUP BY coop_id, status`);
+      await q(
+        `INSERT INTO batch_status_counts (coop_id, status, n) SELECT coop_id, status, count(*) FROM batches GROUP BY coop_id, status`,
+      );
       await q(`
         CREATE FUNCTION batch_status_counts_track() RETURNS trigger LANGUAGE plpgsql AS $$
         BEGIN
@@ -30,7 +32,9 @@ module.exports = {
           END IF;
           RETURN NULL;
         END $$`);
-      await q(`CREATE TRIGGER batches_status_count_rows AFTER INSERT OR DELETE ON batches FOR EACH ROW EXECUTE FUNCTION batch_status_counts_track()`);
+      await q(
+        `CREATE TRIGGER batches_status_count_rows AFTER INSERT OR DELETE ON batches FOR EACH ROW EXECUTE FUNCTION batch_status_counts_track()`,
+      );
       await q(`
         CREATE TRIGGER batches_status_count_moves AFTER UPDATE OF status, coop_id ON batches FOR EACH ROW
         WHEN (OLD.status IS DISTINCT FROM NEW.status OR OLD.coop_id IS DISTINCT FROM NEW.coop_id)

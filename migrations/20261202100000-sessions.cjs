@@ -22,7 +22,9 @@ module.exports = {
         )`);
       await q(`CREATE INDEX sessions_user_id ON sessions (user_id) WHERE revoked_at IS NULL`);
       await q(`ALTER TABLE sign_in_attempts ADD COLUMN device_id VARCHAR(32)`);
-      await q(`CREATE INDEX sign_in_attempts_device ON sign_in_attempts (device_id, created_at) WHERE device_id IS NOT NULL`);
+      await q(
+        `CREATE INDEX sign_in_attempts_device ON sign_in_attempts (device_id, created_at) WHERE device_id IS NOT NULL`,
+      );
     });
   },
   async down(queryInterface) {

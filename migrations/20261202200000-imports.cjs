@@ -30,12 +30,18 @@ module.exports = {
       await q(`CREATE INDEX imports_coop_id ON imports (coop_id, created_at DESC)`);
       await q(`CREATE UNIQUE INDEX imports_same_file ON imports (coop_id, kind, file_hash) WHERE status = 'done'`);
       await q(`ALTER TABLE invitations DROP CONSTRAINT invitations_delivery_check`);
-      await q(`ALTER TABLE invitations ADD CONSTRAINT invitations_delivery_check CHECK (delivery IN ('queued','sent','not-sent'))`);
-      await q(`ALTER TABLE invitations ADD COLUMN name VARCHAR(120), ADD COLUMN import_id INTEGER REFERENCES imports(id) ON DELETE SET NULL`);
+      await q(
+        `ALTER TABLE invitations ADD CONSTRAINT invitations_delivery_check CHECK (delivery IN ('queued','sent','not-sent'))`,
+      );
+      await q(
+        `ALTER TABLE invitations ADD COLUMN name VARCHAR(120), ADD COLUMN import_id INTEGER REFERENCES imports(id) ON DELETE SET NULL`,
+      );
       await q(`CREATE INDEX invitations_import_id ON invitations (import_id) WHERE import_id IS NOT NULL`);
       // Opening tank stock is one ledger row of its own kind (and its undoing, a negative one).
       await q(`ALTER TABLE tank_movements DROP CONSTRAINT tank_movements_kind_check`);
-      await q(`ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out','opening'))`);
+      await q(
+        `ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out','opening'))`,
+      );
     });
   },
   async down(queryInterface) {
@@ -43,11 +49,15 @@ module.exports = {
       const q = (sql) => queryInterface.sequelize.query(sql, { transaction });
       await q(`DELETE FROM tank_movements WHERE kind = 'opening'`);
       await q(`ALTER TABLE tank_movements DROP CONSTRAINT tank_movements_kind_check`);
-      await q(`ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out'))`);
+      await q(
+        `ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out'))`,
+      );
       await q(`ALTER TABLE invitations DROP COLUMN import_id, DROP COLUMN name`);
       await q(`UPDATE invitations SET delivery = 'not-sent' WHERE delivery = 'queued'`);
       await q(`ALTER TABLE invitations DROP CONSTRAINT invitations_delivery_check`);
-      await q(`ALTER TABLE invitations ADD CONSTRAINT invitations_delivery_check CHECK (delivery IN ('sent','not-sent'))`);
+      await q(
+        `ALTER TABLE invitations ADD CONSTRAINT invitations_delivery_check CHECK (delivery IN ('sent','not-sent'))`,
+      );
       await q('DROP TABLE imports');
     });
   },

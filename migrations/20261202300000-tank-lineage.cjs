@@ -20,15 +20,21 @@ module.exports = {
   async up(queryInterface) {
     await queryInterface.sequelize.transaction(async (transaction) => {
       const q = (sql) => queryInterface.sequelize.query(sql, { transaction });
-      await q(`ALTER TABLE tanks ADD COLUMN mixing VARCHAR(5) NOT NULL DEFAULT 'mixed' CHECK (mixing IN ('mixed','fifo'))`);
+      await q(
+        `ALTER TABLE tanks ADD COLUMN mixing VARCHAR(5) NOT NULL DEFAULT 'mixed' CHECK (mixing IN ('mixed','fifo'))`,
+      );
       await q(`ALTER TABLE tanks ADD COLUMN held_liters NUMERIC(14,3) NOT NULL DEFAULT 0`);
-      await q(`ALTER TABLE tanks ADD CONSTRAINT tanks_held_within_on_hand CHECK (held_liters >= 0 AND held_liters <= on_hand_liters)`);
+      await q(
+        `ALTER TABLE tanks ADD CONSTRAINT tanks_held_within_on_hand CHECK (held_liters >= 0 AND held_liters <= on_hand_liters)`,
+      );
 
       await q(`ALTER TABLE tank_movements DROP CONSTRAINT tank_movements_kind_check`);
       await q(`ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check
                CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out','opening','disposal','retreat'))`);
       await q(`ALTER TABLE batch_files DROP CONSTRAINT batch_files_purpose_check`);
-      await q(`ALTER TABLE batch_files ADD CONSTRAINT batch_files_purpose_check CHECK (purpose IN ('photo','lab-report','receipt'))`);
+      await q(
+        `ALTER TABLE batch_files ADD CONSTRAINT batch_files_purpose_check CHECK (purpose IN ('photo','lab-report','receipt'))`,
+      );
       await q(`ALTER TABLE batch_files ADD CONSTRAINT batch_files_coop_id_id_key UNIQUE (coop_id, id)`);
 
       await q(`
@@ -63,7 +69,9 @@ module.exports = {
       await q(`CREATE INDEX movement_batch_shares_movement ON movement_batch_shares (movement_id)`);
       await q(`CREATE INDEX movement_batch_shares_coop_batch ON movement_batch_shares (coop_id, batch_id)`);
       await q(`CREATE INDEX movement_batch_shares_draw ON movement_batch_shares (draw_id) WHERE draw_id IS NOT NULL`);
-      await q(`CREATE TRIGGER movement_batch_shares_append_only BEFORE UPDATE ON movement_batch_shares FOR EACH ROW EXECUTE FUNCTION tank_movements_append_only()`);
+      await q(
+        `CREATE TRIGGER movement_batch_shares_append_only BEFORE UPDATE ON movement_batch_shares FOR EACH ROW EXECUTE FUNCTION tank_movements_append_only()`,
+      );
 
       // Layers sum to on hand: checked at commit for every tank a statement touched.
       await q(`
@@ -157,7 +165,9 @@ module.exports = {
       await q(`DROP TABLE tank_layers`);
       await q(`ALTER TABLE batch_files DROP CONSTRAINT batch_files_coop_id_id_key`);
       await q(`ALTER TABLE batch_files DROP CONSTRAINT batch_files_purpose_check`);
-      await q(`ALTER TABLE batch_files ADD CONSTRAINT batch_files_purpose_check CHECK (purpose IN ('photo','lab-report'))`);
+      await q(
+        `ALTER TABLE batch_files ADD CONSTRAINT batch_files_purpose_check CHECK (purpose IN ('photo','lab-report'))`,
+      );
       await q(`ALTER TABLE tank_movements DROP CONSTRAINT tank_movements_kind_check`);
       await q(`ALTER TABLE tank_movements ADD CONSTRAINT tank_movements_kind_check
                CHECK (kind IN ('release','draw','draw-reversal','dip-adjustment','transfer-in','transfer-out','opening'))`);

@@ -9,11 +9,21 @@
  *  `imports.kind` gains 'past-batches'.
  *  @type {import('sequelize-cli').Migration} */
 const RECIPE = [
-  'titration_trials_ml', 'titrant', 'titration_avg_ml', 'catalyst', 'base_g_per_l', 'purity_pct',
-  'titrant_from', 'catalyst_rule', 'methanol_mode', 'computed_catalyst_grams', 'computed_methanol_liters',
+  'titration_trials_ml',
+  'titrant',
+  'titration_avg_ml',
+  'catalyst',
+  'base_g_per_l',
+  'purity_pct',
+  'titrant_from',
+  'catalyst_rule',
+  'methanol_mode',
+  'computed_catalyst_grams',
+  'computed_methanol_liters',
 ];
 const STATUSES = "'planned','reacting','settling','draining','washing','drying','testing','released','rejected'";
-const METHANOL_MODE = "(methanol_mode = 'percent' AND methanol_pct IS NOT NULL) OR (methanol_mode = 'molar-ratio' AND molar_ratio IS NOT NULL)";
+const METHANOL_MODE =
+  "(methanol_mode = 'percent' AND methanol_pct IS NOT NULL) OR (methanol_mode = 'molar-ratio' AND molar_ratio IS NOT NULL)";
 const KINDS = "'invitations','opening-balances','opening-tank','opening-supplies'";
 
 module.exports = {
@@ -24,9 +34,15 @@ module.exports = {
       await q(`ALTER TABLE batches ADD CONSTRAINT batches_status_check CHECK (status IN (${STATUSES},'imported'))`);
       for (const c of RECIPE) await q(`ALTER TABLE batches ALTER COLUMN ${c} DROP NOT NULL`);
       await q(`ALTER TABLE batches DROP CONSTRAINT batches_methanol_mode`);
-      await q(`ALTER TABLE batches ADD CONSTRAINT batches_methanol_mode CHECK (status = 'imported' OR ${METHANOL_MODE})`);
-      await q(`ALTER TABLE batches ADD CONSTRAINT batches_recipe_unless_imported CHECK (status = 'imported' OR (${RECIPE.map((c) => `${c} IS NOT NULL`).join(' AND ')}))`);
-      await q(`ALTER TABLE batches ADD CONSTRAINT batches_imported_summary CHECK (status <> 'imported' OR (tank_id IS NULL AND released_liters IS NOT NULL AND released_at IS NOT NULL))`);
+      await q(
+        `ALTER TABLE batches ADD CONSTRAINT batches_methanol_mode CHECK (status = 'imported' OR ${METHANOL_MODE})`,
+      );
+      await q(
+        `ALTER TABLE batches ADD CONSTRAINT batches_recipe_unless_imported CHECK (status = 'imported' OR (${RECIPE.map((c) => `${c} IS NOT NULL`).join(' AND ')}))`,
+      );
+      await q(
+        `ALTER TABLE batches ADD CONSTRAINT batches_imported_summary CHECK (status <> 'imported' OR (tank_id IS NULL AND released_liters IS NOT NULL AND released_at IS NOT NULL))`,
+      );
       await q(`ALTER TABLE imports DROP CONSTRAINT imports_kind_check`);
       await q(`ALTER TABLE imports ADD CONSTRAINT imports_kind_check CHECK (kind IN (${KINDS},'past-batches'))`);
     });

@@ -1,13 +1,29 @@
 import {
-  type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes,
-  Model, DataTypes, type Sequelize,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Coop } from './Coop';
 import type { User } from './User';
 
 /** The steps of a batch, in order; released and rejected are final. `imported` is a past batch
  *  brought in from a spreadsheet in summary (no recipe, no steps, no tank movement: read-only). */
-export const BATCH_STATUSES = ['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing', 'released', 'rejected', 'imported'] as const;
+export const BATCH_STATUSES = [
+  'planned',
+  'reacting',
+  'settling',
+  'draining',
+  'washing',
+  'drying',
+  'testing',
+  'released',
+  'rejected',
+  'imported',
+] as const;
 export type BatchStatus = (typeof BATCH_STATUSES)[number];
 
 /**

@@ -1,6 +1,11 @@
 import {
-  type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes,
-  Model, DataTypes, type Sequelize,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Batch } from './Batch';
 import type { Coop } from './Coop';

@@ -1,6 +1,10 @@
 import {
-  type ForeignKey, type InferAttributes, type InferCreationAttributes,
-  Model, DataTypes, type Sequelize,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Batch } from './Batch';
 import type { Coop } from './Coop';

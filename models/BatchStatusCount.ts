@@ -1,4 +1,11 @@
-import { type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 import type { Coop } from './Coop';
 import type { BatchStatus } from './Batch';
 
@@ -7,7 +14,10 @@ import type { BatchStatus } from './Batch';
  * transaction as every batch change (migration 20261202000000), so the batch list's total is a
  * primary-key read. Never written by the application.
  */
-export class BatchStatusCount extends Model<InferAttributes<BatchStatusCount>, InferCreationAttributes<BatchStatusCount>> {
+export class BatchStatusCount extends Model<
+  InferAttributes<BatchStatusCount>,
+  InferCreationAttributes<BatchStatusCount>
+> {
   declare coopId: ForeignKey<Coop['id']>;
   declare status: BatchStatus;
   declare n: number;
@@ -19,7 +29,13 @@ export class BatchStatusCount extends Model<InferAttributes<BatchStatusCount>, I
         status: { type: DataTypes.STRING(20), allowNull: false, primaryKey: true },
         n: { type: DataTypes.INTEGER, allowNull: false },
       },
-      { sequelize, modelName: 'BatchStatusCount', tableName: 'batch_status_counts', underscored: true, timestamps: false },
+      {
+        sequelize,
+        modelName: 'BatchStatusCount',
+        tableName: 'batch_status_counts',
+        underscored: true,
+        timestamps: false,
+      },
     );
   }
 }

@@ -1,13 +1,21 @@
 import {
-  type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes,
-  Model, DataTypes, type Sequelize,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Batch } from './Batch';
 import type { Coop } from './Coop';
 import type { User } from './User';
 
 /** A reaction temperature reading, °C, with the level temperatureCheck gave it. */
-export class BatchTemperature extends Model<InferAttributes<BatchTemperature>, InferCreationAttributes<BatchTemperature>> {
+export class BatchTemperature extends Model<
+  InferAttributes<BatchTemperature>,
+  InferCreationAttributes<BatchTemperature>
+> {
   declare id: CreationOptional<string>;
   declare coopId: ForeignKey<Coop['id']>;
   declare batchId: ForeignKey<Batch['id']>;
@@ -26,7 +34,13 @@ export class BatchTemperature extends Model<InferAttributes<BatchTemperature>, I
         level: { type: DataTypes.STRING(8), allowNull: false },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, modelName: 'BatchTemperature', tableName: 'batch_temperatures', underscored: true, updatedAt: false },
+      {
+        sequelize,
+        modelName: 'BatchTemperature',
+        tableName: 'batch_temperatures',
+        underscored: true,
+        updatedAt: false,
+      },
     );
   }
 }

@@ -1,10 +1,22 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 import type { Coop } from './Coop';
 import type { InvoiceLine } from './InvoiceLine';
 import type { Membership } from './Membership';
 
 /** A charge (positive) or credit (negative) for a member, billed on their first invoice of `period` or later. */
-export class BillingAdjustment extends Model<InferAttributes<BillingAdjustment>, InferCreationAttributes<BillingAdjustment>> {
+export class BillingAdjustment extends Model<
+  InferAttributes<BillingAdjustment>,
+  InferCreationAttributes<BillingAdjustment>
+> {
   declare id: CreationOptional<number>;
   declare coopId: ForeignKey<Coop['id']>;
   declare membershipId: ForeignKey<Membership['id']>;
@@ -29,7 +41,13 @@ export class BillingAdjustment extends Model<InferAttributes<BillingAdjustment>,
         createdByUserId: { type: DataTypes.INTEGER, allowNull: true },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, modelName: 'BillingAdjustment', tableName: 'billing_adjustments', underscored: true, updatedAt: false },
+      {
+        sequelize,
+        modelName: 'BillingAdjustment',
+        tableName: 'billing_adjustments',
+        underscored: true,
+        updatedAt: false,
+      },
     );
   }
 }

@@ -1,4 +1,12 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 import type { Coop } from './Coop';
 
 /** A billing month's state; once closed, its draws, invoices and payments are locked. */

@@ -1,13 +1,21 @@
 import {
-  type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes,
-  Model, DataTypes, type Sequelize,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Batch } from './Batch';
 import type { ChemicalLot } from './ChemicalLot';
 import type { Coop } from './Coop';
 
 /** A FIFO slice of a chemical lot consumed by a batch, priced in cents. */
-export class ChemicalConsumption extends Model<InferAttributes<ChemicalConsumption>, InferCreationAttributes<ChemicalConsumption>> {
+export class ChemicalConsumption extends Model<
+  InferAttributes<ChemicalConsumption>,
+  InferCreationAttributes<ChemicalConsumption>
+> {
   declare id: CreationOptional<number>;
   declare coopId: ForeignKey<Coop['id']>;
   declare batchId: ForeignKey<Batch['id']>;
@@ -24,7 +32,13 @@ export class ChemicalConsumption extends Model<InferAttributes<ChemicalConsumpti
         costCents: { type: DataTypes.BIGINT, allowNull: false },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, modelName: 'ChemicalConsumption', tableName: 'chemical_consumptions', underscored: true, updatedAt: false },
+      {
+        sequelize,
+        modelName: 'ChemicalConsumption',
+        tableName: 'chemical_consumptions',
+        underscored: true,
+        updatedAt: false,
+      },
     );
   }
 }

@@ -1,6 +1,12 @@
 import {
-  type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute,
-  Model, DataTypes, type Sequelize,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Coop } from './Coop';
 import type { Role } from './Membership';

@@ -1,4 +1,13 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type NonAttribute, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type NonAttribute,
+  type Sequelize,
+} from 'sequelize';
 import type { Coop } from './Coop';
 import type { InvoiceLine } from './InvoiceLine';
 import type { Membership } from './Membership';

@@ -1,4 +1,12 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 import type { Coop } from './Coop';
 
 export type LowStockChemical = 'methanol' | 'KOH' | 'NaOH';

@@ -1,4 +1,11 @@
-import { type CreationOptional, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 
 /**
  * The e-mail send ledger (lib/mail/once.ts): one row per message handed to SMTP, keyed by what

@@ -1,8 +1,17 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 import type { Coop } from './Coop';
 import type { Membership } from './Membership';
 
-export type MemberCreditKind = 'overpayment' | 'applied' | 'refund' | 'refund-reversed' | 'void-restore' | 'void-reverse' | 'negative-invoice';
+export type MemberCreditKind =
+  'overpayment' | 'applied' | 'refund' | 'refund-reversed' | 'void-restore' | 'void-reverse' | 'negative-invoice';
 
 /** One entry of a member's credit ledger (append-only); the balance is the sum. */
 export class MemberCredit extends Model<InferAttributes<MemberCredit>, InferCreationAttributes<MemberCredit>> {

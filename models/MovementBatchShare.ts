@@ -1,6 +1,11 @@
 import {
-  type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes,
-  Model, DataTypes, type Sequelize,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Batch } from './Batch';
 import type { Coop } from './Coop';
@@ -13,7 +18,10 @@ import type { TankMovement } from './TankMovement';
  * shares sum exactly to its ledger row (deferred constraint trigger); `drawId` repeats the row's
  * draw so "who drew batch N" is one indexed read.
  */
-export class MovementBatchShare extends Model<InferAttributes<MovementBatchShare>, InferCreationAttributes<MovementBatchShare>> {
+export class MovementBatchShare extends Model<
+  InferAttributes<MovementBatchShare>,
+  InferCreationAttributes<MovementBatchShare>
+> {
   declare id: CreationOptional<string>; // BIGSERIAL arrives as a string
   declare coopId: ForeignKey<Coop['id']>;
   declare movementId: ForeignKey<TankMovement['id']>;
@@ -35,7 +43,13 @@ export class MovementBatchShare extends Model<InferAttributes<MovementBatchShare
         quantityLiters: { type: DataTypes.DECIMAL(14, 3), allowNull: false },
         createdAt: DataTypes.DATE,
       },
-      { sequelize, modelName: 'MovementBatchShare', tableName: 'movement_batch_shares', underscored: true, updatedAt: false },
+      {
+        sequelize,
+        modelName: 'MovementBatchShare',
+        tableName: 'movement_batch_shares',
+        underscored: true,
+        updatedAt: false,
+      },
     );
   }
 }

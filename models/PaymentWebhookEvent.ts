@@ -1,7 +1,17 @@
-import { type CreationOptional, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 
 /** An event received from the payments provider, stored once per event id. */
-export class PaymentWebhookEvent extends Model<InferAttributes<PaymentWebhookEvent>, InferCreationAttributes<PaymentWebhookEvent>> {
+export class PaymentWebhookEvent extends Model<
+  InferAttributes<PaymentWebhookEvent>,
+  InferCreationAttributes<PaymentWebhookEvent>
+> {
   declare id: CreationOptional<string>;
   declare stripeEventId: string;
   declare type: string;
@@ -24,7 +34,13 @@ export class PaymentWebhookEvent extends Model<InferAttributes<PaymentWebhookEve
         payload: { type: DataTypes.JSONB, allowNull: false },
         receivedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
       },
-      { sequelize, modelName: 'PaymentWebhookEvent', tableName: 'payment_webhook_events', underscored: true, timestamps: false },
+      {
+        sequelize,
+        modelName: 'PaymentWebhookEvent',
+        tableName: 'payment_webhook_events',
+        underscored: true,
+        timestamps: false,
+      },
     );
   }
 }

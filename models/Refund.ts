@@ -1,4 +1,13 @@
-import { type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 import type { Coop } from './Coop';
 import type { Membership } from './Membership';
 import type { Payment } from './Payment';

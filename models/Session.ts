@@ -1,4 +1,11 @@
-import { type CreationOptional, type InferAttributes, type InferCreationAttributes, Model, DataTypes, type Sequelize } from 'sequelize';
+import {
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  Model,
+  DataTypes,
+  type Sequelize,
+} from 'sequelize';
 
 /**
  * One signed-in browser. The session cookie carries a random id; this row keeps its SHA-256.

@@ -1,13 +1,28 @@
 import {
-  type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute,
-  Model, DataTypes, type Sequelize,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
+  Model,
+  DataTypes,
+  type Sequelize,
 } from 'sequelize';
 import type { Coop } from './Coop';
 import type { Draw } from './Draw';
 import type { Tank } from './Tank';
 import type { User } from './User';
 
-export type TankMovementKind = 'release' | 'draw' | 'draw-reversal' | 'dip-adjustment' | 'transfer-in' | 'transfer-out' | 'opening' | 'disposal' | 'retreat';
+export type TankMovementKind =
+  | 'release'
+  | 'draw'
+  | 'draw-reversal'
+  | 'dip-adjustment'
+  | 'transfer-in'
+  | 'transfer-out'
+  | 'opening'
+  | 'disposal'
+  | 'retreat';
 
 /**
  * One row of the append-only tank ledger (UPDATE is refused by a trigger). Written only by

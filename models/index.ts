@@ -83,11 +83,21 @@ Draw.belongsTo(User, { foreignKey: 'recordedByUserId', as: 'recordedBy' });
 Reservation.hasOne(Draw, { foreignKey: 'reservationId', as: 'draw' });
 
 // brewing: supplies and batches (child rows are read with explicit queries; no eager loading)
-for (const m of [ChemicalLot, OilLot, Batch, BatchOilLot, BatchTemperature, ChemicalConsumption, BatchFile]) m.initModel(sequelize);
-for (const m of [ChemicalLot, OilLot, Batch, BatchOilLot, BatchTemperature, ChemicalConsumption, BatchFile] as ModelStatic<Model>[]) {
+for (const m of [ChemicalLot, OilLot, Batch, BatchOilLot, BatchTemperature, ChemicalConsumption, BatchFile])
+  m.initModel(sequelize);
+for (const m of [
+  ChemicalLot,
+  OilLot,
+  Batch,
+  BatchOilLot,
+  BatchTemperature,
+  ChemicalConsumption,
+  BatchFile,
+] as ModelStatic<Model>[]) {
   m.belongsTo(Coop, { foreignKey: 'coopId', as: 'coop' });
 }
-for (const m of [ChemicalLot, OilLot, Batch, BatchTemperature] as ModelStatic<Model>[]) m.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
+for (const m of [ChemicalLot, OilLot, Batch, BatchTemperature] as ModelStatic<Model>[])
+  m.belongsTo(User, { foreignKey: 'createdByUserId', as: 'createdBy' });
 BatchFile.belongsTo(User, { foreignKey: 'uploadedByUserId', as: 'uploadedBy' });
 ChemicalConsumption.belongsTo(ChemicalLot, { foreignKey: 'chemicalLotId', as: 'lot' });
 BatchOilLot.belongsTo(OilLot, { foreignKey: 'oilLotId', as: 'oilLot' });
@@ -109,7 +119,19 @@ BatchReview.belongsTo(Batch, { foreignKey: 'batchId', as: 'batch' });
 
 // Billing: invoices, lines, payments, refunds, credit, adjustments, runs, months, provider events.
 InvoiceCounter.initModel(sequelize);
-for (const m of [BillingPeriod, BillingRun, BillingAdjustment, Invoice, InvoiceLine, PaymentAttempt, Payment, Refund, MemberCredit, PaymentWebhookEvent]) m.initModel(sequelize);
+for (const m of [
+  BillingPeriod,
+  BillingRun,
+  BillingAdjustment,
+  Invoice,
+  InvoiceLine,
+  PaymentAttempt,
+  Payment,
+  Refund,
+  MemberCredit,
+  PaymentWebhookEvent,
+])
+  m.initModel(sequelize);
 Invoice.hasMany(InvoiceLine, { foreignKey: 'invoiceId', as: 'lines' });
 InvoiceLine.belongsTo(Invoice, { foreignKey: 'invoiceId', as: 'invoice' });
 Invoice.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' });
@@ -125,9 +147,31 @@ BillingAdjustment.hasOne(InvoiceLine, { foreignKey: 'adjustmentId', as: 'billedL
 
 export { sequelize, AuditEvent, AuthToken, Coop, Invitation, MailSend, Membership, SignInAttempt, User };
 export { DipReading, Draw, PricePolicy, Reservation, Tank, TankMovement };
-export { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, LowStockAlert, OilLot };
+export {
+  Batch,
+  BatchFile,
+  BatchOilLot,
+  BatchStatusCount,
+  BatchTemperature,
+  ChemicalConsumption,
+  ChemicalLot,
+  LowStockAlert,
+  OilLot,
+};
 export { BatchReview, MovementBatchShare, TankLayer };
-export { BillingAdjustment, BillingPeriod, BillingRun, Invoice, InvoiceCounter, InvoiceLine, MemberCredit, Payment, PaymentAttempt, PaymentWebhookEvent, Refund };
+export {
+  BillingAdjustment,
+  BillingPeriod,
+  BillingRun,
+  Invoice,
+  InvoiceCounter,
+  InvoiceLine,
+  MemberCredit,
+  Payment,
+  PaymentAttempt,
+  PaymentWebhookEvent,
+  Refund,
+};
 
 // server-side sessions (sign-out revokes the row; requireMember includes it in its one query)
 import { Session } from './Session';

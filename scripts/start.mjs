@@ -49,10 +49,19 @@ if (fs.existsSync(LOCK)) {
   } catch {
     /* stale lock */
   }
-  if (alive) fail(`Tallyvat is already running from this folder (pid ${pid}) on http://localhost:${port}. Stop it with Ctrl-C in its terminal first.`);
+  if (alive)
+    fail(
+      `Tallyvat is already running from this folder (pid ${pid}) on http://localhost:${port}. Stop it with Ctrl-C in its terminal first.`,
+    );
 }
 const ownStorage = !process.env.S3_BUCKET;
-for (const [name, p] of [['PORT', PORT], ['SMTP_PORT', SMTP_PORT], ['MAIL_UI_PORT', MAIL_UI_PORT], ['PAYMENTS_PORT', PAYMENTS_PORT], ...(ownStorage ? [['STORAGE_PORT', STORAGE_PORT]] : [])]) {
+for (const [name, p] of [
+  ['PORT', PORT],
+  ['SMTP_PORT', SMTP_PORT],
+  ['MAIL_UI_PORT', MAIL_UI_PORT],
+  ['PAYMENTS_PORT', PAYMENTS_PORT],
+  ...(ownStorage ? [['STORAGE_PORT', STORAGE_PORT]] : []),
+]) {
   if (await portInUse(p)) fail(`Port ${p} (${name}) is already in use. Free it or set ${name}=<another port>.`);
 }
 /** The lock file names this launcher, its port, and the pid of each child it supervises. */
@@ -108,7 +117,9 @@ function supervise(name, child) {
   cleanups.push(() => stopChild(child, 3_000));
   child.on('exit', (code, signal) => {
     if (stopping) return;
-    console.error(`\n[tallyvat] ${name} stopped unexpectedly (${signal ? `signal ${signal}` : `exit code ${code}`}); stopping everything.\n`);
+    console.error(
+      `\n[tallyvat] ${name} stopped unexpectedly (${signal ? `signal ${signal}` : `exit code ${code}`}); stopping everything.\n`,
+    );
     shutdown(code || 1);
   });
 }
@@ -134,7 +145,12 @@ try {
     fs.writeFileSync(webhookSecretFile, `whsec_${crypto.randomBytes(24).toString('base64url')}`, { mode: 0o600 });
   }
   const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET ?? fs.readFileSync(webhookSecretFile, 'utf8').trim();
-  const pay = await startPaymentsFake({ port: PAYMENTS_PORT, webhookUrl: `http://127.0.0.1:${PORT}/api/payments/webhook`, webhookSecret, log });
+  const pay = await startPaymentsFake({
+    port: PAYMENTS_PORT,
+    webhookUrl: `http://127.0.0.1:${PORT}/api/payments/webhook`,
+    webhookSecret,
+    log,
+  });
   cleanups.push(pay.stop);
 
   let storage = {};
@@ -164,9 +180,15 @@ try {
   if (fs.existsSync(legacyUploads)) {
     log(`Moving the files in ${legacyUploads} into object storage…`);
     // A child process, awaited without blocking: the storage fake it talks to runs in this process.
-    const child = spawn(process.execPath, [path.resolve('scripts', 'storage-import.mjs'), legacyUploads], { env, stdio: 'inherit' });
+    const child = spawn(process.execPath, [path.resolve('scripts', 'storage-import.mjs'), legacyUploads], {
+      env,
+      stdio: 'inherit',
+    });
     const code = await new Promise((resolve) => child.once('exit', (c, signal) => resolve(signal ?? c)));
-    if (code !== 0) throw new Error(`moving ${legacyUploads} into object storage failed (exit ${code}); see above, fix, and start again`);
+    if (code !== 0)
+      throw new Error(
+        `moving ${legacyUploads} into object storage failed (exit ${code}); see above, fix, and start again`,
+      );
     fs.renameSync(legacyUploads, `${legacyUploads}.imported`);
     log(`Done; the old folder is kept as ${legacyUploads}.imported (delete it when you are happy).`);
   }
@@ -176,7 +198,9 @@ try {
   supervise('worker', (await startWorkerProcess({ env, log })).child);
   supervise('next', startNext({ env, port: PORT, dev }).child);
   log(`Tallyvat: http://localhost:${PORT}   caught e-mail: http://127.0.0.1:${MAIL_UI_PORT}/`);
-  log('Demo sign-ins (password tallyvat-demo-2026): marisol.admin@example.org, tobias.treasurer@example.org, juniper.brewer@example.org, dale.member@example.org');
+  log(
+    'Demo sign-ins (password tallyvat-demo-2026): marisol.admin@example.org, tobias.treasurer@example.org, juniper.brewer@example.org, dale.member@example.org',
+  );
 } catch (e) {
   console.error(`\n[tallyvat] ${e.message}\n`);
   await shutdown(1);

@@ -16,7 +16,8 @@ for (const name of ['DATABASE_URL', 'S3_BUCKET']) {
     process.exit(1);
   }
 }
-if (!fs.existsSync(dir)) console.log(`[storage-import] ${dir} does not exist; only checking the bucket against the database.`);
+if (!fs.existsSync(dir))
+  console.log(`[storage-import] ${dir} does not exist; only checking the bucket against the database.`);
 const bundle = await buildWorker({ log: (m) => console.log('[storage-import]', m) });
 const { importLocalFolder } = await import(pathToFileURL(bundle).href);
 const report = await importLocalFolder(dir, (m) => console.log('[storage-import]', m));

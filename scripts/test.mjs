@@ -14,5 +14,8 @@ try {
   process.exit(1);
 }
 const vitest = path.resolve('node_modules', 'vitest', 'vitest.mjs');
-const r = spawnSync(process.execPath, [vitest, 'run', ...process.argv.slice(2)], { stdio: 'inherit', env: process.env });
+const r = spawnSync(process.execPath, [vitest, 'run', ...process.argv.slice(2)], {
+  stdio: 'inherit',
+  env: process.env,
+});
 process.exit(r.status ?? 1);

@@ -16,10 +16,17 @@ if (!process.env.DATABASE_URL) {
   process.exit(1);
 }
 const file = await buildWorker({ log: (m) => console.log('[worker]', m) });
-const processes = process.env.WORKER_CHILD ? 1 : Math.max(1, Number(process.env.WORKER_PROCESSES ?? os.availableParallelism()));
+const processes = process.env.WORKER_CHILD
+  ? 1
+  : Math.max(1, Number(process.env.WORKER_PROCESSES ?? os.availableParallelism()));
 
 if (processes > 1) {
-  const children = Array.from({ length: processes }, () => fork(fileURLToPath(import.meta.url), { env: { ...process.env, WORKER_CHILD: '1' }, stdio: ['ignore', 'pipe', 'inherit', 'ipc'] }));
+  const children = Array.from({ length: processes }, () =>
+    fork(fileURLToPath(import.meta.url), {
+      env: { ...process.env, WORKER_CHILD: '1' },
+      stdio: ['ignore', 'pipe', 'inherit', 'ipc'],
+    }),
+  );
   let ready = 0;
   for (const c of children) {
     c.stdout.on('data', (b) => {
@@ -42,7 +49,14 @@ if (processes > 1) {
   const stop = async (code = 0) => {
     if (stopping) return;
     stopping = true;
-    await Promise.all(children.map((c) => new Promise((r) => (c.exitCode !== null || c.signalCode !== null ? r() : (c.once('exit', r), c.kill('SIGTERM'))))));
+    await Promise.all(
+      children.map(
+        (c) =>
+          new Promise((r) =>
+            c.exitCode !== null || c.signalCode !== null ? r() : (c.once('exit', r), c.kill('SIGTERM')),
+          ),
+      ),
+    );
     process.exit(code);
   };
   process.on('SIGTERM', () => stop(0));

@@ -5,10 +5,30 @@ const bcrypt = require('bcryptjs');
 const DEMO_PASSWORD = 'tallyvat-demo-2026';
 
 const COOPS = [
-  { name: 'Prairie Lantern Fuel Co-op', slug: 'prairie-lantern', units: 'us', currency: 'USD', timezone: 'America/Chicago',
-    settings: { selfServeDraws: false, monthlyDuesCents: 1500, recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } } },
-  { name: 'Harbourside Oil Circle', slug: 'harbourside', units: 'metric', currency: 'USD', timezone: 'America/Halifax',
-    settings: { selfServeDraws: true, monthlyDuesCents: 1000, recipe: { catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 98, methanolPct: 20 } } },
+  {
+    name: 'Prairie Lantern Fuel Co-op',
+    slug: 'prairie-lantern',
+    units: 'us',
+    currency: 'USD',
+    timezone: 'America/Chicago',
+    settings: {
+      selfServeDraws: false,
+      monthlyDuesCents: 1500,
+      recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 },
+    },
+  },
+  {
+    name: 'Harbourside Oil Circle',
+    slug: 'harbourside',
+    units: 'metric',
+    currency: 'USD',
+    timezone: 'America/Halifax',
+    settings: {
+      selfServeDraws: true,
+      monthlyDuesCents: 1000,
+      recipe: { catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 98, methanolPct: 20 },
+    },
+  },
 ];
 
 const PEOPLE = [
@@ -51,10 +71,12 @@ module.exports = {
   async down(queryInterface) {
     await queryInterface.sequelize.transaction(async (transaction) => {
       await queryInterface.sequelize.query(`DELETE FROM users WHERE lower(email) IN (:emails)`, {
-        transaction, replacements: { emails: PEOPLE.map((p) => p.email) },
+        transaction,
+        replacements: { emails: PEOPLE.map((p) => p.email) },
       });
       await queryInterface.sequelize.query(`DELETE FROM coops WHERE slug IN (:slugs)`, {
-        transaction, replacements: { slugs: COOPS.map((c) => c.slug) },
+        transaction,
+        replacements: { slugs: COOPS.map((c) => c.slug) },
       });
     });
   },

@@ -18,9 +18,13 @@ export default async function MyCoopsPage() {
     <div className="min-h-screen">
       <header className="bg-fir-800 text-white">
         <div className="mx-auto flex max-w-4xl items-center justify-between px-4 py-3">
-          <Link href="/" className="text-white no-underline"><Logo className="text-lg" /></Link>
+          <Link href="/" className="text-white no-underline">
+            <Logo className="text-lg" />
+          </Link>
           <div className="flex items-center gap-3 text-sm">
-            <Link className="text-white" href="/profile">{user.name}</Link>
+            <Link className="text-white" href="/profile">
+              {user.name}
+            </Link>
             <SignOutButton className="text-white underline-offset-2 hover:underline" />
           </div>
         </div>
@@ -39,11 +43,16 @@ export default async function MyCoopsPage() {
               {coops.map((c) => (
                 <li key={c.slug} className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm">
                   {c.status === 'active' ? (
-                    <Link href={`/c/${c.slug}`} className="text-lg font-semibold">{c.name}</Link>
+                    <Link href={`/c/${c.slug}`} className="text-lg font-semibold">
+                      {c.name}
+                    </Link>
                   ) : (
                     <span className="text-lg font-semibold text-stone-600">{c.name}</span>
                   )}
-                  <p className="text-sm text-stone-600">{c.role}{c.status === 'suspended' ? ' · suspended' : ''}</p>
+                  <p className="text-sm text-stone-600">
+                    {c.role}
+                    {c.status === 'suspended' ? ' · suspended' : ''}
+                  </p>
                 </li>
               ))}
             </ul>

@@ -12,11 +12,15 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
   const target = safeNextPath(next);
   return (
     <main className="mx-auto flex min-h-screen max-w-md flex-col justify-center px-4 py-10">
-      <Link href="/" className="mb-6 text-fir-800 no-underline"><Logo className="text-2xl" /></Link>
+      <Link href="/" className="mb-6 text-fir-800 no-underline">
+        <Logo className="text-2xl" />
+      </Link>
       <div className="rounded-xl border border-stone-200 bg-white p-6 shadow-sm">
         <h1 className="mb-4">Sign in</h1>
         <SignInForm next={target} />
-        <p className="mt-4 text-sm"><Link href="/reset-password">Forgot your password?</Link></p>
+        <p className="mt-4 text-sm">
+          <Link href="/reset-password">Forgot your password?</Link>
+        </p>
       </div>
     </main>
   );

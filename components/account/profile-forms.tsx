@@ -17,13 +17,28 @@ export function NameForm({ name }: { name: string }) {
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const body = { name: formObject(e.currentTarget).name ?? '' };
-    if (await send((b) => apiClient.PATCH('/api/me', { body: b }), { schema: 'profileUpdateSchema', body }, 'Name saved.')) router.refresh();
+    if (
+      await send((b) => apiClient.PATCH('/api/me', { body: b }), { schema: 'profileUpdateSchema', body }, 'Name saved.')
+    )
+      router.refresh();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
-      <TextField label="Name" name="name" autoComplete="name" defaultValue={name} required errors={fields.name} hint="As other members of your co-ops see it." />
-      <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save name'}</Button></div>
+      <TextField
+        label="Name"
+        name="name"
+        autoComplete="name"
+        defaultValue={name}
+        required
+        errors={fields.name}
+        hint="As other members of your co-ops see it."
+      />
+      <div>
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Saving…' : 'Save name'}
+        </Button>
+      </div>
     </form>
   );
 }
@@ -36,20 +51,31 @@ function PendingChange({ pendingEmail, delivery }: { pendingEmail: string; deliv
   if (delivery?.status === 'failed') {
     return (
       <Notice tone="danger" title="Confirmation e-mail not delivered">
-        The link to <strong>{pendingEmail}</strong> could not be sent after several tries. Check the address and send it again below.
+        The link to <strong>{pendingEmail}</strong> could not be sent after several tries. Check the address and send it
+        again below.
       </Notice>
     );
   }
   return (
     <Notice tone="info">
       A change to <strong>{pendingEmail}</strong> is waiting for you to open the link sent there.{' '}
-      <span className="font-semibold">{delivery?.status === 'queued' ? 'Confirmation e-mail: queued.' : 'Confirmation e-mail: sent.'}</span>
+      <span className="font-semibold">
+        {delivery?.status === 'queued' ? 'Confirmation e-mail: queued.' : 'Confirmation e-mail: sent.'}
+      </span>
     </Notice>
   );
 }
 
 /** New address + current password → a confirmation link goes to the new address. */
-export function EmailForm({ email, pendingEmail, delivery = null }: { email: string; pendingEmail: string | null; delivery?: Delivery }) {
+export function EmailForm({
+  email,
+  pendingEmail,
+  delivery = null,
+}: {
+  email: string;
+  pendingEmail: string | null;
+  delivery?: Delivery;
+}) {
   const router = useRouter();
   const { busy, fields, message, send, setMessage } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
@@ -62,19 +88,46 @@ export function EmailForm({ email, pendingEmail, delivery = null }: { email: str
     form.reset();
     setMessage(
       r.sent
-        ? { tone: 'ok', text: `A confirmation link is on its way to ${r.pendingEmail}. Your address changes when you open it (within 24 hours).` }
-        : { tone: 'danger', text: `The confirmation e-mail to ${r.pendingEmail} could not be sent just now. Try again in a few minutes.` },
+        ? {
+            tone: 'ok',
+            text: `A confirmation link is on its way to ${r.pendingEmail}. Your address changes when you open it (within 24 hours).`,
+          }
+        : {
+            tone: 'danger',
+            text: `The confirmation e-mail to ${r.pendingEmail} could not be sent just now. Try again in a few minutes.`,
+          },
     );
     router.refresh();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
-      <p className="text-sm text-stone-700">You sign in with <strong>{email}</strong>.</p>
+      <p className="text-sm text-stone-700">
+        You sign in with <strong>{email}</strong>.
+      </p>
       {pendingEmail ? <PendingChange pendingEmail={pendingEmail} delivery={delivery} /> : null}
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
-      <TextField label="New e-mail address" name="email" type="email" autoComplete="email" required errors={fields.email} />
-      <TextField label="Current password" id="email-current-password" name="currentPassword" type="password" autoComplete="current-password" required errors={fields.currentPassword} />
-      <div><Button type="submit" disabled={busy}>{busy ? 'Sending…' : 'Send confirmation link'}</Button></div>
+      <TextField
+        label="New e-mail address"
+        name="email"
+        type="email"
+        autoComplete="email"
+        required
+        errors={fields.email}
+      />
+      <TextField
+        label="Current password"
+        id="email-current-password"
+        name="currentPassword"
+        type="password"
+        autoComplete="current-password"
+        required
+        errors={fields.currentPassword}
+      />
+      <div>
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Sending…' : 'Send confirmation link'}
+        </Button>
+      </div>
     </form>
   );
 }
@@ -94,7 +147,10 @@ export function PasswordForm({ email }: { email: string }) {
       return;
     }
     const body = { currentPassword: data.currentPassword ?? '', newPassword: data.newPassword ?? '' };
-    const r = await send((b) => apiClient.POST('/api/me/password', { body: b }), { schema: 'passwordChangeSchema', body });
+    const r = await send((b) => apiClient.POST('/api/me/password', { body: b }), {
+      schema: 'passwordChangeSchema',
+      body,
+    });
     if (!r) return;
     form.reset();
     const again = await signInWithPassword(email, data.newPassword ?? '');
@@ -108,10 +164,36 @@ export function PasswordForm({ email }: { email: string }) {
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <input type="hidden" name="username" autoComplete="username" value={email} readOnly />
-      <TextField label="Current password" name="currentPassword" type="password" autoComplete="current-password" required errors={fields.currentPassword} />
-      <TextField label="New password" name="newPassword" type="password" autoComplete="new-password" required errors={fields.newPassword} hint="12 to 128 characters. A few unrelated words make a strong one." />
-      <TextField label="New password again" name="confirm" type="password" autoComplete="new-password" required errors={fields.confirm} />
-      <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Change password'}</Button></div>
+      <TextField
+        label="Current password"
+        name="currentPassword"
+        type="password"
+        autoComplete="current-password"
+        required
+        errors={fields.currentPassword}
+      />
+      <TextField
+        label="New password"
+        name="newPassword"
+        type="password"
+        autoComplete="new-password"
+        required
+        errors={fields.newPassword}
+        hint="12 to 128 characters. A few unrelated words make a strong one."
+      />
+      <TextField
+        label="New password again"
+        name="confirm"
+        type="password"
+        autoComplete="new-password"
+        required
+        errors={fields.confirm}
+      />
+      <div>
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Saving…' : 'Change password'}
+        </Button>
+      </div>
     </form>
   );
 }
@@ -136,11 +218,19 @@ export function SignOutEverywhere() {
       {error ? <Notice tone="danger">{error}</Notice> : null}
       {confirming ? (
         <div className="flex flex-wrap gap-2">
-          <Button type="button" variant="danger" onClick={go} disabled={busy}>{busy ? 'Signing out…' : 'Yes, sign out everywhere'}</Button>
-          <Button type="button" variant="secondary" onClick={() => setConfirming(false)} disabled={busy}>Cancel</Button>
+          <Button type="button" variant="danger" onClick={go} disabled={busy}>
+            {busy ? 'Signing out…' : 'Yes, sign out everywhere'}
+          </Button>
+          <Button type="button" variant="secondary" onClick={() => setConfirming(false)} disabled={busy}>
+            Cancel
+          </Button>
         </div>
       ) : (
-        <div><Button type="button" variant="secondary" onClick={() => setConfirming(true)}>Sign out everywhere</Button></div>
+        <div>
+          <Button type="button" variant="secondary" onClick={() => setConfirming(true)}>
+            Sign out everywhere
+          </Button>
+        </div>
       )}
     </div>
   );
@@ -148,19 +238,32 @@ export function SignOutEverywhere() {
 
 /** The button on the e-mail confirmation page. */
 export function ConfirmEmailButton({ token, newEmail }: { token: string; newEmail: string }) {
-  const [state, setState] = useState<{ busy: boolean; error: string | null; done: boolean }>({ busy: false, error: null, done: false });
+  const [state, setState] = useState<{ busy: boolean; error: string | null; done: boolean }>({
+    busy: false,
+    error: null,
+    done: false,
+  });
   async function confirm() {
     setState({ busy: true, error: null, done: false });
-    const r = await callApi((b) => apiClient.POST('/api/me/email/confirm', { body: b }), { schema: 'emailConfirmSchema', body: { token } });
+    const r = await callApi((b) => apiClient.POST('/api/me/email/confirm', { body: b }), {
+      schema: 'emailConfirmSchema',
+      body: { token },
+    });
     setState({ busy: false, error: r.ok ? null : r.error, done: r.ok });
   }
   if (state.done) {
-    return <Notice tone="ok" title="E-mail address changed">From now on, sign in with {newEmail}. <a href="/profile">Go to your profile</a>.</Notice>;
+    return (
+      <Notice tone="ok" title="E-mail address changed">
+        From now on, sign in with {newEmail}. <a href="/profile">Go to your profile</a>.
+      </Notice>
+    );
   }
   return (
     <div className="flex flex-col gap-3">
       {state.error ? <Notice tone="danger">{state.error}</Notice> : null}
-      <Button type="button" onClick={confirm} disabled={state.busy}>{state.busy ? 'Confirming…' : `Use ${newEmail}`}</Button>
+      <Button type="button" onClick={confirm} disabled={state.busy}>
+        {state.busy ? 'Confirming…' : `Use ${newEmail}`}
+      </Button>
     </div>
   );
 }

@@ -22,13 +22,19 @@ export function AcceptWithNewAccount({ token, email }: { token: string; email: s
       return;
     }
     const body = { name: data.name ?? '', password: data.password ?? '' };
-    const r = await send((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: 'newAccountAcceptSchema', body });
+    const r = await send((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), {
+      schema: 'newAccountAcceptSchema',
+      body,
+    });
     if (!r) return;
     setSigningIn(true);
     const signedIn = await signInWithPassword(email, body.password);
     if (!signedIn.ok) {
       setSigningIn(false);
-      setMessage({ tone: 'danger', text: `Your account is ready and you joined ${r.coop.name}, but signing in failed: ${signedIn.message}` });
+      setMessage({
+        tone: 'danger',
+        text: `Your account is ready and you joined ${r.coop.name}, but signing in failed: ${signedIn.message}`,
+      });
       return;
     }
     window.location.assign(`/c/${r.coop.slug}`);
@@ -37,11 +43,43 @@ export function AcceptWithNewAccount({ token, email }: { token: string; email: s
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
-      <TextField label="E-mail" name="email" type="email" autoComplete="username" value={email} readOnly hint="The invited address; you sign in with it." />
-      <TextField label="Your name" name="name" autoComplete="name" required errors={fields.name} hint="As other members of the co-op will see it." />
-      <TextField label="Choose a password" name="password" type="password" autoComplete="new-password" required errors={fields.password} hint="12 to 128 characters. A few unrelated words make a strong one." />
-      <TextField label="Password again" name="confirm" type="password" autoComplete="new-password" required errors={fields.confirm} />
-      <Button type="submit" disabled={busy || signingIn}>{busy || signingIn ? 'Joining…' : 'Create account and join'}</Button>
+      <TextField
+        label="E-mail"
+        name="email"
+        type="email"
+        autoComplete="username"
+        value={email}
+        readOnly
+        hint="The invited address; you sign in with it."
+      />
+      <TextField
+        label="Your name"
+        name="name"
+        autoComplete="name"
+        required
+        errors={fields.name}
+        hint="As other members of the co-op will see it."
+      />
+      <TextField
+        label="Choose a password"
+        name="password"
+        type="password"
+        autoComplete="new-password"
+        required
+        errors={fields.password}
+        hint="12 to 128 characters. A few unrelated words make a strong one."
+      />
+      <TextField
+        label="Password again"
+        name="confirm"
+        type="password"
+        autoComplete="new-password"
+        required
+        errors={fields.confirm}
+      />
+      <Button type="submit" disabled={busy || signingIn}>
+        {busy || signingIn ? 'Joining…' : 'Create account and join'}
+      </Button>
     </form>
   );
 }
@@ -53,7 +91,10 @@ export function JoinButton({ token, coopName }: { token: string; coopName: strin
   async function join() {
     setBusy(true);
     setMessage(null);
-    const r = await callApi((b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }), { schema: 'invitationAcceptSchema', body: {} });
+    const r = await callApi(
+      (b) => apiClient.POST('/api/invitations/{token}', { params: { path: { token } }, body: b }),
+      { schema: 'invitationAcceptSchema', body: {} },
+    );
     if (!r.ok) {
       setBusy(false);
       setMessage(r.error);
@@ -64,7 +105,9 @@ export function JoinButton({ token, coopName }: { token: string; coopName: strin
   return (
     <div className="flex flex-col gap-3">
       {message ? <Notice tone="danger">{message}</Notice> : null}
-      <Button type="button" onClick={join} disabled={busy}>{busy ? 'Joining…' : `Join ${coopName}`}</Button>
+      <Button type="button" onClick={join} disabled={busy}>
+        {busy ? 'Joining…' : `Join ${coopName}`}
+      </Button>
     </div>
   );
 }

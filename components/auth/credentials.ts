@@ -27,7 +27,10 @@ export async function signOutTo(callbackUrl: string): Promise<void> {
  * happened in words a person can act on. Used by the sign-in form, after accepting an
  * invitation, and after a password change (which ends the current session too).
  */
-export async function signInWithPassword(email: string, password: string): Promise<{ ok: true } | { ok: false; message: string }> {
+export async function signInWithPassword(
+  email: string,
+  password: string,
+): Promise<{ ok: true } | { ok: false; message: string }> {
   try {
     const res = await fetch('/api/auth/callback/credentials', {
       method: 'POST',
@@ -40,7 +43,10 @@ export async function signInWithPassword(email: string, password: string): Promi
     if (!res.ok || error) {
       return {
         ok: false,
-        message: error === 'RATE_LIMITED' ? 'Too many failed sign-ins. Wait 15 minutes or reset your password.' : 'That e-mail and password do not match an account.',
+        message:
+          error === 'RATE_LIMITED'
+            ? 'Too many failed sign-ins. Wait 15 minutes or reset your password.'
+            : 'That e-mail and password do not match an account.',
       };
     }
     return { ok: true };

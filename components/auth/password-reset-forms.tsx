@@ -15,16 +15,28 @@ export function ResetRequestForm() {
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const body = { email: formObject(e.currentTarget).email ?? '' };
-    const r = await send((b) => apiClient.POST('/api/password-reset', { body: b }), { schema: 'passwordResetRequestSchema', body });
+    const r = await send((b) => apiClient.POST('/api/password-reset', { body: b }), {
+      schema: 'passwordResetRequestSchema',
+      body,
+    });
     if (r) setDone(r.message);
   }
-  if (done) return <Notice tone="ok" title="Check your e-mail">{done}</Notice>;
+  if (done)
+    return (
+      <Notice tone="ok" title="Check your e-mail">
+        {done}
+      </Notice>
+    );
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
-      <p className="text-sm text-stone-700">Enter the e-mail address you sign in with. We will send a link to choose a new password.</p>
+      <p className="text-sm text-stone-700">
+        Enter the e-mail address you sign in with. We will send a link to choose a new password.
+      </p>
       <TextField label="E-mail" name="email" type="email" autoComplete="email" required errors={fields.email} />
-      <Button type="submit" disabled={busy}>{busy ? 'Sending…' : 'Send the link'}</Button>
+      <Button type="submit" disabled={busy}>
+        {busy ? 'Sending…' : 'Send the link'}
+      </Button>
     </form>
   );
 }
@@ -41,7 +53,10 @@ export function ResetPasswordForm({ token, email }: { token: string; email: stri
       return;
     }
     const body = { password: data.password ?? '' };
-    const r = await send((b) => apiClient.POST('/api/password-reset/{token}', { params: { path: { token } }, body: b }), { schema: 'passwordResetSchema', body });
+    const r = await send(
+      (b) => apiClient.POST('/api/password-reset/{token}', { params: { path: { token } }, body: b }),
+      { schema: 'passwordResetSchema', body },
+    );
     if (r) setDone(true);
   }
   if (done) {
@@ -55,10 +70,31 @@ export function ResetPasswordForm({ token, email }: { token: string; email: stri
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <input type="hidden" name="username" autoComplete="username" value={email} readOnly />
-      <p className="text-sm text-stone-700">For <strong>{email}</strong>. Setting it signs you out on every device.</p>
-      <TextField label="New password" name="password" type="password" autoComplete="new-password" required minLength={12} maxLength={128} errors={fields.password} hint="12 to 128 characters. A few unrelated words make a strong one." />
-      <TextField label="New password again" name="confirm" type="password" autoComplete="new-password" required errors={fields.confirm} />
-      <Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Set new password'}</Button>
+      <p className="text-sm text-stone-700">
+        For <strong>{email}</strong>. Setting it signs you out on every device.
+      </p>
+      <TextField
+        label="New password"
+        name="password"
+        type="password"
+        autoComplete="new-password"
+        required
+        minLength={12}
+        maxLength={128}
+        errors={fields.password}
+        hint="12 to 128 characters. A few unrelated words make a strong one."
+      />
+      <TextField
+        label="New password again"
+        name="confirm"
+        type="password"
+        autoComplete="new-password"
+        required
+        errors={fields.confirm}
+      />
+      <Button type="submit" disabled={busy}>
+        {busy ? 'Saving…' : 'Set new password'}
+      </Button>
     </form>
   );
 }

@@ -41,9 +41,27 @@ export function SignInForm({ next, email }: { next: string; email?: string }) {
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {message ? <Notice tone="danger">{message}</Notice> : null}
-      <TextField label="E-mail" name="email" type="email" autoComplete="email" required errors={errors.email} defaultValue={email} readOnly={email !== undefined} />
-      <TextField label="Password" name="password" type="password" autoComplete="current-password" required errors={errors.password} />
-      <Button type="submit" disabled={busy}>{busy ? 'Signing in…' : 'Sign in'}</Button>
+      <TextField
+        label="E-mail"
+        name="email"
+        type="email"
+        autoComplete="email"
+        required
+        errors={errors.email}
+        defaultValue={email}
+        readOnly={email !== undefined}
+      />
+      <TextField
+        label="Password"
+        name="password"
+        type="password"
+        autoComplete="current-password"
+        required
+        errors={errors.password}
+      />
+      <Button type="submit" disabled={busy}>
+        {busy ? 'Signing in…' : 'Sign in'}
+      </Button>
     </form>
   );
 }

@@ -19,25 +19,55 @@ export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invo
     e.preventDefault();
     const path = { coop, id: String(invoiceId) };
     const body = { reason: formObject(e.currentTarget).reason ?? '' };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/void', { params: { path }, body: b }), { schema: 'invoiceVoidSchema', body });
+    const out = await send(
+      (b) => apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/void', { params: { path }, body: b }),
+      { schema: 'invoiceVoidSchema', body },
+    );
     if (out) router.refresh();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
-      <p className="text-sm text-stone-700">Voiding issues a credit note that cancels {label}. Its draws and adjustments can then be invoiced again; anything paid on it becomes the member’s credit.</p>
+      <p className="text-sm text-stone-700">
+        Voiding issues a credit note that cancels {label}. Its draws and adjustments can then be invoiced again;
+        anything paid on it becomes the member’s credit.
+      </p>
       <TextField label="Reason" name="reason" required maxLength={240} errors={fields.reason} />
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
-      <div><Button type="submit" variant="danger" disabled={busy}>{busy ? 'Voiding…' : `Void ${label}`}</Button></div>
+      <div>
+        <Button type="submit" variant="danger" disabled={busy}>
+          {busy ? 'Voiding…' : `Void ${label}`}
+        </Button>
+      </div>
     </form>
   );
 }
 
-export interface MemberOption { id: number; name: string }
-export interface OpenInvoiceOption { id: number; memberId: number; label: string; outstandingCents: number }
+export interface MemberOption {
+  id: number;
+  name: string;
+}
+export interface OpenInvoiceOption {
+  id: number;
+  memberId: number;
+  label: string;
+  outstandingCents: number;
+}
 
 /** Records cash or a cheque; the invoice is optional (without one the payment waits unmatched). */
-export function RecordPaymentForm({ coop, members, invoices, currency, today, fixed }: {
-  coop: string; members: MemberOption[]; invoices: OpenInvoiceOption[]; currency: string; today: string; fixed?: { memberId: number; invoiceId: number };
+export function RecordPaymentForm({
+  coop,
+  members,
+  invoices,
+  currency,
+  today,
+  fixed,
+}: {
+  coop: string;
+  members: MemberOption[];
+  invoices: OpenInvoiceOption[];
+  currency: string;
+  today: string;
+  fixed?: { memberId: number; invoiceId: number };
 }) {
   const router = useRouter();
   const { busy, fields, message, send } = useApiForm();
@@ -48,8 +78,20 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
     const form = e.currentTarget;
     const f = formObject(form);
     // The select offers cash and cheque only; the server names a bad value.
-    const body = { memberId: f.memberId, method: f.method as 'cash' | 'cheque', amount: f.amount ?? '', receivedOn: f.receivedOn ?? '', invoiceId: f.invoiceId || undefined, reference: f.reference || undefined, note: f.note || undefined };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/payments', { params: { path: { coop } }, body: b }), { schema: 'paymentRecordSchema', body }, 'Payment recorded.');
+    const body = {
+      memberId: f.memberId,
+      method: f.method as 'cash' | 'cheque',
+      amount: f.amount ?? '',
+      receivedOn: f.receivedOn ?? '',
+      invoiceId: f.invoiceId || undefined,
+      reference: f.reference || undefined,
+      note: f.note || undefined,
+    };
+    const out = await send(
+      (b) => apiClient.POST('/api/coops/{coop}/billing/payments', { params: { path: { coop } }, body: b }),
+      { schema: 'paymentRecordSchema', body },
+      'Payment recorded.',
+    );
     if (out) {
       form.reset();
       setMemberId(fixed?.memberId ?? null);
@@ -65,13 +107,34 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
         </>
       ) : (
         <>
-          <SelectField label="Member" name="memberId" required errors={fields.memberId} defaultValue="" onChange={(e) => setMemberId(e.target.value ? Number(e.target.value) : null)}>
+          <SelectField
+            label="Member"
+            name="memberId"
+            required
+            errors={fields.memberId}
+            defaultValue=""
+            onChange={(e) => setMemberId(e.target.value ? Number(e.target.value) : null)}
+          >
             <option value="">Choose a member…</option>
-            {members.map((m) => <option key={m.id} value={m.id}>{m.name}</option>)}
+            {members.map((m) => (
+              <option key={m.id} value={m.id}>
+                {m.name}
+              </option>
+            ))}
           </SelectField>
-          <SelectField label="Apply to invoice" name="invoiceId" errors={fields.invoiceId} hint="Leave unmatched to decide later on the month’s reconciliation." defaultValue="">
+          <SelectField
+            label="Apply to invoice"
+            name="invoiceId"
+            errors={fields.invoiceId}
+            hint="Leave unmatched to decide later on the month’s reconciliation."
+            defaultValue=""
+          >
             <option value="">Not matched yet</option>
-            {mine.map((i) => <option key={i.id} value={i.id}>{i.label} — {formatCents(i.outstandingCents, currency)} due</option>)}
+            {mine.map((i) => (
+              <option key={i.id} value={i.id}>
+                {i.label} — {formatCents(i.outstandingCents, currency)} due
+              </option>
+            ))}
           </SelectField>
         </>
       )}
@@ -79,18 +142,59 @@ export function RecordPaymentForm({ coop, members, invoices, currency, today, fi
         <option value="cash">Cash</option>
         <option value="cheque">Cheque</option>
       </SelectField>
-      <TextField label={`Amount (${currency})`} name="amount" inputMode="decimal" placeholder="0.00" required errors={fields.amount} />
-      <TextField label="Received on" name="receivedOn" type="date" max={today} defaultValue={today} required errors={fields.receivedOn} />
-      <TextField label="Reference (optional)" name="reference" maxLength={60} errors={fields.reference} hint="Cheque number, receipt number…" />
-      <div className="sm:col-span-2"><TextField label="Note (optional)" name="note" maxLength={240} errors={fields.note} /></div>
-      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
-      <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Record payment'}</Button></div>
+      <TextField
+        label={`Amount (${currency})`}
+        name="amount"
+        inputMode="decimal"
+        placeholder="0.00"
+        required
+        errors={fields.amount}
+      />
+      <TextField
+        label="Received on"
+        name="receivedOn"
+        type="date"
+        max={today}
+        defaultValue={today}
+        required
+        errors={fields.receivedOn}
+      />
+      <TextField
+        label="Reference (optional)"
+        name="reference"
+        maxLength={60}
+        errors={fields.reference}
+        hint="Cheque number, receipt number…"
+      />
+      <div className="sm:col-span-2">
+        <TextField label="Note (optional)" name="note" maxLength={240} errors={fields.note} />
+      </div>
+      {message ? (
+        <div className="sm:col-span-2">
+          <Notice tone={message.tone}>{message.text}</Notice>
+        </div>
+      ) : null}
+      <div className="sm:col-span-2">
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Saving…' : 'Record payment'}
+        </Button>
+      </div>
     </form>
   );
 }
 
 /** Matches an unmatched payment to one of the payer's invoices, or holds it as credit. */
-export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop: string; paymentId: number; invoices: OpenInvoiceOption[]; currency: string }) {
+export function MatchPaymentForm({
+  coop,
+  paymentId,
+  invoices,
+  currency,
+}: {
+  coop: string;
+  paymentId: number;
+  invoices: OpenInvoiceOption[];
+  currency: string;
+}) {
   const router = useRouter();
   const announce = useAnnounce();
   const { busy, fields, message, send } = useApiForm();
@@ -98,7 +202,14 @@ export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop
     e.preventDefault();
     const target = formObject(e.currentTarget).target ?? '';
     const body = { invoiceId: target === 'credit' ? null : Number(target) };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/payments/{id}/match', { params: { path: { coop, id: String(paymentId) } }, body: b }), { schema: 'paymentMatchSchema', body });
+    const out = await send(
+      (b) =>
+        apiClient.POST('/api/coops/{coop}/billing/payments/{id}/match', {
+          params: { path: { coop, id: String(paymentId) } },
+          body: b,
+        }),
+      { schema: 'paymentMatchSchema', body },
+    );
     if (!out) return;
     const inv = invoices.find((i) => String(i.id) === target);
     announce({ tone: 'ok', text: inv ? `Payment matched to ${inv.label}.` : 'Payment held as the member’s credit.' });
@@ -106,27 +217,64 @@ export function MatchPaymentForm({ coop, paymentId, invoices, currency }: { coop
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-2 sm:flex-row sm:items-end">
-      <SelectField label="Match to" name="target" id={`target-${paymentId}`} errors={fields.invoiceId} defaultValue={invoices[0] ? String(invoices[0].id) : 'credit'}>
-        {invoices.map((i) => <option key={i.id} value={i.id}>{i.label} — {formatCents(i.outstandingCents, currency)} due</option>)}
+      <SelectField
+        label="Match to"
+        name="target"
+        id={`target-${paymentId}`}
+        errors={fields.invoiceId}
+        defaultValue={invoices[0] ? String(invoices[0].id) : 'credit'}
+      >
+        {invoices.map((i) => (
+          <option key={i.id} value={i.id}>
+            {i.label} — {formatCents(i.outstandingCents, currency)} due
+          </option>
+        ))}
         <option value="credit">Hold as the member’s credit</option>
       </SelectField>
-      <Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Matching…' : 'Match'}</Button>
+      <Button type="submit" variant="secondary" disabled={busy}>
+        {busy ? 'Matching…' : 'Match'}
+      </Button>
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
     </form>
   );
 }
 
 /** Refunds money held for the member from one payment (card ones through the payment service), after the confirmation dialog. */
-export function RefundForm({ coop, paymentId, refundableCents, method, currency, payer }: { coop: string; paymentId: number; refundableCents: number; method: string; currency: string; payer?: string }) {
+export function RefundForm({
+  coop,
+  paymentId,
+  refundableCents,
+  method,
+  currency,
+  payer,
+}: {
+  coop: string;
+  paymentId: number;
+  refundableCents: number;
+  method: string;
+  currency: string;
+  payer?: string;
+}) {
   const router = useRouter();
   const most = formatCents(refundableCents, currency);
   return (
     <ConfirmDialog
-      trigger="Refund…" triggerLabel={`Refund payment ${paymentId}`} triggerClassName="min-h-10 px-3 text-xs"
-      title={`Refund ${payer ? `${payer}’s` : 'this'} payment?`} confirmLabel="Refund — can’t be undone" busyLabel="Refunding…"
+      trigger="Refund…"
+      triggerLabel={`Refund payment ${paymentId}`}
+      triggerClassName="min-h-10 px-3 text-xs"
+      title={`Refund ${payer ? `${payer}’s` : 'this'} payment?`}
+      confirmLabel="Refund — can’t be undone"
+      busyLabel="Refunding…"
       onConfirm={async (d) => {
         const body = { amount: String(d.get('amount') ?? ''), reason: String(d.get('reason') ?? '') };
-        const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/billing/payments/{id}/refunds', { params: { path: { coop, id: String(paymentId) } }, body: b }), { schema: 'refundCreateSchema', body });
+        const r = await callApi(
+          (b) =>
+            apiClient.POST('/api/coops/{coop}/billing/payments/{id}/refunds', {
+              params: { path: { coop, id: String(paymentId) } },
+              body: b,
+            }),
+          { schema: 'refundCreateSchema', body },
+        );
         if (!r.ok) return { ok: false, error: r.error, fields: r.fields };
         router.refresh();
         return { ok: true, message: `Refund recorded${method === 'card' ? ': it goes back to the card' : ''}.` };
@@ -135,10 +283,28 @@ export function RefundForm({ coop, paymentId, refundableCents, method, currency,
       {(fields, id) => (
         <>
           <p className="text-sm text-stone-700">
-            Up to {most} can be given back{method === 'card' ? ' to the card, through the payment service' : ' in cash'}. It comes out of the money not matched to an invoice, then the member’s credit. A refund can’t be taken back.
+            Up to {most} can be given back{method === 'card' ? ' to the card, through the payment service' : ' in cash'}
+            . It comes out of the money not matched to an invoice, then the member’s credit. A refund can’t be taken
+            back.
           </p>
-          <TextField label="Amount to refund" id={id('amount')} name="amount" inputMode="decimal" required errors={fields.amount} autoComplete="off" />
-          <TextField label="Reason" id={id('reason')} name="reason" required maxLength={240} errors={fields.reason} autoComplete="off" />
+          <TextField
+            label="Amount to refund"
+            id={id('amount')}
+            name="amount"
+            inputMode="decimal"
+            required
+            errors={fields.amount}
+            autoComplete="off"
+          />
+          <TextField
+            label="Reason"
+            id={id('reason')}
+            name="reason"
+            required
+            maxLength={240}
+            errors={fields.reason}
+            autoComplete="off"
+          />
         </>
       )}
     </ConfirmDialog>
@@ -151,7 +317,17 @@ export function RetryRefundButton({ coop, refundId }: { coop: string; refundId: 
   const { busy, message, send } = useApiForm();
   return (
     <span className="inline-flex flex-col gap-1">
-      <Button variant="ghost" disabled={busy} onClick={async () => (await send(() => apiClient.POST('/api/coops/{coop}/billing/refunds/{id}/retry', { params: { path: { coop, id: String(refundId) } } }))) && router.refresh()}>
+      <Button
+        variant="ghost"
+        disabled={busy}
+        onClick={async () =>
+          (await send(() =>
+            apiClient.POST('/api/coops/{coop}/billing/refunds/{id}/retry', {
+              params: { path: { coop, id: String(refundId) } },
+            }),
+          )) && router.refresh()
+        }
+      >
         {busy ? 'Retrying…' : 'Retry refund'}
       </Button>
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
@@ -160,7 +336,17 @@ export function RetryRefundButton({ coop, refundId }: { coop: string; refundId: 
 }
 
 /** A charge (positive) or credit (negative) for a member's next invoice. */
-export function AdjustmentForm({ coop, members, currency, currentPeriod }: { coop: string; members: MemberOption[]; currency: string; currentPeriod: string }) {
+export function AdjustmentForm({
+  coop,
+  members,
+  currency,
+  currentPeriod,
+}: {
+  coop: string;
+  members: MemberOption[];
+  currency: string;
+  currentPeriod: string;
+}) {
   const router = useRouter();
   const { busy, fields, message, send } = useApiForm();
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
@@ -168,7 +354,11 @@ export function AdjustmentForm({ coop, members, currency, currentPeriod }: { coo
     const form = e.currentTarget;
     const f = formObject(form);
     const body = { memberId: f.memberId, amount: f.amount ?? '', description: f.description ?? '', period: f.period };
-    const out = await send((b) => apiClient.POST('/api/coops/{coop}/billing/adjustments', { params: { path: { coop } }, body: b }), { schema: 'adjustmentCreateSchema', body }, 'Adjustment added; it goes on the member’s next invoice.');
+    const out = await send(
+      (b) => apiClient.POST('/api/coops/{coop}/billing/adjustments', { params: { path: { coop } }, body: b }),
+      { schema: 'adjustmentCreateSchema', body },
+      'Adjustment added; it goes on the member’s next invoice.',
+    );
     if (out) {
       form.reset();
       router.refresh();
@@ -178,13 +368,48 @@ export function AdjustmentForm({ coop, members, currency, currentPeriod }: { coo
     <form onSubmit={onSubmit} noValidate className="grid gap-4 sm:grid-cols-2">
       <SelectField label="Member" name="memberId" id="adj-member" required errors={fields.memberId} defaultValue="">
         <option value="">Choose a member…</option>
-        {members.map((m) => <option key={m.id} value={m.id}>{m.name}</option>)}
+        {members.map((m) => (
+          <option key={m.id} value={m.id}>
+            {m.name}
+          </option>
+        ))}
       </SelectField>
-      <TextField label={`Amount (${currency})`} name="amount" id="adj-amount" inputMode="decimal" required errors={fields.amount} hint="Positive charges the member; negative (e.g. -5.00) credits them." />
-      <TextField label="Description" name="description" id="adj-description" required maxLength={200} errors={fields.description} hint="Shown on the invoice." />
-      <TextField label="From the invoice of" name="period" id="adj-period" type="month" defaultValue={currentPeriod} errors={fields.period} />
-      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
-      <div className="sm:col-span-2"><Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Adding…' : 'Add adjustment'}</Button></div>
+      <TextField
+        label={`Amount (${currency})`}
+        name="amount"
+        id="adj-amount"
+        inputMode="decimal"
+        required
+        errors={fields.amount}
+        hint="Positive charges the member; negative (e.g. -5.00) credits them."
+      />
+      <TextField
+        label="Description"
+        name="description"
+        id="adj-description"
+        required
+        maxLength={200}
+        errors={fields.description}
+        hint="Shown on the invoice."
+      />
+      <TextField
+        label="From the invoice of"
+        name="period"
+        id="adj-period"
+        type="month"
+        defaultValue={currentPeriod}
+        errors={fields.period}
+      />
+      {message ? (
+        <div className="sm:col-span-2">
+          <Notice tone={message.tone}>{message.text}</Notice>
+        </div>
+      ) : null}
+      <div className="sm:col-span-2">
+        <Button type="submit" variant="secondary" disabled={busy}>
+          {busy ? 'Adding…' : 'Add adjustment'}
+        </Button>
+      </div>
     </form>
   );
 }
@@ -194,12 +419,27 @@ export function CloseMonthForm({ coop, period, label }: { coop: string; period: 
   const router = useRouter();
   return (
     <div className="flex flex-col gap-2">
-      <p className="text-sm text-stone-700">After closing, nothing in {label} can change. Unpaid invoices stay payable; corrections become adjustments in an open month.</p>
+      <p className="text-sm text-stone-700">
+        After closing, nothing in {label} can change. Unpaid invoices stay payable; corrections become adjustments in an
+        open month.
+      </p>
       <div>
         <ConfirmDialog
-          trigger={`Close ${label}…`} triggerVariant="primary" title={`Close ${label}?`} confirmLabel={`Close and lock ${label}`} busyLabel="Closing…" tone="primary"
+          trigger={`Close ${label}…`}
+          triggerVariant="primary"
+          title={`Close ${label}?`}
+          confirmLabel={`Close and lock ${label}`}
+          busyLabel="Closing…"
+          tone="primary"
           onConfirm={async () => {
-            const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/billing/periods/{period}/close', { params: { path: { coop, period } }, body: b }), { schema: 'periodCloseSchema', body: { confirm: true as const } });
+            const r = await callApi(
+              (b) =>
+                apiClient.POST('/api/coops/{coop}/billing/periods/{period}/close', {
+                  params: { path: { coop, period } },
+                  body: b,
+                }),
+              { schema: 'periodCloseSchema', body: { confirm: true as const } },
+            );
             if (r.ok) {
               router.refresh();
               return { ok: true, message: `${label} is closed: its draws, invoices and payments are locked.` };
@@ -209,7 +449,9 @@ export function CloseMonthForm({ coop, period, label }: { coop: string; period: 
           }}
         >
           <p className="text-sm text-stone-700">
-            Closing locks {label}’s draws, invoices and payments for good, so the figures the accountant gets stay the same. Unpaid invoices can still be paid; any correction becomes an adjustment in an open month. <strong>It can’t be undone.</strong>
+            Closing locks {label}’s draws, invoices and payments for good, so the figures the accountant gets stay the
+            same. Unpaid invoices can still be paid; any correction becomes an adjustment in an open month.{' '}
+            <strong>It can’t be undone.</strong>
           </p>
         </ConfirmDialog>
       </div>

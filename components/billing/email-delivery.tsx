@@ -24,12 +24,32 @@ const moving = (s: string) => s === 'queued' || s === 'sending';
  * every try), followed live while the worker has it, and "E-mail it again", which queues its
  * mail job (the answer is "queued"; this line follows it from there).
  */
-export function InvoiceEmailDelivery({ coop, invoiceId, to, timezone, initial }: { coop: string; invoiceId: number; to: string; timezone: string; initial: EmailDeliveryState }) {
+export function InvoiceEmailDelivery({
+  coop,
+  invoiceId,
+  to,
+  timezone,
+  initial,
+}: {
+  coop: string;
+  invoiceId: number;
+  to: string;
+  timezone: string;
+  initial: EmailDeliveryState;
+}) {
   const path = { coop, id: String(invoiceId) };
-  const { data, mutate } = useSWR(`/api/coops/${coop}/billing/invoices/${invoiceId}#email`, async () => {
-    const inv = await dataOrThrow(apiClient.GET('/api/coops/{coop}/billing/invoices/{id}', { params: { path } }));
-    return { emailStatus: inv.emailStatus, emailedAt: inv.emailedAt, emailAttempts: inv.emailAttempts } satisfies EmailDeliveryState;
-  }, { fallbackData: initial, revalidateOnMount: false });
+  const { data, mutate } = useSWR(
+    `/api/coops/${coop}/billing/invoices/${invoiceId}#email`,
+    async () => {
+      const inv = await dataOrThrow(apiClient.GET('/api/coops/{coop}/billing/invoices/{id}', { params: { path } }));
+      return {
+        emailStatus: inv.emailStatus,
+        emailedAt: inv.emailedAt,
+        emailAttempts: inv.emailAttempts,
+      } satisfies EmailDeliveryState;
+    },
+    { fallbackData: initial, revalidateOnMount: false },
+  );
   const state = data ?? initial;
   const { busy, message, send } = useApiForm();
   // Poll every 1.5 s while the job has it; stop once it settles.
@@ -43,14 +63,17 @@ export function InvoiceEmailDelivery({ coop, invoiceId, to, timezone, initial }:
     <div className="flex flex-col gap-2">
       <p aria-live="polite">
         E-mail to {to}: <EmailStatusText status={state.emailStatus} />
-        {state.emailedAt ? `, last sent ${formatDate(state.emailedAt, timezone)}` : ''} ({state.emailAttempts} attempt{state.emailAttempts === 1 ? '' : 's'}).
+        {state.emailedAt ? `, last sent ${formatDate(state.emailedAt, timezone)}` : ''} ({state.emailAttempts} attempt
+        {state.emailAttempts === 1 ? '' : 's'}).
       </p>
       <div>
         <Button
           variant="secondary"
           disabled={busy || moving(state.emailStatus)}
           onClick={async () => {
-            const out = await send(() => apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/send', { params: { path }, body: {} }));
+            const out = await send(() =>
+              apiClient.POST('/api/coops/{coop}/billing/invoices/{id}/send', { params: { path }, body: {} }),
+            );
             if (out) await mutate({ ...state, emailStatus: out.emailStatus }, { revalidate: true });
           }}
         >

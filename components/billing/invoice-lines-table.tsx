@@ -10,11 +10,35 @@ import { formatDate } from '@/lib/dates';
 const col = createColumnHelper<Features, InvoiceLineDTO>();
 
 /** An invoice's lines: quantities in the co-op's units, rates per gallon or per litre. */
-export function InvoiceLinesTable({ lines, units, currency, timezone }: { lines: InvoiceLineDTO[]; units: UnitSystem; currency: string; timezone: string }) {
+export function InvoiceLinesTable({
+  lines,
+  units,
+  currency,
+  timezone,
+}: {
+  lines: InvoiceLineDTO[];
+  units: UnitSystem;
+  currency: string;
+  timezone: string;
+}) {
   const columns: DataColumn<InvoiceLineDTO>[] = [
-    col.accessor('occurredAt', { id: 'date', header: 'Date', cell: (c) => (c.getValue() ? formatDate(c.getValue()!, timezone) : '') }),
-    col.accessor('description', { meta: { priority: 'key' }, id: 'description', header: 'Description', cell: (c) => c.getValue() }),
-    col.accessor('quantityLiters', { id: 'quantity', header: 'Quantity', cell: (c) => (c.getValue() === null ? '' : <span className="tabular-nums">{formatVolume(c.getValue()!, units, 2)}</span>) }),
+    col.accessor('occurredAt', {
+      id: 'date',
+      header: 'Date',
+      cell: (c) => (c.getValue() ? formatDate(c.getValue()!, timezone) : ''),
+    }),
+    col.accessor('description', {
+      meta: { priority: 'key' },
+      id: 'description',
+      header: 'Description',
+      cell: (c) => c.getValue(),
+    }),
+    col.accessor('quantityLiters', {
+      id: 'quantity',
+      header: 'Quantity',
+      cell: (c) =>
+        c.getValue() === null ? '' : <span className="tabular-nums">{formatVolume(c.getValue()!, units, 2)}</span>,
+    }),
     col.accessor('unitPriceCentsPerGallon', {
       id: 'rate',
       header: 'Rate',
@@ -24,7 +48,20 @@ export function InvoiceLinesTable({ lines, units, currency, timezone }: { lines:
         return `${formatRateCents(units === 'us' ? v : perGallonToPerLiter(v), currency)}/${units === 'us' ? 'gal' : 'L'}`;
       },
     }),
-    col.accessor('amountCents', { meta: { priority: 'key' }, id: 'amount', header: 'Amount', cell: (c) => <span className="tabular-nums">{formatCents(c.getValue(), currency)}</span> }),
+    col.accessor('amountCents', {
+      meta: { priority: 'key' },
+      id: 'amount',
+      header: 'Amount',
+      cell: (c) => <span className="tabular-nums">{formatCents(c.getValue(), currency)}</span>,
+    }),
   ];
-  return <DataTable columns={columns} data={lines} caption="Invoice lines" getRowId={(r) => r.id} empty="This invoice has no lines." />;
+  return (
+    <DataTable
+      columns={columns}
+      data={lines}
+      caption="Invoice lines"
+      getRowId={(r) => r.id}
+      empty="This invoice has no lines."
+    />
+  );
 }

@@ -15,7 +15,17 @@ import { TEST_CARDS } from '@/lib/payments/test-cards';
  * cards; no card number is ever typed into Tallyvat. The button stays disabled while a payment
  * is on its way, and the server charges at most once however often it is pressed.
  */
-export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coop: string; invoiceId: number; amountCents: number; currency: string }) {
+export function PayInvoiceForm({
+  coop,
+  invoiceId,
+  amountCents,
+  currency,
+}: {
+  coop: string;
+  invoiceId: number;
+  amountCents: number;
+  currency: string;
+}) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
   const [result, setResult] = useState<{ tone: 'ok' | 'danger' | 'warn'; text: string } | null>(null);
@@ -28,7 +38,10 @@ export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coo
     // The select offers only the test cards; the check names anything else.
     const body = { card: String(new FormData(e.currentTarget).get('card') ?? '') as (typeof TEST_CARDS)[number]['id'] };
     const path = { coop, id: String(invoiceId) };
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invoices/{id}/pay', { params: { path }, body: b }), { schema: 'cardPaySchema', body });
+    const r = await callApi(
+      (b) => apiClient.POST('/api/coops/{coop}/invoices/{id}/pay', { params: { path }, body: b }),
+      { schema: 'cardPaySchema', body },
+    );
     setBusy(false);
     if (r.ok) {
       setResult({ tone: 'ok', text: 'Payment received — thank you.' });
@@ -42,14 +55,21 @@ export function PayInvoiceForm({ coop, invoiceId, amountCents, currency }: { coo
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
       <Notice title="Development build: test cards only">
-        Choose a test card to see how paying works. No real card details are entered or kept here; a live installation asks for the card on the payment service’s own secure page.
+        Choose a test card to see how paying works. No real card details are entered or kept here; a live installation
+        asks for the card on the payment service’s own secure page.
       </Notice>
       <SelectField label="Card" name="card" defaultValue={TEST_CARDS[0].id} errors={fieldErrors}>
-        {TEST_CARDS.map((c) => <option key={c.id} value={c.id}>{c.label}</option>)}
+        {TEST_CARDS.map((c) => (
+          <option key={c.id} value={c.id}>
+            {c.label}
+          </option>
+        ))}
       </SelectField>
       {result ? <Notice tone={result.tone}>{result.text}</Notice> : null}
       <div>
-        <Button type="submit" disabled={busy} aria-busy={busy}>{busy ? 'Paying…' : `Pay ${formatCents(amountCents, currency)} by card`}</Button>
+        <Button type="submit" disabled={busy} aria-busy={busy}>
+          {busy ? 'Paying…' : `Pay ${formatCents(amountCents, currency)} by card`}
+        </Button>
       </div>
     </form>
   );

@@ -9,10 +9,25 @@ const INVOICE_TONE: Record<string, string> = {
 };
 
 /** An invoice's status as a small labelled pill (text, not colour alone, carries the meaning). */
-export function InvoiceStatusBadge({ status, kind = 'invoice', overdue = false }: { status: string; kind?: 'invoice' | 'credit-note'; overdue?: boolean }) {
-  if (kind === 'credit-note') return <span className="inline-block rounded-full bg-fir-50 px-2 py-0.5 text-xs font-semibold text-fir-800 ring-1 ring-fir-200">Credit note</span>;
+export function InvoiceStatusBadge({
+  status,
+  kind = 'invoice',
+  overdue = false,
+}: {
+  status: string;
+  kind?: 'invoice' | 'credit-note';
+  overdue?: boolean;
+}) {
+  if (kind === 'credit-note')
+    return (
+      <span className="inline-block rounded-full bg-fir-50 px-2 py-0.5 text-xs font-semibold text-fir-800 ring-1 ring-fir-200">
+        Credit note
+      </span>
+    );
   return (
-    <span className={`inline-block whitespace-nowrap rounded-full px-2 py-0.5 text-xs font-semibold ring-1 ${INVOICE_TONE[status] ?? INVOICE_TONE.draft}`}>
+    <span
+      className={`inline-block whitespace-nowrap rounded-full px-2 py-0.5 text-xs font-semibold ring-1 ${INVOICE_TONE[status] ?? INVOICE_TONE.draft}`}
+    >
       {INVOICE_STATUS_LABEL[status] ?? status}
       {overdue ? ' · overdue' : ''}
     </span>
@@ -20,7 +35,8 @@ export function InvoiceStatusBadge({ status, kind = 'invoice', overdue = false }
 }
 
 export function EmailStatusText({ status }: { status: string }) {
-  const tone = status === 'failed' ? 'text-danger-700 font-semibold' : status === 'sent' ? 'text-ok-700' : 'text-stone-700';
+  const tone =
+    status === 'failed' ? 'text-danger-700 font-semibold' : status === 'sent' ? 'text-ok-700' : 'text-stone-700';
   return <span className={tone}>{EMAIL_STATUS_LABEL[status] ?? status}</span>;
 }
 
@@ -28,6 +44,8 @@ export function PeriodStatusBadge({ closed }: { closed: boolean }) {
   return closed ? (
     <span className="inline-block rounded-full bg-stone-800 px-2 py-0.5 text-xs font-semibold text-white">Closed</span>
   ) : (
-    <span className="inline-block rounded-full bg-fir-50 px-2 py-0.5 text-xs font-semibold text-fir-800 ring-1 ring-fir-200">Open</span>
+    <span className="inline-block rounded-full bg-fir-50 px-2 py-0.5 text-xs font-semibold text-fir-800 ring-1 ring-fir-200">
+      Open
+    </span>
   );
 }

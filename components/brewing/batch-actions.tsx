@@ -38,7 +38,17 @@ function defaultTank(c: ReleaseChoice): number | undefined {
  * Moves a batch to its next step (saving any typed values first), or rejects it with a reason;
  * in Testing it offers Release and Reject. Release and reject are confirmed in the one dialog.
  */
-export function BatchActions({ url, status, number, release }: { url: string; status: string; number?: number; release?: ReleaseChoice }) {
+export function BatchActions({
+  url,
+  status,
+  number,
+  release,
+}: {
+  url: string;
+  status: string;
+  number?: number;
+  release?: ReleaseChoice;
+}) {
   const router = useRouter();
   const announce = useAnnounce();
   const advance = useApiForm();
@@ -52,12 +62,20 @@ export function BatchActions({ url, status, number, release }: { url: string; st
     e.preventDefault();
     // Nothing typed is lost: unsaved step values are saved before the batch moves on.
     if (!(await saveAllUnsaved())) {
-      advance.setMessage({ tone: 'danger', text: 'Some values you typed could not be saved: fix them (see the messages beside the fields), then move on.' });
+      advance.setMessage({
+        tone: 'danger',
+        text: 'Some values you typed could not be saved: fix them (see the messages beside the fields), then move on.',
+      });
       return;
     }
     // The select offers only later steps; the check names anything else.
     const body = { to: to as Exclude<(typeof STEP_ORDER)[number], 'planned'> };
-    if (await advance.send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/advance', { params: { path }, body: b }), { schema: 'batchAdvanceSchema', body })) {
+    if (
+      await advance.send(
+        (b) => apiClient.POST('/api/coops/{coop}/batches/{id}/advance', { params: { path }, body: b }),
+        { schema: 'batchAdvanceSchema', body },
+      )
+    ) {
       announce({ tone: 'ok', text: `${name} moved to ${STATUS_LABELS[to]?.toLowerCase() ?? 'the next step'}.` });
       router.refresh();
     }
@@ -81,60 +99,135 @@ export function BatchActions({ url, status, number, release }: { url: string; st
       <div className="flex flex-wrap items-end gap-3">
         {later.length ? (
           <form onSubmit={onAdvance} className="flex flex-wrap items-end gap-2">
-            <SelectField label="Next step" name="to" value={to} onChange={(e) => setTo(e.target.value)} errors={advance.fields.to}>
-              {later.map((s) => <option key={s} value={s}>{STATUS_LABELS[s]}</option>)}
+            <SelectField
+              label="Next step"
+              name="to"
+              value={to}
+              onChange={(e) => setTo(e.target.value)}
+              errors={advance.fields.to}
+            >
+              {later.map((s) => (
+                <option key={s} value={s}>
+                  {STATUS_LABELS[s]}
+                </option>
+              ))}
             </SelectField>
-            <Button type="submit" disabled={advance.busy}>{advance.busy ? 'Moving…' : `Move to ${STATUS_LABELS[to]?.toLowerCase() ?? 'next step'}`}</Button>
+            <Button type="submit" disabled={advance.busy}>
+              {advance.busy ? 'Moving…' : `Move to ${STATUS_LABELS[to]?.toLowerCase() ?? 'next step'}`}
+            </Button>
           </form>
         ) : null}
         {status === 'testing' && release ? (
           <ConfirmDialog
-            trigger="Release to a tank…" triggerVariant="primary" disabled={!release.tanks.length} beforeOpen={() => saved('releasing')}
-            title={`Release batch${number ? ` ${number}` : ''} to a tank`} tone="primary" confirmLabel="Release — can’t be undone" busyLabel="Releasing…"
+            trigger="Release to a tank…"
+            triggerVariant="primary"
+            disabled={!release.tanks.length}
+            beforeOpen={() => saved('releasing')}
+            title={`Release batch${number ? ` ${number}` : ''} to a tank`}
+            tone="primary"
+            confirmLabel="Release — can’t be undone"
+            busyLabel="Releasing…"
             onConfirm={async (d) => {
-              const body = { tankId: str(d, 'tankId'), volume: numberOf(str(d, 'volume')) as number, reason: str(d, 'reason').trim() || undefined };
-              const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/release', { params: { path }, body: b }), { schema: 'batchReleaseSchema', body });
+              const body = {
+                tankId: str(d, 'tankId'),
+                volume: numberOf(str(d, 'volume')) as number,
+                reason: str(d, 'reason').trim() || undefined,
+              };
+              const r = await callApi(
+                (b) => apiClient.POST('/api/coops/{coop}/batches/{id}/release', { params: { path }, body: b }),
+                { schema: 'batchReleaseSchema', body },
+              );
               return outcome(r, `${name} is released into the tank.`);
             }}
           >
             {(fields, id) => (
               <>
                 <div className="flex flex-col gap-1 text-sm">
-                  <p><span className="font-semibold">Quality:</span> <QualityBadge text={release.verdictText} kind={release.verdictKind} /></p>
-                  <p><span className="font-semibold">Home quick tests:</span> {release.screeningText}</p>
+                  <p>
+                    <span className="font-semibold">Quality:</span>{' '}
+                    <QualityBadge text={release.verdictText} kind={release.verdictKind} />
+                  </p>
+                  <p>
+                    <span className="font-semibold">Home quick tests:</span> {release.screeningText}
+                  </p>
                 </div>
-                <SelectField label="Into tank" name="tankId" id={id('tankId')} defaultValue={String(defaultTank(release) ?? '')} errors={fields.tankId}>
+                <SelectField
+                  label="Into tank"
+                  name="tankId"
+                  id={id('tankId')}
+                  defaultValue={String(defaultTank(release) ?? '')}
+                  errors={fields.tankId}
+                >
                   {release.tanks.map((t) => (
-                    <option key={t.id} value={t.id}>{t.name} — room for {formatVolume(Math.max(0, t.capacityLiters - t.onHandLiters), release.units, 0)}</option>
+                    <option key={t.id} value={t.id}>
+                      {t.name} — room for{' '}
+                      {formatVolume(Math.max(0, t.capacityLiters - t.onHandLiters), release.units, 0)}
+                    </option>
                   ))}
                 </SelectField>
-                <TextField label={`Volume released (${volumeLabel(release.units)})`} name="volume" id={id('volume')} inputMode="decimal" errors={fields.volume} hint="Measured into the tank after drying." autoComplete="off" />
+                <TextField
+                  label={`Volume released (${volumeLabel(release.units)})`}
+                  name="volume"
+                  id={id('volume')}
+                  inputMode="decimal"
+                  errors={fields.volume}
+                  hint="Measured into the tank after drying."
+                  autoComplete="off"
+                />
                 {needsReason ? (
-                  <TextField label="Why release it now?" name="reason" id={id('reason')} errors={fields.reason} autoComplete="off"
-                    hint={`The batch does not meet the standard in full (${release.verdictText}). The reason is kept on the batch record.`} />
+                  <TextField
+                    label="Why release it now?"
+                    name="reason"
+                    id={id('reason')}
+                    errors={fields.reason}
+                    autoComplete="off"
+                    hint={`The batch does not meet the standard in full (${release.verdictText}). The reason is kept on the batch record.`}
+                  />
                 ) : null}
-                <p className="text-sm text-stone-700">Releasing takes the chemicals from stock, works out the cost per {release.units === 'us' ? 'gallon' : 'litre'} and adds the fuel to the tank. <strong>It can’t be undone.</strong></p>
+                <p className="text-sm text-stone-700">
+                  Releasing takes the chemicals from stock, works out the cost per{' '}
+                  {release.units === 'us' ? 'gallon' : 'litre'} and adds the fuel to the tank.{' '}
+                  <strong>It can’t be undone.</strong>
+                </p>
               </>
             )}
           </ConfirmDialog>
         ) : null}
         <ConfirmDialog
-          trigger="Reject batch…" beforeOpen={() => saved('rejecting')} title={`Reject batch${number ? ` ${number}` : ''}`}
-          confirmLabel="Reject — can’t be undone" busyLabel="Rejecting…"
+          trigger="Reject batch…"
+          beforeOpen={() => saved('rejecting')}
+          title={`Reject batch${number ? ` ${number}` : ''}`}
+          confirmLabel="Reject — can’t be undone"
+          busyLabel="Rejecting…"
           onConfirm={async (d) => {
-            const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/reject', { params: { path }, body: b }), { schema: 'batchRejectSchema', body: { reason: str(d, 'reason') } });
+            const r = await callApi(
+              (b) => apiClient.POST('/api/coops/{coop}/batches/{id}/reject', { params: { path }, body: b }),
+              { schema: 'batchRejectSchema', body: { reason: str(d, 'reason') } },
+            );
             return outcome(r, `${name} is rejected.`);
           }}
         >
           {(fields, id) => (
             <>
-              <p className="text-sm text-stone-700">A rejected batch is closed for good: chemicals already mixed are written off from stock and no fuel goes to a tank. <strong>It can’t be undone.</strong></p>
-              <TextField label="Why is the batch rejected?" name="reason" id={id('reason')} errors={fields.reason} hint="Kept on the batch record." autoComplete="off" />
+              <p className="text-sm text-stone-700">
+                A rejected batch is closed for good: chemicals already mixed are written off from stock and no fuel goes
+                to a tank. <strong>It can’t be undone.</strong>
+              </p>
+              <TextField
+                label="Why is the batch rejected?"
+                name="reason"
+                id={id('reason')}
+                errors={fields.reason}
+                hint="Kept on the batch record."
+                autoComplete="off"
+              />
             </>
           )}
         </ConfirmDialog>
       </div>
-      {status === 'testing' && release && !release.tanks.length ? <Notice tone="warn">There is no active tank to release into. Add a tank first.</Notice> : null}
+      {status === 'testing' && release && !release.tanks.length ? (
+        <Notice tone="warn">There is no active tank to release into. Add a tank first.</Notice>
+      ) : null}
     </div>
   );
 }

@@ -10,12 +10,28 @@ export function BatchFiles({ files, url }: { files: BatchDto['files']; url: stri
         <ul className="mb-3 text-sm">
           {files.map((f) => (
             <li key={f.id} className="border-b border-stone-100 py-1">
-              <a className="underline" href={`${url}/files/${f.id}`}>{f.name}</a> <span className="text-stone-600">— {f.purpose === 'photo' ? 'photo' : f.purpose === 'receipt' ? 'disposal receipt' : 'lab report'}, {Math.max(1, Math.round(f.sizeBytes / 1024))} KB</span>
+              <a className="underline" href={`${url}/files/${f.id}`}>
+                {f.name}
+              </a>{' '}
+              <span className="text-stone-600">
+                — {f.purpose === 'photo' ? 'photo' : f.purpose === 'receipt' ? 'disposal receipt' : 'lab report'},{' '}
+                {Math.max(1, Math.round(f.sizeBytes / 1024))} KB
+              </span>
             </li>
           ))}
         </ul>
-      ) : <p className="mb-3 text-sm text-stone-600">Nothing attached yet.</p>}
-      <UploadForm url={`${url}/files`} accept="application/pdf,image/jpeg,image/png" label="PDF, JPEG or PNG" purposes={[{ value: 'lab-report', label: 'Lab report' }, { value: 'photo', label: 'Photo' }]} />
+      ) : (
+        <p className="mb-3 text-sm text-stone-600">Nothing attached yet.</p>
+      )}
+      <UploadForm
+        url={`${url}/files`}
+        accept="application/pdf,image/jpeg,image/png"
+        label="PDF, JPEG or PNG"
+        purposes={[
+          { value: 'lab-report', label: 'Lab report' },
+          { value: 'photo', label: 'Photo' },
+        ]}
+      />
     </Card>
   );
 }

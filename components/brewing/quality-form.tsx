@@ -18,13 +18,32 @@ interface Stored {
 }
 
 /** Quick tests (screening) and lab results per property of the chosen standard. */
-export function QualityForm({ url, quickTests, labResults, standard, readOnly }: {
-  url: string; quickTests: Stored; labResults: QualityResults; standard: FuelStandard; readOnly?: boolean;
+export function QualityForm({
+  url,
+  quickTests,
+  labResults,
+  standard,
+  readOnly,
+}: {
+  url: string;
+  quickTests: Stored;
+  labResults: QualityResults;
+  standard: FuelStandard;
+  readOnly?: boolean;
 }) {
   const stored = (k: string) => labResults[k as keyof QualityResults];
-  const valueOf = (k: string) => { const v = stored(k); return v === undefined || v === null ? '' : String(typeof v === 'number' ? v : v.value); };
-  const metaOf = (k: string) => { const v = stored(k); return v !== undefined && v !== null && typeof v === 'object' ? v : null; };
-  const firstMeta = Object.keys(labResults).map(metaOf).find((m) => m !== null) ?? null;
+  const valueOf = (k: string) => {
+    const v = stored(k);
+    return v === undefined || v === null ? '' : String(typeof v === 'number' ? v : v.value);
+  };
+  const metaOf = (k: string) => {
+    const v = stored(k);
+    return v !== undefined && v !== null && typeof v === 'object' ? v : null;
+  };
+  const firstMeta =
+    Object.keys(labResults)
+      .map(metaOf)
+      .find((m) => m !== null) ?? null;
   const router = useRouter();
   const { busy, fields, message, send, setMessage } = useApiForm();
   const [std, setStd] = useState<FuelStandard>(standard);
@@ -40,7 +59,9 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
     const body = {
       qualityStandard: std,
       quickTests: {
-        test327: result327 ? { result: result327, ...(opt('t327fallout') ? { falloutMl: opt('t327fallout') } : {}) } : null,
+        test327: result327
+          ? { result: result327, ...(opt('t327fallout') ? { falloutMl: opt('t327fallout') } : {}) }
+          : null,
         soap: s('soapHcl') || s('soapGrams') ? { hclMl: opt('soapHcl'), sampleGrams: opt('soapGrams') } : null,
         washTest: s('washTest') || null,
         water: s('water') || null,
@@ -74,20 +95,54 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
       <fieldset className="flex flex-col gap-3" disabled={readOnly}>
         <legend className="mb-2 font-semibold text-fir-900">Home quick tests (screening)</legend>
         <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
-          <SelectField label="3/27 methanol test" name="t327" defaultValue={quickTests.test327?.result ?? ''} errors={f('quickTests.test327.result')} hint="3 mL fuel in 27 mL methanol, shaken">
+          <SelectField
+            label="3/27 methanol test"
+            name="t327"
+            defaultValue={quickTests.test327?.result ?? ''}
+            errors={f('quickTests.test327.result')}
+            hint="3 mL fuel in 27 mL methanol, shaken"
+          >
             <option value="">Not tested</option>
             <option value="clear">Clear</option>
             <option value="fallout">Fall-out</option>
           </SelectField>
-          <TextField label="Fall-out (mL, if any)" name="t327fallout" inputMode="decimal" defaultValue={quickTests.test327?.falloutMl?.toString() ?? ''} errors={f('quickTests.test327.falloutMl')} />
-          <TextField label="Soap test: 0.01 N HCl used (mL)" name="soapHcl" inputMode="decimal" defaultValue={quickTests.soap?.hclMl?.toString() ?? ''} errors={f('quickTests.soap.hclMl')} />
-          <TextField label="Soap test: fuel sample (g)" name="soapGrams" inputMode="decimal" defaultValue={quickTests.soap?.sampleGrams?.toString() ?? ''} errors={f('quickTests.soap.sampleGrams')} />
-          <SelectField label="Shake (wash) test" name="washTest" defaultValue={quickTests.washTest ?? ''} errors={f('quickTests.washTest')}>
+          <TextField
+            label="Fall-out (mL, if any)"
+            name="t327fallout"
+            inputMode="decimal"
+            defaultValue={quickTests.test327?.falloutMl?.toString() ?? ''}
+            errors={f('quickTests.test327.falloutMl')}
+          />
+          <TextField
+            label="Soap test: 0.01 N HCl used (mL)"
+            name="soapHcl"
+            inputMode="decimal"
+            defaultValue={quickTests.soap?.hclMl?.toString() ?? ''}
+            errors={f('quickTests.soap.hclMl')}
+          />
+          <TextField
+            label="Soap test: fuel sample (g)"
+            name="soapGrams"
+            inputMode="decimal"
+            defaultValue={quickTests.soap?.sampleGrams?.toString() ?? ''}
+            errors={f('quickTests.soap.sampleGrams')}
+          />
+          <SelectField
+            label="Shake (wash) test"
+            name="washTest"
+            defaultValue={quickTests.washTest ?? ''}
+            errors={f('quickTests.washTest')}
+          >
             <option value="">Not tested</option>
             <option value="clean-split">Clean, quick split</option>
             <option value="emulsion">Emulsion</option>
           </SelectField>
-          <SelectField label="Water (looking at the dried fuel)" name="water" defaultValue={quickTests.water ?? ''} errors={f('quickTests.water')}>
+          <SelectField
+            label="Water (looking at the dried fuel)"
+            name="water"
+            defaultValue={quickTests.water ?? ''}
+            errors={f('quickTests.water')}
+          >
             <option value="">Not tested</option>
             <option value="clear">Clear</option>
             <option value="hazy">Hazy</option>
@@ -96,7 +151,13 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
       </fieldset>
       <fieldset className="flex flex-col gap-3" disabled={readOnly}>
         <legend className="mb-2 font-semibold text-fir-900">Lab results</legend>
-        <SelectField label="Compare with" name="standard" value={std} onChange={(e) => setStd(e.target.value as FuelStandard)} errors={f('qualityStandard')}>
+        <SelectField
+          label="Compare with"
+          name="standard"
+          value={std}
+          onChange={(e) => setStd(e.target.value as FuelStandard)}
+          errors={f('qualityStandard')}
+        >
           <option value="ASTM D6751">ASTM D6751 (B100)</option>
           <option value="EN 14214">EN 14214</option>
         </SelectField>
@@ -112,7 +173,8 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
           <TextField label="Date tested" name="labDate" type="date" defaultValue={firstMeta?.date ?? ''} />
         </div>
         <p className="text-xs text-stone-600">
-          Only results with a laboratory, a method and a date count toward {std}: the batch meets it only when every required property has a laboratory result within its limit.
+          Only results with a laboratory, a method and a date count toward {std}: the batch meets it only when every
+          required property has a laboratory result within its limit.
         </p>
         <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-3">
           {rows.map((r) => (
@@ -139,7 +201,9 @@ export function QualityForm({ url, quickTests, labResults, standard, readOnly }:
       </fieldset>
       {readOnly ? null : (
         <div className="flex items-center gap-3">
-          <Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save quality checks'}</Button>
+          <Button type="submit" disabled={busy}>
+            {busy ? 'Saving…' : 'Save quality checks'}
+          </Button>
           {dirty ? <span className="text-xs text-stone-600">Unsaved changes</span> : null}
         </div>
       )}

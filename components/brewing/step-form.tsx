@@ -28,8 +28,22 @@ export interface StepField {
  * clear the value (null) unless the field says omitEmpty; "list" inputs take numbers separated
  * by commas or spaces. Errors appear beside their fields.
  */
-export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', disabled, okText = 'Saved.', extra }: {
-  url: string; method?: string; fields: StepField[]; submitLabel?: string; disabled?: boolean; okText?: string; extra?: Record<string, unknown>;
+export function StepForm({
+  url,
+  method = 'PATCH',
+  fields,
+  submitLabel = 'Save',
+  disabled,
+  okText = 'Saved.',
+  extra,
+}: {
+  url: string;
+  method?: string;
+  fields: StepField[];
+  submitLabel?: string;
+  disabled?: boolean;
+  okText?: string;
+  extra?: Record<string, unknown>;
 }) {
   const { busy, fields: errors, message, send, setMessage } = useApiForm();
   const router = useRouter();
@@ -66,8 +80,19 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
         {fields.map((f) => (
           <div key={f.name} className={f.kind === 'textarea' ? 'sm:col-span-2' : undefined}>
             {f.kind === 'select' ? (
-              <SelectField label={f.label} name={f.name} defaultValue={f.defaultValue ?? ''} errors={errors[f.name]} hint={f.hint} disabled={disabled}>
-                {(f.options ?? []).map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
+              <SelectField
+                label={f.label}
+                name={f.name}
+                defaultValue={f.defaultValue ?? ''}
+                errors={errors[f.name]}
+                hint={f.hint}
+                disabled={disabled}
+              >
+                {(f.options ?? []).map((o) => (
+                  <option key={o.value} value={o.value}>
+                    {o.label}
+                  </option>
+                ))}
               </SelectField>
             ) : f.kind === 'textarea' ? (
               <TextArea field={f} errors={errors[f.name]} disabled={disabled} />
@@ -77,7 +102,12 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
                 name={f.name}
                 defaultValue={f.defaultValue ?? ''}
                 inputMode={f.kind === 'number' ? 'decimal' : undefined}
-                errors={errors[f.name] ?? Object.entries(errors).filter(([k]) => k.startsWith(`${f.name}.`)).flatMap(([, v]) => v)}
+                errors={
+                  errors[f.name] ??
+                  Object.entries(errors)
+                    .filter(([k]) => k.startsWith(`${f.name}.`))
+                    .flatMap(([, v]) => v)
+                }
                 hint={f.hint}
                 disabled={disabled}
                 autoComplete="off"
@@ -89,7 +119,9 @@ export function StepForm({ url, method = 'PATCH', fields, submitLabel = 'Save', 
       </div>
       {disabled ? null : (
         <div className="flex items-center gap-3">
-          <Button type="submit" disabled={busy}>{busy ? 'Saving…' : submitLabel}</Button>
+          <Button type="submit" disabled={busy}>
+            {busy ? 'Saving…' : submitLabel}
+          </Button>
           {dirty ? <span className="text-xs text-stone-600">Unsaved changes</span> : null}
         </div>
       )}
@@ -101,7 +133,9 @@ function TextArea({ field, errors, disabled }: { field: StepField; errors?: stri
   const errId = `${field.name}-error`;
   return (
     <div className="flex flex-col gap-1">
-      <label htmlFor={field.name} className="text-sm font-medium text-stone-800">{field.label}</label>
+      <label htmlFor={field.name} className="text-sm font-medium text-stone-800">
+        {field.label}
+      </label>
       <textarea
         id={field.name}
         name={field.name}

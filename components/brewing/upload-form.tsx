@@ -7,8 +7,18 @@ import { FieldErrors, SelectField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 
 /** Uploads one file (multipart) with optional purpose; the server checks its type from its content. */
-export function UploadForm({ url, accept, label, purposes, id = 'file' }: {
-  url: string; accept: string; label: string; purposes?: { value: string; label: string }[]; id?: string;
+export function UploadForm({
+  url,
+  accept,
+  label,
+  purposes,
+  id = 'file',
+}: {
+  url: string;
+  accept: string;
+  label: string;
+  purposes?: { value: string; label: string }[];
+  id?: string;
 }) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
@@ -51,16 +61,36 @@ export function UploadForm({ url, accept, label, purposes, id = 'file' }: {
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <div className="flex flex-wrap items-end gap-3">
         {purposes ? (
-          <SelectField label="Kind" name="purpose" id={`${id}-purpose`} defaultValue={purposes[0]?.value} errors={errors.purpose}>
-            {purposes.map((p) => <option key={p.value} value={p.value}>{p.label}</option>)}
+          <SelectField
+            label="Kind"
+            name="purpose"
+            id={`${id}-purpose`}
+            defaultValue={purposes[0]?.value}
+            errors={errors.purpose}
+          >
+            {purposes.map((p) => (
+              <option key={p.value} value={p.value}>
+                {p.label}
+              </option>
+            ))}
           </SelectField>
         ) : null}
         <div className="flex min-w-0 max-w-full flex-col gap-1">
-          <label htmlFor={id} className="text-sm font-medium text-stone-800">{label}</label>
-          <input id={id} name="file" type="file" accept={accept} aria-describedby={errors.file?.length ? errId : undefined}
-            className="min-h-11 w-full min-w-0 max-w-full rounded-lg border border-stone-300 bg-white px-2 py-2 text-sm" />
+          <label htmlFor={id} className="text-sm font-medium text-stone-800">
+            {label}
+          </label>
+          <input
+            id={id}
+            name="file"
+            type="file"
+            accept={accept}
+            aria-describedby={errors.file?.length ? errId : undefined}
+            className="min-h-11 w-full min-w-0 max-w-full rounded-lg border border-stone-300 bg-white px-2 py-2 text-sm"
+          />
         </div>
-        <Button type="submit" variant="secondary" disabled={busy}>{busy ? 'Uploading…' : 'Upload'}</Button>
+        <Button type="submit" variant="secondary" disabled={busy}>
+          {busy ? 'Uploading…' : 'Upload'}
+        </Button>
       </div>
       <FieldErrors id={errId} errors={errors.file} />
       <p className="text-xs text-stone-600">Up to 10 MB. The type is checked from the file itself.</p>

@@ -1,7 +1,7 @@
 'use client';
 
 import dynamic from 'next/dynamic';
-import { xText } from './x-text';
+import { ChartTable } from './chart-table';
 import { ChartFrame } from './chart-frame';
 import type { Series } from './series';
 import { WhenVisible } from './when-visible';
@@ -43,28 +43,27 @@ export function BarChartCard({
       chart={
         <div className="h-64 w-full" aria-hidden="true">
           <WhenVisible>
-            <BarChartDrawing data={data} xKey={xKey} series={series} yLabel={yLabel} stacked={stacked} format={format} />
+            <BarChartDrawing
+              data={data}
+              xKey={xKey}
+              series={series}
+              yLabel={yLabel}
+              stacked={stacked}
+              format={format}
+            />
           </WhenVisible>
         </div>
       }
       table={
-        <table className="w-full text-left text-sm">
-          <caption className="sr-only">{title} ({yLabel})</caption>
-          <thead>
-            <tr className="border-b border-stone-200 text-xs uppercase text-stone-700">
-              <th scope="col" className="py-1 pr-3">{xLabel ?? (xKey === 'period' ? 'Period' : xKey)}</th>
-              {series.map((s) => <th key={s.key} scope="col" className="py-1 pr-3 text-right">{s.label}</th>)}
-            </tr>
-          </thead>
-          <tbody>
-            {data.map((d) => (
-              <tr key={String(d[xKey])} className="border-b border-stone-100">
-                <th scope="row" className="py-1 pr-3 font-medium">{xText(d[xKey])}</th>
-                {series.map((s) => <td key={s.key} className="py-1 pr-3 text-right tabular-nums">{format(Number(d[s.key] ?? 0))}</td>)}
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <ChartTable
+          title={title}
+          yLabel={yLabel}
+          data={data}
+          xKey={xKey}
+          xLabel={xLabel ?? (xKey === 'period' ? 'Period' : xKey)}
+          columns={series}
+          format={format}
+        />
       }
     />
   );

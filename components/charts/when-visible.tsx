@@ -16,9 +16,12 @@ export function WhenVisible({ children, className = 'h-full w-full' }: { childre
     if (!el || seen) return;
     let io: IntersectionObserver | null = null;
     const cancel = afterLoad(() => {
-      io = new IntersectionObserver((entries) => {
-        if (entries.some((e) => e.isIntersecting)) setSeen(true);
-      }, { rootMargin: '200px' });
+      io = new IntersectionObserver(
+        (entries) => {
+          if (entries.some((e) => e.isIntersecting)) setSeen(true);
+        },
+        { rootMargin: '200px' },
+      );
       io.observe(el);
     });
     return () => {
@@ -26,5 +29,9 @@ export function WhenVisible({ children, className = 'h-full w-full' }: { childre
       io?.disconnect();
     };
   }, [seen]);
-  return <div ref={ref} className={className}>{seen ? children : null}</div>;
+  return (
+    <div ref={ref} className={className}>
+      {seen ? children : null}
+    </div>
+  );
 }

@@ -2,7 +2,14 @@
 
 import Link from 'next/link';
 import { usePathname, useSearchParams } from 'next/navigation';
-import { tableFeatures, useTable, type CellData, type ColumnDef, type RowData, type TableFeatures } from '@tanstack/react-table';
+import {
+  tableFeatures,
+  useTable,
+  type CellData,
+  type ColumnDef,
+  type RowData,
+  type TableFeatures,
+} from '@tanstack/react-table';
 import { useState, type ReactNode } from 'react';
 import { PhoneSort } from './phone-sort';
 
@@ -11,9 +18,13 @@ export type Features = typeof tableFeaturesBasic;
 /** Column definitions for DataTable: build them with createColumnHelper<Features, Row>(). */
 export type DataColumn<Row extends RowData> = ColumnDef<Features, Row, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
 
+/* eslint-disable @typescript-eslint/no-unused-vars -- the augmented interface must repeat the library's type parameters */
 declare module '@tanstack/table-core' {
-  // eslint-disable-next-line @typescript-eslint/no-unused-vars
-  interface ColumnMeta<in out TFeatures extends TableFeatures, in out TData extends RowData, TValue extends CellData = CellData> {
+  interface ColumnMeta<
+    in out TFeatures extends TableFeatures,
+    in out TData extends RowData,
+    TValue extends CellData = CellData,
+  > {
     /**
      * 'key': always shown on a phone (status, amount, the row's action and what names the row);
      * every other column goes behind the row's "Details" button there.
@@ -61,7 +72,12 @@ export function DataTable<Row extends RowData>({
   empty?: ReactNode;
   getRowId?: (row: Row) => string;
 }) {
-  const table = useTable({ features: tableFeaturesBasic, columns, data, getRowId: getRowId ? (r: Row) => getRowId(r) : undefined });
+  const table = useTable({
+    features: tableFeaturesBasic,
+    columns,
+    data,
+    getRowId: getRowId ? (r: Row) => getRowId(r) : undefined,
+  });
   const params = useSearchParams();
   const pathname = usePathname();
   const [open, setOpen] = useState<Record<string, boolean>>({});
@@ -78,7 +94,10 @@ export function DataTable<Row extends RowData>({
 
   if (data.length === 0) {
     return (
-      <div role="status" className="rounded-xl border border-dashed border-stone-300 bg-white px-4 py-8 text-center text-stone-600">
+      <div
+        role="status"
+        className="rounded-xl border border-dashed border-stone-300 bg-white px-4 py-8 text-center text-stone-600"
+      >
         {empty ?? 'Nothing here yet.'}
       </div>
     );
@@ -97,12 +116,20 @@ export function DataTable<Row extends RowData>({
     return def?.meta?.label ?? (typeof def?.header === 'string' ? def.header : null);
   };
 
-  const sortOptions = leaf.filter((c) => sortable.includes(c.id)).map((c) => ({ id: c.id, label: labelOf(c.id) ?? c.id }));
+  const sortOptions = leaf
+    .filter((c) => sortable.includes(c.id))
+    .map((c) => ({ id: c.id, label: labelOf(c.id) ?? c.id }));
 
   return (
     <div className="overflow-hidden rounded-xl border border-stone-200 bg-white shadow-sm">
       {sortOptions.length ? (
-        <PhoneSort caption={caption} options={sortOptions} sort={sort} dir={dir} hrefFor={(s, d) => href({ sort: s, dir: d, page: null })} />
+        <PhoneSort
+          caption={caption}
+          options={sortOptions}
+          sort={sort}
+          dir={dir}
+          hrefFor={(s, d) => href({ sort: s, dir: d, page: null })}
+        />
       ) : null}
       {/* Focusable so keyboard users can scroll a wide table sideways on a tablet; on a phone rows
           are cards and nothing scrolls. relative keeps visually hidden header text inside the box. */}
@@ -117,9 +144,17 @@ export function DataTable<Row extends RowData>({
                   const canSort = sortable.includes(id);
                   const active = sort === id;
                   return (
-                    <th key={header.id} scope="col" className="px-3 py-2 font-semibold" aria-sort={active ? (dir === 'asc' ? 'ascending' : 'descending') : undefined}>
+                    <th
+                      key={header.id}
+                      scope="col"
+                      className="px-3 py-2 font-semibold"
+                      aria-sort={active ? (dir === 'asc' ? 'ascending' : 'descending') : undefined}
+                    >
                       {header.isPlaceholder ? null : canSort ? (
-                        <Link className="inline-flex items-center gap-1 text-stone-800 no-underline hover:underline" href={href({ sort: id, dir: active && dir === 'asc' ? 'desc' : 'asc', page: null })}>
+                        <Link
+                          className="inline-flex items-center gap-1 text-stone-800 no-underline hover:underline"
+                          href={href({ sort: id, dir: active && dir === 'asc' ? 'desc' : 'asc', page: null })}
+                        >
                           <table.FlexRender header={header} />
                           <span aria-hidden="true">{active ? (dir === 'asc' ? '▲' : '▼') : '↕'}</span>
                         </Link>
@@ -136,7 +171,10 @@ export function DataTable<Row extends RowData>({
             {table.getRowModel().rows.map((row) => {
               const expanded = open[row.id] === true;
               return (
-                <tr key={row.id} className="border-t border-stone-100 hover:bg-stone-50 max-sm:flex max-sm:flex-wrap max-sm:items-end max-sm:gap-x-4 max-sm:gap-y-2 max-sm:px-3 max-sm:py-3 max-sm:first:border-t-0">
+                <tr
+                  key={row.id}
+                  className="border-t border-stone-100 hover:bg-stone-50 max-sm:flex max-sm:flex-wrap max-sm:items-end max-sm:gap-x-4 max-sm:gap-y-2 max-sm:px-3 max-sm:py-3 max-sm:first:border-t-0"
+                >
                   {row.getAllCells().map((cell) => {
                     const id = cell.column.id;
                     const key = keyIds.has(id);
@@ -150,15 +188,24 @@ export function DataTable<Row extends RowData>({
                       <td key={cell.id} className={`px-3 py-2 align-top break-words ${phone}`}>
                         {/* The label is generated content (data-label), so a phone reader hears it with the value while
                             text searches and copied text find only the value. */}
-                        {label ? <span data-label={label} className={`text-xs text-stone-600 before:content-[attr(data-label)] sm:hidden ${key ? 'block' : 'shrink-0 after:content-[":"]'}`} /> : null}
+                        {label ? (
+                          <span
+                            data-label={label}
+                            className={`text-xs text-stone-600 before:content-[attr(data-label)] sm:hidden ${key ? 'block' : 'shrink-0 after:content-[":"]'}`}
+                          />
+                        ) : null}
                         <table.FlexRender cell={cell} />
                       </td>
                     );
                   })}
                   {hasDetails ? (
                     <td className="sm:hidden max-sm:order-1 max-sm:block max-sm:p-0">
-                      <button type="button" aria-expanded={expanded} onClick={() => setOpen((o) => ({ ...o, [row.id]: !expanded }))}
-                        className="min-h-10 rounded-md px-2 text-sm font-semibold text-fir-700 underline-offset-2 hover:underline">
+                      <button
+                        type="button"
+                        aria-expanded={expanded}
+                        onClick={() => setOpen((o) => ({ ...o, [row.id]: !expanded }))}
+                        className="min-h-10 rounded-md px-2 text-sm font-semibold text-fir-700 underline-offset-2 hover:underline"
+                      >
                         {expanded ? 'Hide details' : 'Details'}
                       </button>
                     </td>
@@ -178,13 +225,30 @@ function Pager({ pageInfo, href }: { pageInfo: PageInfo; href: (c: Record<string
   const pages = Math.max(1, Math.ceil(pageInfo.total / pageInfo.pageSize));
   const { page } = pageInfo;
   return (
-    <nav aria-label="Pages" className="flex flex-wrap items-center justify-between gap-2 border-t border-stone-200 px-3 py-2 text-sm">
+    <nav
+      aria-label="Pages"
+      className="flex flex-wrap items-center justify-between gap-2 border-t border-stone-200 px-3 py-2 text-sm"
+    >
       <span className="text-stone-600">
         Page {page} of {pages} · {pageInfo.total} rows
       </span>
       <span className="flex gap-2">
-        {page > 1 ? <Link className="rounded border border-stone-300 px-3 py-1.5 no-underline" href={href({ page: String(page - 1) })}>Previous</Link> : null}
-        {page < pages ? <Link className="rounded border border-stone-300 px-3 py-1.5 no-underline" href={href({ page: String(page + 1) })}>Next</Link> : null}
+        {page > 1 ? (
+          <Link
+            className="rounded border border-stone-300 px-3 py-1.5 no-underline"
+            href={href({ page: String(page - 1) })}
+          >
+            Previous
+          </Link>
+        ) : null}
+        {page < pages ? (
+          <Link
+            className="rounded border border-stone-300 px-3 py-1.5 no-underline"
+            href={href({ page: String(page + 1) })}
+          >
+            Next
+          </Link>
+        ) : null}
       </span>
     </nav>
   );

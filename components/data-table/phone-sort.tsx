@@ -10,7 +10,13 @@ import { SelectField } from '@/components/ui/field';
  * column and a direction, applied by the button (choosing alone never reloads the page). It
  * writes the same `?sort=&dir=` the headers do, so both views share one sorting state.
  */
-export function PhoneSort({ caption, options, sort, dir, hrefFor }: {
+export function PhoneSort({
+  caption,
+  options,
+  sort,
+  dir,
+  hrefFor,
+}: {
   caption: string;
   options: { id: string; label: string }[];
   sort: string | null;
@@ -28,11 +34,24 @@ export function PhoneSort({ caption, options, sort, dir, hrefFor }: {
   }
   return (
     // Keyed by the sort in force, so the choices show it again after the page reloads.
-    <form key={`${sort}-${dir}`} onSubmit={onSubmit} aria-label={`Sort ${caption}`}
-      className="flex flex-wrap items-end gap-2 border-b border-stone-200 bg-stone-50 px-3 py-2 sm:hidden">
+    <form
+      key={`${sort}-${dir}`}
+      onSubmit={onSubmit}
+      aria-label={`Sort ${caption}`}
+      className="flex flex-wrap items-end gap-2 border-b border-stone-200 bg-stone-50 px-3 py-2 sm:hidden"
+    >
       <div className="min-w-0 flex-1">
-        <SelectField id={`${id}-sort`} label="Sort by" name="sort" defaultValue={sort && options.some((o) => o.id === sort) ? sort : options[0]!.id}>
-          {options.map((o) => <option key={o.id} value={o.id}>{o.label}</option>)}
+        <SelectField
+          id={`${id}-sort`}
+          label="Sort by"
+          name="sort"
+          defaultValue={sort && options.some((o) => o.id === sort) ? sort : options[0]!.id}
+        >
+          {options.map((o) => (
+            <option key={o.id} value={o.id}>
+              {o.label}
+            </option>
+          ))}
         </SelectField>
       </div>
       <div className="min-w-0 flex-1">
@@ -41,7 +60,9 @@ export function PhoneSort({ caption, options, sort, dir, hrefFor }: {
           <option value="desc">Descending (Z–A, 9–0)</option>
         </SelectField>
       </div>
-      <Button type="submit" variant="secondary">Sort</Button>
+      <Button type="submit" variant="secondary">
+        Sort
+      </Button>
     </form>
   );
 }

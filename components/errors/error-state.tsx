@@ -64,7 +64,9 @@ export function ErrorState({ error, reset }: { error: Error & { digest?: string 
   if (health === 'checking') {
     return (
       <main className="mx-auto max-w-lg px-4 py-16 text-center" data-state="checking">
-        <p role="status" className="text-stone-700">This page could not be shown; checking why…</p>
+        <p role="status" className="text-stone-700">
+          This page could not be shown; checking why…
+        </p>
       </main>
     );
   }
@@ -73,22 +75,44 @@ export function ErrorState({ error, reset }: { error: Error & { digest?: string 
       <main className="mx-auto max-w-lg px-4 py-16 text-center" data-state="database-unavailable">
         <h1>We can’t reach the database</h1>
         <p className="mt-2 text-stone-700">
-          Tallyvat is running, but its database is not answering right now, so this page can’t be shown. Nothing you saved before is lost; a change you were making when this appeared was not saved.
+          Tallyvat is running, but its database is not answering right now, so this page can’t be shown. Nothing you
+          saved before is lost; a change you were making when this appeared was not saved.
         </p>
-        <p className="mt-2 text-sm text-stone-600" role="status">We check again every few seconds and reload this page as soon as the database is back.</p>
-        <button type="button" onClick={retry} className="mt-4 min-h-11 rounded-lg bg-fir-700 px-4 py-2 font-semibold text-white">Try now</button>
-        {error.digest ? <p className="mt-6 text-xs text-stone-500">Reference: <code>{error.digest}</code></p> : null}
+        <p className="mt-2 text-sm text-stone-600" role="status">
+          We check again every few seconds and reload this page as soon as the database is back.
+        </p>
+        <button
+          type="button"
+          onClick={retry}
+          className="mt-4 min-h-11 rounded-lg bg-fir-700 px-4 py-2 font-semibold text-white"
+        >
+          Try now
+        </button>
+        {error.digest ? (
+          <p className="mt-6 text-xs text-stone-500">
+            Reference: <code>{error.digest}</code>
+          </p>
+        ) : null}
       </main>
     );
   }
   return (
     <main className="mx-auto max-w-lg px-4 py-16 text-center" data-state="error">
       <h1>Something went wrong</h1>
-      <p className="mt-2 text-stone-700">The page could not be shown. Nothing you entered was lost on our side; try again.</p>
-      <button type="button" onClick={retry} className="mt-4 min-h-11 rounded-lg bg-fir-700 px-4 py-2 font-semibold text-white">Try again</button>
+      <p className="mt-2 text-stone-700">
+        The page could not be shown. Nothing you entered was lost on our side; try again.
+      </p>
+      <button
+        type="button"
+        onClick={retry}
+        className="mt-4 min-h-11 rounded-lg bg-fir-700 px-4 py-2 font-semibold text-white"
+      >
+        Try again
+      </button>
       {error.digest ? (
         <p className="mt-6 text-sm text-stone-600">
-          If it keeps happening, tell your co-op’s admin this reference: <code className="select-all">{error.digest}</code>
+          If it keeps happening, tell your co-op’s admin this reference:{' '}
+          <code className="select-all">{error.digest}</code>
         </p>
       ) : null}
     </main>

@@ -8,7 +8,13 @@ import { Notice } from '@/components/ui/notice';
  * keyboard focus and scrolled into view when it changes, so it is seen on a phone and said by
  * screen readers (the Notice is a live region).
  */
-export function FormResult({ message, className = '' }: { message: { tone: 'ok' | 'danger'; text: string } | null; className?: string }) {
+export function FormResult({
+  message,
+  className = '',
+}: {
+  message: { tone: 'ok' | 'danger'; text: string } | null;
+  className?: string;
+}) {
   const box = useRef<HTMLDivElement>(null);
   useEffect(() => {
     if (!message || !box.current) return;

@@ -13,13 +13,17 @@ import type * as FormSchemas from '@/lib/validation/forms';
 // body's and the answer's fields are the contract's and a renamed one is a compile error here.
 // The server's 4xx field errors land beside the same fields.
 
-export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; error: string; fields: Record<string, string[]>; body: Record<string, unknown> };
+export type ApiResult<T> =
+  | { ok: true; data: T }
+  | { ok: false; status: number; error: string; fields: Record<string, string[]>; body: Record<string, unknown> };
 
 /** An apiClient call (lib/api/client, openapi-fetch) under way. */
 export type ClientCall<T> = Promise<ClientResult<T>>;
 
 /** A schema forms check with, by its name in lib/validation/forms. */
-export type FormSchema = { [K in keyof typeof FormSchemas]: (typeof FormSchemas)[K] extends { safeParse: unknown } ? K : never }[keyof typeof FormSchemas];
+export type FormSchema = {
+  [K in keyof typeof FormSchemas]: (typeof FormSchemas)[K] extends { safeParse: unknown } ? K : never;
+}[keyof typeof FormSchemas];
 
 /** A body and the route's schema to check it with before it is sent. */
 export type Checked<B> = { schema: FormSchema; body: B };
@@ -47,7 +51,10 @@ export async function checkBody(schema: FormSchema, body: unknown): Promise<Reco
  * `checked.body` with `checked.schema`: a body the route would refuse answers here as a 422 with
  * the same field reasons, and nothing is sent.
  */
-export async function callApi<T, B = undefined>(call: (body: B) => ClientCall<T>, checked?: Checked<B>): Promise<ApiResult<T>> {
+export async function callApi<T, B = undefined>(
+  call: (body: B) => ClientCall<T>,
+  checked?: Checked<B>,
+): Promise<ApiResult<T>> {
   try {
     if (checked) {
       const fields = await checkBody(checked.schema, checked.body);
@@ -56,7 +63,12 @@ export async function callApi<T, B = undefined>(call: (body: B) => ClientCall<T>
     const r = await call(checked?.body as B);
     if (r.response.ok) return { ok: true, data: r.data as T };
     const e = apiError(r.error, r.response.status);
-    return { ok: false, status: r.response.status, ...e, body: r.error && typeof r.error === 'object' ? (r.error as Record<string, unknown>) : {} };
+    return {
+      ok: false,
+      status: r.response.status,
+      ...e,
+      body: r.error && typeof r.error === 'object' ? (r.error as Record<string, unknown>) : {},
+    };
   } catch {
     return { ok: false, status: 0, error: UNREACHABLE, fields: {}, body: {} };
   }
@@ -73,7 +85,11 @@ export function useApiForm() {
    * `send((b) => apiClient.POST('/api/…', { params, body: b }), { schema, body }, 'Saved.')`: the
    * declared answer, or null with the reasons set beside the fields and in the message.
    */
-  async function send<T, B = undefined>(call: (body: B) => ClientCall<T>, checked?: Checked<B>, okText?: string): Promise<T | null> {
+  async function send<T, B = undefined>(
+    call: (body: B) => ClientCall<T>,
+    checked?: Checked<B>,
+    okText?: string,
+  ): Promise<T | null> {
     setBusy(true);
     setMessage(null);
     const r = await callApi(call, checked);
@@ -92,7 +108,8 @@ export function useApiForm() {
 }
 
 /** A number input's text as the number a body carries: empty → undefined; not a number → NaN, which the schema names. */
-export const numberOf = (s: string | undefined): number | undefined => (s === undefined || s.trim() === '' ? undefined : Number(s));
+export const numberOf = (s: string | undefined): number | undefined =>
+  s === undefined || s.trim() === '' ? undefined : Number(s);
 
 /** FormData → plain object of strings (empty strings dropped). */
 export function formObject(form: HTMLFormElement): Record<string, string> {

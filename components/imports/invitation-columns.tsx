@@ -31,7 +31,9 @@ const DELIVERY: Record<string, { label: string; tone: string }> = {
   'not-sent': { label: 'Not sent', tone: 'bg-warn-50 text-warn-700' },
 };
 
-const pill = (tone: string, text: string) => <span className={`inline-block self-start rounded-full px-2 py-0.5 text-xs font-semibold ${tone}`}>{text}</span>;
+const pill = (tone: string, text: string) => (
+  <span className={`inline-block self-start rounded-full px-2 py-0.5 text-xs font-semibold ${tone}`}>{text}</span>
+);
 
 /** A cell that carries the row's problem when the problem is in this field. */
 const fieldCell = (key: 'name' | 'email' | 'role') =>
@@ -40,7 +42,11 @@ const fieldCell = (key: 'name' | 'email' | 'role') =>
     cell: ({ row }) => {
       const r = row.original;
       const bad = r.field === key && r.fate !== 'duplicate';
-      return <span className={bad ? 'font-semibold text-danger-700 underline decoration-wavy' : 'break-all'}>{r[key] || (bad ? '(empty)' : '')}</span>;
+      return (
+        <span className={bad ? 'font-semibold text-danger-700 underline decoration-wavy' : 'break-all'}>
+          {r[key] || (bad ? '(empty)' : '')}
+        </span>
+      );
     },
   });
 
@@ -57,7 +63,9 @@ export function invitationImportColumns(withDelivery: boolean): DataColumn<Invit
       cell: ({ row }) => (
         <span className="flex flex-col gap-1">
           {pill(FATE_TONE[row.original.fate] ?? 'bg-danger-50 text-danger-700', row.original.fateLabel)}
-          {row.original.fate !== 'invite' ? <span className="text-xs text-stone-600">{row.original.message}</span> : null}
+          {row.original.fate !== 'invite' ? (
+            <span className="text-xs text-stone-600">{row.original.message}</span>
+          ) : null}
         </span>
       ),
     }),
@@ -74,7 +82,9 @@ export function invitationImportColumns(withDelivery: boolean): DataColumn<Invit
           return (
             <span className="flex flex-col gap-1">
               {pill(s.tone, s.label)}
-              {row.original.invitationStatus && row.original.invitationStatus !== 'pending' ? <span className="text-xs text-stone-600">{row.original.invitationStatus}</span> : null}
+              {row.original.invitationStatus && row.original.invitationStatus !== 'pending' ? (
+                <span className="text-xs text-stone-600">{row.original.invitationStatus}</span>
+              ) : null}
             </span>
           );
         },

@@ -65,7 +65,10 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
     setBusy('preview');
     setMessage(null);
     // The imports' answers are not declared field by field yet: the preview is read as this screen's shape.
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }), { schema: 'importFileSchema', body: body() });
+    const r = await callApi(
+      (b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }),
+      { schema: 'importFileSchema', body: body() },
+    );
     setBusy(null);
     if (!r.ok) {
       setPreview(null);
@@ -80,7 +83,10 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
   async function confirm() {
     setBusy('confirm');
     setMessage(null);
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), { schema: 'importFileSchema', body: body() });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), {
+      schema: 'importFileSchema',
+      body: body(),
+    });
     if (!r.ok) {
       setBusy(null);
       setErrors(r.fields);
@@ -90,7 +96,10 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
     router.push(`/c/${coopSlug}/imports/invitations/${String(r.data.importId)}`);
   }
 
-  const rows: InvitationImportRow[] = (preview?.rows ?? []).map((r) => ({ ...r, fateLabel: fateLabels[r.fate] ?? r.fate }));
+  const rows: InvitationImportRow[] = (preview?.rows ?? []).map((r) => ({
+    ...r,
+    fateLabel: fateLabels[r.fate] ?? r.fate,
+  }));
   const shown = onlyProblems ? rows.filter((r) => r.fate !== 'invite') : rows;
   const inviting = preview?.counts.invite ?? 0;
   const ready = Boolean(csv || pasted.trim());
@@ -99,7 +108,9 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
     <div className="flex flex-col gap-4">
       <div className="grid gap-4 md:grid-cols-2">
         <div className="flex min-w-0 flex-col gap-1">
-          <label htmlFor="invitations-file" className="text-sm font-medium text-stone-800">CSV file</label>
+          <label htmlFor="invitations-file" className="text-sm font-medium text-stone-800">
+            CSV file
+          </label>
           <input
             id="invitations-file"
             type="file"
@@ -108,10 +119,14 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
             className="min-h-11 w-full min-w-0 rounded-lg border border-stone-300 bg-white px-3 py-2 text-base"
             onChange={(e) => void choose(e.currentTarget.files?.[0])}
           />
-          <p id="invitations-file-hint" className="text-xs text-stone-600">Saved from a spreadsheet as CSV: commas, semicolons or tabs all work.</p>
+          <p id="invitations-file-hint" className="text-xs text-stone-600">
+            Saved from a spreadsheet as CSV: commas, semicolons or tabs all work.
+          </p>
         </div>
         <div className="flex min-w-0 flex-col gap-1">
-          <label htmlFor="invitations-paste" className="text-sm font-medium text-stone-800">Or paste rows (with the heading row)</label>
+          <label htmlFor="invitations-paste" className="text-sm font-medium text-stone-800">
+            Or paste rows (with the heading row)
+          </label>
           <textarea
             id="invitations-paste"
             rows={4}
@@ -137,29 +152,53 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
 
       {preview ? (
         <section aria-labelledby="preview-heading" className="flex flex-col gap-3">
-          <h3 id="preview-heading" className="text-base font-semibold">Preview of {preview.fileName} — nothing is saved yet</h3>
+          <h3 id="preview-heading" className="text-base font-semibold">
+            Preview of {preview.fileName} — nothing is saved yet
+          </h3>
           <ul className="flex flex-wrap gap-2 text-sm">
             {COUNT_WORDS.filter(([k]) => (preview.counts[k] ?? 0) > 0).map(([k, words]) => (
-              <li key={k} className="rounded-full bg-stone-100 px-3 py-1"><strong>{preview.counts[k]}</strong> {words}</li>
+              <li key={k} className="rounded-full bg-stone-100 px-3 py-1">
+                <strong>{preview.counts[k]}</strong> {words}
+              </li>
             ))}
           </ul>
-          {preview.ignoredHeadings.length ? <Notice tone="info">Columns not used: {preview.ignoredHeadings.join(', ')}.</Notice> : null}
+          {preview.ignoredHeadings.length ? (
+            <Notice tone="info">Columns not used: {preview.ignoredHeadings.join(', ')}.</Notice>
+          ) : null}
           {preview.earlierImport ? (
             <Notice tone="warn" title="This file was already imported">
-              {preview.earlierImport.createdBy ? `${preview.earlierImport.createdBy} imported it` : 'It was imported'} on {new Date(preview.earlierImport.createdAt).toLocaleString()}.
-              Nobody is invited twice: change the file to invite new people.
+              {preview.earlierImport.createdBy ? `${preview.earlierImport.createdBy} imported it` : 'It was imported'}{' '}
+              on {new Date(preview.earlierImport.createdAt).toLocaleString()}. Nobody is invited twice: change the file
+              to invite new people.
             </Notice>
           ) : null}
           <label className="flex items-center gap-2 text-sm">
-            <input type="checkbox" checked={onlyProblems} onChange={(e) => setOnlyProblems(e.currentTarget.checked)} className="h-5 w-5" />
+            <input
+              type="checkbox"
+              checked={onlyProblems}
+              onChange={(e) => setOnlyProblems(e.currentTarget.checked)}
+              className="h-5 w-5"
+            />
             Show only rows that will not be invited
           </label>
-          <DataTable caption="Rows of the file and what will happen to each" columns={invitationImportColumns(false)} data={shown} getRowId={(r) => String(r.line)} empty="Every row will be invited." />
+          <DataTable
+            caption="Rows of the file and what will happen to each"
+            columns={invitationImportColumns(false)}
+            data={shown}
+            getRowId={(r) => String(r.line)}
+            empty="Every row will be invited."
+          />
           <div className="flex flex-wrap items-center gap-3">
-            <Button type="button" disabled={busy !== null || inviting === 0 || Boolean(preview.earlierImport)} onClick={() => void confirm()}>
+            <Button
+              type="button"
+              disabled={busy !== null || inviting === 0 || Boolean(preview.earlierImport)}
+              onClick={() => void confirm()}
+            >
               {busy === 'confirm' ? 'Inviting…' : `Invite ${inviting} ${inviting === 1 ? 'person' : 'people'}`}
             </Button>
-            <p className="text-sm text-stone-600">Rows that will not be invited are skipped; fix them in the file and import it again.</p>
+            <p className="text-sm text-stone-600">
+              Rows that will not be invited are skipped; fix them in the file and import it again.
+            </p>
           </div>
         </section>
       ) : null}

@@ -22,7 +22,11 @@ export function openingImportColumns(fileColumns: { key: string; heading: string
         cell: ({ row }) => {
           const bad = row.original.errors.some((e) => e.field === c.key);
           const v = row.original.values[c.key] ?? '';
-          return <span className={bad ? 'font-semibold text-danger-700 underline decoration-wavy' : 'break-all'}>{v || (bad ? '(empty)' : '')}</span>;
+          return (
+            <span className={bad ? 'font-semibold text-danger-700 underline decoration-wavy' : 'break-all'}>
+              {v || (bad ? '(empty)' : '')}
+            </span>
+          );
         },
       }),
     ),
@@ -37,7 +41,8 @@ export function openingImportColumns(fileColumns: { key: string; heading: string
           <ul className="list-disc pl-4 text-danger-700">
             {row.original.errors.map((e, i) => (
               <li key={i}>
-                <span className="font-semibold">{fileColumns.find((c) => c.key === e.field)?.heading ?? e.field}:</span> {e.message}
+                <span className="font-semibold">{fileColumns.find((c) => c.key === e.field)?.heading ?? e.field}:</span>{' '}
+                {e.message}
               </li>
             ))}
           </ul>

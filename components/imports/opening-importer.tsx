@@ -24,7 +24,15 @@ interface Preview {
  * field by field, then import all rows at once. Nothing is saved until "Import"; one wrong row
  * stops the whole import, so fix the file and preview again.
  */
-export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: string; kind: string; fileColumns: { key: string; heading: string }[] }) {
+export function OpeningImporter({
+  coopSlug,
+  kind,
+  fileColumns,
+}: {
+  coopSlug: string;
+  kind: string;
+  fileColumns: { key: string; heading: string }[];
+}) {
   const router = useRouter();
   const [file, setFile] = useState<{ name: string; text: string } | null>(null);
   const [preview, setPreview] = useState<Preview | null>(null);
@@ -47,7 +55,10 @@ export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: str
     setBusy('preview');
     setError(null);
     // The imports' answers are not declared field by field yet: the preview is read as this screen's shape.
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }), { schema: 'importFileSchema', body: { fileName: file.name, csv: file.text } });
+    const r = await callApi(
+      (b) => apiClient.POST('/api/coops/{coop}/imports/{kind}/preview', { params: { path }, body: b }),
+      { schema: 'importFileSchema', body: { fileName: file.name, csv: file.text } },
+    );
     setBusy(null);
     if (!r.ok) return setError(r.error);
     setPreview(r.data as unknown as Preview);
@@ -57,10 +68,18 @@ export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: str
     if (!file) return;
     setBusy('confirm');
     setError(null);
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), { schema: 'importFileSchema', body: { fileName: file.name, csv: file.text } });
+    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/imports/{kind}', { params: { path }, body: b }), {
+      schema: 'importFileSchema',
+      body: { fileName: file.name, csv: file.text },
+    });
     setBusy(null);
     if (!r.ok) {
-      if (Array.isArray(r.body.rows)) setPreview((p) => (p ? { ...p, rows: p.rows.map((x) => (r.body.rows as OpeningImportRow[]).find((b) => b.line === x.line) ?? x) } : p));
+      if (Array.isArray(r.body.rows))
+        setPreview((p) =>
+          p
+            ? { ...p, rows: p.rows.map((x) => (r.body.rows as OpeningImportRow[]).find((b) => b.line === x.line) ?? x) }
+            : p,
+        );
       return setError(r.error);
     }
     setPreview(null);
@@ -74,7 +93,9 @@ export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: str
   return (
     <div className="flex flex-col gap-3">
       <div className="flex flex-col gap-1">
-        <label htmlFor={inputId} className="text-sm font-medium text-stone-800">CSV file</label>
+        <label htmlFor={inputId} className="text-sm font-medium text-stone-800">
+          CSV file
+        </label>
         <input
           id={inputId}
           type="file"
@@ -94,15 +115,35 @@ export function OpeningImporter({ coopSlug, kind, fileColumns }: { coopSlug: str
       {preview ? (
         <section aria-label={`Preview of ${preview.fileName}`} className="flex flex-col gap-3">
           <p className="text-sm">
-            <strong>{preview.counts.ready}</strong> ready · <strong className={preview.counts.errors ? 'text-danger-700' : ''}>{preview.counts.errors}</strong> with problems — nothing is saved yet.
+            <strong>{preview.counts.ready}</strong> ready ·{' '}
+            <strong className={preview.counts.errors ? 'text-danger-700' : ''}>{preview.counts.errors}</strong> with
+            problems — nothing is saved yet.
           </p>
-          {preview.ignoredHeadings.length ? <Notice tone="info">Columns not used: {preview.ignoredHeadings.join(', ')}.</Notice> : null}
-          {preview.earlierImport ? <Notice tone="warn" title="This file was already imported">Undo that import first if you mean to import it again.</Notice> : null}
-          {preview.counts.errors > 0 ? <Notice tone="warn">Every row must be right before anything is imported: fix the rows marked below in your spreadsheet, save it as CSV again and preview it.</Notice> : null}
-          <DataTable caption={`Rows of ${preview.fileName}, checked`} columns={openingImportColumns(fileColumns)} data={preview.rows} getRowId={(r) => String(r.line)} />
+          {preview.ignoredHeadings.length ? (
+            <Notice tone="info">Columns not used: {preview.ignoredHeadings.join(', ')}.</Notice>
+          ) : null}
+          {preview.earlierImport ? (
+            <Notice tone="warn" title="This file was already imported">
+              Undo that import first if you mean to import it again.
+            </Notice>
+          ) : null}
+          {preview.counts.errors > 0 ? (
+            <Notice tone="warn">
+              Every row must be right before anything is imported: fix the rows marked below in your spreadsheet, save
+              it as CSV again and preview it.
+            </Notice>
+          ) : null}
+          <DataTable
+            caption={`Rows of ${preview.fileName}, checked`}
+            columns={openingImportColumns(fileColumns)}
+            data={preview.rows}
+            getRowId={(r) => String(r.line)}
+          />
           <div>
             <Button type="button" disabled={blocked || busy !== null} onClick={() => void confirm()}>
-              {busy === 'confirm' ? 'Importing…' : `Import ${preview.counts.ready} row${preview.counts.ready === 1 ? '' : 's'}`}
+              {busy === 'confirm'
+                ? 'Importing…'
+                : `Import ${preview.counts.ready} row${preview.counts.ready === 1 ? '' : 's'}`}
             </Button>
           </div>
         </section>

@@ -11,7 +11,14 @@ import { Notice } from '@/components/ui/notice';
 import { openingImportColumns, type OpeningImportRow } from './opening-columns';
 
 /** An opening-records import: its rows, the result download, and undo (asked twice). */
-export function OpeningResult(p: { coopSlug: string; kind: string; importId: number; undone: boolean; fileColumns: { key: string; heading: string }[]; rows: OpeningImportRow[] }) {
+export function OpeningResult(p: {
+  coopSlug: string;
+  kind: string;
+  importId: number;
+  undone: boolean;
+  fileColumns: { key: string; heading: string }[];
+  rows: OpeningImportRow[];
+}) {
   const router = useRouter();
   const [asking, setAsking] = useState(false);
   const [busy, setBusy] = useState(false);
@@ -24,24 +31,45 @@ export function OpeningResult(p: { coopSlug: string; kind: string; importId: num
     const r = await callApi(() => apiClient.POST('/api/coops/{coop}/imports/{kind}/{id}/undo', { params: { path } }));
     setBusy(false);
     setAsking(false);
-    setMessage(r.ok ? { tone: 'ok', text: 'The import was undone: everything it recorded was taken back.' } : { tone: 'danger', text: r.error });
+    setMessage(
+      r.ok
+        ? { tone: 'ok', text: 'The import was undone: everything it recorded was taken back.' }
+        : { tone: 'danger', text: r.error },
+    );
     if (r.ok) router.refresh();
   }
 
   return (
     <div className="flex flex-col gap-4">
       <div aria-live="polite">{message ? <Notice tone={message.tone}>{message.text}</Notice> : null}</div>
-      <p className="text-sm"><a href={`${url}/result`} download>Download the result (CSV)</a></p>
+      <p className="text-sm">
+        <a href={`${url}/result`} download>
+          Download the result (CSV)
+        </a>
+      </p>
       {p.undone ? null : asking ? (
         <div className="flex flex-wrap items-center gap-2">
           <span className="text-sm">Take back everything this import recorded?</span>
-          <Button type="button" variant="danger" disabled={busy} onClick={() => void undo()}>{busy ? 'Undoing…' : 'Yes, undo the import'}</Button>
-          <Button type="button" variant="secondary" onClick={() => setAsking(false)}>Keep it</Button>
+          <Button type="button" variant="danger" disabled={busy} onClick={() => void undo()}>
+            {busy ? 'Undoing…' : 'Yes, undo the import'}
+          </Button>
+          <Button type="button" variant="secondary" onClick={() => setAsking(false)}>
+            Keep it
+          </Button>
         </div>
       ) : (
-        <div><Button type="button" variant="secondary" onClick={() => setAsking(true)}>Undo this import</Button></div>
+        <div>
+          <Button type="button" variant="secondary" onClick={() => setAsking(true)}>
+            Undo this import
+          </Button>
+        </div>
       )}
-      <DataTable caption="Every row of the file and what it recorded" columns={openingImportColumns(p.fileColumns)} data={p.rows} getRowId={(r) => String(r.line)} />
+      <DataTable
+        caption="Every row of the file and what it recorded"
+        columns={openingImportColumns(p.fileColumns)}
+        data={p.rows}
+        getRowId={(r) => String(r.line)}
+      />
     </div>
   );
 }

@@ -25,10 +25,19 @@ export function LateLabForm({ url, standard }: { url: string; standard: FuelStan
     const property = String(d.get('property') ?? '');
     const body = {
       labResults: {
-        [property]: { value: numberOf(String(d.get('value') ?? '')) as number, method: String(d.get('method') ?? ''), laboratory: String(d.get('laboratory') ?? ''), date: String(d.get('date') ?? '') },
+        [property]: {
+          value: numberOf(String(d.get('value') ?? '')) as number,
+          method: String(d.get('method') ?? ''),
+          laboratory: String(d.get('laboratory') ?? ''),
+          date: String(d.get('date') ?? ''),
+        },
       },
     };
-    const r = await send((b) => apiClient.POST('/api/coops/{coop}/batches/{id}/lab-results', { params: { path: batchPath(url) }, body: b }), { schema: 'lateLabResultSchema', body });
+    const r = await send(
+      (b) =>
+        apiClient.POST('/api/coops/{coop}/batches/{id}/lab-results', { params: { path: batchPath(url) }, body: b }),
+      { schema: 'lateLabResultSchema', body },
+    );
     if (r) router.refresh();
   }
 
@@ -37,14 +46,45 @@ export function LateLabForm({ url, standard }: { url: string; standard: FuelStan
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
         <SelectField label="Property" name="property" defaultValue={rows[0]?.property} errors={fields.labResults}>
-          {rows.map((r) => <option key={r.property} value={r.property}>{r.label} ({r.limitText})</option>)}
+          {rows.map((r) => (
+            <option key={r.property} value={r.property}>
+              {r.label} ({r.limitText})
+            </option>
+          ))}
         </SelectField>
-        <TextField label="Value" name="value" inputMode="decimal" required errors={Object.entries(fields).find(([k]) => k.endsWith('.value'))?.[1] ?? err('value')} />
-        <TextField label="Laboratory" name="laboratory" required errors={Object.entries(fields).find(([k]) => k.endsWith('.laboratory'))?.[1]} />
-        <TextField label="Test method" name="method" required hint="e.g. ASTM D664" errors={Object.entries(fields).find(([k]) => k.endsWith('.method'))?.[1]} />
-        <TextField label="Date tested" name="date" type="date" required errors={Object.entries(fields).find(([k]) => k.endsWith('.date'))?.[1]} />
+        <TextField
+          label="Value"
+          name="value"
+          inputMode="decimal"
+          required
+          errors={Object.entries(fields).find(([k]) => k.endsWith('.value'))?.[1] ?? err('value')}
+        />
+        <TextField
+          label="Laboratory"
+          name="laboratory"
+          required
+          errors={Object.entries(fields).find(([k]) => k.endsWith('.laboratory'))?.[1]}
+        />
+        <TextField
+          label="Test method"
+          name="method"
+          required
+          hint="e.g. ASTM D664"
+          errors={Object.entries(fields).find(([k]) => k.endsWith('.method'))?.[1]}
+        />
+        <TextField
+          label="Date tested"
+          name="date"
+          type="date"
+          required
+          errors={Object.entries(fields).find(([k]) => k.endsWith('.date'))?.[1]}
+        />
       </div>
-      <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Record lab result'}</Button></div>
+      <div>
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Saving…' : 'Record lab result'}
+        </Button>
+      </div>
     </form>
   );
 }

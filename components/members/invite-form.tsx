@@ -24,7 +24,10 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
     const f = formObject(form);
     // The select offers the four roles; the server names a bad value.
     const body = { email: f.email ?? '', role: f.role as Role };
-    const r = await callApi((b) => apiClient.POST('/api/coops/{coop}/invitations', { params: { path: { coop: coopSlug } }, body: b }), { schema: 'invitationCreateSchema', body });
+    const r = await callApi(
+      (b) => apiClient.POST('/api/coops/{coop}/invitations', { params: { path: { coop: coopSlug } }, body: b }),
+      { schema: 'invitationCreateSchema', body },
+    );
     setBusy(false);
     if (!r.ok) {
       setFields(r.fields);
@@ -33,7 +36,10 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
     }
     setFields({});
     form.reset();
-    setMessage({ tone: 'ok', text: `Invitation to ${r.data.invitation.email} saved; the e-mail goes out in a moment. The link works for 7 days from sending.` });
+    setMessage({
+      tone: 'ok',
+      text: `Invitation to ${r.data.invitation.email} saved; the e-mail goes out in a moment. The link works for 7 days from sending.`,
+    });
     router.refresh();
   }
 
@@ -44,7 +50,9 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
         <TextField label="E-mail address" name="email" type="email" autoComplete="off" required errors={fields.email} />
         <SelectField label="Role" name="role" defaultValue="member" errors={fields.role}>
           {ROLES.map((r) => (
-            <option key={r} value={r}>{r}</option>
+            <option key={r} value={r}>
+              {r}
+            </option>
           ))}
         </SelectField>
       </div>
@@ -59,7 +67,11 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
           ))}
         </dl>
       </details>
-      <div><Button type="submit" disabled={busy}>{busy ? 'Sending…' : 'Send invitation'}</Button></div>
+      <div>
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Sending…' : 'Send invitation'}
+        </Button>
+      </div>
     </form>
   );
 }

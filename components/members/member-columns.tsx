@@ -26,7 +26,9 @@ const badge = (status: MemberRow['status']) =>
   status === 'active' ? (
     <span className="inline-block rounded-full bg-ok-50 px-2 py-0.5 text-xs font-semibold text-ok-700">Active</span>
   ) : (
-    <span className="inline-block rounded-full bg-warn-50 px-2 py-0.5 text-xs font-semibold text-warn-700">Suspended</span>
+    <span className="inline-block rounded-full bg-warn-50 px-2 py-0.5 text-xs font-semibold text-warn-700">
+      Suspended
+    </span>
   );
 
 const small = 'min-h-10 px-3 text-xs';
@@ -44,11 +46,16 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
       cell: ({ row }) => (
         <span className="font-medium text-stone-900">
           {row.original.name}
-          {row.original.isYou ? <span className="ml-2 rounded bg-stone-100 px-1.5 py-0.5 text-xs font-normal text-stone-700">you</span> : null}
+          {row.original.isYou ? (
+            <span className="ml-2 rounded bg-stone-100 px-1.5 py-0.5 text-xs font-normal text-stone-700">you</span>
+          ) : null}
         </span>
       ),
     }),
-    h.accessor('email', { header: 'E-mail', cell: ({ row }) => <span className="break-all">{row.original.email}</span> }),
+    h.accessor('email', {
+      header: 'E-mail',
+      cell: ({ row }) => <span className="break-all">{row.original.email}</span>,
+    }),
     h.accessor('role', {
       meta: { priority: 'key' },
       header: 'Role',
@@ -66,17 +73,26 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
               onChange={(e) => a.pickRole(r, e.target.value as Role)}
             >
               {ROLES.map((role) => (
-                <option key={role} value={role}>{role}</option>
+                <option key={role} value={role}>
+                  {role}
+                </option>
               ))}
             </select>
             {chosen !== r.role ? (
               <ConfirmDialog
-                trigger="Save role" triggerVariant="primary" triggerClassName={small} triggerLabel={`Save role of ${r.name}`} tone="primary"
-                title={`Make ${r.name} ${withArticle(chosen)}?`} confirmLabel={`Make ${withArticle(chosen)}`} busyLabel="Saving…"
+                trigger="Save role"
+                triggerVariant="primary"
+                triggerClassName={small}
+                triggerLabel={`Save role of ${r.name}`}
+                tone="primary"
+                title={`Make ${r.name} ${withArticle(chosen)}?`}
+                confirmLabel={`Make ${withArticle(chosen)}`}
+                busyLabel="Saving…"
                 onConfirm={() => a.saveRole(r, chosen)}
               >
                 <p className="text-sm text-stone-700">
-                  {r.name} is {withArticle(r.role)} now. As {withArticle(chosen)} they can {ROLE_SUMMARY[chosen]}. It counts from their next click.
+                  {r.name} is {withArticle(r.role)} now. As {withArticle(chosen)} they can {ROLE_SUMMARY[chosen]}. It
+                  counts from their next click.
                 </p>
               </ConfirmDialog>
             ) : null}
@@ -84,8 +100,16 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
         );
       },
     }),
-    h.accessor('status', { meta: { priority: 'key' }, header: 'Status', cell: ({ row }) => badge(row.original.status) }),
-    h.accessor('joinedLabel', { id: 'joined', header: 'Joined', cell: ({ row }) => <span className="whitespace-nowrap">{row.original.joinedLabel}</span> }),
+    h.accessor('status', {
+      meta: { priority: 'key' },
+      header: 'Status',
+      cell: ({ row }) => badge(row.original.status),
+    }),
+    h.accessor('joinedLabel', {
+      id: 'joined',
+      header: 'Joined',
+      cell: ({ row }) => <span className="whitespace-nowrap">{row.original.joinedLabel}</span>,
+    }),
     h.display({
       id: 'actions',
       meta: { priority: 'key' },
@@ -97,25 +121,49 @@ export function memberColumns(a: MemberActions): DataColumn<MemberRow>[] {
           <span className="flex flex-wrap gap-2">
             {r.status === 'active' ? (
               <ConfirmDialog
-                trigger="Suspend" triggerClassName={small} triggerLabel={`Suspend ${r.name}`} title={`Suspend ${r.name}?`} confirmLabel="Suspend" busyLabel="Suspending…"
+                trigger="Suspend"
+                triggerClassName={small}
+                triggerLabel={`Suspend ${r.name}`}
+                title={`Suspend ${r.name}?`}
+                confirmLabel="Suspend"
+                busyLabel="Suspending…"
                 onConfirm={() => a.setStatus(r, 'suspended')}
               >
-                <p className="text-sm text-stone-700">{r.name} can no longer open the co-op from their next click: no reserving, drawing or paying online. Their records and invoices stay. You can reinstate them at any time.</p>
+                <p className="text-sm text-stone-700">
+                  {r.name} can no longer open the co-op from their next click: no reserving, drawing or paying online.
+                  Their records and invoices stay. You can reinstate them at any time.
+                </p>
               </ConfirmDialog>
             ) : (
               <ConfirmDialog
-                trigger="Reinstate" triggerClassName={small} triggerLabel={`Reinstate ${r.name}`} title={`Reinstate ${r.name}?`} confirmLabel="Reinstate" busyLabel="Reinstating…" tone="primary"
+                trigger="Reinstate"
+                triggerClassName={small}
+                triggerLabel={`Reinstate ${r.name}`}
+                title={`Reinstate ${r.name}?`}
+                confirmLabel="Reinstate"
+                busyLabel="Reinstating…"
+                tone="primary"
                 onConfirm={() => a.setStatus(r, 'active')}
               >
-                <p className="text-sm text-stone-700">{r.name} can open the co-op again as {withArticle(r.role)}.</p>
+                <p className="text-sm text-stone-700">
+                  {r.name} can open the co-op again as {withArticle(r.role)}.
+                </p>
               </ConfirmDialog>
             )}
             <ConfirmDialog
-              trigger="Remove" triggerVariant="ghost" triggerClassName={`${small} text-danger-700 hover:bg-danger-50`} triggerLabel={`Remove ${r.name}`}
-              title={`Remove ${r.name} from the co-op?`} confirmLabel="Remove" busyLabel="Removing…"
+              trigger="Remove"
+              triggerVariant="ghost"
+              triggerClassName={`${small} text-danger-700 hover:bg-danger-50`}
+              triggerLabel={`Remove ${r.name}`}
+              title={`Remove ${r.name} from the co-op?`}
+              confirmLabel="Remove"
+              busyLabel="Removing…"
               onConfirm={() => a.remove(r)}
             >
-              <p className="text-sm text-stone-700">{r.name} loses access to the co-op. Their past draws, invoices and payments stay on record. To bring them back, send a new invitation.</p>
+              <p className="text-sm text-stone-700">
+                {r.name} loses access to the co-op. Their past draws, invoices and payments stay on record. To bring
+                them back, send a new invitation.
+              </p>
             </ConfirmDialog>
           </span>
         );

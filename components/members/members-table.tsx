@@ -10,15 +10,32 @@ import { withArticle, type Role } from '@/lib/auth/roles';
 import { memberColumns, type MemberRow } from './member-columns';
 
 /** The members table with its row actions (role, suspend/reinstate, remove), each confirmed; the server re-checks every one. */
-export function MembersTable({ coopSlug, rows, pageInfo, filtered }: { coopSlug: string; rows: MemberRow[]; pageInfo: PageInfo; filtered: boolean }) {
+export function MembersTable({
+  coopSlug,
+  rows,
+  pageInfo,
+  filtered,
+}: {
+  coopSlug: string;
+  rows: MemberRow[];
+  pageInfo: PageInfo;
+  filtered: boolean;
+}) {
   const router = useRouter();
   const [pendingRole, setPendingRole] = useState<Record<number, Role>>({});
 
   const columns = useMemo(() => {
-    async function run(row: MemberRow, change: { role?: Role; status?: 'active' | 'suspended' } | null, okText: string): Promise<ConfirmOutcome> {
+    async function run(
+      row: MemberRow,
+      change: { role?: Role; status?: 'active' | 'suspended' } | null,
+      okText: string,
+    ): Promise<ConfirmOutcome> {
       const path = { coop: coopSlug, id: String(row.id) };
       const r = change
-        ? await callApi((b) => apiClient.PATCH('/api/coops/{coop}/members/{id}', { params: { path }, body: b }), { schema: 'membershipUpdateSchema', body: change })
+        ? await callApi((b) => apiClient.PATCH('/api/coops/{coop}/members/{id}', { params: { path }, body: b }), {
+            schema: 'membershipUpdateSchema',
+            body: change,
+          })
         : await callApi(() => apiClient.DELETE('/api/coops/{coop}/members/{id}', { params: { path } }));
       if (!r.ok) return { ok: false, error: r.error };
       setPendingRole((p) => {
@@ -34,7 +51,13 @@ export function MembersTable({ coopSlug, rows, pageInfo, filtered }: { coopSlug:
       pickRole: (row, role) => setPendingRole((p) => ({ ...p, [row.id]: role })),
       saveRole: (row, role) => run(row, { role }, `${row.name} is now ${withArticle(role)}.`),
       setStatus: (row, status) =>
-        run(row, { status }, status === 'suspended' ? `${row.name} is suspended; they can no longer open the co-op.` : `${row.name} is reinstated.`),
+        run(
+          row,
+          { status },
+          status === 'suspended'
+            ? `${row.name} is suspended; they can no longer open the co-op.`
+            : `${row.name} is reinstated.`,
+        ),
       remove: (row) => run(row, null, `${row.name} was removed from the co-op.`),
     });
   }, [pendingRole, coopSlug, router]);

@@ -16,10 +16,20 @@ const KINDS = [
 const LITERS_PER_US_GALLON = 3.785411784; // NIST Handbook 44 (exact)
 
 /** Released batches' cost per gallon (or litre) stacked by kind, in the co-op's currency. */
-export function BatchCostChart({ units, currency, costs }: { units: UnitSystem; currency: string; costs: BatchCost[] }) {
+export function BatchCostChart({
+  units,
+  currency,
+  costs,
+}: {
+  units: UnitSystem;
+  currency: string;
+  costs: BatchCost[];
+}) {
   const per = units === 'us' ? 'gal' : 'L';
-  const toUnit = (centsPerGallon: number) => (units === 'us' ? centsPerGallon : centsPerGallon / LITERS_PER_US_GALLON) / 100;
-  const money = (v: number) => v.toLocaleString('en-US', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 });
+  const toUnit = (centsPerGallon: number) =>
+    (units === 'us' ? centsPerGallon : centsPerGallon / LITERS_PER_US_GALLON) / 100;
+  const money = (v: number) =>
+    v.toLocaleString('en-US', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 });
   return (
     <BarChartCard
       title={`Cost per ${per === 'gal' ? 'gallon' : 'litre'}, last released batches`}
@@ -29,13 +39,22 @@ export function BatchCostChart({ units, currency, costs }: { units: UnitSystem; 
       stacked
       series={KINDS.map((k) => ({ key: k.key, label: k.label }))}
       format={money}
-      data={costs.map((c) => ({ batch: `#${c.number} (${c.releasedOn})`, ...Object.fromEntries(KINDS.map((k) => [k.key, Math.round(toUnit(c[k.key]) * 1000) / 1000])) }))}
+      data={costs.map((c) => ({
+        batch: `#${c.number} (${c.releasedOn})`,
+        ...Object.fromEntries(KINDS.map((k) => [k.key, Math.round(toUnit(c[k.key]) * 1000) / 1000])),
+      }))}
     />
   );
 }
 
 /** Members owing the most on issued invoices. */
-export function BalancesChart({ currency, rows }: { currency: string; rows: { name: string; outstandingCents: number }[] }) {
+export function BalancesChart({
+  currency,
+  rows,
+}: {
+  currency: string;
+  rows: { name: string; outstandingCents: number }[];
+}) {
   return (
     <BarChartCard
       title="Members with the largest unpaid balances"

@@ -30,7 +30,10 @@ export function ApiTokens({ coop }: { coop: string }) {
     const form = e.currentTarget;
     const f = formObject(form);
     const body = { name: f.name ?? '', access: f.access === 'write' ? ('write' as const) : ('read' as const) };
-    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tokens', { params: { path: { coop } }, body: b }), { schema: 'apiTokenCreateSchema', body });
+    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tokens', { params: { path: { coop } }, body: b }), {
+      schema: 'apiTokenCreateSchema',
+      body,
+    });
     if (!r) return;
     setSecret({ name: r.token.name, value: r.secret });
     form.reset();
@@ -39,7 +42,9 @@ export function ApiTokens({ coop }: { coop: string }) {
 
   async function revoke(t: Token) {
     if (!window.confirm(`Revoke “${t.name}”? Anything using it stops working at once.`)) return;
-    const r = await callApi(() => apiClient.DELETE('/api/coops/{coop}/tokens/{id}', { params: { path: { coop, id: String(t.id) } } }));
+    const r = await callApi(() =>
+      apiClient.DELETE('/api/coops/{coop}/tokens/{id}', { params: { path: { coop, id: String(t.id) } } }),
+    );
     setMessage(r.ok ? { tone: 'ok', text: `“${t.name}” is revoked.` } : { tone: 'danger', text: r.error });
     await mutate();
   }
@@ -49,17 +54,37 @@ export function ApiTokens({ coop }: { coop: string }) {
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       {secret ? (
         <Notice tone="warn" title={`Copy the token for “${secret.name}” now`}>
-          <p>It is shown only this once; Tallyvat keeps only a fingerprint of it. Send it as <code>Authorization: Bearer …</code>.</p>
-          <p className="mt-2 break-all rounded bg-white p-2 font-mono text-sm text-stone-900" aria-label="New access token">{secret.value}</p>
+          <p>
+            It is shown only this once; Tallyvat keeps only a fingerprint of it. Send it as{' '}
+            <code>Authorization: Bearer …</code>.
+          </p>
+          <p
+            className="mt-2 break-all rounded bg-white p-2 font-mono text-sm text-stone-900"
+            aria-label="New access token"
+          >
+            {secret.value}
+          </p>
         </Notice>
       ) : null}
-      <form onSubmit={create} noValidate className="grid gap-4 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-[1fr_auto_auto] sm:items-end">
-        <TextField label="Name" name="name" maxLength={80} errors={fields.name} hint="What will use it, e.g. “pump meter logger”." />
+      <form
+        onSubmit={create}
+        noValidate
+        className="grid gap-4 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-[1fr_auto_auto] sm:items-end"
+      >
+        <TextField
+          label="Name"
+          name="name"
+          maxLength={80}
+          errors={fields.name}
+          hint="What will use it, e.g. “pump meter logger”."
+        />
         <SelectField label="Access" name="access" defaultValue="read" errors={fields.access}>
           <option value="read">Read only</option>
           <option value="write">Read and write</option>
         </SelectField>
-        <Button type="submit" disabled={busy}>{busy ? 'Creating…' : 'Create token'}</Button>
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Creating…' : 'Create token'}
+        </Button>
       </form>
       {isLoading ? <p className="text-stone-600">Loading tokens…</p> : null}
       {error ? <Notice tone="danger">Could not load the tokens: {String(error.message)}</Notice> : null}
@@ -67,18 +92,26 @@ export function ApiTokens({ coop }: { coop: string }) {
       {data && data.tokens.length > 0 ? (
         <ul className="flex flex-col gap-3" aria-label="Access tokens">
           {data.tokens.map((t) => (
-            <li key={t.id} className="flex flex-col gap-2 rounded-xl border border-stone-200 bg-white p-4 sm:flex-row sm:items-center sm:justify-between">
+            <li
+              key={t.id}
+              className="flex flex-col gap-2 rounded-xl border border-stone-200 bg-white p-4 sm:flex-row sm:items-center sm:justify-between"
+            >
               <div className="min-w-0">
                 <p className="font-semibold text-stone-900">
                   {t.name} <span className="font-mono text-sm text-stone-600">{t.prefix}…</span>
                 </p>
                 <p className="text-sm text-stone-600">
-                  {t.access === 'write' ? 'Read and write' : 'Read only'} · created {when(t.createdAt)}{t.createdBy ? ` by ${t.createdBy}` : ''} · last used {when(t.lastUsedAt)}
+                  {t.access === 'write' ? 'Read and write' : 'Read only'} · created {when(t.createdAt)}
+                  {t.createdBy ? ` by ${t.createdBy}` : ''} · last used {when(t.lastUsedAt)}
                 </p>
-                {t.revokedAt ? <p className="text-sm font-semibold text-danger-700">Revoked {when(t.revokedAt)}</p> : null}
+                {t.revokedAt ? (
+                  <p className="text-sm font-semibold text-danger-700">Revoked {when(t.revokedAt)}</p>
+                ) : null}
               </div>
               {t.revokedAt ? null : (
-                <Button variant="secondary" onClick={() => revoke(t)} aria-label={`Revoke ${t.name}`}>Revoke</Button>
+                <Button variant="secondary" onClick={() => revoke(t)} aria-label={`Revoke ${t.name}`}>
+                  Revoke
+                </Button>
               )}
             </li>
           ))}

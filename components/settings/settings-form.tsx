@@ -27,7 +27,14 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
       elevation: numberOf(f.elevation),
     };
     const path = { coop: initial.slug };
-    if (await send((b) => apiClient.PUT('/api/coops/{coop}/settings', { params: { path }, body: b }), { schema: 'coopSettingsUpdateSchema', body }, 'Settings saved.')) window.location.reload();
+    if (
+      await send(
+        (b) => apiClient.PUT('/api/coops/{coop}/settings', { params: { path }, body: b }),
+        { schema: 'coopSettingsUpdateSchema', body },
+        'Settings saved.',
+      )
+    )
+      window.location.reload();
   }
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-6">
@@ -35,15 +42,41 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
       <fieldset className="grid gap-4 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-2">
         <legend className="px-1 font-semibold text-fir-900">Co-op</legend>
         <TextField label="Name" name="name" defaultValue={initial.name} errors={fields.name} />
-        <SelectField label="Units" name="units" defaultValue={initial.units} errors={fields.units} hint="Changes how volumes and temperatures are shown; stored figures do not change.">
+        <SelectField
+          label="Units"
+          name="units"
+          defaultValue={initial.units}
+          errors={fields.units}
+          hint="Changes how volumes and temperatures are shown; stored figures do not change."
+        >
           <option value="us">US gallons and °F</option>
           <option value="metric">Litres and °C</option>
         </SelectField>
-        <TextField label="Time zone" name="timezone" defaultValue={initial.timezone} errors={fields.timezone} hint="Months and quarters follow this zone." />
-        <TextField label={`Monthly dues (${initial.currency})`} name="monthlyDues" inputMode="decimal" defaultValue={(initial.monthlyDuesCents / 100).toFixed(2)} errors={fields.monthlyDues} />
+        <TextField
+          label="Time zone"
+          name="timezone"
+          defaultValue={initial.timezone}
+          errors={fields.timezone}
+          hint="Months and quarters follow this zone."
+        />
+        <TextField
+          label={`Monthly dues (${initial.currency})`}
+          name="monthlyDues"
+          inputMode="decimal"
+          defaultValue={(initial.monthlyDuesCents / 100).toFixed(2)}
+          errors={fields.monthlyDues}
+        />
         <div className="flex items-center gap-3 sm:col-span-2">
-          <input id="selfServeDraws" name="selfServeDraws" type="checkbox" defaultChecked={initial.selfServeDraws} className="h-5 w-5 accent-fir-700" />
-          <label htmlFor="selfServeDraws" className="text-sm">Members may record their own draws at a self-serve pump</label>
+          <input
+            id="selfServeDraws"
+            name="selfServeDraws"
+            type="checkbox"
+            defaultChecked={initial.selfServeDraws}
+            className="h-5 w-5 accent-fir-700"
+          />
+          <label htmlFor="selfServeDraws" className="text-sm">
+            Members may record their own draws at a self-serve pump
+          </label>
         </div>
       </fieldset>
       <fieldset className="grid gap-4 rounded-xl border border-stone-200 bg-white p-4 sm:grid-cols-2">
@@ -52,10 +85,36 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
           <option value="NaOH">NaOH (sodium hydroxide)</option>
           <option value="KOH">KOH (potassium hydroxide)</option>
         </SelectField>
-        <TextField label="Base amount (g per litre of oil, as pure catalyst)" name="baseGramsPerLiter" inputMode="decimal" defaultValue={String(initial.baseGramsPerLiter)} errors={fields.baseGramsPerLiter} hint="Common practice: NaOH 3.5 g/L; KOH 4.91 g/L pure equivalent." />
-        <TextField label="Catalyst purity (%)" name="purityPct" inputMode="decimal" defaultValue={String(initial.purityPct)} errors={fields.purityPct} hint="Flake KOH is often about 90 %; NaOH 97–99 % (common practice)." />
-        <TextField label="Methanol (% of oil volume)" name="methanolPct" inputMode="decimal" defaultValue={String(initial.methanolPct)} errors={fields.methanolPct} hint="20 % is common practice." />
-        <SelectField label="Fuel-quality standard" name="qualityStandard" defaultValue={initial.qualityStandard} errors={fields.qualityStandard}>
+        <TextField
+          label="Base amount (g per litre of oil, as pure catalyst)"
+          name="baseGramsPerLiter"
+          inputMode="decimal"
+          defaultValue={String(initial.baseGramsPerLiter)}
+          errors={fields.baseGramsPerLiter}
+          hint="Common practice: NaOH 3.5 g/L; KOH 4.91 g/L pure equivalent."
+        />
+        <TextField
+          label="Catalyst purity (%)"
+          name="purityPct"
+          inputMode="decimal"
+          defaultValue={String(initial.purityPct)}
+          errors={fields.purityPct}
+          hint="Flake KOH is often about 90 %; NaOH 97–99 % (common practice)."
+        />
+        <TextField
+          label="Methanol (% of oil volume)"
+          name="methanolPct"
+          inputMode="decimal"
+          defaultValue={String(initial.methanolPct)}
+          errors={fields.methanolPct}
+          hint="20 % is common practice."
+        />
+        <SelectField
+          label="Fuel-quality standard"
+          name="qualityStandard"
+          defaultValue={initial.qualityStandard}
+          errors={fields.qualityStandard}
+        >
           <option value="ASTM D6751">ASTM D6751 (North America)</option>
           <option value="EN 14214">EN 14214 (Europe)</option>
         </SelectField>
@@ -68,7 +127,11 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
           hint="Methanol boils lower at altitude (about 60 °C / 140 °F at 1,600 m / 5,250 ft): the temperature warnings use it."
         />
       </fieldset>
-      <div><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save settings'}</Button></div>
+      <div>
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Saving…' : 'Save settings'}
+        </Button>
+      </div>
     </form>
   );
 }

@@ -28,22 +28,32 @@ export function Announcer({ children }: { children: ReactNode }) {
   return (
     <AnnounceContext.Provider value={announce}>
       {children}
-      <div role="status" aria-live="polite" className="pointer-events-none fixed inset-x-0 bottom-0 z-40 flex justify-center p-3 sm:justify-end">
-          {message ? (
-            <div
-              ref={box}
-              tabIndex={-1}
-              data-testid="announcement"
-              className={`pointer-events-auto flex w-full max-w-md items-start gap-3 rounded-xl border p-3 text-sm shadow-lg outline-offset-2 ${
-                message.tone === 'ok' ? 'border-ok-600/30 bg-ok-50 text-ok-700' : 'border-danger-600/30 bg-danger-50 text-danger-700'
-              }`}
+      <div
+        role="status"
+        aria-live="polite"
+        className="pointer-events-none fixed inset-x-0 bottom-0 z-40 flex justify-center p-3 sm:justify-end"
+      >
+        {message ? (
+          <div
+            ref={box}
+            tabIndex={-1}
+            data-testid="announcement"
+            className={`pointer-events-auto flex w-full max-w-md items-start gap-3 rounded-xl border p-3 text-sm shadow-lg outline-offset-2 ${
+              message.tone === 'ok'
+                ? 'border-ok-600/30 bg-ok-50 text-ok-700'
+                : 'border-danger-600/30 bg-danger-50 text-danger-700'
+            }`}
+          >
+            <p className="flex-1 font-medium">{message.text}</p>
+            <button
+              type="button"
+              onClick={() => setMessage(null)}
+              className="min-h-10 shrink-0 rounded-md px-2 font-semibold underline-offset-2 hover:underline"
             >
-              <p className="flex-1 font-medium">{message.text}</p>
-              <button type="button" onClick={() => setMessage(null)} className="min-h-10 shrink-0 rounded-md px-2 font-semibold underline-offset-2 hover:underline">
-                Dismiss
-              </button>
-            </div>
-          ) : null}
+              Dismiss
+            </button>
+          </div>
+        ) : null}
       </div>
     </AnnounceContext.Provider>
   );

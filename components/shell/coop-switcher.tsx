@@ -14,7 +14,9 @@ export function CoopSwitcher({ current, coops }: { current: string; coops: { slu
         onChange={(e) => router.push(e.target.value === '__all' ? '/coops' : `/c/${e.target.value}`)}
       >
         {coops.map((c) => (
-          <option key={c.slug} value={c.slug}>{c.name}</option>
+          <option key={c.slug} value={c.slug}>
+            {c.name}
+          </option>
         ))}
         <option value="__all">All my co-ops…</option>
       </select>

@@ -10,7 +10,8 @@ export interface NavEntry {
   exact: boolean;
 }
 
-const isActive = (path: string, e: NavEntry) => (e.exact ? path === e.href : path === e.href || path.startsWith(`${e.href}/`));
+const isActive = (path: string, e: NavEntry) =>
+  e.exact ? path === e.href : path === e.href || path.startsWith(`${e.href}/`);
 
 /**
  * The co-op navigation. From 640 px up every section shows in a wrapping row; on a phone one
@@ -41,7 +42,10 @@ export function NavMenu({ items }: { items: NavEntry[] }) {
           {open ? 'Close menu' : 'Menu'} <span aria-hidden="true">{open ? '▴' : '▾'}</span>
         </button>
       </div>
-      <ul id="coop-nav-list" className={`mx-auto max-w-6xl gap-1 px-2 max-sm:grid max-sm:grid-cols-2 max-sm:pb-2 sm:flex sm:flex-wrap ${open ? '' : 'max-sm:hidden'}`}>
+      <ul
+        id="coop-nav-list"
+        className={`mx-auto max-w-6xl gap-1 px-2 max-sm:grid max-sm:grid-cols-2 max-sm:pb-2 sm:flex sm:flex-wrap ${open ? '' : 'max-sm:hidden'}`}
+      >
         {items.map((e) => {
           const active = current?.href === e.href;
           return (
@@ -50,7 +54,9 @@ export function NavMenu({ items }: { items: NavEntry[] }) {
                 href={e.href}
                 aria-current={active ? 'page' : undefined}
                 className={`block whitespace-nowrap px-3 py-2.5 text-sm font-medium no-underline max-sm:rounded-md max-sm:border-l-4 sm:border-b-4 ${
-                  active ? 'border-amber-400 text-white max-sm:bg-fir-800' : 'border-transparent text-fir-100 hover:text-white'
+                  active
+                    ? 'border-amber-400 text-white max-sm:bg-fir-800'
+                    : 'border-transparent text-fir-100 hover:text-white'
                 }`}
               >
                 {e.label}

@@ -13,7 +13,17 @@ import { prefixedErrors, prefixedObject } from './form-utils';
 import { tanksKey } from './live-tanks';
 
 /** A brewer enters the measured volume; any difference from the book becomes a ledger row with its reason. */
-export function DipForm({ coopSlug, units, tanks, currency }: { coopSlug: string; units: UnitSystem; tanks: { id: number; name: string }[]; currency: string }) {
+export function DipForm({
+  coopSlug,
+  units,
+  tanks,
+  currency,
+}: {
+  coopSlug: string;
+  units: UnitSystem;
+  tanks: { id: number; name: string }[];
+  currency: string;
+}) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
   const { busy, fields, message, send, setMessage } = useApiForm();
@@ -24,10 +34,19 @@ export function DipForm({ coopSlug, units, tanks, currency }: { coopSlug: string
     const f = prefixedObject(form, 'dip');
     const path = { coop: coopSlug, tankId: f.tankId ?? '' };
     const body = { measured: f.measured ?? '', reason: f.reason, unitCost: f.unitCost };
-    const r = await send((b) => apiClient.POST('/api/coops/{coop}/tanks/{tankId}/dips', { params: { path }, body: b }), { schema: 'dipCreateSchema', body });
+    const r = await send(
+      (b) => apiClient.POST('/api/coops/{coop}/tanks/{tankId}/dips', { params: { path }, body: b }),
+      { schema: 'dipCreateSchema', body },
+    );
     if (r) {
       const d = Math.round(r.differenceLiters * 1000);
-      setMessage({ tone: 'ok', text: d === 0 ? 'Recorded: the reading matches the book.' : `Recorded: ${formatMl(d, units, { signed: true, digits: 2 })} adjustment in the ledger.` });
+      setMessage({
+        tone: 'ok',
+        text:
+          d === 0
+            ? 'Recorded: the reading matches the book.'
+            : `Recorded: ${formatMl(d, units, { signed: true, digits: 2 })} adjustment in the ledger.`,
+      });
       form.reset();
       await mutate(tanksKey(coopSlug));
       router.refresh();
@@ -35,14 +54,45 @@ export function DipForm({ coopSlug, units, tanks, currency }: { coopSlug: string
   }
   return (
     <form onSubmit={onSubmit} noValidate aria-label="Record a dip reading" className="grid gap-4 sm:grid-cols-2">
-      {message ? <div className="sm:col-span-2"><Notice tone={message.tone}>{message.text}</Notice></div> : null}
+      {message ? (
+        <div className="sm:col-span-2">
+          <Notice tone={message.tone}>{message.text}</Notice>
+        </div>
+      ) : null}
       <SelectField label="Tank" name="dip-tankId" errors={errors['dip-tankId']}>
-        {tanks.map((t) => <option key={t.id} value={t.id}>{t.name}</option>)}
+        {tanks.map((t) => (
+          <option key={t.id} value={t.id}>
+            {t.name}
+          </option>
+        ))}
       </SelectField>
-      <TextField label={`Measured volume (${unitWord(units)})`} name="dip-measured" inputMode="decimal" autoComplete="off" required errors={errors['dip-measured']} />
-      <TextField label="Reason for any difference" name="dip-reason" errors={errors['dip-reason']} hint="e.g. evaporation, a spill, meter drift, opening balance" />
-      <TextField label={`Value of a gain (${currency} per ${volumeLabel(units)}, optional)`} name="dip-unitCost" inputMode="decimal" autoComplete="off" errors={errors['dip-unitCost']} hint="Leave empty to value it at the tank’s average cost." />
-      <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Record dip reading'}</Button></div>
+      <TextField
+        label={`Measured volume (${unitWord(units)})`}
+        name="dip-measured"
+        inputMode="decimal"
+        autoComplete="off"
+        required
+        errors={errors['dip-measured']}
+      />
+      <TextField
+        label="Reason for any difference"
+        name="dip-reason"
+        errors={errors['dip-reason']}
+        hint="e.g. evaporation, a spill, meter drift, opening balance"
+      />
+      <TextField
+        label={`Value of a gain (${currency} per ${volumeLabel(units)}, optional)`}
+        name="dip-unitCost"
+        inputMode="decimal"
+        autoComplete="off"
+        errors={errors['dip-unitCost']}
+        hint="Leave empty to value it at the tank’s average cost."
+      />
+      <div className="sm:col-span-2">
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Saving…' : 'Record dip reading'}
+        </Button>
+      </div>
     </form>
   );
 }

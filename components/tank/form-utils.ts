@@ -7,7 +7,8 @@
 export function prefixedObject(form: HTMLFormElement, prefix: string): Record<string, string> {
   const out: Record<string, string> = {};
   new FormData(form).forEach((v, k) => {
-    if (typeof v === 'string' && v.trim() !== '' && k.startsWith(`${prefix}-`)) out[k.slice(prefix.length + 1)] = v.trim();
+    if (typeof v === 'string' && v.trim() !== '' && k.startsWith(`${prefix}-`))
+      out[k.slice(prefix.length + 1)] = v.trim();
   });
   return out;
 }
@@ -23,4 +24,3 @@ export async function jsonFetcher<T>(url: string): Promise<T> {
   if (!res.ok) throw Object.assign(new Error(`Request failed (${res.status})`), { status: res.status });
   return res.json() as Promise<T>;
 }
-

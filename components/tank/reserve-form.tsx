@@ -22,10 +22,21 @@ import { tanksKey, useTanks, type TanksResponse } from './use-tanks';
  * (the same SWR data as the gauges); the server has the last word, and a 409 says how much is
  * available now.
  */
-export function ReserveForm({ coopSlug, initial, today, defaultEnd, pricing, currency = 'USD' }: {
-  coopSlug: string; initial: TanksResponse; today: string; defaultEnd: string;
+export function ReserveForm({
+  coopSlug,
+  initial,
+  today,
+  defaultEnd,
+  pricing,
+  currency = 'USD',
+}: {
+  coopSlug: string;
+  initial: TanksResponse;
+  today: string;
+  defaultEnd: string;
   /** The price in force, in the co-op's units, for the cost estimate. */
-  pricing?: PricingPolicy; currency?: string;
+  pricing?: PricingPolicy;
+  currency?: string;
 }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
@@ -44,8 +55,16 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd, pricing, cur
     e.preventDefault();
     const form = e.currentTarget;
     const f = prefixedObject(form, 'res');
-    const body = { tankId: f.tankId, quantity: f.quantity ?? '', windowStart: f.windowStart ?? '', windowEnd: f.windowEnd ?? '' };
-    const ok = await send((b) => apiClient.POST('/api/coops/{coop}/reservations', { params: { path: { coop: coopSlug } }, body: b }), { schema: 'reservationCreateSchema', body });
+    const body = {
+      tankId: f.tankId,
+      quantity: f.quantity ?? '',
+      windowStart: f.windowStart ?? '',
+      windowEnd: f.windowEnd ?? '',
+    };
+    const ok = await send(
+      (b) => apiClient.POST('/api/coops/{coop}/reservations', { params: { path: { coop: coopSlug } }, body: b }),
+      { schema: 'reservationCreateSchema', body },
+    );
     await mutate(tanksKey(coopSlug));
     if (ok) {
       form.reset();
@@ -66,11 +85,27 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd, pricing, cur
     }
   })();
 
-  if (tanks.length === 0) return <Notice tone="info">No tank in service has fuel to spare right now, so there is nothing to reserve. Check back after the next batch is released.</Notice>;
+  if (tanks.length === 0)
+    return (
+      <Notice tone="info">
+        No tank in service has fuel to spare right now, so there is nothing to reserve. Check back after the next batch
+        is released.
+      </Notice>
+    );
   return (
     <form onSubmit={onSubmit} noValidate aria-label="Reserve fuel" className="grid gap-4 sm:grid-cols-2">
-      <SelectField label="Tank" name="res-tankId" value={tank?.id ?? ''} onChange={(e) => setTankId(Number(e.target.value))} errors={errors['res-tankId']}>
-        {tanks.map((t) => <option key={t.id} value={t.id}>{t.name}</option>)}
+      <SelectField
+        label="Tank"
+        name="res-tankId"
+        value={tank?.id ?? ''}
+        onChange={(e) => setTankId(Number(e.target.value))}
+        errors={errors['res-tankId']}
+      >
+        {tanks.map((t) => (
+          <option key={t.id} value={t.id}>
+            {t.name}
+          </option>
+        ))}
       </SelectField>
       <TextField
         label={`Quantity (${unitWord(units)})`}
@@ -79,19 +114,58 @@ export function ReserveForm({ coopSlug, initial, today, defaultEnd, pricing, cur
         autoComplete="off"
         required
         errors={errors['res-quantity']}
-        hint={tank ? <span>Available now in {tank.name}: <strong data-testid="reserve-available">{formatMl(Math.round(tank.availableLiters * 1000), units, { floor: true })}</strong> (updates every few seconds)</span> : null}
+        hint={
+          tank ? (
+            <span>
+              Available now in {tank.name}:{' '}
+              <strong data-testid="reserve-available">
+                {formatMl(Math.round(tank.availableLiters * 1000), units, { floor: true })}
+              </strong>{' '}
+              (updates every few seconds)
+            </span>
+          ) : null
+        }
         placeholder={`e.g. 10 ${volumeLabel(units)}`}
         value={qty}
         onChange={(e) => setQty(e.target.value)}
       />
       <p className="text-sm text-stone-700 sm:col-span-2" aria-live="polite" data-testid="reserve-estimate">
         {estimate ? (
-          <>Estimated cost at today’s price: <strong>{formatCents(estimate.offRoad, currency)}</strong>{estimate.road !== estimate.offRoad ? <> ({formatCents(estimate.road, currency)} for road use, with road-fuel tax)</> : null}. You pay the price in force when the fuel is drawn.</>
-        ) : pricing ? 'Type a quantity to see the estimated cost.' : null}
+          <>
+            Estimated cost at today’s price: <strong>{formatCents(estimate.offRoad, currency)}</strong>
+            {estimate.road !== estimate.offRoad ? (
+              <> ({formatCents(estimate.road, currency)} for road use, with road-fuel tax)</>
+            ) : null}
+            . You pay the price in force when the fuel is drawn.
+          </>
+        ) : pricing ? (
+          'Type a quantity to see the estimated cost.'
+        ) : null}
       </p>
-      <TextField label="From" name="res-windowStart" type="date" required defaultValue={today} min={today} errors={errors['res-windowStart']} />
-      <TextField label="Until (last day)" name="res-windowEnd" type="date" required defaultValue={defaultEnd} min={today} errors={errors['res-windowEnd']} hint="The reservation expires after this day and the fuel goes back to everyone." />
-      <div className="sm:col-span-2"><Button type="submit" disabled={busy}>{busy ? 'Reserving…' : 'Reserve fuel'}</Button></div>
+      <TextField
+        label="From"
+        name="res-windowStart"
+        type="date"
+        required
+        defaultValue={today}
+        min={today}
+        errors={errors['res-windowStart']}
+      />
+      <TextField
+        label="Until (last day)"
+        name="res-windowEnd"
+        type="date"
+        required
+        defaultValue={defaultEnd}
+        min={today}
+        errors={errors['res-windowEnd']}
+        hint="The reservation expires after this day and the fuel goes back to everyone."
+      />
+      <div className="sm:col-span-2">
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Reserving…' : 'Reserve fuel'}
+        </Button>
+      </div>
       <FormResult message={message} className="sm:col-span-2" />
     </form>
   );

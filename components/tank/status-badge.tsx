@@ -13,5 +13,11 @@ const tones: Record<string, string> = {
 };
 
 export function StatusBadge({ status, label }: { status: string; label?: string }) {
-  return <span className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold ${tones[status] ?? 'bg-stone-100 text-stone-800'}`}>{label ?? status}</span>;
+  return (
+    <span
+      className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold ${tones[status] ?? 'bg-stone-100 text-stone-800'}`}
+    >
+      {label ?? status}
+    </span>
+  );
 }

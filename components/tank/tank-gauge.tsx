@@ -36,7 +36,17 @@ export function Swatch({ kind }: { kind: 'reserved' | 'available' }) {
  * what is on hand, and the same figures as text. The bar is an image with a full text
  * alternative; the figures below it are the real content.
  */
-export function TankGauge({ tank, units, currency = 'USD', timeZone }: { tank: GaugeTank; units: UnitSystem; currency?: string; timeZone: string }) {
+export function TankGauge({
+  tank,
+  units,
+  currency = 'USD',
+  timeZone,
+}: {
+  tank: GaugeTank;
+  units: UnitSystem;
+  currency?: string;
+  timeZone: string;
+}) {
   const ml = (l: number) => Math.round(l * 1000);
   const cap = Math.max(1, ml(tank.capacityLiters));
   const pct = (l: number) => Math.max(0, Math.min(100, (ml(l) / cap) * 100));
@@ -45,16 +55,27 @@ export function TankGauge({ tank, units, currency = 'USD', timeZone }: { tank: G
   const held = tank.heldLiters ?? 0;
   const alt = `${tank.name}: ${fmt(tank.onHandLiters)} on hand of ${fmt(tank.capacityLiters)} (${full}% full); ${fmt(tank.reservedLiters)} reserved; ${held > 0 ? `${fmt(held)} held while a batch is under review; ` : ''}${fmt(tank.availableLiters, true)} available.`;
   return (
-    <article aria-labelledby={`tank-${tank.id}-name`} className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm">
+    <article
+      aria-labelledby={`tank-${tank.id}-name`}
+      className="rounded-xl border border-stone-200 bg-white p-4 shadow-sm"
+    >
       <div className="flex flex-wrap items-baseline justify-between gap-2">
-        <h3 id={`tank-${tank.id}-name`} className="text-base font-semibold text-fir-900">{tank.name}</h3>
+        <h3 id={`tank-${tank.id}-name`} className="text-base font-semibold text-fir-900">
+          {tank.name}
+        </h3>
         {tank.active ? (
           <span className="text-sm text-stone-600">{full}% full</span>
         ) : (
-          <span className="rounded bg-stone-200 px-2 py-0.5 text-xs font-semibold uppercase tracking-wide text-stone-800">Out of service</span>
+          <span className="rounded bg-stone-200 px-2 py-0.5 text-xs font-semibold uppercase tracking-wide text-stone-800">
+            Out of service
+          </span>
         )}
       </div>
-      <div role="img" aria-label={alt} className="mt-3 flex h-7 w-full overflow-hidden rounded-md border border-stone-300 bg-stone-100">
+      <div
+        role="img"
+        aria-label={alt}
+        className="mt-3 flex h-7 w-full overflow-hidden rounded-md border border-stone-300 bg-stone-100"
+      >
         <div style={{ width: `${pct(tank.reservedLiters)}%`, backgroundImage: HATCH }} />
         <div className="bg-fir-600" style={{ width: `${pct(tank.availableLiters)}%` }} />
       </div>
@@ -64,21 +85,35 @@ export function TankGauge({ tank, units, currency = 'USD', timeZone }: { tank: G
           <dd className="font-semibold tabular-nums text-stone-900">{fmt(tank.onHandLiters)}</dd>
         </div>
         <div>
-          <dt className="text-stone-600"><Swatch kind="reserved" />Reserved</dt>
+          <dt className="text-stone-600">
+            <Swatch kind="reserved" />
+            Reserved
+          </dt>
           <dd className="font-semibold tabular-nums text-stone-900">{fmt(tank.reservedLiters)}</dd>
         </div>
         <div>
-          <dt className="text-stone-600"><Swatch kind="available" />Available</dt>
-          <dd className="font-semibold tabular-nums text-fir-800" data-testid={`available-${tank.id}`}>{fmt(tank.availableLiters, true)}</dd>
+          <dt className="text-stone-600">
+            <Swatch kind="available" />
+            Available
+          </dt>
+          <dd className="font-semibold tabular-nums text-fir-800" data-testid={`available-${tank.id}`}>
+            {fmt(tank.availableLiters, true)}
+          </dd>
         </div>
       </dl>
       {held > 0 ? (
-        <p className="mt-2 text-sm font-semibold text-danger-700">{fmt(held)} held: a batch in this tank is under review, so this fuel cannot be reserved or drawn.</p>
+        <p className="mt-2 text-sm font-semibold text-danger-700">
+          {fmt(held)} held: a batch in this tank is under review, so this fuel cannot be reserved or drawn.
+        </p>
       ) : null}
       <p className="mt-2 text-xs text-stone-600">
         Capacity {fmt(tank.capacityLiters)}
-        {tank.avgCostCentsPerUnit !== null ? ` · average cost ${formatCents(Math.round(tank.avgCostCentsPerUnit), currency)}/${volumeLabel(units)}` : ''}
-        {tank.lastDipAt ? ` · last dip ${formatWhen(tank.lastDipAt, timeZone, { time: false })}` : ' · no dip reading yet'}
+        {tank.avgCostCentsPerUnit !== null
+          ? ` · average cost ${formatCents(Math.round(tank.avgCostCentsPerUnit), currency)}/${volumeLabel(units)}`
+          : ''}
+        {tank.lastDipAt
+          ? ` · last dip ${formatWhen(tank.lastDipAt, timeZone, { time: false })}`
+          : ' · no dip reading yet'}
       </p>
     </article>
   );

@@ -7,7 +7,7 @@ export function afterLoad(fn: () => void): () => void {
   let idle = 0;
   const run = () => {
     if (cancelled) return;
-    idle = hasIdle ? window.requestIdleCallback(fn, { timeout: 1500 }) : setTimeout(fn, 200) as unknown as number;
+    idle = hasIdle ? window.requestIdleCallback(fn, { timeout: 1500 }) : (setTimeout(fn, 200) as unknown as number);
   };
   if (document.readyState === 'complete') run();
   else window.addEventListener('load', run, { once: true });

@@ -10,7 +10,11 @@ const styles: Record<Variant, string> = {
 };
 
 /** Buttons are at least 44 px tall so they can be tapped with a glove at the tank. */
-export function Button({ variant = 'primary', className = '', ...props }: ButtonHTMLAttributes<HTMLButtonElement> & { variant?: Variant }) {
+export function Button({
+  variant = 'primary',
+  className = '',
+  ...props
+}: ButtonHTMLAttributes<HTMLButtonElement> & { variant?: Variant }) {
   return (
     <button
       {...props}

@@ -6,7 +6,8 @@ import { Button } from './button';
 import { Notice } from './notice';
 
 /** What a confirmed action answers: nothing or `{ok}` on success, or what went wrong. */
-export type ConfirmOutcome = { ok: true; message?: string } | { ok: false; error: string; fields?: Record<string, string[]> };
+export type ConfirmOutcome =
+  { ok: true; message?: string } | { ok: false; error: string; fields?: Record<string, string[]> };
 
 /**
  * The one confirmation for consequential actions (release, reject, suspend, remove, role change,
@@ -92,19 +93,40 @@ export function ConfirmDialog({
 
   return (
     <>
-      <Button type="button" variant={triggerVariant} className={triggerClassName} onClick={open} disabled={disabled} aria-label={triggerLabel} aria-haspopup="dialog">
+      <Button
+        type="button"
+        variant={triggerVariant}
+        className={triggerClassName}
+        onClick={open}
+        disabled={disabled}
+        aria-label={triggerLabel}
+        aria-haspopup="dialog"
+      >
         {trigger}
       </Button>
-      <dialog ref={dialog} onClose={() => setIsOpen(false)} aria-labelledby={`${uid}-title`} className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-xl border border-stone-300 p-0 text-stone-900 shadow-xl backdrop:bg-stone-900/50">
-        {isOpen ? <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3 p-4">
-          <h2 id={`${uid}-title`} className="text-lg font-bold text-fir-900">{title}</h2>
-          {error ? <Notice tone="danger">{error}</Notice> : null}
-          {typeof children === 'function' ? children(fields, fieldId) : children}
-          <div className="flex flex-wrap gap-2">
-            <Button type="submit" variant={tone === 'danger' ? 'danger' : 'primary'} disabled={busy}>{busy ? busyLabel : confirmLabel}</Button>
-            <Button type="button" variant="secondary" onClick={() => dialog.current?.close()}>{dismissLabel}</Button>
-          </div>
-        </form> : null}
+      <dialog
+        ref={dialog}
+        onClose={() => setIsOpen(false)}
+        aria-labelledby={`${uid}-title`}
+        className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-xl border border-stone-300 p-0 text-stone-900 shadow-xl backdrop:bg-stone-900/50"
+      >
+        {isOpen ? (
+          <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3 p-4">
+            <h2 id={`${uid}-title`} className="text-lg font-bold text-fir-900">
+              {title}
+            </h2>
+            {error ? <Notice tone="danger">{error}</Notice> : null}
+            {typeof children === 'function' ? children(fields, fieldId) : children}
+            <div className="flex flex-wrap gap-2">
+              <Button type="submit" variant={tone === 'danger' ? 'danger' : 'primary'} disabled={busy}>
+                {busy ? busyLabel : confirmLabel}
+              </Button>
+              <Button type="button" variant="secondary" onClick={() => dialog.current?.close()}>
+                {dismissLabel}
+              </Button>
+            </div>
+          </form>
+        ) : null}
       </dialog>
     </>
   );

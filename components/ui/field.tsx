@@ -14,7 +14,9 @@ export function TextField({ label, name, errors, hint, ...input }: FieldProps & 
   const describedBy = [hint ? hintId : null, errors?.length ? errId : null].filter(Boolean).join(' ') || undefined;
   return (
     <div className="flex flex-col gap-1">
-      <label htmlFor={input.id ?? name} className="text-sm font-medium text-stone-800">{label}</label>
+      <label htmlFor={input.id ?? name} className="text-sm font-medium text-stone-800">
+        {label}
+      </label>
       <input
         id={input.id ?? name}
         name={name}
@@ -23,17 +25,30 @@ export function TextField({ label, name, errors, hint, ...input }: FieldProps & 
         {...input}
         className={`min-h-11 rounded-lg border bg-white px-3 py-2 text-base ${errors?.length ? 'border-danger-600' : 'border-stone-300'} ${input.className ?? ''}`}
       />
-      {hint ? <p id={hintId} className="text-xs text-stone-600">{hint}</p> : null}
+      {hint ? (
+        <p id={hintId} className="text-xs text-stone-600">
+          {hint}
+        </p>
+      ) : null}
       <FieldErrors id={errId} errors={errors} />
     </div>
   );
 }
 
-export function SelectField({ label, name, errors, hint, children, ...select }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
+export function SelectField({
+  label,
+  name,
+  errors,
+  hint,
+  children,
+  ...select
+}: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
   const errId = `${select.id ?? name}-error`;
   return (
     <div className="flex flex-col gap-1">
-      <label htmlFor={select.id ?? name} className="text-sm font-medium text-stone-800">{label}</label>
+      <label htmlFor={select.id ?? name} className="text-sm font-medium text-stone-800">
+        {label}
+      </label>
       <select
         id={select.id ?? name}
         name={name}

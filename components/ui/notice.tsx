@@ -11,7 +11,10 @@ const tones: Record<Tone, string> = {
 /** A boxed message; `role="alert"` for warnings and errors so screen readers announce them. */
 export function Notice({ tone = 'info', title, children }: { tone?: Tone; title?: string; children?: ReactNode }) {
   return (
-    <div role={tone === 'danger' || tone === 'warn' ? 'alert' : 'status'} className={`rounded-lg border p-3 text-sm ${tones[tone]}`}>
+    <div
+      role={tone === 'danger' || tone === 'warn' ? 'alert' : 'status'}
+      className={`rounded-lg border p-3 text-sm ${tones[tone]}`}
+    >
       {title ? <p className="font-semibold">{title}</p> : null}
       {children}
     </div>
@@ -29,7 +32,17 @@ export function EmptyState({ title, children }: { title: string; children?: Reac
 }
 
 /** A white panel; `id` makes it a link target, kept clear of the pinned step navigator. */
-export function Card({ title, children, className = '', id }: { title?: string; children: ReactNode; className?: string; id?: string }) {
+export function Card({
+  title,
+  children,
+  className = '',
+  id,
+}: {
+  title?: string;
+  children: ReactNode;
+  className?: string;
+  id?: string;
+}) {
   return (
     <section id={id} className={`scroll-mt-28 rounded-xl border border-stone-200 bg-white p-4 shadow-sm ${className}`}>
       {title ? <h2 className="mb-3">{title}</h2> : null}

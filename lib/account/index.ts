@@ -6,9 +6,19 @@ import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
 import { emailIs } from '@/lib/auth/email';
 import { hashPassword, isCommonPassword, verifyPassword } from '@/lib/auth/passwords';
-import { CURRENT_PASSWORD_WINDOW_MINUTES, currentPasswordWaitSeconds, recordCurrentPasswordFailure } from '@/lib/auth/rate-limit';
+import {
+  CURRENT_PASSWORD_WINDOW_MINUTES,
+  currentPasswordWaitSeconds,
+  recordCurrentPasswordFailure,
+} from '@/lib/auth/rate-limit';
 import { revokeAllSessions } from '@/lib/auth/sessions';
-import { EMAIL_CHANGE_TTL_MS, hashLinkToken, isLinkTokenShape, newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
+import {
+  EMAIL_CHANGE_TTL_MS,
+  hashLinkToken,
+  isLinkTokenShape,
+  newLinkToken,
+  PASSWORD_RESET_TTL_MS,
+} from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound } from '@/lib/http';
 import { emailChangeMailKey, enqueueMail, QUEUES } from '@/lib/jobs';
@@ -17,7 +27,10 @@ import { appUrl } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import { personTimeZone } from '@/lib/account/zone';
 import type {
-  emailChangeSchema, passwordChangeSchema, passwordResetSchema, profileUpdateSchema,
+  emailChangeSchema,
+  passwordChangeSchema,
+  passwordResetSchema,
+  profileUpdateSchema,
 } from '@/lib/validation/auth';
 import { AuthToken, Coop, MailSend, Membership, SignInAttempt, User } from '@/models';
 import type { AuthTokenKind } from '@/models/AuthToken';
@@ -29,7 +42,6 @@ import type { AuthTokenKind } from '@/models/AuthToken';
 /** My profile: the API's Profile. */
 export type ProfileDto = z.infer<typeof profileSchema>;
 
-
 /** queued: the worker has it (retrying while the mail server is away); sent: the server took it; failed: every try failed. */
 export type PendingEmailDelivery = 'queued' | 'sent' | 'failed';
 
@@ -40,14 +52,22 @@ export type PendingEmailDelivery = 'queued' | 'sent' | 'failed';
  */
 async function emailChangeDelivery(authTokenId: number): Promise<NonNullable<ProfileDto['pendingEmailDelivery']>> {
   const key = emailChangeMailKey(authTokenId);
-  const sent = await MailSend.findOne({ where: { subject: key }, attributes: ['state', 'sentAt'], order: [['generation', 'DESC']], raw: true });
-  if (sent?.state === 'sent') return { status: 'sent', sentAt: sent.sentAt ? new Date(sent.sentAt).toISOString() : null };
+  const sent = await MailSend.findOne({
+    where: { subject: key },
+    attributes: ['state', 'sentAt'],
+    order: [['generation', 'DESC']],
+    raw: true,
+  });
+  if (sent?.state === 'sent')
+    return { status: 'sent', sentAt: sent.sentAt ? new Date(sent.sentAt).toISOString() : null };
   if (sent) return { status: 'queued', sentAt: null };
   const job = await newestJobState(QUEUES.mail, key);
   return { status: job === 'created' || job === 'retry' || job === 'active' ? 'queued' : 'failed', sentAt: null };
 }
 
-type MyMembership = Pick<InferAttributes<Membership>, 'role' | 'status' | 'joinedAt'> & { coop: Pick<InferAttributes<Coop>, 'slug' | 'name' | 'timezone'> };
+type MyMembership = Pick<InferAttributes<Membership>, 'role' | 'status' | 'joinedAt'> & {
+  coop: Pick<InferAttributes<Coop>, 'slug' | 'name' | 'timezone'>;
+};
 
 const invalidFields = (fields: Record<string, string[]>) => new HttpError(422, 'Some fields need attention.', fields);
 const COMMON = 'That password is on a list of commonly used passwords. Choose another.';
@@ -77,21 +97,38 @@ export async function getProfile(user: SessionUser): Promise<ProfileDto> {
     pendingEmail: pending?.newEmail ?? null,
     pendingEmailDelivery: pending ? await emailChangeDelivery(pending.id) : null,
     coops: coops.map((m) => ({
-      slug: m.coop.slug, name: m.coop.name, role: m.role, status: m.status, joinedAt: new Date(m.joinedAt).toISOString(), timezone: m.coop.timezone,
+      slug: m.coop.slug,
+      name: m.coop.name,
+      role: m.role,
+      status: m.status,
+      joinedAt: new Date(m.joinedAt).toISOString(),
+      timezone: m.coop.timezone,
     })),
   };
 }
 
 /** Writes one audit event into each co-op the person belongs to (their name and e-mail show there). */
-async function auditInMyCoops(userId: number, action: string, before: unknown, after: unknown, transaction: Transaction) {
+async function auditInMyCoops(
+  userId: number,
+  action: string,
+  before: unknown,
+  after: unknown,
+  transaction: Transaction,
+) {
   const memberships = await Membership.findAll({ where: { userId }, attributes: ['coopId'], raw: true, transaction });
   for (const m of memberships) {
-    await audit({ coopId: m.coopId, actorUserId: userId, action, entityType: 'user', entityId: userId, before, after }, transaction);
+    await audit(
+      { coopId: m.coopId, actorUserId: userId, action, entityType: 'user', entityId: userId, before, after },
+      transaction,
+    );
   }
 }
 
 /** Renames the signed-in person. */
-export async function updateProfile(user: SessionUser, input: z.infer<typeof profileUpdateSchema>): Promise<{ name: string }> {
+export async function updateProfile(
+  user: SessionUser,
+  input: z.infer<typeof profileUpdateSchema>,
+): Promise<{ name: string }> {
   if (input.name === user.name) return { name: user.name };
   await inTransaction(async (transaction) => {
     await User.update({ name: input.name }, { where: { id: user.id }, transaction });
@@ -108,7 +145,12 @@ export async function updateProfile(user: SessionUser, input: z.infer<typeof pro
 async function checkCurrentPassword(user: SessionUser, plain: string, field: string) {
   const wait = await currentPasswordWaitSeconds(user.email);
   if (wait > 0) {
-    throw new HttpError(429, `Too many wrong passwords. Wait up to ${CURRENT_PASSWORD_WINDOW_MINUTES} minutes and try again.`, undefined, { retryAfter: wait });
+    throw new HttpError(
+      429,
+      `Too many wrong passwords. Wait up to ${CURRENT_PASSWORD_WINDOW_MINUTES} minutes and try again.`,
+      undefined,
+      { retryAfter: wait },
+    );
   }
   const row = await User.findByPk(user.id, { attributes: ['passwordHash'], raw: true });
   if (!(await verifyPassword(plain, row?.passwordHash))) {
@@ -121,9 +163,13 @@ async function checkCurrentPassword(user: SessionUser, plain: string, field: str
  * Changes the password (the current one is required) and revokes every session of this person, this one included: the browser signs in again with the
  * new password right after (the profile form does it), other devices must sign in again.
  */
-export async function changePassword(user: SessionUser, input: z.infer<typeof passwordChangeSchema>): Promise<{ changed: true }> {
+export async function changePassword(
+  user: SessionUser,
+  input: z.infer<typeof passwordChangeSchema>,
+): Promise<{ changed: true }> {
   if (isCommonPassword(input.newPassword)) throw invalidFields({ newPassword: [COMMON] });
-  if (input.newPassword === input.currentPassword) throw invalidFields({ newPassword: ['Choose a password different from the current one.'] });
+  if (input.newPassword === input.currentPassword)
+    throw invalidFields({ newPassword: ['Choose a password different from the current one.'] });
   await checkCurrentPassword(user, input.currentPassword, 'currentPassword');
   const hash = await hashPassword(input.newPassword);
   await inTransaction(async (transaction) => {
@@ -149,8 +195,12 @@ const emailTaken = async (email: string, exceptUserId: number, transaction?: Tra
  * address (nothing reveals who has an account): then no link is made, and that account's owner
  * is told by e-mail that someone tried to move an account to their address.
  */
-export async function requestEmailChange(user: SessionUser, input: z.infer<typeof emailChangeSchema>): Promise<{ pendingEmail: string; sent: boolean }> {
-  if (input.email === user.email.toLowerCase()) throw invalidFields({ email: ['That is already your e-mail address.'] });
+export async function requestEmailChange(
+  user: SessionUser,
+  input: z.infer<typeof emailChangeSchema>,
+): Promise<{ pendingEmail: string; sent: boolean }> {
+  if (input.email === user.email.toLowerCase())
+    throw invalidFields({ email: ['That is already your e-mail address.'] });
   await checkCurrentPassword(user, input.currentPassword, 'currentPassword');
   if (await emailTaken(input.email, user.id)) {
     // Mail jobs (one per message, retried with back-off): the answer does not wait for SMTP.
@@ -175,8 +225,14 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
   const expiresAt = new Date(Date.now() + EMAIL_CHANGE_TTL_MS);
   const zone = await personTimeZone(user.id);
   await inTransaction(async (transaction) => {
-    await AuthToken.update({ usedAt: fn('now') }, { where: { userId: user.id, kind: 'email-change', usedAt: null }, transaction });
-    const link = await AuthToken.create({ userId: user.id, kind: 'email-change', tokenHash: hash, newEmail: input.email, expiresAt, usedAt: null }, { transaction });
+    await AuthToken.update(
+      { usedAt: fn('now') },
+      { where: { userId: user.id, kind: 'email-change', usedAt: null }, transaction },
+    );
+    const link = await AuthToken.create(
+      { userId: user.id, kind: 'email-change', tokenHash: hash, newEmail: input.email, expiresAt, usedAt: null },
+      { transaction },
+    );
     // The link's e-mail is a job written by this transaction: it exists exactly when the link does.
     await enqueueMail(
       {
@@ -205,7 +261,9 @@ export async function requestEmailChange(user: SessionUser, input: z.infer<typeo
   return { pendingEmail: input.email, sent: true };
 }
 
-type TokenRow = Pick<InferAttributes<AuthToken>, 'id' | 'userId' | 'newEmail' | 'expiresAt' | 'usedAt'> & { user: Pick<InferAttributes<User>, 'email' | 'name'> };
+type TokenRow = Pick<InferAttributes<AuthToken>, 'id' | 'userId' | 'newEmail' | 'expiresAt' | 'usedAt'> & {
+  user: Pick<InferAttributes<User>, 'email' | 'name'>;
+};
 
 /** A link's token row with its person; inside a transaction both rows are locked (FOR UPDATE). */
 async function findToken(kind: AuthTokenKind, token: string, transaction?: Transaction): Promise<TokenRow | null> {
@@ -234,20 +292,27 @@ const RESET_MESSAGES: Record<Exclude<LinkState, 'ok'>, string> = {
   expired: 'This password-reset link has expired (links work for one hour). Ask for a new one.',
 };
 const EMAIL_MESSAGES: Record<Exclude<LinkState, 'ok'>, string> = {
-  invalid: 'This confirmation link is not valid. Check that the whole link was copied, or change your e-mail address again from your profile.',
+  invalid:
+    'This confirmation link is not valid. Check that the whole link was copied, or change your e-mail address again from your profile.',
   used: 'This confirmation link has already been used or was replaced by a newer one.',
-  expired: 'This confirmation link has expired (links work for 24 hours). Change your e-mail address again from your profile.',
+  expired:
+    'This confirmation link has expired (links work for 24 hours). Change your e-mail address again from your profile.',
 };
 
 function linkError(state: Exclude<LinkState, 'ok'>, messages: typeof RESET_MESSAGES): HttpError {
-  return state === 'invalid' ? notFound(messages.invalid) : new HttpError(410, messages[state], undefined, { reason: state });
+  return state === 'invalid'
+    ? notFound(messages.invalid)
+    : new HttpError(410, messages[state], undefined, { reason: state });
 }
 
 /** What the e-mail confirmation page shows for a link. */
-export async function lookupEmailChange(token: string): Promise<{ state: 'ok'; newEmail: string; oldEmail: string } | { state: Exclude<LinkState, 'ok'>; message: string }> {
+export async function lookupEmailChange(
+  token: string,
+): Promise<{ state: 'ok'; newEmail: string; oldEmail: string } | { state: Exclude<LinkState, 'ok'>; message: string }> {
   const row = await findToken('email-change', token);
   const state = linkState(row);
-  if (state !== 'ok' || !row) return { state: state === 'ok' ? 'invalid' : state, message: EMAIL_MESSAGES[state === 'ok' ? 'invalid' : state] };
+  if (state !== 'ok' || !row)
+    return { state: state === 'ok' ? 'invalid' : state, message: EMAIL_MESSAGES[state === 'ok' ? 'invalid' : state] };
   return { state: 'ok', newEmail: row.newEmail!, oldEmail: row.user.email };
 }
 
@@ -263,14 +328,16 @@ export async function confirmEmailChange(token: string): Promise<{ email: string
         const state = linkState(row);
         if (state !== 'ok' || !row) throw linkError(state === 'ok' ? 'invalid' : state, EMAIL_MESSAGES);
         const email = row.newEmail!;
-        if (await emailTaken(email, row.userId, transaction)) throw conflict('Another account started using that e-mail address in the meantime.');
+        if (await emailTaken(email, row.userId, transaction))
+          throw conflict('Another account started using that e-mail address in the meantime.');
         await User.update({ email }, { where: { id: row.userId }, transaction });
         await AuthToken.update({ usedAt: fn('now') }, { where: { id: row.id }, transaction });
         await auditInMyCoops(row.userId, 'user.email-change', { email: row.user.email }, { email }, transaction);
         return { oldEmail: row.user.email, email, name: row.user.name };
       });
     } catch (e) {
-      if (e instanceof UniqueConstraintError) throw conflict('Another account started using that e-mail address in the meantime.');
+      if (e instanceof UniqueConstraintError)
+        throw conflict('Another account started using that e-mail address in the meantime.');
       throw e;
     }
   })();
@@ -294,7 +361,8 @@ export async function confirmEmailChange(token: string): Promise<{ email: string
 }
 
 /** The one answer to every reset request. */
-export const RESET_REQUESTED = 'If an account uses that address, we have e-mailed it a link to choose a new password. The link works for one hour.';
+export const RESET_REQUESTED =
+  'If an account uses that address, we have e-mailed it a link to choose a new password. The link works for one hour.';
 
 /** Reset e-mails per account per hour beyond which requests are quietly dropped (stops mail bombing). */
 export const RESET_REQUESTS_PER_HOUR = 3;
@@ -305,15 +373,26 @@ export const RESET_REQUESTS_PER_HOUR = 3;
  * e-mailed, at most RESET_REQUESTS_PER_HOUR times an hour. Returns the e-mail to send (the
  * route sends it after answering, so both cases take the same time).
  */
-export async function requestPasswordReset(email: string): Promise<{ to: string; subject: string; text: string } | null> {
+export async function requestPasswordReset(
+  email: string,
+): Promise<{ to: string; subject: string; text: string } | null> {
   const user = await User.findOne({ where: emailIs(email), attributes: ['id', 'name', 'email'], raw: true });
   if (!user) return null;
   const hourAgo = new Date(Date.now() - 60 * 60 * 1000);
-  const recent = await AuthToken.count({ where: { userId: user.id, kind: 'password-reset', createdAt: { [Op.gt]: hourAgo } } });
+  const recent = await AuthToken.count({
+    where: { userId: user.id, kind: 'password-reset', createdAt: { [Op.gt]: hourAgo } },
+  });
   if (recent >= RESET_REQUESTS_PER_HOUR) return null;
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
-  await AuthToken.create({ userId: user.id, kind: 'password-reset', tokenHash: hash, newEmail: null, expiresAt, usedAt: null });
+  await AuthToken.create({
+    userId: user.id,
+    kind: 'password-reset',
+    tokenHash: hash,
+    newEmail: null,
+    expiresAt,
+    usedAt: null,
+  });
   return {
     to: user.email,
     subject: 'Reset your Tallyvat password',
@@ -336,10 +415,13 @@ export async function requestPasswordReset(email: string): Promise<{ to: string;
 }
 
 /** What the reset page shows for a link. */
-export async function lookupPasswordReset(token: string): Promise<{ state: 'ok'; email: string } | { state: Exclude<LinkState, 'ok'>; message: string }> {
+export async function lookupPasswordReset(
+  token: string,
+): Promise<{ state: 'ok'; email: string } | { state: Exclude<LinkState, 'ok'>; message: string }> {
   const row = await findToken('password-reset', token);
   const state = linkState(row);
-  if (state !== 'ok' || !row) return { state: state === 'ok' ? 'invalid' : state, message: RESET_MESSAGES[state === 'ok' ? 'invalid' : state] };
+  if (state !== 'ok' || !row)
+    return { state: state === 'ok' ? 'invalid' : state, message: RESET_MESSAGES[state === 'ok' ? 'invalid' : state] };
   return { state: 'ok', email: row.user.email };
 }
 
@@ -354,7 +436,10 @@ export async function checkPasswordReset(token: string): Promise<{ email: string
  * Sets a new password from a reset link: single use (the token row is locked and marked used,
  * with every other reset link of the person), and every session of the person is revoked.
  */
-export async function resetPassword(token: string, input: z.infer<typeof passwordResetSchema>): Promise<{ email: string }> {
+export async function resetPassword(
+  token: string,
+  input: z.infer<typeof passwordResetSchema>,
+): Promise<{ email: string }> {
   const pre = await findToken('password-reset', token);
   const preState = linkState(pre);
   if (preState !== 'ok') throw linkError(preState, RESET_MESSAGES);
@@ -366,7 +451,10 @@ export async function resetPassword(token: string, input: z.infer<typeof passwor
     if (state !== 'ok' || !row) throw linkError(state === 'ok' ? 'invalid' : state, RESET_MESSAGES);
     await User.update({ passwordHash: hash }, { where: { id: row.userId }, transaction });
     await revokeAllSessions(row.userId, transaction);
-    await AuthToken.update({ usedAt: fn('now') }, { where: { userId: row.userId, kind: 'password-reset', usedAt: null }, transaction });
+    await AuthToken.update(
+      { usedAt: fn('now') },
+      { where: { userId: row.userId, kind: 'password-reset', usedAt: null }, transaction },
+    );
     // The sign-in limit tells a locked-out person to reset their password: doing so lifts the
     // account's lock (failures counted per address still apply).
     await SignInAttempt.destroy({ where: { [Op.and]: [emailIs(row.user.email), { succeeded: false }] }, transaction });

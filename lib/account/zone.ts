@@ -10,7 +10,10 @@ export async function personTimeZone(userId: number): Promise<string> {
     where: { userId, status: 'active' },
     attributes: ['id'],
     include: [{ model: Coop, as: 'coop', required: true, attributes: ['timezone'] }],
-    order: [['joinedAt', 'ASC'], ['id', 'ASC']],
+    order: [
+      ['joinedAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
     raw: true,
     nest: true,
   })) as unknown as { coop: { timezone: string } } | null;

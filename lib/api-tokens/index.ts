@@ -55,7 +55,10 @@ export async function listApiTokens(actor: Actor): Promise<ApiTokenDto[]> {
     where: { coopId: actor.coop.id },
     attributes: [...ATTRIBUTES],
     include: [{ model: User, as: 'createdBy', attributes: ['name'] }],
-    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
     limit: 500,
     raw: true,
     nest: true,
@@ -64,12 +67,35 @@ export async function listApiTokens(actor: Actor): Promise<ApiTokenDto[]> {
 }
 
 /** Creates a token for the co-op; the answer is the only time the token itself is shown. */
-export async function createApiToken(actor: Actor, input: z.infer<typeof apiTokenCreateSchema>): Promise<{ token: ApiTokenDto; secret: string }> {
+export async function createApiToken(
+  actor: Actor,
+  input: z.infer<typeof apiTokenCreateSchema>,
+): Promise<{ token: ApiTokenDto; secret: string }> {
   requireSessionActor(actor);
   const { token, hash, prefix } = newApiToken();
   const id = await inTransaction(async (transaction) => {
-    const row = await ApiToken.create({ coopId: actor.coop.id, createdByUserId: actor.user.id, name: input.name, access: input.access, tokenHash: hash, prefix }, { transaction });
-    await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'api-token.create', entityType: 'api-token', entityId: row.id, after: { name: input.name, access: input.access, prefix } }, transaction);
+    const row = await ApiToken.create(
+      {
+        coopId: actor.coop.id,
+        createdByUserId: actor.user.id,
+        name: input.name,
+        access: input.access,
+        tokenHash: hash,
+        prefix,
+      },
+      { transaction },
+    );
+    await audit(
+      {
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'api-token.create',
+        entityType: 'api-token',
+        entityId: row.id,
+        after: { name: input.name, access: input.access, prefix },
+      },
+      transaction,
+    );
     return row.id;
   });
   return { token: await readToken(actor, id), secret: token };
@@ -79,11 +105,29 @@ export async function createApiToken(actor: Actor, input: z.infer<typeof apiToke
 export async function revokeApiToken(actor: Actor, id: number): Promise<ApiTokenDto> {
   requireSessionActor(actor);
   await inTransaction(async (transaction) => {
-    const row = await ApiToken.findOne({ where: { id, coopId: actor.coop.id }, attributes: ['id', 'name', 'revokedAt'], transaction, lock: transaction.LOCK.UPDATE });
+    const row = await ApiToken.findOne({
+      where: { id, coopId: actor.coop.id },
+      attributes: ['id', 'name', 'revokedAt'],
+      transaction,
+      lock: transaction.LOCK.UPDATE,
+    });
     if (!row) throw notFound('Token not found.');
     if (row.revokedAt) throw conflict('This token is already revoked.');
-    await ApiToken.update({ revokedAt: fn('now') as unknown as Date }, { where: { id, coopId: actor.coop.id }, transaction });
-    await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'api-token.revoke', entityType: 'api-token', entityId: id, before: { name: row.name } }, transaction);
+    await ApiToken.update(
+      { revokedAt: fn('now') as unknown as Date },
+      { where: { id, coopId: actor.coop.id }, transaction },
+    );
+    await audit(
+      {
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'api-token.revoke',
+        entityType: 'api-token',
+        entityId: id,
+        before: { name: row.name },
+      },
+      transaction,
+    );
   });
   return readToken(actor, id);
 }

@@ -25,7 +25,8 @@ export type FileBody = { file: string; description?: string };
 /** A JSON body's schema, a download, no body (null), or alternatives by media type. */
 export type ResponseBody = z.ZodType | FileBody | null | readonly (z.ZodType | FileBody)[];
 
-export const isFileBody = (b: unknown): b is FileBody => b !== null && typeof b === 'object' && 'file' in b && !(b instanceof z.ZodType);
+export const isFileBody = (b: unknown): b is FileBody =>
+  b !== null && typeof b === 'object' && 'file' in b && !(b instanceof z.ZodType);
 
 export interface OperationSpec {
   method: Method;

@@ -18,7 +18,8 @@ const dayStartIn = (day: string, timeZone: string) => fn('timezone', timeZone, c
 
 /** A 'YYYY-MM-DD' the form sent that is not a day on the calendar (2026-02-31) is a 422, not a database error. */
 function checkDay(field: 'from' | 'to', day: string | undefined): void {
-  if (day !== undefined && addDays(day, 0) !== day) throw new HttpError(422, 'Some fields need attention.', { [field]: ['That day is not on the calendar.'] });
+  if (day !== undefined && addDays(day, 0) !== day)
+    throw new HttpError(422, 'Some fields need attention.', { [field]: ['That day is not on the calendar.'] });
 }
 
 /** The co-op's audit events matching the filters: who (user id), what (action or entity prefix), when (days in the co-op's zone). */
@@ -51,7 +52,10 @@ export async function listAuditEvents(actor: Actor, q: AuditQuery) {
       attributes: ['id', 'createdAt', 'action', 'entityType', 'entityId', 'before', 'after'],
       where,
       include: [{ association: 'actor', attributes: ['name', 'email'] }],
-      order: [['createdAt', 'DESC'], ['id', 'DESC']],
+      order: [
+        ['createdAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
       limit: q.pageSize,
       offset: (q.page - 1) * q.pageSize,
     }),
@@ -59,8 +63,15 @@ export async function listAuditEvents(actor: Actor, q: AuditQuery) {
   ]);
   return {
     rows: events.map<AuditEventDto>((e) => ({
-      id: String(e.id), at: e.createdAt.toISOString(), actorName: e.actor?.name ?? null, actorEmail: e.actor?.email ?? null,
-      action: e.action, entityType: e.entityType, entityId: e.entityId, before: e.before, after: e.after,
+      id: String(e.id),
+      at: e.createdAt.toISOString(),
+      actorName: e.actor?.name ?? null,
+      actorEmail: e.actor?.email ?? null,
+      action: e.action,
+      entityType: e.entityType,
+      entityId: e.entityId,
+      before: e.before,
+      after: e.after,
     })),
     page: q.page,
     pageSize: q.pageSize,

@@ -7,7 +7,10 @@ import type { Coop, User } from '@/models';
 
 export type SessionUser = Pick<InferAttributes<User>, 'id' | 'email' | 'name'>;
 
-export type ActorCoop = Pick<InferAttributes<Coop>, 'id' | 'slug' | 'name' | 'units' | 'currency' | 'timezone' | 'settings'>;
+export type ActorCoop = Pick<
+  InferAttributes<Coop>,
+  'id' | 'slug' | 'name' | 'units' | 'currency' | 'timezone' | 'settings'
+>;
 
 /** The acting member: who, in which co-op, with which role. Passed first to every lib/ service. */
 export interface Actor {
@@ -18,4 +21,3 @@ export interface Actor {
   /** Set when the request was authenticated by a personal access token (lib/auth/api-tokens.ts). */
   apiTokenId?: number;
 }
-

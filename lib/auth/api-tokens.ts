@@ -49,24 +49,39 @@ export async function requireTokenMember(authorization: string, coopSlug: string
     where: { tokenHash: hash, revokedAt: null },
     attributes: ['id', 'access', 'createdByUserId', 'lastUsedAt'],
     include: [
-      { model: Coop, as: 'coop', required: true, attributes: ['id', 'slug', 'name', 'units', 'currency', 'timezone', 'settings'] },
+      {
+        model: Coop,
+        as: 'coop',
+        required: true,
+        attributes: ['id', 'slug', 'name', 'units', 'currency', 'timezone', 'settings'],
+      },
       { model: User, as: 'createdBy', required: true, attributes: ['id', 'email', 'name'] },
     ],
   })) as (ApiToken & { coop: Coop; createdBy: User }) | null;
   if (!token) throw invalidToken();
   if (token.coop.slug !== String(coopSlug)) throw notFound('Co-op not found.');
-  const m = await Membership.findOne({ where: { coopId: token.coop.id, userId: token.createdByUserId }, attributes: ['id', 'role', 'status'], raw: true });
+  const m = await Membership.findOne({
+    where: { coopId: token.coop.id, userId: token.createdByUserId },
+    attributes: ['id', 'role', 'status'],
+    raw: true,
+  });
   if (!m) throw invalidToken();
-  if (m.status !== 'active') throw forbidden('The membership of this token\'s creator is suspended.');
+  if (m.status !== 'active') throw forbidden("The membership of this token's creator is suspended.");
   const ctx = requestContext.getStore();
   // Outside a route handler the method is unknown: count it as a write.
-  if (token.access === 'read' && !READ_METHODS.has(ctx?.method ?? 'POST')) throw forbidden('This access token is read-only.');
+  if (token.access === 'read' && !READ_METHODS.has(ctx?.method ?? 'POST'))
+    throw forbidden('This access token is read-only.');
   if (!can(m.role, action)) throw forbidden();
   if (ctx) ctx.apiTokenId = token.id;
   if (!token.lastUsedAt || token.lastUsedAt.getTime() < Date.now() - LAST_USED_EVERY_MS) {
     await ApiToken.update(
       { lastUsedAt: fn('now') as unknown as Date },
-      { where: { id: token.id, [Op.or]: [{ lastUsedAt: null }, { lastUsedAt: { [Op.lt]: new Date(Date.now() - LAST_USED_EVERY_MS) } }] } },
+      {
+        where: {
+          id: token.id,
+          [Op.or]: [{ lastUsedAt: null }, { lastUsedAt: { [Op.lt]: new Date(Date.now() - LAST_USED_EVERY_MS) } }],
+        },
+      },
     );
   }
   const c = token.coop;
@@ -74,7 +89,15 @@ export async function requireTokenMember(authorization: string, coopSlug: string
     user: { id: token.createdBy.id, email: token.createdBy.email, name: token.createdBy.name },
     role: m.role,
     membershipId: m.id,
-    coop: { id: c.id, slug: c.slug, name: c.name, units: c.units, currency: c.currency, timezone: c.timezone, settings: (c.settings ?? {}) as CoopSettings },
+    coop: {
+      id: c.id,
+      slug: c.slug,
+      name: c.name,
+      units: c.units,
+      currency: c.currency,
+      timezone: c.timezone,
+      settings: (c.settings ?? {}) as CoopSettings,
+    },
     apiTokenId: token.id,
   };
 }

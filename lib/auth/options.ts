@@ -27,13 +27,20 @@ export const authOptions: NextAuthOptions = {
         const headers = new Headers((req?.headers ?? {}) as Record<string, string>);
         const source = { email, address: clientAddress(headers), deviceId: knownDevice(headers.get('cookie'), email) };
         if ((await signInWaitSeconds(source)) > 0) throw new Error('RATE_LIMITED');
-        const user = await User.findOne({ where: emailIs(email), attributes: ['id', 'email', 'name', 'passwordHash'], raw: true });
+        const user = await User.findOne({
+          where: emailIs(email),
+          attributes: ['id', 'email', 'name', 'passwordHash'],
+          raw: true,
+        });
         const ok = await verifyPassword(password, user?.passwordHash);
         await recordSignInAttempt(source, ok && !!user);
         if (!user || !ok) return null;
         // Hashes from before argon2id (bcrypt) are replaced now that the password is known.
         if (user.passwordHash && needsRehash(user.passwordHash)) {
-          await User.update({ passwordHash: await hashPassword(password) }, { where: { id: user.id, passwordHash: user.passwordHash } });
+          await User.update(
+            { passwordHash: await hashPassword(password) },
+            { where: { id: user.id, passwordHash: user.passwordHash } },
+          );
         }
         const sid = await startSession(user.id, headers.get('user-agent'));
         return { id: String(user.id), email: user.email, name: user.name, sid } as never;

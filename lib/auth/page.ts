@@ -34,7 +34,13 @@ export async function requirePageActor(coopSlug: string, action: Action, nextPat
 
 /** A section's guard layout: renders its pages only for roles that may `action` (403 otherwise). */
 export function sectionGuard(action: Action) {
-  return async function SectionLayout({ children, params }: { children: React.ReactNode; params: Promise<{ coop: string }> }) {
+  return async function SectionLayout({
+    children,
+    params,
+  }: {
+    children: React.ReactNode;
+    params: Promise<{ coop: string }>;
+  }) {
     const { coop } = await params;
     await requirePageActor(coop, action, `/c/${coop}`);
     return children;

@@ -40,7 +40,9 @@ export async function verifyPassword(plain: string, hash: string | null | undefi
 
 /** True when the stored hash is not argon2id with today's parameters (re-hash after a good sign-in). */
 export function needsRehash(hash: string): boolean {
-  return !hash.startsWith(`$argon2id$v=19$m=${ARGON2_OPTIONS.memoryCost},t=${ARGON2_OPTIONS.timeCost},p=${ARGON2_OPTIONS.parallelism}$`);
+  return !hash.startsWith(
+    `$argon2id$v=19$m=${ARGON2_OPTIONS.memoryCost},t=${ARGON2_OPTIONS.timeCost},p=${ARGON2_OPTIONS.parallelism}$`,
+  );
 }
 
 /** True when the password is on the shipped list of commonly used passwords. */

@@ -22,7 +22,12 @@ export interface SessionRow extends Pick<InferAttributes<User>, 'id' | 'email' |
  * revoked, not expired, seen within `idleDays`), with their membership in the co-op whose slug is
  * given (none for `coopSlug` null). No row: no user or no live session.
  */
-export async function sessionRow(p: { userId: number; tokenHash: string; idleDays: number; coopSlug: string | null }): Promise<SessionRow | null> {
+export async function sessionRow(p: {
+  userId: number;
+  tokenHash: string;
+  idleDays: number;
+  coopSlug: string | null;
+}): Promise<SessionRow | null> {
   const [row] = await sequelize.query<SessionRow>(
     `SELECT u.id, u.email, u.name, m.id AS "membershipId", m.role, m.status,
             CASE WHEN c.id IS NULL THEN NULL ELSE json_build_object('id', c.id, 'slug', c.slug, 'name', c.name, 'units', c.units,

@@ -37,7 +37,12 @@ export const UNKNOWN_ADDRESS = 'unknown';
  */
 export function clientAddress(headers: Headers): string | null {
   if (process.env.TRUST_PROXY !== '1') return null;
-  const hops = headers.get('x-forwarded-for')?.split(',').map((h) => h.trim()).filter(Boolean) ?? [];
+  const hops =
+    headers
+      .get('x-forwarded-for')
+      ?.split(',')
+      .map((h) => h.trim())
+      .filter(Boolean) ?? [];
   const address = hops.at(-1) ?? headers.get('x-real-ip')?.trim();
   return address ? address.slice(0, 64) : null;
 }
@@ -54,7 +59,10 @@ function secret(): string {
 }
 
 const mac = (deviceId: string, email: string, expires: number) =>
-  crypto.createHmac('sha256', secret()).update(`known-device\n${deviceId}\n${email.toLowerCase()}\n${expires}`).digest('base64url');
+  crypto
+    .createHmac('sha256', secret())
+    .update(`known-device\n${deviceId}\n${email.toLowerCase()}\n${expires}`)
+    .digest('base64url');
 
 function cookieValue(cookieHeader: string | null | undefined, name: string): string | null {
   for (const part of String(cookieHeader ?? '').split(';')) {
@@ -101,7 +109,10 @@ function waitMs(failures: number, last: Date | null): number {
 async function waitFor(where: WhereOptions<SignInAttempt>): Promise<number> {
   const row = (await SignInAttempt.findOne({
     where: { [Op.and]: [where, { succeeded: false, createdAt: { [Op.gte]: new Date(Date.now() - COUNT_WINDOW_MS) } }] },
-    attributes: [[fn('count', col('id')), 'failures'], [fn('max', col('created_at')), 'last']],
+    attributes: [
+      [fn('count', col('id')), 'failures'],
+      [fn('max', col('created_at')), 'last'],
+    ],
     raw: true,
   })) as unknown as { failures: string; last: Date | null } | null;
   return waitMs(Number(row?.failures ?? 0), row?.last ?? null);
@@ -122,14 +133,22 @@ export async function signInWaitSeconds({ email, address, deviceId }: SignInSour
   const waits = deviceId
     ? [await waitFor({ deviceId })]
     : await Promise.all([
-      waitFor({ [Op.and]: [emailIs(email), { deviceId: null, address: { [Op.ne]: IN_SESSION } }] }),
-      address ? waitFor({ address, deviceId: null }) : Promise.resolve(0),
-    ]);
+        waitFor({ [Op.and]: [emailIs(email), { deviceId: null, address: { [Op.ne]: IN_SESSION } }] }),
+        address ? waitFor({ address, deviceId: null }) : Promise.resolve(0),
+      ]);
   return Math.ceil(Math.max(...waits) / 1000);
 }
 
-export async function recordSignInAttempt({ email, address, deviceId }: SignInSource, succeeded: boolean): Promise<void> {
-  await SignInAttempt.create({ email: email.toLowerCase().slice(0, 254), address: address ?? UNKNOWN_ADDRESS, deviceId, succeeded });
+export async function recordSignInAttempt(
+  { email, address, deviceId }: SignInSource,
+  succeeded: boolean,
+): Promise<void> {
+  await SignInAttempt.create({
+    email: email.toLowerCase().slice(0, 254),
+    address: address ?? UNKNOWN_ADDRESS,
+    deviceId,
+    succeeded,
+  });
 }
 
 // ---- current password inside a session -------------------------------------------------------
@@ -155,5 +174,10 @@ export async function currentPasswordWaitSeconds(email: string): Promise<number>
 }
 
 export async function recordCurrentPasswordFailure(email: string): Promise<void> {
-  await SignInAttempt.create({ email: email.toLowerCase().slice(0, 254), address: IN_SESSION, deviceId: null, succeeded: false });
+  await SignInAttempt.create({
+    email: email.toLowerCase().slice(0, 254),
+    address: IN_SESSION,
+    deviceId: null,
+    succeeded: false,
+  });
 }

@@ -7,7 +7,8 @@ export { ROLES, type Role } from '@/models/vocabulary';
 export const ROLE_SUMMARY: Record<Role, string> = {
   member: 'reserve and draw fuel, see and pay the invoices for it, and see the quality of released batches',
   brewer: 'do everything a member can, plus keep supplies, batches and the tank ledger, and record draws',
-  treasurer: 'do everything a member can, plus set prices and dues, and handle invoices, payments, the month close and reports',
+  treasurer:
+    'do everything a member can, plus set prices and dues, and handle invoices, payments, the month close and reports',
   admin: 'do everything, including invitations, roles, suspensions and co-op settings',
 };
 

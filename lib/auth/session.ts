@@ -38,7 +38,9 @@ const readSession = cache(async (): Promise<SessionClaims | null> => {
   const token = await getToken({ req: new NextRequest('http://localhost/', { headers: { cookie } }) });
   const uid = Number(token?.uid);
   const sid = token?.sid;
-  return Number.isInteger(uid) && uid > 0 && typeof sid === 'string' && sid.length > 0 && sid.length <= 64 ? { uid, sid } : null;
+  return Number.isInteger(uid) && uid > 0 && typeof sid === 'string' && sid.length > 0 && sid.length <= 64
+    ? { uid, sid }
+    : null;
 });
 
 /**
@@ -84,7 +86,9 @@ export const listMyCoops = cache(async (userId: number): Promise<MyCoop[]> => {
     order: [[{ model: Coop, as: 'coop' }, 'name', 'ASC']],
     raw: true,
     nest: true,
-  })) as unknown as (Pick<InferAttributes<Membership>, 'role' | 'status'> & { coop: Pick<InferAttributes<Coop>, 'slug' | 'name'> })[];
+  })) as unknown as (Pick<InferAttributes<Membership>, 'role' | 'status'> & {
+    coop: Pick<InferAttributes<Coop>, 'slug' | 'name'>;
+  })[];
   return rows.map((m) => ({ slug: m.coop.slug, name: m.coop.name, role: m.role, status: m.status }));
 });
 

@@ -35,7 +35,9 @@ function summarizeUserAgent(ua: string | null | undefined): string {
 export async function startSession(userId: number, userAgent: string | null | undefined): Promise<string> {
   const sid = crypto.randomBytes(32).toString('base64url');
   const longAgo = new Date(Date.now() - SESSION_MAX_AGE_DAYS * 24 * 60 * 60 * 1000);
-  await Session.destroy({ where: { userId, [Op.or]: [{ expiresAt: { [Op.lt]: longAgo } }, { revokedAt: { [Op.lt]: longAgo } }] } });
+  await Session.destroy({
+    where: { userId, [Op.or]: [{ expiresAt: { [Op.lt]: longAgo } }, { revokedAt: { [Op.lt]: longAgo } }] },
+  });
   await Session.create({
     tokenHash: hashSessionId(sid),
     userId,
@@ -47,18 +49,30 @@ export async function startSession(userId: number, userAgent: string | null | un
 
 /** Revokes one session (sign-out). */
 export async function revokeSession(sid: string): Promise<void> {
-  await Session.update({ revokedAt: fn('now') as unknown as Date }, { where: { tokenHash: hashSessionId(sid), revokedAt: null } });
+  await Session.update(
+    { revokedAt: fn('now') as unknown as Date },
+    { where: { tokenHash: hashSessionId(sid), revokedAt: null } },
+  );
 }
 
 /** Revokes every session of the user (sign-out everywhere, password change or reset). */
 export async function revokeAllSessions(userId: number, transaction?: Transaction): Promise<void> {
-  await Session.update({ revokedAt: fn('now') as unknown as Date }, { where: { userId, revokedAt: null }, transaction });
+  await Session.update(
+    { revokedAt: fn('now') as unknown as Date },
+    { where: { userId, revokedAt: null }, transaction },
+  );
 }
 
 /** Records that the session was used for a write (at most once an hour per session). */
 export async function touchSession(sid: string): Promise<void> {
   await Session.update(
     { lastSeenAt: fn('now') as unknown as Date },
-    { where: { tokenHash: hashSessionId(sid), revokedAt: null, lastSeenAt: { [Op.lt]: new Date(Date.now() - TOUCH_EVERY_MS) } } },
+    {
+      where: {
+        tokenHash: hashSessionId(sid),
+        revokedAt: null,
+        lastSeenAt: { [Op.lt]: new Date(Date.now() - TOUCH_EVERY_MS) },
+      },
+    },
   );
 }

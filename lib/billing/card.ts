@@ -32,19 +32,41 @@ const leaseUntil = (): Date => new Date(Date.now() + LEASE_SECONDS * 1000);
  * This is the one place a charge becomes a payment.
  * @returns 'applied' when this call recorded it, 'no-change' when it was already recorded
  */
-export async function completeAttemptSucceeded(t: Transaction, coopId: number, attemptId: number, charge: ProviderCharge, userId: number | null): Promise<'applied' | 'no-change' | 'unknown'> {
+export async function completeAttemptSucceeded(
+  t: Transaction,
+  coopId: number,
+  attemptId: number,
+  charge: ProviderCharge,
+  userId: number | null,
+): Promise<'applied' | 'no-change' | 'unknown'> {
   await lockCoopBilling(t, coopId);
-  const a = await PaymentAttempt.findOne({ attributes: ['id', 'invoiceId', 'membershipId', 'status'], where: { id: attemptId, coopId }, lock: t.LOCK.UPDATE, raw: true, transaction: t });
+  const a = await PaymentAttempt.findOne({
+    attributes: ['id', 'invoiceId', 'membershipId', 'status'],
+    where: { id: attemptId, coopId },
+    lock: t.LOCK.UPDATE,
+    raw: true,
+    transaction: t,
+  });
   const coop = a ? await Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, transaction: t }) : null;
   if (!a || !coop) return 'unknown';
   if (a.status === 'succeeded') return 'no-change';
   await PaymentAttempt.update(
-    { status: 'succeeded', stripeChargeId: charge.id, completedAt: new Date(), leaseUntil: null, failureCode: null, failureMessage: null },
+    {
+      status: 'succeeded',
+      stripeChargeId: charge.id,
+      completedAt: new Date(),
+      leaseUntil: null,
+      failureCode: null,
+      failureMessage: null,
+    },
     { where: { id: attemptId, coopId }, transaction: t },
   );
   // Under the billing lock with the attempt row locked: a payment for this attempt or charge can
   // only exist if it was recorded before (the UNIQUE columns would refuse a second one anyway).
-  const recorded = await Payment.count({ where: { coopId, [Op.or]: [{ paymentAttemptId: attemptId }, { stripeChargeId: charge.id }] }, transaction: t });
+  const recorded = await Payment.count({
+    where: { coopId, [Op.or]: [{ paymentAttemptId: attemptId }, { stripeChargeId: charge.id }] },
+    transaction: t,
+  });
   if (recorded > 0) return 'no-change';
   const today = todayIn(coop.timezone);
   const p = await Payment.create(
@@ -64,17 +86,37 @@ export async function completeAttemptSucceeded(t: Transaction, coopId: number, a
     { transaction: t },
   );
   const alloc = await allocatePayment(t, coopId, p.id, a.invoiceId, userId);
-  await audit({
-    coopId, actorUserId: userId, action: 'payment.card.succeeded', entityType: 'payment', entityId: p.id,
-    before: { attemptId, status: a.status }, after: { attemptId, chargeId: charge.id, amountCents: charge.amountCents, invoiceId: a.invoiceId, ...alloc },
-  }, t);
+  await audit(
+    {
+      coopId,
+      actorUserId: userId,
+      action: 'payment.card.succeeded',
+      entityType: 'payment',
+      entityId: p.id,
+      before: { attemptId, status: a.status },
+      after: { attemptId, chargeId: charge.id, amountCents: charge.amountCents, invoiceId: a.invoiceId, ...alloc },
+    },
+    t,
+  );
   return 'applied';
 }
 
 /** Marks an attempt declined; never overrides a success. */
-export async function markAttemptFailed(t: Transaction, coopId: number, attemptId: number, code: string, message: string): Promise<'applied' | 'no-change'> {
+export async function markAttemptFailed(
+  t: Transaction,
+  coopId: number,
+  attemptId: number,
+  code: string,
+  message: string,
+): Promise<'applied' | 'no-change'> {
   const [n] = await PaymentAttempt.update(
-    { status: 'failed', failureCode: code.slice(0, 60), failureMessage: message.slice(0, 240), completedAt: new Date(), leaseUntil: null },
+    {
+      status: 'failed',
+      failureCode: code.slice(0, 60),
+      failureMessage: message.slice(0, 240),
+      completedAt: new Date(),
+      leaseUntil: null,
+    },
     { where: { id: attemptId, coopId, status: 'pending' }, transaction: t },
   );
   return n > 0 ? 'applied' : 'no-change';
@@ -92,7 +134,11 @@ export async function markAttemptFailed(t: Transaction, coopId: number, attemptI
  *     starts a fresh attempt); provider unreachable → attempt stays open for a later retry or the
  *     provider's webhook, and the member is told the invoice is still unpaid.
  */
-export async function payInvoiceByCard(actor: Actor, invoiceId: number, cardToken: string): Promise<{ status: 'succeeded'; invoice: InvoiceDetail }> {
+export async function payInvoiceByCard(
+  actor: Actor,
+  invoiceId: number,
+  cardToken: string,
+): Promise<{ status: 'succeeded'; invoice: InvoiceDetail }> {
   const coopId = actor.coop.id;
   const { attempt, invoiceNumber } = await inTransaction(async (t) => {
     await lockCoopBilling(t, coopId);
@@ -107,17 +153,27 @@ export async function payInvoiceByCard(actor: Actor, invoiceId: number, cardToke
     if (inv.kind !== 'invoice') throw conflict('A credit note is not paid; its amount is already on your account.');
     if (inv.status === 'paid') throw conflict('This invoice is already paid.', { code: 'already-paid' });
     if (inv.status === 'void') throw conflict('This invoice was voided; see the credit note and any newer invoice.');
-    const open = await PaymentAttempt.findOne({ where: { invoiceId, coopId, status: 'pending' }, lock: t.LOCK.UPDATE, transaction: t });
+    const open = await PaymentAttempt.findOne({
+      where: { invoiceId, coopId, status: 'pending' },
+      lock: t.LOCK.UPDATE,
+      transaction: t,
+    });
     if (open) {
       if (open.leaseUntil && open.leaseUntil.getTime() > Date.now()) {
-        throw conflict('A payment for this invoice is already being processed. Wait a moment and reload the page.', { code: 'in-progress' });
+        throw conflict('A payment for this invoice is already being processed. Wait a moment and reload the page.', {
+          code: 'in-progress',
+        });
       }
       await open.update({ leaseUntil: leaseUntil() }, { transaction: t });
       return { attempt: open, invoiceNumber: inv.number };
     }
     const outstanding = cents(inv.totalCents) - cents(inv.paidCents);
     if (outstanding < MIN_CARD_CHARGE_CENTS) {
-      throw new HttpError(422, 'Some fields need attention.', { card: [`Amounts under ${formatCents(MIN_CARD_CHARGE_CENTS, actor.coop.currency)} cannot be paid by card; please pay the treasurer in cash.`] });
+      throw new HttpError(422, 'Some fields need attention.', {
+        card: [
+          `Amounts under ${formatCents(MIN_CARD_CHARGE_CENTS, actor.coop.currency)} cannot be paid by card; please pay the treasurer in cash.`,
+        ],
+      });
     }
     // The key names the row it belongs to: the id is taken first and both go in with one INSERT.
     const id = await takeNextId('payment_attempts', t);
@@ -136,7 +192,17 @@ export async function payInvoiceByCard(actor: Actor, invoiceId: number, cardToke
       },
       { transaction: t },
     );
-    await audit({ coopId, actorUserId: actor.user.id, action: 'payment.attempt.start', entityType: 'payment_attempt', entityId: row.id, after: { invoiceId, amountCents: outstanding, idempotencyKey: row.idempotencyKey } }, t);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'payment.attempt.start',
+        entityType: 'payment_attempt',
+        entityId: row.id,
+        after: { invoiceId, amountCents: outstanding, idempotencyKey: row.idempotencyKey },
+      },
+      t,
+    );
     return { attempt: row, invoiceNumber: inv.number };
   });
 
@@ -151,16 +217,46 @@ export async function payInvoiceByCard(actor: Actor, invoiceId: number, cardToke
 
   if (outcome.outcome === 'succeeded') {
     await inTransaction((t) => completeAttemptSucceeded(t, coopId, attempt.id, outcome.charge, actor.user.id));
-    return { status: 'succeeded', invoice: await getInvoiceDetail(coopId, invoiceId, { membershipId: actor.membershipId, includeDrafts: false }) };
+    return {
+      status: 'succeeded',
+      invoice: await getInvoiceDetail(coopId, invoiceId, { membershipId: actor.membershipId, includeDrafts: false }),
+    };
   }
   if (outcome.outcome === 'declined' || outcome.outcome === 'rejected') {
     await inTransaction(async (t) => {
       await lockCoopBilling(t, coopId);
-      await markAttemptFailed(t, coopId, attempt.id, outcome.outcome === 'declined' ? outcome.code : 'rejected', outcome.message);
-      await audit({ coopId, actorUserId: actor.user.id, action: 'payment.attempt.failed', entityType: 'payment_attempt', entityId: attempt.id, after: { outcome: outcome.outcome, message: outcome.message } }, t);
+      await markAttemptFailed(
+        t,
+        coopId,
+        attempt.id,
+        outcome.outcome === 'declined' ? outcome.code : 'rejected',
+        outcome.message,
+      );
+      await audit(
+        {
+          coopId,
+          actorUserId: actor.user.id,
+          action: 'payment.attempt.failed',
+          entityType: 'payment_attempt',
+          entityId: attempt.id,
+          after: { outcome: outcome.outcome, message: outcome.message },
+        },
+        t,
+      );
     });
-    if (outcome.outcome === 'declined') throw new HttpError(402, `Your card was not accepted: ${outcome.message} Nothing was charged. Try another card, or pay the treasurer in cash.`, undefined, { code: 'card-declined' });
-    throw new HttpError(502, `The card payment service refused this payment (${outcome.message}). Nothing was charged.`, undefined, { code: 'provider-rejected' });
+    if (outcome.outcome === 'declined')
+      throw new HttpError(
+        402,
+        `Your card was not accepted: ${outcome.message} Nothing was charged. Try another card, or pay the treasurer in cash.`,
+        undefined,
+        { code: 'card-declined' },
+      );
+    throw new HttpError(
+      502,
+      `The card payment service refused this payment (${outcome.message}). Nothing was charged.`,
+      undefined,
+      { code: 'provider-rejected' },
+    );
   }
   await PaymentAttempt.update({ leaseUntil: null }, { where: { id: attempt.id, coopId, status: 'pending' } });
   throw new HttpError(
@@ -201,7 +297,14 @@ export async function settleUnknownAttempts(limit = 50): Promise<number> {
     // Lease it, so a member's retry waits (409) while we ask the provider.
     const [leased] = await PaymentAttempt.update(
       { leaseUntil: leaseUntil() },
-      { where: { id: a.id, coopId: a.coopId, status: 'pending', [Op.or]: [{ leaseUntil: null }, { leaseUntil: { [Op.lt]: new Date() } }] } },
+      {
+        where: {
+          id: a.id,
+          coopId: a.coopId,
+          status: 'pending',
+          [Op.or]: [{ leaseUntil: null }, { leaseUntil: { [Op.lt]: new Date() } }],
+        },
+      },
     );
     if (leased === 0) continue;
     const found = await findChargeForAttempt(a.id, new Date(a.createdAt));
@@ -215,9 +318,23 @@ export async function settleUnknownAttempts(limit = 50): Promise<number> {
         return;
       }
       await lockCoopBilling(t, a.coopId);
-      const message = found ? 'The card was declined.' : 'The card payment service has no charge for this attempt; nothing was charged.';
-      if ((await markAttemptFailed(t, a.coopId, a.id, found ? 'card_declined' : 'not-charged', message)) === 'applied') {
-        await audit({ coopId: a.coopId, actorUserId: null, action: 'payment.attempt.failed', entityType: 'payment_attempt', entityId: a.id, after: { outcome: found ? 'declined' : 'not-charged', settled: true } }, t);
+      const message = found
+        ? 'The card was declined.'
+        : 'The card payment service has no charge for this attempt; nothing was charged.';
+      if (
+        (await markAttemptFailed(t, a.coopId, a.id, found ? 'card_declined' : 'not-charged', message)) === 'applied'
+      ) {
+        await audit(
+          {
+            coopId: a.coopId,
+            actorUserId: null,
+            action: 'payment.attempt.failed',
+            entityType: 'payment_attempt',
+            entityId: a.id,
+            after: { outcome: found ? 'declined' : 'not-charged', settled: true },
+          },
+          t,
+        );
       }
     });
     settled++;

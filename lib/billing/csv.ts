@@ -6,4 +6,3 @@ export function centsToDecimal(cents: number): string {
   const a = Math.abs(cents);
   return `${sign}${Math.floor(a / 100)}.${String(a % 100).padStart(2, '0')}`;
 }
-

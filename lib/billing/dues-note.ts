@@ -11,11 +11,19 @@ import type { InvoiceDetail } from './types';
  * invoice): the co-op charges none, the member joined after the month, or was not active. The run
  * charges dues to active members who joined before the month's end (lib/billing/run/queries.ts).
  */
-export async function whyNoDues(coop: ActorCoop, inv: InvoiceDetail, audience: 'member' | 'treasurer'): Promise<string | null> {
+export async function whyNoDues(
+  coop: ActorCoop,
+  inv: InvoiceDetail,
+  audience: 'member' | 'treasurer',
+): Promise<string | null> {
   if (inv.kind !== 'invoice' || inv.status === 'void' || inv.lines.some((l) => l.kind === 'dues')) return null;
   const dues = coop.settings.monthlyDuesCents ?? 0;
   if (!dues) return 'No membership dues: the co-op does not charge any (set in the co-op settings).';
-  const m = await Membership.findOne({ attributes: ['joinedAt', 'status'], where: { id: inv.memberId, coopId: coop.id }, raw: true });
+  const m = await Membership.findOne({
+    attributes: ['joinedAt', 'status'],
+    where: { id: inv.memberId, coopId: coop.id },
+    raw: true,
+  });
   if (!m) return null;
   const who = audience === 'member' ? 'you' : inv.memberName;
   const month = periodLabel(inv.period);
@@ -23,6 +31,7 @@ export async function whyNoDues(coop: ActorCoop, inv: InvoiceDetail, audience: '
   if (joinedMonth > inv.period) {
     return `No membership dues for ${month}: ${who} joined on ${formatDate(m.joinedAt, coop.timezone)}, after the month ended. Dues of ${formatCents(dues, coop.currency)} a month are charged from ${periodLabel(joinedMonth)}.`;
   }
-  if (m.status !== 'active') return `No membership dues for ${month}: ${audience === 'member' ? 'your membership was' : `${inv.memberName}’s membership was`} not active when this invoice was prepared.`;
+  if (m.status !== 'active')
+    return `No membership dues for ${month}: ${audience === 'member' ? 'your membership was' : `${inv.memberName}’s membership was`} not active when this invoice was prepared.`;
   return null;
 }

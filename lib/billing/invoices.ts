@@ -1,9 +1,29 @@
 import 'server-only';
 import type { periodOverviewSchema } from '@/lib/api/dto/billing';
 import type { z } from 'zod';
-import { col, fn, literal, Op, type Includeable, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
+import {
+  col,
+  fn,
+  literal,
+  Op,
+  type Includeable,
+  type InferAttributes,
+  type Transaction,
+  type WhereOptions,
+} from 'sequelize';
 import { HttpError, notFound } from '@/lib/http';
-import { BillingPeriod, BillingRun, Coop, Invoice, InvoiceLine, MemberCredit, Membership, Payment, PaymentAttempt, User } from '@/models';
+import {
+  BillingPeriod,
+  BillingRun,
+  Coop,
+  Invoice,
+  InvoiceLine,
+  MemberCredit,
+  Membership,
+  Payment,
+  PaymentAttempt,
+  User,
+} from '@/models';
 import { cents } from './cents';
 import { isPeriodClosed } from './locks';
 import { todayIn } from '@/lib/dates';
@@ -21,12 +41,28 @@ const OUTSTANDING_SQL = 'GREATEST(total_cents - paid_cents, 0)';
 
 /** The columns a summary shows. */
 const SUMMARY_ATTRIBUTES = [
-  'id', 'kind', 'number', 'status', 'period', 'membershipId', 'totalCents', 'paidCents', 'issuedAt', 'dueOn', 'emailStatus', 'creditNoteForId',
+  'id',
+  'kind',
+  'number',
+  'status',
+  'period',
+  'membershipId',
+  'totalCents',
+  'paidCents',
+  'issuedAt',
+  'dueOn',
+  'emailStatus',
+  'creditNoteForId',
 ] as const satisfies readonly (keyof InferAttributes<Invoice>)[];
 
 /** What a summary joins: the member's name and e-mail, the co-op's time zone (for "overdue") and the credit note voiding it. */
 const SUMMARY_INCLUDE: Includeable[] = [
-  { model: Membership, as: 'membership', attributes: ['id'], include: [{ model: User, as: 'user', attributes: ['name', 'email'] }] },
+  {
+    model: Membership,
+    as: 'membership',
+    attributes: ['id'],
+    include: [{ model: User, as: 'user', attributes: ['name', 'email'] }],
+  },
   { model: Coop, as: 'coop', attributes: ['timezone'] },
   { model: Invoice, as: 'creditNote', attributes: ['id', 'number'] },
 ];
@@ -72,7 +108,9 @@ const SORTS = {
   total: () => 'totalCents',
   outstanding: () => {
     const i = invoiceAlias();
-    return literal(`CASE WHEN ${i}.status IN ('issued','partly-paid') THEN GREATEST(${i}.total_cents - ${i}.paid_cents, 0) ELSE 0 END`);
+    return literal(
+      `CASE WHEN ${i}.status IN ('issued','partly-paid') THEN GREATEST(${i}.total_cents - ${i}.paid_cents, 0) ELSE 0 END`,
+    );
   },
   status: () => 'status',
   period: () => 'period',
@@ -85,7 +123,16 @@ export type InvoiceSort = keyof typeof SORTS;
  */
 export async function listInvoices(
   coopId: number,
-  filter: { period?: string; status?: InvoiceStatus | 'open'; membershipId?: number; includeDrafts?: boolean; page: number; pageSize: number; sort: InvoiceSort; dir: 'asc' | 'desc' },
+  filter: {
+    period?: string;
+    status?: InvoiceStatus | 'open';
+    membershipId?: number;
+    includeDrafts?: boolean;
+    page: number;
+    pageSize: number;
+    sort: InvoiceSort;
+    dir: 'asc' | 'desc';
+  },
 ): Promise<PageOf<InvoiceSummary>> {
   const and: InvoiceWhere[] = [{ coopId }];
   if (filter.period) and.push({ period: periodToDate(filter.period) });
@@ -100,7 +147,10 @@ export async function listInvoices(
       where,
       attributes: [...SUMMARY_ATTRIBUTES],
       include: SUMMARY_INCLUDE,
-      order: [[SORTS[filter.sort](), `${dir} NULLS LAST`], ['id', dir]],
+      order: [
+        [SORTS[filter.sort](), `${dir} NULLS LAST`],
+        ['id', dir],
+      ],
       limit: filter.pageSize,
       offset: (filter.page - 1) * filter.pageSize,
     }),
@@ -113,7 +163,11 @@ export async function listInvoices(
  * One invoice with its lines, payments and card-attempt state. With `membershipId` only that
  * member's invoice is found (another's is a 404); drafts only for the treasurer.
  */
-export async function getInvoiceDetail(coopId: number, id: number, opts: { membershipId?: number; includeDrafts: boolean }): Promise<InvoiceDetail> {
+export async function getInvoiceDetail(
+  coopId: number,
+  id: number,
+  opts: { membershipId?: number; includeDrafts: boolean },
+): Promise<InvoiceDetail> {
   const and: InvoiceWhere[] = [{ id, coopId }];
   if (opts.membershipId) and.push({ membershipId: opts.membershipId });
   if (!opts.includeDrafts) and.push({ status: { [Op.ne]: 'draft' } });
@@ -126,13 +180,33 @@ export async function getInvoiceDetail(coopId: number, id: number, opts: { membe
   const [lines, payments, pending, failed, succeeded, periodClosed] = await Promise.all([
     InvoiceLine.findAll({
       where: { invoiceId: id, coopId },
-      attributes: ['id', 'kind', 'description', 'occurredAt', 'quantityLiters', 'unitPriceCentsPerGallon', 'amountCents'],
-      order: [['sortKey', 'ASC'], ['id', 'ASC']],
+      attributes: [
+        'id',
+        'kind',
+        'description',
+        'occurredAt',
+        'quantityLiters',
+        'unitPriceCentsPerGallon',
+        'amountCents',
+      ],
+      order: [
+        ['sortKey', 'ASC'],
+        ['id', 'ASC'],
+      ],
       raw: true,
     }),
     paymentsOfInvoice(coopId, id),
-    PaymentAttempt.findOne({ where: { invoiceId: id, coopId, status: 'pending' }, attributes: ['id', 'createdAt'], raw: true }),
-    PaymentAttempt.findOne({ where: { invoiceId: id, coopId, status: 'failed' }, attributes: ['failureMessage', 'completedAt'], order: [['id', 'DESC']], raw: true }),
+    PaymentAttempt.findOne({
+      where: { invoiceId: id, coopId, status: 'pending' },
+      attributes: ['id', 'createdAt'],
+      raw: true,
+    }),
+    PaymentAttempt.findOne({
+      where: { invoiceId: id, coopId, status: 'failed' },
+      attributes: ['failureMessage', 'completedAt'],
+      order: [['id', 'DESC']],
+      raw: true,
+    }),
     PaymentAttempt.count({ where: { invoiceId: id, coopId, status: 'succeeded' } }),
     isPeriodClosed(coopId, String(inv.period).slice(0, 10)),
   ]);
@@ -150,10 +224,17 @@ export async function getInvoiceDetail(coopId: number, id: number, opts: { membe
     payments,
     pendingAttempt: pending ? { id: pending.id, createdAt: new Date(pending.createdAt).toISOString() } : null,
     lastFailedAttempt:
-      failed && succeeded === 0 ? { message: failed.failureMessage ?? 'The card was declined.', at: new Date(failed.completedAt ?? Date.now()).toISOString() } : null,
+      failed && succeeded === 0
+        ? {
+            message: failed.failureMessage ?? 'The card was declined.',
+            at: new Date(failed.completedAt ?? Date.now()).toISOString(),
+          }
+        : null,
     voidReason: inv.voidReason,
     voidedAt: inv.voidedAt ? new Date(inv.voidedAt).toISOString() : null,
-    creditNote: inv.creditNote ? { id: inv.creditNote.id, label: invoiceLabel('credit-note', inv.creditNote.number) } : null,
+    creditNote: inv.creditNote
+      ? { id: inv.creditNote.id, label: invoiceLabel('credit-note', inv.creditNote.number) }
+      : null,
     original: inv.original ? { id: inv.original.id, label: invoiceLabel('invoice', inv.original.number) } : null,
     periodClosed,
     emailedAt: inv.emailedAt ? new Date(inv.emailedAt).toISOString() : null,
@@ -175,8 +256,10 @@ export async function memberBalance(coopId: number, membershipId: number, t?: Tr
     })) as unknown as { outstanding: string } | null;
     return cents(row?.outstanding);
   };
-  const credit = async () => cents(await MemberCredit.sum('amountCents', { where: { coopId, membershipId }, transaction: t }));
-  const unallocated = async () => cents(await Payment.sum('unallocatedCents', { where: { coopId, membershipId }, transaction: t }));
+  const credit = async () =>
+    cents(await MemberCredit.sum('amountCents', { where: { coopId, membershipId }, transaction: t }));
+  const unallocated = async () =>
+    cents(await Payment.sum('unallocatedCents', { where: { coopId, membershipId }, transaction: t }));
   const [outstandingCents, creditCents, unallocatedCents] = t
     ? [await outstanding(), await credit(), await unallocated()]
     : await Promise.all([outstanding(), credit(), unallocated()]);
@@ -202,7 +285,9 @@ export async function getPeriodOverview(coopId: number, period: string): Promise
   const [groups, closed, run] = await Promise.all([
     Invoice.findAll({
       attributes: [
-        'kind', 'status', 'emailStatus',
+        'kind',
+        'status',
+        'emailStatus',
         [fn('count', col('id')), 'n'],
         [fn('SUM', col('total_cents')), 'total'],
         [fn('SUM', col('paid_cents')), 'paid'],
@@ -212,7 +297,11 @@ export async function getPeriodOverview(coopId: number, period: string): Promise
       group: ['kind', 'status', 'emailStatus'],
       raw: true,
     }) as unknown as Promise<InvoiceGroup[]>,
-    BillingPeriod.findOne({ where: { coopId, period: periodDate, status: 'closed' }, attributes: ['closedAt'], raw: true }),
+    BillingPeriod.findOne({
+      where: { coopId, period: periodDate, status: 'closed' },
+      attributes: ['closedAt'],
+      raw: true,
+    }),
     latestRun(coopId, periodDate),
   ]);
   const counts = { draft: 0, issued: 0, partlyPaid: 0, paid: 0, void: 0, creditNotes: 0 };
@@ -246,10 +335,18 @@ export async function getPeriodOverview(coopId: number, period: string): Promise
 }
 
 /** Months that have invoices, runs or a close, newest first (the billing overview). */
-export async function listPeriods(coopId: number): Promise<{ period: string; closed: boolean; invoices: number; drafts: number; outstandingCents: number }[]> {
+export async function listPeriods(
+  coopId: number,
+): Promise<{ period: string; closed: boolean; invoices: number; drafts: number; outstandingCents: number }[]> {
   const [groups, runs, periods] = await Promise.all([
     Invoice.findAll({
-      attributes: ['period', 'kind', 'status', [fn('count', col('id')), 'n'], [fn('SUM', literal(OUTSTANDING_SQL)), 'outstanding']],
+      attributes: [
+        'period',
+        'kind',
+        'status',
+        [fn('count', col('id')), 'n'],
+        [fn('SUM', literal(OUTSTANDING_SQL)), 'outstanding'],
+      ],
       where: { coopId },
       group: ['period', 'kind', 'status'],
       raw: true,
@@ -257,7 +354,10 @@ export async function listPeriods(coopId: number): Promise<{ period: string; clo
     BillingRun.findAll({ attributes: ['period'], where: { coopId }, group: ['period'], raw: true }),
     BillingPeriod.findAll({ attributes: ['period', 'status'], where: { coopId }, raw: true }),
   ]);
-  const months = new Map<string, { period: string; closed: boolean; invoices: number; drafts: number; outstandingCents: number }>();
+  const months = new Map<
+    string,
+    { period: string; closed: boolean; invoices: number; drafts: number; outstandingCents: number }
+  >();
   const month = (date: string) => {
     const period = String(date).slice(0, 7);
     let m = months.get(period);
@@ -277,12 +377,17 @@ export async function listPeriods(coopId: number): Promise<{ period: string; clo
 }
 
 /** Members of the co-op for the treasurer's pickers (payments, adjustments). */
-export async function listMembersForBilling(coopId: number): Promise<{ id: number; name: string; email: string; status: string }[]> {
+export async function listMembersForBilling(
+  coopId: number,
+): Promise<{ id: number; name: string; email: string; status: string }[]> {
   const rows = await Membership.findAll({
     where: { coopId },
     attributes: ['id', 'status'],
     include: [{ model: User, as: 'user', attributes: ['name', 'email'] }],
-    order: [[fn('lower', col('user.name')), 'ASC'], ['id', 'ASC']],
+    order: [
+      [fn('lower', col('user.name')), 'ASC'],
+      ['id', 'ASC'],
+    ],
   });
   return rows.map((m) => ({ id: m.id, name: m.user!.name, email: m.user!.email, status: m.status }));
 }

@@ -21,10 +21,15 @@ export async function isPeriodClosed(coopId: number, periodDate: string, t?: Tra
 /** The 409 every closed-month refusal answers with (services and the database triggers agree). */
 export function periodClosedError(periodDate: string): HttpError {
   const label = periodLabel(periodDate.slice(0, 7));
-  return new HttpError(409, `${label} is closed: its draws, invoices and payments can no longer change. Record the correction as an adjustment in an open month.`, undefined, {
-    code: 'period-closed',
-    period: periodDate.slice(0, 7),
-  });
+  return new HttpError(
+    409,
+    `${label} is closed: its draws, invoices and payments can no longer change. Record the correction as an adjustment in an open month.`,
+    undefined,
+    {
+      code: 'period-closed',
+      period: periodDate.slice(0, 7),
+    },
+  );
 }
 
 /** Refuses (409) when the month is closed. */
@@ -33,6 +38,10 @@ export async function assertPeriodOpen(coopId: number, periodDate: string, t?: T
 }
 
 /** The month's first and next-month's first instants in the co-op's time zone. */
-export async function periodBounds(periodDate: string, timeZone: string, t?: Transaction): Promise<{ start: Date; end: Date }> {
+export async function periodBounds(
+  periodDate: string,
+  timeZone: string,
+  t?: Transaction,
+): Promise<{ start: Date; end: Date }> {
   return monthInstants(periodDate, timeZone, t);
 }

@@ -51,13 +51,29 @@ async function composeInvoiceEmail(coopId: number, invoiceId: number): Promise<O
 export async function queueInvoiceEmail(actor: Actor, invoiceId: number): Promise<{ emailStatus: 'queued' }> {
   const coopId = actor.coop.id;
   return inTransaction(async (transaction) => {
-    const inv = await Invoice.findOne({ attributes: ['id', 'emailStatus'], where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' } }, lock: transaction.LOCK.UPDATE, transaction });
+    const inv = await Invoice.findOne({
+      attributes: ['id', 'emailStatus'],
+      where: { id: invoiceId, coopId, status: { [Op.ne]: 'draft' } },
+      lock: transaction.LOCK.UPDATE,
+      transaction,
+    });
     if (!inv) throw notFound('That invoice is not in this co-op, or it is still a draft.');
     const before = inv.emailStatus;
     if (before === 'sending') throw conflict('This e-mail is being sent right now. Wait a moment and look again.');
     if (before !== 'queued') await inv.update({ emailStatus: 'queued' }, { transaction });
     await enqueueInvoiceMails(coopId, [invoiceId], transaction, before !== 'queued');
-    await audit({ coopId, actorUserId: actor.user.id, action: 'invoice.email', entityType: 'invoice', entityId: invoiceId, before: { emailStatus: before }, after: { emailStatus: 'queued' } }, transaction);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'invoice.email',
+        entityType: 'invoice',
+        entityId: invoiceId,
+        before: { emailStatus: before },
+        after: { emailStatus: 'queued' },
+      },
+      transaction,
+    );
     return { emailStatus: 'queued' as const };
   });
 }
@@ -83,15 +99,28 @@ export async function deliverInvoiceEmailJob(coopId: number, invoiceId: number, 
     coopId,
     jobRef,
     mail,
-    claim: async (transaction) => (await Invoice.update({ emailStatus: 'sending', emailAttempts: ATTEMPT }, { where: waiting, transaction }))[0] > 0,
-    sent: (transaction) => Invoice.update({ emailStatus: 'sent', emailedAt: new Date() }, { where: { id: invoiceId, coopId, emailStatus: 'sending' }, transaction }),
-    unsent: (transaction) => Invoice.update({ emailStatus: 'queued' }, { where: { id: invoiceId, coopId, emailStatus: 'sending' }, transaction }),
+    claim: async (transaction) =>
+      (await Invoice.update({ emailStatus: 'sending', emailAttempts: ATTEMPT }, { where: waiting, transaction }))[0] >
+      0,
+    sent: (transaction) =>
+      Invoice.update(
+        { emailStatus: 'sent', emailedAt: new Date() },
+        { where: { id: invoiceId, coopId, emailStatus: 'sending' }, transaction },
+      ),
+    unsent: (transaction) =>
+      Invoice.update(
+        { emailStatus: 'queued' },
+        { where: { id: invoiceId, coopId, emailStatus: 'sending' }, transaction },
+      ),
   });
 }
 
 /** The dead letter of an invoice's mail job: every try failed. */
 export async function invoiceEmailGaveUp(coopId: number, invoiceId: number): Promise<void> {
-  await Invoice.update({ emailStatus: 'failed' }, { where: { id: invoiceId, coopId, emailStatus: ['queued', 'sending'] } });
+  await Invoice.update(
+    { emailStatus: 'failed' },
+    { where: { id: invoiceId, coopId, emailStatus: ['queued', 'sending'] } },
+  );
 }
 
 /**
@@ -101,8 +130,16 @@ export async function invoiceEmailGaveUp(coopId: number, invoiceId: number): Pro
  * @returns how many jobs were queued
  */
 export async function sendQueuedInvoiceEmails(coopId: number): Promise<number> {
-  const rows = await Invoice.findAll({ where: { coopId, emailStatus: 'queued' }, attributes: ['id'], order: [['number', 'ASC']], raw: true });
-  await enqueueInvoiceMails(coopId, rows.map((r) => r.id));
+  const rows = await Invoice.findAll({
+    where: { coopId, emailStatus: 'queued' },
+    attributes: ['id'],
+    order: [['number', 'ASC']],
+    raw: true,
+  });
+  await enqueueInvoiceMails(
+    coopId,
+    rows.map((r) => r.id),
+  );
   return rows.length;
 }
 
@@ -110,9 +147,15 @@ export async function sendQueuedInvoiceEmails(coopId: number): Promise<number> {
 export async function resendMonthEmails(coopId: number, periodDate: string): Promise<number> {
   const [, rows] = await Invoice.update(
     { emailStatus: 'queued' },
-    { where: { coopId, period: periodDate, status: { [Op.ne]: 'draft' }, emailStatus: ['not-sent', 'failed'] }, returning: ['id'] },
+    {
+      where: { coopId, period: periodDate, status: { [Op.ne]: 'draft' }, emailStatus: ['not-sent', 'failed'] },
+      returning: ['id'],
+    },
   );
   // A web process that dies before this leaves them "queued": housekeeping queues their jobs.
-  await enqueueInvoiceMails(coopId, rows.map((r) => r.id));
+  await enqueueInvoiceMails(
+    coopId,
+    rows.map((r) => r.id),
+  );
   return rows.length;
 }

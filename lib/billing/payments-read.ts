@@ -35,11 +35,29 @@ export function refundableCents(p: { unallocated: number; credited: number; memb
 
 /** What a payment row gives its DTO. */
 const PAYMENT_ATTRIBUTES: (keyof InferAttributes<Payment>)[] = [
-  'id', 'method', 'membershipId', 'invoiceId', 'amountCents', 'appliedCents', 'creditedCents', 'unallocatedCents', 'refundedCents', 'receivedOn', 'period', 'reference', 'note',
+  'id',
+  'method',
+  'membershipId',
+  'invoiceId',
+  'amountCents',
+  'appliedCents',
+  'creditedCents',
+  'unallocatedCents',
+  'refundedCents',
+  'receivedOn',
+  'period',
+  'reference',
+  'note',
 ];
 /** The payer's name and the invoice paid, joined to each payment in the same query. */
 const PAYMENT_INCLUDE = [
-  { model: Membership, as: 'membership', attributes: ['id'], required: true, include: [{ model: User, as: 'user', attributes: ['name'], required: true }] },
+  {
+    model: Membership,
+    as: 'membership',
+    attributes: ['id'],
+    required: true,
+    include: [{ model: User, as: 'user', attributes: ['name'], required: true }],
+  },
   { model: Invoice, as: 'invoice', attributes: ['id', 'number', 'kind', 'period'], required: false },
 ];
 const PAYMENT_ORDER: [string, string][] = [
@@ -58,27 +76,42 @@ async function toPaymentDTOs(coopId: number, rows: Payment[], t?: Transaction): 
   const members = [...new Set(rows.map((p) => p.membershipId))];
   const periods = [...new Set(rows.map((p) => p.period))];
   const [refunds, credits, closed] = await readTogether(t, [
-    () => Refund.findAll({
-      attributes: ['id', 'paymentId', 'amountCents', 'status', 'reason', 'refundedOn', 'failureMessage'],
-      where: { coopId, paymentId: ids },
-      order: [['id', 'ASC']],
-      raw: true,
-      transaction: t,
-    }),
-    () => MemberCredit.findAll({
-      attributes: ['membershipId', [fn('SUM', col('amount_cents')), 'balance']],
-      where: { coopId, membershipId: members },
-      group: ['membership_id'],
-      raw: true,
-      transaction: t,
-    }) as unknown as Promise<{ membershipId: number; balance: string }[]>,
-    () => BillingPeriod.findAll({ attributes: ['period'], where: { coopId, period: periods, status: 'closed' }, raw: true, transaction: t }),
+    () =>
+      Refund.findAll({
+        attributes: ['id', 'paymentId', 'amountCents', 'status', 'reason', 'refundedOn', 'failureMessage'],
+        where: { coopId, paymentId: ids },
+        order: [['id', 'ASC']],
+        raw: true,
+        transaction: t,
+      }),
+    () =>
+      MemberCredit.findAll({
+        attributes: ['membershipId', [fn('SUM', col('amount_cents')), 'balance']],
+        where: { coopId, membershipId: members },
+        group: ['membership_id'],
+        raw: true,
+        transaction: t,
+      }) as unknown as Promise<{ membershipId: number; balance: string }[]>,
+    () =>
+      BillingPeriod.findAll({
+        attributes: ['period'],
+        where: { coopId, period: periods, status: 'closed' },
+        raw: true,
+        transaction: t,
+      }),
   ]);
   const creditOf = new Map(credits.map((c) => [c.membershipId, cents(c.balance)]));
   const refundsOf = new Map<number, PaymentDTO['refunds']>();
   for (const r of refunds) {
     const list = refundsOf.get(r.paymentId) ?? [];
-    list.push({ id: r.id, amountCents: cents(r.amountCents), status: r.status, reason: r.reason, refundedOn: r.refundedOn, failureMessage: r.failureMessage });
+    list.push({
+      id: r.id,
+      amountCents: cents(r.amountCents),
+      status: r.status,
+      reason: r.reason,
+      refundedOn: r.refundedOn,
+      failureMessage: r.failureMessage,
+    });
     refundsOf.set(r.paymentId, list);
   }
   const closedPeriods = new Set(closed.map((c) => c.period));
@@ -112,7 +145,13 @@ async function toPaymentDTOs(coopId: number, rows: Payment[], t?: Transaction): 
 
 /** Payments of the co-op matching a condition on their attributes, newest first. */
 export async function findPayments(coopId: number, where: PaymentWhere, t?: Transaction): Promise<PaymentDTO[]> {
-  const rows = await Payment.findAll({ attributes: PAYMENT_ATTRIBUTES, where: { [Op.and]: [{ coopId }, where] }, include: PAYMENT_INCLUDE, order: PAYMENT_ORDER, transaction: t });
+  const rows = await Payment.findAll({
+    attributes: PAYMENT_ATTRIBUTES,
+    where: { [Op.and]: [{ coopId }, where] },
+    include: PAYMENT_INCLUDE,
+    order: PAYMENT_ORDER,
+    transaction: t,
+  });
   return toPaymentDTOs(coopId, rows, t);
 }
 
@@ -128,14 +167,24 @@ export async function findPayment(coopId: number, id: number, t?: Transaction): 
 }
 
 /** Payments received in a month (or all), optionally only unmatched ones, paged. */
-export async function listPayments(coopId: number, f: { period?: string; unmatched?: boolean; page: number; pageSize: number }): Promise<PageOf<PaymentDTO>> {
+export async function listPayments(
+  coopId: number,
+  f: { period?: string; unmatched?: boolean; page: number; pageSize: number },
+): Promise<PageOf<PaymentDTO>> {
   const where: PaymentWhere = {
     coopId,
     ...(f.period ? { period: periodToDate(f.period) } : {}),
     ...(f.unmatched ? { unallocatedCents: { [Op.gt]: 0 } } : {}),
   };
   const [rows, total] = await Promise.all([
-    Payment.findAll({ attributes: PAYMENT_ATTRIBUTES, where, include: PAYMENT_INCLUDE, order: PAYMENT_ORDER, limit: f.pageSize, offset: (f.page - 1) * f.pageSize }),
+    Payment.findAll({
+      attributes: PAYMENT_ATTRIBUTES,
+      where,
+      include: PAYMENT_INCLUDE,
+      order: PAYMENT_ORDER,
+      limit: f.pageSize,
+      offset: (f.page - 1) * f.pageSize,
+    }),
     Payment.count({ where }),
   ]);
   return { rows: await toPaymentDTOs(coopId, rows), total, page: f.page, pageSize: f.pageSize };
@@ -148,11 +197,25 @@ export async function listPayments(coopId: number, f: { period?: string; unmatch
  * Inside the caller's transaction, under the co-op's billing lock.
  */
 export async function refreshInvoicePaid(t: Transaction, coopId: number, invoiceId: number): Promise<void> {
-  const inv = await Invoice.findOne({ attributes: ['id', 'kind', 'status', 'totalCents', 'paidCents'], where: { id: invoiceId, coopId }, lock: t.LOCK.UPDATE, raw: true, transaction: t });
+  const inv = await Invoice.findOne({
+    attributes: ['id', 'kind', 'status', 'totalCents', 'paidCents'],
+    where: { id: invoiceId, coopId },
+    lock: t.LOCK.UPDATE,
+    raw: true,
+    transaction: t,
+  });
   const paidSum = await Payment.sum('appliedCents', { where: { invoiceId, coopId }, transaction: t });
-  if (!inv || inv.kind !== 'invoice' || !(inv.status === 'issued' || inv.status === 'partly-paid' || inv.status === 'paid')) return;
+  if (
+    !inv ||
+    inv.kind !== 'invoice' ||
+    !(inv.status === 'issued' || inv.status === 'partly-paid' || inv.status === 'paid')
+  )
+    return;
   const paid = paidSum ?? 0;
   const status = paid >= cents(inv.totalCents) ? 'paid' : paid > 0 ? 'partly-paid' : 'issued';
   if (cents(inv.paidCents) === paid && inv.status === status) return;
-  await Invoice.update({ paidCents: String(paid), status }, { where: { id: invoiceId, coopId, kind: 'invoice', status: ['issued', 'partly-paid', 'paid'] }, transaction: t });
+  await Invoice.update(
+    { paidCents: String(paid), status },
+    { where: { id: invoiceId, coopId, kind: 'invoice', status: ['issued', 'partly-paid', 'paid'] }, transaction: t },
+  );
 }

@@ -18,13 +18,35 @@ import type { PaymentDTO } from './types';
 /** What the money paths read of a payment they hold locked. */
 type LockedPayment = Pick<
   InferAttributes<Payment>,
-  'id' | 'membershipId' | 'invoiceId' | 'method' | 'amountCents' | 'appliedCents' | 'creditedCents' | 'unallocatedCents' | 'refundedCents' | 'period' | 'stripeChargeId'
+  | 'id'
+  | 'membershipId'
+  | 'invoiceId'
+  | 'method'
+  | 'amountCents'
+  | 'appliedCents'
+  | 'creditedCents'
+  | 'unallocatedCents'
+  | 'refundedCents'
+  | 'period'
+  | 'stripeChargeId'
 >;
 
 /** Reads a payment of the co-op and locks its row until the transaction ends (404 when not theirs). */
 export async function lockPayment(t: Transaction, coopId: number, id: number): Promise<LockedPayment> {
   const p = await Payment.findOne({
-    attributes: ['id', 'membershipId', 'invoiceId', 'method', 'amountCents', 'appliedCents', 'creditedCents', 'unallocatedCents', 'refundedCents', 'period', 'stripeChargeId'],
+    attributes: [
+      'id',
+      'membershipId',
+      'invoiceId',
+      'method',
+      'amountCents',
+      'appliedCents',
+      'creditedCents',
+      'unallocatedCents',
+      'refundedCents',
+      'period',
+      'stripeChargeId',
+    ],
     where: { id, coopId },
     lock: t.LOCK.UPDATE,
     raw: true,
@@ -40,7 +62,13 @@ export async function lockPayment(t: Transaction, coopId: number, id: number): P
  * the invoice is no longer open (paid meanwhile, voided) everything goes to credit. Inside the
  * caller's transaction, under the co-op's billing lock.
  */
-export async function allocatePayment(t: Transaction, coopId: number, paymentId: number, invoiceId: number | null, userId: number | null): Promise<{ appliedCents: number; creditedCents: number }> {
+export async function allocatePayment(
+  t: Transaction,
+  coopId: number,
+  paymentId: number,
+  invoiceId: number | null,
+  userId: number | null,
+): Promise<{ appliedCents: number; creditedCents: number }> {
   const p = await lockPayment(t, coopId, paymentId);
   const money = cents(p.unallocatedCents);
   if (money <= 0) return { appliedCents: 0, creditedCents: 0 };
@@ -71,7 +99,15 @@ export async function allocatePayment(t: Transaction, coopId: number, paymentId:
   if (invoiceId !== null && applied > 0) await refreshInvoicePaid(t, coopId, invoiceId);
   if (credited > 0) {
     await MemberCredit.create(
-      { coopId, membershipId: p.membershipId, amountCents: credited, kind: 'overpayment', paymentId, invoiceId, createdByUserId: userId },
+      {
+        coopId,
+        membershipId: p.membershipId,
+        amountCents: credited,
+        kind: 'overpayment',
+        paymentId,
+        invoiceId,
+        createdByUserId: userId,
+      },
       { transaction: t },
     );
   }
@@ -79,13 +115,29 @@ export async function allocatePayment(t: Transaction, coopId: number, paymentId:
 }
 
 /** Checks that an invoice of the member can take a payment (422 otherwise). */
-async function assertPayableInvoice(t: Transaction, coopId: number, membershipId: number, invoiceId: number): Promise<void> {
-  const inv = await Invoice.findOne({ attributes: ['status', 'kind', 'membershipId'], where: { id: invoiceId, coopId }, raw: true, transaction: t });
+async function assertPayableInvoice(
+  t: Transaction,
+  coopId: number,
+  membershipId: number,
+  invoiceId: number,
+): Promise<void> {
+  const inv = await Invoice.findOne({
+    attributes: ['status', 'kind', 'membershipId'],
+    where: { id: invoiceId, coopId },
+    raw: true,
+    transaction: t,
+  });
   if (!inv || inv.kind !== 'invoice' || inv.status === 'draft' || inv.membershipId !== membershipId) {
-    throw new HttpError(422, 'Some fields need attention.', { invoiceId: ['Choose an issued invoice of this member.'] });
+    throw new HttpError(422, 'Some fields need attention.', {
+      invoiceId: ['Choose an issued invoice of this member.'],
+    });
   }
-  if (inv.status === 'paid') throw new HttpError(422, 'Some fields need attention.', { invoiceId: ['That invoice is already paid; leave the invoice empty to hold the money as credit.'] });
-  if (inv.status === 'void') throw new HttpError(422, 'Some fields need attention.', { invoiceId: ['That invoice is void.'] });
+  if (inv.status === 'paid')
+    throw new HttpError(422, 'Some fields need attention.', {
+      invoiceId: ['That invoice is already paid; leave the invoice empty to hold the money as credit.'],
+    });
+  if (inv.status === 'void')
+    throw new HttpError(422, 'Some fields need attention.', { invoiceId: ['That invoice is void.'] });
 }
 
 /**
@@ -95,10 +147,21 @@ async function assertPayableInvoice(t: Transaction, coopId: number, membershipId
  */
 export async function recordPayment(
   actor: Actor,
-  input: { memberId: number; invoiceId?: number | null; method: 'cash' | 'cheque'; amountCents: number; receivedOn: string; reference?: string | null; note?: string | null },
+  input: {
+    memberId: number;
+    invoiceId?: number | null;
+    method: 'cash' | 'cheque';
+    amountCents: number;
+    receivedOn: string;
+    reference?: string | null;
+    note?: string | null;
+  },
 ): Promise<PaymentDTO> {
   const coopId = actor.coop.id;
-  if (input.receivedOn > todayIn(actor.coop.timezone)) throw new HttpError(422, 'Some fields need attention.', { receivedOn: ['The day received cannot be in the future.'] });
+  if (input.receivedOn > todayIn(actor.coop.timezone))
+    throw new HttpError(422, 'Some fields need attention.', {
+      receivedOn: ['The day received cannot be in the future.'],
+    });
   const id = await inTransaction(async (t) => {
     await lockCoopBilling(t, coopId);
     await assertMember(coopId, input.memberId, t);
@@ -121,10 +184,25 @@ export async function recordPayment(
       { transaction: t },
     );
     const alloc = input.invoiceId ? await allocatePayment(t, coopId, p.id, input.invoiceId, actor.user.id) : null;
-    await audit({
-      coopId, actorUserId: actor.user.id, action: 'payment.record', entityType: 'payment', entityId: p.id,
-      after: { memberId: input.memberId, method: input.method, amountCents: input.amountCents, receivedOn: input.receivedOn, reference: input.reference ?? null, invoiceId: input.invoiceId ?? null, ...alloc },
-    }, t);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'payment.record',
+        entityType: 'payment',
+        entityId: p.id,
+        after: {
+          memberId: input.memberId,
+          method: input.method,
+          amountCents: input.amountCents,
+          receivedOn: input.receivedOn,
+          reference: input.reference ?? null,
+          invoiceId: input.invoiceId ?? null,
+          ...alloc,
+        },
+      },
+      t,
+    );
     return p.id;
   });
   return (await findPayment(coopId, id))!;
@@ -140,7 +218,18 @@ export async function matchPayment(actor: Actor, paymentId: number, invoiceId: n
     if (cents(p.unallocatedCents) <= 0) throw conflict('This payment is already matched.');
     if (invoiceId !== null) await assertPayableInvoice(t, coopId, p.membershipId, invoiceId);
     const alloc = await allocatePayment(t, coopId, paymentId, invoiceId, actor.user.id);
-    await audit({ coopId, actorUserId: actor.user.id, action: 'payment.match', entityType: 'payment', entityId: paymentId, before: { invoiceId: p.invoiceId, unallocatedCents: cents(p.unallocatedCents) }, after: { invoiceId, ...alloc } }, t);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'payment.match',
+        entityType: 'payment',
+        entityId: paymentId,
+        before: { invoiceId: p.invoiceId, unallocatedCents: cents(p.unallocatedCents) },
+        after: { invoiceId, ...alloc },
+      },
+      t,
+    );
   });
   return (await findPayment(coopId, paymentId))!;
 }

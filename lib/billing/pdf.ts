@@ -38,15 +38,33 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
   const width = right - left;
 
   if (inv.status === 'draft') {
-    doc.save().font('bold').fontSize(90).fillColor('#e7e5e4').rotate(-30, { origin: [300, 420] }).text('DRAFT', 120, 380, { lineBreak: false }).restore();
+    doc
+      .save()
+      .font('bold')
+      .fontSize(90)
+      .fillColor('#e7e5e4')
+      .rotate(-30, { origin: [300, 420] })
+      .text('DRAFT', 120, 380, { lineBreak: false })
+      .restore();
     doc.fillColor('#1c1917');
   }
 
   // Header: co-op and document
-  doc.font('bold').fontSize(18).fillColor('#16322a').text(coop.name, left, 50, { width: width * 0.6 });
-  doc.font('regular').fontSize(9).fillColor('#57534e').text(`Community biodiesel co-op · ${appUrl(`/c/${coop.slug}`)}`, { width: width * 0.6 });
+  doc
+    .font('bold')
+    .fontSize(18)
+    .fillColor('#16322a')
+    .text(coop.name, left, 50, { width: width * 0.6 });
+  doc
+    .font('regular')
+    .fontSize(9)
+    .fillColor('#57534e')
+    .text(`Community biodiesel co-op · ${appUrl(`/c/${coop.slug}`)}`, { width: width * 0.6 });
   doc.font('bold').fontSize(16).fillColor('#1c1917').text(title, left, 50, { width, align: 'right' });
-  doc.font('regular').fontSize(10).text(inv.label ?? 'DRAFT — not yet issued', { width, align: 'right' });
+  doc
+    .font('regular')
+    .fontSize(10)
+    .text(inv.label ?? 'DRAFT — not yet issued', { width, align: 'right' });
   doc.text(`Status: ${INVOICE_STATUS_LABEL[inv.status] ?? inv.status}`, { width, align: 'right' });
 
   doc.moveDown(2);
@@ -80,7 +98,10 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
   header();
   const rateUnit = coop.units === 'us' ? '/gal' : '/L';
   for (const l of inv.lines) {
-    const rate = l.unitPriceCentsPerGallon === null ? '' : `${formatRateCents(coop.units === 'us' ? l.unitPriceCentsPerGallon : perGallonToPerLiter(l.unitPriceCentsPerGallon), coop.currency)}${rateUnit}`;
+    const rate =
+      l.unitPriceCentsPerGallon === null
+        ? ''
+        : `${formatRateCents(coop.units === 'us' ? l.unitPriceCentsPerGallon : perGallonToPerLiter(l.unitPriceCentsPerGallon), coop.currency)}${rateUnit}`;
     const h = Math.max(12, doc.heightOfString(l.description, { width: 215 }));
     if (y + h > doc.page.height - 150) {
       doc.addPage();
@@ -90,7 +111,10 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
     doc.fontSize(9);
     doc.text(l.occurredAt ? formatDate(l.occurredAt, coop.timezone) : '', cols.date, y, { width: 70 });
     doc.text(l.description, cols.desc, y, { width: 215 });
-    doc.text(l.quantityLiters === null ? '' : formatVolume(l.quantityLiters, coop.units, 2), cols.qty, y, { width: 75, align: 'right' });
+    doc.text(l.quantityLiters === null ? '' : formatVolume(l.quantityLiters, coop.units, 2), cols.qty, y, {
+      width: 75,
+      align: 'right',
+    });
     doc.text(rate, cols.rate, y, { width: 65, align: 'right' });
     doc.text(money(l.amountCents), cols.amount, y, { width: amountW, align: 'right' });
     y += h + 4;
@@ -113,14 +137,28 @@ export async function renderInvoicePdf(inv: InvoiceDetail, coop: PdfCoop): Promi
 
   // How to pay
   y += 12;
-  doc.font('bold').fontSize(10).fillColor('#16322a').text(isCredit ? 'About this credit note' : 'How to pay', left, y);
+  doc
+    .font('bold')
+    .fontSize(10)
+    .fillColor('#16322a')
+    .text(isCredit ? 'About this credit note' : 'How to pay', left, y);
   doc.font('regular').fontSize(9).fillColor('#1c1917');
   if (isCredit) {
-    doc.text('This credit note cancels the invoice named above. Anything you had paid on it is held as credit on your account and applied to your next invoice, or refunded on request.', { width });
+    doc.text(
+      'This credit note cancels the invoice named above. Anything you had paid on it is held as credit on your account and applied to your next invoice, or refunded on request.',
+      { width },
+    );
   } else {
-    doc.text(`By card: sign in at ${appUrl(`/c/${coop.slug}/invoices/${inv.id}`)} and choose “Pay by card”.`, { width });
-    doc.text(`By cash or cheque: hand it to the co-op's treasurer, or make the cheque payable to ${coop.name}, and write ${inv.label ?? 'the invoice number'} on it.`, { width });
-    doc.text('Credit on your account (for example from an earlier overpayment) has already been deducted above.', { width });
+    doc.text(`By card: sign in at ${appUrl(`/c/${coop.slug}/invoices/${inv.id}`)} and choose “Pay by card”.`, {
+      width,
+    });
+    doc.text(
+      `By cash or cheque: hand it to the co-op's treasurer, or make the cheque payable to ${coop.name}, and write ${inv.label ?? 'the invoice number'} on it.`,
+      { width },
+    );
+    doc.text('Credit on your account (for example from an earlier overpayment) has already been deducted above.', {
+      width,
+    });
   }
   doc.moveDown();
   doc.fontSize(8).fillColor('#57534e').text(`Amounts in ${coop.currency}. ${ROUNDING_NOTE}`, { width });

@@ -32,7 +32,9 @@ function dateFormat(locale: string, options: Intl.DateTimeFormatOptions): Intl.D
 /** 'November 2026'. */
 export function periodLabel(period: string): string {
   const [y, m] = period.split('-').map(Number) as [number, number];
-  return dateFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(Date.UTC(y, m - 1, 1)));
+  return dateFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(
+    new Date(Date.UTC(y, m - 1, 1)),
+  );
 }
 
 /** The month after (or before, with a negative step). */
@@ -62,4 +64,3 @@ export function invoiceLabel(kind: 'invoice' | 'credit-note', number: number | n
   if (number === null) return null;
   return `${kind === 'credit-note' ? 'CN' : 'INV'}-${String(number).padStart(6, '0')}`;
 }
-

@@ -16,7 +16,11 @@ const BILLING_LOCK_NAMESPACE = 73_051;
  * a model call cannot say it.
  */
 export async function advisoryLockCoopBilling(t: Transaction, coopId: number): Promise<void> {
-  await sequelize.query('SELECT pg_advisory_xact_lock($1::int, $2::int)', { bind: [BILLING_LOCK_NAMESPACE, coopId], type: QueryTypes.SELECT, transaction: t });
+  await sequelize.query('SELECT pg_advisory_xact_lock($1::int, $2::int)', {
+    bind: [BILLING_LOCK_NAMESPACE, coopId],
+    type: QueryTypes.SELECT,
+    transaction: t,
+  });
 }
 
 /**
@@ -24,7 +28,11 @@ export async function advisoryLockCoopBilling(t: Transaction, coopId: number): P
  * rules compute them (the same rules the closed-month triggers use).
  * @param periodDate 'YYYY-MM-01'
  */
-export async function monthInstants(periodDate: string, timeZone: string, t?: Transaction): Promise<{ start: Date; end: Date }> {
+export async function monthInstants(
+  periodDate: string,
+  timeZone: string,
+  t?: Transaction,
+): Promise<{ start: Date; end: Date }> {
   const row = await sequelize.query<{ start: Date; end: Date }>(
     `SELECT ($1::date)::timestamp AT TIME ZONE $2 AS start, (($1::date + interval '1 month')::timestamp) AT TIME ZONE $2 AS "end"`,
     { bind: [periodDate, timeZone], type: QueryTypes.SELECT, plain: true, transaction: t },
@@ -72,7 +80,11 @@ export interface PeriodInvoiceTotals {
 }
 
 /** Counts and sums a month's invoices in one pass over its rows. */
-export async function periodInvoiceTotals(coopId: number, periodDate: string, t?: Transaction): Promise<PeriodInvoiceTotals> {
+export async function periodInvoiceTotals(
+  coopId: number,
+  periodDate: string,
+  t?: Transaction,
+): Promise<PeriodInvoiceTotals> {
   const [r] = await sequelize.query<Record<keyof PeriodInvoiceTotals, string>>(
     `SELECT
        count(*) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')) AS "issued",
@@ -98,7 +110,10 @@ export async function periodInvoiceTotals(coopId: number, periodDate: string, t?
   };
 }
 
-type PaymentCents = Pick<Payment, 'amountCents' | 'appliedCents' | 'creditedCents' | 'unallocatedCents' | 'refundedCents'>;
+type PaymentCents = Pick<
+  Payment,
+  'amountCents' | 'appliedCents' | 'creditedCents' | 'unallocatedCents' | 'refundedCents'
+>;
 
 /** Money received in a month and where it went (cents). */
 export interface PeriodPaymentTotals {
@@ -113,7 +128,11 @@ export interface PeriodPaymentTotals {
 }
 
 /** Sums the payments received in a month, by method and by where the money went. */
-export async function periodPaymentTotals(coopId: number, periodDate: string, t?: Transaction): Promise<PeriodPaymentTotals> {
+export async function periodPaymentTotals(
+  coopId: number,
+  periodDate: string,
+  t?: Transaction,
+): Promise<PeriodPaymentTotals> {
   const [r] = await sequelize.query<Record<keyof PaymentCents | 'card' | 'cash' | 'cheque' | 'elsewhere', string>>(
     `SELECT SUM(p.amount_cents) AS "amountCents",
        SUM(p.amount_cents) FILTER (WHERE p.method = 'card') AS "card",
@@ -141,7 +160,12 @@ export async function periodPaymentTotals(coopId: number, periodDate: string, t?
  * Draws that happened between two instants and are on no issued invoice (no unreleased line of a
  * non-draft invoice names them): how many, and their total (cents).
  */
-export async function unbilledDrawTotals(coopId: number, start: Date, end: Date, t?: Transaction): Promise<{ count: number; totalCents: number }> {
+export async function unbilledDrawTotals(
+  coopId: number,
+  start: Date,
+  end: Date,
+  t?: Transaction,
+): Promise<{ count: number; totalCents: number }> {
   const [r] = await sequelize.query<{ count: string; totalCents: Draw['totalCents'] | null }>(
     `SELECT count(*) AS "count", SUM(d.total_cents) AS "totalCents" FROM draws d
      WHERE d.coop_id = $1 AND d.occurred_at >= $2::timestamptz AND d.occurred_at < $3::timestamptz

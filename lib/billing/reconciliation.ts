@@ -1,5 +1,12 @@
 import 'server-only';
-import { Op, type AggregateOptions, type FindOptions, type InferAttributes, type Model, type Transaction } from 'sequelize';
+import {
+  Op,
+  type AggregateOptions,
+  type FindOptions,
+  type InferAttributes,
+  type Model,
+  type Transaction,
+} from 'sequelize';
 import type { z } from 'zod';
 import type { reconciliationCheckSchema, reconciliationSchema } from '@/lib/api/dto/billing';
 import { audit } from '@/lib/audit';
@@ -22,7 +29,8 @@ export type Reconciliation = z.infer<typeof reconciliationSchema>;
 const ALL_ROWS = Number.MAX_SAFE_INTEGER;
 
 /** `Model.sum` joins an `include` as findAll does, though its TypeScript options leave it out. */
-type SumOptions<M extends Model> = AggregateOptions<unknown, InferAttributes<M>> & Pick<FindOptions<InferAttributes<M>>, 'include'>;
+type SumOptions<M extends Model> = AggregateOptions<unknown, InferAttributes<M>> &
+  Pick<FindOptions<InferAttributes<M>>, 'include'>;
 
 /** The reconciliation without its invoice rows: what closing a month decides on. */
 type Books = Omit<Reconciliation, 'invoices'> & { invoices: Omit<Reconciliation['invoices'], 'rows'> };
@@ -37,43 +45,74 @@ async function readBooks(coopId: number, period: string, t?: Transaction): Promi
   // The lines of the month's issued invoices, and the payments applied to its invoices (any month's money).
   const issuedLinesOf: SumOptions<InvoiceLine> = {
     where: { coopId },
-    include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate, kind: 'invoice', status: { [Op.notIn]: ['draft', 'void'] } } }],
+    include: [
+      {
+        model: Invoice,
+        as: 'invoice',
+        attributes: [],
+        required: true,
+        where: { period: periodDate, kind: 'invoice', status: { [Op.notIn]: ['draft', 'void'] } },
+      },
+    ],
     transaction: t,
   };
   const appliedToInvoicesOf: SumOptions<Payment> = {
     where: { coopId },
-    include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate, status: { [Op.ne]: 'void' } } }],
+    include: [
+      {
+        model: Invoice,
+        as: 'invoice',
+        attributes: [],
+        required: true,
+        where: { period: periodDate, status: { [Op.ne]: 'void' } },
+      },
+    ],
     transaction: t,
   };
-  const [inv, pay, linesCents, appliedToMonthCents, unmatched, pendingAttempts, pendingRefunds, coop, closed, running] = await readTogether(t, [
-    () => periodInvoiceTotals(coopId, periodDate, t),
-    () => periodPaymentTotals(coopId, periodDate, t),
-    () => InvoiceLine.sum('amountCents', issuedLinesOf),
-    () => Payment.sum('appliedCents', appliedToInvoicesOf),
-    () => findPayments(coopId, { period: periodDate, unallocatedCents: { [Op.gt]: 0 } }, t),
-    () => PaymentAttempt.count({
-      where: { coopId, status: 'pending' },
-      include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate } }],
-      transaction: t,
-    }),
-    // A pending refund holds the month it gives money back from, and the month it was made in.
-    () => Refund.count({
-      where: {
-        coopId,
-        status: 'pending',
-        [Op.or]: [{ '$payment.period$': periodDate }, { refundedOn: { [Op.gte]: periodDate, [Op.lt]: nextPeriodDate } }],
-      },
-      include: [{ model: Payment, as: 'payment', attributes: [], required: true }],
-      transaction: t,
-    }),
-    () => Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, rejectOnEmpty: true, transaction: t }),
-    () => BillingPeriod.findOne({ attributes: ['closedAt', 'closedByUserId'], where: { coopId, period: periodDate, status: 'closed' }, raw: true, transaction: t }),
-    () => BillingRun.count({ where: { coopId, period: periodDate, status: 'running' }, transaction: t }),
-  ]);
+  const [inv, pay, linesCents, appliedToMonthCents, unmatched, pendingAttempts, pendingRefunds, coop, closed, running] =
+    await readTogether(t, [
+      () => periodInvoiceTotals(coopId, periodDate, t),
+      () => periodPaymentTotals(coopId, periodDate, t),
+      () => InvoiceLine.sum('amountCents', issuedLinesOf),
+      () => Payment.sum('appliedCents', appliedToInvoicesOf),
+      () => findPayments(coopId, { period: periodDate, unallocatedCents: { [Op.gt]: 0 } }, t),
+      () =>
+        PaymentAttempt.count({
+          where: { coopId, status: 'pending' },
+          include: [{ model: Invoice, as: 'invoice', attributes: [], required: true, where: { period: periodDate } }],
+          transaction: t,
+        }),
+      // A pending refund holds the month it gives money back from, and the month it was made in.
+      () =>
+        Refund.count({
+          where: {
+            coopId,
+            status: 'pending',
+            [Op.or]: [
+              { '$payment.period$': periodDate },
+              { refundedOn: { [Op.gte]: periodDate, [Op.lt]: nextPeriodDate } },
+            ],
+          },
+          include: [{ model: Payment, as: 'payment', attributes: [], required: true }],
+          transaction: t,
+        }),
+      () => Coop.findByPk(coopId, { attributes: ['timezone'], raw: true, rejectOnEmpty: true, transaction: t }),
+      () =>
+        BillingPeriod.findOne({
+          attributes: ['closedAt', 'closedByUserId'],
+          where: { coopId, period: periodDate, status: 'closed' },
+          raw: true,
+          transaction: t,
+        }),
+      () => BillingRun.count({ where: { coopId, period: periodDate, status: 'running' }, transaction: t }),
+    ]);
   const { start, end } = await periodBounds(periodDate, coop.timezone, t);
   const [unbilledDraws, closedBy] = await readTogether(t, [
     () => unbilledDrawTotals(coopId, start, end, t),
-    async () => (closed?.closedByUserId ? User.findByPk(closed.closedByUserId, { attributes: ['name'], raw: true, transaction: t }) : null),
+    async () =>
+      closed?.closedByUserId
+        ? User.findByPk(closed.closedByUserId, { attributes: ['name'], raw: true, transaction: t })
+        : null,
   ]);
 
   const monthOver = period < currentPeriod(coop.timezone);
@@ -81,22 +120,39 @@ async function readBooks(coopId: number, period: string, t?: Transaction): Promi
   const appliedToMonth = appliedToMonthCents ?? 0;
   const parts = pay.appliedCents + pay.creditedCents + pay.unallocatedCents + pay.refundedCents;
   const checks: ReconciliationCheck[] = [
-    { label: 'Invoice totals equal the sum of their lines', leftCents: inv.invoicedCents, rightCents: lines, ok: inv.invoicedCents === lines },
+    {
+      label: 'Invoice totals equal the sum of their lines',
+      leftCents: inv.invoicedCents,
+      rightCents: lines,
+      ok: inv.invoicedCents === lines,
+    },
     {
       label: 'Amount invoiced = paid + outstanding',
       leftCents: inv.invoicedPositiveCents,
       rightCents: inv.paidCents + inv.outstandingCents,
       ok: inv.invoicedPositiveCents === inv.paidCents + inv.outstandingCents,
     },
-    { label: 'Paid on these invoices = payments applied to them', leftCents: inv.paidCents, rightCents: appliedToMonth, ok: inv.paidCents === appliedToMonth },
-    { label: 'Money received = applied + held as credit + unmatched + refunded', leftCents: pay.receivedCents, rightCents: parts, ok: pay.receivedCents === parts },
+    {
+      label: 'Paid on these invoices = payments applied to them',
+      leftCents: inv.paidCents,
+      rightCents: appliedToMonth,
+      ok: inv.paidCents === appliedToMonth,
+    },
+    {
+      label: 'Money received = applied + held as credit + unmatched + refunded',
+      leftCents: pay.receivedCents,
+      rightCents: parts,
+      ok: pay.receivedCents === parts,
+    },
   ];
   const blockers: string[] = [];
   if (!monthOver) blockers.push(`${periodLabel(period)} is not over yet.`);
   if (running > 0) blockers.push('An invoicing run is still working on this month.');
   if (inv.drafts > 0) blockers.push(`${inv.drafts} draft invoice(s) are not issued yet.`);
-  if (unmatched.length > 0) blockers.push(`${unmatched.length} payment(s) received this month are not matched to an invoice or to credit.`);
-  if (pendingAttempts > 0) blockers.push(`${pendingAttempts} card payment(s) are still waiting for the payment service.`);
+  if (unmatched.length > 0)
+    blockers.push(`${unmatched.length} payment(s) received this month are not matched to an invoice or to credit.`);
+  if (pendingAttempts > 0)
+    blockers.push(`${pendingAttempts} card payment(s) are still waiting for the payment service.`);
   if (pendingRefunds > 0) blockers.push(`${pendingRefunds} card refund(s) are still waiting for the payment service.`);
   if (checks.some((c) => !c.ok)) blockers.push('A reconciliation check does not balance.');
 
@@ -159,7 +215,8 @@ export async function closePeriod(actor: Actor, period: string): Promise<Reconci
     await lockCoopBilling(t, coopId);
     const books = await readBooks(coopId, period, t);
     if (books.closed) throw conflict(`${periodLabel(period)} is already closed.`, { code: 'period-closed' });
-    if (books.blockers.length) throw conflict(`${periodLabel(period)} cannot be closed yet.`, { blockers: books.blockers });
+    if (books.blockers.length)
+      throw conflict(`${periodLabel(period)} cannot be closed yet.`, { blockers: books.blockers });
     const summary = {
       invoicedCents: books.invoices.invoicedCents,
       paidCents: books.invoices.paidCents,
@@ -170,10 +227,26 @@ export async function closePeriod(actor: Actor, period: string): Promise<Reconci
       unbilledDraws: books.unbilledDraws.count,
     };
     // The month's row may exist already (open); under the billing lock, update it or create it.
-    const closing = { status: 'closed' as const, closedAt: new Date(), closedByUserId: actor.user.id, summary: summary as BillingPeriod['summary'] };
+    const closing = {
+      status: 'closed' as const,
+      closedAt: new Date(),
+      closedByUserId: actor.user.id,
+      summary: summary as BillingPeriod['summary'],
+    };
     const [updated] = await BillingPeriod.update(closing, { where: { coopId, period: periodDate }, transaction: t });
     if (updated === 0) await BillingPeriod.create({ coopId, period: periodDate, ...closing }, { transaction: t });
-    await audit({ coopId, actorUserId: actor.user.id, action: 'billing.period.close', entityType: 'billing_period', entityId: period, before: { status: 'open' }, after: { status: 'closed', ...summary } }, t);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'billing.period.close',
+        entityType: 'billing_period',
+        entityId: period,
+        before: { status: 'open' },
+        after: { status: 'closed', ...summary },
+      },
+      t,
+    );
   });
   return getReconciliation(coopId, period);
 }

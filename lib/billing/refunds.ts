@@ -21,7 +21,17 @@ import type { PaymentDTO } from './types';
 // its answer.
 
 /** A refund as the provider paths need it: its money split, and the card charge it gives back from (null for cash and cheques). */
-type RefundToDrive = Pick<InferAttributes<Refund>, 'id' | 'paymentId' | 'membershipId' | 'amountCents' | 'fromUnallocatedCents' | 'fromCreditCents' | 'status' | 'idempotencyKey'> & {
+type RefundToDrive = Pick<
+  InferAttributes<Refund>,
+  | 'id'
+  | 'paymentId'
+  | 'membershipId'
+  | 'amountCents'
+  | 'fromUnallocatedCents'
+  | 'fromCreditCents'
+  | 'status'
+  | 'idempotencyKey'
+> & {
   stripeChargeId: string | null;
 };
 
@@ -33,19 +43,35 @@ async function reverseRefund(t: Transaction, coopId: number, r: RefundToDrive, m
   );
   if (n === 0) return;
   await Payment.increment(
-    { unallocatedCents: cents(r.fromUnallocatedCents), creditedCents: cents(r.fromCreditCents), refundedCents: -cents(r.amountCents) },
+    {
+      unallocatedCents: cents(r.fromUnallocatedCents),
+      creditedCents: cents(r.fromCreditCents),
+      refundedCents: -cents(r.amountCents),
+    },
     { where: { id: r.paymentId, coopId }, transaction: t },
   );
   if (cents(r.fromCreditCents) > 0) {
     await MemberCredit.create(
-      { coopId, membershipId: r.membershipId, amountCents: cents(r.fromCreditCents), kind: 'refund-reversed', paymentId: r.paymentId, refundId: r.id },
+      {
+        coopId,
+        membershipId: r.membershipId,
+        amountCents: cents(r.fromCreditCents),
+        kind: 'refund-reversed',
+        paymentId: r.paymentId,
+        refundId: r.id,
+      },
       { transaction: t },
     );
   }
 }
 
 /** Marks a card refund done (from the API answer or a webhook); idempotent. */
-export async function confirmRefund(t: Transaction, coopId: number, refundId: number, providerRefundId: string): Promise<'applied' | 'no-change'> {
+export async function confirmRefund(
+  t: Transaction,
+  coopId: number,
+  refundId: number,
+  providerRefundId: string,
+): Promise<'applied' | 'no-change'> {
   const [n] = await Refund.update(
     { status: 'succeeded', stripeRefundId: providerRefundId, completedAt: new Date() },
     { where: { id: refundId, coopId, status: 'pending' }, transaction: t },
@@ -56,13 +82,32 @@ export async function confirmRefund(t: Transaction, coopId: number, refundId: nu
 /** One refund of the co-op with the card charge of its payment (null when it is not theirs). */
 async function findRefundToDrive(coopId: number, refundId: number): Promise<RefundToDrive | null> {
   const r = await Refund.findOne({
-    attributes: ['id', 'paymentId', 'membershipId', 'amountCents', 'fromUnallocatedCents', 'fromCreditCents', 'status', 'idempotencyKey'],
+    attributes: [
+      'id',
+      'paymentId',
+      'membershipId',
+      'amountCents',
+      'fromUnallocatedCents',
+      'fromCreditCents',
+      'status',
+      'idempotencyKey',
+    ],
     where: { id: refundId, coopId },
     include: [{ model: Payment, as: 'payment', attributes: ['stripeChargeId'], required: true }],
   });
   if (!r) return null;
   const { id, paymentId, membershipId, amountCents, fromUnallocatedCents, fromCreditCents, status, idempotencyKey } = r;
-  return { id, paymentId, membershipId, amountCents, fromUnallocatedCents, fromCreditCents, status, idempotencyKey, stripeChargeId: r.payment?.stripeChargeId ?? null };
+  return {
+    id,
+    paymentId,
+    membershipId,
+    amountCents,
+    fromUnallocatedCents,
+    fromCreditCents,
+    status,
+    idempotencyKey,
+    stripeChargeId: r.payment?.stripeChargeId ?? null,
+  };
 }
 
 /** Sends a pending card refund to the provider (same idempotency key every time) and records the answer. */
@@ -84,13 +129,28 @@ async function driveCardRefund(coopId: number, r: RefundToDrive, actorUserId: nu
     await inTransaction(async (t) => {
       await lockCoopBilling(t, coopId);
       await reverseRefund(t, coopId, r, outcome.message);
-      await audit({ coopId, actorUserId, action: 'refund.failed', entityType: 'refund', entityId: r.id, after: { message: outcome.message } }, t);
+      await audit(
+        {
+          coopId,
+          actorUserId,
+          action: 'refund.failed',
+          entityType: 'refund',
+          entityId: r.id,
+          after: { message: outcome.message },
+        },
+        t,
+      );
     });
     throw new HttpError(409, `The card payment service refused the refund: ${outcome.message}`);
   }
-  throw new HttpError(503, 'The card payment service is not answering. The refund is recorded as pending; it completes when the service confirms it, or press “Retry refund” later — the member is never refunded twice.', undefined, {
-    code: 'provider-unavailable',
-  });
+  throw new HttpError(
+    503,
+    'The card payment service is not answering. The refund is recorded as pending; it completes when the service confirms it, or press “Retry refund” later — the member is never refunded twice.',
+    undefined,
+    {
+      code: 'provider-unavailable',
+    },
+  );
 }
 
 /**
@@ -99,18 +159,25 @@ async function driveCardRefund(coopId: number, r: RefundToDrive, actorUserId: nu
  * through the provider with an idempotency key stored before the call; cash and cheque refunds
  * are recorded as done.
  */
-export async function refundPayment(actor: Actor, paymentId: number, input: { amountCents: number; reason: string }): Promise<PaymentDTO> {
+export async function refundPayment(
+  actor: Actor,
+  paymentId: number,
+  input: { amountCents: number; reason: string },
+): Promise<PaymentDTO> {
   const coopId = actor.coop.id;
   const refund = await inTransaction(async (t): Promise<RefundToDrive> => {
     await lockCoopBilling(t, coopId);
     const p = await lockPayment(t, coopId, paymentId);
-    const balance = (await MemberCredit.sum('amountCents', { where: { coopId, membershipId: p.membershipId }, transaction: t })) ?? 0;
+    const balance =
+      (await MemberCredit.sum('amountCents', { where: { coopId, membershipId: p.membershipId }, transaction: t })) ?? 0;
     const fromUnallocated = Math.min(input.amountCents, cents(p.unallocatedCents));
     const fromCredit = input.amountCents - fromUnallocated;
     const creditRoom = Math.max(0, Math.min(cents(p.creditedCents), balance));
     if (fromCredit > creditRoom) {
       throw new HttpError(422, 'Some fields need attention.', {
-        amount: [`At most ${formatCents(fromUnallocated + creditRoom, actor.coop.currency)} of this payment is held for the member. Money applied to an invoice is given back by voiding the invoice first.`],
+        amount: [
+          `At most ${formatCents(fromUnallocated + creditRoom, actor.coop.currency)} of this payment is held for the member. Money applied to an invoice is given back by voiding the invoice first.`,
+        ],
       });
     }
     const isCard = p.method === 'card';
@@ -140,15 +207,37 @@ export async function refundPayment(actor: Actor, paymentId: number, input: { am
     );
     if (fromCredit > 0) {
       await MemberCredit.create(
-        { coopId, membershipId: p.membershipId, amountCents: -fromCredit, kind: 'refund', paymentId, refundId: r.id, createdByUserId: actor.user.id },
+        {
+          coopId,
+          membershipId: p.membershipId,
+          amountCents: -fromCredit,
+          kind: 'refund',
+          paymentId,
+          refundId: r.id,
+          createdByUserId: actor.user.id,
+        },
         { transaction: t },
       );
     }
-    await audit({
-      coopId, actorUserId: actor.user.id, action: 'refund.create', entityType: 'refund', entityId: r.id,
-      before: { paymentId, unallocatedCents: cents(p.unallocatedCents), creditedCents: cents(p.creditedCents) },
-      after: { paymentId, amountCents: input.amountCents, fromUnallocatedCents: fromUnallocated, fromCreditCents: fromCredit, method: p.method, reason: input.reason },
-    }, t);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'refund.create',
+        entityType: 'refund',
+        entityId: r.id,
+        before: { paymentId, unallocatedCents: cents(p.unallocatedCents), creditedCents: cents(p.creditedCents) },
+        after: {
+          paymentId,
+          amountCents: input.amountCents,
+          fromUnallocatedCents: fromUnallocated,
+          fromCreditCents: fromCredit,
+          method: p.method,
+          reason: input.reason,
+        },
+      },
+      t,
+    );
     return {
       id: r.id,
       paymentId,

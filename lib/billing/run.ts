@@ -61,7 +61,12 @@ async function buildDrafts(t: Transaction, s: q.RunScope, runId: number, members
   return drafts.length - empty;
 }
 
-async function loadScope(coopId: number, periodDate: string, only: number[] | null, t?: Transaction): Promise<q.RunScope> {
+async function loadScope(
+  coopId: number,
+  periodDate: string,
+  only: number[] | null,
+  t?: Transaction,
+): Promise<q.RunScope> {
   const coop = await Coop.findByPk(coopId, { attributes: ['timezone', 'settings'], raw: true, transaction: t });
   const { end } = await periodBounds(periodDate, coop!.timezone, t);
   const dues = Number(coop!.settings?.monthlyDuesCents ?? 0);
@@ -76,7 +81,10 @@ async function loadScope(coopId: number, periodDate: string, only: number[] | nu
  * minutes is marked abandoned and replaced — re-running is always safe because every chunk is
  * idempotent.
  */
-export async function startRun(actor: Actor, input: { period: string; memberIds?: number[] }): Promise<{ run: RunDTO; started: boolean }> {
+export async function startRun(
+  actor: Actor,
+  input: { period: string; memberIds?: number[] },
+): Promise<{ run: RunDTO; started: boolean }> {
   const coopId = actor.coop.id;
   const periodDate = periodToDate(input.period);
   if (input.period > currentPeriod(actor.coop.timezone)) {
@@ -89,16 +97,44 @@ export async function startRun(actor: Actor, input: { period: string; memberIds?
     if (only && (await Membership.count({ where: { coopId, id: only }, transaction: t })) !== only.length) {
       throw new HttpError(422, 'Some fields need attention.', { memberIds: ['Choose members of this co-op.'] });
     }
-    const running = await BillingRun.findOne({ where: { coopId, period: periodDate, status: 'running' }, lock: t.LOCK.UPDATE, transaction: t });
+    const running = await BillingRun.findOne({
+      where: { coopId, period: periodDate, status: 'running' },
+      lock: t.LOCK.UPDATE,
+      transaction: t,
+    });
     if (running) {
-      if (Date.now() - new Date(running.heartbeatAt).getTime() < STALE_AFTER_MS) return { run: running.get({ plain: true }), started: false };
+      if (Date.now() - new Date(running.heartbeatAt).getTime() < STALE_AFTER_MS)
+        return { run: running.get({ plain: true }), started: false };
       await running.update({ status: 'abandoned', finishedAt: new Date() }, { transaction: t });
-      await audit({ coopId, actorUserId: actor.user.id, action: 'billing.run.abandon', entityType: 'billing_run', entityId: running.id, before: { status: 'running', doneMembers: running.doneMembers } }, t);
+      await audit(
+        {
+          coopId,
+          actorUserId: actor.user.id,
+          action: 'billing.run.abandon',
+          entityType: 'billing_run',
+          entityId: running.id,
+          before: { status: 'running', doneMembers: running.doneMembers },
+        },
+        t,
+      );
     }
     const scope = await loadScope(coopId, periodDate, only, t);
     const total = await q.countMembersToBill(scope, t);
-    const run = await BillingRun.create({ coopId, period: periodDate, memberIds: only, totalMembers: total, startedByUserId: actor.user.id }, { transaction: t });
-    await audit({ coopId, actorUserId: actor.user.id, action: 'billing.run.start', entityType: 'billing_run', entityId: run.id, after: { period: input.period, totalMembers: total, memberIds: only } }, t);
+    const run = await BillingRun.create(
+      { coopId, period: periodDate, memberIds: only, totalMembers: total, startedByUserId: actor.user.id },
+      { transaction: t },
+    );
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'billing.run.start',
+        entityType: 'billing_run',
+        entityId: run.id,
+        after: { period: input.period, totalMembers: total, memberIds: only },
+      },
+      t,
+    );
     await enqueue<RunChunkJob>(QUEUES.runChunk, { coopId, runId: run.id, afterId: 0, done: 0 }, { transaction: t });
     return { run: run.get({ plain: true }), started: true };
   });
@@ -126,17 +162,52 @@ export async function runChunk(job: RunChunkJob): Promise<'chunk' | 'completed' 
       const scope = await loadScope(coopId, periodDate, run.memberIds, t);
       const ids = await q.nextMembersToBill(scope, afterId, RUN_CHUNK, t);
       if (ids.length === 0) {
-        const drafts = await Invoice.count({ where: { coopId, period: periodDate, kind: 'invoice', status: 'draft' }, transaction: t });
+        const drafts = await Invoice.count({
+          where: { coopId, period: periodDate, kind: 'invoice', status: 'draft' },
+          transaction: t,
+        });
         const members = Math.max(run.totalMembers, run.doneMembers);
-        await run.update({ status: 'completed', finishedAt: new Date(), heartbeatAt: new Date(), drafts, totalMembers: members, doneMembers: members }, { transaction: t });
-        await audit({ coopId, actorUserId: run.startedByUserId, action: 'billing.run.complete', entityType: 'billing_run', entityId: runId, after: { period: periodDate.slice(0, 7), members, drafts } }, t);
+        await run.update(
+          {
+            status: 'completed',
+            finishedAt: new Date(),
+            heartbeatAt: new Date(),
+            drafts,
+            totalMembers: members,
+            doneMembers: members,
+          },
+          { transaction: t },
+        );
+        await audit(
+          {
+            coopId,
+            actorUserId: run.startedByUserId,
+            action: 'billing.run.complete',
+            entityType: 'billing_run',
+            entityId: runId,
+            after: { period: periodDate.slice(0, 7), members, drafts },
+          },
+          t,
+        );
         return 'completed';
       }
       const drafts = await buildDrafts(t, scope, runId, ids);
       const done = run.doneMembers + ids.length;
       // The run row is locked (FOR UPDATE) until this transaction ends, so these sums are exact.
-      await run.update({ doneMembers: done, totalMembers: Math.max(run.totalMembers, done), drafts: run.drafts + drafts, heartbeatAt: new Date() }, { transaction: t });
-      await enqueue<RunChunkJob>(QUEUES.runChunk, { coopId, runId, afterId: ids[ids.length - 1]!, done }, { transaction: t });
+      await run.update(
+        {
+          doneMembers: done,
+          totalMembers: Math.max(run.totalMembers, done),
+          drafts: run.drafts + drafts,
+          heartbeatAt: new Date(),
+        },
+        { transaction: t },
+      );
+      await enqueue<RunChunkJob>(
+        QUEUES.runChunk,
+        { coopId, runId, afterId: ids[ids.length - 1]!, done },
+        { transaction: t },
+      );
       return 'chunk';
     });
   } catch (e) {
@@ -150,7 +221,12 @@ export async function runChunk(job: RunChunkJob): Promise<'chunk' | 'completed' 
 export async function runGaveUp(coopId: number, runId: number, message?: string): Promise<void> {
   console.error(`[billing] run ${runId} failed${message ? `: ${message}` : ''}`);
   await BillingRun.update(
-    { status: 'failed', error: message ?? 'The run stopped on an unexpected error; start it again to continue (finished members are kept).', finishedAt: new Date() },
+    {
+      status: 'failed',
+      error:
+        message ?? 'The run stopped on an unexpected error; start it again to continue (finished members are kept).',
+      finishedAt: new Date(),
+    },
     { where: { id: runId, coopId, status: 'running' } },
   );
 }

@@ -1,5 +1,12 @@
 /** Plain shapes the billing services return (types only: safe to import from client components). */
-import type { balanceSchema, invoiceDetailSchema, invoiceLineSchema, invoiceSummarySchema, paymentSchema, refundSchema } from '@/lib/api/dto/billing';
+import type {
+  balanceSchema,
+  invoiceDetailSchema,
+  invoiceLineSchema,
+  invoiceSummarySchema,
+  paymentSchema,
+  refundSchema,
+} from '@/lib/api/dto/billing';
 import type { z } from 'zod';
 import type { InvoiceEmailStatus, InvoiceKind, InvoiceStatus } from '@/models/Invoice';
 

@@ -19,7 +19,10 @@ const positiveInt = (s: string | undefined): number | null => (s && /^[1-9]\d{0,
  *  - charge.failed → a still-open attempt is marked failed (a success is never undone);
  *  - charge.refunded → our refunds named in the refunds' metadata are confirmed.
  */
-export async function receiveWebhook(rawBody: string, signature: string | null): Promise<{ received: true; duplicate: boolean; outcome: string }> {
+export async function receiveWebhook(
+  rawBody: string,
+  signature: string | null,
+): Promise<{ received: true; duplicate: boolean; outcome: string }> {
   const event = verifyWebhook(rawBody, signature);
   if (!event) throw new HttpError(400, 'The webhook signature is not valid.');
   let payload: unknown;
@@ -37,7 +40,14 @@ export async function receiveWebhook(rawBody: string, signature: string | null):
     // waits on the index and then finds the committed row) is acknowledged and ignored.
     const [stored, created] = await PaymentWebhookEvent.findOrCreate({
       where: { stripeEventId: event.id },
-      defaults: { stripeEventId: event.id, type: event.type, coopId, objectId: event.charge?.id ?? null, outcome: 'received', payload },
+      defaults: {
+        stripeEventId: event.id,
+        type: event.type,
+        coopId,
+        objectId: event.charge?.id ?? null,
+        outcome: 'received',
+        payload,
+      },
       transaction: t,
     });
     if (!created) return { received: true as const, duplicate: true, outcome: 'duplicate' };

@@ -2,20 +2,51 @@ import 'server-only';
 import { can, type Actor } from '@/lib/auth';
 import { conflict, notFound } from '@/lib/http';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
-import { evaluateQuality, evaluateQuickTests, formatQualityLimit, formatQualityValue, SCREENING_CAUTION } from '@/lib/quality';
+import {
+  evaluateQuality,
+  evaluateQuickTests,
+  formatQualityLimit,
+  formatQualityValue,
+  SCREENING_CAUTION,
+} from '@/lib/quality';
 import { SAFETY_DEFERENCE } from '@/lib/safety';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { computePlan } from './plan';
-import { batchOilLotShares, labResultsOf, loadBatch, planInputOf, quickTestInput, quickTestsOf, tankName } from './read';
+import {
+  batchOilLotShares,
+  labResultsOf,
+  loadBatch,
+  planInputOf,
+  quickTestInput,
+  quickTestsOf,
+  tankName,
+} from './read';
 import { todayIn } from '@/lib/dates';
 
-const VERDICT_TEXT = { pass: 'Pass', fail: 'Fail', 'not tested': 'Not tested', reported: 'Reported', 'screened-within': 'Within (screening)', 'screened-outside': 'Outside (screening)' } as const;
-const SCREEN_TEXT = { 'looks-good': 'Looks good', 'needs-attention': 'Needs attention', recorded: 'Recorded', 'not tested': 'Not tested' } as const;
+const VERDICT_TEXT = {
+  pass: 'Pass',
+  fail: 'Fail',
+  'not tested': 'Not tested',
+  reported: 'Reported',
+  'screened-within': 'Within (screening)',
+  'screened-outside': 'Outside (screening)',
+} as const;
+const SCREEN_TEXT = {
+  'looks-good': 'Looks good',
+  'needs-attention': 'Needs attention',
+  recorded: 'Recorded',
+  'not tested': 'Not tested',
+} as const;
 
 function fmtDate(d: Date | string, timezone: string): string {
   const date = typeof d === 'string' ? new Date(`${d}T12:00:00Z`) : d;
   try {
-    return new Intl.DateTimeFormat('en-US', { timeZone: typeof d === 'string' ? 'UTC' : timezone, year: 'numeric', month: 'long', day: 'numeric' }).format(date);
+    return new Intl.DateTimeFormat('en-US', {
+      timeZone: typeof d === 'string' ? 'UTC' : timezone,
+      year: 'numeric',
+      month: 'long',
+      day: 'numeric',
+    }).format(date);
   } catch {
     return date.toISOString().slice(0, 10);
   }
@@ -50,7 +81,11 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   const left = doc.page.margins.left;
   const width = doc.page.width - left - doc.page.margins.right;
 
-  doc.font('bold').fontSize(20).fillColor('#16322a').text(meets ? `Batch ${row.number} certificate — meets ${quality.standard}` : `Batch ${row.number} quality record`);
+  doc
+    .font('bold')
+    .fontSize(20)
+    .fillColor('#16322a')
+    .text(meets ? `Batch ${row.number} certificate — meets ${quality.standard}` : `Batch ${row.number} quality record`);
   doc.font('regular').fontSize(11).fillColor('#292524').text(actor.coop.name);
   doc.moveDown(0.8);
 
@@ -62,19 +97,41 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   pair('Batch number', String(row.number));
   pair('Brewed', fmtDate(row.batchDate, tz));
   pair('Released', row.releasedAt ? fmtDate(row.releasedAt, tz) : '—');
-  pair('Volume released', `${formatVolume(Number(row.releasedLiters), units, 1)}${units === 'us' ? ` (${Number(row.releasedLiters).toFixed(1)} L)` : ''}${tank ? ` into ${tank}` : ''}`);
+  pair(
+    'Volume released',
+    `${formatVolume(Number(row.releasedLiters), units, 1)}${units === 'us' ? ` (${Number(row.releasedLiters).toFixed(1)} L)` : ''}${tank ? ` into ${tank}` : ''}`,
+  );
   doc.moveDown(0.6);
 
   doc.font('bold').fontSize(13).fillColor('#16322a').text('Inputs');
   doc.fillColor('#292524');
-  pair('Oil', `${formatVolume(plan.oilLiters, units, 1)}${lots.length ? ` from ${lots.map((l) => `${l.oilLot.collectedFrom} (${l.oilLot.collectedOn})`).join('; ')}` : ''}`);
-  pair('Titration', `${plan.titration.trials.map((t) => t.toFixed(2)).join(', ')} mL → average ${plan.titration.averageMl.toFixed(2)} mL (${plan.titration.titrant} titrant)`);
-  pair('Oil acidity', `acid number ${plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids ${plan.oil.ffaPercent.toFixed(2)} % as oleic acid`);
-  pair('Catalyst', `${catalystGrams.toFixed(0)} g ${row.catalyst} at ${Number(row.purityPct)} % purity (planned ${Number(row.computedCatalystGrams).toFixed(0)} g; ${plan.catalystResult.rule === 'base-over-purity-plus-titration' ? 'base ÷ purity + titration' : '(base + titration) ÷ purity'})`);
-  pair('Methanol', `${formatVolume(methanolLiters, units, 2)}${plan.methanol.mode === 'percent' ? ` (${plan.methanol.pct} % of oil volume)` : ` (${plan.methanol.molarRatio}:1 molar ratio)`}`);
+  pair(
+    'Oil',
+    `${formatVolume(plan.oilLiters, units, 1)}${lots.length ? ` from ${lots.map((l) => `${l.oilLot.collectedFrom} (${l.oilLot.collectedOn})`).join('; ')}` : ''}`,
+  );
+  pair(
+    'Titration',
+    `${plan.titration.trials.map((t) => t.toFixed(2)).join(', ')} mL → average ${plan.titration.averageMl.toFixed(2)} mL (${plan.titration.titrant} titrant)`,
+  );
+  pair(
+    'Oil acidity',
+    `acid number ${plan.oil.acidNumber.toFixed(2)} mg KOH/g, free fatty acids ${plan.oil.ffaPercent.toFixed(2)} % as oleic acid`,
+  );
+  pair(
+    'Catalyst',
+    `${catalystGrams.toFixed(0)} g ${row.catalyst} at ${Number(row.purityPct)} % purity (planned ${Number(row.computedCatalystGrams).toFixed(0)} g; ${plan.catalystResult.rule === 'base-over-purity-plus-titration' ? 'base ÷ purity + titration' : '(base + titration) ÷ purity'})`,
+  );
+  pair(
+    'Methanol',
+    `${formatVolume(methanolLiters, units, 2)}${plan.methanol.mode === 'percent' ? ` (${plan.methanol.pct} % of oil volume)` : ` (${plan.methanol.molarRatio}:1 molar ratio)`}`,
+  );
   doc.moveDown(0.6);
 
-  doc.font('bold').fontSize(13).fillColor('#16322a').text(`Quality results compared with ${quality.standard} (B100 limits)`);
+  doc
+    .font('bold')
+    .fontSize(13)
+    .fillColor('#16322a')
+    .text(`Quality results compared with ${quality.standard} (B100 limits)`);
   doc.fillColor('#292524').moveDown(0.2);
   const cols = [0.38, 0.24, 0.2, 0.18].map((f) => f * width);
   const rowText = (cells: string[], bold = false) => {
@@ -92,11 +149,22 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   };
   rowText(['Property', `Limit (${quality.standard})`, 'Result', 'Verdict'], true);
   for (const r of quality.rows) {
-    rowText([r.label, formatQualityLimit(r, units), formatQualityValue(r, units), `${VERDICT_TEXT[r.verdict]}${r.laboratory ? ` (${r.laboratory}${r.date ? `, ${r.date}` : ''})` : ''}`]);
+    rowText([
+      r.label,
+      formatQualityLimit(r, units),
+      formatQualityValue(r, units),
+      `${VERDICT_TEXT[r.verdict]}${r.laboratory ? ` (${r.laboratory}${r.date ? `, ${r.date}` : ''})` : ''}`,
+    ]);
   }
   doc.moveDown(0.3);
   doc.font('bold').fontSize(10).text(`${quality.standard}: ${quality.verdict.text}`);
-  if (quality.untestedCount > 0) doc.font('regular').fontSize(9).text(`${quality.untestedCount} of ${quality.verdict.requiredCount} required properties have no laboratory result.`);
+  if (quality.untestedCount > 0)
+    doc
+      .font('regular')
+      .fontSize(9)
+      .text(
+        `${quality.untestedCount} of ${quality.verdict.requiredCount} required properties have no laboratory result.`,
+      );
   doc.moveDown(0.6);
 
   doc.font('bold').fontSize(13).fillColor('#16322a').text('Home quick tests (screening)');
@@ -105,11 +173,21 @@ export async function batchCertificate(actor: Actor, id: number): Promise<{ byte
   doc.moveDown(0.8);
 
   doc.font('bold').fontSize(10).fillColor('#93370d').text(SCREENING_CAUTION);
-  doc.font('regular').fontSize(9).fillColor('#292524').text(
-    `This ${meets ? 'certificate' : 'quality record'} is the co-op's own batch record; it is not a laboratory's certificate of analysis. ${SAFETY_DEFERENCE}`,
-  );
+  doc
+    .font('regular')
+    .fontSize(9)
+    .fillColor('#292524')
+    .text(
+      `This ${meets ? 'certificate' : 'quality record'} is the co-op's own batch record; it is not a laboratory's certificate of analysis. ${SAFETY_DEFERENCE}`,
+    );
   doc.moveDown(0.5);
-  doc.fontSize(8).fillColor('#57534e').text(`Issued ${fmtDate(todayIn(tz), tz)} by Tallyvat for ${actor.coop.name}.`);
+  doc
+    .fontSize(8)
+    .fillColor('#57534e')
+    .text(`Issued ${fmtDate(todayIn(tz), tz)} by Tallyvat for ${actor.coop.name}.`);
 
-  return { bytes: await pdfToBuffer(doc), filename: `batch-${row.number}-${meets ? 'certificate' : 'quality-record'}.pdf` };
+  return {
+    bytes: await pdfToBuffer(doc),
+    filename: `batch-${row.number}-${meets ? 'certificate' : 'quality-record'}.pdf`,
+  };
 }

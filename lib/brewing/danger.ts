@@ -27,22 +27,36 @@ export interface DangerAlert {
 export async function unacknowledgedDangers(coopId: number, batchId?: number): Promise<DangerAlert[]> {
   const where = { coopId, level: 'danger' as const, ...(batchId === undefined ? {} : { batchId }) };
   const readings = (await BatchTemperature.findAll({
-    where, attributes: ['batchId', [fn('max', col('measured_at')), 'lastAt'], [fn('max', col('temp_c')), 'maxTempC']], group: ['batchId'], raw: true,
+    where,
+    attributes: ['batchId', [fn('max', col('measured_at')), 'lastAt'], [fn('max', col('temp_c')), 'maxTempC']],
+    group: ['batchId'],
+    raw: true,
   })) as unknown as { batchId: number; lastAt: Date; maxTempC: string }[];
   if (!readings.length) return [];
   const ids = readings.map((r) => r.batchId);
   const [acks, batches] = await Promise.all([
     AuditEvent.findAll({
       where: { coopId, action: DANGER_ACK_ACTION, entityType: 'batch', entityId: ids.map(String) },
-      attributes: ['entityId', [fn('max', col('created_at')), 'ackAt']], group: ['entityId'], raw: true,
+      attributes: ['entityId', [fn('max', col('created_at')), 'ackAt']],
+      group: ['entityId'],
+      raw: true,
     }) as unknown as Promise<{ entityId: string; ackAt: Date }[]>,
-    Batch.findAll({ where: { coopId, id: ids, status: { [Op.notIn]: ['released', 'rejected'] } }, attributes: ['id', 'number'], raw: true }),
+    Batch.findAll({
+      where: { coopId, id: ids, status: { [Op.notIn]: ['released', 'rejected'] } },
+      attributes: ['id', 'number'],
+      raw: true,
+    }),
   ]);
   const ackAt = new Map(acks.map((a) => [Number(a.entityId), new Date(a.ackAt).getTime()]));
   const numbers = new Map(batches.map((b) => [b.id, b.number]));
   return readings
     .filter((r) => numbers.has(r.batchId) && new Date(r.lastAt).getTime() > (ackAt.get(r.batchId) ?? -Infinity))
-    .map((r) => ({ batchId: r.batchId, number: numbers.get(r.batchId)!, maxTempC: Number(r.maxTempC), lastAt: new Date(r.lastAt).toISOString() }))
+    .map((r) => ({
+      batchId: r.batchId,
+      number: numbers.get(r.batchId)!,
+      maxTempC: Number(r.maxTempC),
+      lastAt: new Date(r.lastAt).toISOString(),
+    }))
     .sort((a, b) => a.number - b.number);
 }
 
@@ -54,13 +68,22 @@ export async function unacknowledgedDangers(coopId: number, batchId?: number): P
  */
 export async function acknowledgeDanger(actor: Actor, batchId: number): Promise<{ acknowledged: true }> {
   requireCan(actor, 'batches:write');
-  const batch = await Batch.findOne({ where: { id: batchId, coopId: actor.coop.id }, attributes: ['id', 'number'], raw: true });
+  const batch = await Batch.findOne({
+    where: { id: batchId, coopId: actor.coop.id },
+    attributes: ['id', 'number'],
+    raw: true,
+  });
   if (!batch) throw notFound('Batch not found.');
   const open = await unacknowledgedDangers(actor.coop.id, batchId);
   if (!open.length) throw conflict(`Batch ${batch.number} has no Danger reading to acknowledge.`);
   await audit({
-    coopId: actor.coop.id, actorUserId: actor.user.id, action: DANGER_ACK_ACTION, entityType: 'batch', entityId: batchId,
-    before: null, after: { maxTempC: open[0]!.maxTempC, lastAt: open[0]!.lastAt },
+    coopId: actor.coop.id,
+    actorUserId: actor.user.id,
+    action: DANGER_ACK_ACTION,
+    entityType: 'batch',
+    entityId: batchId,
+    before: null,
+    after: { maxTempC: open[0]!.maxTempC, lastAt: open[0]!.lastAt },
   });
   return { acknowledged: true };
 }

@@ -30,11 +30,37 @@ export async function addBatchFile(actor: Actor, batchId: number, upload: Checke
     return await inTransaction(async (t) => {
       await loadBatch(actor.coop.id, batchId, t, true);
       const file = await BatchFile.create(
-        { coopId: actor.coop.id, batchId, purpose, fileKind: upload.kind, storageKey: key, originalName: upload.name, sizeBytes: upload.bytes.length, uploadedByUserId: actor.user.id },
+        {
+          coopId: actor.coop.id,
+          batchId,
+          purpose,
+          fileKind: upload.kind,
+          storageKey: key,
+          originalName: upload.name,
+          sizeBytes: upload.bytes.length,
+          uploadedByUserId: actor.user.id,
+        },
         { transaction: t },
       );
-      const dto = { id: file.id, purpose, kind: upload.kind, name: upload.name, sizeBytes: upload.bytes.length, createdAt: file.createdAt.toISOString() };
-      await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'batch.file', entityType: 'batch', entityId: batchId, after: dto }, t);
+      const dto = {
+        id: file.id,
+        purpose,
+        kind: upload.kind,
+        name: upload.name,
+        sizeBytes: upload.bytes.length,
+        createdAt: file.createdAt.toISOString(),
+      };
+      await audit(
+        {
+          coopId: actor.coop.id,
+          actorUserId: actor.user.id,
+          action: 'batch.file',
+          entityType: 'batch',
+          entityId: batchId,
+          after: dto,
+        },
+        t,
+      );
       return dto;
     });
   } catch (e) {
@@ -44,10 +70,17 @@ export async function addBatchFile(actor: Actor, batchId: number, upload: Checke
 }
 
 /** A batch file, opened for streaming; it must belong to that batch of the actor's co-op (404 otherwise). */
-export async function getBatchFile(actor: Actor, batchId: number, fileId: number): Promise<{ file: StoredFile; kind: StoredKind; name: string }> {
-  if (!Number.isSafeInteger(fileId) || fileId <= 0 || !Number.isSafeInteger(batchId) || batchId <= 0) throw notFound('File not found.');
+export async function getBatchFile(
+  actor: Actor,
+  batchId: number,
+  fileId: number,
+): Promise<{ file: StoredFile; kind: StoredKind; name: string }> {
+  if (!Number.isSafeInteger(fileId) || fileId <= 0 || !Number.isSafeInteger(batchId) || batchId <= 0)
+    throw notFound('File not found.');
   const row = await BatchFile.findOne({
-    attributes: ['storageKey', 'fileKind', 'originalName'], where: { id: fileId, batchId, coopId: actor.coop.id }, raw: true,
+    attributes: ['storageKey', 'fileKind', 'originalName'],
+    where: { id: fileId, batchId, coopId: actor.coop.id },
+    raw: true,
   });
   if (!row) throw notFound('File not found.');
   return { file: await openFile(actor.coop.id, row.storageKey), kind: row.fileKind, name: row.originalName };

@@ -3,7 +3,13 @@ import 'server-only';
 export { STEPS, createBatch, advanceBatch, addTemperature } from './records';
 export { updateBatch } from './update';
 export {
-  getBatch, listBatches, type BatchDto, type BatchSummaryDto, type BatchListRow, type BatchCosts, type TemperatureDto,
+  getBatch,
+  listBatches,
+  type BatchDto,
+  type BatchSummaryDto,
+  type BatchListRow,
+  type BatchCosts,
+  type TemperatureDto,
 } from './read';
 export { releaseBatch, rejectBatch } from './release';
 export { planBatch, type PlannerResult, type ChemicalCoverage } from './planner';
@@ -12,4 +18,3 @@ export { batchCertificate } from './certificate';
 export { qualityOf, type BatchQuality } from './verdicts';
 export { unacknowledgedDangers, acknowledgeDanger, type DangerAlert } from './danger';
 export type { ComputedPlan } from './plan';
-

@@ -11,13 +11,24 @@ import type { Catalyst, ComputedPlan, PlanInput } from './plan';
 // columns and the oil lots it uses. Shared by creating a batch, changing its plan and the planner.
 
 /** A 422 naming the fields (the batch write paths' one shape for bad input). */
-export const fieldError = (fields: Record<string, string[]>, message = 'Some fields need attention.') => new HttpError(422, message, fields);
+export const fieldError = (fields: Record<string, string[]>, message = 'Some fields need attention.') =>
+  new HttpError(422, message, fields);
 
 /** Purity of the catalyst lot FIFO would use next (the planner's default purity). */
-export async function nextLotPurity(coopId: number, catalyst: Catalyst, transaction?: Transaction): Promise<number | null> {
+export async function nextLotPurity(
+  coopId: number,
+  catalyst: Catalyst,
+  transaction?: Transaction,
+): Promise<number | null> {
   const row = await ChemicalLot.findOne({
-    attributes: ['purityPct'], where: { coopId, kind: catalyst, remainingQuantity: { [Op.gt]: 0 } },
-    order: [['receivedOn', 'ASC'], ['id', 'ASC']], raw: true, transaction,
+    attributes: ['purityPct'],
+    where: { coopId, kind: catalyst, remainingQuantity: { [Op.gt]: 0 } },
+    order: [
+      ['receivedOn', 'ASC'],
+      ['id', 'ASC'],
+    ],
+    raw: true,
+    transaction,
   });
   return row?.purityPct ? Number(row.purityPct) : null;
 }
@@ -36,22 +47,38 @@ export async function resolveTitration(
     try {
       lot = await getOilLot(actor, input.oilLotId, transaction);
     } catch (e) {
-      if (e instanceof HttpError && e.status === 404) throw fieldError({ oilLotId: ['Choose one of your co-op’s oil lots.'] });
+      if (e instanceof HttpError && e.status === 404)
+        throw fieldError({ oilLotId: ['Choose one of your co-op’s oil lots.'] });
       throw e;
     }
   }
   if (input.titrationTrials && input.titrationTrials.length > 0) {
-    return { titration: { source: 'trials', trials: input.titrationTrials, ...(input.titrant ? { titrant: input.titrant } : {}) }, lot };
+    return {
+      titration: {
+        source: 'trials',
+        trials: input.titrationTrials,
+        ...(input.titrant ? { titrant: input.titrant } : {}),
+      },
+      lot,
+    };
   }
   if (lot && lot.titrationMl !== null && lot.titrant) {
     return { titration: { source: 'oil-lot', trials: [lot.titrationMl], titrant: lot.titrant, oilLotId: lot.id }, lot };
   }
   if (lot) throw fieldError({ titrationTrials: ['This oil lot has no titration: enter the trials.'] });
-  throw fieldError({ titrationTrials: ['Enter at least one titration trial, or choose an oil lot that has a titration.'] });
+  throw fieldError({
+    titrationTrials: ['Enter at least one titration trial, or choose an oil lot that has a titration.'],
+  });
 }
 
 /** Checks and writes the oil lots a batch uses (each within what the lot still holds). */
-export async function writeOilLots(actor: Actor, batchId: number, oilLiters: number, uses: { oilLotId: number; liters: number }[], t: Transaction) {
+export async function writeOilLots(
+  actor: Actor,
+  batchId: number,
+  oilLiters: number,
+  uses: { oilLotId: number; liters: number }[],
+  t: Transaction,
+) {
   const ids = new Set<number>();
   let totalMl = 0;
   for (const [i, use] of uses.entries()) {
@@ -61,18 +88,27 @@ export async function writeOilLots(actor: Actor, batchId: number, oilLiters: num
     try {
       lot = await getOilLot(actor, use.oilLotId, t);
     } catch (e) {
-      if (e instanceof HttpError && e.status === 404) throw fieldError({ [`oilLots.${i}.oilLotId`]: ['Choose one of your co-op’s oil lots.'] });
+      if (e instanceof HttpError && e.status === 404)
+        throw fieldError({ [`oilLots.${i}.oilLotId`]: ['Choose one of your co-op’s oil lots.'] });
       throw e;
     }
-    const mine = await BatchOilLot.findOne({ attributes: ['liters'], where: { batchId, oilLotId: lot.id, coopId: actor.coop.id }, raw: true, transaction: t });
+    const mine = await BatchOilLot.findOne({
+      attributes: ['liters'],
+      where: { batchId, oilLotId: lot.id, coopId: actor.coop.id },
+      raw: true,
+      transaction: t,
+    });
     const freeMl = litersToMl(lot.remainingLiters) + (mine ? litersToMl(mine.liters) : 0);
     const useMl = litersToMl(use.liters.toFixed(3));
     if (useMl > freeMl) {
-      throw fieldError({ [`oilLots.${i}.volume`]: [`The lot from ${lot.collectedFrom} has only ${mlToLiters(freeMl)} L left.`] });
+      throw fieldError({
+        [`oilLots.${i}.volume`]: [`The lot from ${lot.collectedFrom} has only ${mlToLiters(freeMl)} L left.`],
+      });
     }
     totalMl += useMl;
   }
-  if (totalMl > litersToMl(oilLiters.toFixed(3))) throw fieldError({ oilLots: ['The oil lots add up to more than the batch’s oil volume.'] });
+  if (totalMl > litersToMl(oilLiters.toFixed(3)))
+    throw fieldError({ oilLots: ['The oil lots add up to more than the batch’s oil volume.'] });
   await BatchOilLot.destroy({ where: { batchId, coopId: actor.coop.id }, transaction: t });
   if (uses.length) {
     await BatchOilLot.bulkCreate(

@@ -31,7 +31,10 @@ async function yieldHistory(coopId: number) {
     // Imported past batches carry oil in and fuel out as recorded: they are yield history too.
     where: { coopId, status: ['released', 'imported'], releasedLiters: { [Op.ne]: null } },
     attributes: ['oilLiters', 'releasedLiters'],
-    order: [['releasedAt', 'DESC'], ['id', 'DESC']],
+    order: [
+      ['releasedAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
     limit: YIELD_HISTORY_BATCHES,
     raw: true,
   });
@@ -45,7 +48,10 @@ async function lastPrices(coopId: number, kinds: readonly string[]): Promise<Map
       ChemicalLot.findOne({
         where: { coopId, kind: kind as ChemicalLot['kind'], quantity: { [Op.gt]: 0 } },
         attributes: ['kind', 'quantity', 'totalCostCents'],
-        order: [['receivedOn', 'DESC'], ['id', 'DESC']],
+        order: [
+          ['receivedOn', 'DESC'],
+          ['id', 'DESC'],
+        ],
         raw: true,
       }),
     ),
@@ -78,22 +84,48 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
   // The lots holding stock (FIFO order; also gives the next lot's purity), what batches under way
   // have committed, and the titration (the trials given, or the chosen oil lot's), read in parallel.
   const [{ lots, needs }, { titration, lot }, history, prices] = await Promise.all([
-    stockState(actor.coop.id), resolveTitration(actor, input), yieldHistory(actor.coop.id), lastPrices(actor.coop.id, ['methanol', catalyst]),
+    stockState(actor.coop.id),
+    resolveTitration(actor, input),
+    yieldHistory(actor.coop.id),
+    lastPrices(actor.coop.id, ['methanol', catalyst]),
   ]);
   const stock = summarizeStock(lots, needs);
   const purity = input.purityPct === undefined ? (lots.find((l) => l.kind === catalyst)?.purityPct ?? null) : null;
-  const plan = computePlan({ ...input, oilLiters, titration, nextLotPurityPct: purity }, actor.coop.settings.recipe, { system: units, yieldHistory: history });
+  const plan = computePlan({ ...input, oilLiters, titration, nextLotPurityPct: purity }, actor.coop.settings.recipe, {
+    system: units,
+    yieldHistory: history,
+  });
   const notes: string[] = [];
 
-  const coverage: ChemicalCoverage[] = ([['methanol', plan.methanol.liters, 'L'], [catalyst, plan.catalystResult.totalGrams, 'g']] as const).map(([kind, needed, unit]) => {
+  const coverage: ChemicalCoverage[] = (
+    [
+      ['methanol', plan.methanol.liters, 'L'],
+      [catalyst, plan.catalystResult.totalGrams, 'g'],
+    ] as const
+  ).map(([kind, needed, unit]) => {
     const line = stock.lines.find((l) => l.kind === kind)!;
     const fifo: FifoLotByTotal[] = lots
       .filter((l) => l.kind === kind)
-      .map((l) => ({ id: l.id, receivedAt: l.receivedAtMs, qty: l.quantity, remainingQty: l.remaining, totalCostCents: l.totalCostCents }));
+      .map((l) => ({
+        id: l.id,
+        receivedAt: l.receivedAtMs,
+        qty: l.quantity,
+        remainingQty: l.remaining,
+        totalCostCents: l.totalCostCents,
+      }));
     const { cents, shortBy } = projectCost(fifo, line.committed, Math.round(needed * 1000) / 1000);
     const last = prices.get(kind);
     const shortfallCents = shortBy > 0 && last !== undefined ? roundHalfUp(shortBy * last) : null;
-    return { kind, unit, needed, available: line.available, covered: shortBy <= 0, shortBy, projectedCents: cents + (shortfallCents ?? 0), shortfallCents };
+    return {
+      kind,
+      unit,
+      needed,
+      available: line.available,
+      covered: shortBy <= 0,
+      shortBy,
+      projectedCents: cents + (shortfallCents ?? 0),
+      shortfallCents,
+    };
   });
 
   let energyCents = 0;
@@ -119,17 +151,31 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
   }
 
   let feedstockCents = 0;
-  if (lot) feedstockCents = feedstockShareCents(lot.costCents, Math.min(oilLiters, lot.volumeLiters).toFixed(3), lot.volumeLiters.toFixed(3));
+  if (lot)
+    feedstockCents = feedstockShareCents(
+      lot.costCents,
+      Math.min(oilLiters, lot.volumeLiters).toFixed(3),
+      lot.volumeLiters.toFixed(3),
+    );
   else notes.push('Feedstock cost is not included: choose the oil lot to include its cost.');
 
   const methanolCents = coverage[0]!.projectedCents;
   const catalystCents = coverage[1]!.projectedCents;
   const fuelLiters = plan.projectedFuelLiters;
   const fuelGallons = litersToGallons(fuelLiters);
-  const cost = batchCost({ chemicalsCents: methanolCents + catalystCents, energyCents, feedstockCents, otherCents: 0, gallonsReleased: fuelGallons });
+  const cost = batchCost({
+    chemicalsCents: methanolCents + catalystCents,
+    energyCents,
+    feedstockCents,
+    otherCents: 0,
+    gallonsReleased: fuelGallons,
+  });
   for (const c of coverage.filter((x) => !x.covered)) {
     const name = c.kind === 'methanol' ? 'methanol' : c.kind;
-    const amount = c.unit === 'L' ? `${(units === 'us' ? litersToGallons(c.shortBy) : c.shortBy).toFixed(2)} ${units === 'us' ? 'gal' : 'L'}` : `${Math.ceil(c.shortBy)} g`;
+    const amount =
+      c.unit === 'L'
+        ? `${(units === 'us' ? litersToGallons(c.shortBy) : c.shortBy).toFixed(2)} ${units === 'us' ? 'gal' : 'L'}`
+        : `${Math.ceil(c.shortBy)} g`;
     notes.push(
       c.shortfallCents === null
         ? `Short of ${name} by ${amount}, and none has been bought before: the projection leaves the shortfall unpriced.`
@@ -145,7 +191,13 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
     plan,
     coverage,
     projected: {
-      methanolCents, catalystCents, energyCents, energySource, energyKwh, feedstockCents, totalCents: cost.totalCents,
+      methanolCents,
+      catalystCents,
+      energyCents,
+      energySource,
+      energyKwh,
+      feedstockCents,
+      totalCents: cost.totalCents,
       costPerGallonCents: cost.costPerGallonCents,
       costPerLiterCents: fuelLiters > 0 ? roundHalfUp(cost.totalCents / fuelLiters) : null,
       incomplete,

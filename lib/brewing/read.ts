@@ -1,5 +1,11 @@
 import 'server-only';
-import type { batchCostsSchema, batchFullSchema, batchSummarySchema, quickTestsSchema, temperatureSchema } from '@/lib/api/dto/batch';
+import type {
+  batchCostsSchema,
+  batchFullSchema,
+  batchSummarySchema,
+  quickTestsSchema,
+  temperatureSchema,
+} from '@/lib/api/dto/batch';
 import type { batchRowSchema } from '@/lib/api/dto/brewing';
 import type { z } from 'zod';
 import type { InferAttributes, Transaction } from 'sequelize';
@@ -10,7 +16,17 @@ import { notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
 import { evaluateQuality, evaluateQuickTests, type QuickTestInput, type QualityResults } from '@/lib/quality';
 import { litersToMl } from '@/lib/units/quantity';
-import { Batch, BatchFile, BatchOilLot, BatchStatusCount, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot, Tank } from '@/models';
+import {
+  Batch,
+  BatchFile,
+  BatchOilLot,
+  BatchStatusCount,
+  BatchTemperature,
+  ChemicalConsumption,
+  ChemicalLot,
+  OilLot,
+  Tank,
+} from '@/models';
 import type { BatchStatus } from '@/models/Batch';
 import { computePlan, type Catalyst, type PlanInput } from './plan';
 import { qualityOf } from './verdicts';
@@ -27,18 +43,28 @@ export type QuickTestsStored = z.infer<typeof quickTestsSchema>;
 const n = (v: string | number | null | undefined): number | null => (v === null || v === undefined ? null : Number(v));
 
 /** Reads one batch of the co-op (404 otherwise), locked FOR UPDATE in the transaction when `lock` is set. */
-export async function loadBatch(coopId: number, id: number, transaction?: Transaction, lock = false): Promise<BatchRecord> {
+export async function loadBatch(
+  coopId: number,
+  id: number,
+  transaction?: Transaction,
+  lock = false,
+): Promise<BatchRecord> {
   if (!Number.isSafeInteger(id) || id <= 0) throw notFound('Batch not found.');
   const row = await Batch.findOne({
-    where: { id, coopId }, raw: true, transaction, ...(lock && transaction ? { lock: transaction.LOCK.UPDATE } : {}),
+    where: { id, coopId },
+    raw: true,
+    transaction,
+    ...(lock && transaction ? { lock: transaction.LOCK.UPDATE } : {}),
   });
   if (!row) throw notFound('Batch not found.');
   return row;
 }
 
 /** The quick tests and lab results of a batch in lib/quality's shapes (stored as JSONB). */
-export const quickTestsOf = (row: Pick<BatchRecord, 'quickTests'>): QuickTestsStored => (row.quickTests ?? {}) as QuickTestsStored;
-export const labResultsOf = (row: Pick<BatchRecord, 'labResults'>): QualityResults => (row.labResults ?? {}) as QualityResults;
+export const quickTestsOf = (row: Pick<BatchRecord, 'quickTests'>): QuickTestsStored =>
+  (row.quickTests ?? {}) as QuickTestsStored;
+export const labResultsOf = (row: Pick<BatchRecord, 'labResults'>): QualityResults =>
+  (row.labResults ?? {}) as QualityResults;
 
 /** The plan inputs a stored batch was computed from. */
 export function planInputOf(row: BatchRecord): PlanInput {
@@ -79,31 +105,57 @@ export type BatchDto = z.infer<typeof batchFullSchema>;
 /** What members and treasurers see of a released batch: the API's BatchSummary. */
 export type BatchSummaryDto = z.infer<typeof batchSummarySchema>;
 
-export function costsOf(row: Pick<BatchRecord, 'totalCostCents' | 'releasedLiters' | 'costMethanolCents' | 'costCatalystCents' | 'costEnergyCents' | 'costFeedstockCents' | 'costOtherCents' | 'costPerGallonCents'>): BatchCosts | null {
+export function costsOf(
+  row: Pick<
+    BatchRecord,
+    | 'totalCostCents'
+    | 'releasedLiters'
+    | 'costMethanolCents'
+    | 'costCatalystCents'
+    | 'costEnergyCents'
+    | 'costFeedstockCents'
+    | 'costOtherCents'
+    | 'costPerGallonCents'
+  >,
+): BatchCosts | null {
   if (row.totalCostCents === null) return null;
   const total = Number(row.totalCostCents);
   const liters = n(row.releasedLiters);
   return {
-    methanolCents: Number(row.costMethanolCents ?? 0), catalystCents: Number(row.costCatalystCents ?? 0),
-    energyCents: Number(row.costEnergyCents ?? 0), feedstockCents: Number(row.costFeedstockCents ?? 0),
-    otherCents: Number(row.costOtherCents ?? 0), totalCents: total, costPerGallonCents: n(row.costPerGallonCents),
+    methanolCents: Number(row.costMethanolCents ?? 0),
+    catalystCents: Number(row.costCatalystCents ?? 0),
+    energyCents: Number(row.costEnergyCents ?? 0),
+    feedstockCents: Number(row.costFeedstockCents ?? 0),
+    otherCents: Number(row.costOtherCents ?? 0),
+    totalCents: total,
+    costPerGallonCents: n(row.costPerGallonCents),
     costPerLiterCents: liters ? roundHalfUp(total / liters) : null,
   };
 }
 
 /** Energy cost of a batch from its stored inputs (0 without a tariff or without an amount). */
-export function energyCentsOf(row: Pick<BatchRecord, 'energyKwh' | 'heaterKw' | 'heaterHours' | 'tariffCentsPerKwh'>): number | null {
+export function energyCentsOf(
+  row: Pick<BatchRecord, 'energyKwh' | 'heaterKw' | 'heaterHours' | 'tariffCentsPerKwh'>,
+): number | null {
   const tariff = n(row.tariffCentsPerKwh);
   if (tariff === null) return null;
   if (row.energyKwh !== null) return energyCostCents({ kwh: Number(row.energyKwh), tariffCentsPerKwh: tariff });
   if (row.heaterKw !== null && row.heaterHours !== null) {
-    return energyCostCents({ heaterKw: Number(row.heaterKw), hours: Number(row.heaterHours), tariffCentsPerKwh: tariff });
+    return energyCostCents({
+      heaterKw: Number(row.heaterKw),
+      hours: Number(row.heaterHours),
+      tariffCentsPerKwh: tariff,
+    });
   }
   return null;
 }
 
 /** Feedstock cost of each oil lot share: the lot's cost × litres used ÷ its volume, to the cent. */
-export function feedstockShareCents(lotCostCents: number, usedLiters: string | number, lotVolumeLiters: string | number): number {
+export function feedstockShareCents(
+  lotCostCents: number,
+  usedLiters: string | number,
+  lotVolumeLiters: string | number,
+): number {
   const volumeMl = litersToMl(lotVolumeLiters);
   return volumeMl > 0 ? roundHalfUp((lotCostCents * litersToMl(usedLiters)) / volumeMl) : 0;
 }
@@ -114,13 +166,30 @@ export type BatchOilLotShare = Pick<InferAttributes<BatchOilLot>, 'oilLotId' | '
 };
 
 /** The oil lots a batch uses, oldest collection first, each with its lot (one query, the lot joined in). */
-export async function batchOilLotShares(coopId: number, batchId: number, transaction?: Transaction): Promise<BatchOilLotShare[]> {
+export async function batchOilLotShares(
+  coopId: number,
+  batchId: number,
+  transaction?: Transaction,
+): Promise<BatchOilLotShare[]> {
   return (await BatchOilLot.findAll({
     attributes: ['oilLotId', 'liters'],
     where: { batchId, coopId },
-    include: [{ model: OilLot, as: 'oilLot', attributes: ['collectedFrom', 'collectedOn', 'costCents', 'volumeLiters'], where: { coopId }, required: true }],
-    order: [[{ model: OilLot, as: 'oilLot' }, 'collectedOn', 'ASC'], [{ model: OilLot, as: 'oilLot' }, 'id', 'ASC']],
-    raw: true, nest: true, transaction,
+    include: [
+      {
+        model: OilLot,
+        as: 'oilLot',
+        attributes: ['collectedFrom', 'collectedOn', 'costCents', 'volumeLiters'],
+        where: { coopId },
+        required: true,
+      },
+    ],
+    order: [
+      [{ model: OilLot, as: 'oilLot' }, 'collectedOn', 'ASC'],
+      [{ model: OilLot, as: 'oilLot' }, 'id', 'ASC'],
+    ],
+    raw: true,
+    nest: true,
+    transaction,
   })) as unknown as BatchOilLotShare[];
 }
 
@@ -140,14 +209,23 @@ type ConsumptionRow = Pick<InferAttributes<ChemicalConsumption>, 'chemicalLotId'
  * get the quality summary of a released batch (any other batch is a 404 for them).
  */
 export async function getBatch(actor: Actor, id: number): Promise<BatchDto>;
-export async function getBatch(actor: Actor, id: number, opts: { allowSummary: true }): Promise<BatchDto | BatchSummaryDto>;
-export async function getBatch(actor: Actor, id: number, opts?: { allowSummary: true }): Promise<BatchDto | BatchSummaryDto> {
+export async function getBatch(
+  actor: Actor,
+  id: number,
+  opts: { allowSummary: true },
+): Promise<BatchDto | BatchSummaryDto>;
+export async function getBatch(
+  actor: Actor,
+  id: number,
+  opts?: { allowSummary: true },
+): Promise<BatchDto | BatchSummaryDto> {
   const full = can(actor.role, 'batches:read-all');
   const coopId = actor.coop.id;
   const row = await loadBatch(coopId, id);
   // An imported past batch has no recipe or steps: everyone sees it in summary, read-only.
   const imported = row.status === 'imported';
-  if ((!full || imported) && (!opts?.allowSummary || (row.status !== 'released' && !imported))) throw notFound('Batch not found.');
+  if ((!full || imported) && (!opts?.allowSummary || (row.status !== 'released' && !imported)))
+    throw notFound('Batch not found.');
   const quickTests = quickTestsOf(row);
   const labResults = labResultsOf(row);
   const quickTestEvaluation = evaluateQuickTests(quickTestInput(quickTests, row.catalyst));
@@ -155,11 +233,26 @@ export async function getBatch(actor: Actor, id: number, opts?: { allowSummary: 
   if (!full || imported) {
     const costs = costsOf(row);
     return {
-      view: 'summary', id: row.id, number: row.number, status: row.status, batchDate: row.batchDate, oilLiters: Number(row.oilLiters),
-      catalyst: row.catalyst, quickTestEvaluation, quality, imported: imported ? { notes: row.notes } : null,
-      costPerGallonCents: costs?.costPerGallonCents ?? null, costPerLiterCents: costs?.costPerLiterCents ?? null, qualityVerdict: row.qualityVerdict, screeningVerdict: row.screeningVerdict,
+      view: 'summary',
+      id: row.id,
+      number: row.number,
+      status: row.status,
+      batchDate: row.batchDate,
+      oilLiters: Number(row.oilLiters),
+      catalyst: row.catalyst,
+      quickTestEvaluation,
+      quality,
+      imported: imported ? { notes: row.notes } : null,
+      costPerGallonCents: costs?.costPerGallonCents ?? null,
+      costPerLiterCents: costs?.costPerLiterCents ?? null,
+      qualityVerdict: row.qualityVerdict,
+      screeningVerdict: row.screeningVerdict,
       release: row.releasedAt
-        ? { releasedLiters: Number(row.releasedLiters), releasedAt: row.releasedAt.toISOString(), tankName: await tankName(coopId, row.tankId) }
+        ? {
+            releasedLiters: Number(row.releasedLiters),
+            releasedAt: row.releasedAt.toISOString(),
+            tankName: await tankName(coopId, row.tankId),
+          }
         : null,
     };
   }
@@ -167,50 +260,127 @@ export async function getBatch(actor: Actor, id: number, opts?: { allowSummary: 
   const [tank, oilLots, temps, consumptions, files] = await Promise.all([
     tankName(coopId, row.tankId),
     batchOilLotShares(coopId, id),
-    BatchTemperature.findAll({ attributes: ['id', 'measuredAt', 'tempC', 'level'], where, order: [['measuredAt', 'ASC'], ['id', 'ASC']], raw: true }),
+    BatchTemperature.findAll({
+      attributes: ['id', 'measuredAt', 'tempC', 'level'],
+      where,
+      order: [
+        ['measuredAt', 'ASC'],
+        ['id', 'ASC'],
+      ],
+      raw: true,
+    }),
     ChemicalConsumption.findAll({
-      attributes: ['chemicalLotId', 'quantity', 'costCents'], where,
-      include: [{ model: ChemicalLot, as: 'lot', attributes: ['kind', 'supplier', 'receivedOn', 'quantityUnit'], where: { coopId }, required: true }],
-      order: [[{ model: ChemicalLot, as: 'lot' }, 'kind', 'ASC'], [{ model: ChemicalLot, as: 'lot' }, 'receivedOn', 'ASC'], [{ model: ChemicalLot, as: 'lot' }, 'id', 'ASC']],
-      raw: true, nest: true,
+      attributes: ['chemicalLotId', 'quantity', 'costCents'],
+      where,
+      include: [
+        {
+          model: ChemicalLot,
+          as: 'lot',
+          attributes: ['kind', 'supplier', 'receivedOn', 'quantityUnit'],
+          where: { coopId },
+          required: true,
+        },
+      ],
+      order: [
+        [{ model: ChemicalLot, as: 'lot' }, 'kind', 'ASC'],
+        [{ model: ChemicalLot, as: 'lot' }, 'receivedOn', 'ASC'],
+        [{ model: ChemicalLot, as: 'lot' }, 'id', 'ASC'],
+      ],
+      raw: true,
+      nest: true,
     }) as unknown as Promise<ConsumptionRow[]>,
-    BatchFile.findAll({ attributes: ['id', 'purpose', 'fileKind', 'originalName', 'sizeBytes', 'createdAt'], where, order: [['id', 'ASC']], raw: true }),
+    BatchFile.findAll({
+      attributes: ['id', 'purpose', 'fileKind', 'originalName', 'sizeBytes', 'createdAt'],
+      where,
+      order: [['id', 'ASC']],
+      raw: true,
+    }),
   ]);
   const oilLotDtos = oilLots.map((o) => ({
-    oilLotId: o.oilLotId, collectedFrom: o.oilLot.collectedFrom, collectedOn: o.oilLot.collectedOn, liters: Number(o.liters),
+    oilLotId: o.oilLotId,
+    collectedFrom: o.oilLot.collectedFrom,
+    collectedOn: o.oilLot.collectedOn,
+    liters: Number(o.liters),
     feedstockCents: feedstockShareCents(Number(o.oilLot.costCents), o.liters, o.oilLot.volumeLiters),
   }));
   return {
-    view: 'full', id: row.id, number: row.number, status: row.status, batchDate: row.batchDate,
-    statusChangedAt: new Date(row.statusChangedAt).toISOString(), createdAt: new Date(row.createdAt).toISOString(),
-    oilLiters: Number(row.oilLiters), oilLots: oilLotDtos, plan: computePlan(planInputOf(row), {}, { system: actor.coop.units }),
-    computedCatalystGrams: Number(row.computedCatalystGrams), computedMethanolLiters: Number(row.computedMethanolLiters),
-    actualCatalystGrams: n(row.actualCatalystGrams), actualMethanolLiters: n(row.actualMethanolLiters),
-    mixingMinutes: row.mixingMinutes, settlingHours: n(row.settlingHours), glycerinLiters: n(row.glycerinLiters),
-    washCycles: row.washCycles, washWaterLiters: n(row.washWaterLiters), dryingMethod: row.dryingMethod, dryingNotes: row.dryingNotes,
+    view: 'full',
+    id: row.id,
+    number: row.number,
+    status: row.status,
+    batchDate: row.batchDate,
+    statusChangedAt: new Date(row.statusChangedAt).toISOString(),
+    createdAt: new Date(row.createdAt).toISOString(),
+    oilLiters: Number(row.oilLiters),
+    oilLots: oilLotDtos,
+    plan: computePlan(planInputOf(row), {}, { system: actor.coop.units }),
+    computedCatalystGrams: Number(row.computedCatalystGrams),
+    computedMethanolLiters: Number(row.computedMethanolLiters),
+    actualCatalystGrams: n(row.actualCatalystGrams),
+    actualMethanolLiters: n(row.actualMethanolLiters),
+    mixingMinutes: row.mixingMinutes,
+    settlingHours: n(row.settlingHours),
+    glycerinLiters: n(row.glycerinLiters),
+    washCycles: row.washCycles,
+    washWaterLiters: n(row.washWaterLiters),
+    dryingMethod: row.dryingMethod,
+    dryingNotes: row.dryingNotes,
     temperatures: temps.map((r) => {
       const tempC = Number(r.tempC);
-      return { id: String(r.id), measuredAt: new Date(r.measuredAt).toISOString(), tempC, level: r.level, message: temperatureCheck(tempC, actor.coop.units, { elevationM: actor.coop.settings.elevationM ?? 0 }).message };
+      return {
+        id: String(r.id),
+        measuredAt: new Date(r.measuredAt).toISOString(),
+        tempC,
+        level: r.level,
+        message: temperatureCheck(tempC, actor.coop.units, { elevationM: actor.coop.settings.elevationM ?? 0 }).message,
+      };
     }),
-    quickTests, quickTestEvaluation, labResults, quality,
-    qualityVerdict: row.qualityVerdict, screeningVerdict: row.screeningVerdict,
+    quickTests,
+    quickTestEvaluation,
+    labResults,
+    quality,
+    qualityVerdict: row.qualityVerdict,
+    screeningVerdict: row.screeningVerdict,
     energy: {
-      kwh: n(row.energyKwh), heaterKw: n(row.heaterKw), heaterHours: n(row.heaterHours), tariffCentsPerKwh: n(row.tariffCentsPerKwh),
+      kwh: n(row.energyKwh),
+      heaterKw: n(row.heaterKw),
+      heaterHours: n(row.heaterHours),
+      tariffCentsPerKwh: n(row.tariffCentsPerKwh),
       costCents: energyCentsOf(row),
     },
     feedstockCentsOverride: n(row.feedstockCentsOverride),
     feedstockFromLotsCents: oilLotDtos.reduce((a, o) => a + o.feedstockCents, 0),
-    otherCents: Number(row.otherCents), otherNotes: row.otherNotes,
-    release: row.releasedAt && row.tankId
-      ? { tankId: row.tankId, tankName: tank, releasedLiters: Number(row.releasedLiters), releasedAt: row.releasedAt.toISOString() }
-      : null,
-    rejectedAt: row.rejectedAt ? row.rejectedAt.toISOString() : null, rejectReason: row.rejectReason,
+    otherCents: Number(row.otherCents),
+    otherNotes: row.otherNotes,
+    release:
+      row.releasedAt && row.tankId
+        ? {
+            tankId: row.tankId,
+            tankName: tank,
+            releasedLiters: Number(row.releasedLiters),
+            releasedAt: row.releasedAt.toISOString(),
+          }
+        : null,
+    rejectedAt: row.rejectedAt ? row.rejectedAt.toISOString() : null,
+    rejectReason: row.rejectReason,
     costs: costsOf(row),
     consumptions: consumptions.map((c) => ({
-      chemicalLotId: c.chemicalLotId, kind: c.lot.kind, supplier: c.lot.supplier, receivedOn: c.lot.receivedOn, unit: c.lot.quantityUnit,
-      quantity: Number(c.quantity), costCents: Number(c.costCents),
+      chemicalLotId: c.chemicalLotId,
+      kind: c.lot.kind,
+      supplier: c.lot.supplier,
+      receivedOn: c.lot.receivedOn,
+      unit: c.lot.quantityUnit,
+      quantity: Number(c.quantity),
+      costCents: Number(c.costCents),
     })),
-    files: files.map((f) => ({ id: f.id, purpose: f.purpose, kind: f.fileKind, name: f.originalName, sizeBytes: f.sizeBytes, createdAt: new Date(f.createdAt).toISOString() })),
+    files: files.map((f) => ({
+      id: f.id,
+      purpose: f.purpose,
+      kind: f.fileKind,
+      name: f.originalName,
+      sizeBytes: f.sizeBytes,
+      createdAt: new Date(f.createdAt).toISOString(),
+    })),
     notes: row.notes,
   };
 }
@@ -220,11 +390,25 @@ export type BatchListRow = z.infer<typeof batchRowSchema>;
 
 /** Sort keys of the list → columns; every sort ends on the batch number (unique per co-op). */
 const LIST_SORT: Record<string, keyof BatchRecord> = {
-  number: 'number', date: 'batchDate', status: 'status', volume: 'releasedLiters', costPerGallon: 'costPerGallonCents',
+  number: 'number',
+  date: 'batchDate',
+  status: 'status',
+  volume: 'releasedLiters',
+  costPerGallon: 'costPerGallonCents',
 };
 const LIST_ATTRIBUTES = [
-  'id', 'number', 'status', 'batchDate', 'oilLiters', 'releasedLiters', 'totalCostCents', 'costPerGallonCents',
-  'qualityStandard', 'qualityVerdict', 'screeningVerdict', 'labResults',
+  'id',
+  'number',
+  'status',
+  'batchDate',
+  'oilLiters',
+  'releasedLiters',
+  'totalCostCents',
+  'costPerGallonCents',
+  'qualityStandard',
+  'qualityVerdict',
+  'screeningVerdict',
+  'labResults',
 ] as const satisfies readonly (keyof BatchRecord)[];
 const IN_PROGRESS: BatchStatus[] = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
 
@@ -240,34 +424,73 @@ type BatchListPage = { rows: BatchListRow[]; total: number; page: number; pageSi
 export async function listBatches(actor: Actor, q: BatchListQuery): Promise<BatchListPage> {
   const all = can(actor.role, 'batches:read-all');
   if (!all && q.status && q.status !== 'released') return { rows: [], total: 0, page: q.page, pageSize: q.pageSize };
-  const statuses = !all ? (q.status ? ['released'] : ['released', 'imported']) : q.status === 'in-progress' ? IN_PROGRESS : q.status ? [q.status] : null;
+  const statuses = !all
+    ? q.status
+      ? ['released']
+      : ['released', 'imported']
+    : q.status === 'in-progress'
+      ? IN_PROGRESS
+      : q.status
+        ? [q.status]
+        : null;
   const where = statuses ? { coopId: actor.coop.id, status: statuses } : { coopId: actor.coop.id };
   const key = LIST_SORT[q.sort] ?? 'number';
   const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
   // NOT NULL sort columns need no NULLS LAST, so the indexes give the order; volume and cost may be null.
   const order: [string, string][] =
-    key === 'number' ? [['number', dir]]
-      : key === 'batchDate' || key === 'status' ? [[key, dir], ['number', dir]]
-        : [[key, `${dir} NULLS LAST`], ['number', dir]];
+    key === 'number'
+      ? [['number', dir]]
+      : key === 'batchDate' || key === 'status'
+        ? [
+            [key, dir],
+            ['number', dir],
+          ]
+        : [
+            [key, `${dir} NULLS LAST`],
+            ['number', dir],
+          ];
   const [rows, total] = await Promise.all([
-    Batch.findAll({ attributes: [...LIST_ATTRIBUTES], where, order, limit: q.pageSize, offset: (q.page - 1) * q.pageSize, raw: true }),
+    Batch.findAll({
+      attributes: [...LIST_ATTRIBUTES],
+      where,
+      order,
+      limit: q.pageSize,
+      offset: (q.page - 1) * q.pageSize,
+      raw: true,
+    }),
     BatchStatusCount.sum('n', { where }),
   ]);
   return {
     rows: rows.map((r) => {
       const releasedLiters = n(r.releasedLiters);
       return {
-        id: r.id, number: r.number, status: r.status, batchDate: r.batchDate, oilLiters: Number(r.oilLiters), releasedLiters,
+        id: r.id,
+        number: r.number,
+        status: r.status,
+        batchDate: r.batchDate,
+        oilLiters: Number(r.oilLiters),
+        releasedLiters,
         costPerGallonCents: n(r.costPerGallonCents),
-        costPerLiterCents: r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
-        qualityStandard: r.qualityStandard, screeningVerdict: r.screeningVerdict,
+        costPerLiterCents:
+          r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
+        qualityStandard: r.qualityStandard,
+        screeningVerdict: r.screeningVerdict,
         // Judged from the results themselves (a verdict stored under an older rule is not trusted).
         ...(r.status === 'imported'
-          // An imported batch has no results here, only the verdict recorded then.
-          ? { qualityVerdict: r.qualityVerdict, qualityText: r.qualityVerdict === 'incomplete' ? 'Not recorded' : `${r.qualityVerdict === 'pass' ? 'Passed' : 'Failed'} (as recorded)`, qualityKind: r.qualityVerdict === 'fail' ? 'fails' as const : 'screened' as const }
+          ? // An imported batch has no results here, only the verdict recorded then.
+            {
+              qualityVerdict: r.qualityVerdict,
+              qualityText:
+                r.qualityVerdict === 'incomplete'
+                  ? 'Not recorded'
+                  : `${r.qualityVerdict === 'pass' ? 'Passed' : 'Failed'} (as recorded)`,
+              qualityKind: r.qualityVerdict === 'fail' ? ('fails' as const) : ('screened' as const),
+            }
           : ((v) => ({ qualityVerdict: v.overall, qualityText: v.text, qualityKind: v.kind }))(qualityOf(r))),
       };
     }),
-    total: Number(total ?? 0), page: q.page, pageSize: q.pageSize,
+    total: Number(total ?? 0),
+    page: q.page,
+    pageSize: q.pageSize,
   };
 }

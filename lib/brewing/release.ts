@@ -10,14 +10,32 @@ import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatVolume, litersToGallons, volumeToLiters } from '@/lib/units';
 import { inTransaction } from '@/lib/db';
 import { Batch, ChemicalConsumption, ChemicalLot, Tank } from '@/models';
-import { batchOilLotShares, energyCentsOf, feedstockShareCents, getBatch, labResultsOf, loadBatch, type BatchDto, type BatchRecord } from './read';
+import {
+  batchOilLotShares,
+  energyCentsOf,
+  feedstockShareCents,
+  getBatch,
+  labResultsOf,
+  loadBatch,
+  type BatchDto,
+  type BatchRecord,
+} from './read';
 import { evaluateQuality } from '@/lib/quality';
 
 type BatchCreation = InferCreationAttributes<Batch>;
-type LotRow = Pick<InferAttributes<ChemicalLot>, 'id' | 'receivedOn' | 'quantity' | 'remainingQuantity' | 'totalCostCents'>;
+type LotRow = Pick<
+  InferAttributes<ChemicalLot>,
+  'id' | 'receivedOn' | 'quantity' | 'remainingQuantity' | 'totalCostCents'
+>;
 
 /** One chemical the batch used, in the lots' unit (L of methanol, g of catalyst). */
-interface Need { kind: 'methanol' | 'KOH' | 'NaOH'; quantity: number; field: string; label: string; unit: 'L' | 'g' }
+interface Need {
+  kind: 'methanol' | 'KOH' | 'NaOH';
+  quantity: number;
+  field: string;
+  label: string;
+  unit: 'L' | 'g';
+}
 
 /**
  * Takes what a batch used from the chemical lots, oldest first (lib/costing consumeFifo), and
@@ -45,11 +63,27 @@ export async function consumeChemicals(
       const page: LotRow[] = await ChemicalLot.findAll({
         attributes: ['id', 'receivedOn', 'quantity', 'remainingQuantity', 'totalCostCents'],
         where: {
-          coopId, kind: need.kind, remainingQuantity: { [Op.gt]: 0 },
+          coopId,
+          kind: need.kind,
+          remainingQuantity: { [Op.gt]: 0 },
           // (received_on, id) after the last lot of the previous page
-          ...(after ? { [Op.or]: [{ receivedOn: { [Op.gt]: after.receivedOn } }, { receivedOn: after.receivedOn, id: { [Op.gt]: after.id } }] } : {}),
+          ...(after
+            ? {
+                [Op.or]: [
+                  { receivedOn: { [Op.gt]: after.receivedOn } },
+                  { receivedOn: after.receivedOn, id: { [Op.gt]: after.id } },
+                ],
+              }
+            : {}),
         },
-        order: [['receivedOn', 'ASC'], ['id', 'ASC']], limit: 50, lock: t.LOCK.UPDATE, raw: true, transaction: t,
+        order: [
+          ['receivedOn', 'ASC'],
+          ['id', 'ASC'],
+        ],
+        limit: 50,
+        lock: t.LOCK.UPDATE,
+        raw: true,
+        transaction: t,
       });
       if (page.length === 0) break;
       lots.push(...page);
@@ -58,7 +92,11 @@ export async function consumeChemicals(
       after = { receivedOn: last.receivedOn, id: last.id };
     }
     const fifoLots: FifoLotByTotal[] = lots.map((l) => ({
-      id: l.id, receivedAt: l.receivedOn, qty: Number(l.quantity), remainingQty: Number(l.remainingQuantity), totalCostCents: Number(l.totalCostCents),
+      id: l.id,
+      receivedAt: l.receivedOn,
+      qty: Number(l.quantity),
+      remainingQty: Number(l.remainingQuantity),
+      totalCostCents: Number(l.totalCostCents),
     }));
     const result = consumeFifo(fifoLots, qty);
     if (result.shortfallQty > 0 && !allowShortfall) {
@@ -67,16 +105,26 @@ export async function consumeChemicals(
     }
     plans.push({ need, result });
   }
-  if (Object.keys(shortages).length) throw new HttpError(409, 'There is not enough in stock to cover this batch.', shortages);
+  if (Object.keys(shortages).length)
+    throw new HttpError(409, 'There is not enough in stock to cover this batch.', shortages);
 
   for (const { need, result } of plans) {
     const slices = result.allocations.filter((a) => a.qty > 0);
     await ChemicalConsumption.bulkCreate(
-      slices.map((a) => ({ coopId, batchId, chemicalLotId: Number(a.lotId), quantity: a.qty.toFixed(3), costCents: String(a.costCents) })),
+      slices.map((a) => ({
+        coopId,
+        batchId,
+        chemicalLotId: Number(a.lotId),
+        quantity: a.qty.toFixed(3),
+        costCents: String(a.costCents),
+      })),
       { transaction: t },
     );
     for (const a of slices) {
-      await ChemicalLot.update({ remainingQuantity: a.remainingQtyAfter.toFixed(3) }, { where: { id: Number(a.lotId), coopId }, transaction: t });
+      await ChemicalLot.update(
+        { remainingQuantity: a.remainingQtyAfter.toFixed(3) },
+        { where: { id: Number(a.lotId), coopId }, transaction: t },
+      );
     }
     out[need.kind] = { costCents: result.totalCostCents, shortfall: result.shortfallQty };
   }
@@ -100,7 +148,9 @@ async function feedstockFromLots(t: Transaction, coopId: number, batchId: number
 
 /** The batch's stored feedstock cost: the typed override, else its oil lots' shares. */
 async function feedstockCentsOf(t: Transaction, coopId: number, row: BatchRecord): Promise<number> {
-  return row.feedstockCentsOverride !== null ? Number(row.feedstockCentsOverride) : feedstockFromLots(t, coopId, row.id);
+  return row.feedstockCentsOverride !== null
+    ? Number(row.feedstockCentsOverride)
+    : feedstockFromLots(t, coopId, row.id);
 }
 
 /**
@@ -113,15 +163,24 @@ async function feedstockCentsOf(t: Transaction, coopId: number, row: BatchRecord
  * @param id batch id (another co-op's → 404)
  * @param input tank and the volume released, typed in the co-op's units
  */
-export async function releaseBatch(actor: Actor, id: number, input: { tankId: number; volume: number; reason?: string }): Promise<BatchDto> {
+export async function releaseBatch(
+  actor: Actor,
+  id: number,
+  input: { tankId: number; volume: number; reason?: string },
+): Promise<BatchDto> {
   const coopId = actor.coop.id;
   const releasedMl = litersToMl(volumeToLiters(input.volume, actor.coop.units).toFixed(3));
-  if (releasedMl <= 0) throw new HttpError(422, 'Some fields need attention.', { volume: ['Volume released must be more than 0.'] });
+  if (releasedMl <= 0)
+    throw new HttpError(422, 'Some fields need attention.', { volume: ['Volume released must be more than 0.'] });
   const releasedLiters = mlToLiters(releasedMl);
   await inTransaction(async (t) => {
     const row = await loadBatch(coopId, id, t, true);
-    if (row.status === 'released' || row.status === 'rejected') throw conflict(`Batch ${row.number} is already ${row.status}.`);
-    if (row.status !== 'testing') throw conflict(`Move batch ${row.number} to testing and record its quality checks before releasing it (it is at “${row.status}”).`);
+    if (row.status === 'released' || row.status === 'rejected')
+      throw conflict(`Batch ${row.number} is already ${row.status}.`);
+    if (row.status !== 'testing')
+      throw conflict(
+        `Move batch ${row.number} to testing and record its quality checks before releasing it (it is at “${row.status}”).`,
+      );
     // Releasing fuel that does not meet the standard in full is a deliberate act: it needs a written reason.
     const quality = evaluateQuality(row.qualityStandard, labResultsOf(row)).verdict;
     const reason = input.reason?.trim() ?? '';
@@ -131,8 +190,14 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
       });
     }
 
-    const tankBefore = await Tank.findOne({ attributes: ['id'], where: { id: input.tankId, coopId, active: true }, raw: true, transaction: t });
-    if (!tankBefore) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s active tanks.'] });
+    const tankBefore = await Tank.findOne({
+      attributes: ['id'],
+      where: { id: input.tankId, coopId, active: true },
+      raw: true,
+      transaction: t,
+    });
+    if (!tankBefore)
+      throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s active tanks.'] });
 
     const used = await consumeChemicals(t, coopId, id, needsOf(row), false);
     const methanolCents = used.methanol.costCents;
@@ -141,13 +206,20 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
     const feedstockCents = await feedstockCentsOf(t, coopId, row);
     const otherCents = Number(row.otherCents);
     const cost = batchCost({
-      chemicalsCents: methanolCents + catalystCents, energyCents, feedstockCents, otherCents,
+      chemicalsCents: methanolCents + catalystCents,
+      energyCents,
+      feedstockCents,
+      otherCents,
       gallonsReleased: litersToGallons(Number(releasedLiters)),
     });
 
     // Locked after the chemical lots (batch → lots → tank, the same order for every release).
     const tank = await Tank.findOne({
-      attributes: ['capacityLiters', 'onHandLiters'], where: { id: input.tankId, coopId }, lock: t.LOCK.UPDATE, raw: true, transaction: t,
+      attributes: ['capacityLiters', 'onHandLiters'],
+      where: { id: input.tankId, coopId },
+      lock: t.LOCK.UPDATE,
+      raw: true,
+      transaction: t,
     });
     const roomMl = litersToMl(tank!.capacityLiters) - litersToMl(tank!.onHandLiters);
     if (releasedMl > roomMl) {
@@ -155,25 +227,63 @@ export async function releaseBatch(actor: Actor, id: number, input: { tankId: nu
         volume: [`The tank has room for only ${formatVolume(Math.max(0, roomMl) / 1000, actor.coop.units, 1)}.`],
       });
     }
-    await recordMovement(t, { coopId, tankId: input.tankId, kind: 'release', quantityMl: releasedMl, valueCents: cost.totalCents, batchId: id, userId: actor.user.id });
+    await recordMovement(t, {
+      coopId,
+      tankId: input.tankId,
+      kind: 'release',
+      quantityMl: releasedMl,
+      valueCents: cost.totalCents,
+      batchId: id,
+      userId: actor.user.id,
+    });
 
     const after = {
-      status: 'released', tankId: input.tankId, releasedLiters, costMethanolCents: methanolCents, costCatalystCents: catalystCents,
-      costEnergyCents: energyCents, costFeedstockCents: feedstockCents, costOtherCents: otherCents, totalCostCents: cost.totalCents,
-      costPerGallonCents: cost.costPerGallonCents, quality: quality.text, ...(reason ? { releaseReason: reason } : {}),
+      status: 'released',
+      tankId: input.tankId,
+      releasedLiters,
+      costMethanolCents: methanolCents,
+      costCatalystCents: catalystCents,
+      costEnergyCents: energyCents,
+      costFeedstockCents: feedstockCents,
+      costOtherCents: otherCents,
+      totalCostCents: cost.totalCents,
+      costPerGallonCents: cost.costPerGallonCents,
+      quality: quality.text,
+      ...(reason ? { releaseReason: reason } : {}),
     };
     const now = new Date();
     await Batch.update(
       {
-        status: 'released', statusChangedAt: now, releasedAt: now, tankId: input.tankId, releasedLiters: String(releasedLiters),
-        costMethanolCents: String(methanolCents), costCatalystCents: String(catalystCents), costEnergyCents: String(energyCents),
-        costFeedstockCents: String(feedstockCents), costOtherCents: String(otherCents), totalCostCents: String(cost.totalCents),
+        status: 'released',
+        statusChangedAt: now,
+        releasedAt: now,
+        tankId: input.tankId,
+        releasedLiters: String(releasedLiters),
+        costMethanolCents: String(methanolCents),
+        costCatalystCents: String(catalystCents),
+        costEnergyCents: String(energyCents),
+        costFeedstockCents: String(feedstockCents),
+        costOtherCents: String(otherCents),
+        totalCostCents: String(cost.totalCents),
         costPerGallonCents: cost.costPerGallonCents === null ? null : String(cost.costPerGallonCents),
-        ...(reason ? { notes: `${row.notes ? `${row.notes}\n\n` : ''}Released with quality “${quality.text}”: ${reason}` } : {}),
+        ...(reason
+          ? { notes: `${row.notes ? `${row.notes}\n\n` : ''}Released with quality “${quality.text}”: ${reason}` }
+          : {}),
       },
       { where: { id, coopId }, transaction: t },
     );
-    await audit({ coopId, actorUserId: actor.user.id, action: 'batch.release', entityType: 'batch', entityId: id, before: { status: row.status }, after }, t);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'batch.release',
+        entityType: 'batch',
+        entityId: id,
+        before: { status: row.status },
+        after,
+      },
+      t,
+    );
   });
   await checkLowStock(actor.coop.id);
   return getBatch(actor, id);
@@ -188,18 +298,39 @@ export async function rejectBatch(actor: Actor, id: number, reason: string): Pro
   const coopId = actor.coop.id;
   await inTransaction(async (t) => {
     const row = await loadBatch(coopId, id, t, true);
-    if (row.status === 'released' || row.status === 'rejected') throw conflict(`Batch ${row.number} is already ${row.status}.`);
+    if (row.status === 'released' || row.status === 'rejected')
+      throw conflict(`Batch ${row.number} is already ${row.status}.`);
     // Once the reaction has started its chemicals are gone: they and the other costs stay on the batch.
-    let costs: Partial<Pick<BatchCreation, 'costMethanolCents' | 'costCatalystCents' | 'costEnergyCents' | 'costFeedstockCents' | 'costOtherCents' | 'totalCostCents'>> = {};
+    let costs: Partial<
+      Pick<
+        BatchCreation,
+        | 'costMethanolCents'
+        | 'costCatalystCents'
+        | 'costEnergyCents'
+        | 'costFeedstockCents'
+        | 'costOtherCents'
+        | 'totalCostCents'
+      >
+    > = {};
     if (row.status !== 'planned') {
       const used = await consumeChemicals(t, coopId, id, needsOf(row), true);
       const energy = energyCentsOf(row) ?? 0;
       const feedstock = await feedstockCentsOf(t, coopId, row);
       const other = Number(row.otherCents);
-      const cost = batchCost({ chemicalsCents: used.methanol.costCents + used[row.catalyst].costCents, energyCents: energy, feedstockCents: feedstock, otherCents: other, gallonsReleased: 0 });
+      const cost = batchCost({
+        chemicalsCents: used.methanol.costCents + used[row.catalyst].costCents,
+        energyCents: energy,
+        feedstockCents: feedstock,
+        otherCents: other,
+        gallonsReleased: 0,
+      });
       costs = {
-        costMethanolCents: String(used.methanol.costCents), costCatalystCents: String(used[row.catalyst].costCents), costEnergyCents: String(energy),
-        costFeedstockCents: String(feedstock), costOtherCents: String(other), totalCostCents: String(cost.totalCents),
+        costMethanolCents: String(used.methanol.costCents),
+        costCatalystCents: String(used[row.catalyst].costCents),
+        costEnergyCents: String(energy),
+        costFeedstockCents: String(feedstock),
+        costOtherCents: String(other),
+        totalCostCents: String(cost.totalCents),
       };
     }
     const now = new Date();
@@ -207,7 +338,18 @@ export async function rejectBatch(actor: Actor, id: number, reason: string): Pro
       { status: 'rejected', statusChangedAt: now, rejectedAt: now, rejectReason: reason, ...costs },
       { where: { id, coopId }, transaction: t },
     );
-    await audit({ coopId, actorUserId: actor.user.id, action: 'batch.reject', entityType: 'batch', entityId: id, before: { status: row.status }, after: { status: 'rejected', reason, ...costs } }, t);
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'batch.reject',
+        entityType: 'batch',
+        entityId: id,
+        before: { status: row.status },
+        after: { status: 'rejected', reason, ...costs },
+      },
+      t,
+    );
   });
   await checkLowStock(actor.coop.id);
   return getBatch(actor, id);

@@ -16,7 +16,9 @@ export interface BatchQuality {
  * rule is not trusted). Used by the batch list and the overview; the batch page and the PDF take
  * the full evaluation from the same function.
  */
-export function qualityOf(row: Pick<BatchRecord, 'qualityStandard' | 'labResults'>): BatchQuality & { overall: 'pass' | 'fail' | 'incomplete' } {
+export function qualityOf(
+  row: Pick<BatchRecord, 'qualityStandard' | 'labResults'>,
+): BatchQuality & { overall: 'pass' | 'fail' | 'incomplete' } {
   const e = evaluateQuality(row.qualityStandard, (row.labResults ?? {}) as QualityResults);
   return { text: e.verdict.text, kind: e.verdict.kind, overall: e.overall };
 }

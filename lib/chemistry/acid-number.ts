@@ -41,7 +41,8 @@ export interface AcidNumberInput {
  * @returns mL of 1 g/L KOH titrant per mL oil (NaOH × 1.4027, IUPAC molar masses)
  */
 export function kohEquivalentTitrationMl(titrationMl: number, titrant: Catalyst): number {
-  if (!Number.isFinite(titrationMl) || titrationMl < 0) throw new RangeError(`Titration must be ≥ 0 mL, got ${titrationMl}`);
+  if (!Number.isFinite(titrationMl) || titrationMl < 0)
+    throw new RangeError(`Titration must be ≥ 0 mL, got ${titrationMl}`);
   return titrant === 'NaOH' ? titrationMl * KOH_PER_NAOH : titrationMl;
 }
 
@@ -99,7 +100,10 @@ const BAND_MESSAGES: Record<OilQualityBand, string> = {
  * @param oilDensityGPerMl oil density for the AN/FFA figures, default 0.92
  * @returns band, AN, FFA and whether acid pre-treatment is advised
  */
-export function oilQualityBand(titrationMlKohEquivalent: number, oilDensityGPerMl = OIL_DENSITY_G_PER_ML): OilQualityAssessment {
+export function oilQualityBand(
+  titrationMlKohEquivalent: number,
+  oilDensityGPerMl = OIL_DENSITY_G_PER_ML,
+): OilQualityAssessment {
   const an = acidNumber({ titrationMl: titrationMlKohEquivalent, titrant: 'KOH', oilDensityGPerMl });
   const ffaPercent = ffaPercentFromAcidNumber(an);
   const band = OIL_QUALITY_BAND_LIMITS_ML.find((b) => titrationMlKohEquivalent <= b.maxMl)?.band ?? 'reject';

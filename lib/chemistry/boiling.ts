@@ -38,7 +38,8 @@ function assertElevation(elevationM: number): void {
  */
 export function pressureAtElevationPa(elevationM: number): number {
   assertElevation(elevationM);
-  const { seaLevelPa, seaLevelK, lapseRateKPerM, gravityMPerS2, airMolarMassKgPerMol, gasConstant } = STANDARD_ATMOSPHERE;
+  const { seaLevelPa, seaLevelK, lapseRateKPerM, gravityMPerS2, airMolarMassKgPerMol, gasConstant } =
+    STANDARD_ATMOSPHERE;
   const exponent = (gravityMPerS2 * airMolarMassKgPerMol) / (gasConstant * lapseRateKPerM); // ≈ 5.2559
   return seaLevelPa * (1 - (lapseRateKPerM * elevationM) / seaLevelK) ** exponent;
 }
@@ -50,7 +51,8 @@ export function pressureAtElevationPa(elevationM: number): number {
  * @returns boiling temperature, °C (at 101 325 Pa ≈ 64.55 °C; CRC lists 64.7 °C)
  */
 export function methanolAntoineBoilingC(pressurePa: number): number {
-  if (!Number.isFinite(pressurePa) || pressurePa <= 0) throw new RangeError(`Pressure must be > 0 Pa, got ${pressurePa}`);
+  if (!Number.isFinite(pressurePa) || pressurePa <= 0)
+    throw new RangeError(`Pressure must be > 0 Pa, got ${pressurePa}`);
   const { A, B, C } = METHANOL_ANTOINE;
   return B / (A - Math.log10(pressurePa / PA_PER_BAR)) - C - KELVIN_OFFSET;
 }

@@ -112,7 +112,11 @@ export function catalystGrams(input: CatalystInput): CatalystResult {
   const factor = molarFactor(titrant, catalyst);
   const titrationPureGramsPerLiter = titrationMl * factor;
   const rule: CatalystRule =
-    titrant !== catalyst ? 'converted-all-over-purity' : titrantFrom === 'same-catalyst' ? 'base-over-purity-plus-titration' : 'all-over-purity';
+    titrant !== catalyst
+      ? 'converted-all-over-purity'
+      : titrantFrom === 'same-catalyst'
+        ? 'base-over-purity-plus-titration'
+        : 'all-over-purity';
   const gramsPerLiter =
     rule === 'base-over-purity-plus-titration'
       ? baseGramsPerLiter / purity + titrationMl
@@ -120,7 +124,9 @@ export function catalystGrams(input: CatalystInput): CatalystResult {
   const totalGrams = gramsPerLiter * oilLiters;
 
   const wholePct = Number.isInteger(purityPct);
-  const purityText = `${fmt(purity, wholePct ? 2 : 4).replace(/0+$/, '').replace(/\.$/, '.0')} (${wholePct ? purityPct : Number(purityPct.toFixed(2))} % purity)`;
+  const purityText = `${fmt(purity, wholePct ? 2 : 4)
+    .replace(/0+$/, '')
+    .replace(/\.$/, '.0')} (${wholePct ? purityPct : Number(purityPct.toFixed(2))} % purity)`;
   const titration = `${fmt(titrationMl, 2)} mL ${titrant} titration`;
   const arithmetic =
     rule === 'base-over-purity-plus-titration'

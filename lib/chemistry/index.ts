@@ -34,7 +34,14 @@ export {
   METHANOL_BOILING_POINT_F,
 } from './temperature';
 export type { TemperatureCheck, TemperatureLevel } from './temperature';
-export { expectedYields, projectedFuelYield, YIELD_ASSUMPTIONS, CRUDE_GLYCERIN_FRACTION, IDEAL_FUEL_PER_OIL, YIELD_HISTORY_BATCHES } from './yields';
+export {
+  expectedYields,
+  projectedFuelYield,
+  YIELD_ASSUMPTIONS,
+  CRUDE_GLYCERIN_FRACTION,
+  IDEAL_FUEL_PER_OIL,
+  YIELD_HISTORY_BATCHES,
+} from './yields';
 export type { ExpectedYields, FuelYieldProjection, YieldHistoryBatch } from './yields';
 export { temperatureBands, altitudeNote } from './temperature';
 export type { TemperatureBands, TemperatureOptions } from './temperature';

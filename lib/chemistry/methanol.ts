@@ -44,7 +44,8 @@ function assertOilLiters(oilLiters: number): void {
  */
 export function methanolLitersByPercent(oilLiters: number, methanolPct = DEFAULT_METHANOL_PERCENT): number {
   assertOilLiters(oilLiters);
-  if (!Number.isFinite(methanolPct) || methanolPct < 0) throw new RangeError(`Methanol % must be ≥ 0, got ${methanolPct}`);
+  if (!Number.isFinite(methanolPct) || methanolPct < 0)
+    throw new RangeError(`Methanol % must be ≥ 0, got ${methanolPct}`);
   return (oilLiters * methanolPct) / 100;
 }
 
@@ -58,7 +59,8 @@ export function methanolLitersByPercent(oilLiters: number, methanolPct = DEFAULT
  */
 export function methanolLitersByMolarRatio(oilLiters: number, molarRatio: number, oil: OilProperties = {}): number {
   assertOilLiters(oilLiters);
-  if (!Number.isFinite(molarRatio) || molarRatio < 0) throw new RangeError(`Molar ratio must be ≥ 0, got ${molarRatio}`);
+  if (!Number.isFinite(molarRatio) || molarRatio < 0)
+    throw new RangeError(`Molar ratio must be ≥ 0, got ${molarRatio}`);
   return (oilLiters * oilMolesPerLiter(oil) * molarRatio) / METHANOL_MOLES_PER_LITER;
 }
 
@@ -69,7 +71,8 @@ export function methanolLitersByMolarRatio(oilLiters: number, molarRatio: number
  * @returns molar ratio (20 % ≈ 4.75)
  */
 export function molarRatioFromPercent(methanolPct: number, oil: OilProperties = {}): number {
-  if (!Number.isFinite(methanolPct) || methanolPct < 0) throw new RangeError(`Methanol % must be ≥ 0, got ${methanolPct}`);
+  if (!Number.isFinite(methanolPct) || methanolPct < 0)
+    throw new RangeError(`Methanol % must be ≥ 0, got ${methanolPct}`);
   return ((methanolPct / 100) * METHANOL_MOLES_PER_LITER) / oilMolesPerLiter(oil);
 }
 

@@ -95,7 +95,10 @@ function distinct(aC: number, bC: number, system: UnitSystem): [string, string] 
 export function altitudeNote(elevationM: number, system: UnitSystem): string | null {
   const bands = temperatureBands(elevationM);
   if (bands.depressionC < 0.05) return null;
-  const elevation = system === 'us' ? `${Math.round(elevationM / 0.3048).toLocaleString('en-US')} ft` : `${Math.round(elevationM).toLocaleString('en-US')} m`;
+  const elevation =
+    system === 'us'
+      ? `${Math.round(elevationM / 0.3048).toLocaleString('en-US')} ft`
+      : `${Math.round(elevationM).toLocaleString('en-US')} m`;
   const drop = system === 'us' ? `${(bands.depressionC * 1.8).toFixed(1)} °F` : `${bands.depressionC.toFixed(1)} °C`; // a temperature difference: 1 °C = 1.8 °F (NIST SP 811)
   return `At ${elevation} methanol boils at about ${formatTemp(bands.boilingC, system, 1)}, not ${formatTemp(METHANOL_BOILING_POINT_C, system, 1)}: boiling starts lower at altitude, so the warning and usual ranges here are ${drop} lower than at sea level.`;
 }
@@ -113,7 +116,11 @@ export function altitudeNote(elevationM: number, system: UnitSystem): string | n
  * @param options the co-op's elevation
  * @returns level, whether it is within the usual range, the boiling point used and a message
  */
-export function temperatureCheck(tempC: number, system: UnitSystem = 'us', options: TemperatureOptions = {}): TemperatureCheck {
+export function temperatureCheck(
+  tempC: number,
+  system: UnitSystem = 'us',
+  options: TemperatureOptions = {},
+): TemperatureCheck {
   if (!Number.isFinite(tempC)) throw new RangeError(`Temperature must be a number, got ${tempC}`);
   const bands = temperatureBands(options.elevationM ?? 0);
   const t = (c: number) => formatTemp(c, system, system === 'us' ? 0 : 1);

@@ -4,7 +4,14 @@
  * (1991) 139 (from memory). With fewer than 3 trials no trial can be singled out.
  */
 export const DIXON_Q90: Readonly<Record<number, number>> = {
-  3: 0.941, 4: 0.765, 5: 0.642, 6: 0.56, 7: 0.507, 8: 0.468, 9: 0.437, 10: 0.412,
+  3: 0.941,
+  4: 0.765,
+  5: 0.642,
+  6: 0.56,
+  7: 0.507,
+  8: 0.468,
+  9: 0.437,
+  10: 0.412,
 };
 
 /**

@@ -24,7 +24,10 @@ export const CRUDE_GLYCERIN_FRACTION = { low: 0.15, typical: 0.2, high: 0.25 } a
  */
 export const IDEAL_FUEL_PER_OIL = (() => {
   const oilMol = (1000 * OIL_DENSITY_G_PER_ML) / TRIOLEIN_MOLAR_MASS_G_PER_MOL; // per L of oil
-  const fuelGrams = 1000 * OIL_DENSITY_G_PER_ML + oilMol * METHANOL_PER_TRIGLYCERIDE_MOL * METHANOL_MOLAR_MASS_G_PER_MOL - oilMol * GLYCEROL_MOLAR_MASS_G_PER_MOL;
+  const fuelGrams =
+    1000 * OIL_DENSITY_G_PER_ML +
+    oilMol * METHANOL_PER_TRIGLYCERIDE_MOL * METHANOL_MOLAR_MASS_G_PER_MOL -
+    oilMol * GLYCEROL_MOLAR_MASS_G_PER_MOL;
   return fuelGrams / 1000 / B100_DENSITY_KG_PER_L;
 })();
 
@@ -65,7 +68,10 @@ function median(values: readonly number[]): number {
  */
 export function projectedFuelYield(history: readonly YieldHistoryBatch[]): FuelYieldProjection {
   const ratios = history
-    .filter((b) => Number.isFinite(b.oilLiters) && Number.isFinite(b.releasedLiters) && b.oilLiters > 0 && b.releasedLiters > 0)
+    .filter(
+      (b) =>
+        Number.isFinite(b.oilLiters) && Number.isFinite(b.releasedLiters) && b.oilLiters > 0 && b.releasedLiters > 0,
+    )
     .slice(0, YIELD_HISTORY_BATCHES)
     .map((b) => b.releasedLiters / b.oilLiters);
   if (ratios.length === 0) {

@@ -12,13 +12,27 @@ import { Coop, Membership } from '@/models';
 export async function createCoop(user: SessionUser, input: z.infer<typeof coopCreateSchema>) {
   try {
     return await inTransaction(async (transaction) => {
-      const coop = await Coop.create({ name: input.name, slug: input.slug, units: input.units, timezone: input.timezone }, { transaction });
+      const coop = await Coop.create(
+        { name: input.name, slug: input.slug, units: input.units, timezone: input.timezone },
+        { transaction },
+      );
       await Membership.create({ coopId: coop.id, userId: user.id, role: 'admin' }, { transaction });
-      await audit({ coopId: coop.id, actorUserId: user.id, action: 'coop.create', entityType: 'coop', entityId: coop.id, after: { name: coop.name, slug: coop.slug, units: coop.units } }, transaction);
+      await audit(
+        {
+          coopId: coop.id,
+          actorUserId: user.id,
+          action: 'coop.create',
+          entityType: 'coop',
+          entityId: coop.id,
+          after: { name: coop.name, slug: coop.slug, units: coop.units },
+        },
+        transaction,
+      );
       return { id: coop.id, slug: coop.slug, name: coop.name };
     });
   } catch (e) {
-    if (e instanceof UniqueConstraintError) throw new HttpError(422, 'Some fields need attention.', { slug: ['That web address is taken.'] });
+    if (e instanceof UniqueConstraintError)
+      throw new HttpError(422, 'Some fields need attention.', { slug: ['That web address is taken.'] });
     throw e;
   }
 }

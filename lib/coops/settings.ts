@@ -16,12 +16,22 @@ export type { CoopSettingsDto };
 const FEET_TO_METERS = 0.3048;
 
 /** Recipe defaults when a co-op has set none: NaOH 3.5 g/L fresh-oil base, 20 % methanol (common practice). */
-const DEFAULTS = { catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 98, methanolPct: 20, qualityStandard: 'ASTM D6751' } as const;
+const DEFAULTS = {
+  catalyst: 'NaOH',
+  baseGramsPerLiter: 3.5,
+  purityPct: 98,
+  methanolPct: 20,
+  qualityStandard: 'ASTM D6751',
+} as const;
 
 function toDto(c: Coop): CoopSettingsDto {
   const s: CoopSettings = c.settings ?? {};
   return {
-    name: c.name, slug: c.slug, units: c.units, timezone: c.timezone, currency: c.currency,
+    name: c.name,
+    slug: c.slug,
+    units: c.units,
+    timezone: c.timezone,
+    currency: c.currency,
     monthlyDuesCents: s.monthlyDuesCents ?? 0,
     selfServeDraws: s.selfServeDraws ?? false,
     catalyst: s.recipe?.catalyst ?? DEFAULTS.catalyst,
@@ -47,9 +57,16 @@ export async function updateCoopSettings(actor: Actor, input: CoopSettingsUpdate
     const coop = await Coop.findByPk(actor.coop.id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!coop) throw notFound();
     const before = toDto(coop);
-    const elevationM = input.elevation === undefined ? undefined : input.units === 'us' ? input.elevation * FEET_TO_METERS : input.elevation;
+    const elevationM =
+      input.elevation === undefined
+        ? undefined
+        : input.units === 'us'
+          ? input.elevation * FEET_TO_METERS
+          : input.elevation;
     if (elevationM !== undefined && (elevationM < MIN_ELEVATION_M || elevationM > MAX_ELEVATION_M)) {
-      throw new HttpError(422, 'Some fields need attention.', { elevation: [input.units === 'us' ? 'Between −1,640 and 16,400 ft.' : 'Between −500 and 5,000 m.'] });
+      throw new HttpError(422, 'Some fields need attention.', {
+        elevation: [input.units === 'us' ? 'Between −1,640 and 16,400 ft.' : 'Between −500 and 5,000 m.'],
+      });
     }
     const settings: CoopSettings = {
       ...(coop.settings ?? {}),
@@ -57,11 +74,28 @@ export async function updateCoopSettings(actor: Actor, input: CoopSettingsUpdate
       selfServeDraws: input.selfServeDraws,
       qualityStandard: input.qualityStandard,
       ...(elevationM === undefined ? {} : { elevationM }),
-      recipe: { ...(coop.settings?.recipe ?? {}), catalyst: input.catalyst, baseGramsPerLiter: input.baseGramsPerLiter, purityPct: input.purityPct, methanolPct: input.methanolPct },
+      recipe: {
+        ...(coop.settings?.recipe ?? {}),
+        catalyst: input.catalyst,
+        baseGramsPerLiter: input.baseGramsPerLiter,
+        purityPct: input.purityPct,
+        methanolPct: input.methanolPct,
+      },
     };
     await coop.update({ name: input.name, units: input.units, timezone: input.timezone, settings }, { transaction });
     const after = toDto(coop);
-    await audit({ coopId: coop.id, actorUserId: actor.user.id, action: 'coop.settings', entityType: 'coop', entityId: coop.id, before, after }, transaction);
+    await audit(
+      {
+        coopId: coop.id,
+        actorUserId: actor.user.id,
+        action: 'coop.settings',
+        entityType: 'coop',
+        entityId: coop.id,
+        before,
+        after,
+      },
+      transaction,
+    );
     return after;
   });
 }

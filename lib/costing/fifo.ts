@@ -90,7 +90,8 @@ function validateLot(lot: FifoLot): void {
     assertCents(lot.totalCostCents, `Lot ${String(lot.id)} totalCostCents`);
     if (lot.totalCostCents < 0) throw new RangeError(`Lot ${String(lot.id)}: totalCostCents must be ≥ 0`);
     if (!Number.isFinite(lot.qty) || lot.qty <= 0) throw new RangeError(`Lot ${String(lot.id)}: qty must be > 0`);
-    if (lot.remainingQty > lot.qty + QTY_EPSILON) throw new RangeError(`Lot ${String(lot.id)}: remainingQty exceeds qty`);
+    if (lot.remainingQty > lot.qty + QTY_EPSILON)
+      throw new RangeError(`Lot ${String(lot.id)}: remainingQty exceeds qty`);
   } else if (!Number.isFinite(lot.unitCostCentsPerUnit) || lot.unitCostCentsPerUnit < 0) {
     throw new RangeError(`Lot ${String(lot.id)}: unitCostCentsPerUnit must be ≥ 0`);
   }
@@ -105,7 +106,8 @@ function validateLot(lot: FifoLot): void {
  * @returns the allocations, any shortfall, and the total cost in cents
  */
 export function consumeFifo(lots: readonly FifoLot[], qtyNeeded: number): FifoResult {
-  if (!Number.isFinite(qtyNeeded) || qtyNeeded < 0) throw new RangeError(`Quantity needed must be ≥ 0, got ${qtyNeeded}`);
+  if (!Number.isFinite(qtyNeeded) || qtyNeeded < 0)
+    throw new RangeError(`Quantity needed must be ≥ 0, got ${qtyNeeded}`);
   lots.forEach(validateLot);
   const ordered = lots
     .map((lot) => ({ lot, time: receivedTime(lot) }))

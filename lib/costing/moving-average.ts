@@ -11,9 +11,7 @@ export interface MovingAverageState {
 }
 
 /** A tank movement for {@link recomputeMovingAverage}. */
-export type TankMovement =
-  | { kind: 'in'; liters: number; valueCents: number }
-  | { kind: 'out'; liters: number };
+export type TankMovement = { kind: 'in'; liters: number; valueCents: number } | { kind: 'out'; liters: number };
 
 /** One step of {@link recomputeMovingAverage}. */
 export interface MovingAverageStep {
@@ -46,9 +44,14 @@ function assertState(state: MovingAverageState): void {
  * @param inflowValueCents cost of the litres added, integer cents (e.g. a batch's total cost)
  * @returns the new stock (the input is not modified)
  */
-export function applyInflow(state: MovingAverageState, inflowLiters: number, inflowValueCents: number): MovingAverageState {
+export function applyInflow(
+  state: MovingAverageState,
+  inflowLiters: number,
+  inflowValueCents: number,
+): MovingAverageState {
   assertState(state);
-  if (!Number.isFinite(inflowLiters) || inflowLiters <= 0) throw new RangeError(`Inflow must be > 0 L, got ${inflowLiters}`);
+  if (!Number.isFinite(inflowLiters) || inflowLiters <= 0)
+    throw new RangeError(`Inflow must be > 0 L, got ${inflowLiters}`);
   assertCents(inflowValueCents, 'inflowValueCents');
   if (inflowValueCents < 0) throw new RangeError('Inflow value must be ≥ 0 cents');
   return {
@@ -71,7 +74,8 @@ export function applyOutflow(
   outflowLiters: number,
 ): { state: MovingAverageState; valueCents: number } {
   assertState(state);
-  if (!Number.isFinite(outflowLiters) || outflowLiters <= 0) throw new RangeError(`Outflow must be > 0 L, got ${outflowLiters}`);
+  if (!Number.isFinite(outflowLiters) || outflowLiters <= 0)
+    throw new RangeError(`Outflow must be > 0 L, got ${outflowLiters}`);
   if (outflowLiters > state.qtyLiters + QTY_EPSILON) {
     throw new RangeError(`Outflow of ${outflowLiters} L exceeds the ${state.qtyLiters} L on hand`);
   }

@@ -38,31 +38,66 @@ export const openingBalances: OpeningKind<Key, Plan> = {
   columns: COLUMNS,
   async check(actor: Actor, rows: CsvRow<Key>[], t?: Transaction): Promise<Checked<Plan>[]> {
     const { units, timezone, currency } = actor.coop;
-    const emails = [...new Set(rows.flatMap((r) => { const e = emailSchema.safeParse(r.cells.email); return e.success ? [e.data] : []; }))];
+    const emails = [
+      ...new Set(
+        rows.flatMap((r) => {
+          const e = emailSchema.safeParse(r.cells.email);
+          return e.success ? [e.data] : [];
+        }),
+      ),
+    ];
     const members = emails.length
       ? await Membership.findAll({
           attributes: ['id'],
           where: { coopId: actor.coop.id },
-          include: [{ association: 'user', attributes: ['email', 'name'], required: true, where: where(fn('lower', col('user.email')), { [Op.in]: emails }) }],
+          include: [
+            {
+              association: 'user',
+              attributes: ['email', 'name'],
+              required: true,
+              where: where(fn('lower', col('user.email')), { [Op.in]: emails }),
+            },
+          ],
           transaction: t,
         })
       : [];
     const byEmail = new Map(members.map((m) => [m.user!.email.toLowerCase(), { id: m.id, name: m.user!.name }]));
     const already = new Set(
-      (await BillingAdjustment.findAll({
-        attributes: ['membershipId'],
-        where: { coopId: actor.coop.id, membershipId: [...byEmail.values()].map((m) => m.id), description: { [Op.startsWith]: OPENING_BALANCE_PREFIX } },
-        raw: true,
-        transaction: t,
-      })).map((a) => a.membershipId),
+      (
+        await BillingAdjustment.findAll({
+          attributes: ['membershipId'],
+          where: {
+            coopId: actor.coop.id,
+            membershipId: [...byEmail.values()].map((m) => m.id),
+            description: { [Op.startsWith]: OPENING_BALANCE_PREFIX },
+          },
+          raw: true,
+          transaction: t,
+        })
+      ).map((a) => a.membershipId),
     );
     const today = todayIn(timezone);
     const seen = new Map<string, number>();
     return rows.map(({ line, cells }) => {
       const c = rowChecker(line, cells);
-      const email = c.take('email', (() => { const e = emailSchema.safeParse(cells.email); return e.success ? { ok: true as const, value: e.data } : { ok: false as const, error: cells.email ? `"${cells.email}" is not an e-mail address.` : 'Empty: enter the member’s e-mail.' }; })());
+      const email = c.take(
+        'email',
+        (() => {
+          const e = emailSchema.safeParse(cells.email);
+          return e.success
+            ? { ok: true as const, value: e.data }
+            : {
+                ok: false as const,
+                error: cells.email ? `"${cells.email}" is not an e-mail address.` : 'Empty: enter the member’s e-mail.',
+              };
+        })(),
+      );
       const member = email ? byEmail.get(email) : undefined;
-      if (email && !member) c.fail('email', `${email} is not a member of this co-op yet: invite them first; their balance can be imported once they have joined.`);
+      if (email && !member)
+        c.fail(
+          'email',
+          `${email} is not a member of this co-op yet: invite them first; their balance can be imported once they have joined.`,
+        );
       if (email && seen.has(email)) c.fail('email', `Same member as row ${seen.get(email)}: one balance per member.`);
       else if (email) seen.set(email, line);
       if (member && already.has(member.id)) c.fail('email', 'This member already has an opening balance.');
@@ -71,10 +106,14 @@ export const openingBalances: OpeningKind<Key, Plan> = {
       const asOf = c.take('asOf', readDate(cells.asOf, units));
       if (asOf && asOf > today) c.fail('asOf', 'The date is in the future.');
       const owes = (cents ?? 0) > 0;
-      const note = cents !== null && asOf && member
-        ? `${member.name} ${owes ? 'owes' : 'has a credit of'} ${formatCents(Math.abs(cents), currency)} as of ${formatDate(asOf, timezone)}; carried by the next invoice.`
-        : '';
-      return c.done(note, member && cents !== null && asOf ? { membershipId: member.id, amountCents: cents, asOf } : null);
+      const note =
+        cents !== null && asOf && member
+          ? `${member.name} ${owes ? 'owes' : 'has a credit of'} ${formatCents(Math.abs(cents), currency)} as of ${formatDate(asOf, timezone)}; carried by the next invoice.`
+          : '';
+      return c.done(
+        note,
+        member && cents !== null && asOf ? { membershipId: member.id, amountCents: cents, asOf } : null,
+      );
     });
   },
   async apply(actor, rows, t) {
@@ -84,7 +123,11 @@ export const openingBalances: OpeningKind<Key, Plan> = {
     await assertPeriodOpen(coopId, period, t);
     const created = await BillingAdjustment.bulkCreate(
       rows.map((r) => ({
-        coopId, membershipId: r.plan!.membershipId, amountCents: r.plan!.amountCents, period, createdByUserId: actor.user.id,
+        coopId,
+        membershipId: r.plan!.membershipId,
+        amountCents: r.plan!.amountCents,
+        period,
+        createdByUserId: actor.user.id,
         description: `${OPENING_BALANCE_PREFIX} ${formatDate(r.plan!.asOf, actor.coop.timezone)}`,
       })),
       { transaction: t, returning: ['id'] },
@@ -100,6 +143,9 @@ export const openingBalances: OpeningKind<Key, Plan> = {
 export async function undoOpeningBalances(coopId: number, adjustmentIds: number[], t: Transaction): Promise<void> {
   await lockCoopBilling(t, coopId);
   const billed = await InvoiceLine.count({ where: { coopId, adjustmentId: adjustmentIds }, transaction: t });
-  if (billed > 0) throw conflict('Some of these balances are already on an invoice, so the import can no longer be undone. Correct a balance with an adjustment instead.');
+  if (billed > 0)
+    throw conflict(
+      'Some of these balances are already on an invoice, so the import can no longer be undone. Correct a balance with an adjustment instead.',
+    );
   await BillingAdjustment.destroy({ where: { coopId, id: adjustmentIds }, transaction: t });
 }

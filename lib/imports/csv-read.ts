@@ -30,7 +30,10 @@ const normalHeading = (s: string) => s.toLowerCase().replace(/[\s_\-.]+/g, '');
 
 /** The file's text as compared for "the same file": no BOM, line ends unified, trailing blank lines ignored. */
 export function normalizedCsvText(text: string): string {
-  return text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n').replace(/\n+$/, '');
+  return text
+    .replace(/^\uFEFF/, '')
+    .replace(/\r\n?/g, '\n')
+    .replace(/\n+$/, '');
 }
 
 /** SHA-256 of the normalized text: the same file saved again on another system hashes the same. */
@@ -45,8 +48,18 @@ export function csvFileHash(text: string): string {
  */
 export function readCsv<K extends string>(text: string, columns: readonly CsvColumn<K>[]): CsvReadResult<K> {
   const body = normalizedCsvText(text);
-  if (body.trim() === '') return { ok: false, error: 'The file is empty. Use the template: a heading row, then one row per record.', field: 'csv' };
-  const parsed = Papa.parse<string[]>(body, { delimiter: '', delimitersToGuess: [',', ';', '\t'], skipEmptyLines: false, header: false });
+  if (body.trim() === '')
+    return {
+      ok: false,
+      error: 'The file is empty. Use the template: a heading row, then one row per record.',
+      field: 'csv',
+    };
+  const parsed = Papa.parse<string[]>(body, {
+    delimiter: '',
+    delimitersToGuess: [',', ';', '\t'],
+    skipEmptyLines: false,
+    header: false,
+  });
   const data = parsed.data;
   const headerIndex = data.findIndex((r) => r.some((c) => c.trim() !== ''));
   if (headerIndex < 0) return { ok: false, error: 'The file has no heading row.', field: 'csv' };
@@ -57,7 +70,11 @@ export function readCsv<K extends string>(text: string, columns: readonly CsvCol
     const at = headings.findIndex((h) => wanted.has(normalHeading(h)));
     if (at >= 0) position.set(col.key, at);
     else if (col.required) {
-      return { ok: false, error: `The heading row has no "${col.headings[0] ?? col.key}" column. Found: ${headings.filter(Boolean).join(', ') || 'nothing'}.`, field: 'csv' };
+      return {
+        ok: false,
+        error: `The heading row has no "${col.headings[0] ?? col.key}" column. Found: ${headings.filter(Boolean).join(', ') || 'nothing'}.`,
+        field: 'csv',
+      };
     }
   }
   const used = new Set(position.values());
@@ -75,7 +92,12 @@ export function readCsv<K extends string>(text: string, columns: readonly CsvCol
         cells[col.key] = at === undefined ? '' : (record[at] ?? '').trim();
       }
       rows.push({ line, cells });
-      if (rows.length > MAX_IMPORT_ROWS) return { ok: false, error: `The file has more than ${MAX_IMPORT_ROWS} rows. Split it into smaller files.`, field: 'csv' };
+      if (rows.length > MAX_IMPORT_ROWS)
+        return {
+          ok: false,
+          error: `The file has more than ${MAX_IMPORT_ROWS} rows. Split it into smaller files.`,
+          field: 'csv',
+        };
     }
     line += span;
   }
@@ -107,7 +129,10 @@ export function parseLocaleNumber(raw: string, decimalMark: '.' | ','): string |
   const pattern = new RegExp(`^(\\d{1,3}(\\${group}\\d{3})+|\\d+)(\\${decimalMark}\\d+)?$`);
   if (!pattern.test(s)) return null;
   const [whole, frac] = s.split(decimalMark) as [string, string | undefined];
-  const digits = whole.split(group).join('').replace(/^0+(?=\d)/, '');
+  const digits = whole
+    .split(group)
+    .join('')
+    .replace(/^0+(?=\d)/, '');
   const out = frac ? `${digits}.${frac}` : digits;
   return negative && /[1-9]/.test(out) ? `-${out}` : out;
 }

@@ -12,7 +12,14 @@ import { pastBatches, undoPastBatches } from './past-batches';
 import { confirmOpening, previewOpening, type OpeningKind } from './opening';
 import { undoImport, type UndoRows } from './undo';
 
-export { getImport, importResultCsv, listImports, type ImportDetail, type ImportDto, type ImportRowDto } from './history';
+export {
+  getImport,
+  importResultCsv,
+  listImports,
+  type ImportDetail,
+  type ImportDto,
+  type ImportRowDto,
+} from './history';
 export { IMPORT_TEMPLATES, type ImportTemplate };
 
 /** What one kind of import can do: preview (writes nothing), confirm (one transaction), name its fates. */

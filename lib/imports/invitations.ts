@@ -71,21 +71,54 @@ export function classifyInvitationRows(rows: CsvRow<Key>[], known: Known): Invit
   return rows.map(({ line, cells }) => {
     const base = { line, name: cells.name, email: cells.email, role: cells.role };
     const email = emailSchema.safeParse(cells.email);
-    if (!email.success) return { ...base, fate: 'bad-email', field: 'email', message: cells.email ? `"${cells.email}" is not an e-mail address.` : 'The e-mail is empty.' };
+    if (!email.success)
+      return {
+        ...base,
+        fate: 'bad-email',
+        field: 'email',
+        message: cells.email ? `"${cells.email}" is not an e-mail address.` : 'The e-mail is empty.',
+      };
     const address = email.data;
     const role = (cells.role.trim().toLowerCase() || 'member') as Role;
-    if (!ROLES.includes(role)) return { ...base, email: address, fate: 'bad-role', field: 'role', message: `"${cells.role}" is not a role. Use one of: ${ROLES.join(', ')}.` };
+    if (!ROLES.includes(role))
+      return {
+        ...base,
+        email: address,
+        fate: 'bad-role',
+        field: 'role',
+        message: `"${cells.role}" is not a role. Use one of: ${ROLES.join(', ')}.`,
+      };
     if (cells.name !== '' && !nameSchema.safeParse(cells.name).success) {
-      return { ...base, email: address, role, fate: 'bad-name', field: 'name', message: 'The name is too long (at most 120 characters) or has control characters.' };
+      return {
+        ...base,
+        email: address,
+        role,
+        fate: 'bad-name',
+        field: 'name',
+        message: 'The name is too long (at most 120 characters) or has control characters.',
+      };
     }
     const out = { ...base, email: address, role };
     const first = firstLine.get(address);
-    if (first !== undefined) return { ...out, fate: 'duplicate', field: 'email', message: `Same e-mail as row ${first}; only row ${first} counts.` };
+    if (first !== undefined)
+      return {
+        ...out,
+        fate: 'duplicate',
+        field: 'email',
+        message: `Same e-mail as row ${first}; only row ${first} counts.`,
+      };
     firstLine.set(address, line);
-    if (known.members.has(address)) return { ...out, fate: 'member', field: null, message: 'Already a member of this co-op.' };
+    if (known.members.has(address))
+      return { ...out, fate: 'member', field: null, message: 'Already a member of this co-op.' };
     const pending = known.pending.get(address);
-    if (pending && !pending.expired) return { ...out, fate: 'invited', field: null, message: 'An invitation is already waiting to be accepted.' };
-    return { ...out, fate: 'invite', field: null, message: pending ? 'Will invite (renews an expired invitation).' : 'Will invite.' };
+    if (pending && !pending.expired)
+      return { ...out, fate: 'invited', field: null, message: 'An invitation is already waiting to be accepted.' };
+    return {
+      ...out,
+      fate: 'invite',
+      field: null,
+      message: pending ? 'Will invite (renews an expired invitation).' : 'Will invite.',
+    };
   });
 }
 
@@ -100,20 +133,33 @@ async function knownFor(actor: Actor, emails: string[], transaction?: import('se
   if (emails.length === 0) return { members: new Set(), pending: new Map() };
   // One after the other: inside a transaction they share one connection.
   const members = await Membership.findAll({
-      attributes: ['id'],
-      where: { coopId: actor.coop.id },
-      include: [{ association: 'user', attributes: ['email'], required: true, where: where(fn('lower', col('user.email')), { [Op.in]: emails }) }],
-      transaction,
-    });
+    attributes: ['id'],
+    where: { coopId: actor.coop.id },
+    include: [
+      {
+        association: 'user',
+        attributes: ['email'],
+        required: true,
+        where: where(fn('lower', col('user.email')), { [Op.in]: emails }),
+      },
+    ],
+    transaction,
+  });
   const pending = await Invitation.findAll({
-      attributes: ['id', 'email', 'expiresAt'],
-      where: { coopId: actor.coop.id, status: 'pending', [Op.and]: [where(fn('lower', col('email')), { [Op.in]: emails })] },
-      transaction,
-      ...(transaction ? { lock: transaction.LOCK.UPDATE } : {}),
-    });
+    attributes: ['id', 'email', 'expiresAt'],
+    where: {
+      coopId: actor.coop.id,
+      status: 'pending',
+      [Op.and]: [where(fn('lower', col('email')), { [Op.in]: emails })],
+    },
+    transaction,
+    ...(transaction ? { lock: transaction.LOCK.UPDATE } : {}),
+  });
   return {
     members: new Set(members.map((m) => m.user!.email.toLowerCase())),
-    pending: new Map(pending.map((p) => [p.email.toLowerCase(), { id: p.id, expired: p.expiresAt.getTime() <= Date.now() }])),
+    pending: new Map(
+      pending.map((p) => [p.email.toLowerCase(), { id: p.id, expired: p.expiresAt.getTime() <= Date.now() }]),
+    ),
   };
 }
 
@@ -123,15 +169,27 @@ function parse(input: ImportFileInput): { rows: CsvRow<Key>[]; ignoredHeadings: 
   return { rows: read.rows, ignoredHeadings: read.ignoredHeadings };
 }
 
-const validEmails = (rows: CsvRow<Key>[]) => [...new Set(rows.map((r) => emailSchema.safeParse(r.cells.email)).flatMap((r) => (r.success ? [r.data] : [])))];
+const validEmails = (rows: CsvRow<Key>[]) => [
+  ...new Set(rows.map((r) => emailSchema.safeParse(r.cells.email)).flatMap((r) => (r.success ? [r.data] : []))),
+];
 
 /** Each row's fate if the file were imported now. Writes nothing. */
 export async function previewInvitationImport(actor: Actor, input: ImportFileInput): Promise<InvitationPreview> {
   const { rows, ignoredHeadings } = parse(input);
   const fileHash = csvFileHash(input.csv);
-  const [known, earlierImport] = await Promise.all([knownFor(actor, validEmails(rows)), earlierImportOf(actor, 'invitations', fileHash)]);
+  const [known, earlierImport] = await Promise.all([
+    knownFor(actor, validEmails(rows)),
+    earlierImportOf(actor, 'invitations', fileHash),
+  ]);
   const decided = classifyInvitationRows(rows, known);
-  return { fileName: input.fileName, fileHash, rows: decided, counts: countFates(decided), ignoredHeadings, earlierImport };
+  return {
+    fileName: input.fileName,
+    fileHash,
+    rows: decided,
+    counts: countFates(decided),
+    ignoredHeadings,
+    earlierImport,
+  };
 }
 
 /**
@@ -140,7 +198,10 @@ export async function previewInvitationImport(actor: Actor, input: ImportFileInp
  * the worker, exactly once each), and records the import with every row's fate. The same file a
  * second time is a 409; a file that would invite nobody is a 422 and records nothing.
  */
-export async function confirmInvitationImport(actor: Actor, input: ImportFileInput): Promise<{ importId: number; invited: number; skipped: number }> {
+export async function confirmInvitationImport(
+  actor: Actor,
+  input: ImportFileInput,
+): Promise<{ importId: number; invited: number; skipped: number }> {
   const { rows } = parse(input);
   const fileHash = csvFileHash(input.csv);
   try {
@@ -150,14 +211,25 @@ export async function confirmInvitationImport(actor: Actor, input: ImportFileInp
       const decided = classifyInvitationRows(rows, known);
       const toInvite = decided.filter((r) => r.fate === 'invite');
       if (toInvite.length === 0) {
-        throw new HttpError(422, 'No row of this file would invite anyone: everyone in it is a member, already invited, or has an error.', {
-          csv: ['Nothing to invite.'],
-        });
+        throw new HttpError(
+          422,
+          'No row of this file would invite anyone: everyone in it is a member, already invited, or has an error.',
+          {
+            csv: ['Nothing to invite.'],
+          },
+        );
       }
       const record = await Import.create(
         {
-          coopId: actor.coop.id, kind: 'invitations', fileName: input.fileName, fileHash, rowsTotal: decided.length,
-          rowsImported: toInvite.length, rowsSkipped: decided.length - toInvite.length, createdByUserId: actor.user.id, undoneByUserId: null,
+          coopId: actor.coop.id,
+          kind: 'invitations',
+          fileName: input.fileName,
+          fileHash,
+          rowsTotal: decided.length,
+          rowsImported: toInvite.length,
+          rowsSkipped: decided.length - toInvite.length,
+          createdByUserId: actor.user.id,
+          undoneByUserId: null,
         },
         { transaction },
       );
@@ -166,8 +238,16 @@ export async function confirmInvitationImport(actor: Actor, input: ImportFileInp
       const fresh = toInvite.filter((r) => !known.pending.has(r.email));
       const created = await Invitation.bulkCreate(
         fresh.map((r) => ({
-          coopId: actor.coop.id, email: r.email, name: r.name || null, role: r.role as Role, tokenHash: newLinkToken().hash, delivery: 'queued' as const,
-          importId: record.id, invitedByUserId: actor.user.id, expiresAt, acceptedAt: null,
+          coopId: actor.coop.id,
+          email: r.email,
+          name: r.name || null,
+          role: r.role as Role,
+          tokenHash: newLinkToken().hash,
+          delivery: 'queued' as const,
+          importId: record.id,
+          invitedByUserId: actor.user.id,
+          expiresAt,
+          acceptedAt: null,
         })),
         { transaction, returning: ['id'] },
       );
@@ -176,20 +256,43 @@ export async function confirmInvitationImport(actor: Actor, input: ImportFileInp
         // An expired invitation to this address: renewed in place with the file's role and name.
         const id = known.pending.get(r.email)!.id;
         await Invitation.update(
-          { role: r.role as Role, name: r.name || null, tokenHash: newLinkToken().hash, expiresAt, delivery: 'queued', importId: record.id, invitedByUserId: actor.user.id },
+          {
+            role: r.role as Role,
+            name: r.name || null,
+            tokenHash: newLinkToken().hash,
+            expiresAt,
+            delivery: 'queued',
+            importId: record.id,
+            invitedByUserId: actor.user.id,
+          },
           { where: { id, coopId: actor.coop.id }, transaction },
         );
         ids.set(r.line, id);
       }
       const records: ImportRowRecord[] = decided.map((r) => ({
-        line: r.line, fate: r.fate, values: { name: r.name, email: r.email, role: r.role, message: r.message }, entityId: ids.get(r.line) ?? null,
+        line: r.line,
+        fate: r.fate,
+        values: { name: r.name, email: r.email, role: r.role, message: r.message },
+        entityId: ids.get(r.line) ?? null,
       }));
       await record.update({ rows: records }, { transaction });
       await enqueueInvitationMails(actor.coop.id, [...ids.values()], transaction, true);
       await audit(
         {
-          coopId: actor.coop.id, actorUserId: actor.user.id, action: 'import.create', entityType: 'import', entityId: record.id,
-          before: null, after: { kind: 'invitations', fileName: input.fileName, fileHash, rowsTotal: decided.length, rowsImported: toInvite.length, rowsSkipped: decided.length - toInvite.length },
+          coopId: actor.coop.id,
+          actorUserId: actor.user.id,
+          action: 'import.create',
+          entityType: 'import',
+          entityId: record.id,
+          before: null,
+          after: {
+            kind: 'invitations',
+            fileName: input.fileName,
+            fileHash,
+            rowsTotal: decided.length,
+            rowsImported: toInvite.length,
+            rowsSkipped: decided.length - toInvite.length,
+          },
         },
         transaction,
       );
@@ -197,7 +300,9 @@ export async function confirmInvitationImport(actor: Actor, input: ImportFileInp
     });
   } catch (e) {
     if (e instanceof UniqueConstraintError) {
-      throw conflict('Someone invited one of these addresses, or imported this file, a moment ago. Preview the file again.');
+      throw conflict(
+        'Someone invited one of these addresses, or imported this file, a moment ago. Preview the file again.',
+      );
     }
     throw e;
   }

@@ -61,14 +61,22 @@ function parse<K extends string>(spec: OpeningKind<K, unknown>, input: ImportFil
 const strip = <P>({ plan: _plan, ...row }: Checked<P>): OpeningRow => row;
 
 /** The preview: every row checked, nothing written. */
-export async function previewOpening<K extends string, P>(actor: Actor, spec: OpeningKind<K, P>, input: ImportFileInput): Promise<OpeningPreview> {
+export async function previewOpening<K extends string, P>(
+  actor: Actor,
+  spec: OpeningKind<K, P>,
+  input: ImportFileInput,
+): Promise<OpeningPreview> {
   const read = parse(spec, input);
   const fileHash = csvFileHash(input.csv);
   const checked = await spec.check(actor, read.rows);
   const errors = checked.filter((r) => r.errors.length > 0).length;
   return {
-    fileName: input.fileName, fileHash, rows: checked.map(strip), counts: { ready: checked.length - errors, errors },
-    ignoredHeadings: read.ignoredHeadings, earlierImport: await earlierImportOf(actor, spec.kind, fileHash),
+    fileName: input.fileName,
+    fileHash,
+    rows: checked.map(strip),
+    counts: { ready: checked.length - errors, errors },
+    ignoredHeadings: read.ignoredHeadings,
+    earlierImport: await earlierImportOf(actor, spec.kind, fileHash),
   };
 }
 
@@ -77,7 +85,11 @@ export async function previewOpening<K extends string, P>(actor: Actor, spec: Op
  * every row is right, writes them all and records the import (audited). Any wrong row → 422 with
  * the rows and their fields, and nothing written; the same file a second time → 409.
  */
-export async function confirmOpening<K extends string, P>(actor: Actor, spec: OpeningKind<K, P>, input: ImportFileInput): Promise<{ importId: number; imported: number }> {
+export async function confirmOpening<K extends string, P>(
+  actor: Actor,
+  spec: OpeningKind<K, P>,
+  input: ImportFileInput,
+): Promise<{ importId: number; imported: number }> {
   const read = parse(spec, input);
   const fileHash = csvFileHash(input.csv);
   return inTransaction(async (t) => {
@@ -87,22 +99,51 @@ export async function confirmOpening<K extends string, P>(actor: Actor, spec: Op
     if (bad.length > 0) {
       const fields: Record<string, string[]> = {};
       for (const r of bad) for (const e of r.errors) (fields[`row ${r.line}: ${e.field}`] ??= []).push(e.message);
-      throw new HttpError(422, `${bad.length} row${bad.length === 1 ? ' needs' : 's need'} attention; nothing was imported.`, fields, { rows: bad.map(strip) });
+      throw new HttpError(
+        422,
+        `${bad.length} row${bad.length === 1 ? ' needs' : 's need'} attention; nothing was imported.`,
+        fields,
+        { rows: bad.map(strip) },
+      );
     }
     const record = await Import.create(
       {
-        coopId: actor.coop.id, kind: spec.kind, fileName: input.fileName, fileHash, rowsTotal: checked.length, rowsImported: checked.length, rowsSkipped: 0,
-        createdByUserId: actor.user.id, undoneByUserId: null,
+        coopId: actor.coop.id,
+        kind: spec.kind,
+        fileName: input.fileName,
+        fileHash,
+        rowsTotal: checked.length,
+        rowsImported: checked.length,
+        rowsSkipped: 0,
+        createdByUserId: actor.user.id,
+        undoneByUserId: null,
       },
       { transaction: t },
     );
     const ids = await spec.apply(actor, checked, t, record.id);
-    const rows: ImportRowRecord[] = checked.map((r, i) => ({ line: r.line, fate: 'imported', values: { ...r.values, message: r.note }, entityId: ids[i] ?? null }));
+    const rows: ImportRowRecord[] = checked.map((r, i) => ({
+      line: r.line,
+      fate: 'imported',
+      values: { ...r.values, message: r.note },
+      entityId: ids[i] ?? null,
+    }));
     await record.update({ rows }, { transaction: t });
     await audit(
       {
-        coopId: actor.coop.id, actorUserId: actor.user.id, action: 'import.create', entityType: 'import', entityId: record.id,
-        before: null, after: { kind: spec.kind, fileName: input.fileName, fileHash, rowsTotal: checked.length, rowsImported: checked.length, rowsSkipped: 0 },
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'import.create',
+        entityType: 'import',
+        entityId: record.id,
+        before: null,
+        after: {
+          kind: spec.kind,
+          fileName: input.fileName,
+          fileHash,
+          rowsTotal: checked.length,
+          rowsImported: checked.length,
+          rowsSkipped: 0,
+        },
       },
       t,
     );

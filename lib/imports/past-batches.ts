@@ -16,9 +16,21 @@ import { readDate, readMoneyCents, readQuantity, toMilli } from './values';
 const COLUMNS = [
   { key: 'number', headings: ['Batch number', 'Batch', 'Number', 'No', '#'], required: false },
   { key: 'date', headings: ['Date', 'Batch date', 'Made on'], required: true },
-  { key: 'oil', headings: ['Oil in', 'Oil in (gallons)', 'Oil in (litres)', 'Oil in (liters)', 'Oil', 'Oil gallons', 'Oil litres'], required: true },
-  { key: 'fuel', headings: ['Fuel out', 'Fuel out (gallons)', 'Fuel out (litres)', 'Fuel out (liters)', 'Fuel', 'Biodiesel'], required: true },
-  { key: 'costPerUnit', headings: ['Cost per gallon', 'Cost per litre', 'Cost per liter', 'Unit cost'], required: false },
+  {
+    key: 'oil',
+    headings: ['Oil in', 'Oil in (gallons)', 'Oil in (litres)', 'Oil in (liters)', 'Oil', 'Oil gallons', 'Oil litres'],
+    required: true,
+  },
+  {
+    key: 'fuel',
+    headings: ['Fuel out', 'Fuel out (gallons)', 'Fuel out (litres)', 'Fuel out (liters)', 'Fuel', 'Biodiesel'],
+    required: true,
+  },
+  {
+    key: 'costPerUnit',
+    headings: ['Cost per gallon', 'Cost per litre', 'Cost per liter', 'Unit cost'],
+    required: false,
+  },
   { key: 'oilCost', headings: ['Oil cost', 'Feedstock cost'], required: false },
   { key: 'methanolCost', headings: ['Methanol cost'], required: false },
   { key: 'catalystCost', headings: ['Catalyst cost', 'Lye cost'], required: false },
@@ -34,14 +46,30 @@ const INPUT_COSTS = ['oilCost', 'methanolCost', 'catalystCost', 'energyCost', 'o
  *  oil's volume (some swell from the methanol), never 10 % more (common practice, from memory). */
 export const MAX_YIELD_RATIO = 1.1;
 
-const VERDICTS: Record<string, 'pass' | 'fail'> = { pass: 'pass', passed: 'pass', ok: 'pass', good: 'pass', fail: 'fail', failed: 'fail', bad: 'fail' };
+const VERDICTS: Record<string, 'pass' | 'fail'> = {
+  pass: 'pass',
+  passed: 'pass',
+  ok: 'pass',
+  good: 'pass',
+  fail: 'fail',
+  failed: 'fail',
+  bad: 'fail',
+};
 
 interface Plan {
   number: number | null;
   date: string;
   oilLiters: string;
   fuelLiters: string;
-  costs: { methanol: number; catalyst: number; energy: number; feedstock: number; other: number; total: number; perGallon: number | null } | null;
+  costs: {
+    methanol: number;
+    catalyst: number;
+    energy: number;
+    feedstock: number;
+    other: number;
+    total: number;
+    perGallon: number | null;
+  } | null;
   verdict: 'pass' | 'fail' | 'incomplete';
   notes: string | null;
 }
@@ -59,7 +87,12 @@ function volumeMl(c: ReturnType<typeof rowChecker>, field: Key, raw: string, uni
 }
 
 /** The row's costs: either a cost per unit (the whole cost, with no breakdown) or the input costs. */
-function costsOf(c: ReturnType<typeof rowChecker>, cells: Record<Key, string>, units: 'us' | 'metric', fuelMl: number | null): Plan['costs'] | undefined {
+function costsOf(
+  c: ReturnType<typeof rowChecker>,
+  cells: Record<Key, string>,
+  units: 'us' | 'metric',
+  fuelMl: number | null,
+): Plan['costs'] | undefined {
   const given = INPUT_COSTS.filter((k) => cells[k].trim() !== '');
   const perUnitGiven = cells.costPerUnit.trim() !== '';
   if (perUnitGiven && given.length > 0) {
@@ -76,14 +109,29 @@ function costsOf(c: ReturnType<typeof rowChecker>, cells: Record<Key, string>, u
     if (per === null || per < 0 || fuelMl === null) return undefined;
     const total = roundHalfUp(per * mlToUnits(fuelMl, units));
     // A US co-op's cost per gallon is kept as written; a metric co-op's is worked out like a release's.
-    const perGallon = units === 'us' ? per : batchCost({ chemicalsCents: 0, energyCents: 0, feedstockCents: 0, otherCents: total, gallonsReleased: litersToGallons(fuelMl / 1000) }).costPerGallonCents;
+    const perGallon =
+      units === 'us'
+        ? per
+        : batchCost({
+            chemicalsCents: 0,
+            energyCents: 0,
+            feedstockCents: 0,
+            otherCents: total,
+            gallonsReleased: litersToGallons(fuelMl / 1000),
+          }).costPerGallonCents;
     return { methanol: 0, catalyst: 0, energy: 0, feedstock: 0, other: total, total, perGallon };
   }
   if (given.length === 0) return null;
   const values = INPUT_COSTS.map((k) => (cells[k].trim() === '' ? 0 : cents(k)));
   if (values.some((v) => v === null || v === undefined || v < 0) || fuelMl === null) return undefined;
   const [feedstock, methanol, catalyst, energy, other] = values as [number, number, number, number, number];
-  const cost = batchCost({ chemicalsCents: methanol + catalyst, energyCents: energy, feedstockCents: feedstock, otherCents: other, gallonsReleased: litersToGallons(fuelMl / 1000) });
+  const cost = batchCost({
+    chemicalsCents: methanol + catalyst,
+    energyCents: energy,
+    feedstockCents: feedstock,
+    otherCents: other,
+    gallonsReleased: litersToGallons(fuelMl / 1000),
+  });
   return { methanol, catalyst, energy, feedstock, other, total: cost.totalCents, perGallon: cost.costPerGallonCents };
 }
 
@@ -104,7 +152,14 @@ export const pastBatches: OpeningKind<Key, Plan> = {
     const wanted = rows.map((r) => Number(r.cells.number.trim())).filter((n) => Number.isSafeInteger(n) && n > 0);
     const taken = new Set(
       wanted.length
-        ? (await Batch.findAll({ attributes: ['number'], where: { coopId: actor.coop.id, number: wanted }, raw: true, transaction: t })).map((b) => b.number)
+        ? (
+            await Batch.findAll({
+              attributes: ['number'],
+              where: { coopId: actor.coop.id, number: wanted },
+              raw: true,
+              transaction: t,
+            })
+          ).map((b) => b.number)
         : [],
     );
     const today = todayIn(timezone);
@@ -115,8 +170,10 @@ export const pastBatches: OpeningKind<Key, Plan> = {
       const rawNumber = cells.number.trim().replace(/^#/, '');
       if (rawNumber !== '') {
         const n = Number(rawNumber);
-        if (!/^\d+$/.test(rawNumber) || !Number.isSafeInteger(n) || n <= 0 || n > 2_000_000_000) c.fail('number', `"${cells.number}" is not a batch number (a whole number from 1).`);
-        else if (taken.has(n)) c.fail('number', `The co-op already has a batch ${n}: renumber this one or leave the number empty.`);
+        if (!/^\d+$/.test(rawNumber) || !Number.isSafeInteger(n) || n <= 0 || n > 2_000_000_000)
+          c.fail('number', `"${cells.number}" is not a batch number (a whole number from 1).`);
+        else if (taken.has(n))
+          c.fail('number', `The co-op already has a batch ${n}: renumber this one or leave the number empty.`);
         else if (seen.has(n)) c.fail('number', `Same batch number as row ${seen.get(n)}.`);
         else {
           seen.set(n, line);
@@ -128,26 +185,45 @@ export const pastBatches: OpeningKind<Key, Plan> = {
       const oilMl = volumeMl(c, 'oil', cells.oil, units);
       const fuelMl = volumeMl(c, 'fuel', cells.fuel, units);
       if (oilMl && fuelMl && fuelMl > oilMl * MAX_YIELD_RATIO) {
-        c.fail('fuel', `More fuel out than ${MAX_YIELD_RATIO} × the oil in (${formatMl(oilMl, units)}): check the two volumes.`);
+        c.fail(
+          'fuel',
+          `More fuel out than ${MAX_YIELD_RATIO} × the oil in (${formatMl(oilMl, units)}): check the two volumes.`,
+        );
       }
       const costs = costsOf(c, cells, units, fuelMl);
       const verdictRaw = cells.verdict.trim().toLowerCase();
       const verdict = verdictRaw === '' ? 'incomplete' : VERDICTS[verdictRaw];
       if (!verdict) c.fail('verdict', `"${cells.verdict}" is not a verdict: write pass, fail or leave it empty.`);
       if (cells.notes.length > 2000) c.fail('notes', 'At most 2,000 characters.');
-      const note = date && oilMl && fuelMl
-        ? `${number ? `Batch ${number}` : 'Numbered on import'}, ${formatDate(date, timezone)}: ${formatMl(oilMl, units)} of oil → ${formatMl(fuelMl, units)} of fuel`
-          + (costs ? `, ${formatCents(costs.total, currency)}${costs.perGallon !== null ? ` (${formatCents(costs.perGallon, currency)}/gal)` : ''}` : ', cost not recorded')
-          + (verdict === 'pass' ? ', passed.' : verdict === 'fail' ? ', failed.' : '.')
-        : '';
-      return c.done(note, date && oilMl && fuelMl && costs !== undefined && verdict
-        ? { number, date, oilLiters: mlToLiters(oilMl), fuelLiters: mlToLiters(fuelMl), costs, verdict, notes: cells.notes.trim() || null }
-        : null);
+      const note =
+        date && oilMl && fuelMl
+          ? `${number ? `Batch ${number}` : 'Numbered on import'}, ${formatDate(date, timezone)}: ${formatMl(oilMl, units)} of oil → ${formatMl(fuelMl, units)} of fuel` +
+            (costs
+              ? `, ${formatCents(costs.total, currency)}${costs.perGallon !== null ? ` (${formatCents(costs.perGallon, currency)}/gal)` : ''}`
+              : ', cost not recorded') +
+            (verdict === 'pass' ? ', passed.' : verdict === 'fail' ? ', failed.' : '.')
+          : '';
+      return c.done(
+        note,
+        date && oilMl && fuelMl && costs !== undefined && verdict
+          ? {
+              number,
+              date,
+              oilLiters: mlToLiters(oilMl),
+              fuelLiters: mlToLiters(fuelMl),
+              costs,
+              verdict,
+              notes: cells.notes.trim() || null,
+            }
+          : null,
+      );
     });
   },
   async apply(actor, rows, t) {
     const coopId = actor.coop.id;
-    const highest = Number((await Batch.max<number | null, Batch>('number', { where: { coopId }, transaction: t })) ?? 0);
+    const highest = Number(
+      (await Batch.max<number | null, Batch>('number', { where: { coopId }, transaction: t })) ?? 0,
+    );
     let next = Math.max(highest, ...rows.map((r) => r.plan!.number ?? 0)) + 1;
     const created = await Batch.bulkCreate(
       rows.map(({ plan }) => {
@@ -155,12 +231,29 @@ export const pastBatches: OpeningKind<Key, Plan> = {
         const k = p.costs;
         const s = (v: number | null | undefined) => (v === null || v === undefined ? null : String(v));
         return {
-          coopId, number: p.number ?? next++, status: 'imported' as const, batchDate: p.date, statusChangedAt: new Date(),
-          oilLiters: p.oilLiters, releasedLiters: p.fuelLiters, releasedAt: new Date(`${p.date}T12:00:00Z`), tankId: null,
-          qualityVerdict: p.verdict, notes: p.notes, createdByUserId: actor.user.id,
-          costMethanolCents: s(k?.methanol), costCatalystCents: s(k?.catalyst), costEnergyCents: s(k?.energy), costFeedstockCents: s(k?.feedstock),
-          costOtherCents: s(k?.other), totalCostCents: s(k?.total), costPerGallonCents: s(k?.perGallon),
-          otherNotes: k && k.total === k.other && k.other > 0 && k.methanol + k.catalyst + k.energy + k.feedstock === 0 ? 'Imported as one cost, without a breakdown' : null,
+          coopId,
+          number: p.number ?? next++,
+          status: 'imported' as const,
+          batchDate: p.date,
+          statusChangedAt: new Date(),
+          oilLiters: p.oilLiters,
+          releasedLiters: p.fuelLiters,
+          releasedAt: new Date(`${p.date}T12:00:00Z`),
+          tankId: null,
+          qualityVerdict: p.verdict,
+          notes: p.notes,
+          createdByUserId: actor.user.id,
+          costMethanolCents: s(k?.methanol),
+          costCatalystCents: s(k?.catalyst),
+          costEnergyCents: s(k?.energy),
+          costFeedstockCents: s(k?.feedstock),
+          costOtherCents: s(k?.other),
+          totalCostCents: s(k?.total),
+          costPerGallonCents: s(k?.perGallon),
+          otherNotes:
+            k && k.total === k.other && k.other > 0 && k.methanol + k.catalyst + k.energy + k.feedstock === 0
+              ? 'Imported as one cost, without a breakdown'
+              : null,
         } as unknown as Batch;
       }),
       { transaction: t, returning: ['id'] },
@@ -175,11 +268,20 @@ export const pastBatches: OpeningKind<Key, Plan> = {
  */
 export async function undoPastBatches(actor: Actor, batchIds: number[], t: Transaction): Promise<void> {
   const coopId = actor.coop.id;
-  const mine = await Batch.findAll({ attributes: ['number', 'createdAt'], where: { coopId, id: batchIds, status: 'imported' }, raw: true, transaction: t });
+  const mine = await Batch.findAll({
+    attributes: ['number', 'createdAt'],
+    where: { coopId, id: batchIds, status: 'imported' },
+    raw: true,
+    transaction: t,
+  });
   if (mine.length === 0) return;
   const top = Math.max(...mine.map((b) => b.number));
   const since = new Date(Math.min(...mine.map((b) => new Date(b.createdAt).getTime())));
-  const later = await Batch.count({ where: { coopId, id: { [Op.notIn]: batchIds }, number: { [Op.gt]: top }, createdAt: { [Op.gte]: since } }, transaction: t });
-  if (later > 0) throw conflict('Batches have been numbered after the imported ones since, so the import can no longer be undone.');
+  const later = await Batch.count({
+    where: { coopId, id: { [Op.notIn]: batchIds }, number: { [Op.gt]: top }, createdAt: { [Op.gte]: since } },
+    transaction: t,
+  });
+  if (later > 0)
+    throw conflict('Batches have been numbered after the imported ones since, so the import can no longer be undone.');
   await Batch.destroy({ where: { coopId, id: batchIds, status: 'imported' }, transaction: t });
 }

@@ -17,7 +17,11 @@ export function readNumber(raw: string, units: Units): ValueResult<string> {
   if (raw.trim() === '') return { ok: false, error: 'Empty: enter a number.' };
   const mark = decimalMarkFor(units);
   const n = parseLocaleNumber(raw, mark) ?? (mark === ',' ? parseLocaleNumber(raw, '.') : null);
-  if (n === null) return { ok: false, error: `"${raw}" is not a number (write it like ${units === 'us' ? '1,234.50' : '1.234,50'}).` };
+  if (n === null)
+    return {
+      ok: false,
+      error: `"${raw}" is not a number (write it like ${units === 'us' ? '1,234.50' : '1.234,50'}).`,
+    };
   return { ok: true, value: n };
 }
 
@@ -64,7 +68,11 @@ export function readDate(raw: string, units: Units): ValueResult<string> {
     const b = Number(match[2]);
     [m, d] = units === 'us' ? [a, b] : [b, a];
     y = Number(match[3]);
-  } else return { ok: false, error: s ? `"${s}" is not a date: write ${hint} or YYYY-MM-DD.` : `Empty: enter a date (${hint}).` };
+  } else
+    return {
+      ok: false,
+      error: s ? `"${s}" is not a date: write ${hint} or YYYY-MM-DD.` : `Empty: enter a date (${hint}).`,
+    };
   const date = new Date(Date.UTC(y, m - 1, d));
   if (m < 1 || m > 12 || date.getUTCMonth() !== m - 1 || date.getUTCDate() !== d || y < 1990) {
     return { ok: false, error: `"${s}" is not a date on the calendar (${hint}).` };

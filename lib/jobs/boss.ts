@@ -12,11 +12,43 @@ declare global {
  * missed for 10 s (pg-boss's minimum).
  */
 const QUEUE_OPTIONS: Record<QueueName, Omit<Queue, 'name'>> = {
-  [QUEUES.invoiceMail]: { retryLimit: 8, retryDelay: 10, retryBackoff: true, retryDelayMax: 600, heartbeatSeconds: 10, expireInSeconds: 120, deadLetter: QUEUES.mailDead },
-  [QUEUES.invitationMail]: { retryLimit: 8, retryDelay: 10, retryBackoff: true, retryDelayMax: 600, heartbeatSeconds: 10, expireInSeconds: 120, deadLetter: QUEUES.mailDead },
-  [QUEUES.mail]: { retryLimit: 8, retryDelay: 10, retryBackoff: true, retryDelayMax: 600, heartbeatSeconds: 10, expireInSeconds: 120, deadLetter: QUEUES.mailDead },
+  [QUEUES.invoiceMail]: {
+    retryLimit: 8,
+    retryDelay: 10,
+    retryBackoff: true,
+    retryDelayMax: 600,
+    heartbeatSeconds: 10,
+    expireInSeconds: 120,
+    deadLetter: QUEUES.mailDead,
+  },
+  [QUEUES.invitationMail]: {
+    retryLimit: 8,
+    retryDelay: 10,
+    retryBackoff: true,
+    retryDelayMax: 600,
+    heartbeatSeconds: 10,
+    expireInSeconds: 120,
+    deadLetter: QUEUES.mailDead,
+  },
+  [QUEUES.mail]: {
+    retryLimit: 8,
+    retryDelay: 10,
+    retryBackoff: true,
+    retryDelayMax: 600,
+    heartbeatSeconds: 10,
+    expireInSeconds: 120,
+    deadLetter: QUEUES.mailDead,
+  },
   [QUEUES.mailDead]: { retryLimit: 3, retryDelay: 30 },
-  [QUEUES.runChunk]: { retryLimit: 5, retryDelay: 5, retryBackoff: true, retryDelayMax: 120, heartbeatSeconds: 10, expireInSeconds: 600, deadLetter: QUEUES.runDead },
+  [QUEUES.runChunk]: {
+    retryLimit: 5,
+    retryDelay: 5,
+    retryBackoff: true,
+    retryDelayMax: 120,
+    heartbeatSeconds: 10,
+    expireInSeconds: 600,
+    deadLetter: QUEUES.runDead,
+  },
   [QUEUES.runDead]: { retryLimit: 3, retryDelay: 30 },
   [QUEUES.expireReservations]: { retryLimit: 0, expireInSeconds: 300 },
   [QUEUES.settlePayments]: { retryLimit: 0, expireInSeconds: 300 },
@@ -26,7 +58,11 @@ const QUEUE_OPTIONS: Record<QueueName, Omit<Queue, 'name'>> = {
 /** Creates the queues that do not exist yet (dead letters first: a queue names its dead letter). */
 export async function ensureQueues(boss: PgBoss): Promise<void> {
   const existing = new Set((await boss.getQueues()).map((q) => q.name));
-  const order = [QUEUES.mailDead, QUEUES.runDead, ...Object.values(QUEUES).filter((n) => n !== QUEUES.mailDead && n !== QUEUES.runDead)];
+  const order = [
+    QUEUES.mailDead,
+    QUEUES.runDead,
+    ...Object.values(QUEUES).filter((n) => n !== QUEUES.mailDead && n !== QUEUES.runDead),
+  ];
   for (const name of order) {
     if (existing.has(name)) continue;
     try {
@@ -44,7 +80,9 @@ export function bossOptions(role: 'web' | 'worker') {
     connectionString: process.env.DATABASE_URL ?? 'postgres://unset@127.0.0.1:1/unset',
     schema: 'pgboss',
     // The web process only sends jobs: no maintenance, no cron, a small pool.
-    ...(role === 'web' ? { supervise: false, schedule: false, max: 2 } : { max: Number(process.env.WORKER_POOL_MAX ?? 6), superviseIntervalSeconds: 5, maintenanceIntervalSeconds: 60 }),
+    ...(role === 'web'
+      ? { supervise: false, schedule: false, max: 2 }
+      : { max: Number(process.env.WORKER_POOL_MAX ?? 6), superviseIntervalSeconds: 5, maintenanceIntervalSeconds: 60 }),
   };
 }
 

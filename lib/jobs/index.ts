@@ -1,7 +1,14 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
 import { webBoss } from './boss';
-import { QUEUES, type InvitationMailJob, type InvoiceMailJob, type MailRecord, type PlainMailJob, type RunChunkJob } from './names';
+import {
+  QUEUES,
+  type InvitationMailJob,
+  type InvoiceMailJob,
+  type MailRecord,
+  type PlainMailJob,
+  type RunChunkJob,
+} from './names';
 import { liveJobKeys, transactionDb } from './queries';
 
 export { QUEUES };
@@ -12,7 +19,11 @@ export type { InvitationMailJob, InvoiceMailJob, MailRecord, PlainMailJob, RunCh
  * when the transaction commits); without, it is written at once. `singletonKey` names what the
  * job is about (a message's ledger subject), so producers can see whether one is already live.
  */
-export async function enqueue<T extends object>(name: string, data: T, o: { transaction?: Transaction; startAfter?: number | Date; singletonKey?: string } = {}): Promise<void> {
+export async function enqueue<T extends object>(
+  name: string,
+  data: T,
+  o: { transaction?: Transaction; startAfter?: number | Date; singletonKey?: string } = {},
+): Promise<void> {
   const boss = await webBoss();
   await boss.send(name, data, {
     ...(o.transaction ? { db: transactionDb(o.transaction) } : {}),
@@ -22,7 +33,11 @@ export async function enqueue<T extends object>(name: string, data: T, o: { tran
 }
 
 /** Queues many jobs of one queue in one statement; `key` gives each its singleton key. */
-export async function enqueueMany<T extends object>(name: string, data: T[], o: { transaction?: Transaction; key?: (d: T) => string } = {}): Promise<void> {
+export async function enqueueMany<T extends object>(
+  name: string,
+  data: T[],
+  o: { transaction?: Transaction; key?: (d: T) => string } = {},
+): Promise<void> {
   if (data.length === 0) return;
   const boss = await webBoss();
   for (let i = 0; i < data.length; i += 1000) {
@@ -40,7 +55,13 @@ export async function enqueueMany<T extends object>(name: string, data: T[], o: 
  * earlier send and does not count.
  * @returns how many jobs were queued
  */
-export async function enqueueMailOnce<T extends object>(queue: string, data: T[], key: (d: T) => string, transaction?: Transaction, fresh = false): Promise<number> {
+export async function enqueueMailOnce<T extends object>(
+  queue: string,
+  data: T[],
+  key: (d: T) => string,
+  transaction?: Transaction,
+  fresh = false,
+): Promise<number> {
   let queued = 0;
   for (let i = 0; i < data.length; i += 1000) {
     const slice = data.slice(i, i + 1000);
@@ -58,8 +79,19 @@ export const invoiceMailKey = (d: { invoiceId: number }) => `invoice.${d.invoice
 export const invitationMailKey = (d: { invitationId: number }) => `invitation.${d.invitationId}`;
 
 /** Queues a plain e-mail (one job, retried with back-off; see lib/jobs/boss.ts). */
-export function enqueueMail(mail: { to: string; subject: string; text: string }, record: MailRecord = { kind: 'none' }, transaction?: Transaction): Promise<void> {
-  return enqueue<PlainMailJob>(QUEUES.mail, { ...mail, record }, { transaction, ...(record.kind === 'email-change' ? { singletonKey: emailChangeMailKey(record.authTokenId) } : {}) });
+export function enqueueMail(
+  mail: { to: string; subject: string; text: string },
+  record: MailRecord = { kind: 'none' },
+  transaction?: Transaction,
+): Promise<void> {
+  return enqueue<PlainMailJob>(
+    QUEUES.mail,
+    { ...mail, record },
+    {
+      transaction,
+      ...(record.kind === 'email-change' ? { singletonKey: emailChangeMailKey(record.authTokenId) } : {}),
+    },
+  );
 }
 
 /** The ledger subject (and job singleton key) of an e-mail-change confirmation. */
@@ -70,6 +102,17 @@ export const emailChangeMailKey = (authTokenId: number) => `email-change.${authT
  * already has a live job (see enqueueMailOnce for `fresh`).
  * @returns how many jobs were queued
  */
-export function enqueueInvoiceMails(coopId: number, invoiceIds: number[], transaction?: Transaction, fresh = false): Promise<number> {
-  return enqueueMailOnce<InvoiceMailJob>(QUEUES.invoiceMail, invoiceIds.map((invoiceId) => ({ coopId, invoiceId })), invoiceMailKey, transaction, fresh);
+export function enqueueInvoiceMails(
+  coopId: number,
+  invoiceIds: number[],
+  transaction?: Transaction,
+  fresh = false,
+): Promise<number> {
+  return enqueueMailOnce<InvoiceMailJob>(
+    QUEUES.invoiceMail,
+    invoiceIds.map((invoiceId) => ({ coopId, invoiceId })),
+    invoiceMailKey,
+    transaction,
+    fresh,
+  );
 }

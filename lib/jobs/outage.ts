@@ -8,7 +8,8 @@ import { log } from '@/lib/log';
 
 /** SQLSTATEs and socket errors that mean "the server is not there": pg-boss reports raw pg errors. */
 const UNREACHABLE_CODE = /^(08...|57P0[123]|53300|ECONNREFUSED|ECONNRESET|ENOTFOUND|EHOSTUNREACH|ETIMEDOUT|EPIPE)$/;
-const UNREACHABLE_MESSAGE = /Connection terminated|connection error|connection (is )?closed|ECONNREFUSED|ECONNRESET|EPIPE|timeout exceeded when trying to connect|the database system is (starting up|shutting down)|terminating connection/i;
+const UNREACHABLE_MESSAGE =
+  /Connection terminated|connection error|connection (is )?closed|ECONNREFUSED|ECONNRESET|EPIPE|timeout exceeded when trying to connect|the database system is (starting up|shutting down)|terminating connection/i;
 
 /** True when an error (Sequelize's, or pg's as pg-boss passes it on) means the database could not be reached. */
 export function isDatabaseUnreachable(e: unknown): boolean {
@@ -34,7 +35,12 @@ export interface OutageGuard {
  * and calls `pause` (stop fetching); then runs `probe` every `everyMs` until it succeeds, calls
  * `resume`, and logs `worker.resumed` once with how long it was down.
  */
-export function outageGuard(o: { pause: () => Promise<void>; resume: () => Promise<void>; probe: () => Promise<unknown>; everyMs?: number }): OutageGuard {
+export function outageGuard(o: {
+  pause: () => Promise<void>;
+  resume: () => Promise<void>;
+  probe: () => Promise<unknown>;
+  everyMs?: number;
+}): OutageGuard {
   let down = false;
   let since = 0;
   let timer: NodeJS.Timeout | undefined;
@@ -61,10 +67,15 @@ export function outageGuard(o: { pause: () => Promise<void>; resume: () => Promi
       down = true;
       since = Date.now();
       const err = e as { code?: string; message?: string; original?: { message?: string } };
-      log.error({ event: 'worker.paused', reason: err?.original?.message ?? err?.message, code: err?.code }, 'database unreachable; the worker stops fetching jobs until it is back');
-      o.pause().catch(() => undefined).finally(() => {
-        if (!closed) timer = setTimeout(check, every);
-      });
+      log.error(
+        { event: 'worker.paused', reason: err?.original?.message ?? err?.message, code: err?.code },
+        'database unreachable; the worker stops fetching jobs until it is back',
+      );
+      o.pause()
+        .catch(() => undefined)
+        .finally(() => {
+          if (!closed) timer = setTimeout(check, every);
+        });
       return true;
     },
     paused: () => down,

@@ -15,7 +15,11 @@ export interface JobDb {
 export function transactionDb(transaction: Transaction): JobDb {
   return {
     async executeSql(text, values) {
-      const rows = await sequelize.query<Record<string, unknown>>(text, { bind: values ?? [], type: QueryTypes.SELECT, transaction });
+      const rows = await sequelize.query<Record<string, unknown>>(text, {
+        bind: values ?? [],
+        type: QueryTypes.SELECT,
+        transaction,
+      });
       return { rows };
     },
   };
@@ -29,10 +33,13 @@ export async function jobState(ref: string): Promise<string | null> {
   const at = ref.lastIndexOf(':');
   const [queue, id] = [ref.slice(0, at), ref.slice(at + 1)];
   if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
-  const rows = await sequelize.query<{ state: string }>('SELECT state::text AS state FROM pgboss.job WHERE name = $1 AND id = $2::uuid', {
-    bind: [queue, id],
-    type: QueryTypes.SELECT,
-  });
+  const rows = await sequelize.query<{ state: string }>(
+    'SELECT state::text AS state FROM pgboss.job WHERE name = $1 AND id = $2::uuid',
+    {
+      bind: [queue, id],
+      type: QueryTypes.SELECT,
+    },
+  );
   return rows[0]?.state ?? null;
 }
 
@@ -42,11 +49,20 @@ export async function jobState(ref: string): Promise<string | null> {
  * does not queue a second one for the same message. Inside a transaction, its snapshot is read.
  * Written as two probes that pg-boss's own partial indexes serve (queued jobs by key; running jobs).
  */
-export async function liveJobKeys(queue: string, keys: string[], transaction?: Transaction, waitingOnly = false): Promise<Set<string>> {
+export async function liveJobKeys(
+  queue: string,
+  keys: string[],
+  transaction?: Transaction,
+  waitingOnly = false,
+): Promise<Set<string>> {
   if (keys.length === 0) return new Set();
   const waiting = `SELECT singleton_key AS key FROM pgboss.job WHERE name = $1 AND singleton_key = ANY($2::text[]) AND state < 'active'`;
   const running = `SELECT singleton_key AS key FROM pgboss.job WHERE name = $1 AND state = 'active' AND singleton_key = ANY($2::text[])`;
-  const rows = await sequelize.query<{ key: string }>(waitingOnly ? waiting : `${waiting} UNION ${running}`, { bind: [queue, keys], type: QueryTypes.SELECT, transaction });
+  const rows = await sequelize.query<{ key: string }>(waitingOnly ? waiting : `${waiting} UNION ${running}`, {
+    bind: [queue, keys],
+    type: QueryTypes.SELECT,
+    transaction,
+  });
   return new Set(rows.map((r) => r.key));
 }
 

@@ -56,11 +56,19 @@ export async function expireReservations(): Promise<number> {
  * @returns how many invoice e-mails were queued again
  */
 export async function housekeeping(): Promise<number> {
-  const attempts = await SignInAttempt.destroy({ where: { createdAt: { [Op.lt]: new Date(Date.now() - 86_400_000) } } });
+  const attempts = await SignInAttempt.destroy({
+    where: { createdAt: { [Op.lt]: new Date(Date.now() - 86_400_000) } },
+  });
   const tokens = await AuthToken.destroy({ where: { expiresAt: { [Op.lt]: new Date(Date.now() - 30 * 86_400_000) } } });
   // Plain e-mails' ledger rows (an invoice's or invitation's stay: they are its send history and Message-IDs).
   const old = new Date(Date.now() - 30 * 86_400_000);
-  await MailSend.destroy({ where: { [Op.or]: [{ subject: { [Op.startsWith]: 'mail.' } }, { subject: { [Op.startsWith]: 'email-change.' } }], state: 'sent', sentAt: { [Op.lt]: old } } });
+  await MailSend.destroy({
+    where: {
+      [Op.or]: [{ subject: { [Op.startsWith]: 'mail.' } }, { subject: { [Op.startsWith]: 'email-change.' } }],
+      state: 'sent',
+      sentAt: { [Op.lt]: old },
+    },
+  });
   const stuck = await Invoice.findAll({
     attributes: ['id', 'coopId'],
     where: { emailStatus: 'queued', updatedAt: { [Op.lt]: new Date(Date.now() - 120_000) } },
@@ -70,59 +78,105 @@ export async function housekeeping(): Promise<number> {
   for (const r of stuck) byCoop.set(r.coopId, [...(byCoop.get(r.coopId) ?? []), r.id]);
   let requeued = 0;
   for (const [coopId, ids] of byCoop) requeued += await enqueueInvoiceMails(coopId, ids);
-  if (attempts || tokens || requeued) log(`housekeeping: ${attempts} sign-in attempts and ${tokens} links pruned, ${requeued} invoice e-mails re-queued`);
+  if (attempts || tokens || requeued)
+    log(`housekeeping: ${attempts} sign-in attempts and ${tokens} links pruned, ${requeued} invoice e-mails re-queued`);
   return requeued;
 }
 
 /** Registers a handler per queue; returns the queue names (to stop fetching during an outage). */
 async function registerWork(boss: PgBoss, guard: (e: unknown) => void): Promise<string[]> {
   // A handler's error is first shown to the outage guard (it pauses the worker), then rethrown for pg-boss's retry.
-  const g = <T>(f: (jobs: Job<T>[]) => Promise<unknown>) => async (jobs: Job<T>[]) => {
-    try {
-      await f(jobs);
-    } catch (e) {
-      guard(e);
-      throw e;
-    }
-  };
+  const g =
+    <T>(f: (jobs: Job<T>[]) => Promise<unknown>) =>
+    async (jobs: Job<T>[]) => {
+      try {
+        await f(jobs);
+      } catch (e) {
+        guard(e);
+        throw e;
+      }
+    };
   const fast = { pollingIntervalSeconds: 0.5, burstWhenBatchFull: true } as const;
   // Mail jobs come a few per fetch and are settled one by one: one failed send retries alone.
   const mail = { ...fast, batchSize: MAIL_BATCH, perJobResults: true } as const;
-  const each = <T>(f: (job: Job<T>) => Promise<unknown>) => async (jobs: Job<T>[]): Promise<JobResult[]> =>
-    Promise.all(jobs.map(async (job): Promise<JobResult> => {
-      try {
-        await f(job);
-        return { id: job.id, status: 'completed' };
-      } catch (e) {
-        guard(e);
-        return { id: job.id, status: 'failed', output: { message: e instanceof Error ? e.message : String(e) } };
-      }
-    }));
-  await boss.work(QUEUES.invoiceMail, { ...mail, localConcurrency: MAIL_CONCURRENCY }, each<InvoiceMailJob>(async (job) => {
-    await deliverInvoiceEmailJob(job.data.coopId, job.data.invoiceId, `${QUEUES.invoiceMail}:${job.id}`);
-  }));
-  await boss.work(QUEUES.invitationMail, { ...mail, localConcurrency: MAIL_CONCURRENCY }, each<InvitationMailJob>(async (job) => {
-    await deliverInvitationJob(job.data.coopId, job.data.invitationId, `${QUEUES.invitationMail}:${job.id}`);
-  }));
+  const each =
+    <T>(f: (job: Job<T>) => Promise<unknown>) =>
+    async (jobs: Job<T>[]): Promise<JobResult[]> =>
+      Promise.all(
+        jobs.map(async (job): Promise<JobResult> => {
+          try {
+            await f(job);
+            return { id: job.id, status: 'completed' };
+          } catch (e) {
+            guard(e);
+            return { id: job.id, status: 'failed', output: { message: e instanceof Error ? e.message : String(e) } };
+          }
+        }),
+      );
+  await boss.work(
+    QUEUES.invoiceMail,
+    { ...mail, localConcurrency: MAIL_CONCURRENCY },
+    each<InvoiceMailJob>(async (job) => {
+      await deliverInvoiceEmailJob(job.data.coopId, job.data.invoiceId, `${QUEUES.invoiceMail}:${job.id}`);
+    }),
+  );
+  await boss.work(
+    QUEUES.invitationMail,
+    { ...mail, localConcurrency: MAIL_CONCURRENCY },
+    each<InvitationMailJob>(async (job) => {
+      await deliverInvitationJob(job.data.coopId, job.data.invitationId, `${QUEUES.invitationMail}:${job.id}`);
+    }),
+  );
   await boss.work(QUEUES.mail, { ...mail, localConcurrency: 2 }, each<PlainMailJob>(plainMail));
-  await boss.work<InvoiceMailJob | InvitationMailJob | PlainMailJob>(QUEUES.mailDead, { pollingIntervalSeconds: 2 }, g(async ([job]) => {
-    const d = job!.data;
-    if ('invoiceId' in d) await invoiceEmailGaveUp(d.coopId, d.invoiceId);
-    else if ('invitationId' in d) await invitationMailGaveUp(d.coopId, d.invitationId);
-    else console.error(`[worker] e-mail to ${d.to} ("${d.subject}") given up after every try`);
-  }));
-  await boss.work<RunChunkJob>(QUEUES.runChunk, { ...fast, batchSize: 1, localConcurrency: 2 }, g(async ([job]) => runChunk(job!.data)));
-  await boss.work<RunChunkJob>(QUEUES.runDead, { pollingIntervalSeconds: 2 }, g(async ([job]) => runGaveUp(job!.data.coopId, job!.data.runId)));
-  await boss.work(QUEUES.expireReservations, g(async () => {
-    const n = await expireReservations();
-    if (n > 0) log(`${n} lapsed reservations expired`);
-  }));
-  await boss.work(QUEUES.housekeeping, g(async () => housekeeping()));
-  await boss.work(QUEUES.settlePayments, g(async () => {
-    const n = await settleUnknownAttempts();
-    if (n > 0) log(`${n} card payments with an unknown outcome settled`);
-  }));
-  return [QUEUES.invoiceMail, QUEUES.invitationMail, QUEUES.mail, QUEUES.mailDead, QUEUES.runChunk, QUEUES.runDead, QUEUES.expireReservations, QUEUES.housekeeping, QUEUES.settlePayments];
+  await boss.work<InvoiceMailJob | InvitationMailJob | PlainMailJob>(
+    QUEUES.mailDead,
+    { pollingIntervalSeconds: 2 },
+    g(async ([job]) => {
+      const d = job!.data;
+      if ('invoiceId' in d) await invoiceEmailGaveUp(d.coopId, d.invoiceId);
+      else if ('invitationId' in d) await invitationMailGaveUp(d.coopId, d.invitationId);
+      else console.error(`[worker] e-mail to ${d.to} ("${d.subject}") given up after every try`);
+    }),
+  );
+  await boss.work<RunChunkJob>(
+    QUEUES.runChunk,
+    { ...fast, batchSize: 1, localConcurrency: 2 },
+    g(async ([job]) => runChunk(job!.data)),
+  );
+  await boss.work<RunChunkJob>(
+    QUEUES.runDead,
+    { pollingIntervalSeconds: 2 },
+    g(async ([job]) => runGaveUp(job!.data.coopId, job!.data.runId)),
+  );
+  await boss.work(
+    QUEUES.expireReservations,
+    g(async () => {
+      const n = await expireReservations();
+      if (n > 0) log(`${n} lapsed reservations expired`);
+    }),
+  );
+  await boss.work(
+    QUEUES.housekeeping,
+    g(async () => housekeeping()),
+  );
+  await boss.work(
+    QUEUES.settlePayments,
+    g(async () => {
+      const n = await settleUnknownAttempts();
+      if (n > 0) log(`${n} card payments with an unknown outcome settled`);
+    }),
+  );
+  return [
+    QUEUES.invoiceMail,
+    QUEUES.invitationMail,
+    QUEUES.mail,
+    QUEUES.mailDead,
+    QUEUES.runChunk,
+    QUEUES.runDead,
+    QUEUES.expireReservations,
+    QUEUES.housekeeping,
+    QUEUES.settlePayments,
+  ];
 }
 
 /** Starts pg-boss, waiting (one line, then quietly every 2 s) while the database cannot be reached. */
@@ -139,7 +193,11 @@ async function startBoss(): Promise<PgBoss> {
       return boss;
     } catch (e) {
       if (!isDatabaseUnreachable(e)) throw e;
-      if (!waiting) logger.error({ event: 'worker.paused', reason: (e as Error).message }, 'database unreachable; the worker waits for it');
+      if (!waiting)
+        logger.error(
+          { event: 'worker.paused', reason: (e as Error).message },
+          'database unreachable; the worker waits for it',
+        );
       waiting = true;
       await boss.stop({ graceful: false, close: true, timeout: 1_000 }).catch(() => undefined);
       await new Promise((r) => setTimeout(r, 2_000));
@@ -175,7 +233,11 @@ export async function startWorker(): Promise<{ stop: () => Promise<void> }> {
   // JOB_SCHEDULES=off (the test stack) leaves the timed jobs unscheduled: tests that compare the
   // database before and after a request must not see a minute's expiry land in between; the
   // jobs' functions are tested by calling them.
-  const schedules = [[QUEUES.expireReservations, '* * * * *'], [QUEUES.housekeeping, '*/5 * * * *'], [QUEUES.settlePayments, '* * * * *']] as const;
+  const schedules = [
+    [QUEUES.expireReservations, '* * * * *'],
+    [QUEUES.housekeeping, '*/5 * * * *'],
+    [QUEUES.settlePayments, '* * * * *'],
+  ] as const;
   for (const [queue, cron] of schedules) {
     if (process.env.JOB_SCHEDULES === 'off') await boss.unschedule(queue);
     else await boss.schedule(queue, cron);

@@ -7,12 +7,23 @@ import type { UnitSystem } from '@/lib/units';
 // The plain-text e-mails of a batch review. Sent through the job queue (lib/jobs enqueueMail)
 // inside the transaction that opens or closes the review, so they exist exactly when it commits.
 
-interface Ctx { coopName: string; coopSlug: string; units: UnitSystem; batchNumber: number; contacts: { name: string; email: string }[] }
+interface Ctx {
+  coopName: string;
+  coopSlug: string;
+  units: UnitSystem;
+  batchNumber: number;
+  contacts: { name: string; email: string }[];
+}
 
-const contactLines = (c: Ctx) => (c.contacts.length ? c.contacts.map((p) => `  ${p.name} <${p.email}>`).join('\n') : '  your co-op’s brewers');
+const contactLines = (c: Ctx) =>
+  c.contacts.length ? c.contacts.map((p) => `  ${p.name} <${p.email}>`).join('\n') : '  your co-op’s brewers';
 
 /** To a member who drew some of the batch: what was found, how much they received, the cautions, whom to contact. */
-export function recallMail(c: Ctx, m: { name: string; email: string; batchMl: number; drawCount: number }, finding: string) {
+export function recallMail(
+  c: Ctx,
+  m: { name: string; email: string; batchMl: number; drawCount: number },
+  finding: string,
+) {
   return {
     to: m.email,
     subject: `${c.coopName}: fuel from batch ${c.batchNumber} is under review — please stop using it on the road`,
@@ -60,12 +71,18 @@ export function reservationHeldMail(c: Ctx, m: { name: string; email: string; ta
 
 const OUTCOME_TEXT = {
   cleared: 'The review found the fuel fit to use again: it is released for reserving and drawing.',
-  retreated: 'The fuel left in the tanks was taken out to be re-processed in a new batch; it will come back only after that batch passes its tests.',
+  retreated:
+    'The fuel left in the tanks was taken out to be re-processed in a new batch; it will come back only after that batch passes its tests.',
   disposed: 'The fuel left in the tanks was disposed of.',
 } as const;
 
 /** The follow-up when the review closes. */
-export function outcomeMail(c: Ctx, m: { name: string; email: string; batchMl: number }, outcome: keyof typeof OUTCOME_TEXT, notes: string) {
+export function outcomeMail(
+  c: Ctx,
+  m: { name: string; email: string; batchMl: number },
+  outcome: keyof typeof OUTCOME_TEXT,
+  notes: string,
+) {
   return {
     to: m.email,
     subject: `${c.coopName}: review of batch ${c.batchNumber} closed — ${outcome === 'cleared' ? 'cleared' : outcome === 'retreated' ? 're-treated' : 'disposed of'}`,

@@ -8,7 +8,17 @@ import { roundHalfUp } from '@/lib/money';
 import { litersToMl } from '@/lib/units/quantity';
 import { mlToUnits3 } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
-import { Batch, BatchReview, Draw, Membership, MovementBatchShare, Tank, TankLayer, TankMovement, User } from '@/models';
+import {
+  Batch,
+  BatchReview,
+  Draw,
+  Membership,
+  MovementBatchShare,
+  Tank,
+  TankLayer,
+  TankMovement,
+  User,
+} from '@/models';
 import type { TankMixing } from '@/models/Tank';
 import type { TankMovementKind } from '@/models/TankMovement';
 
@@ -30,9 +40,18 @@ export interface ReviewDto {
 
 export function reviewDto(r: InferAttributes<BatchReview>): ReviewDto {
   return {
-    id: r.id, status: r.status, cause: r.cause, finding: r.finding, heldLiters: litersToMl(r.heldLiters) / 1000, openedAt: new Date(r.openedAt).toISOString(),
-    outcome: r.outcome ?? null, outcomeNotes: r.outcomeNotes ?? null, disposalMethod: r.disposalMethod ?? null, receiptFileId: r.receiptFileId ?? null,
-    retreatBatchId: r.retreatBatchId ?? null, closedAt: r.closedAt ? new Date(r.closedAt).toISOString() : null,
+    id: r.id,
+    status: r.status,
+    cause: r.cause,
+    finding: r.finding,
+    heldLiters: litersToMl(r.heldLiters) / 1000,
+    openedAt: new Date(r.openedAt).toISOString(),
+    outcome: r.outcome ?? null,
+    outcomeNotes: r.outcomeNotes ?? null,
+    disposalMethod: r.disposalMethod ?? null,
+    receiptFileId: r.receiptFileId ?? null,
+    retreatBatchId: r.retreatBatchId ?? null,
+    closedAt: r.closedAt ? new Date(r.closedAt).toISOString() : null,
   };
 }
 
@@ -82,7 +101,15 @@ export interface BatchLineage {
 type ShareRow = Pick<InferAttributes<MovementBatchShare>, 'drawId' | 'tankId' | 'quantityLiters'> & {
   movement: { kind: TankMovementKind };
   tank: { name: string };
-  draw: { id: number | null; membershipId: number; quantityLiters: string; fuelCents: string; occurredAt: Date; reversesDrawId: number | null; membership: { user: { name: string; email: string } } };
+  draw: {
+    id: number | null;
+    membershipId: number;
+    quantityLiters: string;
+    fuelCents: string;
+    occurredAt: Date;
+    reversesDrawId: number | null;
+    membership: { user: { name: string; email: string } };
+  };
 };
 
 /** Every ledger row share of a batch, with its draw and member where it was a draw. */
@@ -94,35 +121,73 @@ export async function batchShareRows(coopId: number, batchId: number, transactio
       { model: TankMovement, as: 'movement', attributes: ['kind'], required: true },
       { model: Tank, as: 'tank', attributes: ['name'], where: { coopId }, required: true },
       {
-        model: Draw, as: 'draw', attributes: ['id', 'membershipId', 'quantityLiters', 'fuelCents', 'occurredAt', 'reversesDrawId'], where: { coopId }, required: false,
-        include: [{ model: Membership, as: 'membership', attributes: [], include: [{ model: User, as: 'user', attributes: ['name', 'email'] }] }],
+        model: Draw,
+        as: 'draw',
+        attributes: ['id', 'membershipId', 'quantityLiters', 'fuelCents', 'occurredAt', 'reversesDrawId'],
+        where: { coopId },
+        required: false,
+        include: [
+          {
+            model: Membership,
+            as: 'membership',
+            attributes: [],
+            include: [{ model: User, as: 'user', attributes: ['name', 'email'] }],
+          },
+        ],
       },
     ],
     order: [['id', 'ASC']],
-    raw: true, nest: true, transaction,
+    raw: true,
+    nest: true,
+    transaction,
   })) as unknown as ShareRow[];
 }
 
 /** The draws and members of a batch from its share rows (members net of reversals, only those left with some). */
-export function drawsAndMembers(rows: ShareRow[], units: UnitSystem): { draws: LineageDraw[]; members: LineageMember[] } {
+export function drawsAndMembers(
+  rows: ShareRow[],
+  units: UnitSystem,
+): { draws: LineageDraw[]; members: LineageMember[] } {
   const draws: LineageDraw[] = [];
   const members = new Map<number, LineageMember>();
   for (const r of rows) {
     if (r.drawId === null || r.draw?.id == null) continue;
     const batchMl = -litersToMl(r.quantityLiters); // a draw row is negative in the ledger: the member received it
     const drawMl = litersToMl(r.draw.quantityLiters);
-    const valueCents = drawMl === 0 ? 0 : roundHalfUp((Number(r.draw.fuelCents) * Math.abs(batchMl)) / Math.abs(drawMl)) * Math.sign(batchMl);
+    const valueCents =
+      drawMl === 0
+        ? 0
+        : roundHalfUp((Number(r.draw.fuelCents) * Math.abs(batchMl)) / Math.abs(drawMl)) * Math.sign(batchMl);
     draws.push({
-      drawId: r.draw.id, occurredAt: new Date(r.draw.occurredAt).toISOString(), tankName: r.tank.name, membershipId: r.draw.membershipId, memberName: r.draw.membership.user.name,
-      batchMl, batchQuantity: mlToUnits3(batchMl, units), drawMl, drawQuantity: mlToUnits3(drawMl, units), valueCents, isReversal: r.draw.reversesDrawId !== null,
+      drawId: r.draw.id,
+      occurredAt: new Date(r.draw.occurredAt).toISOString(),
+      tankName: r.tank.name,
+      membershipId: r.draw.membershipId,
+      memberName: r.draw.membership.user.name,
+      batchMl,
+      batchQuantity: mlToUnits3(batchMl, units),
+      drawMl,
+      drawQuantity: mlToUnits3(drawMl, units),
+      valueCents,
+      isReversal: r.draw.reversesDrawId !== null,
     });
-    const m = members.get(r.draw.membershipId) ?? { membershipId: r.draw.membershipId, name: r.draw.membership.user.name, email: r.draw.membership.user.email, batchMl: 0, batchQuantity: 0, valueCents: 0 };
+    const m = members.get(r.draw.membershipId) ?? {
+      membershipId: r.draw.membershipId,
+      name: r.draw.membership.user.name,
+      email: r.draw.membership.user.email,
+      batchMl: 0,
+      batchQuantity: 0,
+      valueCents: 0,
+    };
     m.batchMl += batchMl;
     m.valueCents += valueCents;
     m.batchQuantity = mlToUnits3(m.batchMl, units);
     members.set(m.membershipId, m);
   }
-  return { draws, members: [...members.values()].filter((m) => m.batchMl > 0).sort((a, b) => a.name.localeCompare(b.name)) };
+  return {
+    draws,
+    members: [...members.values()].filter((m) => m.batchMl > 0).sort((a, b) => a.name.localeCompare(b.name)),
+  };
 }
 
 /**
@@ -136,49 +201,108 @@ export async function getBatchLineage(actor: Actor, batchId: number): Promise<Ba
   const [batch, layers, rows, reviews] = await Promise.all([
     Batch.findOne({ attributes: ['id', 'number', 'status'], where: { id: batchId, coopId }, raw: true }),
     TankLayer.findAll({
-      attributes: ['tankId', 'quantityLiters'], where: { coopId, batchId },
-      include: [{ model: Tank, as: 'tank', attributes: ['name', 'mixing', 'heldLiters'], where: { coopId }, required: true }], order: [['id', 'ASC']], raw: true, nest: true,
-    }) as unknown as Promise<(Pick<InferAttributes<TankLayer>, 'tankId' | 'quantityLiters'> & { tank: { name: string; mixing: TankMixing; heldLiters: string } })[]>,
+      attributes: ['tankId', 'quantityLiters'],
+      where: { coopId, batchId },
+      include: [
+        { model: Tank, as: 'tank', attributes: ['name', 'mixing', 'heldLiters'], where: { coopId }, required: true },
+      ],
+      order: [['id', 'ASC']],
+      raw: true,
+      nest: true,
+    }) as unknown as Promise<
+      (Pick<InferAttributes<TankLayer>, 'tankId' | 'quantityLiters'> & {
+        tank: { name: string; mixing: TankMixing; heldLiters: string };
+      })[]
+    >,
     batchShareRows(coopId, batchId),
-    BatchReview.findAll({ where: { coopId, batchId }, order: [['openedAt', 'DESC'], ['id', 'DESC']], raw: true }),
+    BatchReview.findAll({
+      where: { coopId, batchId },
+      order: [
+        ['openedAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
+      raw: true,
+    }),
   ]);
   if (!batch) throw notFound('Batch not found.');
   const tanks = new Map<number, BatchLineage['inTanks'][number]>();
   for (const l of layers) {
-    const t = tanks.get(l.tankId) ?? { tankId: l.tankId, tankName: l.tank.name, mixing: l.tank.mixing, ml: 0, quantity: 0, heldLiters: litersToMl(l.tank.heldLiters) / 1000 };
+    const t = tanks.get(l.tankId) ?? {
+      tankId: l.tankId,
+      tankName: l.tank.name,
+      mixing: l.tank.mixing,
+      ml: 0,
+      quantity: 0,
+      heldLiters: litersToMl(l.tank.heldLiters) / 1000,
+    };
     t.ml += litersToMl(l.quantityLiters);
     t.quantity = mlToUnits3(t.ml, units);
     tanks.set(l.tankId, t);
   }
   const byKind: BatchLineage['byKind'] = {};
   for (const r of rows) byKind[r.movement.kind] = (byKind[r.movement.kind] ?? 0) + litersToMl(r.quantityLiters);
-  return { batchId: batch.id, number: batch.number, status: batch.status, units, inTanks: [...tanks.values()], byKind, ...drawsAndMembers(rows, units), reviews: reviews.map(reviewDto) };
+  return {
+    batchId: batch.id,
+    number: batch.number,
+    status: batch.status,
+    units,
+    inTanks: [...tanks.values()],
+    byKind,
+    ...drawsAndMembers(rows, units),
+    reviews: reviews.map(reviewDto),
+  };
 }
 
 /** A tank's layers, oldest first, with their batches and whether each is under review. Any member (tank:read). */
 export async function listTankLayers(actor: Actor, tankId: number) {
   const coopId = actor.coop.id;
   const [tank, layers] = await Promise.all([
-    Tank.findOne({ attributes: ['id', 'name', 'mixing', 'onHandLiters', 'heldLiters'], where: { id: tankId, coopId }, raw: true }),
+    Tank.findOne({
+      attributes: ['id', 'name', 'mixing', 'onHandLiters', 'heldLiters'],
+      where: { id: tankId, coopId },
+      raw: true,
+    }),
     TankLayer.findAll({
-      attributes: ['id', 'batchId', 'quantityLiters'], where: { coopId, tankId },
-      include: [{ model: Batch, as: 'batch', attributes: ['number'], required: false }], order: [['id', 'ASC']], raw: true, nest: true,
-    }) as unknown as Promise<(Pick<InferAttributes<TankLayer>, 'id' | 'batchId' | 'quantityLiters'> & { batch: { number: number | null } })[]>,
+      attributes: ['id', 'batchId', 'quantityLiters'],
+      where: { coopId, tankId },
+      include: [{ model: Batch, as: 'batch', attributes: ['number'], required: false }],
+      order: [['id', 'ASC']],
+      raw: true,
+      nest: true,
+    }) as unknown as Promise<
+      (Pick<InferAttributes<TankLayer>, 'id' | 'batchId' | 'quantityLiters'> & { batch: { number: number | null } })[]
+    >,
   ]);
   if (!tank) throw notFound('Tank not found.');
   const ids = [...new Set(layers.map((l) => l.batchId).filter((b): b is number => b !== null))];
-  const open = ids.length ? await BatchReview.findAll({ attributes: ['batchId'], where: { coopId, status: 'open', batchId: { [Op.in]: ids } }, raw: true }) : [];
+  const open = ids.length
+    ? await BatchReview.findAll({
+        attributes: ['batchId'],
+        where: { coopId, status: 'open', batchId: { [Op.in]: ids } },
+        raw: true,
+      })
+    : [];
   const held = new Set(open.map((r) => r.batchId));
   const units = actor.coop.units;
   const onHandMl = litersToMl(tank.onHandLiters);
   return {
-    tankId: tank.id, tankName: tank.name, mixing: tank.mixing as TankMixing, units, onHand: mlToUnits3(onHandMl, units), held: mlToUnits3(litersToMl(tank.heldLiters), units),
+    tankId: tank.id,
+    tankName: tank.name,
+    mixing: tank.mixing as TankMixing,
+    units,
+    onHand: mlToUnits3(onHandMl, units),
+    held: mlToUnits3(litersToMl(tank.heldLiters), units),
     heldLiters: litersToMl(tank.heldLiters) / 1000,
     layers: layers.map((l) => {
       const ml = litersToMl(l.quantityLiters);
       return {
-        id: l.id, batchId: l.batchId, batchNumber: l.batch?.number ?? null, quantity: mlToUnits3(ml, units), quantityLiters: ml / 1000,
-        sharePct: onHandMl > 0 ? Math.round((ml / onHandMl) * 1000) / 10 : 0, underReview: l.batchId !== null && held.has(l.batchId),
+        id: l.id,
+        batchId: l.batchId,
+        batchNumber: l.batch?.number ?? null,
+        quantity: mlToUnits3(ml, units),
+        quantityLiters: ml / 1000,
+        sharePct: onHandMl > 0 ? Math.round((ml / onHandMl) * 1000) / 10 : 0,
+        underReview: l.batchId !== null && held.has(l.batchId),
       };
     }),
   };
@@ -188,13 +312,23 @@ export type TankLayersDto = Awaited<ReturnType<typeof listTankLayers>>;
 
 /** The batches in each of these draws (positive quantities in the co-op's unit), for the draw lists. */
 export type DrawBatch = z.infer<typeof drawBatchSchema>;
-export async function drawBatches(coopId: number, units: UnitSystem, drawIds: number[]): Promise<Map<number, DrawBatch[]>> {
+export async function drawBatches(
+  coopId: number,
+  units: UnitSystem,
+  drawIds: number[],
+): Promise<Map<number, DrawBatch[]>> {
   const out = new Map<number, DrawBatch[]>();
   if (drawIds.length === 0) return out;
   const rows = (await MovementBatchShare.findAll({
-    attributes: ['drawId', 'batchId', 'quantityLiters'], where: { coopId, drawId: { [Op.in]: drawIds } },
-    include: [{ model: Batch, as: 'batch', attributes: ['number'], required: false }], order: [['id', 'ASC']], raw: true, nest: true,
-  })) as unknown as (Pick<InferAttributes<MovementBatchShare>, 'drawId' | 'batchId' | 'quantityLiters'> & { batch: { number: number | null } })[];
+    attributes: ['drawId', 'batchId', 'quantityLiters'],
+    where: { coopId, drawId: { [Op.in]: drawIds } },
+    include: [{ model: Batch, as: 'batch', attributes: ['number'], required: false }],
+    order: [['id', 'ASC']],
+    raw: true,
+    nest: true,
+  })) as unknown as (Pick<InferAttributes<MovementBatchShare>, 'drawId' | 'batchId' | 'quantityLiters'> & {
+    batch: { number: number | null };
+  })[];
   for (const r of rows) {
     const list = out.get(r.drawId!) ?? [];
     const ml = Math.abs(litersToMl(r.quantityLiters));
@@ -222,17 +356,27 @@ export interface RecallNotice {
  */
 export async function recallNoticesFor(actor: Actor): Promise<RecallNotice[]> {
   const coopId = actor.coop.id;
-  const reviews = await BatchReview.findAll({
+  const reviews = (await BatchReview.findAll({
     attributes: ['batchId', 'status', 'finding', 'outcome', 'openedAt', 'closedAt'],
-    where: { coopId, [Op.or]: [{ status: 'open' }, { closedAt: { [Op.gte]: new Date(Date.now() - 60 * 86_400_000) } }] },
+    where: {
+      coopId,
+      [Op.or]: [{ status: 'open' }, { closedAt: { [Op.gte]: new Date(Date.now() - 60 * 86_400_000) } }],
+    },
     include: [{ model: Batch, as: 'batch', attributes: ['number'], required: true }],
-    order: [['openedAt', 'DESC']], raw: true, nest: true,
-  }) as unknown as (Pick<InferAttributes<BatchReview>, 'batchId' | 'status' | 'finding' | 'outcome' | 'openedAt' | 'closedAt'> & { batch: { number: number } })[];
+    order: [['openedAt', 'DESC']],
+    raw: true,
+    nest: true,
+  })) as unknown as (Pick<
+    InferAttributes<BatchReview>,
+    'batchId' | 'status' | 'finding' | 'outcome' | 'openedAt' | 'closedAt'
+  > & { batch: { number: number } })[];
   if (reviews.length === 0) return [];
   const shares = (await MovementBatchShare.findAll({
     attributes: ['batchId', 'quantityLiters'],
     where: { coopId, batchId: { [Op.in]: [...new Set(reviews.map((r) => r.batchId))] }, drawId: { [Op.ne]: null } },
-    include: [{ model: Draw, as: 'draw', attributes: [], where: { coopId, membershipId: actor.membershipId }, required: true }],
+    include: [
+      { model: Draw, as: 'draw', attributes: [], where: { coopId, membershipId: actor.membershipId }, required: true },
+    ],
     raw: true,
   })) as Pick<InferAttributes<MovementBatchShare>, 'batchId' | 'quantityLiters'>[];
   const mine = new Map<number, number>();
@@ -242,9 +386,17 @@ export async function recallNoticesFor(actor: Actor): Promise<RecallNotice[]> {
     const ml = mine.get(r.batchId) ?? 0;
     if (ml <= 0 || seen.has(r.batchId)) return [];
     seen.add(r.batchId);
-    return [{
-      batchId: r.batchId, batchNumber: r.batch.number, status: r.status, finding: r.finding, outcome: r.outcome ?? null,
-      openedAt: new Date(r.openedAt).toISOString(), closedAt: r.closedAt ? new Date(r.closedAt).toISOString() : null, quantity: mlToUnits3(ml, actor.coop.units),
-    }];
+    return [
+      {
+        batchId: r.batchId,
+        batchNumber: r.batch.number,
+        status: r.status,
+        finding: r.finding,
+        outcome: r.outcome ?? null,
+        openedAt: new Date(r.openedAt).toISOString(),
+        closedAt: r.closedAt ? new Date(r.closedAt).toISOString() : null,
+        quantity: mlToUnits3(ml, actor.coop.units),
+      },
+    ];
   });
 }

@@ -19,7 +19,11 @@ export interface RecallReport extends BatchLineage {
  * every affected draw and member (brewers, treasurers, admins: lineage:read).
  */
 export async function getRecallReport(actor: Actor, batchId: number): Promise<RecallReport> {
-  return { ...(await getBatchLineage(actor, batchId)), coopName: actor.coop.name, generatedAt: new Date().toISOString() };
+  return {
+    ...(await getBatchLineage(actor, batchId)),
+    coopName: actor.coop.name,
+    generatedAt: new Date().toISOString(),
+  };
 }
 
 const vol = (r: RecallReport, ml: number) => formatMl(ml, r.units);
@@ -28,14 +32,70 @@ const vol = (r: RecallReport, ml: number) => formatMl(ml, r.units);
 export function recallCsv(r: RecallReport): string {
   const unit = r.units === 'us' ? 'us_gal' : 'l';
   const q = (ml: number) => (r.units === 'us' ? ml / 3785.411784 : ml / 1000).toFixed(3);
-  const rows: (string | number | null)[][] = [['section', 'batch', 'date', 'id', 'name', 'detail', `quantity_${unit}`, 'value', 'outcome']];
+  const rows: (string | number | null)[][] = [
+    ['section', 'batch', 'date', 'id', 'name', 'detail', `quantity_${unit}`, 'value', 'outcome'],
+  ];
   for (const v of r.reviews) {
-    rows.push(['review', r.number, v.openedAt, v.id, v.cause, v.finding, q(v.heldLiters * 1000), null, v.outcome ?? 'open']);
-    if (v.outcome) rows.push(['outcome', r.number, v.closedAt, v.id, OUTCOME[v.outcome], [v.outcomeNotes, v.disposalMethod].filter(Boolean).join(' — '), null, null, v.outcome]);
+    rows.push([
+      'review',
+      r.number,
+      v.openedAt,
+      v.id,
+      v.cause,
+      v.finding,
+      q(v.heldLiters * 1000),
+      null,
+      v.outcome ?? 'open',
+    ]);
+    if (v.outcome)
+      rows.push([
+        'outcome',
+        r.number,
+        v.closedAt,
+        v.id,
+        OUTCOME[v.outcome],
+        [v.outcomeNotes, v.disposalMethod].filter(Boolean).join(' — '),
+        null,
+        null,
+        v.outcome,
+      ]);
   }
-  for (const d of r.draws) rows.push(['draw', r.number, d.occurredAt, d.drawId, d.memberName, d.isReversal ? `reversal at ${d.tankName}` : d.tankName, q(d.batchMl), (d.valueCents / 100).toFixed(2), null]);
-  for (const m of r.members) rows.push(['member', r.number, null, m.membershipId, m.name, m.email, q(m.batchMl), (m.valueCents / 100).toFixed(2), null]);
-  for (const t of r.inTanks) rows.push(['in-tank', r.number, null, t.tankId, t.tankName, t.mixing === 'fifo' ? 'first in, first out' : 'well mixed', q(t.ml), null, null]);
+  for (const d of r.draws)
+    rows.push([
+      'draw',
+      r.number,
+      d.occurredAt,
+      d.drawId,
+      d.memberName,
+      d.isReversal ? `reversal at ${d.tankName}` : d.tankName,
+      q(d.batchMl),
+      (d.valueCents / 100).toFixed(2),
+      null,
+    ]);
+  for (const m of r.members)
+    rows.push([
+      'member',
+      r.number,
+      null,
+      m.membershipId,
+      m.name,
+      m.email,
+      q(m.batchMl),
+      (m.valueCents / 100).toFixed(2),
+      null,
+    ]);
+  for (const t of r.inTanks)
+    rows.push([
+      'in-tank',
+      r.number,
+      null,
+      t.tankId,
+      t.tankName,
+      t.mixing === 'fifo' ? 'first in, first out' : 'well mixed',
+      q(t.ml),
+      null,
+      null,
+    ]);
   return csvRows(rows);
 }
 
@@ -43,27 +103,46 @@ export function recallCsv(r: RecallReport): string {
 export async function recallPdf(r: RecallReport): Promise<Buffer> {
   const doc = newPdf({ title: `${r.coopName} recall report — batch ${r.number}` });
   doc.font('bold').fontSize(18).text(`Recall report — batch ${r.number}`);
-  doc.font('regular').fontSize(10).fillColor('#444').text(`${r.coopName} · generated ${r.generatedAt.slice(0, 10)}`).moveDown();
+  doc
+    .font('regular')
+    .fontSize(10)
+    .fillColor('#444')
+    .text(`${r.coopName} · generated ${r.generatedAt.slice(0, 10)}`)
+    .moveDown();
   doc.fillColor('#111');
   const h = (s: string) => doc.moveDown(0.5).font('bold').fontSize(12).text(s).font('regular').fontSize(10);
   h('Reviews');
   if (r.reviews.length === 0) doc.text('This batch has not been under review.');
   for (const v of r.reviews) {
-    doc.text(`Opened ${v.openedAt.slice(0, 10)} (${v.cause === 'lab-result' ? 'late laboratory result' : 'flagged'}): ${v.finding}`);
+    doc.text(
+      `Opened ${v.openedAt.slice(0, 10)} (${v.cause === 'lab-result' ? 'late laboratory result' : 'flagged'}): ${v.finding}`,
+    );
     doc.text(`Held when opened: ${vol(r, v.heldLiters * 1000)}.`);
-    doc.text(v.outcome
-      ? `Closed ${v.closedAt?.slice(0, 10)}: ${OUTCOME[v.outcome]}. ${v.outcomeNotes ?? ''}${v.disposalMethod ? ` Method: ${v.disposalMethod}.` : ''}${v.retreatBatchId ? ` Re-treated in batch id ${v.retreatBatchId}.` : ''}`
-      : 'Still open: the batch’s fuel is held.');
+    doc.text(
+      v.outcome
+        ? `Closed ${v.closedAt?.slice(0, 10)}: ${OUTCOME[v.outcome]}. ${v.outcomeNotes ?? ''}${v.disposalMethod ? ` Method: ${v.disposalMethod}.` : ''}${v.retreatBatchId ? ` Re-treated in batch id ${v.retreatBatchId}.` : ''}`
+        : 'Still open: the batch’s fuel is held.',
+    );
   }
   h('Where the fuel is now');
   if (r.inTanks.length === 0) doc.text('None of this batch is left in a tank.');
-  for (const t of r.inTanks) doc.text(`${t.tankName}: ${vol(r, t.ml)} (${t.mixing === 'fifo' ? 'first in, first out' : 'well mixed'})`);
+  for (const t of r.inTanks)
+    doc.text(`${t.tankName}: ${vol(r, t.ml)} (${t.mixing === 'fifo' ? 'first in, first out' : 'well mixed'})`);
   h(`Members who drew it (${r.members.length})`);
-  for (const m of r.members) doc.text(`${m.name} <${m.email}> — ${vol(r, m.batchMl)}, fuel charge ${formatCents(m.valueCents)}`);
+  for (const m of r.members)
+    doc.text(`${m.name} <${m.email}> — ${vol(r, m.batchMl)}, fuel charge ${formatCents(m.valueCents)}`);
   h(`Draws (${r.draws.length})`);
-  for (const d of r.draws) doc.text(`#${d.drawId} ${d.occurredAt.slice(0, 10)} ${d.memberName} at ${d.tankName}: ${vol(r, d.batchMl)} of this batch${d.isReversal ? ' (reversal)' : ''}`);
-  doc.moveDown().font('bold').text('Note').font('regular').text(
-    `Volumes per draw follow the tank's mixing model (well mixed: in proportion; first in, first out: oldest fuel first), so they are the co-op's best estimate, not a measurement. ${RECALL_DEFERENCE}`,
-  );
+  for (const d of r.draws)
+    doc.text(
+      `#${d.drawId} ${d.occurredAt.slice(0, 10)} ${d.memberName} at ${d.tankName}: ${vol(r, d.batchMl)} of this batch${d.isReversal ? ' (reversal)' : ''}`,
+    );
+  doc
+    .moveDown()
+    .font('bold')
+    .text('Note')
+    .font('regular')
+    .text(
+      `Volumes per draw follow the tank's mixing model (well mixed: in proportion; first in, first out: oldest fuel first), so they are the co-op's best estimate, not a measurement. ${RECALL_DEFERENCE}`,
+    );
   return pdfToBuffer(doc);
 }

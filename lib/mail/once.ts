@@ -65,7 +65,9 @@ function makeMessageId(subject: string, generation: number): string {
 export function surelyNotSent(e: unknown): boolean {
   const err = e as { code?: string; command?: string; responseCode?: number };
   if (typeof err?.responseCode === 'number' && err.responseCode >= 400) return true;
-  return err?.command === 'CONN' || ['ECONNECTION', 'EDNS', 'EAUTH', 'EENVELOPE', 'ECONNREFUSED'].includes(err?.code ?? '');
+  return (
+    err?.command === 'CONN' || ['ECONNECTION', 'EDNS', 'EAUTH', 'EENVELOPE', 'ECONNREFUSED'].includes(err?.code ?? '')
+  );
 }
 
 async function claimSend(o: SendOnce): Promise<Claim | null> {
@@ -73,7 +75,13 @@ async function claimSend(o: SendOnce): Promise<Claim | null> {
   return inTransaction(async (transaction) => {
     if (o.claim && !(await o.claim(transaction))) return null;
     const where = { subject: o.subject, ...(o.coopId !== null ? { coopId: o.coopId } : {}) };
-    const last = await MailSend.findOne({ where, order: [['generation', 'DESC']], attributes: ['generation', 'messageId', 'state', 'claimedBy'], raw: true, transaction });
+    const last = await MailSend.findOne({
+      where,
+      order: [['generation', 'DESC']],
+      attributes: ['generation', 'messageId', 'state', 'claimedBy'],
+      raw: true,
+      transaction,
+    });
     if (last?.state === 'sending') {
       if (last.claimedBy !== o.jobRef) {
         const holder = await jobState(last.claimedBy);
@@ -81,14 +89,23 @@ async function claimSend(o: SendOnce): Promise<Claim | null> {
         // The holder will run again itself: leave it to it.
         if (holder === 'created' || holder === 'retry') return null;
       }
-      await MailSend.update({ claimedBy: o.jobRef, tries: literal('tries + 1'), claimedAt: fn('now') }, { where: { subject: o.subject, generation: last.generation }, transaction });
-      log.warn({ event: 'mail.ambiguous', subject: o.subject, messageId: last.messageId, previousClaim: last.claimedBy }, 'an earlier send may have been delivered; sending again with the same Message-ID');
+      await MailSend.update(
+        { claimedBy: o.jobRef, tries: literal('tries + 1'), claimedAt: fn('now') },
+        { where: { subject: o.subject, generation: last.generation }, transaction },
+      );
+      log.warn(
+        { event: 'mail.ambiguous', subject: o.subject, messageId: last.messageId, previousClaim: last.claimedBy },
+        'an earlier send may have been delivered; sending again with the same Message-ID',
+      );
       const again = { generation: last.generation, messageId: last.messageId, fresh: false };
       return { ...again, mail: await compose(again, transaction) };
     }
     const generation = (last?.generation ?? 0) + 1;
     const messageId = makeMessageId(o.subject, generation);
-    await MailSend.create({ subject: o.subject, generation, coopId: o.coopId, messageId, state: 'sending', claimedBy: o.jobRef }, { transaction });
+    await MailSend.create(
+      { subject: o.subject, generation, coopId: o.coopId, messageId, state: 'sending', claimedBy: o.jobRef },
+      { transaction },
+    );
     const claim = { generation, messageId, fresh: true };
     return { ...claim, mail: await compose(claim, transaction) };
   });

@@ -1,6 +1,16 @@
 import 'server-only';
 import type { memberSchema } from '@/lib/api/dto/members';
-import { col, fn, ForeignKeyConstraintError, literal, Op, type InferAttributes, type OrderItem, type Transaction, type WhereOptions } from 'sequelize';
+import {
+  col,
+  fn,
+  ForeignKeyConstraintError,
+  literal,
+  Op,
+  type InferAttributes,
+  type OrderItem,
+  type Transaction,
+  type WhereOptions,
+} from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
@@ -72,12 +82,14 @@ export async function listMembers(actor: Actor, query: MemberListQuery): Promise
     Membership.findAndCountAll({
       attributes: MEMBER_ATTRIBUTES,
       where,
-      include: [{
-        association: 'user',
-        attributes: ['name', 'email'],
-        required: true,
-        ...(term ? { where: { [Op.or]: [{ name: { [Op.iLike]: term } }, { email: { [Op.iLike]: term } }] } } : {}),
-      }],
+      include: [
+        {
+          association: 'user',
+          attributes: ['name', 'email'],
+          required: true,
+          ...(term ? { where: { [Op.or]: [{ name: { [Op.iLike]: term } }, { email: { [Op.iLike]: term } }] } } : {}),
+        },
+      ],
       order: [SORT[query.sort](dir), ['id', dir]],
       limit: query.pageSize,
       offset: (query.page - 1) * query.pageSize,
@@ -118,7 +130,10 @@ async function lockMembership(actor: Actor, membershipId: number, transaction: T
 
 /** Active admins of the co-op other than this membership (read under the co-op lock). */
 async function otherActiveAdmins(coopId: number, membershipId: number, transaction: Transaction): Promise<number> {
-  return Membership.count({ where: { coopId, role: 'admin', status: 'active', id: { [Op.ne]: membershipId } }, transaction });
+  return Membership.count({
+    where: { coopId, role: 'admin', status: 'active', id: { [Op.ne]: membershipId } },
+    transaction,
+  });
 }
 
 const LAST_ADMIN = 'A co-op needs at least one active admin. Make another member an admin first.';
@@ -128,7 +143,11 @@ const LAST_ADMIN = 'A co-op needs at least one active admin. Make another member
  * co-op cannot be demoted or suspended (409). Takes effect on the member's next request, as
  * every request re-reads the membership.
  */
-export async function updateMembership(actor: Actor, membershipId: number, input: z.infer<typeof membershipUpdateSchema>): Promise<MemberDto> {
+export async function updateMembership(
+  actor: Actor,
+  membershipId: number,
+  input: z.infer<typeof membershipUpdateSchema>,
+): Promise<MemberDto> {
   return inTransaction(async (transaction) => {
     await lockCoop(actor.coop.id, transaction);
     const before = await lockMembership(actor, membershipId, transaction);
@@ -137,14 +156,27 @@ export async function updateMembership(actor: Actor, membershipId: number, input
     const status = input.status ?? was.status;
     if (role === was.role && status === was.status) return toDto(actor, before);
     const losesAdmin = was.role === 'admin' && was.status === 'active' && (role !== 'admin' || status !== 'active');
-    if (losesAdmin && (await otherActiveAdmins(actor.coop.id, membershipId, transaction)) === 0) throw conflict(LAST_ADMIN);
+    if (losesAdmin && (await otherActiveAdmins(actor.coop.id, membershipId, transaction)) === 0)
+      throw conflict(LAST_ADMIN);
     await Membership.update({ role, status }, { where: { id: membershipId, coopId: actor.coop.id }, transaction });
-    const action = role !== was.role && status !== was.status ? 'membership.update' : role !== was.role ? 'membership.role-change' : status === 'suspended' ? 'membership.suspend' : 'membership.reinstate';
+    const action =
+      role !== was.role && status !== was.status
+        ? 'membership.update'
+        : role !== was.role
+          ? 'membership.role-change'
+          : status === 'suspended'
+            ? 'membership.suspend'
+            : 'membership.reinstate';
     const who = { userId: before.userId, email: before.user.email };
     await audit(
       {
-        coopId: actor.coop.id, actorUserId: actor.user.id, action, entityType: 'membership', entityId: membershipId,
-        before: { ...who, ...was }, after: { ...who, role, status },
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action,
+        entityType: 'membership',
+        entityId: membershipId,
+        before: { ...who, ...was },
+        after: { ...who, role, status },
       },
       transaction,
     );
@@ -162,14 +194,28 @@ export async function removeMembership(actor: Actor, membershipId: number): Prom
     return await inTransaction(async (transaction) => {
       await lockCoop(actor.coop.id, transaction);
       const before = await lockMembership(actor, membershipId, transaction);
-      if (before.role === 'admin' && before.status === 'active' && (await otherActiveAdmins(actor.coop.id, membershipId, transaction)) === 0) {
+      if (
+        before.role === 'admin' &&
+        before.status === 'active' &&
+        (await otherActiveAdmins(actor.coop.id, membershipId, transaction)) === 0
+      ) {
         throw conflict(LAST_ADMIN);
       }
       await Membership.destroy({ where: { id: membershipId, coopId: actor.coop.id }, transaction });
       await audit(
         {
-          coopId: actor.coop.id, actorUserId: actor.user.id, action: 'membership.remove', entityType: 'membership', entityId: membershipId,
-          before: { userId: before.userId, email: before.user.email, name: before.user.name, role: before.role, status: before.status },
+          coopId: actor.coop.id,
+          actorUserId: actor.user.id,
+          action: 'membership.remove',
+          entityType: 'membership',
+          entityId: membershipId,
+          before: {
+            userId: before.userId,
+            email: before.user.email,
+            name: before.user.name,
+            role: before.role,
+            status: before.status,
+          },
           after: null,
         },
         transaction,
@@ -178,9 +224,10 @@ export async function removeMembership(actor: Actor, membershipId: number): Prom
     });
   } catch (e) {
     if (e instanceof ForeignKeyConstraintError) {
-      throw conflict('This member has records in the co-op (such as draws or invoices), so they cannot be removed. Suspend them instead.');
+      throw conflict(
+        'This member has records in the co-op (such as draws or invoices), so they cannot be removed. Suspend them instead.',
+      );
     }
     throw e;
   }
 }
-

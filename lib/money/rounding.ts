@@ -105,9 +105,7 @@ export function allocate(totalCents: number, weights: readonly number[]): number
   });
   let leftover = magnitude - shares.reduce((acc, s) => acc + s.floor, 0);
   // Largest remainder first; ties to the earlier index. Zero weights never receive a cent.
-  const order = shares
-    .filter((s) => s.positive)
-    .sort((a, b) => b.remainder - a.remainder || a.index - b.index);
+  const order = shares.filter((s) => s.positive).sort((a, b) => b.remainder - a.remainder || a.index - b.index);
   let cursor = 0;
   while (leftover > 0 && order.length > 0) {
     const share = order[cursor % order.length];

@@ -15,7 +15,15 @@ import { LITERS_PER_US_GALLON } from '@/lib/units';
 import { qualityOf } from '@/lib/brewing';
 import { Batch } from '@/models';
 import { dailyTankLevel, monthlyVolumes, overviewCards, topOwing, type CardsRow } from './queries';
-import type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection } from './types';
+import type {
+  BatchCost,
+  BrewerSection,
+  MonthVolume,
+  Overview,
+  PriceSummary,
+  TankSummary,
+  TreasurerSection,
+} from './types';
 
 export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
 
@@ -24,7 +32,8 @@ export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, Tan
  * lib/tank's list (the same figures as the tank page); sums are taken in whole millilitres.
  */
 export function tankSummaryOf(tanks: TankDto[]): TankSummary {
-  const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'capacityLiters') => tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
+  const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'capacityLiters') =>
+    tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
   const onHandMl = sumMl('onHandLiters');
   const reservedMl = sumMl('reservedLiters');
   const availableMl = tanks.reduce((a, t) => a + Math.round(t.availableLiters * 1000), 0);
@@ -41,14 +50,16 @@ export function tankSummaryOf(tanks: TankDto[]): TankSummary {
 }
 
 /** The member price in force now, from the latest policy and the tanks' average cost. */
-export function priceSummaryOf(row: (PolicyRow & { id: number }) | undefined, avgCostCentsPerGallon: number | null): PriceSummary | null {
+export function priceSummaryOf(
+  row: (PolicyRow & { id: number }) | undefined,
+  avgCostCentsPerGallon: number | null,
+): PriceSummary | null {
   if (!row) return null;
   const policy = policyInUnits(row, 'us');
   if (policy.kind !== 'fixed' && avgCostCentsPerGallon === null) return null;
   const b = memberPriceCentsPerGallon(policy, avgCostCentsPerGallon, 'off-road');
   return { kind: policy.kind, centsPerGallon: b.totalCents, roadTaxCentsPerGallon: policy.roadTaxCentsPerGallon ?? 0 };
 }
-
 
 /** A batch's verdict in the one wording (lib/brewing qualityOf). */
 const verdict = (b: Parameters<typeof qualityOf>[0]) => {
@@ -61,19 +72,40 @@ const WORKING = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testi
 
 /** Batches under way (from the cards row) with their verdicts, the latest released ones, the next planned batch, and whether the chemicals it uses are covered. */
 function brewerSectionOf(
-  working: NonNullable<CardsRow['working']>, released: NonNullable<CardsRow['released']>, { lots, needs }: Awaited<ReturnType<typeof stockState>>,
+  working: NonNullable<CardsRow['working']>,
+  released: NonNullable<CardsRow['released']>,
+  { lots, needs }: Awaited<ReturnType<typeof stockState>>,
 ): BrewerSection {
   const summary = summarizeStock(lots, needs);
   const next = needs.next;
   return {
     inProgress: working.map((b) => ({
-      id: b.id, number: b.number, status: b.status, oilLiters: Number(b.oilLiters), since: new Date(b.since).toISOString(), quality: verdict(b),
+      id: b.id,
+      number: b.number,
+      status: b.status,
+      oilLiters: Number(b.oilLiters),
+      since: new Date(b.since).toISOString(),
+      quality: verdict(b),
     })),
     recentReleased: released.map((b) => ({
-      id: b.id, number: b.number, releasedAt: new Date(b.releasedAt).toISOString(), releasedLiters: Number(b.releasedLiters), quality: verdict(b),
+      id: b.id,
+      number: b.number,
+      releasedAt: new Date(b.releasedAt).toISOString(),
+      releasedLiters: Number(b.releasedLiters),
+      quality: verdict(b),
     })),
-    nextPlanned: next ? { id: next.id, number: next.number, batchDate: next.batchDate, oilLiters: next.oilLiters, catalyst: next.catalyst } : null,
-    stock: summary.lines.filter((l) => l.nextPlannedNeed !== null).map((l) => ({ kind: l.kind, unit: l.unit, available: l.available, need: l.nextPlannedNeed!, low: l.low })),
+    nextPlanned: next
+      ? {
+          id: next.id,
+          number: next.number,
+          batchDate: next.batchDate,
+          oilLiters: next.oilLiters,
+          catalyst: next.catalyst,
+        }
+      : null,
+    stock: summary.lines
+      .filter((l) => l.nextPlannedNeed !== null)
+      .map((l) => ({ kind: l.kind, unit: l.unit, available: l.available, need: l.nextPlannedNeed!, low: l.low })),
   };
 }
 
@@ -82,7 +114,11 @@ function brewerSectionOf(
  * only on issued and partly paid ones), its drafts, and payments of any month with money not yet
  * matched to an invoice.
  */
-function treasurerSectionOf(period: string, sums: NonNullable<CardsRow['invoiceSums']>, unmatched: CardsRow['unmatched']): TreasurerSection {
+function treasurerSectionOf(
+  period: string,
+  sums: NonNullable<CardsRow['invoiceSums']>,
+  unmatched: CardsRow['unmatched'],
+): TreasurerSection {
   type Sum = (typeof sums)[number];
   const issued = sums.filter((r) => r.kind === 'invoice' && r.status !== 'draft' && r.status !== 'void');
   const add = (rows: Sum[], k: 'count' | 'total' | 'paid' | 'owed') => rows.reduce((a, r) => a + Number(r[k] ?? 0), 0);
@@ -90,9 +126,15 @@ function treasurerSectionOf(period: string, sums: NonNullable<CardsRow['invoiceS
     period,
     invoicedCents: add(issued, 'total'),
     paidCents: add(issued, 'paid'),
-    outstandingCents: add(issued.filter((r) => (OPEN_STATUSES as string[]).includes(r.status)), 'owed'),
+    outstandingCents: add(
+      issued.filter((r) => (OPEN_STATUSES as string[]).includes(r.status)),
+      'owed',
+    ),
     invoices: add(issued, 'count'),
-    drafts: add(sums.filter((r) => r.kind === 'invoice' && r.status === 'draft'), 'count'),
+    drafts: add(
+      sums.filter((r) => r.kind === 'invoice' && r.status === 'draft'),
+      'count',
+    ),
     unmatchedPayments: Number(unmatched?.count ?? 0),
     unmatchedCents: Number(unmatched?.cents ?? 0),
   };
@@ -122,11 +164,19 @@ export async function getBatchCosts(coopId: number, timeZone: string): Promise<B
     order: [['number', 'DESC']],
     limit: 12,
     raw: true,
-  })) as unknown as (Pick<InferAttributes<Batch>, 'number' | 'releasedLiters'> & Record<'releasedOn' | 'methanol' | 'catalyst' | 'energy' | 'feedstock' | 'other' | 'total', string>)[];
+  })) as unknown as (Pick<InferAttributes<Batch>, 'number' | 'releasedLiters'> &
+    Record<'releasedOn' | 'methanol' | 'catalyst' | 'energy' | 'feedstock' | 'other' | 'total', string>)[];
   const r2 = (v: unknown) => Math.round(Number(v) * 100) / 100;
   return rows.reverse().map((b) => ({
-    number: b.number, releasedOn: b.releasedOn, releasedLiters: Number(b.releasedLiters),
-    methanol: r2(b.methanol), catalyst: r2(b.catalyst), energy: r2(b.energy), feedstock: r2(b.feedstock), other: r2(b.other), totalCentsPerGallon: r2(b.total),
+    number: b.number,
+    releasedOn: b.releasedOn,
+    releasedLiters: Number(b.releasedLiters),
+    methanol: r2(b.methanol),
+    catalyst: r2(b.catalyst),
+    energy: r2(b.energy),
+    feedstock: r2(b.feedstock),
+    other: r2(b.other),
+    totalCentsPerGallon: r2(b.total),
   }));
 }
 
@@ -135,7 +185,11 @@ export async function getBalances(coopId: number): Promise<NonNullable<Overview[
   const rows = await topOwing(coopId);
   const first = rows[0];
   return {
-    topOwing: rows.flatMap((r) => (r.membershipId === null ? [] : [{ membershipId: r.membershipId, name: r.name ?? 'Former member', outstandingCents: Number(r.outstanding) }])),
+    topOwing: rows.flatMap((r) =>
+      r.membershipId === null
+        ? []
+        : [{ membershipId: r.membershipId, name: r.name ?? 'Former member', outstandingCents: Number(r.outstanding) }],
+    ),
     membersOwing: Number(first?.members ?? 0),
     totalOutstandingCents: Number(first?.total ?? 0),
   };
@@ -187,17 +241,36 @@ export async function getOverview(actor: Actor): Promise<Overview> {
   const [tanks, policy, cards, stock, [volumes, level, batchCosts, balances]] = await Promise.all([
     listTanks(actor, { activeOnly: true }),
     policyInForce(c),
-    overviewCards({ coopId: c, membershipId: actor.membershipId, openStatuses: OPEN_STATUSES, working: WORKING, period: periodToDate(period), brewer: isBrewer, treasurer: isTreasurer, admin: isAdmin }),
+    overviewCards({
+      coopId: c,
+      membershipId: actor.membershipId,
+      openStatuses: OPEN_STATUSES,
+      working: WORKING,
+      period: periodToDate(period),
+      brewer: isBrewer,
+      treasurer: isTreasurer,
+      admin: isAdmin,
+    }),
     isBrewer ? stockState(c, undefined, { totals: true }) : null,
     charts(actor),
   ]);
   const openReservations = cards.reservations.map((r) => ({ ...r, windowEnd: new Date(r.windowEnd).toISOString() }));
-  const account = { outstandingCents: Number(cards.outstandingCents), creditCents: Number(cards.creditCents), unallocatedCents: Number(cards.unallocatedCents) };
-  const brewer = cards.working && cards.released && stock ? brewerSectionOf(cards.working, cards.released, stock) : null;
+  const account = {
+    outstandingCents: Number(cards.outstandingCents),
+    creditCents: Number(cards.creditCents),
+    unallocatedCents: Number(cards.unallocatedCents),
+  };
+  const brewer =
+    cards.working && cards.released && stock ? brewerSectionOf(cards.working, cards.released, stock) : null;
   const treasurer = cards.invoiceSums ? treasurerSectionOf(period, cards.invoiceSums, cards.unmatched) : null;
-  const admin = cards.invitations && cards.events
-    ? { pendingInvitations: Number(cards.invitations.pending), notSentInvitations: Number(cards.invitations.notSent), recentEvents: cards.events.map((e) => ({ at: new Date(e.at).toISOString(), who: e.who, action: e.action })) }
-    : null;
+  const admin =
+    cards.invitations && cards.events
+      ? {
+          pendingInvitations: Number(cards.invitations.pending),
+          notSentInvitations: Number(cards.invitations.notSent),
+          recentEvents: cards.events.map((e) => ({ at: new Date(e.at).toISOString(), who: e.who, action: e.action })),
+        }
+      : null;
   const tank = tankSummaryOf(tanks);
   return {
     role: actor.role,

@@ -124,8 +124,14 @@ export interface CardsRow {
  * last eight audited changes. A section not asked for is an InitPlan never run and comes back null.
  */
 export async function overviewCards(p: {
-  coopId: number; membershipId: number; openStatuses: string[]; working: readonly string[];
-  period: string; brewer: boolean; treasurer: boolean; admin: boolean;
+  coopId: number;
+  membershipId: number;
+  openStatuses: string[];
+  working: readonly string[];
+  period: string;
+  brewer: boolean;
+  treasurer: boolean;
+  admin: boolean;
 }): Promise<CardsRow> {
   const [row] = await sequelize.query<CardsRow>(
     `SELECT

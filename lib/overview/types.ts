@@ -1,6 +1,13 @@
 import type { z } from 'zod';
 import type {
-  batchCostSchema, brewerSectionSchema, monthVolumeSchema, overviewSchema, priceSummarySchema, qualityWordingSchema, tankSummarySchema, treasurerSectionSchema,
+  batchCostSchema,
+  brewerSectionSchema,
+  monthVolumeSchema,
+  overviewSchema,
+  priceSummarySchema,
+  qualityWordingSchema,
+  tankSummarySchema,
+  treasurerSectionSchema,
 } from '@/lib/api/dto/overview';
 
 // The overview's parts: the API's Overview schema is the one definition (lib/api/dto/overview.ts).

@@ -16,10 +16,17 @@ declare global {
 function client(): Stripe {
   if (globalThis.__tallyvatStripe) return globalThis.__tallyvatStripe;
   const key = process.env.STRIPE_SECRET_KEY;
-  if (!key) throw new ProviderUnavailable('Card payments are not configured on this server (STRIPE_SECRET_KEY is unset).');
+  if (!key)
+    throw new ProviderUnavailable('Card payments are not configured on this server (STRIPE_SECRET_KEY is unset).');
   const host = process.env.STRIPE_API_HOST;
   const s = new Stripe(key, {
-    ...(host ? { host, port: Number(process.env.STRIPE_API_PORT ?? 443), protocol: (process.env.STRIPE_API_PROTOCOL ?? 'https') as 'http' | 'https' } : {}),
+    ...(host
+      ? {
+          host,
+          port: Number(process.env.STRIPE_API_PORT ?? 443),
+          protocol: (process.env.STRIPE_API_PROTOCOL ?? 'https') as 'http' | 'https',
+        }
+      : {}),
     telemetry: false,
     // One quick retry on network trouble (the idempotency key makes it safe), and no 80-second
     // hangs: a member is waiting on the other side of the button.
@@ -63,7 +70,12 @@ export type RefundOutcome =
   | { outcome: 'unavailable'; message: string };
 
 function mapRefund(r: Stripe.Refund): ProviderRefund {
-  return { id: r.id, amountCents: r.amount, succeeded: r.status === 'succeeded', metadata: { ...(r.metadata ?? {}) } as Record<string, string> };
+  return {
+    id: r.id,
+    amountCents: r.amount,
+    succeeded: r.status === 'succeeded',
+    metadata: { ...(r.metadata ?? {}) } as Record<string, string>,
+  };
 }
 
 /** Maps a provider charge (from an API answer or a webhook event) to the app's type. */
@@ -80,9 +92,18 @@ export function mapCharge(c: Stripe.Charge): ProviderCharge {
   };
 }
 
-function classify(e: unknown): { kind: 'declined'; code: string; message: string } | { kind: 'rejected'; message: string } | { kind: 'unavailable'; message: string } {
+function classify(
+  e: unknown,
+):
+  | { kind: 'declined'; code: string; message: string }
+  | { kind: 'rejected'; message: string }
+  | { kind: 'unavailable'; message: string } {
   if (e instanceof Stripe.errors.StripeCardError) {
-    return { kind: 'declined', code: e.decline_code ?? e.code ?? 'card_declined', message: e.message || 'The card was declined.' };
+    return {
+      kind: 'declined',
+      code: e.decline_code ?? e.code ?? 'card_declined',
+      message: e.message || 'The card was declined.',
+    };
   }
   if (
     e instanceof Stripe.errors.StripeConnectionError ||
@@ -112,11 +133,22 @@ export async function chargeCard(input: {
 }): Promise<ChargeOutcome> {
   try {
     const charge = await client().charges.create(
-      { amount: input.amountCents, currency: input.currency.toLowerCase(), source: fakeCardToken(input.cardToken), description: input.description, metadata: input.metadata },
+      {
+        amount: input.amountCents,
+        currency: input.currency.toLowerCase(),
+        source: fakeCardToken(input.cardToken),
+        description: input.description,
+        metadata: input.metadata,
+      },
       { idempotencyKey: input.idempotencyKey },
     );
     const mapped = mapCharge(charge);
-    if (!mapped.succeeded) return { outcome: 'declined', code: charge.failure_code ?? 'card_declined', message: charge.failure_message ?? 'The card was declined.' };
+    if (!mapped.succeeded)
+      return {
+        outcome: 'declined',
+        code: charge.failure_code ?? 'card_declined',
+        message: charge.failure_message ?? 'The card was declined.',
+      };
     return { outcome: 'succeeded', charge: mapped };
   } catch (e) {
     const c = classify(e);
@@ -133,10 +165,17 @@ export async function chargeCard(input: {
  * `maxScan`).
  * @returns the charge, null when the provider has none, or 'unavailable' when it could not be asked
  */
-export async function findChargeForAttempt(attemptId: number, since: Date, maxScan = 2000): Promise<ProviderCharge | null | 'unavailable'> {
+export async function findChargeForAttempt(
+  attemptId: number,
+  since: Date,
+  maxScan = 2000,
+): Promise<ProviderCharge | null | 'unavailable'> {
   try {
     let scanned = 0;
-    for await (const c of client().charges.list({ limit: 100, created: { gte: Math.floor(since.getTime() / 1000) - 60 } })) {
+    for await (const c of client().charges.list({
+      limit: 100,
+      created: { gte: Math.floor(since.getTime() / 1000) - 60 },
+    })) {
       if (c.metadata?.payment_attempt_id === String(attemptId)) return mapCharge(c);
       if (++scanned >= maxScan) break;
     }
@@ -148,7 +187,12 @@ export async function findChargeForAttempt(attemptId: number, since: Date, maxSc
 }
 
 /** Refunds part or all of a charge once (same idempotency rule as {@link chargeCard}). */
-export async function refundCharge(input: { chargeId: string; amountCents: number; metadata: Record<string, string>; idempotencyKey: string }): Promise<RefundOutcome> {
+export async function refundCharge(input: {
+  chargeId: string;
+  amountCents: number;
+  metadata: Record<string, string>;
+  idempotencyKey: string;
+}): Promise<RefundOutcome> {
   try {
     const refund = await client().refunds.create(
       { charge: input.chargeId, amount: input.amountCents, metadata: input.metadata },
@@ -183,5 +227,9 @@ export function verifyWebhook(rawBody: string, signature: string | null): Provid
     return null;
   }
   const obj = (event.data as { object?: { object?: string } } | undefined)?.object;
-  return { id: event.id, type: event.type, charge: obj?.object === 'charge' ? mapCharge(obj as unknown as Stripe.Charge) : null };
+  return {
+    id: event.id,
+    type: event.type,
+    charge: obj?.object === 'charge' ? mapCharge(obj as unknown as Stripe.Charge) : null,
+  };
 }

@@ -8,7 +8,11 @@
 export const TEST_CARDS = [
   { id: 'test-approved', label: 'Test card — approved', fakeToken: 'tok_visa' },
   { id: 'test-declined', label: 'Test card — declined', fakeToken: 'tok_chargeDeclined' },
-  { id: 'test-insufficient-funds', label: 'Test card — insufficient funds', fakeToken: 'tok_chargeDeclinedInsufficientFunds' },
+  {
+    id: 'test-insufficient-funds',
+    label: 'Test card — insufficient funds',
+    fakeToken: 'tok_chargeDeclinedInsufficientFunds',
+  },
 ] as const;
 
 export type TestCardId = (typeof TEST_CARDS)[number]['id'];

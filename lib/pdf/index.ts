@@ -19,14 +19,27 @@ const FONT_BOLD_FILE = path.resolve(process.cwd(), 'fonts', 'inter-latin-700-nor
  */
 const SYMBOLS_REGULAR_FILE = path.resolve(process.cwd(), 'fonts', 'dejavu-sans-symbols.ttf');
 const SYMBOLS_BOLD_FILE = path.resolve(process.cwd(), 'fonts', 'dejavu-sans-bold-symbols.ttf');
-interface Fonts { regular: fontkit.Font; bold: fontkit.Font; symbols: fontkit.Font; symbolsBold: fontkit.Font }
+interface Fonts {
+  regular: fontkit.Font;
+  bold: fontkit.Font;
+  symbols: fontkit.Font;
+  symbolsBold: fontkit.Font;
+}
 let fonts: Fonts | undefined;
 const load = (file: string) => plainShaping(fontkit.create(fs.readFileSync(file)));
 const loadFonts = () =>
-  (fonts ??= { regular: load(FONT_REGULAR_FILE), bold: load(FONT_BOLD_FILE), symbols: load(SYMBOLS_REGULAR_FILE), symbolsBold: load(SYMBOLS_BOLD_FILE) });
+  (fonts ??= {
+    regular: load(FONT_REGULAR_FILE),
+    bold: load(FONT_BOLD_FILE),
+    symbols: load(SYMBOLS_REGULAR_FILE),
+    symbolsBold: load(SYMBOLS_BOLD_FILE),
+  });
 
 /** A run of text and whether it needs the symbols font. */
-interface Run { text: string; symbols: boolean }
+interface Run {
+  text: string;
+  symbols: boolean;
+}
 
 /**
  * Splits text into runs the primary font can draw and runs it can't (drawn with the symbols
@@ -51,7 +64,16 @@ export function fontRuns(text: string, primary: fontkit.Font, symbols: fontkit.F
 export function missingPdfGlyphs(text: string, weight: 'regular' | 'bold' = 'regular'): string[] {
   const f = loadFonts();
   const [primary, symbols] = weight === 'bold' ? [f.bold, f.symbolsBold] : [f.regular, f.symbols];
-  return [...new Set([...text].filter((ch) => /\S/.test(ch) && !primary.hasGlyphForCodePoint(ch.codePointAt(0)!) && !symbols.hasGlyphForCodePoint(ch.codePointAt(0)!)))];
+  return [
+    ...new Set(
+      [...text].filter(
+        (ch) =>
+          /\S/.test(ch) &&
+          !primary.hasGlyphForCodePoint(ch.codePointAt(0)!) &&
+          !symbols.hasGlyphForCodePoint(ch.codePointAt(0)!),
+      ),
+    ),
+  ];
 }
 
 type TextOptions = PDFKit.Mixins.TextOptions;
@@ -62,10 +84,18 @@ type TextOptions = PDFKit.Mixins.TextOptions;
  * `continued` runs that switch font and back, keeping the caller's position and options.
  */
 function withSymbolFallback(doc: PDFKit.PDFDocument, f: Fonts): PDFKit.PDFDocument {
-  const text = doc.text.bind(doc) as (t: string, x?: number | TextOptions, y?: number, o?: TextOptions) => PDFKit.PDFDocument;
+  const text = doc.text.bind(doc) as (
+    t: string,
+    x?: number | TextOptions,
+    y?: number,
+    o?: TextOptions,
+  ) => PDFKit.PDFDocument;
   const font = doc.font.bind(doc) as (name: string, size?: number) => PDFKit.PDFDocument;
   let current = 'regular';
-  (doc as unknown as { font: (name: string, size?: number) => PDFKit.PDFDocument }).font = (name: string, size?: number) => {
+  (doc as unknown as { font: (name: string, size?: number) => PDFKit.PDFDocument }).font = (
+    name: string,
+    size?: number,
+  ) => {
     current = name;
     return size === undefined ? font(name) : font(name, size);
   };
@@ -80,7 +110,7 @@ function withSymbolFallback(doc: PDFKit.PDFDocument, f: Fonts): PDFKit.PDFDocume
     const [px, py] = typeof x === 'number' ? [x, y] : [undefined, undefined];
     runs.forEach((run, i) => {
       font(run.symbols ? (bold ? 'symbols-bold' : 'symbols') : current);
-      const opts = { ...options, continued: i < runs.length - 1 ? true : options.continued ?? false };
+      const opts = { ...options, continued: i < runs.length - 1 ? true : (options.continued ?? false) };
       if (i === 0 && px !== undefined) text(run.text, px, py, opts);
       else text(run.text, opts);
     });
@@ -130,7 +160,12 @@ function plainShaping(font: fontkit.Font): fontkit.Font {
 /** A new A4/Letter document using the shipped fonts ('regular' and 'bold' are registered). */
 export function newPdf(opts: { title: string; size?: 'LETTER' | 'A4' }): PDFKit.PDFDocument {
   const f = loadFonts();
-  const doc = new PDFDocument({ size: opts.size ?? 'LETTER', margin: 50, font: f.regular as unknown as string, info: { Title: opts.title, Producer: 'Tallyvat' } });
+  const doc = new PDFDocument({
+    size: opts.size ?? 'LETTER',
+    margin: 50,
+    font: f.regular as unknown as string,
+    info: { Title: opts.title, Producer: 'Tallyvat' },
+  });
   doc.registerFont('regular', f.regular as unknown as string);
   doc.registerFont('bold', f.bold as unknown as string);
   doc.registerFont('symbols', f.symbols as unknown as string);

@@ -38,7 +38,11 @@ export interface PriceBreakdown {
 }
 
 function requireCost(tankAvgCostCentsPerGallon: number | null): number {
-  if (tankAvgCostCentsPerGallon === null || !Number.isFinite(tankAvgCostCentsPerGallon) || tankAvgCostCentsPerGallon < 0) {
+  if (
+    tankAvgCostCentsPerGallon === null ||
+    !Number.isFinite(tankAvgCostCentsPerGallon) ||
+    tankAvgCostCentsPerGallon < 0
+  ) {
     throw new RangeError('A cost-based price needs the tank’s average cost per gallon (≥ 0 cents)');
   }
   return tankAvgCostCentsPerGallon;
@@ -84,7 +88,12 @@ export function memberPriceCentsPerGallon(
   if (baseCents < 0) throw new RangeError('The price per gallon cannot be negative');
   const surchargeCents = optionalRate(policy.surchargeCentsPerGallon, 'surchargeCentsPerGallon');
   const taxCents = declaredUse === 'road' ? optionalRate(policy.roadTaxCentsPerGallon, 'roadTaxCentsPerGallon') : 0;
-  return { baseCents, surchargeCents, taxCents, totalCents: Number((baseCents + surchargeCents + taxCents).toPrecision(15)) };
+  return {
+    baseCents,
+    surchargeCents,
+    taxCents,
+    totalCents: Number((baseCents + surchargeCents + taxCents).toPrecision(15)),
+  };
 }
 
 /** Charge for one draw, integer cents; each component is one invoice line. */

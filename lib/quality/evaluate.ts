@@ -34,7 +34,12 @@ export type QualityResults = Partial<Record<QualityProperty, number | LabResult 
 export function isLaboratoryResult(result: number | LabResult | undefined | null): result is LabResult {
   if (result === undefined || result === null || typeof result === 'number') return false;
   const lab = result.laboratory?.trim() ?? '';
-  return lab !== '' && lab.toLowerCase() !== HOME_TEST_LABORATORY && (result.method?.trim() ?? '') !== '' && /^\d{4}-\d{2}-\d{2}$/.test(result.date ?? '');
+  return (
+    lab !== '' &&
+    lab.toLowerCase() !== HOME_TEST_LABORATORY &&
+    (result.method?.trim() ?? '') !== '' &&
+    /^\d{4}-\d{2}-\d{2}$/.test(result.date ?? '')
+  );
 }
 
 /** One evaluated row. */
@@ -121,7 +126,11 @@ function valueOf(result: number | LabResult | undefined | null): number | undefi
  * @param options ASTM grade and sulfur grade
  * @returns per-property verdicts, the overall verdict and the caution text
  */
-export function evaluateQuality(standard: FuelStandard, results: QualityResults, options: QualityOptions = {}): QualityEvaluation {
+export function evaluateQuality(
+  standard: FuelStandard,
+  results: QualityResults,
+  options: QualityOptions = {},
+): QualityEvaluation {
   const rows = limitsFor(standard, options.astmGrade ?? '2-B').map((limit): QualityRowResult => {
     let row: QualityLimit = limit;
     if (standard === 'ASTM D6751' && limit.property === 'sulfur' && options.astmSulfurGrade === 'S500') {
@@ -137,12 +146,23 @@ export function evaluateQuality(standard: FuelStandard, results: QualityResults,
     const lab = isLaboratoryResult(result);
     const meta = typeof result === 'object' && result !== null ? result : null;
     const base = {
-      property: row.property, label: row.label, unit: row.unit, standard, value: raw ?? null, limitText: row.limitText,
-      standardMethod: row.method, source: row.source, required: row.required,
-      method: meta?.method?.trim() || null, laboratory: meta?.laboratory?.trim() || null, date: meta?.date ?? null, isLaboratory: lab,
+      property: row.property,
+      label: row.label,
+      unit: row.unit,
+      standard,
+      value: raw ?? null,
+      limitText: row.limitText,
+      standardMethod: row.method,
+      source: row.source,
+      required: row.required,
+      method: meta?.method?.trim() || null,
+      laboratory: meta?.laboratory?.trim() || null,
+      date: meta?.date ?? null,
+      isLaboratory: lab,
       ...(row.note ? { note: row.note } : {}),
     };
-    const judged = (ok: boolean): QualityVerdict => (lab ? (ok ? 'pass' : 'fail') : ok ? 'screened-within' : 'screened-outside');
+    const judged = (ok: boolean): QualityVerdict =>
+      lab ? (ok ? 'pass' : 'fail') : ok ? 'screened-within' : 'screened-outside';
 
     if (row.reportOnly) return { ...base, verdict: raw === undefined ? 'not tested' : 'reported' };
     if (row.alternative) {
@@ -151,9 +171,15 @@ export function evaluateQuality(standard: FuelStandard, results: QualityResults,
       const altMet = altValue !== undefined && altValue >= row.alternative.min;
       const altLab = isLaboratoryResult(alt);
       if (raw === undefined && !altMet) return { ...base, verdict: 'not tested' };
-      if (raw !== undefined && withinLimit(raw, row) && (lab || !(altMet && altLab))) return { ...base, verdict: judged(true) };
+      if (raw !== undefined && withinLimit(raw, row) && (lab || !(altMet && altLab)))
+        return { ...base, verdict: judged(true) };
       if (altMet) {
-        return { ...base, verdict: altLab ? 'pass' : 'screened-within', isLaboratory: altLab, note: `Met by ${row.alternative.text}.` };
+        return {
+          ...base,
+          verdict: altLab ? 'pass' : 'screened-within',
+          isLaboratory: altLab,
+          note: `Met by ${row.alternative.text}.`,
+        };
       }
       return { ...base, verdict: judged(false) };
     }
@@ -162,7 +188,8 @@ export function evaluateQuality(standard: FuelStandard, results: QualityResults,
   });
 
   const required = rows.filter((r) => r.required);
-  const labDone = (r: QualityRowResult) => r.isLaboratory && (r.verdict === 'pass' || r.verdict === 'fail' || r.verdict === 'reported');
+  const labDone = (r: QualityRowResult) =>
+    r.isLaboratory && (r.verdict === 'pass' || r.verdict === 'fail' || r.verdict === 'reported');
   const testedCount = required.filter(labDone).length;
   const failing = rows.filter((r) => r.verdict === 'fail').map((r) => r.label);
   const screenedOutside = rows.filter((r) => r.verdict === 'screened-outside').map((r) => r.label);
@@ -194,5 +221,9 @@ export function evaluateQuality(standard: FuelStandard, results: QualityResults,
  * never "pass" — 'pass' is shown as "Meets <standard>".
  */
 export function storedVerdictText(standard: FuelStandard, overall: 'pass' | 'fail' | 'incomplete'): string {
-  return overall === 'pass' ? `Meets ${standard}` : overall === 'fail' ? 'Fails a laboratory test' : 'Screened — not every required property tested';
+  return overall === 'pass'
+    ? `Meets ${standard}`
+    : overall === 'fail'
+      ? 'Fails a laboratory test'
+      : 'Screened — not every required property tested';
 }

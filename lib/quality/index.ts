@@ -22,11 +22,5 @@ export {
   evaluateQuickTests,
   soapPpm,
 } from './screening';
-export type {
-  QuickTestInput,
-  QuickTestKey,
-  QuickTestResult,
-  QuickTestEvaluation,
-  ScreeningStatus,
-} from './screening';
+export type { QuickTestInput, QuickTestKey, QuickTestResult, QuickTestEvaluation, ScreeningStatus } from './screening';
 export { formatQualityValue, formatQualityLimit } from './format';

@@ -18,5 +18,7 @@ export const QUALITY_LIMITS: readonly QualityLimit[] = [...ASTM_D6751_LIMITS, ..
  * @returns the rows of that standard
  */
 export function limitsFor(standard: FuelStandard, astmGrade: AstmGrade = '2-B'): QualityLimit[] {
-  return QUALITY_LIMITS.filter((row) => row.standard === standard && (row.astmGrade === undefined || row.astmGrade === astmGrade));
+  return QUALITY_LIMITS.filter(
+    (row) => row.standard === standard && (row.astmGrade === undefined || row.astmGrade === astmGrade),
+  );
 }

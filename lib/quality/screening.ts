@@ -85,7 +85,8 @@ const LABELS: Record<QuickTestKey, string> = {
  */
 export function soapPpm(hclMl: number, sampleGrams: number, catalyst: 'NaOH' | 'KOH'): number {
   if (!Number.isFinite(hclMl) || hclMl < 0) throw new RangeError(`HCl volume must be ≥ 0 mL, got ${hclMl}`);
-  if (!Number.isFinite(sampleGrams) || sampleGrams <= 0) throw new RangeError(`Sample mass must be > 0 g, got ${sampleGrams}`);
+  if (!Number.isFinite(sampleGrams) || sampleGrams <= 0)
+    throw new RangeError(`Sample mass must be > 0 g, got ${sampleGrams}`);
   return (hclMl * SOAP_TITRANT_NORMALITY * SOAP_MOLAR_MASS_G_PER_MOL[catalyst] * 1000) / sampleGrams;
 }
 
@@ -146,7 +147,12 @@ export function evaluateQuickTests(input: QuickTestInput): QuickTestEvaluation {
     items.push(
       input.washTest === 'clean-split'
         ? { test: 'washTest', label: LABELS.washTest, status: 'looks-good', detail: 'Clean, quick split: little soap.' }
-        : { test: 'washTest', label: LABELS.washTest, status: 'needs-attention', detail: 'Emulsion: soap or unreacted oil present.' },
+        : {
+            test: 'washTest',
+            label: LABELS.washTest,
+            status: 'needs-attention',
+            detail: 'Emulsion: soap or unreacted oil present.',
+          },
     );
   } else {
     items.push({ test: 'washTest', label: LABELS.washTest, status: 'not tested', detail: 'Not tested.' });
@@ -159,9 +165,16 @@ export function evaluateQuickTests(input: QuickTestInput): QuickTestEvaluation {
             test: 'water',
             label: LABELS.water,
             status: 'recorded',
-            detail: 'Clear to the eye. A visual check only, not a water result: clear fuel can hold well over 500 ppm of dissolved water; only a laboratory test (e.g. EN ISO 12937 or ASTM D2709) measures it.',
+            detail:
+              'Clear to the eye. A visual check only, not a water result: clear fuel can hold well over 500 ppm of dissolved water; only a laboratory test (e.g. EN ISO 12937 or ASTM D2709) measures it.',
           }
-        : { test: 'water', label: LABELS.water, status: 'needs-attention', detail: 'Hazy: free water still present — dry further (a laboratory test measures water; EN 14214 allows ≤ 500 mg/kg).' },
+        : {
+            test: 'water',
+            label: LABELS.water,
+            status: 'needs-attention',
+            detail:
+              'Hazy: free water still present — dry further (a laboratory test measures water; EN 14214 allows ≤ 500 mg/kg).',
+          },
     );
   } else {
     items.push({ test: 'water', label: LABELS.water, status: 'not tested', detail: 'Not tested.' });

@@ -6,7 +6,6 @@ import { formatRate, perGallonToPerUnit } from '@/lib/tank/pricing-policy/conver
 import { formatVolume, volumeFromLiters, volumeLabel } from '@/lib/units';
 import { VOLUME_COLUMNS, type QuarterlyReport, type VolumeRow } from './quarterly';
 
-
 /** CSV: one row per month and a total row; volumes in the co-op's unit (3 decimals), money in dollars. */
 export function quarterlyCsv(r: QuarterlyReport): string {
   const unit = volumeLabel(r.coop.units) === 'gal' ? 'us_gal' : 'l';
@@ -36,7 +35,10 @@ export async function quarterlyPdf(r: QuarterlyReport): Promise<Buffer> {
   let y = doc.y;
   const drawRow = (cells: string[], bold: boolean) => {
     let x = 50;
-    doc.font(bold ? 'bold' : 'regular').fontSize(9).fillColor('#111');
+    doc
+      .font(bold ? 'bold' : 'regular')
+      .fontSize(9)
+      .fillColor('#111');
     cells.forEach((c, i) => {
       doc.text(c, x, y, { width: widths[i]! - 4, align: i === 0 ? 'left' : 'right' });
       x += widths[i]!;
@@ -44,13 +46,22 @@ export async function quarterlyPdf(r: QuarterlyReport): Promise<Buffer> {
     y += 18;
   };
   drawRow(headers, true);
-  doc.moveTo(50, y - 4).lineTo(550, y - 4).strokeColor('#999').stroke();
+  doc
+    .moveTo(50, y - 4)
+    .lineTo(550, y - 4)
+    .strokeColor('#999')
+    .stroke();
   rows.forEach((cells, i) => drawRow(cells, i === rows.length - 1));
   doc.x = 50;
   doc.y = y + 10;
   doc.font('regular').fontSize(9).fillColor('#333');
-  doc.text(`Volumes in ${unit === 'gal' ? 'US gallons' : 'litres'}. Drawn volumes are net of reversing entries. Months are calendar months in ${r.coop.timezone}.`);
-  if (r.roadTaxCentsPerGallon) doc.text(`Road-fuel tax configured by the co-op: ${formatRate(perGallonToPerUnit(r.roadTaxCentsPerGallon, r.coop.units))} per ${r.coop.units === 'us' ? 'gallon' : 'litre'} on road use.`);
+  doc.text(
+    `Volumes in ${unit === 'gal' ? 'US gallons' : 'litres'}. Drawn volumes are net of reversing entries. Months are calendar months in ${r.coop.timezone}.`,
+  );
+  if (r.roadTaxCentsPerGallon)
+    doc.text(
+      `Road-fuel tax configured by the co-op: ${formatRate(perGallonToPerUnit(r.roadTaxCentsPerGallon, r.coop.units))} per ${r.coop.units === 'us' ? 'gallon' : 'litre'} on road use.`,
+    );
   doc.moveDown().font('bold').text('Note').font('regular').text(r.disclaimer);
   return pdfToBuffer(doc);
 }

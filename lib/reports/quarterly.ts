@@ -56,11 +56,17 @@ export interface QuarterlyReport {
  * then, though their fuel never entered a tank here. "Released" is every release movement into a
  * tank, so the two differ when fuel enters a tank other than from a batch record (or was imported).
  */
-export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarterQuerySchema>): Promise<QuarterlyReport> {
+export async function getQuarterlyReport(
+  actor: Actor,
+  q: z.infer<typeof quarterQuerySchema>,
+): Promise<QuarterlyReport> {
   requireCan(actor, 'reports:read');
   const startMonth = (q.quarter - 1) * 3 + 1;
   const start = `${q.year}-${String(startMonth).padStart(2, '0')}-01`;
-  const [rows, policy] = await Promise.all([quarterMonths(actor.coop.id, actor.coop.timezone, start), policyInForce(actor.coop.id)]);
+  const [rows, policy] = await Promise.all([
+    quarterMonths(actor.coop.id, actor.coop.timezone, start),
+    policyInForce(actor.coop.id),
+  ]);
   const months = rows.map<VolumeRow>((r) => ({
     period: r.month,
     producedLiters: fixed(r.produced),
@@ -90,7 +96,8 @@ export async function getQuarterlyReport(actor: Actor, q: z.infer<typeof quarter
     quarter: q.quarter,
     months,
     total,
-    roadTaxCentsPerGallon: policy && Number(policy.road_tax_cents_per_gallon) > 0 ? String(policy.road_tax_cents_per_gallon) : null,
+    roadTaxCentsPerGallon:
+      policy && Number(policy.road_tax_cents_per_gallon) > 0 ? String(policy.road_tax_cents_per_gallon) : null,
     disclaimer: REPORT_DISCLAIMER,
   };
 }

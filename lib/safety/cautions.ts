@@ -43,7 +43,8 @@ export const SAFETY_CAUTIONS: readonly SafetyCaution[] = [
     id: 'lye-vessel-metals',
     topic: 'materials',
     text: 'Never mix or hold lye or methoxide in aluminium, tin or zinc (galvanised) vessels: the lye attacks them, giving off flammable hydrogen. Use stainless steel or HDPE.',
-    source: 'University extension safety guides (common practice); alkali attack on aluminium and zinc, CRC Handbook chemistry',
+    source:
+      'University extension safety guides (common practice); alkali attack on aluminium and zinc, CRC Handbook chemistry',
   },
   {
     id: 'b100-materials',
@@ -91,7 +92,8 @@ export const ALTITUDE_CAUTION: SafetyCaution = {
   id: 'altitude',
   topic: 'methanol',
   text: 'At altitude methanol boils below 64.7 °C (148.5 °F) — near 60 °C (140 °F) at 1,600 m (5,250 ft): keep reaction temperatures correspondingly lower.',
-  source: 'NIST Chemistry WebBook (methanol Antoine equation) with the barometric formula (US Standard Atmosphere 1976)',
+  source:
+    'NIST Chemistry WebBook (methanol Antoine equation) with the barometric formula (US Standard Atmosphere 1976)',
 };
 
 /** The closing line that defers to local rules (the last item of {@link SAFETY_CAUTIONS}). */
@@ -103,7 +105,10 @@ export const SAFETY_DEFERENCE = 'Always follow local fire codes, chemical-storag
  * @param options altitudeText: the co-op's altitude note (lib/chemistry altitudeNote), added after the methanol cautions
  * @returns caution items in display order
  */
-export function safetyCautionsFor(topics?: readonly SafetyTopic[], options: { altitudeText?: string | null } = {}): SafetyCaution[] {
+export function safetyCautionsFor(
+  topics?: readonly SafetyTopic[],
+  options: { altitudeText?: string | null } = {},
+): SafetyCaution[] {
   const wanted = topics ? new Set<SafetyTopic>([...topics, 'local-rules']) : null;
   const list = SAFETY_CAUTIONS.filter((c) => wanted === null || wanted.has(c.topic));
   if (options.altitudeText && (wanted === null || wanted.has('methanol'))) {

@@ -11,4 +11,5 @@ export const RECALL_CAUTIONS: readonly string[] = [
 ];
 
 /** The one line on every recall screen and e-mail that defers to professionals. */
-export const RECALL_DEFERENCE = 'Defer to a qualified mechanic or technician and to your vehicle maker’s guidance; the co-op cannot judge your engine from here.'; // common practice
+export const RECALL_DEFERENCE =
+  'Defer to a qualified mechanic or technician and to your vehicle maker’s guidance; the co-op cannot judge your engine from here.'; // common practice

@@ -11,7 +11,8 @@ export const DOWNLOAD_CSP = "default-src 'none'; frame-ancestors 'none'; sandbox
 export const HSTS = 'max-age=63072000; includeSubDomains';
 
 /** Browser features the app never uses, switched off for it and anything it embeds. */
-export const PERMISSIONS_POLICY = 'camera=(), microphone=(), geolocation=(), payment=(), usb=(), serial=(), hid=(), midi=()';
+export const PERMISSIONS_POLICY =
+  'camera=(), microphone=(), geolocation=(), payment=(), usb=(), serial=(), hid=(), midi=()';
 
 /** Headers every response carries (also set for static files in next.config.mjs). */
 export const COMMON_HEADERS: Readonly<Record<string, string>> = {

@@ -30,7 +30,9 @@ export async function importLocalFolder(dir: string, log: (m: string) => void = 
   const report: ImportReport = { copied: 0, alreadyThere: 0, ignored: [], missing: [] };
   const exists = async (key: string): Promise<number | null> => {
     try {
-      return Number((await client.send(new HeadObjectCommand({ Bucket: bucket, Key: objectKey(key) }))).ContentLength ?? 0);
+      return Number(
+        (await client.send(new HeadObjectCommand({ Bucket: bucket, Key: objectKey(key) }))).ContentLength ?? 0,
+      );
     } catch (e) {
       if ((e as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode === 404) return null;
       throw e;
@@ -54,15 +56,27 @@ export async function importLocalFolder(dir: string, log: (m: string) => void = 
         report.alreadyThere++;
         continue;
       }
-      await client.send(new PutObjectCommand({ Bucket: bucket, Key: objectKey(key), Body: bytes, ContentLength: bytes.length, ContentType: mimeOf(KINDS[m[2]!]!) }));
+      await client.send(
+        new PutObjectCommand({
+          Bucket: bucket,
+          Key: objectKey(key),
+          Body: bytes,
+          ContentLength: bytes.length,
+          ContentType: mimeOf(KINDS[m[2]!]!),
+        }),
+      );
       report.copied++;
     }
   }
   const referenced = [
     ...(await BatchFile.findAll({ attributes: ['storageKey'], raw: true })).map((r) => r.storageKey),
-    ...(await ChemicalLot.findAll({ attributes: ['sdsFileKey'], where: { sdsFileKey: { [Op.ne]: null } }, raw: true })).map((r) => r.sdsFileKey!),
+    ...(
+      await ChemicalLot.findAll({ attributes: ['sdsFileKey'], where: { sdsFileKey: { [Op.ne]: null } }, raw: true })
+    ).map((r) => r.sdsFileKey!),
   ];
   for (const key of referenced) if ((await exists(key)) === null) report.missing.push(key);
-  log(`storage import: ${report.copied} copied, ${report.alreadyThere} already there, ${report.ignored.length} ignored, ${report.missing.length} of ${referenced.length} referenced keys missing`);
+  log(
+    `storage import: ${report.copied} copied, ${report.alreadyThere} already there, ${report.ignored.length} ignored, ${report.missing.length} of ${referenced.length} referenced keys missing`,
+  );
   return report;
 }

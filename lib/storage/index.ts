@@ -21,7 +21,11 @@ const MIME: Record<StoredKind, string> = { pdf: 'application/pdf', jpeg: 'image/
 export function sniffKind(bytes: Uint8Array): StoredKind | null {
   if (bytes.length >= 5 && Buffer.from(bytes.subarray(0, 5)).toString('latin1') === '%PDF-') return 'pdf';
   if (bytes.length >= 3 && bytes[0] === 0xff && bytes[1] === 0xd8 && bytes[2] === 0xff) return 'jpeg';
-  if (bytes.length >= 8 && Buffer.from(bytes.subarray(0, 8)).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))) return 'png';
+  if (
+    bytes.length >= 8 &&
+    Buffer.from(bytes.subarray(0, 8)).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))
+  )
+    return 'png';
   return null;
 }
 
@@ -42,7 +46,12 @@ export function objectKey(key: string): string {
 /** The store could not be reached or refused us: logged for the operator, 503 for the person. */
 const unavailable = (err: unknown, op: string) => {
   log.warn({ err, op }, 'storage.unavailable');
-  return new HttpError(503, 'File storage cannot be reached right now. Nothing was changed; please try again shortly.', undefined, { code: 'storage-unavailable', retryAfter: 5 });
+  return new HttpError(
+    503,
+    'File storage cannot be reached right now. Nothing was changed; please try again shortly.',
+    undefined,
+    { code: 'storage-unavailable', retryAfter: 5 },
+  );
 };
 
 /** Saves bytes for a co-op; returns the storage key (never a user-supplied name). */
@@ -50,7 +59,15 @@ export async function putFile(coopId: number, kind: StoredKind, bytes: Uint8Arra
   const key = `${coopId}/${crypto.randomUUID()}.${kind === 'jpeg' ? 'jpg' : kind}`;
   const { client, bucket } = storageConfig();
   try {
-    await client.send(new PutObjectCommand({ Bucket: bucket, Key: objectKey(key), Body: bytes, ContentLength: bytes.byteLength, ContentType: MIME[kind] }));
+    await client.send(
+      new PutObjectCommand({
+        Bucket: bucket,
+        Key: objectKey(key),
+        Body: bytes,
+        ContentLength: bytes.byteLength,
+        ContentType: MIME[kind],
+      }),
+    );
   } catch (e) {
     throw unavailable(e, 'put');
   }

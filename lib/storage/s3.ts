@@ -30,9 +30,17 @@ let notConfiguredLogged = false;
 function notConfigured(): HttpError {
   if (!notConfiguredLogged) {
     notConfiguredLogged = true;
-    log.error({ code: 'storage-not-configured' }, 'File storage is not configured: set S3_BUCKET (and S3_ENDPOINT for a store other than AWS).');
+    log.error(
+      { code: 'storage-not-configured' },
+      'File storage is not configured: set S3_BUCKET (and S3_ENDPOINT for a store other than AWS).',
+    );
   }
-  return new HttpError(503, 'File storage is not set up on this installation yet. Nothing was changed; please tell the administrator.', undefined, { code: 'storage-not-configured', retryAfter: 60 });
+  return new HttpError(
+    503,
+    'File storage is not set up on this installation yet. Nothing was changed; please tell the administrator.',
+    undefined,
+    { code: 'storage-not-configured', retryAfter: 60 },
+  );
 }
 
 /** The bucket, key prefix and client (one client per process: it only holds connections); 503 HttpError when no bucket is set. */
@@ -40,7 +48,14 @@ export function storageConfig(): StorageConfig {
   const env = process.env;
   const bucket = env.S3_BUCKET?.trim();
   if (!bucket) throw notConfigured();
-  const signature = [bucket, env.S3_ENDPOINT, env.S3_REGION, env.S3_ACCESS_KEY_ID, env.S3_FORCE_PATH_STYLE, env.S3_KEY_PREFIX].join('\n');
+  const signature = [
+    bucket,
+    env.S3_ENDPOINT,
+    env.S3_REGION,
+    env.S3_ACCESS_KEY_ID,
+    env.S3_FORCE_PATH_STYLE,
+    env.S3_KEY_PREFIX,
+  ].join('\n');
   if (current?.signature === signature) return current.config;
   const rawPrefix = (env.S3_KEY_PREFIX ?? '').trim().replace(/^\/+/, '');
   const prefix = rawPrefix && !rawPrefix.endsWith('/') ? `${rawPrefix}/` : rawPrefix;

@@ -22,7 +22,8 @@ const KIND_EXTENSIONS: Record<StoredKind, readonly string[]> = { pdf: ['pdf'], j
  * Markup and script a browser or PDF reader could run, found in files that claim to be documents
  * or images (polyglots such as `%PDF-` followed by an HTML page). Scanned in the raw bytes.
  */
-const HTML_MARKERS = /<\s*(?:!doctype|html|head|body|script|iframe|object|embed|svg|meta|base|form|img[^>]*\bon\w+\s*=)|javascript:/i;
+const HTML_MARKERS =
+  /<\s*(?:!doctype|html|head|body|script|iframe|object|embed|svg|meta|base|form|img[^>]*\bon\w+\s*=)|javascript:/i;
 /** PDF actions that run code or other programs when the file is opened. */
 const PDF_SCRIPT_MARKERS = /\/(?:JavaScript|JS|Launch|RichMedia|XFA)\b/;
 
@@ -38,7 +39,10 @@ export function hasActiveContent(bytes: Uint8Array, kind: StoredKind): boolean {
  * never carries a name that a browser or desktop would open as something else.
  */
 export function displayName(raw: string, kind: StoredKind): string {
-  const cleaned = raw.replace(/[\u0000-\u001f\u007f/\\]/g, '_').trim().replace(/[. ]+$/, '');
+  const cleaned = raw
+    .replace(/[\u0000-\u001f\u007f/\\]/g, '_')
+    .trim()
+    .replace(/[. ]+$/, '');
   const dot = cleaned.lastIndexOf('.');
   const ext = dot > 0 ? cleaned.slice(dot + 1).toLowerCase() : '';
   const allowed = KIND_EXTENSIONS[kind];
@@ -54,31 +58,46 @@ export function displayName(raw: string, kind: StoredKind): string {
  * Call it after authorization.
  */
 export async function readUpload(req: Request, allowed: readonly StoredKind[], field = 'file'): Promise<CheckedUpload> {
-  const tooBig = () => new HttpError(413, `The file is larger than ${MB} MB.`, { [field]: [`Files can be at most ${MB} MB.`] });
+  const tooBig = () =>
+    new HttpError(413, `The file is larger than ${MB} MB.`, { [field]: [`Files can be at most ${MB} MB.`] });
   const declared = Number(req.headers.get('content-length') ?? 'NaN');
   // Multipart framing adds a little; anything beyond the limit plus 64 KiB cannot hold an allowed file.
   if (Number.isFinite(declared) && declared > MAX_UPLOAD_BYTES + 64 * 1024) throw tooBig();
   if (!(req.headers.get('content-type') ?? '').toLowerCase().startsWith('multipart/form-data')) {
-    throw new HttpError(415, 'Send the file as a multipart/form-data upload.', { [field]: ['Send the file as a multipart/form-data upload.'] });
+    throw new HttpError(415, 'Send the file as a multipart/form-data upload.', {
+      [field]: ['Send the file as a multipart/form-data upload.'],
+    });
   }
   let form: FormData;
   try {
     form = await req.formData();
   } catch {
-    throw new HttpError(400, 'The upload could not be read.', { [field]: ['The upload could not be read; try again.'] });
+    throw new HttpError(400, 'The upload could not be read.', {
+      [field]: ['The upload could not be read; try again.'],
+    });
   }
   const entry = form.get(field);
-  if (!entry || typeof entry === 'string') throw new HttpError(422, 'Some fields need attention.', { [field]: ['Choose a file to upload.'] });
+  if (!entry || typeof entry === 'string')
+    throw new HttpError(422, 'Some fields need attention.', { [field]: ['Choose a file to upload.'] });
   if (entry.size > MAX_UPLOAD_BYTES) throw tooBig();
   if (entry.size === 0) throw new HttpError(422, 'Some fields need attention.', { [field]: ['The file is empty.'] });
   const bytes = new Uint8Array(await entry.arrayBuffer());
   const kind = sniffKind(bytes);
   if (!kind || !allowed.includes(kind)) {
-    const want = allowed.map((k) => KIND_NAMES[k]).join(', ').replace(/, ([^,]*)$/, ' or $1');
-    throw new HttpError(422, 'Some fields need attention.', { [field]: [`This file is not a ${want} (checked from its content, not its name).`] });
+    const want = allowed
+      .map((k) => KIND_NAMES[k])
+      .join(', ')
+      .replace(/, ([^,]*)$/, ' or $1');
+    throw new HttpError(422, 'Some fields need attention.', {
+      [field]: [`This file is not a ${want} (checked from its content, not its name).`],
+    });
   }
   if (hasActiveContent(bytes, kind)) {
-    throw new HttpError(422, 'Some fields need attention.', { [field]: [`This ${KIND_NAMES[kind]} contains web page or script content, which is not accepted. Save or print it as a plain ${KIND_NAMES[kind]} and upload that.`] });
+    throw new HttpError(422, 'Some fields need attention.', {
+      [field]: [
+        `This ${KIND_NAMES[kind]} contains web page or script content, which is not accepted. Save or print it as a plain ${KIND_NAMES[kind]} and upload that.`,
+      ],
+    });
   }
   const fields: Record<string, string> = Object.create(null);
   form.forEach((v, k) => {
@@ -94,7 +113,9 @@ export async function readUpload(req: Request, allowed: readonly StoredKind[], f
  * browser can run nothing.
  */
 export function fileResponse(file: StoredFile, kind: StoredKind, filename: string): Response {
-  const safe = displayName(filename, kind).replace(/[^A-Za-z0-9._-]/g, '_').slice(-120);
+  const safe = displayName(filename, kind)
+    .replace(/[^A-Za-z0-9._-]/g, '_')
+    .slice(-120);
   return new Response(file.body, {
     headers: {
       'content-type': mimeOf(kind),

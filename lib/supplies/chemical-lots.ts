@@ -24,27 +24,63 @@ export type ChemicalLotDto = z.infer<typeof chemicalLotSchema>;
 
 type ChemicalLotRow = Pick<
   InferAttributes<ChemicalLot>,
-  'id' | 'kind' | 'description' | 'supplier' | 'receivedOn' | 'quantityUnit' | 'quantity' | 'remainingQuantity' | 'totalCostCents' |
-  'purityPct' | 'sdsFileKey' | 'sdsFileName' | 'notes'
+  | 'id'
+  | 'kind'
+  | 'description'
+  | 'supplier'
+  | 'receivedOn'
+  | 'quantityUnit'
+  | 'quantity'
+  | 'remainingQuantity'
+  | 'totalCostCents'
+  | 'purityPct'
+  | 'sdsFileKey'
+  | 'sdsFileName'
+  | 'notes'
 >;
 const CHEMICAL_ATTRIBUTES: (keyof ChemicalLotRow)[] = [
-  'id', 'kind', 'description', 'supplier', 'receivedOn', 'quantityUnit', 'quantity', 'remainingQuantity', 'totalCostCents', 'purityPct',
-  'sdsFileKey', 'sdsFileName', 'notes',
+  'id',
+  'kind',
+  'description',
+  'supplier',
+  'receivedOn',
+  'quantityUnit',
+  'quantity',
+  'remainingQuantity',
+  'totalCostCents',
+  'purityPct',
+  'sdsFileKey',
+  'sdsFileName',
+  'notes',
 ];
 
 function chemicalDto(r: ChemicalLotRow): ChemicalLotDto {
   const quantity = Number(r.quantity);
   const remaining = Number(r.remainingQuantity);
   return {
-    id: r.id, kind: r.kind, description: r.description, supplier: r.supplier, receivedOn: r.receivedOn, unit: r.quantityUnit,
-    quantity, remaining, consumed: Number((quantity - remaining).toFixed(3)), totalCostCents: Number(r.totalCostCents),
-    purityPct: r.purityPct === null ? null : Number(r.purityPct), hasSafetyDataSheet: Boolean(r.sdsFileKey),
-    safetyDataSheetName: r.sdsFileName, notes: r.notes,
+    id: r.id,
+    kind: r.kind,
+    description: r.description,
+    supplier: r.supplier,
+    receivedOn: r.receivedOn,
+    unit: r.quantityUnit,
+    quantity,
+    remaining,
+    consumed: Number((quantity - remaining).toFixed(3)),
+    totalCostCents: Number(r.totalCostCents),
+    purityPct: r.purityPct === null ? null : Number(r.purityPct),
+    hasSafetyDataSheet: Boolean(r.sdsFileKey),
+    safetyDataSheetName: r.sdsFileName,
+    notes: r.notes,
   };
 }
 
 const CHEMICAL_SORT: Record<string, string | ReturnType<typeof fn>> = {
-  receivedOn: 'receivedOn', kind: 'kind', supplier: fn('lower', col('supplier')), remaining: 'remainingQuantity', cost: 'totalCostCents',
+  receivedOn: 'receivedOn',
+  kind: 'kind',
+  supplier: fn('lower', col('supplier')),
+  remaining: 'remainingQuantity',
+  cost: 'totalCostCents',
 };
 
 /**
@@ -60,8 +96,15 @@ export async function listChemicalLots(
   const where: WhereOptions<ChemicalLot> = q.kind ? { coopId: actor.coop.id, kind: q.kind } : { coopId: actor.coop.id };
   const [rows, total] = await Promise.all([
     ChemicalLot.findAll({
-      attributes: CHEMICAL_ATTRIBUTES, where, raw: true,
-      order: [[CHEMICAL_SORT[q.sort] ?? 'receivedOn', dir], ['id', dir]], limit: q.pageSize, offset: (q.page - 1) * q.pageSize,
+      attributes: CHEMICAL_ATTRIBUTES,
+      where,
+      raw: true,
+      order: [
+        [CHEMICAL_SORT[q.sort] ?? 'receivedOn', dir],
+        ['id', dir],
+      ],
+      limit: q.pageSize,
+      offset: (q.page - 1) * q.pageSize,
     }),
     ChemicalLot.count({ where }),
   ]);
@@ -74,7 +117,10 @@ export async function getChemicalLot(actor: Actor, id: number): Promise<Chemical
 }
 
 /** Converts a typed quantity to the stored unit: litres (from L or US gal) or grams (from g, kg or lb; 1 lb = 0.45359237 kg, NIST SP 811). */
-export function toStoredQuantity(quantity: number, unit: 'L' | 'gal' | 'g' | 'kg' | 'lb'): { quantity: number; unit: 'L' | 'g' } {
+export function toStoredQuantity(
+  quantity: number,
+  unit: 'L' | 'gal' | 'g' | 'kg' | 'lb',
+): { quantity: number; unit: 'L' | 'g' } {
   if (unit === 'gal') return { quantity: gallonsToLiters(quantity), unit: 'L' };
   if (unit === 'kg') return { quantity: quantity * 1000, unit: 'g' };
   if (unit === 'lb') return { quantity: lbToKg(quantity) * 1000, unit: 'g' };
@@ -90,19 +136,38 @@ export function toStoredQuantity(quantity: number, unit: 'L' | 'gal' | 'g' | 'kg
 export async function createChemicalLot(actor: Actor, input: ChemicalLotCreateInput): Promise<ChemicalLotDto> {
   const stored = toStoredQuantity(input.quantity, input.unit);
   const qty = stored.quantity.toFixed(3);
-  if (Number(qty) <= 0) throw new HttpError(422, 'Some fields need attention.', { quantity: ['Quantity is too small to record.'] });
+  if (Number(qty) <= 0)
+    throw new HttpError(422, 'Some fields need attention.', { quantity: ['Quantity is too small to record.'] });
   const created = await inTransaction(async (transaction) => {
     const lot = await ChemicalLot.create(
       {
-        coopId: actor.coop.id, kind: input.kind, description: input.description ?? null, supplier: input.supplier,
-        receivedOn: input.receivedOn, quantityUnit: stored.unit, quantity: qty, remainingQuantity: qty,
-        totalCostCents: String(input.totalCost), purityPct: input.purityPct === undefined ? null : input.purityPct.toFixed(2),
-        notes: input.notes ?? null, createdByUserId: actor.user.id,
+        coopId: actor.coop.id,
+        kind: input.kind,
+        description: input.description ?? null,
+        supplier: input.supplier,
+        receivedOn: input.receivedOn,
+        quantityUnit: stored.unit,
+        quantity: qty,
+        remainingQuantity: qty,
+        totalCostCents: String(input.totalCost),
+        purityPct: input.purityPct === undefined ? null : input.purityPct.toFixed(2),
+        notes: input.notes ?? null,
+        createdByUserId: actor.user.id,
       },
       { transaction },
     );
     const dto = await readChemical(actor.coop.id, lot.id, transaction);
-    await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'chemical-lot.create', entityType: 'chemical_lot', entityId: lot.id, after: dto }, transaction);
+    await audit(
+      {
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'chemical-lot.create',
+        entityType: 'chemical_lot',
+        entityId: lot.id,
+        after: dto,
+      },
+      transaction,
+    );
     return dto;
   });
   await checkLowStock(actor.coop.id);
@@ -110,7 +175,12 @@ export async function createChemicalLot(actor: Actor, input: ChemicalLotCreateIn
 }
 
 async function readChemical(coopId: number, id: number, transaction?: Transaction): Promise<ChemicalLotDto> {
-  const row = await ChemicalLot.findOne({ attributes: CHEMICAL_ATTRIBUTES, where: { id, coopId }, raw: true, transaction });
+  const row = await ChemicalLot.findOne({
+    attributes: CHEMICAL_ATTRIBUTES,
+    where: { id, coopId },
+    raw: true,
+    transaction,
+  });
   if (!row) throw notFound('Chemical lot not found.');
   return chemicalDto(row);
 }
@@ -130,15 +200,27 @@ export async function attachSafetyDataSheet(actor: Actor, id: number, upload: Ch
   try {
     const dto = await inTransaction(async (transaction) => {
       const row = await ChemicalLot.findOne({
-        attributes: ['sdsFileKey', 'sdsFileName'], where: { id, coopId }, raw: true, lock: transaction.LOCK.UPDATE, transaction,
+        attributes: ['sdsFileKey', 'sdsFileName'],
+        where: { id, coopId },
+        raw: true,
+        lock: transaction.LOCK.UPDATE,
+        transaction,
       });
       if (!row) throw notFound('Chemical lot not found.');
       previous = row.sdsFileKey;
       await ChemicalLot.update({ sdsFileKey: key, sdsFileName: upload.name }, { where: { id, coopId }, transaction });
-      await audit({
-        coopId, actorUserId: actor.user.id, action: 'chemical-lot.sds', entityType: 'chemical_lot', entityId: id,
-        before: { safetyDataSheet: row.sdsFileName }, after: { safetyDataSheet: upload.name, bytes: upload.bytes.length },
-      }, transaction);
+      await audit(
+        {
+          coopId,
+          actorUserId: actor.user.id,
+          action: 'chemical-lot.sds',
+          entityType: 'chemical_lot',
+          entityId: id,
+          before: { safetyDataSheet: row.sdsFileName },
+          after: { safetyDataSheet: upload.name, bytes: upload.bytes.length },
+        },
+        transaction,
+      );
       return readChemical(coopId, id, transaction);
     });
     if (previous) await deleteFile(coopId, previous);
@@ -151,7 +233,11 @@ export async function attachSafetyDataSheet(actor: Actor, id: number, upload: Ch
 
 /** The stored safety data sheet of a lot, opened for streaming (404 when there is none or the lot is another co-op's). */
 export async function getSafetyDataSheet(actor: Actor, id: number): Promise<{ file: StoredFile; name: string }> {
-  const row = await ChemicalLot.findOne({ attributes: ['sdsFileKey', 'sdsFileName', 'kind'], where: { id, coopId: actor.coop.id }, raw: true });
+  const row = await ChemicalLot.findOne({
+    attributes: ['sdsFileKey', 'sdsFileName', 'kind'],
+    where: { id, coopId: actor.coop.id },
+    raw: true,
+  });
   if (!row?.sdsFileKey) throw notFound('No safety data sheet for this lot.');
   return { file: await openFile(actor.coop.id, row.sdsFileKey), name: row.sdsFileName ?? `sds-${row.kind}-${id}.pdf` };
 }

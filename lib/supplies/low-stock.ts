@@ -9,7 +9,9 @@ import { flipLowStockToLow } from './queries';
 
 function amount(line: Pick<StockLine, 'kind'>, value: number, units: UnitSystem): string {
   if (line.kind === 'methanol') return formatVolume(value, units, 1);
-  return value >= 1000 ? `${(value / 1000).toLocaleString('en-US', { maximumFractionDigits: 2 })} kg` : `${Math.round(value).toLocaleString('en-US')} g`;
+  return value >= 1000
+    ? `${(value / 1000).toLocaleString('en-US', { maximumFractionDigits: 2 })} kg`
+    : `${Math.round(value).toLocaleString('en-US')} g`;
 }
 
 /**
@@ -31,7 +33,10 @@ export async function checkLowStock(coopId: number): Promise<StockLine['kind'][]
       if (line.low) {
         if (await flipLowStockToLow(coopId, line.kind)) crossed.push(line);
       } else {
-        await LowStockAlert.update({ state: 'ok', changedAt: new Date() }, { where: { coopId, chemical: line.kind, state: { [Op.ne]: 'ok' } } });
+        await LowStockAlert.update(
+          { state: 'ok', changedAt: new Date() },
+          { where: { coopId, chemical: line.kind, state: { [Op.ne]: 'ok' } } },
+        );
       }
     }
     if (!crossed.length || !summary.nextPlannedBatch) return crossed.map((l) => l.kind);
@@ -39,14 +44,16 @@ export async function checkLowStock(coopId: number): Promise<StockLine['kind'][]
       Coop.findByPk(coopId, { attributes: ['name', 'slug', 'units'], raw: true }),
       // The co-op's active brewers with their e-mail (one query, the user joined in).
       Membership.findAll({
-        attributes: [], where: { coopId, role: 'brewer', status: 'active' },
+        attributes: [],
+        where: { coopId, role: 'brewer', status: 'active' },
         include: [{ model: User, as: 'user', attributes: ['email', 'name'], required: true }],
         order: [[{ model: User, as: 'user' }, 'id', 'ASC']],
       }).then((rows) => rows.map((m) => ({ email: m.user!.email, name: m.user!.name }))),
     ]);
     if (!coop) return crossed.map((l) => l.kind);
-    const lines = crossed.map((l) =>
-      `- ${l.kind}: ${amount(l, Math.max(l.available, 0), coop.units)} available (${amount(l, l.onHand, coop.units)} on hand, ${amount(l, l.committed, coop.units)} in batches under way); batch ${summary.nextPlannedBatch!.number} needs ${amount(l, l.nextPlannedNeed ?? 0, coop.units)}.`,
+    const lines = crossed.map(
+      (l) =>
+        `- ${l.kind}: ${amount(l, Math.max(l.available, 0), coop.units)} available (${amount(l, l.onHand, coop.units)} on hand, ${amount(l, l.committed, coop.units)} in batches under way); batch ${summary.nextPlannedBatch!.number} needs ${amount(l, l.nextPlannedNeed ?? 0, coop.units)}.`,
     );
     const text = [
       `Stock at ${coop.name} won't cover the next planned batch (batch ${summary.nextPlannedBatch.number}):`,
@@ -56,11 +63,14 @@ export async function checkLowStock(coopId: number): Promise<StockLine['kind'][]
       `Order more or change the plan: ${appUrl(`/c/${coop.slug}/supplies`)}`,
       '',
       'You will get this e-mail again only after the stock has covered the next batch and then fallen short again.',
-      'Store methanol and catalyst as your supplier\'s safety data sheets and your local fire code require.',
+      "Store methanol and catalyst as your supplier's safety data sheets and your local fire code require.",
     ].join('\n');
     const subject = `${coop.name}: low ${crossed.map((l) => l.kind).join(' and ')} for batch ${summary.nextPlannedBatch.number}`;
     // One mail job per brewer: the worker sends them, retrying while the mail server is down.
-    await enqueueMany<PlainMailJob>(QUEUES.mail, brewers.map((b) => ({ to: b.email, subject, text, record: { kind: 'none' } })));
+    await enqueueMany<PlainMailJob>(
+      QUEUES.mail,
+      brewers.map((b) => ({ to: b.email, subject, text, record: { kind: 'none' } })),
+    );
     return crossed.map((l) => l.kind);
   } catch (e) {
     console.error('[low-stock] check failed:', (e as Error).message);

@@ -25,11 +25,31 @@ export async function flipLowStockToLow(coopId: number, chemical: LowStockChemic
 }
 
 /** One lot holding stock, or (totals) one row per chemical with the sums; decimals as text. */
-export interface StockLotRow { id: number; kind: 'methanol' | 'KOH' | 'NaOH'; receivedOn: string | null; quantity: string; remaining: string; totalCostCents: string; purityPct: string | null }
+export interface StockLotRow {
+  id: number;
+  kind: 'methanol' | 'KOH' | 'NaOH';
+  receivedOn: string | null;
+  quantity: string;
+  remaining: string;
+  totalCostCents: string;
+  purityPct: string | null;
+}
 /** What batches under way have committed, per catalyst (methanol L, catalyst g as text). */
-export interface CommittedRow { catalyst: 'KOH' | 'NaOH'; methanolLiters: string | null; catalystGrams: string | null }
+export interface CommittedRow {
+  catalyst: 'KOH' | 'NaOH';
+  methanolLiters: string | null;
+  catalystGrams: string | null;
+}
 /** The next planned batch (earliest date, then number) and what it needs. */
-export interface NextPlannedRow { id: number; number: number; catalyst: 'KOH' | 'NaOH'; batchDate: string; oilLiters: string; methanolLiters: string; catalystGrams: string }
+export interface NextPlannedRow {
+  id: number;
+  number: number;
+  catalyst: 'KOH' | 'NaOH';
+  batchDate: string;
+  oilLiters: string;
+  methanolLiters: string;
+  catalystGrams: string;
+}
 
 /**
  * The chemical stock picture in one round trip (it was three reads on every overview, planner and
@@ -37,7 +57,10 @@ export interface NextPlannedRow { id: number; number: number; catalyst: 'KOH' | 
  * one summed row per chemical), what batches in `underWay` have committed per catalyst (what was
  * actually used when recorded, else the plan), and the next planned batch with its needs.
  */
-export async function stockPicture(p: { coopId: number; kinds: string[]; underWay: string[]; totals: boolean }, transaction?: Transaction) {
+export async function stockPicture(
+  p: { coopId: number; kinds: string[]; underWay: string[]; totals: boolean },
+  transaction?: Transaction,
+) {
   const [row] = await sequelize.query<{ lots: StockLotRow[]; committed: CommittedRow[]; next: NextPlannedRow | null }>(
     `SELECT
        CASE WHEN $totals THEN (SELECT COALESCE(json_agg(x ORDER BY x.kind), '[]') FROM (

@@ -30,12 +30,28 @@ export async function stockSummary(actor: Actor, transaction?: Transaction): Pro
 }
 
 /** A chemical lot that still holds stock. `receivedAtMs` is the day received (UTC midnight, ms), the FIFO key. */
-export interface HeldLot { id: number; kind: 'methanol' | 'KOH' | 'NaOH'; receivedAtMs: number; quantity: number; remaining: number; totalCostCents: number; purityPct: number | null }
+export interface HeldLot {
+  id: number;
+  kind: 'methanol' | 'KOH' | 'NaOH';
+  receivedAtMs: number;
+  quantity: number;
+  remaining: number;
+  totalCostCents: number;
+  purityPct: number | null;
+}
 
 /** What batches under way have committed of each chemical, and the next planned batch with its needs. */
 export interface BatchNeeds {
   committed: Record<'methanol' | 'KOH' | 'NaOH', number>;
-  next: { id: number; number: number; catalyst: 'KOH' | 'NaOH'; methanolLiters: number; catalystGrams: number; batchDate: string; oilLiters: number } | null;
+  next: {
+    id: number;
+    number: number;
+    catalyst: 'KOH' | 'NaOH';
+    methanolLiters: number;
+    catalystGrams: number;
+    batchDate: string;
+    oilLiters: number;
+  } | null;
 }
 
 /**
@@ -45,11 +61,20 @@ export interface BatchNeeds {
  * With `totals`, one summed "lot" per chemical (negative id, no date or purity) instead of every
  * lot, for summaries that need totals only (the overview, the low-stock check).
  */
-export async function stockState(coopId: number, transaction?: Transaction, { totals = false } = {}): Promise<{ lots: HeldLot[]; needs: BatchNeeds }> {
+export async function stockState(
+  coopId: number,
+  transaction?: Transaction,
+  { totals = false } = {},
+): Promise<{ lots: HeldLot[]; needs: BatchNeeds }> {
   const row = await stockPicture({ coopId, kinds: STOCKED, underWay: UNDER_WAY, totals }, transaction);
   const lots = row.lots.map((r) => ({
-    id: r.id, kind: r.kind, receivedAtMs: r.receivedOn === null ? 0 : Date.parse(r.receivedOn), quantity: Number(r.quantity),
-    remaining: Number(r.remaining), totalCostCents: Number(r.totalCostCents), purityPct: r.purityPct === null ? null : Number(r.purityPct),
+    id: r.id,
+    kind: r.kind,
+    receivedAtMs: r.receivedOn === null ? 0 : Date.parse(r.receivedOn),
+    quantity: Number(r.quantity),
+    remaining: Number(r.remaining),
+    totalCostCents: Number(r.totalCostCents),
+    purityPct: r.purityPct === null ? null : Number(r.purityPct),
   }));
   const needs: BatchNeeds = { committed: { methanol: 0, KOH: 0, NaOH: 0 }, next: null };
   for (const r of row.committed) {
@@ -60,8 +85,13 @@ export async function stockState(coopId: number, transaction?: Transaction, { to
   const next = row.next;
   if (next) {
     needs.next = {
-      id: next.id, number: next.number, catalyst: next.catalyst, methanolLiters: Number(next.methanolLiters),
-      catalystGrams: Number(next.catalystGrams), batchDate: next.batchDate, oilLiters: Number(next.oilLiters),
+      id: next.id,
+      number: next.number,
+      catalyst: next.catalyst,
+      methanolLiters: Number(next.methanolLiters),
+      catalystGrams: Number(next.catalystGrams),
+      batchDate: next.batchDate,
+      oilLiters: Number(next.oilLiters),
     };
   }
   return { lots, needs };
@@ -75,7 +105,16 @@ export function summarizeStock(lots: HeldLot[], needs: BatchNeeds): StockSummary
     const onHand = Number(mine.reduce((a, l) => a + l.remaining, 0).toFixed(3));
     const committed = needs.committed[kind];
     const available = Number((onHand - committed).toFixed(3));
-    return { kind, unit, onHand, committed, available, lotsWithStock: mine.length, nextPlannedNeed: need, low: need !== null && available < need };
+    return {
+      kind,
+      unit,
+      onHand,
+      committed,
+      available,
+      lotsWithStock: mine.length,
+      nextPlannedNeed: need,
+      low: need !== null && available < need,
+    };
   };
   return {
     nextPlannedBatch: next ? { id: next.id, number: next.number, catalyst: next.catalyst } : null,
@@ -86,4 +125,3 @@ export function summarizeStock(lots: HeldLot[], needs: BatchNeeds): StockSummary
     ],
   };
 }
-

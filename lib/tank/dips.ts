@@ -23,7 +23,11 @@ export type DipResult = z.infer<typeof dipResultSchema>;
  * reading may not fall below what members have reserved (409). Lapsed reservations are marked
  * expired first, so they no longer count.
  */
-export async function recordDip(actor: Actor, tankId: number, input: z.infer<typeof dipCreateSchema>): Promise<DipResult> {
+export async function recordDip(
+  actor: Actor,
+  tankId: number,
+  input: z.infer<typeof dipCreateSchema>,
+): Promise<DipResult> {
   const units = actor.coop.units;
   const result = await inTransaction(async (transaction) => {
     await expireLapsedReservations(actor.coop.id, transaction);
@@ -35,10 +39,16 @@ export async function recordDip(actor: Actor, tankId: number, input: z.infer<typ
     const capacityMl = litersToMl(tank.capacityLiters);
     const diffMl = measuredMl - bookMl;
     if (measuredMl > capacityMl) {
-      throw new HttpError(422, 'Some fields need attention.', { measured: [`${tank.name} holds at most ${formatMl(capacityMl, units)}. Check the reading, or correct the tank's capacity first.`] });
+      throw new HttpError(422, 'Some fields need attention.', {
+        measured: [
+          `${tank.name} holds at most ${formatMl(capacityMl, units)}. Check the reading, or correct the tank's capacity first.`,
+        ],
+      });
     }
     if (diffMl !== 0 && !input.reason) {
-      throw new HttpError(422, 'Some fields need attention.', { reason: ['Say why the tank differs from the book (e.g. evaporation, a spill, meter drift).'] });
+      throw new HttpError(422, 'Some fields need attention.', {
+        reason: ['Say why the tank differs from the book (e.g. evaporation, a spill, meter drift).'],
+      });
     }
     if (diffMl < 0 && measuredMl < reservedMl) {
       throw new HttpError(
@@ -50,26 +60,55 @@ export async function recordDip(actor: Actor, tankId: number, input: z.infer<typ
     }
     let movementId: string | null = null;
     if (diffMl !== 0) {
-      const valueCents = diffMl > 0 && input.unitCost !== undefined
-        ? roundHalfUp((input.unitCost * mlToUnits(diffMl, units)))
-        : undefined;
+      const valueCents =
+        diffMl > 0 && input.unitCost !== undefined ? roundHalfUp(input.unitCost * mlToUnits(diffMl, units)) : undefined;
       const moved = await recordMovement(transaction, {
-        coopId: actor.coop.id, tankId, kind: 'dip-adjustment', quantityMl: diffMl, valueCents, reason: input.reason ?? null, userId: actor.user.id,
+        coopId: actor.coop.id,
+        tankId,
+        kind: 'dip-adjustment',
+        quantityMl: diffMl,
+        valueCents,
+        reason: input.reason ?? null,
+        userId: actor.user.id,
       });
       movementId = moved.id;
     }
     const dip = await DipReading.create(
-      { coopId: actor.coop.id, tankId, measuredLiters: mlToLiters(measuredMl), bookLiters: mlToLiters(bookMl), movementId, reason: input.reason ?? null, createdByUserId: actor.user.id },
+      {
+        coopId: actor.coop.id,
+        tankId,
+        measuredLiters: mlToLiters(measuredMl),
+        bookLiters: mlToLiters(bookMl),
+        movementId,
+        reason: input.reason ?? null,
+        createdByUserId: actor.user.id,
+      },
       { transaction },
     );
-    await audit({
-      coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.dip', entityType: 'tank', entityId: tankId,
-      before: { onHandLiters: mlToLiters(bookMl) }, after: { onHandLiters: mlToLiters(measuredMl), differenceLiters: mlToLiters(diffMl), reason: input.reason ?? null, movementId },
-    }, transaction);
+    await audit(
+      {
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'tank.dip',
+        entityType: 'tank',
+        entityId: tankId,
+        before: { onHandLiters: mlToLiters(bookMl) },
+        after: {
+          onHandLiters: mlToLiters(measuredMl),
+          differenceLiters: mlToLiters(diffMl),
+          reason: input.reason ?? null,
+          movementId,
+        },
+      },
+      transaction,
+    );
     return { dipReadingId: dip.id, diffMl, movementId };
   });
   return {
-    tank: await getTank(actor, tankId), dipReadingId: result.dipReadingId, movementId: result.movementId,
-    differenceLiters: result.diffMl / 1000, difference: mlToUnits3(result.diffMl, units),
+    tank: await getTank(actor, tankId),
+    dipReadingId: result.dipReadingId,
+    movementId: result.movementId,
+    differenceLiters: result.diffMl / 1000,
+    difference: mlToUnits3(result.diffMl, units),
   };
 }

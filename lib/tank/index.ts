@@ -1,6 +1,13 @@
 import 'server-only';
 import type { tankSchema } from '@/lib/api/dto/tank';
-import { literal, UniqueConstraintError, type InferAttributes, type Order, type Transaction, type WhereOptions } from 'sequelize';
+import {
+  literal,
+  UniqueConstraintError,
+  type InferAttributes,
+  type Order,
+  type Transaction,
+  type WhereOptions,
+} from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
@@ -25,7 +32,18 @@ export type TankDto = z.infer<typeof tankSchema>;
  * are still open but whose window has ended (not yet marked expired by a write) and the time of
  * its last dip. NUMERIC and BIGINT arrive as strings.
  */
-export type TankListRow = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'mixing' | 'valueCents'> & {
+export type TankListRow = Pick<
+  InferAttributes<Tank>,
+  | 'id'
+  | 'name'
+  | 'active'
+  | 'capacityLiters'
+  | 'onHandLiters'
+  | 'reservedLiters'
+  | 'heldLiters'
+  | 'mixing'
+  | 'valueCents'
+> & {
   lapsedLiters: string;
   lastDipAt: Date | null;
 };
@@ -37,8 +55,13 @@ export type TankListRow = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' |
 const T = `"${Tank.name}"`;
 const LAPSED_LITERS = literal(`(SELECT coalesce(sum(r.quantity_liters), 0) FROM reservations r
   WHERE r.coop_id = ${T}.coop_id AND r.status = 'open' AND r.window_end < now() AND r.tank_id = ${T}.id)`);
-const LAST_DIP_AT = literal(`(SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = ${T}.coop_id AND d.tank_id = ${T}.id)`);
-const TANK_ORDER: Order = [['active', 'DESC'], ['id', 'ASC']];
+const LAST_DIP_AT = literal(
+  `(SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = ${T}.coop_id AND d.tank_id = ${T}.id)`,
+);
+const TANK_ORDER: Order = [
+  ['active', 'DESC'],
+  ['id', 'ASC'],
+];
 
 /**
  * The tank list's one query: a co-op's tanks (optionally only those in service, or one by id)
@@ -46,12 +69,27 @@ const TANK_ORDER: Order = [['active', 'DESC'], ['id', 'ASC']];
  * nothing: reserved is reported net of lapsed reservations, which a later write marks expired.
  * The bench route runs exactly this query.
  */
-export async function findTankRows(coopId: number, opts: { activeOnly?: boolean; tankId?: number } = {}): Promise<TankListRow[]> {
+export async function findTankRows(
+  coopId: number,
+  opts: { activeOnly?: boolean; tankId?: number } = {},
+): Promise<TankListRow[]> {
   const where: WhereOptions<Tank> = { coopId };
   if (opts.activeOnly) where.active = true;
   if (opts.tankId !== undefined) where.id = opts.tankId;
   const rows = await Tank.findAll({
-    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'heldLiters', 'mixing', 'valueCents', [LAPSED_LITERS, 'lapsedLiters'], [LAST_DIP_AT, 'lastDipAt']],
+    attributes: [
+      'id',
+      'name',
+      'active',
+      'capacityLiters',
+      'onHandLiters',
+      'reservedLiters',
+      'heldLiters',
+      'mixing',
+      'valueCents',
+      [LAPSED_LITERS, 'lapsedLiters'],
+      [LAST_DIP_AT, 'lastDipAt'],
+    ],
     where,
     order: TANK_ORDER,
     raw: true,
@@ -85,11 +123,24 @@ function tankDto(r: TankListRow, units: UnitSystem): TankDto {
   const perUnit = onHandMl > 0 ? valueCents / mlToUnits(onHandMl, units) : null;
   const r2 = (v: number | null) => (v === null ? null : Math.round(v * 100) / 100);
   return {
-    id: r.id, name: r.name, active: r.active, units,
-    capacityLiters: capacityMl / 1000, onHandLiters: onHandMl / 1000, reservedLiters: reservedMl / 1000, heldLiters: heldMl / 1000, availableLiters: availableMl / 1000,
-    capacity: mlToUnits3(capacityMl, units), onHand: mlToUnits3(onHandMl, units), reserved: mlToUnits3(reservedMl, units), held: mlToUnits3(heldMl, units),
-    available: mlToUnitsFloor(availableMl, units), mixing: r.mixing,
-    valueCents, avgCostCentsPerGallon: r2(perGallon), avgCostCentsPerUnit: r2(perUnit),
+    id: r.id,
+    name: r.name,
+    active: r.active,
+    units,
+    capacityLiters: capacityMl / 1000,
+    onHandLiters: onHandMl / 1000,
+    reservedLiters: reservedMl / 1000,
+    heldLiters: heldMl / 1000,
+    availableLiters: availableMl / 1000,
+    capacity: mlToUnits3(capacityMl, units),
+    onHand: mlToUnits3(onHandMl, units),
+    reserved: mlToUnits3(reservedMl, units),
+    held: mlToUnits3(heldMl, units),
+    available: mlToUnitsFloor(availableMl, units),
+    mixing: r.mixing,
+    valueCents,
+    avgCostCentsPerGallon: r2(perGallon),
+    avgCostCentsPerUnit: r2(perUnit),
     lastDipAt: r.lastDipAt ? new Date(r.lastDipAt).toISOString() : null,
   };
 }
@@ -110,15 +161,29 @@ export async function getTank(actor: Actor, tankId: number): Promise<TankDto> {
   return tankDto(row, actor.coop.units);
 }
 
-const nameTaken = () => new HttpError(422, 'Some fields need attention.', { name: ['Another tank in this co-op already has that name.'] });
+const nameTaken = () =>
+  new HttpError(422, 'Some fields need attention.', { name: ['Another tank in this co-op already has that name.'] });
 
 /** Creates an empty tank (brewer/admin). Capacity is in the co-op's unit. */
 export async function createTank(actor: Actor, input: z.infer<typeof tankCreateSchema>): Promise<TankDto> {
   const capacityMl = milliUnitsToMl(input.capacity, actor.coop.units);
   try {
     const tank = await inTransaction(async (transaction) => {
-      const t = await Tank.create({ coopId: actor.coop.id, name: input.name, capacityLiters: mlToLiters(capacityMl) }, { transaction });
-      await audit({ coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.create', entityType: 'tank', entityId: t.id, after: { name: t.name, capacityLiters: t.capacityLiters } }, transaction);
+      const t = await Tank.create(
+        { coopId: actor.coop.id, name: input.name, capacityLiters: mlToLiters(capacityMl) },
+        { transaction },
+      );
+      await audit(
+        {
+          coopId: actor.coop.id,
+          actorUserId: actor.user.id,
+          action: 'tank.create',
+          entityType: 'tank',
+          entityId: t.id,
+          after: { name: t.name, capacityLiters: t.capacityLiters },
+        },
+        transaction,
+      );
       return t;
     });
     return getTank(actor, tank.id);
@@ -129,36 +194,57 @@ export async function createTank(actor: Actor, input: z.infer<typeof tankCreateS
 }
 
 /** Renames a tank, changes its capacity, or takes it out of (or back into) service. */
-export async function updateTank(actor: Actor, tankId: number, input: z.infer<typeof tankUpdateSchema>): Promise<TankDto> {
+export async function updateTank(
+  actor: Actor,
+  tankId: number,
+  input: z.infer<typeof tankUpdateSchema>,
+): Promise<TankDto> {
   try {
     await inTransaction(async (transaction) => {
       if (input.active === false) await expireLapsedReservations(actor.coop.id, transaction);
-      const tank = await Tank.findOne({ where: { id: tankId, coopId: actor.coop.id }, lock: transaction.LOCK.UPDATE, transaction });
+      const tank = await Tank.findOne({
+        where: { id: tankId, coopId: actor.coop.id },
+        lock: transaction.LOCK.UPDATE,
+        transaction,
+      });
       if (!tank) throw notFound('Tank not found.');
       const before = { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active, mixing: tank.mixing };
       const onHandMl = litersToMl(tank.onHandLiters);
       if (input.capacity !== undefined) {
         const capacityMl = milliUnitsToMl(input.capacity, actor.coop.units);
         if (capacityMl < onHandMl) {
-          throw new HttpError(422, 'Some fields need attention.', { capacity: [`The tank already holds ${formatMl(onHandMl, actor.coop.units)}; the capacity cannot be less.`] });
+          throw new HttpError(422, 'Some fields need attention.', {
+            capacity: [`The tank already holds ${formatMl(onHandMl, actor.coop.units)}; the capacity cannot be less.`],
+          });
         }
         tank.capacityLiters = mlToLiters(capacityMl);
       }
       if (input.name !== undefined) tank.name = input.name;
       if (input.active === false && tank.active) {
         if (onHandMl > 0 || litersToMl(tank.reservedLiters) > 0) {
-          throw conflict(`${tank.name} still holds ${formatMl(onHandMl, actor.coop.units)}. Draw or transfer its fuel (and let its reservations close) before taking it out of service.`);
+          throw conflict(
+            `${tank.name} still holds ${formatMl(onHandMl, actor.coop.units)}. Draw or transfer its fuel (and let its reservations close) before taking it out of service.`,
+          );
         }
       }
       if (input.active !== undefined) tank.active = input.active;
       if (input.mixing !== undefined) tank.mixing = input.mixing;
       await tank.save({ transaction });
       // Held fuel depends on the model (a well-mixed tank holds all of it while a batch in it is under review).
-      if (input.mixing !== undefined && input.mixing !== before.mixing) await refreshHeld(transaction, actor.coop.id, tank.id);
-      await audit({
-        coopId: actor.coop.id, actorUserId: actor.user.id, action: 'tank.update', entityType: 'tank', entityId: tank.id, before,
-        after: { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active, mixing: tank.mixing },
-      }, transaction);
+      if (input.mixing !== undefined && input.mixing !== before.mixing)
+        await refreshHeld(transaction, actor.coop.id, tank.id);
+      await audit(
+        {
+          coopId: actor.coop.id,
+          actorUserId: actor.user.id,
+          action: 'tank.update',
+          entityType: 'tank',
+          entityId: tank.id,
+          before,
+          after: { name: tank.name, capacityLiters: tank.capacityLiters, active: tank.active, mixing: tank.mixing },
+        },
+        transaction,
+      );
     });
   } catch (e) {
     if (e instanceof UniqueConstraintError) throw nameTaken();
@@ -168,12 +254,24 @@ export async function updateTank(actor: Actor, tankId: number, input: z.infer<ty
 }
 
 /** The tank columns a write path reads under its row lock. */
-export type LockedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'valueCents'>;
+export type LockedTank = Pick<
+  InferAttributes<Tank>,
+  'id' | 'name' | 'active' | 'capacityLiters' | 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'valueCents'
+>;
 
 /** Locks a tank row of the co-op for the rest of the transaction (404 when not the co-op's). */
 export async function lockTank(coopId: number, tankId: number, transaction: Transaction): Promise<LockedTank> {
   const row = await Tank.findOne({
-    attributes: ['id', 'name', 'active', 'capacityLiters', 'onHandLiters', 'reservedLiters', 'heldLiters', 'valueCents'],
+    attributes: [
+      'id',
+      'name',
+      'active',
+      'capacityLiters',
+      'onHandLiters',
+      'reservedLiters',
+      'heldLiters',
+      'valueCents',
+    ],
     where: { id: tankId, coopId },
     lock: transaction.LOCK.UPDATE,
     transaction,

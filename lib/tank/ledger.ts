@@ -69,7 +69,12 @@ export async function recordMovement(t: Transaction, m: MovementInput): Promise<
   const value = Number(tank.valueCents);
   const after = onHand + m.quantityMl;
   if (after < 0) {
-    throw new HttpError(409, `The tank holds only ${mlToLiters(onHand)} L.`, { quantity: ['More than the tank holds.'] }, { onHandLiters: mlToLiters(onHand) });
+    throw new HttpError(
+      409,
+      `The tank holds only ${mlToLiters(onHand)} L.`,
+      { quantity: ['More than the tank holds.'] },
+      { onHandLiters: mlToLiters(onHand) },
+    );
   }
   let moved: number;
   if (m.valueCents !== undefined) moved = m.valueCents;
@@ -77,25 +82,56 @@ export async function recordMovement(t: Transaction, m: MovementInput): Promise<
   else moved = onHand > 0 ? Math.round((value * m.quantityMl) / onHand) : 0;
   const valueAfter = Math.max(0, value + moved);
   if (m.quantityMl < 0 && after < reserved) {
-    throw new HttpError(409, `That would leave less fuel (${mlToLiters(after)} L) than members have reserved (${mlToLiters(reserved)} L).`, {
-      quantity: ['Less than the reserved amount would remain.'],
-    });
+    throw new HttpError(
+      409,
+      `That would leave less fuel (${mlToLiters(after)} L) than members have reserved (${mlToLiters(reserved)} L).`,
+      {
+        quantity: ['Less than the reserved amount would remain.'],
+      },
+    );
   }
   const source = m.lineage ?? defaultSource(m.kind, m.quantityMl, m.batchId ?? null, m.valueCents !== undefined);
-  const plan = await planLineage(t, { coopId: m.coopId, tankId: m.tankId, mixing: tank.mixing, onHandMl: onHand, quantityMl: m.quantityMl, source });
+  const plan = await planLineage(t, {
+    coopId: m.coopId,
+    tankId: m.tankId,
+    mixing: tank.mixing,
+    onHandMl: onHand,
+    quantityMl: m.quantityMl,
+    source,
+  });
   await Tank.update(
     { onHandLiters: mlToLiters(after), valueCents: String(valueAfter), heldLiters: mlToLiters(plan.heldAfterMl) },
     { where: { id: m.tankId, coopId: m.coopId }, transaction: t },
   );
   const row = await TankMovement.create(
     {
-      coopId: m.coopId, tankId: m.tankId, kind: m.kind, quantityLiters: mlToLiters(m.quantityMl), valueCents: String(moved),
-      onHandAfterLiters: mlToLiters(after), valueAfterCents: String(valueAfter),
-      batchId: m.batchId ?? null, drawId: m.drawId ?? null, transferTankId: m.transferTankId ?? null, reason: m.reason ?? null,
-      createdByUserId: m.userId, occurredAt: m.occurredAt ?? new Date(),
+      coopId: m.coopId,
+      tankId: m.tankId,
+      kind: m.kind,
+      quantityLiters: mlToLiters(m.quantityMl),
+      valueCents: String(moved),
+      onHandAfterLiters: mlToLiters(after),
+      valueAfterCents: String(valueAfter),
+      batchId: m.batchId ?? null,
+      drawId: m.drawId ?? null,
+      transferTankId: m.transferTankId ?? null,
+      reason: m.reason ?? null,
+      createdByUserId: m.userId,
+      occurredAt: m.occurredAt ?? new Date(),
     },
     { transaction: t, returning: ['id'] },
   );
-  await writeLineage(t, plan, { movementId: String(row.id), drawId: m.drawId ?? null, sign: m.quantityMl > 0 ? 1 : -1 });
-  return { id: String(row.id), quantityMl: m.quantityMl, valueCents: moved, onHandAfterMl: after, valueAfterCents: valueAfter, shares: plan.shares };
+  await writeLineage(t, plan, {
+    movementId: String(row.id),
+    drawId: m.drawId ?? null,
+    sign: m.quantityMl > 0 ? 1 : -1,
+  });
+  return {
+    id: String(row.id),
+    quantityMl: m.quantityMl,
+    valueCents: moved,
+    onHandAfterMl: after,
+    valueAfterCents: valueAfter,
+    shares: plan.shares,
+  };
 }

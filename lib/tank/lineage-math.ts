@@ -83,9 +83,12 @@ export function addTo(layers: readonly Layer[], shares: readonly BatchShare[], m
   const out = layers.map((l) => ({ ...l }));
   for (const s of shares) {
     if (s.ml <= 0) continue;
-    const target = model === 'mixed'
-      ? out.find((l) => l.batchId === s.batchId)
-      : out.length && out[out.length - 1]!.batchId === s.batchId ? out[out.length - 1] : undefined;
+    const target =
+      model === 'mixed'
+        ? out.find((l) => l.batchId === s.batchId)
+        : out.length && out[out.length - 1]!.batchId === s.batchId
+          ? out[out.length - 1]
+          : undefined;
     if (target) target.ml += s.ml;
     else out.push({ id: null, batchId: s.batchId, ml: s.ml });
   }
@@ -103,7 +106,11 @@ export function allocateOutflow(layers: readonly Layer[], takeMl: number, model:
  * is mixed through all of it, so everything is held; in a FIFO tank, the held layer and every
  * layer above it (a draw would have to pass through the held fuel first).
  */
-export function heldMl(layers: readonly Layer[], isHeld: (batchId: number | null) => boolean, model: MixingModel): number {
+export function heldMl(
+  layers: readonly Layer[],
+  isHeld: (batchId: number | null) => boolean,
+  model: MixingModel,
+): number {
   const first = layers.findIndex((l) => l.ml > 0 && isHeld(l.batchId));
   if (first < 0) return 0;
   const total = layers.reduce((a, l) => a + l.ml, 0);

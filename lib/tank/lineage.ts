@@ -4,7 +4,16 @@ import { HttpError } from '@/lib/http';
 import { BatchReview, MovementBatchShare, Tank, TankLayer } from '@/models';
 import type { TankMixing } from '@/models/Tank';
 import type { TankMovementKind } from '@/models/TankMovement';
-import { addTo, allocateOutflow, allocateProportional, heldMl, sharesOf, takeFrom, type BatchShare, type Layer } from './lineage-math';
+import {
+  addTo,
+  allocateOutflow,
+  allocateProportional,
+  heldMl,
+  sharesOf,
+  takeFrom,
+  type BatchShare,
+  type Layer,
+} from './lineage-math';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 
 export type { BatchShare, Layer, MixingModel } from './lineage-math';
@@ -26,12 +35,21 @@ export type LineageSource =
   | { kind: 'spread' };
 
 /** The source a ledger row of this kind uses when its caller names none. */
-export function defaultSource(kind: TankMovementKind, quantityMl: number, batchId: number | null, valued: boolean): LineageSource {
+export function defaultSource(
+  kind: TankMovementKind,
+  quantityMl: number,
+  batchId: number | null,
+  valued: boolean,
+): LineageSource {
   if (kind === 'release') return { kind: 'origin', batchId };
   if (kind === 'draw' || kind === 'transfer-out') return { kind: 'model' };
-  if (kind === 'dip-adjustment') return quantityMl > 0 && valued ? { kind: 'origin', batchId: null } : { kind: 'spread' };
+  if (kind === 'dip-adjustment')
+    return quantityMl > 0 && valued ? { kind: 'origin', batchId: null } : { kind: 'spread' };
   // Opening stock (imported) is fuel of no recorded batch; undoing it takes that fuel back out.
-  if (kind === 'opening') return quantityMl > 0 ? { kind: 'origin', batchId: null } : { kind: 'shares', shares: [{ batchId: null, ml: -quantityMl }] };
+  if (kind === 'opening')
+    return quantityMl > 0
+      ? { kind: 'origin', batchId: null }
+      : { kind: 'shares', shares: [{ batchId: null, ml: -quantityMl }] };
   throw new Error(`a '${kind}' ledger row must name the batches it moves`);
 }
 
@@ -47,18 +65,30 @@ export interface LineagePlan {
 }
 
 async function loadLayers(t: Transaction, coopId: number, tankId: number): Promise<Layer[]> {
-  const rows = await TankLayer.findAll({ attributes: ['id', 'batchId', 'quantityLiters'], where: { coopId, tankId }, order: [['id', 'ASC']], transaction: t, raw: true });
+  const rows = await TankLayer.findAll({
+    attributes: ['id', 'batchId', 'quantityLiters'],
+    where: { coopId, tankId },
+    order: [['id', 'ASC']],
+    transaction: t,
+    raw: true,
+  });
   return rows.map((r) => ({ id: r.id, batchId: r.batchId, ml: litersToMl(r.quantityLiters) }));
 }
 
 async function heldBatchIds(t: Transaction, coopId: number, layers: Layer[]): Promise<Set<number>> {
   const ids = [...new Set(layers.map((l) => l.batchId).filter((b): b is number => b !== null))];
   if (ids.length === 0) return new Set();
-  const open = await BatchReview.findAll({ attributes: ['batchId'], where: { coopId, status: 'open', batchId: { [Op.in]: ids } }, transaction: t, raw: true });
+  const open = await BatchReview.findAll({
+    attributes: ['batchId'],
+    where: { coopId, status: 'open', batchId: { [Op.in]: ids } },
+    transaction: t,
+    raw: true,
+  });
   return new Set(open.map((r) => r.batchId));
 }
 
-const heldOf = (layers: Layer[], held: Set<number>, mixing: TankMixing) => heldMl(layers, (b) => b !== null && held.has(b), mixing);
+const heldOf = (layers: Layer[], held: Set<number>, mixing: TankMixing) =>
+  heldMl(layers, (b) => b !== null && held.has(b), mixing);
 
 /**
  * Plans a ledger row's effect on the tank's layers (the tank row is already locked by the
@@ -67,7 +97,14 @@ const heldOf = (layers: Layer[], held: Set<number>, mixing: TankMixing) => heldM
  */
 export async function planLineage(
   t: Transaction,
-  p: { coopId: number; tankId: number; mixing: TankMixing; onHandMl: number; quantityMl: number; source: LineageSource },
+  p: {
+    coopId: number;
+    tankId: number;
+    mixing: TankMixing;
+    onHandMl: number;
+    quantityMl: number;
+    source: LineageSource;
+  },
 ): Promise<LineagePlan> {
   const before = await loadLayers(t, p.coopId, p.tankId);
   const layered = before.reduce((a, l) => a + l.ml, 0);
@@ -83,7 +120,8 @@ export async function planLineage(
     after = addTo(before, shares, p.mixing);
   } else if (s.kind === 'shares') {
     const sum = s.shares.reduce((a, x) => a + x.ml, 0);
-    if (sum !== q || s.shares.some((x) => !Number.isInteger(x.ml) || x.ml <= 0)) throw new Error(`shares sum to ${sum} mL, not ${q} mL`);
+    if (sum !== q || s.shares.some((x) => !Number.isInteger(x.ml) || x.ml <= 0))
+      throw new Error(`shares sum to ${sum} mL, not ${q} mL`);
     shares = s.shares.map((x) => ({ ...x }));
     if (p.quantityMl > 0) after = addTo(before, shares, p.mixing);
     else {
@@ -105,22 +143,33 @@ export async function planLineage(
     if (p.quantityMl > 0) throw new Error('the mixing model decides outflows only');
     const heldNow = heldOf(before, held, p.mixing);
     if (heldNow > 0 && q > layered - heldNow) {
-      throw new HttpError(409, `${mlToLiters(heldNow)} L of this tank's fuel is held while a batch in it is under review.`, { quantity: ['Held fuel cannot be drawn or moved.'] }, {
-        heldLiters: heldNow / 1000,
-      });
+      throw new HttpError(
+        409,
+        `${mlToLiters(heldNow)} L of this tank's fuel is held while a batch in it is under review.`,
+        { quantity: ['Held fuel cannot be drawn or moved.'] },
+        {
+          heldLiters: heldNow / 1000,
+        },
+      );
     }
     const taken = allocateOutflow(before, q, p.mixing);
     shares = sharesOf(before, taken);
     after = takeFrom(before, taken);
   } else if (p.quantityMl < 0) {
-    const taken = allocateProportional(before.map((l) => l.ml), q);
+    const taken = allocateProportional(
+      before.map((l) => l.ml),
+      q,
+    );
     shares = sharesOf(before, taken);
     after = takeFrom(before, taken);
   } else if (layered === 0) {
     shares = [{ batchId: null, ml: q }];
     after = addTo(before, shares, p.mixing);
   } else {
-    const added = allocateProportional(before.map((l) => l.ml), q);
+    const added = allocateProportional(
+      before.map((l) => l.ml),
+      q,
+    );
     shares = sharesOf(before, added);
     after = before.map((l, i) => ({ ...l, ml: l.ml + added[i]! }));
   }
@@ -132,20 +181,38 @@ export async function planLineage(
  * batch for the ledger row, signed like it. The deferred constraint triggers check at commit
  * that the layers sum to on hand and a draw's shares to the draw.
  */
-export async function writeLineage(t: Transaction, plan: LineagePlan, row: { movementId: string; drawId: number | null; sign: 1 | -1 }): Promise<void> {
+export async function writeLineage(
+  t: Transaction,
+  plan: LineagePlan,
+  row: { movementId: string; drawId: number | null; sign: 1 | -1 },
+): Promise<void> {
   const { coopId, tankId } = plan;
   const was = new Map(plan.before.map((l) => [l.id, l.ml]));
   for (const l of plan.after) {
     if (l.id === null) {
-      if (l.ml > 0) await TankLayer.create({ coopId, tankId, batchId: l.batchId, quantityLiters: mlToLiters(l.ml) }, { transaction: t });
+      if (l.ml > 0)
+        await TankLayer.create(
+          { coopId, tankId, batchId: l.batchId, quantityLiters: mlToLiters(l.ml) },
+          { transaction: t },
+        );
     } else if (l.ml === 0) {
       await TankLayer.destroy({ where: { id: l.id, coopId, tankId }, transaction: t });
     } else if (was.get(l.id) !== l.ml) {
-      await TankLayer.update({ quantityLiters: mlToLiters(l.ml) }, { where: { id: l.id, coopId, tankId }, transaction: t });
+      await TankLayer.update(
+        { quantityLiters: mlToLiters(l.ml) },
+        { where: { id: l.id, coopId, tankId }, transaction: t },
+      );
     }
   }
   await MovementBatchShare.bulkCreate(
-    plan.shares.map((s) => ({ coopId, tankId, movementId: row.movementId, drawId: row.drawId, batchId: s.batchId, quantityLiters: mlToLiters(row.sign * s.ml) })),
+    plan.shares.map((s) => ({
+      coopId,
+      tankId,
+      movementId: row.movementId,
+      drawId: row.drawId,
+      batchId: s.batchId,
+      quantityLiters: mlToLiters(row.sign * s.ml),
+    })),
     { transaction: t },
   );
 }
@@ -155,7 +222,13 @@ export async function writeLineage(t: Transaction, plan: LineagePlan, row: { mov
  * (locks the tank row). Returns the held millilitres.
  */
 export async function refreshHeld(t: Transaction, coopId: number, tankId: number): Promise<number> {
-  const tank = await Tank.findOne({ attributes: ['mixing'], where: { id: tankId, coopId }, lock: t.LOCK.UPDATE, transaction: t, raw: true });
+  const tank = await Tank.findOne({
+    attributes: ['mixing'],
+    where: { id: tankId, coopId },
+    lock: t.LOCK.UPDATE,
+    transaction: t,
+    raw: true,
+  });
   if (!tank) return 0;
   const layers = await loadLayers(t, coopId, tankId);
   const held = heldOf(layers, await heldBatchIds(t, coopId, layers), tank.mixing);
@@ -165,6 +238,12 @@ export async function refreshHeld(t: Transaction, coopId: number, tankId: number
 
 /** A draw's batch shares (positive millilitres), for its reversal. */
 export async function drawShares(t: Transaction, coopId: number, drawId: number): Promise<BatchShare[]> {
-  const rows = await MovementBatchShare.findAll({ attributes: ['batchId', 'quantityLiters'], where: { coopId, drawId }, order: [['id', 'ASC']], transaction: t, raw: true });
+  const rows = await MovementBatchShare.findAll({
+    attributes: ['batchId', 'quantityLiters'],
+    where: { coopId, drawId },
+    order: [['id', 'ASC']],
+    transaction: t,
+    raw: true,
+  });
   return rows.map((r) => ({ batchId: r.batchId, ml: Math.abs(litersToMl(r.quantityLiters)) }));
 }

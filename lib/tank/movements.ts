@@ -13,8 +13,19 @@ import { mlToUnits3 } from './volume';
 export type MovementDto = z.infer<typeof movementSchema>;
 
 /** A ledger row as the list reads it (raw, nested includes). */
-type MovementListRow = Pick<InferAttributes<TankMovement>,
-  'id' | 'kind' | 'quantityLiters' | 'valueCents' | 'onHandAfterLiters' | 'valueAfterCents' | 'reason' | 'batchId' | 'drawId' | 'occurredAt'> & {
+type MovementListRow = Pick<
+  InferAttributes<TankMovement>,
+  | 'id'
+  | 'kind'
+  | 'quantityLiters'
+  | 'valueCents'
+  | 'onHandAfterLiters'
+  | 'valueAfterCents'
+  | 'reason'
+  | 'batchId'
+  | 'drawId'
+  | 'occurredAt'
+> & {
   createdBy: { name: string | null };
   transferTank: { name: string | null };
   draw: { membership: { user: { name: string | null } } };
@@ -35,17 +46,42 @@ export async function listMovements(actor: Actor, tankId: number, q: z.infer<typ
   const [tank, rows, total] = await Promise.all([
     Tank.findOne({ attributes: ['id'], where: { id: tankId, coopId }, raw: true }),
     TankMovement.findAll({
-      attributes: ['id', 'kind', 'quantityLiters', 'valueCents', 'onHandAfterLiters', 'valueAfterCents', 'reason', 'batchId', 'drawId', 'occurredAt'],
+      attributes: [
+        'id',
+        'kind',
+        'quantityLiters',
+        'valueCents',
+        'onHandAfterLiters',
+        'valueAfterCents',
+        'reason',
+        'batchId',
+        'drawId',
+        'occurredAt',
+      ],
       where,
       include: [
         { model: User, as: 'createdBy', attributes: ['name'] },
         { model: Tank, as: 'transferTank', attributes: ['name'], where: { coopId }, required: false },
         {
-          model: Draw, as: 'draw', attributes: [], where: { coopId }, required: false,
-          include: [{ model: Membership, as: 'membership', attributes: [], include: [{ model: User, as: 'user', attributes: ['name'] }] }],
+          model: Draw,
+          as: 'draw',
+          attributes: [],
+          where: { coopId },
+          required: false,
+          include: [
+            {
+              model: Membership,
+              as: 'membership',
+              attributes: [],
+              include: [{ model: User, as: 'user', attributes: ['name'] }],
+            },
+          ],
         },
       ],
-      order: [[MOVEMENT_SORT[q.sort as keyof typeof MOVEMENT_SORT], dir], ['id', dir]],
+      order: [
+        [MOVEMENT_SORT[q.sort as keyof typeof MOVEMENT_SORT], dir],
+        ['id', dir],
+      ],
       limit: q.pageSize,
       offset: (q.page - 1) * q.pageSize,
       raw: true,
@@ -58,10 +94,20 @@ export async function listMovements(actor: Actor, tankId: number, q: z.infer<typ
     const qMl = litersToMl(r.quantityLiters);
     const afterMl = litersToMl(r.onHandAfterLiters);
     return {
-      id: r.id, kind: r.kind, quantityLiters: qMl / 1000, quantity: mlToUnits3(qMl, units), valueCents: Number(r.valueCents),
-      onHandAfterLiters: afterMl / 1000, onHandAfter: mlToUnits3(afterMl, units), valueAfterCents: Number(r.valueAfterCents),
-      reason: r.reason, batchId: r.batchId, drawId: r.drawId, memberName: r.draw?.membership?.user?.name ?? null,
-      transferTankName: r.transferTank?.name ?? null, byName: r.createdBy?.name ?? null,
+      id: r.id,
+      kind: r.kind,
+      quantityLiters: qMl / 1000,
+      quantity: mlToUnits3(qMl, units),
+      valueCents: Number(r.valueCents),
+      onHandAfterLiters: afterMl / 1000,
+      onHandAfter: mlToUnits3(afterMl, units),
+      valueAfterCents: Number(r.valueAfterCents),
+      reason: r.reason,
+      batchId: r.batchId,
+      drawId: r.drawId,
+      memberName: r.draw?.membership?.user?.name ?? null,
+      transferTankName: r.transferTank?.name ?? null,
+      byName: r.createdBy?.name ?? null,
       occurredAt: new Date(r.occurredAt).toISOString(),
     };
   });

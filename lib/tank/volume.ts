@@ -75,7 +75,11 @@ export function mlToUnits3(ml: number, units: UnitSystem): number {
  * @param units the co-op's unit system
  * @param opts digits (default 1) and floor (round down instead of to nearest)
  */
-export function formatMl(ml: number, units: UnitSystem, opts: { digits?: number; floor?: boolean; signed?: boolean } = {}): string {
+export function formatMl(
+  ml: number,
+  units: UnitSystem,
+  opts: { digits?: number; floor?: boolean; signed?: boolean } = {},
+): string {
   const digits = opts.digits ?? 1;
   let v = opts.floor ? mlToUnitsFloor(ml, units, digits) : mlToUnits(ml, units);
   if (Number(v.toFixed(digits)) === 0) v = 0;

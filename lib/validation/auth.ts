@@ -4,7 +4,10 @@ import { timeZoneSchema } from './common';
 
 // Shared by the forms (client) and the route handlers (server).
 
-export const emailSchema = z.email('Enter a valid e-mail address.').max(254, 'At most 254 characters.').transform((s) => s.trim().toLowerCase());
+export const emailSchema = z
+  .email('Enter a valid e-mail address.')
+  .max(254, 'At most 254 characters.')
+  .transform((s) => s.trim().toLowerCase());
 
 /** 12–128 characters, no composition rules (NIST SP 800-63B); the common list is checked on the server. */
 export const passwordSchema = z
@@ -21,7 +24,10 @@ export const nameSchema = z
 
 export const roleSchema = z.enum(ROLES, { error: `Choose one of: ${ROLES.join(', ')}.` });
 
-export const signInSchema = z.object({ email: emailSchema, password: z.string().min(1, 'Enter your password.').max(128) });
+export const signInSchema = z.object({
+  email: emailSchema,
+  password: z.string().min(1, 'Enter your password.').max(128),
+});
 
 export const invitationCreateSchema = z.strictObject({ email: emailSchema, role: roleSchema });
 
@@ -29,7 +35,10 @@ export const membershipStatusSchema = z.enum(['active', 'suspended'], { error: '
 
 export const membershipUpdateSchema = z
   .strictObject({ role: roleSchema.optional(), status: membershipStatusSchema.optional() })
-  .refine((v) => v.role !== undefined || v.status !== undefined, { message: 'Give a role or a status.', path: ['role'] });
+  .refine((v) => v.role !== undefined || v.status !== undefined, {
+    message: 'Give a role or a status.',
+    path: ['role'],
+  });
 
 /**
  * Accepting an invitation: a new person sends a name and a password; someone who already has
@@ -48,8 +57,16 @@ export const passwordChangeSchema = z.strictObject({
 });
 export const profileUpdateSchema = z.strictObject({ name: nameSchema });
 /** Changing the e-mail address asks for the current password, then a link to the new address confirms it. */
-export const emailChangeSchema = z.strictObject({ email: emailSchema, currentPassword: z.string({ error: 'Enter your current password.' }).min(1, 'Enter your current password.').max(128) });
-export const emailConfirmSchema = z.strictObject({ token: z.string({ error: 'The link is incomplete.' }).min(1, 'The link is incomplete.').max(100, 'The link is not valid.') });
+export const emailChangeSchema = z.strictObject({
+  email: emailSchema,
+  currentPassword: z.string({ error: 'Enter your current password.' }).min(1, 'Enter your current password.').max(128),
+});
+export const emailConfirmSchema = z.strictObject({
+  token: z
+    .string({ error: 'The link is incomplete.' })
+    .min(1, 'The link is incomplete.')
+    .max(100, 'The link is not valid.'),
+});
 
 export const coopCreateSchema = z.strictObject({
   name: z.string().trim().min(3, 'At least 3 characters.').max(120, 'At most 120 characters.'),

@@ -15,7 +15,10 @@ export const periodSchema = z.string({ error: 'Choose a month.' }).regex(PERIOD_
 export const dateSchema = z
   .string({ error: 'Enter a date.' })
   .regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter a date (YYYY-MM-DD).')
-  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), 'Enter a real date.');
+  .refine(
+    (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+    'Enter a real date.',
+  );
 
 const idSchema = commonIdSchema('Choose one.');
 
@@ -56,7 +59,11 @@ export const periodCloseSchema = z.strictObject({
 });
 
 export const invoiceVoidSchema = z.strictObject({
-  reason: z.string({ error: 'Say why the invoice is voided.' }).trim().min(3, 'Say why (at least 3 characters).').max(240, 'At most 240 characters.'),
+  reason: z
+    .string({ error: 'Say why the invoice is voided.' })
+    .trim()
+    .min(3, 'Say why (at least 3 characters).')
+    .max(240, 'At most 240 characters.'),
 });
 
 export const paymentRecordSchema = z.strictObject({
@@ -76,13 +83,21 @@ export const paymentMatchSchema = z.strictObject({
 
 export const refundCreateSchema = z.strictObject({
   amount: money({ signed: false }),
-  reason: z.string({ error: 'Say why.' }).trim().min(3, 'Say why (at least 3 characters).').max(240, 'At most 240 characters.'),
+  reason: z
+    .string({ error: 'Say why.' })
+    .trim()
+    .min(3, 'Say why (at least 3 characters).')
+    .max(240, 'At most 240 characters.'),
 });
 
 export const adjustmentCreateSchema = z.strictObject({
   memberId: idSchema,
   amount: money({ signed: true }),
-  description: z.string({ error: 'Describe the adjustment.' }).trim().min(3, 'At least 3 characters.').max(200, 'At most 200 characters.'),
+  description: z
+    .string({ error: 'Describe the adjustment.' })
+    .trim()
+    .min(3, 'At least 3 characters.')
+    .max(200, 'At most 200 characters.'),
   period: periodSchema.optional(),
 });
 
@@ -90,7 +105,10 @@ export const cardPaySchema = z.strictObject({
   card: z.enum(TEST_CARD_IDS, { error: 'Choose one of the test cards.' }),
 });
 
-export const invoiceListQuerySchema = listQuerySchema(['number', 'member', 'total', 'outstanding', 'status', 'period'] as const, 'number').extend({
+export const invoiceListQuerySchema = listQuerySchema(
+  ['number', 'member', 'total', 'outstanding', 'status', 'period'] as const,
+  'number',
+).extend({
   period: periodSchema.optional(),
   status: z.enum(['draft', 'issued', 'partly-paid', 'paid', 'void', 'open']).optional(),
 });

@@ -17,15 +17,34 @@ export const num = (message = 'Enter a number.') =>
   );
 
 const positive = (what: string, max = 1_000_000) =>
-  num().pipe(z.number().gt(0, `${what} must be more than 0.`).max(max, `${what} must be at most ${max.toLocaleString('en-US')}.`));
+  num().pipe(
+    z
+      .number()
+      .gt(0, `${what} must be more than 0.`)
+      .max(max, `${what} must be at most ${max.toLocaleString('en-US')}.`),
+  );
 const nonNegative = (what: string, max = 1_000_000) =>
-  num().pipe(z.number().min(0, `${what} cannot be negative.`).max(max, `${what} must be at most ${max.toLocaleString('en-US')}.`));
+  num().pipe(
+    z
+      .number()
+      .min(0, `${what} cannot be negative.`)
+      .max(max, `${what} must be at most ${max.toLocaleString('en-US')}.`),
+  );
 const wholeNonNegative = (what: string, max = 10_000) =>
-  num().pipe(z.number().int(`${what} must be a whole number.`).min(0, `${what} cannot be negative.`).max(max, `${what} must be at most ${max}.`));
+  num().pipe(
+    z
+      .number()
+      .int(`${what} must be a whole number.`)
+      .min(0, `${what} cannot be negative.`)
+      .max(max, `${what} must be at most ${max}.`),
+  );
 
 /** Purity of a catalyst, % — more than 0 and at most 100. */
 export const purityPctSchema = num().pipe(
-  z.number().gt(0, 'Purity must be more than 0 % and at most 100 %.').max(100, 'Purity must be more than 0 % and at most 100 %.'),
+  z
+    .number()
+    .gt(0, 'Purity must be more than 0 % and at most 100 %.')
+    .max(100, 'Purity must be more than 0 % and at most 100 %.'),
 );
 
 /** Money typed as "12.34" (or a number) → integer cents, never negative. */
@@ -47,12 +66,22 @@ export const moneyCents = () =>
 export const dateSchema = z
   .string({ error: 'Enter a date.' })
   .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date such as 2026-11-30.')
-  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), 'That date does not exist.')
+  .refine(
+    (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+    'That date does not exist.',
+  )
   .refine((s) => s >= '2000-01-01' && s <= '2100-12-31', 'Use a date between 2000 and 2100.');
 
 const text = (max: number) => z.string().trim().max(max, `At most ${max} characters.`);
-const optionalText = (max: number) => text(max).optional().transform((s) => (s ? s : undefined));
-const nullableText = (max: number) => text(max).nullable().optional().transform((s) => (s === '' ? null : s));
+const optionalText = (max: number) =>
+  text(max)
+    .optional()
+    .transform((s) => (s ? s : undefined));
+const nullableText = (max: number) =>
+  text(max)
+    .nullable()
+    .optional()
+    .transform((s) => (s === '' ? null : s));
 
 export const CHEMICAL_KINDS = ['methanol', 'KOH', 'NaOH', 'other'] as const;
 export const CATALYST_KINDS = ['KOH', 'NaOH'] as const;
@@ -73,28 +102,39 @@ export const chemicalLotCreateSchema = z
     notes: optionalText(2000),
   })
   .superRefine((v, ctx) => {
-    if (v.kind === 'methanol' && v.unit !== 'L' && v.unit !== 'gal') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Methanol is measured in L or gal.' });
-    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.unit !== 'g' && v.unit !== 'kg' && v.unit !== 'lb') ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Catalysts are weighed in g, kg or lb.' });
-    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.purityPct === undefined) ctx.addIssue({ code: 'custom', path: ['purityPct'], message: 'Enter the purity from the label (KOH flake is usually about 90 %).' });
-    if ((v.kind === 'methanol' || v.kind === 'other') && v.purityPct !== undefined) ctx.addIssue({ code: 'custom', path: ['purityPct'], message: 'Purity is recorded for KOH and NaOH only.' });
-    if (v.kind === 'other' && !v.description) ctx.addIssue({ code: 'custom', path: ['description'], message: 'Say what the chemical is.' });
+    if (v.kind === 'methanol' && v.unit !== 'L' && v.unit !== 'gal')
+      ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Methanol is measured in L or gal.' });
+    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.unit !== 'g' && v.unit !== 'kg' && v.unit !== 'lb')
+      ctx.addIssue({ code: 'custom', path: ['unit'], message: 'Catalysts are weighed in g, kg or lb.' });
+    if ((v.kind === 'KOH' || v.kind === 'NaOH') && v.purityPct === undefined)
+      ctx.addIssue({
+        code: 'custom',
+        path: ['purityPct'],
+        message: 'Enter the purity from the label (KOH flake is usually about 90 %).',
+      });
+    if ((v.kind === 'methanol' || v.kind === 'other') && v.purityPct !== undefined)
+      ctx.addIssue({ code: 'custom', path: ['purityPct'], message: 'Purity is recorded for KOH and NaOH only.' });
+    if (v.kind === 'other' && !v.description)
+      ctx.addIssue({ code: 'custom', path: ['description'], message: 'Say what the chemical is.' });
   });
 export type ChemicalLotCreateInput = z.infer<typeof chemicalLotCreateSchema>;
 
-export const oilLotCreateSchema = z
-  .strictObject({
-    collectedFrom: text(120).min(1, 'Say where the oil came from.'),
-    collectedOn: dateSchema,
-    volume: positive('Volume', 100_000),
-    cost: moneyCents().optional(),
-    waterNotes: optionalText(2000),
-    solidsNotes: optionalText(2000),
-    titrationMl: nonNegative('Titration', 50).optional(),
-    titrant: z.enum(CATALYST_KINDS, { error: 'Choose KOH or NaOH.' }).optional(),
-  });
+export const oilLotCreateSchema = z.strictObject({
+  collectedFrom: text(120).min(1, 'Say where the oil came from.'),
+  collectedOn: dateSchema,
+  volume: positive('Volume', 100_000),
+  cost: moneyCents().optional(),
+  waterNotes: optionalText(2000),
+  solidsNotes: optionalText(2000),
+  titrationMl: nonNegative('Titration', 50).optional(),
+  titrant: z.enum(CATALYST_KINDS, { error: 'Choose KOH or NaOH.' }).optional(),
+});
 export type OilLotCreateInput = z.infer<typeof oilLotCreateSchema>;
 
-export const chemicalLotListSchema = listQuerySchema(['receivedOn', 'kind', 'supplier', 'remaining', 'cost'], 'receivedOn').extend({
+export const chemicalLotListSchema = listQuerySchema(
+  ['receivedOn', 'kind', 'supplier', 'remaining', 'cost'],
+  'receivedOn',
+).extend({
   kind: z.enum(CHEMICAL_KINDS).optional(),
 });
 export const oilLotListSchema = listQuerySchema(['collectedOn', 'collectedFrom', 'volume', 'titration'], 'collectedOn');
@@ -103,7 +143,10 @@ export const oilLotListSchema = listQuerySchema(['collectedOn', 'collectedFrom',
 
 const planShape = {
   oilVolume: positive('Oil volume', 100_000),
-  titrationTrials: z.array(nonNegative('A titration trial', 50), { error: 'Give the trials as a list of numbers.' }).max(10, 'At most 10 trials.').optional(),
+  titrationTrials: z
+    .array(nonNegative('A titration trial', 50), { error: 'Give the trials as a list of numbers.' })
+    .max(10, 'At most 10 trials.')
+    .optional(),
   titrationBlankMl: nonNegative('The blank', 50).optional(),
   oilLotId: idSchema('Choose an oil lot.').optional(),
   catalyst: z.enum(CATALYST_KINDS, { error: 'Choose KOH or NaOH.' }).optional(),
@@ -113,13 +156,21 @@ const planShape = {
   /** The chemical of the titrant the trials were made with (the batch's catalyst when not given). */
   titrant: z.enum(CATALYST_KINDS, { error: 'Choose KOH or NaOH.' }).optional(),
   methanolMode: z.enum(['percent', 'molar-ratio'], { error: 'Choose percent or molar ratio.' }).optional(),
-  methanolPct: num().pipe(z.number().gt(0, 'Methanol % must be more than 0.').max(100, 'Methanol % must be at most 100.')).optional(),
-  molarRatio: num().pipe(z.number().gt(0, 'The molar ratio must be more than 0.').max(30, 'The molar ratio must be at most 30.')).optional(),
+  methanolPct: num()
+    .pipe(z.number().gt(0, 'Methanol % must be more than 0.').max(100, 'Methanol % must be at most 100.'))
+    .optional(),
+  molarRatio: num()
+    .pipe(z.number().gt(0, 'The molar ratio must be more than 0.').max(30, 'The molar ratio must be at most 30.'))
+    .optional(),
 };
 
 const needsTitration = (v: { titrationTrials?: number[]; oilLotId?: number }, ctx: z.RefinementCtx) => {
   if ((!v.titrationTrials || v.titrationTrials.length === 0) && v.oilLotId === undefined) {
-    ctx.addIssue({ code: 'custom', path: ['titrationTrials'], message: 'Enter at least one titration trial, or choose an oil lot that has a titration.' });
+    ctx.addIssue({
+      code: 'custom',
+      path: ['titrationTrials'],
+      message: 'Enter at least one titration trial, or choose an oil lot that has a titration.',
+    });
   }
 };
 
@@ -174,8 +225,17 @@ export const labValue = z
   .nullable();
 
 export const quickTestsSchema = z.strictObject({
-  test327: z.strictObject({ result: z.enum(['clear', 'fallout'], { error: 'Choose clear or fall-out.' }), falloutMl: nonNegative('Fall-out', 30).optional() }).nullable().optional(),
-  soap: z.strictObject({ hclMl: nonNegative('HCl volume', 100), sampleGrams: positive('Sample mass', 1000) }).nullable().optional(),
+  test327: z
+    .strictObject({
+      result: z.enum(['clear', 'fallout'], { error: 'Choose clear or fall-out.' }),
+      falloutMl: nonNegative('Fall-out', 30).optional(),
+    })
+    .nullable()
+    .optional(),
+  soap: z
+    .strictObject({ hclMl: nonNegative('HCl volume', 100), sampleGrams: positive('Sample mass', 1000) })
+    .nullable()
+    .optional(),
   washTest: z.enum(['clean-split', 'emulsion'], { error: 'Choose clean split or emulsion.' }).nullable().optional(),
   water: z.enum(['clear', 'hazy'], { error: 'Choose clear or hazy.' }).nullable().optional(),
 });
@@ -184,7 +244,11 @@ export const batchUpdateSchema = z
   .strictObject({
     // the plan (only while the batch is planned)
     oilVolume: planShape.oilVolume.optional(),
-    titrationTrials: z.array(nonNegative('A titration trial', 50)).min(1, 'Enter at least one titration trial.').max(10).optional(),
+    titrationTrials: z
+      .array(nonNegative('A titration trial', 50))
+      .min(1, 'Enter at least one titration trial.')
+      .max(10)
+      .optional(),
     titrationBlankMl: planShape.titrationBlankMl,
     catalyst: planShape.catalyst,
     titrant: planShape.titrant,
@@ -220,7 +284,11 @@ export const batchUpdateSchema = z
   })
   .superRefine((v, ctx) => {
     if (v.energyKwh != null && (v.heaterKw != null || v.heaterHours != null)) {
-      ctx.addIssue({ code: 'custom', path: ['energyKwh'], message: 'Give either metered kWh or heater kW × hours, not both.' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['energyKwh'],
+        message: 'Give either metered kWh or heater kW × hours, not both.',
+      });
     }
   });
 export type BatchUpdateInput = z.infer<typeof batchUpdateSchema>;
@@ -236,15 +304,40 @@ export const batchReleaseSchema = z.strictObject({
   reason: z.string().trim().max(2000, 'At most 2000 characters.').optional(),
 });
 export const batchRejectSchema = z.strictObject({
-  reason: z.string({ error: 'Say why the batch is rejected.' }).trim().min(3, 'Say why the batch is rejected (at least 3 characters).').max(2000, 'At most 2000 characters.'),
+  reason: z
+    .string({ error: 'Say why the batch is rejected.' })
+    .trim()
+    .min(3, 'Say why the batch is rejected (at least 3 characters).')
+    .max(2000, 'At most 2000 characters.'),
 });
 export const temperatureCreateSchema = z.strictObject({
-  temp: num('Enter the temperature as a number.').pipe(z.number().min(-40, 'Check this reading.').max(390, 'Check this reading.')),
+  temp: num('Enter the temperature as a number.').pipe(
+    z.number().min(-40, 'Check this reading.').max(390, 'Check this reading.'),
+  ),
   measuredAt: z.iso.datetime({ offset: true, error: 'Use a date and time such as 2026-11-30T14:05:00Z.' }).optional(),
 });
 
-export const batchListSchema = listQuerySchema(['number', 'date', 'status', 'volume', 'costPerGallon'], 'number').extend({
-  status: z.enum(['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing', 'released', 'rejected', 'in-progress'], {
-    error: 'Filter by a batch status.',
-  }).optional(),
+export const batchListSchema = listQuerySchema(
+  ['number', 'date', 'status', 'volume', 'costPerGallon'],
+  'number',
+).extend({
+  status: z
+    .enum(
+      [
+        'planned',
+        'reacting',
+        'settling',
+        'draining',
+        'washing',
+        'drying',
+        'testing',
+        'released',
+        'rejected',
+        'in-progress',
+      ],
+      {
+        error: 'Filter by a batch status.',
+      },
+    )
+    .optional(),
 });

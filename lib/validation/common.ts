@@ -51,7 +51,10 @@ export const textSchema = (max: number, opts: { multiline?: boolean; min?: numbe
     .trim()
     .min(opts.min ?? 0, opts.min ? `At least ${opts.min} character${opts.min === 1 ? '' : 's'}.` : undefined)
     .max(max, `At most ${max} characters.`)
-    .refine((s) => !(opts.multiline ? CONTROL_CHARS : CONTROL_CHARS_ONE_LINE).test(s), 'Remove the control characters from this text.');
+    .refine(
+      (s) => !(opts.multiline ? CONTROL_CHARS : CONTROL_CHARS_ONE_LINE).test(s),
+      'Remove the control characters from this text.',
+    );
 
 /** An IANA time-zone name, checked against the runtime's own time-zone data. */
 export const timeZoneSchema = z

@@ -7,24 +7,51 @@ import { invitationAcceptSchema } from './auth';
 
 export { apiTokenCreateSchema } from './api-tokens';
 export {
-  coopCreateSchema, emailChangeSchema, emailConfirmSchema, invitationAcceptSchema, invitationCreateSchema,
-  membershipUpdateSchema, passwordChangeSchema, passwordResetRequestSchema, passwordResetSchema, profileUpdateSchema,
+  coopCreateSchema,
+  emailChangeSchema,
+  emailConfirmSchema,
+  invitationAcceptSchema,
+  invitationCreateSchema,
+  membershipUpdateSchema,
+  passwordChangeSchema,
+  passwordResetRequestSchema,
+  passwordResetSchema,
+  profileUpdateSchema,
   signInSchema,
 } from './auth';
 export {
-  adjustmentCreateSchema, billingRunCreateSchema, cardPaySchema, invoiceVoidSchema, paymentMatchSchema,
-  paymentRecordSchema, periodCloseSchema, refundCreateSchema,
+  adjustmentCreateSchema,
+  billingRunCreateSchema,
+  cardPaySchema,
+  invoiceVoidSchema,
+  paymentMatchSchema,
+  paymentRecordSchema,
+  periodCloseSchema,
+  refundCreateSchema,
 } from './billing';
 export {
-  batchAdvanceSchema, batchCreateSchema, batchRejectSchema, batchReleaseSchema, batchUpdateSchema,
-  chemicalLotCreateSchema, oilLotCreateSchema, plannerSchema, temperatureCreateSchema,
+  batchAdvanceSchema,
+  batchCreateSchema,
+  batchRejectSchema,
+  batchReleaseSchema,
+  batchUpdateSchema,
+  chemicalLotCreateSchema,
+  oilLotCreateSchema,
+  plannerSchema,
+  temperatureCreateSchema,
 } from './brewing';
 export { importFileSchema } from './imports';
 export { lateLabResultSchema, reviewCloseSchema, reviewOpenSchema } from './lineage';
 export { coopSettingsUpdateSchema } from './settings';
 export {
-  dipCreateSchema, drawCreateSchema, drawReverseSchema, pricingPolicyCreateSchema, reservationCreateSchema,
-  tankCreateSchema, tankUpdateSchema, transferCreateSchema,
+  dipCreateSchema,
+  drawCreateSchema,
+  drawReverseSchema,
+  pricingPolicyCreateSchema,
+  reservationCreateSchema,
+  tankCreateSchema,
+  tankUpdateSchema,
+  transferCreateSchema,
 } from './tank';
 
 /** Accepting an invitation with a new account: name and password are both required. */

@@ -4,7 +4,13 @@ import { textSchema } from './common';
 // Imports from spreadsheets (CSV). Shared by the import screen and the route handlers.
 
 /** The kinds of import, as they appear in the URL (/imports/[kind]). */
-export const IMPORT_KINDS = ['invitations', 'opening-balances', 'opening-tank', 'opening-supplies', 'past-batches'] as const;
+export const IMPORT_KINDS = [
+  'invitations',
+  'opening-balances',
+  'opening-tank',
+  'opening-supplies',
+  'past-batches',
+] as const;
 export type ImportKindName = (typeof IMPORT_KINDS)[number];
 export const importKindSchema = z.enum(IMPORT_KINDS, { error: 'Unknown kind of import.' });
 

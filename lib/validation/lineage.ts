@@ -32,10 +32,16 @@ export const reviewCloseSchema = z
   })
   .superRefine((v, ctx) => {
     if (v.outcome === 'disposed' && !(v.disposalMethod && v.disposalMethod.length >= 3)) {
-      ctx.addIssue({ code: 'custom', path: ['disposalMethod'], message: 'Say how the fuel was disposed of (e.g. licensed waste-oil collector).' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['disposalMethod'],
+        message: 'Say how the fuel was disposed of (e.g. licensed waste-oil collector).',
+      });
     }
-    if (v.outcome === 'disposed' && v.receiptFileId === undefined) ctx.addIssue({ code: 'custom', path: ['receiptFileId'], message: 'Upload the disposal receipt and choose it.' });
-    if (v.outcome === 'retreated' && v.retreatBatchId === undefined) ctx.addIssue({ code: 'custom', path: ['retreatBatchId'], message: 'Choose the batch that re-treats the fuel.' });
+    if (v.outcome === 'disposed' && v.receiptFileId === undefined)
+      ctx.addIssue({ code: 'custom', path: ['receiptFileId'], message: 'Upload the disposal receipt and choose it.' });
+    if (v.outcome === 'retreated' && v.retreatBatchId === undefined)
+      ctx.addIssue({ code: 'custom', path: ['retreatBatchId'], message: 'Choose the batch that re-treats the fuel.' });
   });
 
 /** Recall report format. */

@@ -11,7 +11,10 @@ export const MEMBER_SORTS = ['name', 'email', 'role', 'status', 'joined'] as con
 export const memberListQuerySchema = listQuerySchema(MEMBER_SORTS, 'name').extend({
   dir: z.enum(['asc', 'desc']).default('asc'),
   role: z.preprocess(blankAsUndefined, z.enum(ROLES, { error: `Choose one of: ${ROLES.join(', ')}.` }).optional()),
-  status: z.preprocess(blankAsUndefined, z.enum(['active', 'suspended'], { error: 'Choose active or suspended.' }).optional()),
+  status: z.preprocess(
+    blankAsUndefined,
+    z.enum(['active', 'suspended'], { error: 'Choose active or suspended.' }).optional(),
+  ),
   q: z.preprocess(blankAsUndefined, z.string().trim().max(100, 'At most 100 characters.').optional()),
 });
 export type MemberListQuery = z.infer<typeof memberListQuerySchema>;

@@ -60,7 +60,13 @@ export function stopChild(child, graceMs = 5_000) {
  * @param {{env: object, port: number, host?: string, dev?: boolean, nodeArgs?: string[], stdio?: any}} o
  */
 export function startNext(o) {
-  const args = [...(o.nodeArgs ?? []), path.resolve('node_modules', 'next', 'dist', 'bin', 'next'), o.dev ? 'dev' : 'start', '-p', String(o.port)];
+  const args = [
+    ...(o.nodeArgs ?? []),
+    path.resolve('node_modules', 'next', 'dist', 'bin', 'next'),
+    o.dev ? 'dev' : 'start',
+    '-p',
+    String(o.port),
+  ];
   if (o.host) args.push('-H', o.host);
   const child = spawn(process.execPath, args, { env: o.env, stdio: o.stdio ?? 'inherit' });
   return { child, stop: () => stopChild(child) };

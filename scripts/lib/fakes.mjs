@@ -47,11 +47,21 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
           messageId: mail.messageId ?? '',
           date: (mail.date ?? new Date()).toISOString(),
           from: mail.from?.text ?? '',
-          to: mail.to ? [].concat(mail.to).map((a) => a.text).join(', ') : '',
+          to: mail.to
+            ? []
+                .concat(mail.to)
+                .map((a) => a.text)
+                .join(', ')
+            : '',
           subject: mail.subject ?? '',
           text: mail.text ?? '',
           html: typeof mail.html === 'string' ? mail.html : '',
-          attachments: (mail.attachments ?? []).map((a) => ({ filename: a.filename, contentType: a.contentType, size: a.size, content: a.content })),
+          attachments: (mail.attachments ?? []).map((a) => ({
+            filename: a.filename,
+            contentType: a.contentType,
+            size: a.size,
+            content: a.content,
+          })),
         });
         delete m.raw;
         delete m.parsing;
@@ -87,10 +97,14 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
     }
     if (url.pathname === '/api/messages') {
       res.writeHead(200, { 'content-type': 'application/json' });
-      res.end(JSON.stringify(messages.map(({ attachments, ...m }) => ({
-        ...m,
-        attachments: attachments.map(({ content: _content, ...a }) => a),
-      }))));
+      res.end(
+        JSON.stringify(
+          messages.map(({ attachments, ...m }) => ({
+            ...m,
+            attachments: attachments.map(({ content: _content, ...a }) => a),
+          })),
+        ),
+      );
       return;
     }
     const att = url.pathname.match(/^\/api\/messages\/(\d+)\/attachments\/(\d+)$/);
@@ -98,7 +112,10 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
       const m = messages.find((x) => x.id === Number(att[1]));
       const a = m?.attachments[Number(att[2])];
       if (!a) return void res.writeHead(404).end('not found');
-      res.writeHead(200, { 'content-type': a.contentType, 'content-disposition': `attachment; filename="${a.filename}"` });
+      res.writeHead(200, {
+        'content-type': a.contentType,
+        'content-disposition': `attachment; filename="${a.filename}"`,
+      });
       res.end(a.content);
       return;
     }
@@ -109,9 +126,17 @@ export async function startMailCatcher({ smtpPort, httpPort, log = console.log }
 article{border:1px solid #d6d3d1;border-radius:8px;padding:1rem;margin:1rem 0}pre{white-space:pre-wrap;background:#fafaf9;padding:.75rem}
 h1{color:#244f3f}small{color:#57534e}</style></head><body>
 <h1>Caught e-mail</h1><p>Every message Tallyvat sends in development lands here instead of a real mailbox. Newest first.</p>
-${messages.length === 0 ? '<p><em>No messages yet.</em></p>' : messages.map((m) => `<article><h2>${esc(m.subject)}</h2>
+${
+  messages.length === 0
+    ? '<p><em>No messages yet.</em></p>'
+    : messages
+        .map(
+          (m) => `<article><h2>${esc(m.subject)}</h2>
 <small>${esc(m.date)} · from ${esc(m.from)} · to ${esc(m.to)}</small><pre>${linkify(esc(m.text))}</pre>
-${m.attachments.map((a, i) => `<p>📎 <a href="/api/messages/${m.id}/attachments/${i}">${esc(a.filename)}</a> (${a.size} bytes)</p>`).join('')}</article>`).join('')}
+${m.attachments.map((a, i) => `<p>📎 <a href="/api/messages/${m.id}/attachments/${i}">${esc(a.filename)}</a> (${a.size} bytes)</p>`).join('')}</article>`,
+        )
+        .join('')
+}
 </body></html>`);
   });
   await new Promise((resolve, reject) => {
@@ -161,14 +186,19 @@ export async function startPaymentsFake({ port, webhookUrl = null, webhookSecret
   const Stripe = StripeSdk.default ?? StripeSdk;
   const signer = new Stripe('sk_test_fake_signer', { telemetry: false });
   const state = { outage: null, hold: false, held: [], deliveries: [], charges: [] };
-  const rand = (n) => Array.from({ length: n }, () => 'abcdefghijklmnopqrstuvwxyz0123456789'[Math.floor(Math.random() * 36)]).join('');
+  const rand = (n) =>
+    Array.from({ length: n }, () => 'abcdefghijklmnopqrstuvwxyz0123456789'[Math.floor(Math.random() * 36)]).join('');
 
   async function deliver(ev) {
     const rec = { id: ev.id, type: ev.type, status: 'pending' };
     state.deliveries.push(rec);
     for (let i = 0; i < 6; i++) {
       try {
-        const r = await fetch(webhookUrl, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': ev.signature }, body: ev.payload });
+        const r = await fetch(webhookUrl, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json', 'stripe-signature': ev.signature },
+          body: ev.payload,
+        });
         rec.status = r.status;
         if (r.status < 500) return;
       } catch {
@@ -181,12 +211,23 @@ export async function startPaymentsFake({ port, webhookUrl = null, webhookSecret
   function emit(type, object, idempotencyKey) {
     if (!webhookUrl || !webhookSecret) return;
     const event = {
-      id: `evt_${rand(24)}`, object: 'event', api_version: Stripe.API_VERSION ?? null, created: Math.floor(Date.now() / 1000),
-      data: { object: JSON.parse(JSON.stringify(object)) }, livemode: false, pending_webhooks: 1,
-      request: { id: `req_${rand(14)}`, idempotency_key: idempotencyKey ?? null }, type,
+      id: `evt_${rand(24)}`,
+      object: 'event',
+      api_version: Stripe.API_VERSION ?? null,
+      created: Math.floor(Date.now() / 1000),
+      data: { object: JSON.parse(JSON.stringify(object)) },
+      livemode: false,
+      pending_webhooks: 1,
+      request: { id: `req_${rand(14)}`, idempotency_key: idempotencyKey ?? null },
+      type,
     };
     const payload = JSON.stringify(event, null, 2);
-    const ev = { id: event.id, type, payload, signature: signer.webhooks.generateTestHeaderString({ payload, secret: webhookSecret }) };
+    const ev = {
+      id: event.id,
+      type,
+      payload,
+      signature: signer.webhooks.generateTestHeaderString({ payload, secret: webhookSecret }),
+    };
     if (state.hold) state.held.push(ev);
     else void deliver(ev);
   }
@@ -195,14 +236,28 @@ export async function startPaymentsFake({ port, webhookUrl = null, webhookSecret
     const key = req.header('idempotency-key') ?? null;
     if (req.method === 'POST' && req.path === '/v1/charges') {
       if (status === 200 && body?.object === 'charge') {
-        state.charges.push({ id: body.id, amount: body.amount, status: body.status, metadata: body.metadata, idempotencyKey: key });
+        state.charges.push({
+          id: body.id,
+          amount: body.amount,
+          status: body.status,
+          metadata: body.metadata,
+          idempotencyKey: key,
+        });
         emit('charge.succeeded', body, key);
       } else if (status === 402 && body?.error?.charge) {
         let charge;
         try {
           charge = mockCharges.retrieve('acct_default', body.error.charge, 'id');
         } catch {
-          charge = { id: body.error.charge, object: 'charge', status: 'failed', paid: false, amount: Number(req.body?.amount), currency: req.body?.currency, metadata: req.body?.metadata ?? {} };
+          charge = {
+            id: body.error.charge,
+            object: 'charge',
+            status: 'failed',
+            paid: false,
+            amount: Number(req.body?.amount),
+            currency: req.body?.currency,
+            metadata: req.body?.metadata ?? {},
+          };
         }
         emit('charge.failed', charge, key);
       }
@@ -236,7 +291,9 @@ export async function startPaymentsFake({ port, webhookUrl = null, webhookSecret
   outer.get('/__fake/deliveries', (_req, res) => res.json(state.deliveries));
   outer.use('/v1', (_req, res, next) => {
     if (state.outage !== '503') return next();
-    res.status(503).json({ error: { type: 'api_error', message: 'The payments service is unavailable (simulated outage).' } });
+    res
+      .status(503)
+      .json({ error: { type: 'api_error', message: 'The payments service is unavailable (simulated outage).' } });
   });
   outer.use((req, res, next) => {
     if (!req.path.startsWith('/v1/')) return next();
@@ -268,11 +325,22 @@ export async function startPaymentsFake({ port, webhookUrl = null, webhookSecret
     s.once('error', reject);
   });
   log(`Payments fake (Stripe API) on http://127.0.0.1:${port}${webhookUrl ? `, webhooks to ${webhookUrl}` : ''}`);
-  return { stop: () => new Promise((r) => { server.closeAllConnections?.(); server.close(r); }) };
+  return {
+    stop: () =>
+      new Promise((r) => {
+        server.closeAllConnections?.();
+        server.close(r);
+      }),
+  };
 }
 
 /** The bucket and keys of the local storage fake (s3rver accepts exactly these credentials). */
-export const STORAGE_FAKE = { bucket: 'tallyvat', accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER', region: 'us-east-1' };
+export const STORAGE_FAKE = {
+  bucket: 'tallyvat',
+  accessKeyId: 'S3RVER',
+  secretAccessKey: 'S3RVER',
+  region: 'us-east-1',
+};
 
 /**
  * Starts the object-storage fake (s3rver, an S3-compatible server keeping objects in `directory`)
@@ -284,7 +352,13 @@ export async function startStorageFake({ port, directory, log = console.log }) {
   const S3rver = require('s3rver');
   const fs = require('node:fs');
   fs.mkdirSync(directory, { recursive: true });
-  const server = new S3rver({ port, address: '127.0.0.1', silent: true, directory, configureBuckets: [{ name: STORAGE_FAKE.bucket }] });
+  const server = new S3rver({
+    port,
+    address: '127.0.0.1',
+    silent: true,
+    directory,
+    configureBuckets: [{ name: STORAGE_FAKE.bucket }],
+  });
   const info = await server.run();
   const endpoint = `http://127.0.0.1:${info.port}`;
   log(`Storage fake (S3 API) on ${endpoint}, bucket ${STORAGE_FAKE.bucket}, objects in ${directory}`);

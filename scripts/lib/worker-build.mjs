@@ -18,7 +18,8 @@ function newestSource() {
     }
   };
   for (const d of SOURCE_DIRS) walk(path.resolve(d));
-  for (const f of ['package.json', 'package-lock.json']) if (fs.existsSync(f)) newest = Math.max(newest, fs.statSync(f).mtimeMs);
+  for (const f of ['package.json', 'package-lock.json'])
+    if (fs.existsSync(f)) newest = Math.max(newest, fs.statSync(f).mtimeMs);
   return newest;
 }
 
@@ -35,7 +36,12 @@ export async function buildWorker({ log = console.log, force = false } = {}) {
     logLevel: 'warn',
     resolve: { alias: { '@': root, 'server-only': empty } },
     // Every package is loaded from node_modules at run time; only our own code is bundled.
-    external: (id) => !id.startsWith('.') && !id.startsWith('/') && !id.startsWith('@/') && id !== 'server-only' && !path.isAbsolute(id),
+    external: (id) =>
+      !id.startsWith('.') &&
+      !id.startsWith('/') &&
+      !id.startsWith('@/') &&
+      id !== 'server-only' &&
+      !path.isAbsolute(id),
     output: { file: OUT, format: 'esm', sourcemap: true },
   });
   return OUT;

@@ -14,7 +14,10 @@ export async function startWorkerProcess(o) {
   await buildWorker({ log: o.log ?? (() => {}) });
   // One process beside the Next server unless told otherwise (`npm run worker` alone takes one per core).
   const env = { WORKER_PROCESSES: '1', ...o.env };
-  const child = spawn(process.execPath, [...(o.nodeArgs ?? []), path.resolve('scripts', 'worker.mjs')], { env, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [...(o.nodeArgs ?? []), path.resolve('scripts', 'worker.mjs')], {
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   const out = o.stdio ?? process.stdout;
   child.stdout.pipe(out, { end: false });
   child.stderr.pipe(o.stdio ?? process.stderr, { end: false });

@@ -12,7 +12,10 @@ const sha256 = (s: string) => crypto.createHash('sha256').update(s).digest('hex'
 async function attempt(email: string, password: string) {
   const agent = request.agent(baseUrl());
   const csrf = await agent.get('/api/auth/csrf').expect(200);
-  const res = await agent.post('/api/auth/callback/credentials').type('form').send({ csrfToken: csrf.body.csrfToken, email, password, json: 'true' });
+  const res = await agent
+    .post('/api/auth/callback/credentials')
+    .type('form')
+    .send({ csrfToken: csrf.body.csrfToken, email, password, json: 'true' });
   return { res, failed: res.status !== 200 || String(res.body?.url ?? '').includes('error=') };
 }
 
@@ -71,7 +74,10 @@ describe('password reset', () => {
     expect(mail.subject).toBe('Reset your Tallyvat password');
     const token = tokenIn(mail.text, 'reset-password');
     expect(mail.text).toContain(`${baseUrl()}/reset-password/${token}`);
-    const [row] = await sql<{ token_hash: string; expires_at: Date }>(`SELECT token_hash, expires_at FROM auth_tokens WHERE user_id = $1 AND kind = 'password-reset'`, [u.id]);
+    const [row] = await sql<{ token_hash: string; expires_at: Date }>(
+      `SELECT token_hash, expires_at FROM auth_tokens WHERE user_id = $1 AND kind = 'password-reset'`,
+      [u.id],
+    );
     expect(row!.token_hash).toBe(sha256(token));
     expect(Math.abs(new Date(row!.expires_at).getTime() - (Date.now() + 3_600_000))).toBeLessThan(60_000);
 
@@ -79,7 +85,10 @@ describe('password reset', () => {
     expect((await api().get(`/api/password-reset/${token}`).expect(200)).body).toEqual({ email: u.email });
 
     // Bad passwords are refused and change nothing.
-    const [before] = await sql<{ password_hash: string; session_version: number }>('SELECT password_hash, session_version FROM users WHERE id = $1', [u.id]);
+    const [before] = await sql<{ password_hash: string; session_version: number }>(
+      'SELECT password_hash, session_version FROM users WHERE id = $1',
+      [u.id],
+    );
     for (const [body, reason] of [
       [{ password: 'short' }, /at least 12/],
       [{ password: 'passwordpassword' }, /commonly used/],
@@ -89,7 +98,10 @@ describe('password reset', () => {
       const res = await api().post(`/api/password-reset/${token}`).send(body).expect(422);
       expect(res.body.fields.password.join(' ')).toMatch(reason);
     }
-    const smuggled = await api().post(`/api/password-reset/${token}`).send({ password: NEW_PASSWORD, email: 'other@example.org' }).expect(422);
+    const smuggled = await api()
+      .post(`/api/password-reset/${token}`)
+      .send({ password: NEW_PASSWORD, email: 'other@example.org' })
+      .expect(422);
     expect(Object.keys(smuggled.body.fields)).toEqual(['email']);
     const [unchanged] = await sql('SELECT password_hash, session_version FROM users WHERE id = $1', [u.id]);
     expect(unchanged).toEqual(before);
@@ -101,13 +113,18 @@ describe('password reset', () => {
     await signIn(u.email, NEW_PASSWORD);
 
     // Single use.
-    const reused = await api().post(`/api/password-reset/${token}`).send({ password: 'another-good-passphrase' }).expect(410);
+    const reused = await api()
+      .post(`/api/password-reset/${token}`)
+      .send({ password: 'another-good-passphrase' })
+      .expect(410);
     expect(reused.body).toMatchObject({ reason: 'used', error: expect.stringMatching(/already been used/) });
     expect((await api().get(`/reset-password/${token}`).expect(200)).text).toContain('already been used');
     await sql('DELETE FROM sign_in_attempts WHERE NOT succeeded');
 
     // Nothing was created for the unknown address.
-    expect(await countRows('auth_tokens t JOIN users u ON u.id = t.user_id', 'lower(u.email) = $1', [unknownEmail])).toBe(0);
+    expect(
+      await countRows('auth_tokens t JOIN users u ON u.id = t.user_id', 'lower(u.email) = $1', [unknownEmail]),
+    ).toBe(0);
   });
 
   it('a link older than one hour is refused', async () => {
@@ -122,7 +139,9 @@ describe('password reset', () => {
   });
 
   it('unknown links are 404; malformed requests are 422; at most three links an hour per account', async () => {
-    await api().get(`/api/password-reset/${crypto.randomBytes(32).toString('base64url')}`).expect(404);
+    await api()
+      .get(`/api/password-reset/${crypto.randomBytes(32).toString('base64url')}`)
+      .expect(404);
     await api().post('/api/password-reset/nope').send({ password: NEW_PASSWORD }).expect(404);
     expect((await api().post('/api/password-reset').send({}).expect(422)).body.fields.email).toBeDefined();
     expect((await api().post('/api/password-reset').send({ email: 'x' }).expect(422)).body.fields.email).toBeDefined();
@@ -137,7 +156,10 @@ describe('profile: /api/me', () => {
     const a = await makeCoop({ name: 'Alder Street Fuel' });
     const b = await makeCoop({ name: 'Birchwood Oil Guild' });
     const u = await makeUser({ coopId: a.id, role: 'treasurer', name: 'Wilhelmina Sato' });
-    await sql(`INSERT INTO memberships (coop_id, user_id, role, status) VALUES ($1, $2, 'member', 'suspended')`, [b.id, u.id]);
+    await sql(`INSERT INTO memberships (coop_id, user_id, role, status) VALUES ($1, $2, 'member', 'suspended')`, [
+      b.id,
+      u.id,
+    ]);
     const agent = await signIn(u.email);
     const res = await agent.get('/api/me').expect(200);
     expect(res.body).toMatchObject({ id: u.id, name: 'Wilhelmina Sato', email: u.email, pendingEmail: null });
@@ -169,7 +191,10 @@ describe('profile: /api/me', () => {
     expect((await sql('SELECT name FROM users WHERE id = $1', [u.id]))[0]).toEqual({ name: 'Old Name' });
     await agent.patch('/api/me').send({ name: '  Ottoline Brack  ' }).expect(200);
     expect((await sql('SELECT name FROM users WHERE id = $1', [u.id]))[0]).toEqual({ name: 'Ottoline Brack' });
-    const [event] = await sql(`SELECT action, before, after FROM audit_events WHERE coop_id = $1 AND entity_type = 'user'`, [coop.id]);
+    const [event] = await sql(
+      `SELECT action, before, after FROM audit_events WHERE coop_id = $1 AND entity_type = 'user'`,
+      [coop.id],
+    );
     expect(event).toEqual({ action: 'user.rename', before: { name: 'Old Name' }, after: { name: 'Ottoline Brack' } });
   });
 
@@ -179,7 +204,11 @@ describe('profile: /api/me', () => {
     const phone = await signIn(u.email);
     const [before] = await sql('SELECT password_hash, session_version FROM users WHERE id = $1', [u.id]);
     const cases: [object, string, RegExp][] = [
-      [{ currentPassword: 'not-my-password-at-all', newPassword: NEW_PASSWORD }, 'currentPassword', /not your current password/],
+      [
+        { currentPassword: 'not-my-password-at-all', newPassword: NEW_PASSWORD },
+        'currentPassword',
+        /not your current password/,
+      ],
       [{ currentPassword: TEST_PASSWORD, newPassword: 'QwertyQwerty' }, 'newPassword', /commonly used/],
       [{ currentPassword: TEST_PASSWORD, newPassword: 'short' }, 'newPassword', /at least 12/],
       [{ currentPassword: TEST_PASSWORD, newPassword: TEST_PASSWORD }, 'newPassword', /different/],
@@ -193,7 +222,10 @@ describe('profile: /api/me', () => {
     }
     expect((await sql('SELECT password_hash, session_version FROM users WHERE id = $1', [u.id]))[0]).toEqual(before);
 
-    await laptop.post('/api/me/password').send({ currentPassword: TEST_PASSWORD, newPassword: NEW_PASSWORD }).expect(200);
+    await laptop
+      .post('/api/me/password')
+      .send({ currentPassword: TEST_PASSWORD, newPassword: NEW_PASSWORD })
+      .expect(200);
     await phone.get('/api/me').expect(401);
     await laptop.get('/api/me').expect(401); // the form signs this browser back in with the new password
     await signIn(u.email, NEW_PASSWORD);
@@ -208,15 +240,29 @@ describe('profile: /api/me', () => {
     const agent = await signIn(u.email);
     const newEmail = `moved-${Date.now().toString(36)}@example.org`;
 
-    expect((await agent.post('/api/me/email').send({ email: newEmail, currentPassword: 'wrong-password-here' }).expect(422)).body.fields).toHaveProperty('currentPassword');
+    expect(
+      (await agent.post('/api/me/email').send({ email: newEmail, currentPassword: 'wrong-password-here' }).expect(422))
+        .body.fields,
+    ).toHaveProperty('currentPassword');
     // A taken address gets the same answer (nothing reveals who has an account); its owner is told.
-    expect((await agent.post('/api/me/email').send({ email: taken.email, currentPassword: TEST_PASSWORD }).expect(202)).body).toEqual({ pendingEmail: taken.email, sent: true });
+    expect(
+      (await agent.post('/api/me/email').send({ email: taken.email, currentPassword: TEST_PASSWORD }).expect(202)).body,
+    ).toEqual({ pendingEmail: taken.email, sent: true });
     expect((await waitForMail(taken.email)).subject).toMatch(/tried to use your e-mail address/);
-    expect((await agent.post('/api/me/email').send({ email: u.email, currentPassword: TEST_PASSWORD }).expect(422)).body.fields).toHaveProperty('email');
-    expect((await agent.post('/api/me/email').send({ email: 'nope', currentPassword: TEST_PASSWORD }).expect(422)).body.fields).toHaveProperty('email');
+    expect(
+      (await agent.post('/api/me/email').send({ email: u.email, currentPassword: TEST_PASSWORD }).expect(422)).body
+        .fields,
+    ).toHaveProperty('email');
+    expect(
+      (await agent.post('/api/me/email').send({ email: 'nope', currentPassword: TEST_PASSWORD }).expect(422)).body
+        .fields,
+    ).toHaveProperty('email');
     expect(await countRows('auth_tokens', 'user_id = $1', [u.id])).toBe(0);
 
-    const res = await agent.post('/api/me/email').send({ email: newEmail.toUpperCase(), currentPassword: TEST_PASSWORD }).expect(202);
+    const res = await agent
+      .post('/api/me/email')
+      .send({ email: newEmail.toUpperCase(), currentPassword: TEST_PASSWORD })
+      .expect(202);
     expect(res.body).toEqual({ pendingEmail: newEmail, sent: true });
     expect((await agent.get('/api/me').expect(200)).body).toMatchObject({ email: u.email, pendingEmail: newEmail });
     const confirmation = await waitForMail(newEmail);
@@ -229,8 +275,13 @@ describe('profile: /api/me', () => {
     }
     expect(me.pendingEmailDelivery).toEqual({ status: 'sent', sentAt: expect.any(String) });
     expect((await agent.get('/profile').expect(200)).text).toContain('Confirmation e-mail: sent.');
-    const [link] = await sql<{ id: number }>(`SELECT id FROM auth_tokens WHERE user_id = $1 AND kind = 'email-change' AND used_at IS NULL`, [u.id]);
-    expect(await sql('SELECT message_id, state FROM mail_sends WHERE subject = $1', [`email-change.${link!.id}`])).toEqual([{ message_id: confirmation.messageId, state: 'sent' }]);
+    const [link] = await sql<{ id: number }>(
+      `SELECT id FROM auth_tokens WHERE user_id = $1 AND kind = 'email-change' AND used_at IS NULL`,
+      [u.id],
+    );
+    expect(
+      await sql('SELECT message_id, state FROM mail_sends WHERE subject = $1', [`email-change.${link!.id}`]),
+    ).toEqual([{ message_id: confirmation.messageId, state: 'sent' }]);
 
     const page = await api().get(`/confirm-email/${token}`).expect(200);
     expect(page.text).toContain(newEmail);
@@ -240,7 +291,10 @@ describe('profile: /api/me', () => {
     expect((await sql('SELECT email FROM users WHERE id = $1', [u.id]))[0]).toEqual({ email: newEmail });
     const notice = await waitForMail(u.email, (m) => m.subject === 'Your Tallyvat e-mail address was changed');
     expect(notice.text).toContain(newEmail);
-    const [event] = await sql(`SELECT before, after FROM audit_events WHERE coop_id = $1 AND action = 'user.email-change'`, [coop.id]);
+    const [event] = await sql(
+      `SELECT before, after FROM audit_events WHERE coop_id = $1 AND action = 'user.email-change'`,
+      [coop.id],
+    );
     expect(event).toEqual({ before: { email: u.email }, after: { email: newEmail } });
 
     expect((await agent.get('/api/me').expect(200)).body.email).toBe(newEmail);
@@ -248,17 +302,23 @@ describe('profile: /api/me', () => {
     const reused = await api().post('/api/me/email/confirm').send({ token }).expect(410);
     expect(reused.body.reason).toBe('used');
     await api().post('/api/me/email/confirm').send({ token: 'garbage' }).expect(404);
-    expect((await api().post('/api/me/email/confirm').send({ token: 5 }).expect(422)).body.fields).toHaveProperty('token');
+    expect((await api().post('/api/me/email/confirm').send({ token: 5 }).expect(422)).body.fields).toHaveProperty(
+      'token',
+    );
   });
 
   it('a pending change whose confirmation e-mail has neither a ledger row nor a live job shows "failed" (ask again)', async () => {
     const u = await makeUser();
     const agent = await signIn(u.email);
     // What every try failing leaves behind once its job is gone: the link, and no sent message.
-    await sql(`INSERT INTO auth_tokens (user_id, kind, token_hash, new_email, expires_at) VALUES ($1, 'email-change', $2, $3, now() + interval '1 day')`, [
-      u.id, crypto.randomBytes(32).toString('hex'), `lost-${Date.now().toString(36)}@example.org`,
-    ]);
-    expect((await agent.get('/api/me').expect(200)).body.pendingEmailDelivery).toEqual({ status: 'failed', sentAt: null });
+    await sql(
+      `INSERT INTO auth_tokens (user_id, kind, token_hash, new_email, expires_at) VALUES ($1, 'email-change', $2, $3, now() + interval '1 day')`,
+      [u.id, crypto.randomBytes(32).toString('hex'), `lost-${Date.now().toString(36)}@example.org`],
+    );
+    expect((await agent.get('/api/me').expect(200)).body.pendingEmailDelivery).toEqual({
+      status: 'failed',
+      sentAt: null,
+    });
     expect((await agent.get('/profile').expect(200)).text).toContain('Confirmation e-mail not delivered');
   });
 

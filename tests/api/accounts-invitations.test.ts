@@ -2,7 +2,18 @@
 // invited role; existing accounts; re-invites; resend, revoke, expiry, reuse; bad input.
 import crypto from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { api, baseUrl, caughtMail, countRows, makeCoopWithRoles, makeUser, signIn, sql, TEST_PASSWORD, waitForMail } from '../support/api';
+import {
+  api,
+  baseUrl,
+  caughtMail,
+  countRows,
+  makeCoopWithRoles,
+  makeUser,
+  signIn,
+  sql,
+  TEST_PASSWORD,
+  waitForMail,
+} from '../support/api';
 import { mailSettled } from '../support/worker';
 
 type Ctx = Awaited<ReturnType<typeof makeCoopWithRoles>>;
@@ -38,9 +49,15 @@ describe('invitation by e-mail, end to end through the API', () => {
 
   it('invites a new person, who follows the e-mailed link, creates an account and is signed in as a brewer', async () => {
     const email = freshEmail();
-    const created = await ctx.agents.admin.post(invitations()).send({ email: email.toUpperCase(), role: 'brewer' }).expect(201);
+    const created = await ctx.agents.admin
+      .post(invitations())
+      .send({ email: email.toUpperCase(), role: 'brewer' })
+      .expect(201);
     // Saved and queued in the request; the job worker makes the link and e-mails it.
-    expect(created.body).toMatchObject({ queued: true, invitation: { email, role: 'brewer', delivery: 'queued', expired: false } });
+    expect(created.body).toMatchObject({
+      queued: true,
+      invitation: { email, role: 'brewer', delivery: 'queued', expired: false },
+    });
 
     const mail = await waitForMail(email);
     await waitForDelivery(created.body.invitation.id);
@@ -58,7 +75,12 @@ describe('invitation by e-mail, end to end through the API', () => {
     expect(row!.token_hash).toBe(sha256(token));
     expect(row!.invited_by_user_id).toBe(ctx.users.admin.id);
     expect(Math.abs(new Date(row!.expires_at).getTime() - (Date.now() + 7 * 86_400_000))).toBeLessThan(60_000);
-    expect(await countRows('audit_events', "coop_id = $1 AND action = 'invitation.create' AND entity_id = $2", [ctx.coop.id, String(created.body.invitation.id)])).toBe(1);
+    expect(
+      await countRows('audit_events', "coop_id = $1 AND action = 'invitation.create' AND entity_id = $2", [
+        ctx.coop.id,
+        String(created.body.invitation.id),
+      ]),
+    ).toBe(1);
 
     // The link opens a page naming the co-op and the role.
     const page = await api().get(`/invite/${token}`).expect(200);
@@ -66,20 +88,36 @@ describe('invitation by e-mail, end to end through the API', () => {
     const info = await api().get(`/api/invitations/${token}`).expect(200);
     expect(info.body).toMatchObject({ email, role: 'brewer', account: 'new', coop: { slug: ctx.coop.slug } });
 
-    const accepted = await api().post(`/api/invitations/${token}`).send({ name: 'Rosalind Achterberg', password: NEW_PASSWORD }).expect(201);
-    expect(accepted.body).toEqual({ coop: { slug: ctx.coop.slug, name: expect.any(String) }, role: 'brewer', email, newAccount: true });
+    const accepted = await api()
+      .post(`/api/invitations/${token}`)
+      .send({ name: 'Rosalind Achterberg', password: NEW_PASSWORD })
+      .expect(201);
+    expect(accepted.body).toEqual({
+      coop: { slug: ctx.coop.slug, name: expect.any(String) },
+      role: 'brewer',
+      email,
+      newAccount: true,
+    });
 
     const agent = await signIn(email, NEW_PASSWORD);
     const mine = await agent.get('/api/coops').expect(200);
-    expect(mine.body.coops).toEqual([expect.objectContaining({ slug: ctx.coop.slug, role: 'brewer', status: 'active' })]);
+    expect(mine.body.coops).toEqual([
+      expect.objectContaining({ slug: ctx.coop.slug, role: 'brewer', status: 'active' }),
+    ]);
     // Brewer, not admin: the members screen stays closed.
     await agent.get(`/api/coops/${ctx.coop.slug}/members`).expect(403);
 
     // Single use: the same link now says it was used.
-    const again = await api().post(`/api/invitations/${token}`).send({ name: 'Someone Else', password: NEW_PASSWORD }).expect(410);
+    const again = await api()
+      .post(`/api/invitations/${token}`)
+      .send({ name: 'Someone Else', password: NEW_PASSWORD })
+      .expect(410);
     expect(again.body).toMatchObject({ reason: 'accepted', error: expect.stringMatching(/already been used/) });
     expect((await api().get(`/invite/${token}`).expect(200)).text).toContain('already used');
-    const audit = await sql<{ action: string }>(`SELECT action FROM audit_events WHERE coop_id = $1 AND actor_user_id = (SELECT id FROM users WHERE email = $2) ORDER BY id`, [ctx.coop.id, email]);
+    const audit = await sql<{ action: string }>(
+      `SELECT action FROM audit_events WHERE coop_id = $1 AND actor_user_id = (SELECT id FROM users WHERE email = $2) ORDER BY id`,
+      [ctx.coop.id, email],
+    );
     expect(audit.map((a) => a.action)).toEqual(['invitation.accept', 'membership.create']);
   });
 
@@ -128,9 +166,18 @@ describe('invitation by e-mail, end to end through the API', () => {
     const email = freshEmail();
     const first = await ctx.agents.admin.post(invitations()).send({ email, role: 'member' }).expect(201);
     const before = await countRows('invitations', 'coop_id = $1', [ctx.coop.id]);
-    const dup = await ctx.agents.admin.post(invitations()).send({ email: ` ${email.toUpperCase()} `.trim(), role: 'admin' }).expect(409);
-    expect(dup.body).toMatchObject({ invitationId: first.body.invitation.id, error: expect.stringMatching(/already waiting/) });
-    const member = await ctx.agents.admin.post(invitations()).send({ email: ctx.users.brewer.email, role: 'member' }).expect(409);
+    const dup = await ctx.agents.admin
+      .post(invitations())
+      .send({ email: ` ${email.toUpperCase()} `.trim(), role: 'admin' })
+      .expect(409);
+    expect(dup.body).toMatchObject({
+      invitationId: first.body.invitation.id,
+      error: expect.stringMatching(/already waiting/),
+    });
+    const member = await ctx.agents.admin
+      .post(invitations())
+      .send({ email: ctx.users.brewer.email, role: 'member' })
+      .expect(409);
     expect(member.body.error).toMatch(/already a member/);
     expect(await countRows('invitations', 'coop_id = $1', [ctx.coop.id])).toBe(before);
     const [row] = await sql<{ role: string }>('SELECT role FROM invitations WHERE id = $1', [first.body.invitation.id]);
@@ -148,7 +195,12 @@ describe('invitation by e-mail, end to end through the API', () => {
     expect(newToken).not.toBe(oldToken);
     await api().get(`/api/invitations/${oldToken}`).expect(404);
     await api().get(`/api/invitations/${newToken}`).expect(200);
-    expect(await countRows('audit_events', "coop_id = $1 AND action = 'invitation.resend' AND entity_id = $2", [ctx.coop.id, String(id)])).toBe(1);
+    expect(
+      await countRows('audit_events', "coop_id = $1 AND action = 'invitation.resend' AND entity_id = $2", [
+        ctx.coop.id,
+        String(id),
+      ]),
+    ).toBe(1);
   });
 
   it('revoke withdraws the invitation: the link says so, and it can no longer be resent', async () => {
@@ -178,18 +230,30 @@ describe('invitation by e-mail, end to end through the API', () => {
     const email = freshEmail();
     const created = await ctx.agents.admin.post(invitations()).send({ email, role: 'member' }).expect(201);
     const { token } = linkIn((await waitForMail(email)).text);
-    await sql(`UPDATE invitations SET expires_at = now() - interval '1 minute' WHERE id = $1`, [created.body.invitation.id]);
+    await sql(`UPDATE invitations SET expires_at = now() - interval '1 minute' WHERE id = $1`, [
+      created.body.invitation.id,
+    ]);
     const res = await api().get(`/api/invitations/${token}`).expect(410);
     expect(res.body).toMatchObject({ reason: 'expired', error: expect.stringMatching(/expired/) });
     await api().post(`/api/invitations/${token}`).send({ name: 'Late Comer', password: NEW_PASSWORD }).expect(410);
     expect((await api().get(`/invite/${token}`).expect(200)).text).toContain('This invitation has expired');
-    expect((await ctx.agents.admin.get(invitations()).expect(200)).body.invitations.find((i: { id: number }) => i.id === created.body.invitation.id).expired).toBe(true);
+    expect(
+      (await ctx.agents.admin.get(invitations()).expect(200)).body.invitations.find(
+        (i: { id: number }) => i.id === created.body.invitation.id,
+      ).expired,
+    ).toBe(true);
 
     const renewed = await ctx.agents.admin.post(invitations()).send({ email, role: 'brewer' }).expect(201);
     expect(renewed.body.invitation).toMatchObject({ id: created.body.invitation.id, role: 'brewer', expired: false });
     const fresh = linkIn((await waitForMail(email, (m) => !m.text.includes(token))).text).token;
     await api().post(`/api/invitations/${fresh}`).send({ name: 'Late Comer', password: NEW_PASSWORD }).expect(201);
-    expect(await countRows('memberships', "coop_id = $1 AND role = 'brewer' AND user_id = (SELECT id FROM users WHERE email = $2)", [ctx.coop.id, email])).toBe(1);
+    expect(
+      await countRows(
+        'memberships',
+        "coop_id = $1 AND role = 'brewer' AND user_id = (SELECT id FROM users WHERE email = $2)",
+        [ctx.coop.id, email],
+      ),
+    ).toBe(1);
   });
 
   it('an unknown or malformed link is a 404 with a clear message', async () => {
@@ -210,7 +274,9 @@ describe('invitation by e-mail, end to end through the API', () => {
        VALUES ($1, $2, 'member', $3, 'not-sent', $4, now() + interval '7 days') RETURNING id`,
       [ctx.coop.id, email, sha256(crypto.randomBytes(32).toString('base64url')), ctx.users.admin.id],
     );
-    const listed = (await ctx.agents.admin.get(invitations()).expect(200)).body.invitations.find((i: { id: number }) => i.id === row!.id);
+    const listed = (await ctx.agents.admin.get(invitations()).expect(200)).body.invitations.find(
+      (i: { id: number }) => i.id === row!.id,
+    );
     expect(listed.delivery).toBe('not-sent');
     const res = await ctx.agents.admin.post(`${invitations()}/${row!.id}/resend`).expect(200);
     expect(res.body).toMatchObject({ queued: true, invitation: { delivery: 'queued' } });
@@ -226,9 +292,15 @@ describe('invitation by e-mail, end to end through the API', () => {
     expect(created.body.invitation).toMatchObject({ delivery: 'queued', sentAt: null });
     const first = await waitForMail(email);
     await waitForDelivery(id);
-    const listed = (await ctx.agents.admin.get(invitations()).expect(200)).body.invitations.find((i: { id: number }) => i.id === id);
+    const listed = (await ctx.agents.admin.get(invitations()).expect(200)).body.invitations.find(
+      (i: { id: number }) => i.id === id,
+    );
     expect(listed).toMatchObject({ delivery: 'sent', sentAt: expect.any(String) });
-    const ledger = () => sql<{ generation: number; state: string; message_id: string }>('SELECT generation, state, message_id FROM mail_sends WHERE subject = $1 AND coop_id = $2 ORDER BY generation', [`invitation.${id}`, ctx.coop.id]);
+    const ledger = () =>
+      sql<{ generation: number; state: string; message_id: string }>(
+        'SELECT generation, state, message_id FROM mail_sends WHERE subject = $1 AND coop_id = $2 ORDER BY generation',
+        [`invitation.${id}`, ctx.coop.id],
+      );
     expect(await ledger()).toEqual([{ generation: 1, state: 'sent', message_id: first.messageId }]);
     // The members screen says so.
     expect((await ctx.agents.admin.get(`/c/${ctx.coop.slug}/members`).expect(200)).text).toContain('E-mail sent');
@@ -241,11 +313,18 @@ describe('invitation by e-mail, end to end through the API', () => {
     const mails = await caughtMail(email);
     expect(mails).toHaveLength(2);
     const rows = await ledger();
-    expect(rows.map((r) => [r.generation, r.state])).toEqual([[1, 'sent'], [2, 'sent']]);
+    expect(rows.map((r) => [r.generation, r.state])).toEqual([
+      [1, 'sent'],
+      [2, 'sent'],
+    ]);
     expect(mails[0]!.messageId).toBe(rows[1]!.message_id);
     // The new link works; the first one no longer does.
-    await api().get(`/api/invitations/${linkIn(mails[0]!.text).token}`).expect(200);
-    await api().get(`/api/invitations/${linkIn(first.text).token}`).expect(404);
+    await api()
+      .get(`/api/invitations/${linkIn(mails[0]!.text).token}`)
+      .expect(200);
+    await api()
+      .get(`/api/invitations/${linkIn(first.text).token}`)
+      .expect(404);
   });
 
   it('resend and revoke of another co-op’s invitation are 404', async () => {
@@ -280,7 +359,10 @@ describe('invitation bad input → 422 with field and reason, nothing written', 
       [{ email: freshEmail(), role: 'member', invitedByUserId: ctx.users.outsider.id }, ['invitedByUserId']],
     ];
     for (const [body, fields] of cases) {
-      const res = await ctx.agents.admin.post(url).send(body as object).expect(422);
+      const res = await ctx.agents.admin
+        .post(url)
+        .send(body as object)
+        .expect(422);
       expect(Object.keys(res.body.fields).sort(), JSON.stringify(body).slice(0, 80)).toEqual(fields);
       for (const f of fields) expect(res.body.fields[f][0]).toEqual(expect.any(String));
     }
@@ -289,7 +371,10 @@ describe('invitation bad input → 422 with field and reason, nothing written', 
 
   it('accepting an invitation', async () => {
     const email = freshEmail();
-    const created = await ctx.agents.admin.post(`/api/coops/${ctx.coop.slug}/invitations`).send({ email, role: 'member' }).expect(201);
+    const created = await ctx.agents.admin
+      .post(`/api/coops/${ctx.coop.slug}/invitations`)
+      .send({ email, role: 'member' })
+      .expect(201);
     const { token } = linkIn((await waitForMail(email)).text);
     const usersBefore = await countRows('users');
     const membershipsBefore = await countRows('memberships', 'coop_id = $1', [ctx.coop.id]);
@@ -306,16 +391,27 @@ describe('invitation bad input → 422 with field and reason, nothing written', 
       [{ name: 'Valid Name', password: NEW_PASSWORD, coopId: ctx.other.id }, ['coopId']],
     ];
     for (const [body, fields, reason] of cases) {
-      const res = await api().post(`/api/invitations/${token}`).send(body as object).expect(422);
+      const res = await api()
+        .post(`/api/invitations/${token}`)
+        .send(body as object)
+        .expect(422);
       expect(Object.keys(res.body.fields).sort(), JSON.stringify(body).slice(0, 80)).toEqual(fields);
       if (reason) expect(res.body.fields[fields[0]!].join(' ')).toMatch(reason);
     }
     expect(await countRows('users')).toBe(usersBefore);
     expect(await countRows('memberships', 'coop_id = $1', [ctx.coop.id])).toBe(membershipsBefore);
-    const [row] = await sql<{ status: string }>('SELECT status FROM invitations WHERE id = $1', [created.body.invitation.id]);
+    const [row] = await sql<{ status: string }>('SELECT status FROM invitations WHERE id = $1', [
+      created.body.invitation.id,
+    ]);
     expect(row!.status).toBe('pending');
     // The invited role is the one that counts: a good body still joins as a plain member.
     await api().post(`/api/invitations/${token}`).send({ name: 'Valid Name', password: NEW_PASSWORD }).expect(201);
-    expect(await countRows('memberships', "coop_id = $1 AND role = 'member' AND user_id = (SELECT id FROM users WHERE email = $2)", [ctx.coop.id, email])).toBe(1);
+    expect(
+      await countRows(
+        'memberships',
+        "coop_id = $1 AND role = 'member' AND user_id = (SELECT id FROM users WHERE email = $2)",
+        [ctx.coop.id, email],
+      ),
+    ).toBe(1);
   });
 });

@@ -41,7 +41,10 @@ describe('GET /api/coops/[coop]/members', () => {
     expect(suspended.body.rows.map((r: { name: string }) => r.name)).toEqual(['Odalys Quill']);
     const byName = await ctx.agents.admin.get(members(ctx.coop.slug)).query({ q: 'odaLYS' }).expect(200);
     expect(byName.body.total).toBe(1);
-    const byEmail = await ctx.agents.admin.get(members(ctx.coop.slug)).query({ q: ctx.users.member.email.slice(0, 12) }).expect(200);
+    const byEmail = await ctx.agents.admin
+      .get(members(ctx.coop.slug))
+      .query({ q: ctx.users.member.email.slice(0, 12) })
+      .expect(200);
     expect(byEmail.body.rows.map((r: { email: string }) => r.email)).toContain(ctx.users.member.email);
     // LIKE wildcards are searched literally: "50%_" matches only the name that contains it.
     const literal = await ctx.agents.admin.get(members(ctx.coop.slug)).query({ q: '50%_' }).expect(200);
@@ -51,8 +54,14 @@ describe('GET /api/coops/[coop]/members', () => {
   });
 
   it('sorts and pages on the server', async () => {
-    const p1 = await ctx.agents.admin.get(members(ctx.coop.slug)).query({ sort: 'role', dir: 'asc', pageSize: 2, page: 1 }).expect(200);
-    const p2 = await ctx.agents.admin.get(members(ctx.coop.slug)).query({ sort: 'role', dir: 'asc', pageSize: 2, page: 2 }).expect(200);
+    const p1 = await ctx.agents.admin
+      .get(members(ctx.coop.slug))
+      .query({ sort: 'role', dir: 'asc', pageSize: 2, page: 1 })
+      .expect(200);
+    const p2 = await ctx.agents.admin
+      .get(members(ctx.coop.slug))
+      .query({ sort: 'role', dir: 'asc', pageSize: 2, page: 2 })
+      .expect(200);
     expect(p1.body.total).toBe(6);
     expect(p1.body.rows.map((r: { role: string }) => r.role)).toEqual(['admin', 'treasurer']);
     expect(p2.body.rows.map((r: { role: string }) => r.role)).toEqual(['brewer', 'brewer']);
@@ -61,7 +70,10 @@ describe('GET /api/coops/[coop]/members', () => {
   });
 
   it('refuses unknown filters and sorts with 422 naming the field', async () => {
-    const res = await ctx.agents.admin.get(members(ctx.coop.slug)).query({ role: 'chief', sort: 'password', q: 'x'.repeat(101) }).expect(422);
+    const res = await ctx.agents.admin
+      .get(members(ctx.coop.slug))
+      .query({ role: 'chief', sort: 'password', q: 'x'.repeat(101) })
+      .expect(422);
     expect(Object.keys(res.body.fields).sort()).toEqual(['q', 'role', 'sort']);
     expect(res.body.fields.role[0]).toMatch(/admin, treasurer, brewer, member/);
   });
@@ -117,11 +129,18 @@ describe('PATCH and DELETE /api/coops/[coop]/members/[id]', () => {
       [{ role: 'admin', userId: ctx.users.outsider.id }, ['userId']],
     ];
     for (const [body, fields] of cases) {
-      const res = await ctx.agents.admin.patch(url(id)).send(body as object).expect(422);
+      const res = await ctx.agents.admin
+        .patch(url(id))
+        .send(body as object)
+        .expect(422);
       expect(Object.keys(res.body.fields), JSON.stringify(body)).toEqual(fields);
       expect(res.body.fields[fields[0]!][0]).toEqual(expect.any(String));
     }
-    const notJson = await ctx.agents.admin.patch(url(id)).set('content-type', 'application/json').send('{role:').expect(400);
+    const notJson = await ctx.agents.admin
+      .patch(url(id))
+      .set('content-type', 'application/json')
+      .send('{role:')
+      .expect(400);
     expect(notJson.body.error).toMatch(/JSON/);
     expect(await membership(id)).toEqual({ role: 'treasurer', status: 'active' });
     expect(await countRows('audit_events', 'coop_id = $1', [ctx.coop.id])).toBe(auditBefore);
@@ -129,12 +148,18 @@ describe('PATCH and DELETE /api/coops/[coop]/members/[id]', () => {
 
   it('answers 404 for a membership of another co-op (matched by id AND co-op), changing nothing', async () => {
     const otherAdmin = ctx.users.outsider; // admin of ctx.other
-    const res = await ctx.agents.outsider.patch(`${members(ctx.other.slug)}/${ctx.users.member.membershipId}`).send({ role: 'admin' }).expect(404);
+    const res = await ctx.agents.outsider
+      .patch(`${members(ctx.other.slug)}/${ctx.users.member.membershipId}`)
+      .send({ role: 'admin' })
+      .expect(404);
     expect(res.body.error).toMatch(/not in this co-op/);
     await ctx.agents.outsider.delete(`${members(ctx.other.slug)}/${ctx.users.member.membershipId}`).expect(404);
     expect(await membership(ctx.users.member.membershipId!)).toEqual({ role: 'member', status: 'active' });
     expect(otherAdmin.membershipId).toBeDefined();
-    await ctx.agents.admin.patch(`${members(ctx.coop.slug)}/not-a-number`).send({ role: 'admin' }).expect(404);
+    await ctx.agents.admin
+      .patch(`${members(ctx.coop.slug)}/not-a-number`)
+      .send({ role: 'admin' })
+      .expect(404);
   });
 
   it('removes a member (audited); the removed person gets 404 on their next request', async () => {
@@ -149,7 +174,11 @@ describe('PATCH and DELETE /api/coops/[coop]/members/[id]', () => {
       `SELECT action, before, after FROM audit_events WHERE coop_id = $1 AND entity_id = $2 AND action = 'membership.remove'`,
       [ctx.coop.id, String(gone.membershipId)],
     );
-    expect(event).toMatchObject({ action: 'membership.remove', before: { email: gone.email, role: 'admin' }, after: null });
+    expect(event).toMatchObject({
+      action: 'membership.remove',
+      before: { email: gone.email, role: 'admin' },
+      after: null,
+    });
     await goneAgent.get(members(ctx.coop.slug)).expect(404);
   });
 });
@@ -162,7 +191,10 @@ describe('changes reach an already-signed-in person on their next request', () =
     const firstAgent = await signIn(first.email);
     const secondAgent = await signIn(second.email);
     await secondAgent.get(members(coop.slug)).expect(200);
-    await firstAgent.patch(`${members(coop.slug)}/${second.membershipId}`).send({ role: 'member' }).expect(200);
+    await firstAgent
+      .patch(`${members(coop.slug)}/${second.membershipId}`)
+      .send({ role: 'member' })
+      .expect(200);
     const res = await secondAgent.get(members(coop.slug)).expect(403);
     expect(res.body.error).toMatch(/role/);
     const mine = await secondAgent.get('/api/coops').expect(200);
@@ -176,10 +208,16 @@ describe('changes reach an already-signed-in person on their next request', () =
     const firstAgent = await signIn(first.email);
     const secondAgent = await signIn(second.email);
     await secondAgent.get(members(coop.slug)).expect(200);
-    await firstAgent.patch(`${members(coop.slug)}/${second.membershipId}`).send({ status: 'suspended' }).expect(200);
+    await firstAgent
+      .patch(`${members(coop.slug)}/${second.membershipId}`)
+      .send({ status: 'suspended' })
+      .expect(200);
     const res = await secondAgent.get(members(coop.slug)).expect(403);
     expect(res.body.error).toMatch(/suspended/);
-    await firstAgent.patch(`${members(coop.slug)}/${second.membershipId}`).send({ status: 'active' }).expect(200);
+    await firstAgent
+      .patch(`${members(coop.slug)}/${second.membershipId}`)
+      .send({ status: 'active' })
+      .expect(200);
     await secondAgent.get(members(coop.slug)).expect(200);
   });
 });
@@ -193,7 +231,11 @@ describe('the last active admin', () => {
     await makeUser({ coopId: coop.id, role: 'admin', status: 'suspended' });
     const agent = await signIn(admin.email);
     const url = `${members(coop.slug)}/${admin.membershipId}`;
-    for (const req of [agent.patch(url).send({ role: 'treasurer' }), agent.patch(url).send({ status: 'suspended' }), agent.delete(url)]) {
+    for (const req of [
+      agent.patch(url).send({ role: 'treasurer' }),
+      agent.patch(url).send({ status: 'suspended' }),
+      agent.delete(url),
+    ]) {
       const res = await req.expect(409);
       expect(res.body.error).toMatch(/at least one active admin/);
     }
@@ -222,8 +264,14 @@ describe('the last active admin', () => {
     const admin = await makeUser({ coopId: coop.id, role: 'admin' });
     const next = await makeUser({ coopId: coop.id, role: 'member' });
     const agent = await signIn(admin.email);
-    await agent.patch(`${members(coop.slug)}/${next.membershipId}`).send({ role: 'admin' }).expect(200);
-    await agent.patch(`${members(coop.slug)}/${admin.membershipId}`).send({ role: 'member' }).expect(200);
+    await agent
+      .patch(`${members(coop.slug)}/${next.membershipId}`)
+      .send({ role: 'admin' })
+      .expect(200);
+    await agent
+      .patch(`${members(coop.slug)}/${admin.membershipId}`)
+      .send({ role: 'member' })
+      .expect(200);
     await agent.get(members(coop.slug)).expect(403);
     expect(await membership(next.membershipId!)).toEqual({ role: 'admin', status: 'active' });
   });

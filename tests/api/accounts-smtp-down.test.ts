@@ -46,7 +46,10 @@ describe('invitation while the mail server is down', () => {
     // The job's try fails: it throws (pg-boss retries it later); the server surely never had it,
     // so its claim in the send ledger is withdrawn: still queued, nothing recorded as sent.
     await expect(deliver.deliverInvitationJob(coop.id, inv!.id, 'mail-invitation:by-hand')).rejects.toThrow();
-    const [row] = await sql<{ delivery: string; status: string }>('SELECT delivery, status FROM invitations WHERE id = $1', [inv!.id]);
+    const [row] = await sql<{ delivery: string; status: string }>(
+      'SELECT delivery, status FROM invitations WHERE id = $1',
+      [inv!.id],
+    );
     expect(row).toEqual({ delivery: 'queued', status: 'pending' });
     expect(await countRows('mail_sends', 'subject = $1', [`invitation.${inv!.id}`])).toBe(0);
 
@@ -64,10 +67,19 @@ describe('invitation while the mail server is down', () => {
     const info = await agent.get(`/api/invitations/${token}`).expect(200);
     expect(info.body).toMatchObject({ role: 'treasurer', coop: { slug: coop.slug } });
     // A job run again for the sent invitation sends nothing.
-    for (let i = 0; i < 50 && (await sql<{ d: string }>('SELECT delivery AS d FROM invitations WHERE id = $1', [inv!.id]))[0]!.d !== 'sent'; i++) await new Promise((r) => setTimeout(r, 100));
+    for (
+      let i = 0;
+      i < 50 &&
+      (await sql<{ d: string }>('SELECT delivery AS d FROM invitations WHERE id = $1', [inv!.id]))[0]!.d !== 'sent';
+      i++
+    )
+      await new Promise((r) => setTimeout(r, 100));
     await expect(deliver.deliverInvitationJob(coop.id, inv!.id, 'mail-invitation:by-hand')).resolves.toBe(false);
     // The delivered message is in the ledger under its Message-ID.
-    const [sent] = await sql<{ message_id: string; state: string }>('SELECT message_id, state FROM mail_sends WHERE subject = $1', [`invitation.${inv!.id}`]);
+    const [sent] = await sql<{ message_id: string; state: string }>(
+      'SELECT message_id, state FROM mail_sends WHERE subject = $1',
+      [`invitation.${inv!.id}`],
+    );
     expect(sent).toEqual({ message_id: mail.messageId, state: 'sent' });
   });
 });

@@ -22,16 +22,22 @@ describe('audit log API', () => {
   });
 
   it('filters by who, what and when', async () => {
-    const byWho = await ctx.agents.admin.get(`/api/coops/${ctx.coop.slug}/audit?actor=${ctx.users.brewer.id}`).expect(200);
+    const byWho = await ctx.agents.admin
+      .get(`/api/coops/${ctx.coop.slug}/audit?actor=${ctx.users.brewer.id}`)
+      .expect(200);
     expect(byWho.body.rows.map((r: { action: string }) => r.action)).toEqual(['batch.release']);
     const byWhat = await ctx.agents.admin.get(`/api/coops/${ctx.coop.slug}/audit?action=member`).expect(200);
     expect(byWhat.body.rows.map((r: { action: string }) => r.action)).toEqual(['member.role']);
-    const byWhen = await ctx.agents.admin.get(`/api/coops/${ctx.coop.slug}/audit?from=2026-11-10&to=2026-11-30`).expect(200);
+    const byWhen = await ctx.agents.admin
+      .get(`/api/coops/${ctx.coop.slug}/audit?from=2026-11-10&to=2026-11-30`)
+      .expect(200);
     expect(byWhen.body.rows.map((r: { action: string }) => r.action)).toEqual(['batch.release']);
   });
 
   it('rejects bad filters with the field and reason', async () => {
-    const res = await ctx.agents.admin.get(`/api/coops/${ctx.coop.slug}/audit?from=2026-12-05&to=2026-12-01&page=0`).expect(422);
+    const res = await ctx.agents.admin
+      .get(`/api/coops/${ctx.coop.slug}/audit?from=2026-12-05&to=2026-12-01&page=0`)
+      .expect(422);
     expect(Object.keys(res.body.fields).sort()).toEqual(['page', 'to']);
   });
 

@@ -16,7 +16,10 @@ for (const f of fs.readdirSync(matrixDir).filter((f) => f.endsWith('.ts') && f !
 }
 
 /** Every exported method of every route file, as "METHOD /api/path". */
-const routesOnDisk = () => routeFilesOnDisk().map((r) => `${r.method} ${r.path}`).sort();
+const routesOnDisk = () =>
+  routeFilesOnDisk()
+    .map((r) => `${r.method} ${r.path}`)
+    .sort();
 
 const key = (s: RouteSpec) => `${s.method} ${s.path}`;
 
@@ -24,8 +27,14 @@ describe('authorization matrix', () => {
   it('lists every route handler method on disk, and nothing that is not there', () => {
     const onDisk = routesOnDisk();
     const listed = specs.map(key).sort();
-    expect(onDisk.filter((r) => !listed.includes(r)), 'routes missing from tests/api/matrix').toEqual([]);
-    expect(listed.filter((r) => !onDisk.includes(r)), 'matrix entries without a route').toEqual([]);
+    expect(
+      onDisk.filter((r) => !listed.includes(r)),
+      'routes missing from tests/api/matrix',
+    ).toEqual([]);
+    expect(
+      listed.filter((r) => !onDisk.includes(r)),
+      'matrix entries without a route',
+    ).toEqual([]);
   });
 
   let ctx: Awaited<ReturnType<typeof makeCoopWithRoles>>;
@@ -34,9 +43,15 @@ describe('authorization matrix', () => {
   });
 
   const url = (s: RouteSpec, coopSlug: string) =>
-    s.path.replace(/\[([^\]]+)\]/g, (_m, name: string) => (name === 'coop' ? coopSlug : (s.params?.[name] ?? '999999999')));
+    s.path.replace(/\[([^\]]+)\]/g, (_m, name: string) =>
+      name === 'coop' ? coopSlug : (s.params?.[name] ?? '999999999'),
+    );
 
-  const send = (agent: ReturnType<typeof api> | Awaited<ReturnType<typeof makeCoopWithRoles>>['agents']['admin'], s: RouteSpec, coopSlug: string) => {
+  const send = (
+    agent: ReturnType<typeof api> | Awaited<ReturnType<typeof makeCoopWithRoles>>['agents']['admin'],
+    s: RouteSpec,
+    coopSlug: string,
+  ) => {
     const m = s.method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
     const req = agent[m](url(s, coopSlug));
     return s.body === undefined ? req : req.send(s.body as object);

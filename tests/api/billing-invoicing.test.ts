@@ -44,26 +44,85 @@ describe('monthly invoicing', () => {
     await sql(`UPDATE memberships SET status = 'suspended' WHERE id = $1`, [m('Di Dune')]); // suspended, nothing drawn → no invoice
     const base = { coopId: c.coop.id, tankId: c.tankId, unitPrice: 389, surchargeRate: 10 };
     // Ada, 10 gal for the road: 37.854 L. fuel 389 × 10 = 3890; surcharge 10 × 10 = 100; tax 24.4 × 10 = 244.
-    await insertDraw({ ...base, membershipId: m('Ada Archer'), liters: '37.854', occurredAt: dayIn(P, 3), use: 'road', taxRate: 24.4, fuelCents: 3890, surchargeCents: 100, taxCents: 244 });
+    await insertDraw({
+      ...base,
+      membershipId: m('Ada Archer'),
+      liters: '37.854',
+      occurredAt: dayIn(P, 3),
+      use: 'road',
+      taxRate: 24.4,
+      fuelCents: 3890,
+      surchargeCents: 100,
+      taxCents: 244,
+    });
     // Ada, 5.5 gal off-road: 20.820 L. fuel 389 × 5.5 = 2139.5 → 2140 (half away from zero); surcharge 55; no road tax.
-    await insertDraw({ ...base, membershipId: m('Ada Archer'), liters: '20.820', occurredAt: dayIn(P, 9), use: 'off-road', fuelCents: 2140, surchargeCents: 55 });
+    await insertDraw({
+      ...base,
+      membershipId: m('Ada Archer'),
+      liters: '20.820',
+      occurredAt: dayIn(P, 9),
+      use: 'off-road',
+      fuelCents: 2140,
+      surchargeCents: 55,
+    });
     // Cy, 8 gal road: 30.283 L. fuel 3112; surcharge 80; tax 24.4 × 8 = 195.2 → 195 … then reversed the next day.
-    const cyRoad = await insertDraw({ ...base, membershipId: m('Cy Cole'), liters: '30.283', occurredAt: dayIn(P, 5), taxRate: 24.4, fuelCents: 3112, surchargeCents: 80, taxCents: 195 });
-    await insertDraw({ ...base, membershipId: m('Cy Cole'), liters: '-30.283', occurredAt: dayIn(P, 6), taxRate: 24.4, fuelCents: -3112, surchargeCents: -80, taxCents: -195, reverses: cyRoad });
+    const cyRoad = await insertDraw({
+      ...base,
+      membershipId: m('Cy Cole'),
+      liters: '30.283',
+      occurredAt: dayIn(P, 5),
+      taxRate: 24.4,
+      fuelCents: 3112,
+      surchargeCents: 80,
+      taxCents: 195,
+    });
+    await insertDraw({
+      ...base,
+      membershipId: m('Cy Cole'),
+      liters: '-30.283',
+      occurredAt: dayIn(P, 6),
+      taxRate: 24.4,
+      fuelCents: -3112,
+      surchargeCents: -80,
+      taxCents: -195,
+      reverses: cyRoad,
+    });
     // Cy, 2 gal for heating: 7.571 L. fuel 778; surcharge 20.
-    await insertDraw({ ...base, membershipId: m('Cy Cole'), liters: '7.571', occurredAt: dayIn(P, 8), use: 'heating', fuelCents: 778, surchargeCents: 20 });
+    await insertDraw({
+      ...base,
+      membershipId: m('Cy Cole'),
+      liters: '7.571',
+      occurredAt: dayIn(P, 8),
+      use: 'heating',
+      fuelCents: 778,
+      surchargeCents: 20,
+    });
     // A draw of next month must not appear on this month's invoice.
-    await insertDraw({ ...base, membershipId: m('Ada Archer'), liters: '3.785', occurredAt: dayIn(NEXT, 2), fuelCents: 389, surchargeCents: 10 });
+    await insertDraw({
+      ...base,
+      membershipId: m('Ada Archer'),
+      liters: '3.785',
+      occurredAt: dayIn(NEXT, 2),
+      fuelCents: 389,
+      surchargeCents: 10,
+    });
     // Cy paid $10.00 cash in advance earlier; the treasurer holds it as credit.
-    const pay = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments`).send({ memberId: m('Cy Cole'), method: 'cash', amount: '10.00', receivedOn: `${monthsAgo(4)}-20` });
+    const pay = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/payments`)
+      .send({ memberId: m('Cy Cole'), method: 'cash', amount: '10.00', receivedOn: `${monthsAgo(4)}-20` });
     expect(pay.status, JSON.stringify(pay.body)).toBe(201);
-    await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments/${pay.body.id}/match`).send({ invoiceId: null }).expect(200);
+    await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/payments/${pay.body.id}/match`)
+      .send({ invoiceId: null })
+      .expect(200);
   });
 
   it('builds one draft per member with draws or dues, with lines and totals as computed by hand', async () => {
     const run = await runMonth(c.treasurerAgent, slug, P);
     expect(run.drafts).toBe(4); // Ada, Ben, Cy, Zed (the treasurer pays dues too); not the suspended Di
-    const list = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices?period=${P}&sort=member&dir=asc`).expect(200);
+    const list = await c.treasurerAgent
+      .get(`/api/coops/${slug}/billing/invoices?period=${P}&sort=member&dir=asc`)
+      .expect(200);
     const byName = Object.fromEntries(list.body.rows.map((r: { memberName: string }) => [r.memberName, r]));
     expect(Object.keys(byName).sort()).toEqual(['Ada Archer', 'Ben Brook', 'Cy Cole', 'Zed Treasurer']);
     // Ada: fuel 3890 + 2140 = 6030, dues 1500, surcharge 100 + 55 = 155, road tax 244 → 6030 + 1500 + 155 + 244 = 7929.
@@ -81,22 +140,37 @@ describe('monthly invoicing', () => {
     }
     // Every sort the list offers works on the server (a production build minifies the model's alias).
     for (const sort of ['number', 'member', 'total', 'outstanding', 'status', 'period']) {
-      const sorted = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices?period=${P}&sort=${sort}&dir=desc`);
+      const sorted = await c.treasurerAgent.get(
+        `/api/coops/${slug}/billing/invoices?period=${P}&sort=${sort}&dir=desc`,
+      );
       expect(sorted.status, `sort=${sort}`).toBe(200);
       expect(sorted.body.rows).toHaveLength(4);
     }
-    const byTotal = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices?period=${P}&sort=total&dir=desc`).expect(200);
+    const byTotal = await c.treasurerAgent
+      .get(`/api/coops/${slug}/billing/invoices?period=${P}&sort=total&dir=desc`)
+      .expect(200);
     expect(byTotal.body.rows.map((r: { totalCents: number }) => r.totalCents)).toEqual([7929, 1500, 1500, 1298]);
 
     const ada = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices/${ids['Ada Archer']}`).expect(200);
     expect(ada.body.lines.map((l: { kind: string; amountCents: number }) => [l.kind, l.amountCents])).toEqual([
-      ['draw', 3890], ['draw', 2140], ['dues', 1500], ['surcharge', 155], ['road-tax', 244],
+      ['draw', 3890],
+      ['draw', 2140],
+      ['dues', 1500],
+      ['surcharge', 155],
+      ['road-tax', 244],
     ]);
     expect(ada.body.lines[0].quantityLiters).toBe(37.854);
-    expect(ada.body.lines.reduce((s: number, l: { amountCents: number }) => s + l.amountCents, 0)).toBe(ada.body.totalCents);
+    expect(ada.body.lines.reduce((s: number, l: { amountCents: number }) => s + l.amountCents, 0)).toBe(
+      ada.body.totalCents,
+    );
     const cy = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices/${ids['Cy Cole']}`).expect(200);
     expect(cy.body.lines.map((l: { kind: string; amountCents: number }) => [l.kind, l.amountCents])).toEqual([
-      ['draw', 3112], ['draw-reversal', -3112], ['draw', 778], ['dues', 1500], ['surcharge', 20], ['credit', -1000],
+      ['draw', 3112],
+      ['draw-reversal', -3112],
+      ['draw', 778],
+      ['dues', 1500],
+      ['surcharge', 20],
+      ['credit', -1000],
     ]);
     expect(cy.body.lines[1].quantityLiters).toBe(-30.283);
   });
@@ -108,7 +182,10 @@ describe('monthly invoicing', () => {
     const rows = await invoicesOf(c.coop.id, P);
     expect(rows).toHaveLength(4);
     expect(await countRows('invoice_lines', 'coop_id = $1', [c.coop.id])).toBe(linesBefore);
-    const dup = await sql(`SELECT draw_id FROM invoice_lines WHERE coop_id = $1 AND draw_id IS NOT NULL GROUP BY draw_id HAVING count(*) > 1`, [c.coop.id]);
+    const dup = await sql(
+      `SELECT draw_id FROM invoice_lines WHERE coop_id = $1 AND draw_id IS NOT NULL GROUP BY draw_id HAVING count(*) > 1`,
+      [c.coop.id],
+    );
     expect(dup).toEqual([]);
     ids['Ada Archer'] = rows.find((r) => r.membership_id === c.members['Ada Archer']!.membershipId)!.id;
     ids['Ben Brook'] = rows.find((r) => r.membership_id === c.members['Ben Brook']!.membershipId)!.id;
@@ -118,20 +195,33 @@ describe('monthly invoicing', () => {
     const out = await issueMonth(c.treasurerAgent, slug, P);
     expect(out).toEqual({ issued: 4, firstNumber: 'INV-000001', lastNumber: 'INV-000004' });
     const rows = await invoicesOf(c.coop.id, P);
-    expect(rows.map((r) => [r.number, r.status])).toEqual([[1, 'issued'], [2, 'issued'], [3, 'issued'], [4, 'issued']]);
+    expect(rows.map((r) => [r.number, r.status])).toEqual([
+      [1, 'issued'],
+      [2, 'issued'],
+      [3, 'issued'],
+      [4, 'issued'],
+    ]);
     expect(rows[0]!.membership_id).toBe(c.members['Ada Archer']!.membershipId);
     // Cy's credit was used: the ledger sums to 0 (+1000 overpayment, −1000 applied).
-    const [credit] = await sql<{ s: string }>(`SELECT COALESCE(SUM(amount_cents), 0) AS s FROM member_credits WHERE membership_id = $1`, [c.members['Cy Cole']!.membershipId]);
+    const [credit] = await sql<{ s: string }>(
+      `SELECT COALESCE(SUM(amount_cents), 0) AS s FROM member_credits WHERE membership_id = $1`,
+      [c.members['Cy Cole']!.membershipId],
+    );
     expect(Number(credit!.s)).toBe(0);
     // Issuing again finds nothing to issue.
     const again = await c.treasurerAgent.post(`/api/coops/${slug}/billing/periods/${P}/issue`).send({});
     expect(again.status).toBe(409);
 
     const mail = await waitForMail(c.members['Ada Archer']!.email, (m) => m.subject.includes('INV-000001'));
-    expect(mail.attachments).toEqual([expect.objectContaining({ filename: `${slug}-INV-000001.pdf`, contentType: 'application/pdf' })]);
+    expect(mail.attachments).toEqual([
+      expect.objectContaining({ filename: `${slug}-INV-000001.pdf`, contentType: 'application/pdf' }),
+    ]);
     expect(mail.text).toContain('$79.29');
     for (let i = 0; i < 50; i++) {
-      const [s] = await sql<{ n: string }>(`SELECT count(*) AS n FROM invoices WHERE coop_id = $1 AND email_status = 'sent'`, [c.coop.id]);
+      const [s] = await sql<{ n: string }>(
+        `SELECT count(*) AS n FROM invoices WHERE coop_id = $1 AND email_status = 'sent'`,
+        [c.coop.id],
+      );
       if (Number(s!.n) === 4) break;
       await new Promise((r) => setTimeout(r, 200));
     }
@@ -143,9 +233,21 @@ describe('monthly invoicing', () => {
     expect(run.totalMembers).toBe(0);
     expect(await invoicesOf(c.coop.id, P)).toHaveLength(4);
     // Recorded late: Ben drew 1 gal on the 28th of the already-invoiced month (3.785 L, fuel 389, surcharge 10).
-    await insertDraw({ coopId: c.coop.id, tankId: c.tankId, membershipId: c.members['Ben Brook']!.membershipId, liters: '3.785', occurredAt: dayIn(P, 28), unitPrice: 389, surchargeRate: 10, fuelCents: 389, surchargeCents: 10 });
+    await insertDraw({
+      coopId: c.coop.id,
+      tankId: c.tankId,
+      membershipId: c.members['Ben Brook']!.membershipId,
+      liters: '3.785',
+      occurredAt: dayIn(P, 28),
+      unitPrice: 389,
+      surchargeRate: 10,
+      fuelCents: 389,
+      surchargeCents: 10,
+    });
     await runMonth(c.treasurerAgent, slug, NEXT);
-    const next = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices?period=${NEXT}&sort=member&dir=asc`).expect(200);
+    const next = await c.treasurerAgent
+      .get(`/api/coops/${slug}/billing/invoices?period=${NEXT}&sort=member&dir=asc`)
+      .expect(200);
     const ben = next.body.rows.find((r: { memberName: string }) => r.memberName === 'Ben Brook');
     // Ben next month: late draw 389 + surcharge 10 + dues 1500 = 1899.
     expect(ben.totalCents).toBe(1899);
@@ -155,20 +257,45 @@ describe('monthly invoicing', () => {
     // A line can never be filed under another co-op than its invoice's (database check).
     const [stranger] = await sql<{ id: number }>(`SELECT id FROM coops WHERE id <> $1 LIMIT 1`, [c.coop.id]);
     await expect(
-      sql(`INSERT INTO invoice_lines (coop_id, invoice_id, sort_key, kind, description, amount_cents) VALUES ($1, $2, 1, 'adjustment', 'x', 1)`, [stranger!.id, ada.id]),
+      sql(
+        `INSERT INTO invoice_lines (coop_id, invoice_id, sort_key, kind, description, amount_cents) VALUES ($1, $2, 1, 'adjustment', 'x', 1)`,
+        [stranger!.id, ada.id],
+      ),
     ).rejects.toThrow(/its invoice's co-op/);
   });
 
   it('the PDF names the member, the lines and the total; members download only their own', async () => {
-    const res = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices/${ids['Ada Archer']}/pdf`).buffer(true).parse(binary).expect(200);
+    const res = await c.treasurerAgent
+      .get(`/api/coops/${slug}/billing/invoices/${ids['Ada Archer']}/pdf`)
+      .buffer(true)
+      .parse(binary)
+      .expect(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     expect(res.headers['content-disposition']).toBe(`attachment; filename="${slug}-INV-000001.pdf"`);
     const text = await pdfText(res.body as Buffer);
-    for (const s of ['Ada Archer', 'INV-000001', 'Membership dues', 'Fuel drawn, road use', 'Fuel drawn, off-road use', 'Road-fuel tax', '10.00 gal', '5.50 gal', '$38.90', '$21.40', '$2.44', '$79.29', 'How to pay']) {
+    for (const s of [
+      'Ada Archer',
+      'INV-000001',
+      'Membership dues',
+      'Fuel drawn, road use',
+      'Fuel drawn, off-road use',
+      'Road-fuel tax',
+      '10.00 gal',
+      '5.50 gal',
+      '$38.90',
+      '$21.40',
+      '$2.44',
+      '$79.29',
+      'How to pay',
+    ]) {
       expect(text).toContain(s);
     }
     const ada = await signIn(c.members['Ada Archer']!.email);
-    const own = await ada.get(`/api/coops/${slug}/invoices/${ids['Ada Archer']}/pdf`).buffer(true).parse(binary).expect(200);
+    const own = await ada
+      .get(`/api/coops/${slug}/invoices/${ids['Ada Archer']}/pdf`)
+      .buffer(true)
+      .parse(binary)
+      .expect(200);
     expect((own.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');
     await ada.get(`/api/coops/${slug}/invoices/${ids['Ben Brook']}/pdf`).expect(404);
     await ada.get(`/api/coops/${slug}/invoices/${ids['Ben Brook']}`).expect(404);
@@ -191,14 +318,26 @@ describe('monthly invoicing', () => {
     // Exactly one more message, carrying the ledger's Message-ID of the invoice's second send.
     const mails = await caughtMail(ben);
     expect(mails).toHaveLength(before + 1);
-    const ledger = await sql<{ generation: number; state: string; message_id: string }>(`SELECT generation, state, message_id FROM mail_sends WHERE subject = $1 ORDER BY generation`, [`invoice.${id}`]);
-    expect(ledger.map((r) => [r.generation, r.state])).toEqual([[1, 'sent'], [2, 'sent']]);
+    const ledger = await sql<{ generation: number; state: string; message_id: string }>(
+      `SELECT generation, state, message_id FROM mail_sends WHERE subject = $1 ORDER BY generation`,
+      [`invoice.${id}`],
+    );
+    expect(ledger.map((r) => [r.generation, r.state])).toEqual([
+      [1, 'sent'],
+      [2, 'sent'],
+    ]);
     expect(mails[0]!.messageId).toBe(ledger[1]!.message_id);
-    const audited = await sql<{ after: { emailStatus: string } }>(`SELECT after FROM audit_events WHERE coop_id = $1 AND action = 'invoice.email' AND entity_id = $2`, [c.coop.id, String(id)]);
+    const audited = await sql<{ after: { emailStatus: string } }>(
+      `SELECT after FROM audit_events WHERE coop_id = $1 AND action = 'invoice.email' AND entity_id = $2`,
+      [c.coop.id, String(id)],
+    );
     expect(audited.map((a) => a.after.emailStatus)).toEqual(['queued']);
     // A draft is not e-mailed; another co-op's invoice is not found.
-    const draft = await sql<{ id: number }>(`SELECT id FROM invoices WHERE coop_id = $1 AND status = 'draft' LIMIT 1`, [c.coop.id]);
-    if (draft[0]) await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${draft[0].id}/send`).send({}).expect(404);
+    const draft = await sql<{ id: number }>(`SELECT id FROM invoices WHERE coop_id = $1 AND status = 'draft' LIMIT 1`, [
+      c.coop.id,
+    ]);
+    if (draft[0])
+      await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${draft[0].id}/send`).send({}).expect(404);
   });
 
   it('housekeeping queues a stale "queued" invoice once, and never a second job beside a live one', async () => {
@@ -208,13 +347,26 @@ describe('monthly invoicing', () => {
     const { enqueue } = await import('@/lib/jobs');
     const [a, b] = [ids['Ada Archer']!, ids['Ben Brook']!];
     await mailSettled();
-    const jobs = (id: number) => countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1 AND state IN ('created', 'retry', 'active')`, [`invoice.${id}`]);
-    const everJobs = (id: number) => countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1`, [`invoice.${id}`]);
+    const jobs = (id: number) =>
+      countRows(
+        'pgboss.job',
+        `name = 'mail-invoice' AND singleton_key = $1 AND state IN ('created', 'retry', 'active')`,
+        [`invoice.${id}`],
+      );
+    const everJobs = (id: number) =>
+      countRows('pgboss.job', `name = 'mail-invoice' AND singleton_key = $1`, [`invoice.${id}`]);
     const benBefore = await everJobs(b);
     // Both left "queued" for 5 minutes (a web process died, or a large send is still on its way);
     // Ada's still has a live job (held back an hour, so the test worker leaves it waiting).
-    await sql(`UPDATE invoices SET email_status = 'queued', updated_at = now() - interval '5 minutes' WHERE id = ANY($1::int[])`, [[a, b]]);
-    await enqueue('mail-invoice', { coopId: c.coop.id, invoiceId: a }, { singletonKey: `invoice.${a}`, startAfter: 3600 });
+    await sql(
+      `UPDATE invoices SET email_status = 'queued', updated_at = now() - interval '5 minutes' WHERE id = ANY($1::int[])`,
+      [[a, b]],
+    );
+    await enqueue(
+      'mail-invoice',
+      { coopId: c.coop.id, invoiceId: a },
+      { singletonKey: `invoice.${a}`, startAfter: 3600 },
+    );
     try {
       expect(await housekeeping()).toBeGreaterThanOrEqual(1); // Ben's (other files' stale invoices may count too)
       expect(await jobs(a)).toBe(1);
@@ -223,36 +375,58 @@ describe('monthly invoicing', () => {
       expect(await jobs(a)).toBe(1);
       expect(await everJobs(b)).toBe(benBefore + 1);
     } finally {
-      await sql(`DELETE FROM pgboss.job WHERE name = 'mail-invoice' AND singleton_key = $1 AND state = 'created'`, [`invoice.${a}`]);
+      await sql(`DELETE FROM pgboss.job WHERE name = 'mail-invoice' AND singleton_key = $1 AND state = 'created'`, [
+        `invoice.${a}`,
+      ]);
       await sql(`UPDATE invoices SET email_status = 'sent' WHERE id = $1`, [a]);
     }
     await mailSettled();
-    expect((await sql<{ email_status: string }>(`SELECT email_status FROM invoices WHERE id = $1`, [b]))[0]!.email_status).toBe('sent');
+    expect(
+      (await sql<{ email_status: string }>(`SELECT email_status FROM invoices WHERE id = $1`, [b]))[0]!.email_status,
+    ).toBe('sent');
   });
 
   it('voids by credit note with the next number; the member can be invoiced again without gaps', async () => {
-    const bad = await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${ids['Ben Brook']}/void`).send({ reason: '' });
+    const bad = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/invoices/${ids['Ben Brook']}/void`)
+      .send({ reason: '' });
     expect(bad.status).toBe(422);
     expect(bad.body.fields.reason).toBeDefined();
     expect(await countRows('invoices', `coop_id = $1 AND kind = 'credit-note'`, [c.coop.id])).toBe(0);
 
     // NEXT's four invoices are still drafts, so the counter stands at 4: the credit note is CN-000005.
-    const res = await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${ids['Ben Brook']}/void`).send({ reason: 'Dues were waived for this month' }).expect(200);
+    const res = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/invoices/${ids['Ben Brook']}/void`)
+      .send({ reason: 'Dues were waived for this month' })
+      .expect(200);
     expect(res.body.creditNoteLabel).toBe('CN-000005');
     const cn = await c.treasurerAgent.get(`/api/coops/${slug}/billing/invoices/${res.body.creditNoteId}`).expect(200);
     expect(cn.body.totalCents).toBe(-1500);
     expect(cn.body.lines.map((l: { amountCents: number }) => l.amountCents)).toEqual([-1500]);
-    const again = await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${ids['Ben Brook']}/void`).send({ reason: 'twice' });
+    const again = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/invoices/${ids['Ben Brook']}/void`)
+      .send({ reason: 'twice' });
     expect(again.status).toBe(409);
     // Issued invoices are never deleted: the database refuses it outright.
-    await expect(sql(`DELETE FROM invoices WHERE id = $1`, [ids['Ada Archer']])).rejects.toThrow(/never deleted|cannot change/);
-    await expect(sql(`UPDATE invoice_lines SET amount_cents = 1 WHERE invoice_id = $1`, [ids['Ada Archer']])).rejects.toThrow(/cannot change/);
-    await expect(sql(`UPDATE invoices SET total_cents = 1 WHERE id = $1`, [ids['Ada Archer']])).rejects.toThrow(/cannot be edited/);
+    await expect(sql(`DELETE FROM invoices WHERE id = $1`, [ids['Ada Archer']])).rejects.toThrow(
+      /never deleted|cannot change/,
+    );
+    await expect(
+      sql(`UPDATE invoice_lines SET amount_cents = 1 WHERE invoice_id = $1`, [ids['Ada Archer']]),
+    ).rejects.toThrow(/cannot change/);
+    await expect(sql(`UPDATE invoices SET total_cents = 1 WHERE id = $1`, [ids['Ada Archer']])).rejects.toThrow(
+      /cannot be edited/,
+    );
 
     await runMonth(c.treasurerAgent, slug, P, [c.members['Ben Brook']!.membershipId]);
     const out = await issueMonth(c.treasurerAgent, slug, P);
     expect(out.firstNumber).toBe('INV-000006');
-    const numbers = (await sql<{ number: number }>(`SELECT number FROM invoices WHERE coop_id = $1 AND number IS NOT NULL ORDER BY number`, [c.coop.id])).map((r) => r.number);
+    const numbers = (
+      await sql<{ number: number }>(
+        `SELECT number FROM invoices WHERE coop_id = $1 AND number IS NOT NULL ORDER BY number`,
+        [c.coop.id],
+      )
+    ).map((r) => r.number);
     expect(numbers).toEqual([1, 2, 3, 4, 5, 6]);
   });
 
@@ -260,8 +434,13 @@ describe('monthly invoicing', () => {
     const res = await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${P}/export?kind=invoices`).expect(200);
     expect(res.headers['content-type']).toBe('text/csv; charset=utf-8');
     expect(res.headers['content-disposition']).toBe(`attachment; filename="${slug}-${P}-invoices.csv"`);
-    const lines = res.text.replace(/^\uFEFF/, '').trim().split('\r\n');
-    expect(lines[0]).toBe('number,type,month,member,email,status,issued_on,due_on,total,paid,outstanding,cancels,email_status');
+    const lines = res.text
+      .replace(/^\uFEFF/, '')
+      .trim()
+      .split('\r\n');
+    expect(lines[0]).toBe(
+      'number,type,month,member,email,status,issued_on,due_on,total,paid,outstanding,cancels,email_status',
+    );
     expect(lines.find((l) => l.startsWith('INV-000001,'))).toContain(',79.29,0.00,79.29,');
     expect(lines.find((l) => l.startsWith('CN-000005,'))).toContain(',-15.00,');
     expect(lines).toHaveLength(1 + 6); // 5 invoices (one void) + 1 credit note
@@ -312,7 +491,9 @@ describe('invoicing runs: bad input, concurrency and a crash in the middle', () 
       [c.coop.id, `${month}-01`],
     );
     // Issuing is refused while a run looks alive … (the stale one counts until replaced)
-    expect((await c.treasurerAgent.post(`/api/coops/${slug}/billing/periods/${month}/issue`).send({})).status).toBe(409);
+    expect((await c.treasurerAgent.post(`/api/coops/${slug}/billing/periods/${month}/issue`).send({})).status).toBe(
+      409,
+    );
     // … and starting the run again replaces the dead one and finishes the month.
     const run = await runMonth(c.treasurerAgent, slug, month);
     expect(run.drafts).toBe(4); // Hal (rebuilt, not duplicated), Ivy, Jo, Zed
@@ -330,7 +511,10 @@ describe('invoicing runs: bad input, concurrency and a crash in the middle', () 
       `INSERT INTO billing_runs (coop_id, period, status, total_members) VALUES ($1, $2::date, 'running', 2) RETURNING id`,
       [c.coop.id, `${month}-01`],
     );
-    const res = await c.treasurerAgent.post(`/api/coops/${c.coop.slug}/billing/runs`).send({ period: month }).expect(200);
+    const res = await c.treasurerAgent
+      .post(`/api/coops/${c.coop.slug}/billing/runs`)
+      .send({ period: month })
+      .expect(200);
     expect(res.body).toMatchObject({ started: false, run: { id: live!.id, status: 'running' } });
     expect(await countRows('billing_runs', 'coop_id = $1', [c.coop.id])).toBe(1);
   });

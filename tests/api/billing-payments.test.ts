@@ -4,7 +4,17 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { api, countRows, signIn, sql } from '../support/api';
 import {
-  clearHeld, fakeCharges, heldEvents, holdWebhooks, invoicesOf, issueMonth, makeBillingCoop, monthsAgo, runMonth, setOutage, signPayload,
+  clearHeld,
+  fakeCharges,
+  heldEvents,
+  holdWebhooks,
+  invoicesOf,
+  issueMonth,
+  makeBillingCoop,
+  monthsAgo,
+  runMonth,
+  setOutage,
+  signPayload,
 } from '../support/billing';
 
 const P = monthsAgo(1);
@@ -18,9 +28,17 @@ describe('paying invoices', () => {
   let slug: string;
   const inv: Record<string, number> = {};
   const agents: Record<string, Agent> = {};
-  const chargesFor = async (invoiceId: number) => (await fakeCharges()).filter((ch) => ch.metadata?.invoice_id === String(invoiceId));
-  const pay = (name: string, card = 'test-approved', invoiceId = inv[name]!) => agents[name]!.post(`/api/coops/${slug}/invoices/${invoiceId}/pay`).send({ card });
-  const invoice = async (id: number) => (await sql<{ status: string; paid_cents: string; total_cents: string }>(`SELECT status, paid_cents, total_cents FROM invoices WHERE id = $1`, [id]))[0]!;
+  const chargesFor = async (invoiceId: number) =>
+    (await fakeCharges()).filter((ch) => ch.metadata?.invoice_id === String(invoiceId));
+  const pay = (name: string, card = 'test-approved', invoiceId = inv[name]!) =>
+    agents[name]!.post(`/api/coops/${slug}/invoices/${invoiceId}/pay`).send({ card });
+  const invoice = async (id: number) =>
+    (
+      await sql<{ status: string; paid_cents: string; total_cents: string }>(
+        `SELECT status, paid_cents, total_cents FROM invoices WHERE id = $1`,
+        [id],
+      )
+    )[0]!;
   const paymentsOf = (id: number) => countRows('payments', 'invoice_id = $1', [id]);
 
   beforeAll(async () => {
@@ -48,16 +66,28 @@ describe('paying invoices', () => {
     expect(res.body.status).toBe('succeeded');
     expect(res.body.invoice).toMatchObject({ status: 'paid', paidCents: 2000, outstandingCents: 0 });
     const [attempt] = await sql<{ id: number; idempotency_key: string; status: string; stripe_charge_id: string }>(
-      `SELECT id, idempotency_key, status, stripe_charge_id FROM payment_attempts WHERE invoice_id = $1`, [inv['Pat Payer']],
+      `SELECT id, idempotency_key, status, stripe_charge_id FROM payment_attempts WHERE invoice_id = $1`,
+      [inv['Pat Payer']],
     );
     expect(attempt!.idempotency_key).toMatch(new RegExp(`^payment-attempt-${attempt!.id}-[0-9a-f]{12}$`));
     const charges = await chargesFor(inv['Pat Payer']!);
     expect(charges).toHaveLength(1);
-    expect(charges[0]).toMatchObject({ id: attempt!.stripe_charge_id, amount: 2000, idempotencyKey: attempt!.idempotency_key });
+    expect(charges[0]).toMatchObject({
+      id: attempt!.stripe_charge_id,
+      amount: 2000,
+      idempotencyKey: attempt!.idempotency_key,
+    });
     expect(await paymentsOf(inv['Pat Payer']!)).toBe(1);
     // The fake's own charge.succeeded webhook arrives too and changes nothing.
-    for (let i = 0; i < 50 && (await countRows('payment_webhook_events', 'object_id = $1', [attempt!.stripe_charge_id])) === 0; i++) await new Promise((r) => setTimeout(r, 100));
-    const [ev] = await sql<{ outcome: string }>(`SELECT outcome FROM payment_webhook_events WHERE object_id = $1`, [attempt!.stripe_charge_id]);
+    for (
+      let i = 0;
+      i < 50 && (await countRows('payment_webhook_events', 'object_id = $1', [attempt!.stripe_charge_id])) === 0;
+      i++
+    )
+      await new Promise((r) => setTimeout(r, 100));
+    const [ev] = await sql<{ outcome: string }>(`SELECT outcome FROM payment_webhook_events WHERE object_id = $1`, [
+      attempt!.stripe_charge_id,
+    ]);
     expect(ev!.outcome).toBe('no-change');
     expect(await paymentsOf(inv['Pat Payer']!)).toBe(1);
     const again = await pay('Pat Payer');
@@ -102,7 +132,10 @@ describe('paying invoices', () => {
     expect(await invoice(inv['Uma Upset']!)).toMatchObject({ status: 'issued', paid_cents: '0' });
     expect(await paymentsOf(inv['Uma Upset']!)).toBe(0);
     expect(await chargesFor(inv['Uma Upset']!)).toHaveLength(0);
-    const [open] = await sql<{ status: string; lease_until: Date | null }>(`SELECT status, lease_until FROM payment_attempts WHERE invoice_id = $1`, [inv['Uma Upset']]);
+    const [open] = await sql<{ status: string; lease_until: Date | null }>(
+      `SELECT status, lease_until FROM payment_attempts WHERE invoice_id = $1`,
+      [inv['Uma Upset']],
+    );
     expect(open).toMatchObject({ status: 'pending', lease_until: null });
 
     await setOutage(false);
@@ -122,7 +155,9 @@ describe('paying invoices', () => {
     expect(res.status).toBe(503);
     expect(await invoice(inv['Tam Twice']!)).toMatchObject({ status: 'issued', paid_cents: '0' });
     expect(await chargesFor(inv['Tam Twice']!)).toHaveLength(1); // the card WAS charged
-    const events = (await heldEvents()).filter((e) => e.type === 'charge.succeeded' && e.payload.includes(`"invoice_id": "${inv['Tam Twice']}"`));
+    const events = (await heldEvents()).filter(
+      (e) => e.type === 'charge.succeeded' && e.payload.includes(`"invoice_id": "${inv['Tam Twice']}"`),
+    );
     expect(events).toHaveLength(1);
     const succeeded = events[0]!;
 
@@ -133,7 +168,12 @@ describe('paying invoices', () => {
     failed.data.object.status = 'failed';
     failed.data.object.paid = false;
     const failedPayload = JSON.stringify(failed);
-    const send = (payload: string, signature: string) => api().post('/api/payments/webhook').set('content-type', 'application/json').set('stripe-signature', signature).send(payload);
+    const send = (payload: string, signature: string) =>
+      api()
+        .post('/api/payments/webhook')
+        .set('content-type', 'application/json')
+        .set('stripe-signature', signature)
+        .send(payload);
     expect((await send(failedPayload, signPayload(failedPayload))).status).toBe(200);
     // … then the success, ten times at once, then the failure again.
     const tries = await Promise.all(Array.from({ length: 10 }, () => send(succeeded.payload, succeeded.signature)));
@@ -143,7 +183,9 @@ describe('paying invoices', () => {
 
     expect(await paymentsOf(inv['Tam Twice']!)).toBe(1);
     expect(await invoice(inv['Tam Twice']!)).toMatchObject({ status: 'paid', paid_cents: '2000' });
-    const [attempt] = await sql<{ status: string }>(`SELECT status FROM payment_attempts WHERE invoice_id = $1`, [inv['Tam Twice']]);
+    const [attempt] = await sql<{ status: string }>(`SELECT status FROM payment_attempts WHERE invoice_id = $1`, [
+      inv['Tam Twice'],
+    ]);
     expect(attempt!.status).toBe('succeeded');
     expect(await countRows('payment_webhook_events', 'stripe_event_id IN ($1, $2)', [succeeded.id, failed.id])).toBe(2);
     // The member trying again now is told it is paid; still one charge.
@@ -155,8 +197,21 @@ describe('paying invoices', () => {
 
   it('a webhook with a bad signature is refused with 400 and changes nothing', async () => {
     const payload = JSON.stringify({
-      id: 'evt_forged_1', object: 'event', type: 'charge.succeeded',
-      data: { object: { id: 'ch_forged', object: 'charge', amount: 2000, currency: 'usd', status: 'succeeded', paid: true, metadata: { coop_id: String(c.coop.id), invoice_id: String(inv['Wyn Wrong']), payment_attempt_id: '1' }, refunds: { data: [] } } },
+      id: 'evt_forged_1',
+      object: 'event',
+      type: 'charge.succeeded',
+      data: {
+        object: {
+          id: 'ch_forged',
+          object: 'charge',
+          amount: 2000,
+          currency: 'usd',
+          status: 'succeeded',
+          paid: true,
+          metadata: { coop_id: String(c.coop.id), invoice_id: String(inv['Wyn Wrong']), payment_attempt_id: '1' },
+          refunds: { data: [] },
+        },
+      },
     });
     const before = await countRows('payment_webhook_events');
     const payments = await countRows('payments');
@@ -180,7 +235,10 @@ describe('paying invoices', () => {
     const bad = await pay('Wyn Wrong', '4242424242424242');
     expect(bad.status).toBe(422);
     expect(bad.body.fields.card).toBeDefined();
-    const smuggled = await agents['Wyn Wrong']!.post(`/api/coops/${slug}/invoices/${inv['Wyn Wrong']}/pay`).send({ card: 'test-approved', amount: 1 });
+    const smuggled = await agents['Wyn Wrong']!.post(`/api/coops/${slug}/invoices/${inv['Wyn Wrong']}/pay`).send({
+      card: 'test-approved',
+      amount: 1,
+    });
     expect(smuggled.status).toBe(422);
     expect((await pay('Wyn Wrong', 'test-approved', inv['Vic Vault'])).status).toBe(404);
     expect(await countRows('payment_attempts', 'invoice_id IN ($1, $2)', [inv['Wyn Wrong'], inv['Vic Vault']])).toBe(0);
@@ -208,64 +266,137 @@ describe('paying invoices', () => {
     expect(await countRows('payments', 'coop_id = $1', [c.coop.id])).toBe(before);
 
     // A $12.00 cheque: partly paid, $8.00 outstanding.
-    const cheque = await record({ memberId: m, invoiceId: inv['Vic Vault'], method: 'cheque', amount: '12.00', receivedOn: `${P}-12`, reference: 'Cheque 1042' });
+    const cheque = await record({
+      memberId: m,
+      invoiceId: inv['Vic Vault'],
+      method: 'cheque',
+      amount: '12.00',
+      receivedOn: `${P}-12`,
+      reference: 'Cheque 1042',
+    });
     expect(cheque.status, JSON.stringify(cheque.body)).toBe(201);
     expect(cheque.body).toMatchObject({ appliedCents: 1200, creditedCents: 0, unallocatedCents: 0 });
     expect(await invoice(inv['Vic Vault']!)).toMatchObject({ status: 'partly-paid', paid_cents: '1200' });
     // $10.00 cash: $8.00 settles the invoice, $2.00 is held as credit.
-    const cash = await record({ memberId: m, invoiceId: inv['Vic Vault'], method: 'cash', amount: '10', receivedOn: `${P}-20` });
+    const cash = await record({
+      memberId: m,
+      invoiceId: inv['Vic Vault'],
+      method: 'cash',
+      amount: '10',
+      receivedOn: `${P}-20`,
+    });
     expect(cash.body).toMatchObject({ appliedCents: 800, creditedCents: 200 });
     expect(await invoice(inv['Vic Vault']!)).toMatchObject({ status: 'paid', paid_cents: '2000' });
     const vic = await signIn(c.members['Vic Vault']!.email);
-    expect((await vic.get(`/api/coops/${slug}/invoices`).expect(200)).body.balance).toEqual({ outstandingCents: 0, creditCents: 200, unallocatedCents: 0 });
+    expect((await vic.get(`/api/coops/${slug}/invoices`).expect(200)).body.balance).toEqual({
+      outstandingCents: 0,
+      creditCents: 200,
+      unallocatedCents: 0,
+    });
     // Next month: dues 2000 − credit 200 = 1800.
     await runMonth(c.treasurerAgent, slug, NOW, [m]);
     const next = (await invoicesOf(c.coop.id, NOW)).find((r) => r.membership_id === m)!;
     expect(Number(next.total_cents)).toBe(1800);
     await issueMonth(c.treasurerAgent, slug, NOW);
-    expect((await vic.get(`/api/coops/${slug}/invoices`).expect(200)).body.balance).toEqual({ outstandingCents: 1800, creditCents: 0, unallocatedCents: 0 });
+    expect((await vic.get(`/api/coops/${slug}/invoices`).expect(200)).body.balance).toEqual({
+      outstandingCents: 1800,
+      creditCents: 0,
+      unallocatedCents: 0,
+    });
   });
 
   it('refunds: cash from an unmatched payment; card through the SDK once a voided invoice left credit', async () => {
     const pat = c.members['Pat Payer']!.membershipId;
-    const unmatched = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments`).send({ memberId: pat, method: 'cash', amount: '30.00', receivedOn: `${NOW}-01` });
+    const unmatched = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/payments`)
+      .send({ memberId: pat, method: 'cash', amount: '30.00', receivedOn: `${NOW}-01` });
     expect(unmatched.status).toBe(201);
     expect(unmatched.body).toMatchObject({ unallocatedCents: 3000, refundableCents: 3000 });
-    const tooMuch = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments/${unmatched.body.id}/refunds`).send({ amount: '30.01', reason: 'Too much' });
+    const tooMuch = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/payments/${unmatched.body.id}/refunds`)
+      .send({ amount: '30.01', reason: 'Too much' });
     expect(tooMuch.status).toBe(422);
     expect(tooMuch.body.fields.amount).toBeDefined();
-    const cashRefund = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments/${unmatched.body.id}/refunds`).send({ amount: '10.00', reason: 'Paid twice by mistake' });
+    const cashRefund = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/payments/${unmatched.body.id}/refunds`)
+      .send({ amount: '10.00', reason: 'Paid twice by mistake' });
     expect(cashRefund.status, JSON.stringify(cashRefund.body)).toBe(201);
-    expect(cashRefund.body).toMatchObject({ unallocatedCents: 2000, refundedCents: 1000, refunds: [expect.objectContaining({ amountCents: 1000, status: 'succeeded' })] });
+    expect(cashRefund.body).toMatchObject({
+      unallocatedCents: 2000,
+      refundedCents: 1000,
+      refunds: [expect.objectContaining({ amountCents: 1000, status: 'succeeded' })],
+    });
 
     // Sol pays by card; the invoice is then voided, so the $20.00 becomes credit; $5.00 of it is refunded to the card.
     expect((await pay('Sol Slow')).status).toBe(200);
-    await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${inv['Sol Slow']}/void`).send({ reason: 'Sol was on leave this month' }).expect(200);
-    const [p] = await sql<{ id: number; credited_cents: string }>(`SELECT id, credited_cents FROM payments WHERE invoice_id = $1`, [inv['Sol Slow']]);
+    await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/invoices/${inv['Sol Slow']}/void`)
+      .send({ reason: 'Sol was on leave this month' })
+      .expect(200);
+    const [p] = await sql<{ id: number; credited_cents: string }>(
+      `SELECT id, credited_cents FROM payments WHERE invoice_id = $1`,
+      [inv['Sol Slow']],
+    );
     expect(Number(p!.credited_cents)).toBe(2000);
-    const refund = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments/${p!.id}/refunds`).send({ amount: '5.00', reason: 'Return part of the credit' });
+    const refund = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/payments/${p!.id}/refunds`)
+      .send({ amount: '5.00', reason: 'Return part of the credit' });
     expect(refund.status, JSON.stringify(refund.body)).toBe(201);
     expect(refund.body.refunds).toEqual([expect.objectContaining({ amountCents: 500, status: 'succeeded' })]);
-    const [r] = await sql<{ idempotency_key: string; stripe_refund_id: string }>(`SELECT idempotency_key, stripe_refund_id FROM refunds WHERE payment_id = $1`, [p!.id]);
+    const [r] = await sql<{ idempotency_key: string; stripe_refund_id: string }>(
+      `SELECT idempotency_key, stripe_refund_id FROM refunds WHERE payment_id = $1`,
+      [p!.id],
+    );
     expect(r!.idempotency_key).toMatch(/^refund-\d+-[0-9a-f]{12}$/);
     expect(r!.stripe_refund_id).toMatch(/^re_/);
-    const [credit] = await sql<{ s: string }>(`SELECT SUM(amount_cents) AS s FROM member_credits WHERE membership_id = $1`, [c.members['Sol Slow']!.membershipId]);
+    const [credit] = await sql<{ s: string }>(
+      `SELECT SUM(amount_cents) AS s FROM member_credits WHERE membership_id = $1`,
+      [c.members['Sol Slow']!.membershipId],
+    );
     expect(Number(credit!.s)).toBe(1500); // +2000 from the void, −500 refunded
     // The fake's charge.refunded webhook races the API answer: whichever is handled first confirms the
     // refund ('applied' when the webhook wins), and the other changes nothing — one refund, credit unchanged.
-    for (let i = 0; i < 50 && (await countRows('payment_webhook_events', `type = 'charge.refunded' AND coop_id = $1`, [c.coop.id])) === 0; i++) await new Promise((res) => setTimeout(res, 100));
-    const events = await sql<{ outcome: string }>(`SELECT outcome FROM payment_webhook_events WHERE type = 'charge.refunded' AND coop_id = $1`, [c.coop.id]);
+    for (
+      let i = 0;
+      i < 50 &&
+      (await countRows('payment_webhook_events', `type = 'charge.refunded' AND coop_id = $1`, [c.coop.id])) === 0;
+      i++
+    )
+      await new Promise((res) => setTimeout(res, 100));
+    const events = await sql<{ outcome: string }>(
+      `SELECT outcome FROM payment_webhook_events WHERE type = 'charge.refunded' AND coop_id = $1`,
+      [c.coop.id],
+    );
     expect(events).toHaveLength(1);
     expect(['no-change', 'applied']).toContain(events[0]!.outcome);
     expect(await countRows('refunds', `payment_id = $1 AND status = 'succeeded'`, [p!.id])).toBe(1);
-    const [after] = await sql<{ s: string }>(`SELECT SUM(amount_cents) AS s FROM member_credits WHERE membership_id = $1`, [c.members['Sol Slow']!.membershipId]);
+    const [after] = await sql<{ s: string }>(
+      `SELECT SUM(amount_cents) AS s FROM member_credits WHERE membership_id = $1`,
+      [c.members['Sol Slow']!.membershipId],
+    );
     expect(Number(after!.s)).toBe(1500);
   });
   it('the treasurer’s payment list: newest first, paged, by month and unmatched only; reading it writes nothing', async () => {
-    type Row = { id: number; memberName: string; receivedOn: string; period: string; unallocatedCents: number; refunds: { amountCents: number }[] };
-    const list = async (q: string) => (await c.treasurerAgent.get(`/api/coops/${slug}/billing/payments?${q}`).expect(200)).body as { rows: Row[]; total: number };
+    type Row = {
+      id: number;
+      memberName: string;
+      receivedOn: string;
+      period: string;
+      unallocatedCents: number;
+      refunds: { amountCents: number }[];
+    };
+    const list = async (q: string) =>
+      (await c.treasurerAgent.get(`/api/coops/${slug}/billing/payments?${q}`).expect(200)).body as {
+        rows: Row[];
+        total: number;
+      };
     const other = await makeBillingCoop({ members: ['Xan Other'] });
-    const writes = async () => [await countRows('payments'), await countRows('refunds'), await countRows('member_credits'), await countRows('audit_events')];
+    const writes = async () => [
+      await countRows('payments'),
+      await countRows('refunds'),
+      await countRows('member_credits'),
+      await countRows('audit_events'),
+    ];
     const before = await writes();
 
     const all = await list('pageSize=200');
@@ -275,7 +406,12 @@ describe('paying invoices', () => {
     expect(order).toEqual([...order].sort((a, b) => (a[0] === b[0] ? b[1] - a[1] : a[0] < b[0] ? 1 : -1)));
     expect(all.rows.every((r) => NAMES.includes(r.memberName))).toBe(true);
     // The refunded payments carry their refunds.
-    expect(all.rows.filter((r) => r.refunds.length > 0).map((r) => r.refunds.reduce((s, f) => s + f.amountCents, 0)).sort((a, b) => a - b)).toEqual([500, 1000]);
+    expect(
+      all.rows
+        .filter((r) => r.refunds.length > 0)
+        .map((r) => r.refunds.reduce((s, f) => s + f.amountCents, 0))
+        .sort((a, b) => a - b),
+    ).toEqual([500, 1000]);
 
     const second = await list('pageSize=1&page=2');
     expect(second.total).toBe(all.total);
@@ -288,7 +424,9 @@ describe('paying invoices', () => {
 
     // A member is refused; another co-op's treasurer sees none of these payments.
     expect((await agents['Pat Payer']!.get(`/api/coops/${slug}/billing/payments`)).status).toBe(403);
-    expect((await other.treasurerAgent.get(`/api/coops/${other.coop.slug}/billing/payments`).expect(200)).body).toMatchObject({ rows: [], total: 0 });
+    expect(
+      (await other.treasurerAgent.get(`/api/coops/${other.coop.slug}/billing/payments`).expect(200)).body,
+    ).toMatchObject({ rows: [], total: 0 });
     expect((await other.treasurerAgent.get(`/api/coops/${slug}/billing/payments`)).status).toBe(404);
     expect(await writes()).toEqual(before);
   });
@@ -296,10 +434,22 @@ describe('paying invoices', () => {
   it('an adjustment stays on the pending list while only a draft carries it, and leaves it once that invoice is issued', async () => {
     const m = c.members['Wyn Wrong']!.membershipId;
     const pending = async () =>
-      ((await c.treasurerAgent.get(`/api/coops/${slug}/billing/adjustments`).expect(200)).body.adjustments as { id: number; memberName: string; billedOn: string | null }[]);
-    const made = await c.treasurerAgent.post(`/api/coops/${slug}/billing/adjustments`).send({ memberId: m, amount: '3.25', description: 'Spare jerry can', period: NOW });
+      (await c.treasurerAgent.get(`/api/coops/${slug}/billing/adjustments`).expect(200)).body.adjustments as {
+        id: number;
+        memberName: string;
+        billedOn: string | null;
+      }[];
+    const made = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/adjustments`)
+      .send({ memberId: m, amount: '3.25', description: 'Spare jerry can', period: NOW });
     expect(made.status, JSON.stringify(made.body)).toBe(201);
-    expect(made.body).toMatchObject({ memberId: m, memberName: 'Wyn Wrong', amountCents: 325, period: NOW, billedOn: null });
+    expect(made.body).toMatchObject({
+      memberId: m,
+      memberName: 'Wyn Wrong',
+      amountCents: 325,
+      period: NOW,
+      billedOn: null,
+    });
     expect((await pending()).map((a) => a.id)).toContain(made.body.id);
     await runMonth(c.treasurerAgent, slug, NOW, [m]);
     expect((await pending()).map((a) => a.id)).toContain(made.body.id);
@@ -309,29 +459,51 @@ describe('paying invoices', () => {
     expect(Number(wyn.total_cents)).toBe(2000 + 325);
   });
   it('a card refund while the payment service is down stays pending, blocks the close, and a retry refunds once', async () => {
-    const wynInvoice = (await invoicesOf(c.coop.id, NOW)).find((r) => r.membership_id === c.members['Wyn Wrong']!.membershipId)!;
+    const wynInvoice = (await invoicesOf(c.coop.id, NOW)).find(
+      (r) => r.membership_id === c.members['Wyn Wrong']!.membershipId,
+    )!;
     expect((await pay('Wyn Wrong', 'test-approved', wynInvoice.id)).status).toBe(200);
-    await c.treasurerAgent.post(`/api/coops/${slug}/billing/invoices/${wynInvoice.id}/void`).send({ reason: 'Billed in error' }).expect(200);
+    await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/invoices/${wynInvoice.id}/void`)
+      .send({ reason: 'Billed in error' })
+      .expect(200);
     const [p] = await sql<{ id: number }>(`SELECT id FROM payments WHERE invoice_id = $1`, [wynInvoice.id]);
 
     await setOutage(true, '503');
-    const down = await c.treasurerAgent.post(`/api/coops/${slug}/billing/payments/${p!.id}/refunds`).send({ amount: '3.00', reason: 'Jerry can returned' });
+    const down = await c.treasurerAgent
+      .post(`/api/coops/${slug}/billing/payments/${p!.id}/refunds`)
+      .send({ amount: '3.00', reason: 'Jerry can returned' });
     await setOutage(false);
     expect(down.status).toBe(503);
     expect(down.body.code).toBe('provider-unavailable');
-    const [r] = await sql<{ id: number; status: string; idempotency_key: string }>(`SELECT id, status, idempotency_key FROM refunds WHERE payment_id = $1`, [p!.id]);
+    const [r] = await sql<{ id: number; status: string; idempotency_key: string }>(
+      `SELECT id, status, idempotency_key FROM refunds WHERE payment_id = $1`,
+      [p!.id],
+    );
     expect(r).toMatchObject({ status: 'pending' });
-    const recon = (await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200)).body;
+    const recon = (await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200))
+      .body;
     expect(recon.pendingRefunds).toBe(1);
     expect(recon.blockers).toContain('1 card refund(s) are still waiting for the payment service.');
 
     const retried = await c.treasurerAgent.post(`/api/coops/${slug}/billing/refunds/${r!.id}/retry`).send({});
     expect(retried.status, JSON.stringify(retried.body)).toBe(200);
-    expect(retried.body).toMatchObject({ id: p!.id, refundedCents: 300, refunds: [expect.objectContaining({ id: r!.id, amountCents: 300, status: 'succeeded' })] });
-    expect((await c.treasurerAgent.post(`/api/coops/${slug}/billing/refunds/${r!.id}/retry`).send({})).status).toBe(409);
+    expect(retried.body).toMatchObject({
+      id: p!.id,
+      refundedCents: 300,
+      refunds: [expect.objectContaining({ id: r!.id, amountCents: 300, status: 'succeeded' })],
+    });
+    expect((await c.treasurerAgent.post(`/api/coops/${slug}/billing/refunds/${r!.id}/retry`).send({})).status).toBe(
+      409,
+    );
     expect(await countRows('refunds', 'payment_id = $1', [p!.id])).toBe(1);
-    const [again] = await sql<{ idempotency_key: string }>(`SELECT idempotency_key FROM refunds WHERE id = $1`, [r!.id]);
+    const [again] = await sql<{ idempotency_key: string }>(`SELECT idempotency_key FROM refunds WHERE id = $1`, [
+      r!.id,
+    ]);
     expect(again!.idempotency_key).toBe(r!.idempotency_key);
-    expect((await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200)).body.pendingRefunds).toBe(0);
+    expect(
+      (await c.treasurerAgent.get(`/api/coops/${slug}/billing/periods/${NOW}/reconciliation`).expect(200)).body
+        .pendingRefunds,
+    ).toBe(0);
   });
 });

@@ -17,7 +17,12 @@ describe('GET /api/health', () => {
       `SELECT c.slug, m.role FROM memberships m JOIN coops c ON c.id = m.coop_id
        JOIN users u ON u.id = m.user_id WHERE u.email LIKE '%@example.org' ORDER BY c.slug, m.role`,
     );
-    expect(rows.filter((r) => r.slug === 'prairie-lantern').map((r) => r.role).sort()).toEqual(['admin', 'brewer', 'member', 'treasurer']);
+    expect(
+      rows
+        .filter((r) => r.slug === 'prairie-lantern')
+        .map((r) => r.role)
+        .sort(),
+    ).toEqual(['admin', 'brewer', 'member', 'treasurer']);
     expect(rows.filter((r) => r.slug === 'harbourside').length).toBeGreaterThanOrEqual(1);
   });
 });

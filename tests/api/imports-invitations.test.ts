@@ -15,7 +15,14 @@ async function footprint(coopId: number) {
     invitations: await countRows('invitations', 'coop_id = $1', [coopId]),
     imports: await countRows('imports', 'coop_id = $1', [coopId]),
     audit: await countRows('audit_events', 'coop_id = $1', [coopId]),
-    jobs: Number((await sql<{ n: string }>(`SELECT count(*)::text AS n FROM pgboss.job WHERE name = 'mail-invitation' AND (data->>'coopId')::int = $1`, [coopId]))[0]!.n),
+    jobs: Number(
+      (
+        await sql<{ n: string }>(
+          `SELECT count(*)::text AS n FROM pgboss.job WHERE name = 'mail-invitation' AND (data->>'coopId')::int = $1`,
+          [coopId],
+        )
+      )[0]!.n,
+    ),
   };
 }
 
@@ -40,7 +47,10 @@ describe('bulk invitations from a CSV file', () => {
   it('the preview names the row and the field of every kind of bad row, and writes nothing', async () => {
     const t = tag();
     // An address with a pending invitation, and an expired one (which the import renews).
-    await ctx.agents.admin.post(`/api/coops/${ctx.coop.slug}/invitations`).send({ email: `${t}-pending@example.org`, role: 'member' }).expect(201);
+    await ctx.agents.admin
+      .post(`/api/coops/${ctx.coop.slug}/invitations`)
+      .send({ email: `${t}-pending@example.org`, role: 'member' })
+      .expect(201);
     await sql(
       `INSERT INTO invitations (coop_id, email, role, token_hash, delivery, expires_at) VALUES ($1, $2, 'member', repeat('e', 64), 'sent', now() - interval '1 day')`,
       [ctx.coop.id, `${t}-expired@example.org`],
@@ -60,7 +70,11 @@ describe('bulk invitations from a CSV file', () => {
     ].join('\r\n');
     const before = await footprint(ctx.coop.id);
     const res = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'members.csv', csv }).expect(200);
-    const fates = res.body.rows.map((r: { line: number; fate: string; field: string | null }) => [r.line, r.fate, r.field]);
+    const fates = res.body.rows.map((r: { line: number; fate: string; field: string | null }) => [
+      r.line,
+      r.fate,
+      r.field,
+    ]);
     expect(fates).toEqual([
       [2, 'invite', null],
       [3, 'bad-email', 'email'],
@@ -75,7 +89,15 @@ describe('bulk invitations from a CSV file', () => {
     expect(res.body.rows[0]).toMatchObject({ name: 'Quist, Marta', email: `${t}-a@example.org`, role: 'brewer' });
     expect(res.body.rows[5].message).toMatch(/row 2/);
     expect(res.body.rows[8]).toMatchObject({ role: 'member', message: 'Will invite.' });
-    expect(res.body.counts).toMatchObject({ invite: 3, member: 1, invited: 1, duplicate: 1, 'bad-email': 1, 'bad-role': 1, 'bad-name': 1 });
+    expect(res.body.counts).toMatchObject({
+      invite: 3,
+      member: 1,
+      invited: 1,
+      duplicate: 1,
+      'bad-email': 1,
+      'bad-role': 1,
+      'bad-name': 1,
+    });
     expect(res.body.earlierImport).toBeNull();
     expect(await footprint(ctx.coop.id)).toEqual(before);
 
@@ -83,13 +105,24 @@ describe('bulk invitations from a CSV file', () => {
     const done = await ctx.agents.admin.post(base()).send({ fileName: 'members.csv', csv }).expect(201);
     expect(done.body).toMatchObject({ invited: 3, skipped: 6 });
     const after = await footprint(ctx.coop.id);
-    expect(after).toMatchObject({ invitations: before.invitations + 2, imports: before.imports + 1, audit: before.audit + 1, jobs: before.jobs + 3 });
+    expect(after).toMatchObject({
+      invitations: before.invitations + 2,
+      imports: before.imports + 1,
+      audit: before.audit + 1,
+      jobs: before.jobs + 3,
+    });
     const [event] = await sql<{ after: Record<string, unknown>; actor_user_id: number }>(
       `SELECT after, actor_user_id FROM audit_events WHERE coop_id = $1 AND action = 'import.create' AND entity_id = $2`,
       [ctx.coop.id, String(done.body.importId)],
     );
-    expect(event).toMatchObject({ actor_user_id: ctx.users.admin.id, after: { kind: 'invitations', fileName: 'members.csv', rowsTotal: 9, rowsImported: 3, rowsSkipped: 6 } });
-    const renewed = await sql<{ role: string; name: string; import_id: number }>(`SELECT role, name, import_id FROM invitations WHERE coop_id = $1 AND email = $2`, [ctx.coop.id, `${t}-expired@example.org`]);
+    expect(event).toMatchObject({
+      actor_user_id: ctx.users.admin.id,
+      after: { kind: 'invitations', fileName: 'members.csv', rowsTotal: 9, rowsImported: 3, rowsSkipped: 6 },
+    });
+    const renewed = await sql<{ role: string; name: string; import_id: number }>(
+      `SELECT role, name, import_id FROM invitations WHERE coop_id = $1 AND email = $2`,
+      [ctx.coop.id, `${t}-expired@example.org`],
+    );
     expect(renewed).toEqual([{ role: 'treasurer', name: 'Oskar Vey', import_id: done.body.importId }]);
 
     const status = await waitUntilSent(ctx.agents.admin, `${base()}/${done.body.importId}`);
@@ -103,13 +136,22 @@ describe('bulk invitations from a CSV file', () => {
     const before = await footprint(ctx.coop.id);
     const noCsv = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'x.csv' }).expect(422);
     expect(noCsv.body.fields.csv).toBeDefined();
-    const noEmail = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'x.csv', csv: 'Name,Role\nA,member\n' }).expect(422);
+    const noEmail = await ctx.agents.admin
+      .post(`${base()}/preview`)
+      .send({ fileName: 'x.csv', csv: 'Name,Role\nA,member\n' })
+      .expect(422);
     expect(noEmail.body.fields.csv[0]).toMatch(/E-mail/);
     const empty = await ctx.agents.admin.post(base()).send({ fileName: 'x.csv', csv: '\r\n\r\n' }).expect(422);
     expect(empty.body.fields.csv[0]).toMatch(/empty/);
-    const smuggled = await ctx.agents.admin.post(base()).send({ fileName: 'x.csv', csv: 'email\na@example.org', coopId: ctx.other.id }).expect(422);
+    const smuggled = await ctx.agents.admin
+      .post(base())
+      .send({ fileName: 'x.csv', csv: 'email\na@example.org', coopId: ctx.other.id })
+      .expect(422);
     expect(smuggled.body.fields.coopId).toBeDefined();
-    await ctx.agents.admin.post(`/api/coops/${ctx.coop.slug}/imports/nonsense/preview`).send({ fileName: 'x.csv', csv: 'email\na@example.org' }).expect(404);
+    await ctx.agents.admin
+      .post(`/api/coops/${ctx.coop.slug}/imports/nonsense/preview`)
+      .send({ fileName: 'x.csv', csv: 'email\na@example.org' })
+      .expect(404);
     await ctx.agents.admin.get(`${base()}/999999/result`).expect(404);
     expect(await footprint(ctx.coop.id)).toEqual(before);
   });
@@ -124,8 +166,13 @@ describe('bulk invitations from a CSV file', () => {
 
   it('300 invitations from one file are e-mailed exactly once each; the same file again, or its people in another file, invites no one twice', async () => {
     const t = tag();
-    const people = Array.from({ length: 300 }, (_, i) => ({ name: `Member ${i + 1}`, email: `${t}-${i + 1}@example.org` }));
-    const csv = ['Name,E-mail,Role', ...people.map((p, i) => `${p.name},${p.email},${i % 10 === 0 ? 'brewer' : ''}`)].join('\n') + '\n';
+    const people = Array.from({ length: 300 }, (_, i) => ({
+      name: `Member ${i + 1}`,
+      email: `${t}-${i + 1}@example.org`,
+    }));
+    const csv =
+      ['Name,E-mail,Role', ...people.map((p, i) => `${p.name},${p.email},${i % 10 === 0 ? 'brewer' : ''}`)].join('\n') +
+      '\n';
     const started = Date.now();
     const done = await ctx.agents.admin.post(base()).send({ fileName: 'everyone.csv', csv }).expect(201);
     expect(done.body).toMatchObject({ invited: 300, skipped: 0 });
@@ -138,13 +185,22 @@ describe('bulk invitations from a CSV file', () => {
     // Re-uploading the same file (saved again with a BOM and CRLF line ends): refused, nothing written.
     const before = await footprint(ctx.coop.id);
     const again = '\uFEFF' + csv.replace(/\n/g, '\r\n');
-    const preview = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'everyone (1).csv', csv: again }).expect(200);
+    const preview = await ctx.agents.admin
+      .post(`${base()}/preview`)
+      .send({ fileName: 'everyone (1).csv', csv: again })
+      .expect(200);
     expect(preview.body.earlierImport).toMatchObject({ id: done.body.importId, createdBy: expect.any(String) });
     expect(preview.body.counts).toMatchObject({ invite: 0, invited: 300 });
     const refused = await ctx.agents.admin.post(base()).send({ fileName: 'everyone (1).csv', csv: again }).expect(409);
-    expect(refused.body).toMatchObject({ importId: done.body.importId, error: expect.stringMatching(/already imported/) });
+    expect(refused.body).toMatchObject({
+      importId: done.body.importId,
+      error: expect.stringMatching(/already imported/),
+    });
     // The same people in a different file: everyone already invited, nothing to do.
-    await ctx.agents.admin.post(base()).send({ fileName: 'edited.csv', csv: csv + `Newcomer,bad-address,member\n` }).expect(422);
+    await ctx.agents.admin
+      .post(base())
+      .send({ fileName: 'edited.csv', csv: csv + `Newcomer,bad-address,member\n` })
+      .expect(422);
     expect(await footprint(ctx.coop.id)).toEqual(before);
 
     // A moment for any second copy to arrive; then each address has exactly one e-mail.

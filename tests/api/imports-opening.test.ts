@@ -37,7 +37,10 @@ describe('opening balances', () => {
     ].join('\n');
     const before = await footprint(ctx.coop.id);
     const res = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'balances.csv', csv }).expect(200);
-    const problems = res.body.rows.map((r: { line: number; errors: { field: string }[] }) => [r.line, r.errors.map((e) => e.field)]);
+    const problems = res.body.rows.map((r: { line: number; errors: { field: string }[] }) => [
+      r.line,
+      r.errors.map((e) => e.field),
+    ]);
     expect(problems).toEqual([
       [2, ['email']],
       [3, ['balance']],
@@ -79,7 +82,12 @@ describe('opening balances', () => {
     // Undo before anything is billed: the adjustments go, the import is marked undone (audited).
     await ctx.agents.admin.post(`${base()}/${first.body.importId}/undo`).send({}).expect(200);
     expect(await countRows('billing_adjustments', 'coop_id = $1', [ctx.coop.id])).toBe(0);
-    expect(await countRows('audit_events', "coop_id = $1 AND action = 'import.undo' AND entity_id = $2", [ctx.coop.id, String(first.body.importId)])).toBe(1);
+    expect(
+      await countRows('audit_events', "coop_id = $1 AND action = 'import.undo' AND entity_id = $2", [
+        ctx.coop.id,
+        String(first.body.importId),
+      ]),
+    ).toBe(1);
     await ctx.agents.admin.post(`${base()}/${first.body.importId}/undo`).send({}).expect(409);
 
     // Imported again (allowed once the first is undone), then the month's run puts them on the invoices.
@@ -91,8 +99,18 @@ describe('opening balances', () => {
       [ctx.coop.id],
     );
     expect(lines).toEqual([
-      { membership_id: ctx.users.member.membershipId, kind: 'adjustment', amount_cents: '104250', description: 'Opening balance as of Nov 30, 2026' },
-      { membership_id: ctx.users.brewer.membershipId, kind: 'adjustment', amount_cents: '-1500', description: 'Opening balance as of Nov 30, 2026' },
+      {
+        membership_id: ctx.users.member.membershipId,
+        kind: 'adjustment',
+        amount_cents: '104250',
+        description: 'Opening balance as of Nov 30, 2026',
+      },
+      {
+        membership_id: ctx.users.brewer.membershipId,
+        kind: 'adjustment',
+        amount_cents: '-1500',
+        description: 'Opening balance as of Nov 30, 2026',
+      },
     ]);
     // An invoice is built on them now: undo is refused and changes nothing.
     const before = await footprint(ctx.coop.id);
@@ -101,7 +119,12 @@ describe('opening balances', () => {
     expect(await footprint(ctx.coop.id)).toEqual(before);
     // The import's result lists both rows.
     const detail = await ctx.agents.admin.get(`${base()}/${second.body.importId}`).expect(200);
-    expect(detail.body.import).toMatchObject({ kind: 'opening-balances', fileName: 'balances.csv', rowsImported: 2, status: 'done' });
+    expect(detail.body.import).toMatchObject({
+      kind: 'opening-balances',
+      fileName: 'balances.csv',
+      rowsImported: 2,
+      status: 'done',
+    });
     const result = await ctx.agents.admin.get(`${base()}/${second.body.importId}/result`).expect(200);
     expect(result.text.split('\r\n')[0]).toBe('Row,E-mail,Balance,As of,Result,Note');
   });
@@ -112,16 +135,27 @@ describe('opening tank stock', () => {
   let mainId: number;
   beforeAll(async () => {
     ctx = await makeCoopWithRoles();
-    mainId = (await ctx.agents.admin.post(`/api/coops/${ctx.coop.slug}/tanks`).send({ name: 'Main tank', capacity: '500' }).expect(201)).body.id;
-    await ctx.agents.admin.post(`/api/coops/${ctx.coop.slug}/tanks`).send({ name: 'Spare drum', capacity: '50' }).expect(201);
+    mainId = (
+      await ctx.agents.admin
+        .post(`/api/coops/${ctx.coop.slug}/tanks`)
+        .send({ name: 'Main tank', capacity: '500' })
+        .expect(201)
+    ).body.id;
+    await ctx.agents.admin
+      .post(`/api/coops/${ctx.coop.slug}/tanks`)
+      .send({ name: 'Spare drum', capacity: '50' })
+      .expect(201);
   });
   const base = () => `/api/coops/${ctx.coop.slug}/imports/opening-tank`;
 
   it('names bad rows; a failed confirm writes nothing', async () => {
-    const csv = 'Tank,Gallons,Cost per gallon\nNowhere,10,2.00\nSpare drum,60,2.00\nMain tank,100,abc\nmain TANK,5,1.00\n';
+    const csv =
+      'Tank,Gallons,Cost per gallon\nNowhere,10,2.00\nSpare drum,60,2.00\nMain tank,100,abc\nmain TANK,5,1.00\n';
     const before = await footprint(ctx.coop.id);
     const res = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'tank.csv', csv }).expect(200);
-    expect(res.body.rows.map((r: { line: number; errors: { field: string }[] }) => [r.line, r.errors.map((e) => e.field)])).toEqual([
+    expect(
+      res.body.rows.map((r: { line: number; errors: { field: string }[] }) => [r.line, r.errors.map((e) => e.field)]),
+    ).toEqual([
       [2, ['tank']],
       [3, ['quantity']],
       [4, ['cost']],
@@ -134,24 +168,39 @@ describe('opening tank stock', () => {
 
   it('is one opening ledger row that prices the next draws; undo is refused once fuel was drawn from it', async () => {
     // Spare drum: imported, then undone before anything builds on it (a reversing opening row).
-    const spare = await ctx.agents.admin.post(base()).send({ fileName: 'spare.csv', csv: 'Tank,Gallons,Cost per gallon\nSpare drum,20,2.00\n' }).expect(201);
+    const spare = await ctx.agents.admin
+      .post(base())
+      .send({ fileName: 'spare.csv', csv: 'Tank,Gallons,Cost per gallon\nSpare drum,20,2.00\n' })
+      .expect(201);
     await ctx.agents.admin.post(`${base()}/${spare.body.importId}/undo`).send({}).expect(200);
     const spareRows = await sql<{ kind: string; quantity_liters: string; value_cents: string }>(
       `SELECT m.kind, m.quantity_liters, m.value_cents FROM tank_movements m JOIN tanks t ON t.id = m.tank_id WHERE t.coop_id = $1 AND t.name = 'Spare drum' ORDER BY m.id`,
       [ctx.coop.id],
     );
     // 20 gal = 75.708 L (NIST: 1 US gal = 3.785411784 L); 20 × 200 ¢ = 4000 ¢.
-    expect(spareRows).toEqual([{ kind: 'opening', quantity_liters: '75.708', value_cents: '4000' }, { kind: 'opening', quantity_liters: '-75.708', value_cents: '-4000' }]);
+    expect(spareRows).toEqual([
+      { kind: 'opening', quantity_liters: '75.708', value_cents: '4000' },
+      { kind: 'opening', quantity_liters: '-75.708', value_cents: '-4000' },
+    ]);
 
-    const done = await ctx.agents.admin.post(base()).send({ fileName: 'main.csv', csv: 'Tank,Gallons,Cost per gallon\nMain tank,100,3.10\n' }).expect(201);
-    const [m] = await sql<{ kind: string; quantity_liters: string; value_cents: string }>(`SELECT kind, quantity_liters, value_cents FROM tank_movements WHERE tank_id = $1`, [mainId]);
+    const done = await ctx.agents.admin
+      .post(base())
+      .send({ fileName: 'main.csv', csv: 'Tank,Gallons,Cost per gallon\nMain tank,100,3.10\n' })
+      .expect(201);
+    const [m] = await sql<{ kind: string; quantity_liters: string; value_cents: string }>(
+      `SELECT kind, quantity_liters, value_cents FROM tank_movements WHERE tank_id = $1`,
+      [mainId],
+    );
     // 100 gal = 378.541 L; value round(310 ¢ × 99.99995 gal) = 31 000 ¢ (hand-computed).
     expect(m).toEqual({ kind: 'opening', quantity_liters: '378.541', value_cents: '31000' });
     const tank = (await ctx.agents.member.get(`/api/coops/${ctx.coop.slug}/tanks/${mainId}`).expect(200)).body;
     expect(tank.onHandLiters).toBeCloseTo(378.541, 3);
 
     // Cost plus 40 ¢: average cost 31 000 ¢ / 99.99995 gal = 310.00015 → 310 ¢, + 40 = 350 ¢/gal (hand-computed).
-    await ctx.agents.treasurer.post(`/api/coops/${ctx.coop.slug}/pricing`).send({ kind: 'cost-plus-amount', margin: '0.40' }).expect(201);
+    await ctx.agents.treasurer
+      .post(`/api/coops/${ctx.coop.slug}/pricing`)
+      .send({ kind: 'cost-plus-amount', margin: '0.40' })
+      .expect(201);
     const draw = await ctx.agents.brewer
       .post(`/api/coops/${ctx.coop.slug}/draws`)
       .send({ membershipId: ctx.users.member.membershipId, tankId: mainId, quantity: '10', declaredUse: 'off-road' })
@@ -163,8 +212,14 @@ describe('opening tank stock', () => {
     expect(refused.body.error).toMatch(/can no longer be undone/);
     expect(await footprint(ctx.coop.id)).toEqual(before);
     // A tank in use cannot take a second opening entry.
-    const again = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'main-2.csv', csv: 'Tank,Gallons,Cost per gallon\nMain tank,5,3.10\n' }).expect(200);
-    expect(again.body.rows[0].errors[0]).toMatchObject({ field: 'tank', message: expect.stringMatching(/dip reading/) });
+    const again = await ctx.agents.admin
+      .post(`${base()}/preview`)
+      .send({ fileName: 'main-2.csv', csv: 'Tank,Gallons,Cost per gallon\nMain tank,5,3.10\n' })
+      .expect(200);
+    expect(again.body.rows[0].errors[0]).toMatchObject({
+      field: 'tank',
+      message: expect.stringMatching(/dip reading/),
+    });
   });
 });
 
@@ -181,10 +236,13 @@ describe('opening chemical and oil stock', () => {
   });
 
   it('names bad rows; a failed confirm writes nothing', async () => {
-    const csv = 'Kind,Quantity,Unit,Total cost,Purity %\nlye,1,kg,5.00,\nmethanol,10,kg,5.00,\nKOH,2,kg,8.00,\nNaOH,-1,kg,8.00,98\noil,50,gal,free,\nmethanol,5,gal,20.00,99\n';
+    const csv =
+      'Kind,Quantity,Unit,Total cost,Purity %\nlye,1,kg,5.00,\nmethanol,10,kg,5.00,\nKOH,2,kg,8.00,\nNaOH,-1,kg,8.00,98\noil,50,gal,free,\nmethanol,5,gal,20.00,99\n';
     const before = await lots();
     const res = await ctx.agents.admin.post(`${base()}/preview`).send({ fileName: 'shelf.csv', csv }).expect(200);
-    expect(res.body.rows.map((r: { line: number; errors: { field: string }[] }) => [r.line, r.errors.map((e) => e.field)])).toEqual([
+    expect(
+      res.body.rows.map((r: { line: number; errors: { field: string }[] }) => [r.line, r.errors.map((e) => e.field)]),
+    ).toEqual([
       [2, ['kind']],
       [3, ['unit']],
       [4, ['purityPct']],
@@ -197,19 +255,46 @@ describe('opening chemical and oil stock', () => {
   });
 
   it('become opening lots that cost the next batch; undo takes them back while no batch has used them', async () => {
-    const csv = 'Kind,Quantity,Unit,Total cost,Purity %,As of\nmethanol,55,gal,190.00,,11/15/2026\nKOH,10,lb,42.00,90 %,11/15/2026\noil,120,gal,0,,\n';
+    const csv =
+      'Kind,Quantity,Unit,Total cost,Purity %,As of\nmethanol,55,gal,190.00,,11/15/2026\nKOH,10,lb,42.00,90 %,11/15/2026\noil,120,gal,0,,\n';
     const first = await ctx.agents.admin.post(base()).send({ fileName: 'shelf.csv', csv }).expect(201);
     expect(first.body.imported).toBe(3);
     // 55 gal × 3.785411784 = 208.198 L; 10 lb × 453.59237 g = 4535.924 g; 120 gal = 454.249 L (NIST SP 811).
-    expect(await sql(`SELECT kind, quantity, remaining_quantity, total_cost_cents, purity_pct, supplier, received_on::text FROM chemical_lots WHERE coop_id = $1 ORDER BY id`, [ctx.coop.id])).toEqual([
-      { kind: 'methanol', quantity: '208.198', remaining_quantity: '208.198', total_cost_cents: '19000', purity_pct: null, supplier: 'Opening stock', received_on: '2026-11-15' },
-      { kind: 'KOH', quantity: '4535.924', remaining_quantity: '4535.924', total_cost_cents: '4200', purity_pct: '90.00', supplier: 'Opening stock', received_on: '2026-11-15' },
+    expect(
+      await sql(
+        `SELECT kind, quantity, remaining_quantity, total_cost_cents, purity_pct, supplier, received_on::text FROM chemical_lots WHERE coop_id = $1 ORDER BY id`,
+        [ctx.coop.id],
+      ),
+    ).toEqual([
+      {
+        kind: 'methanol',
+        quantity: '208.198',
+        remaining_quantity: '208.198',
+        total_cost_cents: '19000',
+        purity_pct: null,
+        supplier: 'Opening stock',
+        received_on: '2026-11-15',
+      },
+      {
+        kind: 'KOH',
+        quantity: '4535.924',
+        remaining_quantity: '4535.924',
+        total_cost_cents: '4200',
+        purity_pct: '90.00',
+        supplier: 'Opening stock',
+        received_on: '2026-11-15',
+      },
     ]);
-    expect(await sql(`SELECT collected_from, volume_liters FROM oil_lots WHERE coop_id = $1`, [ctx.coop.id])).toEqual([{ collected_from: 'Opening stock', volume_liters: '454.249' }]);
+    expect(await sql(`SELECT collected_from, volume_liters FROM oil_lots WHERE coop_id = $1`, [ctx.coop.id])).toEqual([
+      { collected_from: 'Opening stock', volume_liters: '454.249' },
+    ]);
 
     // The planner costs the next batch from them: 30 gal of oil at 20 % → 6 gal = 22.712 L of methanol;
     // 19 000 ¢ × 22.712 / 208.198 ≈ 2073 ¢ (hand-computed, first in first out from the one lot).
-    const plan = await ctx.agents.brewer.post(`/api/coops/${ctx.coop.slug}/planner`).send({ oilVolume: 30, titrationTrials: [2], catalyst: 'KOH', methanolPct: 20 }).expect(200);
+    const plan = await ctx.agents.brewer
+      .post(`/api/coops/${ctx.coop.slug}/planner`)
+      .send({ oilVolume: 30, titrationTrials: [2], catalyst: 'KOH', methanolPct: 20 })
+      .expect(200);
     const methanol = plan.body.coverage.find((c: { kind: string }) => c.kind === 'methanol');
     expect(methanol).toMatchObject({ covered: true });
     expect(methanol.projectedCents).toBeGreaterThanOrEqual(2070);

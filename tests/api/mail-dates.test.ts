@@ -11,7 +11,10 @@ describe('dates in e-mails', () => {
     const u = await makeUser({ coopId: coop.id, role: 'member' });
     await api().post('/api/password-reset').send({ email: u.email }).expect(202);
     const mail = await waitForMail(u.email);
-    const [row] = await sql<{ expires_at: Date }>(`SELECT expires_at FROM auth_tokens WHERE user_id = $1 AND kind = 'password-reset'`, [u.id]);
+    const [row] = await sql<{ expires_at: Date }>(
+      `SELECT expires_at FROM auth_tokens WHERE user_id = $1 AND kind = 'password-reset'`,
+      [u.id],
+    );
     expect(mail.text).toContain(`expires on ${formatExpiry(new Date(row!.expires_at), 'Asia/Tokyo')}.`);
     expect(mail.text).toMatch(/expires on [A-Z][a-z]{2} \d{1,2}, \d{4}, \d{2}:\d{2} \(Asia\/Tokyo\)\./);
   });

@@ -42,15 +42,28 @@ const COMPATIBLE: Record<string, string[]> = {
   ARRAY: ['ARRAY'],
 };
 /** PostgreSQL's element type name (udt_name of an array column without its leading `_`) for an ARRAY's element type. */
-const ARRAY_ELEMENT: Record<string, string[]> = { INTEGER: ['int4'], BIGINT: ['int8'], STRING: ['varchar', 'text'], TEXT: ['text', 'varchar'], DECIMAL: ['numeric'] };
+const ARRAY_ELEMENT: Record<string, string[]> = {
+  INTEGER: ['int4'],
+  BIGINT: ['int8'],
+  STRING: ['varchar', 'text'],
+  TEXT: ['text', 'varchar'],
+  DECIMAL: ['numeric'],
+};
 
-interface Column { table_name: string; column_name: string; data_type: string; udt_name: string; is_nullable: 'YES' | 'NO' }
+interface Column {
+  table_name: string;
+  column_name: string;
+  data_type: string;
+  udt_name: string;
+  is_nullable: 'YES' | 'NO';
+}
 type AttributeType = { key: string; type?: { key: string } };
 
 let models: ModelStatic<Model>[] = [];
 let close: () => Promise<void> = async () => {};
 let columns: Column[] = [];
-const columnsOf = (table: string) => new Map(columns.filter((c) => c.table_name === table).map((c) => [c.column_name, c]));
+const columnsOf = (table: string) =>
+  new Map(columns.filter((c) => c.table_name === table).map((c) => [c.column_name, c]));
 
 beforeAll(async () => {
   // lib/db.ts reads DATABASE_URL when it is first imported: point it at the test database first.
@@ -76,7 +89,9 @@ describe('models agree with the migrated database', () => {
 
   it("each model's table exists", () => {
     const tables = new Set(columns.map((c) => c.table_name));
-    const missing = models.filter((m) => !tables.has(m.getTableName() as string)).map((m) => `${m.name} → ${String(m.getTableName())}`);
+    const missing = models
+      .filter((m) => !tables.has(m.getTableName() as string))
+      .map((m) => `${m.name} → ${String(m.getTableName())}`);
     expect(missing).toEqual([]);
   });
 
@@ -101,22 +116,36 @@ describe('models agree with the migrated database', () => {
         }
         const allowed = COMPATIBLE[type.key];
         if (!allowed) problems.push(`${where}: Sequelize type ${type.key} has no mapping in this test; add one`);
-        else if (!allowed.includes(col.data_type)) problems.push(`${where}: model says ${type.key}, column is ${col.data_type}`);
-        else if (type.key === 'ARRAY' && type.type && !(ARRAY_ELEMENT[type.type.key] ?? []).includes(col.udt_name.replace(/^_/, ''))) {
+        else if (!allowed.includes(col.data_type))
+          problems.push(`${where}: model says ${type.key}, column is ${col.data_type}`);
+        else if (
+          type.key === 'ARRAY' &&
+          type.type &&
+          !(ARRAY_ELEMENT[type.type.key] ?? []).includes(col.udt_name.replace(/^_/, ''))
+        ) {
           problems.push(`${where}: model says ARRAY(${type.type.key}), column is ${col.udt_name.replace(/^_/, '')}[]`);
         }
-        if (attr.allowNull === false && col.is_nullable === 'YES') problems.push(`${where}: model says allowNull: false, column is nullable`);
+        if (attr.allowNull === false && col.is_nullable === 'YES')
+          problems.push(`${where}: model says allowNull: false, column is nullable`);
       }
     }
     expect(problems).toEqual([]);
   });
 
   it('every column of every table belongs to some model', () => {
-    const modelled = new Set(models.flatMap((m) => Object.entries(m.getAttributes()).map(([name, a]) => `${String(m.getTableName())}.${a.field ?? name}`)));
+    const modelled = new Set(
+      models.flatMap((m) =>
+        Object.entries(m.getAttributes()).map(([name, a]) => `${String(m.getTableName())}.${a.field ?? name}`),
+      ),
+    );
     const tables = new Set(columns.map((c) => c.table_name));
-    const unmodelled = columns.filter((c) => !CLI_TABLES.has(c.table_name) && !modelled.has(`${c.table_name}.${c.column_name}`)).map((c) => `${c.table_name}.${c.column_name}`);
+    const unmodelled = columns
+      .filter((c) => !CLI_TABLES.has(c.table_name) && !modelled.has(`${c.table_name}.${c.column_name}`))
+      .map((c) => `${c.table_name}.${c.column_name}`);
     expect(unmodelled).toEqual([]);
-    const tablesWithoutModel = [...tables].filter((t) => !CLI_TABLES.has(t) && !models.some((m) => m.getTableName() === t));
+    const tablesWithoutModel = [...tables].filter(
+      (t) => !CLI_TABLES.has(t) && !models.some((m) => m.getTableName() === t),
+    );
     expect(tablesWithoutModel).toEqual([]);
   });
 });

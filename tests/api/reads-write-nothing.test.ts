@@ -20,9 +20,12 @@ async function snapshot(): Promise<Record<string, string>> {
       ORDER BY 1`,
   );
   const parts = tables.map(
-    (t) => `SELECT '${t.name}' AS name, count(*)::text || ' rows' || ${t.updated ? `', updated ' || coalesce(max(updated_at)::text, '-')` : `''`} AS state FROM "${t.name}"`,
+    (t) =>
+      `SELECT '${t.name}' AS name, count(*)::text || ' rows' || ${t.updated ? `', updated ' || coalesce(max(updated_at)::text, '-')` : `''`} AS state FROM "${t.name}"`,
   );
-  parts.push(`SELECT 'audit_events (last)' AS name, coalesce(max(id)::text, '-') || ' ' || coalesce(max(created_at)::text, '-') AS state FROM audit_events`);
+  parts.push(
+    `SELECT 'audit_events (last)' AS name, coalesce(max(id)::text, '-') || ' ' || coalesce(max(created_at)::text, '-') AS state FROM audit_events`,
+  );
   const rows = await sql<{ name: string; state: string }>(parts.join(' UNION ALL '));
   return Object.fromEntries(rows.map((r) => [r.name, r.state]));
 }
@@ -33,7 +36,8 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
   let paths: string[];
   let pages: string[];
   let tankId: number;
-  const people: Record<'removed' | 'suspended' | 'signedOut', { id: number; membershipId: number; agent: Agent }> = {} as never;
+  const people: Record<'removed' | 'suspended' | 'signedOut', { id: number; membershipId: number; agent: Agent }> =
+    {} as never;
 
   beforeAll(async () => {
     ctx = await makeCoopWithRoles();
@@ -45,7 +49,10 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
       [ctx.coop.id],
     );
     const costs = { methanol: 1000, catalyst: 200, energy: 50, feedstock: 0, other: 0 };
-    const batchId = await insertBatch(ctx.coop.id, { number: 1, released: { at: '2026-11-20T12:00:00Z', tankId: tank!.id, liters: '100.000', costs } });
+    const batchId = await insertBatch(ctx.coop.id, {
+      number: 1,
+      released: { at: '2026-11-20T12:00:00Z', tankId: tank!.id, liters: '100.000', costs },
+    });
     const [invoice] = await sql<{ id: number }>(
       `INSERT INTO invoices (coop_id, membership_id, period, number, status, total_cents, issued_at)
        VALUES ($1, $2, date_trunc('month', now())::date, 1, 'issued', 1500, now()) RETURNING id`,
@@ -54,9 +61,22 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
     tankId = tank!.id;
     const co = `/api/coops/${slug}`;
     paths = [
-      `${co}/tanks`, `${co}/tanks/${tank!.id}`, `${co}/tanks/${tank!.id}/movements`, `${co}/reservations`, `${co}/draws`, `${co}/pricing`,
-      `${co}/overview`, `${co}/batches`, `${co}/batches/${batchId}`, `${co}/supplies/stock`,
-      `${co}/invoices`, `${co}/billing/invoices`, `${co}/billing/invoices/${invoice!.id}`, `${co}/billing/payments`, `${co}/members`, `${co}/audit`,
+      `${co}/tanks`,
+      `${co}/tanks/${tank!.id}`,
+      `${co}/tanks/${tank!.id}/movements`,
+      `${co}/reservations`,
+      `${co}/draws`,
+      `${co}/pricing`,
+      `${co}/overview`,
+      `${co}/batches`,
+      `${co}/batches/${batchId}`,
+      `${co}/supplies/stock`,
+      `${co}/invoices`,
+      `${co}/billing/invoices`,
+      `${co}/billing/invoices/${invoice!.id}`,
+      `${co}/billing/payments`,
+      `${co}/members`,
+      `${co}/audit`,
     ];
     pages = [`/c/${slug}`, `/c/${slug}/tank`, `/c/${slug}/batches`, `/c/${slug}/invoices`];
 
@@ -69,7 +89,6 @@ describe('a removed, suspended or signed-out person’s reads write nothing', ()
         expect(res.status, `${p}: ${JSON.stringify(res.body)}`).toBe(200);
       }
     }
-
 
     const admin = ctx.agents.admin;
     await admin.delete(`${co}/members/${people.removed.membershipId}`).expect(200);

@@ -16,14 +16,23 @@ describe('the session and membership are read fresh on every request', () => {
   let ctx: Ctx;
   beforeAll(async () => {
     ctx = await makeCoopWithRoles();
-    const [tank] = await sql<{ id: number }>(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main', 1000) RETURNING id`, [ctx.coop.id]);
+    const [tank] = await sql<{ id: number }>(
+      `INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main', 1000) RETURNING id`,
+      [ctx.coop.id],
+    );
     const costs = { methanol: 1000, catalyst: 200, energy: 50, feedstock: 0, other: 0 };
-    await insertBatch(ctx.coop.id, { number: 1, released: { at: '2026-11-20T12:00:00Z', tankId: tank!.id, liters: '100.000', costs } });
+    await insertBatch(ctx.coop.id, {
+      number: 1,
+      released: { at: '2026-11-20T12:00:00Z', tankId: tank!.id, liters: '100.000', costs },
+    });
     await insertBatch(ctx.coop.id, { number: 2, status: 'planned' });
   });
 
   const planner = (agent: Agent | ReturnType<typeof http>, body: string) =>
-    agent.post(`${base(ctx.coop.slug)}/planner`).set('content-type', 'application/json').send(body);
+    agent
+      .post(`${base(ctx.coop.slug)}/planner`)
+      .set('content-type', 'application/json')
+      .send(body);
   const PLAN = '{"oilVolume": 40, "titrationTrials": [2]}';
 
   /**
@@ -41,27 +50,40 @@ describe('the session and membership are read fresh on every request', () => {
     after: (res: Response) => void;
   }[] = [
     {
-      name: 'batch list', from: 'brewer', to: 'member', payload: 'rows',
+      name: 'batch list',
+      from: 'brewer',
+      to: 'member',
+      payload: 'rows',
       ask: (a) => a.get(`${base(ctx.coop.slug)}/batches`),
       before: (res) => expect(numbers(res.body)).toEqual([1, 2]),
       after: (res) => expect(numbers(res.body)).toEqual([1]),
     },
     {
-      name: 'planner', from: 'brewer', to: 'treasurer', payload: 'plan',
+      name: 'planner',
+      from: 'brewer',
+      to: 'treasurer',
+      payload: 'plan',
       ask: (a) => planner(a, PLAN),
       before: (res) => expect(res.status).toBe(200),
       after: (res) => expect(res.status).toBe(403),
     },
     {
-      name: 'tank list', from: 'admin', to: 'member', payload: 'tanks',
+      name: 'tank list',
+      from: 'admin',
+      to: 'member',
+      payload: 'tanks',
       ask: (a) => a.get(`${base(ctx.coop.slug)}/tanks`),
       before: (res) => expect(res.body.tanks).toHaveLength(1),
       after: (res) => expect(res.body.tanks).toHaveLength(1),
     },
     {
-      name: 'overview', from: 'admin', to: 'member', payload: 'tank',
+      name: 'overview',
+      from: 'admin',
+      to: 'member',
+      payload: 'tank',
       ask: (a) => a.get(`${base(ctx.coop.slug)}/overview`),
-      before: (res) => expect(res.body).toMatchObject({ role: 'admin', admin: expect.any(Object), treasurer: expect.any(Object) }),
+      before: (res) =>
+        expect(res.body).toMatchObject({ role: 'admin', admin: expect.any(Object), treasurer: expect.any(Object) }),
       after: (res) => {
         expect(res.body.role).toBe('member');
         expect(res.body.admin).toBeUndefined();
@@ -99,7 +121,11 @@ describe('the session and membership are read fresh on every request', () => {
 
       await sql(`DELETE FROM memberships WHERE id = $1`, [u.membershipId]);
       await refused(404);
-      await sql(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, $3)`, [ctx.coop.id, u.id, route.from]);
+      await sql(`INSERT INTO memberships (coop_id, user_id, role) VALUES ($1, $2, $3)`, [
+        ctx.coop.id,
+        u.id,
+        route.from,
+      ]);
       await ok();
 
       // Signing out everywhere bumps the session version; this browser keeps its old cookie.
@@ -110,7 +136,9 @@ describe('the session and membership are read fresh on every request', () => {
 
   it('batch list: the query string is judged after the session check', async () => {
     const { agents, coop } = ctx;
-    await http().get(`${base(coop.slug)}/batches?pageSize=lots`).expect(401);
+    await http()
+      .get(`${base(coop.slug)}/batches?pageSize=lots`)
+      .expect(401);
     await agents.outsider.get(`${base(coop.slug)}/batches?pageSize=lots`).expect(404);
     await agents.member.get(`${base(coop.slug)}/batches`).expect(200);
     const bad = await agents.member.get(`${base(coop.slug)}/batches?pageSize=lots`).expect(422);

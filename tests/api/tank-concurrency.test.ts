@@ -6,7 +6,6 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { makeCoopWithRoles, makeUser, signIn, sql } from '../support/api';
 import { prng } from '../support/prng';
 
-
 const GAL_ML = 3785.411784; // 1 US gal in mL (NIST Handbook 44)
 const galToMl = (milliGal: number) => Math.floor(milliGal * (GAL_ML / 1000) + 0.5);
 
@@ -20,8 +19,13 @@ describe('200 simultaneous reservations against 100 gal', () => {
     const ctx = await makeCoopWithRoles();
     slug = ctx.coop.slug;
     coopId = ctx.coop.id;
-    tankId = (await ctx.agents.brewer.post(`/api/coops/${slug}/tanks`).send({ name: 'Busy tank', capacity: '300' }).expect(201)).body.id;
-    await ctx.agents.brewer.post(`/api/coops/${slug}/tanks/${tankId}/dips`).send({ measured: '100', reason: 'Opening balance', unitCost: '3.00' }).expect(201);
+    tankId = (
+      await ctx.agents.brewer.post(`/api/coops/${slug}/tanks`).send({ name: 'Busy tank', capacity: '300' }).expect(201)
+    ).body.id;
+    await ctx.agents.brewer
+      .post(`/api/coops/${slug}/tanks/${tankId}/dips`)
+      .send({ measured: '100', reason: 'Opening balance', unitCost: '3.00' })
+      .expect(201);
     agents = [ctx.agents.member, ctx.agents.brewer, ctx.agents.treasurer, ctx.agents.admin];
     for (let i = 0; i < 6; i++) agents.push(await signIn((await makeUser({ coopId, role: 'member' })).email));
   });
@@ -34,15 +38,30 @@ describe('200 simultaneous reservations against 100 gal', () => {
     const requests = Array.from({ length: 200 }, (_, i) => {
       const quantity = sizes[Math.floor(rnd() * sizes.length)]!;
       const agent = agents[i % agents.length]!;
-      return { quantity, send: () => agent.post(`/api/coops/${slug}/reservations`).send({ tankId, quantity, windowStart: today, windowEnd: until }) };
+      return {
+        quantity,
+        send: () =>
+          agent
+            .post(`/api/coops/${slug}/reservations`)
+            .send({ tankId, quantity, windowStart: today, windowEnd: until }),
+      };
     });
     const responses = await Promise.all(requests.map((r) => r.send()));
 
     const statuses = responses.map((r) => r.status);
-    expect(statuses.filter((s) => s >= 500), 'no 5xx').toEqual([]);
-    expect(statuses.every((s) => s === 201 || s === 409), `only 201 or 409: ${[...new Set(statuses)].join(', ')}`).toBe(true);
+    expect(
+      statuses.filter((s) => s >= 500),
+      'no 5xx',
+    ).toEqual([]);
+    expect(
+      statuses.every((s) => s === 201 || s === 409),
+      `only 201 or 409: ${[...new Set(statuses)].join(', ')}`,
+    ).toBe(true);
 
-    const acceptedMilliGal = responses.reduce((sum, r, i) => (r.status === 201 ? sum + Math.round(Number(requests[i]!.quantity) * 1000) : sum), 0);
+    const acceptedMilliGal = responses.reduce(
+      (sum, r, i) => (r.status === 201 ? sum + Math.round(Number(requests[i]!.quantity) * 1000) : sum),
+      0,
+    );
     const accepted = statuses.filter((s) => s === 201).length;
     expect(accepted).toBeGreaterThan(10);
     expect(accepted).toBeLessThan(200);
@@ -54,17 +73,29 @@ describe('200 simultaneous reservations against 100 gal', () => {
       expect(typeof r.body.available).toBe('number');
       expect(typeof r.body.availableLiters).toBe('number');
       // Refused because what was available at that moment could not cover the request.
-      expect(Math.round(r.body.availableLiters * 1000)).toBeLessThan(galToMl(Math.round(Number(requests[i]!.quantity) * 1000)));
+      expect(Math.round(r.body.availableLiters * 1000)).toBeLessThan(
+        galToMl(Math.round(Number(requests[i]!.quantity) * 1000)),
+      );
     }
 
     // Ledger and totals: on hand = sum of the ledger; reserved = sum of open reservations ≤ on hand.
-    const [t] = await sql<{ on_hand: string; reserved: string; value: string; ledger_q: string; ledger_v: string; open_q: string; open_n: string }>(
+    const [t] = await sql<{
+      on_hand: string;
+      reserved: string;
+      value: string;
+      ledger_q: string;
+      ledger_v: string;
+      open_q: string;
+      open_n: string;
+    }>(
       `SELECT t.on_hand_liters AS on_hand, t.reserved_liters AS reserved, t.value_cents AS value,
               (SELECT sum(quantity_liters) FROM tank_movements m WHERE m.tank_id = t.id) AS ledger_q,
               (SELECT sum(value_cents) FROM tank_movements m WHERE m.tank_id = t.id) AS ledger_v,
               (SELECT coalesce(sum(quantity_liters), 0) FROM reservations r WHERE r.tank_id = t.id AND r.status = 'open') AS open_q,
               (SELECT count(*) FROM reservations r WHERE r.tank_id = t.id) AS open_n
-       FROM tanks t WHERE t.id = $1`, [tankId]);
+       FROM tanks t WHERE t.id = $1`,
+      [tankId],
+    );
     expect(t!.on_hand).toBe('378.541');
     expect(t!.ledger_q).toBe(t!.on_hand);
     expect(t!.ledger_v).toBe(t!.value);
@@ -73,10 +104,23 @@ describe('200 simultaneous reservations against 100 gal', () => {
     expect(Number(t!.reserved)).toBeLessThanOrEqual(Number(t!.on_hand));
     // Each accepted request left exactly one reservation of its size (in mL); only the one that
     // took the very last of the tank may be trimmed, by at most the 3 mL rounding crumb.
-    const answered = responses.filter((r) => r.status === 201).map((r) => ({ id: r.body.id as number, ml: Math.round(r.body.quantityLiters * 1000) }));
-    const rows = await sql<{ id: number; q: string }>('SELECT id, quantity_liters AS q FROM reservations WHERE tank_id = $1', [tankId]);
-    expect(rows.map((r) => ({ id: r.id, ml: Math.round(Number(r.q) * 1000) })).sort((a, b) => a.id - b.id)).toEqual(answered.sort((a, b) => a.id - b.id));
-    const trimmed = responses.flatMap((r, i) => (r.status === 201 ? [galToMl(Math.round(Number(requests[i]!.quantity) * 1000)) - Math.round(r.body.quantityLiters * 1000)] : [])).filter((d) => d !== 0);
+    const answered = responses
+      .filter((r) => r.status === 201)
+      .map((r) => ({ id: r.body.id as number, ml: Math.round(r.body.quantityLiters * 1000) }));
+    const rows = await sql<{ id: number; q: string }>(
+      'SELECT id, quantity_liters AS q FROM reservations WHERE tank_id = $1',
+      [tankId],
+    );
+    expect(rows.map((r) => ({ id: r.id, ml: Math.round(Number(r.q) * 1000) })).sort((a, b) => a.id - b.id)).toEqual(
+      answered.sort((a, b) => a.id - b.id),
+    );
+    const trimmed = responses
+      .flatMap((r, i) =>
+        r.status === 201
+          ? [galToMl(Math.round(Number(requests[i]!.quantity) * 1000)) - Math.round(r.body.quantityLiters * 1000)]
+          : [],
+      )
+      .filter((d) => d !== 0);
     expect(trimmed.length).toBeLessThanOrEqual(1);
     for (const d of trimmed) expect(d).toBeLessThanOrEqual(3);
   });

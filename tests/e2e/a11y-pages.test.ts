@@ -9,7 +9,12 @@ import type { Role } from '@/lib/auth/roles';
 import { baseUrl, DEMO_PASSWORD } from '../support/api';
 import { checkA11y, signInUi, SHOTS, withBrowser } from '../support/browser';
 
-const PEOPLE: [Role, string][] = [['member', 'dale.member'], ['brewer', 'juniper.brewer'], ['treasurer', 'tobias.treasurer'], ['admin', 'marisol.admin']];
+const PEOPLE: [Role, string][] = [
+  ['member', 'dale.member'],
+  ['brewer', 'juniper.brewer'],
+  ['treasurer', 'tobias.treasurer'],
+  ['admin', 'marisol.admin'],
+];
 
 describe('every page × role × width passes axe', () => {
   for (const [role, who] of PEOPLE) {
@@ -34,7 +39,10 @@ describe('every page × role × width passes axe', () => {
           if (role === 'brewer') {
             // The long batch record: its step navigator stays pinned at the top while scrolling.
             await page.goto(`${baseUrl()}/c/prairie-lantern/batches`);
-            await page.getByRole('link', { name: /^Batch \d+$/ }).first().click();
+            await page
+              .getByRole('link', { name: /^Batch \d+$/ })
+              .first()
+              .click();
             const steps = page.getByRole('navigation', { name: 'Batch steps' });
             await steps.waitFor();
             await page.mouse.wheel(0, 3000);

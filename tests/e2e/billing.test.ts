@@ -13,7 +13,19 @@ describe('billing a month in the browser', () => {
     const slug = c.coop.slug;
     const nell = c.members['Nell Norris']!;
     // Nell drew 12 gal (45.425 L) for the road: fuel 389 × 12 = 4668, surcharge 10 × 12 = 120, tax 24.4 × 12 = 292.8 → 293.
-    await insertDraw({ coopId: c.coop.id, tankId: c.tankId, membershipId: nell.membershipId, liters: '45.425', occurredAt: dayIn(month, 11), unitPrice: 389, surchargeRate: 10, taxRate: 24.4, fuelCents: 4668, surchargeCents: 120, taxCents: 293 });
+    await insertDraw({
+      coopId: c.coop.id,
+      tankId: c.tankId,
+      membershipId: nell.membershipId,
+      liters: '45.425',
+      occurredAt: dayIn(month, 11),
+      unitPrice: 389,
+      surchargeRate: 10,
+      taxRate: 24.4,
+      fuelCents: 4668,
+      surchargeCents: 120,
+      taxCents: 293,
+    });
     // Nell's invoice: 4668 + 1500 dues + 120 + 293 = 6581 → $65.81.
 
     await withBrowser(async (page) => {
@@ -50,7 +62,10 @@ describe('billing a month in the browser', () => {
       await page.getByText('This invoice is paid in full. Thank you!').waitFor({ timeout: 20_000 });
       await shootBothWidths(page, 'billing-member-paid');
     });
-    const [paid] = await sql<{ status: string; paid_cents: string }>(`SELECT status, paid_cents FROM invoices WHERE coop_id = $1 AND number = 1`, [c.coop.id]);
+    const [paid] = await sql<{ status: string; paid_cents: string }>(
+      `SELECT status, paid_cents FROM invoices WHERE coop_id = $1 AND number = 1`,
+      [c.coop.id],
+    );
     expect(paid).toEqual({ status: 'paid', paid_cents: '6581' });
 
     await withBrowser(async (page) => {
@@ -59,11 +74,15 @@ describe('billing a month in the browser', () => {
       await page.goto(`${baseUrl()}/c/${slug}/billing/${month}`);
       const nellRow = page.getByRole('row', { name: /INV-000001/ });
       await nellRow.getByText('Paid', { exact: true }).waitFor();
-      await page.getByText('✓ Paid on these invoices = payments applied to them: $65.81 = $65.81', { exact: false }).waitFor();
+      await page
+        .getByText('✓ Paid on these invoices = payments applied to them: $65.81 = $65.81', { exact: false })
+        .waitFor();
       await page.getByText('Every payment received this month is matched.').waitFor();
       await shootBothWidths(page, 'billing-reconciled');
       // Closing is confirmed in a dialog that says what it locks; the result is announced and focused.
-      const monthName = new Intl.DateTimeFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${month}-15T00:00:00Z`));
+      const monthName = new Intl.DateTimeFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(
+        new Date(`${month}-15T00:00:00Z`),
+      );
       await page.getByRole('button', { name: `Close ${monthName}…` }).click();
       const dialog = page.getByRole('dialog', { name: `Close ${monthName}?` });
       await dialog.getByText(/locks .* draws, invoices and payments for good/).waitFor();
@@ -74,7 +93,9 @@ describe('billing a month in the browser', () => {
       await page.getByText('Closed', { exact: true }).first().waitFor();
       await shootBothWidths(page, 'billing-closed');
     });
-    const [period] = await sql<{ status: string }>(`SELECT status FROM billing_periods WHERE coop_id = $1`, [c.coop.id]);
+    const [period] = await sql<{ status: string }>(`SELECT status FROM billing_periods WHERE coop_id = $1`, [
+      c.coop.id,
+    ]);
     expect(period!.status).toBe('closed');
   }, 240_000);
 });

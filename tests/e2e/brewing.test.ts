@@ -5,19 +5,34 @@ import { describe, expect, it } from 'vitest';
 import { baseUrl, makeCoop, makeUser, sql, TEST_PASSWORD } from '../support/api';
 import { checkA11y, shootBothWidths, signInUi, withBrowser } from '../support/browser';
 
-const section = (page: Page, title: string) => page.locator('section', { has: page.getByRole('heading', { name: title, exact: true }) });
+const section = (page: Page, title: string) =>
+  page.locator('section', { has: page.getByRole('heading', { name: title, exact: true }) });
 
 describe('brewing in the browser', () => {
   it('a brewer plans a batch, records every step and releases it into the tank', { timeout: 240_000 }, async () => {
-    const coop = await makeCoop({ settings: { recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } } });
+    const coop = await makeCoop({
+      settings: { recipe: { catalyst: 'KOH', baseGramsPerLiter: 4.91, purityPct: 90, methanolPct: 20 } },
+    });
     const brewer = await makeUser({ coopId: coop.id, role: 'brewer', name: 'Rowan Ashby' });
-    const [tank] = await sql<{ id: number }>(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main tank', 2000) RETURNING id`, [coop.id]);
-    await sql(`INSERT INTO chemical_lots (coop_id, kind, supplier, received_on, quantity_unit, quantity, remaining_quantity, total_cost_cents)
-               VALUES ($1, 'methanol', 'Valley Chem Supply', '2026-10-01', 'L', 200, 200, 36000)`, [coop.id]);
-    await sql(`INSERT INTO chemical_lots (coop_id, kind, supplier, received_on, quantity_unit, quantity, remaining_quantity, total_cost_cents, purity_pct)
-               VALUES ($1, 'KOH', 'Lakeside Lab Goods', '2026-10-01', 'g', 5000, 5000, 4250, 90)`, [coop.id]);
-    const [oil] = await sql<{ id: number }>(`INSERT INTO oil_lots (coop_id, collected_from, collected_on, volume_liters, titration_ml, titrant)
-               VALUES ($1, 'Juniper Street Grill', '2026-10-20', 150, 3.5, 'KOH') RETURNING id`, [coop.id]);
+    const [tank] = await sql<{ id: number }>(
+      `INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main tank', 2000) RETURNING id`,
+      [coop.id],
+    );
+    await sql(
+      `INSERT INTO chemical_lots (coop_id, kind, supplier, received_on, quantity_unit, quantity, remaining_quantity, total_cost_cents)
+               VALUES ($1, 'methanol', 'Valley Chem Supply', '2026-10-01', 'L', 200, 200, 36000)`,
+      [coop.id],
+    );
+    await sql(
+      `INSERT INTO chemical_lots (coop_id, kind, supplier, received_on, quantity_unit, quantity, remaining_quantity, total_cost_cents, purity_pct)
+               VALUES ($1, 'KOH', 'Lakeside Lab Goods', '2026-10-01', 'g', 5000, 5000, 4250, 90)`,
+      [coop.id],
+    );
+    const [oil] = await sql<{ id: number }>(
+      `INSERT INTO oil_lots (coop_id, collected_from, collected_on, volume_liters, titration_ml, titrant)
+               VALUES ($1, 'Juniper Street Grill', '2026-10-20', 150, 3.5, 'KOH') RETURNING id`,
+      [coop.id],
+    );
 
     await withBrowser(async (page) => {
       await signInUi(page, brewer.email, TEST_PASSWORD);
@@ -34,7 +49,10 @@ describe('brewing in the browser', () => {
       await expect(page.getByText('1.017 kg').first().waitFor({ timeout: 10_000 })).resolves.toBeUndefined();
       await shootBothWidths(page, 'brewing-planner');
 
-      await Promise.all([page.waitForURL(/\/batches\/\d+$/), page.getByRole('button', { name: 'Create batch' }).click()]);
+      await Promise.all([
+        page.waitForURL(/\/batches\/\d+$/),
+        page.getByRole('button', { name: 'Create batch' }).click(),
+      ]);
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Batch 1');
       await checkA11y(page);
 
@@ -85,7 +103,10 @@ describe('brewing in the browser', () => {
       await page.getByRole('button', { name: 'Release to a tank…' }).click();
       const dialog = page.getByRole('dialog', { name: /Release batch 1 to a tank/ });
       await dialog.getByText('Screened — 0 of 19 required properties tested, none failing', { exact: true }).waitFor();
-      await dialog.getByText(/can’t be undone/).first().waitFor();
+      await dialog
+        .getByText(/can’t be undone/)
+        .first()
+        .waitFor();
       await dialog.getByLabel('Volume released (gal)').fill('28');
       await dialog.getByRole('button', { name: 'Release — can’t be undone' }).click();
       await dialog.getByText(/Say why this batch is released anyway/).waitFor();
@@ -100,10 +121,19 @@ describe('brewing in the browser', () => {
       await shootBothWidths(page, 'brewing-list');
     });
 
-    const [batch] = await sql<{ status: string; released_liters: string; actual_catalyst_grams: string; total_cost_cents: string }>(
-      `SELECT status, released_liters, actual_catalyst_grams, total_cost_cents FROM batches WHERE coop_id = $1`, [coop.id]);
+    const [batch] = await sql<{
+      status: string;
+      released_liters: string;
+      actual_catalyst_grams: string;
+      total_cost_cents: string;
+    }>(`SELECT status, released_liters, actual_catalyst_grams, total_cost_cents FROM batches WHERE coop_id = $1`, [
+      coop.id,
+    ]);
     expect(batch).toMatchObject({ status: 'released', released_liters: '105.992', actual_catalyst_grams: '1017.000' });
-    const [t] = await sql<{ on_hand_liters: string; value_cents: string }>(`SELECT on_hand_liters, value_cents FROM tanks WHERE id = $1`, [tank!.id]);
+    const [t] = await sql<{ on_hand_liters: string; value_cents: string }>(
+      `SELECT on_hand_liters, value_cents FROM tanks WHERE id = $1`,
+      [tank!.id],
+    );
     expect(t).toEqual({ on_hand_liters: '105.992', value_cents: batch!.total_cost_cents });
   });
 
@@ -117,7 +147,10 @@ describe('brewing in the browser', () => {
       await page.getByRole('heading', { name: 'Oil lots', exact: true }).waitFor();
       await shootBothWidths(page, 'brewing-oil');
       await page.goto(`${baseUrl()}/c/prairie-lantern/batches`);
-      await page.getByRole('link', { name: /Batch \d+/ }).first().click();
+      await page
+        .getByRole('link', { name: /Batch \d+/ })
+        .first()
+        .click();
       await page.getByRole('heading', { level: 1, name: /Batch \d+/ }).waitFor();
       await shootBothWidths(page, 'brewing-demo-batch');
     });
@@ -130,7 +163,10 @@ describe('brewing in the browser', () => {
       const statuses = await page.locator('tbody td:nth-child(3)').allTextContents();
       expect(statuses.length).toBeGreaterThan(0);
       expect(new Set(statuses)).toEqual(new Set(['Released']));
-      await page.getByRole('link', { name: /Batch \d+/ }).first().click();
+      await page
+        .getByRole('link', { name: /Batch \d+/ })
+        .first()
+        .click();
       await page.getByRole('heading', { name: 'Quality' }).waitFor();
       await expect(page.getByText(/screening only/).count()).resolves.toBeGreaterThan(0);
       await expect(page.getByRole('button', { name: /Move to/ }).count()).resolves.toBe(0);

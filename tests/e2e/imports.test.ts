@@ -18,19 +18,28 @@ describe('imports in the browser', () => {
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Import from a spreadsheet');
       await shootBothWidths(page, 'imports');
 
-      await page.locator('#invitations-file').setInputFiles({ name: 'members.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+      await page
+        .locator('#invitations-file')
+        .setInputFiles({ name: 'members.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
       await page.getByRole('button', { name: 'Preview' }).first().click();
       await page.getByText('Preview of members.csv').waitFor();
       await expect(page.getByText('Unknown role').count()).resolves.toBeGreaterThan(0);
       await expect(page.getByText('Bad e-mail').count()).resolves.toBeGreaterThan(0);
       await shootBothWidths(page, 'imports-invitations-preview');
 
-      await Promise.all([page.waitForURL(/\/imports\/invitations\/\d+$/), page.getByRole('button', { name: 'Invite 1 person' }).click()]);
+      await Promise.all([
+        page.waitForURL(/\/imports\/invitations\/\d+$/),
+        page.getByRole('button', { name: 'Invite 1 person' }).click(),
+      ]);
       await page.getByText('E-mails sent: 1 of 1').waitFor({ timeout: 30_000 });
       await shootBothWidths(page, 'imports-invitations-result');
 
       await page.goto(`${baseUrl()}/c/${coop.slug}/imports`);
-      await page.locator('#opening-balances-file').setInputFiles({ name: 'balances.csv', mimeType: 'text/csv', buffer: Buffer.from('E-mail,Balance,As of\nnobody@example.org,12.00,11/30/2026\n') });
+      await page.locator('#opening-balances-file').setInputFiles({
+        name: 'balances.csv',
+        mimeType: 'text/csv',
+        buffer: Buffer.from('E-mail,Balance,As of\nnobody@example.org,12.00,11/30/2026\n'),
+      });
       await page.getByRole('button', { name: 'Preview' }).nth(1).click();
       await page.getByText(/not a member of this co-op yet/).waitFor();
       await expect(page.getByRole('button', { name: 'Import 0 rows' }).isDisabled()).resolves.toBe(true);
@@ -38,11 +47,19 @@ describe('imports in the browser', () => {
 
       // Past batches: a bad row is named beside its field; a good file imports read-only batches.
       const head = 'Batch number,Date,Oil in (gallons),Fuel out (gallons),Cost per gallon,Quality,Notes\n';
-      await page.locator('#past-batches-file').setInputFiles({ name: 'history-bad.csv', mimeType: 'text/csv', buffer: Buffer.from(`${head}7,03/14/2025,40,60,1.90,pass,\n`) });
+      await page.locator('#past-batches-file').setInputFiles({
+        name: 'history-bad.csv',
+        mimeType: 'text/csv',
+        buffer: Buffer.from(`${head}7,03/14/2025,40,60,1.90,pass,\n`),
+      });
       await page.getByRole('button', { name: 'Preview' }).nth(4).click();
       await page.getByText(/More fuel out than 1\.1 ×/).waitFor();
       await shootBothWidths(page, 'imports-past-batches-preview');
-      await page.locator('#past-batches-file').setInputFiles({ name: 'history.csv', mimeType: 'text/csv', buffer: Buffer.from(`${head}7,03/14/2025,40,38,1.90,pass,Clear\n8,04/02/2025,40,36,,,\n`) });
+      await page.locator('#past-batches-file').setInputFiles({
+        name: 'history.csv',
+        mimeType: 'text/csv',
+        buffer: Buffer.from(`${head}7,03/14/2025,40,38,1.90,pass,Clear\n8,04/02/2025,40,36,,,\n`),
+      });
       await page.getByRole('button', { name: 'Preview' }).nth(4).click();
       await page.getByRole('button', { name: 'Import 2 rows' }).click();
       await page.getByText('Imported 2 rows.').waitFor({ timeout: 30_000 });

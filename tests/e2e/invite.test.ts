@@ -47,12 +47,16 @@ describe('invitation in the browser', () => {
       await page.setViewportSize({ width: 1280, height: 800 });
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Larkspur Commons Fuel');
       await expect(page.getByRole('banner').getByText('brewer', { exact: true }).isVisible()).resolves.toBe(true);
-      await expect(page.getByRole('navigation', { name: 'Co-op' }).getByRole('link', { name: 'Members' }).count()).resolves.toBe(0);
+      await expect(
+        page.getByRole('navigation', { name: 'Co-op' }).getByRole('link', { name: 'Members' }).count(),
+      ).resolves.toBe(0);
       await shootBothWidths(page, 'invite-landed');
 
       // The same link again: a clear message, not an error.
       await page.goto(link);
-      await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('This invitation was already used');
+      await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe(
+        'This invitation was already used',
+      );
       await shootBothWidths(page, 'invite-used');
     });
   }, 150_000);
@@ -62,7 +66,9 @@ describe('invitation in the browser', () => {
     const u = await makeUser({ coopId: coop.id, role: 'treasurer', name: 'Ambrose Kettering' });
     await withBrowser(async (page) => {
       await page.goto(`${baseUrl()}/invite/not-a-real-link`);
-      await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('This invitation link does not work');
+      await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe(
+        'This invitation link does not work',
+      );
       await shootBothWidths(page, 'invite-invalid');
 
       await page.goto(`${baseUrl()}/reset-password`);

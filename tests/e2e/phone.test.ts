@@ -26,7 +26,8 @@ async function expectOnScreen(page: Page, what: string, parts: Record<string, Lo
   }
 }
 
-const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SHOTS, `phone-${name}.png`), fullPage: false });
+const shot = (page: Page, name: string) =>
+  page.screenshot({ path: path.join(SHOTS, `phone-${name}.png`), fullPage: false });
 
 describe('at 360×740', () => {
   let ctx: Awaited<ReturnType<typeof makeCoopWithRoles>>;
@@ -35,8 +36,13 @@ describe('at 360×740', () => {
     ctx = await makeCoopWithRoles();
     slug = ctx.coop.slug;
     await sql("UPDATE users SET name = 'Ines Varga' WHERE id = $1", [ctx.users.member.id]);
-    const tank = (await ctx.agents.brewer.post(`/api/coops/${slug}/tanks`).send({ name: 'Barn tank', capacity: '500' }).expect(201)).body;
-    await ctx.agents.brewer.post(`/api/coops/${slug}/tanks/${tank.id}/dips`).send({ measured: '120', reason: 'Opening balance', unitCost: '3.20' }).expect(201);
+    const tank = (
+      await ctx.agents.brewer.post(`/api/coops/${slug}/tanks`).send({ name: 'Barn tank', capacity: '500' }).expect(201)
+    ).body;
+    await ctx.agents.brewer
+      .post(`/api/coops/${slug}/tanks/${tank.id}/dips`)
+      .send({ measured: '120', reason: 'Opening balance', unitCost: '3.20' })
+      .expect(201);
     await ctx.agents.treasurer.post(`/api/coops/${slug}/pricing`).send({ kind: 'fixed', price: '4.50' }).expect(201);
   });
 
@@ -59,7 +65,11 @@ describe('at 360×740', () => {
       await expectAnnounced(page, /^Reserved\./);
       const row = page.getByRole('table', { name: 'Reservations' }).getByRole('row').filter({ hasText: '12.0 gal' });
       await row.getByText('open', { exact: true }).waitFor();
-      await expectOnScreen(page, 'reservation row', { status: row.getByText('open', { exact: true }), amount: row.getByText('12.0 gal', { exact: true }), action: row.getByRole('button', { name: /^Cancel reservation/ }) });
+      await expectOnScreen(page, 'reservation row', {
+        status: row.getByText('open', { exact: true }),
+        amount: row.getByText('12.0 gal', { exact: true }),
+        action: row.getByRole('button', { name: /^Cancel reservation/ }),
+      });
       await shot(page, 'me-reserved');
       await checkA11y(page);
 
@@ -71,7 +81,10 @@ describe('at 360×740', () => {
       await dialog.getByRole('button', { name: 'Yes, cancel it' }).click();
       await expectAnnounced(page, /Cancelled reservation \d+: 12.0 gal is back for everyone/);
       await row.getByText('cancelled', { exact: true }).waitFor();
-      await expectOnScreen(page, 'cancelled row', { status: row.getByText('cancelled', { exact: true }), amount: row.getByText('12.0 gal', { exact: true }) });
+      await expectOnScreen(page, 'cancelled row', {
+        status: row.getByText('cancelled', { exact: true }),
+        amount: row.getByText('12.0 gal', { exact: true }),
+      });
       await checkA11y(page);
     });
   }, 150_000);
@@ -94,7 +107,11 @@ describe('at 360×740', () => {
       await expect(form.getByLabel('Member').inputValue()).resolves.toBe('');
       await shot(page, 'draw-recorded');
       const row = page.getByRole('table', { name: 'Draws' }).getByRole('row').filter({ hasText: '$36.00' });
-      await expectOnScreen(page, 'draw row', { status: row.getByText('recorded'), amount: row.getByText('$36.00', { exact: true }), action: row.getByRole('button', { name: /^Reverse draw/ }) });
+      await expectOnScreen(page, 'draw row', {
+        status: row.getByText('recorded'),
+        amount: row.getByText('$36.00', { exact: true }),
+        action: row.getByRole('button', { name: /^Reverse draw/ }),
+      });
       // The tank and member are behind the row's Details button.
       await row.getByRole('button', { name: 'Details' }).click();
       await row.getByText('Barn tank').waitFor();
@@ -104,12 +121,18 @@ describe('at 360×740', () => {
       await row.getByRole('button', { name: /^Reverse draw/ }).click();
       const dialog = page.getByRole('dialog', { name: /^Reverse draw #\d+\?$/ });
       await dialog.getByRole('button', { name: 'Reverse draw' }).click();
-      await dialog.getByText(/reason/i).first().waitFor();
+      await dialog
+        .getByText(/reason/i)
+        .first()
+        .waitFor();
       await dialog.getByLabel('Reason for reversing').fill('Meter misread');
       await checkA11y(page);
       await dialog.getByRole('button', { name: 'Reverse draw' }).click();
       await expectAnnounced(page, /Draw #\d+ is reversed/);
-      await page.getByRole('table', { name: 'Draws' }).getByText(/reversed by #/).waitFor();
+      await page
+        .getByRole('table', { name: 'Draws' })
+        .getByText(/reversed by #/)
+        .waitFor();
       await checkA11y(page);
     });
   }, 150_000);
@@ -118,19 +141,41 @@ describe('at 360×740', () => {
     const month = monthsAgo(1);
     const c = await makeBillingCoop({ members: ['Odile Park'] });
     const odile = c.members['Odile Park']!;
-    await insertDraw({ coopId: c.coop.id, tankId: c.tankId, membershipId: odile.membershipId, liters: '37.854', occurredAt: dayIn(month, 9), unitPrice: 400, fuelCents: 4000 });
+    await insertDraw({
+      coopId: c.coop.id,
+      tankId: c.tankId,
+      membershipId: odile.membershipId,
+      liters: '37.854',
+      occurredAt: dayIn(month, 9),
+      unitPrice: 400,
+      fuelCents: 4000,
+    });
     await runMonth(c.treasurerAgent, c.coop.slug, month);
     await c.treasurerAgent.post(`/api/coops/${c.coop.slug}/billing/periods/${month}/issue`).send({}).expect(200);
     const today = new Date().toISOString().slice(0, 10);
-    await c.treasurerAgent.post(`/api/coops/${c.coop.slug}/billing/payments`).send({ memberId: odile.membershipId, method: 'cash', amount: '40.00', receivedOn: `${month}-28` < today ? `${month}-28` : today }).expect(201);
+    await c.treasurerAgent
+      .post(`/api/coops/${c.coop.slug}/billing/payments`)
+      .send({
+        memberId: odile.membershipId,
+        method: 'cash',
+        amount: '40.00',
+        receivedOn: `${month}-28` < today ? `${month}-28` : today,
+      })
+      .expect(201);
 
     await withBrowser(async (page) => {
       page.setDefaultTimeout(20_000);
       await page.setViewportSize(PHONE);
       await signInUi(page, c.treasurer.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${c.coop.slug}/billing/${month}`);
-      const pay = page.getByRole('table', { name: 'Unmatched payments' }).getByRole('row').filter({ hasText: 'Odile Park' });
-      await expectOnScreen(page, 'payment row', { amount: pay.getByText('$40.00').first(), action: pay.getByRole('button', { name: 'Match' }) });
+      const pay = page
+        .getByRole('table', { name: 'Unmatched payments' })
+        .getByRole('row')
+        .filter({ hasText: 'Odile Park' });
+      await expectOnScreen(page, 'payment row', {
+        amount: pay.getByText('$40.00').first(),
+        action: pay.getByRole('button', { name: 'Match' }),
+      });
       await checkA11y(page);
       await shot(page, 'billing-unmatched');
       await pay.getByRole('button', { name: 'Match' }).click();
@@ -138,7 +183,11 @@ describe('at 360×740', () => {
       await page.getByText('Every payment received this month is matched.').waitFor();
       const inv = page.getByRole('row', { name: /INV-\d+/ }).first();
       await inv.getByText('Paid', { exact: true }).waitFor();
-      await expectOnScreen(page, 'invoice row', { status: inv.getByText('Paid', { exact: true }), amount: inv.getByText('$40.00').first(), action: inv.getByRole('link', { name: /INV-\d+/ }) });
+      await expectOnScreen(page, 'invoice row', {
+        status: inv.getByText('Paid', { exact: true }),
+        amount: inv.getByText('$40.00').first(),
+        action: inv.getByRole('link', { name: /INV-\d+/ }),
+      });
       await checkA11y(page);
       await shot(page, 'billing-reconciled');
     });
@@ -146,7 +195,8 @@ describe('at 360×740', () => {
 
   it('an admin sorts the member cards with the Sort by control (the headers are hidden on a phone)', async () => {
     const names = { admin: 'Bea Ostrander', treasurer: 'Cyril Moss', brewer: 'Dana Quill' } as const;
-    for (const [role, name] of Object.entries(names)) await sql('UPDATE users SET name = $1 WHERE id = $2', [name, ctx.users[role as keyof typeof names].id]);
+    for (const [role, name] of Object.entries(names))
+      await sql('UPDATE users SET name = $1 WHERE id = $2', [name, ctx.users[role as keyof typeof names].id]);
     await withBrowser(async (page) => {
       page.setDefaultTimeout(20_000);
       await page.setViewportSize(PHONE);
@@ -157,12 +207,20 @@ describe('at 360×740', () => {
       await sortForm.getByLabel('Order').selectOption('desc');
       await checkA11y(page);
       await shot(page, 'members-sort');
-      await Promise.all([page.waitForURL(/sort=name&dir=desc/), sortForm.getByRole('button', { name: 'Sort' }).click()]);
+      await Promise.all([
+        page.waitForURL(/sort=name&dir=desc/),
+        sortForm.getByRole('button', { name: 'Sort' }).click(),
+      ]);
       const table = page.getByRole('table', { name: 'Members of the co-op' });
-      await expect.poll(async () => {
-        const text = (await table.textContent()) ?? '';
-        return ['Ines Varga', 'Dana Quill', 'Cyril Moss', 'Bea Ostrander'].map((n) => text.indexOf(n));
-      }, { timeout: 20_000 }).toSatisfy((at: number[]) => at.every((x, i) => x >= 0 && (i === 0 || x > at[i - 1]!)));
+      await expect
+        .poll(
+          async () => {
+            const text = (await table.textContent()) ?? '';
+            return ['Ines Varga', 'Dana Quill', 'Cyril Moss', 'Bea Ostrander'].map((n) => text.indexOf(n));
+          },
+          { timeout: 20_000 },
+        )
+        .toSatisfy((at: number[]) => at.every((x, i) => x >= 0 && (i === 0 || x > at[i - 1]!)));
       // The control shows the order in force after the reload.
       await expect(sortForm.getByLabel('Sort by').inputValue()).resolves.toBe('name');
       await expect(sortForm.getByLabel('Order').inputValue()).resolves.toBe('desc');

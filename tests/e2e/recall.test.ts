@@ -14,13 +14,44 @@ describe('recall in headless Chromium', () => {
     ctx = await makeCoopWithRoles();
     await sql(`UPDATE coops SET units = 'metric' WHERE id = $1`, [ctx.coop.id]);
     const P = `/api/coops/${ctx.coop.slug}`;
-    const tankId = (await ctx.agents.brewer.post(`${P}/tanks`).send({ name: 'Barn tank', capacity: '500' }).expect(201)).body.id;
-    await ctx.agents.treasurer.post(`${P}/pricing`).send({ kind: 'cost-plus-percent', marginPct: '10', surchargeCents: '0', roadTaxCents: '0' }).expect(201);
-    await ctx.agents.brewer.post(`${P}/supplies/chemicals`).send({ kind: 'methanol', supplier: 'Valley Chem Supply', receivedOn: '2026-10-01', quantity: 20, unit: 'L', totalCost: '30.00' }).expect(201);
-    await ctx.agents.brewer.post(`${P}/supplies/chemicals`).send({ kind: 'KOH', supplier: 'Lakeside Lab Goods', receivedOn: '2026-10-01', quantity: 1, unit: 'kg', totalCost: '9.00', purityPct: 90 }).expect(201);
+    const tankId = (await ctx.agents.brewer.post(`${P}/tanks`).send({ name: 'Barn tank', capacity: '500' }).expect(201))
+      .body.id;
+    await ctx.agents.treasurer
+      .post(`${P}/pricing`)
+      .send({ kind: 'cost-plus-percent', marginPct: '10', surchargeCents: '0', roadTaxCents: '0' })
+      .expect(201);
+    await ctx.agents.brewer
+      .post(`${P}/supplies/chemicals`)
+      .send({
+        kind: 'methanol',
+        supplier: 'Valley Chem Supply',
+        receivedOn: '2026-10-01',
+        quantity: 20,
+        unit: 'L',
+        totalCost: '30.00',
+      })
+      .expect(201);
+    await ctx.agents.brewer
+      .post(`${P}/supplies/chemicals`)
+      .send({
+        kind: 'KOH',
+        supplier: 'Lakeside Lab Goods',
+        receivedOn: '2026-10-01',
+        quantity: 1,
+        unit: 'kg',
+        totalCost: '9.00',
+        purityPct: 90,
+      })
+      .expect(201);
     batchId = await insertBatch(ctx.coop.id, { number: 1, status: 'testing', methanolLiters: 2, catalystGrams: 50 });
-    await ctx.agents.brewer.post(`${P}/batches/${batchId}/release`).send({ tankId, volume: '120', reason: 'Lab results to follow' }).expect(200);
-    await ctx.agents.brewer.post(`${P}/draws`).send({ membershipId: ctx.users.member.membershipId, tankId, quantity: '25', declaredUse: 'road' }).expect(201);
+    await ctx.agents.brewer
+      .post(`${P}/batches/${batchId}/release`)
+      .send({ tankId, volume: '120', reason: 'Lab results to follow' })
+      .expect(200);
+    await ctx.agents.brewer
+      .post(`${P}/draws`)
+      .send({ membershipId: ctx.users.member.membershipId, tankId, quantity: '25', declaredUse: 'road' })
+      .expect(201);
   });
 
   it('the brewer records a failing lab result and sees the affected draws; the member sees the notice', async () => {
@@ -38,7 +69,12 @@ describe('recall in headless Chromium', () => {
       await page.getByText('Batch 1 is under review').waitFor({ timeout: 30_000 });
       await page.getByText('Affected draws (1)').click();
       // One member drew it: the header row and one member row; the draw is listed with its share.
-      expect(await page.getByRole('table', { name: /Members who drew fuel from batch 1/ }).getByRole('row').count()).toBe(2);
+      expect(
+        await page
+          .getByRole('table', { name: /Members who drew fuel from batch 1/ })
+          .getByRole('row')
+          .count(),
+      ).toBe(2);
       await page.getByText(/25(\.0+)? L of this batch/).waitFor();
       await page.screenshot({ path: path.join(SHOTS, 'recall-batch-brewer.png'), fullPage: true });
       await checkA11y(page);

@@ -12,9 +12,17 @@ describe('reserve → draw → see it', () => {
     ctx = await makeCoopWithRoles();
     slug = ctx.coop.slug;
     await sql("UPDATE users SET name = 'Rosa Quill' WHERE id = $1", [ctx.users.member.id]);
-    const tank = (await ctx.agents.brewer.post(`/api/coops/${slug}/tanks`).send({ name: 'Yard tank', capacity: '500' }).expect(201)).body;
-    await ctx.agents.brewer.post(`/api/coops/${slug}/tanks/${tank.id}/dips`).send({ measured: '120', reason: 'Opening balance', unitCost: '3.20' }).expect(201);
-    await ctx.agents.treasurer.post(`/api/coops/${slug}/pricing`).send({ kind: 'fixed', price: '4.50', roadTaxCents: '24.4' }).expect(201);
+    const tank = (
+      await ctx.agents.brewer.post(`/api/coops/${slug}/tanks`).send({ name: 'Yard tank', capacity: '500' }).expect(201)
+    ).body;
+    await ctx.agents.brewer
+      .post(`/api/coops/${slug}/tanks/${tank.id}/dips`)
+      .send({ measured: '120', reason: 'Opening balance', unitCost: '3.20' })
+      .expect(201);
+    await ctx.agents.treasurer
+      .post(`/api/coops/${slug}/pricing`)
+      .send({ kind: 'fixed', price: '4.50', roadTaxCents: '24.4' })
+      .expect(201);
   });
 
   it('works end to end, accessibly, at 360 and 1280 px', { timeout: 240_000 }, async () => {
@@ -25,7 +33,9 @@ describe('reserve → draw → see it', () => {
       await expect(page.getByTestId('reserve-available').textContent()).resolves.toBe('120.0 gal');
       // The form checks with the route's own schema first: the reason shows beside the field and nothing is sent.
       const posts: string[] = [];
-      page.on('request', (r) => { if (r.method() === 'POST' && r.url().includes('/reservations')) posts.push(r.url()); });
+      page.on('request', (r) => {
+        if (r.method() === 'POST' && r.url().includes('/reservations')) posts.push(r.url());
+      });
       await page.getByLabel('Quantity (gallons)').fill('10.12345');
       await page.getByRole('button', { name: 'Reserve fuel' }).click();
       await page.locator('#res-quantity-error').getByText('Use at most 3 decimals.').waitFor();
@@ -48,7 +58,9 @@ describe('reserve → draw → see it', () => {
     await withBrowser(async (page) => {
       await signInUi(page, ctx.users.brewer.email, TEST_PASSWORD);
       await page.goto(`${baseUrl()}/c/${slug}/tank`);
-      await page.getByRole('img', { name: /Yard tank: 120.0 gal on hand .* 10.0 gal reserved; 110.0 gal available/ }).waitFor();
+      await page
+        .getByRole('img', { name: /Yard tank: 120.0 gal on hand .* 10.0 gal reserved; 110.0 gal available/ })
+        .waitFor();
       await shootBothWidths(page, 'tank-page-brewer');
       await page.goto(`${baseUrl()}/c/${slug}/draws`);
       const form = page.getByRole('form', { name: 'Record a draw' });
@@ -71,7 +83,10 @@ describe('reserve → draw → see it', () => {
       const draws = page.getByRole('table', { name: 'My draws' });
       await draws.getByText('$42.70').waitFor();
       await draws.getByText('9.0 gal', { exact: true }).waitFor();
-      await page.getByRole('table', { name: 'Reservations' }).getByText(/drawn \(#\d+\)/).waitFor();
+      await page
+        .getByRole('table', { name: 'Reservations' })
+        .getByText(/drawn \(#\d+\)/)
+        .waitFor();
       await expect(page.getByTestId('reserve-available').textContent()).resolves.toBe('111.0 gal');
       await shootBothWidths(page, 'tank-me-drawn');
     });
@@ -88,7 +103,10 @@ describe('reserve → draw → see it', () => {
       await form.getByLabel('Amount added (USD per gal)').fill('0.40');
       await form.getByLabel('Road-fuel tax (cents per gal, optional)').fill('24.4');
       await form.getByRole('button', { name: 'Save new price' }).click();
-      await page.getByText('Average cost + $0.40/gal · road tax 24.4¢/gal (road use only)', { exact: true }).first().waitFor();
+      await page
+        .getByText('Average cost + $0.40/gal · road tax 24.4¢/gal (road use only)', { exact: true })
+        .first()
+        .waitFor();
       const history = page.getByRole('table', { name: 'Pricing history' });
       await history.getByText('in force').waitFor();
       await history.getByText('past').waitFor();

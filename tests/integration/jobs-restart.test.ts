@@ -42,7 +42,13 @@ describe('the worker killed mid-queue', () => {
     const start = await c.treasurerAgent.post(`/api/coops/${c.coop.slug}/billing/runs`).send({ period });
     expect([200, 202], JSON.stringify(start.body)).toContain(start.status);
     const runId = start.body.run.id as number;
-    const progress = async () => (await sql<{ done_members: number; status: string }>('SELECT done_members, status FROM billing_runs WHERE id = $1', [runId]))[0]!;
+    const progress = async () =>
+      (
+        await sql<{ done_members: number; status: string }>(
+          'SELECT done_members, status FROM billing_runs WHERE id = $1',
+          [runId],
+        )
+      )[0]!;
 
     await waitUntil('the first chunk', async () => (await progress()).done_members > 0, 60_000);
     await killWorker();
@@ -56,7 +62,9 @@ describe('the worker killed mid-queue', () => {
     await startWorker();
     const run = await waitForRun(c.treasurerAgent, c.coop.slug, runId);
     // Everyone is billed (monthly dues): the bulk members and the treasurer.
-    const billed = Number((await sql<{ n: string }>('SELECT count(*) AS n FROM memberships WHERE coop_id = $1', [c.coop.id]))[0]!.n);
+    const billed = Number(
+      (await sql<{ n: string }>('SELECT count(*) AS n FROM memberships WHERE coop_id = $1', [c.coop.id]))[0]!.n,
+    );
     expect(billed).toBe(MEMBERS + 1);
     expect(run).toMatchObject({ totalMembers: billed, doneMembers: billed, drafts: billed });
     const [{ n, members }] = (await sql<{ n: string; members: string }>(
@@ -73,7 +81,15 @@ describe('the worker killed mid-queue', () => {
     // Let the worker drain this co-op's mail before the next test counts the catcher.
     await waitUntil(
       'the e-mails of the issued month',
-      async () => Number((await sql<{ n: string }>(`SELECT count(*) AS n FROM invoices WHERE coop_id = $1 AND email_status <> 'sent'`, [c.coop.id]))[0]!.n) === 0,
+      async () =>
+        Number(
+          (
+            await sql<{ n: string }>(
+              `SELECT count(*) AS n FROM invoices WHERE coop_id = $1 AND email_status <> 'sent'`,
+              [c.coop.id],
+            )
+          )[0]!.n,
+        ) === 0,
       240_000,
     );
   }, 420_000);
@@ -87,13 +103,23 @@ describe('the worker killed mid-queue', () => {
     const start = await c.treasurerAgent.post(`/api/coops/${c.coop.slug}/billing/runs`).send({ period });
     await waitForRun(c.treasurerAgent, c.coop.slug, start.body.run.id as number);
     await issueMonth(c.treasurerAgent, c.coop.slug, period);
-    const sent = async () => Number((await sql<{ n: string }>(`SELECT count(*) AS n FROM invoices WHERE coop_id = $1 AND email_status = 'sent'`, [c.coop.id]))[0]!.n);
+    const sent = async () =>
+      Number(
+        (
+          await sql<{ n: string }>(`SELECT count(*) AS n FROM invoices WHERE coop_id = $1 AND email_status = 'sent'`, [
+            c.coop.id,
+          ])
+        )[0]!.n,
+      );
 
     await waitUntil('the first e-mails', async () => (await sent()) >= 10, 60_000);
     await killWorker();
     expect(await sent()).toBeLessThan(MEMBERS + 1);
     // What the kill left in flight: claimed, not known to be sent.
-    const inFlight = await sql<{ subject: string }>(`SELECT subject FROM mail_sends WHERE coop_id = $1 AND state = 'sending'`, [c.coop.id]);
+    const inFlight = await sql<{ subject: string }>(
+      `SELECT subject FROM mail_sends WHERE coop_id = $1 AND state = 'sending'`,
+      [c.coop.id],
+    );
 
     await startWorker();
     await waitUntil('every e-mail', async () => (await sent()) === MEMBERS + 1, 180_000);
@@ -107,17 +133,25 @@ describe('the worker killed mid-queue', () => {
     // that arrived twice carries the same Message-ID both times (a receiver drops the repeat).
     expect(emails.filter((e) => !byAddress.has(e.toLowerCase()))).toEqual([]);
     const ids = mine.map((m) => m.messageId);
-    expect(ids.every((id) => /^<invoice\.\d+\.g1\.[0-9a-z]+@/.test(id)), ids.join(' ')).toBe(true);
+    expect(
+      ids.every((id) => /^<invoice\.\d+\.g1\.[0-9a-z]+@/.test(id)),
+      ids.join(' '),
+    ).toBe(true);
     expect(new Set(ids).size).toBe(MEMBERS);
     for (const [to, got] of byAddress) expect(new Set(got).size, to).toBe(1);
     // The ledger: one row per invoice, all sent; a repeat happens only for a send the kill left
     // ambiguous (claimed, no "sent" recorded), and only once for each.
-    const ledger = await sql<{ subject: string; state: string; tries: number }>(`SELECT subject, state, tries FROM mail_sends WHERE coop_id = $1 AND subject LIKE 'invoice.%'`, [c.coop.id]);
+    const ledger = await sql<{ subject: string; state: string; tries: number }>(
+      `SELECT subject, state, tries FROM mail_sends WHERE coop_id = $1 AND subject LIKE 'invoice.%'`,
+      [c.coop.id],
+    );
     expect(ledger.length).toBe(MEMBERS + 1);
     expect(ledger.filter((r) => r.state !== 'sent')).toEqual([]);
     const repeats = mine.length - MEMBERS;
     const retried = ledger.filter((r) => r.tries > 1).map((r) => r.subject);
-    console.log(`[jobs-restart] ${inFlight.length} sends in flight at the kill, ${retried.length} sent again, ${repeats} repeated copies in the catcher`);
+    console.log(
+      `[jobs-restart] ${inFlight.length} sends in flight at the kill, ${retried.length} sent again, ${repeats} repeated copies in the catcher`,
+    );
     expect(retried.every((s) => inFlight.some((f) => f.subject === s))).toBe(true);
     expect(repeats).toBeLessThanOrEqual(retried.length);
     for (const [to, got] of byAddress) expect(got.length, to).toBeLessThanOrEqual(2);

@@ -37,61 +37,92 @@ afterAll(() => {
 });
 
 describe('scripts/start.mjs', () => {
-  it('stops PostgreSQL, the fakes and itself, and removes its lock, within 10 s of the Next server dying by SIGKILL', { timeout: 240_000 }, async () => {
-    const ports = {
-      PORT: await freePort(),
-      PG_PORT: await freePort(),
-      SMTP_PORT: await freePort(),
-      MAIL_UI_PORT: await freePort(),
-      PAYMENTS_PORT: await freePort(),
-      STORAGE_PORT: await freePort(),
-    };
-    // A file stored the old way (a local folder), to be moved into the storage fake at start.
-    const legacyKey = `1/${crypto.randomUUID()}.pdf`;
-    const legacyBytes = Buffer.from('%PDF-1.4\nlegacy lab report\n%%EOF\n');
-    fs.mkdirSync(path.join(dataDir, 'uploads', '1'), { recursive: true });
-    fs.writeFileSync(path.join(dataDir, 'uploads', legacyKey), legacyBytes);
-    const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'production', TALLYVAT_DATA_DIR: dataDir, TALLYVAT_SKIP_BUILD: '1', LOG_LEVEL: 'warn' };
-    for (const k of ['DATABASE_URL', 'NEXTAUTH_SECRET', 'STRIPE_WEBHOOK_SECRET', 'STORAGE_DIR', 'APP_URL', 'NEXTAUTH_URL', 'S3_BUCKET', 'S3_ENDPOINT', 'S3_KEY_PREFIX']) delete env[k];
-    for (const [k, v] of Object.entries(ports)) env[k] = String(v);
+  it(
+    'stops PostgreSQL, the fakes and itself, and removes its lock, within 10 s of the Next server dying by SIGKILL',
+    { timeout: 240_000 },
+    async () => {
+      const ports = {
+        PORT: await freePort(),
+        PG_PORT: await freePort(),
+        SMTP_PORT: await freePort(),
+        MAIL_UI_PORT: await freePort(),
+        PAYMENTS_PORT: await freePort(),
+        STORAGE_PORT: await freePort(),
+      };
+      // A file stored the old way (a local folder), to be moved into the storage fake at start.
+      const legacyKey = `1/${crypto.randomUUID()}.pdf`;
+      const legacyBytes = Buffer.from('%PDF-1.4\nlegacy lab report\n%%EOF\n');
+      fs.mkdirSync(path.join(dataDir, 'uploads', '1'), { recursive: true });
+      fs.writeFileSync(path.join(dataDir, 'uploads', legacyKey), legacyBytes);
+      const env: NodeJS.ProcessEnv = {
+        ...process.env,
+        NODE_ENV: 'production',
+        TALLYVAT_DATA_DIR: dataDir,
+        TALLYVAT_SKIP_BUILD: '1',
+        LOG_LEVEL: 'warn',
+      };
+      for (const k of [
+        'DATABASE_URL',
+        'NEXTAUTH_SECRET',
+        'STRIPE_WEBHOOK_SECRET',
+        'STORAGE_DIR',
+        'APP_URL',
+        'NEXTAUTH_URL',
+        'S3_BUCKET',
+        'S3_ENDPOINT',
+        'S3_KEY_PREFIX',
+      ])
+        delete env[k];
+      for (const [k, v] of Object.entries(ports)) env[k] = String(v);
 
-    let output = '';
-    launcher = spawn(process.execPath, ['scripts/start.mjs'], { env, stdio: ['ignore', 'pipe', 'pipe'] });
-    launcher.stdout?.on('data', (d) => (output += d));
-    launcher.stderr?.on('data', (d) => (output += d));
-    const exited = new Promise<{ code: number | null; at: number }>((resolve) => launcher!.once('exit', (code) => resolve({ code, at: Date.now() })));
+      let output = '';
+      launcher = spawn(process.execPath, ['scripts/start.mjs'], { env, stdio: ['ignore', 'pipe', 'pipe'] });
+      launcher.stdout?.on('data', (d) => (output += d));
+      launcher.stderr?.on('data', (d) => (output += d));
+      const exited = new Promise<{ code: number | null; at: number }>((resolve) =>
+        launcher!.once('exit', (code) => resolve({ code, at: Date.now() })),
+      );
 
-    const lockFile = path.join(dataDir, 'app.lock');
-    const deadline = Date.now() + 200_000;
-    for (;;) {
-      if (launcher.exitCode !== null) throw new Error(`the launcher exited early:\n${output}`);
-      if (Date.now() > deadline) throw new Error(`the app did not come up:\n${output}`);
-      const ok = await fetch(`http://127.0.0.1:${ports.PORT}/api/health`).then((r) => r.ok, () => false);
-      if (ok) break;
-      await sleep(500);
-    }
-    for (const p of Object.values(ports)) expect(await listening(p), `port ${p} open while running`).toBe(true);
+      const lockFile = path.join(dataDir, 'app.lock');
+      const deadline = Date.now() + 200_000;
+      for (;;) {
+        if (launcher.exitCode !== null) throw new Error(`the launcher exited early:\n${output}`);
+        if (Date.now() > deadline) throw new Error(`the app did not come up:\n${output}`);
+        const ok = await fetch(`http://127.0.0.1:${ports.PORT}/api/health`).then(
+          (r) => r.ok,
+          () => false,
+        );
+        if (ok) break;
+        await sleep(500);
+      }
+      for (const p of Object.values(ports)) expect(await listening(p), `port ${p} open while running`).toBe(true);
 
-    // The former upload folder was moved into the bucket under the same key and set aside.
-    expect(fs.existsSync(path.join(dataDir, 'uploads.imported', legacyKey))).toBe(true);
-    expect(fs.existsSync(path.join(dataDir, 'uploads'))).toBe(false);
-    const s3 = new S3Client({ endpoint: `http://127.0.0.1:${ports.STORAGE_PORT}`, region: 'us-east-1', forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } });
-    const obj = await s3.send(new GetObjectCommand({ Bucket: 'tallyvat', Key: `coops/${legacyKey}` }));
-    expect(Buffer.from(await obj.Body!.transformToByteArray()).equals(legacyBytes)).toBe(true);
-    s3.destroy();
+      // The former upload folder was moved into the bucket under the same key and set aside.
+      expect(fs.existsSync(path.join(dataDir, 'uploads.imported', legacyKey))).toBe(true);
+      expect(fs.existsSync(path.join(dataDir, 'uploads'))).toBe(false);
+      const s3 = new S3Client({
+        endpoint: `http://127.0.0.1:${ports.STORAGE_PORT}`,
+        region: 'us-east-1',
+        forcePathStyle: true,
+        credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+      });
+      const obj = await s3.send(new GetObjectCommand({ Bucket: 'tallyvat', Key: `coops/${legacyKey}` }));
+      expect(Buffer.from(await obj.Body!.transformToByteArray()).equals(legacyBytes)).toBe(true);
+      s3.destroy();
 
-    const lock = JSON.parse(fs.readFileSync(lockFile, 'utf8')) as { pid: number; children: Record<string, number> };
-    expect(lock.pid).toBe(launcher.pid);
-    const nextPid = lock.children.next;
-    expect(nextPid).toBeGreaterThan(0);
+      const lock = JSON.parse(fs.readFileSync(lockFile, 'utf8')) as { pid: number; children: Record<string, number> };
+      expect(lock.pid).toBe(launcher.pid);
+      const nextPid = lock.children.next;
+      expect(nextPid).toBeGreaterThan(0);
 
-    const killedAt = Date.now();
-    process.kill(nextPid!, 'SIGKILL');
-    const result = await Promise.race([exited, sleep(10_000).then(() => null)]);
-    expect(result, `the launcher was still running 10 s after its Next server died:\n${output}`).not.toBeNull();
-    expect(result!.at - killedAt).toBeLessThan(10_000);
-    expect(result!.code).not.toBe(0);
-    for (const [name, p] of Object.entries(ports)) expect(await listening(p), `${name} ${p} still open`).toBe(false);
-    expect(fs.existsSync(lockFile)).toBe(false);
-  });
+      const killedAt = Date.now();
+      process.kill(nextPid!, 'SIGKILL');
+      const result = await Promise.race([exited, sleep(10_000).then(() => null)]);
+      expect(result, `the launcher was still running 10 s after its Next server died:\n${output}`).not.toBeNull();
+      expect(result!.at - killedAt).toBeLessThan(10_000);
+      expect(result!.code).not.toBe(0);
+      for (const [name, p] of Object.entries(ports)) expect(await listening(p), `${name} ${p} still open`).toBe(false);
+      expect(fs.existsSync(lockFile)).toBe(false);
+    },
+  );
 });

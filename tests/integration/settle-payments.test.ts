@@ -5,7 +5,17 @@
 // (the worker runs it every minute for attempts older than three minutes).
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
 import { countRows, signIn, sql } from '../support/api';
-import { clearHeld, fakeCharges, holdWebhooks, invoicesOf, issueMonth, makeBillingCoop, monthsAgo, runMonth, setOutage } from '../support/billing';
+import {
+  clearHeld,
+  fakeCharges,
+  holdWebhooks,
+  invoicesOf,
+  issueMonth,
+  makeBillingCoop,
+  monthsAgo,
+  runMonth,
+  setOutage,
+} from '../support/billing';
 
 describe('settling card payments with an unknown outcome', () => {
   let card: typeof import('@/lib/billing/card');
@@ -35,7 +45,10 @@ describe('settling card payments with an unknown outcome', () => {
     await issueMonth(c.treasurerAgent, c.coop.slug, P);
     const rows = await invoicesOf(c.coop.id, P);
     const invOf = (name: string) => rows.find((r) => r.membership_id === c.members[name]!.membershipId)!.id;
-    const pay = async (name: string) => (await signIn(c.members[name]!.email)).post(`/api/coops/${c.coop.slug}/invoices/${invOf(name)}/pay`).send({ card: 'test-approved' });
+    const pay = async (name: string) =>
+      (await signIn(c.members[name]!.email))
+        .post(`/api/coops/${c.coop.slug}/invoices/${invOf(name)}/pay`)
+        .send({ card: 'test-approved' });
 
     await holdWebhooks(true);
     await setOutage(true, 'lose-response'); // charged, answer lost
@@ -43,9 +56,15 @@ describe('settling card payments with an unknown outcome', () => {
     await setOutage(true, '503'); // never reaches the provider
     expect((await pay('Nico Nothing')).status).toBe(503);
     await setOutage(false);
-    expect((await fakeCharges()).filter((ch) => ch.metadata?.invoice_id === String(invOf('Lola Lost')))).toHaveLength(1);
-    expect((await fakeCharges()).filter((ch) => ch.metadata?.invoice_id === String(invOf('Nico Nothing')))).toHaveLength(0);
-    const status = async (name: string) => (await sql<{ status: string }>('SELECT status FROM payment_attempts WHERE invoice_id = $1', [invOf(name)]))[0]!.status;
+    expect((await fakeCharges()).filter((ch) => ch.metadata?.invoice_id === String(invOf('Lola Lost')))).toHaveLength(
+      1,
+    );
+    expect(
+      (await fakeCharges()).filter((ch) => ch.metadata?.invoice_id === String(invOf('Nico Nothing'))),
+    ).toHaveLength(0);
+    const status = async (name: string) =>
+      (await sql<{ status: string }>('SELECT status FROM payment_attempts WHERE invoice_id = $1', [invOf(name)]))[0]!
+        .status;
     expect(await status('Lola Lost')).toBe('pending');
     expect(await status('Nico Nothing')).toBe('pending');
 
@@ -53,7 +72,10 @@ describe('settling card payments with an unknown outcome', () => {
     expect(await status('Lola Lost')).toBe('succeeded');
     expect(await status('Nico Nothing')).toBe('failed');
     expect(await countRows('payments', 'invoice_id = $1', [invOf('Lola Lost')])).toBe(1);
-    const [lola] = await sql<{ status: string; paid_cents: string }>('SELECT status, paid_cents FROM invoices WHERE id = $1', [invOf('Lola Lost')]);
+    const [lola] = await sql<{ status: string; paid_cents: string }>(
+      'SELECT status, paid_cents FROM invoices WHERE id = $1',
+      [invOf('Lola Lost')],
+    );
     expect(lola).toMatchObject({ status: 'paid', paid_cents: '2500' });
     expect(await countRows('payments', 'invoice_id = $1', [invOf('Nico Nothing')])).toBe(0);
 

@@ -28,24 +28,46 @@ describe('timed jobs', () => {
         [coop.id],
       );
       const reserve = async (windowEnd: string) =>
-        (await sql<{ id: number }>(
-          `INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
+        (
+          await sql<{ id: number }>(
+            `INSERT INTO reservations (coop_id, tank_id, membership_id, quantity_liters, window_start, window_end)
            VALUES ($1, $2, $3, $4, now() - interval '3 days', ${windowEnd}) RETURNING id`,
-          [coop.id, tank!.id, member.membershipId, i === 0 ? 10 : 20],
-        ))[0]!.id;
-      made.push({ coop, tankId: tank!.id, lapsed: await reserve(`now() - interval '1 hour'`), open: await reserve(`now() + interval '1 day'`), liters: i === 0 ? 10 : 20 });
+            [coop.id, tank!.id, member.membershipId, i === 0 ? 10 : 20],
+          )
+        )[0]!.id;
+      made.push({
+        coop,
+        tankId: tank!.id,
+        lapsed: await reserve(`now() - interval '1 hour'`),
+        open: await reserve(`now() + interval '1 day'`),
+        liters: i === 0 ? 10 : 20,
+      });
     }
     expect(await jobs.expireReservations()).toBeGreaterThanOrEqual(2);
     for (const m of made) {
-      const rows = await sql<{ id: number; status: string }>('SELECT id, status FROM reservations WHERE coop_id = $1 ORDER BY id', [m.coop.id]);
-      expect(rows).toEqual([{ id: m.lapsed, status: 'expired' }, { id: m.open, status: 'open' }]);
-      const [tank] = await sql<{ reserved_liters: string }>('SELECT reserved_liters FROM tanks WHERE id = $1', [m.tankId]);
+      const rows = await sql<{ id: number; status: string }>(
+        'SELECT id, status FROM reservations WHERE coop_id = $1 ORDER BY id',
+        [m.coop.id],
+      );
+      expect(rows).toEqual([
+        { id: m.lapsed, status: 'expired' },
+        { id: m.open, status: 'open' },
+      ]);
+      const [tank] = await sql<{ reserved_liters: string }>('SELECT reserved_liters FROM tanks WHERE id = $1', [
+        m.tankId,
+      ]);
       expect(Number(tank!.reserved_liters)).toBeCloseTo(30 - m.liters, 3);
-      expect(await countRows('audit_events', "coop_id = $1 AND action = 'reservation.expire' AND entity_id = $2", [m.coop.id, String(m.lapsed)])).toBe(1);
+      expect(
+        await countRows('audit_events', "coop_id = $1 AND action = 'reservation.expire' AND entity_id = $2", [
+          m.coop.id,
+          String(m.lapsed),
+        ]),
+      ).toBe(1);
     }
     // A second run finds nothing of these co-ops to do.
     await jobs.expireReservations();
-    for (const m of made) expect(await countRows('audit_events', "coop_id = $1 AND action = 'reservation.expire'", [m.coop.id])).toBe(1);
+    for (const m of made)
+      expect(await countRows('audit_events', "coop_id = $1 AND action = 'reservation.expire'", [m.coop.id])).toBe(1);
   });
 
   it('housekeeping: prunes sign-in attempts older than a day and links expired over 30 days ago, keeps recent ones', async () => {

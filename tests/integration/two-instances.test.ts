@@ -56,7 +56,11 @@ class Client {
   async signIn(base: string, email: string, password = TEST_PASSWORD) {
     const csrf = (await this.json(base, '/api/auth/csrf')).body.csrfToken as string;
     const form = new URLSearchParams({ csrfToken: csrf, email, password, json: 'true' });
-    const res = await this.json(base, '/api/auth/callback/credentials', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: form });
+    const res = await this.json(base, '/api/auth/callback/credentials', {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: form,
+    });
     return { status: res.status, failed: res.status !== 200 || String(res.body?.url ?? '').includes('error=') };
   }
 }
@@ -96,10 +100,17 @@ describe('two web instances behind one address', () => {
     expect((await c.json(A, '/api/me')).status).toBe(200);
     const copy = c.clone();
     const csrf = (await c.json(B, '/api/auth/csrf')).body.csrfToken as string;
-    const out = await c.fetch(B, '/api/auth/signout', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ csrfToken: csrf, json: 'true' }) });
+    const out = await c.fetch(B, '/api/auth/signout', {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({ csrfToken: csrf, json: 'true' }),
+    });
     expect(out.status).toBeLessThan(400);
     // Even a copy of the old cookie is dead on A: the session row was revoked.
-    const [row] = await sql<{ revoked: boolean }>(`SELECT bool_and(revoked_at IS NOT NULL) AS revoked FROM sessions WHERE user_id = $1`, [u.id]);
+    const [row] = await sql<{ revoked: boolean }>(
+      `SELECT bool_and(revoked_at IS NOT NULL) AS revoked FROM sessions WHERE user_id = $1`,
+      [u.id],
+    );
     expect(row!.revoked).toBe(true);
     expect((await copy.json(A, '/api/me')).status).toBe(401);
     expect((await copy.json(B, '/api/me')).status).toBe(401);
@@ -110,17 +121,34 @@ describe('two web instances behind one address', () => {
     const brewer = await signedIn(A, (await makeUser({ coopId: coop.id, role: 'brewer' })).email);
     const member = await signedIn(A, (await makeUser({ coopId: coop.id, role: 'member' })).email);
     const base = `/api/coops/${coop.slug}`;
-    const tank = await brewer.json(A, `${base}/tanks`, { method: 'POST', json: { name: 'Shared tank', capacity: '500' } });
+    const tank = await brewer.json(A, `${base}/tanks`, {
+      method: 'POST',
+      json: { name: 'Shared tank', capacity: '500' },
+    });
     expect(tank.status).toBe(201);
-    expect((await brewer.json(B, `${base}/tanks/${tank.body.id}/dips`, { method: 'POST', json: { measured: '100', reason: 'Opening balance', unitCost: '3.00' } })).status).toBe(201);
+    expect(
+      (
+        await brewer.json(B, `${base}/tanks/${tank.body.id}/dips`, {
+          method: 'POST',
+          json: { measured: '100', reason: 'Opening balance', unitCost: '3.00' },
+        })
+      ).status,
+    ).toBe(201);
     const today = new Date().toISOString().slice(0, 10);
-    const r = await member.json(B, `${base}/reservations`, { method: 'POST', json: { tankId: tank.body.id, quantity: '12.5', windowStart: today, windowEnd: today } });
+    const r = await member.json(B, `${base}/reservations`, {
+      method: 'POST',
+      json: { tankId: tank.body.id, quantity: '12.5', windowStart: today, windowEnd: today },
+    });
     expect(r.status, JSON.stringify(r.body)).toBe(201);
     const seen = await brewer.json(A, `${base}/reservations`);
     expect(seen.status).toBe(200);
     expect(seen.body.items.map((x: { id: number }) => x.id)).toContain(r.body.id);
     const tanks = await member.json(A, `${base}/tanks`);
-    expect(tanks.body.tanks.find((x: { id: number }) => x.id === tank.body.id)).toMatchObject({ onHand: 100, reserved: 12.5, available: 87.5 });
+    expect(tanks.body.tanks.find((x: { id: number }) => x.id === tank.body.id)).toMatchObject({
+      onHand: 100,
+      reserved: 12.5,
+      available: 87.5,
+    });
   });
 
   it('a file uploaded on A downloads from B with the same bytes and headers, and only for its co-op', async () => {
@@ -144,7 +172,9 @@ describe('two web instances behind one address', () => {
     expect(got.headers.get('x-content-type-options')).toBe('nosniff');
     expect(got.headers.get('content-security-policy')).toMatch(/sandbox/);
     expect(got.headers.get('cache-control')).toBe('private, no-store');
-    expect((await outsider.fetch(B, `/api/coops/${other.slug}/batches/${batchId}/files/${up.body.id}`)).status).toBe(404);
+    expect((await outsider.fetch(B, `/api/coops/${other.slug}/batches/${batchId}/files/${up.body.id}`)).status).toBe(
+      404,
+    );
   });
 
   it('a billing run started on A is followed to the end on B (the worker builds it)', async () => {
@@ -165,7 +195,10 @@ describe('two web instances behind one address', () => {
     expect(run.totalMembers).toBeGreaterThanOrEqual(3);
     expect(run.doneMembers).toBe(run.totalMembers);
     // What B reported is what the worker wrote.
-    const [drafts] = await sql<{ n: number }>(`SELECT count(*)::int AS n FROM invoices WHERE coop_id = $1 AND status = 'draft'`, [c.coop.id]);
+    const [drafts] = await sql<{ n: number }>(
+      `SELECT count(*)::int AS n FROM invoices WHERE coop_id = $1 AND status = 'draft'`,
+      [c.coop.id],
+    );
     expect(run.drafts).toBe(drafts!.n);
     expect(drafts!.n).toBeGreaterThanOrEqual(3);
     expect((await treasurer.json(A, `${base}/periods/${period}`)).status).toBe(200);
@@ -188,33 +221,54 @@ describe('two web instances behind one address', () => {
     }
   });
 
-  it('200 concurrent reservations split across both instances never oversell the tank', { timeout: 120_000 }, async () => {
-    const coop = await makeCoop({ units: 'metric' });
-    const brewer = await signedIn(A, (await makeUser({ coopId: coop.id, role: 'brewer' })).email);
-    const members: Client[] = [];
-    for (let i = 0; i < 10; i++) members.push(await signedIn(i % 2 ? B : A, (await makeUser({ coopId: coop.id, role: 'member' })).email));
-    const base = `/api/coops/${coop.slug}`;
-    const tank = await brewer.json(A, `${base}/tanks`, { method: 'POST', json: { name: 'Race tank', capacity: '1000' } });
-    expect((await brewer.json(B, `${base}/tanks/${tank.body.id}/dips`, { method: 'POST', json: { measured: '150', reason: 'Opening balance', unitCost: '3.00' } })).status).toBe(201);
-    const today = new Date().toISOString().slice(0, 10);
-    const statuses = await Promise.all(
-      Array.from({ length: 200 }, async (_, i) => {
-        const r = await members[i % members.length]!.json(i % 2 ? B : A, `${base}/reservations`, { method: 'POST', json: { tankId: tank.body.id, quantity: '1', windowStart: today, windowEnd: today } });
-        return r.status;
-      }),
-    );
-    const count = (s: number) => statuses.filter((x) => x === s).length;
-    expect(statuses.filter((s) => s !== 201 && s !== 409), 'only 201 or 409').toEqual([]);
-    expect(count(201)).toBe(150);
-    expect(count(409)).toBe(50);
-    const [t] = await sql<{ on_hand: string; reserved: string; open: string }>(
-      `SELECT t.on_hand_liters::text AS on_hand, t.reserved_liters::text AS reserved,
+  it(
+    '200 concurrent reservations split across both instances never oversell the tank',
+    { timeout: 120_000 },
+    async () => {
+      const coop = await makeCoop({ units: 'metric' });
+      const brewer = await signedIn(A, (await makeUser({ coopId: coop.id, role: 'brewer' })).email);
+      const members: Client[] = [];
+      for (let i = 0; i < 10; i++)
+        members.push(await signedIn(i % 2 ? B : A, (await makeUser({ coopId: coop.id, role: 'member' })).email));
+      const base = `/api/coops/${coop.slug}`;
+      const tank = await brewer.json(A, `${base}/tanks`, {
+        method: 'POST',
+        json: { name: 'Race tank', capacity: '1000' },
+      });
+      expect(
+        (
+          await brewer.json(B, `${base}/tanks/${tank.body.id}/dips`, {
+            method: 'POST',
+            json: { measured: '150', reason: 'Opening balance', unitCost: '3.00' },
+          })
+        ).status,
+      ).toBe(201);
+      const today = new Date().toISOString().slice(0, 10);
+      const statuses = await Promise.all(
+        Array.from({ length: 200 }, async (_, i) => {
+          const r = await members[i % members.length]!.json(i % 2 ? B : A, `${base}/reservations`, {
+            method: 'POST',
+            json: { tankId: tank.body.id, quantity: '1', windowStart: today, windowEnd: today },
+          });
+          return r.status;
+        }),
+      );
+      const count = (s: number) => statuses.filter((x) => x === s).length;
+      expect(
+        statuses.filter((s) => s !== 201 && s !== 409),
+        'only 201 or 409',
+      ).toEqual([]);
+      expect(count(201)).toBe(150);
+      expect(count(409)).toBe(50);
+      const [t] = await sql<{ on_hand: string; reserved: string; open: string }>(
+        `SELECT t.on_hand_liters::text AS on_hand, t.reserved_liters::text AS reserved,
               (SELECT COALESCE(sum(quantity_liters), 0)::text FROM reservations r WHERE r.tank_id = t.id AND r.status = 'open') AS open
          FROM tanks t WHERE t.id = $1`,
-      [tank.body.id],
-    );
-    expect(Number(t!.reserved)).toBe(150);
-    expect(Number(t!.open)).toBe(150);
-    expect(Number(t!.reserved)).toBeLessThanOrEqual(Number(t!.on_hand));
-  });
+        [tank.body.id],
+      );
+      expect(Number(t!.reserved)).toBe(150);
+      expect(Number(t!.open)).toBe(150);
+      expect(Number(t!.reserved)).toBeLessThanOrEqual(Number(t!.on_hand));
+    },
+  );
 });

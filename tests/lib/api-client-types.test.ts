@@ -18,7 +18,11 @@ import type { Reconciliation } from '@/lib/billing/reconciliation';
 import type { CoopSettingsDto } from '@/lib/coops/settings-types';
 import type { Overview } from '@/lib/overview/types';
 
-type Json<P extends keyof paths, M extends keyof paths[P], S extends number> = paths[P][M] extends { responses: Record<S, { content: { 'application/json': infer B } }> } ? B : never;
+type Json<P extends keyof paths, M extends keyof paths[P], S extends number> = paths[P][M] extends {
+  responses: Record<S, { content: { 'application/json': infer B } }>;
+}
+  ? B
+  : never;
 
 type Tanks = Json<'/api/coops/{coop}/tanks', 'get', 200>;
 type Tank = Tanks['tanks'][number];
@@ -29,7 +33,7 @@ type Members = Json<'/api/coops/{coop}/members', 'get', 200>;
 type Payment = Json<'/api/coops/{coop}/billing/payments', 'post', 201>;
 type Batch = Json<'/api/coops/{coop}/batches/{id}', 'get', 200>;
 
-describe('the typed client answers with the services\' DTOs, field for field', () => {
+describe("the typed client answers with the services' DTOs, field for field", () => {
   it('types', () => {
     expectTypeOf<Tank>().toEqualTypeOf<TankDto>();
     expectTypeOf<Draws['items'][number]>().toEqualTypeOf<DrawDto>();
@@ -44,7 +48,9 @@ describe('the typed client answers with the services\' DTOs, field for field', (
     expectTypeOf<Extract<Batch, { view: 'summary' }>>().toEqualTypeOf<BatchSummaryDto>();
     expectTypeOf<Json<'/api/coops/{coop}/batches/{id}/temperatures', 'post', 201>>().toEqualTypeOf<TemperatureDto>();
     expectTypeOf<Json<'/api/coops/{coop}/planner', 'post', 200>>().toEqualTypeOf<PlannerResult>();
-    expectTypeOf<Json<'/api/coops/{coop}/billing/periods/{period}/reconciliation', 'get', 200>>().toEqualTypeOf<Reconciliation>();
+    expectTypeOf<
+      Json<'/api/coops/{coop}/billing/periods/{period}/reconciliation', 'get', 200>
+    >().toEqualTypeOf<Reconciliation>();
     expectTypeOf<Json<'/api/coops/{coop}/overview', 'get', 200>>().toEqualTypeOf<Overview>();
     expectTypeOf<Json<'/api/me', 'get', 200>>().toEqualTypeOf<ProfileDto>();
     expectTypeOf<Json<'/api/coops/{coop}/settings', 'get', 200>>().toEqualTypeOf<CoopSettingsDto>();
@@ -66,8 +72,41 @@ describe('the typed client answers with the services\' DTOs, field for field', (
 });
 
 describe('the document declares exact objects for the DTOs the screens read', () => {
-  const schemas = (openApiDocument() as unknown as { components: { schemas: Record<string, { additionalProperties?: unknown }> } }).components.schemas;
-  it.each(['Tank', 'TankMovement', 'Reservation', 'Draw', 'PricePolicy', 'InvoiceSummary', 'InvoiceDetail', 'Payment', 'Refund', 'BillingRun', 'Adjustment', 'PeriodOverview', 'ChemicalLot', 'OilLot', 'StockSummary', 'BatchRow', 'Member', 'Invitation', 'ApiToken', 'Batch', 'BatchSummary', 'Temperature', 'ComputedPlan', 'PlannerResult', 'Reconciliation', 'Overview', 'Profile', 'CoopSettings', 'AuditEvent', 'InvitationAccepted'])('%s allows no undeclared field', (id) => {
+  const schemas = (
+    openApiDocument() as unknown as { components: { schemas: Record<string, { additionalProperties?: unknown }> } }
+  ).components.schemas;
+  it.each([
+    'Tank',
+    'TankMovement',
+    'Reservation',
+    'Draw',
+    'PricePolicy',
+    'InvoiceSummary',
+    'InvoiceDetail',
+    'Payment',
+    'Refund',
+    'BillingRun',
+    'Adjustment',
+    'PeriodOverview',
+    'ChemicalLot',
+    'OilLot',
+    'StockSummary',
+    'BatchRow',
+    'Member',
+    'Invitation',
+    'ApiToken',
+    'Batch',
+    'BatchSummary',
+    'Temperature',
+    'ComputedPlan',
+    'PlannerResult',
+    'Reconciliation',
+    'Overview',
+    'Profile',
+    'CoopSettings',
+    'AuditEvent',
+    'InvitationAccepted',
+  ])('%s allows no undeclared field', (id) => {
     expect(schemas[id], `components.schemas.${id}`).toBeDefined();
     expect(schemas[id]!.additionalProperties).toBe(false);
   });

@@ -15,7 +15,10 @@ describe('API declarations', () => {
 
   it('declares every route handler method on disk (lib/api/operations/<domain>.ts)', () => {
     const missing = onDisk.filter((r) => !declared.has(r));
-    expect(missing, `route handlers without a declaration — add operation({ method, path, summary, access, params?, query?, body?, responses }) to lib/api/operations/<domain>.ts for: ${missing.join(', ')}`).toEqual([]);
+    expect(
+      missing,
+      `route handlers without a declaration — add operation({ method, path, summary, access, params?, query?, body?, responses }) to lib/api/operations/<domain>.ts for: ${missing.join(', ')}`,
+    ).toEqual([]);
   });
 
   it('declares nothing that has no route handler', () => {
@@ -53,6 +56,7 @@ describe('OpenAPI document', () => {
   });
 
   it('lists every declared operation under its OpenAPI path', () => {
-    for (const op of operations) expect(doc.paths?.[openApiPath(op.path)]?.[op.method.toLowerCase() as 'get'], key(op)).toBeTruthy();
+    for (const op of operations)
+      expect(doc.paths?.[openApiPath(op.path)]?.[op.method.toLowerCase() as 'get'], key(op)).toBeTruthy();
   });
 });

@@ -8,7 +8,8 @@ import { expect, it } from 'vitest';
 import { openApiDocument } from '@/lib/api/document';
 
 const FILE = path.resolve('lib/api/client/types.ts');
-const HEADER = '// Generated from the OpenAPI document by `npm run api:types` (openapi-typescript). Do not edit.\n/* eslint-disable */\n';
+const HEADER =
+  '// Generated from the OpenAPI document by `npm run api:types` (openapi-typescript). Do not edit.\n/* eslint-disable */\n';
 
 it('lib/api/client/types.ts is generated from the current OpenAPI document', async () => {
   const generated = HEADER + (await openapiTS(structuredClone(openApiDocument()) as never, { exportType: false }));

@@ -57,7 +57,9 @@ describe('CSV cells', () => {
 
 describe('closed-month refusals from the database', () => {
   it('answer 409 with the database’s message', async () => {
-    const err = Object.assign(new Error('wrapped'), { original: { code: 'TV409', message: 'Billing month 2026-10 is closed: …' } });
+    const err = Object.assign(new Error('wrapped'), {
+      original: { code: 'TV409', message: 'Billing month 2026-10 is closed: …' },
+    });
     const res = errorResponse(err);
     expect(res.status).toBe(409);
     expect(await res.json()).toEqual({ error: 'Billing month 2026-10 is closed: …', code: 'locked' });

@@ -4,13 +4,25 @@
 import { describe, expect, it } from 'vitest';
 import { computePlan } from '@/lib/brewing/plan';
 import { HttpError } from '@/lib/http';
-import { batchCreateSchema, chemicalLotCreateSchema, moneyCents, num, temperatureCreateSchema } from '@/lib/validation/brewing';
+import {
+  batchCreateSchema,
+  chemicalLotCreateSchema,
+  moneyCents,
+  num,
+  temperatureCreateSchema,
+} from '@/lib/validation/brewing';
 
 const trials = (xs: number[]) => ({ source: 'trials' as const, trials: xs });
 
 describe('computePlan', () => {
   it('W1 (common practice worksheet): 113 L, KOH 90 %, base 7 g/L, trials 4.9/5.1/5.2 → 12.844 g/L, 1451.4 g', () => {
-    const p = computePlan({ oilLiters: 113, titration: trials([4.9, 5.1, 5.2]), catalyst: 'KOH', baseGramsPerLiter: 7, purityPct: 90 });
+    const p = computePlan({
+      oilLiters: 113,
+      titration: trials([4.9, 5.1, 5.2]),
+      catalyst: 'KOH',
+      baseGramsPerLiter: 7,
+      purityPct: 90,
+    });
     expect(p.titration.averageMl).toBeCloseTo(5.0667, 4);
     expect(p.catalystResult.gramsPerLiter).toBeCloseTo(12.844, 3);
     expect(p.catalystResult.totalGrams).toBeCloseTo(1451.4, 1);
@@ -24,7 +36,13 @@ describe('computePlan', () => {
   it('takes the recipe, then the next lot’s purity, then typical values, and says which it used', () => {
     const recipe = { catalyst: 'NaOH' as const, baseGramsPerLiter: 3.5, purityPct: 97, methanolPct: 22 };
     const a = computePlan({ oilLiters: 10, titration: trials([2]) }, recipe);
-    expect(a).toMatchObject({ catalyst: 'NaOH', baseGramsPerLiter: 3.5, baseSource: 'recipe', purityPct: 97, puritySource: 'recipe' });
+    expect(a).toMatchObject({
+      catalyst: 'NaOH',
+      baseGramsPerLiter: 3.5,
+      baseSource: 'recipe',
+      purityPct: 97,
+      puritySource: 'recipe',
+    });
     expect(a.methanol.liters).toBeCloseTo(2.2, 9);
     const b = computePlan({ oilLiters: 10, titration: trials([2]), nextLotPurityPct: 99 }, recipe);
     expect(b).toMatchObject({ purityPct: 99, puritySource: 'next-lot' });
@@ -36,7 +54,13 @@ describe('computePlan', () => {
   });
 
   it('converts an oil lot titration made with NaOH for a KOH batch (× 56.106 / 39.997, IUPAC)', () => {
-    const p = computePlan({ oilLiters: 100, titration: { source: 'oil-lot', trials: [4], titrant: 'NaOH', oilLotId: 7 }, catalyst: 'KOH', baseGramsPerLiter: 7, purityPct: 100 });
+    const p = computePlan({
+      oilLiters: 100,
+      titration: { source: 'oil-lot', trials: [4], titrant: 'NaOH', oilLotId: 7 },
+      catalyst: 'KOH',
+      baseGramsPerLiter: 7,
+      purityPct: 100,
+    });
     expect(p.titration).toMatchObject({ source: 'oil-lot', oilLotId: 7, titrant: 'NaOH', averageMl: 4 });
     expect(p.titration.averageForCatalystMl).toBeCloseTo(4 * 1.4027, 3);
     // purity 100 %: 7 + 5.611 g/L × 100 L
@@ -46,31 +70,63 @@ describe('computePlan', () => {
   });
 
   it('NaOH titration for a KOH batch at 90 %: converted by molar mass, then divided by purity once (IUPAC; common practice purity rule)', () => {
-    const p = computePlan({ oilLiters: 100, titration: { source: 'oil-lot', trials: [4], titrant: 'NaOH', oilLotId: 7 }, catalyst: 'KOH', baseGramsPerLiter: 7, purityPct: 90 });
+    const p = computePlan({
+      oilLiters: 100,
+      titration: { source: 'oil-lot', trials: [4], titrant: 'NaOH', oilLotId: 7 },
+      catalyst: 'KOH',
+      baseGramsPerLiter: 7,
+      purityPct: 90,
+    });
     expect(p.titrantFrom).toBe('pure-reagent');
     expect(p.catalystResult.rule).toBe('converted-all-over-purity');
     expect(p.catalystResult.gramsPerLiter).toBeCloseTo((7 + 4 * (56.106 / 39.997)) / 0.9, 9);
     // said to be made from the batch's own KOH: impossible for a NaOH titrant → 422 on titrantFrom
-    expect(() => computePlan({ oilLiters: 100, titration: { source: 'trials', trials: [4], titrant: 'NaOH' }, catalyst: 'KOH', purityPct: 90, titrantFrom: 'same-catalyst' })).toThrow(HttpError);
+    expect(() =>
+      computePlan({
+        oilLiters: 100,
+        titration: { source: 'trials', trials: [4], titrant: 'NaOH' },
+        catalyst: 'KOH',
+        purityPct: 90,
+        titrantFrom: 'same-catalyst',
+      }),
+    ).toThrow(HttpError);
   });
 
   it('projects fuel from released batches, the ideal only without history (stoichiometry; common practice)', () => {
     const none = computePlan({ oilLiters: 100, titration: trials([4]), catalyst: 'NaOH' });
     expect(none.yieldProjection.source).toBe('ideal');
     expect(none.projectedFuelLiters).toBeCloseTo(none.yields.fuelLiters, 9);
-    const hist = computePlan({ oilLiters: 100, titration: trials([4]), catalyst: 'NaOH' }, {}, { yieldHistory: [{ oilLiters: 50, releasedLiters: 45 }] });
+    const hist = computePlan(
+      { oilLiters: 100, titration: trials([4]), catalyst: 'NaOH' },
+      {},
+      { yieldHistory: [{ oilLiters: 50, releasedLiters: 45 }] },
+    );
     expect(hist.projectedFuelLiters).toBeCloseTo(90, 9);
   });
 
   it('one trial is enough; a 6:1 molar ratio gives ≈ 252 mL per L of oil (W5, CRC values)', () => {
-    const p = computePlan({ oilLiters: 1, titration: trials([3]), catalyst: 'NaOH', baseGramsPerLiter: 3.5, purityPct: 100, methanolMode: 'molar-ratio', molarRatio: 6 });
+    const p = computePlan({
+      oilLiters: 1,
+      titration: trials([3]),
+      catalyst: 'NaOH',
+      baseGramsPerLiter: 3.5,
+      purityPct: 100,
+      methanolMode: 'molar-ratio',
+      molarRatio: 6,
+    });
     expect(p.catalystResult.gramsPerLiter).toBeCloseTo(6.5, 9); // W3 (common practice): NaOH, titration 3 → 6.5 g/L
     expect(p.methanol.liters).toBeCloseTo(0.252, 3);
     expect(p.titration.outlierIndexes).toEqual([]);
   });
 
   it('flags oil that needs acid pre-treatment (8–10 mL KOH: poor, common practice)', () => {
-    const p = computePlan({ oilLiters: 50, titration: trials([9, 9.2, 8.8]), catalyst: 'KOH', baseGramsPerLiter: 7, purityPct: 90 });
+    const p = computePlan({
+      oilLiters: 50,
+      titration: trials([9, 9.2, 8.8]),
+      catalyst: 'KOH',
+      baseGramsPerLiter: 7,
+      purityPct: 90,
+    });
     expect(p.oil).toMatchObject({ band: 'poor', needsAcidPretreatment: true });
   });
 

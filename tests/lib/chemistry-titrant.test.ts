@@ -19,7 +19,15 @@ import { fToC } from '@/lib/units';
 
 describe('catalyst with either titrant (IUPAC molar masses; common practice purity rule)', () => {
   it('KOH batch at 90 %, NaOH titrant from pure reagent: (7 + 4 × 1.4027) ÷ 0.90 — converted, then purity applied once', () => {
-    const r = catalystGrams({ catalyst: 'KOH', titrant: 'NaOH', oilLiters: 100, baseGramsPerLiter: 7, titrationMl: 4, purityPct: 90, titrantFrom: 'pure-reagent' });
+    const r = catalystGrams({
+      catalyst: 'KOH',
+      titrant: 'NaOH',
+      oilLiters: 100,
+      baseGramsPerLiter: 7,
+      titrationMl: 4,
+      purityPct: 90,
+      titrantFrom: 'pure-reagent',
+    });
     expect(KOH_PER_NAOH).toBeCloseTo(56.106 / 39.997, 12); // IUPAC
     expect(r.gramsPerLiter).toBeCloseTo((7 + 4 * (56.106 / 39.997)) / 0.9, 9); // 14.0122 g/L
     expect(r.gramsPerLiter).toBeCloseTo(14.0122, 3);
@@ -34,20 +42,44 @@ describe('catalyst with either titrant (IUPAC molar masses; common practice puri
   });
 
   it('NaOH batch at 97 %, KOH titrant from pure reagent: (3.5 + 5 ÷ 1.4027) ÷ 0.97 (IUPAC)', () => {
-    const r = catalystGrams({ catalyst: 'NaOH', titrant: 'KOH', oilLiters: 50, baseGramsPerLiter: 3.5, titrationMl: 5, purityPct: 97, titrantFrom: 'pure-reagent' });
+    const r = catalystGrams({
+      catalyst: 'NaOH',
+      titrant: 'KOH',
+      oilLiters: 50,
+      baseGramsPerLiter: 3.5,
+      titrationMl: 5,
+      purityPct: 97,
+      titrantFrom: 'pure-reagent',
+    });
     expect(r.gramsPerLiter).toBeCloseTo((3.5 + 5 * (39.997 / 56.106)) / 0.97, 9); // 7.2829 g/L
     expect(r.gramsPerLiter).toBeCloseTo(7.2829, 4);
     expect(r.rule).toBe('converted-all-over-purity');
   });
 
   it("a titrant of the other chemical cannot be made from the batch's own stock", () => {
-    expect(() => catalystGrams({ catalyst: 'KOH', titrant: 'NaOH', oilLiters: 1, baseGramsPerLiter: 7, titrationMl: 4, purityPct: 90, titrantFrom: 'same-catalyst' })).toThrow(
-      /cannot have been made from this batch's KOH stock/,
-    );
+    expect(() =>
+      catalystGrams({
+        catalyst: 'KOH',
+        titrant: 'NaOH',
+        oilLiters: 1,
+        baseGramsPerLiter: 7,
+        titrationMl: 4,
+        purityPct: 90,
+        titrantFrom: 'same-catalyst',
+      }),
+    ).toThrow(/cannot have been made from this batch's KOH stock/);
   });
 
   it("same chemical from the batch's own stock at 85 %: base ÷ purity + titration (the titration already holds the purity)", () => {
-    const r = catalystGrams({ catalyst: 'KOH', titrant: 'KOH', oilLiters: 10, baseGramsPerLiter: 7, titrationMl: 5, purityPct: 85, titrantFrom: 'same-catalyst' });
+    const r = catalystGrams({
+      catalyst: 'KOH',
+      titrant: 'KOH',
+      oilLiters: 10,
+      baseGramsPerLiter: 7,
+      titrationMl: 5,
+      purityPct: 85,
+      titrantFrom: 'same-catalyst',
+    });
     expect(r.gramsPerLiter).toBeCloseTo(7 / 0.85 + 5, 12);
     // the general form (base + T × p_t) ÷ p with p_t = p gives the same
     expect(r.gramsPerLiter).toBeCloseTo((7 + 5 * 0.85) / 0.85, 12);
@@ -55,7 +87,15 @@ describe('catalyst with either titrant (IUPAC molar masses; common practice puri
   });
 
   it('explanation in a US co-op gives gallons and g/gal beside litres (NIST: 1 gal = 3.785411784 L)', () => {
-    const r = catalystGrams({ catalyst: 'KOH', oilLiters: 113, baseGramsPerLiter: 7, titrationMl: 5.0667, purityPct: 90, titrantFrom: 'same-catalyst', system: 'us' });
+    const r = catalystGrams({
+      catalyst: 'KOH',
+      oilLiters: 113,
+      baseGramsPerLiter: 7,
+      titrationMl: 5.0667,
+      purityPct: 90,
+      titrantFrom: 'same-catalyst',
+      system: 'us',
+    });
     expect(r.explanation).toContain('29.85 gal (113.0 L)');
     expect(r.explanation).toContain(`${(r.gramsPerLiter * 3.785411784).toFixed(1)} g/gal`);
   });
@@ -96,7 +136,9 @@ describe("methanol's boiling point at altitude (NIST WebBook Antoine constants; 
 
   it('the altitude note says boiling starts lower, in the co-op units; none at sea level', () => {
     expect(altitudeNote(0, 'us')).toBeNull();
-    expect(altitudeNote(1600, 'us')).toMatch(/^At 5,249 ft methanol boils at about 139\.\d °F, not 148\.5 °F: boiling starts lower at altitude/);
+    expect(altitudeNote(1600, 'us')).toMatch(
+      /^At 5,249 ft methanol boils at about 139\.\d °F, not 148\.5 °F: boiling starts lower at altitude/,
+    );
     expect(altitudeNote(1600, 'metric')).toMatch(/^At 1,600 m methanol boils at about 59\.\d °C/);
   });
 

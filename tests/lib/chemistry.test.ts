@@ -86,13 +86,15 @@ describe('titrationAverage (common practice)', () => {
     expect(r.spreadMl).toBe(0);
   });
 
-  it('singles out one trial only by Dixon\'s Q test at 90 % (Dean & Dixon 1951; critical values Rorabacher 1991, from memory)', () => {
+  it("singles out one trial only by Dixon's Q test at 90 % (Dean & Dixon 1951; critical values Rorabacher 1991, from memory)", () => {
     // 10, 10, 11.6: Q = 1.6 / 1.6 = 1 > 0.941 → trial 3
     const r = titrationAverage([10, 10.1, 11.9]);
     expect(r.outlierIndexes).toEqual([2]); // Q = 1.8 / 1.9 = 0.947 > 0.941
     expect(r.averageMl).toBeCloseTo(10.6667, 4); // outliers stay in the average; the brewer decides
     expect(r.averageWithoutOutliersMl).toBeCloseTo(10.05, 10);
-    expect(r.notice).toBe("Trial 3 (11.9 mL) stands apart from the others (Dixon's Q test, 90 %): titrate again before relying on the average.");
+    expect(r.notice).toBe(
+      "Trial 3 (11.9 mL) stands apart from the others (Dixon's Q test, 90 %): titrate again before relying on the average.",
+    );
     // 5.0, 5.1, 6.5: Q = 1.4 / 1.5 = 0.933 < 0.941 — not singled out, but the 1.5 mL spread asks for another titration
     const wide = titrationAverage([5.0, 5.1, 6.5]);
     expect(wide.outlierIndexes).toEqual([]);
@@ -152,19 +154,40 @@ describe('catalystGrams — purity rule (common practice)', () => {
   });
 
   it('W2: NaOH base 3.5 + titration 6.0 → 9.5 g/L (common practice)', () => {
-    const r = catalystGrams({ catalyst: 'NaOH', oilLiters: 1, baseGramsPerLiter: 3.5, titrationMl: 6, purityPct: 100, titrantFrom: 'same-catalyst' });
+    const r = catalystGrams({
+      catalyst: 'NaOH',
+      oilLiters: 1,
+      baseGramsPerLiter: 3.5,
+      titrationMl: 6,
+      purityPct: 100,
+      titrantFrom: 'same-catalyst',
+    });
     expect(r.gramsPerLiter).toBeCloseTo(9.5, 10);
     expect(r.totalGrams).toBeCloseTo(9.5, 10);
   });
 
   it('W3: NaOH titration 3 mL → 6.5 g/L (common practice)', () => {
-    const r = catalystGrams({ catalyst: 'NaOH', oilLiters: 50, baseGramsPerLiter: 3.5, titrationMl: 3, purityPct: 100, titrantFrom: 'same-catalyst' });
+    const r = catalystGrams({
+      catalyst: 'NaOH',
+      oilLiters: 50,
+      baseGramsPerLiter: 3.5,
+      titrationMl: 3,
+      purityPct: 100,
+      titrantFrom: 'same-catalyst',
+    });
     expect(r.gramsPerLiter).toBeCloseTo(6.5, 10);
     expect(r.totalGrams).toBeCloseTo(325, 10);
   });
 
   it('W4: 6 L oil, NaOH 3.8 g/L → 22.8 g NaOH (common practice)', () => {
-    const r = catalystGrams({ catalyst: 'NaOH', oilLiters: 6, baseGramsPerLiter: 3.8, titrationMl: 0, purityPct: 100, titrantFrom: 'same-catalyst' });
+    const r = catalystGrams({
+      catalyst: 'NaOH',
+      oilLiters: 6,
+      baseGramsPerLiter: 3.8,
+      titrationMl: 0,
+      purityPct: 100,
+      titrantFrom: 'same-catalyst',
+    });
     expect(r.totalGrams).toBeCloseTo(22.8, 10);
   });
 
@@ -172,14 +195,28 @@ describe('catalystGrams — purity rule (common practice)', () => {
     const base = convertCatalystGrams(3.5, 'NaOH', 'KOH');
     expect(base).toBeCloseTo(4.91, 2);
     const at = (purityPct: number) =>
-      catalystGrams({ catalyst: 'KOH', oilLiters: 1, baseGramsPerLiter: base, titrationMl: 0, purityPct, titrantFrom: 'same-catalyst' }).gramsPerLiter;
+      catalystGrams({
+        catalyst: 'KOH',
+        oilLiters: 1,
+        baseGramsPerLiter: base,
+        titrationMl: 0,
+        purityPct,
+        titrantFrom: 'same-catalyst',
+      }).gramsPerLiter;
     expect(at(100)).toBeCloseTo(4.91, 2);
     expect(at(90)).toBeCloseTo(5.46, 2);
     expect(at(85)).toBeCloseTo(5.78, 2);
   });
 
   it('titrant from pure reagent: (base + titration) ÷ purity (common practice purity rule)', () => {
-    const r = catalystGrams({ catalyst: 'KOH', oilLiters: 113, baseGramsPerLiter: 7, titrationMl: 5.0667, purityPct: 90, titrantFrom: 'pure-reagent' });
+    const r = catalystGrams({
+      catalyst: 'KOH',
+      oilLiters: 113,
+      baseGramsPerLiter: 7,
+      titrationMl: 5.0667,
+      purityPct: 90,
+      titrantFrom: 'pure-reagent',
+    });
     expect(r.rule).toBe('all-over-purity');
     expect(r.gramsPerLiter).toBeCloseTo((7 + 5.0667) / 0.9, 10); // 13.4074
     expect(r.totalGrams).toBeCloseTo(1515.0, 1);
@@ -187,15 +224,36 @@ describe('catalystGrams — purity rule (common practice)', () => {
   });
 
   it('purity 100 %: both rules give base + titration', () => {
-    const same = catalystGrams({ catalyst: 'NaOH', oilLiters: 10, baseGramsPerLiter: 3.5, titrationMl: 2, purityPct: 100, titrantFrom: 'same-catalyst' });
-    const pure = catalystGrams({ catalyst: 'NaOH', oilLiters: 10, baseGramsPerLiter: 3.5, titrationMl: 2, purityPct: 100, titrantFrom: 'pure-reagent' });
+    const same = catalystGrams({
+      catalyst: 'NaOH',
+      oilLiters: 10,
+      baseGramsPerLiter: 3.5,
+      titrationMl: 2,
+      purityPct: 100,
+      titrantFrom: 'same-catalyst',
+    });
+    const pure = catalystGrams({
+      catalyst: 'NaOH',
+      oilLiters: 10,
+      baseGramsPerLiter: 3.5,
+      titrationMl: 2,
+      purityPct: 100,
+      titrantFrom: 'pure-reagent',
+    });
     expect(same.gramsPerLiter).toBeCloseTo(5.5, 10);
     expect(pure.gramsPerLiter).toBeCloseTo(5.5, 10);
     expect(same.rule).not.toBe(pure.rule); // the rule applied is still shown
   });
 
   it('NaOH vs KOH: the same oil needs 1.4027 × the NaOH grams as KOH (IUPAC)', () => {
-    const naoh = catalystGrams({ catalyst: 'NaOH', oilLiters: 100, baseGramsPerLiter: 3.5, titrationMl: 4, purityPct: 100, titrantFrom: 'same-catalyst' });
+    const naoh = catalystGrams({
+      catalyst: 'NaOH',
+      oilLiters: 100,
+      baseGramsPerLiter: 3.5,
+      titrationMl: 4,
+      purityPct: 100,
+      titrantFrom: 'same-catalyst',
+    });
     const koh = catalystGrams({
       catalyst: 'KOH',
       oilLiters: 100,
@@ -208,7 +266,13 @@ describe('catalystGrams — purity rule (common practice)', () => {
   });
 
   it('rejects purity 0, negative or above 100 %, and negative amounts', () => {
-    const base = { catalyst: 'KOH' as const, oilLiters: 10, baseGramsPerLiter: 7, titrationMl: 5, titrantFrom: 'same-catalyst' as const };
+    const base = {
+      catalyst: 'KOH' as const,
+      oilLiters: 10,
+      baseGramsPerLiter: 7,
+      titrationMl: 5,
+      titrantFrom: 'same-catalyst' as const,
+    };
     expect(() => catalystGrams({ ...base, purityPct: 0 })).toThrow(RangeError);
     expect(() => catalystGrams({ ...base, purityPct: -5 })).toThrow(RangeError);
     expect(() => catalystGrams({ ...base, purityPct: 100.1 })).toThrow(RangeError);
@@ -374,7 +438,7 @@ describe('expectedYields (stoichiometry; CRC Handbook; US DOE AFDC density)', ()
     expect(y.excessMethanolLiters).toBeCloseTo(0.0738, 3);
     // fuel mass = 920 + 99.88 − 95.69 = 924.2 g; ÷ 0.88 kg/L (US DOE AFDC)
     expect(y.fuelKg).toBeCloseTo(0.9242, 3);
-    expect(y.fuelLiters).toBeCloseTo(1.050, 2);
+    expect(y.fuelLiters).toBeCloseTo(1.05, 2);
     expect(y.assumptions).toBe(YIELD_ASSUMPTIONS);
   });
 
@@ -394,7 +458,14 @@ describe('expectedYields (stoichiometry; CRC Handbook; US DOE AFDC density)', ()
 
 describe('catalystGrams explanation text', () => {
   it('shows the purity used and the total', () => {
-    const r = catalystGrams({ catalyst: 'NaOH', oilLiters: 6, baseGramsPerLiter: 3.8, titrationMl: 0, purityPct: 97.5, titrantFrom: 'pure-reagent' });
+    const r = catalystGrams({
+      catalyst: 'NaOH',
+      oilLiters: 6,
+      baseGramsPerLiter: 3.8,
+      titrationMl: 0,
+      purityPct: 97.5,
+      titrantFrom: 'pure-reagent',
+    });
     expect(r.explanation).toContain('0.975 (97.5 % purity)');
     expect(r.totalGrams).toBeCloseTo(23.3846, 4); // 3.8 ÷ 0.975 × 6
   });

@@ -128,30 +128,55 @@ describe('energyCostCents', () => {
 
 describe('batchCost', () => {
   it('adds the parts and divides by gallons released', () => {
-    const r = batchCost({ chemicalsCents: 4521, energyCents: 184, feedstockCents: 0, otherCents: 250, gallonsReleased: 29.85 });
+    const r = batchCost({
+      chemicalsCents: 4521,
+      energyCents: 184,
+      feedstockCents: 0,
+      otherCents: 250,
+      gallonsReleased: 29.85,
+    });
     expect(r.totalCents).toBe(4955);
     expect(r.costPerGallonCents).toBe(166); // 165.996
     expect(r.breakdown).toEqual({ chemicalsCents: 4521, energyCents: 184, feedstockCents: 0, otherCents: 250 });
   });
 
   it('rounds the cost per gallon half up: 1001 ¢ ÷ 2 gal = 500.5 → 501', () => {
-    expect(batchCost({ chemicalsCents: 1001, energyCents: 0, feedstockCents: 0, otherCents: 0, gallonsReleased: 2 }).costPerGallonCents).toBe(501);
+    expect(
+      batchCost({ chemicalsCents: 1001, energyCents: 0, feedstockCents: 0, otherCents: 0, gallonsReleased: 2 })
+        .costPerGallonCents,
+    ).toBe(501);
   });
 
   it('works from litres via lib/units (113 L ≈ 29.85 gal, NIST SP 811)', () => {
-    const r = batchCost({ chemicalsCents: 5000, energyCents: 0, feedstockCents: 0, otherCents: 0, gallonsReleased: litersToGallons(113) });
+    const r = batchCost({
+      chemicalsCents: 5000,
+      energyCents: 0,
+      feedstockCents: 0,
+      otherCents: 0,
+      gallonsReleased: litersToGallons(113),
+    });
     expect(r.costPerGallonCents).toBe(167); // 5000 ÷ 29.8514 = 167.49
   });
 
   it('a rejected batch (0 gallons) has no cost per gallon', () => {
-    const r = batchCost({ chemicalsCents: 3000, energyCents: 100, feedstockCents: 0, otherCents: 0, gallonsReleased: 0 });
+    const r = batchCost({
+      chemicalsCents: 3000,
+      energyCents: 100,
+      feedstockCents: 0,
+      otherCents: 0,
+      gallonsReleased: 0,
+    });
     expect(r.totalCents).toBe(3100);
     expect(r.costPerGallonCents).toBeNull();
   });
 
   it('rejects fractional cents and negative gallons', () => {
-    expect(() => batchCost({ chemicalsCents: 1.5, energyCents: 0, feedstockCents: 0, otherCents: 0, gallonsReleased: 1 })).toThrow(RangeError);
-    expect(() => batchCost({ chemicalsCents: 1, energyCents: 0, feedstockCents: 0, otherCents: 0, gallonsReleased: -1 })).toThrow(RangeError);
+    expect(() =>
+      batchCost({ chemicalsCents: 1.5, energyCents: 0, feedstockCents: 0, otherCents: 0, gallonsReleased: 1 }),
+    ).toThrow(RangeError);
+    expect(() =>
+      batchCost({ chemicalsCents: 1, energyCents: 0, feedstockCents: 0, otherCents: 0, gallonsReleased: -1 }),
+    ).toThrow(RangeError);
   });
 });
 

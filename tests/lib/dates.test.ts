@@ -23,7 +23,8 @@ describe('lib/dates: one style, in the co-op’s zone', () => {
   });
 
   it('keeps a bare calendar date as that day in every zone', () => {
-    for (const tz of ['Pacific/Kiritimati', 'Pacific/Pago_Pago', 'UTC']) expect(formatDate('2026-12-06', tz)).toBe('Dec 6, 2026');
+    for (const tz of ['Pacific/Kiritimati', 'Pacific/Pago_Pago', 'UTC'])
+      expect(formatDate('2026-12-06', tz)).toBe('Dec 6, 2026');
   });
 
   it('is the style of the brewing pages too (a missing date shows as a dash)', () => {

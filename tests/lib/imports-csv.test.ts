@@ -12,20 +12,39 @@ const COLUMNS = [
 describe('readCsv', () => {
   it('reads a comma file with a BOM, quoted commas, CRLF line ends and headings in any order', () => {
     const r = readCsv('\uFEFFRole,E-mail,Name\r\nbrewer,ada@example.org,"Lovelace, Ada"\r\n', COLUMNS);
-    expect(r).toMatchObject({ ok: true, delimiter: ',', rows: [{ line: 2, cells: { name: 'Lovelace, Ada', email: 'ada@example.org', role: 'brewer' } }] });
+    expect(r).toMatchObject({
+      ok: true,
+      delimiter: ',',
+      rows: [{ line: 2, cells: { name: 'Lovelace, Ada', email: 'ada@example.org', role: 'brewer' } }],
+    });
   });
 
   it('guesses `;` and tab separators, skips blank lines but keeps spreadsheet row numbers', () => {
-    const semi = readCsv('name;email;role\n\nA;a@example.org;member\n;;\n"B\nsecond line";b@example.org;admin\nC;c@example.org;x\n', COLUMNS);
+    const semi = readCsv(
+      'name;email;role\n\nA;a@example.org;member\n;;\n"B\nsecond line";b@example.org;admin\nC;c@example.org;x\n',
+      COLUMNS,
+    );
     expect(semi.ok && semi.delimiter).toBe(';');
     // Row 2 and 4 are blank; row 5's quoted cell spans two physical lines, so C is on line 7.
-    expect(semi.ok && semi.rows.map((r) => [r.line, r.cells.email])).toEqual([[3, 'a@example.org'], [5, 'b@example.org'], [7, 'c@example.org']]);
+    expect(semi.ok && semi.rows.map((r) => [r.line, r.cells.email])).toEqual([
+      [3, 'a@example.org'],
+      [5, 'b@example.org'],
+      [7, 'c@example.org'],
+    ]);
     const tab = readCsv('Email address\tFull name\nz@example.org\tZed\n', COLUMNS);
-    expect(tab).toMatchObject({ ok: true, delimiter: '\t', rows: [{ line: 2, cells: { email: 'z@example.org', name: 'Zed', role: '' } }] });
+    expect(tab).toMatchObject({
+      ok: true,
+      delimiter: '\t',
+      rows: [{ line: 2, cells: { email: 'z@example.org', name: 'Zed', role: '' } }],
+    });
   });
 
   it('names a missing required column, an empty file and a file with no rows', () => {
-    expect(readCsv('name,role\nA,member\n', COLUMNS)).toMatchObject({ ok: false, field: 'csv', error: expect.stringContaining('"E-mail"') });
+    expect(readCsv('name,role\nA,member\n', COLUMNS)).toMatchObject({
+      ok: false,
+      field: 'csv',
+      error: expect.stringContaining('"E-mail"'),
+    });
     expect(readCsv('\uFEFF\r\n\r\n', COLUMNS)).toMatchObject({ ok: false, error: expect.stringContaining('empty') });
     expect(readCsv('email\n\n', COLUMNS)).toMatchObject({ ok: false, error: expect.stringContaining('no rows') });
   });
@@ -55,7 +74,8 @@ describe('parseLocaleNumber', () => {
     expect(parseLocaleNumber('12,75', ',')).toBe('12.75');
   });
   it('refuses what is not a number, and misplaced groups', () => {
-    for (const bad of ['', 'abc', '1,23.4', '12.5.6', '1e5', '0x10', '--3']) expect(parseLocaleNumber(bad, '.')).toBeNull();
+    for (const bad of ['', 'abc', '1,23.4', '12.5.6', '1e5', '0x10', '--3'])
+      expect(parseLocaleNumber(bad, '.')).toBeNull();
     expect(parseLocaleNumber('1.23,4', ',')).toBeNull();
   });
 });
@@ -67,7 +87,8 @@ describe('import values in the co-op’s locale', async () => {
     expect(readDate('03/04/2026', 'metric')).toEqual({ ok: true, value: '2026-04-03' });
     expect(readDate('31.12.2025', 'metric')).toEqual({ ok: true, value: '2025-12-31' });
     expect(readDate('2026-02-28', 'metric')).toEqual({ ok: true, value: '2026-02-28' });
-    for (const bad of ['2026-02-30', '13/01/2026', '1/2/26', 'yesterday', '']) expect(readDate(bad, 'us').ok).toBe(false);
+    for (const bad of ['2026-02-30', '13/01/2026', '1/2/26', 'yesterday', ''])
+      expect(readDate(bad, 'us').ok).toBe(false);
   });
   it('money to whole cents without floats; metric files with dot decimals still read', () => {
     expect(readMoneyCents('1,250.00', 'us')).toEqual({ ok: true, value: 125000 });

@@ -14,7 +14,14 @@ describe('e-mails: dates in the co-op’s zone and the one style (lib/dates)', (
   });
 
   it('writes the invitation’s expiry in the co-op’s zone', () => {
-    const mail = invitationMail({ coopName: 'Test Co-op', inviter: 'An Admin', role: 'member', token: 't0ken', expiresAt: AT, timezone: 'Asia/Tokyo' });
+    const mail = invitationMail({
+      coopName: 'Test Co-op',
+      inviter: 'An Admin',
+      role: 'member',
+      token: 't0ken',
+      expiresAt: AT,
+      timezone: 'Asia/Tokyo',
+    });
     expect(mail.text).toContain('expires on Mar 2, 2026, 05:30 (Asia/Tokyo).');
     expect(mail.text).not.toMatch(/\d{4}-\d{2}-\d{2}|GMT|UTC/);
   });

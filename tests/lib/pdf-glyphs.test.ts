@@ -20,8 +20,24 @@ async function pdfText(bytes: Buffer): Promise<string> {
 
 const normalise = (s: string) => s.replace(/\s+/g, ' ').trim();
 
-const SYMBOLS = ['≤ 0.50 mg KOH/g', '≥ 93 °C', '12.84 g/L → 1451.4 g', '≈ 66 ppm', '1.9–6.0 mm²/s', '59.9 °C (139.8 °F)'];
-const explanation = catalystGrams({ catalyst: 'KOH', titrant: 'NaOH', oilLiters: 113, baseGramsPerLiter: 7, titrationMl: 4, purityPct: 90, titrantFrom: 'pure-reagent', system: 'us' }).explanation;
+const SYMBOLS = [
+  '≤ 0.50 mg KOH/g',
+  '≥ 93 °C',
+  '12.84 g/L → 1451.4 g',
+  '≈ 66 ppm',
+  '1.9–6.0 mm²/s',
+  '59.9 °C (139.8 °F)',
+];
+const explanation = catalystGrams({
+  catalyst: 'KOH',
+  titrant: 'NaOH',
+  oilLiters: 113,
+  baseGramsPerLiter: 7,
+  titrationMl: 4,
+  purityPct: 90,
+  titrantFrom: 'pure-reagent',
+  system: 'us',
+}).explanation;
 const STRINGS = [
   ...SYMBOLS,
   ...QUALITY_LIMITS.flatMap((r) => [r.label, r.limitText, r.unit, r.note ?? '', r.source]),

@@ -6,13 +6,33 @@ import { memberPriceCentsPerGallon, drawCharge, drawChargeCents, type PricingPol
 
 describe('memberPriceCentsPerGallon', () => {
   it('fixed: 450 ¢ + 10 ¢ surcharge + 24.4 ¢ road tax = 484.4 ¢/gal for road use', () => {
-    const policy: PricingPolicy = { kind: 'fixed', priceCents: 450, surchargeCentsPerGallon: 10, roadTaxCentsPerGallon: 24.4 };
-    expect(memberPriceCentsPerGallon(policy, null, 'road')).toEqual({ baseCents: 450, surchargeCents: 10, taxCents: 24.4, totalCents: 484.4 });
+    const policy: PricingPolicy = {
+      kind: 'fixed',
+      priceCents: 450,
+      surchargeCentsPerGallon: 10,
+      roadTaxCentsPerGallon: 24.4,
+    };
+    expect(memberPriceCentsPerGallon(policy, null, 'road')).toEqual({
+      baseCents: 450,
+      surchargeCents: 10,
+      taxCents: 24.4,
+      totalCents: 484.4,
+    });
   });
 
   it('road tax applies only to road use', () => {
-    const policy: PricingPolicy = { kind: 'fixed', priceCents: 450, surchargeCentsPerGallon: 10, roadTaxCentsPerGallon: 24.4 };
-    expect(memberPriceCentsPerGallon(policy, null, 'off-road')).toEqual({ baseCents: 450, surchargeCents: 10, taxCents: 0, totalCents: 460 });
+    const policy: PricingPolicy = {
+      kind: 'fixed',
+      priceCents: 450,
+      surchargeCentsPerGallon: 10,
+      roadTaxCentsPerGallon: 24.4,
+    };
+    expect(memberPriceCentsPerGallon(policy, null, 'off-road')).toEqual({
+      baseCents: 450,
+      surchargeCents: 10,
+      taxCents: 0,
+      totalCents: 460,
+    });
     expect(memberPriceCentsPerGallon(policy, null, 'heating').taxCents).toBe(0);
   });
 
@@ -26,27 +46,49 @@ describe('memberPriceCentsPerGallon', () => {
   });
 
   it('cost-plus-percent: 300 ¢ + 15 % = 345; 333 + 10 % = 366.3 → 366; 305 + 10 % = 335.5 → 336', () => {
-    expect(memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 15 }, 300, 'off-road').baseCents).toBe(345);
-    expect(memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 10 }, 333, 'off-road').baseCents).toBe(366);
-    expect(memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 10 }, 305, 'off-road').baseCents).toBe(336);
+    expect(memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 15 }, 300, 'off-road').baseCents).toBe(
+      345,
+    );
+    expect(memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 10 }, 333, 'off-road').baseCents).toBe(
+      366,
+    );
+    expect(memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 10 }, 305, 'off-road').baseCents).toBe(
+      336,
+    );
   });
 
   it('cost-plus-percent with road tax and surcharge: 300 × 1.2 = 360 + 5 + 24.4 = 389.4', () => {
-    const r = memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 20, surchargeCentsPerGallon: 5, roadTaxCentsPerGallon: 24.4 }, 300, 'road');
+    const r = memberPriceCentsPerGallon(
+      { kind: 'cost-plus-percent', marginPct: 20, surchargeCentsPerGallon: 5, roadTaxCentsPerGallon: 24.4 },
+      300,
+      'road',
+    );
     expect(r).toEqual({ baseCents: 360, surchargeCents: 5, taxCents: 24.4, totalCents: 389.4 });
   });
 
   it('cost-based policies need the tank average; bad inputs are rejected', () => {
-    expect(() => memberPriceCentsPerGallon({ kind: 'cost-plus-amount', marginCents: 50 }, null, 'road')).toThrow(RangeError);
-    expect(() => memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 10 }, -1, 'road')).toThrow(RangeError);
+    expect(() => memberPriceCentsPerGallon({ kind: 'cost-plus-amount', marginCents: 50 }, null, 'road')).toThrow(
+      RangeError,
+    );
+    expect(() => memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: 10 }, -1, 'road')).toThrow(
+      RangeError,
+    );
     expect(() => memberPriceCentsPerGallon({ kind: 'fixed', priceCents: 4.5 }, null, 'road')).toThrow(RangeError);
-    expect(() => memberPriceCentsPerGallon({ kind: 'fixed', priceCents: 450, roadTaxCentsPerGallon: -1 }, null, 'road')).toThrow(RangeError);
-    expect(() => memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: -150 }, 300, 'road')).toThrow(RangeError);
+    expect(() =>
+      memberPriceCentsPerGallon({ kind: 'fixed', priceCents: 450, roadTaxCentsPerGallon: -1 }, null, 'road'),
+    ).toThrow(RangeError);
+    expect(() => memberPriceCentsPerGallon({ kind: 'cost-plus-percent', marginPct: -150 }, 300, 'road')).toThrow(
+      RangeError,
+    );
   });
 });
 
 describe('drawCharge / drawChargeCents', () => {
-  const road = memberPriceCentsPerGallon({ kind: 'fixed', priceCents: 450, surchargeCentsPerGallon: 10, roadTaxCentsPerGallon: 24.4 }, null, 'road');
+  const road = memberPriceCentsPerGallon(
+    { kind: 'fixed', priceCents: 450, surchargeCentsPerGallon: 10, roadTaxCentsPerGallon: 24.4 },
+    null,
+    'road',
+  );
 
   it('12.5 gal: fuel 5625 + surcharge 125 + tax 305 = 6055 ¢', () => {
     expect(drawCharge(12.5, road)).toEqual({ fuelCents: 5625, surchargeCents: 125, taxCents: 305, totalCents: 6055 });

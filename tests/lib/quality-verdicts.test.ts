@@ -16,15 +16,35 @@ import {
   type QualityResults,
 } from '@/lib/quality';
 
-const lab = (value: number, method = 'ASTM D93') => ({ value, method, laboratory: 'Valley Fuel Lab', date: '2026-11-20' });
+const lab = (value: number, method = 'ASTM D93') => ({
+  value,
+  method,
+  laboratory: 'Valley Fuel Lab',
+  date: '2026-11-20',
+});
 const home = (value: number) => ({ value, method: 'titration', laboratory: 'home test', date: '2026-11-20' });
 
 /** Every required ASTM D6751 (No. 2-B, S15) property, within limits, from a laboratory. */
 const fullAstm: QualityResults = {
-  acidNumber: lab(0.3, 'ASTM D664'), freeGlycerin: lab(0.01), totalGlycerin: lab(0.2), waterAndSediment: lab(0.02), flashPoint: lab(150),
-  methanol: lab(0.1), kinematicViscosity40C: lab(4.5), sulfur: lab(8), cloudPoint: lab(2), oxidationStability: lab(5), sulfatedAsh: lab(0.01),
-  copperStripCorrosion: lab(1), cetaneNumber: lab(50), carbonResidue: lab(0.03), sodiumPotassium: lab(2), calciumMagnesium: lab(1),
-  phosphorus: lab(0.0005), distillationT90: lab(345), coldSoakFiltration: lab(120),
+  acidNumber: lab(0.3, 'ASTM D664'),
+  freeGlycerin: lab(0.01),
+  totalGlycerin: lab(0.2),
+  waterAndSediment: lab(0.02),
+  flashPoint: lab(150),
+  methanol: lab(0.1),
+  kinematicViscosity40C: lab(4.5),
+  sulfur: lab(8),
+  cloudPoint: lab(2),
+  oxidationStability: lab(5),
+  sulfatedAsh: lab(0.01),
+  copperStripCorrosion: lab(1),
+  cetaneNumber: lab(50),
+  carbonResidue: lab(0.03),
+  sodiumPotassium: lab(2),
+  calciumMagnesium: lab(1),
+  phosphorus: lab(0.0005),
+  distillationT90: lab(345),
+  coldSoakFiltration: lab(120),
 };
 
 describe('completed limits tables', () => {
@@ -37,11 +57,14 @@ describe('completed limits tables', () => {
     ['phosphorus', undefined, 0.001],
     ['distillationT90', undefined, 360],
     ['coldSoakFiltration', undefined, 360],
-  ] as const)('ASTM D6751 %s: min %s, max %s (ASTM D6751 Table 1, public summary of D6751-09)', (property, min, max) => {
-    const r = row('ASTM D6751', property);
-    expect([r?.min, r?.max, r?.required]).toEqual([min, max, true]);
-    expect([r?.fromMemory, r?.checkedAgainst]).toEqual([undefined, expect.stringMatching(/ASTM D6751-09/)]);
-  });
+  ] as const)(
+    'ASTM D6751 %s: min %s, max %s (ASTM D6751 Table 1, public summary of D6751-09)',
+    (property, min, max) => {
+      const r = row('ASTM D6751', property);
+      expect([r?.min, r?.max, r?.required]).toEqual([min, max, true]);
+      expect([r?.fromMemory, r?.checkedAgainst]).toEqual([undefined, expect.stringMatching(/ASTM D6751-09/)]);
+    },
+  );
 
   it('ASTM D6751 grade No. 1-B (for cold use): cold soak ≤ 200 s and monoglycerides ≤ 0.40 % (ASTM D6751-12 on; a fuel-testing laboratory’s public note on ASTM D7501)', () => {
     expect(row('ASTM D6751', 'coldSoakFiltration', '1-B')?.max).toBe(200);
@@ -61,11 +84,14 @@ describe('completed limits tables', () => {
     ['phosphorus', undefined, 4],
     ['sodiumPotassium', undefined, 5],
     ['calciumMagnesium', undefined, 5],
-  ] as const)('EN 14214 %s: min %s, max %s (EN 14214 Table 1, public table of EN 14214:2012+A1:2014)', (property, min, max) => {
-    const r = row('EN 14214', property);
-    expect([r?.min, r?.max, r?.required, r?.fromMemory]).toEqual([min, max, true, undefined]);
-    expect(r?.checkedAgainst).toMatch(/EN 14214:2012\+A1:2014/);
-  });
+  ] as const)(
+    'EN 14214 %s: min %s, max %s (EN 14214 Table 1, public table of EN 14214:2012+A1:2014)',
+    (property, min, max) => {
+      const r = row('EN 14214', property);
+      expect([r?.min, r?.max, r?.required, r?.fromMemory]).toEqual([min, max, true, undefined]);
+      expect(r?.checkedAgainst).toMatch(/EN 14214:2012\+A1:2014/);
+    },
+  );
 
   it('every row names its method and source; rows whose values changed name the edition (EN 14214:2012 oxidation 6 → 8 h, phosphorus 10 → 4 mg/kg)', () => {
     for (const r of QUALITY_LIMITS) {
@@ -82,14 +108,18 @@ describe('verdicts (ASTM D6751; EN 14214)', () => {
     const r = evaluateQuality('ASTM D6751', fullAstm);
     expect(r.verdict.text).toBe('Meets ASTM D6751');
     const { coldSoakFiltration: _omit, ...oneShort } = fullAstm;
-    expect(evaluateQuality('ASTM D6751', oneShort).verdict.text).toBe('Screened — 18 of 19 required properties tested, none failing');
+    expect(evaluateQuality('ASTM D6751', oneShort).verdict.text).toBe(
+      'Screened — 18 of 19 required properties tested, none failing',
+    );
   });
 
   it('grade No. 1-B needs the monoglycerides and the 200 s cold soak (ASTM D6751)', () => {
     expect(evaluateQuality('ASTM D6751', fullAstm, { astmGrade: '1-B' }).verdict.kind).toBe('screened');
     const cold = { ...fullAstm, monoglycerides: lab(0.3) };
     expect(evaluateQuality('ASTM D6751', cold, { astmGrade: '1-B' }).verdict.text).toBe('Meets ASTM D6751');
-    expect(evaluateQuality('ASTM D6751', { ...cold, coldSoakFiltration: lab(250) }, { astmGrade: '1-B' }).verdict.text).toBe('Fails: Cold soak filtration');
+    expect(
+      evaluateQuality('ASTM D6751', { ...cold, coldSoakFiltration: lab(250) }, { astmGrade: '1-B' }).verdict.text,
+    ).toBe('Fails: Cold soak filtration');
   });
 
   it('"Fails: <property>" names every failing laboratory result (ASTM D6751 AN ≤ 0.50, flash ≥ 93 °C)', () => {
@@ -99,14 +129,18 @@ describe('verdicts (ASTM D6751; EN 14214)', () => {
   });
 
   it('a home test never produces a standard verdict, even in full or out of limits', () => {
-    const allHome = Object.fromEntries(Object.entries(fullAstm).map(([k, v]) => [k, home((v as { value: number }).value)]));
+    const allHome = Object.fromEntries(
+      Object.entries(fullAstm).map(([k, v]) => [k, home((v as { value: number }).value)]),
+    );
     const r = evaluateQuality('ASTM D6751', allHome);
     expect(r.verdict.kind).toBe('screened');
     expect(r.verdict.testedCount).toBe(0);
     expect(r.rows.find((x) => x.property === 'acidNumber')?.verdict).toBe('screened-within');
     const high = evaluateQuality('ASTM D6751', { acidNumber: home(0.8) });
     expect(high.verdict.kind).toBe('screened');
-    expect(high.verdict.text).toBe('Screened — 0 of 19 required properties tested, none failing; outside the limit in screening: Acid number');
+    expect(high.verdict.text).toBe(
+      'Screened — 0 of 19 required properties tested, none failing; outside the limit in screening: Acid number',
+    );
     expect(high.rows[0]).toMatchObject({ verdict: 'screened-outside', laboratory: 'home test', isLaboratory: false });
   });
 
@@ -114,7 +148,9 @@ describe('verdicts (ASTM D6751; EN 14214)', () => {
     expect(isLaboratoryResult(0.3)).toBe(false);
     expect(isLaboratoryResult({ value: 0.3, laboratory: 'Valley Fuel Lab', date: '2026-11-20' })).toBe(false);
     expect(isLaboratoryResult({ value: 0.3, method: 'ASTM D664', laboratory: 'Valley Fuel Lab' })).toBe(false);
-    expect(isLaboratoryResult({ value: 0.3, method: 'ASTM D664', laboratory: 'Home Test', date: '2026-11-20' })).toBe(false);
+    expect(isLaboratoryResult({ value: 0.3, method: 'ASTM D664', laboratory: 'Home Test', date: '2026-11-20' })).toBe(
+      false,
+    );
     expect(isLaboratoryResult(lab(0.3))).toBe(true);
     const r = evaluateQuality('ASTM D6751', { acidNumber: 0.3 });
     expect(r.rows[0]).toMatchObject({ verdict: 'screened-within', value: 0.3 });

@@ -11,7 +11,12 @@ import {
 
 /** Every value as a laboratory result (method, laboratory and date recorded). */
 const labAll = (values: Record<string, number>): QualityResults =>
-  Object.fromEntries(Object.entries(values).map(([k, value]) => [k, { value, method: 'ASTM D664', laboratory: 'Valley Fuel Lab', date: '2026-11-20' }]));
+  Object.fromEntries(
+    Object.entries(values).map(([k, value]) => [
+      k,
+      { value, method: 'ASTM D664', laboratory: 'Valley Fuel Lab', date: '2026-11-20' },
+    ]),
+  );
 
 const row = (standard: 'ASTM D6751' | 'EN 14214', property: string) =>
   QUALITY_LIMITS.find((r) => r.standard === standard && r.property === property);
@@ -114,7 +119,8 @@ describe('evaluateQuality', () => {
     distillationT90: 345,
     coldSoakFiltration: 120,
   };
-  const pv = (r: ReturnType<typeof evaluateQuality>, property: string) => r.rows.find((x) => x.property === property)?.verdict;
+  const pv = (r: ReturnType<typeof evaluateQuality>, property: string) =>
+    r.rows.find((x) => x.property === property)?.verdict;
 
   it('every required ASTM D6751 property tested by a laboratory within limits → "Meets ASTM D6751", with the screening caution', () => {
     const r = evaluateQuality('ASTM D6751', labAll(goodAstm));
@@ -129,8 +135,14 @@ describe('evaluateQuality', () => {
   it('values exactly at the limits pass (ASTM D6751: AN 0.50, flash 93 °C, viscosity 1.9 and 6.0)', () => {
     const atLimits = { acidNumber: 0.5, flashPoint: 93, kinematicViscosity40C: 6.0 };
     const r = evaluateQuality('ASTM D6751', labAll(atLimits));
-    expect(['acidNumber', 'flashPoint', 'kinematicViscosity40C'].map((p) => pv(r, p))).toEqual(['pass', 'pass', 'pass']);
-    expect(pv(evaluateQuality('ASTM D6751', labAll({ kinematicViscosity40C: 1.9 })), 'kinematicViscosity40C')).toBe('pass');
+    expect(['acidNumber', 'flashPoint', 'kinematicViscosity40C'].map((p) => pv(r, p))).toEqual([
+      'pass',
+      'pass',
+      'pass',
+    ]);
+    expect(pv(evaluateQuality('ASTM D6751', labAll({ kinematicViscosity40C: 1.9 })), 'kinematicViscosity40C')).toBe(
+      'pass',
+    );
     expect(evaluateQuality('ASTM D6751', labAll({ ...goodAstm, ...atLimits })).overall).toBe('pass');
   });
 
@@ -148,7 +160,9 @@ describe('evaluateQuality', () => {
 
   it('EN 14214 viscosity 3.50–5.00 and density 860–900 kg/m³', () => {
     expect(evaluateQuality('EN 14214', labAll({ kinematicViscosity40C: 5.5 })).overall).toBe('fail');
-    expect(pv(evaluateQuality('ASTM D6751', labAll({ kinematicViscosity40C: 5.5 })), 'kinematicViscosity40C')).toBe('pass');
+    expect(pv(evaluateQuality('ASTM D6751', labAll({ kinematicViscosity40C: 5.5 })), 'kinematicViscosity40C')).toBe(
+      'pass',
+    );
     expect(pv(evaluateQuality('EN 14214', labAll({ density15C: 880 })), 'density15C')).toBe('pass');
     expect(evaluateQuality('EN 14214', labAll({ density15C: 905 })).overall).toBe('fail');
   });
@@ -164,13 +178,21 @@ describe('evaluateQuality', () => {
   });
 
   it('ASTM D6751 methanol: ≤ 0.2 % or flash point ≥ 130 °C', () => {
-    expect(evaluateQuality('ASTM D6751', labAll({ methanol: 0.3, flashPoint: 135 })).rows.find((x) => x.property === 'methanol')).toMatchObject({
+    expect(
+      evaluateQuality('ASTM D6751', labAll({ methanol: 0.3, flashPoint: 135 })).rows.find(
+        (x) => x.property === 'methanol',
+      ),
+    ).toMatchObject({
       verdict: 'pass',
       note: 'Met by flash point ≥ 130 °C.',
     });
     expect(evaluateQuality('ASTM D6751', labAll({ methanol: 0.3, flashPoint: 120 })).overall).toBe('fail');
-    expect(evaluateQuality('ASTM D6751', labAll({ flashPoint: 130 })).rows.find((x) => x.property === 'methanol')?.verdict).toBe('pass');
-    expect(evaluateQuality('ASTM D6751', labAll({ flashPoint: 100 })).rows.find((x) => x.property === 'methanol')?.verdict).toBe('not tested');
+    expect(
+      evaluateQuality('ASTM D6751', labAll({ flashPoint: 130 })).rows.find((x) => x.property === 'methanol')?.verdict,
+    ).toBe('pass');
+    expect(
+      evaluateQuality('ASTM D6751', labAll({ flashPoint: 100 })).rows.find((x) => x.property === 'methanol')?.verdict,
+    ).toBe('not tested');
     // EN 14214 has no flash-point alternative
     expect(evaluateQuality('EN 14214', labAll({ methanol: 0.3, flashPoint: 135 })).overall).toBe('fail');
   });
@@ -207,7 +229,11 @@ describe('quick tests — screening only (common practice)', () => {
   });
 
   it('3/27 fall-out, emulsion or haze → needs attention', () => {
-    const r = evaluateQuickTests({ test327: { result: 'fallout', falloutMl: 1.5 }, washTest: 'emulsion', water: 'hazy' });
+    const r = evaluateQuickTests({
+      test327: { result: 'fallout', falloutMl: 1.5 },
+      washTest: 'emulsion',
+      water: 'hazy',
+    });
     expect(r.overall).toBe('needs-attention');
     expect(r.items.find((i) => i.test === 'test327')?.detail).toContain('1.5 mL');
     expect(r.items.find((i) => i.test === 'soap')?.status).toBe('not tested');

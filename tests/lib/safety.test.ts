@@ -59,7 +59,13 @@ describe('material and altitude cautions (NREL Biodiesel Handling and Use Guide;
 
   it('the altitude note is added after the methanol cautions, before the local-rules line (NIST WebBook Antoine; barometric formula)', () => {
     const list = safetyCautionsFor(['methanol'], { altitudeText: 'At 1,600 m methanol boils at about 59.9 °C.' });
-    expect(list.map((c) => c.id)).toEqual(['methanol-flammable', 'methanol-toxic', 'methanol-vapour', 'altitude', 'local-rules']);
+    expect(list.map((c) => c.id)).toEqual([
+      'methanol-flammable',
+      'methanol-toxic',
+      'methanol-vapour',
+      'altitude',
+      'local-rules',
+    ]);
     expect(ALTITUDE_CAUTION.text).toMatch(/boils below 64\.7 °C/);
   });
 });

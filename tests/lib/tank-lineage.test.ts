@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { addTo, allocateFifo, allocateOutflow, allocateProportional, heldMl, sharesOf, takeFrom, type Layer } from '@/lib/tank/lineage-math';
+import {
+  addTo,
+  allocateFifo,
+  allocateOutflow,
+  allocateProportional,
+  heldMl,
+  sharesOf,
+  takeFrom,
+  type Layer,
+} from '@/lib/tank/lineage-math';
 
 // Hand-computed examples (worked by hand on paper, in whole millilitres). The two mixing models
 // are the usual assumptions for a shared fuel tank (common practice): a stirred or recirculated
@@ -37,12 +46,22 @@ describe('well-mixed tank: proportional shares, exact to the millilitre', () => 
     const layers = [layer(5, 75_708, 1), layer(null, 24_292, 2)];
     const taken = allocateOutflow(layers, 20_000, 'mixed');
     expect(taken).toEqual([15_142, 4_858]);
-    expect(sharesOf(layers, taken)).toEqual([{ batchId: 5, ml: 15_142 }, { batchId: null, ml: 4_858 }]);
+    expect(sharesOf(layers, taken)).toEqual([
+      { batchId: 5, ml: 15_142 },
+      { batchId: null, ml: 4_858 },
+    ]);
     expect(takeFrom(layers, taken).map((l) => l.ml)).toEqual([60_566, 19_434]);
   });
 
   it('keeps one layer per batch: fuel of a batch already in the tank joins it', () => {
-    const after = addTo([layer(5, 1000, 1), layer(6, 500, 2)], [{ batchId: 5, ml: 250 }, { batchId: 7, ml: 100 }], 'mixed');
+    const after = addTo(
+      [layer(5, 1000, 1), layer(6, 500, 2)],
+      [
+        { batchId: 5, ml: 250 },
+        { batchId: 7, ml: 100 },
+      ],
+      'mixed',
+    );
     expect(after).toEqual([layer(5, 1250, 1), layer(6, 500, 2), layer(7, 100)]);
   });
 });
@@ -53,13 +72,23 @@ describe('first-in-first-out tank', () => {
     const layers = [layer(12, 100_000, 1), layer(13, 300_000, 2)];
     const taken = allocateOutflow(layers, 150_000, 'fifo');
     expect(taken).toEqual([100_000, 50_000]);
-    expect(sharesOf(layers, taken)).toEqual([{ batchId: 12, ml: 100_000 }, { batchId: 13, ml: 50_000 }]);
+    expect(sharesOf(layers, taken)).toEqual([
+      { batchId: 12, ml: 100_000 },
+      { batchId: 13, ml: 50_000 },
+    ]);
     expect(takeFrom(layers, taken).map((l) => l.ml)).toEqual([0, 250_000]);
   });
 
   it('stacks new fuel on top, joining the newest layer only when it is the same batch', () => {
-    expect(addTo([layer(5, 10, 1), layer(6, 10, 2)], [{ batchId: 5, ml: 4 }], 'fifo')).toEqual([layer(5, 10, 1), layer(6, 10, 2), layer(5, 4)]);
-    expect(addTo([layer(5, 10, 1), layer(6, 10, 2)], [{ batchId: 6, ml: 4 }], 'fifo')).toEqual([layer(5, 10, 1), layer(6, 14, 2)]);
+    expect(addTo([layer(5, 10, 1), layer(6, 10, 2)], [{ batchId: 5, ml: 4 }], 'fifo')).toEqual([
+      layer(5, 10, 1),
+      layer(6, 10, 2),
+      layer(5, 4),
+    ]);
+    expect(addTo([layer(5, 10, 1), layer(6, 10, 2)], [{ batchId: 6, ml: 4 }], 'fifo')).toEqual([
+      layer(5, 10, 1),
+      layer(6, 14, 2),
+    ]);
   });
 
   it('refuses to take more than the tank holds', () => {

@@ -69,7 +69,13 @@ describe('form values', () => {
   });
 
   it('a reservation for someone else (membershipId) is refused by field', () => {
-    const r = reservationCreateSchema.safeParse({ tankId: 1, quantity: 5, windowStart: '2026-12-03', windowEnd: '2026-12-04', membershipId: 7 });
+    const r = reservationCreateSchema.safeParse({
+      tankId: 1,
+      quantity: 5,
+      windowStart: '2026-12-03',
+      windowEnd: '2026-12-04',
+      membershipId: 7,
+    });
     expect(r.error?.issues.map((i) => i.path.join('.'))).toContain('membershipId');
   });
 });

@@ -12,7 +12,13 @@ function chunkedPost(path: string, chunks: number): Promise<{ status: number; se
     let sent = 0;
     let answered = false;
     const req = http.request(
-      { host: u.hostname, port: u.port, path: u.pathname, method: 'POST', headers: { 'content-type': 'application/json', origin: baseUrl(), 'transfer-encoding': 'chunked' } },
+      {
+        host: u.hostname,
+        port: u.port,
+        path: u.pathname,
+        method: 'POST',
+        headers: { 'content-type': 'application/json', origin: baseUrl(), 'transfer-encoding': 'chunked' },
+      },
       (res) => {
         answered = true;
         res.resume();
@@ -38,11 +44,24 @@ describe('JSON body size', () => {
     const started = Date.now();
     const res = await new Promise<number>((resolve, reject) => {
       const u = new URL('/api/password-reset', baseUrl());
-      const req = http.request({ host: u.hostname, port: u.port, path: u.pathname, method: 'POST', headers: { 'content-type': 'application/json', origin: baseUrl(), 'content-length': String(100 * 1024 * 1024) } }, (r) => {
-        r.resume();
-        resolve(r.statusCode ?? 0);
-        req.destroy();
-      });
+      const req = http.request(
+        {
+          host: u.hostname,
+          port: u.port,
+          path: u.pathname,
+          method: 'POST',
+          headers: {
+            'content-type': 'application/json',
+            origin: baseUrl(),
+            'content-length': String(100 * 1024 * 1024),
+          },
+        },
+        (r) => {
+          r.resume();
+          resolve(r.statusCode ?? 0);
+          req.destroy();
+        },
+      );
       req.on('error', () => {});
       req.write('{"email":"');
       setTimeout(() => reject(new Error('no answer')), 20_000).unref();
@@ -58,9 +77,15 @@ describe('JSON body size', () => {
   });
 
   it('a body just under the limit is read and judged (422), one just over is 413', async () => {
-    const under = await api().post('/api/password-reset').set('content-type', 'application/json').send(JSON.stringify({ email: 'x'.repeat(250 * 1024) }));
+    const under = await api()
+      .post('/api/password-reset')
+      .set('content-type', 'application/json')
+      .send(JSON.stringify({ email: 'x'.repeat(250 * 1024) }));
     expect(under.status).toBe(422);
-    const over = await api().post('/api/password-reset').set('content-type', 'application/json').send(JSON.stringify({ email: 'x'.repeat(257 * 1024) }));
+    const over = await api()
+      .post('/api/password-reset')
+      .set('content-type', 'application/json')
+      .send(JSON.stringify({ email: 'x'.repeat(257 * 1024) }));
     expect(over.status).toBe(413);
   });
 });

@@ -14,7 +14,7 @@ beforeAll(async () => {
 });
 
 describe('cross-origin writes', () => {
-  it('a signed-in admin\'s request from another origin is refused with 403; nothing is written', async () => {
+  it("a signed-in admin's request from another origin is refused with 403; nothing is written", async () => {
     const sibling = baseUrl().replace('127.0.0.1', 'localhost');
     for (const origin of ['http://evil.example', sibling, `${baseUrl()}.evil.example`, 'null']) {
       const res = await ctx.agents.admin.post(tanks()).set('Origin', origin).send(body);
@@ -23,9 +23,13 @@ describe('cross-origin writes', () => {
     expect(await tankCount()).toBe(0);
   });
 
-  it('the text/plain body of an auto-submitting form is refused with 403 from another origin and 415 from the app\'s own', async () => {
+  it("the text/plain body of an auto-submitting form is refused with 403 from another origin and 415 from the app's own", async () => {
     const json = JSON.stringify(body);
-    const cross = await ctx.agents.admin.post(tanks()).set('Origin', 'http://evil.example').set('Content-Type', 'text/plain').send(json);
+    const cross = await ctx.agents.admin
+      .post(tanks())
+      .set('Origin', 'http://evil.example')
+      .set('Content-Type', 'text/plain')
+      .send(json);
     expect(cross.status).toBe(403);
     const same = await ctx.agents.admin.post(tanks()).set('Content-Type', 'text/plain').send(json);
     expect(same.status).toBe(415);
@@ -40,13 +44,20 @@ describe('cross-origin writes', () => {
     const sameSite = await ctx.agents.admin.post(tanks()).unset('Origin').set('Sec-Fetch-Site', 'same-site').send(body);
     expect(sameSite.status).toBe(403);
     expect(await tankCount()).toBe(0);
-    const sameOrigin = await ctx.agents.admin.post(tanks()).unset('Origin').set('Sec-Fetch-Site', 'same-origin').send(body);
+    const sameOrigin = await ctx.agents.admin
+      .post(tanks())
+      .unset('Origin')
+      .set('Sec-Fetch-Site', 'same-origin')
+      .send(body);
     expect(sameOrigin.status).toBe(201);
     expect(await tankCount()).toBe(1);
   });
 
   it('the unauthenticated password reset is guarded the same way', async () => {
-    const res = await api().post('/api/password-reset').set('Origin', 'http://evil.example').send({ email: 'someone@example.test' });
+    const res = await api()
+      .post('/api/password-reset')
+      .set('Origin', 'http://evil.example')
+      .send({ email: 'someone@example.test' });
     expect(res.status).toBe(403);
   });
 
@@ -59,7 +70,11 @@ describe('cross-origin writes', () => {
   });
 
   it('the payments webhook is exempt (its signature is the check)', async () => {
-    const res = await api().post('/api/payments/webhook').unset('Origin').set('content-type', 'application/json').send('{}');
+    const res = await api()
+      .post('/api/payments/webhook')
+      .unset('Origin')
+      .set('content-type', 'application/json')
+      .send('{}');
     expect(res.status).toBe(400);
   });
 

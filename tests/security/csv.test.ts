@@ -20,15 +20,13 @@ function cellsAs(line: string, sep: string): string[] {
       if (ch === '"' && line[i + 1] === '"') {
         cur += '"';
         i++;
-      }
-      else if (ch === '"') quoted = false;
+      } else if (ch === '"') quoted = false;
       else cur += ch;
     } else if (ch === '"') quoted = true;
     else if (ch === sep) {
       out.push(cur);
       cur = '';
-    }
-    else cur += ch;
+    } else cur += ch;
   }
   out.push(cur);
   return out;
@@ -36,14 +34,30 @@ function cellsAs(line: string, sep: string): string[] {
 /** What a spreadsheet would run: a cell starting with = + - @ (leading spaces ignored), unless it is a plain number. */
 const isFormula = (cell: string) => /^\s*[=+\-@\uff1d]/.test(cell) && !/^-?\d+(\.\d+)?$/.test(cell);
 
-const HOSTILE = ['Sam;=2+3;x', '=1+1', '+cmd|x', '-2+3', '@SUM(A1)', 'a,=HYPERLINK("http://evil.example")', 'tab\t=1', 'line\n=1', 'pipe|=1', '; =1', '\uff1d1+1', '\t=1', 'ok', 'a\n@x'];
+const HOSTILE = [
+  'Sam;=2+3;x',
+  '=1+1',
+  '+cmd|x',
+  '-2+3',
+  '@SUM(A1)',
+  'a,=HYPERLINK("http://evil.example")',
+  'tab\t=1',
+  'line\n=1',
+  'pipe|=1',
+  '; =1',
+  '\uff1d1+1',
+  '\t=1',
+  'ok',
+  'a\n@x',
+];
 
 describe('one CSV writer', () => {
   it('no cell becomes a formula whichever separator the spreadsheet picks', () => {
     const doc = csvRows([HOSTILE, ['plain', -12.5, '-3.000']]);
     const lines = doc.split('\r\n').filter(Boolean);
     for (const sep of [',', ';', '\t', '|']) {
-      for (const cell of cellsAs(lines[0]!, sep)) expect(isFormula(cell), `${JSON.stringify(cell)} split on ${JSON.stringify(sep)}`).toBe(false);
+      for (const cell of cellsAs(lines[0]!, sep))
+        expect(isFormula(cell), `${JSON.stringify(cell)} split on ${JSON.stringify(sep)}`).toBe(false);
     }
     expect(csvCell('Sam;=2+3;x')).toBe(`"Sam;'=2+3;x"`);
     expect(neutraliseFormula('-3.000')).toBe('-3.000');
@@ -58,7 +72,8 @@ describe('one CSV writer', () => {
         if (e.isDirectory()) walk(p);
         else if (/\.tsx?$/.test(e.name) && p !== path.resolve('lib/csv.ts')) {
           const src = fs.readFileSync(p, 'utf8');
-          if (/const\s+csvCell\s*=|function\s+csvCell\b|\.replace\(\/"\/g,\s*'""'\)/.test(src)) offenders.push(path.relative(process.cwd(), p));
+          if (/const\s+csvCell\s*=|function\s+csvCell\b|\.replace\(\/"\/g,\s*'""'\)/.test(src))
+            offenders.push(path.relative(process.cwd(), p));
         }
       }
     };

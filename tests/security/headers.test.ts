@@ -11,7 +11,13 @@ const COMMON = {
 };
 
 function directives(csp: string): Map<string, string[]> {
-  return new Map(csp.split(';').map((d) => d.trim().split(/\s+/)).filter((p) => p[0]).map(([name, ...values]) => [name!, values]));
+  return new Map(
+    csp
+      .split(';')
+      .map((d) => d.trim().split(/\s+/))
+      .filter((p) => p[0])
+      .map(([name, ...values]) => [name!, values]),
+  );
 }
 
 describe('security headers', () => {
@@ -42,7 +48,7 @@ describe('security headers', () => {
     expect(nonces.size).toBe(2);
   });
 
-  it('a signed-in page (the members list) can\'t be framed', async () => {
+  it("a signed-in page (the members list) can't be framed", async () => {
     const ctx = await makeCoopWithRoles();
     const res = await ctx.agents.admin.get(`/c/${ctx.coop.slug}/members`).expect(200);
     expect(res.headers['x-frame-options']).toBe('DENY');

@@ -26,24 +26,77 @@ const deep = '['.repeat(5000) + ']'.repeat(5000);
 
 /** Each variant: what is sent, and the content type. Raw strings, so `__proto__` stays a key. */
 const BODY_VARIANTS: { name: string; body: string; type?: string }[] = [
-  { name: 'prototype-named keys', body: '{"__proto__":{"polluted":true},"constructor":{"prototype":{"polluted":true}},"toString":"x","valueOf":1,"hasOwnProperty":"x"}' },
+  {
+    name: 'prototype-named keys',
+    body: '{"__proto__":{"polluted":true},"constructor":{"prototype":{"polluted":true}},"toString":"x","valueOf":1,"hasOwnProperty":"x"}',
+  },
   { name: 'a lone __proto__ key', body: '{"__proto__":"x"}' },
   { name: 'a lone toString key', body: '{"toString":"x"}' },
-  { name: 'NUL in text', body: JSON.stringify({ name: 'a\u0000b', email: 'a\u0000@example.test', reason: 'because\u0000', note: '\u0000', supplier: '\u0000', collectedFrom: 'x\u0000' }) },
-  { name: 'other control characters', body: JSON.stringify({ name: 'bell\u0007', reason: 'esc\u001b[2J', note: '\u007f' }) },
+  {
+    name: 'NUL in text',
+    body: JSON.stringify({
+      name: 'a\u0000b',
+      email: 'a\u0000@example.test',
+      reason: 'because\u0000',
+      note: '\u0000',
+      supplier: '\u0000',
+      collectedFrom: 'x\u0000',
+    }),
+  },
+  {
+    name: 'other control characters',
+    body: JSON.stringify({ name: 'bell\u0007', reason: 'esc\u001b[2J', note: '\u007f' }),
+  },
   { name: 'a control character in a key', body: '{"na\\u0000me":"x"}' },
   { name: 'huge strings', body: JSON.stringify({ name: big.slice(0, 100_000), reason: big.slice(0, 100_000) }) },
-  { name: 'wrong types', body: JSON.stringify({ name: 12, email: {}, capacity: [], quantity: { $gt: 0 }, amount: true, password: 1, role: ['admin'], timezone: 5 }) },
-  { name: 'ids as booleans', body: JSON.stringify({ tankId: true, memberId: true, invoiceId: true, membershipId: true, oilLotId: true, fromTankId: true, toTankId: false }) },
-  { name: 'ids as hex and exponents', body: JSON.stringify({ tankId: '0x10', memberId: '1e3', invoiceId: ' 7', membershipId: '-1', oilLotId: '0x1', fromTankId: 1.5, toTankId: 99999999999 }) },
-  { name: 'a time zone nobody has', body: JSON.stringify({ timezone: 'Mars/Olympus_Mons', name: 'Zone co-op', slug: 'zone-coop-x' }) },
+  {
+    name: 'wrong types',
+    body: JSON.stringify({
+      name: 12,
+      email: {},
+      capacity: [],
+      quantity: { $gt: 0 },
+      amount: true,
+      password: 1,
+      role: ['admin'],
+      timezone: 5,
+    }),
+  },
+  {
+    name: 'ids as booleans',
+    body: JSON.stringify({
+      tankId: true,
+      memberId: true,
+      invoiceId: true,
+      membershipId: true,
+      oilLotId: true,
+      fromTankId: true,
+      toTankId: false,
+    }),
+  },
+  {
+    name: 'ids as hex and exponents',
+    body: JSON.stringify({
+      tankId: '0x10',
+      memberId: '1e3',
+      invoiceId: ' 7',
+      membershipId: '-1',
+      oilLotId: '0x1',
+      fromTankId: 1.5,
+      toTankId: 99999999999,
+    }),
+  },
+  {
+    name: 'a time zone nobody has',
+    body: JSON.stringify({ timezone: 'Mars/Olympus_Mons', name: 'Zone co-op', slug: 'zone-coop-x' }),
+  },
   { name: 'null', body: 'null' },
   { name: 'an array', body: '[]' },
   { name: 'a string', body: '"hello"' },
   { name: 'a huge number', body: '1e999' },
   { name: 'deep nesting', body: deep },
   { name: 'broken JSON', body: '{"name":' },
-  { name: 'not UTF-8', body: '\u00ff' , type: 'application/json; charset=latin1' },
+  { name: 'not UTF-8', body: '\u00ff', type: 'application/json; charset=latin1' },
   { name: 'an oversized body', body: JSON.stringify({ name: 'x'.repeat(300 * 1024) }) },
   { name: 'text/plain', body: '{"name":"x"}', type: 'text/plain' },
   { name: 'a form', body: 'name=x&capacity=1', type: 'application/x-www-form-urlencoded' },
@@ -60,7 +113,9 @@ beforeAll(async () => {
 });
 
 const url = (s: RouteSpec) =>
-  s.path.replace(/\[([^\]]+)\]/g, (_m, name: string) => (name === 'coop' ? ctx.coop.slug : (s.params?.[name] ?? '999999999')));
+  s.path.replace(/\[([^\]]+)\]/g, (_m, name: string) =>
+    name === 'coop' ? ctx.coop.slug : (s.params?.[name] ?? '999999999'),
+  );
 
 function agentFor(s: RouteSpec) {
   if (s.scope === 'public') return api();
@@ -87,7 +142,10 @@ describe('hostile input on every write route', () => {
       const variants = NO_BODY(s) ? HEADER_VARIANTS : BODY_VARIANTS;
       for (const v of variants) {
         const m = r.method.toLowerCase() as 'post' | 'put' | 'patch' | 'delete';
-        const res = await agentFor(s)[m](url(s)).set('Content-Type', v.type ?? 'application/json').send(v.body);
+        const res = await agentFor(s)
+          [m](url(s))
+          .set('Content-Type', v.type ?? 'application/json')
+          .send(v.body);
         sent++;
         const label = `${r.method} ${r.path} with ${v.name}: ${res.status} ${String(res.text).slice(0, 160)}`;
         if (res.status >= 500) failures.push(label);
@@ -103,23 +161,34 @@ describe('hostile input on every write route', () => {
     const tanks = `/api/coops/${ctx.coop.slug}/tanks`;
     const nul = await ctx.agents.admin.post(tanks).send({ name: 'Tank\u0000', capacity: '100' }).expect(422);
     expect(Object.keys(nul.body.fields)).toEqual(['name']);
-    const proto = await ctx.agents.admin.post(tanks).set('Content-Type', 'application/json').send('{"name":"T","capacity":"100","__proto__":{"admin":true}}').expect(422);
+    const proto = await ctx.agents.admin
+      .post(tanks)
+      .set('Content-Type', 'application/json')
+      .send('{"name":"T","capacity":"100","__proto__":{"admin":true}}')
+      .expect(422);
     expect(Object.keys(proto.body.fields)).toEqual(['__proto__']);
     const transfers = `/api/coops/${ctx.coop.slug}/tanks/transfers`;
-    const ids = await ctx.agents.admin.post(transfers).send({ fromTankId: true, toTankId: '0x10', quantity: '1' }).expect(422);
+    const ids = await ctx.agents.admin
+      .post(transfers)
+      .send({ fromTankId: true, toTankId: '0x10', quantity: '1' })
+      .expect(422);
     expect(Object.keys(ids.body.fields).sort()).toEqual(['fromTankId', 'toTankId']);
     for (const bad of ['0x10', '1e1', '+1', '01', '-1', '0', '2147483648']) {
       await ctx.agents.admin.get(`${tanks}/${encodeURIComponent(bad)}`).expect(404);
     }
   });
 
-  it('a co-op can\'t be created with a time zone the database doesn\'t know', async () => {
+  it("a co-op can't be created with a time zone the database doesn't know", async () => {
     for (const timezone of ['Mars/Olympus_Mons', '+05:00', 'America/Chicago\u0000', 'Not a zone', '../../etc/passwd']) {
-      const res = await userAgent.post('/api/coops').send({ name: 'Zoned Co-op', slug: `zoned-${Date.now().toString(36)}`, timezone });
+      const res = await userAgent
+        .post('/api/coops')
+        .send({ name: 'Zoned Co-op', slug: `zoned-${Date.now().toString(36)}`, timezone });
       expect(res.status, timezone).toBe(422);
       expect(Object.keys(res.body.fields), timezone).toContain('timezone');
     }
-    const ok = await userAgent.post('/api/coops').send({ name: 'Zoned Co-op', slug: `zoned-${Date.now().toString(36)}`, timezone: 'Europe/Berlin' });
+    const ok = await userAgent
+      .post('/api/coops')
+      .send({ name: 'Zoned Co-op', slug: `zoned-${Date.now().toString(36)}`, timezone: 'Europe/Berlin' });
     expect(ok.status).toBe(201);
   });
 

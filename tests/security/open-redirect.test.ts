@@ -7,9 +7,22 @@ import { baseUrl, DEMO_PASSWORD } from '../support/api';
 import { withBrowser } from '../support/browser';
 
 const HOSTILE = [
-  '/\\evil.example/x', '/\t/evil.example/x', '/\n/evil.example', '//evil.example', '///evil.example', '/.//evil.example',
-  '/%2F/evil.example', 'https://evil.example/', 'http:evil.example', 'javascript:alert(1)', ' /coops', 'evil.example',
-  '\\\\evil.example', '/\\/evil.example', '', '/\u0000',
+  '/\\evil.example/x',
+  '/\t/evil.example/x',
+  '/\n/evil.example',
+  '//evil.example',
+  '///evil.example',
+  '/.//evil.example',
+  '/%2F/evil.example',
+  'https://evil.example/',
+  'http:evil.example',
+  'javascript:alert(1)',
+  ' /coops',
+  'evil.example',
+  '\\\\evil.example',
+  '/\\/evil.example',
+  '',
+  '/\u0000',
 ];
 
 describe('post-sign-in target', () => {
@@ -30,11 +43,17 @@ describe('post-sign-in target', () => {
 
   it('in the browser: signing in from /sign-in?next=/%5Cevil.example/x stays on the app', async () => {
     await withBrowser(async (page) => {
-      await page.route((u) => u.hostname.endsWith('evil.example'), (route) => route.fulfill({ status: 200, body: 'evil' }));
+      await page.route(
+        (u) => u.hostname.endsWith('evil.example'),
+        (route) => route.fulfill({ status: 200, body: 'evil' }),
+      );
       await page.goto(`${baseUrl()}/sign-in?next=/%5Cevil.example/x`);
       await page.getByLabel('E-mail').fill('marisol.admin@example.org');
       await page.getByLabel('Password').fill(DEMO_PASSWORD);
-      await Promise.all([page.waitForURL((u) => !u.pathname.startsWith('/sign-in')), page.getByRole('button', { name: 'Sign in' }).click()]);
+      await Promise.all([
+        page.waitForURL((u) => !u.pathname.startsWith('/sign-in')),
+        page.getByRole('button', { name: 'Sign in' }).click(),
+      ]);
       const landed = new URL(page.url());
       expect(landed.origin).toBe(baseUrl());
       expect(landed.pathname).toBe('/coops');

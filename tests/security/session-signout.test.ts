@@ -13,14 +13,24 @@ describe('sign-out', () => {
     const copied = String((me as unknown as { req: { getHeader(name: string): unknown } }).req.getHeader('cookie'));
     expect(copied).toMatch(/session-token=/);
     await request(baseUrl()).get('/api/me').set('Cookie', copied).expect(200);
-    await request(baseUrl()).get(`/api/coops/${coop.slug}/tanks`).set('Cookie', copied).expect((r) => expect(r.status).not.toBe(401));
+    await request(baseUrl())
+      .get(`/api/coops/${coop.slug}/tanks`)
+      .set('Cookie', copied)
+      .expect((r) => expect(r.status).not.toBe(401));
 
     const csrf = await browser.get('/api/auth/csrf').expect(200);
-    await browser.post('/api/auth/signout').type('form').send({ csrfToken: csrf.body.csrfToken, json: 'true' }).expect(200);
+    await browser
+      .post('/api/auth/signout')
+      .type('form')
+      .send({ csrfToken: csrf.body.csrfToken, json: 'true' })
+      .expect(200);
 
     await request(baseUrl()).get('/api/me').set('Cookie', copied).expect(401);
     await request(baseUrl()).get(`/api/coops/${coop.slug}/tanks`).set('Cookie', copied).expect(401);
-    const rows = await sql<{ revoked: boolean }>('SELECT revoked_at IS NOT NULL AS revoked FROM sessions WHERE user_id = $1', [u.id]);
+    const rows = await sql<{ revoked: boolean }>(
+      'SELECT revoked_at IS NOT NULL AS revoked FROM sessions WHERE user_id = $1',
+      [u.id],
+    );
     expect(rows).toEqual([{ revoked: true }]);
   });
 
@@ -33,7 +43,10 @@ describe('sign-out', () => {
 
     const again = await signIn(u.email);
     await again.get('/api/me').expect(200);
-    await sql(`UPDATE sessions SET expires_at = now() - interval '1 second' WHERE user_id = $1 AND revoked_at IS NULL`, [u.id]);
+    await sql(
+      `UPDATE sessions SET expires_at = now() - interval '1 second' WHERE user_id = $1 AND revoked_at IS NULL`,
+      [u.id],
+    );
     await again.get('/api/me').expect(401);
   });
 });

@@ -6,7 +6,10 @@ import { baseUrl, makeUser, signIn, sql, TEST_PASSWORD } from '../support/api';
 
 async function attempt(agent: ReturnType<typeof request.agent>, email: string, password: string) {
   const csrf = await agent.get('/api/auth/csrf').expect(200);
-  const res = await agent.post('/api/auth/callback/credentials').type('form').send({ csrfToken: csrf.body.csrfToken, email, password, json: 'true' });
+  const res = await agent
+    .post('/api/auth/callback/credentials')
+    .type('form')
+    .send({ csrfToken: csrf.body.csrfToken, email, password, json: 'true' });
   return { res, ok: res.status === 200 && !String(res.body?.url ?? '').includes('error=') };
 }
 
@@ -49,7 +52,7 @@ describe('sign-in throttling', () => {
     expect(Number(res.headers['retry-after'])).toBeLessThanOrEqual(30 * 60);
   });
 
-  it('a forged or other account\'s known-device cookie does not help', async () => {
+  it("a forged or other account's known-device cookie does not help", async () => {
     const victim = await makeUser();
     const attacker = await makeUser();
     const agent = await signIn(attacker.email); // known device of the attacker's own account

@@ -9,7 +9,10 @@ let ctx: Awaited<ReturnType<typeof makeCoopWithRoles>>;
 let batchId: number;
 const files = () => `/api/coops/${ctx.coop.slug}/batches/${batchId}/files`;
 const PNG = Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), Buffer.alloc(64)]);
-const binary = (res: { on: (e: string, cb: (c?: Buffer) => void) => void }, cb: (err: Error | null, body: Buffer) => void) => {
+const binary = (
+  res: { on: (e: string, cb: (c?: Buffer) => void) => void },
+  cb: (err: Error | null, body: Buffer) => void,
+) => {
   const chunks: Buffer[] = [];
   res.on('data', (c) => chunks.push(c!));
   res.on('end', () => cb(null, Buffer.concat(chunks)));
@@ -22,7 +25,11 @@ beforeAll(async () => {
 
 describe('uploads', () => {
   it('a PNG sent as poly.html is stored and served as poly.png, sandboxed, as an attachment', async () => {
-    const up = await ctx.agents.brewer.post(files()).field('purpose', 'photo').attach('file', PNG, { filename: 'poly.html', contentType: 'text/html' }).expect(201);
+    const up = await ctx.agents.brewer
+      .post(files())
+      .field('purpose', 'photo')
+      .attach('file', PNG, { filename: 'poly.html', contentType: 'text/html' })
+      .expect(201);
     expect(up.body).toMatchObject({ kind: 'png', name: 'poly.png' });
     const got = await ctx.agents.brewer.get(`${files()}/${up.body.id}`).buffer(true).parse(binary).expect(200);
     expect(got.headers['content-type']).toBe('image/png');
@@ -33,8 +40,17 @@ describe('uploads', () => {
   });
 
   it('names keep a matching extension and gain one otherwise', async () => {
-    for (const [filename, name] of [['scan.PNG', 'scan.PNG'], ['noext', 'noext.png'], ['a.png.exe', 'a.png.png'], ['.htaccess', '.htaccess.png']] as const) {
-      const up = await ctx.agents.brewer.post(files()).field('purpose', 'photo').attach('file', PNG, { filename, contentType: 'image/png' }).expect(201);
+    for (const [filename, name] of [
+      ['scan.PNG', 'scan.PNG'],
+      ['noext', 'noext.png'],
+      ['a.png.exe', 'a.png.png'],
+      ['.htaccess', '.htaccess.png'],
+    ] as const) {
+      const up = await ctx.agents.brewer
+        .post(files())
+        .field('purpose', 'photo')
+        .attach('file', PNG, { filename, contentType: 'image/png' })
+        .expect(201);
       expect(up.body.name, filename).toBe(name);
     }
   });
@@ -48,11 +64,20 @@ describe('uploads', () => {
       '%PDF-1.4\n1 0 obj<</S/Launch/F(cmd.exe)>>endobj',
     ];
     for (const text of polyglots) {
-      const res = await ctx.agents.brewer.post(files()).field('purpose', 'lab-report').attach('file', Buffer.from(text), { filename: 'report.pdf', contentType: 'application/pdf' });
+      const res = await ctx.agents.brewer
+        .post(files())
+        .field('purpose', 'lab-report')
+        .attach('file', Buffer.from(text), { filename: 'report.pdf', contentType: 'application/pdf' });
       expect(res.status, text).toBe(422);
       expect(res.body.fields.file[0]).toMatch(/web page or script/);
     }
-    const png = await ctx.agents.brewer.post(files()).field('purpose', 'photo').attach('file', Buffer.concat([PNG, Buffer.from('<script>alert(1)</script>')]), { filename: 'x.png', contentType: 'image/png' });
+    const png = await ctx.agents.brewer
+      .post(files())
+      .field('purpose', 'photo')
+      .attach('file', Buffer.concat([PNG, Buffer.from('<script>alert(1)</script>')]), {
+        filename: 'x.png',
+        contentType: 'image/png',
+      });
     expect(png.status).toBe(422);
     expect(await countRows('batch_files', 'coop_id = $1', [ctx.coop.id])).toBe(before);
   });

@@ -17,13 +17,18 @@ export const baseUrl = () => inject('baseUrl');
  * refuses writes from any other origin, and writes that name none). Every answer is held to the
  * API contract (tests/support/contract.ts).
  */
-export const api = () => checkedClient(request(inject('baseUrl')), (test, method) => method !== 'GET' && test.set('Origin', inject('baseUrl')));
+export const api = () =>
+  checkedClient(
+    request(inject('baseUrl')),
+    (test, method) => method !== 'GET' && test.set('Origin', inject('baseUrl')),
+  );
 
 /**
  * Requests as an integration: `Authorization: Bearer <token>` on every request, no cookie and no
  * Origin (a script's requests carry neither). Answers are held to the API contract too.
  */
-export const bearerApi = (token: string) => checkedClient(request(inject('baseUrl')), (test) => test.set('Authorization', `Bearer ${token}`));
+export const bearerApi = (token: string) =>
+  checkedClient(request(inject('baseUrl')), (test) => test.set('Authorization', `Bearer ${token}`));
 
 let instance: Sequelize | null = null;
 /**
@@ -77,9 +82,14 @@ export async function makeCoop(overrides: { units?: 'us' | 'metric'; settings?: 
 }
 
 /** Inserts a user (password TEST_PASSWORD), optionally with a membership. */
-export async function makeUser(opts: { coopId?: number; role?: Role; status?: 'active' | 'suspended'; name?: string } = {}) {
+export async function makeUser(
+  opts: { coopId?: number; role?: Role; status?: 'active' | 'suspended'; name?: string } = {},
+) {
   const email = `u-${uniq()}@example.test`;
-  const [u] = await sql<{ id: number }>(`INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`, [email, opts.name ?? 'Test Person', HASH]);
+  const [u] = await sql<{ id: number }>(
+    `INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`,
+    [email, opts.name ?? 'Test Person', HASH],
+  );
   let membershipId: number | undefined;
   if (opts.coopId) {
     const [m] = await sql<{ id: number }>(
@@ -112,7 +122,15 @@ export async function makeCoopWithRoles() {
   return { coop, other, users, agents };
 }
 
-export interface CaughtMail { id: number; messageId: string; to: string; from: string; subject: string; text: string; attachments: { filename: string; contentType: string; size: number }[] }
+export interface CaughtMail {
+  id: number;
+  messageId: string;
+  to: string;
+  from: string;
+  subject: string;
+  text: string;
+  attachments: { filename: string; contentType: string; size: number }[];
+}
 
 /** Messages caught by the local SMTP catcher, newest first. */
 export async function caughtMail(to?: string): Promise<CaughtMail[]> {
@@ -121,7 +139,11 @@ export async function caughtMail(to?: string): Promise<CaughtMail[]> {
 }
 
 /** Waits until a message to `to` arrives (mail is sent asynchronously in some flows). */
-export async function waitForMail(to: string, match: (m: CaughtMail) => boolean = () => true, timeoutMs = 10_000): Promise<CaughtMail> {
+export async function waitForMail(
+  to: string,
+  match: (m: CaughtMail) => boolean = () => true,
+  timeoutMs = 10_000,
+): Promise<CaughtMail> {
   const end = Date.now() + timeoutMs;
   for (;;) {
     const m = (await caughtMail(to)).find(match);

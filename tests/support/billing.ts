@@ -9,14 +9,19 @@ export const WEBHOOK_SECRET = 'whsec_tallyvat_test';
 
 /** 'YYYY-MM' n months before the current month in Chicago (the test co-ops' time zone). */
 export function monthsAgo(n: number): string {
-  const now = new Intl.DateTimeFormat('en-CA', { timeZone: 'America/Chicago', year: 'numeric', month: '2-digit' }).format(new Date());
+  const now = new Intl.DateTimeFormat('en-CA', {
+    timeZone: 'America/Chicago',
+    year: 'numeric',
+    month: '2-digit',
+  }).format(new Date());
   const [y, m] = now.split('-').map(Number) as [number, number];
   const d = new Date(Date.UTC(y, m - 1 - n, 1));
   return `${d.getUTCFullYear()}-${String(d.getUTCMonth() + 1).padStart(2, '0')}`;
 }
 
 /** Noon on a day of a month in Chicago, as an ISO instant. */
-export const dayIn = (period: string, day: number) => new Date(`${period}-${String(day).padStart(2, '0')}T18:00:00Z`).toISOString();
+export const dayIn = (period: string, day: number) =>
+  new Date(`${period}-${String(day).padStart(2, '0')}T18:00:00Z`).toISOString();
 
 type Agent = Awaited<ReturnType<typeof signIn>>;
 
@@ -33,14 +38,28 @@ export async function makeBillingCoop(opts: { dues?: number; members: string[]; 
     members[name] = { id: u.id, email: u.email, membershipId: u.membershipId! };
   }
   await sql(`UPDATE memberships SET joined_at = '2020-01-01' WHERE coop_id = $1`, [coop.id]);
-  const [tank] = await sql<{ id: number }>(`INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main tank', 1000) RETURNING id`, [coop.id]);
+  const [tank] = await sql<{ id: number }>(
+    `INSERT INTO tanks (coop_id, name, capacity_liters) VALUES ($1, 'Main tank', 1000) RETURNING id`,
+    [coop.id],
+  );
   return { coop, treasurer, members, tankId: tank!.id, treasurerAgent: await signIn(treasurer.email) };
 }
 
 /** Inserts a draw with hand-computed locked amounts (total = fuel + surcharge + tax). */
 export async function insertDraw(o: {
-  coopId: number; tankId: number; membershipId: number; liters: string; occurredAt: string; use?: 'road' | 'off-road' | 'heating';
-  unitPrice: number; surchargeRate?: number; taxRate?: number; fuelCents: number; surchargeCents?: number; taxCents?: number; reverses?: number;
+  coopId: number;
+  tankId: number;
+  membershipId: number;
+  liters: string;
+  occurredAt: string;
+  use?: 'road' | 'off-road' | 'heating';
+  unitPrice: number;
+  surchargeRate?: number;
+  taxRate?: number;
+  fuelCents: number;
+  surchargeCents?: number;
+  taxCents?: number;
+  reverses?: number;
 }): Promise<number> {
   const s = o.surchargeCents ?? 0;
   const t = o.taxCents ?? 0;
@@ -48,7 +67,22 @@ export async function insertDraw(o: {
     `INSERT INTO draws (coop_id, tank_id, membership_id, quantity_liters, declared_use, unit_price_cents_per_gallon, surcharge_cents_per_gallon,
        road_tax_cents_per_gallon, fuel_cents, surcharge_cents, tax_cents, total_cents, reverses_draw_id, occurred_at)
      VALUES ($1,$2,$3,$4,$5,$6,$7,$8,$9,$10,$11,$12,$13,$14) RETURNING id`,
-    [o.coopId, o.tankId, o.membershipId, o.liters, o.use ?? 'road', o.unitPrice, o.surchargeRate ?? 0, o.taxRate ?? 0, o.fuelCents, s, t, o.fuelCents + s + t, o.reverses ?? null, o.occurredAt],
+    [
+      o.coopId,
+      o.tankId,
+      o.membershipId,
+      o.liters,
+      o.use ?? 'road',
+      o.unitPrice,
+      o.surchargeRate ?? 0,
+      o.taxRate ?? 0,
+      o.fuelCents,
+      s,
+      t,
+      o.fuelCents + s + t,
+      o.reverses ?? null,
+      o.occurredAt,
+    ],
   );
   return d!.id;
 }
@@ -80,7 +114,15 @@ export async function issueMonth(agent: Agent, slug: string, period: string) {
 
 /** The invoice rows of a co-op's month straight from the database. */
 export async function invoicesOf(coopId: number, period: string) {
-  return sql<{ id: number; membership_id: number; number: number | null; status: string; kind: string; total_cents: string; paid_cents: string }>(
+  return sql<{
+    id: number;
+    membership_id: number;
+    number: number | null;
+    status: string;
+    kind: string;
+    total_cents: string;
+    paid_cents: string;
+  }>(
     `SELECT id, membership_id, number, status, kind, total_cents, paid_cents FROM invoices WHERE coop_id = $1 AND period = $2::date ORDER BY number NULLS LAST, id`,
     [coopId, `${period}-01`],
   );
@@ -88,12 +130,16 @@ export async function invoicesOf(coopId: number, period: string) {
 
 // ── The payments fake's test controls ──
 const fake = (path: string) => `${inject('paymentsUrl')}${path}`;
-const postJson = (path: string, body: unknown) => fetch(fake(path), { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+const postJson = (path: string, body: unknown) =>
+  fetch(fake(path), { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
 
-export async function fakeCharges(): Promise<{ id: string; amount: number; metadata: Record<string, string>; idempotencyKey: string | null }[]> {
+export async function fakeCharges(): Promise<
+  { id: string; amount: number; metadata: Record<string, string>; idempotencyKey: string | null }[]
+> {
   return (await fetch(fake('/__fake/charges'))).json();
 }
-export const setOutage = (down: boolean, mode: '503' | 'lose-response' = '503') => postJson('/__fake/outage', { down, mode });
+export const setOutage = (down: boolean, mode: '503' | 'lose-response' = '503') =>
+  postJson('/__fake/outage', { down, mode });
 export const holdWebhooks = (hold: boolean) => postJson('/__fake/webhooks', { hold });
 export async function heldEvents(): Promise<{ id: string; type: string; payload: string; signature: string }[]> {
   return (await fetch(fake('/__fake/webhooks/held'))).json();

@@ -10,10 +10,24 @@ import { baseUrl } from './api';
 export const SHOTS = path.resolve('tests', 'output', 'screenshots');
 fs.mkdirSync(SHOTS, { recursive: true });
 
-const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'];
+const ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--disable-dev-shm-usage',
+];
 
 /** A Content-Security-Policy violation reported by a page. */
-export interface CspViolation { url: string; directive: string; blocked: string; sample: string }
+export interface CspViolation {
+  url: string;
+  directive: string;
+  blocked: string;
+  sample: string;
+}
 
 /**
  * Runs fn with a page in a fresh browser profile (optionally in another time zone), with the app's Content-Security-Policy in force:
@@ -40,7 +54,8 @@ export async function withBrowser(fn: (page: Page) => Promise<void>, opts: { tim
       document.addEventListener(
         'securitypolicyviolation',
         (e) => {
-          const report = (window as unknown as { __tallyvatCspViolation?: (v: unknown) => void }).__tallyvatCspViolation;
+          const report = (window as unknown as { __tallyvatCspViolation?: (v: unknown) => void })
+            .__tallyvatCspViolation;
           report?.({ url: e.documentURI, directive: e.effectiveDirective, blocked: e.blockedURI, sample: e.sample });
         },
         true,
@@ -60,7 +75,10 @@ export async function signInUi(page: Page, email: string, password: string) {
   await page.goto(`${baseUrl()}/sign-in`);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
-  await Promise.all([page.waitForURL((u) => !u.pathname.startsWith('/sign-in')), page.getByRole('button', { name: 'Sign in' }).click()]);
+  await Promise.all([
+    page.waitForURL((u) => !u.pathname.startsWith('/sign-in')),
+    page.getByRole('button', { name: 'Sign in' }).click(),
+  ]);
 }
 
 /** Fails on any WCAG 2.x A/AA violation axe-core finds on the page. */
@@ -68,8 +86,16 @@ export async function checkA11y(page: Page) {
   // Next.js streams a dynamic page's metadata after its content, so after a client-side navigation the
   // <title> can arrive a moment after the content the test waited for: judge the page once it has one.
   await page.waitForFunction(() => document.title.trim().length > 0);
-  const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
-  const summary = result.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`);
+  const result = await new AxeBuilder({ page })
+    .withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa'])
+    .analyze();
+  const summary = result.violations.map(
+    (v) =>
+      `${v.id}: ${v.help} (${v.nodes
+        .map((n) => n.target.join(' '))
+        .slice(0, 3)
+        .join(', ')})`,
+  );
   expect(summary).toEqual([]);
 }
 
@@ -77,7 +103,9 @@ export async function checkA11y(page: Page) {
 export async function expectAnnounced(page: Page, text: string | RegExp) {
   const box = page.getByTestId('announcement');
   await box.filter({ hasText: text }).waitFor();
-  await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'announcement', undefined, { timeout: 5_000 });
+  await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'announcement', undefined, {
+    timeout: 5_000,
+  });
 }
 
 /**
@@ -89,10 +117,13 @@ export async function shootBothWidths(page: Page, name: string) {
   for (const width of [360, 1280]) {
     await page.setViewportSize({ width, height: 800 });
     // Let the layout settle at the new width (two frames, at most half a second) before measuring and shooting.
-    await page.evaluate(() => new Promise((done) => {
-      requestAnimationFrame(() => requestAnimationFrame(() => done(null)));
-      setTimeout(() => done(null), 500);
-    }));
+    await page.evaluate(
+      () =>
+        new Promise((done) => {
+          requestAnimationFrame(() => requestAnimationFrame(() => done(null)));
+          setTimeout(() => done(null), 500);
+        }),
+    );
     const file = path.join(SHOTS, `${name}-${width}.png`);
     await page.screenshot({ path: file, fullPage: true });
     expect(fs.statSync(file).size, `${name} at ${width}px looks blank`).toBeGreaterThan(5_000);

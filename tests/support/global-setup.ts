@@ -40,7 +40,13 @@ export default async function setup(project: TestProject) {
 
   let databaseUrl = process.env.TEST_DATABASE_URL;
   if (!databaseUrl) {
-    const pg = await startEmbeddedPg({ dataDir: path.join(root, 'pg'), port: await freePort(), dbName: 'tallyvat_test', fast: true, log: quiet });
+    const pg = await startEmbeddedPg({
+      dataDir: path.join(root, 'pg'),
+      port: await freePort(),
+      dbName: 'tallyvat_test',
+      fast: true,
+      log: quiet,
+    });
     databaseUrl = pg.url as string;
     stops.push(pg.stop);
   }
@@ -53,7 +59,12 @@ export default async function setup(project: TestProject) {
   const baseUrl = `http://127.0.0.1:${port}`;
   const mail = await startMailCatcher({ smtpPort, httpPort: mailPort, log: quiet });
   stops.push(mail.stop);
-  const pay = await startPaymentsFake({ port: paymentsPort, webhookUrl: `${baseUrl}/api/payments/webhook`, webhookSecret: 'whsec_tallyvat_test', log: quiet });
+  const pay = await startPaymentsFake({
+    port: paymentsPort,
+    webhookUrl: `${baseUrl}/api/payments/webhook`,
+    webhookSecret: 'whsec_tallyvat_test',
+    log: quiet,
+  });
   stops.push(pay.stop);
 
   const storage = await startStorageFake({ port: await freePort(), directory: path.join(root, 's3'), log: quiet });
@@ -68,7 +79,12 @@ export default async function setup(project: TestProject) {
     storage: storage.env,
     // Overview charts are cached for a minute in production; tests read every figure fresh. The
     // worker's timed jobs are off (JOB_SCHEDULES): a minute's expiry must not land inside a test.
-    extra: { NODE_ENV: 'production', OVERVIEW_CACHE_SECONDS: '0', JOB_SCHEDULES: 'off', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' },
+    extra: {
+      NODE_ENV: 'production',
+      OVERVIEW_CACHE_SECONDS: '0',
+      JOB_SCHEDULES: 'off',
+      LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
+    },
   });
   const log = fs.createWriteStream(path.join(root, 'next.log'));
   // The job worker (e-mail, billing runs, schedules) beside the server, as `npm start` runs it.
@@ -90,7 +106,12 @@ export default async function setup(project: TestProject) {
       /* gone */
     }
   });
-  const { child: next, stop: stopNext } = startNext({ env, port, host: '127.0.0.1', stdio: ['ignore', 'pipe', 'pipe'] });
+  const { child: next, stop: stopNext } = startNext({
+    env,
+    port,
+    host: '127.0.0.1',
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   next.stdout?.pipe(log);
   next.stderr?.pipe(log);
   stops.unshift(stopNext);

@@ -14,7 +14,8 @@ export function routesOnDisk(): { method: Method; path: string }[] {
       else if (e.name === 'route.ts') {
         const src = fs.readFileSync(p, 'utf8');
         const route = '/' + path.relative(path.resolve('app'), path.dirname(p)).split(path.sep).join('/');
-        for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) out.push({ method: m[1] as Method, path: route });
+        for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE)\b/g))
+          out.push({ method: m[1] as Method, path: route });
       }
     }
   };

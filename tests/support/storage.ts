@@ -8,7 +8,9 @@ const env = () => JSON.parse(inject('storageEnv')) as Record<string, string>;
 function s3(): S3Client {
   const e = env();
   client ??= new S3Client({
-    endpoint: e.S3_ENDPOINT, region: e.S3_REGION, forcePathStyle: true,
+    endpoint: e.S3_ENDPOINT,
+    region: e.S3_REGION,
+    forcePathStyle: true,
     credentials: { accessKeyId: e.S3_ACCESS_KEY_ID!, secretAccessKey: e.S3_SECRET_ACCESS_KEY! },
   });
   return client;

@@ -29,10 +29,15 @@ export async function killWorker(): Promise<void> {
 export async function startWorker(): Promise<void> {
   const env = { WORKER_PROCESSES: '1', ...(JSON.parse(inject('workerEnv')) as NodeJS.ProcessEnv) };
   const logFile = path.resolve('.data', 'test', 'worker.log');
-  const readyCount = () => (fs.existsSync(logFile) ? fs.readFileSync(logFile, 'utf8').split('[worker] ready').length - 1 : 0);
+  const readyCount = () =>
+    fs.existsSync(logFile) ? fs.readFileSync(logFile, 'utf8').split('[worker] ready').length - 1 : 0;
   const before = readyCount();
   const log = fs.openSync(logFile, 'a');
-  const child = spawn(process.execPath, [path.resolve('scripts', 'worker.mjs')], { env, stdio: ['ignore', log, log], detached: true });
+  const child = spawn(process.execPath, [path.resolve('scripts', 'worker.mjs')], {
+    env,
+    stdio: ['ignore', log, log],
+    detached: true,
+  });
   child.unref();
   fs.closeSync(log);
   const deadline = Date.now() + 60_000;
@@ -51,7 +56,9 @@ export async function mailSettled(timeoutMs = 30_000): Promise<void> {
   const { sql } = await import('./api');
   const end = Date.now() + timeoutMs;
   for (;;) {
-    const [r] = await sql<{ n: string }>(`SELECT count(*) AS n FROM pgboss.job WHERE name IN ('mail', 'mail-invoice', 'mail-invitation') AND state IN ('created', 'retry', 'active')`);
+    const [r] = await sql<{ n: string }>(
+      `SELECT count(*) AS n FROM pgboss.job WHERE name IN ('mail', 'mail-invoice', 'mail-invitation') AND state IN ('created', 'retry', 'active')`,
+    );
     if (Number(r!.n) === 0) return;
     if (Date.now() > end) throw new Error('e-mail jobs still waiting');
     await new Promise((res) => setTimeout(res, 100));

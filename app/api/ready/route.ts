@@ -11,14 +11,23 @@ export const dynamic = 'force-dynamic';
  */
 export async function GET() {
   const [db, storage] = await Promise.all([
-    sequelize.authenticate({ logging: false }).then(() => 'ok' as const, () => 'down' as const),
+    sequelize.authenticate({ logging: false }).then(
+      () => 'ok' as const,
+      () => 'down' as const,
+    ),
     withTimeout(checkStorage(), 3_000).then(
       () => 'ok' as const,
-      (e) => (e instanceof HttpError && e.extra?.code === 'storage-not-configured' ? ('not-configured' as const) : ('down' as const)),
+      (e) =>
+        e instanceof HttpError && e.extra?.code === 'storage-not-configured'
+          ? ('not-configured' as const)
+          : ('down' as const),
     ),
   ]);
   const ready = db === 'ok' && storage === 'ok';
-  return Response.json({ status: ready ? 'ready' : 'not-ready', db, storage }, { status: ready ? 200 : 503, headers: { 'cache-control': 'no-store' } });
+  return Response.json(
+    { status: ready ? 'ready' : 'not-ready', db, storage },
+    { status: ready ? 200 : 503, headers: { 'cache-control': 'no-store' } },
+  );
 }
 
 function withTimeout<T>(p: Promise<T>, ms: number): Promise<T> {

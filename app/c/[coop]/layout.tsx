@@ -6,7 +6,13 @@ import { HttpError } from '@/lib/http';
 
 export const dynamic = 'force-dynamic';
 
-export default async function CoopLayout({ children, params }: { children: React.ReactNode; params: Promise<{ coop: string }> }) {
+export default async function CoopLayout({
+  children,
+  params,
+}: {
+  children: React.ReactNode;
+  params: Promise<{ coop: string }>;
+}) {
   const { coop } = await params;
   const actor = await pageMember(coop);
   if (actor instanceof HttpError) {
@@ -21,5 +27,9 @@ export default async function CoopLayout({ children, params }: { children: React
     );
   }
   const coops = (await listMyCoops(actor.user.id)).filter((c) => c.status === 'active');
-  return <AppShell actor={actor} coops={coops}>{children}</AppShell>;
+  return (
+    <AppShell actor={actor} coops={coops}>
+      {children}
+    </AppShell>
+  );
 }

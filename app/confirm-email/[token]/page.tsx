@@ -25,7 +25,8 @@ export default async function ConfirmEmailPage({ params }: { params: Promise<{ t
   return (
     <AuthCard title="Confirm your new e-mail address">
       <p className="mb-4 text-stone-700">
-        Change the address of your Tallyvat account from <strong>{link.oldEmail}</strong> to <strong>{link.newEmail}</strong>?
+        Change the address of your Tallyvat account from <strong>{link.oldEmail}</strong> to{' '}
+        <strong>{link.newEmail}</strong>?
       </p>
       <ConfirmEmailButton token={token} newEmail={link.newEmail} />
     </AuthCard>

@@ -15,7 +15,9 @@ export default async function ResetPasswordPage({ params }: { params: Promise<{ 
     return (
       <AuthCard title="This link cannot be used" footer={<Link href="/sign-in">Back to sign in</Link>}>
         <Notice tone="warn">{link.message}</Notice>
-        <p className="mt-4"><Link href="/reset-password">Ask for a new link</Link></p>
+        <p className="mt-4">
+          <Link href="/reset-password">Ask for a new link</Link>
+        </p>
       </AuthCard>
     );
   }

@@ -16,7 +16,8 @@ export type ClientResult<T> = { data?: T; error?: unknown; response: Response };
 /** For SWR fetchers: the declared answer, or a thrown Error carrying the status and the server's sentence. */
 export async function dataOrThrow<T>(request: Promise<ClientResult<T>>): Promise<T> {
   const r = await request;
-  if (!r.response.ok) throw Object.assign(new Error(apiError(r.error, r.response.status).error), { status: r.response.status });
+  if (!r.response.ok)
+    throw Object.assign(new Error(apiError(r.error, r.response.status).error), { status: r.response.status });
   return r.data as T;
 }
 

@@ -9,7 +9,18 @@ import { computedPlanSchema } from './brewing';
 
 const catalyst = z.enum(['KOH', 'NaOH']);
 const standard = z.enum(['ASTM D6751', 'EN 14214']);
-const status = z.enum(['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing', 'released', 'rejected', 'imported']);
+const status = z.enum([
+  'planned',
+  'reacting',
+  'settling',
+  'draining',
+  'washing',
+  'drying',
+  'testing',
+  'released',
+  'rejected',
+  'imported',
+]);
 const qualityVerdict = z.enum(['pass', 'fail', 'incomplete']);
 const screeningVerdict = z.enum(['looks-good', 'needs-attention', 'incomplete']);
 
@@ -19,7 +30,7 @@ export const temperatureSchema = z
     measuredAt: date(),
     tempC: num(),
     level: z.enum(['ok', 'cold', 'warning', 'danger']),
-    message: str().describe('The check\'s wording, in the co-op\'s units'),
+    message: str().describe("The check's wording, in the co-op's units"),
   })
   .meta({ id: 'Temperature' });
 
@@ -48,11 +59,19 @@ export const quickTestEvaluationSchema = z
   })
   .meta({ id: 'QuickTestEvaluation', description: 'Home quick tests: screening only, never a pass.' });
 
-const labResultSchema = z.object({ value: num(), method: str().nullable().optional(), laboratory: str().nullable().optional(), date: str().nullable().optional() });
+const labResultSchema = z.object({
+  value: num(),
+  method: str().nullable().optional(),
+  laboratory: str().nullable().optional(),
+  date: str().nullable().optional(),
+});
 
 export const labResultsSchema = z
   .partialRecord(z.enum(QUALITY_PROPERTIES), z.union([num(), labResultSchema]).nullable().optional())
-  .meta({ id: 'LabResults', description: 'By property: a bare value (screening only) or a value with its method, laboratory and date.' });
+  .meta({
+    id: 'LabResults',
+    description: 'By property: a bare value (screening only) or a value with its method, laboratory and date.',
+  });
 
 export const qualityEvaluationSchema = z
   .object({
@@ -114,7 +133,9 @@ export const batchFullSchema = z
     statusChangedAt: date(),
     createdAt: date(),
     oilLiters: num(),
-    oilLots: z.array(z.object({ oilLotId: int(), collectedFrom: str(), collectedOn: day(), liters: num(), feedstockCents: int() })),
+    oilLots: z.array(
+      z.object({ oilLotId: int(), collectedFrom: str(), collectedOn: day(), liters: num(), feedstockCents: int() }),
+    ),
     plan: computedPlanSchema,
     computedCatalystGrams: num(),
     computedMethanolLiters: num(),
@@ -134,20 +155,50 @@ export const batchFullSchema = z
     quality: qualityEvaluationSchema,
     qualityVerdict,
     screeningVerdict,
-    energy: z.object({ kwh: nullableNum(), heaterKw: nullableNum(), heaterHours: nullableNum(), tariffCentsPerKwh: nullableNum(), costCents: nullableNum() }),
+    energy: z.object({
+      kwh: nullableNum(),
+      heaterKw: nullableNum(),
+      heaterHours: nullableNum(),
+      tariffCentsPerKwh: nullableNum(),
+      costCents: nullableNum(),
+    }),
     feedstockCentsOverride: nullableNum(),
     feedstockFromLotsCents: int(),
     otherCents: int(),
     otherNotes: str().nullable(),
-    release: z.object({ tankId: int(), tankName: str().nullable(), releasedLiters: num(), releasedAt: date() }).nullable(),
+    release: z
+      .object({ tankId: int(), tankName: str().nullable(), releasedLiters: num(), releasedAt: date() })
+      .nullable(),
     rejectedAt: date().nullable(),
     rejectReason: str().nullable(),
     costs: batchCostsSchema.nullable(),
-    consumptions: z.array(z.object({ chemicalLotId: int(), kind: str(), supplier: str(), receivedOn: day(), unit: z.enum(['L', 'g']), quantity: num(), costCents: int() })),
-    files: z.array(z.object({ id: int(), purpose: z.enum(['photo', 'lab-report', 'receipt']), kind: z.enum(['pdf', 'jpeg', 'png']), name: str(), sizeBytes: int(), createdAt: date() })),
+    consumptions: z.array(
+      z.object({
+        chemicalLotId: int(),
+        kind: str(),
+        supplier: str(),
+        receivedOn: day(),
+        unit: z.enum(['L', 'g']),
+        quantity: num(),
+        costCents: int(),
+      }),
+    ),
+    files: z.array(
+      z.object({
+        id: int(),
+        purpose: z.enum(['photo', 'lab-report', 'receipt']),
+        kind: z.enum(['pdf', 'jpeg', 'png']),
+        name: str(),
+        sizeBytes: int(),
+        createdAt: date(),
+      }),
+    ),
     notes: str().nullable(),
   })
-  .meta({ id: 'Batch', description: 'A batch\'s full record: plan, steps, temperatures, quality, costs (brewers and admins).' });
+  .meta({
+    id: 'Batch',
+    description: "A batch's full record: plan, steps, temperatures, quality, costs (brewers and admins).",
+  });
 
 /** What members and treasurers see of a released batch (and everyone of an imported one). */
 export const batchSummarySchema = z
@@ -166,7 +217,10 @@ export const batchSummarySchema = z
     quality: qualityEvaluationSchema,
     qualityVerdict,
     screeningVerdict,
-    imported: z.object({ notes: str().nullable() }).nullable().describe('An imported past batch: its notes as recorded then; null for any other'),
+    imported: z
+      .object({ notes: str().nullable() })
+      .nullable()
+      .describe('An imported past batch: its notes as recorded then; null for any other'),
   })
   .meta({ id: 'BatchSummary' });
 

@@ -41,7 +41,14 @@ export const invoiceLineSchema = z
   .meta({ id: 'InvoiceLine' });
 
 export const refundSchema = z
-  .object({ id: int(), amountCents: int(), status: z.enum(['pending', 'succeeded', 'failed']), reason: str(), refundedOn: day(), failureMessage: str().nullable() })
+  .object({
+    id: int(),
+    amountCents: int(),
+    status: z.enum(['pending', 'succeeded', 'failed']),
+    reason: str(),
+    refundedOn: day(),
+    failureMessage: str().nullable(),
+  })
   .meta({ id: 'Refund' });
 
 export const paymentSchema = z
@@ -58,7 +65,7 @@ export const paymentSchema = z
     creditedCents: int(),
     unallocatedCents: int(),
     refundedCents: int(),
-    refundableCents: int().describe('The unmatched part plus this payment\'s share of the member\'s credit'),
+    refundableCents: int().describe("The unmatched part plus this payment's share of the member's credit"),
     receivedOn: day(),
     period: period(),
     reference: str().nullable(),
@@ -110,7 +117,15 @@ export const runSchema = z
   .meta({ id: 'BillingRun' });
 
 export const adjustmentSchema = z
-  .object({ id: int(), memberId: int(), memberName: str(), amountCents: int(), description: str(), period: period().describe('Billed on the member\'s first invoice for this month or later'), billedOn: period().nullable().describe('The month of the invoice that billed it') })
+  .object({
+    id: int(),
+    memberId: int(),
+    memberName: str(),
+    amountCents: int(),
+    description: str(),
+    period: period().describe("Billed on the member's first invoice for this month or later"),
+    billedOn: period().nullable().describe('The month of the invoice that billed it'),
+  })
   .meta({ id: 'Adjustment' });
 
 export const periodOverviewSchema = z
@@ -126,7 +141,9 @@ export const periodOverviewSchema = z
   .meta({ id: 'PeriodOverview' });
 
 /** One identity that must hold in a month's books, both sides shown so a difference is visible. */
-export const reconciliationCheckSchema = z.object({ label: str(), leftCents: int(), rightCents: int(), ok: z.boolean() }).meta({ id: 'ReconciliationCheck' });
+export const reconciliationCheckSchema = z
+  .object({ label: str(), leftCents: int(), rightCents: int(), ok: z.boolean() })
+  .meta({ id: 'ReconciliationCheck' });
 
 /** A month's books side by side (lib/billing/reconciliation.ts's Reconciliation is inferred from it). */
 export const reconciliationSchema = z
@@ -162,4 +179,8 @@ export const reconciliationSchema = z
     checks: z.array(reconciliationCheckSchema),
     blockers: z.array(str()).describe('Why the month cannot be closed yet (empty when it can)'),
   })
-  .meta({ id: 'Reconciliation', description: 'Invoices due / paid / outstanding, money received and where it went, unmatched payments, checks, and what blocks closing.' });
+  .meta({
+    id: 'Reconciliation',
+    description:
+      'Invoices due / paid / outstanding, money received and where it went, unmatched payments, checks, and what blocks closing.',
+  });

@@ -48,19 +48,33 @@ export const stockLineSchema = z
     available: num().describe('onHand − committed'),
     lotsWithStock: int(),
     nextPlannedNeed: num().nullable().describe('What the next planned batch needs of this chemical'),
-    low: z.boolean().describe('The available stock won\'t cover the next planned batch'),
+    low: z.boolean().describe("The available stock won't cover the next planned batch"),
   })
   .meta({ id: 'StockLine' });
 
 export const stockSummarySchema = z
-  .object({ lines: z.array(stockLineSchema), nextPlannedBatch: z.object({ id: int(), number: int(), catalyst: z.enum(['KOH', 'NaOH']) }).nullable() })
+  .object({
+    lines: z.array(stockLineSchema),
+    nextPlannedBatch: z.object({ id: int(), number: int(), catalyst: z.enum(['KOH', 'NaOH']) }).nullable(),
+  })
   .meta({ id: 'StockSummary' });
 
 export const batchRowSchema = z
   .object({
     id: int(),
     number: int(),
-    status: z.enum(['planned', 'reacting', 'settling', 'draining', 'washing', 'drying', 'testing', 'released', 'rejected', 'imported']),
+    status: z.enum([
+      'planned',
+      'reacting',
+      'settling',
+      'draining',
+      'washing',
+      'drying',
+      'testing',
+      'released',
+      'rejected',
+      'imported',
+    ]),
     batchDate: day(),
     oilLiters: num(),
     releasedLiters: num().nullable(),
@@ -89,7 +103,9 @@ export const computedPlanSchema = z
       blankMl: num(),
       averageMl: num().describe('Average minus blank, mL of titrant per mL of oil (as made with `titrant`)'),
       titrant: catalyst,
-      averageForCatalystMl: num().describe('The average in the batch\'s catalyst (converted by molar mass when the titrant differs)'),
+      averageForCatalystMl: num().describe(
+        "The average in the batch's catalyst (converted by molar mass when the titrant differs)",
+      ),
       outlierIndexes: z.array(int()),
       spreadMl: num(),
       spreadTooWide: z.boolean(),
@@ -109,8 +125,22 @@ export const computedPlanSchema = z
       titrationPureGramsPerLiter: num(),
       explanation: str(),
     }),
-    methanol: z.object({ mode: z.enum(['percent', 'molar-ratio']), pct: num().nullable(), molarRatio: num().nullable(), liters: num(), equivalentPct: num(), equivalentMolarRatio: num() }),
-    oil: z.object({ acidNumber: num(), ffaPercent: num(), band: z.enum(['good', 'average', 'poor', 'very-poor', 'reject']), needsAcidPretreatment: z.boolean(), reject: z.boolean(), message: str() }),
+    methanol: z.object({
+      mode: z.enum(['percent', 'molar-ratio']),
+      pct: num().nullable(),
+      molarRatio: num().nullable(),
+      liters: num(),
+      equivalentPct: num(),
+      equivalentMolarRatio: num(),
+    }),
+    oil: z.object({
+      acidNumber: num(),
+      ffaPercent: num(),
+      band: z.enum(['good', 'average', 'poor', 'very-poor', 'reject']),
+      needsAcidPretreatment: z.boolean(),
+      reject: z.boolean(),
+      message: str(),
+    }),
     yields: z.object({
       fuelLiters: num(),
       fuelKg: num(),
@@ -123,7 +153,13 @@ export const computedPlanSchema = z
       conversionFraction: num(),
       assumptions: z.array(str()),
     }),
-    yieldProjection: z.object({ ratio: num(), source: z.enum(['history', 'ideal']), batches: int(), idealRatio: num(), explanation: str() }),
+    yieldProjection: z.object({
+      ratio: num(),
+      source: z.enum(['history', 'ideal']),
+      batches: int(),
+      idealRatio: num(),
+      explanation: str(),
+    }),
     projectedFuelLiters: num().describe('Oil × the projected yield, L'),
   })
   .meta({ id: 'ComputedPlan' });
@@ -137,8 +173,12 @@ export const chemicalCoverageSchema = z
     available: num().describe('Stock the lots hold minus what batches under way will take'),
     covered: z.boolean(),
     shortBy: num(),
-    projectedCents: int().describe('The needed quantity at current lot prices, FIFO; a shortfall at the last price paid'),
-    shortfallCents: int().nullable().describe('The shortfall at the last price paid; null when nothing is short or none was ever bought'),
+    projectedCents: int().describe(
+      'The needed quantity at current lot prices, FIFO; a shortfall at the last price paid',
+    ),
+    shortfallCents: int()
+      .nullable()
+      .describe('The shortfall at the last price paid; null when nothing is short or none was ever bought'),
   })
   .meta({ id: 'ChemicalCoverage' });
 

@@ -11,7 +11,9 @@ export const day = () => z.string().describe('YYYY-MM-DD');
 export const units = z.enum(['us', 'metric']);
 
 /** A page of rows: `{ rows, total, page, pageSize }`. */
-export const pageOf = <T extends z.ZodType>(row: T) => z.object({ rows: z.array(row), total: int(), page: int(), pageSize: int() });
+export const pageOf = <T extends z.ZodType>(row: T) =>
+  z.object({ rows: z.array(row), total: int(), page: int(), pageSize: int() });
 
 /** A page of items (tank, reservations, draws): `{ items, total, page, pageSize }`. */
-export const itemsOf = <T extends z.ZodType>(item: T) => z.object({ items: z.array(item), total: int(), page: int(), pageSize: int() });
+export const itemsOf = <T extends z.ZodType>(item: T) =>
+  z.object({ items: z.array(item), total: int(), page: int(), pageSize: int() });

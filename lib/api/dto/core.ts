@@ -5,7 +5,9 @@ import { membershipStatus, role } from './members';
 // My profile, the co-op's settings and its audit log as the API sends them; lib/account's,
 // lib/coops' and lib/audit's DTO types are inferred from these (one definition).
 
-export const myCoopSchema = z.object({ slug: str(), name: str(), role, status: membershipStatus }).meta({ id: 'MyCoop' });
+export const myCoopSchema = z
+  .object({ slug: str(), name: str(), role, status: membershipStatus })
+  .meta({ id: 'MyCoop' });
 
 export const profileSchema = z
   .object({
@@ -16,7 +18,9 @@ export const profileSchema = z
     pendingEmailDelivery: z
       .object({ status: z.enum(['queued', 'sent', 'failed']), sentAt: date().nullable() })
       .nullable()
-      .describe('The confirmation e-mail of the pending change: queued (retried with back-off while the mail server is away), sent, or failed after every try (ask again to send a new link)'),
+      .describe(
+        'The confirmation e-mail of the pending change: queued (retried with back-off while the mail server is away), sent, or failed after every try (ask again to send a new link)',
+      ),
     coops: z.array(myCoopSchema.extend({ joinedAt: date(), timezone: str() })),
   })
   .meta({ id: 'Profile' });

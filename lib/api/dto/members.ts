@@ -9,7 +9,16 @@ export const role = z.enum(ROLES);
 export const membershipStatus = z.enum(['active', 'suspended']);
 
 export const memberSchema = z
-  .object({ id: int(), userId: int(), role, status: membershipStatus, name: str(), email: str(), joinedAt: date(), isYou: z.boolean().describe('The row of the admin looking at the table') })
+  .object({
+    id: int(),
+    userId: int(),
+    role,
+    status: membershipStatus,
+    name: str(),
+    email: str(),
+    joinedAt: date(),
+    isYou: z.boolean().describe('The row of the admin looking at the table'),
+  })
   .meta({ id: 'Member' });
 
 export const apiTokenSchema = z
@@ -32,8 +41,14 @@ export const invitationSchema = z
     role,
     delivery: z
       .enum(['queued', 'sent', 'not-sent'])
-      .describe('The e-mail: queued (the worker has it, retrying with back-off if the mail server is away), sent (the server took it), not-sent (every try failed: the dead letter; resend it)'),
-    sentAt: date().nullable().describe('When the mail server last took this invitation\'s e-mail (the send ledger); null before the first send'),
+      .describe(
+        'The e-mail: queued (the worker has it, retrying with back-off if the mail server is away), sent (the server took it), not-sent (every try failed: the dead letter; resend it)',
+      ),
+    sentAt: date()
+      .nullable()
+      .describe(
+        "When the mail server last took this invitation's e-mail (the send ledger); null before the first send",
+      ),
     expiresAt: date(),
     createdAt: date(),
     invitedBy: str().nullable(),

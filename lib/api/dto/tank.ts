@@ -17,12 +17,14 @@ export const tankSchema = z
     reservedLiters: num().describe('Open reservations whose window has not ended.'),
     heldLiters: num().describe('Held while a batch in the tank is under review (not reservable, drawable or movable).'),
     availableLiters: num().describe('On hand − reserved − held, never below zero.'),
-    capacity: num().describe('In the co-op\'s unit (US gallons or litres), 3 decimals; available is rounded down.'),
+    capacity: num().describe("In the co-op's unit (US gallons or litres), 3 decimals; available is rounded down."),
     onHand: num(),
     reserved: num(),
     held: num(),
     available: num(),
-    mixing: z.enum(['mixed', 'fifo']).describe('mixed: a draw takes every batch in proportion; fifo: oldest fuel first.'),
+    mixing: z
+      .enum(['mixed', 'fifo'])
+      .describe('mixed: a draw takes every batch in proportion; fifo: oldest fuel first.'),
     valueCents: int().describe('Stock value at moving weighted-average cost.'),
     avgCostCentsPerGallon: num().nullable().describe('value ÷ on hand per US gallon (2 decimals), null when empty.'),
     avgCostCentsPerUnit: num().nullable().describe('The same per co-op unit, null when empty.'),
@@ -41,9 +43,19 @@ export const dipResultSchema = z.object({
 export const movementSchema = z
   .object({
     id: str(),
-    kind: z.enum(['release', 'draw', 'draw-reversal', 'dip-adjustment', 'transfer-in', 'transfer-out', 'opening', 'disposal', 'retreat']),
+    kind: z.enum([
+      'release',
+      'draw',
+      'draw-reversal',
+      'dip-adjustment',
+      'transfer-in',
+      'transfer-out',
+      'opening',
+      'disposal',
+      'retreat',
+    ]),
     quantityLiters: num(),
-    quantity: num().describe('Signed, in the co-op\'s unit.'),
+    quantity: num().describe("Signed, in the co-op's unit."),
     valueCents: int(),
     onHandAfterLiters: num(),
     onHandAfter: num(),
@@ -59,12 +71,19 @@ export const movementSchema = z
   .meta({ id: 'TankMovement' });
 
 /** Who took or holds fuel from which tank, and how much: shared by reservations and draws. */
-const memberTankFields = { id: int(), tankId: int(), tankName: str(), membershipId: int(), memberName: str(), quantityLiters: num() };
+const memberTankFields = {
+  id: int(),
+  tankId: int(),
+  tankName: str(),
+  membershipId: int(),
+  memberName: str(),
+  quantityLiters: num(),
+};
 
 export const reservationSchema = z
   .object({
     ...memberTankFields,
-    quantity: num().describe('In the co-op\'s unit.'),
+    quantity: num().describe("In the co-op's unit."),
     windowStart: date(),
     windowEnd: date(),
     status: z.enum(['open', 'drawn', 'cancelled', 'expired']),
@@ -74,13 +93,18 @@ export const reservationSchema = z
   })
   .meta({ id: 'Reservation' });
 
-export const drawBatchSchema = z.object({ batchId: int().nullable(), batchNumber: int().nullable(), ml: num(), quantity: num() });
+export const drawBatchSchema = z.object({
+  batchId: int().nullable(),
+  batchNumber: int().nullable(),
+  ml: num(),
+  quantity: num(),
+});
 
 export const drawSchema = z
   .object({
     ...memberTankFields,
     reservationId: int().nullable(),
-    quantity: num().describe('In the co-op\'s unit; negative on a reversal.'),
+    quantity: num().describe("In the co-op's unit; negative on a reversal."),
     meterBefore: num().nullable(),
     meterAfter: num().nullable(),
     declaredUse: z.enum(DECLARED_USES),
@@ -99,7 +123,9 @@ export const drawSchema = z
     recordedBy: str().nullable(),
     occurredAt: date(),
     status: z.enum(['recorded', 'reversed', 'reversal']),
-    batches: z.array(drawBatchSchema).describe('The batches the fuel came from, in the co-op\'s unit; batch null = unattributed.'),
+    batches: z
+      .array(drawBatchSchema)
+      .describe("The batches the fuel came from, in the co-op's unit; batch null = unattributed."),
   })
   .meta({ id: 'Draw' });
 
@@ -115,8 +141,16 @@ export const pricePolicySchema = z
   .object({
     id: int(),
     kind: z.enum(['fixed', 'cost-plus-amount', 'cost-plus-percent']),
-    policy: pricingPolicySchema.describe('In the co-op\'s units (cents per gallon or per litre).'),
-    stored: z.object({ priceCentsPerGallon: num().nullable(), marginCentsPerGallon: num().nullable(), marginPct: num().nullable(), surchargeCentsPerGallon: num(), roadTaxCentsPerGallon: num() }).describe('As stored: cents per US gallon.'),
+    policy: pricingPolicySchema.describe("In the co-op's units (cents per gallon or per litre)."),
+    stored: z
+      .object({
+        priceCentsPerGallon: num().nullable(),
+        marginCentsPerGallon: num().nullable(),
+        marginPct: num().nullable(),
+        surchargeCentsPerGallon: num(),
+        roadTaxCentsPerGallon: num(),
+      })
+      .describe('As stored: cents per US gallon.'),
     description: str(),
     effectiveFrom: date(),
     createdBy: str().nullable(),

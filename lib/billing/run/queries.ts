@@ -45,21 +45,40 @@ const MEMBERS_TO_BILL = `
                  AND NOT EXISTS (SELECT 1 FROM invoice_lines l WHERE l.adjustment_id = a.id AND NOT l.released))
     )`;
 
-const scopeBind = (s: RunScope) => ({ coopId: s.coopId, period: s.period, end: s.end, dues: s.duesCents, only: s.only });
+const scopeBind = (s: RunScope) => ({
+  coopId: s.coopId,
+  period: s.period,
+  end: s.end,
+  dues: s.duesCents,
+  only: s.only,
+});
 
 /** How many members the run will bill (shown as the run's total while it works). */
 export async function countMembersToBill(s: RunScope, t: Transaction): Promise<number> {
-  const row = await sequelize.query<{ n: number }>(`SELECT count(*)::int AS n ${MEMBERS_TO_BILL}`, { bind: scopeBind(s), type: QueryTypes.SELECT, plain: true, transaction: t });
+  const row = await sequelize.query<{ n: number }>(`SELECT count(*)::int AS n ${MEMBERS_TO_BILL}`, {
+    bind: scopeBind(s),
+    type: QueryTypes.SELECT,
+    plain: true,
+    transaction: t,
+  });
   return row?.n ?? 0;
 }
 
 /** The next chunk of members to bill after membership id `afterId` (keyset paging by id). */
-export async function nextMembersToBill(s: RunScope, afterId: number, limit: number, t: Transaction): Promise<Membership['id'][]> {
-  const rows = await sequelize.query<{ id: number }>(`SELECT m.id ${MEMBERS_TO_BILL} AND m.id > $after ORDER BY m.id LIMIT $limit`, {
-    bind: { ...scopeBind(s), after: afterId, limit },
-    type: QueryTypes.SELECT,
-    transaction: t,
-  });
+export async function nextMembersToBill(
+  s: RunScope,
+  afterId: number,
+  limit: number,
+  t: Transaction,
+): Promise<Membership['id'][]> {
+  const rows = await sequelize.query<{ id: number }>(
+    `SELECT m.id ${MEMBERS_TO_BILL} AND m.id > $after ORDER BY m.id LIMIT $limit`,
+    {
+      bind: { ...scopeBind(s), after: afterId, limit },
+      type: QueryTypes.SELECT,
+      transaction: t,
+    },
+  );
   return rows.map((r) => r.id);
 }
 
@@ -76,14 +95,23 @@ export async function deleteDraftsOf(t: Transaction, s: RunScope, membershipIds:
  * Creates an empty draft for each of these members who has no live invoice for the month.
  * @returns the new drafts' ids
  */
-export async function createEmptyDrafts(t: Transaction, s: RunScope, runId: number, membershipIds: number[]): Promise<Invoice['id'][]> {
+export async function createEmptyDrafts(
+  t: Transaction,
+  s: RunScope,
+  runId: number,
+  membershipIds: number[],
+): Promise<Invoice['id'][]> {
   const rows = await sequelize.query<{ id: number }>(
     `INSERT INTO invoices (coop_id, membership_id, period, billing_run_id, created_at, updated_at)
      SELECT $coopId, m.id, $period::date, $runId, now(), now() FROM unnest($ids::int[]) AS m(id)
      WHERE NOT EXISTS (SELECT 1 FROM invoices i WHERE i.coop_id = $coopId AND i.membership_id = m.id AND i.period = $period::date
                        AND i.kind = 'invoice' AND i.status <> 'void')
      RETURNING id`,
-    { bind: { coopId: s.coopId, period: s.period, runId, ids: membershipIds }, type: QueryTypes.SELECT, transaction: t },
+    {
+      bind: { coopId: s.coopId, period: s.period, runId, ids: membershipIds },
+      type: QueryTypes.SELECT,
+      transaction: t,
+    },
   );
   return rows.map((r) => r.id);
 }
@@ -147,7 +175,11 @@ export async function insertDuesLines(t: Transaction, s: RunScope, invoiceIds: n
      SELECT $coopId, i.id, 900000, 'dues', 'Membership dues for ' || to_char($period::date, 'FMMonth YYYY'), $dues::bigint
      FROM invoices i JOIN memberships m ON m.id = i.membership_id
      WHERE ${IN_DRAFTS} AND m.status = 'active' AND m.joined_at < $end::timestamptz`,
-    { bind: { coopId: s.coopId, inv: invoiceIds, period: s.period, dues: s.duesCents, end: s.end }, type: QueryTypes.INSERT, transaction: t },
+    {
+      bind: { coopId: s.coopId, inv: invoiceIds, period: s.period, dues: s.duesCents, end: s.end },
+      type: QueryTypes.INSERT,
+      transaction: t,
+    },
   );
 }
 
@@ -191,11 +223,14 @@ export async function insertCreditLines(t: Transaction, coopId: number, invoiceI
  * @returns how many were deleted
  */
 export async function deleteEmptyDrafts(t: Transaction, coopId: number, invoiceIds: number[]): Promise<number> {
-  return sequelize.query(`DELETE FROM invoices i WHERE ${IN_DRAFTS} AND NOT EXISTS (SELECT 1 FROM invoice_lines l WHERE l.invoice_id = i.id)`, {
-    bind: { coopId, inv: invoiceIds },
-    type: QueryTypes.BULKDELETE,
-    transaction: t,
-  });
+  return sequelize.query(
+    `DELETE FROM invoices i WHERE ${IN_DRAFTS} AND NOT EXISTS (SELECT 1 FROM invoice_lines l WHERE l.invoice_id = i.id)`,
+    {
+      bind: { coopId, inv: invoiceIds },
+      type: QueryTypes.BULKDELETE,
+      transaction: t,
+    },
+  );
 }
 
 /** Sets each of these drafts' total to the exact sum of its lines. */
@@ -214,7 +249,13 @@ export async function refreshDraftTotals(t: Transaction, coopId: number, invoice
  * time, the due date, e-mail queued, and 'paid' for a draft that owes nothing.
  * @returns how many were issued
  */
-export async function numberAndIssueDrafts(t: Transaction, coopId: number, invoiceIds: number[], afterNumber: number, dueOn: string): Promise<number> {
+export async function numberAndIssueDrafts(
+  t: Transaction,
+  coopId: number,
+  invoiceIds: number[],
+  afterNumber: number,
+  dueOn: string,
+): Promise<number> {
   return sequelize.query(
     `WITH numbered AS (
        SELECT i.id, row_number() OVER (ORDER BY lower(u.name), i.id) AS rn

@@ -9,7 +9,15 @@ import { sendOnce } from '@/lib/mail/once';
 import { Invitation } from '@/models';
 
 /** The plain-text invitation e-mail. */
-export function invitationMail(p: { coopName: string; inviter: string; role: Role; token: string; expiresAt: Date; timezone: string; name?: string | null }) {
+export function invitationMail(p: {
+  coopName: string;
+  inviter: string;
+  role: Role;
+  token: string;
+  expiresAt: Date;
+  timezone: string;
+  name?: string | null;
+}) {
   const link = appUrl(`/invite/${p.token}`);
   return {
     subject: `Invitation to join ${p.coopName} on Tallyvat`,
@@ -38,8 +46,19 @@ export function invitationMail(p: { coopName: string; inviter: string; role: Rol
  * already has a live job (a resend clicked twice) gets no second one; `fresh` as in
  * enqueueMailOnce (an invitation put back to waiting from sent or not-sent).
  */
-export async function enqueueInvitationMails(coopId: number, invitationIds: number[], transaction: Transaction, fresh = false): Promise<void> {
-  await enqueueMailOnce<InvitationMailJob>(QUEUES.invitationMail, invitationIds.map((invitationId) => ({ coopId, invitationId })), invitationMailKey, transaction, fresh);
+export async function enqueueInvitationMails(
+  coopId: number,
+  invitationIds: number[],
+  transaction: Transaction,
+  fresh = false,
+): Promise<void> {
+  await enqueueMailOnce<InvitationMailJob>(
+    QUEUES.invitationMail,
+    invitationIds.map((invitationId) => ({ coopId, invitationId })),
+    invitationMailKey,
+    transaction,
+    fresh,
+  );
 }
 
 type Sendable = Invitation & { coop: NonNullable<Invitation['coop']> };
@@ -86,8 +105,13 @@ export async function deliverInvitationJob(coopId: number, invitationId: number,
         await Invitation.update({ tokenHash: hash, expiresAt }, { where: { id: row.id, coopId }, transaction });
       }
       const mail = invitationMail({
-        coopName: row.coop.name, inviter: row.invitedBy?.name ?? `The admin of ${row.coop.name}`, role: row.role, token, expiresAt,
-        timezone: row.coop.timezone, name: row.name,
+        coopName: row.coop.name,
+        inviter: row.invitedBy?.name ?? `The admin of ${row.coop.name}`,
+        role: row.role,
+        token,
+        expiresAt,
+        timezone: row.coop.timezone,
+        name: row.name,
       });
       return { to: row.email, ...mail };
     },

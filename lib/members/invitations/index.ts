@@ -1,6 +1,15 @@
 import 'server-only';
 import type { invitationSchema } from '@/lib/api/dto/members';
-import { col, fn, Op, UniqueConstraintError, where, type IncludeOptions, type InferAttributes, type Transaction } from 'sequelize';
+import {
+  col,
+  fn,
+  Op,
+  UniqueConstraintError,
+  where,
+  type IncludeOptions,
+  type InferAttributes,
+  type Transaction,
+} from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor, SessionUser } from '@/lib/auth';
@@ -21,7 +30,16 @@ export type { InvitationDelivery };
 export type InvitationDto = z.infer<typeof invitationSchema>;
 
 /** The columns every invitation read needs (never the token hash). */
-const INVITATION_ATTRIBUTES = ['id', 'coopId', 'email', 'role', 'status', 'delivery', 'expiresAt', 'createdAt'] as const satisfies (keyof InferAttributes<Invitation>)[];
+const INVITATION_ATTRIBUTES = [
+  'id',
+  'coopId',
+  'email',
+  'role',
+  'status',
+  'delivery',
+  'expiresAt',
+  'createdAt',
+] as const satisfies (keyof InferAttributes<Invitation>)[];
 
 /** The inviter's name, joined in the same query. */
 const INVITED_BY: IncludeOptions = { association: 'invitedBy', attributes: ['name'] };
@@ -46,9 +64,15 @@ export async function listPendingInvitations(actor: Actor): Promise<InvitationDt
     attributes: [...INVITATION_ATTRIBUTES],
     where: { coopId: actor.coop.id, status: 'pending' },
     include: [INVITED_BY],
-    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
   });
-  const sent = await lastSentAt(actor.coop.id, rows.map((r) => r.id));
+  const sent = await lastSentAt(
+    actor.coop.id,
+    rows.map((r) => r.id),
+  );
   return rows.map((r) => toDto(r, sent));
 }
 
@@ -77,7 +101,11 @@ async function lockInvitation(actor: Actor, id: number, transaction: Transaction
 }
 
 async function reloadDto(actor: Actor, id: number): Promise<InvitationDto> {
-  const row = await Invitation.findOne({ attributes: [...INVITATION_ATTRIBUTES], where: { id, coopId: actor.coop.id }, include: [INVITED_BY] });
+  const row = await Invitation.findOne({
+    attributes: [...INVITATION_ATTRIBUTES],
+    where: { id, coopId: actor.coop.id },
+    include: [INVITED_BY],
+  });
   if (!row) throw notFound('That invitation is not in this co-op.');
   return toDto(row, await lastSentAt(actor.coop.id, [id]));
 }
@@ -92,7 +120,10 @@ const emailIs = (column: string, email: string) => where(fn('lower', col(column)
  * address already belongs to a member or has a pending, unexpired invitation (an expired one is
  * renewed in place).
  */
-export async function createInvitation(actor: Actor, input: z.infer<typeof invitationCreateSchema>): Promise<{ invitation: InvitationDto; queued: true }> {
+export async function createInvitation(
+  actor: Actor,
+  input: z.infer<typeof invitationCreateSchema>,
+): Promise<{ invitation: InvitationDto; queued: true }> {
   const { hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   let id: number;
@@ -112,18 +143,29 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
         transaction,
       });
       if (pending && !isPast(pending.expiresAt)) {
-        throw conflict(`An invitation to ${input.email} is already waiting to be accepted. Resend it or revoke it from the list of invitations.`, {
-          invitationId: pending.id,
-        });
+        throw conflict(
+          `An invitation to ${input.email} is already waiting to be accepted. Resend it or revoke it from the list of invitations.`,
+          {
+            invitationId: pending.id,
+          },
+        );
       }
       if (pending) {
         // The old link has expired: renew the same invitation with a new link and the chosen role.
         const before = { email: pending.email, role: pending.role, expiresAt: pending.expiresAt.toISOString() };
-        await pending.update({ role: input.role, tokenHash: hash, expiresAt, delivery: 'queued', invitedByUserId: actor.user.id }, { transaction });
+        await pending.update(
+          { role: input.role, tokenHash: hash, expiresAt, delivery: 'queued', invitedByUserId: actor.user.id },
+          { transaction },
+        );
         await audit(
           {
-            coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.renew', entityType: 'invitation', entityId: pending.id,
-            before, after: { email: pending.email, role: input.role, expiresAt: expiresAt.toISOString() },
+            coopId: actor.coop.id,
+            actorUserId: actor.user.id,
+            action: 'invitation.renew',
+            entityType: 'invitation',
+            entityId: pending.id,
+            before,
+            after: { email: pending.email, role: input.role, expiresAt: expiresAt.toISOString() },
           },
           transaction,
         );
@@ -131,13 +173,27 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
         return pending.id;
       }
       const created = await Invitation.create(
-        { coopId: actor.coop.id, email: input.email, role: input.role, tokenHash: hash, delivery: 'queued', invitedByUserId: actor.user.id, expiresAt, acceptedAt: null },
+        {
+          coopId: actor.coop.id,
+          email: input.email,
+          role: input.role,
+          tokenHash: hash,
+          delivery: 'queued',
+          invitedByUserId: actor.user.id,
+          expiresAt,
+          acceptedAt: null,
+        },
         { transaction },
       );
       await audit(
         {
-          coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.create', entityType: 'invitation', entityId: created.id,
-          before: null, after: { email: input.email, role: input.role, expiresAt: expiresAt.toISOString() },
+          coopId: actor.coop.id,
+          actorUserId: actor.user.id,
+          action: 'invitation.create',
+          entityType: 'invitation',
+          entityId: created.id,
+          before: null,
+          after: { email: input.email, role: input.role, expiresAt: expiresAt.toISOString() },
         },
         transaction,
       );
@@ -145,7 +201,8 @@ export async function createInvitation(actor: Actor, input: z.infer<typeof invit
       return created.id;
     });
   } catch (e) {
-    if (e instanceof UniqueConstraintError) throw conflict(`An invitation to ${input.email} was just created. Refresh the list.`);
+    if (e instanceof UniqueConstraintError)
+      throw conflict(`An invitation to ${input.email} was just created. Refresh the list.`);
     throw e;
   }
   return { invitation: await reloadDto(actor, id), queued: true };
@@ -166,8 +223,13 @@ export async function resendInvitation(actor: Actor, id: number): Promise<{ invi
     await inv.update({ tokenHash: hash, expiresAt, delivery: 'queued' }, { transaction });
     await audit(
       {
-        coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.resend', entityType: 'invitation', entityId: id,
-        before, after: { delivery: 'queued', expiresAt: expiresAt.toISOString(), newLink: true },
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'invitation.resend',
+        entityType: 'invitation',
+        entityId: id,
+        before,
+        after: { delivery: 'queued', expiresAt: expiresAt.toISOString(), newLink: true },
       },
       transaction,
     );
@@ -184,8 +246,13 @@ export async function revokeInvitation(actor: Actor, id: number): Promise<{ revo
     await inv.update({ status: 'revoked' }, { transaction });
     await audit(
       {
-        coopId: actor.coop.id, actorUserId: actor.user.id, action: 'invitation.revoke', entityType: 'invitation', entityId: id,
-        before: { email: inv.email, role: inv.role, status: 'pending' }, after: { email: inv.email, role: inv.role, status: 'revoked' },
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'invitation.revoke',
+        entityType: 'invitation',
+        entityId: id,
+        before: { email: inv.email, role: inv.role, status: 'pending' },
+        after: { email: inv.email, role: inv.role, status: 'revoked' },
       },
       transaction,
     );
@@ -275,7 +342,8 @@ export async function lookupInvitation(token: string, user: SessionUser | null):
 }
 
 export const INVITATION_MESSAGES = {
-  invalid: 'This invitation link is not valid. Check that the whole link was copied from the e-mail, or ask the co-op’s admin for a new invitation.',
+  invalid:
+    'This invitation link is not valid. Check that the whole link was copied from the e-mail, or ask the co-op’s admin for a new invitation.',
   revoked: 'This invitation was withdrawn by the co-op’s admin. Ask them for a new one if you still want to join.',
   accepted: 'This invitation has already been used. If that was you, sign in to reach the co-op.',
   expired: 'This invitation has expired. Ask the co-op’s admin to send it again; the new e-mail has a fresh link.',
@@ -284,7 +352,10 @@ export const INVITATION_MESSAGES = {
 /** The lookup as an HTTP answer: 404 for an unknown link, 410 Gone for a used, withdrawn or expired one. */
 export function invitationError(lookup: Exclude<InvitationLookup, { state: 'ok' }>): HttpError {
   if (lookup.state === 'invalid') return notFound(INVITATION_MESSAGES.invalid);
-  return new HttpError(410, INVITATION_MESSAGES[lookup.state], undefined, { reason: lookup.state, coop: lookup.coopName });
+  return new HttpError(410, INVITATION_MESSAGES[lookup.state], undefined, {
+    reason: lookup.state,
+    coop: lookup.coopName,
+  });
 }
 
 /**
@@ -313,26 +384,40 @@ export async function acceptInvitation(
       if (existingUserId) {
         if (!user) throw new HttpError(401, `An account already uses ${inv.email}. Sign in as ${inv.email} to accept.`);
         if (user.id !== existingUserId) {
-          throw forbidden(`This invitation is for ${inv.email}, but you are signed in as ${user.email}. Sign out, then open the link again.`);
+          throw forbidden(
+            `This invitation is for ${inv.email}, but you are signed in as ${user.email}. Sign out, then open the link again.`,
+          );
         }
         userId = existingUserId;
       } else {
         const fields: Record<string, string[]> = {};
         if (!input.name) fields.name = ['Enter your name.'];
         if (!passwordHash) fields.password = ['Choose a password of 12 to 128 characters.'];
-        else if (isCommonPassword(input.password!)) fields.password = ['That password is on a list of commonly used passwords. Choose another.'];
+        else if (isCommonPassword(input.password!))
+          fields.password = ['That password is on a list of commonly used passwords. Choose another.'];
         if (Object.keys(fields).length) throw new HttpError(422, 'Some fields need attention.', fields);
-        const created = await User.create({ email: inv.email.toLowerCase(), name: input.name!, passwordHash: passwordHash! }, { transaction });
+        const created = await User.create(
+          { email: inv.email.toLowerCase(), name: input.name!, passwordHash: passwordHash! },
+          { transaction },
+        );
         userId = created.id;
       }
 
-      const already = await Membership.findOne({ attributes: ['id'], where: { coopId: inv.coopId, userId }, transaction });
+      const already = await Membership.findOne({
+        attributes: ['id'],
+        where: { coopId: inv.coopId, userId },
+        transaction,
+      });
       if (already) throw conflict(`You are already a member of ${inv.coop.name}.`);
       const membership = await Membership.create({ coopId: inv.coopId, userId, role: inv.role }, { transaction });
       await inv.update({ status: 'accepted', acceptedAt: new Date() }, { transaction });
       await audit(
         {
-          coopId: inv.coopId, actorUserId: userId, action: 'invitation.accept', entityType: 'invitation', entityId: inv.id,
+          coopId: inv.coopId,
+          actorUserId: userId,
+          action: 'invitation.accept',
+          entityType: 'invitation',
+          entityId: inv.id,
           before: { email: inv.email, role: inv.role, status: 'pending' },
           after: { email: inv.email, role: inv.role, status: 'accepted', membershipId: membership.id, newAccount },
         },
@@ -340,18 +425,30 @@ export async function acceptInvitation(
       );
       await audit(
         {
-          coopId: inv.coopId, actorUserId: userId, action: 'membership.create', entityType: 'membership', entityId: membership.id,
-          before: null, after: { userId, email: inv.email, role: inv.role, status: 'active', invitationId: inv.id },
+          coopId: inv.coopId,
+          actorUserId: userId,
+          action: 'membership.create',
+          entityType: 'membership',
+          entityId: membership.id,
+          before: null,
+          after: { userId, email: inv.email, role: inv.role, status: 'active', invitationId: inv.id },
         },
         transaction,
       );
-      return { coop: { slug: inv.coop.slug, name: inv.coop.name }, role: inv.role, email: inv.email.toLowerCase(), newAccount };
+      return {
+        coop: { slug: inv.coop.slug, name: inv.coop.name },
+        role: inv.role,
+        email: inv.email.toLowerCase(),
+        newAccount,
+      };
     });
   } catch (e) {
     if (e instanceof UniqueConstraintError) {
       // Two people (or two tabs) accepting at the same moment: the account or the membership was just made.
       if (/memberships/.test(e.parent?.message ?? '')) throw conflict('You are already a member of this co-op.');
-      throw conflict('An account with this e-mail address was created a moment ago. Sign in, then open the link again.');
+      throw conflict(
+        'An account with this e-mail address was created a moment ago. Sign in, then open the link again.',
+      );
     }
     throw e;
   }

@@ -19,10 +19,29 @@ export type DrawStatus = 'recorded' | 'reversed' | 'reversal';
 export type DrawDto = z.infer<typeof drawSchema>;
 
 /** A draw as the lists read it (raw, nested includes). */
-type DrawListRow = Pick<InferAttributes<Draw>,
-  'id' | 'tankId' | 'membershipId' | 'reservationId' | 'quantityLiters' | 'meterBefore' | 'meterAfter' | 'declaredUse' | 'vehicle'
-  | 'unitPriceCentsPerGallon' | 'surchargeCentsPerGallon' | 'roadTaxCentsPerGallon' | 'fuelCents' | 'surchargeCents' | 'taxCents' | 'totalCents'
-  | 'costValueCents' | 'reversesDrawId' | 'reason' | 'occurredAt'> & {
+type DrawListRow = Pick<
+  InferAttributes<Draw>,
+  | 'id'
+  | 'tankId'
+  | 'membershipId'
+  | 'reservationId'
+  | 'quantityLiters'
+  | 'meterBefore'
+  | 'meterAfter'
+  | 'declaredUse'
+  | 'vehicle'
+  | 'unitPriceCentsPerGallon'
+  | 'surchargeCentsPerGallon'
+  | 'roadTaxCentsPerGallon'
+  | 'fuelCents'
+  | 'surchargeCents'
+  | 'taxCents'
+  | 'totalCents'
+  | 'costValueCents'
+  | 'reversesDrawId'
+  | 'reason'
+  | 'occurredAt'
+> & {
   tank: { name: string };
   membership: { user: { name: string } };
   reversal: { id: number | null };
@@ -30,9 +49,26 @@ type DrawListRow = Pick<InferAttributes<Draw>,
 };
 
 const DRAW_ATTRIBUTES = [
-  'id', 'tankId', 'membershipId', 'reservationId', 'quantityLiters', 'meterBefore', 'meterAfter', 'declaredUse', 'vehicle',
-  'unitPriceCentsPerGallon', 'surchargeCentsPerGallon', 'roadTaxCentsPerGallon', 'fuelCents', 'surchargeCents', 'taxCents', 'totalCents',
-  'costValueCents', 'reversesDrawId', 'reason', 'occurredAt',
+  'id',
+  'tankId',
+  'membershipId',
+  'reservationId',
+  'quantityLiters',
+  'meterBefore',
+  'meterAfter',
+  'declaredUse',
+  'vehicle',
+  'unitPriceCentsPerGallon',
+  'surchargeCentsPerGallon',
+  'roadTaxCentsPerGallon',
+  'fuelCents',
+  'surchargeCents',
+  'taxCents',
+  'totalCents',
+  'costValueCents',
+  'reversesDrawId',
+  'reason',
+  'occurredAt',
 ] as const;
 
 /**
@@ -42,7 +78,13 @@ const DRAW_ATTRIBUTES = [
  */
 const drawInclude = (coopId: number, withColumns = true) => [
   { model: Tank, as: 'tank', attributes: withColumns ? ['name'] : [], where: { coopId }, required: true },
-  { model: Membership, as: 'membership', attributes: [], required: true, include: [{ model: User, as: 'user', attributes: withColumns ? ['name'] : [], required: true }] },
+  {
+    model: Membership,
+    as: 'membership',
+    attributes: [],
+    required: true,
+    include: [{ model: User, as: 'user', attributes: withColumns ? ['name'] : [], required: true }],
+  },
   { model: Draw, as: 'reversal', attributes: withColumns ? ['id'] : [], required: false },
   ...(withColumns ? [{ model: User, as: 'recordedBy', attributes: ['name'], required: false }] : []),
 ];
@@ -53,12 +95,30 @@ function drawDto(r: DrawListRow, actor: Actor): DrawDto {
   const meter = (v: string | null) => (v === null ? null : mlToUnits3(litersToMl(v), units));
   const reversedBy = r.reversal?.id ?? null;
   return {
-    id: r.id, tankId: r.tankId, tankName: r.tank.name, membershipId: r.membershipId, memberName: r.membership.user.name, reservationId: r.reservationId,
-    quantityLiters: qMl / 1000, quantity: mlToUnits3(qMl, units), meterBefore: meter(r.meterBefore), meterAfter: meter(r.meterAfter),
-    declaredUse: r.declaredUse, vehicle: r.vehicle,
-    unitPriceCentsPerGallon: Number(r.unitPriceCentsPerGallon), surchargeCentsPerGallon: Number(r.surchargeCentsPerGallon), roadTaxCentsPerGallon: Number(r.roadTaxCentsPerGallon),
-    fuelCents: Number(r.fuelCents), surchargeCents: Number(r.surchargeCents), taxCents: Number(r.taxCents), totalCents: Number(r.totalCents), costValueCents: Number(r.costValueCents),
-    reversesDrawId: r.reversesDrawId, reversedByDrawId: reversedBy, reason: r.reason, recordedBy: r.recordedBy?.name ?? null,
+    id: r.id,
+    tankId: r.tankId,
+    tankName: r.tank.name,
+    membershipId: r.membershipId,
+    memberName: r.membership.user.name,
+    reservationId: r.reservationId,
+    quantityLiters: qMl / 1000,
+    quantity: mlToUnits3(qMl, units),
+    meterBefore: meter(r.meterBefore),
+    meterAfter: meter(r.meterAfter),
+    declaredUse: r.declaredUse,
+    vehicle: r.vehicle,
+    unitPriceCentsPerGallon: Number(r.unitPriceCentsPerGallon),
+    surchargeCentsPerGallon: Number(r.surchargeCentsPerGallon),
+    roadTaxCentsPerGallon: Number(r.roadTaxCentsPerGallon),
+    fuelCents: Number(r.fuelCents),
+    surchargeCents: Number(r.surchargeCents),
+    taxCents: Number(r.taxCents),
+    totalCents: Number(r.totalCents),
+    costValueCents: Number(r.costValueCents),
+    reversesDrawId: r.reversesDrawId,
+    reversedByDrawId: reversedBy,
+    reason: r.reason,
+    recordedBy: r.recordedBy?.name ?? null,
     occurredAt: new Date(r.occurredAt).toISOString(),
     status: r.reversesDrawId !== null ? 'reversal' : reversedBy !== null ? 'reversed' : 'recorded',
     batches: [],
@@ -67,7 +127,11 @@ function drawDto(r: DrawListRow, actor: Actor): DrawDto {
 
 /** Adds each draw's batches (one indexed read for the page). */
 async function withBatches(actor: Actor, draws: DrawDto[]): Promise<DrawDto[]> {
-  const map = await drawBatches(actor.coop.id, actor.coop.units, draws.map((d) => d.id));
+  const map = await drawBatches(
+    actor.coop.id,
+    actor.coop.units,
+    draws.map((d) => d.id),
+  );
   for (const d of draws) d.batches = map.get(d.id) ?? [];
   return draws;
 }
@@ -75,9 +139,14 @@ async function withBatches(actor: Actor, draws: DrawDto[]): Promise<DrawDto[]> {
 /** One draw: a member sees their own, brewers/treasurers/admins any of the co-op's; else 404. */
 export async function getDraw(actor: Actor, id: number): Promise<DrawDto> {
   const row = (await Draw.findOne({
-    attributes: [...DRAW_ATTRIBUTES], where: { id, coopId: actor.coop.id }, include: drawInclude(actor.coop.id), raw: true, nest: true,
+    attributes: [...DRAW_ATTRIBUTES],
+    where: { id, coopId: actor.coop.id },
+    include: drawInclude(actor.coop.id),
+    raw: true,
+    nest: true,
   })) as unknown as DrawListRow | null;
-  if (!row || (row.membershipId !== actor.membershipId && !can(actor.role, 'draws:read-all'))) throw notFound('Draw not found.');
+  if (!row || (row.membershipId !== actor.membershipId && !can(actor.role, 'draws:read-all')))
+    throw notFound('Draw not found.');
   return withBatches(actor, [drawDto(row, actor)]).then(([d]) => d!);
 }
 
@@ -107,8 +176,17 @@ export async function listDraws(actor: Actor, q: z.infer<typeof drawListSchema>,
   const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
   const [rows, agg] = await Promise.all([
     Draw.findAll({
-      attributes: [...DRAW_ATTRIBUTES], where, include: drawInclude(coopId),
-      order: [[DRAW_SORT[q.sort as keyof typeof DRAW_SORT], dir], ['id', 'DESC']], limit: q.pageSize, offset: (q.page - 1) * q.pageSize, raw: true, nest: true,
+      attributes: [...DRAW_ATTRIBUTES],
+      where,
+      include: drawInclude(coopId),
+      order: [
+        [DRAW_SORT[q.sort as keyof typeof DRAW_SORT], dir],
+        ['id', 'DESC'],
+      ],
+      limit: q.pageSize,
+      offset: (q.page - 1) * q.pageSize,
+      raw: true,
+      nest: true,
     }) as unknown as Promise<DrawListRow[]>,
     Draw.findOne({
       attributes: [
@@ -117,13 +195,25 @@ export async function listDraws(actor: Actor, q: z.infer<typeof drawListSchema>,
         [fn('coalesce', fn('sum', col(`${Draw.name}.quantity_liters`)), 0), 'liters'],
         [fn('coalesce', fn('sum', col(`${Draw.name}.total_cents`)), 0), 'total'],
       ],
-      where, include: drawInclude(coopId, false), raw: true,
+      where,
+      include: drawInclude(coopId, false),
+      raw: true,
     }) as unknown as Promise<{ n: string; liters: string; total: string } | null>,
   ]);
   const netMl = litersToMl(String(agg?.liters ?? '0'));
   return {
-    items: await withBatches(actor, rows.map((r) => drawDto(r, actor))), page: q.page, pageSize: q.pageSize, total: Number(agg?.n ?? 0),
-    totals: { quantityLiters: netMl / 1000, quantity: mlToUnits3(netMl, actor.coop.units), totalCents: Number(agg?.total ?? 0) },
+    items: await withBatches(
+      actor,
+      rows.map((r) => drawDto(r, actor)),
+    ),
+    page: q.page,
+    pageSize: q.pageSize,
+    total: Number(agg?.n ?? 0),
+    totals: {
+      quantityLiters: netMl / 1000,
+      quantity: mlToUnits3(netMl, actor.coop.units),
+      totalCents: Number(agg?.total ?? 0),
+    },
   };
 }
 
@@ -131,9 +221,15 @@ export async function listDraws(actor: Actor, q: z.infer<typeof drawListSchema>,
 export async function listDrawMembers(actor: Actor): Promise<{ membershipId: number; name: string }[]> {
   if (!can(actor.role, 'draws:read-all')) return [{ membershipId: actor.membershipId, name: actor.user.name }];
   const rows = (await Membership.findAll({
-    attributes: ['id'], where: { coopId: actor.coop.id, status: 'active' },
+    attributes: ['id'],
+    where: { coopId: actor.coop.id, status: 'active' },
     include: [{ model: User, as: 'user', attributes: ['name'], required: true }],
-    order: [[{ model: User, as: 'user' }, 'name', 'ASC'], ['id', 'ASC']], raw: true, nest: true,
+    order: [
+      [{ model: User, as: 'user' }, 'name', 'ASC'],
+      ['id', 'ASC'],
+    ],
+    raw: true,
+    nest: true,
   })) as unknown as (Pick<InferAttributes<Membership>, 'id'> & { user: { name: string } })[];
   return rows.map((m) => ({ membershipId: m.id, name: m.user.name }));
 }
@@ -144,10 +240,18 @@ export async function listDrawMembers(actor: Actor): Promise<{ membershipId: num
  */
 export async function lastMeterReadings(actor: Actor): Promise<Record<number, number>> {
   const rows = (await Draw.findAll({
-    attributes: ['tankId', 'meterAfter'], where: { coopId: actor.coop.id, meterAfter: { [Op.ne]: null } },
-    order: [['occurredAt', 'DESC'], ['id', 'DESC']], limit: 200, raw: true,
+    attributes: ['tankId', 'meterAfter'],
+    where: { coopId: actor.coop.id, meterAfter: { [Op.ne]: null } },
+    order: [
+      ['occurredAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit: 200,
+    raw: true,
   })) as Pick<InferAttributes<Draw>, 'tankId' | 'meterAfter'>[];
   const out: Record<number, number> = {};
-  for (const r of rows) if (!(r.tankId in out) && r.meterAfter !== null) out[r.tankId] = mlToUnits3(litersToMl(r.meterAfter), actor.coop.units);
+  for (const r of rows)
+    if (!(r.tankId in out) && r.meterAfter !== null)
+      out[r.tankId] = mlToUnits3(litersToMl(r.meterAfter), actor.coop.units);
   return out;
 }

@@ -8,9 +8,12 @@ import { sequelize } from '@/lib/db';
  * draws is DEFERRABLE INITIALLY DEFERRED, so the draw row may follow within the transaction.
  */
 export async function nextDrawId(transaction: Transaction): Promise<number> {
-  const [row] = await sequelize.query<{ id: string }>(`SELECT nextval(pg_get_serial_sequence('draws', 'id'))::text AS id`, {
-    type: QueryTypes.SELECT,
-    transaction,
-  });
+  const [row] = await sequelize.query<{ id: string }>(
+    `SELECT nextval(pg_get_serial_sequence('draws', 'id'))::text AS id`,
+    {
+      type: QueryTypes.SELECT,
+      transaction,
+    },
+  );
   return Number(row!.id);
 }

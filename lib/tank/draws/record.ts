@@ -42,7 +42,8 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
   const units = actor.coop.units;
   let membershipId = input.membershipId;
   if (scope === 'self') {
-    if (membershipId !== undefined && membershipId !== actor.membershipId) throw bad({ membershipId: ['At a self-serve pump you record only your own draws.'] });
+    if (membershipId !== undefined && membershipId !== actor.membershipId)
+      throw bad({ membershipId: ['At a self-serve pump you record only your own draws.'] });
     if (input.occurredAt !== undefined) throw bad({ occurredAt: ['Self-serve draws are recorded as they happen.'] });
     membershipId = actor.membershipId;
   }
@@ -52,32 +53,47 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
     const t = parseInstant(input.occurredAt, actor.coop.timezone);
     if (!t) throw bad({ occurredAt: ['Enter a date and time.'] });
     if (t.getTime() > Date.now() + 5 * 60_000) throw bad({ occurredAt: ['A draw cannot be recorded in the future.'] });
-    if (t.getTime() < Date.now() - 31 * 86_400_000) throw bad({ occurredAt: ['Draws older than 31 days cannot be entered; ask the treasurer for an adjustment.'] });
+    if (t.getTime() < Date.now() - 31 * 86_400_000)
+      throw bad({ occurredAt: ['Draws older than 31 days cannot be entered; ask the treasurer for an adjustment.'] });
     occurredAt = t;
   }
   const qMilli = drawQuantityMilli(input);
   const meterBeforeMl = input.meterBefore !== undefined ? milliUnitsToMl(input.meterBefore, units) : null;
   const meterAfterMl = input.meterAfter !== undefined ? milliUnitsToMl(input.meterAfter, units) : null;
-  let qMl = meterBeforeMl !== null && meterAfterMl !== null ? meterAfterMl - meterBeforeMl : milliUnitsToMl(qMilli, units);
+  let qMl =
+    meterBeforeMl !== null && meterAfterMl !== null ? meterAfterMl - meterBeforeMl : milliUnitsToMl(qMilli, units);
   if (qMl <= 0) throw bad({ quantity: ['Enter a quantity greater than zero.'] });
 
   const id = await inTransaction(async (t) => {
     await expireLapsedReservations(actor.coop.id, t);
-    const member = await Membership.findOne({ attributes: ['id', 'status'], where: { id: membershipId, coopId: actor.coop.id }, transaction: t, raw: true });
+    const member = await Membership.findOne({
+      attributes: ['id', 'status'],
+      where: { id: membershipId, coopId: actor.coop.id },
+      transaction: t,
+      raw: true,
+    });
     if (!member) throw bad({ membershipId: ['No such member in this co-op.'] });
     if (member.status !== 'active') throw bad({ membershipId: ['This member is suspended.'] });
 
     let reservation: Pick<InferAttributes<Reservation>, 'id' | 'quantityLiters'> | null = null;
     if (input.reservationId !== undefined) {
       const r = await Reservation.findOne({
-        attributes: ['id', 'tankId', 'membershipId', 'quantityLiters', 'status'], where: { id: input.reservationId, coopId: actor.coop.id }, lock: t.LOCK.UPDATE, transaction: t, raw: true,
+        attributes: ['id', 'tankId', 'membershipId', 'quantityLiters', 'status'],
+        where: { id: input.reservationId, coopId: actor.coop.id },
+        lock: t.LOCK.UPDATE,
+        transaction: t,
+        raw: true,
       });
-      if (!r || (scope === 'self' && r.membershipId !== actor.membershipId)) throw bad({ reservationId: ['No such reservation in this co-op.'] });
-      if (r.membershipId !== membershipId) throw bad({ reservationId: ['This reservation belongs to another member.'] });
+      if (!r || (scope === 'self' && r.membershipId !== actor.membershipId))
+        throw bad({ reservationId: ['No such reservation in this co-op.'] });
+      if (r.membershipId !== membershipId)
+        throw bad({ reservationId: ['This reservation belongs to another member.'] });
       if (r.tankId !== input.tankId) throw bad({ reservationId: ['This reservation is for another tank.'] });
       if (r.status !== 'open') {
         throw conflict(
-          r.status === 'expired' ? 'This reservation has expired (its window ended). Record the draw as a walk-up instead.' : `This reservation is already ${r.status}.`,
+          r.status === 'expired'
+            ? 'This reservation has expired (its window ended). Record the draw as a walk-up instead.'
+            : `This reservation is already ${r.status}.`,
           { status: r.status },
         );
       }
@@ -94,8 +110,14 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
     if (reservation) {
       const reservedByItMl = litersToMl(reservation.quantityLiters);
       reservedMl -= reservedByItMl;
-      await Tank.decrement({ reservedLiters: reservedByItMl / 1000 }, { where: { id: tank.id, coopId: actor.coop.id }, transaction: t });
-      await Reservation.update({ status: 'drawn', closedAt: new Date() }, { where: { id: reservation.id, coopId: actor.coop.id }, transaction: t });
+      await Tank.decrement(
+        { reservedLiters: reservedByItMl / 1000 },
+        { where: { id: tank.id, coopId: actor.coop.id }, transaction: t },
+      );
+      await Reservation.update(
+        { status: 'drawn', closedAt: new Date() },
+        { where: { id: reservation.id, coopId: actor.coop.id }, transaction: t },
+      );
     }
     // Fuel held while a batch in the tank is under review cannot be drawn.
     const availableMl = onHandMl - reservedMl - litersToMl(tank.heldLiters);
@@ -107,33 +129,84 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
         409,
         `${tank.name} can cover only ${formatMl(availableMl, units, { floor: true, digits: 3 })} ${what} (the rest is reserved by other members${Number(tank.heldLiters) > 0 ? ', held while a batch is under review' : ''} or not in the tank).`,
         { quantity: ['More than is available.'] },
-        { availableLiters: Math.max(0, availableMl) / 1000, available: mlToUnitsFloor(Math.max(0, availableMl), units) },
+        {
+          availableLiters: Math.max(0, availableMl) / 1000,
+          available: mlToUnitsFloor(Math.max(0, availableMl), units),
+        },
       );
     }
 
     const policy = await policyInForce(actor.coop.id, t);
-    if (!policy) throw conflict('No member price is set yet. The treasurer sets the pricing policy before draws can be recorded.');
-    const pricing = priceDraw(policy, units, { onHandMl, valueCents: Number(tank.valueCents) }, qMilli, input.declaredUse);
+    if (!policy)
+      throw conflict('No member price is set yet. The treasurer sets the pricing policy before draws can be recorded.');
+    const pricing = priceDraw(
+      policy,
+      units,
+      { onHandMl, valueCents: Number(tank.valueCents) },
+      qMilli,
+      input.declaredUse,
+    );
 
     const drawId = await nextDrawId(t);
-    const moved = await recordMovement(t, { coopId: actor.coop.id, tankId: tank.id, kind: 'draw', quantityMl: -qMl, drawId, userId: actor.user.id, occurredAt });
+    const moved = await recordMovement(t, {
+      coopId: actor.coop.id,
+      tankId: tank.id,
+      kind: 'draw',
+      quantityMl: -qMl,
+      drawId,
+      userId: actor.user.id,
+      occurredAt,
+    });
     await Draw.create(
       {
-        id: drawId, coopId: actor.coop.id, tankId: tank.id, membershipId, reservationId: reservation?.id ?? null, quantityLiters: mlToLiters(qMl),
-        meterBefore: meterBeforeMl === null ? null : mlToLiters(meterBeforeMl), meterAfter: meterAfterMl === null ? null : mlToLiters(meterAfterMl),
-        declaredUse: input.declaredUse, vehicle: input.vehicle || null, pricePolicyId: policy.id,
-        unitPriceCentsPerGallon: String(pricing.locked.unitPriceCentsPerGallon), surchargeCentsPerGallon: String(pricing.locked.surchargeCentsPerGallon),
+        id: drawId,
+        coopId: actor.coop.id,
+        tankId: tank.id,
+        membershipId,
+        reservationId: reservation?.id ?? null,
+        quantityLiters: mlToLiters(qMl),
+        meterBefore: meterBeforeMl === null ? null : mlToLiters(meterBeforeMl),
+        meterAfter: meterAfterMl === null ? null : mlToLiters(meterAfterMl),
+        declaredUse: input.declaredUse,
+        vehicle: input.vehicle || null,
+        pricePolicyId: policy.id,
+        unitPriceCentsPerGallon: String(pricing.locked.unitPriceCentsPerGallon),
+        surchargeCentsPerGallon: String(pricing.locked.surchargeCentsPerGallon),
         roadTaxCentsPerGallon: String(pricing.locked.roadTaxCentsPerGallon),
-        fuelCents: String(pricing.charge.fuelCents), surchargeCents: String(pricing.charge.surchargeCents), taxCents: String(pricing.charge.taxCents),
-        totalCents: String(pricing.charge.totalCents), costValueCents: String(-moved.valueCents), recordedByUserId: actor.user.id, reason: null, reversesDrawId: null, occurredAt,
+        fuelCents: String(pricing.charge.fuelCents),
+        surchargeCents: String(pricing.charge.surchargeCents),
+        taxCents: String(pricing.charge.taxCents),
+        totalCents: String(pricing.charge.totalCents),
+        costValueCents: String(-moved.valueCents),
+        recordedByUserId: actor.user.id,
+        reason: null,
+        reversesDrawId: null,
+        occurredAt,
       },
       { transaction: t },
     );
-    await audit({
-      coopId: actor.coop.id, actorUserId: actor.user.id, action: 'draw.record', entityType: 'draw', entityId: drawId,
-      before: reservation ? { reservationId: reservation.id, reservationStatus: 'open' } : null,
-      after: { tankId: tank.id, membershipId, quantityLiters: mlToLiters(qMl), declaredUse: input.declaredUse, pricePolicyId: policy.id, perUnit: pricing.perUnit, charge: pricing.charge, costValueCents: -moved.valueCents, movementId: moved.id },
-    }, t);
+    await audit(
+      {
+        coopId: actor.coop.id,
+        actorUserId: actor.user.id,
+        action: 'draw.record',
+        entityType: 'draw',
+        entityId: drawId,
+        before: reservation ? { reservationId: reservation.id, reservationStatus: 'open' } : null,
+        after: {
+          tankId: tank.id,
+          membershipId,
+          quantityLiters: mlToLiters(qMl),
+          declaredUse: input.declaredUse,
+          pricePolicyId: policy.id,
+          perUnit: pricing.perUnit,
+          charge: pricing.charge,
+          costValueCents: -moved.valueCents,
+          movementId: moved.id,
+        },
+      },
+      t,
+    );
     return drawId;
   });
   return getDraw(actor, id);

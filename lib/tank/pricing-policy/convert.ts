@@ -1,5 +1,12 @@
 import { formatRateCents, roundHalfUp } from '@/lib/money';
-import { drawCharge, memberPriceCentsPerGallon, type DeclaredUse, type DrawCharge, type PriceBreakdown, type PricingPolicy } from '@/lib/pricing';
+import {
+  drawCharge,
+  memberPriceCentsPerGallon,
+  type DeclaredUse,
+  type DrawCharge,
+  type PriceBreakdown,
+  type PricingPolicy,
+} from '@/lib/pricing';
 import { LITERS_PER_US_GALLON, volumeLabel, type UnitSystem } from '@/lib/units';
 import { mlToUnits } from '@/lib/tank/volume';
 
@@ -56,9 +63,17 @@ export function policyInUnits(row: PolicyRow, units: UnitSystem): PricingPolicy 
   };
   switch (row.kind) {
     case 'fixed':
-      return { kind: 'fixed', priceCents: roundHalfUp(perGallonToPerUnit(row.price_cents_per_gallon ?? 0, units)), ...extras };
+      return {
+        kind: 'fixed',
+        priceCents: roundHalfUp(perGallonToPerUnit(row.price_cents_per_gallon ?? 0, units)),
+        ...extras,
+      };
     case 'cost-plus-amount':
-      return { kind: 'cost-plus-amount', marginCents: roundHalfUp(perGallonToPerUnit(row.margin_cents_per_gallon ?? 0, units)), ...extras };
+      return {
+        kind: 'cost-plus-amount',
+        marginCents: roundHalfUp(perGallonToPerUnit(row.margin_cents_per_gallon ?? 0, units)),
+        ...extras,
+      };
     case 'cost-plus-percent':
       return { kind: 'cost-plus-percent', marginPct: Number(row.margin_pct ?? 0), ...extras };
   }
@@ -119,11 +134,15 @@ export function formatRate(cents: number, currency = 'USD'): string {
 export function describePolicy(p: PricingPolicy, units: UnitSystem, currency = 'USD'): string {
   const per = `/${volumeLabel(units)}`;
   const base =
-    p.kind === 'fixed' ? `Fixed ${formatRateCents(p.priceCents, currency)}${per}`
-    : p.kind === 'cost-plus-amount' ? `Average cost + ${formatRateCents(p.marginCents, currency)}${per}`
-    : `Average cost + ${Number(p.marginPct.toFixed(2))}%`;
+    p.kind === 'fixed'
+      ? `Fixed ${formatRateCents(p.priceCents, currency)}${per}`
+      : p.kind === 'cost-plus-amount'
+        ? `Average cost + ${formatRateCents(p.marginCents, currency)}${per}`
+        : `Average cost + ${Number(p.marginPct.toFixed(2))}%`;
   const parts = [base];
-  if (p.surchargeCentsPerGallon) parts.push(`reserve surcharge ${formatRate(p.surchargeCentsPerGallon, currency)}${per}`);
-  if (p.roadTaxCentsPerGallon) parts.push(`road tax ${formatRate(p.roadTaxCentsPerGallon, currency)}${per} (road use only)`);
+  if (p.surchargeCentsPerGallon)
+    parts.push(`reserve surcharge ${formatRate(p.surchargeCentsPerGallon, currency)}${per}`);
+  if (p.roadTaxCentsPerGallon)
+    parts.push(`road tax ${formatRate(p.roadTaxCentsPerGallon, currency)}${per} (road use only)`);
   return parts.join(' · ');
 }

@@ -33,8 +33,13 @@ export async function expireLapsedReservations(coopId: number, transaction: Tran
   }
   await AuditEvent.bulkCreate(
     expired.map((r) => ({
-      coopId, actorUserId: null, action: 'reservation.expire', entityType: 'reservation', entityId: String(r.id),
-      before: { status: 'open' }, after: { status: 'expired', quantityLiters: r.quantityLiters },
+      coopId,
+      actorUserId: null,
+      action: 'reservation.expire',
+      entityType: 'reservation',
+      entityId: String(r.id),
+      before: { status: 'open' },
+      after: { status: 'expired', quantityLiters: r.quantityLiters },
     })),
     { transaction },
   );
@@ -48,5 +53,11 @@ export async function expireLapsedReservations(coopId: number, transaction: Tran
  * reserved until the next write or the scheduled expiry, which only ever refuses, never oversells.
  */
 export async function hasLapsedReservations(coopId: number): Promise<boolean> {
-  return (await Reservation.findOne({ attributes: ['id'], where: { coopId, status: 'open', windowEnd: { [Op.lt]: fn('now') } }, raw: true })) !== null;
+  return (
+    (await Reservation.findOne({
+      attributes: ['id'],
+      where: { coopId, status: 'open', windowEnd: { [Op.lt]: fn('now') } },
+      raw: true,
+    })) !== null
+  );
 }

@@ -45,44 +45,100 @@ function notEnough(actor: Actor, tankName: string, requestedMl: number, availabl
  * Lapsed reservations of the co-op are marked expired first (in their own transaction, only when
  * there are any), so the fuel they held can be reserved again.
  */
-export async function createReservation(actor: Actor, input: z.infer<typeof reservationCreateSchema>): Promise<ReservationDto> {
+export async function createReservation(
+  actor: Actor,
+  input: z.infer<typeof reservationCreateSchema>,
+): Promise<ReservationDto> {
   const units = actor.coop.units;
   const coopId = actor.coop.id;
   const window = reservationWindow(input.windowStart, input.windowEnd, actor.coop.timezone);
   if (!window.ok) throw new HttpError(422, 'Some fields need attention.', window.fields);
   const qMl = milliUnitsToMl(input.quantity, units);
-  if (qMl <= 0) throw new HttpError(422, 'Some fields need attention.', { quantity: ['Enter a quantity greater than zero.'] });
-  const auditAfter = (liters: string) => ({ tankId: input.tankId, membershipId: actor.membershipId, quantityLiters: liters, windowStart: window.start, windowEnd: window.end });
+  if (qMl <= 0)
+    throw new HttpError(422, 'Some fields need attention.', { quantity: ['Enter a quantity greater than zero.'] });
+  const auditAfter = (liters: string) => ({
+    tankId: input.tankId,
+    membershipId: actor.membershipId,
+    quantityLiters: liters,
+    windowStart: window.start,
+    windowEnd: window.end,
+  });
   // The common case in one statement (guarded update, reservation, audit); lapsed reservations
   // are expired first only when there are any.
   if (await hasLapsedReservations(coopId)) await inTransaction((t) => expireLapsedReservations(coopId, t));
   const fast = await reserveFuel({
-    coopId, tankId: input.tankId, membershipId: actor.membershipId, userId: actor.user.id, liters: mlToLiters(qMl),
-    windowStart: window.start, windowEnd: window.end, audit: auditAfter(mlToLiters(qMl)),
+    coopId,
+    tankId: input.tankId,
+    membershipId: actor.membershipId,
+    userId: actor.user.id,
+    liters: mlToLiters(qMl),
+    windowStart: window.start,
+    windowEnd: window.end,
+    audit: auditAfter(mlToLiters(qMl)),
   });
   // Refused: find out why under the tank's lock; within the rounding crumb, take what is there.
-  const created = fast ? { id: fast.id, createdAt: fast.createdAt, tankName: fast.tankName, liters: mlToLiters(qMl) } : await inTransaction(async (transaction) => {
-    const cur = await Tank.findOne({
-      attributes: ['name', 'active', 'onHandLiters', 'reservedLiters', 'heldLiters'], where: { id: input.tankId, coopId }, lock: transaction.LOCK.UPDATE, transaction, raw: true,
-    });
-    if (!cur || !cur.active) throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s tanks that is in service.'] });
-    // Fuel of a batch under review is held: not available to reserve.
-    const availableMl = litersToMl(cur.onHandLiters) - litersToMl(cur.reservedLiters) - litersToMl(cur.heldLiters);
-    if (availableMl <= 0 || qMl - availableMl > roundingCrumbMl(units)) throw notEnough(actor, cur.name, qMl, availableMl);
-    const liters = mlToLiters(Math.min(qMl, availableMl));
-    const tank = await addReservedLiters(coopId, input.tankId, liters, transaction);
-    if (!tank) throw notEnough(actor, cur.name, qMl, availableMl);
-    const r = await Reservation.create(
-      { coopId, tankId: tank.id, membershipId: actor.membershipId, quantityLiters: liters, windowStart: window.start, windowEnd: window.end },
-      { transaction },
-    );
-    await audit({ coopId, actorUserId: actor.user.id, action: 'reservation.create', entityType: 'reservation', entityId: r.id, after: auditAfter(liters) }, transaction);
-    return { id: r.id, createdAt: r.createdAt, tankName: tank.name, liters };
-  });
-  return resDto({
-    id: created.id, tankId: input.tankId, membershipId: actor.membershipId, quantityLiters: created.liters, windowStart: window.start, windowEnd: window.end,
-    status: 'open', closedAt: null, createdAt: created.createdAt, tank: { name: created.tankName }, membership: { user: { name: actor.user.name } }, draw: { id: null },
-  }, actor);
+  const created = fast
+    ? { id: fast.id, createdAt: fast.createdAt, tankName: fast.tankName, liters: mlToLiters(qMl) }
+    : await inTransaction(async (transaction) => {
+        const cur = await Tank.findOne({
+          attributes: ['name', 'active', 'onHandLiters', 'reservedLiters', 'heldLiters'],
+          where: { id: input.tankId, coopId },
+          lock: transaction.LOCK.UPDATE,
+          transaction,
+          raw: true,
+        });
+        if (!cur || !cur.active)
+          throw new HttpError(422, 'Some fields need attention.', {
+            tankId: ['Choose one of the co-op’s tanks that is in service.'],
+          });
+        // Fuel of a batch under review is held: not available to reserve.
+        const availableMl = litersToMl(cur.onHandLiters) - litersToMl(cur.reservedLiters) - litersToMl(cur.heldLiters);
+        if (availableMl <= 0 || qMl - availableMl > roundingCrumbMl(units))
+          throw notEnough(actor, cur.name, qMl, availableMl);
+        const liters = mlToLiters(Math.min(qMl, availableMl));
+        const tank = await addReservedLiters(coopId, input.tankId, liters, transaction);
+        if (!tank) throw notEnough(actor, cur.name, qMl, availableMl);
+        const r = await Reservation.create(
+          {
+            coopId,
+            tankId: tank.id,
+            membershipId: actor.membershipId,
+            quantityLiters: liters,
+            windowStart: window.start,
+            windowEnd: window.end,
+          },
+          { transaction },
+        );
+        await audit(
+          {
+            coopId,
+            actorUserId: actor.user.id,
+            action: 'reservation.create',
+            entityType: 'reservation',
+            entityId: r.id,
+            after: auditAfter(liters),
+          },
+          transaction,
+        );
+        return { id: r.id, createdAt: r.createdAt, tankName: tank.name, liters };
+      });
+  return resDto(
+    {
+      id: created.id,
+      tankId: input.tankId,
+      membershipId: actor.membershipId,
+      quantityLiters: created.liters,
+      windowStart: window.start,
+      windowEnd: window.end,
+      status: 'open',
+      closedAt: null,
+      createdAt: created.createdAt,
+      tank: { name: created.tankName },
+      membership: { user: { name: actor.user.name } },
+      draw: { id: null },
+    },
+    actor,
+  );
 }
 
 /**
@@ -94,18 +150,48 @@ export async function cancelReservation(actor: Actor, reservationId: number): Pr
   await inTransaction(async (transaction) => {
     await expireLapsedReservations(coopId, transaction);
     const r = await Reservation.findOne({
-      attributes: ['id', 'tankId', 'membershipId', 'quantityLiters', 'status'], where: { id: reservationId, coopId }, lock: transaction.LOCK.UPDATE, transaction, raw: true,
+      attributes: ['id', 'tankId', 'membershipId', 'quantityLiters', 'status'],
+      where: { id: reservationId, coopId },
+      lock: transaction.LOCK.UPDATE,
+      transaction,
+      raw: true,
     });
-    if (!r || (r.membershipId !== actor.membershipId && !can(actor.role, 'draws:record'))) throw notFound('Reservation not found.');
-    if (r.status !== 'open') throw conflict(`This reservation is already ${r.status}; only an open reservation can be cancelled.`, { status: r.status });
-    await Reservation.update({ status: 'cancelled', closedAt: new Date() }, { where: { id: r.id, coopId }, transaction });
-    await Tank.decrement({ reservedLiters: litersToMl(r.quantityLiters) / 1000 }, { where: { id: r.tankId, coopId }, transaction });
-    await audit({ coopId, actorUserId: actor.user.id, action: 'reservation.cancel', entityType: 'reservation', entityId: r.id, before: { status: 'open' }, after: { status: 'cancelled', quantityLiters: r.quantityLiters } }, transaction);
+    if (!r || (r.membershipId !== actor.membershipId && !can(actor.role, 'draws:record')))
+      throw notFound('Reservation not found.');
+    if (r.status !== 'open')
+      throw conflict(`This reservation is already ${r.status}; only an open reservation can be cancelled.`, {
+        status: r.status,
+      });
+    await Reservation.update(
+      { status: 'cancelled', closedAt: new Date() },
+      { where: { id: r.id, coopId }, transaction },
+    );
+    await Tank.decrement(
+      { reservedLiters: litersToMl(r.quantityLiters) / 1000 },
+      { where: { id: r.tankId, coopId }, transaction },
+    );
+    await audit(
+      {
+        coopId,
+        actorUserId: actor.user.id,
+        action: 'reservation.cancel',
+        entityType: 'reservation',
+        entityId: r.id,
+        before: { status: 'open' },
+        after: { status: 'cancelled', quantityLiters: r.quantityLiters },
+      },
+      transaction,
+    );
   });
   return getReservation(actor, reservationId);
 }
 
-const RES_SORT = { created_at: 'createdAt', window_end: 'windowEnd', quantity: 'quantityLiters', status: 'status' } as const;
+const RES_SORT = {
+  created_at: 'createdAt',
+  window_end: 'windowEnd',
+  quantity: 'quantityLiters',
+  status: 'status',
+} as const;
 
 /** An open reservation whose window has ended counts as expired, whether or not a write has marked it yet. */
 const LAPSED = { status: 'open', windowEnd: { [Op.lt]: fn('now') } } as const;
@@ -118,18 +204,45 @@ function statusWhere(status: ReservationStatus): WhereOptions<Reservation> {
 }
 
 /** A reservation as the lists read it (raw, nested includes). */
-type ResListRow = Pick<InferAttributes<Reservation>, 'id' | 'tankId' | 'membershipId' | 'quantityLiters' | 'windowStart' | 'windowEnd' | 'status' | 'closedAt' | 'createdAt'> & {
+type ResListRow = Pick<
+  InferAttributes<Reservation>,
+  | 'id'
+  | 'tankId'
+  | 'membershipId'
+  | 'quantityLiters'
+  | 'windowStart'
+  | 'windowEnd'
+  | 'status'
+  | 'closedAt'
+  | 'createdAt'
+> & {
   tank: { name: string };
   membership: { user: { name: string } };
   draw: { id: number | null };
 };
 
-const RES_ATTRIBUTES = ['id', 'tankId', 'membershipId', 'quantityLiters', 'windowStart', 'windowEnd', 'status', 'closedAt', 'createdAt'] as const;
+const RES_ATTRIBUTES = [
+  'id',
+  'tankId',
+  'membershipId',
+  'quantityLiters',
+  'windowStart',
+  'windowEnd',
+  'status',
+  'closedAt',
+  'createdAt',
+] as const;
 
 /** Tank name, member name, and the draw that closed it (not a reversal), in the same query. */
 const resInclude = (coopId: number) => [
   { model: Tank, as: 'tank', attributes: ['name'], where: { coopId }, required: true },
-  { model: Membership, as: 'membership', attributes: [], required: true, include: [{ model: User, as: 'user', attributes: ['name'], required: true }] },
+  {
+    model: Membership,
+    as: 'membership',
+    attributes: [],
+    required: true,
+    include: [{ model: User, as: 'user', attributes: ['name'], required: true }],
+  },
   { model: Draw, as: 'draw', attributes: ['id'], where: { coopId, reversesDrawId: null }, required: false },
 ];
 
@@ -138,7 +251,11 @@ const resInclude = (coopId: number) => [
  * and admins (draws:read-all) see everyone's and may filter by member. A lapsed reservation is
  * shown (and filtered) as expired; the read writes nothing.
  */
-export async function listReservations(actor: Actor, q: z.infer<typeof reservationListSchema>, opts: { own?: boolean } = {}) {
+export async function listReservations(
+  actor: Actor,
+  q: z.infer<typeof reservationListSchema>,
+  opts: { own?: boolean } = {},
+) {
   const own = opts.own || !can(actor.role, 'draws:read-all');
   const tz = actor.coop.timezone;
   const conds: WhereOptions<Reservation>[] = [{ coopId: actor.coop.id }];
@@ -154,8 +271,17 @@ export async function listReservations(actor: Actor, q: z.infer<typeof reservati
   const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
   const [rows, total] = await Promise.all([
     Reservation.findAll({
-      attributes: [...RES_ATTRIBUTES], where, include: resInclude(actor.coop.id),
-      order: [[RES_SORT[q.sort as keyof typeof RES_SORT], dir], ['id', 'DESC']], limit: q.pageSize, offset: (q.page - 1) * q.pageSize, raw: true, nest: true,
+      attributes: [...RES_ATTRIBUTES],
+      where,
+      include: resInclude(actor.coop.id),
+      order: [
+        [RES_SORT[q.sort as keyof typeof RES_SORT], dir],
+        ['id', 'DESC'],
+      ],
+      limit: q.pageSize,
+      offset: (q.page - 1) * q.pageSize,
+      raw: true,
+      nest: true,
     }) as unknown as Promise<ResListRow[]>,
     Reservation.count({ where }),
   ]);
@@ -165,9 +291,14 @@ export async function listReservations(actor: Actor, q: z.infer<typeof reservati
 /** One reservation (own, or anyone's for draws:read-all roles); 404 otherwise. */
 export async function getReservation(actor: Actor, id: number): Promise<ReservationDto> {
   const row = (await Reservation.findOne({
-    attributes: [...RES_ATTRIBUTES], where: { id, coopId: actor.coop.id }, include: resInclude(actor.coop.id), raw: true, nest: true,
+    attributes: [...RES_ATTRIBUTES],
+    where: { id, coopId: actor.coop.id },
+    include: resInclude(actor.coop.id),
+    raw: true,
+    nest: true,
   })) as unknown as ResListRow | null;
-  if (!row || (row.membershipId !== actor.membershipId && !can(actor.role, 'draws:read-all'))) throw notFound('Reservation not found.');
+  if (!row || (row.membershipId !== actor.membershipId && !can(actor.role, 'draws:read-all')))
+    throw notFound('Reservation not found.');
   return resDto(row, actor);
 }
 
@@ -177,9 +308,18 @@ function resDto(r: ResListRow, actor: Actor): ReservationDto {
   // Lapsed but not yet marked: shown as what it is (expired when its window ended).
   const lapsed = r.status === 'open' && new Date(r.windowEnd).getTime() < Date.now();
   return {
-    id: r.id, tankId: r.tankId, tankName: r.tank.name, membershipId: r.membershipId, memberName: r.membership.user.name,
-    quantityLiters: qMl / 1000, quantity: mlToUnits3(qMl, actor.coop.units),
-    windowStart: iso(r.windowStart)!, windowEnd: iso(r.windowEnd)!, status: lapsed ? 'expired' : r.status,
-    closedAt: lapsed ? iso(r.windowEnd) : iso(r.closedAt), createdAt: iso(r.createdAt)!, drawId: r.draw?.id ?? null,
+    id: r.id,
+    tankId: r.tankId,
+    tankName: r.tank.name,
+    membershipId: r.membershipId,
+    memberName: r.membership.user.name,
+    quantityLiters: qMl / 1000,
+    quantity: mlToUnits3(qMl, actor.coop.units),
+    windowStart: iso(r.windowStart)!,
+    windowEnd: iso(r.windowEnd)!,
+    status: lapsed ? 'expired' : r.status,
+    closedAt: lapsed ? iso(r.windowEnd) : iso(r.closedAt),
+    createdAt: iso(r.createdAt)!,
+    drawId: r.draw?.id ?? null,
   };
 }

@@ -4,7 +4,10 @@ import { sequelize } from '@/lib/db';
 import type { Reservation, Tank } from '@/models';
 
 /** What the guarded update answers: the tank's name and totals after adding the reservation. */
-export type ReservedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'onHandLiters' | 'reservedLiters' | 'heldLiters'>;
+export type ReservedTank = Pick<
+  InferAttributes<Tank>,
+  'id' | 'name' | 'onHandLiters' | 'reservedLiters' | 'heldLiters'
+>;
 
 /**
  * Adds `liters` to a tank's reserved total only while the tank is the co-op's, in service, and
@@ -16,7 +19,12 @@ export type ReservedTank = Pick<InferAttributes<Tank>, 'id' | 'name' | 'onHandLi
  * @param liters NUMERIC text, e.g. "47.318"
  * @returns the updated tank, or null when the guard refused (nothing written)
  */
-export async function addReservedLiters(coopId: number, tankId: number, liters: string, transaction: Transaction): Promise<ReservedTank | null> {
+export async function addReservedLiters(
+  coopId: number,
+  tankId: number,
+  liters: string,
+  transaction: Transaction,
+): Promise<ReservedTank | null> {
   const rows = await sequelize.query<ReservedTank>(
     `UPDATE tanks SET reserved_liters = reserved_liters + $liters::numeric, updated_at = now()
      WHERE id = $tankId AND coop_id = $coopId AND active AND on_hand_liters - reserved_liters - held_liters >= $liters::numeric
@@ -39,7 +47,14 @@ export type NewReservation = Pick<InferAttributes<Reservation>, 'id' | 'createdA
  * @returns the new reservation, or null when the guard refused (nothing written)
  */
 export async function reserveFuel(r: {
-  coopId: number; tankId: number; membershipId: number; userId: number; liters: string; windowStart: Date; windowEnd: Date; audit: object;
+  coopId: number;
+  tankId: number;
+  membershipId: number;
+  userId: number;
+  liters: string;
+  windowStart: Date;
+  windowEnd: Date;
+  audit: object;
 }): Promise<NewReservation | null> {
   const rows = await sequelize.query<NewReservation>(
     `WITH t AS (
@@ -55,8 +70,16 @@ export async function reserveFuel(r: {
        SELECT $coopId, $userId, 'reservation.create', 'reservation', r.id::text, $audit::jsonb, now() FROM r)
      SELECT r.id, r.created_at AS "createdAt", t.name AS "tankName" FROM r, t`,
     {
-      bind: { coopId: r.coopId, tankId: r.tankId, membershipId: r.membershipId, userId: r.userId, liters: r.liters,
-        windowStart: r.windowStart.toISOString(), windowEnd: r.windowEnd.toISOString(), audit: JSON.stringify(r.audit) },
+      bind: {
+        coopId: r.coopId,
+        tankId: r.tankId,
+        membershipId: r.membershipId,
+        userId: r.userId,
+        liters: r.liters,
+        windowStart: r.windowStart.toISOString(),
+        windowEnd: r.windowEnd.toISOString(),
+        audit: JSON.stringify(r.audit),
+      },
       type: QueryTypes.SELECT,
     },
   );

@@ -7,9 +7,7 @@ import { zonedToUtc } from '@/lib/dates';
  * Z or an offset is taken as is.
  */
 
-export type WindowResult =
-  | { ok: true; start: Date; end: Date }
-  | { ok: false; fields: Record<string, string[]> };
+export type WindowResult = { ok: true; start: Date; end: Date } | { ok: false; fields: Record<string, string[]> };
 
 /** Longest window a member may hold fuel for. */
 export const MAX_WINDOW_DAYS = 60;
@@ -41,7 +39,14 @@ export function parseWindowEdge(text: string, timeZone: string, endOfDay: boolea
   }
   m = LOCAL.exec(s);
   if (m) {
-    const [y, mo, d, h, mi, sec] = [Number(m[1]), Number(m[2]), Number(m[3]), Number(m[4]), Number(m[5]), Number(m[6] ?? 0)];
+    const [y, mo, d, h, mi, sec] = [
+      Number(m[1]),
+      Number(m[2]),
+      Number(m[3]),
+      Number(m[4]),
+      Number(m[5]),
+      Number(m[6] ?? 0),
+    ];
     if (!validDay(y, mo, d) || h > 23 || mi > 59 || sec > 59) return null;
     return new Date(zonedToUtc(y, mo, d, h, mi, timeZone).getTime() + sec * 1000);
   }
@@ -56,7 +61,12 @@ export function parseWindowEdge(text: string, timeZone: string, endOfDay: boolea
  * The reservation window, or the field errors a form shows: each end must be a date, the end
  * must come after the start and after now, and the window may not exceed {@link MAX_WINDOW_DAYS}.
  */
-export function reservationWindow(startText: string, endText: string, timeZone: string, now = new Date()): WindowResult {
+export function reservationWindow(
+  startText: string,
+  endText: string,
+  timeZone: string,
+  now = new Date(),
+): WindowResult {
   const fields: Record<string, string[]> = {};
   const start = parseWindowEdge(startText, timeZone, false);
   const end = parseWindowEdge(endText, timeZone, true);
@@ -64,8 +74,10 @@ export function reservationWindow(startText: string, endText: string, timeZone: 
   if (!end) fields.windowEnd = ['Enter an end date such as 2026-12-05.'];
   if (start && end) {
     if (end.getTime() <= start.getTime()) fields.windowEnd = ['The window must end after it starts.'];
-    else if (end.getTime() <= now.getTime()) fields.windowEnd = ['That window has already ended; pick a later end date.'];
-    else if (end.getTime() - start.getTime() > MAX_WINDOW_DAYS * 86_400_000) fields.windowEnd = [`A reservation can run at most ${MAX_WINDOW_DAYS} days.`];
+    else if (end.getTime() <= now.getTime())
+      fields.windowEnd = ['That window has already ended; pick a later end date.'];
+    else if (end.getTime() - start.getTime() > MAX_WINDOW_DAYS * 86_400_000)
+      fields.windowEnd = [`A reservation can run at most ${MAX_WINDOW_DAYS} days.`];
   }
   if (Object.keys(fields).length > 0 || !start || !end) return { ok: false, fields };
   return { ok: true, start, end };

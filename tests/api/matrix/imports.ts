@@ -5,7 +5,14 @@ const kind = { kind: 'invitations' };
 export const routes: RouteSpec[] = [
   { method: 'GET', path: '/api/coops/[coop]/imports', scope: 'coop', allow: ADMINS },
   { method: 'POST', path: '/api/coops/[coop]/imports/[kind]', scope: 'coop', allow: ADMINS, body: {}, params: kind },
-  { method: 'POST', path: '/api/coops/[coop]/imports/[kind]/preview', scope: 'coop', allow: ADMINS, body: {}, params: kind },
+  {
+    method: 'POST',
+    path: '/api/coops/[coop]/imports/[kind]/preview',
+    scope: 'coop',
+    allow: ADMINS,
+    body: {},
+    params: kind,
+  },
   { method: 'GET', path: '/api/coops/[coop]/imports/[kind]/template', scope: 'coop', allow: ADMINS, params: kind },
   { method: 'GET', path: '/api/coops/[coop]/imports/[kind]/[id]', scope: 'coop', allow: ADMINS, params: kind },
   { method: 'GET', path: '/api/coops/[coop]/imports/[kind]/[id]/result', scope: 'coop', allow: ADMINS, params: kind },

@@ -19,7 +19,14 @@ export const routes: RouteSpec[] = [
   { method: 'POST', path: '/api/coops/[coop]/reservations/[reservationId]/cancel', scope: 'coop', allow: ALL },
   { method: 'GET', path: '/api/coops/[coop]/draws', scope: 'coop', allow: ALL },
   // Members may record their own draws only where the co-op has a self-serve pump; the matrix co-op has none.
-  { method: 'POST', path: '/api/coops/[coop]/draws', scope: 'coop', allow: BREWERS, body: {}, note: 'member → 403 unless settings.selfServeDraws' },
+  {
+    method: 'POST',
+    path: '/api/coops/[coop]/draws',
+    scope: 'coop',
+    allow: BREWERS,
+    body: {},
+    note: 'member → 403 unless settings.selfServeDraws',
+  },
   { method: 'POST', path: '/api/coops/[coop]/draws/[drawId]/reverse', scope: 'coop', allow: BREWERS, body: {} },
   // Bench-only (bench/tank.mjs): a 404 unless the server runs with TALLYVAT_BENCH=1, as it never does in tests.
   { method: 'GET', path: '/api/bench/tank-query', scope: 'public', note: '404 outside benchmarks' },

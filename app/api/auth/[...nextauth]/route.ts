@@ -21,8 +21,13 @@ export async function POST(req: Request, ctx: { params: Promise<{ nextauth: stri
   const { nextauth } = await ctx.params;
   if (nextauth.join('/') !== 'callback/credentials') return nextAuth(req, ctx);
 
-  const form = await req.clone().formData().catch(() => null);
-  const email = String(form?.get('email') ?? '').trim().toLowerCase();
+  const form = await req
+    .clone()
+    .formData()
+    .catch(() => null);
+  const email = String(form?.get('email') ?? '')
+    .trim()
+    .toLowerCase();
   const deviceId = email ? knownDevice(req.headers.get('cookie'), email) : null;
   if (email) {
     const wait = await signInWaitSeconds({ email, address: clientAddress(req.headers), deviceId });
@@ -37,6 +42,13 @@ export async function POST(req: Request, ctx: { params: Promise<{ nextauth: stri
   const signedIn = res.headers.getSetCookie().some((c) => /session-token=[^;]/.test(c));
   if (!email || !signedIn) return res;
   const headers = new Headers(res.headers);
-  headers.append('set-cookie', knownDeviceCookie(email, deviceId, new URL(req.url).protocol === 'https:' || (process.env.NEXTAUTH_URL ?? '').startsWith('https:')));
+  headers.append(
+    'set-cookie',
+    knownDeviceCookie(
+      email,
+      deviceId,
+      new URL(req.url).protocol === 'https:' || (process.env.NEXTAUTH_URL ?? '').startsWith('https:'),
+    ),
+  );
   return new Response(res.body, { status: res.status, statusText: res.statusText, headers });
 }

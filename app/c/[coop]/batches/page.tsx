@@ -12,7 +12,13 @@ export const metadata: Metadata = { title: 'Batches' };
 
 const FILTERS = ['', 'planned', 'in-progress', 'testing', 'released', 'rejected'] as const;
 
-export default async function BatchesPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
+export default async function BatchesPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ coop: string }>;
+  searchParams: Promise<Record<string, string>>;
+}) {
   const { coop } = await params;
   const actor = await requirePageActor(coop, 'batches:read-released', `/c/${coop}/batches`);
   const sp = await searchParams;
@@ -35,11 +41,16 @@ export default async function BatchesPage({ params, searchParams }: { params: Pr
         <div>
           <h1>Batches</h1>
           <p className="text-sm text-stone-600">
-            {all ? 'Every batch from plan to tank, with its cost and quality.' : 'Batches released to the tank, with their quality results.'}
+            {all
+              ? 'Every batch from plan to tank, with its cost and quality.'
+              : 'Batches released to the tank, with their quality results.'}
           </p>
         </div>
         {can(actor.role, 'batches:write') ? (
-          <Link href={`/c/${actor.coop.slug}/planner`} className="inline-flex min-h-11 items-center rounded-lg bg-fir-700 px-4 py-2 text-sm font-semibold text-white no-underline hover:bg-fir-800">
+          <Link
+            href={`/c/${actor.coop.slug}/planner`}
+            className="inline-flex min-h-11 items-center rounded-lg bg-fir-700 px-4 py-2 text-sm font-semibold text-white no-underline hover:bg-fir-800"
+          >
             Plan a batch
           </Link>
         ) : null}
@@ -64,13 +75,31 @@ export default async function BatchesPage({ params, searchParams }: { params: Pr
           </ul>
         </nav>
       ) : null}
-      {!parsed.success ? <p className="text-sm text-warn-700">That filter or sort is not available; showing all batches.</p> : null}
+      {!parsed.success ? (
+        <p className="text-sm text-warn-700">That filter or sort is not available; showing all batches.</p>
+      ) : null}
       {total === 0 && !q.status ? (
         <EmptyState title={all ? 'No batches yet' : 'No released batches yet'}>
-          {all ? <>Start with the <Link className="underline" href={`/c/${actor.coop.slug}/planner`}>planner</Link>: oil volume and titration in, chemicals and cost out.</> : 'When the brewers release a batch into the tank it appears here with its quality results.'}
+          {all ? (
+            <>
+              Start with the{' '}
+              <Link className="underline" href={`/c/${actor.coop.slug}/planner`}>
+                planner
+              </Link>
+              : oil volume and titration in, chemicals and cost out.
+            </>
+          ) : (
+            'When the brewers release a batch into the tank it appears here with its quality results.'
+          )}
         </EmptyState>
       ) : (
-        <BatchTable rows={rows} slug={actor.coop.slug} units={actor.coop.units} currency={actor.coop.currency} pageInfo={{ page, pageSize, total }} />
+        <BatchTable
+          rows={rows}
+          slug={actor.coop.slug}
+          units={actor.coop.units}
+          currency={actor.coop.currency}
+          pageInfo={{ page, pageSize, total }}
+        />
       )}
       <p className="text-xs text-stone-600">{SCREENING_CAUTION}</p>
     </div>

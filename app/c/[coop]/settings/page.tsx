@@ -12,7 +12,9 @@ export default async function SettingsPage({ params }: { params: Promise<{ coop:
     <div className="flex max-w-3xl flex-col gap-5">
       <div>
         <h1>Co-op settings</h1>
-        <p className="text-stone-600">Units, time zone, dues and the planner’s recipe defaults. Every change is kept in the audit log.</p>
+        <p className="text-stone-600">
+          Units, time zone, dues and the planner’s recipe defaults. Every change is kept in the audit log.
+        </p>
       </div>
       <SettingsForm initial={settings} />
     </div>

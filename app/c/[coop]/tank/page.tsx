@@ -18,7 +18,13 @@ export const metadata = { title: 'Tank' };
 type SP = Promise<Record<string, string | string[] | undefined>>;
 
 /** The tank page: live gauges for everyone; ledger for brewers, treasurers and admins; dip, transfer and tank settings for brewers and admins. */
-export default async function TankPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: SP }) {
+export default async function TankPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ coop: string }>;
+  searchParams: SP;
+}) {
   const { coop } = await params;
   const sp = await searchParams;
   const actor = await requirePageActor(coop, 'tank:read');
@@ -40,7 +46,10 @@ export default async function TankPage({ params, searchParams }: { params: Promi
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1>Tank</h1>
-          <p className="text-stone-600">What is in the co-op’s tanks, what members have reserved, and what is free to reserve. Figures refresh every few seconds.</p>
+          <p className="text-stone-600">
+            What is in the co-op’s tanks, what members have reserved, and what is free to reserve. Figures refresh every
+            few seconds.
+          </p>
         </div>
         <nav aria-label="Tank pages" className="flex flex-wrap gap-3 text-sm">
           <Link href={`/c/${slug}/me`}>Reserve fuel</Link>
@@ -50,29 +59,67 @@ export default async function TankPage({ params, searchParams }: { params: Promi
       </div>
 
       <section aria-labelledby="levels">
-        <h2 id="levels" className="sr-only">Tank levels</h2>
+        <h2 id="levels" className="sr-only">
+          Tank levels
+        </h2>
         <LiveTanks coopSlug={slug} initial={{ tanks, units }} currency={currency} timeZone={timezone} />
       </section>
 
       <Card title="Member price">
         {policy ? (
-          <p>{policy.description}. <Link className="underline" href={`/c/${slug}/tank/pricing`}>See the history</Link>.</p>
+          <p>
+            {policy.description}.{' '}
+            <Link className="underline" href={`/c/${slug}/tank/pricing`}>
+              See the history
+            </Link>
+            .
+          </p>
         ) : (
-          <p className="text-stone-700">No price set yet{can(actor.role, 'pricing:write') ? <>: <Link className="underline" href={`/c/${slug}/tank/pricing`}>set the pricing policy</Link> before draws are recorded</> : '; the treasurer sets it'}.</p>
+          <p className="text-stone-700">
+            No price set yet
+            {can(actor.role, 'pricing:write') ? (
+              <>
+                :{' '}
+                <Link className="underline" href={`/c/${slug}/tank/pricing`}>
+                  set the pricing policy
+                </Link>{' '}
+                before draws are recorded
+              </>
+            ) : (
+              '; the treasurer sets it'
+            )}
+            .
+          </p>
         )}
       </Card>
 
       {layers.length ? (
         <section aria-label="Fuel by batch" className="grid gap-6 lg:grid-cols-2">
-          {layers.map((l) => <TankLayers key={l.tankId} data={l} base={`/c/${slug}`} canWrite={mayWrite} />)}
+          {layers.map((l) => (
+            <TankLayers key={l.tankId} data={l} base={`/c/${slug}`} canWrite={mayWrite} />
+          ))}
         </section>
       ) : null}
 
       {mayWrite ? (
         <div className="grid gap-6 lg:grid-cols-2">
-          {active.length > 0 ? <Card title="Record a dip reading"><DipForm coopSlug={slug} units={units} currency={currency} tanks={active} /></Card> : null}
-          {active.length > 1 ? <Card title="Move fuel between tanks"><TransferForm coopSlug={slug} units={units} tanks={active} /></Card> : null}
-          <Card title="Tanks"><TankSettingsForm coopSlug={slug} units={units} tanks={tanks.map((t) => ({ id: t.id, name: t.name, capacity: t.capacity, active: t.active }))} /></Card>
+          {active.length > 0 ? (
+            <Card title="Record a dip reading">
+              <DipForm coopSlug={slug} units={units} currency={currency} tanks={active} />
+            </Card>
+          ) : null}
+          {active.length > 1 ? (
+            <Card title="Move fuel between tanks">
+              <TransferForm coopSlug={slug} units={units} tanks={active} />
+            </Card>
+          ) : null}
+          <Card title="Tanks">
+            <TankSettingsForm
+              coopSlug={slug}
+              units={units}
+              tanks={tanks.map((t) => ({ id: t.id, name: t.name, capacity: t.capacity, active: t.active }))}
+            />
+          </Card>
         </div>
       ) : null}
 
@@ -83,8 +130,12 @@ export default async function TankPage({ params, searchParams }: { params: Promi
             {tanks.length > 1 ? (
               <nav aria-label="Choose a tank’s ledger" className="flex flex-wrap gap-2 text-sm">
                 {tanks.map((t) => (
-                  <Link key={t.id} href={`/c/${slug}/tank?tank=${t.id}`} aria-current={t.id === selected?.id ? 'page' : undefined}
-                    className={`rounded-full border px-3 py-1.5 no-underline ${t.id === selected?.id ? 'border-fir-700 bg-fir-700 text-white' : 'border-stone-300 bg-white text-stone-900'}`}>
+                  <Link
+                    key={t.id}
+                    href={`/c/${slug}/tank?tank=${t.id}`}
+                    aria-current={t.id === selected?.id ? 'page' : undefined}
+                    className={`rounded-full border px-3 py-1.5 no-underline ${t.id === selected?.id ? 'border-fir-700 bg-fir-700 text-white' : 'border-stone-300 bg-white text-stone-900'}`}
+                  >
                     {t.name}
                   </Link>
                 ))}
@@ -92,7 +143,13 @@ export default async function TankPage({ params, searchParams }: { params: Promi
             ) : null}
           </div>
           {ledger ? (
-            <LedgerTable rows={ledger.items} units={units} timeZone={timezone} currency={currency} pageInfo={{ page: ledger.page, pageSize: ledger.pageSize, total: ledger.total }} />
+            <LedgerTable
+              rows={ledger.items}
+              units={units}
+              timeZone={timezone}
+              currency={currency}
+              pageInfo={{ page: ledger.page, pageSize: ledger.pageSize, total: ledger.total }}
+            />
           ) : (
             <EmptyState title="No tank yet">Add a tank above; its ledger appears here.</EmptyState>
           )}

@@ -6,7 +6,9 @@ import { apiTokenCreateSchema } from '@/lib/validation/api-tokens';
 export const dynamic = 'force-dynamic';
 
 /** GET — the co-op's personal access tokens (admins, treasurers; from a session). */
-export const GET = handler<{ coop: string }>(async (_req, { coop }) => ({ tokens: await listApiTokens(await requireMember(coop, 'tokens:manage')) }));
+export const GET = handler<{ coop: string }>(async (_req, { coop }) => ({
+  tokens: await listApiTokens(await requireMember(coop, 'tokens:manage')),
+}));
 
 /** POST {name, access} → 201 {token, secret}: the secret is shown this once. */
 export const POST = handler<{ coop: string }>(async (req, { coop }) => {

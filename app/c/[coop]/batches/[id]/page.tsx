@@ -43,12 +43,39 @@ export default async function BatchPage({ params }: { params: Promise<{ coop: st
     throw e;
   }
   const base = `/c/${actor.coop.slug}`;
-  const lineage = batch.status === 'released' && can(actor.role, 'lineage:read') ? await lineageSection(actor, batch) : null;
-  if (batch.view === 'summary') return <BatchSummary batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} timeZone={actor.coop.timezone} lineage={lineage} />;
-  const [tanks, dangers] = await Promise.all([batch.status === 'testing' ? listTanks(actor, { activeOnly: true }) : Promise.resolve([]), unacknowledgedDangers(actor.coop.id, batch.id)]);
+  const lineage =
+    batch.status === 'released' && can(actor.role, 'lineage:read') ? await lineageSection(actor, batch) : null;
+  if (batch.view === 'summary')
+    return (
+      <BatchSummary
+        batch={batch}
+        base={base}
+        units={actor.coop.units}
+        currency={actor.coop.currency}
+        timeZone={actor.coop.timezone}
+        lineage={lineage}
+      />
+    );
+  const [tanks, dangers] = await Promise.all([
+    batch.status === 'testing' ? listTanks(actor, { activeOnly: true }) : Promise.resolve([]),
+    unacknowledgedDangers(actor.coop.id, batch.id),
+  ]);
   const elevationM = actor.coop.settings.elevationM ?? 0;
   const altitude = altitudeNote(elevationM, actor.coop.units);
-  return <BatchRecord batch={batch} base={base} units={actor.coop.units} currency={actor.coop.currency} timeZone={actor.coop.timezone} tanks={tanks} altitude={altitude} dangers={dangers} elevationM={elevationM} lineage={lineage} />;
+  return (
+    <BatchRecord
+      batch={batch}
+      base={base}
+      units={actor.coop.units}
+      currency={actor.coop.currency}
+      timeZone={actor.coop.timezone}
+      tanks={tanks}
+      altitude={altitude}
+      dangers={dangers}
+      elevationM={elevationM}
+      lineage={lineage}
+    />
+  );
 }
 
 /** Where a released batch's fuel went and its reviews (brewers, treasurers, admins); review forms for brewers and admins. */
@@ -56,20 +83,55 @@ async function lineageSection(actor: Actor, batch: BatchDto | BatchSummaryDto): 
   const canWrite = can(actor.role, 'batches:write');
   const [lineage, working] = await Promise.all([
     getBatchLineage(actor, batch.id),
-    canWrite ? listBatches(actor, { page: 1, pageSize: 50, sort: 'number', dir: 'desc', status: 'in-progress' }) : Promise.resolve(null),
+    canWrite
+      ? listBatches(actor, { page: 1, pageSize: 50, sort: 'number', dir: 'desc', status: 'in-progress' })
+      : Promise.resolve(null),
   ]);
-  const planned = canWrite ? await listBatches(actor, { page: 1, pageSize: 20, sort: 'number', dir: 'desc', status: 'planned' }) : null;
-  const receipts = batch.view === 'full' ? batch.files.filter((f) => f.purpose === 'receipt').map((f) => ({ id: f.id, name: f.name })) : [];
+  const planned = canWrite
+    ? await listBatches(actor, { page: 1, pageSize: 20, sort: 'number', dir: 'desc', status: 'planned' })
+    : null;
+  const receipts =
+    batch.view === 'full'
+      ? batch.files.filter((f) => f.purpose === 'receipt').map((f) => ({ id: f.id, name: f.name }))
+      : [];
   return (
-    <BatchLineageSection lineage={lineage} apiUrl={`/api/coops/${actor.coop.slug}/batches/${batch.id}`} units={actor.coop.units} currency={actor.coop.currency}
-      canWrite={canWrite} showValue={can(actor.role, 'billing:manage') || can(actor.role, 'batches:write')} standard={batch.quality.standard} receipts={receipts}
-      retreatBatches={[...(working?.rows ?? []), ...(planned?.rows ?? [])].map((b) => ({ id: b.id, number: b.number }))} />
+    <BatchLineageSection
+      lineage={lineage}
+      apiUrl={`/api/coops/${actor.coop.slug}/batches/${batch.id}`}
+      units={actor.coop.units}
+      currency={actor.coop.currency}
+      canWrite={canWrite}
+      showValue={can(actor.role, 'billing:manage') || can(actor.role, 'batches:write')}
+      standard={batch.quality.standard}
+      receipts={receipts}
+      retreatBatches={[...(working?.rows ?? []), ...(planned?.rows ?? [])].map((b) => ({ id: b.id, number: b.number }))}
+    />
   );
 }
 
 /** The working record of a batch: next step, outcome, then each step's section in order. */
-function BatchRecord({ batch, base, units, currency, timeZone, tanks, altitude, dangers, elevationM, lineage }: {
-  batch: BatchDto; base: string; units: UnitSystem; currency: string; timeZone: string; tanks: TankDto[]; altitude: string | null; dangers: DangerAlert[]; elevationM: number; lineage: ReactNode;
+function BatchRecord({
+  batch,
+  base,
+  units,
+  currency,
+  timeZone,
+  tanks,
+  altitude,
+  dangers,
+  elevationM,
+  lineage,
+}: {
+  batch: BatchDto;
+  base: string;
+  units: UnitSystem;
+  currency: string;
+  timeZone: string;
+  tanks: TankDto[];
+  altitude: string | null;
+  dangers: DangerAlert[];
+  elevationM: number;
+  lineage: ReactNode;
 }) {
   const url = `/api/coops/${base.slice(3)}/batches/${batch.id}`;
   const final = batch.status === 'released' || batch.status === 'rejected';
@@ -77,7 +139,7 @@ function BatchRecord({ batch, base, units, currency, timeZone, tanks, altitude, 
 
   return (
     <div className="flex flex-col gap-4">
-      <BatchHeader number={batch.number} status={batch.status} batchDate={batch.batchDate} base={base} id={batch.id} meets={batch.quality.verdict.kind === 'meets'} />
+      <BatchHeader batch={batch} base={base} />
       <StepNav status={batch.status} hasActions={!final} />
 
       <DangerBanner alerts={dangers} slug={base.slice(3)} units={units} canAcknowledge linkToBatch={false} />
@@ -89,11 +151,22 @@ function BatchRecord({ batch, base, units, currency, timeZone, tanks, altitude, 
             url={url}
             status={batch.status}
             number={batch.number}
-            release={batch.status === 'testing' ? {
-              tanks, units, verdictText: batch.quality.verdict.text, verdictKind: batch.quality.verdict.kind,
-              screeningText: { 'looks-good': 'Looks good (screening only)', 'needs-attention': 'Needs attention', incomplete: 'Not all done' }[batch.quickTestEvaluation.overall],
-              expectedLiters: plan.projectedFuelLiters,
-            } : undefined}
+            release={
+              batch.status === 'testing'
+                ? {
+                    tanks,
+                    units,
+                    verdictText: batch.quality.verdict.text,
+                    verdictKind: batch.quality.verdict.kind,
+                    screeningText: {
+                      'looks-good': 'Looks good (screening only)',
+                      'needs-attention': 'Needs attention',
+                      incomplete: 'Not all done',
+                    }[batch.quickTestEvaluation.overall],
+                    expectedLiters: plan.projectedFuelLiters,
+                  }
+                : undefined
+            }
           />
         </Card>
       ) : null}
@@ -102,18 +175,39 @@ function BatchRecord({ batch, base, units, currency, timeZone, tanks, altitude, 
       {lineage}
 
       <BatchPlan batch={batch} units={units} url={url} altitude={altitude} />
-      <BatchSteps batch={batch} units={units} url={url} final={final} timeZone={timeZone} altitude={altitude} elevationM={elevationM} />
+      <BatchSteps
+        batch={batch}
+        units={units}
+        url={url}
+        final={final}
+        timeZone={timeZone}
+        altitude={altitude}
+        elevationM={elevationM}
+      />
 
       <Card title="6. Testing" id="step-testing">
         <QualityTables quality={batch.quality} screening={batch.quickTestEvaluation} units={units} />
-        {!final ? <div className="mt-4 border-t border-stone-200 pt-4"><QualityForm url={url} quickTests={batch.quickTests} labResults={batch.labResults} standard={batch.quality.standard} /></div> : null}
+        {!final ? (
+          <div className="mt-4 border-t border-stone-200 pt-4">
+            <QualityForm
+              url={url}
+              quickTests={batch.quickTests}
+              labResults={batch.labResults}
+              standard={batch.quality.standard}
+            />
+          </div>
+        ) : null}
       </Card>
 
       <BatchCosts batch={batch} units={units} currency={currency} url={url} final={final} />
       <BatchFiles files={batch.files} url={url} />
 
       <Card title="Notes">
-        <StepForm url={url} disabled={final} fields={[{ name: 'notes', label: 'Notes on this batch', kind: 'textarea', defaultValue: batch.notes ?? '' }]} />
+        <StepForm
+          url={url}
+          disabled={final}
+          fields={[{ name: 'notes', label: 'Notes on this batch', kind: 'textarea', defaultValue: batch.notes ?? '' }]}
+        />
       </Card>
     </div>
   );

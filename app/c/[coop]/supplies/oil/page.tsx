@@ -9,7 +9,13 @@ import { oilLotListSchema } from '@/lib/validation/brewing';
 
 export const metadata: Metadata = { title: 'Oil lots' };
 
-export default async function OilLotsPage({ params, searchParams }: { params: Promise<{ coop: string }>; searchParams: Promise<Record<string, string>> }) {
+export default async function OilLotsPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ coop: string }>;
+  searchParams: Promise<Record<string, string>>;
+}) {
   const { coop } = await params;
   const actor = await requirePageActor(coop, 'supplies:read', `/c/${coop}/supplies/oil`);
   const parsed = oilLotListSchema.safeParse(await searchParams);
@@ -18,7 +24,9 @@ export default async function OilLotsPage({ params, searchParams }: { params: Pr
     <div className="flex flex-col gap-4">
       <div>
         <h1>Supplies</h1>
-        <p className="text-sm text-stone-600">Used cooking oil as collected: where from, how much, its titration, and how much batches have used.</p>
+        <p className="text-sm text-stone-600">
+          Used cooking oil as collected: where from, how much, its titration, and how much batches have used.
+        </p>
       </div>
       <SuppliesNav base={`/c/${actor.coop.slug}`} current="oil" />
       {can(actor.role, 'supplies:write') ? (
@@ -28,7 +36,12 @@ export default async function OilLotsPage({ params, searchParams }: { params: Pr
       ) : null}
       <section aria-labelledby="oil-h" className="flex flex-col gap-2">
         <h2 id="oil-h">Oil lots</h2>
-        <OilTable rows={lots.rows} units={actor.coop.units} currency={actor.coop.currency} pageInfo={{ page: lots.page, pageSize: lots.pageSize, total: lots.total }} />
+        <OilTable
+          rows={lots.rows}
+          units={actor.coop.units}
+          currency={actor.coop.currency}
+          pageInfo={{ page: lots.page, pageSize: lots.pageSize, total: lots.total }}
+        />
       </section>
     </div>
   );

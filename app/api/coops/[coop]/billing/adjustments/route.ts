@@ -14,5 +14,13 @@ export const GET = handler<{ coop: string }>(async (_req, { coop }) => {
 export const POST = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'billing:manage');
   const input = await parseBody(req, adjustmentCreateSchema);
-  return Response.json(await createAdjustment(actor, { memberId: input.memberId, amountCents: input.amount, description: input.description, period: input.period }), { status: 201 });
+  return Response.json(
+    await createAdjustment(actor, {
+      memberId: input.memberId,
+      amountCents: input.amount,
+      description: input.description,
+      period: input.period,
+    }),
+    { status: 201 },
+  );
 });

@@ -10,7 +10,12 @@ export const dynamic = 'force-dynamic';
 export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   const actor = await requireMember(coop, 'billing:manage');
   const q = parseQuery(req, paymentListQuerySchema);
-  return listPayments(actor.coop.id, { period: q.period, unmatched: Boolean(q.unmatched), page: q.page, pageSize: q.pageSize });
+  return listPayments(actor.coop.id, {
+    period: q.period,
+    unmatched: Boolean(q.unmatched),
+    page: q.page,
+    pageSize: q.pageSize,
+  });
 });
 
 export const POST = handler<{ coop: string }>(async (req, { coop }) => {

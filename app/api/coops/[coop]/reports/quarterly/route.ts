@@ -15,7 +15,11 @@ export const GET = handler<{ coop: string }>(async (req, { coop }) => {
   const name = `${actor.coop.slug}-fuel-volumes-${q.year}-q${q.quarter}`;
   if (format === 'csv') {
     return new Response(quarterlyCsv(report), {
-      headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${name}.csv"`, 'cache-control': 'private, no-store' },
+      headers: {
+        'content-type': 'text/csv; charset=utf-8',
+        'content-disposition': `attachment; filename="${name}.csv"`,
+        'cache-control': 'private, no-store',
+      },
     });
   }
   if (format === 'pdf') return pdfResponse(await quarterlyPdf(report), `${name}.pdf`);

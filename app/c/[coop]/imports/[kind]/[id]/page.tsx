@@ -14,24 +14,35 @@ import { formatDate } from '@/lib/dates';
 export const metadata: Metadata = { title: 'Import result' };
 
 /** One import: every row's fate and, for invitations, each e-mail as the worker sends it. */
-export default async function ImportResultPage({ params }: { params: Promise<{ coop: string; kind: string; id: string }> }) {
+export default async function ImportResultPage({
+  params,
+}: {
+  params: Promise<{ coop: string; kind: string; id: string }>;
+}) {
   const { coop, kind, id } = await params;
   const actor = await requirePageActor(coop, 'imports:manage');
   const k = importKindSchema.safeParse(kind);
   const importId = toId(id);
   if (!k.success || importId === null) notFound();
-  const detail = await getImport(actor, k.data, importId).catch((e: unknown) => (e instanceof HttpError && e.status === 404 ? null : Promise.reject(e)));
+  const detail = await getImport(actor, k.data, importId).catch((e: unknown) =>
+    e instanceof HttpError && e.status === 404 ? null : Promise.reject(e),
+  );
   if (!detail) notFound();
   const slug = actor.coop.slug;
   const template = IMPORT_TEMPLATES[k.data](actor.coop.units);
   return (
     <div className="flex flex-col gap-5">
       <div>
-        <p className="text-sm"><Link href={`/c/${slug}/imports`}>← Imports</Link></p>
-        <h1 className="break-all">{template.title} from {detail.import.fileName}</h1>
+        <p className="text-sm">
+          <Link href={`/c/${slug}/imports`}>← Imports</Link>
+        </p>
+        <h1 className="break-all">
+          {template.title} from {detail.import.fileName}
+        </h1>
         <p className="text-stone-600">
-          Imported {formatDate(detail.import.createdAt, actor.coop.timezone)}{detail.import.createdBy ? ` by ${detail.import.createdBy}` : ''}:
-          {' '}{detail.import.rowsImported} imported, {detail.import.rowsSkipped} skipped of {detail.import.rowsTotal} rows.
+          Imported {formatDate(detail.import.createdAt, actor.coop.timezone)}
+          {detail.import.createdBy ? ` by ${detail.import.createdBy}` : ''}: {detail.import.rowsImported} imported,{' '}
+          {detail.import.rowsSkipped} skipped of {detail.import.rowsTotal} rows.
           {detail.import.undoneAt ? ` Undone ${formatDate(detail.import.undoneAt, actor.coop.timezone)}.` : ''}
         </p>
       </div>

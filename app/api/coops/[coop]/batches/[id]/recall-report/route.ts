@@ -16,7 +16,11 @@ export const GET = handler<{ coop: string; id: string }>(async (req, { coop, id 
   const name = `${actor.coop.slug}-recall-batch-${report.number}`;
   if (format === 'csv') {
     return new Response(recallCsv(report), {
-      headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${name}.csv"`, 'cache-control': 'private, no-store' },
+      headers: {
+        'content-type': 'text/csv; charset=utf-8',
+        'content-disposition': `attachment; filename="${name}.csv"`,
+        'cache-control': 'private, no-store',
+      },
     });
   }
   if (format === 'pdf') return pdfResponse(await recallPdf(report), `${name}.pdf`);

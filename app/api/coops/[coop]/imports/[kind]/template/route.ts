@@ -10,6 +10,10 @@ export const GET = handler<{ coop: string; kind: string }>(async (_req, { coop, 
   const { kind: k } = importerFor(kind);
   const { fileName, body } = importTemplateCsv(actor, k);
   return new Response(body, {
-    headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${fileName}"`, 'cache-control': 'private, no-store' },
+    headers: {
+      'content-type': 'text/csv; charset=utf-8',
+      'content-disposition': `attachment; filename="${fileName}"`,
+      'cache-control': 'private, no-store',
+    },
   });
 });

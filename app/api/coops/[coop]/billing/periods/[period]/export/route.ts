@@ -11,5 +11,8 @@ export const GET = handler<{ coop: string; period: string }>(async (req, { coop,
   const actor = await requireMember(coop, 'billing:manage');
   const p = periodParam(period);
   const { kind } = parseQuery(req, exportQuerySchema);
-  return csvResponse(await buildCsv(actor.coop.id, kind, p, actor.coop.timezone), `${actor.coop.slug}-${p}-${kind}.csv`);
+  return csvResponse(
+    await buildCsv(actor.coop.id, kind, p, actor.coop.timezone),
+    `${actor.coop.slug}-${p}-${kind}.csv`,
+  );
 });

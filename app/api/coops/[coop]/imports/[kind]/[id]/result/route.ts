@@ -9,8 +9,17 @@ export const dynamic = 'force-dynamic';
 export const GET = handler<{ coop: string; kind: string; id: string }>(async (_req, { coop, kind, id }) => {
   const actor = await requireMember(coop, 'imports:manage');
   const { kind: k, importer } = importerFor(kind);
-  const { fileName, body } = await importResultCsv(actor, k, idParam(id, 'That import is not in this co-op.'), importer);
+  const { fileName, body } = await importResultCsv(
+    actor,
+    k,
+    idParam(id, 'That import is not in this co-op.'),
+    importer,
+  );
   return new Response(body, {
-    headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${fileName}"`, 'cache-control': 'private, no-store' },
+    headers: {
+      'content-type': 'text/csv; charset=utf-8',
+      'content-disposition': `attachment; filename="${fileName}"`,
+      'cache-control': 'private, no-store',
+    },
   });
 });
