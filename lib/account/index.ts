@@ -12,28 +12,28 @@ import {
   recordCurrentPasswordFailure,
 } from '@/lib/auth/rate-limit';
 import { revokeAllSessions } from '@/lib/auth/sessions';
-import {
-  EMAIL_CHANGE_TTL_MS,
-  hashLinkToken,
-  isLinkTokenShape,
-  newLinkToken,
-  PASSWORD_RESET_TTL_MS,
-} from '@/lib/auth/tokens';
+import { EMAIL_CHANGE_TTL_MS, newLinkToken } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError, notFound } from '@/lib/http';
+import { conflict, HttpError } from '@/lib/http';
 import { emailChangeMailKey, enqueueMail, QUEUES } from '@/lib/jobs';
 import { newestJobState } from '@/lib/jobs/queries';
 import { appUrl } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import { personTimeZone } from '@/lib/account/zone';
-import type {
-  emailChangeSchema,
-  passwordChangeSchema,
-  passwordResetSchema,
-  profileUpdateSchema,
-} from '@/lib/validation/auth';
-import { AuthToken, Coop, MailSend, Membership, SignInAttempt, User } from '@/models';
-import type { AuthTokenKind } from '@/models/AuthToken';
+import type { emailChangeSchema, passwordChangeSchema, profileUpdateSchema } from '@/lib/validation/auth';
+import { AuthToken, Coop, MailSend, Membership, User } from '@/models';
+import { EMAIL_MESSAGES, findToken, linkError, linkState, type LinkState } from './links';
+import { COMMON, invalidFields } from './password-reset';
+
+export { type LinkState } from './links';
+export {
+  RESET_REQUESTED,
+  RESET_REQUESTS_PER_HOUR,
+  requestPasswordReset,
+  lookupPasswordReset,
+  checkPasswordReset,
+  resetPassword,
+} from './password-reset';
 
 // The signed-in person's own account: profile, password, e-mail address, sessions, and the
 // password-reset links. These belong to no single co-op; changes other members can see (name,
@@ -68,9 +68,6 @@ async function emailChangeDelivery(authTokenId: number): Promise<NonNullable<Pro
 type MyMembership = Pick<InferAttributes<Membership>, 'role' | 'status' | 'joinedAt'> & {
   coop: Pick<InferAttributes<Coop>, 'slug' | 'name' | 'timezone'>;
 };
-
-const invalidFields = (fields: Record<string, string[]>) => new HttpError(422, 'Some fields need attention.', fields);
-const COMMON = 'That password is on a list of commonly used passwords. Choose another.';
 
 /** The profile page's data: name, e-mail, any pending e-mail change, co-ops with role. */
 export async function getProfile(user: SessionUser): Promise<ProfileDto> {
@@ -261,50 +258,6 @@ export async function requestEmailChange(
   return { pendingEmail: input.email, sent: true };
 }
 
-type TokenRow = Pick<InferAttributes<AuthToken>, 'id' | 'userId' | 'newEmail' | 'expiresAt' | 'usedAt'> & {
-  user: Pick<InferAttributes<User>, 'email' | 'name'>;
-};
-
-/** A link's token row with its person; inside a transaction both rows are locked (FOR UPDATE). */
-async function findToken(kind: AuthTokenKind, token: string, transaction?: Transaction): Promise<TokenRow | null> {
-  if (!isLinkTokenShape(token)) return null;
-  return (await AuthToken.findOne({
-    where: { tokenHash: hashLinkToken(token), kind },
-    attributes: ['id', 'userId', 'newEmail', 'expiresAt', 'usedAt'],
-    include: [{ model: User, as: 'user', required: true, attributes: ['email', 'name'] }],
-    ...(transaction && { transaction, lock: transaction.LOCK.UPDATE }),
-    raw: true,
-    nest: true,
-  })) as unknown as TokenRow | null;
-}
-
-export type LinkState = 'ok' | 'invalid' | 'used' | 'expired';
-
-function linkState(row: TokenRow | null): LinkState {
-  if (!row) return 'invalid';
-  if (row.usedAt) return 'used';
-  return new Date(row.expiresAt).getTime() <= Date.now() ? 'expired' : 'ok';
-}
-
-const RESET_MESSAGES: Record<Exclude<LinkState, 'ok'>, string> = {
-  invalid: 'This password-reset link is not valid. Check that the whole link was copied, or ask for a new one.',
-  used: 'This password-reset link has already been used. Ask for a new one if you need to reset your password again.',
-  expired: 'This password-reset link has expired (links work for one hour). Ask for a new one.',
-};
-const EMAIL_MESSAGES: Record<Exclude<LinkState, 'ok'>, string> = {
-  invalid:
-    'This confirmation link is not valid. Check that the whole link was copied, or change your e-mail address again from your profile.',
-  used: 'This confirmation link has already been used or was replaced by a newer one.',
-  expired:
-    'This confirmation link has expired (links work for 24 hours). Change your e-mail address again from your profile.',
-};
-
-function linkError(state: Exclude<LinkState, 'ok'>, messages: typeof RESET_MESSAGES): HttpError {
-  return state === 'invalid'
-    ? notFound(messages.invalid)
-    : new HttpError(410, messages[state], undefined, { reason: state });
-}
-
 /** What the e-mail confirmation page shows for a link. */
 export async function lookupEmailChange(
   token: string,
@@ -358,106 +311,4 @@ export async function confirmEmailChange(token: string): Promise<{ email: string
     ].join('\n'),
   });
   return { email: result.email };
-}
-
-/** The one answer to every reset request. */
-export const RESET_REQUESTED =
-  'If an account uses that address, we have e-mailed it a link to choose a new password. The link works for one hour.';
-
-/** Reset e-mails per account per hour beyond which requests are quietly dropped (stops mail bombing). */
-export const RESET_REQUESTS_PER_HOUR = 3;
-
-/**
- * Starts a password reset. Always answers the same, whether or not an account uses the address
- * (nothing reveals who has an account). When one does, a single-use link valid for one hour is
- * e-mailed, at most RESET_REQUESTS_PER_HOUR times an hour. Returns the e-mail to send (the
- * route sends it after answering, so both cases take the same time).
- */
-export async function requestPasswordReset(
-  email: string,
-): Promise<{ to: string; subject: string; text: string } | null> {
-  const user = await User.findOne({ where: emailIs(email), attributes: ['id', 'name', 'email'], raw: true });
-  if (!user) return null;
-  const hourAgo = new Date(Date.now() - 60 * 60 * 1000);
-  const recent = await AuthToken.count({
-    where: { userId: user.id, kind: 'password-reset', createdAt: { [Op.gt]: hourAgo } },
-  });
-  if (recent >= RESET_REQUESTS_PER_HOUR) return null;
-  const { token, hash } = newLinkToken();
-  const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
-  await AuthToken.create({
-    userId: user.id,
-    kind: 'password-reset',
-    tokenHash: hash,
-    newEmail: null,
-    expiresAt,
-    usedAt: null,
-  });
-  return {
-    to: user.email,
-    subject: 'Reset your Tallyvat password',
-    text: [
-      `Hello ${user.name},`,
-      '',
-      'Someone (we hope you) asked to reset the password of your Tallyvat account.',
-      'To choose a new password, open this link:',
-      '',
-      `  ${appUrl(`/reset-password/${token}`)}`,
-      '',
-      `The link works once and expires on ${formatExpiry(expiresAt, await personTimeZone(user.id))}.`,
-      'Setting a new password signs you out on every device.',
-      'If you did not ask for this, ignore this e-mail: your password stays as it is.',
-      '',
-      '-- ',
-      'Tallyvat',
-    ].join('\n'),
-  };
-}
-
-/** What the reset page shows for a link. */
-export async function lookupPasswordReset(
-  token: string,
-): Promise<{ state: 'ok'; email: string } | { state: Exclude<LinkState, 'ok'>; message: string }> {
-  const row = await findToken('password-reset', token);
-  const state = linkState(row);
-  if (state !== 'ok' || !row)
-    return { state: state === 'ok' ? 'invalid' : state, message: RESET_MESSAGES[state === 'ok' ? 'invalid' : state] };
-  return { state: 'ok', email: row.user.email };
-}
-
-/** The link's state as an HTTP answer (for GET /api/password-reset/[token]). */
-export async function checkPasswordReset(token: string): Promise<{ email: string }> {
-  const r = await lookupPasswordReset(token);
-  if (r.state !== 'ok') throw linkError(r.state, RESET_MESSAGES);
-  return { email: r.email };
-}
-
-/**
- * Sets a new password from a reset link: single use (the token row is locked and marked used,
- * with every other reset link of the person), and every session of the person is revoked.
- */
-export async function resetPassword(
-  token: string,
-  input: z.infer<typeof passwordResetSchema>,
-): Promise<{ email: string }> {
-  const pre = await findToken('password-reset', token);
-  const preState = linkState(pre);
-  if (preState !== 'ok') throw linkError(preState, RESET_MESSAGES);
-  if (isCommonPassword(input.password)) throw invalidFields({ password: [COMMON] });
-  const hash = await hashPassword(input.password);
-  return inTransaction(async (transaction) => {
-    const row = await findToken('password-reset', token, transaction);
-    const state = linkState(row);
-    if (state !== 'ok' || !row) throw linkError(state === 'ok' ? 'invalid' : state, RESET_MESSAGES);
-    await User.update({ passwordHash: hash }, { where: { id: row.userId }, transaction });
-    await revokeAllSessions(row.userId, transaction);
-    await AuthToken.update(
-      { usedAt: fn('now') },
-      { where: { userId: row.userId, kind: 'password-reset', usedAt: null }, transaction },
-    );
-    // The sign-in limit tells a locked-out person to reset their password: doing so lifts the
-    // account's lock (failures counted per address still apply).
-    await SignInAttempt.destroy({ where: { [Op.and]: [emailIs(row.user.email), { succeeded: false }] }, transaction });
-    return { email: row.user.email };
-  });
 }

@@ -2,15 +2,8 @@ import 'server-only';
 // The batch record: plan → steps → release or reject, with its files and certificate.
 export { STEPS, createBatch, advanceBatch, addTemperature } from './records';
 export { updateBatch } from './update';
-export {
-  getBatch,
-  listBatches,
-  type BatchDto,
-  type BatchSummaryDto,
-  type BatchListRow,
-  type BatchCosts,
-  type TemperatureDto,
-} from './read';
+export { getBatch, type BatchDto, type BatchSummaryDto, type BatchCosts, type TemperatureDto } from './read';
+export { listBatches, type BatchListRow } from './list';
 export { releaseBatch, rejectBatch } from './release';
 export { planBatch, type PlannerResult, type ChemicalCoverage } from './planner';
 export { addBatchFile, getBatchFile, BATCH_FILE_KINDS } from './files';

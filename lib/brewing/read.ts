@@ -6,7 +6,6 @@ import type {
   quickTestsSchema,
   temperatureSchema,
 } from '@/lib/api/dto/batch';
-import type { batchRowSchema } from '@/lib/api/dto/brewing';
 import type { z } from 'zod';
 import type { InferAttributes, Transaction } from 'sequelize';
 import { can, type Actor } from '@/lib/auth';
@@ -20,18 +19,15 @@ import {
   Batch,
   BatchFile,
   BatchOilLot,
-  BatchStatusCount,
   BatchTemperature,
   ChemicalConsumption,
   ChemicalLot,
   OilLot,
   Tank,
 } from '@/models';
-import type { BatchStatus } from '@/models/Batch';
 import { computePlan, type Catalyst, type PlanInput } from './plan';
-import { qualityOf } from './verdicts';
 
-// Reading batches: one batch (full record or the members' summary), the list, and the pure
+// Reading batches: one batch (full record or the members' summary), and the pure
 // helpers that turn a stored batch into plan inputs, costs and quality inputs.
 
 /** A batch as stored (NUMERIC and BIGINT columns as strings). */
@@ -40,7 +36,9 @@ export type BatchRecord = InferAttributes<Batch>;
 /** Quick tests as stored (the soap test's catalyst comes from the batch): the API's QuickTests. */
 export type QuickTestsStored = z.infer<typeof quickTestsSchema>;
 
-const n = (v: string | number | null | undefined): number | null => (v === null || v === undefined ? null : Number(v));
+/** A stored NUMERIC or BIGINT (string) as a number, null kept. */
+export const n = (v: string | number | null | undefined): number | null =>
+  v === null || v === undefined ? null : Number(v);
 
 /** Reads one batch of the co-op (404 otherwise), locked FOR UPDATE in the transaction when `lock` is set. */
 export async function loadBatch(
@@ -382,115 +380,5 @@ export async function getBatch(
       createdAt: new Date(f.createdAt).toISOString(),
     })),
     notes: row.notes,
-  };
-}
-
-/** One row of the batch list. */
-export type BatchListRow = z.infer<typeof batchRowSchema>;
-
-/** Sort keys of the list → columns; every sort ends on the batch number (unique per co-op). */
-const LIST_SORT: Record<string, keyof BatchRecord> = {
-  number: 'number',
-  date: 'batchDate',
-  status: 'status',
-  volume: 'releasedLiters',
-  costPerGallon: 'costPerGallonCents',
-};
-const LIST_ATTRIBUTES = [
-  'id',
-  'number',
-  'status',
-  'batchDate',
-  'oilLiters',
-  'releasedLiters',
-  'totalCostCents',
-  'costPerGallonCents',
-  'qualityStandard',
-  'qualityVerdict',
-  'screeningVerdict',
-  'labResults',
-] as const satisfies readonly (keyof BatchRecord)[];
-const IN_PROGRESS: BatchStatus[] = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testing'];
-
-type BatchListQuery = { page: number; pageSize: number; sort: string; dir: 'asc' | 'desc'; status?: string };
-type BatchListPage = { rows: BatchListRow[]; total: number; page: number; pageSize: number };
-
-/**
- * A page of the co-op's batches, sorted and filtered in SQL (an index on (coop_id, number) or
- * (coop_id, batch_date, number) gives the order), with the total from the per-status counts the
- * batches' triggers keep (a few rows instead of counting the co-op's batches on every page); both
- * read in parallel. Members and treasurers see released batches only.
- */
-export async function listBatches(actor: Actor, q: BatchListQuery): Promise<BatchListPage> {
-  const all = can(actor.role, 'batches:read-all');
-  if (!all && q.status && q.status !== 'released') return { rows: [], total: 0, page: q.page, pageSize: q.pageSize };
-  const statuses = !all
-    ? q.status
-      ? ['released']
-      : ['released', 'imported']
-    : q.status === 'in-progress'
-      ? IN_PROGRESS
-      : q.status
-        ? [q.status]
-        : null;
-  const where = statuses ? { coopId: actor.coop.id, status: statuses } : { coopId: actor.coop.id };
-  const key = LIST_SORT[q.sort] ?? 'number';
-  const dir = q.dir === 'asc' ? 'ASC' : 'DESC';
-  // NOT NULL sort columns need no NULLS LAST, so the indexes give the order; volume and cost may be null.
-  const order: [string, string][] =
-    key === 'number'
-      ? [['number', dir]]
-      : key === 'batchDate' || key === 'status'
-        ? [
-            [key, dir],
-            ['number', dir],
-          ]
-        : [
-            [key, `${dir} NULLS LAST`],
-            ['number', dir],
-          ];
-  const [rows, total] = await Promise.all([
-    Batch.findAll({
-      attributes: [...LIST_ATTRIBUTES],
-      where,
-      order,
-      limit: q.pageSize,
-      offset: (q.page - 1) * q.pageSize,
-      raw: true,
-    }),
-    BatchStatusCount.sum('n', { where }),
-  ]);
-  return {
-    rows: rows.map((r) => {
-      const releasedLiters = n(r.releasedLiters);
-      return {
-        id: r.id,
-        number: r.number,
-        status: r.status,
-        batchDate: r.batchDate,
-        oilLiters: Number(r.oilLiters),
-        releasedLiters,
-        costPerGallonCents: n(r.costPerGallonCents),
-        costPerLiterCents:
-          r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
-        qualityStandard: r.qualityStandard,
-        screeningVerdict: r.screeningVerdict,
-        // Judged from the results themselves (a verdict stored under an older rule is not trusted).
-        ...(r.status === 'imported'
-          ? // An imported batch has no results here, only the verdict recorded then.
-            {
-              qualityVerdict: r.qualityVerdict,
-              qualityText:
-                r.qualityVerdict === 'incomplete'
-                  ? 'Not recorded'
-                  : `${r.qualityVerdict === 'pass' ? 'Passed' : 'Failed'} (as recorded)`,
-              qualityKind: r.qualityVerdict === 'fail' ? ('fails' as const) : ('screened' as const),
-            }
-          : ((v) => ({ qualityVerdict: v.overall, qualityText: v.text, qualityKind: v.kind }))(qualityOf(r))),
-      };
-    }),
-    total: Number(total ?? 0),
-    page: q.page,
-    pageSize: q.pageSize,
   };
 }

@@ -1,50 +1,34 @@
 import 'server-only';
 import type { invitationSchema } from '@/lib/api/dto/members';
-import {
-  col,
-  fn,
-  Op,
-  UniqueConstraintError,
-  where,
-  type IncludeOptions,
-  type InferAttributes,
-  type Transaction,
-} from 'sequelize';
+import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
-import type { Actor, SessionUser } from '@/lib/auth';
-import { hashPassword, isCommonPassword } from '@/lib/auth/passwords';
-import { ROLE_SUMMARY, type Role } from '@/lib/auth/roles';
-import { hashLinkToken, INVITATION_TTL_MS, isLinkTokenShape, newLinkToken } from '@/lib/auth/tokens';
+import type { Actor } from '@/lib/auth';
+import { emailIs } from '@/lib/auth/email';
+import { INVITATION_TTL_MS, newLinkToken } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
-import { conflict, forbidden, HttpError, notFound } from '@/lib/http';
+import { conflict, notFound } from '@/lib/http';
 import { enqueueInvitationMails } from './deliver';
-import type { invitationAcceptSchema, invitationCreateSchema } from '@/lib/validation/auth';
+import type { invitationCreateSchema } from '@/lib/validation/auth';
 import { invitationMailKey } from '@/lib/jobs';
-import { Invitation, MailSend, Membership, User } from '@/models';
+import { Invitation, MailSend, Membership } from '@/models';
 import type { InvitationDelivery } from '@/models/Invitation';
 
 export type { InvitationDelivery };
+export {
+  lookupInvitation,
+  acceptInvitation,
+  invitationError,
+  INVITATION_MESSAGES,
+  type InvitationInfo,
+  type InvitationLookup,
+  type InviteeAccount,
+} from './accept';
 
 /** A pending invitation as the members screen lists it. */
 export type InvitationDto = z.infer<typeof invitationSchema>;
 
-/** The columns every invitation read needs (never the token hash). */
-const INVITATION_ATTRIBUTES = [
-  'id',
-  'coopId',
-  'email',
-  'role',
-  'status',
-  'delivery',
-  'expiresAt',
-  'createdAt',
-] as const satisfies (keyof InferAttributes<Invitation>)[];
-
-/** The inviter's name, joined in the same query. */
-const INVITED_BY: IncludeOptions = { association: 'invitedBy', attributes: ['name'] };
-
-const isPast = (at: Date) => at.getTime() <= Date.now();
+import { INVITATION_ATTRIBUTES, INVITED_BY, isPast } from './columns';
 
 const toDto = (i: Invitation, sentAt: Map<number, Date>): InvitationDto => ({
   id: i.id,
@@ -110,9 +94,6 @@ async function reloadDto(actor: Actor, id: number): Promise<InvitationDto> {
   return toDto(row, await lastSentAt(actor.coop.id, [id]));
 }
 
-/** Case-insensitive match on an e-mail column (served by the lower(email) indexes). */
-const emailIs = (column: string, email: string) => where(fn('lower', col(column)), fn('lower', email));
-
 /**
  * Invites a person by e-mail with a role: the invitation is saved `queued` and its e-mail job is
  * written in the same transaction (the worker makes the link and sends it, exactly once; see
@@ -132,13 +113,13 @@ export async function createInvitation(
       const member = await Membership.findOne({
         attributes: ['id'],
         where: { coopId: actor.coop.id },
-        include: [{ association: 'user', attributes: [], required: true, where: emailIs('user.email', input.email) }],
+        include: [{ association: 'user', attributes: [], required: true, where: emailIs(input.email, 'user.email') }],
         transaction,
       });
       if (member) throw conflict(`${input.email} is already a member of this co-op.`);
       const pending = await Invitation.findOne({
         attributes: [...INVITATION_ATTRIBUTES],
-        where: { coopId: actor.coop.id, status: 'pending', [Op.and]: [emailIs('email', input.email)] },
+        where: { coopId: actor.coop.id, status: 'pending', [Op.and]: [emailIs(input.email)] },
         lock: transaction.LOCK.UPDATE,
         transaction,
       });
@@ -258,198 +239,4 @@ export async function revokeInvitation(actor: Actor, id: number): Promise<{ revo
     );
     return { revoked: true as const, id };
   });
-}
-
-// ---------------------------------------------------------------------------------------------
-// The invitee's side: the link in the e-mail. These take no Actor (the token is the credential);
-// the signed-in user, if any, decides between "create an account" and "join with this account".
-
-/** Who is opening the link, relative to the invited address. */
-export type InviteeAccount = 'new' | 'signed-in' | 'sign-in-needed' | 'other-account';
-
-export interface InvitationInfo {
-  coop: { name: string; slug: string };
-  role: Role;
-  roleSummary: string;
-  email: string;
-  invitedBy: string | null;
-  expiresAt: string;
-  account: InviteeAccount;
-  signedInAs: string | null;
-}
-
-export type InvitationLookup =
-  | { state: 'ok'; info: InvitationInfo }
-  | { state: 'invalid' }
-  | { state: 'revoked' | 'accepted' | 'expired'; coopName: string };
-
-/** An invitation found by its link, with its co-op and inviter, and the account already using its address. */
-interface TokenMatch {
-  invitation: Invitation & { coop: NonNullable<Invitation['coop']> };
-  existingUserId: number | null;
-}
-
-/**
- * The invitation behind a link. Inside a transaction the invitation row is locked (not the
- * co-op or the inviter), so a link is accepted exactly once.
- */
-async function findByToken(token: string, transaction?: Transaction): Promise<TokenMatch | null> {
-  if (!isLinkTokenShape(token)) return null;
-  const invitation = await Invitation.findOne({
-    attributes: [...INVITATION_ATTRIBUTES],
-    where: { tokenHash: hashLinkToken(token) },
-    include: [{ association: 'coop', attributes: ['name', 'slug', 'timezone'], required: true }, INVITED_BY],
-    ...(transaction ? { transaction, lock: { level: transaction.LOCK.UPDATE, of: Invitation } } : {}),
-  });
-  if (!invitation?.coop) return null;
-  const existing = await User.findOne({ attributes: ['id'], where: emailIs('email', invitation.email), transaction });
-  return { invitation: invitation as TokenMatch['invitation'], existingUserId: existing?.id ?? null };
-}
-
-function stateOf(match: TokenMatch | null): InvitationLookup['state'] {
-  if (!match) return 'invalid';
-  const { status, expiresAt } = match.invitation;
-  if (status !== 'pending') return status;
-  return isPast(expiresAt) ? 'expired' : 'ok';
-}
-
-function accountOf(match: TokenMatch, user: SessionUser | null): InviteeAccount {
-  if (!match.existingUserId) return 'new';
-  if (!user) return 'sign-in-needed';
-  return user.id === match.existingUserId ? 'signed-in' : 'other-account';
-}
-
-/** What the invitation page shows for a token (never throws for a bad link). */
-export async function lookupInvitation(token: string, user: SessionUser | null): Promise<InvitationLookup> {
-  const match = await findByToken(token);
-  const state = stateOf(match);
-  if (state === 'invalid' || !match) return { state: 'invalid' };
-  const { invitation: inv } = match;
-  if (state !== 'ok') return { state, coopName: inv.coop.name };
-  return {
-    state: 'ok',
-    info: {
-      coop: { name: inv.coop.name, slug: inv.coop.slug },
-      role: inv.role,
-      roleSummary: ROLE_SUMMARY[inv.role],
-      email: inv.email,
-      invitedBy: inv.invitedBy?.name ?? null,
-      expiresAt: inv.expiresAt.toISOString(),
-      account: accountOf(match, user),
-      signedInAs: user?.email ?? null,
-    },
-  };
-}
-
-export const INVITATION_MESSAGES = {
-  invalid:
-    'This invitation link is not valid. Check that the whole link was copied from the e-mail, or ask the co-op’s admin for a new invitation.',
-  revoked: 'This invitation was withdrawn by the co-op’s admin. Ask them for a new one if you still want to join.',
-  accepted: 'This invitation has already been used. If that was you, sign in to reach the co-op.',
-  expired: 'This invitation has expired. Ask the co-op’s admin to send it again; the new e-mail has a fresh link.',
-} as const;
-
-/** The lookup as an HTTP answer: 404 for an unknown link, 410 Gone for a used, withdrawn or expired one. */
-export function invitationError(lookup: Exclude<InvitationLookup, { state: 'ok' }>): HttpError {
-  if (lookup.state === 'invalid') return notFound(INVITATION_MESSAGES.invalid);
-  return new HttpError(410, INVITATION_MESSAGES[lookup.state], undefined, {
-    reason: lookup.state,
-    coop: lookup.coopName,
-  });
-}
-
-/**
- * Accepts an invitation: a new person gets an account (name + password of 12–128 characters,
- * not on the common list); a person who already has an account must be signed in as that
- * address. Either way they join the co-op with the invited role. The invitation row is locked,
- * so a link works exactly once.
- */
-export async function acceptInvitation(
-  token: string,
-  user: SessionUser | null,
-  input: z.infer<typeof invitationAcceptSchema>,
-): Promise<{ coop: { slug: string; name: string }; role: Role; email: string; newAccount: boolean }> {
-  // bcrypt takes a while: hash before taking the row lock (wasted only for existing accounts).
-  const passwordHash = input.password !== undefined ? await hashPassword(input.password) : null;
-  try {
-    return await inTransaction(async (transaction) => {
-      const match = await findByToken(token, transaction);
-      const state = stateOf(match);
-      if (!match || state === 'invalid') throw invitationError({ state: 'invalid' });
-      const { invitation: inv, existingUserId } = match;
-      if (state !== 'ok') throw invitationError({ state, coopName: inv.coop.name });
-
-      let userId: number;
-      const newAccount = !existingUserId;
-      if (existingUserId) {
-        if (!user) throw new HttpError(401, `An account already uses ${inv.email}. Sign in as ${inv.email} to accept.`);
-        if (user.id !== existingUserId) {
-          throw forbidden(
-            `This invitation is for ${inv.email}, but you are signed in as ${user.email}. Sign out, then open the link again.`,
-          );
-        }
-        userId = existingUserId;
-      } else {
-        const fields: Record<string, string[]> = {};
-        if (!input.name) fields.name = ['Enter your name.'];
-        if (!passwordHash) fields.password = ['Choose a password of 12 to 128 characters.'];
-        else if (isCommonPassword(input.password!))
-          fields.password = ['That password is on a list of commonly used passwords. Choose another.'];
-        if (Object.keys(fields).length) throw new HttpError(422, 'Some fields need attention.', fields);
-        const created = await User.create(
-          { email: inv.email.toLowerCase(), name: input.name!, passwordHash: passwordHash! },
-          { transaction },
-        );
-        userId = created.id;
-      }
-
-      const already = await Membership.findOne({
-        attributes: ['id'],
-        where: { coopId: inv.coopId, userId },
-        transaction,
-      });
-      if (already) throw conflict(`You are already a member of ${inv.coop.name}.`);
-      const membership = await Membership.create({ coopId: inv.coopId, userId, role: inv.role }, { transaction });
-      await inv.update({ status: 'accepted', acceptedAt: new Date() }, { transaction });
-      await audit(
-        {
-          coopId: inv.coopId,
-          actorUserId: userId,
-          action: 'invitation.accept',
-          entityType: 'invitation',
-          entityId: inv.id,
-          before: { email: inv.email, role: inv.role, status: 'pending' },
-          after: { email: inv.email, role: inv.role, status: 'accepted', membershipId: membership.id, newAccount },
-        },
-        transaction,
-      );
-      await audit(
-        {
-          coopId: inv.coopId,
-          actorUserId: userId,
-          action: 'membership.create',
-          entityType: 'membership',
-          entityId: membership.id,
-          before: null,
-          after: { userId, email: inv.email, role: inv.role, status: 'active', invitationId: inv.id },
-        },
-        transaction,
-      );
-      return {
-        coop: { slug: inv.coop.slug, name: inv.coop.name },
-        role: inv.role,
-        email: inv.email.toLowerCase(),
-        newAccount,
-      };
-    });
-  } catch (e) {
-    if (e instanceof UniqueConstraintError) {
-      // Two people (or two tabs) accepting at the same moment: the account or the membership was just made.
-      if (/memberships/.test(e.parent?.message ?? '')) throw conflict('You are already a member of this co-op.');
-      throw conflict(
-        'An account with this e-mail address was created a moment ago. Sign in, then open the link again.',
-      );
-    }
-    throw e;
-  }
 }

@@ -15,7 +15,14 @@ import { QualityTables } from '@/components/brewing/quality-table';
 import { StepForm } from '@/components/brewing/step-form';
 import { Card } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
-import { getBatch, unacknowledgedDangers, type BatchDto, type BatchSummaryDto, type DangerAlert } from '@/lib/brewing';
+import {
+  getBatch,
+  listBatches,
+  unacknowledgedDangers,
+  type BatchDto,
+  type BatchSummaryDto,
+  type DangerAlert,
+} from '@/lib/brewing';
 import { idParam } from '@/lib/validation/id-param';
 import { DangerBanner } from '@/components/brewing/danger-banner';
 import { HttpError } from '@/lib/http';
@@ -24,7 +31,6 @@ import type { UnitSystem } from '@/lib/units';
 import { altitudeNote } from '@/lib/chemistry';
 import { BatchLineageSection } from '@/components/lineage/batch-lineage';
 import { can, type Actor } from '@/lib/auth';
-import { listBatches } from '@/lib/brewing/read';
 import { getBatchLineage } from '@/lib/lineage';
 
 // The batch record: a summary for imported batches and roles that see only released fuel, else the
