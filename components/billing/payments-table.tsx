@@ -6,7 +6,7 @@ import { DataTable, type DataColumn, type Features, type PageInfo } from '@/comp
 import { formatCents } from '@/lib/money/format';
 import { METHOD_LABEL } from '@/lib/billing/status';
 import type { PaymentDTO } from '@/lib/billing/types';
-import { MatchPaymentForm, RefundForm, RetryRefundButton, type OpenInvoiceOption } from './action-forms';
+import { MatchPaymentForm, RefundForm, RetryRefundButton, type OpenInvoiceOption } from './payment-forms';
 import { formatDate } from '@/lib/dates';
 
 const col = createColumnHelper<Features, PaymentDTO>();

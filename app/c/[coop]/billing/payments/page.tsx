@@ -1,6 +1,6 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
-import { RecordPaymentForm } from '@/components/billing/action-forms';
+import { RecordPaymentForm } from '@/components/billing/payment-forms';
 import { PaymentsTable } from '@/components/billing/payments-table';
 import { Card } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';

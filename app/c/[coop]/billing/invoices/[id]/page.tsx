@@ -1,7 +1,8 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
-import { RecordPaymentForm, VoidInvoiceForm } from '@/components/billing/action-forms';
+import { VoidInvoiceForm } from '@/components/billing/action-forms';
+import { RecordPaymentForm } from '@/components/billing/payment-forms';
 import { InvoiceEmailDelivery } from '@/components/billing/email-delivery';
 import { InvoiceSummaryView } from '@/components/billing/invoice-summary';
 import { PaymentConfirmingNotice } from '@/components/billing/payment-confirming';
