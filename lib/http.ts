@@ -35,12 +35,15 @@ export class HttpError extends Error {
 export const unauthorized = () => new HttpError(401, 'Sign in to continue.');
 export const forbidden = (why = 'Your role in this co-op does not allow this.') => new HttpError(403, why);
 export const notFound = (what = 'Not found.') => new HttpError(404, what);
+/** 422 naming each field and what is wrong with it: the one answer to input that does not fit. */
+export const invalidFields = (fields: Record<string, string[]>) =>
+  new HttpError(422, 'Some fields need attention.', fields);
 export const conflict = (why: string, extra?: Record<string, unknown>) => new HttpError(409, why, undefined, extra);
 
 /** Parses a value with a schema or throws a 422 naming each field and reason. */
 export function parseWith<S extends z.ZodType>(schema: S, value: unknown): z.infer<S> {
   const r = schema.safeParse(value);
-  if (!r.success) throw new HttpError(422, 'Some fields need attention.', fieldErrors(r.error));
+  if (!r.success) throw invalidFields(fieldErrors(r.error));
   return r.data;
 }
 
@@ -120,7 +123,7 @@ export function checkHostileText(value: unknown): void {
   };
   walk(value, []);
   if (tooDeep) throw new HttpError(422, 'The request body is nested too deeply.');
-  if (Object.keys(fields).length) throw new HttpError(422, 'Some fields need attention.', fields);
+  if (Object.keys(fields).length) throw invalidFields(fields);
 }
 
 /**

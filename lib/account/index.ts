@@ -14,7 +14,7 @@ import {
 import { revokeAllSessions } from '@/lib/auth/sessions';
 import { EMAIL_CHANGE_TTL_MS, newLinkToken } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError } from '@/lib/http';
+import { conflict, HttpError, invalidFields } from '@/lib/http';
 import { emailChangeMailKey, enqueueMail, QUEUES } from '@/lib/jobs';
 import { newestJobState } from '@/lib/jobs/queries';
 import { appUrl } from '@/lib/mail';
@@ -23,7 +23,7 @@ import { personTimeZone } from '@/lib/account/zone';
 import type { emailChangeSchema, passwordChangeSchema, profileUpdateSchema } from '@/lib/validation/auth';
 import { AuthToken, Coop, MailSend, Membership, User } from '@/models';
 import { EMAIL_MESSAGES, findToken, linkError, linkState, type LinkState } from './links';
-import { COMMON, invalidFields } from './password-reset';
+import { COMMON } from './password-reset';
 
 export { type LinkState } from './links';
 export {

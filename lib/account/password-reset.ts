@@ -6,7 +6,7 @@ import { hashPassword, isCommonPassword } from '@/lib/auth/passwords';
 import { revokeAllSessions } from '@/lib/auth/sessions';
 import { newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
-import { HttpError } from '@/lib/http';
+import { invalidFields } from '@/lib/http';
 import { appUrl } from '@/lib/mail';
 import { formatExpiry } from '@/lib/account/format';
 import { personTimeZone } from '@/lib/account/zone';
@@ -16,8 +16,6 @@ import { findToken, linkError, linkState, RESET_MESSAGES, type LinkState } from 
 
 // Forgotten passwords: the e-mailed single-use link, and setting a new password from it.
 
-export const invalidFields = (fields: Record<string, string[]>) =>
-  new HttpError(422, 'Some fields need attention.', fields);
 export const COMMON = 'That password is on a list of commonly used passwords. Choose another.';
 
 /** The one answer to every reset request. */

@@ -4,7 +4,7 @@ import type { z } from 'zod';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
 import { addDays } from '@/lib/billing/periods';
-import { HttpError } from '@/lib/http';
+import { invalidFields } from '@/lib/http';
 import type { auditQuerySchema } from '@/lib/validation/audit';
 import { AuditEvent, User } from '@/models';
 import type { AuditEventDto } from './types';
@@ -19,7 +19,7 @@ const dayStartIn = (day: string, timeZone: string) => fn('timezone', timeZone, c
 /** A 'YYYY-MM-DD' the form sent that is not a day on the calendar (2026-02-31) is a 422, not a database error. */
 function checkDay(field: 'from' | 'to', day: string | undefined): void {
   if (day !== undefined && addDays(day, 0) !== day)
-    throw new HttpError(422, 'Some fields need attention.', { [field]: ['That day is not on the calendar.'] });
+    throw invalidFields({ [field]: ['That day is not on the calendar.'] });
 }
 
 /** The co-op's audit events matching the filters: who (user id), what (action or entity prefix), when (days in the co-op's zone). */

@@ -4,7 +4,7 @@ import { Op, type Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError, notFound } from '@/lib/http';
+import { conflict, HttpError, notFound, invalidFields } from '@/lib/http';
 import { formatCents } from '@/lib/money';
 import { chargeCard, findChargeForAttempt, type ProviderCharge } from '@/lib/payments';
 import { Coop, Invoice, Payment, PaymentAttempt } from '@/models';
@@ -169,7 +169,7 @@ export async function payInvoiceByCard(
     }
     const outstanding = cents(inv.totalCents) - cents(inv.paidCents);
     if (outstanding < MIN_CARD_CHARGE_CENTS) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         card: [
           `Amounts under ${formatCents(MIN_CARD_CHARGE_CENTS, actor.coop.currency)} cannot be paid by card; please pay the treasurer in cash.`,
         ],

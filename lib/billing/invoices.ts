@@ -11,7 +11,7 @@ import {
   type Transaction,
   type WhereOptions,
 } from 'sequelize';
-import { HttpError, notFound } from '@/lib/http';
+import { notFound, invalidFields } from '@/lib/http';
 import {
   BillingPeriod,
   BillingRun,
@@ -29,7 +29,8 @@ import { isPeriodClosed } from './locks';
 import { todayIn } from '@/lib/dates';
 import { invoiceLabel, periodToDate } from './periods';
 import { latestRun } from './run';
-import type { EmailStatus, InvoiceDetail, InvoiceStatus, InvoiceSummary, MemberBalance, PageOf } from './types';
+import type { EmailStatus, InvoiceDetail, InvoiceStatus, InvoiceSummary, MemberBalance } from './types';
+import type { Paged } from '@/lib/validation/list';
 import { paymentsOfInvoice } from './payments-read';
 
 type InvoiceWhere = WhereOptions<InferAttributes<Invoice>>;
@@ -133,7 +134,7 @@ export async function listInvoices(
     sort: InvoiceSort;
     dir: 'asc' | 'desc';
   },
-): Promise<PageOf<InvoiceSummary>> {
+): Promise<Paged<InvoiceSummary>> {
   const and: InvoiceWhere[] = [{ coopId }];
   if (filter.period) and.push({ period: periodToDate(filter.period) });
   if (filter.status === 'open') and.push({ status: OPEN_STATUSES, kind: 'invoice' });
@@ -395,5 +396,5 @@ export async function listMembersForBilling(
 /** 422 unless the membership belongs to the co-op. */
 export async function assertMember(coopId: number, membershipId: number, t?: Transaction): Promise<void> {
   const m = await Membership.findOne({ where: { id: membershipId, coopId }, attributes: ['id'], transaction: t });
-  if (!m) throw new HttpError(422, 'Some fields need attention.', { memberId: ['Choose a member of this co-op.'] });
+  if (!m) throw invalidFields({ memberId: ['Choose a member of this co-op.'] });
 }

@@ -2,7 +2,8 @@ import 'server-only';
 import { fn, col, Op, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import { BillingPeriod, Invoice, MemberCredit, Membership, Payment, Refund, User } from '@/models';
 import { dateToPeriod, invoiceLabel, periodToDate } from './periods';
-import type { PageOf, PaymentDTO } from './types';
+import type { PaymentDTO } from './types';
+import type { Paged } from '@/lib/validation/list';
 
 import { cents } from './cents';
 
@@ -170,7 +171,7 @@ export async function findPayment(coopId: number, id: number, t?: Transaction): 
 export async function listPayments(
   coopId: number,
   f: { period?: string; unmatched?: boolean; page: number; pageSize: number },
-): Promise<PageOf<PaymentDTO>> {
+): Promise<Paged<PaymentDTO>> {
   const where: PaymentWhere = {
     coopId,
     ...(f.period ? { period: periodToDate(f.period) } : {}),

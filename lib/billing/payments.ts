@@ -3,7 +3,7 @@ import type { InferAttributes, Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError, notFound } from '@/lib/http';
+import { conflict, notFound, invalidFields } from '@/lib/http';
 import { Invoice, MemberCredit, Payment } from '@/models';
 import { assertMember } from './invoices';
 import { assertPeriodOpen, lockCoopBilling } from './locks';
@@ -128,16 +128,15 @@ async function assertPayableInvoice(
     transaction: t,
   });
   if (!inv || inv.kind !== 'invoice' || inv.status === 'draft' || inv.membershipId !== membershipId) {
-    throw new HttpError(422, 'Some fields need attention.', {
+    throw invalidFields({
       invoiceId: ['Choose an issued invoice of this member.'],
     });
   }
   if (inv.status === 'paid')
-    throw new HttpError(422, 'Some fields need attention.', {
+    throw invalidFields({
       invoiceId: ['That invoice is already paid; leave the invoice empty to hold the money as credit.'],
     });
-  if (inv.status === 'void')
-    throw new HttpError(422, 'Some fields need attention.', { invoiceId: ['That invoice is void.'] });
+  if (inv.status === 'void') throw invalidFields({ invoiceId: ['That invoice is void.'] });
 }
 
 /**
@@ -159,7 +158,7 @@ export async function recordPayment(
 ): Promise<PaymentDTO> {
   const coopId = actor.coop.id;
   if (input.receivedOn > todayIn(actor.coop.timezone))
-    throw new HttpError(422, 'Some fields need attention.', {
+    throw invalidFields({
       receivedOn: ['The day received cannot be in the future.'],
     });
   const id = await inTransaction(async (t) => {

@@ -4,7 +4,7 @@ import type { InferAttributes, Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError, notFound } from '@/lib/http';
+import { conflict, HttpError, notFound, invalidFields } from '@/lib/http';
 import { formatCents } from '@/lib/money';
 import { refundCharge } from '@/lib/payments';
 import { MemberCredit, Payment, Refund } from '@/models';
@@ -174,7 +174,7 @@ export async function refundPayment(
     const fromCredit = input.amountCents - fromUnallocated;
     const creditRoom = Math.max(0, Math.min(cents(p.creditedCents), balance));
     if (fromCredit > creditRoom) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         amount: [
           `At most ${formatCents(fromUnallocated + creditRoom, actor.coop.currency)} of this payment is held for the member. Money applied to an invoice is given back by voiding the invoice first.`,
         ],

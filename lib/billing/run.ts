@@ -5,7 +5,7 @@ import type { InferAttributes, Transaction } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { HttpError } from '@/lib/http';
+import { HttpError, invalidFields } from '@/lib/http';
 import { enqueue, QUEUES, type RunChunkJob } from '@/lib/jobs';
 import { BillingRun, Coop, Invoice, Membership } from '@/models';
 import { assertPeriodOpen, isPeriodClosed, lockCoopBilling, periodBounds, periodClosedError } from './locks';
@@ -88,14 +88,14 @@ export async function startRun(
   const coopId = actor.coop.id;
   const periodDate = periodToDate(input.period);
   if (input.period > currentPeriod(actor.coop.timezone)) {
-    throw new HttpError(422, 'Some fields need attention.', { period: ['That month has not started yet.'] });
+    throw invalidFields({ period: ['That month has not started yet.'] });
   }
   const only = input.memberIds?.length ? [...new Set(input.memberIds)] : null;
   const result = await inTransaction(async (t) => {
     await lockCoopBilling(t, coopId);
     await assertPeriodOpen(coopId, periodDate, t);
     if (only && (await Membership.count({ where: { coopId, id: only }, transaction: t })) !== only.length) {
-      throw new HttpError(422, 'Some fields need attention.', { memberIds: ['Choose members of this co-op.'] });
+      throw invalidFields({ memberIds: ['Choose members of this co-op.'] });
     }
     const running = await BillingRun.findOne({
       where: { coopId, period: periodDate, status: 'running' },

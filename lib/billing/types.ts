@@ -24,10 +24,3 @@ export type RefundDTO = z.infer<typeof refundSchema>;
 export type InvoiceDetail = z.infer<typeof invoiceDetailSchema>;
 
 export type MemberBalance = z.infer<typeof balanceSchema>;
-
-export interface PageOf<T> {
-  rows: T[];
-  total: number;
-  page: number;
-  pageSize: number;
-}

@@ -1,7 +1,7 @@
 import 'server-only';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { HttpError, notFound } from '@/lib/http';
+import { notFound, invalidFields } from '@/lib/http';
 import { deleteFile, openFile, putFile, type StoredFile, type StoredKind } from '@/lib/storage';
 import { inTransaction } from '@/lib/db';
 import { BatchFile } from '@/models';
@@ -22,7 +22,7 @@ export const BATCH_FILE_KINDS: readonly StoredKind[] = ['pdf', 'jpeg', 'png'];
 export async function addBatchFile(actor: Actor, batchId: number, upload: CheckedUpload) {
   const purpose = upload.fields.purpose ?? 'lab-report';
   if (purpose !== 'photo' && purpose !== 'lab-report' && purpose !== 'receipt') {
-    throw new HttpError(422, 'Some fields need attention.', { purpose: ['Choose photo, lab report or receipt.'] });
+    throw invalidFields({ purpose: ['Choose photo, lab report or receipt.'] });
   }
   await loadBatch(actor.coop.id, batchId);
   const key = await putFile(actor.coop.id, upload.kind, upload.bytes);

@@ -24,7 +24,7 @@ import {
 import type { z } from 'zod';
 import type { computedPlanSchema } from '@/lib/api/dto/brewing';
 import type { UnitSystem } from '@/lib/units';
-import { HttpError } from '@/lib/http';
+import { invalidFields } from '@/lib/http';
 import type { CoopSettings } from '@/models/Coop';
 
 export type Catalyst = 'KOH' | 'NaOH';
@@ -60,7 +60,7 @@ export interface PlanOptions {
   yieldHistory?: readonly YieldHistoryBatch[];
 }
 
-const bad = (field: string, reason: string) => new HttpError(422, 'Some fields need attention.', { [field]: [reason] });
+const bad = (field: string, reason: string) => invalidFields({ [field]: [reason] });
 
 /**
  * Works out a batch's chemistry from its inputs and the co-op's recipe defaults, with the pure

@@ -4,7 +4,7 @@ import { Op, type InferAttributes, type InferCreationAttributes, type Transactio
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, type FifoLotByTotal } from '@/lib/costing';
-import { conflict, HttpError } from '@/lib/http';
+import { conflict, HttpError, invalidFields } from '@/lib/http';
 import { recordMovement } from '@/lib/tank/ledger';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatVolume, litersToGallons, volumeToLiters } from '@/lib/units';
@@ -170,8 +170,7 @@ export async function releaseBatch(
 ): Promise<BatchDto> {
   const coopId = actor.coop.id;
   const releasedMl = litersToMl(volumeToLiters(input.volume, actor.coop.units).toFixed(3));
-  if (releasedMl <= 0)
-    throw new HttpError(422, 'Some fields need attention.', { volume: ['Volume released must be more than 0.'] });
+  if (releasedMl <= 0) throw invalidFields({ volume: ['Volume released must be more than 0.'] });
   const releasedLiters = mlToLiters(releasedMl);
   await inTransaction(async (t) => {
     const row = await loadBatch(coopId, id, t, true);
@@ -185,7 +184,7 @@ export async function releaseBatch(
     const quality = evaluateQuality(row.qualityStandard, labResultsOf(row)).verdict;
     const reason = input.reason?.trim() ?? '';
     if (quality.kind !== 'meets' && reason.length < 3) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         reason: [`${quality.text}. Say why this batch is released anyway (at least 3 characters).`],
       });
     }
@@ -196,8 +195,7 @@ export async function releaseBatch(
       raw: true,
       transaction: t,
     });
-    if (!tankBefore)
-      throw new HttpError(422, 'Some fields need attention.', { tankId: ['Choose one of the co-op’s active tanks.'] });
+    if (!tankBefore) throw invalidFields({ tankId: ['Choose one of the co-op’s active tanks.'] });
 
     const used = await consumeChemicals(t, coopId, id, needsOf(row), false);
     const methanolCents = used.methanol.costCents;
@@ -223,7 +221,7 @@ export async function releaseBatch(
     });
     const roomMl = litersToMl(tank!.capacityLiters) - litersToMl(tank!.onHandLiters);
     if (releasedMl > roomMl) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         volume: [`The tank has room for only ${formatVolume(Math.max(0, roomMl) / 1000, actor.coop.units, 1)}.`],
       });
     }

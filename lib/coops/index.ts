@@ -2,7 +2,7 @@ import 'server-only';
 import { UniqueConstraintError } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
-import { HttpError } from '@/lib/http';
+import { invalidFields } from '@/lib/http';
 import type { z } from 'zod';
 import type { coopCreateSchema } from '@/lib/validation/auth';
 import { inTransaction } from '@/lib/db';
@@ -31,8 +31,7 @@ export async function createCoop(user: SessionUser, input: z.infer<typeof coopCr
       return { id: coop.id, slug: coop.slug, name: coop.name };
     });
   } catch (e) {
-    if (e instanceof UniqueConstraintError)
-      throw new HttpError(422, 'Some fields need attention.', { slug: ['That web address is taken.'] });
+    if (e instanceof UniqueConstraintError) throw invalidFields({ slug: ['That web address is taken.'] });
     throw e;
   }
 }

@@ -2,7 +2,7 @@ import 'server-only';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
-import { HttpError, notFound } from '@/lib/http';
+import { notFound, invalidFields } from '@/lib/http';
 import { MAX_ELEVATION_M, MIN_ELEVATION_M } from '@/lib/chemistry';
 import type { CoopSettingsUpdate } from '@/lib/validation/settings';
 import { inTransaction } from '@/lib/db';
@@ -64,7 +64,7 @@ export async function updateCoopSettings(actor: Actor, input: CoopSettingsUpdate
           ? input.elevation * FEET_TO_METERS
           : input.elevation;
     if (elevationM !== undefined && (elevationM < MIN_ELEVATION_M || elevationM > MAX_ELEVATION_M)) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         elevation: [input.units === 'us' ? 'Between −1,640 and 16,400 ft.' : 'Between −500 and 5,000 m.'],
       });
     }

@@ -5,7 +5,7 @@ import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { loadBatch, labResultsOf } from '@/lib/brewing/read';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError, notFound } from '@/lib/http';
+import { conflict, notFound, invalidFields } from '@/lib/http';
 import { enqueueMail } from '@/lib/jobs';
 import { evaluateQuality, formatQualityLimit, formatQualityValue, type QualityResults } from '@/lib/quality';
 import { recordMovement } from '@/lib/tank/ledger';
@@ -16,7 +16,7 @@ import { Batch, BatchFile, BatchReview, Membership, Reservation, Tank, TankLayer
 import { outcomeMail, recallMail, reservationHeldMail } from './mail';
 import { batchShareRows, drawsAndMembers, reviewDto, type ReviewDto } from './read';
 
-const bad = (fields: Record<string, string[]>) => new HttpError(422, 'Some fields need attention.', fields);
+const bad = (fields: Record<string, string[]>) => invalidFields(fields);
 
 /** The co-op's brewers and admins, named in the e-mails as whom to contact. */
 async function contacts(coopId: number, t: Transaction) {

@@ -1,5 +1,5 @@
 import 'server-only';
-import { checkHostileText, HttpError } from '@/lib/http';
+import { checkHostileText, HttpError, invalidFields } from '@/lib/http';
 import { DOWNLOAD_CSP } from '@/lib/security/headers';
 import { MAX_UPLOAD_BYTES, mimeOf, sniffKind, type StoredFile, type StoredKind } from '@/lib/storage';
 
@@ -77,10 +77,9 @@ export async function readUpload(req: Request, allowed: readonly StoredKind[], f
     });
   }
   const entry = form.get(field);
-  if (!entry || typeof entry === 'string')
-    throw new HttpError(422, 'Some fields need attention.', { [field]: ['Choose a file to upload.'] });
+  if (!entry || typeof entry === 'string') throw invalidFields({ [field]: ['Choose a file to upload.'] });
   if (entry.size > MAX_UPLOAD_BYTES) throw tooBig();
-  if (entry.size === 0) throw new HttpError(422, 'Some fields need attention.', { [field]: ['The file is empty.'] });
+  if (entry.size === 0) throw invalidFields({ [field]: ['The file is empty.'] });
   const bytes = new Uint8Array(await entry.arrayBuffer());
   const kind = sniffKind(bytes);
   if (!kind || !allowed.includes(kind)) {
@@ -88,12 +87,12 @@ export async function readUpload(req: Request, allowed: readonly StoredKind[], f
       .map((k) => KIND_NAMES[k])
       .join(', ')
       .replace(/, ([^,]*)$/, ' or $1');
-    throw new HttpError(422, 'Some fields need attention.', {
+    throw invalidFields({
       [field]: [`This file is not a ${want} (checked from its content, not its name).`],
     });
   }
   if (hasActiveContent(bytes, kind)) {
-    throw new HttpError(422, 'Some fields need attention.', {
+    throw invalidFields({
       [field]: [
         `This ${KIND_NAMES[kind]} contains web page or script content, which is not accepted. Save or print it as a plain ${KIND_NAMES[kind]} and upload that.`,
       ],

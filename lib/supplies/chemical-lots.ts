@@ -4,7 +4,7 @@ import type { z } from 'zod';
 import { col, fn, type InferAttributes, type Transaction, type WhereOptions } from 'sequelize';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { HttpError, notFound } from '@/lib/http';
+import { notFound, invalidFields } from '@/lib/http';
 import { inTransaction } from '@/lib/db';
 import { deleteFile, openFile, putFile, type StoredFile } from '@/lib/storage';
 import { gallonsToLiters, lbToKg } from '@/lib/units';
@@ -136,8 +136,7 @@ export function toStoredQuantity(
 export async function createChemicalLot(actor: Actor, input: ChemicalLotCreateInput): Promise<ChemicalLotDto> {
   const stored = toStoredQuantity(input.quantity, input.unit);
   const qty = stored.quantity.toFixed(3);
-  if (Number(qty) <= 0)
-    throw new HttpError(422, 'Some fields need attention.', { quantity: ['Quantity is too small to record.'] });
+  if (Number(qty) <= 0) throw invalidFields({ quantity: ['Quantity is too small to record.'] });
   const created = await inTransaction(async (transaction) => {
     const lot = await ChemicalLot.create(
       {

@@ -4,7 +4,7 @@ import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError } from '@/lib/http';
+import { conflict, HttpError, invalidFields } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
 import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
 import type { dipCreateSchema } from '@/lib/validation/tank';
@@ -39,14 +39,14 @@ export async function recordDip(
     const capacityMl = litersToMl(tank.capacityLiters);
     const diffMl = measuredMl - bookMl;
     if (measuredMl > capacityMl) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         measured: [
           `${tank.name} holds at most ${formatMl(capacityMl, units)}. Check the reading, or correct the tank's capacity first.`,
         ],
       });
     }
     if (diffMl !== 0 && !input.reason) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         reason: ['Say why the tank differs from the book (e.g. evaporation, a spill, meter drift).'],
       });
     }

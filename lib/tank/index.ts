@@ -12,7 +12,7 @@ import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError, notFound } from '@/lib/http';
+import { conflict, notFound, invalidFields } from '@/lib/http';
 import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { tankCreateSchema, tankUpdateSchema } from '@/lib/validation/tank';
@@ -161,8 +161,7 @@ export async function getTank(actor: Actor, tankId: number): Promise<TankDto> {
   return tankDto(row, actor.coop.units);
 }
 
-const nameTaken = () =>
-  new HttpError(422, 'Some fields need attention.', { name: ['Another tank in this co-op already has that name.'] });
+const nameTaken = () => invalidFields({ name: ['Another tank in this co-op already has that name.'] });
 
 /** Creates an empty tank (brewer/admin). Capacity is in the co-op's unit. */
 export async function createTank(actor: Actor, input: z.infer<typeof tankCreateSchema>): Promise<TankDto> {
@@ -213,7 +212,7 @@ export async function updateTank(
       if (input.capacity !== undefined) {
         const capacityMl = milliUnitsToMl(input.capacity, actor.coop.units);
         if (capacityMl < onHandMl) {
-          throw new HttpError(422, 'Some fields need attention.', {
+          throw invalidFields({
             capacity: [`The tank already holds ${formatMl(onHandMl, actor.coop.units)}; the capacity cannot be less.`],
           });
         }

@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError } from '@/lib/http';
+import { conflict, HttpError, invalidFields } from '@/lib/http';
 import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
 import type { transferCreateSchema } from '@/lib/validation/tank';
 import { getTank, lockTank, type TankDto } from './index';
@@ -34,7 +34,7 @@ export async function transferFuel(
     const fields: Record<string, string[]> = {};
     if (!from) fields.fromTankId = ['No such tank in this co-op.'];
     if (!to) fields.toTankId = ['No such tank in this co-op.'];
-    if (!from || !to) throw new HttpError(422, 'Some fields need attention.', fields);
+    if (!from || !to) throw invalidFields(fields);
     if (!from.active || !to.active) throw conflict(`${!from.active ? from.name : to.name} is out of service.`);
     const availableMl = litersToMl(from.onHandLiters) - litersToMl(from.reservedLiters) - litersToMl(from.heldLiters);
     if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;

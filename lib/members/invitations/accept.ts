@@ -8,7 +8,7 @@ import { hashPassword, isCommonPassword } from '@/lib/auth/passwords';
 import { ROLE_SUMMARY, type Role } from '@/lib/auth/roles';
 import { hashLinkToken, isLinkTokenShape } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
-import { conflict, forbidden, HttpError, notFound } from '@/lib/http';
+import { conflict, forbidden, HttpError, notFound, invalidFields } from '@/lib/http';
 import type { invitationAcceptSchema } from '@/lib/validation/auth';
 import { Invitation, Membership, User } from '@/models';
 import { INVITATION_ATTRIBUTES, INVITED_BY, isPast } from './columns';
@@ -147,7 +147,7 @@ export async function acceptInvitation(
         if (!passwordHash) fields.password = ['Choose a password of 12 to 128 characters.'];
         else if (isCommonPassword(input.password!))
           fields.password = ['That password is on a list of commonly used passwords. Choose another.'];
-        if (Object.keys(fields).length) throw new HttpError(422, 'Some fields need attention.', fields);
+        if (Object.keys(fields).length) throw invalidFields(fields);
         const created = await User.create(
           { email: inv.email.toLowerCase(), name: input.name!, passwordHash: passwordHash! },
           { transaction },

@@ -4,7 +4,7 @@ import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, forbidden, HttpError } from '@/lib/http';
+import { conflict, forbidden, HttpError, invalidFields } from '@/lib/http';
 import { policyInForce } from '@/lib/tank/pricing-policy';
 import { priceDraw } from '@/lib/tank/pricing-policy/convert';
 import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
@@ -28,7 +28,7 @@ export function drawRecorderScope(actor: Actor): 'any' | 'self' {
   throw forbidden('Draws are recorded by the co-op’s brewers (this co-op has no self-serve pump).');
 }
 
-const bad = (fields: Record<string, string[]>) => new HttpError(422, 'Some fields need attention.', fields);
+const bad = (fields: Record<string, string[]>) => invalidFields(fields);
 
 /**
  * Records a draw, all in one transaction: expire lapsed reservations; check the member (and

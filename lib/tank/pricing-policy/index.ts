@@ -5,7 +5,7 @@ import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { HttpError } from '@/lib/http';
+import { invalidFields } from '@/lib/http';
 import { parseInstant } from '@/lib/tank/reservations/window';
 import type { UnitSystem } from '@/lib/units';
 import type { pricingPolicyCreateSchema } from '@/lib/validation/tank';
@@ -160,9 +160,9 @@ export async function createPolicy(actor: Actor, input: z.infer<typeof pricingPo
   let effectiveFrom = new Date();
   if (input.effectiveFrom) {
     const t = parseInstant(input.effectiveFrom, actor.coop.timezone);
-    if (!t) throw new HttpError(422, 'Some fields need attention.', { effectiveFrom: ['Enter a date and time.'] });
+    if (!t) throw invalidFields({ effectiveFrom: ['Enter a date and time.'] });
     if (t.getTime() < Date.now() - 5 * 60_000) {
-      throw new HttpError(422, 'Some fields need attention.', {
+      throw invalidFields({
         effectiveFrom: ['A new price cannot take effect in the past; draws already recorded keep their price.'],
       });
     }

@@ -5,7 +5,7 @@ import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
-import { conflict, HttpError, notFound } from '@/lib/http';
+import { conflict, HttpError, notFound, invalidFields } from '@/lib/http';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
 import type { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
@@ -52,10 +52,9 @@ export async function createReservation(
   const units = actor.coop.units;
   const coopId = actor.coop.id;
   const window = reservationWindow(input.windowStart, input.windowEnd, actor.coop.timezone);
-  if (!window.ok) throw new HttpError(422, 'Some fields need attention.', window.fields);
+  if (!window.ok) throw invalidFields(window.fields);
   const qMl = milliUnitsToMl(input.quantity, units);
-  if (qMl <= 0)
-    throw new HttpError(422, 'Some fields need attention.', { quantity: ['Enter a quantity greater than zero.'] });
+  if (qMl <= 0) throw invalidFields({ quantity: ['Enter a quantity greater than zero.'] });
   const auditAfter = (liters: string) => ({
     tankId: input.tankId,
     membershipId: actor.membershipId,
@@ -88,7 +87,7 @@ export async function createReservation(
           raw: true,
         });
         if (!cur || !cur.active)
-          throw new HttpError(422, 'Some fields need attention.', {
+          throw invalidFields({
             tankId: ['Choose one of the co-op’s tanks that is in service.'],
           });
         // Fuel of a batch under review is held: not available to reserve.
