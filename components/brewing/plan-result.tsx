@@ -119,7 +119,7 @@ export function PlanResult({ r, units, currency }: { r: PlannerResult; units: Un
         <Big
           label="Expected"
           value={`${vol(plan.projectedFuelLiters, units)} fuel`}
-          sub={`${plan.yieldProjection.source === 'history' ? `${(plan.yieldProjection.ratio * 100).toFixed(0)} % of the oil, the median of your last ${plan.yieldProjection.batches} released batch${plan.yieldProjection.batches === 1 ? '' : 'es'}; ideal ${vol(plan.yields.fuelLiters, units)}` : `the stoichiometric ideal (no released batches yet); real batches release less`}. Crude glycerin layer about ${vol(plan.yields.crudeGlycerinLiters, units)} (pure glycerol ${vol(plan.yields.glycerolLiters, units)}).`}
+          sub={`${plan.yieldProjection.source === 'history' ? `${(plan.yieldProjection.ratio * 100).toFixed(0)} % of the oil, the median of your last ${plan.yieldProjection.batches} finished batch${plan.yieldProjection.batches === 1 ? '' : 'es'}; ideal ${vol(plan.yields.fuelLiters, units)}` : `the stoichiometric ideal (no finished batches yet); real batches release less`}. Crude glycerin layer about ${vol(plan.yields.crudeGlycerinLiters, units)} (pure glycerol ${vol(plan.yields.glycerolLiters, units)}).`}
         />
       </div>
       {r.notes.length ? (

@@ -32,7 +32,7 @@ export function BatchCostChart({
     v.toLocaleString('en-US', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 });
   return (
     <BarChartCard
-      title={`Cost per ${per === 'gal' ? 'gallon' : 'litre'}, last released batches`}
+      title={`Cost per ${per === 'gal' ? 'gallon' : 'litre'}, last finished batches`}
       xKey="batch"
       xLabel="Batch"
       yLabel={`${currency} per ${per}`}

@@ -59,11 +59,11 @@ function median(values: readonly number[]): number {
 }
 
 /**
- * Expected fuel yield for planning: the median of the co-op's recent released batches (fuel
- * released ÷ oil in), or the stoichiometric ideal (≈ 1.05) only when there is no history.
+ * Expected fuel yield for planning: the median of the co-op's recent finished batches (released or
+ * imported; fuel out ÷ oil in), or the stoichiometric ideal (≈ 1.05) only when there is no history.
  * Batches with no oil or no fuel are ignored. Pass the most recent batches first; only the
  * first {@link YIELD_HISTORY_BATCHES} are used.
- * @param history recent released batches, newest first
+ * @param history recent finished batches, newest first
  * @returns the ratio, where it came from, and the ideal beside it
  */
 export function projectedFuelYield(history: readonly YieldHistoryBatch[]): FuelYieldProjection {
@@ -80,7 +80,7 @@ export function projectedFuelYield(history: readonly YieldHistoryBatch[]): FuelY
       source: 'ideal',
       batches: 0,
       idealRatio: IDEAL_FUEL_PER_OIL,
-      explanation: `No released batches yet: using the stoichiometric ideal of ${IDEAL_FUEL_PER_OIL.toFixed(2)} volumes of fuel per volume of oil; real batches usually release less.`,
+      explanation: `No finished batches yet (released, or imported from past records): using the stoichiometric ideal of ${IDEAL_FUEL_PER_OIL.toFixed(2)} volumes of fuel per volume of oil; real batches usually release less.`,
     };
   }
   const ratio = median(ratios);
@@ -89,7 +89,7 @@ export function projectedFuelYield(history: readonly YieldHistoryBatch[]): FuelY
     source: 'history',
     batches: ratios.length,
     idealRatio: IDEAL_FUEL_PER_OIL,
-    explanation: `Median of the last ${ratios.length} released batch${ratios.length === 1 ? '' : 'es'}: ${(ratio * 100).toFixed(1)} % of the oil volume released as fuel (the stoichiometric ideal is ${(IDEAL_FUEL_PER_OIL * 100).toFixed(1)} %).`,
+    explanation: `Median of the last ${ratios.length} finished batch${ratios.length === 1 ? '' : 'es'} (released, or imported from past records): ${(ratio * 100).toFixed(1)} % of the oil volume released as fuel (the stoichiometric ideal is ${(IDEAL_FUEL_PER_OIL * 100).toFixed(1)} %).`,
   };
 }
 

@@ -141,7 +141,7 @@ function treasurerSectionOf(
 }
 
 /**
- * The last 12 released batches' cost per US gallon by kind, from the costs stored at release
+ * The last 12 finished batches' (released, or imported with costs) cost per US gallon by kind, from the costs stored at release
  * (cents ÷ gallons released, in SQL's exact NUMERIC), oldest first; the release day in the co-op's
  * time zone.
  */

@@ -11,15 +11,15 @@ const ROLES = [
     who: 'marisol.admin',
     role: 'admin',
     headings: ['Brewing', 'Billing this month', 'Invitations'],
-    charts: ['Cost per gallon, last released batches', 'Members with the largest unpaid balances'],
+    charts: ['Cost per gallon, last finished batches', 'Members with the largest unpaid balances'],
   },
   {
     who: 'tobias.treasurer',
     role: 'treasurer',
     headings: ['Billing this month'],
-    charts: ['Cost per gallon, last released batches', 'Members with the largest unpaid balances'],
+    charts: ['Cost per gallon, last finished batches', 'Members with the largest unpaid balances'],
   },
-  { who: 'juniper.brewer', role: 'brewer', headings: ['Brewing'], charts: ['Cost per gallon, last released batches'] },
+  { who: 'juniper.brewer', role: 'brewer', headings: ['Brewing'], charts: ['Cost per gallon, last finished batches'] },
   { who: 'dale.member', role: 'member', headings: ['My account', 'My reservations'], charts: [] },
 ] as const;
 

@@ -831,7 +831,7 @@ export interface components {
         unmatchedPayments: number;
         unmatchedCents: number;
       };
-      /** @description Brewers, treasurers and admins: the last released batches, oldest first */
+      /** @description Brewers, treasurers and admins: the last finished batches (released, or imported with costs), oldest first */
       batchCosts?: components["schemas"]["BatchCost"][];
       /** @description Treasurers and admins: who owes the most */
       balances?: {

@@ -108,7 +108,9 @@ export const overviewSchema = z
     batchCosts: z
       .array(batchCostSchema)
       .optional()
-      .describe('Brewers, treasurers and admins: the last released batches, oldest first'),
+      .describe(
+        'Brewers, treasurers and admins: the last finished batches (released, or imported with costs), oldest first',
+      ),
     balances: z
       .object({
         topOwing: z.array(z.object({ membershipId: int(), name: str(), outstandingCents: int() })),
