@@ -16,6 +16,7 @@ import {
   batchOilLotShares,
   labResultsOf,
   loadBatch,
+  isBrewed,
   planInputOf,
   quickTestInput,
   quickTestsOf,
@@ -61,7 +62,7 @@ function fmtDate(d: Date | string, timezone: string): string {
  */
 export async function batchCertificate(actor: Actor, id: number): Promise<{ bytes: Buffer; filename: string }> {
   const row = await loadBatch(actor.coop.id, id);
-  if (row.status !== 'released') {
+  if (row.status !== 'released' || !isBrewed(row)) {
     if (!can(actor.role, 'batches:read-all')) throw notFound('Batch not found.');
     throw conflict(`Batch ${row.number} is not released yet: certificates are for released batches.`);
   }

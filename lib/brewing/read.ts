@@ -11,7 +11,7 @@ import type { InferAttributes, Transaction } from 'sequelize';
 import { can, type Actor } from '@/lib/auth';
 import { temperatureCheck } from '@/lib/chemistry';
 import { energyCostCents } from '@/lib/costing';
-import { notFound } from '@/lib/http';
+import { conflict, notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
 import { evaluateQuality, evaluateQuickTests, type QuickTestInput, type QualityResults } from '@/lib/quality';
 import { litersToMl } from '@/lib/units/quantity';
@@ -58,6 +58,46 @@ export async function loadBatch(
   return row;
 }
 
+/** The recipe columns: set on every batch brewed here, NULL on an imported past batch only. */
+const RECIPE_FIELDS = [
+  'titrationTrialsMl',
+  'titrant',
+  'titrationAvgMl',
+  'catalyst',
+  'baseGPerL',
+  'purityPct',
+  'titrantFrom',
+  'catalystRule',
+  'methanolMode',
+  'computedCatalystGrams',
+  'computedMethanolLiters',
+] as const satisfies readonly (keyof BatchRecord)[];
+type RecipeField = (typeof RECIPE_FIELDS)[number];
+
+/** A batch brewed here (not an imported summary): its recipe columns are all set. */
+export type BrewedBatch = Omit<BatchRecord, RecipeField> & { [K in RecipeField]: NonNullable<BatchRecord[K]> };
+
+export const isBrewed = (row: BatchRecord): row is BrewedBatch =>
+  row.status !== 'imported' && RECIPE_FIELDS.every((f) => row[f] !== null);
+
+/**
+ * loadBatch for the actions that work from the recipe (change, release, reject, certificate): an
+ * imported past batch has none and is read-only, so it is a 409.
+ */
+export async function loadBrewedBatch(
+  coopId: number,
+  id: number,
+  transaction?: Transaction,
+  lock = false,
+): Promise<BrewedBatch> {
+  const row = await loadBatch(coopId, id, transaction, lock);
+  if (!isBrewed(row))
+    throw conflict(
+      `Batch ${row.number} was imported from past records: it has no recipe or steps and cannot be changed here.`,
+    );
+  return row;
+}
+
 /** The quick tests and lab results of a batch in lib/quality's shapes (stored as JSONB). */
 export const quickTestsOf = (row: Pick<BatchRecord, 'quickTests'>): QuickTestsStored =>
   (row.quickTests ?? {}) as QuickTestsStored;
@@ -65,7 +105,7 @@ export const labResultsOf = (row: Pick<BatchRecord, 'labResults'>): QualityResul
   (row.labResults ?? {}) as QualityResults;
 
 /** The plan inputs a stored batch was computed from. */
-export function planInputOf(row: BatchRecord): PlanInput {
+export function planInputOf(row: BrewedBatch): PlanInput {
   return {
     oilLiters: Number(row.oilLiters),
     titration: { source: row.titrationSource, trials: row.titrationTrialsMl.map(Number), titrant: row.titrant },
@@ -83,10 +123,10 @@ export function planInputOf(row: BatchRecord): PlanInput {
 }
 
 /** Quick tests in the shape lib/quality wants (the soap test takes the batch's catalyst). */
-export function quickTestInput(stored: QuickTestsStored, catalyst: Catalyst): QuickTestInput {
+export function quickTestInput(stored: QuickTestsStored, catalyst: Catalyst | null): QuickTestInput {
   return {
     ...(stored.test327 ? { test327: stored.test327 } : {}),
-    ...(stored.soap ? { soap: { ...stored.soap, catalyst } } : {}),
+    ...(stored.soap && catalyst ? { soap: { ...stored.soap, catalyst } } : {}),
     ...(stored.washTest ? { washTest: stored.washTest } : {}),
     ...(stored.water ? { water: stored.water } : {}),
   };
@@ -228,7 +268,7 @@ export async function getBatch(
   const labResults = labResultsOf(row);
   const quickTestEvaluation = evaluateQuickTests(quickTestInput(quickTests, row.catalyst));
   const quality = evaluateQuality(row.qualityStandard, labResults);
-  if (!full || imported) {
+  if (!full || !isBrewed(row)) {
     const costs = costsOf(row);
     return {
       view: 'summary',

@@ -16,9 +16,10 @@ import {
   feedstockShareCents,
   getBatch,
   labResultsOf,
-  loadBatch,
+  loadBrewedBatch,
   type BatchDto,
   type BatchRecord,
+  type BrewedBatch,
 } from './read';
 import { evaluateQuality } from '@/lib/quality';
 
@@ -132,7 +133,7 @@ export async function consumeChemicals(
 }
 
 /** The chemicals a batch used: what was recorded as actually used, else the plan. */
-function needsOf(row: BatchRecord): Need[] {
+function needsOf(row: BrewedBatch): Need[] {
   const methanol = Number(row.actualMethanolLiters ?? row.computedMethanolLiters);
   const catalyst = Number(row.actualCatalystGrams ?? row.computedCatalystGrams);
   return [
@@ -173,7 +174,7 @@ export async function releaseBatch(
   if (releasedMl <= 0) throw invalidFields({ volume: ['Volume released must be more than 0.'] });
   const releasedLiters = mlToLiters(releasedMl);
   await inTransaction(async (t) => {
-    const row = await loadBatch(coopId, id, t, true);
+    const row = await loadBrewedBatch(coopId, id, t, true);
     if (row.status === 'released' || row.status === 'rejected')
       throw conflict(`Batch ${row.number} is already ${row.status}.`);
     if (row.status !== 'testing')
@@ -295,7 +296,7 @@ export async function releaseBatch(
 export async function rejectBatch(actor: Actor, id: number, reason: string): Promise<BatchDto> {
   const coopId = actor.coop.id;
   await inTransaction(async (t) => {
-    const row = await loadBatch(coopId, id, t, true);
+    const row = await loadBrewedBatch(coopId, id, t, true);
     if (row.status === 'released' || row.status === 'rejected')
       throw conflict(`Batch ${row.number} is already ${row.status}.`);
     // Once the reaction has started its chemicals are gone: they and the other costs stay on the batch.

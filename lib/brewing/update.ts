@@ -13,7 +13,7 @@ import { fieldError, nextLotPurity, planColumns, writeOilLots } from './plan-inp
 import {
   getBatch,
   labResultsOf,
-  loadBatch,
+  loadBrewedBatch,
   planInputOf,
   quickTestInput,
   quickTestsOf,
@@ -51,7 +51,7 @@ const PLAN_FIELDS = [
 export async function updateBatch(actor: Actor, id: number, input: BatchUpdateInput): Promise<BatchDto> {
   const units = actor.coop.units;
   await inTransaction(async (t) => {
-    const row = await loadBatch(actor.coop.id, id, t, true);
+    const row = await loadBrewedBatch(actor.coop.id, id, t, true);
     if (isFinal(row.status))
       throw conflict(`Batch ${row.number} is ${row.status}; its record can no longer be changed.`);
     const planTouched = PLAN_FIELDS.filter((f) => input[f] !== undefined);

@@ -170,6 +170,13 @@ describe('past batches imported in summary', () => {
       .post(`/api/coops/${ctx.coop.slug}/batches/${id}/advance`)
       .send({ to: 'testing' })
       .expect(409);
+    // Rejecting works from the recipe's chemicals: an imported batch has none, so it is refused and stays as it was.
+    const rejected = await ctx.agents.brewer
+      .post(`/api/coops/${ctx.coop.slug}/batches/${id}/reject`)
+      .send({ reason: 'test' })
+      .expect(409);
+    expect(rejected.body.error).toMatch(/imported from past records/);
+    expect((await sql('SELECT status FROM batches WHERE id = $1', [id]))[0]).toEqual({ status: 'imported' });
     const list = await ctx.agents.member.get(`/api/coops/${ctx.coop.slug}/batches`).expect(200);
     expect(list.body.rows.map((r: { number: number; status: string }) => [r.number, r.status])).toEqual([
       [13, 'imported'],
