@@ -3,19 +3,18 @@
 import useSWR from 'swr';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import type { TankSummary } from '@/lib/overview/types';
-
-const fetcher = (url: string) =>
-  fetch(url).then((r) => (r.ok ? r.json() : Promise.reject(new Error(String(r.status)))));
+import { apiClient, dataOrThrow } from '@/lib/api/client';
 
 /**
  * On hand / reserved / available across the co-op's tanks, refreshed every few seconds (SWR),
  * seeded from the server. The bar shows proportions; the numbers are always written out.
  */
 export function TankLevelCard({ coop, units, initial }: { coop: string; units: UnitSystem; initial: TankSummary }) {
-  const { data, error } = useSWR<{ tank: TankSummary }>(`/api/coops/${coop}/overview`, fetcher, {
-    fallbackData: { tank: initial } as { tank: TankSummary },
-    refreshInterval: 10_000,
-  });
+  const { data, error } = useSWR(
+    `/api/coops/${coop}/overview`,
+    () => dataOrThrow(apiClient.GET('/api/coops/{coop}/overview', { params: { path: { coop } } })),
+    { refreshInterval: 10_000 },
+  );
   const t = data?.tank ?? initial;
   const cap = Number(t.capacityLiters) || 1;
   const pct = (l: string) => `${Math.min(100, Math.max(0, (Number(l) / cap) * 100)).toFixed(1)}%`;
