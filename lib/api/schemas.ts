@@ -11,6 +11,7 @@ export * from './dto/billing';
 export * from './dto/brewing';
 export * from './dto/core';
 export { itemsOf, pageOf } from './dto/common';
+export * from './dto/imports';
 export * from './dto/members';
 export * from './dto/overview';
 export * from './dto/tank';

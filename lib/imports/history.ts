@@ -1,32 +1,18 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { earlierImportSchema, importDetailSchema, importRowSchema, importSchema } from '@/lib/api/dto/imports';
 import type { Actor } from '@/lib/auth';
 import { csvRows } from '@/lib/csv';
 import { conflict, notFound } from '@/lib/http';
 import type { ImportKindName } from '@/lib/validation/imports';
 import { Import, Invitation } from '@/models';
-import type { ImportStatus } from '@/models/Import';
 
-/** A confirmed import as the history and the status screen show it. */
-export interface ImportDto {
-  id: number;
-  kind: ImportKindName;
-  fileName: string;
-  status: ImportStatus;
-  rowsTotal: number;
-  rowsImported: number;
-  rowsSkipped: number;
-  createdAt: string;
-  createdBy: string | null;
-  undoneAt: string | null;
-}
+/** A confirmed import as the history and the status screen show it: the API's Import. */
+export type ImportDto = z.infer<typeof importSchema>;
 
 /** The earlier import of the same file (same kind, same SHA-256) that still stands. */
-export interface EarlierImport {
-  id: number;
-  createdAt: string;
-  createdBy: string | null;
-}
+export type EarlierImport = z.infer<typeof earlierImportSchema>;
 
 const ATTRIBUTES = [
   'id',
@@ -107,22 +93,10 @@ export async function listImports(actor: Actor): Promise<ImportDto[]> {
 }
 
 /** One row of an import with, for invitations, where its e-mail stands now. */
-export interface ImportRowDto {
-  line: number;
-  fate: string;
-  values: Record<string, string>;
-  entityId: number | null;
-  /** Invitations: queued / sent / not-sent, and accepted or revoked once that happened. */
-  delivery: string | null;
-  invitationStatus: string | null;
-}
+export type ImportRowDto = z.infer<typeof importRowSchema>;
 
-export interface ImportDetail {
-  import: ImportDto;
-  rows: ImportRowDto[];
-  /** Invitations: how many e-mails are waiting, sent, or failed every try. */
-  progress: { queued: number; sent: number; notSent: number } | null;
-}
+/** An import with every row and, for invitations, the e-mails' progress: the API's ImportDetail. */
+export type ImportDetail = z.infer<typeof importDetailSchema>;
 
 /** An import with every row (id AND co-op AND kind in one query; anything else is a 404). */
 export async function getImport(actor: Actor, kind: ImportKindName, id: number): Promise<ImportDetail> {

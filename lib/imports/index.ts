@@ -1,4 +1,6 @@
 import 'server-only';
+import type { z } from 'zod';
+import type { importPreviewSchema, importResultSchema } from '@/lib/api/dto/imports';
 import type { Actor } from '@/lib/auth';
 import { csvRows } from '@/lib/csv';
 import { notFound } from '@/lib/http';
@@ -24,8 +26,8 @@ export { IMPORT_TEMPLATES, type ImportTemplate };
 
 /** What one kind of import can do: preview (writes nothing), confirm (one transaction), name its fates. */
 interface Importer {
-  preview(actor: Actor, input: ImportFileInput): Promise<unknown>;
-  confirm(actor: Actor, input: ImportFileInput): Promise<{ importId: number }>;
+  preview(actor: Actor, input: ImportFileInput): Promise<z.infer<typeof importPreviewSchema>>;
+  confirm(actor: Actor, input: ImportFileInput): Promise<z.infer<typeof importResultSchema>>;
   fateLabel(fate: string): string;
   /** The file's columns in order, for the result download. */
   columns: readonly { key: string; heading: string }[];

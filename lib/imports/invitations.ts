@@ -1,5 +1,12 @@
 import 'server-only';
 import { col, fn, Op, UniqueConstraintError, where } from 'sequelize';
+import type { z } from 'zod';
+import type {
+  invitationFate,
+  invitationImportPreviewSchema,
+  invitationImportResultSchema,
+  invitationPreviewRowSchema,
+} from '@/lib/api/dto/imports';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { ROLES, type Role } from '@/lib/auth/roles';
@@ -12,7 +19,7 @@ import type { ImportFileInput } from '@/lib/validation/imports';
 import { Import, Invitation, Membership } from '@/models';
 import type { ImportRowRecord } from '@/models/Import';
 import { csvFileHash, readCsv, type CsvRow } from './csv-read';
-import { assertNotImportedYet, earlierImportOf, type EarlierImport } from './history';
+import { assertNotImportedYet, earlierImportOf } from './history';
 
 /** The columns of an invitations file (name is optional; a blank role means member). */
 export const INVITATION_COLUMNS = [
@@ -23,7 +30,7 @@ export const INVITATION_COLUMNS = [
 type Key = (typeof INVITATION_COLUMNS)[number]['key'];
 
 /** What happens to one row. Only `invite` rows become invitations. */
-export type InvitationFate = 'invite' | 'member' | 'invited' | 'duplicate' | 'bad-email' | 'bad-role' | 'bad-name';
+export type InvitationFate = z.infer<typeof invitationFate>;
 
 export const FATE_LABEL: Record<InvitationFate, string> = {
   invite: 'Will invite',
@@ -38,26 +45,11 @@ export const FATE_LABEL: Record<InvitationFate, string> = {
 /** The same fates once the import is done (the result page and download). */
 export const RESULT_LABEL: Record<InvitationFate, string> = { ...FATE_LABEL, invite: 'Invited' };
 
-export interface InvitationPreviewRow {
-  line: number;
-  name: string;
-  email: string;
-  role: string;
-  fate: InvitationFate;
-  /** The field the problem is in, for rows that are refused. */
-  field: Key | null;
-  message: string;
-}
+/** One row of the file and its fate: the API's shape (one definition). */
+export type InvitationPreviewRow = z.infer<typeof invitationPreviewRowSchema>;
 
-export interface InvitationPreview {
-  fileName: string;
-  fileHash: string;
-  rows: InvitationPreviewRow[];
-  counts: Record<InvitationFate, number>;
-  ignoredHeadings: string[];
-  /** This very file was imported before (a confirm would be refused). */
-  earlierImport: EarlierImport | null;
-}
+/** Each row's fate if the file were imported now, and whether this very file was imported before. */
+export type InvitationPreview = z.infer<typeof invitationImportPreviewSchema>;
 
 /** What the co-op already has for the addresses in the file: members, and pending invitations (expired or not). */
 interface Known {
@@ -201,7 +193,7 @@ export async function previewInvitationImport(actor: Actor, input: ImportFileInp
 export async function confirmInvitationImport(
   actor: Actor,
   input: ImportFileInput,
-): Promise<{ importId: number; invited: number; skipped: number }> {
+): Promise<z.infer<typeof invitationImportResultSchema>> {
   const { rows } = parse(input);
   const fileHash = csvFileHash(input.csv);
   try {

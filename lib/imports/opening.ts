@@ -1,5 +1,7 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { openingImportPreviewSchema, openingImportResultSchema, openingRowSchema } from '@/lib/api/dto/imports';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
@@ -8,34 +10,19 @@ import type { ImportFileInput, ImportKindName } from '@/lib/validation/imports';
 import { Import } from '@/models';
 import type { ImportRowRecord } from '@/models/Import';
 import { csvFileHash, readCsv, type CsvColumn, type CsvRow } from './csv-read';
-import { assertNotImportedYet, earlierImportOf, type EarlierImport } from './history';
+import { assertNotImportedYet, earlierImportOf } from './history';
 
 // Opening records (balances, tank stock, supplies, past batches) share one shape: every row is
 // checked field by field; the preview lists each row with its errors; the import is all or
 // nothing — one transaction, refused whole (422, naming rows and fields) while any row is wrong.
 
-export interface FieldProblem {
-  field: string;
-  message: string;
-}
-
 /** One row as checked: its values as read, its problems (none = ready), and what it will become. */
-export interface OpeningRow {
-  line: number;
-  values: Record<string, string>;
-  errors: FieldProblem[];
-  /** What importing this row does, in words ("Owes $42.50 as of 12/31/2026"). */
-  note: string;
-}
+export type OpeningRow = z.infer<typeof openingRowSchema>;
 
-export interface OpeningPreview {
-  fileName: string;
-  fileHash: string;
-  rows: OpeningRow[];
-  counts: { ready: number; errors: number };
-  ignoredHeadings: string[];
-  earlierImport: EarlierImport | null;
-}
+export type FieldProblem = OpeningRow['errors'][number];
+
+/** Every row checked, nothing written: the API's OpeningImportPreview. */
+export type OpeningPreview = z.infer<typeof openingImportPreviewSchema>;
 
 /** A row that passed its checks, with what the importer needs to write it. */
 export interface Checked<P> extends OpeningRow {
@@ -89,7 +76,7 @@ export async function confirmOpening<K extends string, P>(
   actor: Actor,
   spec: OpeningKind<K, P>,
   input: ImportFileInput,
-): Promise<{ importId: number; imported: number }> {
+): Promise<z.infer<typeof openingImportResultSchema>> {
   const read = parse(spec, input);
   const fileHash = csvFileHash(input.csv);
   return inTransaction(async (t) => {

@@ -1,5 +1,7 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { importUndoneSchema } from '@/lib/api/dto/imports';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
@@ -20,7 +22,7 @@ export async function undoImport(
   kind: ImportKindName,
   id: number,
   undoRows: UndoRows | undefined,
-): Promise<{ undone: true; id: number }> {
+): Promise<z.infer<typeof importUndoneSchema>> {
   return inTransaction(async (t) => {
     const row = await Import.findOne({
       attributes: ['id', 'status', 'rows', 'fileName'],

@@ -1,6 +1,13 @@
 import { z } from 'zod';
 import { IMPORT_KINDS, importFileSchema } from '@/lib/validation/imports';
 import { operation } from '../operation';
+import {
+  importDetailSchema,
+  importPreviewSchema,
+  importResultSchema,
+  importSchema,
+  importUndoneSchema,
+} from '../schemas';
 
 // Moving in from spreadsheets: bulk invitations and opening records from CSV.
 
@@ -8,10 +15,6 @@ const tags = ['Imports'];
 const manage = { action: 'imports:manage' } as const;
 const kind = z.object({ kind: z.enum(IMPORT_KINDS) });
 const kindAndId = kind.extend({ id: z.string().regex(/^\d+$/) });
-const importSchema = z.looseObject({}).meta({
-  id: 'Import',
-  description: "One import: who, when, file name, row counts and each row's fate (invitations: delivery per row).",
-});
 const csv = { file: 'text/csv' } as const;
 
 export const operations = [
@@ -20,7 +23,7 @@ export const operations = [
     path: '/api/coops/[coop]/imports',
     summary: "The co-op's imports, newest first",
     access: manage,
-    responses: { 200: z.looseObject({ imports: z.array(z.looseObject({})) }) },
+    responses: { 200: z.object({ imports: z.array(importSchema) }) },
     tags,
   }),
   operation({
@@ -30,7 +33,7 @@ export const operations = [
     access: manage,
     params: kind,
     body: importFileSchema,
-    responses: { 200: z.looseObject({}) },
+    responses: { 200: importPreviewSchema },
     tags,
   }),
   operation({
@@ -40,7 +43,7 @@ export const operations = [
     access: manage,
     params: kind,
     body: importFileSchema,
-    responses: { 201: importSchema },
+    responses: { 201: importResultSchema },
     errors: { 409: 'The same file was imported already.' },
     tags,
   }),
@@ -59,7 +62,7 @@ export const operations = [
     summary: "One import with every row's fate and progress",
     access: manage,
     params: kindAndId,
-    responses: { 200: importSchema },
+    responses: { 200: importDetailSchema },
     tags,
   }),
   operation({
@@ -77,7 +80,7 @@ export const operations = [
     summary: 'Undo an opening import as a whole',
     access: manage,
     params: kindAndId,
-    responses: { 200: importSchema },
+    responses: { 200: importUndoneSchema },
     errors: { 409: 'Something builds on it already, or it is an invitations import.' },
     tags,
   }),
