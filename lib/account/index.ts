@@ -1,7 +1,7 @@
 import 'server-only';
 import { fn, Op, UniqueConstraintError, type InferAttributes, type Transaction } from 'sequelize';
 import type { z } from 'zod';
-import type { profileSchema } from '@/lib/api/dto/core';
+import type * as dto from '@/lib/api/dto/core';
 import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
 import { emailIs } from '@/lib/auth/email';
@@ -40,7 +40,7 @@ export {
 // e-mail) are written to the audit log of every co-op the person belongs to.
 
 /** My profile: the API's Profile. */
-export type ProfileDto = z.infer<typeof profileSchema>;
+export type ProfileDto = z.infer<typeof dto.profileSchema>;
 
 /** queued: the worker has it (retrying while the mail server is away); sent: the server took it; failed: every try failed. */
 export type PendingEmailDelivery = 'queued' | 'sent' | 'failed';
@@ -125,7 +125,7 @@ async function auditInMyCoops(
 export async function updateProfile(
   user: SessionUser,
   input: z.infer<typeof profileUpdateSchema>,
-): Promise<{ name: string }> {
+): Promise<z.infer<typeof dto.nameChangedSchema>> {
   if (input.name === user.name) return { name: user.name };
   await inTransaction(async (transaction) => {
     await User.update({ name: input.name }, { where: { id: user.id }, transaction });
@@ -163,7 +163,7 @@ async function checkCurrentPassword(user: SessionUser, plain: string, field: str
 export async function changePassword(
   user: SessionUser,
   input: z.infer<typeof passwordChangeSchema>,
-): Promise<{ changed: true }> {
+): Promise<z.infer<typeof dto.passwordChangedSchema>> {
   if (isCommonPassword(input.newPassword)) throw invalidFields({ newPassword: [COMMON] });
   if (input.newPassword === input.currentPassword)
     throw invalidFields({ newPassword: ['Choose a password different from the current one.'] });
@@ -177,7 +177,7 @@ export async function changePassword(
 }
 
 /** Ends every session of this person on every device (this one too). */
-export async function signOutEverywhere(user: SessionUser): Promise<{ signedOut: true }> {
+export async function signOutEverywhere(user: SessionUser): Promise<z.infer<typeof dto.signedOutSchema>> {
   await revokeAllSessions(user.id);
   return { signedOut: true };
 }
@@ -195,7 +195,7 @@ const emailTaken = async (email: string, exceptUserId: number, transaction?: Tra
 export async function requestEmailChange(
   user: SessionUser,
   input: z.infer<typeof emailChangeSchema>,
-): Promise<{ pendingEmail: string; sent: boolean }> {
+): Promise<z.infer<typeof dto.emailChangeRequestedSchema>> {
   if (input.email === user.email.toLowerCase())
     throw invalidFields({ email: ['That is already your e-mail address.'] });
   await checkCurrentPassword(user, input.currentPassword, 'currentPassword');
@@ -273,7 +273,7 @@ export async function lookupEmailChange(
  * Confirms a change of e-mail address from the link sent to the new address (works without a
  * session: the link is the proof). The old address gets a notice.
  */
-export async function confirmEmailChange(token: string): Promise<{ email: string }> {
+export async function confirmEmailChange(token: string): Promise<z.infer<typeof dto.accountEmailSchema>> {
   const result = await (async () => {
     try {
       return await inTransaction(async (transaction) => {

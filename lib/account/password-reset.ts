@@ -1,6 +1,7 @@
 import 'server-only';
 import { fn, Op } from 'sequelize';
 import type { z } from 'zod';
+import type { accountEmailSchema } from '@/lib/api/dto/core';
 import { emailIs } from '@/lib/auth/email';
 import { hashPassword, isCommonPassword } from '@/lib/auth/passwords';
 import { revokeAllSessions } from '@/lib/auth/sessions';
@@ -84,7 +85,7 @@ export async function lookupPasswordReset(
 }
 
 /** The link's state as an HTTP answer (for GET /api/password-reset/[token]). */
-export async function checkPasswordReset(token: string): Promise<{ email: string }> {
+export async function checkPasswordReset(token: string): Promise<z.infer<typeof accountEmailSchema>> {
   const r = await lookupPasswordReset(token);
   if (r.state !== 'ok') throw linkError(r.state, RESET_MESSAGES);
   return { email: r.email };
@@ -97,7 +98,7 @@ export async function checkPasswordReset(token: string): Promise<{ email: string
 export async function resetPassword(
   token: string,
   input: z.infer<typeof passwordResetSchema>,
-): Promise<{ email: string }> {
+): Promise<z.infer<typeof accountEmailSchema>> {
   const pre = await findToken('password-reset', token);
   const preState = linkState(pre);
   if (preState !== 'ok') throw linkError(preState, RESET_MESSAGES);

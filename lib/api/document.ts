@@ -5,7 +5,7 @@ import {
   type ZodOpenApiPathsObject,
   type ZodOpenApiResponsesObject,
 } from 'zod-openapi';
-import { isFileBody, openApiPath, pathParamNames, type Operation } from './operation';
+import { isFileBody, isMultipart, openApiPath, pathParamNames, type Operation } from './operation';
 import { operations } from './operations';
 
 // The OpenAPI 3.1 document, generated from the declarations in lib/api/operations (zod-openapi
@@ -79,14 +79,8 @@ function toOperation(op: Operation): ZodOpenApiOperationObject {
   const body =
     op.body === undefined
       ? undefined
-      : op.body === 'multipart'
-        ? {
-            content: {
-              'multipart/form-data': {
-                schema: z.object({ file: z.string().meta({ format: 'binary' }), purpose: z.string().optional() }),
-              },
-            },
-          }
+      : isMultipart(op.body)
+        ? { content: { 'multipart/form-data': { schema: op.body.multipart } } }
         : { content: { 'application/json': { schema: op.body } } };
   return {
     operationId: `${op.method.toLowerCase()}${op.path.replace(/\[(?:\.\.\.)?([^\]]+)\]/g, 'By-$1').replace(/[^A-Za-z0-9]+(.)?/g, (_m, c: string | undefined) => (c ?? '').toUpperCase())}`,

@@ -22,6 +22,12 @@ export type Access = { action: Action; roles?: readonly Role[]; note?: string } 
 /** A non-JSON answer: a download. */
 export type FileBody = { file: string; description?: string };
 
+/** A multipart/form-data upload: its fields, the file ones declared with `uploadedFile()` (lib/api/dto/common). */
+export type MultipartBody = { multipart: z.ZodObject };
+
+export const isMultipart = (b: unknown): b is MultipartBody =>
+  b !== null && typeof b === 'object' && 'multipart' in b && !(b instanceof z.ZodType);
+
 /** A JSON body's schema, a download, no body (null), or alternatives by media type. */
 export type ResponseBody = z.ZodType | FileBody | null | readonly (z.ZodType | FileBody)[];
 
@@ -38,8 +44,8 @@ export interface OperationSpec {
   /** Path parameters other than [coop] (added by itself); undeclared ones are whole ids. */
   params?: z.ZodObject;
   query?: z.ZodObject;
-  /** A JSON body schema, or `'multipart'` for an upload (`file` field). */
-  body?: z.ZodType | 'multipart';
+  /** A JSON body schema, or the fields of a multipart/form-data upload. */
+  body?: z.ZodType | MultipartBody;
   /** Success answers by status; error answers are added from what the route can refuse. */
   responses: Record<number, ResponseBody>;
   /** Error statuses beyond the standard ones (e.g. 409, 402, 410, 429), with what they mean. */

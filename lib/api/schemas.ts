@@ -12,14 +12,20 @@ export * from './dto/brewing';
 export * from './dto/core';
 export { itemsOf, pageOf } from './dto/common';
 export * from './dto/imports';
+export * from './dto/lineage';
 export * from './dto/members';
 export * from './dto/overview';
+export * from './dto/reports';
 export * from './dto/tank';
 
 const num = () => z.number();
 const str = () => z.string();
 
-/** Every error answer: a sentence a person understands, and for bad input each field's reasons. */
+/**
+ * Every error answer: a sentence a person understands, and for bad input each field's reasons.
+ * Open on purpose: a refusal may add its own details beside these (HttpError's `extra`: the
+ * earlier `importId` of a 409, the `rows` of a refused import, a link's `reason` for its 410).
+ */
 export const errorSchema = z
   .looseObject({
     error: str().describe('What went wrong, in a sentence'),
@@ -29,5 +35,3 @@ export const errorSchema = z
     retryAfter: num().optional(),
   })
   .meta({ id: 'Error' });
-
-export const okSchema = z.looseObject({});

@@ -1,6 +1,8 @@
 import 'server-only';
 import crypto from 'node:crypto';
 import { Op, type Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { cardPaidSchema } from '@/lib/api/dto/billing';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
@@ -15,7 +17,6 @@ import { cents } from './cents';
 import { todayIn } from '@/lib/dates';
 import { invoiceLabel } from './periods';
 import { takeNextId } from './queries';
-import type { InvoiceDetail } from './types';
 
 /** How long one request owns an attempt while it talks to the provider (then a retry may take over). */
 const LEASE_SECONDS = 30;
@@ -138,7 +139,7 @@ export async function payInvoiceByCard(
   actor: Actor,
   invoiceId: number,
   cardToken: string,
-): Promise<{ status: 'succeeded'; invoice: InvoiceDetail }> {
+): Promise<z.infer<typeof cardPaidSchema>> {
   const coopId = actor.coop.id;
   const { attempt, invoiceNumber } = await inTransaction(async (t) => {
     await lockCoopBilling(t, coopId);

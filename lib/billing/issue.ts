@@ -1,6 +1,8 @@
 import 'server-only';
 import { after } from 'next/server';
 import { Op, type Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { invoicesIssuedSchema, invoiceVoidedSchema } from '@/lib/api/dto/billing';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
@@ -37,10 +39,7 @@ function mailQueuedAfterResponse(coopId: number): void {
  * balances, takes consecutive numbers from the co-op's counter (ordered by member name), sets
  * the due date, records credit used, and queues the e-mails (sent after the response).
  */
-export async function issueDrafts(
-  actor: Actor,
-  period: string,
-): Promise<{ issued: number; firstNumber: string | null; lastNumber: string | null }> {
+export async function issueDrafts(actor: Actor, period: string): Promise<z.infer<typeof invoicesIssuedSchema>> {
   const coopId = actor.coop.id;
   const periodDate = periodToDate(period);
   const out = await inTransaction(async (t) => {
@@ -147,7 +146,7 @@ export async function voidInvoice(
   actor: Actor,
   id: number,
   reason: string,
-): Promise<{ invoiceId: number; creditNoteId: number; creditNoteLabel: string | null }> {
+): Promise<z.infer<typeof invoiceVoidedSchema>> {
   const coopId = actor.coop.id;
   const userId = actor.user.id;
   const out = await inTransaction(async (t) => {

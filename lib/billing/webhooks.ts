@@ -1,5 +1,7 @@
 import 'server-only';
 import type { Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { webhookReceivedSchema } from '@/lib/api/dto/billing';
 import { inTransaction } from '@/lib/db';
 import { HttpError } from '@/lib/http';
 import { verifyWebhook, type ProviderEvent } from '@/lib/payments';
@@ -22,7 +24,7 @@ const positiveInt = (s: string | undefined): number | null => (s && /^[1-9]\d{0,
 export async function receiveWebhook(
   rawBody: string,
   signature: string | null,
-): Promise<{ received: true; duplicate: boolean; outcome: string }> {
+): Promise<z.infer<typeof webhookReceivedSchema>> {
   const event = verifyWebhook(rawBody, signature);
   if (!event) throw new HttpError(400, 'The webhook signature is not valid.');
   let payload: unknown;

@@ -1,5 +1,7 @@
 import 'server-only';
 import { fn, col, Op } from 'sequelize';
+import type { z } from 'zod';
+import type { dangerAcknowledgedSchema } from '@/lib/api/dto/batch';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
@@ -66,7 +68,10 @@ export async function unacknowledgedDangers(coopId: number, batchId?: number): P
  * @param actor brewer or admin
  * @param batchId the batch (another co-op's → 404)
  */
-export async function acknowledgeDanger(actor: Actor, batchId: number): Promise<{ acknowledged: true }> {
+export async function acknowledgeDanger(
+  actor: Actor,
+  batchId: number,
+): Promise<z.infer<typeof dangerAcknowledgedSchema>> {
   requireCan(actor, 'batches:write');
   const batch = await Batch.findOne({
     where: { id: batchId, coopId: actor.coop.id },

@@ -1,4 +1,6 @@
 import 'server-only';
+import type { z } from 'zod';
+import type { batchFileSchema } from '@/lib/api/dto/batch';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
 import { notFound, invalidFields } from '@/lib/http';
@@ -19,7 +21,11 @@ export const BATCH_FILE_KINDS: readonly StoredKind[] = ['pdf', 'jpeg', 'png'];
  * @param batchId batch id (another co-op's → 404)
  * @param upload checked upload; its `purpose` field must be 'photo', 'lab-report' or 'receipt'
  */
-export async function addBatchFile(actor: Actor, batchId: number, upload: CheckedUpload) {
+export async function addBatchFile(
+  actor: Actor,
+  batchId: number,
+  upload: CheckedUpload,
+): Promise<z.infer<typeof batchFileSchema>> {
   const purpose = upload.fields.purpose ?? 'lab-report';
   if (purpose !== 'photo' && purpose !== 'lab-report' && purpose !== 'receipt') {
     throw invalidFields({ purpose: ['Choose photo, lab report or receipt.'] });
@@ -42,7 +48,7 @@ export async function addBatchFile(actor: Actor, batchId: number, upload: Checke
         },
         { transaction: t },
       );
-      const dto = {
+      const dto: z.infer<typeof batchFileSchema> = {
         id: file.id,
         purpose,
         kind: upload.kind,

@@ -4,12 +4,16 @@ import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
 import { invalidFields } from '@/lib/http';
 import type { z } from 'zod';
+import type { coopCreatedSchema } from '@/lib/api/dto/core';
 import type { coopCreateSchema } from '@/lib/validation/auth';
 import { inTransaction } from '@/lib/db';
 import { Coop, Membership } from '@/models';
 
 /** Creates a co-op with its creator as the first admin (one transaction). */
-export async function createCoop(user: SessionUser, input: z.infer<typeof coopCreateSchema>) {
+export async function createCoop(
+  user: SessionUser,
+  input: z.infer<typeof coopCreateSchema>,
+): Promise<z.infer<typeof coopCreatedSchema>> {
   try {
     return await inTransaction(async (transaction) => {
       const coop = await Coop.create(

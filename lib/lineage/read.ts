@@ -1,5 +1,12 @@
 import 'server-only';
 import type { drawBatchSchema } from '@/lib/api/dto/tank';
+import type {
+  batchLineageSchema,
+  lineageDrawSchema,
+  lineageMemberSchema,
+  reviewSchema,
+  tankLayersSchema,
+} from '@/lib/api/dto/lineage';
 import type { z } from 'zod';
 import { Op, type InferAttributes, type Transaction } from 'sequelize';
 import type { Actor } from '@/lib/auth';
@@ -22,21 +29,8 @@ import {
 import type { TankMixing } from '@/models/Tank';
 import type { TankMovementKind } from '@/models/TankMovement';
 
-/** A review as screens and JSON see it. */
-export interface ReviewDto {
-  id: number;
-  status: 'open' | 'closed';
-  cause: 'lab-result' | 'flag';
-  finding: string;
-  heldLiters: number;
-  openedAt: string;
-  outcome: 'cleared' | 'retreated' | 'disposed' | null;
-  outcomeNotes: string | null;
-  disposalMethod: string | null;
-  receiptFileId: number | null;
-  retreatBatchId: number | null;
-  closedAt: string | null;
-}
+/** A review as screens and JSON see it: the API's BatchReview. */
+export type ReviewDto = z.infer<typeof reviewSchema>;
 
 export function reviewDto(r: InferAttributes<BatchReview>): ReviewDto {
   return {
@@ -56,47 +50,13 @@ export function reviewDto(r: InferAttributes<BatchReview>): ReviewDto {
 }
 
 /** One draw that carried some of the batch (a reversal carries it back: negative). */
-export interface LineageDraw {
-  drawId: number;
-  occurredAt: string;
-  tankName: string;
-  membershipId: number;
-  memberName: string;
-  /** Millilitres of this batch the member received by this entry (negative on a reversal). */
-  batchMl: number;
-  batchQuantity: number;
-  /** The whole draw (negative on a reversal), millilitres and the co-op's unit. */
-  drawMl: number;
-  drawQuantity: number;
-  /** The part of the draw's fuel charge for this batch's fuel, cents (negative on a reversal). */
-  valueCents: number;
-  isReversal: boolean;
-}
+export type LineageDraw = z.infer<typeof lineageDrawSchema>;
 
 /** A member who received some of the batch, net of reversals. */
-export interface LineageMember {
-  membershipId: number;
-  name: string;
-  email: string;
-  batchMl: number;
-  batchQuantity: number;
-  /** Fuel charge for the batch's fuel they received: the possible credit, cents. */
-  valueCents: number;
-}
+export type LineageMember = z.infer<typeof lineageMemberSchema>;
 
-export interface BatchLineage {
-  batchId: number;
-  number: number;
-  status: string;
-  units: UnitSystem;
-  /** Where the batch's fuel is now. */
-  inTanks: { tankId: number; tankName: string; mixing: TankMixing; ml: number; quantity: number; heldLiters: number }[];
-  /** Net millilitres by ledger kind (released in, drawn out, moved, adjusted, disposed of …), signed as the ledger. */
-  byKind: Partial<Record<TankMovementKind, number>>;
-  draws: LineageDraw[];
-  members: LineageMember[];
-  reviews: ReviewDto[];
-}
+/** Where a batch's fuel went: the API's BatchLineage. */
+export type BatchLineage = z.infer<typeof batchLineageSchema>;
 
 type ShareRow = Pick<InferAttributes<MovementBatchShare>, 'drawId' | 'tankId' | 'quantityLiters'> & {
   movement: { kind: TankMovementKind };
@@ -254,7 +214,7 @@ export async function getBatchLineage(actor: Actor, batchId: number): Promise<Ba
 }
 
 /** A tank's layers, oldest first, with their batches and whether each is under review. Any member (tank:read). */
-export async function listTankLayers(actor: Actor, tankId: number) {
+export async function listTankLayers(actor: Actor, tankId: number): Promise<TankLayersDto> {
   const coopId = actor.coop.id;
   const [tank, layers] = await Promise.all([
     Tank.findOne({
@@ -308,7 +268,7 @@ export async function listTankLayers(actor: Actor, tankId: number) {
   };
 }
 
-export type TankLayersDto = Awaited<ReturnType<typeof listTankLayers>>;
+export type TankLayersDto = z.infer<typeof tankLayersSchema>;
 
 /** The batches in each of these draws (positive quantities in the co-op's unit), for the draw lists. */
 export type DrawBatch = z.infer<typeof drawBatchSchema>;

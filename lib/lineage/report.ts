@@ -1,18 +1,18 @@
 import 'server-only';
+import type { z } from 'zod';
+import type { recallReportSchema } from '@/lib/api/dto/lineage';
 import type { Actor } from '@/lib/auth';
 import { csvRows } from '@/lib/csv';
 import { formatCents } from '@/lib/money';
 import { newPdf, pdfToBuffer } from '@/lib/pdf';
 import { RECALL_DEFERENCE } from '@/lib/safety';
 import { formatMl } from '@/lib/tank/volume';
-import { getBatchLineage, type BatchLineage } from './read';
+import { getBatchLineage } from './read';
 
 const OUTCOME = { cleared: 'Cleared', retreated: 'Re-treated', disposed: 'Disposed of' } as const;
 
-export interface RecallReport extends BatchLineage {
-  coopName: string;
-  generatedAt: string;
-}
+/** A batch's lineage as the co-op's dated report: the API's RecallReport. */
+export type RecallReport = z.infer<typeof recallReportSchema>;
 
 /**
  * The recall report of a batch: the batch, each review's finding and outcome, what was held, and

@@ -12,6 +12,7 @@ import { recordMovement } from '@/lib/tank/ledger';
 import { refreshHeld } from '@/lib/tank/lineage';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import type { lateLabResultSchema, reviewCloseSchema } from '@/lib/validation/lineage';
+import type { lateLabResultAnsweredSchema } from '@/lib/api/dto/lineage';
 import { Batch, BatchFile, BatchReview, Membership, Reservation, Tank, TankLayer, User } from '@/models';
 import { outcomeMail, recallMail, reservationHeldMail } from './mail';
 import { batchShareRows, drawsAndMembers, reviewDto, type ReviewDto } from './read';
@@ -172,7 +173,7 @@ export async function recordLateLabResult(
   actor: Actor,
   batchId: number,
   input: z.infer<typeof lateLabResultSchema>,
-): Promise<{ qualityVerdict: string; review: ReviewDto | null }> {
+): Promise<z.infer<typeof lateLabResultAnsweredSchema>> {
   const coopId = actor.coop.id;
   const out = await inTransaction(async (t) => {
     const row = await loadBatch(coopId, batchId, t, true);

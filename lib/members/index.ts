@@ -1,5 +1,5 @@
 import 'server-only';
-import type { memberSchema } from '@/lib/api/dto/members';
+import type { memberSchema, removedSchema } from '@/lib/api/dto/members';
 import {
   col,
   fn,
@@ -189,7 +189,7 @@ export async function updateMembership(
  * cannot be removed (409); a member whose records other tables still point at is suspended
  * instead of removed (409 says so).
  */
-export async function removeMembership(actor: Actor, membershipId: number): Promise<{ removed: true; id: number }> {
+export async function removeMembership(actor: Actor, membershipId: number): Promise<z.infer<typeof removedSchema>> {
   try {
     return await inTransaction(async (transaction) => {
       await lockCoop(actor.coop.id, transaction);

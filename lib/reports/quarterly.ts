@@ -1,5 +1,6 @@
 import 'server-only';
 import type { z } from 'zod';
+import type { quarterlyReportSchema, volumeRowSchema } from '@/lib/api/dto/reports';
 import type { Actor } from '@/lib/auth';
 import { requireCan } from '@/lib/auth/require';
 import { policyInForce } from '@/lib/tank/pricing-policy';
@@ -11,17 +12,7 @@ export const REPORT_DISCLAIMER =
   'ask your co-op’s tax adviser how to file.';
 
 /** One month (or the quarter total) of fuel volumes, in litres (strings, 3 decimals) and cents. */
-export interface VolumeRow {
-  period: string;
-  producedLiters: string;
-  releasedLiters: string;
-  drawnRoadLiters: string;
-  drawnOffRoadLiters: string;
-  drawnHeatingLiters: string;
-  drawnTotalLiters: string;
-  roadTaxCents: number;
-  draws: number;
-}
+export type VolumeRow = z.infer<typeof volumeRowSchema>;
 
 /** The report's volume columns, once: CSV name, PDF header and screen label. */
 export const VOLUME_COLUMNS: { key: keyof VolumeRow; csv: string; short: string; label: string }[] = [
@@ -33,15 +24,8 @@ export const VOLUME_COLUMNS: { key: keyof VolumeRow; csv: string; short: string;
   { key: 'drawnTotalLiters', csv: 'drawn_total', short: 'Drawn', label: 'Drawn: total' },
 ];
 
-export interface QuarterlyReport {
-  coop: { name: string; units: 'us' | 'metric'; timezone: string };
-  year: number;
-  quarter: number;
-  months: VolumeRow[];
-  total: VolumeRow;
-  roadTaxCentsPerGallon: string | null;
-  disclaimer: string;
-}
+/** The quarterly report: the API's QuarterlyReport. */
+export type QuarterlyReport = z.infer<typeof quarterlyReportSchema>;
 
 /**
  * Fuel produced, released into tanks and drawn by declared use (road / off-road / heating),

@@ -22,6 +22,23 @@ const status = z.enum([
   'imported',
 ]);
 const qualityVerdict = z.enum(['pass', 'fail', 'incomplete']);
+
+export const batchFilePurpose = z.enum(['photo', 'lab-report', 'receipt']);
+
+/** A photo, lab report or disposal receipt attached to a batch. */
+export const batchFileSchema = z
+  .object({
+    id: int(),
+    purpose: batchFilePurpose,
+    kind: z.enum(['pdf', 'jpeg', 'png']).describe('As recognised from its first bytes'),
+    name: str(),
+    sizeBytes: int(),
+    createdAt: date(),
+  })
+  .meta({ id: 'BatchFile' });
+
+/** A brewer acknowledged the batch's Danger temperature readings. */
+export const dangerAcknowledgedSchema = z.object({ acknowledged: z.literal(true) });
 const screeningVerdict = z.enum(['looks-good', 'needs-attention', 'incomplete']);
 
 export const temperatureSchema = z
@@ -183,16 +200,7 @@ export const batchFullSchema = z
         costCents: int(),
       }),
     ),
-    files: z.array(
-      z.object({
-        id: int(),
-        purpose: z.enum(['photo', 'lab-report', 'receipt']),
-        kind: z.enum(['pdf', 'jpeg', 'png']),
-        name: str(),
-        sizeBytes: int(),
-        createdAt: date(),
-      }),
-    ),
+    files: z.array(batchFileSchema),
     notes: str().nullable(),
   })
   .meta({
@@ -225,4 +233,5 @@ export const batchSummarySchema = z
   .meta({ id: 'BatchSummary' });
 
 export const batchSchema = batchFullSchema;
+export { status as batchStatus, qualityVerdict };
 export const batchOrSummarySchema = z.discriminatedUnion('view', [batchFullSchema, batchSummarySchema]);

@@ -184,3 +184,22 @@ export const reconciliationSchema = z
     description:
       'Invoices due / paid / outstanding, money received and where it went, unmatched payments, checks, and what blocks closing.',
   });
+
+// Small answers of billing's writes (lib/billing issue, void, card payment, the provider's webhook).
+export const invoicesIssuedSchema = z.object({
+  issued: int(),
+  firstNumber: str().nullable().describe('The first invoice number given; null when none was issued'),
+  lastNumber: str().nullable(),
+});
+export const emailsQueuedSchema = z.object({ queued: int().describe('E-mails queued for the worker') });
+export const invoiceVoidedSchema = z.object({
+  invoiceId: int(),
+  creditNoteId: int(),
+  creditNoteLabel: str().nullable(),
+});
+export const cardPaidSchema = z.object({ status: z.literal('succeeded'), invoice: invoiceDetailSchema });
+export const webhookReceivedSchema = z.object({
+  received: z.literal(true),
+  duplicate: z.boolean().describe('The event id was seen before: acknowledged, not applied again'),
+  outcome: str().describe('What applying it did (applied, ignored, duplicate …), as stored with the event'),
+});

@@ -10,6 +10,9 @@ export const date = () => z.string().describe('ISO 8601 date-time');
 export const day = () => z.string().describe('YYYY-MM-DD');
 export const units = z.enum(['us', 'metric']);
 
+/** A file field of a multipart/form-data upload (its bytes). */
+export const uploadedFile = () => z.string().meta({ format: 'binary' });
+
 /** A page of rows: `{ rows, total, page, pageSize }`. */
 export const pageOf = <T extends z.ZodType>(row: T) =>
   z.object({ rows: z.array(row), total: int(), page: int(), pageSize: int() });

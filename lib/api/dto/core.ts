@@ -52,6 +52,7 @@ export const auditEventSchema = z
     action: str(),
     entityType: str(),
     entityId: str().nullable(),
+    // Any entity's fields as they were written to the log: open on purpose.
     before: z.unknown().describe('The entity before the change (JSON), or null'),
     after: z.unknown().describe('The entity after the change (JSON), or null'),
   })
@@ -60,3 +61,16 @@ export const auditEventSchema = z
 export const invitationAcceptedSchema = z
   .object({ coop: z.object({ slug: str(), name: str() }), role, email: str(), newAccount: z.boolean() })
   .meta({ id: 'InvitationAccepted' });
+
+// Small answers of my account's writes (lib/account) and of creating a co-op (lib/coops).
+export const nameChangedSchema = z.object({ name: str() });
+export const passwordChangedSchema = z.object({ changed: z.literal(true) });
+export const signedOutSchema = z.object({ signedOut: z.literal(true) });
+export const emailChangeRequestedSchema = z.object({
+  pendingEmail: str(),
+  sent: z.boolean().describe('false when the address is taken (the answer does not tell which)'),
+});
+/** The account's address: a confirmed change, or the account a reset link is for. */
+export const accountEmailSchema = z.object({ email: str() });
+export const resetRequestedSchema = z.object({ message: str().describe('The same sentence whatever the address') });
+export const coopCreatedSchema = z.object({ id: int(), slug: str(), name: str() });

@@ -103,11 +103,9 @@ export const importPreviewSchema = z.union([invitationImportPreviewSchema, openi
 
 export const invitationImportResultSchema = z.object({ importId: int(), invited: int(), skipped: int() });
 export const openingImportResultSchema = z.object({ importId: int(), imported: int() });
-export const importResultSchema = z
-  .union([invitationImportResultSchema, openingImportResultSchema])
-  .meta({
-    id: 'ImportResult',
-    description: 'The import recorded: invitations sent and rows skipped, or rows imported.',
-  });
+export const importResultSchema = z.union([invitationImportResultSchema, openingImportResultSchema]).meta({
+  id: 'ImportResult',
+  description: 'The import recorded: invitations sent and rows skipped, or rows imported.',
+});
 
 export const importUndoneSchema = z.object({ undone: z.literal(true), id: int() });

@@ -55,3 +55,22 @@ export const invitationSchema = z
     expired: z.boolean().describe('Past its expiry: the link no longer works; resending makes a new one'),
   })
   .meta({ id: 'Invitation' });
+
+export const invitationInfoSchema = z
+  .object({
+    coop: z.object({ name: str(), slug: str() }),
+    role,
+    roleSummary: str().describe('What the role may do, in a sentence'),
+    email: str(),
+    invitedBy: str().nullable(),
+    expiresAt: date(),
+    account: z
+      .enum(['new', 'signed-in', 'sign-in-needed', 'other-account'])
+      .describe('Who is opening the link, relative to the invited address'),
+    signedInAs: str().nullable().describe("The signed-in visitor's address, if any"),
+  })
+  .meta({ id: 'InvitationInfo' });
+
+/** A member removed or an invitation revoked: what and that it happened. */
+export const removedSchema = z.object({ removed: z.literal(true), id: int() });
+export const revokedSchema = z.object({ revoked: z.literal(true), id: int() });

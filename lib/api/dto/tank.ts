@@ -6,6 +6,20 @@ import { date, int, num, str, units } from './common';
 // (lib/tank, lib/tank/reservations, lib/tank/draws, lib/tank/pricing-policy) are inferred from these: one
 // definition, so the contract, the server and the typed client cannot drift apart.
 
+export const tankMixing = z.enum(['mixed', 'fifo']);
+
+export const movementKind = z.enum([
+  'release',
+  'draw',
+  'draw-reversal',
+  'dip-adjustment',
+  'transfer-in',
+  'transfer-out',
+  'opening',
+  'disposal',
+  'retreat',
+]);
+
 export const tankSchema = z
   .object({
     id: int(),
@@ -22,9 +36,7 @@ export const tankSchema = z
     reserved: num(),
     held: num(),
     available: num(),
-    mixing: z
-      .enum(['mixed', 'fifo'])
-      .describe('mixed: a draw takes every batch in proportion; fifo: oldest fuel first.'),
+    mixing: tankMixing.describe('mixed: a draw takes every batch in proportion; fifo: oldest fuel first.'),
     valueCents: int().describe('Stock value at moving weighted-average cost.'),
     avgCostCentsPerGallon: num().nullable().describe('value ÷ on hand per US gallon (2 decimals), null when empty.'),
     avgCostCentsPerUnit: num().nullable().describe('The same per co-op unit, null when empty.'),
@@ -43,17 +55,7 @@ export const dipResultSchema = z.object({
 export const movementSchema = z
   .object({
     id: str(),
-    kind: z.enum([
-      'release',
-      'draw',
-      'draw-reversal',
-      'dip-adjustment',
-      'transfer-in',
-      'transfer-out',
-      'opening',
-      'disposal',
-      'retreat',
-    ]),
+    kind: movementKind,
     quantityLiters: num(),
     quantity: num().describe("Signed, in the co-op's unit."),
     valueCents: int(),

@@ -13,12 +13,16 @@ import {
   plannerSchema,
   temperatureCreateSchema,
 } from '@/lib/validation/brewing';
+import { uploadedFile } from '../dto/common';
 import { operation } from '../operation';
 import {
+  batchFilePurpose,
+  batchFileSchema,
   batchOrSummarySchema,
   batchRowSchema,
   batchSchema,
   chemicalLotSchema,
+  dangerAcknowledgedSchema,
   oilLotSchema,
   pageOf,
   plannerResultSchema,
@@ -31,6 +35,15 @@ import {
 const tags = ['Brewing'];
 const final = { 409: 'The batch is released or rejected, or not at a step that allows this.' };
 const pdf = { file: 'application/pdf' } as const;
+const sdsUpload = {
+  multipart: z.object({ file: uploadedFile().describe('The safety data sheet, a PDF (at most 10 MB)') }),
+};
+const batchFileUpload = {
+  multipart: z.object({
+    file: uploadedFile().describe('A PDF, JPEG or PNG (recognised from its bytes; at most 10 MB)'),
+    purpose: batchFilePurpose.optional().describe('lab-report when absent'),
+  }),
+};
 
 export const operations = [
   operation({
@@ -64,7 +77,7 @@ export const operations = [
     path: '/api/coops/[coop]/supplies/chemicals/[id]/sds',
     summary: "Upload a lot's safety data sheet (multipart `file`, PDF)",
     access: { action: 'supplies:write' },
-    body: 'multipart',
+    body: sdsUpload,
     responses: { 201: chemicalLotSchema },
     tags,
   }),
@@ -185,7 +198,7 @@ export const operations = [
     path: '/api/coops/[coop]/batches/[id]/temperatures/acknowledge',
     summary: 'Acknowledge a temperature danger alert',
     access: { action: 'batches:write' },
-    responses: { 200: z.looseObject({ acknowledged: z.literal(true) }) },
+    responses: { 200: dangerAcknowledgedSchema },
     tags,
   }),
   operation({
@@ -193,8 +206,8 @@ export const operations = [
     path: '/api/coops/[coop]/batches/[id]/files',
     summary: 'Attach a photo or lab report (multipart `file` + `purpose`)',
     access: { action: 'batches:write' },
-    body: 'multipart',
-    responses: { 201: z.looseObject({}) },
+    body: batchFileUpload,
+    responses: { 201: batchFileSchema },
     tags,
   }),
   operation({

@@ -4,9 +4,32 @@ import { quarterlyReportQuerySchema } from '@/lib/validation/reports';
 import { apiTokenCreateSchema } from '@/lib/validation/api-tokens';
 import { coopSettingsUpdateSchema } from '@/lib/validation/settings';
 import { operation } from '../operation';
-import { apiTokenSchema, auditEventSchema, coopSettingsSchema, overviewSchema, pageOf } from '../schemas';
+import {
+  apiTokenSchema,
+  auditEventSchema,
+  coopSettingsSchema,
+  overviewSchema,
+  pageOf,
+  quarterlyReportSchema,
+  tankMixing,
+} from '../schemas';
 
 // The service itself, the co-op's overview, settings, audit log and reports.
+
+/** The tank list's query rows as the bench probe sends them: the model's raw row (NUMERIC and BIGINT as strings). */
+const benchTankRowSchema = z.object({
+  id: z.number().int(),
+  name: z.string(),
+  active: z.boolean(),
+  capacityLiters: z.string(),
+  onHandLiters: z.string(),
+  reservedLiters: z.string(),
+  heldLiters: z.string(),
+  mixing: tankMixing,
+  valueCents: z.string(),
+  lapsedLiters: z.string(),
+  lastDipAt: z.string().nullable(),
+});
 
 export const operations = [
   operation({
@@ -15,8 +38,8 @@ export const operations = [
     summary: 'Is the service and its database up?',
     access: 'public',
     responses: {
-      200: z.looseObject({ status: z.literal('ok'), db: z.literal('ok') }),
-      503: z.looseObject({ status: z.string(), db: z.literal('down') }),
+      200: z.object({ status: z.literal('ok'), db: z.literal('ok') }),
+      503: z.object({ status: z.literal('degraded'), db: z.literal('down') }),
     },
     tags: ['Service'],
   }),
@@ -25,7 +48,7 @@ export const operations = [
     path: '/api/live',
     summary: 'Liveness: the process answers (no I/O)',
     access: 'public',
-    responses: { 200: z.looseObject({ status: z.literal('alive') }) },
+    responses: { 200: z.object({ status: z.literal('alive') }) },
     tags: ['Service'],
   }),
   operation({
@@ -34,8 +57,12 @@ export const operations = [
     summary: 'Readiness: the database and the object store answer',
     access: 'public',
     responses: {
-      200: z.looseObject({ status: z.literal('ready'), db: z.literal('ok'), storage: z.literal('ok') }),
-      503: z.looseObject({ status: z.literal('not-ready'), db: z.string(), storage: z.string() }),
+      200: z.object({ status: z.literal('ready'), db: z.literal('ok'), storage: z.literal('ok') }),
+      503: z.object({
+        status: z.literal('not-ready'),
+        db: z.enum(['ok', 'down']),
+        storage: z.enum(['ok', 'down', 'not-configured']),
+      }),
     },
     tags: ['Service'],
   }),
@@ -44,6 +71,7 @@ export const operations = [
     path: '/api/openapi.json',
     summary: "This API's OpenAPI 3.1 document",
     access: 'public',
+    // The document itself: its shape is the OpenAPI 3.1 specification's, not ours to restate.
     responses: { 200: z.looseObject({ openapi: z.string() }) },
     tags: ['Service'],
   }),
@@ -53,7 +81,7 @@ export const operations = [
     summary: 'Benchmark probe (404 unless the server runs benchmarks)',
     access: 'public',
     query: z.object({ coop: z.string().optional() }),
-    responses: { 200: z.looseObject({ tanks: z.array(z.looseObject({})) }) },
+    responses: { 200: z.object({ tanks: z.array(benchTankRowSchema) }) },
     errors: { 404: 'Not a benchmark server, or no such co-op.' },
     tags: ['Service'],
   }),
@@ -98,16 +126,7 @@ export const operations = [
     access: { action: 'reports:read' },
     query: quarterlyReportQuerySchema,
     responses: {
-      200: [
-        z.looseObject({
-          year: z.number().int(),
-          quarter: z.number().int(),
-          months: z.array(z.looseObject({})),
-          total: z.looseObject({}),
-        }),
-        { file: 'text/csv' },
-        { file: 'application/pdf' },
-      ],
+      200: [quarterlyReportSchema, { file: 'text/csv' }, { file: 'application/pdf' }],
     },
     description: 'With `format=csv` a text/csv attachment, with `format=pdf` a PDF.',
     tags: ['Reports'],

@@ -1,4 +1,3 @@
-import { z } from 'zod';
 import {
   lateLabResultSchema,
   recallReportQuerySchema,
@@ -6,19 +5,17 @@ import {
   reviewOpenSchema,
 } from '@/lib/validation/lineage';
 import { operation } from '../operation';
-import { batchSchema } from '../schemas';
+import {
+  batchLineageSchema,
+  lateLabResultAnsweredSchema,
+  recallReportSchema,
+  reviewSchema,
+  tankLayersSchema,
+} from '../schemas';
 
 // Lineage and recall: where a batch's fuel went, late lab results, reviews and their outcomes.
 
 const tags = ['Lineage and recall'];
-const lineageSchema = z.looseObject({}).meta({
-  id: 'BatchLineage',
-  description: "Tanks, draws and members that hold or received the batch's fuel, and its reviews.",
-});
-const reviewSchema = z.looseObject({}).meta({
-  id: 'BatchReview',
-  description: 'A review of a released batch: finding, held fuel, affected members, outcome.',
-});
 
 export const operations = [
   operation({
@@ -26,7 +23,7 @@ export const operations = [
     path: '/api/coops/[coop]/batches/[id]/lineage',
     summary: "Where a batch's fuel went: tanks, draws, members, reviews",
     access: { action: 'lineage:read' },
-    responses: { 200: lineageSchema },
+    responses: { 200: batchLineageSchema },
     tags,
   }),
   operation({
@@ -35,7 +32,7 @@ export const operations = [
     summary: "A batch's recall report (JSON, CSV or PDF by `format`)",
     access: { action: 'lineage:read' },
     query: recallReportQuerySchema,
-    responses: { 200: [z.looseObject({}), { file: 'text/csv' }, { file: 'application/pdf' }] },
+    responses: { 200: [recallReportSchema, { file: 'text/csv' }, { file: 'application/pdf' }] },
     tags,
   }),
   operation({
@@ -44,7 +41,7 @@ export const operations = [
     summary: 'Record lab results that arrived after release (a failing required property opens a review)',
     access: { action: 'batches:write' },
     body: lateLabResultSchema,
-    responses: { 200: z.union([batchSchema, z.looseObject({})]) },
+    responses: { 200: lateLabResultAnsweredSchema },
     errors: { 409: 'The batch is not released.' },
     tags,
   }),
@@ -73,7 +70,7 @@ export const operations = [
     path: '/api/coops/[coop]/tanks/[tankId]/layers',
     summary: "A tank's fuel by batch, its mixing model and what is held",
     access: { action: 'tank:read' },
-    responses: { 200: z.looseObject({}) },
+    responses: { 200: tankLayersSchema },
     tags,
   }),
 ];

@@ -1,11 +1,13 @@
 import 'server-only';
 import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { z } from 'zod';
+import type { invitationAcceptedSchema } from '@/lib/api/dto/core';
+import type { invitationInfoSchema } from '@/lib/api/dto/members';
 import { audit } from '@/lib/audit';
 import type { SessionUser } from '@/lib/auth';
 import { emailIs } from '@/lib/auth/email';
 import { hashPassword, isCommonPassword } from '@/lib/auth/passwords';
-import { ROLE_SUMMARY, type Role } from '@/lib/auth/roles';
+import { ROLE_SUMMARY } from '@/lib/auth/roles';
 import { hashLinkToken, isLinkTokenShape } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { conflict, forbidden, HttpError, notFound, invalidFields } from '@/lib/http';
@@ -17,18 +19,10 @@ import { INVITATION_ATTRIBUTES, INVITED_BY, isPast } from './columns';
 // the signed-in user, if any, decides between "create an account" and "join with this account".
 
 /** Who is opening the link, relative to the invited address. */
-export type InviteeAccount = 'new' | 'signed-in' | 'sign-in-needed' | 'other-account';
+export type InviteeAccount = InvitationInfo['account'];
 
-export interface InvitationInfo {
-  coop: { name: string; slug: string };
-  role: Role;
-  roleSummary: string;
-  email: string;
-  invitedBy: string | null;
-  expiresAt: string;
-  account: InviteeAccount;
-  signedInAs: string | null;
-}
+/** What an invitation link offers: the API's InvitationInfo. */
+export type InvitationInfo = z.infer<typeof invitationInfoSchema>;
 
 export type InvitationLookup =
   | { state: 'ok'; info: InvitationInfo }
@@ -120,7 +114,7 @@ export async function acceptInvitation(
   token: string,
   user: SessionUser | null,
   input: z.infer<typeof invitationAcceptSchema>,
-): Promise<{ coop: { slug: string; name: string }; role: Role; email: string; newAccount: boolean }> {
+): Promise<z.infer<typeof invitationAcceptedSchema>> {
   // bcrypt takes a while: hash before taking the row lock (wasted only for existing accounts).
   const passwordHash = input.password !== undefined ? await hashPassword(input.password) : null;
   try {

@@ -1,5 +1,5 @@
 import 'server-only';
-import type { invitationSchema } from '@/lib/api/dto/members';
+import type { invitationSchema, revokedSchema } from '@/lib/api/dto/members';
 import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
@@ -220,7 +220,7 @@ export async function resendInvitation(actor: Actor, id: number): Promise<{ invi
 }
 
 /** Withdraws a pending invitation; its link then says so. */
-export async function revokeInvitation(actor: Actor, id: number): Promise<{ revoked: true; id: number }> {
+export async function revokeInvitation(actor: Actor, id: number): Promise<z.infer<typeof revokedSchema>> {
   return inTransaction(async (transaction) => {
     const inv = await lockInvitation(actor, id, transaction);
     if (inv.status !== 'pending') throw conflict(`This invitation was already ${inv.status}.`);
