@@ -927,6 +927,58 @@ export interface components {
       /** @description The entity after the change (JSON), or null */
       after: unknown;
     };
+    /** @description Fuel produced, released and drawn by declared use, per month. */
+    QuarterlyReport: {
+      coop: {
+        name: string;
+        /** @enum {string} */
+        units: "us" | "metric";
+        timezone: string;
+      };
+      year: number;
+      quarter: number;
+      months: {
+          /** @description YYYY-MM for a month, "YYYY Qn" for the quarter total */
+          period: string;
+          /** @description Litres, 3 decimals (a decimal string: exact) */
+          producedLiters: string;
+          /** @description Litres, 3 decimals (a decimal string: exact) */
+          releasedLiters: string;
+          /** @description Litres, 3 decimals (a decimal string: exact) */
+          drawnRoadLiters: string;
+          /** @description Litres, 3 decimals (a decimal string: exact) */
+          drawnOffRoadLiters: string;
+          /** @description Litres, 3 decimals (a decimal string: exact) */
+          drawnHeatingLiters: string;
+          /** @description Litres, 3 decimals (a decimal string: exact) */
+          drawnTotalLiters: string;
+          /** @description Road-fuel tax collected on road draws */
+          roadTaxCents: number;
+          draws: number;
+        }[];
+      total: {
+        /** @description YYYY-MM for a month, "YYYY Qn" for the quarter total */
+        period: string;
+        /** @description Litres, 3 decimals (a decimal string: exact) */
+        producedLiters: string;
+        /** @description Litres, 3 decimals (a decimal string: exact) */
+        releasedLiters: string;
+        /** @description Litres, 3 decimals (a decimal string: exact) */
+        drawnRoadLiters: string;
+        /** @description Litres, 3 decimals (a decimal string: exact) */
+        drawnOffRoadLiters: string;
+        /** @description Litres, 3 decimals (a decimal string: exact) */
+        drawnHeatingLiters: string;
+        /** @description Litres, 3 decimals (a decimal string: exact) */
+        drawnTotalLiters: string;
+        /** @description Road-fuel tax collected on road draws */
+        roadTaxCents: number;
+        draws: number;
+      };
+      /** @description The rate of the price policy in force; null when none */
+      roadTaxCentsPerGallon: string | null;
+      disclaimer: string;
+    };
     ApiToken: {
       id: number;
       name: string;
@@ -964,6 +1016,27 @@ export interface components {
           joinedAt: string;
           timezone: string;
         })[];
+    };
+    InvitationInfo: {
+      coop: {
+        name: string;
+        slug: string;
+      };
+      /** @enum {string} */
+      role: "admin" | "treasurer" | "brewer" | "member";
+      /** @description What the role may do, in a sentence */
+      roleSummary: string;
+      email: string;
+      invitedBy: string | null;
+      /** @description ISO 8601 date-time */
+      expiresAt: string;
+      /**
+       * @description Who is opening the link, relative to the invited address
+       * @enum {string}
+       */
+      account: "new" | "signed-in" | "sign-in-needed" | "other-account";
+      /** @description The signed-in visitor's address, if any */
+      signedInAs: string | null;
     };
     InvitationAccepted: {
       coop: {
@@ -1457,17 +1530,7 @@ export interface components {
           quantity: number;
           costCents: number;
         })[];
-      files: ({
-          id: number;
-          /** @enum {string} */
-          purpose: "photo" | "lab-report" | "receipt";
-          /** @enum {string} */
-          kind: "pdf" | "jpeg" | "png";
-          name: string;
-          sizeBytes: number;
-          /** @description ISO 8601 date-time */
-          createdAt: string;
-        })[];
+      files: components["schemas"]["BatchFile"][];
       notes: string | null;
     };
     Temperature: {
@@ -1559,6 +1622,20 @@ export interface components {
       /** @constant */
       caution: "Home quick tests are screening only; no home test proves compliance with ASTM D6751 or EN 14214.";
     };
+    BatchFile: {
+      id: number;
+      /** @enum {string} */
+      purpose: "photo" | "lab-report" | "receipt";
+      /**
+       * @description As recognised from its first bytes
+       * @enum {string}
+       */
+      kind: "pdf" | "jpeg" | "png";
+      name: string;
+      sizeBytes: number;
+      /** @description ISO 8601 date-time */
+      createdAt: string;
+    };
     BatchSummary: {
       /** @constant */
       view: "summary";
@@ -1592,11 +1669,153 @@ export interface components {
     };
     /** @description Tanks, draws and members that hold or received the batch's fuel, and its reviews. */
     BatchLineage: {
-      [key: string]: unknown;
+      batchId: number;
+      number: number;
+      /** @enum {string} */
+      status: "planned" | "reacting" | "settling" | "draining" | "washing" | "drying" | "testing" | "released" | "rejected" | "imported";
+      /** @enum {string} */
+      units: "us" | "metric";
+      /** @description Where the batch's fuel is now */
+      inTanks: ({
+          tankId: number;
+          tankName: string;
+          /** @enum {string} */
+          mixing: "mixed" | "fifo";
+          ml: number;
+          quantity: number;
+          heldLiters: number;
+        })[];
+      /** @description Net millilitres by ledger kind (released in, drawn out, moved, adjusted, disposed of …), signed */
+      byKind: {
+        [key: string]: number;
+      };
+      draws: {
+          drawId: number;
+          /** @description ISO 8601 date-time */
+          occurredAt: string;
+          tankName: string;
+          membershipId: number;
+          memberName: string;
+          /** @description Millilitres of this batch the member received by this entry (negative on a reversal) */
+          batchMl: number;
+          /** @description The same in the co-op's unit */
+          batchQuantity: number;
+          /** @description The whole draw (negative on a reversal) */
+          drawMl: number;
+          drawQuantity: number;
+          /** @description The part of the draw's fuel charge for this batch's fuel (negative on a reversal) */
+          valueCents: number;
+          isReversal: boolean;
+        }[];
+      members: {
+          membershipId: number;
+          name: string;
+          email: string;
+          /** @description Net of reversals */
+          batchMl: number;
+          batchQuantity: number;
+          /** @description Fuel charge for the batch's fuel they received: the possible credit */
+          valueCents: number;
+        }[];
+      reviews: components["schemas"]["BatchReview"][];
     };
-    /** @description A review of a released batch: finding, held fuel, affected members, outcome. */
+    /** @description A review of a released batch: finding, held fuel, outcome. */
     BatchReview: {
-      [key: string]: unknown;
+      id: number;
+      /** @enum {string} */
+      status: "open" | "closed";
+      /** @enum {string} */
+      cause: "lab-result" | "flag";
+      finding: string;
+      /** @description Fuel of the batch held in tanks while the review was open, L */
+      heldLiters: number;
+      /** @description ISO 8601 date-time */
+      openedAt: string;
+      outcome: ("cleared" | "retreated" | "disposed") | null;
+      outcomeNotes: string | null;
+      disposalMethod: string | null;
+      receiptFileId: number | null;
+      retreatBatchId: number | null;
+      closedAt: string | null;
+    };
+    /** @description A batch's lineage as a report of the co-op, dated. */
+    RecallReport: {
+      batchId: number;
+      number: number;
+      /** @enum {string} */
+      status: "planned" | "reacting" | "settling" | "draining" | "washing" | "drying" | "testing" | "released" | "rejected" | "imported";
+      /** @enum {string} */
+      units: "us" | "metric";
+      /** @description Where the batch's fuel is now */
+      inTanks: ({
+          tankId: number;
+          tankName: string;
+          /** @enum {string} */
+          mixing: "mixed" | "fifo";
+          ml: number;
+          quantity: number;
+          heldLiters: number;
+        })[];
+      /** @description Net millilitres by ledger kind (released in, drawn out, moved, adjusted, disposed of …), signed */
+      byKind: {
+        [key: string]: number;
+      };
+      draws: {
+          drawId: number;
+          /** @description ISO 8601 date-time */
+          occurredAt: string;
+          tankName: string;
+          membershipId: number;
+          memberName: string;
+          /** @description Millilitres of this batch the member received by this entry (negative on a reversal) */
+          batchMl: number;
+          /** @description The same in the co-op's unit */
+          batchQuantity: number;
+          /** @description The whole draw (negative on a reversal) */
+          drawMl: number;
+          drawQuantity: number;
+          /** @description The part of the draw's fuel charge for this batch's fuel (negative on a reversal) */
+          valueCents: number;
+          isReversal: boolean;
+        }[];
+      members: {
+          membershipId: number;
+          name: string;
+          email: string;
+          /** @description Net of reversals */
+          batchMl: number;
+          batchQuantity: number;
+          /** @description Fuel charge for the batch's fuel they received: the possible credit */
+          valueCents: number;
+        }[];
+      reviews: components["schemas"]["BatchReview"][];
+      coopName: string;
+      /** @description ISO 8601 date-time */
+      generatedAt: string;
+    };
+    /** @description A tank's fuel by batch, oldest first, its mixing model and what is held. */
+    TankLayers: {
+      tankId: number;
+      tankName: string;
+      /** @enum {string} */
+      mixing: "mixed" | "fifo";
+      /** @enum {string} */
+      units: "us" | "metric";
+      /** @description In the co-op's unit */
+      onHand: number;
+      held: number;
+      heldLiters: number;
+      layers: ({
+          id: number;
+          /** @description null for fuel that came from no batch record (an opening stock) */
+          batchId: number | null;
+          batchNumber: number | null;
+          quantity: number;
+          quantityLiters: number;
+          /** @description Share of the on-hand fuel, %, 1 decimal */
+          sharePct: number;
+          underReview: boolean;
+        })[];
     };
     BillingRun: {
       id: number;
@@ -1830,9 +2049,120 @@ export interface components {
       /** @description Payments received but not matched to an invoice yet */
       unallocatedCents: number;
     };
-    /** @description One import: who, when, file name, row counts and each row's fate (invitations: delivery per row). */
+    /** @description One confirmed import: who, when, file name and row counts. */
     Import: {
-      [key: string]: unknown;
+      id: number;
+      /** @enum {string} */
+      kind: "invitations" | "opening-balances" | "opening-tank" | "opening-supplies" | "past-batches";
+      fileName: string;
+      /** @enum {string} */
+      status: "done" | "undone";
+      rowsTotal: number;
+      rowsImported: number;
+      rowsSkipped: number;
+      /** @description ISO 8601 date-time */
+      createdAt: string;
+      /** @description Who imported it (null once that account is gone) */
+      createdBy: string | null;
+      undoneAt: string | null;
+    };
+    InvitationImportPreview: {
+      fileName: string;
+      /** @description The file's SHA-256 (the same file is imported once) */
+      fileHash: string;
+      /** @description Columns the import does not read */
+      ignoredHeadings: string[];
+      /** @description This very file was imported before */
+      earlierImport: ({
+        id: number;
+        /** @description ISO 8601 date-time */
+        createdAt: string;
+        createdBy: string | null;
+      }) | null;
+      rows: ({
+          line: number;
+          name: string;
+          email: string;
+          role: string;
+          /**
+           * @description Only `invite` rows become invitations
+           * @enum {string}
+           */
+          fate: "invite" | "member" | "invited" | "duplicate" | "bad-email" | "bad-role" | "bad-name";
+          /** @description The field the problem is in, for refused rows */
+          field: ("name" | "email" | "role") | null;
+          message: string;
+        })[];
+      /** @description Rows per fate */
+      counts: {
+        [key: string]: number;
+      };
+    };
+    OpeningImportPreview: {
+      fileName: string;
+      /** @description The file's SHA-256 (the same file is imported once) */
+      fileHash: string;
+      /** @description Columns the import does not read */
+      ignoredHeadings: string[];
+      /** @description This very file was imported before */
+      earlierImport: ({
+        id: number;
+        /** @description ISO 8601 date-time */
+        createdAt: string;
+        createdBy: string | null;
+      }) | null;
+      rows: {
+          line: number;
+          values: {
+            [key: string]: string;
+          };
+          /** @description None: the row is ready */
+          errors: {
+              field: string;
+              message: string;
+            }[];
+          /** @description What importing this row does, in words */
+          note: string;
+        }[];
+      counts: {
+        ready: number;
+        errors: number;
+      };
+    };
+    /** @description The import recorded: invitations sent and rows skipped, or rows imported. */
+    ImportResult: {
+      importId: number;
+      invited: number;
+      skipped: number;
+    } | {
+      importId: number;
+      imported: number;
+    };
+    /** @description One import with each row's fate (invitations: delivery per row). */
+    ImportDetail: {
+      import: components["schemas"]["Import"];
+      rows: ({
+          /** @description The line in the file (1 = the header) */
+          line: number;
+          /** @description What became of the row (invitations: invite, member, invited, duplicate, bad-…; opening records: imported) */
+          fate: string;
+          /** @description The row's values as read (and `message`: what importing it did) */
+          values: {
+            [key: string]: string;
+          };
+          /** @description The record the row became, if it became one */
+          entityId: number | null;
+          /** @description Invitations: the e-mail's delivery now (queued, sent, not-sent) */
+          delivery: string | null;
+          /** @description Invitations: pending, accepted or revoked */
+          invitationStatus: string | null;
+        })[];
+      /** @description Invitations: how many e-mails are waiting, sent, or failed every try; null for other kinds */
+      progress: {
+        queued: number;
+        sent: number;
+        notSent: number;
+      } | null;
     };
   };
   responses: never;
@@ -1862,7 +2192,6 @@ export interface operations {
             status: "ok";
             /** @constant */
             db: "ok";
-            [key: string]: unknown;
           };
         };
       };
@@ -1876,10 +2205,10 @@ export interface operations {
       503: {
         content: {
           "application/json": {
-            status: string;
+            /** @constant */
+            status: "degraded";
             /** @constant */
             db: "down";
-            [key: string]: unknown;
           };
         };
       };
@@ -1897,7 +2226,6 @@ export interface operations {
           "application/json": {
             /** @constant */
             status: "alive";
-            [key: string]: unknown;
           };
         };
       };
@@ -1931,7 +2259,6 @@ export interface operations {
             db: "ok";
             /** @constant */
             storage: "ok";
-            [key: string]: unknown;
           };
         };
       };
@@ -1947,9 +2274,10 @@ export interface operations {
           "application/json": {
             /** @constant */
             status: "not-ready";
-            db: string;
-            storage: string;
-            [key: string]: unknown;
+            /** @enum {string} */
+            db: "ok" | "down";
+            /** @enum {string} */
+            storage: "ok" | "down" | "not-configured";
           };
         };
       };
@@ -1999,10 +2327,20 @@ export interface operations {
       200: {
         content: {
           "application/json": {
-            tanks: {
-                [key: string]: unknown;
-              }[];
-            [key: string]: unknown;
+            tanks: ({
+                id: number;
+                name: string;
+                active: boolean;
+                capacityLiters: string;
+                onHandLiters: string;
+                reservedLiters: string;
+                heldLiters: string;
+                /** @enum {string} */
+                mixing: "mixed" | "fifo";
+                valueCents: string;
+                lapsedLiters: string;
+                lastDipAt: string | null;
+              })[];
           };
         };
       };
@@ -2323,17 +2661,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            year: number;
-            quarter: number;
-            months: {
-                [key: string]: unknown;
-              }[];
-            total: {
-              [key: string]: unknown;
-            };
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["QuarterlyReport"];
           "text/csv": string;
           "application/pdf": string;
         };
@@ -2795,7 +3123,6 @@ export interface operations {
         content: {
           "application/json": {
             name: string;
-            [key: string]: unknown;
           };
         };
       };
@@ -2875,7 +3202,6 @@ export interface operations {
           "application/json": {
             /** @constant */
             changed: true;
-            [key: string]: unknown;
           };
         };
       };
@@ -2961,8 +3287,8 @@ export interface operations {
         content: {
           "application/json": {
             pendingEmail: string;
+            /** @description false when the address is taken (the answer does not tell which) */
             sent: boolean;
-            [key: string]: unknown;
           };
         };
       };
@@ -3046,7 +3372,6 @@ export interface operations {
         content: {
           "application/json": {
             email: string;
-            [key: string]: unknown;
           };
         };
       };
@@ -3124,7 +3449,6 @@ export interface operations {
           "application/json": {
             /** @constant */
             signedOut: true;
-            [key: string]: unknown;
           };
         };
       };
@@ -3202,8 +3526,8 @@ export interface operations {
       202: {
         content: {
           "application/json": {
+            /** @description The same sentence whatever the address */
             message: string;
-            [key: string]: unknown;
           };
         };
       };
@@ -3274,7 +3598,6 @@ export interface operations {
         content: {
           "application/json": {
             email: string;
-            [key: string]: unknown;
           };
         };
       };
@@ -3328,7 +3651,6 @@ export interface operations {
         content: {
           "application/json": {
             email: string;
-            [key: string]: unknown;
           };
         };
       };
@@ -3409,20 +3731,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            coop: {
-              name: string;
-              slug: string;
-              [key: string]: unknown;
-            };
-            /** @enum {string} */
-            role: "admin" | "treasurer" | "brewer" | "member";
-            email: string;
-            expiresAt: string;
-            /** @enum {string} */
-            account: "new" | "signed-in" | "sign-in-needed" | "other-account";
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["InvitationInfo"];
         };
       };
       /** @description Unknown link. */
@@ -3556,7 +3865,6 @@ export interface operations {
         content: {
           "application/json": {
             coops: components["schemas"]["MyCoop"][];
-            [key: string]: unknown;
           };
         };
       };
@@ -3605,8 +3913,9 @@ export interface operations {
       201: {
         content: {
           "application/json": {
+            id: number;
             slug: string;
-            [key: string]: unknown;
+            name: string;
           };
         };
       };
@@ -3758,7 +4067,6 @@ export interface operations {
             /** @constant */
             removed: true;
             id: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -4169,7 +4477,6 @@ export interface operations {
             /** @constant */
             revoked: true;
             id: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -5672,9 +5979,11 @@ export interface operations {
     requestBody: {
       content: {
         "multipart/form-data": {
-          /** Format: binary */
+          /**
+           * Format: binary
+           * @description The safety data sheet, a PDF (at most 10 MB)
+           */
           file: string;
-          purpose?: string;
         };
       };
     };
@@ -6823,7 +7132,6 @@ export interface operations {
           "application/json": {
             /** @constant */
             acknowledged: true;
-            [key: string]: unknown;
           };
         };
       };
@@ -6905,9 +7213,16 @@ export interface operations {
     requestBody: {
       content: {
         "multipart/form-data": {
-          /** Format: binary */
+          /**
+           * Format: binary
+           * @description A PDF, JPEG or PNG (recognised from its bytes; at most 10 MB)
+           */
           file: string;
-          purpose?: string;
+          /**
+           * @description lab-report when absent
+           * @enum {string}
+           */
+          purpose?: "photo" | "lab-report" | "receipt";
         };
       };
     };
@@ -6915,9 +7230,7 @@ export interface operations {
       /** @description Success */
       201: {
         content: {
-          "application/json": {
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["BatchFile"];
         };
       };
       /** @description Malformed request (the body is not JSON or not UTF-8). */
@@ -7162,9 +7475,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["RecallReport"];
           "text/csv": string;
           "application/pdf": string;
         };
@@ -7238,8 +7549,14 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": components["schemas"]["Batch"] | {
-            [key: string]: unknown;
+          "application/json": {
+            /**
+             * @description The batch's verdict re-derived with the new results
+             * @enum {string}
+             */
+            qualityVerdict: "pass" | "fail" | "incomplete";
+            /** @description The review a failing required property opened, if any */
+            review: components["schemas"]["BatchReview"] | null;
           };
         };
       };
@@ -7505,9 +7822,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["TankLayers"];
         };
       };
       /** @description Not signed in, or the access token is missing, unknown or revoked. */
@@ -7774,9 +8089,9 @@ export interface operations {
         content: {
           "application/json": {
             issued: number;
+            /** @description The first invoice number given; null when none was issued */
             firstNumber: string | null;
             lastNumber: string | null;
-            [key: string]: unknown;
           };
         };
       };
@@ -7865,8 +8180,8 @@ export interface operations {
       202: {
         content: {
           "application/json": {
+            /** @description E-mails queued for the worker */
             queued: number;
-            [key: string]: unknown;
           };
         };
       };
@@ -8336,7 +8651,6 @@ export interface operations {
             invoiceId: number;
             creditNoteId: number;
             creditNoteLabel: string | null;
-            [key: string]: unknown;
           };
         };
       };
@@ -9259,7 +9573,6 @@ export interface operations {
             /** @constant */
             status: "succeeded";
             invoice: components["schemas"]["InvoiceDetail"];
-            [key: string]: unknown;
           };
         };
       };
@@ -9350,9 +9663,10 @@ export interface operations {
           "application/json": {
             /** @constant */
             received: true;
+            /** @description The event id was seen before: acknowledged, not applied again */
             duplicate: boolean;
+            /** @description What applying it did (applied, ignored, duplicate …), as stored with the event */
             outcome: string;
-            [key: string]: unknown;
           };
         };
       };
@@ -9422,10 +9736,7 @@ export interface operations {
       200: {
         content: {
           "application/json": {
-            imports: {
-                [key: string]: unknown;
-              }[];
-            [key: string]: unknown;
+            imports: components["schemas"]["Import"][];
           };
         };
       };
@@ -9485,9 +9796,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": {
-            [key: string]: unknown;
-          };
+          "application/json": components["schemas"]["InvitationImportPreview"] | components["schemas"]["OpeningImportPreview"];
         };
       };
       /** @description Malformed request (the body is not JSON or not UTF-8). */
@@ -9576,7 +9885,7 @@ export interface operations {
       /** @description Success */
       201: {
         content: {
-          "application/json": components["schemas"]["Import"];
+          "application/json": components["schemas"]["ImportResult"];
         };
       };
       /** @description Malformed request (the body is not JSON or not UTF-8). */
@@ -9709,7 +10018,7 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": components["schemas"]["Import"];
+          "application/json": components["schemas"]["ImportDetail"];
         };
       };
       /** @description Not signed in, or the access token is missing, unknown or revoked. */
@@ -9813,7 +10122,11 @@ export interface operations {
       /** @description Success */
       200: {
         content: {
-          "application/json": components["schemas"]["Import"];
+          "application/json": {
+            /** @constant */
+            undone: true;
+            id: number;
+          };
         };
       };
       /** @description Malformed request (the body is not JSON or not UTF-8). */
