@@ -84,7 +84,8 @@ export function OpeningImporter({
     }
     setPreview(null);
     setFile(null);
-    const imported = Number(r.data.imported);
+    // The answer of an opening-records import (the invitations kind answers invited/skipped).
+    const imported = 'imported' in r.data ? r.data.imported : 0;
     setDone(`Imported ${imported} row${imported === 1 ? '' : 's'}.`);
     router.refresh();
   }
