@@ -17,6 +17,10 @@ import type { PlannerResult } from '@/lib/brewing/planner';
 import type { Reconciliation } from '@/lib/billing/reconciliation';
 import type { CoopSettingsDto } from '@/lib/coops/settings-types';
 import type { Overview } from '@/lib/overview/types';
+import type { ImportDetail } from '@/lib/imports';
+import type { BatchLineage, TankLayersDto } from '@/lib/lineage';
+import type { InvitationInfo } from '@/lib/members/invitations';
+import type { QuarterlyReport } from '@/lib/reports/quarterly';
 
 type Json<P extends keyof paths, M extends keyof paths[P], S extends number> = paths[P][M] extends {
   responses: Record<S, { content: { 'application/json': infer B } }>;
@@ -55,6 +59,14 @@ describe("the typed client answers with the services' DTOs, field for field", ()
     expectTypeOf<Json<'/api/me', 'get', 200>>().toEqualTypeOf<ProfileDto>();
     expectTypeOf<Json<'/api/coops/{coop}/settings', 'get', 200>>().toEqualTypeOf<CoopSettingsDto>();
     expectTypeOf<Json<'/api/coops/{coop}/audit', 'get', 200>['rows'][number]>().toEqualTypeOf<AuditEventDto>();
+    expectTypeOf<Json<'/api/coops/{coop}/imports/{kind}/{id}', 'get', 200>>().toEqualTypeOf<ImportDetail>();
+    // byKind is keyed by ledger kind in the DTO; JSON Schema's record comes out as a string index.
+    expectTypeOf<Omit<Json<'/api/coops/{coop}/batches/{id}/lineage', 'get', 200>, 'byKind'>>().toEqualTypeOf<
+      Omit<BatchLineage, 'byKind'>
+    >();
+    expectTypeOf<Json<'/api/coops/{coop}/tanks/{tankId}/layers', 'get', 200>>().toEqualTypeOf<TankLayersDto>();
+    expectTypeOf<Json<'/api/coops/{coop}/reports/quarterly', 'get', 200>>().toEqualTypeOf<QuarterlyReport>();
+    expectTypeOf<Json<'/api/invitations/{token}', 'get', 200>>().toEqualTypeOf<InvitationInfo>();
   });
 
   it('refuses a field the contract does not declare (a renamed field is a compile error)', () => {
@@ -106,6 +118,17 @@ describe('the document declares exact objects for the DTOs the screens read', ()
     'CoopSettings',
     'AuditEvent',
     'InvitationAccepted',
+    'InvitationInfo',
+    'Import',
+    'ImportDetail',
+    'InvitationImportPreview',
+    'OpeningImportPreview',
+    'BatchLineage',
+    'BatchReview',
+    'RecallReport',
+    'TankLayers',
+    'QuarterlyReport',
+    'BatchFile',
   ])('%s allows no undeclared field', (id) => {
     expect(schemas[id], `components.schemas.${id}`).toBeDefined();
     expect(schemas[id]!.additionalProperties).toBe(false);
