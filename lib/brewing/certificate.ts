@@ -12,16 +12,8 @@ import {
 import { SAFETY_DEFERENCE } from '@/lib/safety';
 import { formatVolume, type UnitSystem } from '@/lib/units';
 import { computePlan } from './plan';
-import {
-  batchOilLotShares,
-  labResultsOf,
-  loadBatch,
-  isBrewed,
-  planInputOf,
-  quickTestInput,
-  quickTestsOf,
-  tankName,
-} from './read';
+import { batchOilLotShares, tankName } from './read';
+import { labResultsOf, loadBatch, isBrewed, planInputOf, quickTestInput, quickTestsOf } from './stored';
 import { todayIn } from '@/lib/dates';
 
 const VERDICT_TEXT = {

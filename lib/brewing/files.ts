@@ -7,7 +7,7 @@ import { notFound, invalidFields } from '@/lib/http';
 import { deleteFile, openFile, putFile, type StoredFile, type StoredKind } from '@/lib/storage';
 import { inTransaction } from '@/lib/db';
 import { BatchFile } from '@/models';
-import { loadBatch } from './read';
+import { loadBatch } from './stored';
 import type { CheckedUpload } from '@/lib/storage/upload';
 
 /** Kinds a batch accepts (checked from content): photos as JPEG/PNG, lab reports also as PDF. */

@@ -5,7 +5,7 @@ import { can, type Actor } from '@/lib/auth';
 import { roundHalfUp } from '@/lib/money';
 import { Batch, BatchStatusCount } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
-import { n, type BatchRecord } from './read';
+import { n, type BatchRecord } from './stored';
 import { qualityOf } from './verdicts';
 
 // The batch list: a page of the co-op's batches, sorted and filtered in SQL.

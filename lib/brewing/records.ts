@@ -13,7 +13,8 @@ import type { BatchStatus } from '@/models/Batch';
 import { computePlan } from './plan';
 import { fieldError, nextLotPurity, planColumns, resolveTitration, writeOilLots } from './plan-inputs';
 import { lockBatchNumbers } from './queries';
-import { getBatch, loadBatch, type BatchDto, type TemperatureDto } from './read';
+import { getBatch, type BatchDto, type TemperatureDto } from './read';
+import { loadBatch } from './stored';
 
 // Writing batches: create from a plan, move forward, log temperatures. Recording the steps (and
 // changing the plan) is in ./update; release and rejection live in ./release.

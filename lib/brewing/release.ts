@@ -10,17 +10,8 @@ import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { formatVolume, litersToGallons, volumeToLiters } from '@/lib/units';
 import { inTransaction } from '@/lib/db';
 import { Batch, ChemicalConsumption, ChemicalLot, Tank } from '@/models';
-import {
-  batchOilLotShares,
-  energyCentsOf,
-  feedstockShareCents,
-  getBatch,
-  labResultsOf,
-  loadBrewedBatch,
-  type BatchDto,
-  type BatchRecord,
-  type BrewedBatch,
-} from './read';
+import { batchOilLotShares, energyCentsOf, feedstockShareCents, getBatch, type BatchDto } from './read';
+import { labResultsOf, loadBrewedBatch, type BatchRecord, type BrewedBatch } from './stored';
 import { evaluateQuality } from '@/lib/quality';
 
 type BatchCreation = InferCreationAttributes<Batch>;

@@ -10,17 +10,16 @@ import { inTransaction } from '@/lib/db';
 import { Batch, BatchOilLot } from '@/models';
 import { computePlan, type Catalyst, type PlanInput } from './plan';
 import { fieldError, nextLotPurity, planColumns, writeOilLots } from './plan-inputs';
+import { getBatch, type BatchDto } from './read';
 import {
-  getBatch,
   labResultsOf,
   loadBrewedBatch,
   planInputOf,
   quickTestInput,
   quickTestsOf,
-  type BatchDto,
   type BatchRecord,
   type QuickTestsStored,
-} from './read';
+} from './stored';
 import { isFinal } from './records';
 
 // Recording what was done at a batch's steps, its costs and test results, and changing its plan while planned.

@@ -3,7 +3,7 @@ import { Op, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import type { Actor } from '@/lib/auth';
-import { loadBatch, labResultsOf } from '@/lib/brewing/read';
+import { loadBatch, labResultsOf } from '@/lib/brewing/stored';
 import { inTransaction } from '@/lib/db';
 import { conflict, notFound, invalidFields } from '@/lib/http';
 import { enqueueMail } from '@/lib/jobs';
