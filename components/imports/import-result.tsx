@@ -5,13 +5,9 @@ import useSWR from 'swr';
 import { DataTable } from '@/components/data-table/data-table';
 import { Notice } from '@/components/ui/notice';
 import type { ImportDetail } from '@/lib/imports/history';
+import type { ImportKindName } from '@/lib/validation/imports';
+import { apiClient, dataOrThrow } from '@/lib/api/client';
 import { invitationImportColumns, type InvitationImportRow } from './invitation-columns';
-
-const fetcher = async (url: string): Promise<ImportDetail> => {
-  const r = await fetch(url);
-  if (!r.ok) throw new Error(`HTTP ${r.status}`);
-  return r.json();
-};
 
 /** An import's rows with live e-mail delivery (polled every 2 s while e-mails are waiting), and the result download. */
 export function ImportResult({
@@ -21,12 +17,21 @@ export function ImportResult({
   fateLabels,
 }: {
   coopSlug: string;
-  kind: string;
+  kind: ImportKindName;
   initial: ImportDetail;
   fateLabels: Record<string, string>;
 }) {
   const url = `/api/coops/${coopSlug}/imports/${kind}/${initial.import.id}`;
-  const { data, error, mutate } = useSWR<ImportDetail>(url, fetcher, { fallbackData: initial });
+  const { data, error, mutate } = useSWR(
+    url,
+    () =>
+      dataOrThrow(
+        apiClient.GET('/api/coops/{coop}/imports/{kind}/{id}', {
+          params: { path: { coop: coopSlug, kind, id: String(initial.import.id) } },
+        }),
+      ),
+    { fallbackData: initial },
+  );
   const waiting = (data?.progress?.queued ?? 0) > 0;
   useEffect(() => {
     if (!waiting) return;
