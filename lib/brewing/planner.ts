@@ -25,7 +25,10 @@ const REACTION_TARGET_C = fToC(131); // common practice (130–135 °F)
 /** Starting oil temperature when the brewer gives none, °C (room temperature; an assumption the note states). */
 const ASSUMED_START_C = 20;
 
-/** The co-op's most recent released (or imported past) batches (oil in, fuel out), newest first, for the yield projection. */
+/**
+ * The co-op's most recent released (or imported past) batches (oil in, fuel out), newest first,
+ * for the yield projection (in the order of the index batches_yield_history).
+ */
 async function yieldHistory(coopId: number) {
   const rows = await Batch.findAll({
     // Imported past batches carry oil in and fuel out as recorded: they are yield history too.
