@@ -1,6 +1,6 @@
 'use strict';
 
-/** The planner's yield history (lib/brewing/planner.ts, `yieldHistory`): a co-op's most recent
+/** The planner's yield history (`plannerHistory` in lib/brewing/queries.ts): a co-op's most recent
  *  batches with fuel out, newest release first. Without an index in that order every request read
  *  and sorted all of the co-op's batches (2,000 in the benchmark co-op: ≈ 1.5–3 ms of PostgreSQL
  *  CPU per planner request); with it, the first ten rows of an index scan. The order is the
