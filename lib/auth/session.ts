@@ -11,6 +11,7 @@ import type { CoopSettings } from '@/models/Coop';
 import type { MembershipStatus } from '@/models/Membership';
 import { can, type Action } from './policies';
 import { requireTokenMember } from './api-tokens';
+import { cookieDecodeMemo } from './cookie-memo';
 import { sessionRow } from './queries';
 import { hashSessionId, SESSION_IDLE_DAYS, touchSession } from './sessions';
 
@@ -23,19 +24,26 @@ interface SessionClaims {
   sid: string;
 }
 
+/** next-auth's `decode`, remembering each cookie's payload in this process (lib/auth/cookie-memo.ts). */
+const decodeSessionCookie = cookieDecodeMemo();
+
 /**
  * The claims of next-auth's session cookie, or null. next-auth's own `getToken` finds the cookie
- * (its name, split into chunks when large) in a request and decrypts it; App Router hands us the
- * incoming Cookie header, so it gets a request carrying just that header (no Authorization
- * header: a session is a cookie here, nothing else). A request that carries an Authorization
- * header is never authenticated by a cookie: it is a token caller (requireMember), or no one.
+ * (its name, split into chunks when large) in a request and decrypts it (once per cookie string
+ * per process: `decodeSessionCookie`); App Router hands us the incoming Cookie header, so it gets
+ * a request carrying just that header (no Authorization header: a session is a cookie here,
+ * nothing else). A request that carries an Authorization header is never authenticated by a
+ * cookie: it is a token caller (requireMember), or no one.
  */
 const readSession = cache(async (): Promise<SessionClaims | null> => {
   const h = await headers();
   if (h.has('authorization')) return null;
   const cookie = h.get('cookie');
   if (!cookie) return null;
-  const token = await getToken({ req: new NextRequest('http://localhost/', { headers: { cookie } }) });
+  const token = await getToken({
+    req: new NextRequest('http://localhost/', { headers: { cookie } }),
+    decode: decodeSessionCookie,
+  });
   const uid = Number(token?.uid);
   const sid = token?.sid;
   return Number.isInteger(uid) && uid > 0 && typeof sid === 'string' && sid.length > 0 && sid.length <= 64

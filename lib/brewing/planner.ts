@@ -3,16 +3,15 @@ import type { z } from 'zod';
 import type { chemicalCoverageSchema, plannerResultSchema } from '@/lib/api/dto/brewing';
 import type { Actor } from '@/lib/auth';
 import { batchCost, consumeFifo, energyCostCents, estimateHeatingKwh, type FifoLotByTotal } from '@/lib/costing';
-import { Op } from 'sequelize';
 import { YIELD_HISTORY_BATCHES } from '@/lib/chemistry';
 import { formatCents, roundHalfUp } from '@/lib/money';
 import { stockState, summarizeStock } from '@/lib/supplies/stock';
 import { formatTemp, fToC, litersToGallons, tempToC, volumeToLiters } from '@/lib/units';
-import { Batch, ChemicalLot } from '@/models';
 import type { PlannerInput } from '@/lib/validation/brewing';
 import { computePlan } from './plan';
 import { feedstockShareCents } from './read';
 import { resolveTitration } from './plan-inputs';
+import { plannerHistory } from './queries';
 
 /** Stock check and projected cost of one chemical for a planned batch (the API's ChemicalCoverage). */
 export type ChemicalCoverage = z.infer<typeof chemicalCoverageSchema>;
@@ -25,38 +24,17 @@ const REACTION_TARGET_C = fToC(131); // common practice (130–135 °F)
 /** Starting oil temperature when the brewer gives none, °C (room temperature; an assumption the note states). */
 const ASSUMED_START_C = 20;
 
-/** The co-op's most recent released (or imported past) batches (oil in, fuel out), newest first, for the yield projection. */
-async function yieldHistory(coopId: number) {
-  const rows = await Batch.findAll({
-    // Imported past batches carry oil in and fuel out as recorded: they are yield history too.
-    where: { coopId, status: ['released', 'imported'], releasedLiters: { [Op.ne]: null } },
-    attributes: ['oilLiters', 'releasedLiters'],
-    order: [
-      ['releasedAt', 'DESC'],
-      ['id', 'DESC'],
-    ],
-    limit: YIELD_HISTORY_BATCHES,
-    raw: true,
-  });
-  return rows.map((r) => ({ oilLiters: Number(r.oilLiters), releasedLiters: Number(r.releasedLiters) }));
-}
-
-/** Cents per unit (L or g) of the last lot bought of each chemical, for pricing a shortfall. */
-async function lastPrices(coopId: number, kinds: readonly string[]): Promise<Map<string, number>> {
-  const rows = await Promise.all(
-    kinds.map((kind) =>
-      ChemicalLot.findOne({
-        where: { coopId, kind: kind as ChemicalLot['kind'], quantity: { [Op.gt]: 0 } },
-        attributes: ['kind', 'quantity', 'totalCostCents'],
-        order: [
-          ['receivedOn', 'DESC'],
-          ['id', 'DESC'],
-        ],
-        raw: true,
-      }),
-    ),
-  );
-  return new Map(rows.filter((r) => r !== null).map((r) => [r.kind, Number(r.totalCostCents) / Number(r.quantity)]));
+/**
+ * The co-op's most recent released (or imported past) batches (oil in, fuel out), newest first,
+ * for the yield projection; and cents per unit (L or g) of the last lot bought of each of `kinds`,
+ * for pricing a shortfall. One statement (lib/brewing/queries.ts).
+ */
+async function historyAndPrices(coopId: number, kinds: readonly string[]) {
+  const { history, prices } = await plannerHistory({ coopId, historyLimit: YIELD_HISTORY_BATCHES, kinds: [...kinds] });
+  return {
+    history: history.map((r) => ({ oilLiters: Number(r.oilLiters), releasedLiters: Number(r.releasedLiters) })),
+    prices: new Map(prices.map((r) => [r.kind, Number(r.totalCostCents) / Number(r.quantity)])),
+  };
 }
 
 /** Prices `need` after `committed` has been taken from the same lots (batches under way go first). */
@@ -82,12 +60,12 @@ export async function planBatch(actor: Actor, input: PlannerInput): Promise<Plan
   const oilLiters = volumeToLiters(input.oilVolume, units);
   const catalyst = input.catalyst ?? actor.coop.settings.recipe?.catalyst ?? 'KOH';
   // The lots holding stock (FIFO order; also gives the next lot's purity), what batches under way
-  // have committed, and the titration (the trials given, or the chosen oil lot's), read in parallel.
-  const [{ lots, needs }, { titration, lot }, history, prices] = await Promise.all([
+  // have committed, the titration (the trials given, or the chosen oil lot's), the yield history
+  // and the last prices paid, read in parallel.
+  const [{ lots, needs }, { titration, lot }, { history, prices }] = await Promise.all([
     stockState(actor.coop.id),
     resolveTitration(actor, input),
-    yieldHistory(actor.coop.id),
-    lastPrices(actor.coop.id, ['methanol', catalyst]),
+    historyAndPrices(actor.coop.id, ['methanol', catalyst]),
   ]);
   const stock = summarizeStock(lots, needs);
   const purity = input.purityPct === undefined ? (lots.find((l) => l.kind === catalyst)?.purityPct ?? null) : null;

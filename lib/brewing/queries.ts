@@ -1,5 +1,5 @@
 import 'server-only';
-import type { Transaction } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '@/models';
 
 /**
@@ -16,4 +16,45 @@ const BATCH_NUMBER_LOCK = 7301;
  */
 export async function lockBatchNumbers(coopId: number, transaction: Transaction): Promise<void> {
   await sequelize.query('SELECT pg_advisory_xact_lock($1, $2)', { bind: [BATCH_NUMBER_LOCK, coopId], transaction });
+}
+
+/** A batch with fuel out (litres as text), for the yield projection. */
+export interface YieldHistoryRow {
+  oilLiters: string;
+  releasedLiters: string;
+}
+/** The last lot bought of a chemical that says how much it held (quantity as text, cost in cents as text). */
+export interface LastLotPriceRow {
+  kind: string;
+  quantity: string;
+  totalCostCents: string;
+}
+
+/**
+ * The planner's history in one round trip (it was three model reads, each a Sequelize build and
+ * a socket write on every planner request; bench/README.md): the co-op's `historyLimit` latest
+ * released or imported batches with fuel out, newest release first (index batches_yield_history;
+ * imported past batches carry oil in and fuel out as recorded, so they are yield history too), and
+ * for each of `kinds` the last lot received with a quantity (index chemical_lots_received).
+ */
+export async function plannerHistory(p: {
+  coopId: number;
+  historyLimit: number;
+  kinds: string[];
+}): Promise<{ history: YieldHistoryRow[]; prices: LastLotPriceRow[] }> {
+  const [row] = await sequelize.query<{ history: YieldHistoryRow[]; prices: LastLotPriceRow[] }>(
+    `SELECT
+       (SELECT COALESCE(json_agg(json_build_object('oilLiters', h.oil_liters::text, 'releasedLiters', h.released_liters::text)
+                                 ORDER BY h.released_at DESC, h.id DESC), '[]')
+          FROM (SELECT oil_liters, released_liters, released_at, id FROM batches
+                WHERE coop_id = $coopId AND status IN ('released', 'imported') AND released_liters IS NOT NULL
+                ORDER BY released_at DESC, id DESC LIMIT $historyLimit) h) AS history,
+       (SELECT COALESCE(json_agg(l), '[]')
+          FROM unnest($kinds::text[]) AS k(kind)
+          CROSS JOIN LATERAL (SELECT chemical_lots.kind, quantity::text, total_cost_cents::text AS "totalCostCents" FROM chemical_lots
+                              WHERE coop_id = $coopId AND chemical_lots.kind = k.kind AND quantity > 0
+                              ORDER BY received_on DESC, id DESC LIMIT 1) l) AS prices`,
+    { bind: p, type: QueryTypes.SELECT },
+  );
+  return row!; // a SELECT without FROM always yields one row
 }
