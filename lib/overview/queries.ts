@@ -2,7 +2,7 @@ import 'server-only';
 import { QueryTypes } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { InferAttributes } from 'sequelize';
-import type { Batch, Invoice, Membership, TankMovement, User } from '@/models';
+import type { Batch, Invoice, Membership, PricePolicy, TankMovement, User } from '@/models';
 
 // The overview's statements a model query can't say: chart series over a calendar made with
 // generate_series (months or days with no rows still appear, as zero), the tank level carried
@@ -101,8 +101,28 @@ export function topOwing(coopId: number): Promise<OwingRow[]> {
 /** What a batch's verdict is judged from (lib/brewing qualityOf). */
 type VerdictColumns = Pick<InferAttributes<Batch>, 'qualityStandard' | 'labResults'>;
 
+/** The policy in force as the cards statement reads it: NUMERIC columns as strings. */
+type PolicyColumns = Pick<InferAttributes<PricePolicy>, 'id' | 'kind'> & {
+  price_cents_per_gallon: string | null;
+  margin_cents_per_gallon: string | null;
+  margin_pct: string | null;
+  surcharge_cents_per_gallon: string;
+  road_tax_cents_per_gallon: string;
+};
+
 /** The overview's cards in one row: my figures always, each role section only when asked for (else null). */
 export interface CardsRow {
+  /** Totals over the active tanks (litres and cents as NUMERIC/BIGINT text). */
+  tank: {
+    tanks: number;
+    onHand: string;
+    reserved: string;
+    held: string;
+    available: string;
+    capacity: string;
+    value: string;
+  };
+  policy: PolicyColumns | null;
   reservations: { id: number; tankName: string; quantityLiters: string; windowEnd: string }[];
   outstandingCents: string;
   creditCents: string;
@@ -117,8 +137,8 @@ export interface CardsRow {
 
 /**
  * Every card figure of the overview in one round trip (it was a dozen parallel model reads, the
- * largest cost of the first screen): my open reservations and my account (the same sums as
- * lib/billing's memberBalance), and — only for the roles that see them — the batches under way and
+ * largest cost of the first screen): the active tanks' totals, the price policy in force, my open
+ * reservations and my account (the same sums as lib/billing's memberBalance), and — only for the roles that see them — the batches under way and
  * the three latest released (with what their quality verdicts are judged from),
  * the month's invoice sums by kind and status, unmatched payments, pending invitations and the
  * last eight audited changes. A section not asked for is an InitPlan never run and comes back null.
@@ -133,8 +153,24 @@ export async function overviewCards(p: {
   treasurer: boolean;
   admin: boolean;
 }): Promise<CardsRow> {
+  // The tank totals follow lib/tank's findTankRows (reserved net of open reservations whose window
+  // has ended, available per tank never below zero) and the policy lib/tank/pricing-policy's
+  // policyInForce (the newest row already in effect); tests/api/overview.test.ts checks both.
+  // Each was a round trip of its own; as sub-selects they cost PostgreSQL a little planning.
   const [row] = await sequelize.query<CardsRow>(
     `SELECT
+       (SELECT json_build_object('tanks', COUNT(*), 'onHand', COALESCE(SUM(on_hand_liters), 0)::text,
+               'reserved', COALESCE(SUM(reserved), 0)::text, 'held', COALESCE(SUM(held_liters), 0)::text,
+               'available', COALESCE(SUM(GREATEST(on_hand_liters - reserved - held_liters, 0)), 0)::text,
+               'capacity', COALESCE(SUM(capacity_liters), 0)::text, 'value', COALESCE(SUM(value_cents), 0)::text)
+          FROM (SELECT t.on_hand_liters, t.held_liters, t.capacity_liters, t.value_cents, t.reserved_liters - (
+                  SELECT COALESCE(SUM(r.quantity_liters), 0) FROM reservations r
+                  WHERE r.coop_id = $coopId AND r.tank_id = t.id AND r.status = 'open' AND r.window_end < now()) AS reserved
+                FROM tanks t WHERE t.coop_id = $coopId AND t.active) x) AS tank,
+       (SELECT row_to_json(x) FROM (
+          SELECT id, kind, price_cents_per_gallon::text, margin_cents_per_gallon::text, margin_pct::text,
+                 surcharge_cents_per_gallon::text, road_tax_cents_per_gallon::text FROM price_policies
+          WHERE coop_id = $coopId AND effective_from <= now() ORDER BY effective_from DESC, id DESC LIMIT 1) x) AS policy,
        (SELECT COALESCE(json_agg(x ORDER BY x."windowEnd"), '[]') FROM (
           SELECT r.id, t.name AS "tankName", r.quantity_liters::text AS "quantityLiters", r.window_end AS "windowEnd"
           FROM reservations r JOIN tanks t ON t.id = r.tank_id AND t.coop_id = $coopId
