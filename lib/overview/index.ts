@@ -7,7 +7,7 @@ import { currentPeriod, periodToDate } from '@/lib/billing/periods';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
 import { policyInUnits, type PolicyRow } from '@/lib/tank/pricing-policy/convert';
-import { stockState, summarizeStock } from '@/lib/supplies/stock';
+import { stockPictureParams, stockStateOf, summarizeStock } from '@/lib/supplies/stock';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 import { qualityOf } from '@/lib/brewing';
@@ -68,7 +68,7 @@ const WORKING = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testi
 function brewerSectionOf(
   working: NonNullable<CardsRow['working']>,
   released: NonNullable<CardsRow['released']>,
-  { lots, needs }: Awaited<ReturnType<typeof stockState>>,
+  { lots, needs }: ReturnType<typeof stockStateOf>,
 ): BrewerSection {
   const summary = summarizeStock(lots, needs);
   const next = needs.next;
@@ -217,13 +217,13 @@ function charts(actor: Actor) {
 /**
  * The first screen of a co-op, different by role: everyone sees the tank and the price, their
  * open reservations and their own account; brewers the batches under way and the stock for the
- * next one, with the batches' quality verdicts; treasurers the month's billing; admins pending invitations and recent changes. The
- * reads run in parallel: every card figure in one statement (overviewCards: the tank totals, the
- * price policy in force, my reservations and account, the role sections), and for brewers the chemical stock and the batches'
- * quality verdicts (judged by lib/brewing qualityOf from columns the cards statement reads); the
- * figures on cards are read fresh on every request, chart series are SQL aggregates (months in
- * the co-op's time zone), never rows loaded into JavaScript, kept per process for a minute.
- * Reads only: nothing is written.
+ * next one, with the batches' quality verdicts; treasurers the month's billing; admins pending
+ * invitations and recent changes. Every card figure is one statement (overviewCards: the tank
+ * totals, the price policy in force, my reservations and account, and the sections of my role,
+ * brewers' chemical stock included), read fresh on every request, beside the chart series; the
+ * batches' quality verdicts are judged by lib/brewing qualityOf from columns the cards statement
+ * reads. Chart series are SQL aggregates (months in the co-op's time zone), never rows loaded into
+ * JavaScript, kept per process for a minute. Reads only: nothing is written.
  * @param actor any member (coop:read)
  */
 export async function getOverview(actor: Actor): Promise<Overview> {
@@ -232,18 +232,18 @@ export async function getOverview(actor: Actor): Promise<Overview> {
   const isTreasurer = can(actor.role, 'billing:manage');
   const isAdmin = can(actor.role, 'members:manage');
   const period = currentPeriod(actor.coop.timezone);
-  const [cards, stock, [volumes, level, batchCosts, balances]] = await Promise.all([
+  const [cards, [volumes, level, batchCosts, balances]] = await Promise.all([
     overviewCards({
       coopId: c,
       membershipId: actor.membershipId,
       openStatuses: OPEN_STATUSES,
       working: WORKING,
+      stock: stockPictureParams(c, { totals: true }),
       period: periodToDate(period),
       brewer: isBrewer,
       treasurer: isTreasurer,
       admin: isAdmin,
     }),
-    isBrewer ? stockState(c, undefined, { totals: true }) : null,
     charts(actor),
   ]);
   const openReservations = cards.reservations.map((r) => ({ ...r, windowEnd: new Date(r.windowEnd).toISOString() }));
@@ -253,7 +253,9 @@ export async function getOverview(actor: Actor): Promise<Overview> {
     unallocatedCents: Number(cards.unallocatedCents),
   };
   const brewer =
-    cards.working && cards.released && stock ? brewerSectionOf(cards.working, cards.released, stock) : null;
+    cards.working && cards.released && cards.stock
+      ? brewerSectionOf(cards.working, cards.released, stockStateOf(cards.stock))
+      : null;
   const treasurer = cards.invoiceSums ? treasurerSectionOf(period, cards.invoiceSums, cards.unmatched) : null;
   const admin =
     cards.invitations && cards.events

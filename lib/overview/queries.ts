@@ -2,6 +2,7 @@ import 'server-only';
 import { QueryTypes } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { InferAttributes } from 'sequelize';
+import { STOCK_PICTURE_COLUMNS, type StockPictureParams, type StockPictureRow } from '@/lib/supplies/queries';
 import type { Batch, Invoice, Membership, PricePolicy, TankMovement, User } from '@/models';
 
 // The overview's statements a model query can't say: chart series over a calendar made with
@@ -129,6 +130,8 @@ export interface CardsRow {
   unallocatedCents: string;
   working: ({ id: number; number: number; status: string; oilLiters: string; since: string } & VerdictColumns)[] | null;
   released: ({ id: number; number: number; releasedAt: string; releasedLiters: string } & VerdictColumns)[] | null;
+  /** The chemical stock picture (lib/supplies), for brewers. */
+  stock: StockPictureRow | null;
   invoiceSums: { kind: string; status: string; count: number; total: number; paid: number; owed: number }[] | null;
   unmatched: { count: number; cents: number } | null;
   invitations: { pending: number; notSent: number } | null;
@@ -138,8 +141,9 @@ export interface CardsRow {
 /**
  * Every card figure of the overview in one round trip (it was a dozen parallel model reads, the
  * largest cost of the first screen): the active tanks' totals, the price policy in force, my open
- * reservations and my account (the same sums as lib/billing's memberBalance), and — only for the roles that see them — the batches under way and
- * the three latest released (with what their quality verdicts are judged from),
+ * reservations and my account (the same sums as lib/billing's memberBalance), and — only for the roles that see them — the batches under way, the
+ * three latest released (with what their quality verdicts are judged from) and the chemical stock
+ * picture (lib/supplies STOCK_PICTURE_COLUMNS, bound from `stock`),
  * the month's invoice sums by kind and status, unmatched payments, pending invitations and the
  * last eight audited changes. A section not asked for is an InitPlan never run and comes back null.
  */
@@ -148,11 +152,13 @@ export async function overviewCards(p: {
   membershipId: number;
   openStatuses: string[];
   working: readonly string[];
+  stock: StockPictureParams;
   period: string;
   brewer: boolean;
   treasurer: boolean;
   admin: boolean;
 }): Promise<CardsRow> {
+  const { working, stock, ...rest } = p;
   // The tank totals follow lib/tank's findTankRows (reserved net of open reservations whose window
   // has ended, available per tank never below zero) and the policy lib/tank/pricing-policy's
   // policyInForce (the newest row already in effect); tests/api/overview.test.ts checks both.
@@ -188,6 +194,7 @@ export async function overviewCards(p: {
           SELECT id, number, released_at AS "releasedAt", released_liters::text AS "releasedLiters",
                  quality_standard AS "qualityStandard", lab_results AS "labResults" FROM batches
           WHERE coop_id = $coopId AND status = 'released' ORDER BY number DESC LIMIT 3) x) END AS released,
+       CASE WHEN $brewer THEN (SELECT row_to_json(s) FROM (SELECT ${STOCK_PICTURE_COLUMNS}) s) END AS stock,
        CASE WHEN $treasurer THEN (SELECT COALESCE(json_agg(x), '[]') FROM (
           SELECT kind, status, COUNT(*) AS count, SUM(total_cents) AS total, SUM(paid_cents) AS paid,
                  SUM(GREATEST(total_cents - paid_cents, 0)) AS owed
@@ -199,7 +206,7 @@ export async function overviewCards(p: {
        CASE WHEN $admin THEN (SELECT COALESCE(json_agg(x ORDER BY x.at DESC, x.id DESC), '[]') FROM (
           SELECT a.id, a.created_at AS at, u.name AS who, a.action FROM audit_events a LEFT JOIN users u ON u.id = a.actor_user_id
           WHERE a.coop_id = $coopId ORDER BY a.created_at DESC, a.id DESC LIMIT 8) x) END AS events`,
-    { bind: { ...p, working: [...p.working] }, type: QueryTypes.SELECT },
+    { bind: { ...stock, ...rest, working: [...working] }, type: QueryTypes.SELECT },
   );
   return row!; // a SELECT without FROM always yields one row
 }
