@@ -270,23 +270,47 @@ export function postgresCpuMeter(clusterDir) {
   };
 }
 
-/** Runs autocannon; returns { rps, p97_5, p50, errors, non2xx }. */
-export async function load({ url, connections = 10, duration = 10, headers = {}, method = 'GET', body, requests }) {
+/**
+ * Runs autocannon; returns { rps, p97_5, p50, errors, non2xx, total }. With `cpu` ({ pid, clusterDir }: the
+ * server's pid and the cluster's directory) also the server's and PostgreSQL's CPU per request in ms.
+ */
+export async function load({
+  url,
+  connections = 10,
+  duration = 10,
+  headers = {},
+  method = 'GET',
+  body,
+  requests,
+  cpu,
+}) {
+  const server0 = cpu ? serverCpuMs(cpu.pid) : null;
+  const pgUsed = cpu ? postgresCpuMeter(cpu.clusterDir) : null;
   const r = await autocannon({ url, connections, duration, headers, method, body, requests });
+  const server1 = cpu ? serverCpuMs(cpu.pid) : null;
+  const pgMs = pgUsed ? pgUsed() : null;
+  const per = (ms) => (ms === null || !r.requests.total ? null : Number((ms / r.requests.total).toFixed(2)));
   return {
     rps: Math.round(r.requests.average),
     p50: r.latency.p50,
     p97_5: r.latency.p97_5,
     errors: r.errors,
     non2xx: r.non2xx,
+    total: r.requests.total,
+    serverCpuMs: server0 === null || server1 === null ? null : per(server1 - server0),
+    postgresCpuMs: per(pgMs),
   };
 }
 
 /** Prints a result line and returns it. */
 export function report(label, r, reference) {
   const ratio = reference ? ` (${Math.round((r.rps / reference.rps) * 100)} % of /api/health)` : '';
+  const cpu =
+    r.serverCpuMs !== undefined && r.serverCpuMs !== null
+      ? `  CPU/req server ${r.serverCpuMs} ms, PG ${r.postgresCpuMs ?? '?'} ms`
+      : '';
   console.log(
-    `${label.padEnd(40)} ${String(r.rps).padStart(6)} req/s  p50 ${r.p50} ms  p97.5 ${r.p97_5} ms  errors ${r.errors}  non-2xx ${r.non2xx}${ratio}`,
+    `${label.padEnd(40)} ${String(r.rps).padStart(6)} req/s  p50 ${r.p50} ms  p97.5 ${r.p97_5} ms  errors ${r.errors}  non-2xx ${r.non2xx}${ratio}${cpu}`,
   );
   return r;
 }

@@ -6,11 +6,9 @@ import { OPEN_STATUSES } from '@/lib/billing/invoices';
 import { currentPeriod, periodToDate } from '@/lib/billing/periods';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
-import { policyInForce } from '@/lib/tank/pricing-policy';
 import { policyInUnits, type PolicyRow } from '@/lib/tank/pricing-policy/convert';
-import { stockState, summarizeStock } from '@/lib/supplies/stock';
-import { listTanks, type TankDto } from '@/lib/tank';
-import { mlToLiters } from '@/lib/units/quantity';
+import { stockPictureParams, stockStateOf, summarizeStock } from '@/lib/supplies/stock';
+import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 import { qualityOf } from '@/lib/brewing';
 import { Batch } from '@/models';
@@ -28,30 +26,26 @@ import type {
 export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
 
 /**
- * Tank totals across the co-op's active tanks, with the moving-average cost per gallon, from
- * lib/tank's list (the same figures as the tank page); sums are taken in whole millilitres.
+ * Tank totals across the co-op's active tanks (the same figures as the tank page, summed by the
+ * cards statement), with the moving-average cost per gallon; whole millilitres in JavaScript.
  */
-export function tankSummaryOf(tanks: TankDto[]): TankSummary {
-  const sumMl = (k: 'onHandLiters' | 'reservedLiters' | 'heldLiters' | 'capacityLiters') =>
-    tanks.reduce((a, t) => a + Math.round(t[k] * 1000), 0);
-  const onHandMl = sumMl('onHandLiters');
-  const reservedMl = sumMl('reservedLiters');
-  const availableMl = tanks.reduce((a, t) => a + Math.round(t.availableLiters * 1000), 0);
-  const valueCents = tanks.reduce((a, t) => a + t.valueCents, 0);
+export function tankSummaryOf(t: CardsRow['tank']): TankSummary {
+  const onHandMl = litersToMl(t.onHand);
+  const valueCents = Number(t.value);
   return {
     onHandLiters: mlToLiters(onHandMl),
-    reservedLiters: mlToLiters(reservedMl),
-    heldLiters: mlToLiters(sumMl('heldLiters')),
-    availableLiters: mlToLiters(availableMl),
-    capacityLiters: mlToLiters(sumMl('capacityLiters')),
+    reservedLiters: mlToLiters(litersToMl(t.reserved)),
+    heldLiters: mlToLiters(litersToMl(t.held)),
+    availableLiters: mlToLiters(litersToMl(t.available)),
+    capacityLiters: mlToLiters(litersToMl(t.capacity)),
     avgCostCentsPerGallon: onHandMl > 0 ? Math.round((valueCents / (onHandMl / 1000)) * LITERS_PER_US_GALLON) : null,
-    tanks: tanks.length,
+    tanks: Number(t.tanks),
   };
 }
 
 /** The member price in force now, from the latest policy and the tanks' average cost. */
 export function priceSummaryOf(
-  row: (PolicyRow & { id: number }) | undefined,
+  row: PolicyRow | null | undefined,
   avgCostCentsPerGallon: number | null,
 ): PriceSummary | null {
   if (!row) return null;
@@ -74,7 +68,7 @@ const WORKING = ['reacting', 'settling', 'draining', 'washing', 'drying', 'testi
 function brewerSectionOf(
   working: NonNullable<CardsRow['working']>,
   released: NonNullable<CardsRow['released']>,
-  { lots, needs }: Awaited<ReturnType<typeof stockState>>,
+  { lots, needs }: ReturnType<typeof stockStateOf>,
 ): BrewerSection {
   const summary = summarizeStock(lots, needs);
   const next = needs.next;
@@ -223,13 +217,13 @@ function charts(actor: Actor) {
 /**
  * The first screen of a co-op, different by role: everyone sees the tank and the price, their
  * open reservations and their own account; brewers the batches under way and the stock for the
- * next one, with the batches' quality verdicts; treasurers the month's billing; admins pending invitations and recent changes. The
- * reads run in parallel: the tanks and the price in force (their domains' own reads), every other
- * card figure in one statement (overviewCards), and for brewers the chemical stock and the batches'
- * quality verdicts (judged by lib/brewing qualityOf from columns the cards statement reads); the
- * figures on cards are read fresh on every request, chart series are SQL aggregates (months in
- * the co-op's time zone), never rows loaded into JavaScript, kept per process for a minute.
- * Reads only: nothing is written.
+ * next one, with the batches' quality verdicts; treasurers the month's billing; admins pending
+ * invitations and recent changes. Every card figure is one statement (overviewCards: the tank
+ * totals, the price policy in force, my reservations and account, and the sections of my role,
+ * brewers' chemical stock included), read fresh on every request, beside the chart series; the
+ * batches' quality verdicts are judged by lib/brewing qualityOf from columns the cards statement
+ * reads. Chart series are SQL aggregates (months in the co-op's time zone), never rows loaded into
+ * JavaScript, kept per process for a minute. Reads only: nothing is written.
  * @param actor any member (coop:read)
  */
 export async function getOverview(actor: Actor): Promise<Overview> {
@@ -238,20 +232,18 @@ export async function getOverview(actor: Actor): Promise<Overview> {
   const isTreasurer = can(actor.role, 'billing:manage');
   const isAdmin = can(actor.role, 'members:manage');
   const period = currentPeriod(actor.coop.timezone);
-  const [tanks, policy, cards, stock, [volumes, level, batchCosts, balances]] = await Promise.all([
-    listTanks(actor, { activeOnly: true }),
-    policyInForce(c),
+  const [cards, [volumes, level, batchCosts, balances]] = await Promise.all([
     overviewCards({
       coopId: c,
       membershipId: actor.membershipId,
       openStatuses: OPEN_STATUSES,
       working: WORKING,
+      stock: stockPictureParams(c, { totals: true }),
       period: periodToDate(period),
       brewer: isBrewer,
       treasurer: isTreasurer,
       admin: isAdmin,
     }),
-    isBrewer ? stockState(c, undefined, { totals: true }) : null,
     charts(actor),
   ]);
   const openReservations = cards.reservations.map((r) => ({ ...r, windowEnd: new Date(r.windowEnd).toISOString() }));
@@ -261,7 +253,9 @@ export async function getOverview(actor: Actor): Promise<Overview> {
     unallocatedCents: Number(cards.unallocatedCents),
   };
   const brewer =
-    cards.working && cards.released && stock ? brewerSectionOf(cards.working, cards.released, stock) : null;
+    cards.working && cards.released && cards.stock
+      ? brewerSectionOf(cards.working, cards.released, stockStateOf(cards.stock))
+      : null;
   const treasurer = cards.invoiceSums ? treasurerSectionOf(period, cards.invoiceSums, cards.unmatched) : null;
   const admin =
     cards.invitations && cards.events
@@ -271,11 +265,11 @@ export async function getOverview(actor: Actor): Promise<Overview> {
           recentEvents: cards.events.map((e) => ({ at: new Date(e.at).toISOString(), who: e.who, action: e.action })),
         }
       : null;
-  const tank = tankSummaryOf(tanks);
+  const tank = tankSummaryOf(cards.tank);
   return {
     role: actor.role,
     tank,
-    price: priceSummaryOf(policy ?? undefined, tank.avgCostCentsPerGallon),
+    price: priceSummaryOf(cards.policy, tank.avgCostCentsPerGallon),
     volumes: volumes.map((v) => ({ month: v.month, releasedLiters: Number(v.released), drawnLiters: Number(v.drawn) })),
     tankLevel: level.map((l) => ({ day: l.day, onHandLiters: Number(l.onHand) })),
     member: { openReservations },

@@ -2,7 +2,8 @@ import 'server-only';
 import { QueryTypes } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { InferAttributes } from 'sequelize';
-import type { Batch, Invoice, Membership, TankMovement, User } from '@/models';
+import { STOCK_PICTURE_COLUMNS, type StockPictureParams, type StockPictureRow } from '@/lib/supplies/queries';
+import type { Batch, Invoice, Membership, PricePolicy, TankMovement, User } from '@/models';
 
 // The overview's statements a model query can't say: chart series over a calendar made with
 // generate_series (months or days with no rows still appear, as zero), the tank level carried
@@ -101,14 +102,36 @@ export function topOwing(coopId: number): Promise<OwingRow[]> {
 /** What a batch's verdict is judged from (lib/brewing qualityOf). */
 type VerdictColumns = Pick<InferAttributes<Batch>, 'qualityStandard' | 'labResults'>;
 
+/** The policy in force as the cards statement reads it: NUMERIC columns as strings. */
+type PolicyColumns = Pick<InferAttributes<PricePolicy>, 'id' | 'kind'> & {
+  price_cents_per_gallon: string | null;
+  margin_cents_per_gallon: string | null;
+  margin_pct: string | null;
+  surcharge_cents_per_gallon: string;
+  road_tax_cents_per_gallon: string;
+};
+
 /** The overview's cards in one row: my figures always, each role section only when asked for (else null). */
 export interface CardsRow {
+  /** Totals over the active tanks (litres and cents as NUMERIC/BIGINT text). */
+  tank: {
+    tanks: number;
+    onHand: string;
+    reserved: string;
+    held: string;
+    available: string;
+    capacity: string;
+    value: string;
+  };
+  policy: PolicyColumns | null;
   reservations: { id: number; tankName: string; quantityLiters: string; windowEnd: string }[];
   outstandingCents: string;
   creditCents: string;
   unallocatedCents: string;
   working: ({ id: number; number: number; status: string; oilLiters: string; since: string } & VerdictColumns)[] | null;
   released: ({ id: number; number: number; releasedAt: string; releasedLiters: string } & VerdictColumns)[] | null;
+  /** The chemical stock picture (lib/supplies), for brewers. */
+  stock: StockPictureRow | null;
   invoiceSums: { kind: string; status: string; count: number; total: number; paid: number; owed: number }[] | null;
   unmatched: { count: number; cents: number } | null;
   invitations: { pending: number; notSent: number } | null;
@@ -117,9 +140,10 @@ export interface CardsRow {
 
 /**
  * Every card figure of the overview in one round trip (it was a dozen parallel model reads, the
- * largest cost of the first screen): my open reservations and my account (the same sums as
- * lib/billing's memberBalance), and — only for the roles that see them — the batches under way and
- * the three latest released (with what their quality verdicts are judged from),
+ * largest cost of the first screen): the active tanks' totals, the price policy in force, my open
+ * reservations and my account (the same sums as lib/billing's memberBalance), and — only for the roles that see them — the batches under way, the
+ * three latest released (with what their quality verdicts are judged from) and the chemical stock
+ * picture (lib/supplies STOCK_PICTURE_COLUMNS, bound from `stock`),
  * the month's invoice sums by kind and status, unmatched payments, pending invitations and the
  * last eight audited changes. A section not asked for is an InitPlan never run and comes back null.
  */
@@ -128,13 +152,31 @@ export async function overviewCards(p: {
   membershipId: number;
   openStatuses: string[];
   working: readonly string[];
+  stock: StockPictureParams;
   period: string;
   brewer: boolean;
   treasurer: boolean;
   admin: boolean;
 }): Promise<CardsRow> {
+  const { working, stock, ...rest } = p;
+  // The tank totals follow lib/tank's findTankRows (reserved net of open reservations whose window
+  // has ended, available per tank never below zero) and the policy lib/tank/pricing-policy's
+  // policyInForce (the newest row already in effect); tests/api/overview.test.ts checks both.
+  // Each was a round trip of its own; as sub-selects they cost PostgreSQL a little planning.
   const [row] = await sequelize.query<CardsRow>(
     `SELECT
+       (SELECT json_build_object('tanks', COUNT(*), 'onHand', COALESCE(SUM(on_hand_liters), 0)::text,
+               'reserved', COALESCE(SUM(reserved), 0)::text, 'held', COALESCE(SUM(held_liters), 0)::text,
+               'available', COALESCE(SUM(GREATEST(on_hand_liters - reserved - held_liters, 0)), 0)::text,
+               'capacity', COALESCE(SUM(capacity_liters), 0)::text, 'value', COALESCE(SUM(value_cents), 0)::text)
+          FROM (SELECT t.on_hand_liters, t.held_liters, t.capacity_liters, t.value_cents, t.reserved_liters - (
+                  SELECT COALESCE(SUM(r.quantity_liters), 0) FROM reservations r
+                  WHERE r.coop_id = $coopId AND r.tank_id = t.id AND r.status = 'open' AND r.window_end < now()) AS reserved
+                FROM tanks t WHERE t.coop_id = $coopId AND t.active) x) AS tank,
+       (SELECT row_to_json(x) FROM (
+          SELECT id, kind, price_cents_per_gallon::text, margin_cents_per_gallon::text, margin_pct::text,
+                 surcharge_cents_per_gallon::text, road_tax_cents_per_gallon::text FROM price_policies
+          WHERE coop_id = $coopId AND effective_from <= now() ORDER BY effective_from DESC, id DESC LIMIT 1) x) AS policy,
        (SELECT COALESCE(json_agg(x ORDER BY x."windowEnd"), '[]') FROM (
           SELECT r.id, t.name AS "tankName", r.quantity_liters::text AS "quantityLiters", r.window_end AS "windowEnd"
           FROM reservations r JOIN tanks t ON t.id = r.tank_id AND t.coop_id = $coopId
@@ -152,6 +194,7 @@ export async function overviewCards(p: {
           SELECT id, number, released_at AS "releasedAt", released_liters::text AS "releasedLiters",
                  quality_standard AS "qualityStandard", lab_results AS "labResults" FROM batches
           WHERE coop_id = $coopId AND status = 'released' ORDER BY number DESC LIMIT 3) x) END AS released,
+       CASE WHEN $brewer THEN (SELECT row_to_json(s) FROM (SELECT ${STOCK_PICTURE_COLUMNS}) s) END AS stock,
        CASE WHEN $treasurer THEN (SELECT COALESCE(json_agg(x), '[]') FROM (
           SELECT kind, status, COUNT(*) AS count, SUM(total_cents) AS total, SUM(paid_cents) AS paid,
                  SUM(GREATEST(total_cents - paid_cents, 0)) AS owed
@@ -163,7 +206,7 @@ export async function overviewCards(p: {
        CASE WHEN $admin THEN (SELECT COALESCE(json_agg(x ORDER BY x.at DESC, x.id DESC), '[]') FROM (
           SELECT a.id, a.created_at AS at, u.name AS who, a.action FROM audit_events a LEFT JOIN users u ON u.id = a.actor_user_id
           WHERE a.coop_id = $coopId ORDER BY a.created_at DESC, a.id DESC LIMIT 8) x) END AS events`,
-    { bind: { ...p, working: [...p.working] }, type: QueryTypes.SELECT },
+    { bind: { ...stock, ...rest, working: [...working] }, type: QueryTypes.SELECT },
   );
   return row!; // a SELECT without FROM always yields one row
 }

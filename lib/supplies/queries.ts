@@ -51,18 +51,22 @@ export interface NextPlannedRow {
   catalystGrams: string;
 }
 
+/** The stock picture's three columns as they arrive (json). */
+export interface StockPictureRow {
+  lots: StockLotRow[];
+  committed: CommittedRow[];
+  next: NextPlannedRow | null;
+}
+
 /**
- * The chemical stock picture in one round trip (it was three reads on every overview, planner and
- * supplies request): the lots of `kinds` still holding stock in FIFO order (or, with `totals`,
- * one summed row per chemical), what batches in `underWay` have committed per catalyst (what was
- * actually used when recorded, else the plan), and the next planned batch with its needs.
+ * The chemical stock picture's select items (lots, committed, next), bound by name: $coopId,
+ * $kinds, $underWay, $totals. The lots of `kinds` still holding stock in FIFO order (or, with
+ * `totals`, one summed row per chemical), what batches in `underWay` have committed per catalyst
+ * (what was actually used when recorded, else the plan), and the next planned batch with its
+ * needs. Shared by stockPicture and the overview's cards statement (lib/overview/queries.ts),
+ * which reads it in the same round trip as its other figures.
  */
-export async function stockPicture(
-  p: { coopId: number; kinds: string[]; underWay: string[]; totals: boolean },
-  transaction?: Transaction,
-) {
-  const [row] = await sequelize.query<{ lots: StockLotRow[]; committed: CommittedRow[]; next: NextPlannedRow | null }>(
-    `SELECT
+export const STOCK_PICTURE_COLUMNS = `
        CASE WHEN $totals THEN (SELECT COALESCE(json_agg(x ORDER BY x.kind), '[]') FROM (
           SELECT -MIN(id) AS id, kind, NULL AS "receivedOn", SUM(quantity)::text AS quantity, SUM(remaining_quantity)::text AS remaining,
                  SUM(total_cost_cents)::text AS "totalCostCents", NULL AS "purityPct"
@@ -79,8 +83,25 @@ export async function stockPicture(
           SELECT id, number, catalyst, batch_date AS "batchDate", oil_liters::text AS "oilLiters",
                  COALESCE(actual_methanol_liters, computed_methanol_liters)::text AS "methanolLiters",
                  COALESCE(actual_catalyst_grams, computed_catalyst_grams)::text AS "catalystGrams"
-          FROM batches WHERE coop_id = $coopId AND status = 'planned' ORDER BY batch_date, number LIMIT 1) x) AS next`,
-    { bind: p, type: QueryTypes.SELECT, transaction },
-  );
+          FROM batches WHERE coop_id = $coopId AND status = 'planned' ORDER BY batch_date, number LIMIT 1) x) AS next`;
+
+/** The values STOCK_PICTURE_COLUMNS binds. */
+export type StockPictureParams = {
+  coopId: number;
+  kinds: string[];
+  underWay: string[];
+  totals: boolean;
+};
+
+/**
+ * The chemical stock picture in one round trip (it was three reads on every overview, planner and
+ * supplies request): STOCK_PICTURE_COLUMNS.
+ */
+export async function stockPicture(p: StockPictureParams, transaction?: Transaction): Promise<StockPictureRow> {
+  const [row] = await sequelize.query<StockPictureRow>(`SELECT ${STOCK_PICTURE_COLUMNS}`, {
+    bind: p,
+    type: QueryTypes.SELECT,
+    transaction,
+  });
   return row!; // a SELECT without FROM always yields one row
 }

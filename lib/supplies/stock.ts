@@ -4,7 +4,7 @@ import type { z } from 'zod';
 import type { stockLineSchema, stockSummarySchema } from '@/lib/api/dto/brewing';
 import type { Actor } from '@/lib/auth';
 import type { BatchStatus } from '@/models/Batch';
-import { stockPicture } from './queries';
+import { stockPicture, type StockPictureParams, type StockPictureRow } from './queries';
 
 // Chemical stock: what the lots hold, what batches under way have committed, what the next
 // planned batch needs, and the summary the supplies page, the planner and the overview show.
@@ -66,7 +66,16 @@ export async function stockState(
   transaction?: Transaction,
   { totals = false } = {},
 ): Promise<{ lots: HeldLot[]; needs: BatchNeeds }> {
-  const row = await stockPicture({ coopId, kinds: STOCKED, underWay: UNDER_WAY, totals }, transaction);
+  return stockStateOf(await stockPicture(stockPictureParams(coopId, { totals }), transaction));
+}
+
+/** What stockState binds: the chemicals followed and the batch steps whose chemicals are committed. */
+export function stockPictureParams(coopId: number, { totals = false } = {}): StockPictureParams {
+  return { coopId, kinds: STOCKED, underWay: UNDER_WAY, totals };
+}
+
+/** The lots and the batches' needs from a stock picture row (lib/supplies/queries STOCK_PICTURE_COLUMNS). */
+export function stockStateOf(row: StockPictureRow): { lots: HeldLot[]; needs: BatchNeeds } {
   const lots = row.lots.map((r) => ({
     id: r.id,
     kind: r.kind,
