@@ -1,9 +1,19 @@
 import { Card } from '@/components/ui/notice';
 import type { BatchDto } from '@/lib/brewing';
-import { UploadForm } from './upload-form';
+import { UploadForm } from '@/components/forms/upload-form';
 
 /** The batch's attached photos, lab reports and disposal receipts, and the form to attach more. */
-export function BatchFiles({ files, url }: { files: BatchDto['files']; url: string }) {
+export function BatchFiles({
+  files,
+  url,
+  coop,
+  batchId,
+}: {
+  files: BatchDto['files'];
+  url: string;
+  coop: string;
+  batchId: number;
+}) {
   return (
     <Card title="Photos and lab reports">
       {files.length ? (
@@ -24,7 +34,7 @@ export function BatchFiles({ files, url }: { files: BatchDto['files']; url: stri
         <p className="mb-3 text-sm text-stone-600">Nothing attached yet.</p>
       )}
       <UploadForm
-        url={`${url}/files`}
+        target={{ to: 'batch-files', coop, batchId }}
         accept="application/pdf,image/jpeg,image/png"
         label="PDF, JPEG or PNG"
         purposes={[

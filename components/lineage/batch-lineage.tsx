@@ -1,6 +1,6 @@
 import { dateText, money, vol } from '@/components/brewing/format';
 import { StepForm } from '@/components/brewing/step-form';
-import { UploadForm } from '@/components/brewing/upload-form';
+import { UploadForm } from '@/components/forms/upload-form';
 import { Card, Notice } from '@/components/ui/notice';
 import type { BatchLineage, ReviewDto } from '@/lib/lineage';
 import type { FuelStandard } from '@/lib/quality';
@@ -44,6 +44,7 @@ function ReviewLine({ r, units }: { r: ReviewDto; units: UnitSystem }) {
 export function BatchLineageSection({
   lineage,
   apiUrl,
+  coop,
   units,
   currency,
   canWrite,
@@ -54,6 +55,7 @@ export function BatchLineageSection({
 }: {
   lineage: BatchLineage;
   apiUrl: string;
+  coop: string;
   units: UnitSystem;
   currency: string;
   canWrite: boolean;
@@ -227,7 +229,7 @@ export function BatchLineageSection({
                 Disposal needs its receipt: upload it here first, then choose it below.
               </p>
               <UploadForm
-                url={`${apiUrl}/files`}
+                target={{ to: 'batch-files', coop, batchId: lineage.batchId }}
                 id="receipt"
                 accept="application/pdf,image/jpeg,image/png"
                 label="Disposal receipt (PDF, JPEG or PNG)"

@@ -6,7 +6,8 @@ import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, numberOf, useApiForm } from '@/components/forms/use-api-form';
-import { apiClient } from '@/lib/api/client';
+import { apiClient, apiError } from '@/lib/api/client';
+import { uploadFile } from '@/components/forms/upload-form';
 import type { CHEMICAL_KINDS, QUANTITY_UNITS } from '@/lib/validation/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 
@@ -58,14 +59,12 @@ export function ChemicalLotForm({ slug, units: system = 'metric' }: { slug: stri
     if (!lot) return;
     const file = (form.elements.namedItem('sds') as HTMLInputElement | null)?.files?.[0];
     if (file) {
-      const data = new FormData();
-      data.set('file', file);
-      const res = await fetch(`/api/coops/${slug}/supplies/chemicals/${lot.id}/sds`, { method: 'POST', body: data });
-      if (!res.ok) {
-        const b = await res.json().catch(() => ({}));
+      const { response, error } = await uploadFile({ to: 'sds', coop: slug, lotId: lot.id }, file);
+      if (!response.ok) {
+        const e = apiError(error, response.status);
         setMessage({
           tone: 'danger',
-          text: `The purchase was recorded, but the safety data sheet was not: ${(b.fields?.file ?? [b.error ?? 'upload failed'])[0]}`,
+          text: `The purchase was recorded, but the safety data sheet was not: ${(e.fields.file ?? [e.error])[0]}`,
         });
       }
     }

@@ -6,7 +6,7 @@ import type { ChemicalLotDto } from '@/lib/supplies/chemical-lots';
 import type { OilLotDto } from '@/lib/supplies/oil-lots';
 import type { UnitSystem } from '@/lib/units';
 import { dateText, grams, money, vol } from '@/components/brewing/format';
-import { UploadForm } from '@/components/brewing/upload-form';
+import { UploadForm } from '@/components/forms/upload-form';
 
 /** The chemical-lot fields the table shows (lib/supplies' DTO). */
 export type ChemicalRow = Pick<
@@ -91,7 +91,7 @@ export function ChemicalTable({
             <div className="mt-2 w-64">
               <UploadForm
                 id={`sds-${c.row.original.id}`}
-                url={`/api/coops/${slug}/supplies/chemicals/${c.row.original.id}/sds`}
+                target={{ to: 'sds', coop: slug, lotId: c.row.original.id }}
                 accept="application/pdf"
                 label="PDF"
               />

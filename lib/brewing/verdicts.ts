@@ -1,6 +1,7 @@
 import 'server-only';
 import type { InferAttributes } from 'sequelize';
 import type { Batch } from '@/models';
+import { lruMemo } from '@/lib/cache/lru-memo';
 import { evaluateQuality, type QualityResults, type StandardVerdict } from '@/lib/quality';
 
 type BatchRecord = InferAttributes<Batch>;
@@ -11,6 +12,8 @@ export interface BatchQuality {
   kind: StandardVerdict['kind'];
 }
 
+const verdictMemo = lruMemo<Readonly<BatchQuality & { overall: 'pass' | 'fail' | 'incomplete' }>>(5_000);
+
 /**
  * The one verdict of a stored batch, judged from its results (a verdict stored under an older
  * rule is not trusted). Used by the batch list and the overview; the batch page and the PDF take
@@ -18,7 +21,11 @@ export interface BatchQuality {
  */
 export function qualityOf(
   row: Pick<BatchRecord, 'qualityStandard' | 'labResults'>,
-): BatchQuality & { overall: 'pass' | 'fail' | 'incomplete' } {
-  const e = evaluateQuality(row.qualityStandard, (row.labResults ?? {}) as QualityResults);
-  return { text: e.verdict.text, kind: e.verdict.kind, overall: e.overall };
+): Readonly<BatchQuality & { overall: 'pass' | 'fail' | 'incomplete' }> {
+  // A list page judges 25 batches (≈ 35 µs each); the verdict depends on nothing but these two
+  // columns, so each distinct pair is judged once per process.
+  return verdictMemo(`${row.qualityStandard}\n${JSON.stringify(row.labResults ?? {})}`, () => {
+    const e = evaluateQuality(row.qualityStandard, (row.labResults ?? {}) as QualityResults);
+    return Object.freeze({ text: e.verdict.text, kind: e.verdict.kind, overall: e.overall });
+  });
 }

@@ -104,6 +104,7 @@ async function lineageSection(actor: Actor, batch: BatchDto | BatchSummaryDto): 
     <BatchLineageSection
       lineage={lineage}
       apiUrl={`/api/coops/${actor.coop.slug}/batches/${batch.id}`}
+      coop={actor.coop.slug}
       units={actor.coop.units}
       currency={actor.coop.currency}
       canWrite={canWrite}
@@ -206,7 +207,7 @@ function BatchRecord({
       </Card>
 
       <BatchCosts batch={batch} units={units} currency={currency} url={url} final={final} />
-      <BatchFiles files={batch.files} url={url} />
+      <BatchFiles files={batch.files} url={url} coop={base.slice(3)} batchId={batch.id} />
 
       <Card title="Notes">
         <StepForm

@@ -5,19 +5,50 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { FieldErrors, SelectField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
+import { apiClient, apiError } from '@/lib/api/client';
+
+/** Where an upload goes: a batch's files (with a purpose) or a chemical lot's safety data sheet. */
+export type UploadTarget =
+  | { to: 'batch-files'; coop: string; batchId: number }
+  | { to: 'sds'; coop: string; lotId: number };
+type Purpose = 'photo' | 'lab-report' | 'receipt';
+
+/** The multipart body as built here (the declared body names the fields; the file itself is a Blob). */
+const multipart = (fields: Record<string, string | Blob | undefined>) => () => {
+  const data = new FormData();
+  for (const [k, v] of Object.entries(fields)) if (v !== undefined) data.set(k, v);
+  return data;
+};
+
+/** Sends one file through the typed client; resolves to the call's result (data or error). */
+export function uploadFile(target: UploadTarget, file: File, purpose?: Purpose) {
+  // The OpenAPI types say `string` for a binary field; the browser sends the File.
+  const binary = file as unknown as string;
+  return target.to === 'sds'
+    ? apiClient.POST('/api/coops/{coop}/supplies/chemicals/{id}/sds', {
+        params: { path: { coop: target.coop, id: String(target.lotId) } },
+        body: { file: binary },
+        bodySerializer: multipart({ file }),
+      })
+    : apiClient.POST('/api/coops/{coop}/batches/{id}/files', {
+        params: { path: { coop: target.coop, id: String(target.batchId) } },
+        body: { file: binary, purpose },
+        bodySerializer: multipart({ file, purpose }),
+      });
+}
 
 /** Uploads one file (multipart) with optional purpose; the server checks its type from its content. */
 export function UploadForm({
-  url,
+  target,
   accept,
   label,
   purposes,
   id = 'file',
 }: {
-  url: string;
+  target: UploadTarget;
   accept: string;
   label: string;
-  purposes?: { value: string; label: string }[];
+  purposes?: { value: Purpose; label: string }[];
   id?: string;
 }) {
   const router = useRouter();
@@ -37,16 +68,17 @@ export function UploadForm({
     setBusy(true);
     setMessage(null);
     try {
-      const res = await fetch(url, { method: 'POST', body: data });
-      const body = await res.json().catch(() => ({}));
-      if (res.ok) {
+      const purpose = (data.get('purpose') as Purpose | null) ?? undefined;
+      const { response, error } = await uploadFile(target, file, purpose);
+      if (response.ok) {
         setErrors({});
         setMessage({ tone: 'ok', text: 'Uploaded.' });
         form.reset();
         router.refresh();
       } else {
-        setErrors(body.fields ?? {});
-        setMessage({ tone: 'danger', text: body.error ?? `Upload failed (${res.status}).` });
+        const e = apiError(error, response.status);
+        setErrors(e.fields);
+        setMessage({ tone: 'danger', text: e.error });
       }
     } catch {
       setMessage({ tone: 'danger', text: 'Could not reach Tallyvat. Check your connection and try again.' });
