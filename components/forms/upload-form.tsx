@@ -9,8 +9,7 @@ import { apiClient, apiError } from '@/lib/api/client';
 
 /** Where an upload goes: a batch's files (with a purpose) or a chemical lot's safety data sheet. */
 export type UploadTarget =
-  | { to: 'batch-files'; coop: string; batchId: number }
-  | { to: 'sds'; coop: string; lotId: number };
+  { to: 'batch-files'; coop: string; batchId: number } | { to: 'sds'; coop: string; lotId: number };
 type Purpose = 'photo' | 'lab-report' | 'receipt';
 
 /** The multipart body as built here (the declared body names the fields; the file itself is a Blob). */
