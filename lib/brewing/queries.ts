@@ -1,6 +1,6 @@
 import 'server-only';
-import { QueryTypes, type Transaction } from 'sequelize';
-import { sequelize } from '@/models';
+import { QueryTypes, type InferAttributes, type Transaction } from 'sequelize';
+import { sequelize, type Batch, type ChemicalLot } from '@/models';
 
 /**
  * The statements of batches that a model call can't say. Every value is bound ($1, $2 …), never
@@ -18,17 +18,10 @@ export async function lockBatchNumbers(coopId: number, transaction: Transaction)
   await sequelize.query('SELECT pg_advisory_xact_lock($1, $2)', { bind: [BATCH_NUMBER_LOCK, coopId], transaction });
 }
 
-/** A batch with fuel out (litres as text), for the yield projection. */
-export interface YieldHistoryRow {
-  oilLiters: string;
-  releasedLiters: string;
-}
-/** The last lot bought of a chemical that says how much it held (quantity as text, cost in cents as text). */
-export interface LastLotPriceRow {
-  kind: string;
-  quantity: string;
-  totalCostCents: string;
-}
+/** A batch with fuel out (NUMERIC litres as text), for the yield projection. */
+export type YieldHistoryRow = Pick<InferAttributes<Batch>, 'oilLiters'> & { releasedLiters: string };
+/** The last lot bought of a chemical that says how much it held (NUMERIC and BIGINT as text). */
+export type LastLotPriceRow = Pick<InferAttributes<ChemicalLot>, 'kind' | 'quantity' | 'totalCostCents'>;
 
 /**
  * The planner's history in one round trip (it was three model reads, each a Sequelize build and

@@ -3,7 +3,9 @@ import { QueryTypes } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { InferAttributes } from 'sequelize';
 import { STOCK_PICTURE_COLUMNS, type StockPictureParams, type StockPictureRow } from '@/lib/supplies/queries';
-import type { Batch, Invoice, Membership, PricePolicy, TankMovement, User } from '@/models';
+import type { Batch, Invoice, Membership, TankMovement, User } from '@/models';
+import type { PolicyRow } from '@/lib/tank/pricing-policy/convert';
+import { lapsedLitersSql } from '@/lib/tank/reservations/queries';
 
 // The overview's statements a model query can't say: chart series over a calendar made with
 // generate_series (months or days with no rows still appear, as zero), the tank level carried
@@ -102,15 +104,6 @@ export function topOwing(coopId: number): Promise<OwingRow[]> {
 /** What a batch's verdict is judged from (lib/brewing qualityOf). */
 type VerdictColumns = Pick<InferAttributes<Batch>, 'qualityStandard' | 'labResults'>;
 
-/** The policy in force as the cards statement reads it: NUMERIC columns as strings. */
-type PolicyColumns = Pick<InferAttributes<PricePolicy>, 'id' | 'kind'> & {
-  price_cents_per_gallon: string | null;
-  margin_cents_per_gallon: string | null;
-  margin_pct: string | null;
-  surcharge_cents_per_gallon: string;
-  road_tax_cents_per_gallon: string;
-};
-
 /** The overview's cards in one row: my figures always, each role section only when asked for (else null). */
 export interface CardsRow {
   /** Totals over the active tanks (litres and cents as NUMERIC/BIGINT text). */
@@ -123,7 +116,8 @@ export interface CardsRow {
     capacity: string;
     value: string;
   };
-  policy: PolicyColumns | null;
+  /** The policy in force (lib/tank/pricing-policy policyInForce's row), NUMERIC columns as text. */
+  policy: (PolicyRow & { id: number }) | null;
   reservations: { id: number; tankName: string; quantityLiters: string; windowEnd: string }[];
   outstandingCents: string;
   creditCents: string;
@@ -169,9 +163,8 @@ export async function overviewCards(p: {
                'reserved', COALESCE(SUM(reserved), 0)::text, 'held', COALESCE(SUM(held_liters), 0)::text,
                'available', COALESCE(SUM(GREATEST(on_hand_liters - reserved - held_liters, 0)), 0)::text,
                'capacity', COALESCE(SUM(capacity_liters), 0)::text, 'value', COALESCE(SUM(value_cents), 0)::text)
-          FROM (SELECT t.on_hand_liters, t.held_liters, t.capacity_liters, t.value_cents, t.reserved_liters - (
-                  SELECT COALESCE(SUM(r.quantity_liters), 0) FROM reservations r
-                  WHERE r.coop_id = $coopId AND r.tank_id = t.id AND r.status = 'open' AND r.window_end < now()) AS reserved
+          FROM (SELECT t.on_hand_liters, t.held_liters, t.capacity_liters, t.value_cents,
+                       t.reserved_liters - ${lapsedLitersSql('t')} AS reserved
                 FROM tanks t WHERE t.coop_id = $coopId AND t.active) x) AS tank,
        (SELECT row_to_json(x) FROM (
           SELECT id, kind, price_cents_per_gallon::text, margin_cents_per_gallon::text, margin_pct::text,

@@ -14,6 +14,7 @@ import type { Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, notFound, invalidFields } from '@/lib/http';
 import { expireLapsedReservations } from '@/lib/tank/reservations/expire';
+import { lapsedLitersSql } from '@/lib/tank/reservations/queries';
 import { LITERS_PER_US_GALLON, type UnitSystem } from '@/lib/units';
 import type { tankCreateSchema, tankUpdateSchema } from '@/lib/validation/tank';
 import { Coop, Tank } from '@/models';
@@ -53,8 +54,7 @@ export type TankListRow = Pick<
 // index scans: reservations_open_window (coop_id, window_end) WHERE status = 'open', and
 // dip_readings_coop_tank (coop_id, tank_id, measured_at DESC).
 const T = `"${Tank.name}"`;
-const LAPSED_LITERS = literal(`(SELECT coalesce(sum(r.quantity_liters), 0) FROM reservations r
-  WHERE r.coop_id = ${T}.coop_id AND r.status = 'open' AND r.window_end < now() AND r.tank_id = ${T}.id)`);
+const LAPSED_LITERS = literal(lapsedLitersSql(T));
 const LAST_DIP_AT = literal(
   `(SELECT max(d.measured_at) FROM dip_readings d WHERE d.coop_id = ${T}.coop_id AND d.tank_id = ${T}.id)`,
 );

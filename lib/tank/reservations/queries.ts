@@ -3,6 +3,15 @@ import { QueryTypes, type InferAttributes, type Transaction } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { Reservation, Tank } from '@/models';
 
+/**
+ * SQL for the litres of a tank's open reservations whose window has ended: still inside the
+ * tank's reserved_liters until a write marks them expired, so reads subtract them. `tank` is the
+ * tanks row's alias in the enclosing statement. An index scan (reservations_open_window).
+ */
+export const lapsedLitersSql = (tank: string) =>
+  `(SELECT coalesce(sum(r.quantity_liters), 0) FROM reservations r
+  WHERE r.coop_id = ${tank}.coop_id AND r.status = 'open' AND r.window_end < now() AND r.tank_id = ${tank}.id)`;
+
 /** What the guarded update answers: the tank's name and totals after adding the reservation. */
 export type ReservedTank = Pick<
   InferAttributes<Tank>,
