@@ -7,7 +7,8 @@
 //   1. the month run (POST runs → poll until completed): drafts for every member, set-based SQL in chunks;
 //   2. invoice PDFs: 50 drafts rendered one after another (server-timing render time and request time);
 //   3. issuing every draft (numbers, credit, due dates) in one transaction.
-// Reports wall times and the Next server's peak resident memory (its process tree, sampled
+// Reports wall times and the peak resident memory of the Next server and the job worker that
+// runs the month (their process trees, sampled
 // every 100 ms). E-mails go to a closed port so sending fails fast and stays out of the figures.
 import { spawn } from 'node:child_process';
 import crypto from 'node:crypto';
@@ -19,6 +20,7 @@ import { migrate } from '../scripts/lib/db-setup.mjs';
 import { buildIfNeeded } from '../scripts/lib/build.mjs';
 import { dbPool } from './lib.mjs';
 import { startPaymentsFake } from '../scripts/lib/fakes.mjs';
+import { startWorkerProcess } from '../scripts/lib/worker-process.mjs';
 
 const require = createRequire(import.meta.url);
 const bcrypt = require('bcryptjs');
@@ -151,9 +153,13 @@ try {
     await new Promise((r) => setTimeout(r, 250));
   }
 
-  // Peak memory of the Next server's process tree.
+  // The month run is a job (lib/jobs): the worker drafts the invoices.
+  const worker = await startWorkerProcess({ env, stdio: fs.createWriteStream(path.join(root, 'worker.log')) });
+  stops.push(worker.stop);
+
+  // Peak memory of the Next server's and the worker's process trees.
   const treeRssKb = () => {
-    const pids = [next.pid];
+    const pids = [next.pid, worker.child.pid];
     for (const p of fs.readdirSync('/proc').filter((x) => /^\d+$/.test(x))) {
       try {
         const ppid = Number(fs.readFileSync(`/proc/${p}/stat`, 'utf8').split(') ')[1].split(' ')[1]);
@@ -266,7 +272,7 @@ try {
     numbers: `${check.lo}–${check.hi} (${check.numbers} distinct)`,
     totalInvoicedCents: Number(check.total),
     expectedTotalCents: (MEMBERS + 1) * 1500 + MEMBERS * DRAWS * 2117,
-    nextServerRssMiB: {
+    serverAndWorkerRssMiB: {
       idle: +(idleKb / 1024).toFixed(0),
       peakDuringRun: +(runPeakKb / 1024).toFixed(0),
       peakOverall: +(peakKb / 1024).toFixed(0),

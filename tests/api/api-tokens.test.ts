@@ -136,6 +136,38 @@ describe('using a token', () => {
     expect(own!.api_token_id).toBeNull();
   });
 
+  it('reserves and cancels fuel with a read-write token, both audited under the token', async () => {
+    const { secret, token } = await createToken(ctx.agents.admin, 'write');
+    const tank = await ctx.agents.admin
+      .post(`/api/coops/${ctx.coop.slug}/tanks`)
+      .send({ name: `Reserve tank ${token.id}`, capacity: '500' })
+      .expect(201);
+    await ctx.agents.admin
+      .post(`/api/coops/${ctx.coop.slug}/tanks/${tank.body.id}/dips`)
+      .send({ measured: '100', reason: 'Filled', unitCost: '3.00' })
+      .expect(201);
+    const day = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10);
+    const r = await bearerApi(secret)
+      .post(`/api/coops/${ctx.coop.slug}/reservations`)
+      .set('Origin', 'https://elsewhere.example')
+      .send({ tankId: tank.body.id, quantity: '2', windowStart: day(0), windowEnd: day(2) })
+      .expect(201);
+    const c = await bearerApi(secret)
+      .post(`/api/coops/${ctx.coop.slug}/reservations/${r.body.id}/cancel`)
+      .set('Origin', 'https://elsewhere.example')
+      .expect(200);
+    expect(c.body).toMatchObject({ id: r.body.id, status: 'cancelled', tankName: `Reserve tank ${token.id}` });
+    const events = await sql<{ action: string; actor_user_id: number; api_token_id: number | null }>(
+      `SELECT action, actor_user_id, api_token_id FROM audit_events
+        WHERE coop_id = $1 AND entity_type = 'reservation' AND entity_id = $2 ORDER BY id`,
+      [ctx.coop.id, String(r.body.id)],
+    );
+    expect(events).toEqual([
+      { action: 'reservation.create', actor_user_id: ctx.users.admin.id, api_token_id: token.id },
+      { action: 'reservation.cancel', actor_user_id: ctx.users.admin.id, api_token_id: token.id },
+    ]);
+  });
+
   it('follows its creator: demoted → their new role; removed → 401', async () => {
     const person = await makeUser({ coopId: ctx.coop.id, role: 'treasurer' });
     const agent = await signIn(person.email);

@@ -491,6 +491,10 @@ describe('reservations', () => {
     const open = await s.agents.member.get(`${P(s.slug)}/reservations?status=open&pageSize=100`).expect(200);
     expect(open.body.items.map((x: { id: number }) => x.id)).not.toContain(r!.id);
     expect(await snapshot(s.coop.id)).toEqual(before);
+    // Cancelling it: already expired (409), and nothing is written.
+    const late = await s.agents.member.post(`${P(s.slug)}/reservations/${r!.id}/cancel`).expect(409);
+    expect(late.body).toMatchObject({ status: 'expired' });
+    expect(await snapshot(s.coop.id)).toEqual(before);
     // Two writes at once: the lapsed reservation is marked expired and released exactly once.
     const [w1, w2] = await Promise.all([
       s.agents.member

@@ -6,7 +6,7 @@ import { AuditEvent, Reservation, Tank } from '@/models';
 /**
  * Marks a co-op's open reservations whose window has ended as expired, gives their quantity
  * back to each tank's reserved total and writes an audit event per reservation — inside the
- * caller's transaction. Only write paths call it (reserving, cancelling, drawing, dips,
+ * caller's transaction. Only write paths call it (reserving, drawing, dips,
  * transfers, taking a tank out of service), always before they take any tank lock, so the lock
  * order stays reservations → tanks everywhere; reads never do (they count a lapsed reservation as
  * not reserved without changing it). A background job may call it too.

@@ -12,7 +12,7 @@ import type { reservationCreateSchema, reservationListSchema } from '@/lib/valid
 import { Draw, Membership, Reservation, Tank, User } from '@/models';
 import type { ReservationStatus } from '@/models/Reservation';
 import { expireLapsedReservations, hasLapsedReservations } from './expire';
-import { addReservedLiters, reserveFuel } from './queries';
+import { addReservedLiters, cancelFuel, reserveFuel } from './queries';
 import { parseWindowEdge, reservationWindow } from './window';
 
 export { expireLapsedReservations };
@@ -70,6 +70,7 @@ export async function createReservation(
     tankId: input.tankId,
     membershipId: actor.membershipId,
     userId: actor.user.id,
+    apiTokenId: actor.apiTokenId ?? null,
     liters: mlToLiters(qMl),
     windowStart: window.start,
     windowEnd: window.end,
@@ -141,48 +142,36 @@ export async function createReservation(
 }
 
 /**
- * Cancels an open reservation and gives its quantity back to the tank. A member cancels their
- * own; brewers and admins (draws:record) may cancel anyone's. Someone else's → 404.
+ * Cancels an open reservation and gives its quantity back to the tank, in one statement
+ * (lib/tank/reservations/queries cancelFuel). A member cancels their own; brewers and admins
+ * (draws:record) may cancel anyone's. Someone else's → 404; one no longer open, or whose window
+ * has ended (expired, whether or not a write has marked it yet) → 409 naming its status.
  */
 export async function cancelReservation(actor: Actor, reservationId: number): Promise<ReservationDto> {
   const coopId = actor.coop.id;
-  await inTransaction(async (transaction) => {
-    await expireLapsedReservations(coopId, transaction);
-    const r = await Reservation.findOne({
-      attributes: ['id', 'tankId', 'membershipId', 'quantityLiters', 'status'],
-      where: { id: reservationId, coopId },
-      lock: transaction.LOCK.UPDATE,
-      transaction,
-      raw: true,
-    });
-    if (!r || (r.membershipId !== actor.membershipId && !can(actor.role, 'draws:record')))
-      throw notFound('Reservation not found.');
-    if (r.status !== 'open')
-      throw conflict(`This reservation is already ${r.status}; only an open reservation can be cancelled.`, {
-        status: r.status,
-      });
-    await Reservation.update(
-      { status: 'cancelled', closedAt: new Date() },
-      { where: { id: r.id, coopId }, transaction },
-    );
-    await Tank.decrement(
-      { reservedLiters: litersToMl(r.quantityLiters) / 1000 },
-      { where: { id: r.tankId, coopId }, transaction },
-    );
-    await audit(
-      {
-        coopId,
-        actorUserId: actor.user.id,
-        action: 'reservation.cancel',
-        entityType: 'reservation',
-        entityId: r.id,
-        before: { status: 'open' },
-        after: { status: 'cancelled', quantityLiters: r.quantityLiters },
-      },
-      transaction,
-    );
+  const anyone = can(actor.role, 'draws:record');
+  const r = await cancelFuel({
+    coopId,
+    reservationId,
+    membershipId: actor.membershipId,
+    anyone,
+    userId: actor.user.id,
+    apiTokenId: actor.apiTokenId ?? null,
   });
-  return getReservation(actor, reservationId);
+  if (r)
+    return resDto(
+      { ...r, tank: { name: r.tankName }, membership: { user: { name: r.memberName } }, draw: { id: null } },
+      actor,
+    );
+  // Nothing cancelled: say why.
+  const cur = await Reservation.findOne({
+    attributes: ['membershipId', 'status', 'windowEnd'],
+    where: { id: reservationId, coopId },
+    raw: true,
+  });
+  if (!cur || (cur.membershipId !== actor.membershipId && !anyone)) throw notFound('Reservation not found.');
+  const status = cur.status === 'open' && new Date(cur.windowEnd).getTime() < Date.now() ? 'expired' : cur.status;
+  throw conflict(`This reservation is already ${status}; only an open reservation can be cancelled.`, { status });
 }
 
 const RES_SORT = {

@@ -60,6 +60,7 @@ export async function reserveFuel(r: {
   tankId: number;
   membershipId: number;
   userId: number;
+  apiTokenId: number | null;
   liters: string;
   windowStart: Date;
   windowEnd: Date;
@@ -75,8 +76,8 @@ export async function reserveFuel(r: {
        SELECT $coopId, t.id, $membershipId, $liters::numeric, $windowStart, $windowEnd, 'open', now(), now() FROM t
        RETURNING id, created_at),
      a AS (
-       INSERT INTO audit_events (coop_id, actor_user_id, action, entity_type, entity_id, after, created_at)
-       SELECT $coopId, $userId, 'reservation.create', 'reservation', r.id::text, $audit::jsonb, now() FROM r)
+       INSERT INTO audit_events (coop_id, actor_user_id, api_token_id, action, entity_type, entity_id, after, created_at)
+       SELECT $coopId, $userId, $apiTokenId, 'reservation.create', 'reservation', r.id::text, $audit::jsonb, now() FROM r)
      SELECT r.id, r.created_at AS "createdAt", t.name AS "tankName" FROM r, t`,
     {
       bind: {
@@ -84,6 +85,7 @@ export async function reserveFuel(r: {
         tankId: r.tankId,
         membershipId: r.membershipId,
         userId: r.userId,
+        apiTokenId: r.apiTokenId,
         liters: r.liters,
         windowStart: r.windowStart.toISOString(),
         windowEnd: r.windowEnd.toISOString(),
@@ -91,6 +93,62 @@ export async function reserveFuel(r: {
       },
       type: QueryTypes.SELECT,
     },
+  );
+  return rows[0] ?? null;
+}
+
+/** What {@link cancelFuel} answers: the reservation as cancelled, with its tank's and member's names. */
+export type CancelledReservation = Pick<
+  InferAttributes<Reservation>,
+  | 'id'
+  | 'tankId'
+  | 'membershipId'
+  | 'quantityLiters'
+  | 'windowStart'
+  | 'windowEnd'
+  | 'status'
+  | 'closedAt'
+  | 'createdAt'
+> & { tankName: string; memberName: string };
+
+/**
+ * Cancels an open reservation in ONE statement, atomic without an explicit transaction: the
+ * reservation (only while it is open, its window has not ended, and it is `membershipId`'s
+ * unless `anyone`), the tank's reserved total given back, and the audit event, each written only
+ * when the reservation was. The reservation's row is updated before the tank's, the lock order
+ * of every write path. A concurrent cancel or draw of the same reservation waits for this one's
+ * row lock and then finds it no longer open. One round trip instead of eight on a member's
+ * second most frequent write.
+ * @returns the cancelled reservation, or null when nothing matched (nothing written)
+ */
+export async function cancelFuel(c: {
+  coopId: number;
+  reservationId: number;
+  membershipId: number;
+  anyone: boolean;
+  userId: number;
+  apiTokenId: number | null;
+}): Promise<CancelledReservation | null> {
+  const rows = await sequelize.query<CancelledReservation>(
+    `WITH r AS (
+       UPDATE reservations SET status = 'cancelled', closed_at = now(), updated_at = now()
+        WHERE id = $reservationId AND coop_id = $coopId AND status = 'open' AND window_end >= now()
+          AND ($anyone OR membership_id = $membershipId)
+        RETURNING id, tank_id, membership_id, quantity_liters, window_start, window_end, status, closed_at, created_at),
+     t AS (
+       UPDATE tanks SET reserved_liters = tanks.reserved_liters - r.quantity_liters, updated_at = now()
+         FROM r WHERE tanks.id = r.tank_id AND tanks.coop_id = $coopId
+        RETURNING tanks.name),
+     a AS (
+       INSERT INTO audit_events (coop_id, actor_user_id, api_token_id, action, entity_type, entity_id, before, after, created_at)
+       SELECT $coopId, $userId, $apiTokenId, 'reservation.cancel', 'reservation', r.id::text, '{"status":"open"}'::jsonb,
+              jsonb_build_object('status', 'cancelled', 'quantityLiters', r.quantity_liters::text), now() FROM r)
+     SELECT r.id, r.tank_id AS "tankId", r.membership_id AS "membershipId", r.quantity_liters AS "quantityLiters",
+            r.window_start AS "windowStart", r.window_end AS "windowEnd", r.status, r.closed_at AS "closedAt",
+            r.created_at AS "createdAt", t.name AS "tankName", u.name AS "memberName"
+       FROM r, t, memberships m JOIN users u ON u.id = m.user_id
+      WHERE m.id = r.membership_id AND m.coop_id = $coopId`,
+    { bind: c, type: QueryTypes.SELECT },
   );
   return rows[0] ?? null;
 }
