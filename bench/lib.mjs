@@ -127,7 +127,10 @@ export async function startStack({
  */
 export async function roundRobinProxy(upstreams) {
   const http = await import('node:http');
-  const agent = new http.Agent({ keepAlive: true, maxSockets: 64 });
+  // Idle connections are dropped after 4 s, before `next start` closes them (its keep-alive
+  // timeout is 5 s): reusing a connection the instance is closing fails the request (a 502), the
+  // race a load balancer avoids by idling out first (docs/deploy.md, KEEP_ALIVE_TIMEOUT).
+  const agent = new http.Agent({ keepAlive: true, maxSockets: 64, timeout: 4000 });
   const targets = upstreams.map((u) => new URL(u));
   let next = 0;
   const server = http.createServer((req, res) => {
@@ -143,7 +146,8 @@ export async function roundRobinProxy(upstreams) {
         r.pipe(res);
       },
     );
-    up.on('error', () => {
+    up.on('error', (e) => {
+      console.error(`[proxy] ${req.method} ${req.url} → ${t.host}: ${e.code ?? e.message}`);
       if (!res.headersSent) res.writeHead(502);
       res.end();
     });
