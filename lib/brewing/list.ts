@@ -5,7 +5,8 @@ import { can, type Actor } from '@/lib/auth';
 import { roundHalfUp } from '@/lib/money';
 import { Batch, BatchStatusCount } from '@/models';
 import type { BatchStatus } from '@/models/Batch';
-import { n, type BatchRecord } from './stored';
+import { numericOrNull } from '@/lib/units/quantity';
+import { type BatchRecord } from './stored';
 import { qualityOf } from './verdicts';
 
 // The batch list: a page of the co-op's batches, sorted and filtered in SQL.
@@ -87,7 +88,7 @@ export async function listBatches(actor: Actor, q: BatchListQuery): Promise<Batc
   ]);
   return {
     rows: rows.map((r) => {
-      const releasedLiters = n(r.releasedLiters);
+      const releasedLiters = numericOrNull(r.releasedLiters);
       return {
         id: r.id,
         number: r.number,
@@ -95,7 +96,7 @@ export async function listBatches(actor: Actor, q: BatchListQuery): Promise<Batc
         batchDate: r.batchDate,
         oilLiters: Number(r.oilLiters),
         releasedLiters,
-        costPerGallonCents: n(r.costPerGallonCents),
+        costPerGallonCents: numericOrNull(r.costPerGallonCents),
         costPerLiterCents:
           r.totalCostCents !== null && releasedLiters ? roundHalfUp(Number(r.totalCostCents) / releasedLiters) : null,
         qualityStandard: r.qualityStandard,

@@ -8,14 +8,13 @@ import { energyCostCents } from '@/lib/costing';
 import { notFound } from '@/lib/http';
 import { roundHalfUp } from '@/lib/money';
 import { evaluateQuality, evaluateQuickTests } from '@/lib/quality';
-import { litersToMl } from '@/lib/units/quantity';
+import { litersToMl, numericOrNull } from '@/lib/units/quantity';
 import { BatchFile, BatchOilLot, BatchTemperature, ChemicalConsumption, ChemicalLot, OilLot, Tank } from '@/models';
 import { computePlan } from './plan';
 import {
   isBrewed,
   labResultsOf,
   loadBatch,
-  n,
   planInputOf,
   quickTestInput,
   quickTestsOf,
@@ -50,7 +49,7 @@ export function costsOf(
 ): BatchCosts | null {
   if (row.totalCostCents === null) return null;
   const total = Number(row.totalCostCents);
-  const liters = n(row.releasedLiters);
+  const liters = numericOrNull(row.releasedLiters);
   return {
     methanolCents: Number(row.costMethanolCents ?? 0),
     catalystCents: Number(row.costCatalystCents ?? 0),
@@ -58,7 +57,7 @@ export function costsOf(
     feedstockCents: Number(row.costFeedstockCents ?? 0),
     otherCents: Number(row.costOtherCents ?? 0),
     totalCents: total,
-    costPerGallonCents: n(row.costPerGallonCents),
+    costPerGallonCents: numericOrNull(row.costPerGallonCents),
     costPerLiterCents: liters ? roundHalfUp(total / liters) : null,
   };
 }
@@ -67,7 +66,7 @@ export function costsOf(
 export function energyCentsOf(
   row: Pick<BatchRecord, 'energyKwh' | 'heaterKw' | 'heaterHours' | 'tariffCentsPerKwh'>,
 ): number | null {
-  const tariff = n(row.tariffCentsPerKwh);
+  const tariff = numericOrNull(row.tariffCentsPerKwh);
   if (tariff === null) return null;
   if (row.energyKwh !== null) return energyCostCents({ kwh: Number(row.energyKwh), tariffCentsPerKwh: tariff });
   if (row.heaterKw !== null && row.heaterHours !== null) {
@@ -246,13 +245,13 @@ export async function getBatch(
     plan: computePlan(planInputOf(row), {}, { system: actor.coop.units }),
     computedCatalystGrams: Number(row.computedCatalystGrams),
     computedMethanolLiters: Number(row.computedMethanolLiters),
-    actualCatalystGrams: n(row.actualCatalystGrams),
-    actualMethanolLiters: n(row.actualMethanolLiters),
+    actualCatalystGrams: numericOrNull(row.actualCatalystGrams),
+    actualMethanolLiters: numericOrNull(row.actualMethanolLiters),
     mixingMinutes: row.mixingMinutes,
-    settlingHours: n(row.settlingHours),
-    glycerinLiters: n(row.glycerinLiters),
+    settlingHours: numericOrNull(row.settlingHours),
+    glycerinLiters: numericOrNull(row.glycerinLiters),
     washCycles: row.washCycles,
-    washWaterLiters: n(row.washWaterLiters),
+    washWaterLiters: numericOrNull(row.washWaterLiters),
     dryingMethod: row.dryingMethod,
     dryingNotes: row.dryingNotes,
     temperatures: temps.map((r) => {
@@ -272,13 +271,13 @@ export async function getBatch(
     qualityVerdict: row.qualityVerdict,
     screeningVerdict: row.screeningVerdict,
     energy: {
-      kwh: n(row.energyKwh),
-      heaterKw: n(row.heaterKw),
-      heaterHours: n(row.heaterHours),
-      tariffCentsPerKwh: n(row.tariffCentsPerKwh),
+      kwh: numericOrNull(row.energyKwh),
+      heaterKw: numericOrNull(row.heaterKw),
+      heaterHours: numericOrNull(row.heaterHours),
+      tariffCentsPerKwh: numericOrNull(row.tariffCentsPerKwh),
       costCents: energyCentsOf(row),
     },
-    feedstockCentsOverride: n(row.feedstockCentsOverride),
+    feedstockCentsOverride: numericOrNull(row.feedstockCentsOverride),
     feedstockFromLotsCents: oilLotDtos.reduce((a, o) => a + o.feedstockCents, 0),
     otherCents: Number(row.otherCents),
     otherNotes: row.otherNotes,

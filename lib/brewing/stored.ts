@@ -4,6 +4,7 @@ import type { z } from 'zod';
 import type { quickTestsSchema } from '@/lib/api/dto/batch';
 import { conflict, notFound } from '@/lib/http';
 import type { QuickTestInput, QualityResults } from '@/lib/quality';
+import { numericOrNull } from '@/lib/units/quantity';
 import { Batch } from '@/models';
 import type { Catalyst, PlanInput } from './plan';
 
@@ -15,10 +16,6 @@ export type BatchRecord = InferAttributes<Batch>;
 
 /** Quick tests as stored (the soap test's catalyst comes from the batch): the API's QuickTests. */
 export type QuickTestsStored = z.infer<typeof quickTestsSchema>;
-
-/** A stored NUMERIC or BIGINT (string) as a number, null kept. */
-export const n = (v: string | number | null | undefined): number | null =>
-  v === null || v === undefined ? null : Number(v);
 
 /** Reads one batch of the co-op (404 otherwise), locked FOR UPDATE in the transaction when `lock` is set. */
 export async function loadBatch(
@@ -97,8 +94,8 @@ export function planInputOf(row: BrewedBatch): PlanInput {
     // chemical, which cannot be; such a titrant was reagent, and the plan says which rule it applied.
     titrantFrom: row.titrant !== row.catalyst ? 'pure-reagent' : row.titrantFrom,
     methanolMode: row.methanolMode,
-    methanolPct: n(row.methanolPct) ?? undefined,
-    molarRatio: n(row.molarRatio) ?? undefined,
+    methanolPct: numericOrNull(row.methanolPct) ?? undefined,
+    molarRatio: numericOrNull(row.molarRatio) ?? undefined,
   };
 }
 

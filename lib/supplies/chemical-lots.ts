@@ -18,6 +18,7 @@ import { checkLowStock } from './low-stock';
 
 export type { ChemicalKind } from '@/models/ChemicalLot';
 import type { ChemicalKind } from '@/models/ChemicalLot';
+import { numericOrNull } from '@/lib/units/quantity';
 
 /** A chemical lot as shown and sent: quantities in the lot's unit (L for methanol, g for catalysts). */
 export type ChemicalLotDto = z.infer<typeof chemicalLotSchema>;
@@ -68,7 +69,7 @@ function chemicalDto(r: ChemicalLotRow): ChemicalLotDto {
     remaining,
     consumed: Number((quantity - remaining).toFixed(3)),
     totalCostCents: Number(r.totalCostCents),
-    purityPct: r.purityPct === null ? null : Number(r.purityPct),
+    purityPct: numericOrNull(r.purityPct),
     hasSafetyDataSheet: Boolean(r.sdsFileKey),
     safetyDataSheetName: r.sdsFileName,
     notes: r.notes,

@@ -19,6 +19,7 @@ import { volumeToLiters } from '@/lib/units';
 import type { OilLotCreateInput } from '@/lib/validation/brewing';
 import type { Paged } from '@/lib/validation/list';
 import { OilLot } from '@/models';
+import { numericOrNull } from '@/lib/units/quantity';
 
 // Oil lots: collected waste oil, with what batches have taken from each (batch_oil_lots).
 
@@ -51,7 +52,7 @@ function oilDto(r: OilLotRow): OilLotDto {
     costCents: Number(r.costCents),
     waterNotes: r.waterNotes,
     solidsNotes: r.solidsNotes,
-    titrationMl: r.titrationMl === null ? null : Number(r.titrationMl),
+    titrationMl: numericOrNull(r.titrationMl),
     titrant: r.titrant,
   };
 }

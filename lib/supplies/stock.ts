@@ -5,6 +5,7 @@ import type { stockLineSchema, stockSummarySchema } from '@/lib/api/dto/brewing'
 import type { Actor } from '@/lib/auth';
 import type { BatchStatus } from '@/models/Batch';
 import { stockPicture, type StockPictureParams, type StockPictureRow } from './queries';
+import { numericOrNull } from '@/lib/units/quantity';
 
 // Chemical stock: what the lots hold, what batches under way have committed, what the next
 // planned batch needs, and the summary the supplies page, the planner and the overview show.
@@ -83,7 +84,7 @@ export function stockStateOf(row: StockPictureRow): { lots: HeldLot[]; needs: Ba
     quantity: Number(r.quantity),
     remaining: Number(r.remaining),
     totalCostCents: Number(r.totalCostCents),
-    purityPct: r.purityPct === null ? null : Number(r.purityPct),
+    purityPct: numericOrNull(r.purityPct),
   }));
   const needs: BatchNeeds = { committed: { methanol: 0, KOH: 0, NaOH: 0 }, next: null };
   for (const r of row.committed) {

@@ -15,3 +15,11 @@ export function mlToLiters(ml: number): string {
   const a = Math.abs(Math.round(ml));
   return `${sign}${Math.floor(a / 1000)}.${String(a % 1000).padStart(3, '0')}`;
 }
+
+/**
+ * A stored NUMERIC or BIGINT (pg answers text) as a JavaScript number, null kept: for answers
+ * and display. Sums and comparisons of litres stay in whole millilitres ({@link litersToMl}).
+ */
+export function numericOrNull(v: string | number | null | undefined): number | null {
+  return v === null || v === undefined ? null : Number(v);
+}

@@ -11,6 +11,7 @@ import type { UnitSystem } from '@/lib/units';
 import type { pricingPolicyCreateSchema } from '@/lib/validation/tank';
 import { PricePolicy, User } from '@/models';
 import { describePolicy, perUnitToPerGallonText, policyInUnits, type PolicyRow } from './convert';
+import { numericOrNull } from '@/lib/units/quantity';
 
 export type PolicyDto = z.infer<typeof pricePolicySchema>;
 
@@ -67,15 +68,14 @@ function policyRow(
 function policyDto(r: PolicyListRow, inForce: boolean, units: UnitSystem, currency: string): PolicyDto {
   const stored = policyRow(r);
   const policy = policyInUnits(stored, units);
-  const n = (v: string | null) => (v === null ? null : Number(v));
   return {
     id: r.id,
     kind: r.kind,
     policy,
     stored: {
-      priceCentsPerGallon: n(r.priceCentsPerGallon),
-      marginCentsPerGallon: n(r.marginCentsPerGallon),
-      marginPct: n(r.marginPct),
+      priceCentsPerGallon: numericOrNull(r.priceCentsPerGallon),
+      marginCentsPerGallon: numericOrNull(r.marginCentsPerGallon),
+      marginPct: numericOrNull(r.marginPct),
       surchargeCentsPerGallon: Number(r.surchargeCentsPerGallon),
       roadTaxCentsPerGallon: Number(r.roadTaxCentsPerGallon),
     },
