@@ -147,7 +147,8 @@ export async function roundRobinProxy(upstreams) {
       },
     );
     up.on('error', (e) => {
-      console.error(`[proxy] ${req.method} ${req.url} → ${t.host}: ${e.code ?? e.message}`);
+      // Logged while a client still waits (not for requests left over when the instances stop).
+      if (!res.destroyed) console.error(`[proxy] ${req.method} ${req.url} → ${t.host}: ${e.code ?? e.message}`);
       if (!res.headersSent) res.writeHead(502);
       res.end();
     });
