@@ -1,6 +1,6 @@
 import 'server-only';
 import type { reservationSchema } from '@/lib/api/dto/tank';
-import { fn, Op, type InferAttributes, type WhereOptions } from 'sequelize';
+import { fn, Op, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { audit } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
@@ -12,7 +12,7 @@ import type { reservationCreateSchema, reservationListSchema } from '@/lib/valid
 import { Draw, Membership, Reservation, Tank, User } from '@/models';
 import type { ReservationStatus } from '@/models/Reservation';
 import { expireLapsedReservations, hasLapsedReservations } from './expire';
-import { addReservedLiters, cancelFuel, reserveFuel } from './queries';
+import { addReservedLiters, cancelFuel, reserveFuel, type ReservationColumns } from './queries';
 import { parseWindowEdge, reservationWindow } from './window';
 
 export { expireLapsedReservations };
@@ -192,18 +192,7 @@ function statusWhere(status: ReservationStatus): WhereOptions<Reservation> {
 }
 
 /** A reservation as the lists read it (raw, nested includes). */
-type ResListRow = Pick<
-  InferAttributes<Reservation>,
-  | 'id'
-  | 'tankId'
-  | 'membershipId'
-  | 'quantityLiters'
-  | 'windowStart'
-  | 'windowEnd'
-  | 'status'
-  | 'closedAt'
-  | 'createdAt'
-> & {
+type ResListRow = ReservationColumns & {
   tank: { name: string };
   membership: { user: { name: string } };
   draw: { id: number | null };
@@ -219,7 +208,7 @@ const RES_ATTRIBUTES = [
   'status',
   'closedAt',
   'createdAt',
-] as const;
+] as const satisfies readonly (keyof ReservationColumns)[];
 
 /** Tank name, member name, and the draw that closed it (not a reversal), in the same query. */
 const resInclude = (coopId: number) => [

@@ -97,8 +97,8 @@ export async function reserveFuel(r: {
   return rows[0] ?? null;
 }
 
-/** What {@link cancelFuel} answers: the reservation as cancelled, with its tank's and member's names. */
-export type CancelledReservation = Pick<
+/** A reservation's own columns as every answer about one shows them (lists, one, cancelled). */
+export type ReservationColumns = Pick<
   InferAttributes<Reservation>,
   | 'id'
   | 'tankId'
@@ -109,7 +109,10 @@ export type CancelledReservation = Pick<
   | 'status'
   | 'closedAt'
   | 'createdAt'
-> & { tankName: string; memberName: string };
+>;
+
+/** What {@link cancelFuel} answers: the reservation as cancelled, with its tank's and member's names. */
+export type CancelledReservation = ReservationColumns & { tankName: string; memberName: string };
 
 /**
  * Cancels an open reservation in ONE statement, atomic without an explicit transaction: the
