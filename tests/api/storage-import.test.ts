@@ -1,28 +1,17 @@
 // `npm run storage:import`: a former local upload folder moved into the bucket under the same
 // keys (lib/storage/import.ts), served afterwards like any upload, safe to run again, and every
 // key the database names that is in neither place reported (exit code 2).
-import { execFile } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { promisify } from 'node:util';
-import { inject } from 'vitest';
-import { describe, expect, it } from 'vitest';
-import { makeCoopWithRoles, sql } from '../support/api';
+import { describe, expect, inject, it } from 'vitest';
+import { makeCoopWithRoles, runScript, sql } from '../support/api';
 
-const run = promisify(execFile);
-
-/** Runs the script as an operator would, against the test database and storage fake. */
+/** The script as an operator runs it, against the storage fake; its output in one string. */
 async function storageImport(dir: string) {
-  const env = { ...process.env, DATABASE_URL: inject('databaseUrl'), ...JSON.parse(inject('storageEnv')) };
-  try {
-    const { stdout, stderr } = await run(process.execPath, ['scripts/storage-import.mjs', dir], { env });
-    return { code: 0, out: stdout + stderr };
-  } catch (e) {
-    const r = e as { code: number; stdout: string; stderr: string };
-    return { code: r.code, out: r.stdout + r.stderr };
-  }
+  const r = await runScript('storage-import', [dir], JSON.parse(inject('storageEnv')));
+  return { code: r.code, out: r.stdout + r.stderr };
 }
 
 describe('npm run storage:import', () => {

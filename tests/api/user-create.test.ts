@@ -1,25 +1,11 @@
 // The operator's way in (`npm run user:create`): an account and a one-hour link to choose its
 // password, printed rather than e-mailed; the person then signs in and creates their co-op.
-import { execFile } from 'node:child_process';
 import crypto from 'node:crypto';
-import { promisify } from 'node:util';
-import { inject } from 'vitest';
 import { describe, expect, it } from 'vitest';
-import { api, baseUrl, countRows, signIn, sql } from '../support/api';
+import { api, baseUrl, countRows, runScript, signIn, sql } from '../support/api';
 
-const run = promisify(execFile);
-
-/** Runs the script as an operator would, against the test database; exit code, stdout, stderr. */
-async function userCreate(...args: string[]) {
-  const env = { ...process.env, DATABASE_URL: inject('databaseUrl'), APP_URL: baseUrl() };
-  try {
-    const { stdout, stderr } = await run(process.execPath, ['scripts/user-create.mjs', ...args], { env });
-    return { code: 0, stdout, stderr };
-  } catch (e) {
-    const r = e as { code: number; stdout: string; stderr: string };
-    return { code: r.code, stdout: r.stdout, stderr: r.stderr };
-  }
-}
+/** The script as an operator runs it, with the links' origin set. */
+const userCreate = (...args: string[]) => runScript('user-create', args, { APP_URL: baseUrl() });
 
 describe('npm run user:create', () => {
   it('refuses a bad address by field and makes nothing', async () => {

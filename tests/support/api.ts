@@ -1,5 +1,7 @@
 // Helpers for integration tests: supertest against the running server, database access
 // through Sequelize for setting up and checking rows, factories, and the caught e-mail.
+import { execFile } from 'node:child_process';
+import { promisify } from 'node:util';
 import bcrypt from 'bcryptjs';
 import { QueryTypes, Sequelize } from 'sequelize';
 import request from 'supertest';
@@ -157,4 +159,20 @@ export async function waitForMail(
 export async function countRows(table: string, where = 'true', params: unknown[] = []): Promise<number> {
   const [r] = await sql<{ n: string }>(`SELECT count(*)::text AS n FROM ${table} WHERE ${where}`, params);
   return Number(r!.n);
+}
+
+/**
+ * Runs one of the operator's scripts (`scripts/<name>.mjs`) as a separate process, as an operator
+ * would, against the test database plus `env`; resolves to its exit code and output.
+ */
+export async function runScript(name: string, args: string[], env: Record<string, string> = {}) {
+  const run = promisify(execFile);
+  const fullEnv = { ...process.env, DATABASE_URL: inject('databaseUrl'), ...env };
+  try {
+    const { stdout, stderr } = await run(process.execPath, [`scripts/${name}.mjs`, ...args], { env: fullEnv });
+    return { code: 0, stdout, stderr };
+  } catch (e) {
+    const r = e as { code: number; stdout: string; stderr: string };
+    return { code: r.code, stdout: r.stdout, stderr: r.stderr };
+  }
 }
