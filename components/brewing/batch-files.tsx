@@ -3,24 +3,14 @@ import type { BatchDto } from '@/lib/brewing';
 import { UploadForm } from '@/components/forms/upload-form';
 
 /** The batch's attached photos, lab reports and disposal receipts, and the form to attach more. */
-export function BatchFiles({
-  files,
-  url,
-  coop,
-  batchId,
-}: {
-  files: BatchDto['files'];
-  url: string;
-  coop: string;
-  batchId: number;
-}) {
+export function BatchFiles({ files, coop, batchId }: { files: BatchDto['files']; coop: string; batchId: number }) {
   return (
     <Card title="Photos and lab reports">
       {files.length ? (
         <ul className="mb-3 text-sm">
           {files.map((f) => (
             <li key={f.id} className="border-b border-stone-100 py-1">
-              <a className="underline" href={`${url}/files/${f.id}`}>
+              <a className="underline" href={`/api/coops/${coop}/batches/${batchId}/files/${f.id}`}>
                 {f.name}
               </a>{' '}
               <span className="text-stone-600">

@@ -43,7 +43,6 @@ function ReviewLine({ r, units }: { r: ReviewDto; units: UnitSystem }) {
  */
 export function BatchLineageSection({
   lineage,
-  apiUrl,
   coop,
   units,
   currency,
@@ -54,7 +53,6 @@ export function BatchLineageSection({
   retreatBatches,
 }: {
   lineage: BatchLineage;
-  apiUrl: string;
   coop: string;
   units: UnitSystem;
   currency: string;
@@ -64,6 +62,7 @@ export function BatchLineageSection({
   receipts: { id: number; name: string }[];
   retreatBatches: { id: number; number: number }[];
 }) {
+  const apiUrl = `/api/coops/${coop}/batches/${lineage.batchId}`;
   const open = lineage.reviews.find((r) => r.status === 'open') ?? null;
   const drawnMl = lineage.members.reduce((a, m) => a + m.batchMl, 0);
   const valueCents = lineage.members.reduce((a, m) => a + m.valueCents, 0);

@@ -1,12 +1,11 @@
 import 'server-only';
 import { z } from 'zod';
 import { emailIs } from '@/lib/auth/email';
-import { newLinkToken, PASSWORD_RESET_TTL_MS } from '@/lib/auth/tokens';
 import { inTransaction } from '@/lib/db';
 import { parseWith } from '@/lib/http';
-import { appUrl } from '@/lib/mail';
 import { emailSchema, nameSchema } from '@/lib/validation/auth';
-import { AuthToken, User } from '@/models';
+import { User } from '@/models';
+import { newPasswordResetLink } from './password-reset';
 
 const personSchema = z.strictObject({ email: emailSchema, name: nameSchema });
 
@@ -27,12 +26,6 @@ export async function accountSetupLink(input: {
   return inTransaction(async (transaction) => {
     const found = await User.findOne({ where: emailIs(email), attributes: ['id'], raw: true, transaction });
     const userId = found?.id ?? (await User.create({ email, name, passwordHash: null }, { transaction })).id;
-    const { token, hash } = newLinkToken();
-    const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
-    await AuthToken.create(
-      { userId, kind: 'password-reset', tokenHash: hash, newEmail: null, expiresAt, usedAt: null },
-      { transaction },
-    );
-    return { created: !found, link: appUrl(`/reset-password/${token}`), expiresAt };
+    return { created: !found, ...(await newPasswordResetLink(userId, transaction)) };
   });
 }

@@ -1,5 +1,5 @@
 import 'server-only';
-import { fn, Op } from 'sequelize';
+import { fn, Op, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import type { accountEmailSchema } from '@/lib/api/dto/core';
 import { emailIs } from '@/lib/auth/email';
@@ -27,6 +27,24 @@ export const RESET_REQUESTED =
 export const RESET_REQUESTS_PER_HOUR = 3;
 
 /**
+ * A new single-use link to choose the password of `userId`, valid PASSWORD_RESET_TTL_MS: only the
+ * token's hash is stored. The reset page takes it (also the operator's first-person link).
+ * @returns the link (`/reset-password/<token>` on APP_URL) and when it expires
+ */
+export async function newPasswordResetLink(
+  userId: number,
+  transaction?: Transaction,
+): Promise<{ link: string; expiresAt: Date }> {
+  const { token, hash } = newLinkToken();
+  const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
+  await AuthToken.create(
+    { userId, kind: 'password-reset', tokenHash: hash, newEmail: null, expiresAt, usedAt: null },
+    { transaction },
+  );
+  return { link: appUrl(`/reset-password/${token}`), expiresAt };
+}
+
+/**
  * Starts a password reset. Always answers the same, whether or not an account uses the address
  * (nothing reveals who has an account). When one does, a single-use link valid for one hour is
  * e-mailed, at most RESET_REQUESTS_PER_HOUR times an hour. Returns the e-mail to send (the
@@ -42,16 +60,7 @@ export async function requestPasswordReset(
     where: { userId: user.id, kind: 'password-reset', createdAt: { [Op.gt]: hourAgo } },
   });
   if (recent >= RESET_REQUESTS_PER_HOUR) return null;
-  const { token, hash } = newLinkToken();
-  const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
-  await AuthToken.create({
-    userId: user.id,
-    kind: 'password-reset',
-    tokenHash: hash,
-    newEmail: null,
-    expiresAt,
-    usedAt: null,
-  });
+  const { link, expiresAt } = await newPasswordResetLink(user.id);
   return {
     to: user.email,
     subject: 'Reset your Tallyvat password',
@@ -61,7 +70,7 @@ export async function requestPasswordReset(
       'Someone (we hope you) asked to reset the password of your Tallyvat account.',
       'To choose a new password, open this link:',
       '',
-      `  ${appUrl(`/reset-password/${token}`)}`,
+      `  ${link}`,
       '',
       `The link works once and expires on ${formatExpiry(expiresAt, await personTimeZone(user.id))}.`,
       'Setting a new password signs you out on every device.',

@@ -14,6 +14,15 @@ export interface AuditInput {
 }
 
 /**
+ * The personal access token the current request was authenticated by, or null (a session): what
+ * every audit event records beside its actor, including those written by a statement of its own
+ * (lib/tank/reservations/queries).
+ */
+export function auditApiTokenId(): number | null {
+  return requestContext.getStore()?.apiTokenId ?? null;
+}
+
+/**
  * Appends one audit event (who, what, when, before/after) inside the caller's transaction. A
  * request authenticated by a personal access token records the token beside its creator.
  */
@@ -27,7 +36,7 @@ export async function audit(e: AuditInput, transaction?: Transaction): Promise<v
       entityId: e.entityId == null ? null : String(e.entityId),
       before: e.before ?? null,
       after: e.after ?? null,
-      apiTokenId: requestContext.getStore()?.apiTokenId ?? null,
+      apiTokenId: auditApiTokenId(),
     },
     { transaction },
   );

@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import * as fontkit from 'fontkit';
 import PDFDocument from 'pdfkit';
+import { lruMemo } from '@/lib/cache/lru-memo';
 
 /**
  * Shipped fonts (fonts/). TrueType, unpacked from the .woff files (scripts/woff-to-ttf.cjs):
@@ -127,7 +128,7 @@ function withSymbolFallback(doc: PDFKit.PDFDocument, f: Fonts): PDFKit.PDFDocume
  *
  * pdfkit shapes word by word and remembers words only within one document; invoices repeat the
  * same words ("Draw", "gal", dates, labels), so the shaped words are kept per font for the
- * process too (at most LAYOUT_MEMO words, then started afresh). pdfkit scales the positions it
+ * process too (lib/cache lruMemo, at most LAYOUT_MEMO words). pdfkit scales the positions it
  * gets in place, so each caller gets its own copy of them; glyphs are shared read-only objects.
  */
 const PLAIN_FEATURES = { calt: false, liga: false, clig: false, rclt: false };
@@ -135,16 +136,13 @@ const LAYOUT_MEMO = 20_000;
 type Shaped = Pick<fontkit.GlyphRun, 'glyphs' | 'positions'>;
 function plainShaping(font: fontkit.Font): fontkit.Font {
   const layout = font.layout.bind(font);
-  const memo = new Map<string, Shaped>();
+  const memo = lruMemo<Shaped>(LAYOUT_MEMO);
   font.layout = (text, features) => {
     if (features) return layout(text, features);
-    let shaped = memo.get(text);
-    if (!shaped) {
+    const shaped = memo(text, () => {
       const run = layout(text, PLAIN_FEATURES);
-      shaped = { glyphs: run.glyphs, positions: run.positions.map((p) => ({ ...p })) };
-      if (memo.size >= LAYOUT_MEMO) memo.clear();
-      memo.set(text, shaped);
-    }
+      return { glyphs: run.glyphs, positions: run.positions.map((p) => ({ ...p })) };
+    });
     const positions = shaped.positions.map((p) => ({ ...p }));
     return {
       glyphs: shaped.glyphs,

@@ -2,20 +2,12 @@
 // simulated crash), the PDF's text, e-mail with the PDF attached, voiding by credit note, CSV.
 import { PDFParse } from 'pdf-parse';
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
-import { caughtMail, countRows, signIn, sql, waitForMail } from '../support/api';
+import { binary, caughtMail, countRows, signIn, sql, waitForMail } from '../support/api';
 import { mailSettled } from '../support/worker';
 import { dayIn, insertDraw, invoicesOf, issueMonth, makeBillingCoop, monthsAgo, runMonth } from '../support/billing';
 
 const P = monthsAgo(3); // a past month, so the run accepts it
 const NEXT = monthsAgo(2);
-
-/** A supertest body parser that keeps the raw bytes. */
-export function binary(res: unknown, cb: (err: Error | null, body: unknown) => void) {
-  const stream = res as NodeJS.ReadableStream;
-  const chunks: Buffer[] = [];
-  stream.on('data', (c: Buffer) => chunks.push(c));
-  stream.on('end', () => cb(null, Buffer.concat(chunks)));
-}
 
 async function pdfText(bytes: Buffer): Promise<string> {
   const parser = new PDFParse({ data: bytes });

@@ -3,21 +3,11 @@
 // path; who may do what; bad input (nothing written); FIFO across lots; the certificate PDF.
 import { PDFParse } from 'pdf-parse';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { countRows, makeCoopWithRoles, sql } from '../support/api';
+import { binary, countRows, makeCoopWithRoles, sql } from '../support/api';
 import { storedKeys } from '../support/storage';
 
 type Ctx = Awaited<ReturnType<typeof makeCoopWithRoles>>;
 const api = (slug: string) => `/api/coops/${slug}`;
-
-/** Reads a binary response body (supertest buffers only JSON/text by default). */
-const binary = (
-  res: { on: (e: string, cb: (c?: Buffer) => void) => void },
-  cb: (err: Error | null, body: Buffer) => void,
-) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c) => chunks.push(c!));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
 
 async function makeTank(coopId: number, name = 'Main tank', capacityLiters = 2000): Promise<number> {
   const [t] = await sql<{ id: number }>(

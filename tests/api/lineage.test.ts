@@ -4,7 +4,7 @@
 // for a shared tank (common practice): stirred → well mixed, unstirred and drawn from the bottom
 // → first in, first out.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { caughtMail, countRows, makeCoopWithRoles, makeUser, signIn, sql, waitForMail } from '../support/api';
+import { binary, caughtMail, countRows, makeCoopWithRoles, makeUser, signIn, sql, waitForMail } from '../support/api';
 import { insertBatch } from '../support/batches';
 
 type Ctx = Awaited<ReturnType<typeof makeCoopWithRoles>>;
@@ -395,14 +395,4 @@ describe('batch lineage and recall', () => {
 function day(offset: number): string {
   const d = new Date(Date.now() + offset * 86_400_000);
   return d.toISOString().slice(0, 10);
-}
-
-/** Reads a binary response body (supertest buffers only JSON/text by default). */
-function binary(
-  res: { on: (e: string, cb: (c?: Buffer) => void) => void },
-  cb: (err: Error | null, body: Buffer) => void,
-) {
-  const chunks: Buffer[] = [];
-  res.on('data', (c) => chunks.push(c!));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
 }

@@ -1,6 +1,6 @@
 import { PDFParse } from 'pdf-parse';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { makeCoopWithRoles, sql } from '../support/api';
+import { binary, makeCoopWithRoles, sql } from '../support/api';
 import { insertBatch } from '../support/batches';
 
 // A hand-computed quarter (2026 Q3) in a co-op on America/Chicago time (UTC−5 in summer).
@@ -136,15 +136,7 @@ describe('quarterly fuel-volume report', () => {
   });
 
   it('PDF: text names the quarter, the totals and the filing caution', async () => {
-    const res = await ctx.agents.admin
-      .get(`${url}&format=pdf`)
-      .buffer(true)
-      .parse((r, cb) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => cb(null, Buffer.concat(chunks)));
-      })
-      .expect(200);
+    const res = await ctx.agents.admin.get(`${url}&format=pdf`).buffer(true).parse(binary).expect(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     const { text } = await new PDFParse({ data: new Uint8Array(res.body as Buffer) }).getText();
     expect(text).toContain('2026 Q3');

@@ -6,7 +6,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { describe, expect, inject, it } from 'vitest';
-import { makeCoopWithRoles, runScript, sql } from '../support/api';
+import { binary, makeCoopWithRoles, runScript, sql } from '../support/api';
 
 /** The script as an operator runs it, against the storage fake; its output in one string. */
 async function storageImport(dir: string) {
@@ -60,11 +60,7 @@ describe('npm run storage:import', () => {
     const served = await ctx.agents.brewer
       .get(`${api}/supplies/chemicals/${kept}/sds`)
       .buffer(true)
-      .parse((res, done) => {
-        const chunks: Buffer[] = [];
-        res.on('data', (c: Buffer) => chunks.push(c));
-        res.on('end', () => done(null, Buffer.concat(chunks)));
-      })
+      .parse(binary)
       .expect(200);
     expect(Buffer.compare(served.body as Buffer, pdf)).toBe(0);
 

@@ -2,21 +2,13 @@
 // `%PDF-` followed by HTML was accepted. Now the name takes the sniffed type's extension, files
 // carrying markup or script are refused, and downloads are sandboxed attachments.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { countRows, makeCoopWithRoles } from '../support/api';
+import { binary, countRows, makeCoopWithRoles } from '../support/api';
 import { insertBatch } from '../support/batches';
 
 let ctx: Awaited<ReturnType<typeof makeCoopWithRoles>>;
 let batchId: number;
 const files = () => `/api/coops/${ctx.coop.slug}/batches/${batchId}/files`;
 const PNG = Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), Buffer.alloc(64)]);
-const binary = (
-  res: { on: (e: string, cb: (c?: Buffer) => void) => void },
-  cb: (err: Error | null, body: Buffer) => void,
-) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c) => chunks.push(c!));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
 
 beforeAll(async () => {
   ctx = await makeCoopWithRoles();

@@ -176,3 +176,11 @@ export async function runScript(name: string, args: string[], env: Record<string
     return { code: r.code, stdout: r.stdout, stderr: r.stderr };
   }
 }
+
+/** A supertest body parser that keeps the raw bytes (supertest buffers only JSON and text by default). */
+export function binary(res: unknown, cb: (err: Error | null, body: Buffer) => void) {
+  const stream = res as NodeJS.ReadableStream;
+  const chunks: Buffer[] = [];
+  stream.on('data', (c: Buffer) => chunks.push(c));
+  stream.on('end', () => cb(null, Buffer.concat(chunks)));
+}

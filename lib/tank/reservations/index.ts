@@ -2,7 +2,7 @@ import 'server-only';
 import type { reservationSchema } from '@/lib/api/dto/tank';
 import { fn, Op, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
-import { audit } from '@/lib/audit';
+import { audit, auditApiTokenId } from '@/lib/audit';
 import { can, type Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound, invalidFields } from '@/lib/http';
@@ -70,7 +70,7 @@ export async function createReservation(
     tankId: input.tankId,
     membershipId: actor.membershipId,
     userId: actor.user.id,
-    apiTokenId: actor.apiTokenId ?? null,
+    apiTokenId: auditApiTokenId(),
     liters: mlToLiters(qMl),
     windowStart: window.start,
     windowEnd: window.end,
@@ -156,7 +156,7 @@ export async function cancelReservation(actor: Actor, reservationId: number): Pr
     membershipId: actor.membershipId,
     anyone,
     userId: actor.user.id,
-    apiTokenId: actor.apiTokenId ?? null,
+    apiTokenId: auditApiTokenId(),
   });
   if (r)
     return resDto(

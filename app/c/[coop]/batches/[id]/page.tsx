@@ -103,7 +103,6 @@ async function lineageSection(actor: Actor, batch: BatchDto | BatchSummaryDto): 
   return (
     <BatchLineageSection
       lineage={lineage}
-      apiUrl={`/api/coops/${actor.coop.slug}/batches/${batch.id}`}
       coop={actor.coop.slug}
       units={actor.coop.units}
       currency={actor.coop.currency}
@@ -207,7 +206,7 @@ function BatchRecord({
       </Card>
 
       <BatchCosts batch={batch} units={units} currency={currency} url={url} final={final} />
-      <BatchFiles files={batch.files} url={url} coop={base.slice(3)} batchId={batch.id} />
+      <BatchFiles files={batch.files} coop={base.slice(3)} batchId={batch.id} />
 
       <Card title="Notes">
         <StepForm
