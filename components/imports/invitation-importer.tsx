@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { DataTable } from '@/components/data-table/data-table';
 import { callApi } from '@/components/forms/use-api-form';
+import { useChosenFile } from '@/components/forms/use-chosen-file';
 import { apiClient } from '@/lib/api/client';
 import { Button } from '@/components/ui/button';
 import { FieldErrors } from '@/components/ui/field';
@@ -55,6 +56,7 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
     setCsv(await file.text());
     setPasted('');
   }
+  const chosenFile = useChosenFile((f) => void choose(f));
 
   function body() {
     if (pasted.trim() !== '') return { fileName: 'pasted rows', csv: pasted };
@@ -117,7 +119,7 @@ export function InvitationImporter({ coopSlug, fateLabels }: { coopSlug: string;
             accept=".csv,text/csv,text/plain"
             aria-describedby="invitations-file-hint"
             className="min-h-11 w-full min-w-0 rounded-lg border border-stone-300 bg-white px-3 py-2 text-base"
-            onChange={(e) => void choose(e.currentTarget.files?.[0])}
+            {...chosenFile}
           />
           <p id="invitations-file-hint" className="text-xs text-stone-600">
             Saved from a spreadsheet as CSV: commas, semicolons or tabs all work.

@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { DataTable } from '@/components/data-table/data-table';
 import { callApi } from '@/components/forms/use-api-form';
+import { useChosenFile } from '@/components/forms/use-chosen-file';
 import { apiClient } from '@/lib/api/client';
 import type { IMPORT_KINDS } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
@@ -49,6 +50,7 @@ export function OpeningImporter({
     setDone(null);
     setFile(f ? { name: f.name, text: await f.text() } : null);
   }
+  const chosenFile = useChosenFile((f) => void choose(f));
 
   async function runPreview() {
     if (!file) return;
@@ -103,7 +105,7 @@ export function OpeningImporter({
           accept=".csv,text/csv,text/plain"
           aria-describedby={error ? `${inputId}-error` : undefined}
           className="min-h-11 w-full min-w-0 rounded-lg border border-stone-300 bg-white px-3 py-2 text-base"
-          onChange={(e) => void choose(e.currentTarget.files?.[0])}
+          {...chosenFile}
         />
         <FieldErrors id={`${inputId}-error`} errors={error ? [error] : undefined} />
       </div>

@@ -3,7 +3,7 @@
 // balances file with a bad row, and imports past batches (shown read-only, "Imported summary"). Every screen passes axe and fits 360 px and desktop widths.
 import { describe, expect, it } from 'vitest';
 import { baseUrl, makeCoop, makeUser, TEST_PASSWORD } from '../support/api';
-import { shootBothWidths, signInUi, withBrowser } from '../support/browser';
+import { holdScripts, shootBothWidths, signInUi, withBrowser } from '../support/browser';
 
 describe('imports in the browser', () => {
   it('bulk invitations: file → preview with each row’s fate → invite → result with delivery; balances preview names a bad row', async () => {
@@ -34,12 +34,16 @@ describe('imports in the browser', () => {
       await page.getByText('E-mails sent: 1 of 1').waitFor({ timeout: 30_000 });
       await shootBothWidths(page, 'imports-invitations-result');
 
-      await page.goto(`${baseUrl()}/c/${coop.slug}/imports`);
+      // The file is chosen before the page's scripts have run (as on a slow phone): the choice
+      // still counts once the page comes alive.
+      const release = await holdScripts(page);
+      await page.goto(`${baseUrl()}/c/${coop.slug}/imports`, { waitUntil: 'commit' });
       await page.locator('#opening-balances-file').setInputFiles({
         name: 'balances.csv',
         mimeType: 'text/csv',
         buffer: Buffer.from('E-mail,Balance,As of\nnobody@example.org,12.00,11/30/2026\n'),
       });
+      await release();
       await page.getByRole('button', { name: 'Preview' }).nth(1).click();
       await page.getByText(/not a member of this co-op yet/).waitFor();
       await expect(page.getByRole('button', { name: 'Import 0 rows' }).isDisabled()).resolves.toBe(true);

@@ -70,6 +70,24 @@ export async function withBrowser(fn: (page: Page) => Promise<void>, opts: { tim
   }
 }
 
+/**
+ * Holds back the page's scripts (as on a slow phone) until the returned release is awaited:
+ * what the server's HTML does on its own can be tried before the page comes alive.
+ */
+export async function holdScripts(page: Page): Promise<() => Promise<void>> {
+  let open!: () => void;
+  const gate = new Promise<void>((r) => (open = r));
+  await page.route('**/_next/static/chunks/**/*.js', async (route) => {
+    await gate;
+    // A request the page gave up on meanwhile (a prefetch) is already over.
+    await route.continue().catch(() => undefined);
+  });
+  return async () => {
+    open();
+    await page.unrouteAll({ behavior: 'wait' });
+  };
+}
+
 /** Signs in through the real form. */
 export async function signInUi(page: Page, email: string, password: string) {
   await page.goto(`${baseUrl()}/sign-in`);
