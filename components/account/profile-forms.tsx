@@ -9,6 +9,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useRefreshWhile } from '@/components/ui/use-refresh-while';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** Rename. */
 export function NameForm({ name }: { name: string }) {
@@ -35,9 +36,7 @@ export function NameForm({ name }: { name: string }) {
         hint="As other members of your co-ops see it."
       />
       <div>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Save name'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Save name'}</SubmitButton>
       </div>
     </form>
   );
@@ -124,9 +123,7 @@ export function EmailForm({
         errors={fields.currentPassword}
       />
       <div>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Sending…' : 'Send confirmation link'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Sending…' : 'Send confirmation link'}</SubmitButton>
       </div>
     </form>
   );
@@ -190,9 +187,7 @@ export function PasswordForm({ email }: { email: string }) {
         errors={fields.confirm}
       />
       <div>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Change password'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Change password'}</SubmitButton>
       </div>
     </form>
   );

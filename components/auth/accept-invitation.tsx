@@ -7,6 +7,7 @@ import { Notice } from '@/components/ui/notice';
 import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import { signInWithPassword, signOutTo } from './credentials';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** A new person: name and password, then they are signed in and land in the co-op. */
 export function AcceptWithNewAccount({ token, email }: { token: string; email: string }) {
@@ -77,9 +78,9 @@ export function AcceptWithNewAccount({ token, email }: { token: string; email: s
         required
         errors={fields.confirm}
       />
-      <Button type="submit" disabled={busy || signingIn}>
+      <SubmitButton disabled={busy || signingIn}>
         {busy || signingIn ? 'Joining…' : 'Create account and join'}
-      </Button>
+      </SubmitButton>
     </form>
   );
 }

@@ -2,11 +2,11 @@
 
 import Link from 'next/link';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** Asks for a reset link; the answer is the same whether or not the address has an account. */
 export function ResetRequestForm() {
@@ -34,9 +34,7 @@ export function ResetRequestForm() {
         Enter the e-mail address you sign in with. We will send a link to choose a new password.
       </p>
       <TextField label="E-mail" name="email" type="email" autoComplete="email" required errors={fields.email} />
-      <Button type="submit" disabled={busy}>
-        {busy ? 'Sending…' : 'Send the link'}
-      </Button>
+      <SubmitButton disabled={busy}>{busy ? 'Sending…' : 'Send the link'}</SubmitButton>
     </form>
   );
 }
@@ -92,9 +90,7 @@ export function ResetPasswordForm({ token, email }: { token: string; email: stri
         required
         errors={fields.confirm}
       />
-      <Button type="submit" disabled={busy}>
-        {busy ? 'Saving…' : 'Set new password'}
-      </Button>
+      <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Set new password'}</SubmitButton>
     </form>
   );
 }

@@ -1,11 +1,11 @@
 'use client';
 
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { checkBody } from '@/components/forms/use-api-form';
 import { signInWithPassword } from './credentials';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /**
  * Signs in through next-auth's credentials endpoint directly (csrf token + form post), so a
@@ -59,9 +59,7 @@ export function SignInForm({ next, email }: { next: string; email?: string }) {
         required
         errors={errors.password}
       />
-      <Button type="submit" disabled={busy}>
-        {busy ? 'Signing in…' : 'Sign in'}
-      </Button>
+      <SubmitButton disabled={busy}>{busy ? 'Signing in…' : 'Sign in'}</SubmitButton>
     </form>
   );
 }

@@ -1,13 +1,13 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import type { MemberOption } from './payment-forms';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** Voids an issued invoice by a credit note; asks for the reason. */
 export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invoiceId: number; label: string }) {
@@ -32,9 +32,9 @@ export function VoidInvoiceForm({ coop, invoiceId, label }: { coop: string; invo
       <TextField label="Reason" name="reason" required maxLength={240} errors={fields.reason} />
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
       <div>
-        <Button type="submit" variant="danger" disabled={busy}>
+        <SubmitButton variant="danger" disabled={busy}>
           {busy ? 'Voiding…' : `Void ${label}`}
-        </Button>
+        </SubmitButton>
       </div>
     </form>
   );
@@ -111,9 +111,9 @@ export function AdjustmentForm({
         </div>
       ) : null}
       <div className="sm:col-span-2">
-        <Button type="submit" variant="secondary" disabled={busy}>
+        <SubmitButton variant="secondary" disabled={busy}>
           {busy ? 'Adding…' : 'Add adjustment'}
-        </Button>
+        </SubmitButton>
       </div>
     </form>
   );

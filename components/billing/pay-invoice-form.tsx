@@ -2,13 +2,13 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { SelectField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { callApi } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import { formatCents } from '@/lib/money/format';
 import { TEST_CARDS } from '@/lib/payments/test-cards';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /**
  * Pay by card. In this development build the member picks one of the payment fake's test
@@ -67,9 +67,9 @@ export function PayInvoiceForm({
       </SelectField>
       {result ? <Notice tone={result.tone}>{result.text}</Notice> : null}
       <div>
-        <Button type="submit" disabled={busy} aria-busy={busy}>
+        <SubmitButton disabled={busy} aria-busy={busy}>
           {busy ? 'Paying…' : `Pay ${formatCents(amountCents, currency)} by card`}
-        </Button>
+        </SubmitButton>
       </div>
     </form>
   );

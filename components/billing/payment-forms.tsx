@@ -12,6 +12,7 @@ import { apiClient } from '@/lib/api/client';
 import { formatCents } from '@/lib/money/format';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { useAnnounce } from '@/components/shell/announcer';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 export interface MemberOption {
   id: number;
@@ -146,9 +147,7 @@ export function RecordPaymentForm({
         </div>
       ) : null}
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Record payment'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Record payment'}</SubmitButton>
       </div>
     </form>
   );
@@ -202,9 +201,9 @@ export function MatchPaymentForm({
         ))}
         <option value="credit">Hold as the member’s credit</option>
       </SelectField>
-      <Button type="submit" variant="secondary" disabled={busy}>
+      <SubmitButton variant="secondary" disabled={busy}>
         {busy ? 'Matching…' : 'Match'}
-      </Button>
+      </SubmitButton>
       {message ? <Notice tone={message.tone}>{message.text}</Notice> : null}
     </form>
   );

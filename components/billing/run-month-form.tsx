@@ -1,11 +1,11 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** Picks a month and starts preparing its draft invoices, then opens the month's page. */
 export function RunMonthForm({
@@ -41,9 +41,7 @@ export function RunMonthForm({
           errors={fields.period}
         />
       </div>
-      <Button type="submit" disabled={busy}>
-        {busy ? 'Starting…' : 'Prepare draft invoices'}
-      </Button>
+      <SubmitButton disabled={busy}>{busy ? 'Starting…' : 'Prepare draft invoices'}</SubmitButton>
       {message ? (
         <div className="sm:ml-2">
           <Notice tone={message.tone}>{message.text}</Notice>

@@ -2,7 +2,6 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ConfirmDialog, type ConfirmOutcome } from '@/components/ui/confirm-dialog';
@@ -14,6 +13,7 @@ import { formatVolume, volumeLabel, type UnitSystem } from '@/lib/units';
 import { QualityBadge } from './badges';
 import { STATUS_LABELS, STEP_ORDER } from './format';
 import { saveAllUnsaved } from './unsaved';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** What the release dialog needs: the tanks, the quality state and the expected volume. */
 export interface ReleaseChoice {
@@ -112,9 +112,9 @@ export function BatchActions({
                 </option>
               ))}
             </SelectField>
-            <Button type="submit" disabled={advance.busy}>
+            <SubmitButton disabled={advance.busy}>
               {advance.busy ? 'Moving…' : `Move to ${STATUS_LABELS[to]?.toLowerCase() ?? 'next step'}`}
-            </Button>
+            </SubmitButton>
           </form>
         ) : null}
         {status === 'testing' && release ? (

@@ -10,6 +10,7 @@ import { apiClient } from '@/lib/api/client';
 import type { PlannerResultDto as PlannerResult } from '@/lib/api/dto/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { PlanResult } from './plan-result';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 export interface PlannerOilLot {
   id: number;
@@ -337,9 +338,9 @@ export function PlannerForm({
           </div>
         </details>
         <div className="flex flex-wrap gap-3">
-          <Button type="submit" variant="secondary" disabled={computing}>
+          <SubmitButton variant="secondary" disabled={computing}>
             {computing ? 'Working it out…' : 'Work it out'}
-          </Button>
+          </SubmitButton>
           <Button type="button" disabled={!result || creating} onClick={create}>
             {creating ? 'Creating…' : 'Create batch'}
           </Button>

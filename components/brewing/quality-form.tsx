@@ -2,13 +2,13 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { HOME_TEST_LABORATORY, limitsFor, type FuelStandard, type QualityResults } from '@/lib/quality';
 import { stepTarget } from './step-targets';
 import { useUnsavedForm } from './unsaved';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 interface Stored {
   test327?: { result: 'clear' | 'fallout'; falloutMl?: number };
@@ -201,9 +201,7 @@ export function QualityForm({
       </fieldset>
       {readOnly ? null : (
         <div className="flex items-center gap-3">
-          <Button type="submit" disabled={busy}>
-            {busy ? 'Saving…' : 'Save quality checks'}
-          </Button>
+          <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Save quality checks'}</SubmitButton>
           {dirty ? <span className="text-xs text-stone-600">Unsaved changes</span> : null}
         </div>
       )}

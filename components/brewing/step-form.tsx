@@ -2,12 +2,12 @@
 
 import { useRouter } from 'next/navigation';
 import type { ReactNode } from 'react';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField, FieldErrors } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { stepTarget } from './step-targets';
 import { useUnsavedForm } from './unsaved';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** One input of a step form. Values are sent as typed; the server parses and converts units. */
 export interface StepField {
@@ -119,9 +119,7 @@ export function StepForm({
       </div>
       {disabled ? null : (
         <div className="flex items-center gap-3">
-          <Button type="submit" disabled={busy}>
-            {busy ? 'Saving…' : submitLabel}
-          </Button>
+          <SubmitButton disabled={busy}>{busy ? 'Saving…' : submitLabel}</SubmitButton>
           {dirty ? <span className="text-xs text-stone-600">Unsaved changes</span> : null}
         </div>
       )}

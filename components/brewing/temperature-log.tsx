@@ -2,7 +2,6 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { numberOf, useApiForm } from '@/components/forms/use-api-form';
@@ -11,6 +10,7 @@ import { batchPath } from './batch-path';
 import { formatTime, formatWhen } from '@/lib/dates';
 import { temperatureCheck, type TemperatureLevel } from '@/lib/chemistry';
 import { formatTemp, tempLabel, tempToC, type UnitSystem } from '@/lib/units';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 export interface Reading {
   id: string;
@@ -110,9 +110,7 @@ export function TemperatureLog({
               errors={fields.temp}
               autoComplete="off"
             />
-            <Button type="submit" disabled={busy}>
-              {busy ? 'Adding…' : 'Add reading'}
-            </Button>
+            <SubmitButton disabled={busy}>{busy ? 'Adding…' : 'Add reading'}</SubmitButton>
           </div>
           {preview ? <Notice tone={LEVEL_TONE[preview.level]}>{preview.message}</Notice> : null}
           {message?.tone === 'danger' && !fields.temp ? <Notice tone="danger">{message.text}</Notice> : null}

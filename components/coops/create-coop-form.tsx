@@ -1,10 +1,10 @@
 'use client';
 
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 export function CreateCoopForm() {
   const { busy, fields, message, send } = useApiForm();
@@ -47,9 +47,7 @@ export function CreateCoopForm() {
         hint="An IANA name such as America/Chicago"
       />
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Creating…' : 'Create co-op'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Creating…' : 'Create co-op'}</SubmitButton>
       </div>
     </form>
   );

@@ -2,8 +2,8 @@
 
 import { useRouter } from 'next/navigation';
 import { useId } from 'react';
-import { Button } from '@/components/ui/button';
 import { SelectField } from '@/components/ui/field';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /**
  * Sorting for a table shown as cards (below 640 px, where the column headers are hidden): a
@@ -60,9 +60,7 @@ export function PhoneSort({
           <option value="desc">Descending (Z–A, 9–0)</option>
         </SelectField>
       </div>
-      <Button type="submit" variant="secondary">
-        Sort
-      </Button>
+      <SubmitButton variant="secondary">Sort</SubmitButton>
     </form>
   );
 }

@@ -2,7 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
+import { SubmitButton } from './submit-button';
 import { FieldErrors, SelectField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { apiClient, apiError } from '@/lib/api/client';
@@ -119,9 +119,9 @@ export function UploadForm({
             className="min-h-11 w-full min-w-0 max-w-full rounded-lg border border-stone-300 bg-white px-2 py-2 text-sm"
           />
         </div>
-        <Button type="submit" variant="secondary" disabled={busy}>
+        <SubmitButton variant="secondary" disabled={busy}>
           {busy ? 'Uploading…' : 'Upload'}
-        </Button>
+        </SubmitButton>
       </div>
       <FieldErrors id={errId} errors={errors.file} />
       <p className="text-xs text-stone-600">Up to 10 MB. The type is checked from the file itself.</p>

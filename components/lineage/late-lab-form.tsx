@@ -1,13 +1,13 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { numberOf, useApiForm } from '@/components/forms/use-api-form';
 import { batchPath } from '@/components/brewing/batch-path';
 import { apiClient } from '@/lib/api/client';
 import { limitsFor, type FuelStandard } from '@/lib/quality';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /**
  * A laboratory result that arrived after the batch was released. A result outside a required
@@ -81,9 +81,7 @@ export function LateLabForm({ url, standard }: { url: string; standard: FuelStan
         />
       </div>
       <div>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Record lab result'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Record lab result'}</SubmitButton>
       </div>
     </form>
   );

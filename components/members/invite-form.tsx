@@ -4,10 +4,10 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { callApi, formObject } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ROLES, ROLE_SUMMARY, type Role } from '@/lib/auth/roles';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** Invite by e-mail with a role. The e-mail goes out from the job queue within moments; the list shows when it was sent. */
 export function InviteForm({ coopSlug }: { coopSlug: string }) {
@@ -68,9 +68,7 @@ export function InviteForm({ coopSlug }: { coopSlug: string }) {
         </dl>
       </details>
       <div>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Sending…' : 'Send invitation'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Sending…' : 'Send invitation'}</SubmitButton>
       </div>
     </form>
   );

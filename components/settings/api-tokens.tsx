@@ -8,6 +8,7 @@ import { Notice } from '@/components/ui/notice';
 import { callApi, formObject, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient, apiError } from '@/lib/api/client';
 import type { paths } from '@/lib/api/client';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 type TokenList = paths['/api/coops/{coop}/tokens']['get']['responses'][200]['content']['application/json'];
 type Token = TokenList['tokens'][number];
@@ -82,9 +83,7 @@ export function ApiTokens({ coop }: { coop: string }) {
           <option value="read">Read only</option>
           <option value="write">Read and write</option>
         </SelectField>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Creating…' : 'Create token'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Creating…' : 'Create token'}</SubmitButton>
       </form>
       {isLoading ? <p className="text-stone-600">Loading tokens…</p> : null}
       {error ? <Notice tone="danger">Could not load the tokens: {String(error.message)}</Notice> : null}

@@ -1,11 +1,11 @@
 'use client';
 
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, numberOf, useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
 import type { CoopSettingsDto } from '@/lib/coops/settings-types';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
   const { busy, fields, message, send } = useApiForm();
@@ -128,9 +128,7 @@ export function SettingsForm({ initial }: { initial: CoopSettingsDto }) {
         />
       </fieldset>
       <div>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Save settings'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Save settings'}</SubmitButton>
       </div>
     </form>
   );

@@ -2,7 +2,6 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formObject, numberOf, useApiForm } from '@/components/forms/use-api-form';
@@ -10,6 +9,7 @@ import { apiClient, apiError } from '@/lib/api/client';
 import { uploadFile } from '@/components/forms/upload-form';
 import type { CHEMICAL_KINDS, QUANTITY_UNITS } from '@/lib/validation/brewing';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 const today = () => new Date().toISOString().slice(0, 10);
 
@@ -139,9 +139,7 @@ export function ChemicalLotForm({ slug, units: system = 'metric' }: { slug: stri
         <TextField label="Notes" name="notes" errors={fields.notes} />
       </div>
       <div className="sm:col-span-2 lg:col-span-3">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Record purchase'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Record purchase'}</SubmitButton>
       </div>
     </form>
   );
@@ -223,9 +221,7 @@ export function OilLotForm({ slug, units }: { slug: string; units: UnitSystem })
       <TextField label="Water notes" name="waterNotes" errors={fields.waterNotes} />
       <TextField label="Solids notes" name="solidsNotes" errors={fields.solidsNotes} />
       <div className="sm:col-span-2 lg:col-span-3">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Record oil lot'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Record oil lot'}</SubmitButton>
       </div>
     </form>
   );

@@ -2,7 +2,6 @@
 
 import { useRouter } from 'next/navigation';
 import { useSWRConfig } from 'swr';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
@@ -11,6 +10,7 @@ import { formatMl, unitWord } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
 import { tanksKey } from './live-tanks';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** A brewer enters the measured volume; any difference from the book becomes a ledger row with its reason. */
 export function DipForm({
@@ -89,9 +89,7 @@ export function DipForm({
         hint="Leave empty to value it at the tank’s average cost."
       />
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Record dip reading'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Record dip reading'}</SubmitButton>
       </div>
     </form>
   );

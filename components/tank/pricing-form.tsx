@@ -2,7 +2,6 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { FormResult } from '@/components/forms/form-result';
@@ -13,6 +12,7 @@ import { memberPriceCentsPerGallon, type PricingPolicy } from '@/lib/pricing';
 import { formatRate } from '@/lib/tank/pricing-policy/convert';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 type Kind = PricingPolicy['kind'];
 const USES = [
@@ -230,9 +230,7 @@ export function PricingForm({
         </div>
       ) : null}
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : 'Save new price'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : 'Save new price'}</SubmitButton>
       </div>
       <FormResult message={message?.tone === 'danger' ? message : null} className="sm:col-span-2" />
     </form>

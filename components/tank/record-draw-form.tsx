@@ -3,7 +3,6 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { useSWRConfig } from 'swr';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { useApiForm } from '@/components/forms/use-api-form';
 import { apiClient } from '@/lib/api/client';
@@ -14,6 +13,7 @@ import { formatMl, unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
 import { tanksKey } from './live-tanks';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 export interface OpenReservationOption {
   id: number;
@@ -237,9 +237,7 @@ export function RecordDrawForm({
         hint="e.g. 2004 pickup, farm tractor, home furnace"
       />
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Recording…' : 'Record draw'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Recording…' : 'Record draw'}</SubmitButton>
       </div>
       <FormResult message={message} className="sm:col-span-2" />
     </form>

@@ -3,7 +3,6 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { useSWRConfig } from 'swr';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
@@ -16,6 +15,7 @@ import { formatMl, unitWord } from '@/lib/tank/volume';
 import { volumeLabel, type UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
 import { tanksKey, useTanks, type TanksResponse } from './use-tanks';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /**
  * A member reserves fuel for themself. The selected tank's available quantity is shown live
@@ -162,9 +162,7 @@ export function ReserveForm({
         hint="The reservation expires after this day and the fuel goes back to everyone."
       />
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Reserving…' : 'Reserve fuel'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Reserving…' : 'Reserve fuel'}</SubmitButton>
       </div>
       <FormResult message={message} className="sm:col-span-2" />
     </form>

@@ -3,7 +3,6 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { useSWRConfig } from 'swr';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
@@ -12,6 +11,7 @@ import { unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
 import { tanksKey } from './live-tanks';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 interface TankLite {
   id: number;
@@ -112,9 +112,7 @@ export function TankSettingsForm({
         </SelectField>
       ) : null}
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Saving…' : tank ? 'Save tank' : 'Add tank'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Saving…' : tank ? 'Save tank' : 'Add tank'}</SubmitButton>
       </div>
     </form>
   );

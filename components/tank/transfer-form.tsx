@@ -2,7 +2,6 @@
 
 import { useRouter } from 'next/navigation';
 import { useSWRConfig } from 'swr';
-import { Button } from '@/components/ui/button';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useApiForm } from '@/components/forms/use-api-form';
@@ -11,6 +10,7 @@ import { unitWord } from '@/lib/tank/volume';
 import type { UnitSystem } from '@/lib/units';
 import { prefixedErrors, prefixedObject } from './form-utils';
 import { tanksKey } from './live-tanks';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** Moves available fuel between two tanks; value moves with it at average cost. */
 export function TransferForm({
@@ -73,9 +73,7 @@ export function TransferForm({
       />
       <TextField label="Note (optional)" name="xfer-reason" errors={errors['xfer-reason']} />
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Moving…' : 'Move fuel'}
-        </Button>
+        <SubmitButton disabled={busy}>{busy ? 'Moving…' : 'Move fuel'}</SubmitButton>
       </div>
     </form>
   );

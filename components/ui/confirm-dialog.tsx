@@ -4,6 +4,7 @@ import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
 import { useAnnounce } from '@/components/shell/announcer';
 import { Button } from './button';
 import { Notice } from './notice';
+import { SubmitButton } from '@/components/forms/submit-button';
 
 /** What a confirmed action answers: nothing or `{ok}` on success, or what went wrong. */
 export type ConfirmOutcome =
@@ -118,9 +119,9 @@ export function ConfirmDialog({
             {error ? <Notice tone="danger">{error}</Notice> : null}
             {typeof children === 'function' ? children(fields, fieldId) : children}
             <div className="flex flex-wrap gap-2">
-              <Button type="submit" variant={tone === 'danger' ? 'danger' : 'primary'} disabled={busy}>
+              <SubmitButton variant={tone === 'danger' ? 'danger' : 'primary'} disabled={busy}>
                 {busy ? busyLabel : confirmLabel}
-              </Button>
+              </SubmitButton>
               <Button type="button" variant="secondary" onClick={() => dialog.current?.close()}>
                 {dismissLabel}
               </Button>

@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { baseUrl } from '../support/api';
-import { withBrowser, checkA11y, signInUi, SHOTS } from '../support/browser';
+import { withBrowser, checkA11y, holdScripts, signInUi, SHOTS } from '../support/browser';
 
 describe('landing page in headless Chromium', () => {
   it('says what Tallyvat is, passes axe, and is saved as a screenshot at phone and desktop widths', async () => {
@@ -49,4 +49,22 @@ describe('app shell in headless Chromium', () => {
       await page.waitForURL('**/sign-in**');
     });
   }, 150_000);
+});
+
+describe('forms before the page comes alive', () => {
+  it('sign-in cannot be sent before its script runs (no password in the address); once it runs, it signs in', async () => {
+    await withBrowser(async (page) => {
+      const release = await holdScripts(page);
+      await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'commit' });
+      await page.getByLabel('E-mail').fill('marisol.admin@example.org');
+      await page.getByLabel('Password').fill('tallyvat-demo-2026');
+      const submit = page.getByRole('button', { name: 'Sign in' });
+      await expect(submit.isDisabled()).resolves.toBe(true);
+      await page.getByLabel('Password').press('Enter');
+      await release();
+      await expect.poll(() => submit.isEnabled()).toBe(true);
+      expect(page.url()).toBe(`${baseUrl()}/sign-in`);
+      await Promise.all([page.waitForURL('**/coops'), submit.click()]);
+    });
+  }, 60_000);
 });
