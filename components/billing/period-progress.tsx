@@ -8,7 +8,7 @@ import { Notice } from '@/components/ui/notice';
 import { callApi, type ClientCall } from '@/components/forms/use-api-form';
 import { apiClient, dataOrThrow } from '@/lib/api/client';
 import { formatCents } from '@/lib/money/format';
-import type { PeriodOverview } from '@/lib/billing/invoices';
+import type { PeriodOverview } from '@/lib/billing/months';
 
 /**
  * The month's live state, polled while something is moving (a run building drafts, e-mails

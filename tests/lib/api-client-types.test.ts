@@ -7,7 +7,7 @@ import { openApiDocument } from '@/lib/api/document';
 import type { paths } from '@/lib/api/client';
 import type { DrawDto } from '@/lib/tank/draws';
 import type { InvoiceDetail, PaymentDTO } from '@/lib/billing/types';
-import type { PeriodOverview } from '@/lib/billing/invoices';
+import type { PeriodOverview } from '@/lib/billing/months';
 import type { MemberDto } from '@/lib/members';
 import type { TankDto } from '@/lib/tank';
 import type { ProfileDto } from '@/lib/account';

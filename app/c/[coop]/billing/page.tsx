@@ -6,7 +6,8 @@ import { RunMonthForm } from '@/components/billing/run-month-form';
 import { Card } from '@/components/ui/notice';
 import { requirePageActor } from '@/lib/auth';
 import { listAdjustments } from '@/lib/billing/adjustments';
-import { listMembersForBilling, listPeriods } from '@/lib/billing/invoices';
+import { listMembersForBilling } from '@/lib/billing/invoices';
+import { listPeriods } from '@/lib/billing/months';
 import { currentPeriod, periodLabel, shiftPeriod } from '@/lib/billing/periods';
 import { formatCents } from '@/lib/money';
 

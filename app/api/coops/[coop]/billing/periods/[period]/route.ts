@@ -1,5 +1,5 @@
 import { requireMember } from '@/lib/auth';
-import { getPeriodOverview } from '@/lib/billing/invoices';
+import { getPeriodOverview } from '@/lib/billing/months';
 import { periodParam } from '@/lib/billing/params';
 import { handler } from '@/lib/http';
 
