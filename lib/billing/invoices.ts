@@ -12,6 +12,7 @@ import {
 import { notFound, invalidFields } from '@/lib/http';
 import { Coop, Invoice, InvoiceLine, MemberCredit, Membership, Payment, PaymentAttempt, User } from '@/models';
 import { cents } from './cents';
+import { OPEN_STATUSES, OUTSTANDING_SQL } from './status';
 import { isPeriodClosed } from './locks';
 import { todayIn } from '@/lib/dates';
 import { numericOrNull } from '@/lib/units/quantity';
@@ -21,11 +22,6 @@ import type { Paged } from '@/lib/validation/list';
 import { paymentsOfInvoice } from './payments-read';
 
 type InvoiceWhere = WhereOptions<InferAttributes<Invoice>>;
-
-/** Invoices that still owe money. */
-export const OPEN_STATUSES: InvoiceStatus[] = ['issued', 'partly-paid'];
-/** An invoice's unpaid amount (never below zero), for aggregates over invoices. */
-export const OUTSTANDING_SQL = 'GREATEST(total_cents - paid_cents, 0)';
 
 /** The columns a summary shows. */
 const SUMMARY_ATTRIBUTES = [

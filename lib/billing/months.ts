@@ -4,7 +4,7 @@ import { col, fn, literal } from 'sequelize';
 import type { periodOverviewSchema } from '@/lib/api/dto/billing';
 import { BillingPeriod, BillingRun, Invoice } from '@/models';
 import { cents } from './cents';
-import { OPEN_STATUSES, OUTSTANDING_SQL } from './invoices';
+import { OPEN_STATUSES, OUTSTANDING_SQL } from './status';
 import { periodToDate } from './periods';
 import { latestRun } from './run';
 import type { EmailStatus, InvoiceStatus } from './types';

@@ -1,3 +1,10 @@
+import type { InvoiceStatus } from '@/models/Invoice';
+
+/** Invoices that still owe money. */
+export const OPEN_STATUSES: InvoiceStatus[] = ['issued', 'partly-paid'];
+/** An invoice's unpaid amount (never below zero), for SQL aggregates over `invoices`. */
+export const OUTSTANDING_SQL = 'GREATEST(total_cents - paid_cents, 0)';
+
 /** Words for statuses, shared by pages, PDFs and CSVs (pure). */
 export const INVOICE_STATUS_LABEL: Record<string, string> = {
   draft: 'Draft',

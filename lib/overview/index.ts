@@ -2,7 +2,7 @@ import 'server-only';
 import { col, fn, literal, Op, type InferAttributes } from 'sequelize';
 import type { Actor } from '@/lib/auth';
 import { can } from '@/lib/auth';
-import { OPEN_STATUSES } from '@/lib/billing/invoices';
+import { OPEN_STATUSES } from '@/lib/billing/status';
 import { currentPeriod, periodToDate } from '@/lib/billing/periods';
 import { ttlMemo } from '@/lib/cache/ttl-memo';
 import { memberPriceCentsPerGallon } from '@/lib/pricing';
