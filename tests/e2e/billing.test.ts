@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { baseUrl, sql, TEST_PASSWORD } from '../support/api';
 import { dayIn, insertDraw, makeBillingCoop, monthsAgo } from '../support/billing';
-import { checkA11y, expectAnnounced, shootBothWidths, signInUi, withBrowser } from '../support/browser';
+import { checkA11y, expectAnnounced, shootBothWidths, signInUi, withBrowser, live } from '../support/browser';
 
 describe('billing a month in the browser', () => {
   it('treasurer issues the month, a member pays by card, the treasurer sees it reconciled and closes the month', async () => {
@@ -83,7 +83,7 @@ describe('billing a month in the browser', () => {
       const monthName = new Intl.DateTimeFormat('en-US', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(
         new Date(`${month}-15T00:00:00Z`),
       );
-      await page.getByRole('button', { name: `Close ${monthName}…` }).click();
+      await (await live(page.getByRole('button', { name: `Close ${monthName}…` }))).click();
       const dialog = page.getByRole('dialog', { name: `Close ${monthName}?` });
       await dialog.getByText(/locks .* draws, invoices and payments for good/).waitFor();
       await checkA11y(page);

@@ -1,7 +1,7 @@
 // Nothing typed on a batch is lost, and release is a deliberate act — in headless Chromium.
 import { describe, expect, it } from 'vitest';
 import { baseUrl, makeCoop, makeUser, sql, TEST_PASSWORD } from '../support/api';
-import { shootBothWidths, signInUi, withBrowser } from '../support/browser';
+import { shootBothWidths, signInUi, withBrowser, live } from '../support/browser';
 
 describe('the batch record in the browser', () => {
   it('typed step and quality values are saved when the batch moves on; release with incomplete verdicts asks a reason in a dialog', async () => {
@@ -131,7 +131,7 @@ describe('the batch record in the browser', () => {
       await banner.filter({ hasText: 'Batch 1' }).waitFor();
       await page.goto(`${baseUrl()}/c/${coop.slug}/batches/${id}`);
       await banner.waitFor();
-      await banner.getByRole('button', { name: 'Acknowledge' }).click();
+      await (await live(banner.getByRole('button', { name: 'Acknowledge' }))).click();
       await banner.waitFor({ state: 'detached', timeout: 30_000 });
       await page.reload();
       await page.getByRole('heading', { level: 1, name: 'Batch 1' }).waitFor();

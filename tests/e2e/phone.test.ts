@@ -8,7 +8,7 @@ import type { Locator, Page } from 'playwright-core';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { baseUrl, makeCoopWithRoles, sql, TEST_PASSWORD } from '../support/api';
 import { dayIn, insertDraw, makeBillingCoop, monthsAgo, runMonth } from '../support/billing';
-import { checkA11y, expectAnnounced, signInUi, SHOTS, withBrowser } from '../support/browser';
+import { checkA11y, expectAnnounced, signInUi, SHOTS, withBrowser, live } from '../support/browser';
 
 const PHONE = { width: 360, height: 740 };
 
@@ -54,7 +54,7 @@ describe('at 360×740', () => {
       // The compact navigation says where you are and opens the sections.
       const nav = page.getByRole('navigation', { name: 'Co-op' });
       await expect(nav.getByTestId('current-section').textContent()).resolves.toBe('Section: My fuel');
-      await nav.getByRole('button', { name: 'Menu' }).click();
+      await (await live(nav.getByRole('button', { name: 'Menu' }))).click();
       await nav.getByRole('link', { name: 'Tank' }).waitFor();
       await checkA11y(page);
       await shot(page, 'nav-open');

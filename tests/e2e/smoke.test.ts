@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { baseUrl } from '../support/api';
-import { withBrowser, checkA11y, holdScripts, signInUi, SHOTS } from '../support/browser';
+import { withBrowser, checkA11y, holdScripts, signInUi, SHOTS, live } from '../support/browser';
 
 describe('landing page in headless Chromium', () => {
   it('says what Tallyvat is, passes axe, and is saved as a screenshot at phone and desktop widths', async () => {
@@ -42,7 +42,7 @@ describe('app shell in headless Chromium', () => {
       await page.screenshot({ path: path.join(SHOTS, 'overview-admin-1280.png'), fullPage: true });
       await checkA11y(page);
       // Sign out: back on the landing page, and the co-op's pages ask to sign in again.
-      await page.getByRole('button', { name: 'Sign out' }).click();
+      await (await live(page.getByRole('button', { name: 'Sign out' }))).click();
       await page.waitForURL(`${baseUrl()}/`);
       expect((await page.context().cookies()).some((c) => c.name.includes('session-token'))).toBe(false);
       await page.goto(`${baseUrl()}/c/prairie-lantern`);

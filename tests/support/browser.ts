@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import AxeBuilder from '@axe-core/playwright';
-import { chromium, type Page } from 'playwright-core';
+import { chromium, type Locator, type Page } from 'playwright-core';
 import { expect } from 'vitest';
 import { baseUrl } from './api';
 
@@ -86,6 +86,20 @@ export async function holdScripts(page: Page): Promise<() => Promise<void>> {
     open();
     await page.unrouteAll({ behavior: 'wait' });
   };
+}
+
+/**
+ * The element once React has taken it over (its handlers attached). A press before that does
+ * nothing, as on a slow phone, so a test presses a button that is not a form's submit (those wait,
+ * disabled) only when it is live. React marks a hydrated element with a `__reactProps$…` key.
+ */
+export async function live(locator: Locator): Promise<Locator> {
+  await expect
+    .poll(() => locator.evaluate((el) => Object.keys(el).some((k) => k.startsWith('__reactProps$'))), {
+      timeout: 30_000,
+    })
+    .toBe(true);
+  return locator;
 }
 
 /** Signs in through the real form. */
