@@ -20,5 +20,6 @@ export function useHydrated() {
  * GET with every field, a password among them, in the address.
  */
 export function SubmitButton({ disabled, ...props }: Omit<ComponentProps<typeof Button>, 'type'>) {
-  return <Button {...props} type="submit" disabled={!useHydrated() || disabled} />;
+  const waiting = !useHydrated();
+  return <Button {...props} type="submit" disabled={waiting || disabled} data-waiting={waiting ? '' : undefined} />;
 }

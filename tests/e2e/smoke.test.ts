@@ -60,10 +60,14 @@ describe('forms before the page comes alive', () => {
       await page.getByLabel('Password').fill('tallyvat-demo-2026');
       const submit = page.getByRole('button', { name: 'Sign in' });
       await expect(submit.isDisabled()).resolves.toBe(true);
+      // Not greyed out meanwhile: it keeps the colour it has once live (no flash on every load).
+      const colour = () => submit.evaluate((el) => getComputedStyle(el).backgroundColor);
+      const waitingColour = await colour();
       await page.getByLabel('Password').press('Enter');
       await release();
       await expect.poll(() => submit.isEnabled()).toBe(true);
       expect(page.url()).toBe(`${baseUrl()}/sign-in`);
+      await expect(colour()).resolves.toBe(waitingColour);
       await Promise.all([page.waitForURL('**/coops'), submit.click()]);
     });
   }, 60_000);
