@@ -9,6 +9,7 @@ import { memberPriceCentsPerGallon } from '@/lib/pricing';
 import { policyInUnits, type PolicyRow } from '@/lib/tank/pricing-policy/convert';
 import { stockPictureParams, stockStateOf, summarizeStock } from '@/lib/supplies/stock';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
+import { tankAvailableMl } from '@/lib/tank/volume';
 import { LITERS_PER_US_GALLON } from '@/lib/units';
 import { qualityOf } from '@/lib/brewing';
 import { Batch } from '@/models';
@@ -26,20 +27,34 @@ import type {
 export type { BatchCost, BrewerSection, MonthVolume, Overview, PriceSummary, TankSummary, TreasurerSection };
 
 /**
- * Tank totals across the co-op's active tanks (the same figures as the tank page, summed by the
- * cards statement), with the moving-average cost per gallon; whole millilitres in JavaScript.
+ * Tank totals across the co-op's active tanks (the same figures as the tank page: each tank's
+ * available by lib/tank's rule, then summed), with the moving-average cost per gallon; whole
+ * millilitres.
  */
-export function tankSummaryOf(t: CardsRow['tank']): TankSummary {
-  const onHandMl = litersToMl(t.onHand);
-  const valueCents = Number(t.value);
+export function tankSummaryOf(tanks: CardsRow['tanks']): TankSummary {
+  let onHandMl = 0;
+  let reservedMl = 0;
+  let heldMl = 0;
+  let availableMl = 0;
+  let capacityMl = 0;
+  let valueCents = 0;
+  for (const t of tanks) {
+    const [onHand, reserved, held] = [litersToMl(t.onHand), litersToMl(t.reserved), litersToMl(t.held)];
+    onHandMl += onHand;
+    reservedMl += reserved;
+    heldMl += held;
+    availableMl += tankAvailableMl(onHand, reserved, held);
+    capacityMl += litersToMl(t.capacity);
+    valueCents += Number(t.value);
+  }
   return {
     onHandLiters: mlToLiters(onHandMl),
-    reservedLiters: mlToLiters(litersToMl(t.reserved)),
-    heldLiters: mlToLiters(litersToMl(t.held)),
-    availableLiters: mlToLiters(litersToMl(t.available)),
-    capacityLiters: mlToLiters(litersToMl(t.capacity)),
+    reservedLiters: mlToLiters(reservedMl),
+    heldLiters: mlToLiters(heldMl),
+    availableLiters: mlToLiters(availableMl),
+    capacityLiters: mlToLiters(capacityMl),
     avgCostCentsPerGallon: onHandMl > 0 ? Math.round((valueCents / (onHandMl / 1000)) * LITERS_PER_US_GALLON) : null,
-    tanks: Number(t.tanks),
+    tanks: tanks.length,
   };
 }
 
@@ -265,7 +280,7 @@ export async function getOverview(actor: Actor): Promise<Overview> {
           recentEvents: cards.events.map((e) => ({ at: new Date(e.at).toISOString(), who: e.who, action: e.action })),
         }
       : null;
-  const tank = tankSummaryOf(cards.tank);
+  const tank = tankSummaryOf(cards.tanks);
   return {
     role: actor.role,
     tank,

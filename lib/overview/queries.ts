@@ -107,16 +107,8 @@ type VerdictColumns = Pick<InferAttributes<Batch>, 'qualityStandard' | 'labResul
 
 /** The overview's cards in one row: my figures always, each role section only when asked for (else null). */
 export interface CardsRow {
-  /** Totals over the active tanks (litres and cents as NUMERIC/BIGINT text). */
-  tank: {
-    tanks: number;
-    onHand: string;
-    reserved: string;
-    held: string;
-    available: string;
-    capacity: string;
-    value: string;
-  };
+  /** The active tanks (litres and cents as NUMERIC/BIGINT text; reserved net of lapsed reservations). */
+  tanks: { onHand: string; reserved: string; held: string; capacity: string; value: string }[];
   /** The policy in force (lib/tank/pricing-policy policyInForce's row), NUMERIC columns as text. */
   policy: (PolicyRow & { id: number }) | null;
   reservations: { id: number; tankName: string; quantityLiters: string; windowEnd: string }[];
@@ -154,19 +146,17 @@ export async function overviewCards(p: {
   admin: boolean;
 }): Promise<CardsRow> {
   const { working, stock, ...rest } = p;
-  // The tank totals follow lib/tank's findTankRows (reserved net of open reservations whose window
-  // has ended, available per tank never below zero) and the policy lib/tank/pricing-policy's
+  // The tank rows follow lib/tank's findTankRows (reserved net of open reservations whose window
+  // has ended; what is available is then lib/tank's tankAvailableMl per tank) and the policy lib/tank/pricing-policy's
   // policyInForce (the newest row already in effect); tests/api/overview.test.ts checks both.
   // Each was a round trip of its own; as sub-selects they cost PostgreSQL a little planning.
   const [row] = await sequelize.query<CardsRow>(
     `SELECT
-       (SELECT json_build_object('tanks', COUNT(*), 'onHand', COALESCE(SUM(on_hand_liters), 0)::text,
-               'reserved', COALESCE(SUM(reserved), 0)::text, 'held', COALESCE(SUM(held_liters), 0)::text,
-               'available', COALESCE(SUM(GREATEST(on_hand_liters - reserved - held_liters, 0)), 0)::text,
-               'capacity', COALESCE(SUM(capacity_liters), 0)::text, 'value', COALESCE(SUM(value_cents), 0)::text)
+       (SELECT COALESCE(json_agg(json_build_object('onHand', on_hand_liters::text, 'reserved', reserved::text,
+               'held', held_liters::text, 'capacity', capacity_liters::text, 'value', value_cents::text)), '[]')
           FROM (SELECT t.on_hand_liters, t.held_liters, t.capacity_liters, t.value_cents,
                        t.reserved_liters - ${lapsedLitersSql('t')} AS reserved
-                FROM tanks t WHERE t.coop_id = $coopId AND t.active) x) AS tank,
+                FROM tanks t WHERE t.coop_id = $coopId AND t.active) x) AS tanks,
        (SELECT row_to_json(x) FROM (
           SELECT id, kind, price_cents_per_gallon::text, margin_cents_per_gallon::text, margin_pct::text,
                  surcharge_cents_per_gallon::text, road_tax_cents_per_gallon::text FROM price_policies

@@ -20,7 +20,7 @@ import type { tankCreateSchema, tankUpdateSchema } from '@/lib/validation/tank';
 import { Coop, Tank } from '@/models';
 import { refreshHeld } from './lineage';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
-import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3, mlToUnitsFloor } from './volume';
+import { formatMl, milliUnitsToMl, mlToUnits, mlToUnits3, mlToUnitsFloor, tankAvailableMl } from './volume';
 
 // Tanks: the list and one tank as read, creating and changing a tank, and the row lock every
 // write path takes. Dips, transfers and the ledger list are in ./dips, ./transfers, ./movements.
@@ -117,7 +117,7 @@ function tankDto(r: TankListRow, units: UnitSystem): TankDto {
   const reservedMl = litersToMl(r.reservedLiters) - litersToMl(r.lapsedLiters);
   const capacityMl = litersToMl(r.capacityLiters);
   const heldMl = litersToMl(r.heldLiters);
-  const availableMl = Math.max(0, onHandMl - reservedMl - heldMl);
+  const availableMl = tankAvailableMl(onHandMl, reservedMl, heldMl);
   const valueCents = Number(r.valueCents);
   const perGallon = onHandMl > 0 ? (valueCents / onHandMl) * 1000 * LITERS_PER_US_GALLON : null;
   const perUnit = onHandMl > 0 ? valueCents / mlToUnits(onHandMl, units) : null;

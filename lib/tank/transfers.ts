@@ -9,7 +9,7 @@ import type { transferCreateSchema } from '@/lib/validation/tank';
 import { getTank, lockTank, type TankDto } from './index';
 import { recordMovement } from './ledger';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
-import { formatMl, milliUnitsToMl, mlToUnitsFloor, roundingCrumbMl } from './volume';
+import { formatMl, milliUnitsToMl, mlToUnitsFloor, roundingCrumbMl, tankAvailableMl } from './volume';
 
 /**
  * Moves fuel between two tanks of the co-op: two ledger rows in one transaction; the value
@@ -36,12 +36,16 @@ export async function transferFuel(
     if (!to) fields.toTankId = ['No such tank in this co-op.'];
     if (!from || !to) throw invalidFields(fields);
     if (!from.active || !to.active) throw conflict(`${!from.active ? from.name : to.name} is out of service.`);
-    const availableMl = litersToMl(from.onHandLiters) - litersToMl(from.reservedLiters) - litersToMl(from.heldLiters);
+    const availableMl = tankAvailableMl(
+      litersToMl(from.onHandLiters),
+      litersToMl(from.reservedLiters),
+      litersToMl(from.heldLiters),
+    );
     if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;
     if (qMl > availableMl) {
       throw new HttpError(
         409,
-        `${from.name} has only ${formatMl(Math.max(0, availableMl), units, { floor: true })} available to move (reserved fuel and fuel held for a batch review stay put).`,
+        `${from.name} has only ${formatMl(availableMl, units, { floor: true })} available to move (reserved fuel and fuel held for a batch review stay put).`,
         { quantity: ['More than is available.'] },
         {
           availableLiters: availableMl / 1000,

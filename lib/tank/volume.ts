@@ -91,3 +91,12 @@ export function formatMl(
 export function unitWord(units: UnitSystem): string {
   return units === 'us' ? 'gallons' : 'litres';
 }
+
+/**
+ * A tank's fuel free to reserve, draw or move, in whole millilitres: on hand − reserved − held
+ * (fuel of a batch under review), never below zero. `reservedMl` is net of lapsed reservations
+ * where the caller reads them (lib/tank findTankRows, the overview).
+ */
+export function tankAvailableMl(onHandMl: number, reservedMl: number, heldMl: number): number {
+  return Math.max(0, onHandMl - reservedMl - heldMl);
+}

@@ -236,10 +236,18 @@ describe('batch lineage and recall', () => {
       .send({ membershipId: member2.membershipId, tankId: tankA, quantity: '1', declaredUse: 'road' })
       .expect(409);
     expect(refused.body.error).toMatch(/under review/);
+    // Tank A's reservation sits on held fuel: on hand − reserved − held is below zero, and what is
+    // available is said as zero, never a negative amount.
+    expect(refused.body).toMatchObject({ availableLiters: 0 });
     await ctx.agents.brewer
       .post(`${P}/tanks/transfers`)
       .send({ fromTankId: tankB, toTankId: tankA, quantity: '1' })
       .expect(409);
+    const unmoved = await ctx.agents.brewer
+      .post(`${P}/tanks/transfers`)
+      .send({ fromTankId: tankA, toTankId: tankB, quantity: '1' })
+      .expect(409);
+    expect(unmoved.body).toMatchObject({ availableLiters: 0, available: 0 });
     expect(await countRows('reservations', 'coop_id = $1', [ctx.coop.id])).toBe(1);
     const held = await waitForMail(
       bystander.email,

@@ -12,7 +12,7 @@ import { parseInstant } from '@/lib/tank/reservations/window';
 import { lockTank } from '@/lib/tank';
 import { recordMovement } from '@/lib/tank/ledger';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
-import { formatMl, milliUnitsToMl, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
+import { formatMl, milliUnitsToMl, mlToUnitsFloor, roundingCrumbMl, tankAvailableMl } from '@/lib/tank/volume';
 import { drawQuantityMilli, type drawCreateSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Reservation, Tank } from '@/models';
 import { getDraw, type DrawDto } from './index';
@@ -120,7 +120,7 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
       );
     }
     // Fuel held while a batch in the tank is under review cannot be drawn.
-    const availableMl = onHandMl - reservedMl - litersToMl(tank.heldLiters);
+    const availableMl = tankAvailableMl(onHandMl, reservedMl, litersToMl(tank.heldLiters));
     // The meter is the truth; a book short by a rounding crumb gives up its last millilitres.
     if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;
     if (qMl > availableMl) {
@@ -130,8 +130,8 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
         `${tank.name} can cover only ${formatMl(availableMl, units, { floor: true, digits: 3 })} ${what} (the rest is reserved by other members${Number(tank.heldLiters) > 0 ? ', held while a batch is under review' : ''} or not in the tank).`,
         { quantity: ['More than is available.'] },
         {
-          availableLiters: Math.max(0, availableMl) / 1000,
-          available: mlToUnitsFloor(Math.max(0, availableMl), units),
+          availableLiters: availableMl / 1000,
+          available: mlToUnitsFloor(availableMl, units),
         },
       );
     }

@@ -7,7 +7,14 @@ import { can, type Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound, invalidFields } from '@/lib/http';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
-import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, roundingCrumbMl } from '@/lib/tank/volume';
+import {
+  formatMl,
+  milliUnitsToMl,
+  mlToUnits3,
+  mlToUnitsFloor,
+  roundingCrumbMl,
+  tankAvailableMl,
+} from '@/lib/tank/volume';
 import type { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Reservation, Tank, User } from '@/models';
 import type { ReservationStatus } from '@/models/Reservation';
@@ -24,12 +31,15 @@ export type ReservationDto = z.infer<typeof reservationSchema>;
 /** The 409 body when a tank cannot cover a request: how much is available, in litres and co-op units. */
 function notEnough(actor: Actor, tankName: string, requestedMl: number, availableMl: number) {
   const units = actor.coop.units;
-  const avail = Math.max(0, availableMl);
   return new HttpError(
     409,
-    `${tankName} has only ${formatMl(avail, units, { floor: true, digits: 3 })} available, less than the ${formatMl(requestedMl, units, { digits: 3 })} you asked for.`,
-    { quantity: [`At most ${formatMl(avail, units, { floor: true, digits: 3 })} is available.`] },
-    { availableLiters: avail / 1000, available: mlToUnitsFloor(avail, units), unit: units === 'us' ? 'gal' : 'L' },
+    `${tankName} has only ${formatMl(availableMl, units, { floor: true, digits: 3 })} available, less than the ${formatMl(requestedMl, units, { digits: 3 })} you asked for.`,
+    { quantity: [`At most ${formatMl(availableMl, units, { floor: true, digits: 3 })} is available.`] },
+    {
+      availableLiters: availableMl / 1000,
+      available: mlToUnitsFloor(availableMl, units),
+      unit: units === 'us' ? 'gal' : 'L',
+    },
   );
 }
 
@@ -92,7 +102,11 @@ export async function createReservation(
             tankId: ['Choose one of the co-op’s tanks that is in service.'],
           });
         // Fuel of a batch under review is held: not available to reserve.
-        const availableMl = litersToMl(cur.onHandLiters) - litersToMl(cur.reservedLiters) - litersToMl(cur.heldLiters);
+        const availableMl = tankAvailableMl(
+          litersToMl(cur.onHandLiters),
+          litersToMl(cur.reservedLiters),
+          litersToMl(cur.heldLiters),
+        );
         if (availableMl <= 0 || qMl - availableMl > roundingCrumbMl(units))
           throw notEnough(actor, cur.name, qMl, availableMl);
         const liters = mlToLiters(Math.min(qMl, availableMl));
