@@ -9,7 +9,7 @@ import type { transferCreateSchema } from '@/lib/validation/tank';
 import { getTank, lockTank, type TankDto } from './index';
 import { recordMovement } from './ledger';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
-import { formatMl, milliUnitsToMl, mlToUnitsFloor, roundingCrumbMl, tankAvailableMl } from './volume';
+import { formatMl, milliUnitsToMl, mlToUnitsFloor, coveredMl, tankAvailableMl } from './volume';
 
 /**
  * Moves fuel between two tanks of the co-op: two ledger rows in one transaction; the value
@@ -41,8 +41,8 @@ export async function transferFuel(
       litersToMl(from.reservedLiters),
       litersToMl(from.heldLiters),
     );
-    if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;
-    if (qMl > availableMl) {
+    const coveredQMl = coveredMl(qMl, availableMl, units);
+    if (coveredQMl === null) {
       throw new HttpError(
         409,
         `${from.name} has only ${formatMl(availableMl, units, { floor: true })} available to move (reserved fuel and fuel held for a batch review stay put).`,
@@ -53,6 +53,7 @@ export async function transferFuel(
         },
       );
     }
+    qMl = coveredQMl;
     const roomMl = litersToMl(to.capacityLiters) - litersToMl(to.onHandLiters);
     if (qMl > roomMl) {
       throw new HttpError(409, `${to.name} has room for only ${formatMl(roomMl, units, { floor: true })}.`, {

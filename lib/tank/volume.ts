@@ -46,6 +46,16 @@ export function roundingCrumbMl(units: UnitSystem): number {
 }
 
 /**
+ * What a request for `requestedMl` gets out of `availableMl`: all of it; or, when it exceeds what
+ * is left by no more than the {@link roundingCrumbMl}, exactly what is left (the meter is the truth;
+ * a book short by a crumb gives up its last millilitres); null when it cannot be covered.
+ */
+export function coveredMl(requestedMl: number, availableMl: number, units: UnitSystem): number | null {
+  if (requestedMl <= availableMl) return requestedMl;
+  return availableMl > 0 && requestedMl - availableMl <= roundingCrumbMl(units) ? availableMl : null;
+}
+
+/**
  * "Available" in the co-op's unit with `digits` decimals: the largest such figure that a member
  * could ask for and get (its millilitres, rounded as {@link milliUnitsToMl} rounds a request,
  * fit in `ml` up to the {@link roundingCrumbMl}). So a member who asks for exactly the figure

@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { milliUnitsToMl, mlToUnits, mlToUnitsFloor, formatMl, roundingCrumbMl } from '@/lib/tank/volume';
+import {
+  coveredMl,
+  formatMl,
+  milliUnitsToMl,
+  mlToUnits,
+  mlToUnitsFloor,
+  roundingCrumbMl,
+  tankAvailableMl,
+} from '@/lib/tank/volume';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
 import { zonedToUtc } from '@/lib/dates';
 import { reservationWindow, parseWindowEdge } from '@/lib/tank/reservations/window';
@@ -33,6 +41,20 @@ describe('co-op units ↔ stored millilitres', () => {
     expect(mlToUnitsFloor(-5, 'metric')).toBe(0);
     expect(roundingCrumbMl('metric')).toBe(0);
     expect(mlToUnitsFloor(40_000, 'metric')).toBe(40);
+  });
+
+  it('a request is covered whole, trimmed by at most a rounding crumb, or refused; available is never below zero', () => {
+    // "100 gal in, 12.5 gal reserved": 378 541 − 47 318 = 331 223 mL, while 87.5 gal asked for is
+    // 331 223.53 → 331 224 mL (NIST Handbook 44's gallon): one millilitre over, so trimmed.
+    const leftMl = milliUnitsToMl(100_000, 'us') - milliUnitsToMl(12_500, 'us');
+    expect(coveredMl(milliUnitsToMl(87_500, 'us'), leftMl, 'us')).toBe(leftMl);
+    expect(coveredMl(50_000, leftMl, 'us')).toBe(50_000);
+    expect(coveredMl(leftMl + 4, leftMl, 'us')).toBeNull(); // beyond the 3 mL crumb
+    expect(coveredMl(40_001, 40_000, 'metric')).toBeNull(); // litres are exact: no crumb
+    expect(coveredMl(2, 0, 'us')).toBeNull(); // nothing left is never "a crumb short"
+    // On hand 313 L, all of it held for a batch under review, 5 L reserved before the hold: 0, not −5.
+    expect(tankAvailableMl(313_000, 5_000, 313_000)).toBe(0);
+    expect(tankAvailableMl(1_000_000, 250_000, 100_000)).toBe(650_000);
   });
 
   it('formats in the co-op unit, with an optional sign', () => {

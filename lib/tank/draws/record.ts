@@ -12,7 +12,7 @@ import { parseInstant } from '@/lib/tank/reservations/window';
 import { lockTank } from '@/lib/tank';
 import { recordMovement } from '@/lib/tank/ledger';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
-import { formatMl, milliUnitsToMl, mlToUnitsFloor, roundingCrumbMl, tankAvailableMl } from '@/lib/tank/volume';
+import { formatMl, milliUnitsToMl, mlToUnitsFloor, coveredMl, tankAvailableMl } from '@/lib/tank/volume';
 import { drawQuantityMilli, type drawCreateSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Reservation, Tank } from '@/models';
 import { getDraw, type DrawDto } from './index';
@@ -121,9 +121,8 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
     }
     // Fuel held while a batch in the tank is under review cannot be drawn.
     const availableMl = tankAvailableMl(onHandMl, reservedMl, litersToMl(tank.heldLiters));
-    // The meter is the truth; a book short by a rounding crumb gives up its last millilitres.
-    if (qMl > availableMl && qMl - availableMl <= roundingCrumbMl(units) && availableMl > 0) qMl = availableMl;
-    if (qMl > availableMl) {
+    const coveredQMl = coveredMl(qMl, availableMl, units);
+    if (coveredQMl === null) {
       const what = reservation ? 'beyond the reservation' : 'for a walk-up draw';
       throw new HttpError(
         409,
@@ -135,6 +134,7 @@ export async function recordDraw(actor: Actor, input: z.infer<typeof drawCreateS
         },
       );
     }
+    qMl = coveredQMl;
 
     const policy = await policyInForce(actor.coop.id, t);
     if (!policy)

@@ -7,14 +7,7 @@ import { can, type Actor } from '@/lib/auth';
 import { inTransaction } from '@/lib/db';
 import { conflict, HttpError, notFound, invalidFields } from '@/lib/http';
 import { litersToMl, mlToLiters } from '@/lib/units/quantity';
-import {
-  formatMl,
-  milliUnitsToMl,
-  mlToUnits3,
-  mlToUnitsFloor,
-  roundingCrumbMl,
-  tankAvailableMl,
-} from '@/lib/tank/volume';
+import { formatMl, milliUnitsToMl, mlToUnits3, mlToUnitsFloor, coveredMl, tankAvailableMl } from '@/lib/tank/volume';
 import type { reservationCreateSchema, reservationListSchema } from '@/lib/validation/tank';
 import { Draw, Membership, Reservation, Tank, User } from '@/models';
 import type { ReservationStatus } from '@/models/Reservation';
@@ -107,9 +100,9 @@ export async function createReservation(
           litersToMl(cur.reservedLiters),
           litersToMl(cur.heldLiters),
         );
-        if (availableMl <= 0 || qMl - availableMl > roundingCrumbMl(units))
-          throw notEnough(actor, cur.name, qMl, availableMl);
-        const liters = mlToLiters(Math.min(qMl, availableMl));
+        const coveredQMl = coveredMl(qMl, availableMl, units);
+        if (coveredQMl === null) throw notEnough(actor, cur.name, qMl, availableMl);
+        const liters = mlToLiters(coveredQMl);
         const tank = await addReservedLiters(coopId, input.tankId, liters, transaction);
         if (!tank) throw notEnough(actor, cur.name, qMl, availableMl);
         const r = await Reservation.create(
