@@ -6,7 +6,7 @@ import { Button } from '@/components/ui/button';
 const noSubscription = () => () => {};
 
 /** True once the page's script runs; false in the server's HTML and while the page comes alive. */
-export function useHydrated() {
+function useHydrated() {
   return useSyncExternalStore(
     noSubscription,
     () => true,

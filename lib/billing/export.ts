@@ -5,7 +5,7 @@ import { cents } from './cents';
 import { csvRows, type CsvValue } from '@/lib/csv';
 import { isoDay } from '@/lib/dates';
 import { centsToDecimal } from './csv';
-import { OPEN_STATUSES, OUTSTANDING_SQL } from './status';
+import { OPEN_STATUSES, outstandingSql } from './status';
 import { invoiceLabel, periodToDate } from './periods';
 import { INVOICE_STATUS_LABEL, METHOD_LABEL } from './status';
 import type { InvoiceKind } from './types';
@@ -195,7 +195,7 @@ export async function buildCsv(coopId: number, kind: ExportKind, period: string,
     sumsByMember(
       Invoice.findAll({
         ...byMember,
-        attributes: ['membershipId', [fn('SUM', literal(OUTSTANDING_SQL)), 's']],
+        attributes: ['membershipId', [fn('SUM', literal(outstandingSql())), 's']],
         where: { ...billed, status: OPEN_STATUSES },
       }),
     ),

@@ -12,7 +12,7 @@ import {
 import { notFound, invalidFields } from '@/lib/http';
 import { Coop, Invoice, InvoiceLine, MemberCredit, Membership, Payment, PaymentAttempt, User } from '@/models';
 import { cents } from './cents';
-import { OPEN_STATUSES, OUTSTANDING_SQL } from './status';
+import { OPEN_STATUSES, openStatusSql, outstandingSql } from './status';
 import { isPeriodClosed } from './locks';
 import { todayIn } from '@/lib/dates';
 import { numericOrNull } from '@/lib/units/quantity';
@@ -92,9 +92,7 @@ const SORTS = {
   total: () => 'totalCents',
   outstanding: () => {
     const i = invoiceAlias();
-    return literal(
-      `CASE WHEN ${i}.status IN ('issued','partly-paid') THEN GREATEST(${i}.total_cents - ${i}.paid_cents, 0) ELSE 0 END`,
-    );
+    return literal(`CASE WHEN ${openStatusSql(i)} THEN ${outstandingSql(i)} ELSE 0 END`);
   },
   status: () => 'status',
   period: () => 'period',
@@ -233,7 +231,7 @@ export async function getInvoiceDetail(
 export async function memberBalance(coopId: number, membershipId: number, t?: Transaction): Promise<MemberBalance> {
   const outstanding = async () => {
     const row = (await Invoice.findOne({
-      attributes: [[fn('COALESCE', fn('SUM', literal(OUTSTANDING_SQL)), 0), 'outstanding']],
+      attributes: [[fn('COALESCE', fn('SUM', literal(outstandingSql())), 0), 'outstanding']],
       where: { coopId, membershipId, kind: 'invoice', status: OPEN_STATUSES },
       raw: true,
       transaction: t,

@@ -4,7 +4,7 @@ import { col, fn, literal } from 'sequelize';
 import type { periodOverviewSchema } from '@/lib/api/dto/billing';
 import { BillingPeriod, BillingRun, Invoice } from '@/models';
 import { cents } from './cents';
-import { OPEN_STATUSES, OUTSTANDING_SQL } from './status';
+import { OPEN_STATUSES, outstandingSql } from './status';
 import { periodToDate } from './periods';
 import { latestRun } from './run';
 import type { EmailStatus, InvoiceStatus } from './types';
@@ -37,7 +37,7 @@ export async function getPeriodOverview(coopId: number, period: string): Promise
         [fn('count', col('id')), 'n'],
         [fn('SUM', col('total_cents')), 'total'],
         [fn('SUM', col('paid_cents')), 'paid'],
-        [fn('SUM', literal(OUTSTANDING_SQL)), 'outstanding'],
+        [fn('SUM', literal(outstandingSql())), 'outstanding'],
       ],
       where: { coopId, period: periodDate },
       group: ['kind', 'status', 'emailStatus'],
@@ -91,7 +91,7 @@ export async function listPeriods(
         'kind',
         'status',
         [fn('count', col('id')), 'n'],
-        [fn('SUM', literal(OUTSTANDING_SQL)), 'outstanding'],
+        [fn('SUM', literal(outstandingSql())), 'outstanding'],
       ],
       where: { coopId },
       group: ['period', 'kind', 'status'],

@@ -3,7 +3,7 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '@/lib/db';
 import type { Draw, Payment } from '@/models';
 import { cents } from './cents';
-import { OUTSTANDING_SQL } from './status';
+import { openStatusSql, outstandingSql } from './status';
 
 // Billing's bound statements (the named exception to "models first"): the co-op's billing lock
 // and month instants, and the period totals and id taking used by payments and reconciliation.
@@ -94,8 +94,8 @@ export async function periodInvoiceTotals(
        SUM(GREATEST(total_cents, 0)) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')) AS "invoicedPositiveCents",
        SUM(total_cents) FILTER (WHERE kind = 'credit-note') AS "creditNotesCents",
        SUM(paid_cents) FILTER (WHERE kind = 'invoice' AND status NOT IN ('draft','void')) AS "paidCents",
-       SUM(${OUTSTANDING_SQL}) FILTER (WHERE kind = 'invoice' AND status IN ('issued','partly-paid')) AS "outstandingCents",
-       count(*) FILTER (WHERE kind = 'invoice' AND status IN ('issued','partly-paid')) AS "unpaid"
+       SUM(${outstandingSql()}) FILTER (WHERE kind = 'invoice' AND ${openStatusSql()}) AS "outstandingCents",
+       count(*) FILTER (WHERE kind = 'invoice' AND ${openStatusSql()}) AS "unpaid"
      FROM invoices WHERE coop_id = $1 AND period = $2::date`,
     { bind: [coopId, periodDate], type: QueryTypes.SELECT, transaction: t },
   );

@@ -2,8 +2,15 @@ import type { InvoiceStatus } from '@/models/Invoice';
 
 /** Invoices that still owe money. */
 export const OPEN_STATUSES: InvoiceStatus[] = ['issued', 'partly-paid'];
-/** An invoice's unpaid amount (never below zero), for SQL aggregates over `invoices`. */
-export const OUTSTANDING_SQL = 'GREATEST(total_cents - paid_cents, 0)';
+
+// SQL over `invoices`, its columns qualified by `alias` where the statement names the table.
+const column = (name: string, alias?: string) => (alias ? `${alias}.${name}` : name);
+/** SQL: the invoice still owes money (its status is one of OPEN_STATUSES). */
+export const openStatusSql = (alias?: string) =>
+  `${column('status', alias)} IN (${OPEN_STATUSES.map((s) => `'${s}'`).join(',')})`;
+/** SQL: the invoice's unpaid amount, never below zero. */
+export const outstandingSql = (alias?: string) =>
+  `GREATEST(${column('total_cents', alias)} - ${column('paid_cents', alias)}, 0)`;
 
 /** Words for statuses, shared by pages, PDFs and CSVs (pure). */
 export const INVOICE_STATUS_LABEL: Record<string, string> = {

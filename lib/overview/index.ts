@@ -251,7 +251,6 @@ export async function getOverview(actor: Actor): Promise<Overview> {
     overviewCards({
       coopId: c,
       membershipId: actor.membershipId,
-      openStatuses: OPEN_STATUSES,
       working: WORKING,
       stock: stockPictureParams(c, { totals: true }),
       period: periodToDate(period),

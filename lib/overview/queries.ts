@@ -6,7 +6,7 @@ import { STOCK_PICTURE_COLUMNS, type StockPictureParams, type StockPictureRow } 
 import type { Batch, Invoice, Membership, TankMovement, User } from '@/models';
 import type { PolicyRow } from '@/lib/tank/pricing-policy/convert';
 import { lapsedLitersSql } from '@/lib/tank/reservations/queries';
-import { OUTSTANDING_SQL } from '@/lib/billing/status';
+import { openStatusSql, outstandingSql } from '@/lib/billing/status';
 
 // The overview's statements a model query can't say: chart series over a calendar made with
 // generate_series (months or days with no rows still appear, as zero), the tank level carried
@@ -90,9 +90,9 @@ export interface OwingRow {
 export function topOwing(coopId: number): Promise<OwingRow[]> {
   return sequelize.query<OwingRow>(
     `WITH owing AS (
-       SELECT membership_id, SUM(${OUTSTANDING_SQL}) AS outstanding FROM invoices
-       WHERE coop_id = $coopId AND kind = 'invoice' AND status IN ('issued','partly-paid')
-       GROUP BY membership_id HAVING SUM(${OUTSTANDING_SQL}) > 0
+       SELECT membership_id, SUM(${outstandingSql()}) AS outstanding FROM invoices
+       WHERE coop_id = $coopId AND kind = 'invoice' AND ${openStatusSql()}
+       GROUP BY membership_id HAVING SUM(${outstandingSql()}) > 0
      ), totals AS (SELECT COUNT(*) AS members, COALESCE(SUM(outstanding), 0) AS total FROM owing)
      SELECT o.membership_id AS "membershipId", u.name, o.outstanding, totals.members, totals.total
      FROM totals LEFT JOIN LATERAL (SELECT * FROM owing ORDER BY outstanding DESC, membership_id LIMIT 10) o ON true
@@ -137,7 +137,6 @@ export interface CardsRow {
 export async function overviewCards(p: {
   coopId: number;
   membershipId: number;
-  openStatuses: string[];
   working: readonly string[];
   stock: StockPictureParams;
   period: string;
@@ -166,8 +165,8 @@ export async function overviewCards(p: {
           FROM reservations r JOIN tanks t ON t.id = r.tank_id AND t.coop_id = $coopId
           WHERE r.coop_id = $coopId AND r.membership_id = $membershipId AND r.status = 'open' AND r.window_end >= now()
           ORDER BY r.window_end LIMIT 10) x) AS reservations,
-       (SELECT COALESCE(SUM(${OUTSTANDING_SQL}), 0) FROM invoices
-          WHERE coop_id = $coopId AND membership_id = $membershipId AND kind = 'invoice' AND status = ANY($openStatuses)) AS "outstandingCents",
+       (SELECT COALESCE(SUM(${outstandingSql()}), 0) FROM invoices
+          WHERE coop_id = $coopId AND membership_id = $membershipId AND kind = 'invoice' AND ${openStatusSql()}) AS "outstandingCents",
        (SELECT COALESCE(SUM(amount_cents), 0) FROM member_credits WHERE coop_id = $coopId AND membership_id = $membershipId) AS "creditCents",
        (SELECT COALESCE(SUM(unallocated_cents), 0) FROM payments WHERE coop_id = $coopId AND membership_id = $membershipId) AS "unallocatedCents",
        CASE WHEN $brewer THEN (SELECT COALESCE(json_agg(x ORDER BY x.number), '[]') FROM (
@@ -181,7 +180,7 @@ export async function overviewCards(p: {
        CASE WHEN $brewer THEN (SELECT row_to_json(s) FROM (SELECT ${STOCK_PICTURE_COLUMNS}) s) END AS stock,
        CASE WHEN $treasurer THEN (SELECT COALESCE(json_agg(x), '[]') FROM (
           SELECT kind, status, COUNT(*) AS count, SUM(total_cents) AS total, SUM(paid_cents) AS paid,
-                 SUM(${OUTSTANDING_SQL}) AS owed
+                 SUM(${outstandingSql()}) AS owed
           FROM invoices WHERE coop_id = $coopId AND period = $period::date GROUP BY kind, status) x) END AS "invoiceSums",
        CASE WHEN $treasurer THEN (SELECT json_build_object('count', COUNT(*), 'cents', COALESCE(SUM(unallocated_cents), 0))
           FROM payments WHERE coop_id = $coopId AND unallocated_cents > 0) END AS unmatched,
