@@ -60,7 +60,11 @@ describe('forms before the page comes alive', () => {
       await page.getByLabel('Password').fill('tallyvat-demo-2026');
       const submit = page.getByRole('button', { name: 'Sign in' });
       await expect(submit.isDisabled()).resolves.toBe(true);
-      // Not greyed out meanwhile: it keeps the colour it has once live (no flash on every load).
+      // Not greyed out meanwhile: it keeps the colour it has once live (no flash on every load),
+      // read once the page's stylesheets (not held back) have arrived.
+      await page.waitForFunction(() =>
+        [...document.querySelectorAll<HTMLLinkElement>('link[rel="stylesheet"]')].every((l) => l.sheet),
+      );
       const colour = () => submit.evaluate((el) => getComputedStyle(el).backgroundColor);
       const waitingColour = await colour();
       await page.getByLabel('Password').press('Enter');
